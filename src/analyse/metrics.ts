@@ -1,0 +1,45 @@
+/**
+ * The registry of metrics waferbook computes: key, what it is, its unit in
+ * results.json and targets, and the factor from the SI value the analysis
+ * works in. Targets may name only keys listed here; later analyses add theirs.
+ */
+export interface MetricSpec {
+  key: string;
+  label: string;
+  /** Unit string as written in results.json and accepted (after conversion) in targets.yaml. */
+  unit: string;
+  /** Multiply an SI value by this to get the value in `unit`. */
+  fromSI: number;
+  /** Which section of a wafer page shows it. */
+  section: "transport" | "structure" | "images" | "uniformity";
+  description: string;
+  /** Number of significant digits shown on pages. */
+  digits: number;
+}
+
+const m = (key: string, label: string, unit: string, fromSI: number, section: MetricSpec["section"], description: string, digits = 3): MetricSpec => ({ key, label, unit, fromSI, section, description, digits });
+
+export const METRICS: MetricSpec[] = [
+  m("peak_mobility", "Peak Hall mobility", "cm^2/(V s)", 1e4, "transport", "largest Hall mobility over the gate voltages measured"),
+  m("density_at_peak_mobility", "Density at peak mobility", "cm^-2", 1e-4, "transport", "Hall sheet density at the gate voltage of peak mobility"),
+  m("gate_density_slope", "dn/dVg", "cm^-2/V", 1e-4, "transport", "slope of Hall density against gate voltage (linear fit)"),
+  m("turn_on_voltage", "Turn-on voltage", "V", 1, "transport", "gate voltage where the fitted density extrapolates to zero"),
+];
+
+export const METRIC_BY_KEY: ReadonlyMap<string, MetricSpec> = new Map(METRICS.map((s) => [s.key, s]));
+
+export function registerMetrics(specs: MetricSpec[]): void {
+  for (const s of specs) {
+    if (METRIC_BY_KEY.has(s.key)) continue;
+    METRICS.push(s);
+    (METRIC_BY_KEY as Map<string, MetricSpec>).set(s.key, s);
+  }
+}
+
+/** Converts an SI value to the metric's unit; undefined stays undefined, non-finite becomes undefined. */
+export function toMetricUnit(key: string, si: number | undefined): number | undefined {
+  const spec = METRIC_BY_KEY.get(key);
+  if (!spec) throw new Error(`unknown metric ${key}`);
+  if (si === undefined || !Number.isFinite(si)) return undefined;
+  return si * spec.fromSI;
+}

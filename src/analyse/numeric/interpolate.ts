@@ -1,0 +1,25 @@
+/**
+ * Piecewise-linear interpolation on an ascending grid (common practice).
+ * Outside the grid the end values are NOT extrapolated: the result is NaN,
+ * so callers must stay inside [x0, xN]. Example: interpolateLinear([0,1],[0,2],0.5) → 1.
+ */
+export function interpolateLinear(x: ArrayLike<number>, y: ArrayLike<number>, at: number): number {
+  const n = x.length;
+  if (n === 0 || at < x[0] || at > x[n - 1]) return NaN;
+  let lo = 0;
+  let hi = n - 1;
+  while (hi - lo > 1) {
+    const mid = (lo + hi) >> 1;
+    if (x[mid] <= at) lo = mid;
+    else hi = mid;
+  }
+  if (x[hi] === x[lo]) return y[lo];
+  const t = (at - x[lo]) / (x[hi] - x[lo]);
+  return y[lo] + t * (y[hi] - y[lo]);
+}
+
+/** Sorts paired arrays by x ascending (copies). */
+export function sortByX(x: ArrayLike<number>, y: ArrayLike<number>): { x: Float64Array; y: Float64Array } {
+  const idx = Array.from({ length: x.length }, (_, i) => i).sort((a, b) => x[a] - x[b]);
+  return { x: Float64Array.from(idx, (i) => x[i]), y: Float64Array.from(idx, (i) => y[i]) };
+}

@@ -1,0 +1,69 @@
+/**
+ * Analyses one wafer: every device's sweeps → transport points → device
+ * summary → device metrics (in metric units). Pure: takes validated sweeps and
+ * settings, returns figures and the reasons for anything skipped.
+ */
+import type { AnalysisSettings } from "../validate/settings.ts";
+import type { Sweep } from "../validate/sweep.ts";
+import type { DeviceSpec } from "../validate/wafer.ts";
+import { toMetricUnit } from "./metrics.ts";
+import { analyseFieldSweep, type TransportPoint } from "./transport/fieldSweep.ts";
+import { sortByGate, summariseDevice, type DeviceSummary } from "./transport/deviceSummary.ts";
+
+export interface DeviceInput {
+  spec: DeviceSpec;
+  sweeps: Sweep[];
+}
+
+export interface SkippedFile {
+  file: string;
+  reason: string;
+}
+
+export interface DeviceAnalysis {
+  id: string;
+  geometry: DeviceSpec["geometry"];
+  at_mm?: [number, number];
+  points: TransportPoint[];
+  gateSweeps: Sweep[];
+  skipped: SkippedFile[];
+  summary?: DeviceSummary;
+  /** Metric key → value in the metric's unit. */
+  metrics: Record<string, number>;
+}
+
+export interface WaferAnalysis {
+  devices: DeviceAnalysis[];
+}
+
+export function analyseDevice(input: DeviceInput, settings: AnalysisSettings): DeviceAnalysis {
+  const points: TransportPoint[] = [];
+  const skipped: SkippedFile[] = [];
+  const gateSweeps: Sweep[] = [];
+  for (const sweep of input.sweeps) {
+    if (sweep.kind === "gate") {
+      gateSweeps.push(sweep);
+      continue;
+    }
+    const r = analyseFieldSweep(sweep, input.spec, settings);
+    if (r.ok) points.push(r.point);
+    else skipped.push({ file: r.file, reason: r.reason });
+  }
+  const summary = summariseDevice(points);
+  const metrics: Record<string, number> = {};
+  const put = (key: string, si: number | undefined) => {
+    const v = toMetricUnit(key, si);
+    if (v !== undefined) metrics[key] = v;
+  };
+  if (summary) {
+    put("peak_mobility", summary.peakMobility);
+    put("density_at_peak_mobility", summary.densityAtPeakMobility);
+    put("gate_density_slope", summary.gateFit?.slope);
+    put("turn_on_voltage", summary.gateFit?.turnOn);
+  }
+  return { id: input.spec.id, geometry: input.spec.geometry, at_mm: input.spec.at_mm, points: sortByGate(points), gateSweeps, skipped, summary, metrics };
+}
+
+export function analyseWafer(devices: DeviceInput[], settings: AnalysisSettings): WaferAnalysis {
+  return { devices: devices.map((d) => analyseDevice(d, settings)) };
+}

@@ -1,0 +1,137 @@
+/**
+ * Judges a wafer's metrics against the targets of its grade.
+ *
+ * Metric verdicts: pass; marginal (passes, but within the guard band of a
+ * limit); fail; waived (not passing, but a recorded waiver covers it);
+ * incomplete (a required metric has no value); untested (no target, or no value
+ * for an optional target). The wafer verdict is the worst present, in the
+ * order error > fail > incomplete > marginal > waived > pass; a wafer with only
+ * untested metrics is untested. Every non-pass verdict carries its reasons in
+ * plain words. Verdicts support, and never replace, the lab's own QA sign-off.
+ */
+import { METRIC_BY_KEY, type MetricSpec } from "../analyse/metrics.ts";
+import type { Aggregate, Target, Targets } from "../validate/targets.ts";
+import type { Waiver } from "../validate/wafer.ts";
+import { formatValue } from "../publish/format.ts";
+
+export type Verdict = "pass" | "marginal" | "fail" | "waived" | "incomplete" | "untested" | "error";
+
+/** Severity rank: higher is worse. */
+export const VERDICT_RANK: Record<Verdict, number> = { untested: 0, pass: 1, waived: 2, marginal: 3, incomplete: 4, fail: 5, error: 6 };
+
+export function worst(verdicts: Verdict[]): Verdict {
+  return verdicts.reduce<Verdict>((w, v) => (VERDICT_RANK[v] > VERDICT_RANK[w] ? v : w), "untested");
+}
+
+export interface MetricValues {
+  /** Per-device values in the metric's unit. */
+  perDevice: Record<string, number>;
+  /** A wafer-level value (structure figures measured once per wafer). */
+  wafer?: number;
+}
+
+export interface MetricJudgement {
+  key: string;
+  spec: MetricSpec;
+  /** Aggregated value used for the verdict. */
+  value?: number;
+  perDevice: Record<string, number>;
+  spread?: { min: number; max: number; n: number };
+  target?: Target;
+  verdict: Verdict;
+  reason?: string;
+  waiver?: Waiver;
+}
+
+export interface WaferJudgement {
+  grade: string;
+  verdict: Verdict;
+  reasons: string[];
+  metrics: MetricJudgement[];
+}
+
+function aggregate(values: number[], how: Aggregate): number | undefined {
+  if (values.length === 0) return undefined;
+  if (how === "min" || how === "every-device") return undefined;
+  if (how === "max") return Math.max(...values);
+  return values.reduce((a, b) => a + b, 0) / values.length;
+}
+
+/** Judges one value against one target. */
+export function judgeValue(value: number, t: Target): { verdict: "pass" | "marginal" | "fail"; reason?: string } {
+  const spec = METRIC_BY_KEY.get(t.metric)!;
+  const fmt = (v: number) => formatValue(v, spec);
+  if (t.min !== undefined && value < t.min) return { verdict: "fail", reason: `${spec.label} ${fmt(value)} is below the minimum ${fmt(t.min)}` };
+  if (t.max !== undefined && value > t.max) return { verdict: "fail", reason: `${spec.label} ${fmt(value)} is above the maximum ${fmt(t.max)}` };
+  if (t.guard) {
+    if (t.min !== undefined && value < t.min + t.guard) return { verdict: "marginal", reason: `${spec.label} ${fmt(value)} passes but lies within the guard band (${t.guardText}) above the minimum ${fmt(t.min)}` };
+    if (t.max !== undefined && value > t.max - t.guard) return { verdict: "marginal", reason: `${spec.label} ${fmt(value)} passes but lies within the guard band (${t.guardText}) below the maximum ${fmt(t.max)}` };
+  }
+  return { verdict: "pass" };
+}
+
+function judgeMetric(key: string, values: MetricValues | undefined, t: Target | undefined, waiver: Waiver | undefined): MetricJudgement {
+  const spec = METRIC_BY_KEY.get(key)!;
+  const per = values?.perDevice ?? {};
+  const devVals = Object.values(per);
+  const spread = devVals.length ? { min: Math.min(...devVals), max: Math.max(...devVals), n: devVals.length } : undefined;
+  let value = values?.wafer;
+  if (value === undefined && devVals.length) {
+    const how = t?.aggregate ?? "mean";
+    value = how === "min" ? Math.min(...devVals) : how === "every-device" ? aggregate(devVals, "mean") : aggregate(devVals, how);
+  }
+  const j: MetricJudgement = { key, spec, value, perDevice: per, spread, target: t, verdict: "untested" };
+  if (!t) {
+    j.reason = value === undefined ? "no value and no target" : "no target for this grade";
+    return finishWaiver(j, waiver);
+  }
+  if (value === undefined) {
+    j.verdict = t.required ? "incomplete" : "untested";
+    j.reason = t.required ? `${spec.label} is required but was not measured or could not be computed` : `${spec.label} was not measured`;
+    return finishWaiver(j, waiver);
+  }
+  if (t.aggregate === "every-device" && devVals.length) {
+    const results = Object.entries(per).map(([id, v]) => ({ id, ...judgeValue(v, t) }));
+    const w = worst(results.map((r) => r.verdict));
+    j.verdict = w;
+    const bad = results.filter((r) => r.verdict === w && w !== "pass");
+    if (bad.length) j.reason = bad.map((r) => `device ${r.id}: ${r.reason}`).join("; ");
+  } else {
+    const r = judgeValue(value, t);
+    j.verdict = r.verdict;
+    if (r.reason) j.reason = (t.aggregate !== "mean" && devVals.length > 1 ? `${t.aggregate} over ${devVals.length} devices: ` : "") + r.reason;
+  }
+  return finishWaiver(j, waiver);
+}
+
+function finishWaiver(j: MetricJudgement, waiver: Waiver | undefined): MetricJudgement {
+  if (!waiver) return j;
+  j.waiver = waiver;
+  if (j.verdict === "fail" || j.verdict === "marginal" || j.verdict === "incomplete") {
+    j.reason = `waived by ${waiver.approved_by} on ${waiver.date}: ${waiver.reason} (was ${j.verdict}: ${j.reason})`;
+    j.verdict = "waived";
+  }
+  return j;
+}
+
+export function judgeWafer(
+  values: Record<string, MetricValues>,
+  grade: string,
+  targets: Targets,
+  waivers: Waiver[],
+  hasErrors: boolean,
+  errorReasons: string[] = [],
+): WaferJudgement {
+  const limits = targets.grades[grade] ?? {};
+  const keys = new Set([...Object.keys(values), ...Object.keys(limits)]);
+  const ordered = [...METRIC_BY_KEY.keys()].filter((k) => keys.has(k));
+  const metrics = ordered.map((k) => judgeMetric(k, values[k], limits[k], waivers.find((w) => w.metric === k)));
+  const judged = metrics.filter((m) => m.target);
+  let verdict = worst(judged.map((m) => m.verdict));
+  const reasons = judged.filter((m) => m.verdict !== "pass" && m.verdict !== "untested" && m.reason).map((m) => m.reason!);
+  if (hasErrors) {
+    verdict = "error";
+    reasons.unshift(...errorReasons);
+  }
+  return { grade, verdict, reasons, metrics };
+}

@@ -1,0 +1,33 @@
+/**
+ * Number and unit formatting for pages. Templates never compute: every number
+ * shown was formatted here, with its unit.
+ */
+import type { MetricSpec } from "../analyse/metrics.ts";
+
+const SUPERSCRIPT: Record<string, string> = { "-": "⁻", "0": "⁰", "1": "¹", "2": "²", "3": "³", "4": "⁴", "5": "⁵", "6": "⁶", "7": "⁷", "8": "⁸", "9": "⁹" };
+
+/** "cm^2/(V s)" → "cm²/(V s)"; "1" → "". */
+export function prettyUnit(unit: string): string {
+  if (unit === "1") return "";
+  return unit.replace(/\^(-?\d+)/g, (_, e: string) => [...e].map((c) => SUPERSCRIPT[c] ?? c).join("")).replace(/\bu([FVAm])/g, "µ$1");
+}
+
+/** Significant-digit formatting with engineering-friendly exponents: 1.23×10¹¹. */
+export function formatNumber(v: number, digits = 3): string {
+  if (!Number.isFinite(v)) return "—";
+  if (v === 0) return "0";
+  const a = Math.abs(v);
+  if (a >= 1e-3 && a < 1e5) {
+    const s = v.toPrecision(digits);
+    return s.includes("e") ? Number(s).toString() : s;
+  }
+  const [mant, exp] = v.toExponential(digits - 1).split("e");
+  const e = String(Number(exp)).split("").map((c) => SUPERSCRIPT[c] ?? c).join("");
+  return `${mant}×10${e}`;
+}
+
+export function formatValue(v: number | undefined, spec: MetricSpec): string {
+  if (v === undefined) return "—";
+  const u = prettyUnit(spec.unit);
+  return u ? `${formatNumber(v, spec.digits)} ${u}` : formatNumber(v, spec.digits);
+}

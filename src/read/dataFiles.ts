@@ -1,0 +1,161 @@
+/**
+ * Safe, read-only access to the data folder.
+ *
+ * Every raw file is opened read-only (fs.readFile) and checked before parsing:
+ * it must lie inside the data folder after symbolic links are resolved, must be
+ * below a size limit, must not be binary and must be valid UTF-8. A leading
+ * byte-order mark is removed. Nothing here ever writes to the data folder.
+ */
+import { promises as fs } from "node:fs";
+import path from "node:path";
+import picomatch from "picomatch";
+import { InputError } from "../validate/problem.ts";
+
+/** Largest raw text file accepted, in bytes (documented in docs/formats.md). */
+export const MAX_TEXT_FILE_BYTES = 64 * 1024 * 1024;
+/** Largest image file accepted, in bytes. */
+export const MAX_IMAGE_FILE_BYTES = 128 * 1024 * 1024;
+
+export interface DataFile {
+  /** Path relative to the data folder, forward slashes. */
+  rel: string;
+  abs: string;
+  bytes: Buffer;
+}
+
+export function relPath(dataDir: string, abs: string): string {
+  return path.relative(dataDir, abs).split(path.sep).join("/");
+}
+
+/** Resolves symbolic links and refuses anything that ends up outside the data folder. */
+export async function checkInside(dataDir: string, abs: string): Promise<void> {
+  const rel = relPath(dataDir, abs);
+  const realRoot = await fs.realpath(dataDir);
+  let real: string;
+  try {
+    real = await fs.realpath(abs);
+  } catch {
+    throw new InputError({ file: rel, message: "file not found", fix: "check the file name and that it is committed" });
+  }
+  const inside = path.relative(realRoot, real);
+  if (inside.startsWith("..") || path.isAbsolute(inside)) {
+    throw new InputError({
+      file: rel,
+      message: "refused: this path leads outside the data folder",
+      expected: "a file inside the data folder",
+      found: "a symbolic link or path to " + JSON.stringify(real),
+      fix: "copy the file into the wafer folder instead of linking to it",
+    });
+  }
+}
+
+/** Reads a raw file as bytes after the safety checks (inside the data folder, size limit). */
+export async function readDataBytes(dataDir: string, abs: string, maxBytes = MAX_TEXT_FILE_BYTES): Promise<DataFile> {
+  const rel = relPath(dataDir, abs);
+  await checkInside(dataDir, abs);
+  const stat = await fs.stat(abs);
+  if (!stat.isFile()) {
+    throw new InputError({ file: rel, message: "not a regular file", expected: "a file", found: "a folder or device" });
+  }
+  if (stat.size > maxBytes) {
+    throw new InputError({
+      file: rel,
+      message: "file is too large",
+      expected: `at most ${(maxBytes / 1048576).toFixed(0)} MiB`,
+      found: `${(stat.size / 1048576).toFixed(1)} MiB`,
+      fix: "split the measurement into several files or decimate it before committing",
+    });
+  }
+  const bytes = await fs.readFile(abs, { flag: "r" });
+  return { rel, abs, bytes };
+}
+
+const utf8 = new TextDecoder("utf-8", { fatal: true });
+
+/** Decodes bytes as UTF-8 text; refuses binary content and invalid UTF-8 with the line where it happens. */
+export function decodeText(file: DataFile): string {
+  const { bytes, rel } = file;
+  if (bytes.length === 0) {
+    throw new InputError({ file: rel, message: "file is empty", expected: "text content", found: "0 bytes", fix: "commit the measurement data or remove the file" });
+  }
+  const nul = bytes.indexOf(0);
+  if (nul >= 0) {
+    throw new InputError({
+      file: rel,
+      line: lineOfOffset(bytes, nul),
+      message: "file looks binary",
+      expected: "UTF-8 text (CSV or TSV)",
+      found: "a NUL byte",
+      fix: "export the measurement as CSV or TSV text",
+    });
+  }
+  let text: string;
+  try {
+    text = utf8.decode(bytes);
+  } catch {
+    const bad = firstInvalidUtf8(bytes);
+    throw new InputError({
+      file: rel,
+      line: lineOfOffset(bytes, bad),
+      message: "bytes are not valid UTF-8",
+      expected: "UTF-8 text",
+      found: `byte 0x${bytes[bad].toString(16).padStart(2, "0")} at offset ${bad}`,
+      fix: "re-save the file as UTF-8 (for example from a Latin-1 export)",
+    });
+  }
+  return text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+}
+
+function lineOfOffset(bytes: Buffer, offset: number): number {
+  let line = 1;
+  for (let i = 0; i < offset; i++) if (bytes[i] === 10) line++;
+  return line;
+}
+
+function firstInvalidUtf8(bytes: Buffer): number {
+  for (let i = 0; i < bytes.length; ) {
+    const b = bytes[i];
+    const len = b < 0x80 ? 1 : b >> 5 === 6 ? 2 : b >> 4 === 14 ? 3 : b >> 3 === 30 ? 4 : 0;
+    if (len === 0) return i;
+    for (let k = 1; k < len; k++) if (i + k >= bytes.length || bytes[i + k] >> 6 !== 2) return i;
+    i += len;
+  }
+  return 0;
+}
+
+/** Reads a text file from the data folder with all checks. */
+export async function readDataText(dataDir: string, abs: string): Promise<{ rel: string; text: string; bytes: Buffer }> {
+  const file = await readDataBytes(dataDir, abs);
+  return { rel: file.rel, text: decodeText(file), bytes: file.bytes };
+}
+
+/** Lists every file under a folder, recursively, as paths relative to it (sorted). */
+export async function listFiles(dir: string): Promise<string[]> {
+  const out: string[] = [];
+  async function walk(sub: string): Promise<void> {
+    const entries = await fs.readdir(path.join(dir, sub), { withFileTypes: true });
+    for (const e of entries) {
+      const rel = sub ? `${sub}/${e.name}` : e.name;
+      if (e.isDirectory()) await walk(rel);
+      else out.push(rel);
+    }
+  }
+  await walk("");
+  return out.sort();
+}
+
+/**
+ * Expands a glob relative to a wafer folder. Refuses absolute paths and any
+ * pattern that climbs out of the folder (`..`). Returns paths relative to the
+ * wafer folder, sorted.
+ */
+export function matchGlob(pattern: string, files: readonly string[], where: { file: string; field: string }): string[] {
+  if (path.isAbsolute(pattern) || /^[A-Za-z]:[\\/]/.test(pattern)) {
+    throw new InputError({ ...where, message: "file pattern must be relative to the wafer folder", expected: "a pattern such as \"transport/*.csv\"", found: JSON.stringify(pattern), fix: "remove the leading slash or drive" });
+  }
+  if (pattern.split(/[\\/]/).includes("..")) {
+    throw new InputError({ ...where, message: "refused: file pattern leads outside the wafer folder", expected: "a pattern inside the wafer folder", found: JSON.stringify(pattern), fix: "move the files into the wafer folder and drop the \"..\"" });
+  }
+  const isMatch = picomatch(pattern, { dot: false });
+  return files.filter((f) => isMatch(f));
+}

@@ -1,0 +1,95 @@
+/**
+ * Front matter + Markdown body, read with gray-matter and js-yaml 5 (gray-matter's
+ * bundled YAML parser is old, so its engine is replaced). YAML syntax errors
+ * become located problems with line and column in the file.
+ */
+import matter from "gray-matter";
+import * as yaml from "js-yaml";
+import { InputError } from "../validate/problem.ts";
+
+export interface FrontMatterDoc {
+  data: unknown;
+  body: string;
+  /** 1-based line in the file where the front-matter text starts (after `---`). */
+  firstLine: number;
+  /** The raw front-matter text, for locating fields. */
+  matterText: string;
+}
+
+export function readFrontMatter(text: string, file: string): FrontMatterDoc {
+  if (!/^---\r?\n/.test(text)) {
+    throw new InputError({ file, line: 1, message: "no front matter", expected: "the file to start with a line \"---\", the YAML fields, and another \"---\"", found: JSON.stringify(text.split(/\r?\n/)[0].slice(0, 30)), fix: "add the front matter block; see docs/formats.md" });
+  }
+  const closing = /\r?\n---[ \t]*(\r?\n|$)/.exec(text.slice(3));
+  if (!closing) {
+    throw new InputError({ file, line: 1, message: "front matter is not closed", expected: "a second line \"---\" after the YAML fields", found: "the end of the file", fix: "add the closing \"---\" line" });
+  }
+  let parsed: matter.GrayMatterFile<string>;
+  try {
+    parsed = matter(text, { engines: { yaml: (s: string) => yaml.load(s) as object } });
+  } catch (err) {
+    const e = err as { mark?: { line: number; column: number }; reason?: string; message: string };
+    if (e.mark) {
+      throw new InputError({ file, line: e.mark.line + 2, column: e.mark.column + 1, message: `YAML syntax error: ${e.reason ?? "cannot parse"}`, expected: "valid YAML (spaces for indentation, \"key: value\")", found: "text YAML cannot read", fix: /tab/i.test(e.reason ?? "") ? "indent with spaces, not tabs" : "check the indentation and quoting on that line" });
+    }
+    throw new InputError({ file, message: `cannot read front matter: ${e.message}` });
+  }
+  return { data: parsed.data, body: parsed.content, firstLine: 2, matterText: parsed.matter };
+}
+
+/** Reads a plain YAML file (targets.yaml, analysis.yaml) with located syntax errors. */
+export function readYaml(text: string, file: string): unknown {
+  try {
+    return yaml.load(text);
+  } catch (err) {
+    const e = err as { mark?: { line: number; column: number }; reason?: string; message: string };
+    throw new InputError({ file, line: e.mark ? e.mark.line + 1 : undefined, column: e.mark ? e.mark.column + 1 : undefined, message: `YAML syntax error: ${e.reason ?? e.message}`, expected: "valid YAML", found: "text YAML cannot read", fix: "check the indentation and quoting on that line" });
+  }
+}
+
+/**
+ * Finds the line of a field in YAML text by walking the dotted path through
+ * indentation. Approximate but dependable for the simple block style the
+ * records use; returns undefined when it cannot tell.
+ */
+export function lineOfField(matterText: string, fieldPath: string, firstLine: number): number | undefined {
+  const lines = matterText.split(/\r?\n/);
+  // matterText from gray-matter starts with the newline after "---".
+  const offset = lines[0] === "" ? firstLine - 1 : firstLine;
+  const parts = fieldPath.split(/\.|\[(\d+)\]/).filter((p) => p !== undefined && p !== "");
+  let from = 0;
+  let indent = -1;
+  let found: number | undefined;
+  for (const part of parts) {
+    if (/^\d+$/.test(part)) {
+      let count = -1;
+      for (let i = from; i < lines.length; i++) {
+        const m = /^(\s*)-\s/.exec(lines[i]);
+        if (m && m[1].length > indent - 0) {
+          count++;
+          if (count === Number(part)) {
+            from = i;
+            found = i;
+            indent = m[1].length;
+            break;
+          }
+        }
+      }
+      continue;
+    }
+    const re = new RegExp(`^(\\s*)(?:-\\s+)?${part.replace(/[.*+?^${}()|[\]\\]/g, "\\$&")}\\s*:`);
+    let hit = false;
+    for (let i = from; i < lines.length; i++) {
+      const m = re.exec(lines[i]);
+      if (m) {
+        from = i;
+        found = i;
+        indent = m[1].length;
+        hit = true;
+        break;
+      }
+    }
+    if (!hit) break;
+  }
+  return found === undefined ? undefined : found + offset;
+}

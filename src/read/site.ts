@@ -1,0 +1,105 @@
+/**
+ * Loads the site-wide inputs: targets.yaml, analysis.yaml, run notes, and the
+ * list of wafer folders. Wafer folders are loaded one by one elsewhere so a
+ * broken wafer never stops the others.
+ */
+import { promises as fs } from "node:fs";
+import path from "node:path";
+import { InputError, type Problem } from "../validate/problem.ts";
+import { applySettings, DEFAULT_SETTINGS, type AnalysisSettings } from "../validate/settings.ts";
+import { validateTargets, type Targets } from "../validate/targets.ts";
+import { ID_PATTERN } from "../validate/waferSchema.ts";
+import { decodeText, readDataBytes } from "./dataFiles.ts";
+import { lineOfField, readFrontMatter, readYaml } from "./frontMatter.ts";
+import { fileInfo, type RawFileInfo } from "./wafer.ts";
+
+export interface RunNotes {
+  id: string;
+  file: string;
+  meta: Record<string, string>;
+  notes: string;
+}
+
+export interface SiteInputs {
+  targets?: Targets;
+  settings: AnalysisSettings;
+  runs: Map<string, RunNotes>;
+  waferFolders: string[];
+  files: RawFileInfo[];
+  problems: Problem[];
+}
+
+async function exists(p: string): Promise<boolean> {
+  return fs.stat(p).then(() => true, () => false);
+}
+
+export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
+  const out: SiteInputs = { settings: DEFAULT_SETTINGS, runs: new Map(), waferFolders: [], files: [], problems: [] };
+  const catchInto = async (fn: () => Promise<void>) => {
+    try {
+      await fn();
+    } catch (err) {
+      if (err instanceof InputError) out.problems.push(err.problem);
+      else throw err;
+    }
+  };
+  if (!(await exists(dataDir))) {
+    out.problems.push({ severity: "error", file: dataDir, message: "data folder not found", expected: "a folder with wafers/ and targets.yaml", found: "nothing at that path", fix: "pass --data DIR pointing at your data folder" });
+    return out;
+  }
+  await catchInto(async () => {
+    const abs = path.join(dataDir, "targets.yaml");
+    if (!(await exists(abs))) {
+      throw new InputError({ file: "targets.yaml", message: "targets file is missing", expected: "data/targets.yaml with default_grade and grades", found: "no file", fix: "create it; see docs/formats.md, section Targets" });
+    }
+    const f = await readDataBytes(dataDir, abs);
+    out.files.push(fileInfo(f.rel, f.bytes, "targets"));
+    const text = decodeText(f);
+    out.targets = validateTargets(readYaml(text, f.rel), f.rel, text);
+  });
+  await catchInto(async () => {
+    const abs = path.join(dataDir, "analysis.yaml");
+    if (!(await exists(abs))) return;
+    const f = await readDataBytes(dataDir, abs);
+    out.files.push(fileInfo(f.rel, f.bytes, "settings"));
+    const text = decodeText(f);
+    out.settings = applySettings(DEFAULT_SETTINGS, readYaml(text, f.rel) ?? {}, { file: f.rel, field: "", lineOf: (k) => lineOfField("\n" + text, k, 1) });
+  });
+  const runsDir = path.join(dataDir, "runs");
+  if (await exists(runsDir)) {
+    for (const name of (await fs.readdir(runsDir)).sort()) {
+      if (!name.endsWith(".md")) continue;
+      await catchInto(async () => {
+        const id = name.slice(0, -3);
+        const f = await readDataBytes(dataDir, path.join(runsDir, name));
+        if (!new RegExp(ID_PATTERN).test(id)) throw new InputError({ file: f.rel, message: "run file name is not a valid id", expected: "letters, digits, \".\", \"-\", \"_\"", found: JSON.stringify(id), fix: "rename the file" });
+        out.files.push(fileInfo(f.rel, f.bytes, "run"));
+        const doc = readFrontMatter(decodeText(f), f.rel);
+        const meta: Record<string, string> = {};
+        for (const [k, v] of Object.entries((doc.data ?? {}) as Record<string, unknown>)) meta[k] = v instanceof Date ? v.toISOString().slice(0, 10) : String(v);
+        out.runs.set(id, { id, file: f.rel, meta, notes: doc.body });
+      });
+    }
+  }
+  const wafersDir = path.join(dataDir, "wafers");
+  if (!(await exists(wafersDir))) {
+    out.problems.push({ severity: "error", file: "wafers", message: "no wafers folder", expected: "data/wafers/<wafer-id>/wafer.md", found: "nothing", fix: "add a wafer; see docs/formats.md" });
+    return out;
+  }
+  const seen = new Map<string, string>();
+  for (const e of (await fs.readdir(wafersDir, { withFileTypes: true })).sort((a, b) => a.name.localeCompare(b.name))) {
+    if (!e.isDirectory()) continue;
+    if (!new RegExp(ID_PATTERN).test(e.name)) {
+      out.problems.push({ severity: "error", file: `wafers/${e.name}`, message: "wafer folder name is not a valid id", expected: "letters, digits, \".\", \"-\", \"_\" (no \"..\")", found: JSON.stringify(e.name), fix: "rename the folder" });
+      continue;
+    }
+    const lower = e.name.toLowerCase();
+    if (seen.has(lower)) {
+      out.problems.push({ severity: "error", wafer: e.name, file: `wafers/${e.name}/wafer.md`, field: "wafer", message: "duplicate wafer id (ids must differ by more than letter case)", expected: "a unique id", found: `${JSON.stringify(e.name)} and ${JSON.stringify(seen.get(lower))}`, fix: "rename one of the two wafers" });
+      continue;
+    }
+    seen.set(lower, e.name);
+    out.waferFolders.push(e.name);
+  }
+  return out;
+}

@@ -1,0 +1,139 @@
+/**
+ * Reads waferbook's measurement table format (docs/formats.md):
+ *
+ *   # key: value unit        ← metadata lines, before the header
+ *   B [T],Rxx [ohm],Rxy [ohm] ← one header row, units in square brackets
+ *   -1.0,612.3,-6241.5        ← rows, comma or tab separated
+ *
+ * Rows are split by csv-parse (RFC 4180 quoting, CRLF). This module knows
+ * nothing about physics: it returns located cells; src/validate gives them
+ * meaning and units.
+ */
+import { parse } from "csv-parse/sync";
+import { InputError } from "../validate/problem.ts";
+
+export interface MetaEntry {
+  value: string;
+  line: number;
+}
+
+export interface ColumnHeader {
+  name: string;
+  /** Unit text inside the brackets, or "" when none was given. */
+  unit: string;
+  index: number;
+}
+
+export interface RawTable {
+  file: string;
+  meta: Map<string, MetaEntry>;
+  columns: ColumnHeader[];
+  headerLine: number;
+  delimiter: "," | "\t";
+  /** Cell text, row-major. */
+  rows: string[][];
+  /** 1-based file line number of each row. */
+  rowLines: number[];
+}
+
+const HEADER_CELL = /^([A-Za-z_][A-Za-z0-9_.]*)\s*(?:\[([^\]]*)\])?$/;
+
+export function readTable(text: string, file: string): RawTable {
+  const meta = new Map<string, MetaEntry>();
+  let pos = 0;
+  let line = 0;
+  let headerText: string | undefined;
+  while (pos < text.length) {
+    let end = text.indexOf("\n", pos);
+    if (end < 0) end = text.length;
+    const raw = text.slice(pos, end).replace(/\r$/, "");
+    line++;
+    pos = end + 1;
+    const trimmed = raw.trim();
+    if (trimmed === "") continue;
+    if (trimmed.startsWith("#")) {
+      const m = /^#\s*([A-Za-z_][A-Za-z0-9_ ]*?)\s*:\s*(.*)$/.exec(trimmed);
+      if (m) {
+        const key = m[1].toLowerCase();
+        if (meta.has(key)) {
+          throw new InputError({ file, line, message: `metadata "${key}" is given twice`, expected: "each key once", found: `a second "${key}" (first on line ${meta.get(key)!.line})`, fix: "keep one of the two lines" });
+        }
+        meta.set(key, { value: m[2].trim(), line });
+      }
+      continue;
+    }
+    headerText = raw;
+    break;
+  }
+  if (headerText === undefined) {
+    throw new InputError({ file, message: "no header row", expected: "a header such as \"B [T],Rxx [ohm],Rxy [ohm]\" after the # metadata lines", found: "only metadata or blank lines", fix: "add the column header and the data rows" });
+  }
+  const headerLine = line;
+  const delimiter: "," | "\t" = headerText.includes("\t") ? "\t" : ",";
+  const columns = headerText.split(delimiter).map((cell, index) => {
+    const c = cell.trim();
+    const m = HEADER_CELL.exec(c);
+    if (!m) {
+      throw new InputError({ file, line: headerLine, message: `cannot read column header ${JSON.stringify(c)}`, expected: "a name with its unit in brackets, such as \"Rxx [ohm]\"", found: JSON.stringify(c), fix: "write each column as name [unit]" });
+    }
+    return { name: m[1], unit: (m[2] ?? "").trim(), index };
+  });
+  const seen = new Map<string, number>();
+  for (const c of columns) {
+    if (seen.has(c.name)) {
+      throw new InputError({ file, line: headerLine, message: `column "${c.name}" appears twice`, expected: "each column once", found: `columns ${seen.get(c.name)! + 1} and ${c.index + 1}`, fix: "rename or remove one of them" });
+    }
+    seen.set(c.name, c.index);
+  }
+  const body = text.slice(Math.min(pos, text.length));
+  let records: { record: string[]; info: { lines: number } }[];
+  try {
+    records = parse(body, {
+      delimiter,
+      relax_column_count: true,
+      skip_empty_lines: true,
+      comment: "#",
+      trim: true,
+      info: true,
+    }) as unknown as { record: string[]; info: { lines: number } }[];
+  } catch (err) {
+    const e = err as { message: string; lines?: number };
+    throw new InputError({ file, line: e.lines !== undefined ? headerLine + e.lines : undefined, message: "cannot split rows", expected: "comma- or tab-separated values", found: e.message.split("\n")[0], fix: "check quoting and separators" });
+  }
+  const rows: string[][] = [];
+  const rowLines: number[] = [];
+  for (const r of records) {
+    const rowLine = headerLine + r.info.lines;
+    if (r.record.length !== columns.length) {
+      throw new InputError({ file, line: rowLine, message: "row has the wrong number of cells", expected: `${columns.length} cells as in the header`, found: `${r.record.length}`, fix: "fill or remove the incomplete row" });
+    }
+    rows.push(r.record);
+    rowLines.push(rowLine);
+  }
+  if (rows.length === 0) {
+    throw new InputError({ file, line: headerLine, message: "no data rows after the header", expected: "at least one row of numbers", found: "the header only", fix: "add the measured rows or remove the file" });
+  }
+  return { file, meta, columns, headerLine, delimiter, rows, rowLines };
+}
+
+/** Parses a numeric column; non-numeric, NaN and infinite cells are errors naming row and column. */
+export function numericColumn(table: RawTable, col: ColumnHeader, factor = 1, offset = 0): Float64Array {
+  const out = new Float64Array(table.rows.length);
+  for (let i = 0; i < table.rows.length; i++) {
+    const cell = table.rows[i][col.index];
+    const v = cell === "" ? NaN : Number(cell);
+    if (!Number.isFinite(v)) {
+      throw new InputError({
+        file: table.file,
+        line: table.rowLines[i],
+        field: `column ${col.index + 1} (${col.name})`,
+        message: "cell is not a finite number",
+        expected: "a number such as 1.25e-3",
+        found: JSON.stringify(cell),
+        fix: /nan|inf/i.test(cell) ? "remove the row, or leave out points the instrument could not measure" : "correct the cell",
+      });
+    }
+    out[i] = v * factor + offset;
+  }
+  return out;
+}

@@ -1,0 +1,101 @@
+/**
+ * Loads one wafer folder: wafer.md, its device files (globs), each read,
+ * decoded and validated into typed sweeps. Problems stay with the wafer: a
+ * broken file makes this wafer `error` without touching the others.
+ */
+import { createHash } from "node:crypto";
+import path from "node:path";
+import { InputError, type Problem } from "../validate/problem.ts";
+import type { AnalysisSettings } from "../validate/settings.ts";
+import { validateSweep, type Sweep } from "../validate/sweep.ts";
+import { validateWafer, type WaferRecord } from "../validate/wafer.ts";
+import { decodeText, listFiles, matchGlob, readDataBytes, relPath } from "./dataFiles.ts";
+import { readFrontMatter, lineOfField } from "./frontMatter.ts";
+import { readTable } from "./table.ts";
+
+export interface RawFileInfo {
+  /** Path relative to the data folder. */
+  path: string;
+  bytes: number;
+  sha256: string;
+  /** What the file is for: record, sweep, xrd, profile, image. */
+  role: string;
+}
+
+export interface LoadedDevice {
+  id: string;
+  sweeps: Sweep[];
+}
+
+export interface LoadedWafer {
+  folder: string;
+  record?: WaferRecord;
+  devices: LoadedDevice[];
+  files: RawFileInfo[];
+  problems: Problem[];
+}
+
+export interface LoadContext {
+  dataDir: string;
+  today: string;
+  siteSettings: AnalysisSettings;
+}
+
+function toProblem(err: unknown, wafer: string, fallbackFile: string): Problem {
+  if (err instanceof InputError) return { ...err.problem, wafer };
+  throw err;
+}
+
+export function fileInfo(rel: string, bytes: Buffer, role: string): RawFileInfo {
+  return { path: rel, bytes: bytes.length, sha256: createHash("sha256").update(bytes).digest("hex"), role };
+}
+
+export async function loadWafer(folder: string, ctx: LoadContext): Promise<LoadedWafer> {
+  const waferDir = path.join(ctx.dataDir, "wafers", folder);
+  const recordAbs = path.join(waferDir, "wafer.md");
+  const recordRel = relPath(ctx.dataDir, recordAbs);
+  const out: LoadedWafer = { folder, devices: [], files: [], problems: [] };
+  let record: WaferRecord;
+  let matterText = "";
+  try {
+    const f = await readDataBytes(ctx.dataDir, recordAbs);
+    out.files.push(fileInfo(f.rel, f.bytes, "record"));
+    const doc = readFrontMatter(decodeText(f), f.rel);
+    matterText = doc.matterText;
+    record = validateWafer(doc, { folder, file: f.rel, today: ctx.today, siteSettings: ctx.siteSettings });
+    out.record = record;
+  } catch (err) {
+    out.problems.push(toProblem(err, folder, recordRel));
+    return out;
+  }
+  const all = (await listFiles(waferDir)).filter((f) => f !== "wafer.md");
+  for (const [i, spec] of record.devices.entries()) {
+    const field = `devices[${i}].files`;
+    const device: LoadedDevice = { id: spec.id, sweeps: [] };
+    out.devices.push(device);
+    let matched: string[];
+    try {
+      matched = matchGlob(spec.files, all, { file: recordRel, field });
+    } catch (err) {
+      out.problems.push(toProblem(err, folder, recordRel));
+      continue;
+    }
+    if (matched.length === 0) {
+      out.problems.push({ severity: "error", wafer: folder, file: recordRel, line: lineOfField(matterText, field, 2), field, message: "file pattern matches no file", expected: "at least one sweep file", found: JSON.stringify(spec.files), fix: `check the pattern against the files in wafers/${folder}/` });
+      continue;
+    }
+    for (const rel of matched) {
+      try {
+        const f = await readDataBytes(ctx.dataDir, path.join(waferDir, rel));
+        out.files.push(fileInfo(f.rel, f.bytes, "sweep"));
+        const table = readTable(decodeText(f), f.rel);
+        const sweep = validateSweep(table, spec.geometry);
+        for (const w of sweep.warnings) out.problems.push({ ...w, wafer: folder });
+        device.sweeps.push(sweep);
+      } catch (err) {
+        out.problems.push(toProblem(err, folder, rel));
+      }
+    }
+  }
+  return out;
+}

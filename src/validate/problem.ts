@@ -1,0 +1,95 @@
+/**
+ * One error type for everything a user can get wrong: a located problem.
+ *
+ * A problem travels as plain data from the stage that found it to the one
+ * reporter (src/cli/report.ts) and onto the affected wafer's page. It names the
+ * file (relative to the data folder), the line or field, what was expected,
+ * what was found, and how to fix it.
+ */
+export type Severity = "error" | "warning";
+
+export interface Problem {
+  severity: Severity;
+  /** Path relative to the data folder, with forward slashes. */
+  file: string;
+  line?: number;
+  column?: number;
+  /** Dotted field path inside a record, e.g. `devices[0].geometry`. */
+  field?: string;
+  message: string;
+  expected?: string;
+  found?: string;
+  fix?: string;
+  /** Wafer this problem belongs to, when it belongs to one. */
+  wafer?: string;
+}
+
+/** Thrown inside readers and validators; caught at the wafer boundary and turned into data. */
+export class InputError extends Error {
+  readonly problem: Problem;
+  constructor(problem: Omit<Problem, "severity"> & { severity?: Severity }) {
+    super(formatProblem({ severity: "error", ...problem }));
+    this.name = "InputError";
+    this.problem = { severity: "error", ...problem };
+  }
+}
+
+/** `path:line: message (expected …, found …) — fix` */
+export function formatProblem(p: Problem): string {
+  let where = p.file || "(data folder)";
+  if (p.line !== undefined) where += `:${p.line}`;
+  if (p.line !== undefined && p.column !== undefined) where += `:${p.column}`;
+  let text = `${where}: `;
+  if (p.severity === "warning") text += "warning: ";
+  if (p.field) text += `${p.field}: `;
+  text += p.message;
+  const detail: string[] = [];
+  if (p.expected !== undefined) detail.push(`expected ${p.expected}`);
+  if (p.found !== undefined) detail.push(`found ${p.found}`);
+  if (detail.length) text += ` (${detail.join(", ")})`;
+  if (p.fix) text += ` — ${p.fix}`;
+  return text;
+}
+
+/** Shows a found value briefly and safely in a message. */
+export function show(value: unknown): string {
+  if (value === undefined) return "nothing";
+  if (value === null) return "null";
+  if (typeof value === "string") {
+    const s = value.length > 40 ? `${value.slice(0, 37)}…` : value;
+    return JSON.stringify(s);
+  }
+  if (typeof value === "number" || typeof value === "boolean") return String(value);
+  if (Array.isArray(value)) return `a list of ${value.length}`;
+  if (value instanceof Date) return `the date ${value.toISOString().slice(0, 10)}`;
+  return "a mapping";
+}
+
+/** Levenshtein distance, for "did you mean" hints on near-miss keys. */
+export function editDistance(a: string, b: string): number {
+  const m = a.length;
+  const n = b.length;
+  let prev = Array.from({ length: n + 1 }, (_, j) => j);
+  for (let i = 1; i <= m; i++) {
+    const cur = [i];
+    for (let j = 1; j <= n; j++) {
+      cur[j] = Math.min(prev[j] + 1, cur[j - 1] + 1, prev[j - 1] + (a[i - 1] === b[j - 1] ? 0 : 1));
+    }
+    prev = cur;
+  }
+  return prev[n];
+}
+
+/** The closest known name within a small edit distance, or undefined. */
+export function didYouMean(name: string, known: readonly string[]): string | undefined {
+  let best: string | undefined;
+  let bestD = Infinity;
+  for (const k of known) {
+    const d = editDistance(name.toLowerCase(), k.toLowerCase());
+    if (d < bestD) {
+      bestD = d;
+      best = k;
+    }
+  }
+  return bestD <= Math.max(2, Math.floor(name.length / 3)) ? best : undefined;
+}

@@ -1,0 +1,114 @@
+/**
+ * Analysis settings: site-wide `data/analysis.yaml`, overridden per wafer by the
+ * `analysis:` block of wafer.md. Every setting has a documented default
+ * (docs/formats.md); values with dimensions are typed with units and converted
+ * here, once. Inside the analysis everything is SI.
+ */
+import { didYouMean, InputError, show } from "./problem.ts";
+import { parseQuantity } from "./units.ts";
+
+export interface AnalysisSettings {
+  /** Upper end of the low-field range for the Hall fit, T. */
+  hall_max_field: number;
+  /** R² below which a Hall fit is flagged as poor. */
+  hall_min_r2: number;
+  /** Upper end of the percolation fit window, m^-2 (null: derived from the data). */
+  percolation_max_density: number | null;
+  /** Percolation exponent p, or "free" to fit it. */
+  percolation_exponent: number | "free";
+  /** Density window for μ ∝ n^α, m^-2 (null: below the mobility peak). */
+  exponent_density_range: [number, number] | null;
+  /** Shubnikov–de Haas field window, T. */
+  sdh_min_field: number;
+  sdh_max_field: number;
+  /** Spin × valley degeneracy g_s·g_v. */
+  degeneracy: number;
+  /** Effective mass in units of m_e. */
+  effective_mass: number;
+  /** Hall–SdH density mismatch above which parallel conduction is flagged, %. */
+  sdh_mismatch_tolerance: number;
+}
+
+type Spec =
+  | { kind: "quantity"; unit: string; si: number; doc: string; nullable?: boolean }
+  | { kind: "number"; min: number; max: number; doc: string; orFree?: boolean }
+  | { kind: "range"; unit: string; si: number; doc: string };
+
+/** Registry: key → how it is typed, its SI factor, and what it means. */
+export const SETTING_SPECS: Record<keyof AnalysisSettings, Spec> = {
+  hall_max_field: { kind: "quantity", unit: "T", si: 1, doc: "upper end of the low-field range used for the Hall slope" },
+  hall_min_r2: { kind: "number", min: 0, max: 1, doc: "R² below which the Hall fit is flagged as poor" },
+  percolation_max_density: { kind: "quantity", unit: "cm^-2", si: 1e4, doc: "upper end of the percolation fit window", nullable: true },
+  percolation_exponent: { kind: "number", min: 0.5, max: 3, doc: "percolation exponent p, or free", orFree: true },
+  exponent_density_range: { kind: "range", unit: "cm^-2", si: 1e4, doc: "density window of the mobility power-law fit" },
+  sdh_min_field: { kind: "quantity", unit: "T", si: 1, doc: "lower end of the Shubnikov–de Haas window" },
+  sdh_max_field: { kind: "quantity", unit: "T", si: 1, doc: "upper end of the Shubnikov–de Haas window" },
+  degeneracy: { kind: "number", min: 1, max: 12, doc: "spin × valley degeneracy g_s·g_v" },
+  effective_mass: { kind: "number", min: 0.01, max: 2, doc: "effective mass in units of the electron mass" },
+  sdh_mismatch_tolerance: { kind: "quantity", unit: "%", si: 1, doc: "Hall–SdH mismatch above which parallel conduction is flagged" },
+};
+
+export const DEFAULT_SETTINGS: AnalysisSettings = {
+  hall_max_field: 0.2,
+  hall_min_r2: 0.995,
+  percolation_max_density: null,
+  percolation_exponent: 1.31,
+  exponent_density_range: null,
+  sdh_min_field: 0.3,
+  sdh_max_field: 2.0,
+  degeneracy: 4,
+  effective_mass: 0.19,
+  sdh_mismatch_tolerance: 5,
+};
+
+/** Validates a settings mapping (from analysis.yaml or a wafer's `analysis:` block) over a base. */
+export function applySettings(
+  base: AnalysisSettings,
+  raw: unknown,
+  where: { file: string; field: string; lineOf?: (key: string) => number | undefined },
+): AnalysisSettings {
+  if (raw === undefined || raw === null) return base;
+  if (typeof raw !== "object" || Array.isArray(raw)) {
+    throw new InputError({ file: where.file, field: where.field, message: "analysis settings must be a mapping", expected: "key: value pairs", found: show(raw) });
+  }
+  const out: AnalysisSettings = { ...base };
+  const known = Object.keys(SETTING_SPECS);
+  for (const [key, value] of Object.entries(raw as Record<string, unknown>)) {
+    const field = where.field ? `${where.field}.${key}` : key;
+    const line = where.lineOf?.(key);
+    if (!(key in SETTING_SPECS)) {
+      const hint = didYouMean(key, known);
+      throw new InputError({ file: where.file, line, field, message: "unknown analysis setting", expected: `one of ${known.join(", ")}`, found: JSON.stringify(key), fix: hint ? `did you mean "${hint}"?` : "remove it or check docs/formats.md" });
+    }
+    const spec = SETTING_SPECS[key as keyof AnalysisSettings];
+    const fail = (expected: string, found: string): never => {
+      throw new InputError({ file: where.file, line, field, message: `cannot read setting (${spec.doc})`, expected, found, fix: "see docs/formats.md, section Analysis settings" });
+    };
+    (out as unknown as Record<string, unknown>)[key] = readSetting(spec, value, fail);
+  }
+  return out;
+}
+
+function readSetting(spec: Spec, value: unknown, fail: (e: string, f: string) => never): unknown {
+  if (spec.kind === "quantity") {
+    if (value === null && spec.nullable) return null;
+    const q = parseQuantity(value, spec.unit);
+    if (!q.ok) return fail(q.expected, q.found);
+    if (q.value <= 0) return fail("a positive value", show(value));
+    return q.value * spec.si;
+  }
+  if (spec.kind === "number") {
+    if (spec.orFree && value === "free") return "free";
+    if (typeof value !== "number" || !Number.isFinite(value)) return fail(spec.orFree ? "a number or \"free\"" : "a number", show(value));
+    if (value < spec.min || value > spec.max) return fail(`a number between ${spec.min} and ${spec.max}`, String(value));
+    return value;
+  }
+  if (!Array.isArray(value) || value.length !== 2) return fail(`two values with units, such as ["1e10 ${spec.unit}", "1e11 ${spec.unit}"]`, show(value));
+  const pair = value.map((v) => {
+    const q = parseQuantity(v, spec.unit);
+    if (!q.ok) return fail(q.expected, q.found);
+    return q.value * spec.si;
+  }) as [number, number];
+  if (!(pair[0] < pair[1])) return fail("the lower end first", show(value));
+  return pair;
+}

@@ -1,0 +1,165 @@
+/**
+ * Turns a raw table into a typed magnetotransport sweep (SI units), checking
+ * everything the analysis relies on: known columns and units, the columns the
+ * device geometry needs, a monotonic sweep axis without repeats, a non-zero
+ * current, the metadata each kind of sweep must carry.
+ */
+import { numericColumn, type ColumnHeader, type RawTable } from "../read/table.ts";
+import { didYouMean, InputError, type Problem } from "./problem.ts";
+import { acceptedUnits, splitValueUnit, unitFactor, type Dimension } from "./units.ts";
+
+export type Geometry = "hall-bar" | "van-der-pauw";
+
+export interface Sweep {
+  file: string;
+  kind: "field" | "gate";
+  geometry: Geometry;
+  /** Gate voltage of a field sweep, V. */
+  gate_V?: number;
+  /** Field of a gate sweep, T. */
+  field_T?: number;
+  temperature_K?: number;
+  current_A?: number;
+  /** Sweep axis: B in T (field sweep) or Vg in V (gate sweep), as measured (not re-ordered). */
+  x: Float64Array;
+  /** Longitudinal resistance (Hall bar), Ω. */
+  rxx?: Float64Array;
+  /** Hall resistance, Ω. */
+  rxy: Float64Array;
+  /** van der Pauw four-terminal resistances, Ω. */
+  ra?: Float64Array;
+  rb?: Float64Array;
+  direction: "up" | "down";
+  rows: number;
+  warnings: Problem[];
+}
+
+export const SWEEP_COLUMNS: Record<string, { dim: Dimension; meaning: string }> = {
+  B: { dim: "field", meaning: "magnetic field" },
+  Vg: { dim: "voltage", meaning: "gate voltage" },
+  Rxx: { dim: "resistance", meaning: "longitudinal resistance" },
+  Rxy: { dim: "resistance", meaning: "Hall resistance" },
+  Vxx: { dim: "voltage", meaning: "longitudinal voltage" },
+  Vxy: { dim: "voltage", meaning: "Hall voltage" },
+  I: { dim: "current", meaning: "source current" },
+  Ra: { dim: "resistance", meaning: "van der Pauw resistance R_A" },
+  Rb: { dim: "resistance", meaning: "van der Pauw resistance R_B" },
+};
+
+const META: Record<string, Dimension> = { gate: "voltage", field: "field", temperature: "temperature", current: "current" };
+
+function metaValue(t: RawTable, key: string): number | undefined {
+  const entry = t.meta.get(key);
+  if (!entry) return undefined;
+  const dim = META[key];
+  const vu = splitValueUnit(entry.value);
+  const factor = vu ? unitFactor(dim, vu.unit) : undefined;
+  if (!vu || factor === undefined) {
+    throw new InputError({ file: t.file, line: entry.line, field: `# ${key}`, message: `cannot read the ${key} metadata`, expected: `a number and one of ${acceptedUnits(dim)}`, found: JSON.stringify(entry.value), fix: `write for example "# ${key}: ${dim === "voltage" ? "0.35 V" : dim === "field" ? "0 T" : dim === "temperature" ? "1.6 K" : "10 nA"}"` });
+  }
+  return vu.value * factor;
+}
+
+function column(t: RawTable, name: string): ColumnHeader | undefined {
+  return t.columns.find((c) => c.name === name);
+}
+
+function readColumn(t: RawTable, c: ColumnHeader): Float64Array {
+  const spec = SWEEP_COLUMNS[c.name];
+  const factor = unitFactor(spec.dim, c.unit);
+  if (factor === undefined) {
+    throw new InputError({ file: t.file, line: t.headerLine, field: `column ${c.name}`, message: `unit of the ${spec.meaning} is not accepted`, expected: acceptedUnits(spec.dim), found: c.unit === "" ? "no unit" : JSON.stringify(c.unit), fix: `write the header as "${c.name} [${acceptedUnits(spec.dim).split(", ")[0]}]"` });
+  }
+  return numericColumn(t, c, factor);
+}
+
+/** Checks that an axis runs one way without repeats; returns the direction. */
+function checkAxis(t: RawTable, x: Float64Array, name: string): "up" | "down" {
+  if (x.length < 2) return "up";
+  const up = x[1] > x[0];
+  for (let i = 1; i < x.length; i++) {
+    if (x[i] === x[i - 1]) {
+      throw new InputError({ file: t.file, line: t.rowLines[i], field: `column ${name}`, message: `${name} value repeats`, expected: `${name} changing from row to row`, found: `${x[i]} twice in a row`, fix: "average or remove the repeated reading" });
+    }
+    if (x[i] > x[i - 1] !== up) {
+      throw new InputError({ file: t.file, line: t.rowLines[i], field: `column ${name}`, message: `${name} is not sorted`, expected: `${name} ${up ? "increasing" : "decreasing"} throughout, as in the first rows`, found: `${x[i - 1]} then ${x[i]}`, fix: "split up and down sweeps into separate files" });
+    }
+  }
+  return up ? "up" : "down";
+}
+
+export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
+  const warnings: Problem[] = [];
+  for (const c of t.columns) {
+    if (!(c.name in SWEEP_COLUMNS)) {
+      const hint = didYouMean(c.name, Object.keys(SWEEP_COLUMNS));
+      throw new InputError({ file: t.file, line: t.headerLine, field: `column ${c.index + 1}`, message: "unknown column", expected: Object.keys(SWEEP_COLUMNS).join(", "), found: JSON.stringify(c.name), fix: hint ? `did you mean "${hint}"?` : "rename or remove the column" });
+    }
+  }
+  const hasB = column(t, "B");
+  const hasVg = column(t, "Vg");
+  if (hasB && hasVg) {
+    throw new InputError({ file: t.file, line: t.headerLine, message: "both B and Vg columns", expected: "one sweep axis: B (field sweep) or Vg (gate sweep)", found: "both", fix: "keep the swept quantity as a column and give the fixed one as # metadata" });
+  }
+  if (!hasB && !hasVg) {
+    throw new InputError({ file: t.file, line: t.headerLine, message: "no sweep axis", expected: "a B column (field sweep) or a Vg column (gate sweep)", found: t.columns.map((c) => c.name).join(", "), fix: "add the swept quantity as the first column" });
+  }
+  const kind = hasB ? "field" : "gate";
+  const axis = hasB ?? hasVg!;
+  const x = readColumn(t, axis);
+  const direction = checkAxis(t, x, axis.name);
+  const gate_V = metaValue(t, "gate");
+  const field_T = metaValue(t, "field");
+  const temperature_K = metaValue(t, "temperature");
+  let current_A = metaValue(t, "current");
+  if (kind === "field" && gate_V === undefined) {
+    throw new InputError({ file: t.file, field: "# gate", message: "field sweep without its gate voltage", expected: "a line \"# gate: <value> V\" before the header", found: "none", fix: "add the gate voltage the sweep was taken at" });
+  }
+  if (kind === "gate" && field_T === undefined) {
+    throw new InputError({ file: t.file, field: "# field", message: "gate sweep without its field", expected: "a line \"# field: <value> T\" before the header", found: "none", fix: "add the field the sweep was taken at (0 T for zero field)" });
+  }
+  if (kind === "field") {
+    let pos = 0;
+    let neg = 0;
+    for (const b of x) b > 0 ? pos++ : b < 0 ? neg++ : 0;
+    if (pos < 2 && neg < 2) {
+      throw new InputError({ file: t.file, field: "column B", message: "too few field values", expected: "at least two non-zero fields", found: `${x.length} rows`, fix: "check the export" });
+    }
+    if (pos === 0 || neg === 0) {
+      warnings.push({ severity: "warning", file: t.file, field: "column B", message: "field has one sign only, so Rxx and Rxy cannot be (anti)symmetrised and contact misalignment is not removed", expected: "fields of both signs", found: pos === 0 ? "negative fields only" : "positive fields only", fix: "sweep through zero to the opposite field" });
+    }
+  }
+  const I = column(t, "I");
+  let currentCol: Float64Array | undefined;
+  if (I) {
+    currentCol = readColumn(t, I);
+    const zero = currentCol.findIndex((v) => v === 0);
+    if (zero >= 0) {
+      throw new InputError({ file: t.file, line: t.rowLines[zero], field: "column I", message: "current is zero", expected: "a non-zero source current", found: "0", fix: "remove rows taken with the source off" });
+    }
+  }
+  if (current_A === 0) {
+    throw new InputError({ file: t.file, line: t.meta.get("current")?.line, field: "# current", message: "current is zero", expected: "a non-zero source current", found: "0", fix: "give the current the sample was driven with" });
+  }
+  const toResistance = (name: string): Float64Array | undefined => {
+    const c = column(t, name);
+    if (!c) return undefined;
+    const v = readColumn(t, c);
+    if (name.startsWith("R")) return v;
+    if (!currentCol && current_A === undefined) {
+      throw new InputError({ file: t.file, line: t.headerLine, field: `column ${name}`, message: "voltage given without the current", expected: "an I column or a line \"# current: 10 nA\"", found: "neither", fix: "add the source current so voltages can be turned into resistances" });
+    }
+    return v.map((vv, i) => vv / (currentCol ? currentCol[i] : current_A!));
+  };
+  const rxx = toResistance("Rxx") ?? toResistance("Vxx");
+  const rxy = toResistance("Rxy") ?? toResistance("Vxy");
+  const ra = toResistance("Ra");
+  const rb = toResistance("Rb");
+  const need = geometry === "hall-bar" ? "Rxx and Rxy (or Vxx and Vxy with a current)" : "Ra, Rb and Rxy";
+  const ok = geometry === "hall-bar" ? rxx && rxy : ra && rb && rxy;
+  if (!ok) {
+    throw new InputError({ file: t.file, line: t.headerLine, message: `missing a column a ${geometry} needs`, expected: need, found: t.columns.map((c) => c.name).join(", "), fix: "add the missing column, or check the device geometry in wafer.md" });
+  }
+  if (current_A === undefined && currentCol) current_A = currentCol.reduce((a, b) => a + b, 0) / currentCol.length;
+  return { file: t.file, kind, geometry, gate_V, field_T, temperature_K, current_A, x, rxx, rxy: rxy!, ra, rb, direction, rows: x.length, warnings };
+}

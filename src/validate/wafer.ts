@@ -1,0 +1,197 @@
+/**
+ * Turns a wafer.md front matter (unknown) into a typed WaferRecord, once.
+ * Shape is checked with Ajv against WAFER_SCHEMA; each Ajv error becomes a
+ * located problem with a plain-words message and, for near-miss keys, a
+ * "did you mean" hint. Semantic checks (id equals folder, real and past dates,
+ * settings) follow.
+ */
+import { Ajv, type ErrorObject } from "ajv";
+import { lineOfField, type FrontMatterDoc } from "../read/frontMatter.ts";
+import { applySettings, type AnalysisSettings } from "./settings.ts";
+import { didYouMean, InputError, show } from "./problem.ts";
+import { FIELD_HINTS, ID_PATTERN, WAFER_SCHEMA } from "./waferSchema.ts";
+
+export type LayerRole = "substrate" | "buffer" | "barrier" | "well" | "cap" | "other";
+export interface Layer {
+  name: string;
+  role: LayerRole;
+  material?: string;
+  ge?: number;
+  thickness_nm?: number;
+}
+export interface DeviceSpec {
+  id: string;
+  geometry: "hall-bar" | "van-der-pauw";
+  length_um?: number;
+  width_um?: number;
+  at_mm?: [number, number];
+  files: string;
+}
+export interface ImageSpec {
+  file: string;
+  pixel_nm: number;
+  kind: "haadf" | "hrtem";
+  growth_axis: "up" | "down" | "left" | "right";
+  reference?: [number, number, number, number];
+}
+export interface Waiver {
+  metric: string;
+  reason: string;
+  approved_by: string;
+  date: string;
+}
+export interface WaferRecord {
+  wafer: string;
+  run: string;
+  grown: string;
+  grade?: string;
+  reactor?: string;
+  title?: string;
+  stack: Layer[];
+  devices: DeviceSpec[];
+  xrd?: { files: string };
+  profiles?: { files: string };
+  images: ImageSpec[];
+  waivers: Waiver[];
+  /** Settings in force for this wafer: defaults ← analysis.yaml ← the wafer's `analysis:` block. */
+  settings: AnalysisSettings;
+  /** Only the keys this wafer overrides, as typed. */
+  settingOverrides: Record<string, unknown>;
+  notes: string;
+  /** Path of wafer.md relative to the data folder. */
+  file: string;
+}
+
+const ajv = new Ajv({ allErrors: true, strict: false });
+const validateShape = ajv.compile(WAFER_SCHEMA);
+
+/** YAML turns unquoted dates into Date objects; records keep ISO strings. */
+function datesToStrings(v: unknown): unknown {
+  if (v instanceof Date) return Number.isNaN(v.getTime()) ? String(v) : v.toISOString().slice(0, 10);
+  if (Array.isArray(v)) return v.map(datesToStrings);
+  if (v && typeof v === "object") return Object.fromEntries(Object.entries(v).map(([k, x]) => [k, datesToStrings(x)]));
+  return v;
+}
+
+function fieldPath(instancePath: string): string {
+  return instancePath
+    .split("/")
+    .filter(Boolean)
+    .map((p) => (/^\d+$/.test(p) ? `[${p}]` : `.${p}`))
+    .join("")
+    .replace(/^\./, "");
+}
+
+function schemaAt(path: string[]): { properties?: Record<string, unknown> } | undefined {
+  let s: any = WAFER_SCHEMA;
+  for (const p of path) {
+    if (!s) return undefined;
+    s = /^\d+$/.test(p) ? s.items : s.properties?.[p];
+  }
+  return s;
+}
+
+function ajvToInputError(e: ErrorObject, doc: FrontMatterDoc, file: string, data: unknown): InputError {
+  const segs = e.instancePath.split("/").filter(Boolean);
+  const base = fieldPath(e.instancePath);
+  const valueAt = segs.reduce<any>((v, k) => (v == null ? v : v[k]), data);
+  const lineOf = (f: string) => lineOfField(doc.matterText, f, doc.firstLine);
+  const last = segs[segs.length - 1] ?? "";
+  switch (e.keyword) {
+    case "additionalProperties": {
+      const key = (e.params as { additionalProperty: string }).additionalProperty;
+      const known = Object.keys(schemaAt(segs)?.properties ?? {});
+      const hint = didYouMean(key, known);
+      const field = base ? `${base}.${key}` : key;
+      return new InputError({ file, line: lineOf(field), field, message: "unknown key", expected: `one of ${known.join(", ")}`, found: JSON.stringify(key), fix: hint ? `did you mean "${hint}"?` : "remove it, or see docs/formats.md for the keys a record may have" });
+    }
+    case "required": {
+      const key = (e.params as { missingProperty: string }).missingProperty;
+      const field = base ? `${base}.${key}` : key;
+      return new InputError({ file, line: base ? lineOf(base) : undefined, field, message: "required field is missing", expected: FIELD_HINTS[key] ?? `a value for "${key}"`, found: "nothing", fix: `add "${key}: …"` });
+    }
+    case "enum":
+      return new InputError({ file, line: lineOf(base), field: base, message: "value is not one of the allowed choices", expected: (e.params as { allowedValues: unknown[] }).allowedValues.join(" | "), found: show(valueAt), fix: FIELD_HINTS[last] ? `use ${FIELD_HINTS[last]}` : "use one of the listed values" });
+    case "pattern": {
+      const isDate = /grown|date/.test(last);
+      return new InputError({ file, line: lineOf(base), field: base, message: isDate ? "not a date" : "not a valid id", expected: isDate ? "a date written YYYY-MM-DD" : "letters, digits, \".\", \"-\" or \"_\" (up to 64, starting with a letter or digit, no \"..\")", found: show(valueAt), fix: isDate ? "write the date as 2025-03-14" : "rename it using only the allowed characters" });
+    }
+    case "type":
+      return new InputError({ file, line: lineOf(base), field: base, message: "wrong type", expected: `${(e.params as { type: string }).type === "array" ? "a list" : (e.params as { type: string }).type === "object" ? "a mapping" : `a ${(e.params as { type: string }).type}`}`, found: show(valueAt), fix: "see docs/formats.md for this field" });
+    default:
+      return new InputError({ file, line: lineOf(base), field: base, message: `value is out of range (${e.message})`, expected: e.message ?? "a valid value", found: show(valueAt), fix: "see docs/formats.md for this field" });
+  }
+}
+
+function isRealDate(s: string): boolean {
+  const d = new Date(`${s}T00:00:00Z`);
+  return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === s;
+}
+
+export interface WaferContext {
+  /** Folder name the record lives in. */
+  folder: string;
+  /** Path of wafer.md relative to the data folder. */
+  file: string;
+  /** Today's date (YYYY-MM-DD), passed in so tests can pin it. */
+  today: string;
+  siteSettings: AnalysisSettings;
+}
+
+export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferRecord {
+  const data = datesToStrings(doc.data ?? {});
+  const { file } = ctx;
+  const lineOf = (f: string) => lineOfField(doc.matterText, f, doc.firstLine);
+  if (typeof data !== "object" || Array.isArray(data)) {
+    throw new InputError({ file, line: doc.firstLine, message: "front matter must be a mapping of fields", expected: "key: value lines", found: show(data) });
+  }
+  if (!validateShape(data)) {
+    const errors = validateShape.errors ?? [];
+    // Report the most specific error first: unknown keys and missing fields before type noise.
+    const order = ["additionalProperties", "required", "type", "enum", "pattern"];
+    errors.sort((a, b) => (order.indexOf(a.keyword) + 10) % 20 - (order.indexOf(b.keyword) + 10) % 20);
+    throw ajvToInputError(errors[0], doc, file, data);
+  }
+  const r = data as Record<string, any>;
+  if (r.wafer !== ctx.folder) {
+    throw new InputError({ file, line: lineOf("wafer"), field: "wafer", message: "wafer id does not match its folder", expected: JSON.stringify(ctx.folder), found: JSON.stringify(r.wafer), fix: "make the id and the folder name the same (rename one of them)" });
+  }
+  for (const [key, value] of [["grown", r.grown], ...((r.waivers ?? []) as Waiver[]).map((w, i) => [`waivers[${i}].date`, w.date])] as [string, string][]) {
+    if (!isRealDate(value)) {
+      throw new InputError({ file, line: lineOf(key), field: key, message: "not a calendar date", expected: "a real date YYYY-MM-DD", found: JSON.stringify(value), fix: "correct the month or day" });
+    }
+    if (value > ctx.today) {
+      throw new InputError({ file, line: lineOf(key), field: key, message: "date is in the future", expected: `a date on or before ${ctx.today}`, found: value, fix: "correct the year or month" });
+    }
+  }
+  const devices = (r.devices ?? []) as DeviceSpec[];
+  const ids = new Set<string>();
+  devices.forEach((d, i) => {
+    if (ids.has(d.id)) throw new InputError({ file, line: lineOf(`devices[${i}].id`), field: `devices[${i}].id`, message: "device id is used twice", expected: "a unique id per device", found: JSON.stringify(d.id), fix: "rename one of the devices" });
+    ids.add(d.id);
+    if (d.geometry === "hall-bar" && (d.length_um === undefined || d.width_um === undefined)) {
+      throw new InputError({ file, line: lineOf(`devices[${i}]`), field: `devices[${i}]`, message: "a Hall bar needs its dimensions", expected: "length_um (voltage-probe spacing) and width_um (bar width)", found: `length_um ${show(d.length_um)}, width_um ${show(d.width_um)}`, fix: "add both, in micrometres" });
+    }
+  });
+  const settings = applySettings(ctx.siteSettings, r.analysis, { file, field: "analysis", lineOf: (k) => lineOf(`analysis.${k}`) });
+  return {
+    wafer: r.wafer,
+    run: r.run,
+    grown: r.grown,
+    grade: r.grade,
+    reactor: r.reactor,
+    title: r.title,
+    stack: r.stack ?? [],
+    devices,
+    xrd: r.xrd,
+    profiles: r.profiles,
+    images: r.images ?? [],
+    waivers: r.waivers ?? [],
+    settings,
+    settingOverrides: (r.analysis as Record<string, unknown>) ?? {},
+    notes: doc.body,
+    file,
+  };
+}
+
+export const WAFER_ID = new RegExp(ID_PATTERN);

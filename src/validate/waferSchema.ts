@@ -1,0 +1,98 @@
+/**
+ * JSON Schema of a wafer record's front matter (wafer.md), checked with Ajv.
+ * The prose version, with examples, is docs/formats.md; keep the two together.
+ */
+export const ID_PATTERN = "^(?!.*\\.\\.)[A-Za-z0-9][A-Za-z0-9._-]{0,63}$";
+
+const fileSet = {
+  type: "object",
+  additionalProperties: false,
+  required: ["files"],
+  properties: { files: { type: "string", minLength: 1 } },
+};
+
+export const WAFER_SCHEMA = {
+  type: "object",
+  additionalProperties: false,
+  required: ["wafer", "run", "grown"],
+  properties: {
+    wafer: { type: "string", pattern: ID_PATTERN },
+    run: { type: "string", pattern: ID_PATTERN },
+    grown: { type: "string", pattern: "^\\d{4}-\\d{2}-\\d{2}$" },
+    grade: { type: "string", minLength: 1 },
+    reactor: { type: "string", minLength: 1 },
+    title: { type: "string" },
+    stack: {
+      type: "array",
+      items: {
+        type: "object",
+        additionalProperties: false,
+        required: ["name", "role"],
+        properties: {
+          name: { type: "string", minLength: 1 },
+          role: { enum: ["substrate", "buffer", "barrier", "well", "cap", "other"] },
+          material: { type: "string" },
+          ge: { type: "number", minimum: 0, maximum: 1 },
+          thickness_nm: { type: "number", exclusiveMinimum: 0 },
+        },
+      },
+    },
+    devices: {
+      type: "array",
+      items: {
+        type: "object",
+        additionalProperties: false,
+        required: ["id", "geometry", "files"],
+        properties: {
+          id: { type: "string", pattern: ID_PATTERN },
+          geometry: { enum: ["hall-bar", "van-der-pauw"] },
+          length_um: { type: "number", exclusiveMinimum: 0 },
+          width_um: { type: "number", exclusiveMinimum: 0 },
+          at_mm: { type: "array", items: { type: "number" }, minItems: 2, maxItems: 2 },
+          files: { type: "string", minLength: 1 },
+        },
+      },
+    },
+    analysis: { type: "object" },
+    xrd: fileSet,
+    profiles: fileSet,
+    images: {
+      type: "array",
+      items: {
+        type: "object",
+        additionalProperties: false,
+        required: ["file", "pixel_nm", "kind", "growth_axis"],
+        properties: {
+          file: { type: "string", minLength: 1 },
+          pixel_nm: { type: "number", exclusiveMinimum: 0 },
+          kind: { enum: ["haadf", "hrtem"] },
+          growth_axis: { enum: ["up", "down", "left", "right"] },
+          reference: { type: "array", items: { type: "integer", minimum: 0 }, minItems: 4, maxItems: 4 },
+        },
+      },
+    },
+    waivers: {
+      type: "array",
+      items: {
+        type: "object",
+        additionalProperties: false,
+        required: ["metric", "reason", "approved_by", "date"],
+        properties: {
+          metric: { type: "string" },
+          reason: { type: "string", minLength: 1 },
+          approved_by: { type: "string", minLength: 1 },
+          date: { type: "string", pattern: "^\\d{4}-\\d{2}-\\d{2}$" },
+        },
+      },
+    },
+  },
+} as const;
+
+/** Human words for each field, used in messages. */
+export const FIELD_HINTS: Record<string, string> = {
+  wafer: "the wafer id, equal to its folder name",
+  run: "the growth run id",
+  grown: "the growth date as YYYY-MM-DD",
+  geometry: "hall-bar or van-der-pauw",
+  role: "substrate, buffer, barrier, well, cap or other",
+};
