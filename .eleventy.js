@@ -1,0 +1,20 @@
+import "tsx/esm";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
+
+const root = path.dirname(fileURLToPath(import.meta.url));
+
+/** Eleventy configuration: templates/ in, pages out; data arrives as the `wb` global from the build driver. */
+export default function (eleventyConfig) {
+  eleventyConfig.setNunjucksEnvironmentOptions({ autoescape: true, throwOnUndefined: false, trimBlocks: true, lstripBlocks: true });
+  eleventyConfig.addPassthroughCopy({ [path.join(root, "templates", "assets")]: "assets" });
+  eleventyConfig.setQuietMode(true);
+  eleventyConfig.addFilter("json_script", (value) =>
+    JSON.stringify(value).replace(/</g, "\\u003c").replace(/>/g, "\\u003e").replace(/&/g, "\\u0026").replace(/\u2028/g, "\\u2028").replace(/\u2029/g, "\\u2029"),
+  );
+  return {
+    dir: { input: "templates", includes: "_includes", output: "site" },
+    templateFormats: ["njk"],
+    htmlTemplateEngine: "njk",
+  };
+}

@@ -1,0 +1,153 @@
+/**
+ * The build driver: load site inputs, run every wafer through the pipeline,
+ * render with Eleventy into a temporary folder beside the output, add
+ * results.json files, raw-file copies and assets, then swap the folder into
+ * place. A failed build leaves the previous output exactly as it was. A lock
+ * file keeps two builds from writing the same output at once.
+ */
+import { promises as fs, constants as fsc } from "node:fs";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
+import { Eleventy } from "@11ty/eleventy";
+import { processWafer, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
+import { loadSiteInputs } from "../read/site.ts";
+import { buildSiteModel, type SiteMeta } from "../publish/siteModel.ts";
+import { resultsJson } from "../publish/waferPage.ts";
+import type { Problem } from "../validate/problem.ts";
+import type { BuildOptions } from "./args.ts";
+
+export const PACKAGE_ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "../..");
+
+export interface BuildIO {
+  log: (line: string) => void;
+  /** Today's date, YYYY-MM-DD (future-date checks). */
+  today: () => string;
+  /** The build stamp shown in page footers. */
+  now: () => string;
+}
+
+export interface BuildResult {
+  ok: boolean;
+  outcomes: WaferOutcome[];
+  problems: Problem[];
+  outDir: string;
+  pages: number;
+}
+
+export class BuildLockedError extends Error {}
+
+async function acquireLock(outDir: string): Promise<() => Promise<void>> {
+  const lock = `${outDir}.lock`;
+  await fs.mkdir(path.dirname(outDir), { recursive: true });
+  try {
+    const h = await fs.open(lock, fsc.O_CREAT | fsc.O_EXCL | fsc.O_WRONLY);
+    await h.writeFile(`${process.pid}\n`);
+    await h.close();
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code !== "EEXIST") throw err;
+    const pid = Number((await fs.readFile(lock, "utf8").catch(() => "")).trim());
+    let alive = false;
+    try {
+      if (pid > 0) {
+        process.kill(pid, 0);
+        alive = true;
+      }
+    } catch {
+      alive = false;
+    }
+    if (alive) throw new BuildLockedError(`another build (process ${pid}) is writing ${outDir}; wait for it to finish, or delete ${lock} if that process is gone`);
+    await fs.rm(lock, { force: true });
+    return acquireLock(outDir);
+  }
+  return () => fs.rm(lock, { force: true });
+}
+
+export async function readVersion(): Promise<string> {
+  const pkg = JSON.parse(await fs.readFile(path.join(PACKAGE_ROOT, "package.json"), "utf8")) as { version: string };
+  return pkg.version;
+}
+
+export async function build(options: BuildOptions, io: BuildIO): Promise<BuildResult> {
+  const dataDir = path.resolve(options.data);
+  const outDir = path.resolve(options.out);
+  const release = await acquireLock(outDir);
+  const tmpDir = path.join(path.dirname(outDir), `.${path.basename(outDir)}-building-${process.pid}`);
+  try {
+    await fs.rm(tmpDir, { recursive: true, force: true });
+    const version = await readVersion();
+    const site = await loadSiteInputs(dataDir);
+    const sitewideErrors = site.problems.filter((p) => p.severity === "error" && p.file === "targets.yaml");
+    const ctx: PipelineContext = { dataDir, today: io.today(), siteSettings: site.settings, targets: site.targets, siteOverrides: {}, version, sitewideErrors };
+    const outcomes: WaferOutcome[] = [];
+    for (const [i, folder] of site.waferFolders.entries()) {
+      outcomes.push(await processWafer(folder, ctx));
+      if (!options.quiet) io.log(`analysed ${i + 1}/${site.waferFolders.length} ${folder}`);
+    }
+    const problems = [...site.problems, ...outcomes.flatMap((o) => o.problems)];
+    if (site.waferFolders.length === 0 && site.problems.some((p) => p.severity === "error")) {
+      return { ok: false, outcomes, problems, outDir, pages: 0 };
+    }
+    const meta: SiteMeta = { title: "waferbook", version, builtAt: io.now(), basePath: options.basePath };
+    const model = buildSiteModel(outcomes, site.runs, site.problems, meta);
+    const pages = await render(model, tmpDir);
+    await writeExtras(outcomes, dataDir, tmpDir);
+    await swapInto(tmpDir, outDir);
+    return { ok: true, outcomes, problems, outDir, pages };
+  } finally {
+    await fs.rm(tmpDir, { recursive: true, force: true });
+    await release();
+  }
+}
+
+async function render(model: ReturnType<typeof buildSiteModel>, tmpDir: string): Promise<number> {
+  const input = path.join(PACKAGE_ROOT, "templates");
+  const elev = new Eleventy(input, tmpDir, {
+    source: "cli",
+    quietMode: true,
+    configPath: path.join(PACKAGE_ROOT, ".eleventy.js"),
+    config(c: any) {
+      c.addGlobalData("wb", model);
+    },
+  });
+  const result = (await elev.write()) as unknown;
+  const written = Array.isArray(result) ? (result as unknown[]).flat(2).length : 0;
+  return written;
+}
+
+async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string): Promise<void> {
+  for (const o of outcomes) {
+    const dir = path.join(tmpDir, "wafers", o.folder);
+    await fs.mkdir(dir, { recursive: true });
+    await fs.writeFile(path.join(dir, "results.json"), JSON.stringify(resultsJson(o), null, 1) + "\n");
+    for (const f of o.provenance.files) {
+      const parts = f.path.split("/");
+      if (parts[0] !== "wafers" || parts[1] !== o.folder) continue;
+      const dest = path.join(dir, "raw", ...parts.slice(2));
+      await fs.mkdir(path.dirname(dest), { recursive: true });
+      await fs.copyFile(path.join(dataDir, ...parts), dest);
+    }
+  }
+  const chartJs = path.join(PACKAGE_ROOT, "node_modules", "chart.js", "dist", "chart.umd.min.js");
+  await fs.mkdir(path.join(tmpDir, "assets"), { recursive: true });
+  await fs.copyFile(chartJs, path.join(tmpDir, "assets", "chart.umd.min.js"));
+}
+
+/** Replaces outDir by tmpDir with two renames; the old folder is removed only after the new one is in place. */
+async function swapInto(tmpDir: string, outDir: string): Promise<void> {
+  const old = `${tmpDir}-old`;
+  await fs.rm(old, { recursive: true, force: true });
+  let hadOld = false;
+  try {
+    await fs.rename(outDir, old);
+    hadOld = true;
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code !== "ENOENT") throw err;
+  }
+  try {
+    await fs.rename(tmpDir, outDir);
+  } catch (err) {
+    if (hadOld) await fs.rename(old, outDir);
+    throw err;
+  }
+  if (hadOld) await fs.rm(old, { recursive: true, force: true });
+}

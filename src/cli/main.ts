@@ -1,0 +1,59 @@
+/**
+ * Entry point of the `waferbook` command. Sets exit codes: 0 built; 1 input
+ * errors with --strict, or nothing built; 2 bad usage.
+ */
+import path from "node:path";
+import { build, BuildLockedError, readVersion } from "./build.ts";
+import { HELP, parseArgs } from "./args.ts";
+import { reportProblems, summary } from "./report.ts";
+
+export async function main(argv: string[]): Promise<number> {
+  const parsed = parseArgs(argv);
+  const out = (s: string) => process.stdout.write(s + "\n");
+  const err = (s: string) => process.stderr.write(s + "\n");
+  if (parsed.command === "help") {
+    out(HELP);
+    return 0;
+  }
+  if (parsed.command === "version") {
+    out(await readVersion());
+    return 0;
+  }
+  if (parsed.command === "usage-error") {
+    err(`waferbook: ${parsed.message}`);
+    err("Run `waferbook --help` for the options.");
+    return 2;
+  }
+  const quiet = parsed.options.quiet || process.env.CI === "true" || !process.stdout.isTTY;
+  const started = Date.now();
+  try {
+    const result = await build({ ...parsed.options, quiet }, {
+      log: quiet ? () => {} : (s) => process.stdout.write(`\r\x1b[2K${s}`),
+      today: () => new Date().toISOString().slice(0, 10),
+      now: () => new Date().toISOString().replace(/\.\d+Z$/, "Z"),
+    });
+    if (!quiet) process.stdout.write("\r\x1b[2K");
+    reportProblems(result.problems, err);
+    out(summary(result, (Date.now() - started) / 1000));
+    if (!result.ok) {
+      err("waferbook: nothing could be built; the previous site was left as it was.");
+      return 1;
+    }
+    out(`site written to ${path.relative(process.cwd(), result.outDir) || "."}/index.html`);
+    const errors = result.problems.filter((p) => p.severity === "error").length;
+    if (parsed.options.strict && errors > 0) {
+      err(`waferbook: --strict: ${errors} input error${errors === 1 ? "" : "s"} (listed above)`);
+      return 1;
+    }
+    return 0;
+  } catch (e) {
+    if (e instanceof BuildLockedError) {
+      err(`waferbook: ${e.message}`);
+      return 1;
+    }
+    err("waferbook: internal error (please report it with the data that triggered it):");
+    err((e as Error).stack ?? String(e));
+    err("The previous site was left as it was.");
+    return 1;
+  }
+}

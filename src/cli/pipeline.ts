@@ -1,0 +1,100 @@
+/**
+ * The per-wafer pipeline: read → validate → analyse → judge. One wafer at a
+ * time, each independent: a broken wafer yields an `error` outcome with its
+ * problems and never stops the others.
+ */
+import { analyseWafer, type WaferAnalysis } from "../analyse/wafer.ts";
+import { judgeWafer, type MetricValues, type WaferJudgement } from "../judge/verdict.ts";
+import { loadWafer, type LoadContext, type LoadedWafer, type RawFileInfo } from "../read/wafer.ts";
+import { METRIC_BY_KEY } from "../analyse/metrics.ts";
+import { formatProblem, type Problem } from "../validate/problem.ts";
+import type { WaferRecord } from "../validate/wafer.ts";
+import type { Targets } from "../validate/targets.ts";
+import { SETTING_SPECS } from "../validate/settings.ts";
+
+export interface Provenance {
+  files: RawFileInfo[];
+  /** Settings in force, in the units they are documented in, with where each came from. */
+  settings: { key: string; value: string; source: "default" | "site" | "wafer" }[];
+  waferbookVersion: string;
+}
+
+export interface WaferOutcome {
+  folder: string;
+  record?: WaferRecord;
+  analysis?: WaferAnalysis;
+  values: Record<string, MetricValues>;
+  judgement: WaferJudgement;
+  problems: Problem[];
+  provenance: Provenance;
+}
+
+export function metricValues(analysis: WaferAnalysis): Record<string, MetricValues> {
+  const values: Record<string, MetricValues> = {};
+  for (const d of analysis.devices) {
+    for (const [k, v] of Object.entries(d.metrics)) {
+      (values[k] ??= { perDevice: {} }).perDevice[d.id] = v;
+    }
+  }
+  return values;
+}
+
+function settingsProvenance(record: WaferRecord | undefined, siteOverrides: Record<string, unknown>): Provenance["settings"] {
+  if (!record) return [];
+  return Object.keys(SETTING_SPECS).map((key) => {
+    const spec = SETTING_SPECS[key as keyof typeof SETTING_SPECS];
+    const v = record.settings[key as keyof typeof record.settings];
+    let text: string;
+    if (v === null) text = "derived from the data";
+    else if (Array.isArray(v)) text = v.map((x) => `${(x / ("si" in spec ? spec.si : 1)).toPrecision(3)} ${"unit" in spec ? spec.unit : ""}`).join(" … ");
+    else if (typeof v === "number") text = "unit" in spec ? `${Number((v / spec.si).toPrecision(6))} ${spec.unit}` : String(v);
+    else text = String(v);
+    const source = key in record.settingOverrides ? "wafer" : key in siteOverrides ? "site" : "default";
+    return { key, value: text, source };
+  });
+}
+
+export interface PipelineContext extends LoadContext {
+  targets?: Targets;
+  siteOverrides: Record<string, unknown>;
+  version: string;
+  /** Problems outside any wafer that make every wafer's verdict unreliable (e.g. targets.yaml broken). */
+  sitewideErrors: Problem[];
+}
+
+export function judgeOutcome(loaded: LoadedWafer, analysis: WaferAnalysis | undefined, ctx: PipelineContext): WaferOutcome {
+  const problems = [...loaded.problems];
+  const record = loaded.record;
+  const values = analysis ? metricValues(analysis) : {};
+  const grade = record?.grade ?? ctx.targets?.defaultGrade ?? "—";
+  if (record && ctx.targets && !(grade in ctx.targets.grades)) {
+    problems.push({ severity: "error", wafer: loaded.folder, file: record.file, field: "grade", message: "unknown grade", expected: Object.keys(ctx.targets.grades).join(", "), found: JSON.stringify(grade), fix: "use a grade defined in targets.yaml" });
+  }
+  for (const [i, w] of (record?.waivers ?? []).entries()) {
+    if (!METRIC_BY_KEY.has(w.metric)) {
+      problems.push({ severity: "error", wafer: loaded.folder, file: record!.file, field: `waivers[${i}].metric`, message: "waiver names an unknown metric", expected: "a metric key from docs/formats.md", found: JSON.stringify(w.metric), fix: "correct the metric key or remove the waiver" });
+    }
+  }
+  const errors = [...problems.filter((p) => p.severity === "error"), ...ctx.sitewideErrors];
+  const targets = ctx.targets ?? { defaultGrade: grade, grades: {}, file: "targets.yaml" };
+  const judgement = judgeWafer(values, grade, targets, record?.waivers ?? [], errors.length > 0, errors.map((p) => `input error: ${formatProblem(p)}`));
+  return {
+    folder: loaded.folder,
+    record,
+    analysis,
+    values,
+    judgement,
+    problems,
+    provenance: { files: loaded.files, settings: settingsProvenance(record, ctx.siteOverrides), waferbookVersion: ctx.version },
+  };
+}
+
+export async function processWafer(folder: string, ctx: PipelineContext): Promise<WaferOutcome> {
+  const loaded = await loadWafer(folder, ctx);
+  let analysis: WaferAnalysis | undefined;
+  if (loaded.record) {
+    const inputs = loaded.record.devices.map((spec) => ({ spec, sweeps: loaded.devices.find((d) => d.id === spec.id)?.sweeps ?? [] }));
+    analysis = analyseWafer(inputs, loaded.record.settings);
+  }
+  return judgeOutcome(loaded, analysis, ctx);
+}

@@ -1,0 +1,58 @@
+/**
+ * Chart specifications for the browser: plain data the page's own script
+ * (templates/assets/charts.js) hands to Chart.js. Traces are downsampled here
+ * with LTTB so a page stays light however long the raw sweep; the raw files
+ * are linked for full resolution.
+ */
+import { lttb } from "../analyse/numeric/lttb.ts";
+
+export interface ChartSeries {
+  label: string;
+  /** [x, y] pairs. */
+  points: [number, number][];
+  /** Draw as a line (true) or as markers (false). */
+  line: boolean;
+  /** Role picks the colour from the site palette: data, fit, reference, second. */
+  role?: "data" | "fit" | "second" | "third" | "reference";
+}
+
+export interface ChartLimit {
+  axis: "x" | "y";
+  min?: number;
+  max?: number;
+  label: string;
+}
+
+export interface ChartSpec {
+  id: string;
+  title: string;
+  x: { label: string; log?: boolean };
+  y: { label: string; log?: boolean };
+  series: ChartSeries[];
+  /** Target limits drawn as lines, pass region shaded. */
+  limits?: ChartLimit[];
+  /** A short text alternative for screen readers. */
+  summary: string;
+}
+
+/** Points kept per trace on a page. */
+export const TRACE_POINTS = 300;
+
+export function traceSeries(label: string, x: ArrayLike<number>, y: ArrayLike<number>, role: ChartSeries["role"] = "data", max = TRACE_POINTS): ChartSeries {
+  const d = lttb(x, y, max);
+  return { label, points: d.x.map((v, i) => [round(v), round(d.y[i])]), line: true, role };
+}
+
+export function markerSeries(label: string, pts: [number, number][], role: ChartSeries["role"] = "data"): ChartSeries {
+  return { label, points: pts.map(([a, b]) => [round(a), round(b)]), line: false, role };
+}
+
+/** Six significant digits is plenty on screen and keeps the JSON small. */
+export function round(v: number): number {
+  return Number.isFinite(v) ? Number(v.toPrecision(6)) : 0;
+}
+
+/** Serialises JSON for a <script type="application/json"> block: `<` is escaped so "</script>" in a string cannot close the tag. */
+export function jsonForScript(value: unknown): string {
+  return JSON.stringify(value).replace(/</g, "\\u003c").replace(/>/g, "\\u003e").replace(/&/g, "\\u0026").replace(/\u2028/g, "\\u2028").replace(/\u2029/g, "\\u2029");
+}

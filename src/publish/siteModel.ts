@@ -1,0 +1,80 @@
+/**
+ * The whole site as plain data for the templates: index rows, wafer pages,
+ * run pages. Built once per build from the wafer outcomes.
+ */
+import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { RunNotes } from "../read/site.ts";
+import { formatProblem, type Problem } from "../validate/problem.ts";
+import { METRIC_BY_KEY } from "../analyse/metrics.ts";
+import { formatValue } from "./format.ts";
+import { renderNotes } from "./markdown.ts";
+import { waferPageModel } from "./waferPage.ts";
+import type { Verdict } from "../judge/verdict.ts";
+import { VERDICT_RANK } from "../judge/verdict.ts";
+
+/** Metrics shown as columns of the index table. */
+export const INDEX_METRICS = ["peak_mobility", "density_at_peak_mobility", "turn_on_voltage"];
+
+export interface SiteMeta {
+  title: string;
+  lab?: string;
+  version: string;
+  /** The one build-time stamp in the output (see docs/formats.md, Output). */
+  builtAt: string;
+  basePath: string;
+  dataCommit?: string | null;
+}
+
+export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNotes>, siteProblems: Problem[], meta: SiteMeta) {
+  const sorted = [...outcomes].sort((a, b) => (a.record?.grown ?? "").localeCompare(b.record?.grown ?? "") || a.folder.localeCompare(b.folder));
+  const wafers = sorted.map(waferPageModel);
+  // Previous/next within a run, in growth order.
+  const byRun = new Map<string, typeof wafers>();
+  for (const w of wafers) if (w.run) (byRun.get(w.run) ?? byRun.set(w.run, []).get(w.run)!).push(w);
+  const neighbours = new Map<string, { prev?: string; next?: string }>();
+  for (const list of byRun.values()) list.forEach((w, i) => neighbours.set(w.id, { prev: list[i - 1]?.id, next: list[i + 1]?.id }));
+  const index = sorted.map((o) => ({
+    id: o.folder,
+    run: o.record?.run ?? "",
+    grown: o.record?.grown ?? "",
+    grade: o.judgement.grade,
+    reactor: o.record?.reactor ?? runs.get(o.record?.run ?? "")?.meta.reactor ?? "",
+    verdict: o.judgement.verdict,
+    firstReason: o.judgement.reasons[0] ?? "",
+    metrics: INDEX_METRICS.map((k) => {
+      const m = o.judgement.metrics.find((x) => x.key === k);
+      return { key: k, text: m ? formatValue(m.value, m.spec) : "—", sort: m?.value ?? null, verdict: m?.verdict ?? "untested" };
+    }),
+  }));
+  const runIds = [...new Set([...byRun.keys(), ...runs.keys()])].sort();
+  const runPages = runIds.map((id) => {
+    const notes = runs.get(id);
+    const members = index.filter((w) => w.run === id);
+    return {
+      id,
+      meta: Object.entries(notes?.meta ?? {}).map(([k, v]) => ({ key: k, value: v })),
+      notesHtml: renderNotes(notes?.notes ?? ""),
+      wafers: members,
+      verdictCounts: countVerdicts(members.map((m) => m.verdict)),
+    };
+  });
+  const failing = index.filter((w) => w.verdict === "fail" || w.verdict === "error" || w.verdict === "incomplete");
+  return {
+    meta,
+    wafers: wafers.map((w) => ({ ...w, ...neighbours.get(w.id) })),
+    index,
+    runs: runPages,
+    failing,
+    indexMetrics: INDEX_METRICS.map((k) => ({ key: k, label: METRIC_BY_KEY.get(k)!.label })),
+    verdictCounts: countVerdicts(index.map((w) => w.verdict)),
+    siteProblems: siteProblems.map((p) => ({ severity: p.severity, text: formatProblem(p) })),
+  };
+}
+
+export function countVerdicts(vs: Verdict[]): { verdict: Verdict; count: number }[] {
+  const counts = new Map<Verdict, number>();
+  for (const v of vs) counts.set(v, (counts.get(v) ?? 0) + 1);
+  return [...counts.entries()].sort((a, b) => VERDICT_RANK[b[0]] - VERDICT_RANK[a[0]]).map(([verdict, count]) => ({ verdict, count }));
+}
+
+export type SiteModel = ReturnType<typeof buildSiteModel>;

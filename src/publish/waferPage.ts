@@ -1,0 +1,155 @@
+/**
+ * Builds the plain page model and results.json for one wafer. Every number is
+ * rounded and given its unit here; templates only place strings.
+ */
+import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants.ts";
+import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { MetricJudgement, Verdict } from "../judge/verdict.ts";
+import { formatProblem } from "../validate/problem.ts";
+import { formatNumber, formatValue, prettyUnit } from "./format.ts";
+import { markerSeries, traceSeries, type ChartSpec } from "./charts.ts";
+import { renderNotes } from "./markdown.ts";
+
+export interface MetricRow {
+  key: string;
+  label: string;
+  value: string;
+  target: string;
+  verdict: Verdict;
+  reason: string;
+  perDevice: string;
+  description: string;
+}
+
+export function metricRow(m: MetricJudgement): MetricRow {
+  const per = Object.entries(m.perDevice);
+  return {
+    key: m.key,
+    label: m.spec.label,
+    value: formatValue(m.value, m.spec),
+    target: m.target ? `${m.target.text}${m.target.aggregate !== "mean" ? ` (${m.target.aggregate})` : ""}${m.target.required ? ", required" : ""}` : "—",
+    verdict: m.verdict,
+    reason: m.reason ?? "",
+    perDevice: per.length > 1 ? per.map(([id, v]) => `${id}: ${formatNumber(v, m.spec.digits)}`).join(" · ") : "",
+    description: m.spec.description,
+  };
+}
+
+function round(v: number | undefined, digits = 6): number | null {
+  return v === undefined || !Number.isFinite(v) ? null : Number(v.toPrecision(digits));
+}
+
+export function resultsJson(o: WaferOutcome): unknown {
+  const metrics: Record<string, unknown> = {};
+  for (const m of o.judgement.metrics) {
+    metrics[m.key] = { value: round(m.value), unit: m.spec.unit, verdict: m.verdict, target: m.target ? { min: round(m.target.min), max: round(m.target.max), text: m.target.text, guard: m.target.guardText ?? null, required: m.target.required, aggregate: m.target.aggregate } : null, reason: m.reason ?? null, waiver: m.waiver ?? null };
+  }
+  return {
+    wafer: o.folder,
+    run: o.record?.run ?? null,
+    grown: o.record?.grown ?? null,
+    grade: o.judgement.grade,
+    verdict: o.judgement.verdict,
+    reasons: o.judgement.reasons,
+    metrics,
+    devices: (o.analysis?.devices ?? []).map((d) => ({
+      id: d.id,
+      geometry: d.geometry,
+      at_mm: d.at_mm ?? null,
+      points: d.points.map((p) => ({
+        file: p.file,
+        gate_V: round(p.gate_V),
+        density_per_cm2: round(p.density * PER_M2_TO_PER_CM2),
+        mobility_cm2_per_Vs: round(p.mobility * M2_PER_VS_TO_CM2_PER_VS),
+        sheet_resistance_ohm_per_sq: round(p.sheetResistance),
+        hall_fit_r2: round(p.hall.r2),
+        hall_fit_poor: p.hall.poor,
+        symmetrised: p.symmetrised,
+      })),
+      skipped: d.skipped,
+      metrics: Object.fromEntries(Object.entries(d.metrics).map(([k, v]) => [k, round(v)])),
+    })),
+    errors: o.problems.filter((p) => p.severity === "error").map(problemJson),
+    warnings: o.problems.filter((p) => p.severity === "warning").map(problemJson),
+    provenance: o.provenance,
+  };
+}
+
+function problemJson(p: WaferOutcome["problems"][number]) {
+  return { file: p.file, line: p.line ?? null, field: p.field ?? null, message: p.message, expected: p.expected ?? null, found: p.found ?? null, fix: p.fix ?? null, text: formatProblem(p) };
+}
+
+export function waferCharts(o: WaferOutcome): ChartSpec[] {
+  const charts: ChartSpec[] = [];
+  const devices = o.analysis?.devices ?? [];
+  const withPoints = devices.filter((d) => d.points.length);
+  if (withPoints.length === 0) return charts;
+  const roles = ["data", "second", "third", "fit"] as const;
+  charts.push({
+    id: "density-vs-gate",
+    title: "Hall density against gate voltage",
+    x: { label: "Gate voltage Vg (V)" },
+    y: { label: "Sheet density n (10¹¹ cm⁻²)" },
+    series: withPoints.map((d, i) => markerSeries(d.id, d.points.map((p) => [p.gate_V, p.density * PER_M2_TO_PER_CM2 / 1e11]), roles[i % roles.length])),
+    summary: withPoints.map((d) => `${d.id}: ${d.points.length} gate voltages, density ${formatNumber(d.points[0].density * 1e-4 / 1e11)}–${formatNumber(d.points[d.points.length - 1].density * 1e-4 / 1e11)} ×10¹¹ cm⁻²`).join("; "),
+  });
+  charts.push({
+    id: "mobility-vs-density",
+    title: "Hall mobility against density",
+    x: { label: "Sheet density n (cm⁻²)", log: true },
+    y: { label: "Hall mobility μ (cm²/V s)", log: true },
+    series: withPoints.map((d, i) => markerSeries(d.id, d.points.map((p) => [p.density * PER_M2_TO_PER_CM2, p.mobility * M2_PER_VS_TO_CM2_PER_VS]), roles[i % roles.length])),
+    summary: withPoints.map((d) => `${d.id}: peak ${formatNumber((d.summary?.peakMobility ?? 0) * 1e4)} cm²/V s`).join("; "),
+  });
+  for (const d of withPoints) {
+    const p = d.points[d.points.length - 1];
+    charts.push({
+      id: `traces-${d.id}`,
+      title: `${d.id}: ρxx and Rxy against field at Vg = ${formatNumber(p.gate_V)} V`,
+      x: { label: "Field |B| (T)" },
+      y: { label: "Resistance (kΩ)" },
+      series: [traceSeries("ρxx (symmetrised, Ω/□ ÷ 1000)", p.trace.b, p.trace.rhoxx.map((v) => v / 1000), "data"), traceSeries("Rxy (antisymmetrised)", p.trace.b, p.trace.rxy.map((v) => Math.abs(v) / 1000), "second")],
+      summary: `Symmetrised traces from ${p.file}, ${p.trace.b.length} field values up to ${formatNumber(p.trace.b[p.trace.b.length - 1])} T`,
+    });
+  }
+  return charts;
+}
+
+export function waferPageModel(o: WaferOutcome) {
+  const r = o.record;
+  return {
+    id: o.folder,
+    run: r?.run,
+    grown: r?.grown,
+    grade: o.judgement.grade,
+    reactor: r?.reactor,
+    title: r?.title,
+    verdict: o.judgement.verdict,
+    reasons: o.judgement.reasons,
+    metrics: o.judgement.metrics.map(metricRow),
+    devices: (o.analysis?.devices ?? []).map((d) => ({
+      id: d.id,
+      geometry: d.geometry,
+      position: d.at_mm ? `(${d.at_mm[0]}, ${d.at_mm[1]}) mm` : "",
+      gateFit: d.summary?.gateFit ? `dn/dVg = ${formatNumber(d.summary.gateFit.slope * 1e-4)} cm⁻²/V, turn-on ${formatNumber(d.summary.gateFit.turnOn)} ± ${formatNumber(d.summary.gateFit.turnOnStdErr, 2)} V (R² ${d.summary.gateFit.r2.toFixed(4)}, ${d.summary.gateFit.points} points)` : d.summary?.gateFitSkipped ?? "",
+      points: d.points.map((p) => ({
+        file: p.file,
+        gate: formatNumber(p.gate_V, 4),
+        density: formatNumber(p.density * PER_M2_TO_PER_CM2, 4),
+        mobility: formatNumber(p.mobility * M2_PER_VS_TO_CM2_PER_VS, 4),
+        rho: formatNumber(p.sheetResistance, 4),
+        r2: p.hall.r2.toFixed(5),
+        poor: p.hall.poor,
+        symmetrised: p.symmetrised,
+      })),
+      skipped: d.skipped,
+    })),
+    stack: (r?.stack ?? []).map((l) => ({ ...l, ge: l.ge === undefined ? "" : formatNumber(l.ge, 3), thickness: l.thickness_nm === undefined ? "" : `${formatNumber(l.thickness_nm, 3)} nm` })),
+    notesHtml: renderNotes(r?.notes ?? ""),
+    problems: o.problems.map((p) => ({ severity: p.severity, text: formatProblem(p) })),
+    files: o.provenance.files.map((f) => ({ ...f, size: f.bytes < 1024 ? `${f.bytes} B` : `${(f.bytes / 1024).toFixed(1)} KiB`, href: `raw/${f.path.split("/").slice(2).join("/")}` })),
+    settings: o.provenance.settings,
+    charts: waferCharts(o),
+    units: { mobility: prettyUnit("cm^2/(V s)"), density: prettyUnit("cm^-2") },
+  };
+}
