@@ -160,3 +160,22 @@ describe("rsmPeaksFromTable", () => {
 function shift(a: { omega: number; twoTheta: number }, d: number) {
   return { omega: a.omega + d, twoTheta: a.twoTheta - d / 2, omegaStdErr: 1e-5, twoThetaStdErr: 1e-5 };
 }
+
+describe("rsmPeaks on scattered points", () => {
+  it("a jittered (non-grid) 224 + 004 pair still gives x within 0.005 and R within 0.02 ([D] from the synthetic truth)", () => {
+    const jitter = (pts: { omega: number; twoTheta: number; counts: number }[], seed: number) => {
+      let s = seed;
+      const u = () => ((s = (s * 1103515245 + 12345) % 2147483648) / 2147483648) - 0.5;
+      return pts.map((p) => ({ ...p, omega: p.omega + degToRad(0.008) * u(), twoTheta: p.twoTheta + degToRad(0.008) * u() }));
+    };
+    // Jitter moves points but keeps the counts of the grid position, a positional error of ≤ 0.004°.
+    const m224 = synthReciprocalSpaceMap({ reflection: [2, 2, 4], geFraction: 0.25, relaxation: 0.9, seed: 21 });
+    const m004 = synthReciprocalSpaceMap({ reflection: [0, 0, 4], geFraction: 0.25, relaxation: 0.9, seed: 22 });
+    const r224 = rsmPeaks(jitter(m224.points, 5), { reflection: [2, 2, 4] });
+    const r004 = rsmPeaks(jitter(m004.points, 6), { reflection: [0, 0, 4] });
+    const r = bufferRelaxation({ asymmetric: reflectionOf(r224, "buffer")!, symmetric: reflectionOf(r004, "buffer") });
+    if (!r.ok) throw new Error(r.reason);
+    expect(Math.abs(r.geFraction - 0.25)).toBeLessThan(0.005);
+    expect(Math.abs(r.relaxation - 0.9)).toBeLessThan(0.02);
+  });
+});
