@@ -1,0 +1,192 @@
+/**
+ * Quantum-well figures from a composition depth profile (SIMS, EDX, atom probe).
+ *
+ * Well location: the Ge fraction, smoothed by a 5-point running mean, is cut at
+ * half-way between its minimum and its 90th percentile; the well is the
+ * low-Ge run bounded by high-Ge runs (barriers) on both sides — so a Si cap at
+ * the surface is not mistaken for the well. With several, the run with the
+ * lowest Ge wins.
+ * Interfaces: each edge is fitted by a logistic step on a sloping background
+ * (fitSigmoidEdge, Levenberg–Marquardt; REFERENCES §10) over a window from the
+ * middle of the well to `window` beyond the crossing (default: the well's run
+ * length, stopped at the middle of the neighbouring barrier). "top" is the
+ * interface nearer the surface. Widths: 10–90 % = 2·ln 9·τ, and 4τ.
+ * Well thickness = bottom centre − top centre (σ from the two centre σ's in
+ * quadrature). Barrier Ge = the fitted barrier-side plateau of each edge,
+ * evaluated at its centre; the mean of both is reported. Minimum Ge in the well =
+ * the smallest 3-point running mean between the centres.
+ * Contaminants: peak value inside the well (between the centres) and near it
+ * (within `nearDistance` of either centre, default 10 nm).
+ * Depth is in nm (any unit works if `window` and `nearDistance` use it too);
+ * Ge is a fraction (convert at.% before calling); contaminants in cm⁻³ as given.
+ */
+import { fitSigmoidEdge, type SigmoidEdge } from "../numeric/sigmoidFit.ts";
+
+export interface DepthProfileInput {
+  /** Depth below the surface, nm. */
+  depth: readonly number[];
+  /** Ge fraction, 1. */
+  ge: readonly number[];
+  /** Optional contaminant columns by element, cm⁻³. */
+  contaminants?: Record<string, readonly number[]>;
+}
+
+export interface DepthProfileOptions {
+  /** Fit window beyond each interface, nm. */
+  window?: number;
+  /** Distance from the well within which contaminant peaks count as "near", nm (default 10). */
+  nearDistance?: number;
+}
+
+export interface InterfaceFit {
+  /** Mid-point depth, nm. */
+  centre: number;
+  centreStdErr: number;
+  /** Logistic τ, nm. */
+  tau: number;
+  width10to90: number;
+  width10to90StdErr: number;
+  width4tau: number;
+  /** Ge fraction on the barrier side, 1. */
+  barrierGe: number;
+  r2: number;
+  points: number;
+}
+
+export interface ContaminantPeak {
+  element: string;
+  /** Largest value between the interface centres, cm⁻³ (undefined when no data there). */
+  insidePeak?: number;
+  insideDepth?: number;
+  /** Largest value within nearDistance of the well, cm⁻³. */
+  nearPeak?: number;
+  nearDepth?: number;
+}
+
+export type DepthProfileResult =
+  | {
+      ok: true;
+      top: InterfaceFit;
+      bottom: InterfaceFit;
+      /** nm */
+      wellThickness: number;
+      wellThicknessStdErr: number;
+      barrierGeFraction: number;
+      wellGeMin: number;
+      nearDistance: number;
+      contaminants: ContaminantPeak[];
+    }
+  | { ok: false; reason: string };
+
+const runningMean = (v: number[], half: number) =>
+  v.map((_, i) => {
+    const s = v.slice(Math.max(0, i - half), i + half + 1);
+    return s.reduce((a, b) => a + b, 0) / s.length;
+  });
+
+/** Well interfaces, thickness, barrier and contaminant levels (see module comment). Never throws for data reasons. */
+export function analyseDepthProfile(input: DepthProfileInput, options: DepthProfileOptions = {}): DepthProfileResult {
+  const n = Math.min(input.depth.length, input.ge.length);
+  if (input.depth.length !== input.ge.length) return { ok: false, reason: "depth and Ge columns differ in length" };
+  const idx = [...Array(n).keys()].filter((i) => Number.isFinite(input.depth[i]) && Number.isFinite(input.ge[i]));
+  if (idx.length < 20) return { ok: false, reason: `only ${idx.length} usable points; a well profile needs at least 20` };
+  idx.sort((a, b) => input.depth[a] - input.depth[b]);
+  const z = idx.map((i) => input.depth[i]);
+  const g = idx.map((i) => input.ge[i]);
+  const sm = runningMean(g, 2);
+  const sorted = sm.slice().sort((a, b) => a - b);
+  const lo = sorted[0];
+  const hi = sorted[Math.floor(0.9 * (sorted.length - 1))];
+  if (!(hi - lo > 0.02)) return { ok: false, reason: "the Ge profile has no contrast between barrier and well" };
+  const half = (lo + hi) / 2;
+  const runs: { start: number; end: number; low: boolean }[] = [];
+  sm.forEach((v, i) => {
+    const low = v < half;
+    const last = runs[runs.length - 1];
+    if (last && last.low === low) last.end = i;
+    else runs.push({ start: i, end: i, low });
+  });
+  const wells = runs.map((r, k) => ({ r, k })).filter(({ r, k }) => r.low && k > 0 && k < runs.length - 1);
+  if (wells.length === 0) return { ok: false, reason: "no low-Ge region bounded by barriers on both sides" };
+  const minOf = (r: { start: number; end: number }) => Math.min(...sm.slice(r.start, r.end + 1));
+  const { r: well, k } = wells.reduce((a, b) => (minOf(b.r) < minOf(a.r) ? b : a));
+  const above = runs[k - 1];
+  const below = runs[k + 1];
+  const zTop = (z[well.start - 1] + z[well.start]) / 2;
+  const zBot = (z[well.end] + z[well.end + 1]) / 2;
+  const mid = (zTop + zBot) / 2;
+  const reach = options.window ?? Math.max(zBot - zTop, 3 * medianStep(z));
+  const topLimit = Math.max(zTop - reach, (z[above.start] + z[above.end]) / 2);
+  const botLimit = Math.min(zBot + reach, (z[below.start] + z[below.end]) / 2);
+  const top = fitEdge(z, g, topLimit, mid, "top");
+  if (typeof top === "string") return { ok: false, reason: top };
+  const bottom = fitEdge(z, g, mid, botLimit, "bottom");
+  if (typeof bottom === "string") return { ok: false, reason: bottom };
+  const wellThickness = bottom.centre - top.centre;
+  if (!(wellThickness > 0)) return { ok: false, reason: "the fitted interfaces cross: the well is thinner than the interface widths allow to resolve" };
+  const inside = z.map((_, i) => i).filter((i) => z[i] >= top.centre && z[i] <= bottom.centre);
+  const sm3 = runningMean(g, 1);
+  const nearDistance = options.nearDistance ?? 10;
+  return {
+    ok: true,
+    top,
+    bottom,
+    wellThickness,
+    wellThicknessStdErr: Math.hypot(top.centreStdErr, bottom.centreStdErr),
+    barrierGeFraction: (top.barrierGe + bottom.barrierGe) / 2,
+    wellGeMin: inside.length ? Math.min(...inside.map((i) => sm3[i])) : minOf(well),
+    nearDistance,
+    contaminants: contaminantPeaks(input, top.centre, bottom.centre, nearDistance),
+  };
+}
+
+function medianStep(z: number[]): number {
+  const d = z.slice(1).map((v, i) => v - z[i]).sort((a, b) => a - b);
+  return d[d.length >> 1] || 1;
+}
+
+function fitEdge(z: number[], g: number[], from: number, to: number, which: "top" | "bottom"): InterfaceFit | string {
+  const sel = z.map((_, i) => i).filter((i) => z[i] >= from && z[i] <= to);
+  if (sel.length < 8) return `the ${which} interface has only ${sel.length} points in its fit window; at least 8 are needed`;
+  const zs = sel.map((i) => z[i]);
+  let fit: SigmoidEdge;
+  try {
+    fit = fitSigmoidEdge(zs, sel.map((i) => g[i]));
+  } catch (e) {
+    return `the ${which} interface fit failed: ${(e as Error).message}`;
+  }
+  const values = [fit.centre, fit.tau, fit.width10to90, fit.centreStdErr, fit.width10to90StdErr];
+  if (!values.every(Number.isFinite)) return `the ${which} interface fit did not converge to finite values`;
+  if (fit.centre < zs[0] || fit.centre > zs[zs.length - 1]) return `the ${which} interface fit put the edge outside its window`;
+  const zMean = zs.reduce((a, b) => a + b, 0) / zs.length;
+  const bg = fit.base + fit.slope * (fit.centre - zMean);
+  // Top edge falls (barrier first, z → −∞ plateau = base); bottom edge rises (barrier plateau = base + step).
+  const barrierGe = which === "top" ? bg : bg + fit.step;
+  return {
+    centre: fit.centre,
+    centreStdErr: fit.centreStdErr,
+    tau: fit.tau,
+    width10to90: fit.width10to90,
+    width10to90StdErr: fit.width10to90StdErr,
+    width4tau: fit.width4tau,
+    barrierGe,
+    r2: fit.r2,
+    points: fit.points,
+  };
+}
+
+function contaminantPeaks(input: DepthProfileInput, zTop: number, zBot: number, near: number): ContaminantPeak[] {
+  return Object.entries(input.contaminants ?? {}).map(([element, values]) => {
+    const inRange = (a: number, b: number) => {
+      let best: { v: number; z: number } | undefined;
+      input.depth.forEach((z, i) => {
+        const v = values[i];
+        if (Number.isFinite(z) && Number.isFinite(v) && z >= a && z <= b && (!best || v > best.v)) best = { v, z };
+      });
+      return best;
+    };
+    const ins = inRange(zTop, zBot);
+    const nr = inRange(zTop - near, zBot + near);
+    return { element, insidePeak: ins?.v, insideDepth: ins?.z, nearPeak: nr?.v, nearDepth: nr?.z };
+  });
+}

@@ -1,0 +1,208 @@
+/**
+ * Peak search in a reciprocal-space map given as points (ω, 2θ, counts), on a
+ * grid or scattered.
+ *
+ * 1. Background = median of all counts; noise = max(1.4826·MAD, √max(bg, 1))
+ *    (robust scale, Hampel 1974; the Poisson floor keeps near-empty maps sane).
+ * 2. Coordinates are normalised by the point spacing (grid step, or range/√N
+ *    for scattered points). Counts are smoothed by the mean over a radius of 1.5
+ *    spacings; a point is a local maximum when its smoothed value exceeds
+ *    bg + threshold·noise and every neighbour within `radius` spacings.
+ * 3. Each maximum is refined in the natural diffractometer coordinates
+ *    (rocking p = ω − 2θ/2, radial t = 2θ): an intensity centroid of
+ *    (counts − bg) in a window (two passes: 6 spacings, then 3 second-moment
+ *    widths), then a 2-D Gaussian A·exp(−(p−p0)²/2σp² − (t−t0)²/2σt²) + B fitted
+ *    by Levenberg–Marquardt (nonlinearFit.ts). Uncertainty: the Gaussian fit's
+ *    Jacobian standard errors; for the centroid, Poisson counting noise
+ *    propagated to the weighted mean, σ²(x̄) = Σ(x_i − x̄)²·var(c_i)/W².
+ *    If the fit fails or lands outside the window, the centroid is kept.
+ * Angles in rad. Pure; throws only for programming errors.
+ */
+import { nonlinearFit } from "../numeric/nonlinearFit.ts";
+
+export interface MapPoint {
+  /** ω, rad. */
+  omega: number;
+  /** 2θ, rad. */
+  twoTheta: number;
+  counts: number;
+}
+
+export interface RawPeak {
+  omega: number;
+  twoTheta: number;
+  omegaStdErr: number;
+  twoThetaStdErr: number;
+  /** Peak height above background, counts. */
+  height: number;
+  method: "gaussian" | "centroid";
+}
+
+export interface PeakSearchOptions {
+  /** Detection threshold in noise units above background (default 6). */
+  threshold?: number;
+  /** Local-maximum radius in point spacings (default 4). */
+  radius?: number;
+  /** Refinement: "gaussian" (default, falls back to centroid) or "centroid". */
+  refine?: "gaussian" | "centroid";
+  /** Keep at most this many maxima, strongest first (default 8). */
+  maxPeaks?: number;
+}
+
+export interface PeakSearch {
+  background: number;
+  noise: number;
+  peaks: RawPeak[];
+}
+
+function median(v: number[]): number {
+  const s = v.slice().sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
+}
+
+function spacing(values: number[]): number {
+  const uniq = [...new Set(values.map((v) => Math.round(v * 1e9)))].sort((a, b) => a - b);
+  const range = (uniq[uniq.length - 1] - uniq[0]) * 1e-9;
+  if (uniq.length > 1 && uniq.length <= 3 * Math.sqrt(values.length)) {
+    const d = uniq.slice(1).map((u, i) => (u - uniq[i]) * 1e-9);
+    return median(d) || range / Math.sqrt(values.length);
+  }
+  return range / Math.sqrt(values.length) || 1;
+}
+
+/** Spatial hash over normalised coordinates for neighbour queries. */
+function neighbourIndex(u: number[], v: number[], cell: number) {
+  const key = (a: number, b: number) => `${a},${b}`;
+  const grid = new Map<string, number[]>();
+  u.forEach((_, i) => {
+    const k = key(Math.floor(u[i] / cell), Math.floor(v[i] / cell));
+    const list = grid.get(k);
+    if (list) list.push(i);
+    else grid.set(k, [i]);
+  });
+  return (i: number, r: number): number[] => {
+    const out: number[] = [];
+    const cu = Math.floor(u[i] / cell);
+    const cv = Math.floor(v[i] / cell);
+    const reach = Math.ceil(r / cell);
+    for (let a = cu - reach; a <= cu + reach; a++) {
+      for (let b = cv - reach; b <= cv + reach; b++) {
+        for (const j of grid.get(key(a, b)) ?? []) {
+          if ((u[j] - u[i]) ** 2 + (v[j] - v[i]) ** 2 <= r * r) out.push(j);
+        }
+      }
+    }
+    return out;
+  };
+}
+
+/** Finds and refines peaks in a map (see module comment). Points with non-finite values are dropped. */
+export function searchMapPeaks(points: readonly MapPoint[], options: PeakSearchOptions = {}): PeakSearch {
+  const pts = points.filter((p) => Number.isFinite(p.omega) && Number.isFinite(p.twoTheta) && Number.isFinite(p.counts));
+  const counts = pts.map((p) => p.counts);
+  const background = median(counts);
+  const mad = median(counts.map((c) => Math.abs(c - background)));
+  const noise = Math.max(1.4826 * mad, Math.sqrt(Math.max(background, 1)));
+  // Rocking/radial coordinates, normalised by spacing.
+  const pRaw = pts.map((p) => p.omega - p.twoTheta / 2);
+  const tRaw = pts.map((p) => p.twoTheta);
+  const sp = spacing(pts.map((p) => p.omega));
+  const st = spacing(tRaw);
+  const u = pRaw.map((x) => x / sp);
+  const v = tRaw.map((x) => x / st);
+  const radius = options.radius ?? 4;
+  const near = neighbourIndex(u, v, radius);
+  const smooth = counts.map((_, i) => {
+    const nb = near(i, 1.5);
+    return nb.reduce((s, j) => s + counts[j], 0) / nb.length;
+  });
+  const level = background + (options.threshold ?? 6) * noise;
+  const maxima: number[] = [];
+  smooth.forEach((s, i) => {
+    if (s <= level) return;
+    const isMax = near(i, radius).every((j) => j === i || smooth[j] < s || (smooth[j] === s && j > i));
+    if (isMax) maxima.push(i);
+  });
+  maxima.sort((a, b) => smooth[b] - smooth[a]);
+  const chosen = maxima.slice(0, options.maxPeaks ?? 8);
+  const peaks = chosen.map((i) => refinePeak(i, { u, v, counts, background, near, sp, st, refine: options.refine ?? "gaussian" }));
+  return { background, noise, peaks };
+}
+
+interface RefineCtx {
+  u: number[];
+  v: number[];
+  counts: number[];
+  background: number;
+  near: (i: number, r: number) => number[];
+  sp: number;
+  st: number;
+  refine: "gaussian" | "centroid";
+}
+
+function centroid(idx: number[], ctx: RefineCtx) {
+  let w = 0, mu = 0, mv = 0;
+  for (const j of idx) {
+    const c = Math.max(0, ctx.counts[j] - ctx.background);
+    w += c; mu += c * ctx.u[j]; mv += c * ctx.v[j];
+  }
+  if (!(w > 0)) return undefined;
+  mu /= w; mv /= w;
+  let su = 0, sv = 0, eu = 0, ev = 0;
+  for (const j of idx) {
+    const c = Math.max(0, ctx.counts[j] - ctx.background);
+    const variance = Math.max(ctx.counts[j], 1);
+    su += c * (ctx.u[j] - mu) ** 2; sv += c * (ctx.v[j] - mv) ** 2;
+    eu += (ctx.u[j] - mu) ** 2 * variance; ev += (ctx.v[j] - mv) ** 2 * variance;
+  }
+  return { mu, mv, sdu: Math.sqrt(su / w), sdv: Math.sqrt(sv / w), eu: Math.sqrt(eu) / w, ev: Math.sqrt(ev) / w };
+}
+
+function refinePeak(i: number, ctx: RefineCtx): RawPeak {
+  const first = centroid(ctx.near(i, 6), ctx) ?? { mu: ctx.u[i], mv: ctx.v[i], sdu: 1, sdv: 1, eu: 0.5, ev: 0.5 };
+  const r = Math.min(20, Math.max(2, 3 * Math.max(first.sdu, first.sdv)));
+  const win = ctx.near(i, r);
+  const c = centroid(win, ctx) ?? first;
+  let result = { mu: c.mu, mv: c.mv, eu: c.eu, ev: c.ev, method: "centroid" as "gaussian" | "centroid" };
+  const height = ctx.counts[i] - ctx.background;
+  if (ctx.refine === "gaussian" && win.length >= 12) {
+    const g = gaussianFit(win, ctx, c, height);
+    if (g) result = { ...g, method: "gaussian" };
+  }
+  const p = result.mu * ctx.sp;
+  const t = result.mv * ctx.st;
+  const ep = result.eu * ctx.sp;
+  const et = result.ev * ctx.st;
+  return {
+    omega: p + t / 2,
+    twoTheta: t,
+    omegaStdErr: Math.hypot(ep, et / 2),
+    twoThetaStdErr: et,
+    height,
+    method: result.method,
+  };
+}
+
+function gaussianFit(win: number[], ctx: RefineCtx, c: { mu: number; mv: number; sdu: number; sdv: number }, height: number) {
+  const model = ([a, u0, v0, su, sv, b]: number[]) => (k: number) => {
+    const j = win[k];
+    return a * Math.exp(-((ctx.u[j] - u0) ** 2) / (2 * su * su) - ((ctx.v[j] - v0) ** 2) / (2 * sv * sv)) + b;
+  };
+  const sdu = Math.max(c.sdu, 0.5);
+  const sdv = Math.max(c.sdv, 0.5);
+  try {
+    const fit = nonlinearFit(model, win.map((_, k) => k), win.map((j) => ctx.counts[j]), {
+      initial: [Math.max(height, 1), c.mu, c.mv, sdu, sdv, ctx.background],
+      scale: [Math.max(height, 1), 1, 1, sdu, sdv, Math.max(ctx.background, 1)],
+      min: [0, c.mu - 3 * sdu - 1, c.mv - 3 * sdv - 1, 0.1, 0.1, -Infinity],
+      max: [Infinity, c.mu + 3 * sdu + 1, c.mv + 3 * sdv + 1, 50, 50, Infinity],
+    });
+    const [, u0, v0] = fit.params;
+    const [, eu, ev] = fit.stdErr;
+    const ok = [u0, v0, eu, ev].every(Number.isFinite) && Math.abs(u0 - c.mu) < 3 * sdu + 1 && Math.abs(v0 - c.mv) < 3 * sdv + 1;
+    return ok ? { mu: u0, mv: v0, eu, ev } : undefined;
+  } catch {
+    return undefined;
+  }
+}
