@@ -1,0 +1,69 @@
+// Draws every chart on a page from the JSON block #chart-data with Chart.js.
+// Plain script, no framework; data come pre-computed and pre-rounded.
+(function () {
+  "use strict";
+  var el = document.getElementById("chart-data");
+  if (!el || typeof Chart === "undefined") return;
+  var specs = JSON.parse(el.textContent || "[]");
+  var palette = { data: "#2c5f66", second: "#b5632d", third: "#6a3c98", fit: "#1d262b", reference: "#7b8085" };
+  var dashes = { data: [], second: [6, 3], third: [2, 2], fit: [8, 4], reference: [3, 3] };
+  var shapes = { data: "circle", second: "rect", third: "triangle", fit: "crossRot", reference: "line" };
+  function unitOf(label) { var m = /\(([^)]*)\)\s*$/.exec(label); return m ? " " + m[1] : ""; }
+  specs.forEach(function (spec) {
+    var canvas = document.querySelector('canvas[data-chart="' + spec.id + '"]');
+    if (!canvas) return;
+    var datasets = spec.series.map(function (s) {
+      var role = s.role || "data";
+      return {
+        label: s.label,
+        data: s.points.map(function (p) { return { x: p[0], y: p[1] }; }),
+        showLine: s.line,
+        borderColor: palette[role], backgroundColor: palette[role],
+        borderDash: dashes[role], pointStyle: shapes[role],
+        pointRadius: s.line ? 0 : 3.5, borderWidth: s.line ? 1.6 : 1, parsing: false
+      };
+    });
+    var limitSets = (spec.limits || []).map(function (l) { return l; });
+    new Chart(canvas, {
+      type: "scatter",
+      data: { datasets: datasets },
+      options: {
+        animation: false, maintainAspectRatio: false, responsive: true,
+        scales: {
+          x: { type: spec.x.log ? "logarithmic" : "linear", title: { display: true, text: spec.x.label } },
+          y: { type: spec.y.log ? "logarithmic" : "linear", title: { display: true, text: spec.y.label } }
+        },
+        plugins: {
+          legend: { labels: { usePointStyle: true } },
+          tooltip: { callbacks: { label: function (c) {
+            return c.dataset.label + ": " + c.parsed.x.toPrecision(4) + unitOf(spec.x.label) + ", " + c.parsed.y.toPrecision(4) + unitOf(spec.y.label);
+          } } }
+        }
+      },
+      plugins: [{
+        id: "targetLimits",
+        beforeDatasetsDraw: function (chart) {
+          var ctx = chart.ctx, area = chart.chartArea;
+          limitSets.forEach(function (l) {
+            var scale = chart.scales[l.axis];
+            var lo = l.min != null ? scale.getPixelForValue(l.min) : null;
+            var hi = l.max != null ? scale.getPixelForValue(l.max) : null;
+            ctx.save();
+            ctx.fillStyle = "rgba(45,112,71,0.08)";
+            ctx.strokeStyle = "#2d7047"; ctx.setLineDash([5, 4]);
+            if (l.axis === "y") {
+              var top = hi != null ? hi : area.top, bottom = lo != null ? lo : area.bottom;
+              ctx.fillRect(area.left, Math.max(area.top, top), area.right - area.left, Math.min(area.bottom, bottom) - Math.max(area.top, top));
+              [lo, hi].forEach(function (p) { if (p != null && p >= area.top && p <= area.bottom) { ctx.beginPath(); ctx.moveTo(area.left, p); ctx.lineTo(area.right, p); ctx.stroke(); } });
+            } else {
+              var left = lo != null ? lo : area.left, right = hi != null ? hi : area.right;
+              ctx.fillRect(Math.max(area.left, left), area.top, Math.min(area.right, right) - Math.max(area.left, left), area.bottom - area.top);
+              [lo, hi].forEach(function (p) { if (p != null && p >= area.left && p <= area.right) { ctx.beginPath(); ctx.moveTo(p, area.top); ctx.lineTo(p, area.bottom); ctx.stroke(); } });
+            }
+            ctx.restore();
+          });
+        }
+      }]
+    });
+  });
+})();
