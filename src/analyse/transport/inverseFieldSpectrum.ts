@@ -97,17 +97,24 @@ export interface SpectrumPeak {
 }
 
 /**
- * Dominant local maximum at or above fMin (T). Returns null when the largest value
- * in the band sits on its lower or upper edge (no interior peak).
+ * Dominant peak in the band fMin ≤ f ≤ fMax (T): the largest interior local
+ * maximum (a monotonic low-frequency leakage tail is therefore never taken for a
+ * peak). Returns null when the band holds no local maximum.
+ * fMax should not exceed the Nyquist frequency of the original (unresampled)
+ * data, 1/(2·largest 1/B step): above it the interpolated trace holds no
+ * information and would make the median meaninglessly small.
  */
-export function dominantPeak(s: SpectrumResult, fMin: number): SpectrumPeak | null {
+export function dominantPeak(s: SpectrumResult, fMin: number, fMax = Number.POSITIVE_INFINITY): SpectrumPeak | null {
   const a = s.spectrum.amplitude;
   const kLo = Math.max(1, Math.ceil(fMin / s.binWidth));
-  if (kLo >= a.length - 2) return null;
-  let k = kLo;
-  for (let i = kLo; i < a.length - 1; i++) if (a[i] > a[k]) k = i;
-  if (k === kLo || k >= a.length - 2 || !(a[k] > 0)) return null;
-  const band = a.slice(kLo).sort((x, y) => x - y);
+  const kHi = Math.min(a.length - 1, Math.floor(fMax / s.binWidth));
+  if (kLo >= kHi - 2) return null;
+  let k = -1;
+  for (let i = kLo + 1; i < kHi; i++) {
+    if (a[i] > a[i - 1] && a[i] >= a[i + 1] && (k < 0 || a[i] > a[k])) k = i;
+  }
+  if (k < 0 || !(a[k] > 0)) return null;
+  const band = a.slice(kLo, kHi + 1).sort((x, y) => x - y);
   const median = band[Math.floor(band.length / 2)];
   const [l, c, r] = [a[k - 1], a[k], a[k + 1]].map((v) => Math.log(Math.max(v, 1e-300)));
   const den = l - 2 * c + r;

@@ -60,6 +60,15 @@ export interface PercolationFit {
   excludedInsulating: number;
 }
 
+/**
+ * Sheet conductance σ = 1/R (S) of a recorded resistance R (Ω), or 0 when the
+ * point is insulating: R ≤ 0 (an open-circuit lock-in reading), non-finite, or
+ * above `insulatingAbove` (default 1e9 Ω, far above h/e² = 25.8 kΩ).
+ */
+export function sheetConductance(resistance: number, insulatingAbove = 1e9): number {
+  return Number.isFinite(resistance) && resistance > 0 && resistance <= insulatingAbove ? 1 / resistance : 0;
+}
+
 /** σ = A·(n − n_p)^p above n_p, 0 below (S); exported for charts. */
 export function percolationConductivity(density: number, np: number, prefactor: number, exponent: number): number {
   return density > np ? prefactor * (density - np) ** exponent : 0;

@@ -10,7 +10,8 @@
  * window; zero-padded; FFT; dominant peak with sub-bin interpolation
  * (inverseFieldSpectrum.ts). Skipped, never guessed, when the peak lies below
  * three periods across the 1/B range (f·Δ(1/B) < 3), or is not clearly above the
- * spectrum's median (default 6×).
+ * spectrum's median (default 6×) in the band from one period across the range
+ * up to the data's own Nyquist frequency 1/(2·largest 1/B step).
  * Units: B in T, ρ in Ω, f in T, n in m⁻².
  */
 import { Matrix, solve } from "ml-matrix";
@@ -122,7 +123,9 @@ export function shubnikovDeHaas(
   const span = 1 / b[0] - 1 / b[b.length - 1];
   const step = span / (count - 1);
   const spec = amplitudeSpectrum(trace.value, step);
-  const peak = dominantPeak(spec, 1 / span);
+  let coarsest = 0;
+  for (let i = 1; i < b.length; i++) coarsest = Math.max(coarsest, 1 / b[i - 1] - 1 / b[i]);
+  const peak = dominantPeak(spec, 1 / span, 1 / (2 * coarsest));
   if (!peak) return skipped("no oscillation peak in the spectrum above one period across the 1/B range");
   const periods = peak.frequency * span;
   if (periods < minPeriods) {
