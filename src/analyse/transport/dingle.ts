@@ -11,6 +11,8 @@
  * 2 %) of the largest are dropped as noise.
  * Dingle ratio τ_t/τ_q (Das Sarma & Stern, PRB 32, 8442 (1985)): ≫ 1 for remote
  * small-angle scattering, ≈ 1 for short-range scattering (REFERENCES §12).
+ * The LK form holds for small oscillations (Δρ/ρ0 ≲ 0.5); larger swings, spin
+ * splitting or a poor background bias τ_q (synthetic tests: within 10 %).
  * Units: 1/B in T⁻¹, ρ in Ω, T in K, τ in s.
  */
 import { ELECTRON_MASS, ELEMENTARY_CHARGE } from "../../physics/constants.ts";
