@@ -1,0 +1,174 @@
+/**
+ * Shubnikov–de Haas density of a 2D electron gas from ρ_xx(B).
+ *
+ * The oscillations are periodic in 1/B with frequency f (T): Δ(1/B) = g_s·g_v·e/(h·n),
+ * so n_SdH = g_s·g_v·e·f/h (REFERENCES §7; Si(001), g = 4: n[cm⁻²] = 9.6720e10·f[T]).
+ * Method: symmetrised ρ_xx(|B|) restricted to [minField, maxField]; smooth
+ * background removed as a least-squares polynomial in B (default order 1: a
+ * straight line; higher orders also absorb the large, slow high-field swings of
+ * strongly damped oscillations, which then lose their spectral peak); resampled uniformly in 1/B; Hann
+ * window; zero-padded; FFT; dominant peak with sub-bin interpolation
+ * (inverseFieldSpectrum.ts). Skipped, never guessed, when the peak lies below
+ * three periods across the 1/B range (f·Δ(1/B) < 3), or is not clearly above the
+ * spectrum's median (default 6×) in the band from one period across the range
+ * up to the data's own Nyquist frequency 1/(2·largest 1/B step).
+ * Units: B in T, ρ in Ω, f in T, n in m⁻².
+ */
+import { Matrix, solve } from "ml-matrix";
+import { ELEMENTARY_CHARGE, PLANCK } from "../../physics/constants.ts";
+import { amplitudeSpectrum, dominantPeak, downsampleSpectrum, resampleInverseField, type Spectrum } from "./inverseFieldSpectrum.ts";
+import { allFinite, skipped, type Skipped } from "./outcome.ts";
+
+export interface SdhOptions {
+  /** Lower field limit, T (default: the lowest |B| > 0 in the sweep). */
+  minField?: number;
+  /** Upper field limit, T (default: the highest |B|). */
+  maxField?: number;
+  /** g_s·g_v (Si(001) default 4). */
+  degeneracy?: number;
+  /** Order of the background polynomial in B (default 1, 0–4). */
+  backgroundOrder?: number;
+  /** Fewest periods across the 1/B range (default 3). */
+  minPeriods?: number;
+  /** Smallest peak/median spectrum amplitude (default 6). */
+  minPeakToMedian?: number;
+}
+
+export interface SdhResult {
+  ok: true;
+  /** Oscillation frequency in 1/B, T. */
+  frequency: number;
+  /** Spectral resolution 1/Δ(1/B), T (the unpadded bin width). */
+  frequencyResolution: number;
+  /** n_SdH = g·e·f/h, m⁻². */
+  density: number;
+  /** Periods across the analysed 1/B range, f·Δ(1/B). */
+  periods: number;
+  peakToMedian: number;
+  fieldRange: [number, number];
+  background: { variable: "B"; order: number };
+  /** Spectrum for charts (≤ 400 points up to 3 f). */
+  spectrum: Spectrum;
+  /** Background-free oscillation Δρ_xx (Ω) on a grid uniform in 1/B (T⁻¹). */
+  trace: { inverseField: number[]; oscillation: number[] };
+}
+
+/** Sheet density from an SdH frequency: n = g·e·f/h, m⁻² (f in T). */
+export function sdhDensity(frequency: number, degeneracy = 4): number {
+  return (degeneracy * ELEMENTARY_CHARGE * frequency) / PLANCK;
+}
+
+/** SdH frequency of a density: f = h·n/(g·e), T (n in m⁻²). */
+export function sdhFrequency(density: number, degeneracy = 4): number {
+  return (PLANCK * density) / (degeneracy * ELEMENTARY_CHARGE);
+}
+
+function polynomialBackground(b: number[], rho: number[], order: number): number[] {
+  const mid = (b[0] + b[b.length - 1]) / 2;
+  const half = (b[b.length - 1] - b[0]) / 2 || 1;
+  const t = b.map((x) => (x - mid) / half);
+  const k = order + 1;
+  const A = new Matrix(b.length, k);
+  t.forEach((x, i) => {
+    for (let j = 0; j < k; j++) A.set(i, j, x ** j);
+  });
+  const coef = solve(A, Matrix.columnVector(rho)).to1DArray();
+  return t.map((x) => coef.reduce((s, c, j) => s + c * x ** j, 0));
+}
+
+function cleanSweep(field: ArrayLike<number>, rho: ArrayLike<number>, lo: number, hi: number) {
+  const pts: [number, number][] = [];
+  for (let i = 0; i < field.length; i++) {
+    const b = Math.abs(field[i]);
+    if (Number.isFinite(b) && Number.isFinite(rho[i]) && b > 0 && b >= lo && b <= hi) pts.push([b, rho[i]]);
+  }
+  pts.sort((p, q) => p[0] - q[0]);
+  const b: number[] = [];
+  const r: number[] = [];
+  const c: number[] = [];
+  for (const [x, y] of pts) {
+    const last = b.length - 1;
+    if (last >= 0 && b[last] === x) {
+      r[last] = (r[last] * c[last] + y) / (c[last] + 1);
+      c[last]++;
+    } else {
+      b.push(x);
+      r.push(y);
+      c.push(1);
+    }
+  }
+  return { b, r };
+}
+
+/**
+ * SdH analysis of one symmetrised sweep. field in T (sign ignored, any order),
+ * rhoXX in Ω. Returns { ok: false, reason } for too few points, too few periods
+ * or no clear peak. Throws RangeError when the arrays differ in length.
+ */
+export function shubnikovDeHaas(
+  field: ArrayLike<number>,
+  rhoXX: ArrayLike<number>,
+  options: SdhOptions = {},
+): SdhResult | Skipped {
+  if (field.length !== rhoXX.length) throw new RangeError(`shubnikovDeHaas: ${field.length} fields, ${rhoXX.length} values`);
+  const order = Math.max(0, Math.min(4, Math.round(options.backgroundOrder ?? 1)));
+  const minPeriods = options.minPeriods ?? 3;
+  const { b, r } = cleanSweep(field, rhoXX, options.minField ?? 0, options.maxField ?? Number.POSITIVE_INFINITY);
+  const need = Math.max(16, order + 8);
+  if (b.length < need) return skipped(`only ${b.length} field points in the SdH range; need ${need}`);
+  const bg = polynomialBackground(b, r, order);
+  const delta = r.map((v, i) => v - bg[i]);
+  const count = Math.min(2048, Math.max(256, 2 ** Math.ceil(Math.log2(2 * b.length))));
+  const trace = resampleInverseField(b, delta, count);
+  const span = 1 / b[0] - 1 / b[b.length - 1];
+  const step = span / (count - 1);
+  const spec = amplitudeSpectrum(trace.value, step);
+  let coarsest = 0;
+  for (let i = 1; i < b.length; i++) coarsest = Math.max(coarsest, 1 / b[i - 1] - 1 / b[i]);
+  const peak = dominantPeak(spec, 1 / span, 1 / (2 * coarsest));
+  if (!peak) return skipped("no oscillation peak in the spectrum above one period across the 1/B range");
+  const periods = peak.frequency * span;
+  if (periods < minPeriods) {
+    return skipped(`only ${periods.toFixed(1)} oscillation periods between ${b[0]} T and ${b[b.length - 1]} T; need ${minPeriods}`);
+  }
+  const minRatio = options.minPeakToMedian ?? 6;
+  if (peak.peakToMedian < minRatio) {
+    return skipped(`spectral peak is only ${peak.peakToMedian.toFixed(1)}× the median amplitude; need ${minRatio}× (no clear oscillation)`);
+  }
+  const density = sdhDensity(peak.frequency, options.degeneracy ?? 4);
+  if (!allFinite(peak.frequency, density)) return skipped("SdH frequency is not finite");
+  return {
+    ok: true,
+    frequency: peak.frequency,
+    frequencyResolution: 1 / span,
+    density,
+    periods,
+    peakToMedian: Math.min(peak.peakToMedian, 1e12),
+    fieldRange: [b[0], b[b.length - 1]],
+    background: { variable: "B", order },
+    spectrum: downsampleSpectrum(spec.spectrum, Math.min(3 * peak.frequency, spec.spectrum.frequency.at(-1)!)),
+    trace: { inverseField: trace.inverseField, oscillation: trace.value },
+  };
+}
+
+export interface HallSdhMismatch {
+  /** 100·(n_Hall − n_SdH)/n_SdH, %. */
+  mismatchPercent: number;
+  /** True when |mismatch| exceeds the tolerance: probable parallel conduction. */
+  parallelConduction: boolean;
+  tolerancePercent: number;
+}
+
+/**
+ * Compare a Hall density with the SdH density of the same point (both m⁻²). A
+ * Hall density that differs from the well's SdH density by more than the
+ * tolerance (default 5 %) points to a parallel conducting channel.
+ * Throws RangeError unless both densities are finite and > 0.
+ */
+export function hallSdhMismatch(nHall: number, nSdh: number, tolerancePercent = 5): HallSdhMismatch {
+  if (!(nHall > 0 && nSdh > 0) || !allFinite(nHall, nSdh)) {
+    throw new RangeError(`hallSdhMismatch: densities must be finite and > 0 (Hall ${nHall}, SdH ${nSdh})`);
+  }
+  const m = (100 * (nHall - nSdh)) / nSdh;
+  return { mismatchPercent: m, parallelConduction: Math.abs(m) > tolerancePercent, tolerancePercent };
+}

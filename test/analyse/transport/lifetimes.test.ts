@@ -1,0 +1,89 @@
+import { describe, expect, it } from "vitest";
+import { dingleTemperature, thermalArgument, thermalFactor } from "../../../src/analyse/transport/thermalFactor.ts";
+import { dinglePlot, dingleRatio } from "../../../src/analyse/transport/dingle.ts";
+import { derivedQuantities, fermiEnergy, fermiWavevector } from "../../../src/analyse/transport/derivedQuantities.ts";
+import { shubnikovDeHaas } from "../../../src/analyse/transport/shubnikovDeHaas.ts";
+import { fieldGrid, oscillationSweep } from "../../../src/synth/quantumOscillations.ts";
+import { ELEMENTARY_CHARGE } from "../../../src/physics/constants.ts";
+
+const rel = (a: number, b: number) => Math.abs(a / b - 1);
+
+describe("Lifshitz–Kosevich thermal factor", () => {
+  it("X = 2.79170 and X/sinh X = 0.343648 at m* = 0.19, T = 1 K, B = 1 T (REFERENCES §7, derived, CODATA 2018)", () => {
+    expect(thermalArgument(1, 1, 0.19)).toBeCloseTo(2.7917, 4);
+    expect(thermalFactor(1, 1, 0.19)).toBeCloseTo(0.343648, 6);
+    expect(thermalFactor(1, -1, 0.19)).toBeCloseTo(0.343648, 6); // sign of B does not matter
+  });
+  it("X = 14.69317·(m*/m_e)·T/B (REFERENCES §7, derived); limits 1 at T = 0 and finite at large X", () => {
+    expect(thermalArgument(2, 0.5, 1)).toBeCloseTo(14.69317 * 4, 3);
+    expect(thermalFactor(0, 1, 0.19)).toBe(1);
+    const big = thermalFactor(100, 0.01, 0.19);
+    expect(Number.isFinite(big) && big >= 0 && big < 1e-100).toBe(true);
+    expect(() => thermalFactor(1, 0, 0.19)).toThrow(RangeError);
+    expect(() => thermalFactor(NaN, 1, 0.19)).toThrow(RangeError);
+  });
+  it("T_D = 1.215662 K·ps / τ_q (REFERENCES §7, derived)", () => {
+    expect(dingleTemperature(1e-12)).toBeCloseTo(1.215662, 5);
+  });
+});
+
+describe("Dingle plot", () => {
+  // Synthetic LK + Dingle oscillations (REFERENCES §7 amplitude formula), |Δρ/ρ0| < 0.65.
+  const cases = [
+    { density: 3e15, quantumLifetime: 1e-12, temperature: 0.5, range: [0.45, 2] },
+    { density: 2e15, quantumLifetime: 1.5e-12, temperature: 0.3, range: [0.3, 2] },
+  ];
+  for (const c of cases) {
+    it(`recovers τ_q = ${c.quantumLifetime * 1e12} ps within 10 % (T = ${c.temperature} K)`, () => {
+      const s = oscillationSweep(fieldGrid(0, 3, 1501), { rho0: 600, ...c });
+      const sdh = shubnikovDeHaas(s.field, s.rhoXX, { minField: c.range[0], maxField: c.range[1] });
+      expect(sdh.ok).toBe(true);
+      if (!sdh.ok) return;
+      const d = dinglePlot(sdh.trace.inverseField, sdh.trace.oscillation, 600, c.temperature);
+      expect(d.ok).toBe(true);
+      if (!d.ok) return;
+      expect(rel(d.quantumLifetime, c.quantumLifetime)).toBeLessThan(0.1);
+      expect(d.extrema.amplitude.length).toBeGreaterThanOrEqual(4);
+    });
+  }
+  it("skips without a temperature, with too few extrema, or without decay", () => {
+    const u = Array.from({ length: 400 }, (_, i) => 0.5 + i * 0.005);
+    const osc = u.map((x) => Math.exp(-2 * x) * Math.cos(2 * Math.PI * 3 * x));
+    const noT = dinglePlot(u, osc, 600, undefined);
+    expect(noT.ok).toBe(false);
+    if (!noT.ok) expect(noT.reason).toMatch(/temperature/);
+    const short = dinglePlot(u.slice(0, 30), osc.slice(0, 30), 600, 0.1);
+    expect(short.ok).toBe(false);
+    if (!short.ok) expect(short.reason).toMatch(/extrema/);
+    const growing = dinglePlot(u, u.map((x) => Math.exp(2 * x) * Math.cos(2 * Math.PI * 3 * x)), 600, 0.1);
+    expect(growing.ok).toBe(false);
+    if (!growing.ok) expect(growing.reason).toMatch(/decay/);
+  });
+  it("Dingle ratio τ_t/τ_q and its input check", () => {
+    expect(dingleRatio(10.803e-12, 1e-12)).toBeCloseTo(10.803, 10);
+    expect(() => dingleRatio(1e-12, 0)).toThrow(RangeError);
+  });
+});
+
+describe("derived scattering figures", () => {
+  // n = 1e11 cm⁻², μ = 1e5 cm²/Vs, m* = 0.19, g = 4 (REFERENCES §9, derived, CODATA 2018 m_e)
+  const d = derivedQuantities(1e15, 10, { massRatio: 0.19, degeneracy: 4 });
+  it("τ_t = 10.803 ps, l = 0.368927 µm, k_F·l = 20.678, k_F = 5.60499e7 m⁻¹, E_F = 0.62997 meV (REFERENCES §9)", () => {
+    expect(d.ok).toBe(true);
+    if (!d.ok) return;
+    expect(d.transportLifetime * 1e12).toBeCloseTo(10.803, 3);
+    expect(d.meanFreePath * 1e6).toBeCloseTo(0.368927, 6);
+    expect(d.kfl).toBeCloseTo(20.678, 3);
+    expect(d.fermiWavevector).toBeCloseTo(5.60499e7, -2);
+    expect((d.fermiEnergy / ELEMENTARY_CHARGE) * 1e3).toBeCloseTo(0.62997, 5);
+  });
+  it("k_F scales with degeneracy; E_F uses m*", () => {
+    expect(fermiWavevector(1e15, 2) / fermiWavevector(1e15, 4)).toBeCloseTo(Math.SQRT2, 12);
+    expect(fermiEnergy(1e15, 4, 0.38) / fermiEnergy(1e15, 4, 0.19)).toBeCloseTo(0.5, 12);
+  });
+  it("returns a reason (never NaN) for missing, zero or negative inputs", () => {
+    expect(derivedQuantities(NaN, 10).ok).toBe(false);
+    expect(derivedQuantities(1e15, 0).ok).toBe(false);
+    expect(derivedQuantities(-1e15, 10).ok).toBe(false);
+  });
+});
