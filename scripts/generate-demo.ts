@@ -70,7 +70,7 @@ export function mobilityAt(n: number, w: DemoWafer): number {
 
 export const GATES = [0.5, 0.65, 0.8, 0.95, 1.1, 1.25];
 
-async function write(rel: string, text: string): Promise<void> {
+async function write(rel: string, text: string | Buffer): Promise<void> {
   const abs = path.join(dataDir, rel);
   await fs.mkdir(path.dirname(abs), { recursive: true });
   await fs.writeFile(abs, text);

@@ -3,28 +3,24 @@
  * results.json and targets, and the factor from the SI value the analysis
  * works in. Targets may name only keys listed here; later analyses add theirs.
  */
-export interface MetricSpec {
-  key: string;
-  label: string;
-  /** Unit string as written in results.json and accepted (after conversion) in targets.yaml. */
-  unit: string;
-  /** Multiply an SI value by this to get the value in `unit`. */
-  fromSI: number;
-  /** Which section of a wafer page shows it. */
-  section: "transport" | "structure" | "images" | "uniformity";
-  description: string;
-  /** Number of significant digits shown on pages. */
-  digits: number;
-}
+import { TRANSPORT_DEPTH_METRICS } from "./transport/metrics.ts";
+import { STRUCTURE_METRICS } from "./structure/metrics.ts";
+import { IMAGE_METRICS } from "./images/metrics.ts";
 
-const m = (key: string, label: string, unit: string, fromSI: number, section: MetricSpec["section"], description: string, digits = 3): MetricSpec => ({ key, label, unit, fromSI, section, description, digits });
+import { metric, type MetricSpec } from "./metricSpec.ts";
+export type { MetricSpec };
 
-export const METRICS: MetricSpec[] = [
+const m = metric;
+
+/** Foundation transport metrics (Hall analysis). */
+const HALL_METRICS: MetricSpec[] = [
   m("peak_mobility", "Peak Hall mobility", "cm^2/(V s)", 1e4, "transport", "largest Hall mobility over the gate voltages measured"),
   m("density_at_peak_mobility", "Density at peak mobility", "cm^-2", 1e-4, "transport", "Hall sheet density at the gate voltage of peak mobility"),
   m("gate_density_slope", "dn/dVg", "cm^-2/V", 1e-4, "transport", "slope of Hall density against gate voltage (linear fit)"),
   m("turn_on_voltage", "Turn-on voltage", "V", 1, "transport", "gate voltage where the fitted density extrapolates to zero"),
 ];
+
+export const METRICS: MetricSpec[] = [...HALL_METRICS, ...TRANSPORT_DEPTH_METRICS, ...STRUCTURE_METRICS, ...IMAGE_METRICS];
 
 export const METRIC_BY_KEY: ReadonlyMap<string, MetricSpec> = new Map(METRICS.map((s) => [s.key, s]));
 

@@ -5,7 +5,10 @@
  */
 import type { AnalysisSettings } from "../validate/settings.ts";
 import type { Sweep } from "../validate/sweep.ts";
-import type { DeviceSpec } from "../validate/wafer.ts";
+import type { DeviceSpec, Layer } from "../validate/wafer.ts";
+import { analyseStructure, type StructureAnalysis, type StructureInputs } from "./structure/index.ts";
+import { analyseImages, type ImageAnalysis, type ImageInputs } from "./images/index.ts";
+import { analyseDeviceDepth, type DeviceDepth } from "./transport/deviceDepth.ts";
 import { toMetricUnit } from "./metrics.ts";
 import { analyseFieldSweep, type TransportPoint } from "./transport/fieldSweep.ts";
 import { sortByGate, summariseDevice, type DeviceSummary } from "./transport/deviceSummary.ts";
@@ -28,12 +31,22 @@ export interface DeviceAnalysis {
   gateSweeps: Sweep[];
   skipped: SkippedFile[];
   summary?: DeviceSummary;
+  depth?: DeviceDepth;
   /** Metric key → value in the metric's unit. */
   metrics: Record<string, number>;
 }
 
 export interface WaferAnalysis {
   devices: DeviceAnalysis[];
+  structure?: StructureAnalysis;
+  images?: ImageAnalysis;
+}
+
+export interface WaferInputs {
+  devices: DeviceInput[];
+  structure: StructureInputs;
+  images: ImageInputs;
+  stack: Layer[];
 }
 
 export function analyseDevice(input: DeviceInput, settings: AnalysisSettings): DeviceAnalysis {
@@ -61,9 +74,16 @@ export function analyseDevice(input: DeviceInput, settings: AnalysisSettings): D
     put("gate_density_slope", summary.gateFit?.slope);
     put("turn_on_voltage", summary.gateFit?.turnOn);
   }
-  return { id: input.spec.id, geometry: input.spec.geometry, at_mm: input.spec.at_mm, points: sortByGate(points), gateSweeps, skipped, summary, metrics };
+  const sorted = sortByGate(points);
+  const depth = analyseDeviceDepth(sorted, gateSweeps, settings);
+  if (depth) Object.assign(metrics, depth.metrics);
+  return { id: input.spec.id, geometry: input.spec.geometry, at_mm: input.spec.at_mm, points: sorted, gateSweeps, skipped, summary, depth, metrics };
 }
 
-export function analyseWafer(devices: DeviceInput[], settings: AnalysisSettings): WaferAnalysis {
-  return { devices: devices.map((d) => analyseDevice(d, settings)) };
+export function analyseWafer(inputs: WaferInputs, settings: AnalysisSettings): WaferAnalysis {
+  return {
+    devices: inputs.devices.map((d) => analyseDevice(d, settings)),
+    structure: analyseStructure(inputs.structure, inputs.stack, settings),
+    images: analyseImages(inputs.images, inputs.stack, settings),
+  };
 }

@@ -36,6 +36,9 @@ export function metricValues(analysis: WaferAnalysis): Record<string, MetricValu
       (values[k] ??= { perDevice: {} }).perDevice[d.id] = v;
     }
   }
+  for (const section of [analysis.structure, analysis.images]) {
+    for (const [k, v] of Object.entries(section?.metrics ?? {})) (values[k] ??= { perDevice: {} }).wafer = v;
+  }
   return values;
 }
 
@@ -94,7 +97,7 @@ export async function processWafer(folder: string, ctx: PipelineContext): Promis
   let analysis: WaferAnalysis | undefined;
   if (loaded.record) {
     const inputs = loaded.record.devices.map((spec) => ({ spec, sweeps: loaded.devices.find((d) => d.id === spec.id)?.sweeps ?? [] }));
-    analysis = analyseWafer(inputs, loaded.record.settings);
+    analysis = analyseWafer({ devices: inputs, structure: loaded.structure, images: loaded.images, stack: loaded.record.stack }, loaded.record.settings);
   }
   return judgeOutcome(loaded, analysis, ctx);
 }

@@ -9,6 +9,9 @@ import { formatProblem } from "../validate/problem.ts";
 import { formatNumber, formatValue, prettyUnit } from "./format.ts";
 import { markerSeries, traceSeries, type ChartSpec } from "./charts.ts";
 import { renderNotes } from "./markdown.ts";
+import { structureSection } from "./structureSection.ts";
+import { imagesSection } from "./imagesSection.ts";
+import { transportDepthSection } from "./transportDepthSection.ts";
 
 export interface MetricRow {
   key: string;
@@ -117,6 +120,10 @@ export function waferCharts(o: WaferOutcome): ChartSpec[] {
 
 export function waferPageModel(o: WaferOutcome) {
   const r = o.record;
+  const transportCharts = waferCharts(o);
+  const transportDepth = transportDepthSection(o);
+  const structure = structureSection(o);
+  const images = imagesSection(o);
   return {
     id: o.folder,
     run: r?.run,
@@ -149,7 +156,12 @@ export function waferPageModel(o: WaferOutcome) {
     problems: o.problems.map((p) => ({ severity: p.severity, text: formatProblem(p) })),
     files: o.provenance.files.map((f) => ({ ...f, size: f.bytes < 1024 ? `${f.bytes} B` : `${(f.bytes / 1024).toFixed(1)} KiB`, href: `raw/${f.path.split("/").slice(2).join("/")}` })),
     settings: o.provenance.settings,
-    charts: waferCharts(o),
+    transportCharts,
+    transportDepth,
+    structure,
+    images,
+    /** Every chart on the page, for the one JSON block the chart script reads. */
+    charts: [...transportCharts, ...(transportDepth?.charts ?? []), ...(structure?.charts ?? []), ...(images?.charts ?? [])],
     units: { mobility: prettyUnit("cm^2/(V s)"), density: prettyUnit("cm^-2") },
   };
 }

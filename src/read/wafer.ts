@@ -9,7 +9,12 @@ import { InputError, type Problem } from "../validate/problem.ts";
 import type { AnalysisSettings } from "../validate/settings.ts";
 import { validateSweep, type Sweep } from "../validate/sweep.ts";
 import { validateWafer, type WaferRecord } from "../validate/wafer.ts";
-import { decodeText, listFiles, matchGlob, readDataBytes, relPath } from "./dataFiles.ts";
+import { decodeText, listFiles, matchGlob, MAX_IMAGE_FILE_BYTES, readDataBytes, relPath } from "./dataFiles.ts";
+import { loadImageInputs } from "./imageFiles.ts";
+import { loadStructureInputs } from "./structureFiles.ts";
+import type { WaferFileReader } from "./waferFiles.ts";
+import type { StructureInputs } from "../analyse/structure/index.ts";
+import type { ImageInputs } from "../analyse/images/index.ts";
 import { readFrontMatter, lineOfField } from "./frontMatter.ts";
 import { readTable } from "./table.ts";
 
@@ -31,6 +36,8 @@ export interface LoadedWafer {
   folder: string;
   record?: WaferRecord;
   devices: LoadedDevice[];
+  structure: StructureInputs;
+  images: ImageInputs;
   files: RawFileInfo[];
   problems: Problem[];
 }
@@ -41,7 +48,7 @@ export interface LoadContext {
   siteSettings: AnalysisSettings;
 }
 
-function toProblem(err: unknown, wafer: string, fallbackFile: string): Problem {
+function toProblem(err: unknown, wafer: string, _fallbackFile: string): Problem {
   if (err instanceof InputError) return { ...err.problem, wafer };
   throw err;
 }
@@ -54,7 +61,7 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
   const waferDir = path.join(ctx.dataDir, "wafers", folder);
   const recordAbs = path.join(waferDir, "wafer.md");
   const recordRel = relPath(ctx.dataDir, recordAbs);
-  const out: LoadedWafer = { folder, devices: [], files: [], problems: [] };
+  const out: LoadedWafer = { folder, devices: [], structure: {}, images: {}, files: [], problems: [] };
   let record: WaferRecord;
   let matterText = "";
   try {
@@ -97,5 +104,48 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
       }
     }
   }
+  const reader = fileReader(ctx, waferDir, recordRel, matterText, all, out);
+  out.structure = await loadStructureInputs(record, reader);
+  out.images = await loadImageInputs(record, reader);
   return out;
+}
+
+function fileReader(ctx: LoadContext, waferDir: string, recordRel: string, matterText: string, all: string[], out: LoadedWafer): WaferFileReader {
+  const folder = out.folder;
+  const lineOf = (field: string) => lineOfField(matterText, field, 2);
+  const report = (p: Omit<Problem, "wafer">) => out.problems.push({ ...p, wafer: folder });
+  return {
+    wafer: folder,
+    recordFile: recordRel,
+    lineOf,
+    report,
+    glob(pattern, field) {
+      try {
+        const matched = matchGlob(pattern, all, { file: recordRel, field });
+        if (matched.length === 0) report({ severity: "error", file: recordRel, line: lineOf(field), field, message: "file pattern matches no file", expected: "at least one file", found: JSON.stringify(pattern), fix: `check the pattern against the files in wafers/${folder}/` });
+        return matched;
+      } catch (err) {
+        out.problems.push(toProblem(err, folder, recordRel));
+        return [];
+      }
+    },
+    async readText(rel, role) {
+      const f = await readDataBytes(ctx.dataDir, path.join(waferDir, rel));
+      out.files.push(fileInfo(f.rel, f.bytes, role));
+      return { rel: f.rel, text: decodeText(f) };
+    },
+    async readBytes(rel, role) {
+      const f = await readDataBytes(ctx.dataDir, path.join(waferDir, rel), MAX_IMAGE_FILE_BYTES);
+      out.files.push(fileInfo(f.rel, f.bytes, role));
+      return { rel: f.rel, bytes: f.bytes };
+    },
+    async guard(fn) {
+      try {
+        return await fn();
+      } catch (err) {
+        out.problems.push(toProblem(err, folder, recordRel));
+        return undefined;
+      }
+    },
+  };
 }
