@@ -4,7 +4,7 @@
  *
  * Model: atom columns are 2-D Gaussians on a rectangular lattice (optionally
  * centred: every other plane shifted by half a period). In-plane spacing is
- * the same everywhere (a coherent stack); the out-of-plane spacing and the
+ * the same everywhere (a coherent stack) unless a well value is given; the out-of-plane spacing and the
  * column brightness follow the well fraction
  *   f(v) = σ((v − v_bottom)/τ) − σ((v − v_top)/τ),   σ(t) = 1/(1 + e^(−t)),
  * a logistic step at each interface (REFERENCES §10), so a barrier value p_b
@@ -19,8 +19,10 @@ export interface SyntheticMicrographSpec {
   width: number;
   height: number;
   pixelSize_m: number;
-  /** Column spacing parallel to the interfaces, m (same in barrier and well). */
+  /** Column spacing parallel to the interfaces, m. */
   inPlaneSpacing_m: number;
+  /** In-plane spacing inside the well, m (default inPlaneSpacing_m: coherent). A different value models a relaxed, incoherent well. */
+  wellInPlaneSpacing_m?: number;
   /** Out-of-plane plane spacing in the barriers, m. */
   barrierSpacing_m: number;
   /** Out-of-plane plane spacing in the well, m. */
@@ -59,7 +61,7 @@ export interface MicrographTruth {
   wellSpacing_m: number;
   /** Well vs barrier out-of-plane strain, wellSpacing/barrierSpacing − 1 (fraction). */
   outOfPlaneStrain: number;
-  /** Well vs barrier in-plane mismatch (0: coherent by construction). */
+  /** Well vs barrier in-plane mismatch, fraction (0 when coherent). */
   inPlaneMismatch: number;
 }
 
@@ -96,10 +98,12 @@ function latticePlanes(spec: SyntheticMicrographSpec, halfSpan: number) {
   const ab = spec.barrierBrightness ?? 1;
   const aw = spec.wellBrightness ?? 0.7;
   const frac = (v: number) => logistic((v - vb) / tau) - logistic((v - vt) / tau);
-  const planes: { v: number; a: number }[] = [];
+  const pb = spec.inPlaneSpacing_m / px;
+  const pw = (spec.wellInPlaneSpacing_m ?? spec.inPlaneSpacing_m) / px;
+  const planes: { v: number; a: number; pitch: number }[] = [];
   let v = -halfSpan;
   while (v <= halfSpan) {
-    planes.push({ v, a: ab + (aw - ab) * frac(v) });
+    planes.push({ v, a: ab + (aw - ab) * frac(v), pitch: pb + (pw - pb) * frac(v) });
     const mid = v + cb / 2;
     v += cb + (cw - cb) * frac(mid);
   }
@@ -115,7 +119,6 @@ export function syntheticMicrograph(spec: SyntheticMicrographSpec): SyntheticMic
   const axis = spec.growthAxis ?? "up";
   const n = growthNormal(axis, tilt);
   const t = inPlaneDirection(axis, tilt);
-  const a = spec.inPlaneSpacing_m / px;
   const sigma = (spec.columnSigma_m ?? 0.2 * spec.inPlaneSpacing_m) / px;
   const reach = Math.ceil(3.5 * sigma);
   const halfSpan = Math.hypot(width, height) / 2 + 2 * reach;
@@ -125,6 +128,7 @@ export function syntheticMicrograph(spec: SyntheticMicrographSpec): SyntheticMic
   const cy = (height - 1) / 2;
   const inv2s2 = 1 / (2 * sigma * sigma);
   planes.forEach((plane, k) => {
+    const a = plane.pitch;
     const shift = spec.centred && k % 2 === 1 ? a / 2 : 0;
     for (let u = -Math.ceil(halfSpan / a) * a + shift; u <= halfSpan; u += a) {
       const x0 = cx + u * t.x + plane.v * n.x;
@@ -163,7 +167,7 @@ export function syntheticMicrograph(spec: SyntheticMicrographSpec): SyntheticMic
       barrierSpacing_m: spec.barrierSpacing_m,
       wellSpacing_m: spec.wellSpacing_m,
       outOfPlaneStrain: spec.wellSpacing_m / spec.barrierSpacing_m - 1,
-      inPlaneMismatch: 0,
+      inPlaneMismatch: (spec.wellInPlaneSpacing_m ?? spec.inPlaneSpacing_m) / spec.inPlaneSpacing_m - 1,
     },
   };
 }
