@@ -8,7 +8,7 @@
  * (3) the image is averaged along the tilted interface direction into p(s)
  * (1-pixel bins, linear weight sharing) and smoothed twice over one lattice period,
  * which removes the atomic-plane modulation; (4) the well is the darker band
- * (a Si well between SiGe barriers is darker in HAADF, intensity ∝ Z^~1.7)
+ * (a Si well between SiGe barriers is darker in HAADF: Ge is heavier)
  * around the profile minimum, below half-way between the minimum and the
  * 90th-percentile level; (5) each interface is fitted with the logistic edge
  * of sigmoidFit.ts (REFERENCES §10), 10–90 % width = 2·ln 9·τ. The two moving
