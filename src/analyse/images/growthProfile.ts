@@ -1,0 +1,78 @@
+/**
+ * Intensity profile along the growth axis of a lattice image.
+ *
+ * Method: every pixel's intensity is shared linearly between the two 1-pixel
+ * bins of its growth coordinate s (geometry.ts) along the tilted growth
+ * direction, and each bin's weighted mean is the profile value (averaging
+ * along the interface direction). The atomic-plane modulation is then removed
+ * by a moving average over one lattice period, applied twice. Units: s in
+ * pixels, intensity in the image's units.
+ */
+import { growthHalfExtent, growthNormal, type GrowthAxis } from "./geometry.ts";
+
+/** Mean intensity in 1-pixel bins of the growth coordinate s, tilted by tilt (rad); trims sparse end bins. */
+export function projectProfile(pixels: ArrayLike<number>, width: number, height: number, axis: GrowthAxis, tilt: number) {
+  const n = growthNormal(axis, tilt);
+  const half = growthHalfExtent(width, height, axis, tilt);
+  const s0 = -Math.ceil(half);
+  const bins = 2 * Math.ceil(half) + 2;
+  const sum = new Float64Array(bins);
+  const wt = new Float64Array(bins);
+  const cx = (width - 1) / 2;
+  const cy = (height - 1) / 2;
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) {
+      const u = n.x * (x - cx) + n.y * (y - cy) - s0;
+      const k = Math.floor(u);
+      const f = u - k;
+      const v = pixels[y * width + x];
+      sum[k] += (1 - f) * v;
+      wt[k] += 1 - f;
+      sum[k + 1] += f * v;
+      wt[k + 1] += f;
+    }
+  }
+  let maxW = 0;
+  for (const w of wt) maxW = Math.max(maxW, w);
+  const s: number[] = [];
+  const value: number[] = [];
+  for (let k = 0; k < bins; k++) {
+    if (wt[k] >= 0.5 * maxW) {
+      s.push(s0 + k);
+      value.push(sum[k] / wt[k]);
+    }
+  }
+  return { s, value };
+}
+
+/**
+ * Moving average over a window of `period` samples (fractional: each sample
+ * weighs its overlap with [−period/2, period/2]); ends use the available samples.
+ */
+export function periodAverage(values: number[], period: number | null): number[] {
+  if (!period || period < 1.5) return values.slice();
+  const half = period / 2;
+  const r = Math.ceil(half + 0.5);
+  const weights: number[] = [];
+  for (let j = -r; j <= r; j++) weights.push(Math.min(1, Math.max(0, half - Math.abs(j) + 0.5)));
+  return values.map((_, i) => {
+    let s = 0;
+    let w = 0;
+    for (let j = -r; j <= r; j++) {
+      const k = i + j;
+      if (k < 0 || k >= values.length) continue;
+      s += weights[j + r] * values[k];
+      w += weights[j + r];
+    }
+    return s / w;
+  });
+}
+
+/**
+ * The one-period moving average applied twice (a triangle two periods wide):
+ * a period mismatch of a few per cent leaves ~1e-4 of the fringe modulation
+ * instead of ~1e-2. Adds 2·p²/12 to the variance of an edge.
+ */
+export function smoothOverPeriod(values: number[], period: number | null): number[] {
+  return periodAverage(periodAverage(values, period), period);
+}

@@ -1,0 +1,179 @@
+/**
+ * Z-contrast (HAADF) profile across a quantum well and its interface widths.
+ *
+ * Method: (1) the fringe period along the growth direction comes from the
+ * image's Bragg spot nearest the growth axis (latticeSpacing.ts); (2) the tilt
+ * of the interfaces comes from the structure tensor of the image blurred over
+ * one lattice period (interfaceTilt); tilts beyond ±maxTilt are refused;
+ * (3) the image is averaged along the tilted interface direction into p(s)
+ * (1-pixel bins, linear weight sharing) and smoothed twice over one lattice period,
+ * which removes the atomic-plane modulation; (4) the well is the darker band
+ * (a Si well between SiGe barriers is darker in HAADF: Ge is heavier)
+ * around the profile minimum, below half-way between the minimum and the
+ * 90th-percentile level; (5) each interface is fitted with the logistic edge
+ * of sigmoidFit.ts (REFERENCES §10), 10–90 % width = 2·ln 9·τ. The two moving
+ * averages add 2·p²/12 to the edge's variance (π²τ²/3 for a logistic); this
+ * is removed: τ² ← τ_fit² − p²/(2π²).
+ *
+ * Units: s and z in the growth coordinate of geometry.ts (from the image
+ * centre, + toward the surface); widths and positions in metres, tilt in
+ * degrees. Returns { ok: false, reason } when there is no clear well or a fit
+ * fails.
+ */
+import { fitSigmoidEdge } from "../numeric/sigmoidFit.ts";
+import { cropToPowerOfTwo } from "./fft2d.ts";
+import { growthNormal, type GrowthAxis } from "./geometry.ts";
+import { projectProfile, smoothOverPeriod } from "./growthProfile.ts";
+import { interfaceTilt } from "./interfaceTilt.ts";
+import { latticeSpacing } from "./latticeSpacing.ts";
+
+export interface ZContrastOptions {
+  pixelSize_m: number;
+  growthAxis: GrowthAxis;
+  /** Lattice period along the growth axis, pixels (default: from the Fourier transform). */
+  period_px?: number;
+  /** Largest tilt corrected, degrees (default 5); beyond it the result is { ok: false }. */
+  maxTilt_deg?: number;
+  /** Tilt above which the image is flagged as tilted, degrees (default 1; the estimate scatters by ~0.2° on noisy images). */
+  tiltThreshold_deg?: number;
+  /** Use this tilt instead of searching, degrees. */
+  tilt_deg?: number;
+  /** Fit a linear background under each edge (default false). */
+  backgroundSlope?: boolean;
+}
+
+export interface InterfaceEdgeFit {
+  /** Growth coordinate of the edge centre, pixels and metres. */
+  centre_px: number;
+  centre_m: number;
+  width10to90_m: number;
+  width10to90StdErr_m: number;
+  tau_m: number;
+  r2: number;
+  /** The fitted curve over the fitted window, for plotting (z in m). */
+  curve: { z_m: number[]; value: number[] };
+}
+
+export type ZContrastResult =
+  | {
+      ok: true;
+      tilt_deg: number;
+      tilted: boolean;
+      period_px: number | null;
+      /** Profile along the growth axis: bin positions (m), raw and period-smoothed mean intensity. */
+      z_m: number[];
+      raw: number[];
+      smoothed: number[];
+      well: { bottom_px: number; top_px: number; thickness_m: number };
+      /** Lower (substrate-side) and upper (surface-side) interface of the well. */
+      bottom: InterfaceEdgeFit;
+      top: InterfaceEdgeFit;
+    }
+  | { ok: false; reason: string };
+
+/** Period (pixels) of the fringes parallel to the interfaces, or null when none within 10° of the growth axis. */
+function growthPeriod(pixels: ArrayLike<number>, width: number, height: number, axis: GrowthAxis): number | null {
+  if (width < 16 || height < 16) return null;
+  const crop = cropToPowerOfTwo(pixels, width, height);
+  const n = growthNormal(axis);
+  const r = latticeSpacing(crop.pixels, crop.width, crop.height, { direction: n });
+  if (!r.ok) return null;
+  const cos = Math.abs(r.g.x * n.x + r.g.y * n.y) * r.period_px;
+  return cos >= Math.cos((10 * Math.PI) / 180) ? r.period_px : null;
+}
+
+/** Index range [iB, iT] of the dark band around the profile minimum, or a reason. */
+function darkBand(p: number[]): { iB: number; iT: number } | { reason: string } {
+  const sorted = p.slice().sort((a, b) => a - b);
+  const hi = sorted[Math.floor(0.9 * (sorted.length - 1))];
+  let iMin = 0;
+  for (let i = 1; i < p.length; i++) if (p[i] < p[iMin]) iMin = i;
+  const lo = p[iMin];
+  const diffs = p.slice(1).map((v, i) => v - p[i]).sort((a, b) => Math.abs(a) - Math.abs(b));
+  const noise = Math.abs(diffs[Math.floor(diffs.length / 2)] ?? 0) * 1.4826 + 1e-12;
+  if (hi - lo < 10 * noise) return { reason: "no darker well band stands out of the profile noise" };
+  const thr = (hi + lo) / 2;
+  let iB = iMin;
+  let iT = iMin;
+  while (iB > 0 && p[iB - 1] < thr) iB--;
+  while (iT < p.length - 1 && p[iT + 1] < thr) iT++;
+  if (iB === 0 || iT === p.length - 1) return { reason: "the darker well band reaches the edge of the image" };
+  return { iB, iT };
+}
+
+function fitEdge(s: number[], p: number[], from: number, to: number, options: ZContrastOptions, period: number | null): InterfaceEdgeFit | string {
+  const z = s.slice(from, to + 1);
+  const v = p.slice(from, to + 1);
+  if (z.length < 8) return "too few profile points around an interface";
+  let fit;
+  try {
+    fit = fitSigmoidEdge(z, v, { slope: options.backgroundSlope ?? false });
+  } catch (e) {
+    return `interface fit failed: ${(e as Error).message}`;
+  }
+  const inside = fit.centre > z[0] && fit.centre < z[z.length - 1];
+  if (!inside || !Number.isFinite(fit.tau) || !Number.isFinite(fit.width10to90StdErr)) return "interface fit did not converge inside its window";
+  const px = options.pixelSize_m;
+  const boxVar = period ? period ** 2 / (2 * Math.PI ** 2) : 0;
+  const tau = Math.sqrt(Math.max(fit.tau ** 2 - boxVar, (0.25 * fit.tau) ** 2));
+  const ratio = tau / fit.tau;
+  // Smoothed profile points are correlated over ~2p/3 samples: widen the fit's error accordingly.
+  const correlation = period ? Math.sqrt(1.5 * period) : 1;
+  return {
+    centre_px: fit.centre,
+    centre_m: fit.centre * px,
+    width10to90_m: 2 * Math.log(9) * tau * px,
+    width10to90StdErr_m: fit.width10to90StdErr * ratio * correlation * px,
+    tau_m: tau * px,
+    r2: fit.r2,
+    curve: {
+      z_m: z.map((zz) => zz * px),
+      value: z.map((zz) => fit.base + fit.step / (1 + Math.exp(-(zz - fit.centre) / fit.tau))),
+    },
+  };
+}
+
+/**
+ * Z-contrast profile of a HAADF image across one well: tilt, profile and
+ * 10–90 % interface widths (see the module comment).
+ */
+export function zContrastProfile(pixels: ArrayLike<number>, width: number, height: number, options: ZContrastOptions): ZContrastResult {
+  if (width < 16 || height < 16) return { ok: false, reason: `image ${width}×${height} is too small for a profile (need 16×16)` };
+  if (!(options.pixelSize_m > 0)) throw new RangeError("zContrastProfile: pixelSize_m must be positive");
+  for (let i = 0; i < pixels.length; i++) if (!Number.isFinite(pixels[i])) return { ok: false, reason: "image contains non-finite pixel values" };
+  const axis = options.growthAxis;
+  const period = options.period_px ?? growthPeriod(pixels, width, height, axis);
+  const maxTilt = options.maxTilt_deg ?? 5;
+  const tilt = options.tilt_deg ?? interfaceTilt(pixels, width, height, axis, period);
+  if (Math.abs(tilt) > maxTilt) {
+    return { ok: false, reason: `interfaces are tilted by ${tilt.toFixed(1)}°, more than the ${maxTilt}° that is corrected; rotate the image first` };
+  }
+  const full = projectProfile(pixels, width, height, axis, (tilt * Math.PI) / 180);
+  // Drop the end bins, where the moving average runs out of samples.
+  const trim = period ? Math.ceil(period) + 2 : 1;
+  const smoothed = smoothOverPeriod(full.value, period).slice(trim, -trim);
+  const prof = { s: full.s.slice(trim, -trim), value: full.value.slice(trim, -trim) };
+  if (smoothed.length < 16) return { ok: false, reason: "profile is too short after smoothing" };
+  const band = darkBand(smoothed);
+  if ("reason" in band) return { ok: false, reason: band.reason };
+  const { iB, iT } = band;
+  const mid = Math.round((iB + iT) / 2);
+  const reach = iT - iB;
+  const bottom = fitEdge(prof.s, smoothed, Math.max(0, iB - reach), mid, options, period);
+  const top = fitEdge(prof.s, smoothed, mid, Math.min(smoothed.length - 1, iT + reach), options, period);
+  if (typeof bottom === "string") return { ok: false, reason: `lower interface: ${bottom}` };
+  if (typeof top === "string") return { ok: false, reason: `upper interface: ${top}` };
+  const px = options.pixelSize_m;
+  return {
+    ok: true,
+    tilt_deg: tilt,
+    tilted: Math.abs(tilt) > (options.tiltThreshold_deg ?? 1),
+    period_px: period,
+    z_m: prof.s.map((v) => v * px),
+    raw: prof.value,
+    smoothed,
+    well: { bottom_px: bottom.centre_px, top_px: top.centre_px, thickness_m: (top.centre_px - bottom.centre_px) * px },
+    bottom,
+    top,
+  };
+}

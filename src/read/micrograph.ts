@@ -1,0 +1,102 @@
+/**
+ * Reading lattice-image files: PNG, 8- or 16-bit greyscale.
+ *
+ * Decoded with pngjs (PNG.sync.read with skipRescale, so 16-bit samples keep
+ * their full range). Accepted: greyscale (colour type 0), greyscale with
+ * alpha (type 4; the alpha channel is ignored), and RGB/RGBA (types 2/6)
+ * whose red, green and blue samples are equal in every pixel (some programs
+ * save grey images that way). Rejected with a MicrographFormatError: other
+ * file formats (recognised by their first bytes), damaged PNGs, palette PNGs,
+ * bit depths other than 8 and 16, and true-colour images.
+ *
+ * Output pixels are normalised to 0…1: value / (2^bitDepth − 1), row-major.
+ */
+import { PNG } from "pngjs";
+
+/** A lattice-image file that is not an 8- or 16-bit greyscale PNG. */
+export class MicrographFormatError extends Error {
+  readonly expected: string;
+  readonly found: string;
+  readonly fix: string;
+  constructor(expected: string, found: string, fix: string) {
+    super(`expected ${expected}, found ${found}. ${fix}`);
+    this.name = "MicrographFormatError";
+    this.expected = expected;
+    this.found = found;
+    this.fix = fix;
+  }
+}
+
+export interface Micrograph {
+  width: number;
+  height: number;
+  bitDepth: 8 | 16;
+  /** Row-major intensities normalised to 0…1 (raw / (2^bitDepth − 1)). */
+  pixels: Float32Array;
+  /** How the grey values were stored. */
+  storedAs: "grey" | "grey+alpha" | "rgb-equal";
+}
+
+const EXPECTED = "a PNG image, 8- or 16-bit greyscale";
+const FIX = "Export the micrograph as an 8- or 16-bit greyscale PNG.";
+const PNG_SIGNATURE = [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a];
+
+/** Names the format of non-PNG bytes from their first bytes. */
+function describeBytes(b: Uint8Array): string {
+  if (b.length === 0) return "an empty file";
+  const hex = Array.from(b.subarray(0, 4), (v) => v.toString(16).padStart(2, "0").toUpperCase()).join(" ");
+  const starts = (...sig: number[]) => sig.every((v, i) => b[i] === v);
+  if (starts(0xff, 0xd8, 0xff)) return `JPEG data (first bytes ${hex})`;
+  if (starts(0x49, 0x49, 0x2a, 0x00) || starts(0x4d, 0x4d, 0x00, 0x2a)) return `TIFF data (first bytes ${hex})`;
+  if (starts(0x47, 0x49, 0x46, 0x38)) return `GIF data (first bytes ${hex})`;
+  if (starts(0x42, 0x4d)) return `BMP data (first bytes ${hex})`;
+  const text = b.subarray(0, 64).every((v) => v === 9 || v === 10 || v === 13 || (v >= 32 && v < 127));
+  if (text) return "text, not image data";
+  return `unrecognised data (first bytes ${hex})`;
+}
+
+/**
+ * Decodes an 8- or 16-bit greyscale PNG into normalised pixels.
+ * Throws MicrographFormatError for anything else (see the module comment).
+ */
+export function decodeMicrograph(bytes: Uint8Array): Micrograph {
+  const buf = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  if (buf.length < 8 || !PNG_SIGNATURE.every((v, i) => buf[i] === v)) {
+    throw new MicrographFormatError(EXPECTED, describeBytes(buf), FIX);
+  }
+  let png;
+  try {
+    png = PNG.sync.read(buf, { skipRescale: true });
+  } catch (e) {
+    throw new MicrographFormatError(EXPECTED, `a damaged PNG (${(e as Error).message})`, "Re-export the image file.");
+  }
+  const { width, height, depth } = png;
+  const colorType: number = png.colorType; // the typings omit palette type 3
+  if (colorType === 3 || png.palette) throw new MicrographFormatError(EXPECTED, "a palette (indexed-colour) PNG", FIX);
+  if (depth !== 8 && depth !== 16) throw new MicrographFormatError(EXPECTED, `a ${depth}-bit PNG`, FIX);
+  // After decoding, pngjs stores 4 samples per pixel (grey is copied to R, G, B).
+  const data = png.data as unknown as ArrayLike<number>;
+  const max = depth === 16 ? 65535 : 255;
+  const pixels = new Float32Array(width * height);
+  const colour = colorType === 2 || colorType === 6;
+  for (let i = 0; i < width * height; i++) {
+    const r = data[4 * i];
+    if (colour && (data[4 * i + 1] !== r || data[4 * i + 2] !== r)) {
+      const x = i % width;
+      const y = Math.floor(i / width);
+      throw new MicrographFormatError(
+        EXPECTED,
+        `a colour image (pixel (${x}, ${y}) has red, green, blue = ${r}, ${data[4 * i + 1]}, ${data[4 * i + 2]})`,
+        FIX,
+      );
+    }
+    pixels[i] = r / max;
+  }
+  return {
+    width,
+    height,
+    bitDepth: depth,
+    pixels,
+    storedAs: colour ? "rgb-equal" : colorType === 4 ? "grey+alpha" : "grey",
+  };
+}
