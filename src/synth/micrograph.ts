@@ -14,6 +14,7 @@
  * Gaussian noise are added. Lengths in metres, image in arbitrary units.
  */
 import { growthNormal, inPlaneDirection, type GrowthAxis } from "../analyse/images/geometry.ts";
+import { seededUniform as uniform } from "./random.ts";
 
 export interface SyntheticMicrographSpec {
   width: number;
@@ -72,17 +73,6 @@ export interface SyntheticMicrograph {
   truth: MicrographTruth;
 }
 
-/** mulberry32 uniform generator on [0, 1). */
-function uniform(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const logistic = (t: number) => 1 / (1 + Math.exp(-t));
 
