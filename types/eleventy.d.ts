@@ -10,5 +10,6 @@ declare module "@11ty/eleventy" {
     init(): Promise<void>;
     write(): Promise<unknown>;
     setIsVerbose(v: boolean): void;
+    disableLogger(): void;
   }
 }

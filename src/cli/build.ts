@@ -109,6 +109,7 @@ async function render(model: ReturnType<typeof buildSiteModel>, tmpDir: string):
       c.addGlobalData("wb", model);
     },
   });
+  elev.disableLogger();
   const result = (await elev.write()) as unknown;
   const written = Array.isArray(result) ? (result as unknown[]).flat(2).length : 0;
   return written;

@@ -3,7 +3,6 @@
  * errors with --strict, or nothing built; 2 bad usage.
  */
 import path from "node:path";
-import { build, BuildLockedError, readVersion } from "./build.ts";
 import { HELP, parseArgs } from "./args.ts";
 import { reportProblems, summary } from "./report.ts";
 
@@ -15,6 +14,7 @@ export async function main(argv: string[]): Promise<number> {
     out(HELP);
     return 0;
   }
+  const { build, BuildLockedError, readVersion } = await import("./build.ts");
   if (parsed.command === "version") {
     out(await readVersion());
     return 0;

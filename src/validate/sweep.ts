@@ -118,17 +118,6 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
   if (kind === "gate" && field_T === undefined) {
     throw new InputError({ file: t.file, field: "# field", message: "gate sweep without its field", expected: "a line \"# field: <value> T\" before the header", found: "none", fix: "add the field the sweep was taken at (0 T for zero field)" });
   }
-  if (kind === "field") {
-    let pos = 0;
-    let neg = 0;
-    for (const b of x) b > 0 ? pos++ : b < 0 ? neg++ : 0;
-    if (pos < 2 && neg < 2) {
-      throw new InputError({ file: t.file, field: "column B", message: "too few field values", expected: "at least two non-zero fields", found: `${x.length} rows`, fix: "check the export" });
-    }
-    if (pos === 0 || neg === 0) {
-      warnings.push({ severity: "warning", file: t.file, field: "column B", message: "field has one sign only, so Rxx and Rxy cannot be (anti)symmetrised and contact misalignment is not removed", expected: "fields of both signs", found: pos === 0 ? "negative fields only" : "positive fields only", fix: "sweep through zero to the opposite field" });
-    }
-  }
   const I = column(t, "I");
   let currentCol: Float64Array | undefined;
   if (I) {
@@ -159,6 +148,17 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
   const ok = geometry === "hall-bar" ? rxx && rxy : ra && rb && rxy;
   if (!ok) {
     throw new InputError({ file: t.file, line: t.headerLine, message: `missing a column a ${geometry} needs`, expected: need, found: t.columns.map((c) => c.name).join(", "), fix: "add the missing column, or check the device geometry in wafer.md" });
+  }
+  if (kind === "field") {
+    let pos = 0;
+    let neg = 0;
+    for (const b of x) b > 0 ? pos++ : b < 0 ? neg++ : 0;
+    if (pos + neg < 2) {
+      throw new InputError({ file: t.file, field: "column B", message: "too few field values", expected: "at least two non-zero fields", found: `${x.length} rows`, fix: "check the export" });
+    }
+    if (pos === 0 || neg === 0) {
+      warnings.push({ severity: "warning", file: t.file, field: "column B", message: "field has one sign only, so Rxx and Rxy cannot be (anti)symmetrised and contact misalignment is not removed", expected: "fields of both signs", found: pos === 0 ? "negative fields only" : "positive fields only", fix: "sweep through zero to the opposite field" });
+    }
   }
   if (current_A === undefined && currentCol) current_A = currentCol.reduce((a, b) => a + b, 0) / currentCol.length;
   return { file: t.file, kind, geometry, gate_V, field_T, temperature_K, current_A, x, rxx, rxy: rxy!, ra, rb, direction, rows: x.length, warnings };

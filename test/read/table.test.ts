@@ -1,0 +1,73 @@
+import { describe, expect, it } from "vitest";
+import { readTable } from "../../src/read/table.ts";
+import { validateSweep } from "../../src/validate/sweep.ts";
+import { InputError, formatProblem } from "../../src/validate/problem.ts";
+
+/** Runs fn and returns the formatted problem it throws. */
+function message(fn: () => unknown): string {
+  try {
+    fn();
+  } catch (e) {
+    if (e instanceof InputError) return formatProblem(e.problem);
+    throw e;
+  }
+  throw new Error("expected an InputError");
+}
+
+const good = "# gate: 350 mV\n# temperature: 1.6 K\nB [mT],Rxx [kohm],Rxy [ohm]\n-200,1.0,1200\n0,1.0,0\n200,1.0,-1200\n";
+
+describe("sweep table reader", () => {
+  it("reads metadata, units and SI prefixes (common practice: mT, kΩ, mV)", () => {
+    const s = validateSweep(readTable(good, "a.csv"), "hall-bar");
+    expect(s.kind).toBe("field");
+    expect(s.gate_V).toBeCloseTo(0.35, 12);
+    expect(s.temperature_K).toBe(1.6);
+    expect(Array.from(s.x)).toEqual([-0.2, 0, 0.2]);
+    expect(s.rxx![0]).toBe(1000);
+    expect(s.direction).toBe("up");
+  });
+  it("accepts tabs, CRLF and a byte-order mark is removed by the decoder", () => {
+    const tsv = good.replace(/,/g, "\t").replace(/\n/g, "\r\n");
+    const s = validateSweep(readTable(tsv, "a.tsv"), "hall-bar");
+    expect(s.rows).toBe(3);
+    expect(s.rxy[2]).toBe(-1200);
+  });
+  it("turns voltages into resistances with the current", () => {
+    const t = "# gate: 0.5 V\n# current: 10 nA\nB [T],Vxx [uV],Vxy [uV]\n-1,10,-60\n0,10,0\n1,10,60\n";
+    const s = validateSweep(readTable(t, "v.csv"), "hall-bar");
+    expect(s.rxx![0]).toBeCloseTo(1000, 9);
+    expect(s.rxy[2]).toBeCloseTo(6000, 9);
+  });
+  it("reads a gate sweep with its field", () => {
+    const s = validateSweep(readTable("# field: 0 T\nVg [V],Rxx [ohm],Rxy [ohm]\n1.2,100,0\n1.0,150,0\n0.8,300,1\n", "g.csv"), "hall-bar");
+    expect(s.kind).toBe("gate");
+    expect(s.field_T).toBe(0);
+    expect(s.direction).toBe("down");
+  });
+});
+
+describe("malformed sweep files give located messages", () => {
+  const cases: [string, string, string][] = [
+    ["header only", "# gate: 0.5 V\nB [T],Rxx [ohm],Rxy [ohm]\n", "h.csv:2: no data rows after the header (expected at least one row of numbers, found the header only) — add the measured rows or remove the file"],
+    ["non-numeric cell", "# gate: 0.5 V\nB [T],Rxx [ohm],Rxy [ohm]\n-1,1,2\n0,abc,0\n1,1,2\n", 'h.csv:4: column 2 (Rxx): cell is not a finite number (expected a number such as 1.25e-3, found "abc") — correct the cell'],
+    ["NaN cell", "# gate: 0.5 V\nB [T],Rxx [ohm],Rxy [ohm]\n-1,1,2\n0,NaN,0\n1,1,2\n", 'h.csv:4: column 2 (Rxx): cell is not a finite number (expected a number such as 1.25e-3, found "NaN") — remove the row, or leave out points the instrument could not measure'],
+    ["ragged row", "# gate: 0.5 V\nB [T],Rxx [ohm],Rxy [ohm]\n-1,1,2\n0,1\n", "h.csv:4: row has the wrong number of cells (expected 3 cells as in the header, found 2) — fill or remove the incomplete row"],
+    ["duplicate column", "# gate: 0.5 V\nB [T],Rxx [ohm],Rxx [ohm]\n-1,1,2\n", 'h.csv:2: column "Rxx" appears twice (expected each column once, found columns 2 and 3) — rename or remove one of them'],
+    ["unknown column", "# gate: 0.5 V\nB [T],Rxz [ohm],Rxy [ohm]\n-1,1,2\n0,1,2\n", 'h.csv:2: column 2: unknown column (expected B, Vg, Rxx, Rxy, Vxx, Vxy, I, Ra, Rb, found "Rxz") — did you mean "Rxx"?'],
+    ["wrong-dimension unit", "# gate: 0.5 V\nB [V],Rxx [ohm],Rxy [ohm]\n-1,1,2\n0,1,2\n", 'h.csv:2: column B: unit of the magnetic field is not accepted (expected T, mT, found "V") — write the header as "B [T]"'],
+    ["unsorted field", "# gate: 0.5 V\nB [T],Rxx [ohm],Rxy [ohm]\n-1,1,2\n0,1,2\n-0.5,1,2\n", "h.csv:5: column B: B is not sorted (expected B increasing throughout, as in the first rows, found 0 then -0.5) — split up and down sweeps into separate files"],
+    ["repeated field", "# gate: 0.5 V\nB [T],Rxx [ohm],Rxy [ohm]\n-1,1,2\n0,1,2\n0,1,2\n", "h.csv:5: column B: B value repeats (expected B changing from row to row, found 0 twice in a row) — average or remove the repeated reading"],
+    ["missing gate metadata", "B [T],Rxx [ohm],Rxy [ohm]\n-1,1,2\n1,1,2\n", 'h.csv: # gate: field sweep without its gate voltage (expected a line "# gate: <value> V" before the header, found none) — add the gate voltage the sweep was taken at'],
+    ["zero current", "# gate: 0.5 V\n# current: 0 nA\nB [T],Vxx [V],Vxy [V]\n-1,1,2\n1,1,2\n", "h.csv:2: # current: current is zero (expected a non-zero source current, found 0) — give the current the sample was driven with"],
+    ["missing column for geometry", "# gate: 0.5 V\nB [T],Rxy [ohm]\n-1,2\n1,2\n", "h.csv:2: missing a column a hall-bar needs (expected Rxx and Rxy (or Vxx and Vxy with a current), found B, Rxy) — add the missing column, or check the device geometry in wafer.md"],
+  ];
+  for (const [name, text, expected] of cases) {
+    it(name, () => {
+      expect(message(() => validateSweep(readTable(text, "h.csv"), "hall-bar"))).toBe(expected);
+    });
+  }
+  it("warns on a one-sign field sweep", () => {
+    const s = validateSweep(readTable("# gate: 0.5 V\nB [T],Rxx [ohm],Rxy [ohm]\n0.1,1,2\n0.2,1,2\n", "h.csv"), "hall-bar");
+    expect(s.warnings[0].message).toMatch(/one sign only/);
+  });
+});
