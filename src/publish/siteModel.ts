@@ -52,6 +52,7 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
     const members = index.filter((w) => w.run === id);
     return {
       id,
+      crumbs: [{ label: "Runs", href: `${meta.basePath}runs/` }, { label: id }],
       meta: Object.entries(notes?.meta ?? {}).map(([k, v]) => ({ key: k, value: v })),
       notesHtml: renderNotes(notes?.notes ?? ""),
       wafers: members,
@@ -61,7 +62,11 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
   const failing = index.filter((w) => w.verdict === "fail" || w.verdict === "error" || w.verdict === "incomplete");
   return {
     meta,
-    wafers: wafers.map((w) => ({ ...w, ...neighbours.get(w.id) })),
+    wafers: wafers.map((w) => ({
+      ...w,
+      ...neighbours.get(w.id),
+      crumbs: [{ label: "Wafers", href: meta.basePath }, ...(w.run ? [{ label: `Run ${w.run}`, href: `${meta.basePath}runs/${w.run}/` }] : []), { label: w.id }],
+    })),
     index,
     runs: runPages,
     failing,

@@ -30,12 +30,21 @@ export function metricRow(m: MetricJudgement): MetricRow {
     key: m.key,
     label: m.spec.label,
     value: formatValue(m.value, m.spec),
-    target: m.target ? `${m.target.text}${m.target.aggregate !== "mean" ? ` (${m.target.aggregate})` : ""}${m.target.required ? ", required" : ""}` : "—",
+    target: m.target ? targetText(m) : "—",
     verdict: m.verdict,
     reason: m.reason ?? "",
     perDevice: per.length > 1 ? per.map(([id, v]) => `${id}: ${formatNumber(v, m.spec.digits)}`).join(" · ") : "",
     description: m.spec.description,
   };
+}
+
+/** "≥ 1.00×10⁵ cm²/(V s) (max over devices, required, guard 5 %)" */
+export function targetText(m: MetricJudgement): string {
+  const t = m.target!;
+  const f = (v: number) => formatValue(v, m.spec);
+  const limit = t.min !== undefined && t.max !== undefined ? `${f(t.min)} … ${f(t.max)}` : t.min !== undefined ? `≥ ${f(t.min)}` : `≤ ${f(t.max!)}`;
+  const notes = [t.aggregate !== "mean" ? (t.aggregate === "every-device" ? "every device" : `${t.aggregate} over devices`) : "", t.required ? "required" : "", t.guardText ? `guard ${t.guardText}` : ""].filter(Boolean);
+  return notes.length ? `${limit} (${notes.join(", ")})` : limit;
 }
 
 function round(v: number | undefined, digits = 6): number | null {

@@ -8,6 +8,20 @@
   var palette = { data: "#2c5f66", second: "#b5632d", third: "#6a3c98", fit: "#1d262b", reference: "#7b8085" };
   var dashes = { data: [], second: [6, 3], third: [2, 2], fit: [8, 4], reference: [3, 3] };
   var shapes = { data: "circle", second: "rect", third: "triangle", fit: "crossRot", reference: "line" };
+  var SUP = { "-": "\u207b", "0": "\u2070", "1": "\u00b9", "2": "\u00b2", "3": "\u00b3", "4": "\u2074", "5": "\u2075", "6": "\u2076", "7": "\u2077", "8": "\u2078", "9": "\u2079" };
+  function sci(v) {
+    if (v === 0) return "0";
+    var a = Math.abs(v);
+    if (a >= 1e-3 && a < 1e5) return String(Number(v.toPrecision(3)));
+    var e = Math.floor(Math.log10(a)), m = v / Math.pow(10, e);
+    var exp = String(e).split("").map(function (c) { return SUP[c] || c; }).join("");
+    return (Math.abs(m - 1) < 1e-9 ? "" : Number(m.toPrecision(3)) + "\u00d7") + "10" + exp;
+  }
+  // Log axes: label only 1, 2 and 5 × 10^k so ticks stay readable.
+  function logTick(v) {
+    var m = v / Math.pow(10, Math.floor(Math.log10(v)));
+    return [1, 2, 5].some(function (k) { return Math.abs(m - k) < 1e-6; }) ? sci(v) : "";
+  }
   function unitOf(label) { var m = /\(([^)]*)\)\s*$/.exec(label); return m ? " " + m[1] : ""; }
   specs.forEach(function (spec) {
     var canvas = document.querySelector('canvas[data-chart="' + spec.id + '"]');
@@ -30,13 +44,13 @@
       options: {
         animation: false, maintainAspectRatio: false, responsive: true,
         scales: {
-          x: { type: spec.x.log ? "logarithmic" : "linear", title: { display: true, text: spec.x.label } },
-          y: { type: spec.y.log ? "logarithmic" : "linear", title: { display: true, text: spec.y.label } }
+          x: { type: spec.x.log ? "logarithmic" : "linear", title: { display: true, text: spec.x.label }, ticks: { callback: spec.x.log ? logTick : sci } },
+          y: { type: spec.y.log ? "logarithmic" : "linear", title: { display: true, text: spec.y.label }, ticks: { callback: spec.y.log ? logTick : sci } }
         },
         plugins: {
           legend: { labels: { usePointStyle: true } },
           tooltip: { callbacks: { label: function (c) {
-            return c.dataset.label + ": " + c.parsed.x.toPrecision(4) + unitOf(spec.x.label) + ", " + c.parsed.y.toPrecision(4) + unitOf(spec.y.label);
+            return c.dataset.label + ": " + sci(c.parsed.x) + unitOf(spec.x.label) + ", " + sci(c.parsed.y) + unitOf(spec.y.label);
           } } }
         }
       },
