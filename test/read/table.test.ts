@@ -1,18 +1,9 @@
 import { describe, expect, it } from "vitest";
 import { readTable } from "../../src/read/table.ts";
 import { validateSweep } from "../../src/validate/sweep.ts";
-import { InputError, formatProblem } from "../../src/validate/problem.ts";
+import { problemMessage } from "../helpers/problems.ts";
 
-/** Runs fn and returns the formatted problem it throws. */
-function message(fn: () => unknown): string {
-  try {
-    fn();
-  } catch (e) {
-    if (e instanceof InputError) return formatProblem(e.problem);
-    throw e;
-  }
-  throw new Error("expected an InputError");
-}
+const message = problemMessage;
 
 const good = "# gate: 350 mV\n# temperature: 1.6 K\nB [mT],Rxx [kohm],Rxy [ohm]\n-200,1.0,1200\n0,1.0,0\n200,1.0,-1200\n";
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { readFrontMatter } from "../../src/read/frontMatter.ts";
-import { formatProblem, InputError } from "../../src/validate/problem.ts";
+import { problemMessage } from "../helpers/problems.ts";
 import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
 import { validateWafer } from "../../src/validate/wafer.ts";
 
@@ -9,15 +9,7 @@ const ctx = { folder: "W-1", file: "wafers/W-1/wafer.md", today: "2026-12-01", s
 function load(text: string) {
   return validateWafer(readFrontMatter(text, ctx.file), ctx);
 }
-function message(text: string): string {
-  try {
-    load(text);
-  } catch (e) {
-    if (e instanceof InputError) return formatProblem(e.problem);
-    throw e;
-  }
-  throw new Error("expected an InputError");
-}
+const message = (text: string) => problemMessage(() => load(text));
 
 const ok = "---\nwafer: W-1\nrun: R-1\ngrown: 2025-03-14\ndevices:\n  - id: HB1\n    geometry: hall-bar\n    length_um: 100\n    width_um: 20\n    files: \"t/*.csv\"\nanalysis:\n  hall_max_field: \"150 mT\"\n---\nNotes *here*.\n";
 
