@@ -12,7 +12,7 @@ import { Eleventy } from "@11ty/eleventy";
 import { processWafer, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
 import { loadSiteInputs } from "../read/site.ts";
 import { buildSiteModel, type SiteMeta } from "../publish/siteModel.ts";
-import { resultsJson } from "../publish/waferPage.ts";
+import { resultsJson, waferPageModel } from "../publish/waferPage.ts";
 import type { Problem } from "../validate/problem.ts";
 import type { BuildOptions } from "./args.ts";
 
@@ -126,6 +126,15 @@ async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: st
       const dest = path.join(dir, "raw", ...parts.slice(2));
       await fs.mkdir(path.dirname(dest), { recursive: true });
       await fs.copyFile(path.join(dataDir, ...parts), dest);
+    }
+    const page = waferPageModel(o);
+    for (const section of [page.transportDepth, page.structure, page.images] as { files?: { path: string; bytes: Buffer }[] }[]) {
+      for (const f of section?.files ?? []) {
+        const parts = f.path.split("/");
+        if (parts[0] !== "wafers" || parts[1] !== o.folder || parts.includes("..")) throw new Error(`section file outside its wafer folder: ${f.path}`);
+        await fs.mkdir(path.dirname(path.join(tmpDir, ...parts)), { recursive: true });
+        await fs.writeFile(path.join(tmpDir, ...parts), f.bytes);
+      }
     }
   }
   const chartJs = path.join(PACKAGE_ROOT, "node_modules", "chart.js", "dist", "chart.umd.min.js");

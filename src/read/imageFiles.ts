@@ -1,11 +1,61 @@
 /**
  * Reads and validates a wafer's cross-section micrographs (`images:`).
- * Extension point filled by the lattice-image analysis.
+ *
+ * Each entry's file (relative to the wafer folder) is read as bytes through
+ * the wafer's file reader (size limit, inside the data folder, provenance),
+ * decoded as an 8- or 16-bit greyscale PNG (micrograph.ts), and its
+ * `reference` rectangle checked against the image size. A bad entry becomes
+ * a located problem of the wafer and is left out; the other images still load.
  */
 import type { WaferFileReader } from "./waferFiles.ts";
-import type { ImageInputs } from "../analyse/images/index.ts";
-import type { WaferRecord } from "../validate/wafer.ts";
+import type { ImageInputs, MicrographInput } from "../analyse/images/index.ts";
+import type { ImageSpec, WaferRecord } from "../validate/wafer.ts";
+import { InputError } from "../validate/problem.ts";
+import { decodeMicrograph, MicrographFormatError } from "./micrograph.ts";
 
-export async function loadImageInputs(_record: WaferRecord, _files: WaferFileReader): Promise<ImageInputs> {
-  return {};
+/** Decodes one image entry; throws InputError located at the file and at `images[i].…` in wafer.md. */
+async function loadOne(spec: ImageSpec, i: number, files: WaferFileReader): Promise<MicrographInput> {
+  const field = `images[${i}].file`;
+  const { rel, bytes } = await files.readBytes(spec.file, "image");
+  let img;
+  try {
+    img = decodeMicrograph(bytes);
+  } catch (e) {
+    if (!(e instanceof MicrographFormatError)) throw e;
+    throw new InputError({ file: rel, field, message: "not a greyscale PNG micrograph", expected: e.expected, found: e.found, fix: `${e.fix} (listed in ${files.recordFile} line ${files.lineOf(field) ?? "?"})` });
+  }
+  if (spec.reference) {
+    const [x0, y0, x1, y1] = spec.reference;
+    const rf = `images[${i}].reference`;
+    if (!(x1 > x0 && y1 > y0)) {
+      throw new InputError({ file: files.recordFile, line: files.lineOf(rf), field: rf, message: "reference rectangle is empty or reversed", expected: "[x0, y0, x1, y1] with x1 > x0 and y1 > y0 (pixels)", found: `[${spec.reference.join(", ")}]`, fix: "give the left, top, right and bottom edges in that order" });
+    }
+    if (x1 > img.width || y1 > img.height) {
+      throw new InputError({ file: files.recordFile, line: files.lineOf(rf), field: rf, message: "reference rectangle lies outside the image", expected: `a rectangle inside the ${img.width}×${img.height} image (x1 ≤ ${img.width}, y1 ≤ ${img.height})`, found: `[${spec.reference.join(", ")}]`, fix: "measure the reference region on this image, in pixels from its top-left corner" });
+    }
+    if (x1 - x0 < 16 || y1 - y0 < 16) {
+      throw new InputError({ file: files.recordFile, line: files.lineOf(rf), field: rf, message: "reference rectangle is too small", expected: "at least 16 × 16 pixels", found: `${x1 - x0} × ${y1 - y0} pixels`, fix: "enlarge the reference region" });
+    }
+  }
+  return {
+    file: rel,
+    index: i,
+    kind: spec.kind,
+    pixelSize_m: spec.pixel_nm * 1e-9,
+    growthAxis: spec.growth_axis,
+    reference: spec.reference,
+    width: img.width,
+    height: img.height,
+    pixels: img.pixels,
+  };
+}
+
+/** Loads every `images:` entry of a wafer record; see the module comment. */
+export async function loadImageInputs(record: WaferRecord, files: WaferFileReader): Promise<ImageInputs> {
+  const micrographs: MicrographInput[] = [];
+  for (const [i, spec] of record.images.entries()) {
+    const m = await files.guard(() => loadOne(spec, i, files));
+    if (m) micrographs.push(m);
+  }
+  return micrographs.length ? { micrographs } : {};
 }
