@@ -110,6 +110,8 @@ grades:
     peak_mobility: { min: "1.0e5 cm^2/(V s)", guard: "5 %", required: true }
     density_at_peak_mobility: { between: ["1.5e11 cm^-2", "4.5e11 cm^-2"] }
     turn_on_voltage: { between: ["0.1 V", "0.6 V"], aggregate: max }
+    interface_inplane_mismatch: { between: ["-0.3 %", "0.3 %"] }
+    interface_width_top_image: { max: "2 nm" }
   test:
     peak_mobility: { min: "3e4 cm^2/(V s)" }
     turn_on_voltage: { max: "1.0 V" }
