@@ -112,9 +112,14 @@ grades:
     turn_on_voltage: { between: ["0.1 V", "0.6 V"], aggregate: max }
     interface_inplane_mismatch: { between: ["-0.3 %", "0.3 %"] }
     interface_width_top_image: { max: "2 nm" }
+    peak_mobility_cv: { max: "4 %" }
   test:
     peak_mobility: { min: "3e4 cm^2/(V s)" }
     turn_on_voltage: { max: "1.0 V" }
+# Control charts on the trend pages: limits from the 2024 baseline wafers.
+trends:
+  baseline: { first: 8 }
+  run_length: 8
 `);
   await write("analysis.yaml", `# Site-wide analysis settings (defaults in docs/formats.md).
 hall_max_field: "0.2 T"

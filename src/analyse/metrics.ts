@@ -6,6 +6,7 @@
 import { TRANSPORT_DEPTH_METRICS } from "./transport/metrics.ts";
 import { STRUCTURE_METRICS } from "./structure/metrics.ts";
 import { IMAGE_METRICS } from "./images/metrics.ts";
+import { UNIFORMITY_METRICS } from "./uniformityMetrics.ts";
 
 import { metric, type MetricSpec } from "./metricSpec.ts";
 export type { MetricSpec };
@@ -20,7 +21,7 @@ const HALL_METRICS: MetricSpec[] = [
   m("turn_on_voltage", "Turn-on voltage", "V", 1, "transport", "gate voltage where the fitted density extrapolates to zero"),
 ];
 
-export const METRICS: MetricSpec[] = [...HALL_METRICS, ...TRANSPORT_DEPTH_METRICS, ...STRUCTURE_METRICS, ...IMAGE_METRICS];
+export const METRICS: MetricSpec[] = [...HALL_METRICS, ...TRANSPORT_DEPTH_METRICS, ...STRUCTURE_METRICS, ...IMAGE_METRICS, ...UNIFORMITY_METRICS];
 
 export const METRIC_BY_KEY: ReadonlyMap<string, MetricSpec> = new Map(METRICS.map((s) => [s.key, s]));
 

@@ -15,6 +15,8 @@ import { buildSiteModel, type SiteMeta } from "../publish/siteModel.ts";
 import { resultsJson, waferPageModel } from "../publish/waferPage.ts";
 import type { Problem } from "../validate/problem.ts";
 import type { BuildOptions } from "./args.ts";
+import { loadDataHistory } from "../read/history.ts";
+import { writeExports } from "./writeExports.ts";
 
 export const PACKAGE_ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "../..");
 
@@ -87,10 +89,12 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     if (site.waferFolders.length === 0 && site.problems.some((p) => p.severity === "error")) {
       return { ok: false, outcomes, problems, outDir, pages: 0 };
     }
-    const meta: SiteMeta = { title: "waferbook", version, builtAt: io.now(), basePath: options.basePath };
-    const model = buildSiteModel(outcomes, site.runs, site.problems, meta);
+    const history = await loadDataHistory(dataDir);
+    const meta: SiteMeta = { title: "waferbook", version, builtAt: io.now(), basePath: options.basePath, dataCommit: history?.head ?? null };
+    const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history });
     const pages = await render(model, tmpDir);
-    await writeExtras(outcomes, dataDir, tmpDir);
+    await writeExtras(outcomes, dataDir, tmpDir, meta.dataCommit ?? null);
+    await writeExports(outcomes, tmpDir, meta);
     await swapInto(tmpDir, outDir);
     return { ok: true, outcomes, problems, outDir, pages };
   } finally {
@@ -115,11 +119,11 @@ async function render(model: ReturnType<typeof buildSiteModel>, tmpDir: string):
   return written;
 }
 
-async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string): Promise<void> {
+async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string, dataCommit: string | null): Promise<void> {
   for (const o of outcomes) {
     const dir = path.join(tmpDir, "wafers", o.folder);
     await fs.mkdir(dir, { recursive: true });
-    await fs.writeFile(path.join(dir, "results.json"), JSON.stringify(resultsJson(o), null, 1) + "\n");
+    await fs.writeFile(path.join(dir, "results.json"), JSON.stringify(resultsJson(o, dataCommit), null, 1) + "\n");
     for (const f of o.provenance.files) {
       const parts = f.path.split("/");
       if (parts[0] !== "wafers" || parts[1] !== o.folder) continue;

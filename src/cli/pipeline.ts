@@ -11,6 +11,7 @@ import { formatProblem, type Problem } from "../validate/problem.ts";
 import type { WaferRecord } from "../validate/wafer.ts";
 import type { Targets } from "../validate/targets.ts";
 import { SETTING_SPECS } from "../validate/settings.ts";
+import { uniformityMetrics } from "../analyse/uniformityMetrics.ts";
 
 export interface Provenance {
   files: RawFileInfo[];
@@ -39,6 +40,7 @@ export function metricValues(analysis: WaferAnalysis): Record<string, MetricValu
   for (const section of [analysis.structure, analysis.images]) {
     for (const [k, v] of Object.entries(section?.metrics ?? {})) (values[k] ??= { perDevice: {} }).wafer = v;
   }
+  for (const [k, v] of Object.entries(uniformityMetrics(analysis.devices))) (values[k] ??= { perDevice: {} }).wafer = v;
   return values;
 }
 

@@ -12,8 +12,12 @@ export interface ChartSeries {
   points: [number, number][];
   /** Draw as a line (true) or as markers (false). */
   line: boolean;
-  /** Role picks the colour from the site palette: data, fit, reference, second. */
-  role?: "data" | "fit" | "second" | "third" | "reference";
+  /** Role picks the colour from the site palette: data, fit, reference, second; "flag" rings points flagged by a rule. */
+  role?: "data" | "fit" | "second" | "third" | "reference" | "flag";
+  /** Per point (same order as `points`): a link opened when the point is clicked (e.g. the wafer's page). */
+  links?: string[];
+  /** Per point: a tooltip line naming it (e.g. "TQ-2403 · run TQ24-A"). */
+  tips?: string[];
 }
 
 export interface ChartLimit {
@@ -26,7 +30,8 @@ export interface ChartLimit {
 export interface ChartSpec {
   id: string;
   title: string;
-  x: { label: string; log?: boolean };
+  /** `dates: true`: x values are days since 1970-01-01 (UTC), ticks and tooltips show YYYY-MM-DD. */
+  x: { label: string; log?: boolean; dates?: boolean };
   y: { label: string; log?: boolean };
   series: ChartSeries[];
   /** Target limits drawn as lines, pass region shaded. */

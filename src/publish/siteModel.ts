@@ -11,6 +11,18 @@ import { renderNotes } from "./markdown.ts";
 import { waferPageModel } from "./waferPage.ts";
 import type { Verdict } from "../judge/verdict.ts";
 import { VERDICT_RANK } from "../judge/verdict.ts";
+import type { Targets } from "../validate/targets.ts";
+import type { DataHistory } from "../read/history.ts";
+import { trendsModel } from "./trends.ts";
+import { targetsPageModel } from "./targetsPage.ts";
+import { changesModel, waferHistoryModel } from "./history.ts";
+import { runComparisons } from "./runSummary.ts";
+
+/** Site-wide inputs beyond the wafers: the targets in force and the data repository's history. */
+export interface SiteExtras {
+  targets?: Targets;
+  history?: DataHistory | null;
+}
 
 /** Metrics shown as columns of the index table. */
 export const INDEX_METRICS = ["peak_mobility", "density_at_peak_mobility", "turn_on_voltage"];
@@ -25,7 +37,7 @@ export interface SiteMeta {
   dataCommit?: string | null;
 }
 
-export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNotes>, siteProblems: Problem[], meta: SiteMeta) {
+export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNotes>, siteProblems: Problem[], meta: SiteMeta, extras: SiteExtras = {}) {
   const sorted = [...outcomes].sort((a, b) => (a.record?.grown ?? "").localeCompare(b.record?.grown ?? "") || a.folder.localeCompare(b.folder));
   const wafers = sorted.map(waferPageModel);
   // Previous/next within a run, in growth order.
@@ -47,10 +59,13 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
     }),
   }));
   const runIds = [...new Set([...byRun.keys(), ...runs.keys()])].sort();
+  const judged = (o: WaferOutcome) => Object.fromEntries(o.judgement.metrics.map((m) => [m.key, m.value]));
+  const comparisons = runComparisons(runIds.map((id) => ({ id, started: runs.get(id)?.meta.started, wafers: sorted.filter((o) => o.record?.run === id).map((o) => ({ grown: o.record?.grown ?? "", values: judged(o) })) })));
   const runPages = runIds.map((id) => {
     const notes = runs.get(id);
     const members = index.filter((w) => w.run === id);
     return {
+      comparison: comparisons.get(id)!,
       id,
       crumbs: [{ label: "Runs", href: `${meta.basePath}runs/` }, { label: id }],
       meta: Object.entries(notes?.meta ?? {}).map(([k, v]) => ({ key: k, value: v })),
@@ -60,13 +75,19 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
     };
   });
   const failing = index.filter((w) => w.verdict === "fail" || w.verdict === "error" || w.verdict === "incomplete");
+  const history = extras.history ?? null;
+  const historyOf = (o: WaferOutcome) => waferHistoryModel(history, o.folder, { values: o.values, grade: o.record?.grade, waivers: o.record?.waivers ?? [], hasErrors: o.judgement.verdict === "error" });
   return {
     meta,
-    wafers: wafers.map((w) => ({
+    wafers: wafers.map((w, i) => ({
       ...w,
       ...neighbours.get(w.id),
+      history: historyOf(sorted[i]),
       crumbs: [{ label: "Wafers", href: meta.basePath }, ...(w.run ? [{ label: `Run ${w.run}`, href: `${meta.basePath}runs/${w.run}/` }] : []), { label: w.id }],
     })),
+    trends: trendsModel(index.map((w, i) => ({ id: w.id, grown: w.grown, run: w.run, reactor: w.reactor, values: judged(sorted[i]) })), extras.targets, meta.basePath),
+    targets: targetsPageModel(extras.targets),
+    changes: changesModel(history, sorted.map((o) => o.folder), meta.basePath),
     index,
     runs: runPages,
     failing,

@@ -12,6 +12,7 @@ import { renderNotes } from "./markdown.ts";
 import { structureSection } from "./structureSection.ts";
 import { imagesSection } from "./imagesSection.ts";
 import { transportDepthSection } from "./transportDepthSection.ts";
+import { uniformitySection } from "./uniformitySection.ts";
 
 export interface MetricRow {
   key: string;
@@ -51,7 +52,7 @@ function round(v: number | undefined, digits = 6): number | null {
   return v === undefined || !Number.isFinite(v) ? null : Number(v.toPrecision(digits));
 }
 
-export function resultsJson(o: WaferOutcome): unknown {
+export function resultsJson(o: WaferOutcome, dataCommit: string | null = null): unknown {
   const metrics: Record<string, unknown> = {};
   for (const m of o.judgement.metrics) {
     metrics[m.key] = { value: round(m.value), unit: m.spec.unit, verdict: m.verdict, target: m.target ? { min: round(m.target.min), max: round(m.target.max), text: m.target.text, guard: m.target.guardText ?? null, required: m.target.required, aggregate: m.target.aggregate } : null, reason: m.reason ?? null, waiver: m.waiver ?? null };
@@ -83,7 +84,7 @@ export function resultsJson(o: WaferOutcome): unknown {
     })),
     errors: o.problems.filter((p) => p.severity === "error").map(problemJson),
     warnings: o.problems.filter((p) => p.severity === "warning").map(problemJson),
-    provenance: o.provenance,
+    provenance: { ...o.provenance, dataCommit },
   };
 }
 
@@ -133,6 +134,7 @@ export function waferPageModel(o: WaferOutcome) {
   const transportDepth = transportDepthSection(o);
   const structure = structureSection(o);
   const images = imagesSection(o);
+  const uniformity = uniformitySection(o);
   return {
     id: o.folder,
     run: r?.run,
@@ -169,6 +171,7 @@ export function waferPageModel(o: WaferOutcome) {
     transportDepth,
     structure,
     images,
+    uniformity,
     /** Every chart on the page, for the one JSON block the chart script reads. */
     charts: [...transportCharts, ...(transportDepth?.charts ?? []), ...(structure?.charts ?? []), ...(images?.charts ?? [])],
     units: { mobility: prettyUnit("cm^2/(V s)"), density: prettyUnit("cm^-2") },

@@ -14,6 +14,7 @@ import { lineOfField } from "../read/frontMatter.ts";
 import { METRIC_BY_KEY } from "../analyse/metrics.ts";
 import { didYouMean, InputError, show } from "./problem.ts";
 import { parseQuantity } from "./units.ts";
+import { readTrendSettings, type TrendSettings } from "./trendSettings.ts";
 
 export type Aggregate = "mean" | "min" | "max" | "every-device";
 
@@ -35,6 +36,8 @@ export interface Targets {
   defaultGrade: string;
   grades: Record<string, Record<string, Target>>;
   file: string;
+  /** The optional `trends:` block (control-chart baseline and rule settings). */
+  trends?: TrendSettings;
 }
 
 const TARGET_KEYS = ["min", "max", "between", "guard", "required", "aggregate", "note"];
@@ -46,9 +49,9 @@ export function validateTargets(raw: unknown, file: string, yamlText: string): T
   }
   const r = raw as Record<string, unknown>;
   for (const k of Object.keys(r)) {
-    if (k !== "default_grade" && k !== "grades") {
-      const hint = didYouMean(k, ["default_grade", "grades"]);
-      throw new InputError({ file, line: lineOf(k), field: k, message: "unknown key", expected: "default_grade or grades", found: JSON.stringify(k), fix: hint ? `did you mean "${hint}"?` : "remove it" });
+    if (k !== "default_grade" && k !== "grades" && k !== "trends") {
+      const hint = didYouMean(k, ["default_grade", "grades", "trends"]);
+      throw new InputError({ file, line: lineOf(k), field: k, message: "unknown key", expected: "default_grade, grades or trends", found: JSON.stringify(k), fix: hint ? `did you mean "${hint}"?` : "remove it" });
     }
   }
   if (!r.grades || typeof r.grades !== "object" || Array.isArray(r.grades)) {
@@ -68,7 +71,7 @@ export function validateTargets(raw: unknown, file: string, yamlText: string): T
   if (typeof defaultGrade !== "string" || !(defaultGrade in grades)) {
     throw new InputError({ file, line: lineOf("default_grade"), field: "default_grade", message: "default grade is not one of the grades", expected: Object.keys(grades).join(", "), found: show(defaultGrade), fix: "name one of the grades defined below" });
   }
-  return { defaultGrade, grades, file };
+  return { defaultGrade, grades, file, trends: readTrendSettings(r.trends, file, lineOf) };
 }
 
 function readTarget(metric: string, spec: unknown, where: { file: string; field: string; line?: number }): Target {

@@ -1,0 +1,16 @@
+/** Writes the export files (results.csv, results.json, per-wafer points.csv) into the site being built. */
+import { promises as fs } from "node:fs";
+import path from "node:path";
+import type { WaferOutcome } from "./pipeline.ts";
+import { allResultsJson, pointsCsv, resultsCsv } from "../publish/exports.ts";
+
+export async function writeExports(outcomes: readonly WaferOutcome[], outDir: string, meta: { version: string; builtAt: string; dataCommit?: string | null }): Promise<void> {
+  const sorted = [...outcomes].sort((a, b) => (a.record?.grown ?? "").localeCompare(b.record?.grown ?? "") || a.folder.localeCompare(b.folder));
+  await fs.writeFile(path.join(outDir, "results.csv"), resultsCsv(sorted));
+  await fs.writeFile(path.join(outDir, "results.json"), JSON.stringify(allResultsJson(sorted, meta), null, 1) + "\n");
+  for (const o of outcomes) {
+    const dir = path.join(outDir, "wafers", o.folder);
+    await fs.mkdir(dir, { recursive: true });
+    await fs.writeFile(path.join(dir, "points.csv"), pointsCsv(o));
+  }
+}

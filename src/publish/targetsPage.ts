@@ -1,0 +1,39 @@
+/**
+ * Page model of /targets/: the grades and limits in force (with guard band,
+ * required, aggregate), the trend settings, and every registered metric with
+ * its unit and description.
+ */
+import { METRICS, METRIC_BY_KEY } from "../analyse/metrics.ts";
+import type { Targets } from "../validate/targets.ts";
+import { DEFAULT_TREND_SETTINGS } from "../validate/trendSettings.ts";
+import { describeBaseline } from "../judge/trends.ts";
+import { formatValue, prettyUnit } from "./format.ts";
+
+export function targetsPageModel(targets: Targets | undefined) {
+  const grades = Object.entries(targets?.grades ?? {}).map(([name, limits]) => ({
+    name,
+    isDefault: name === targets?.defaultGrade,
+    rows: Object.values(limits).map((t) => {
+      const spec = METRIC_BY_KEY.get(t.metric)!;
+      return {
+        key: t.metric,
+        label: spec.label,
+        limit: t.text,
+        lower: t.min === undefined ? "—" : formatValue(t.min, spec),
+        upper: t.max === undefined ? "—" : formatValue(t.max, spec),
+        guard: t.guard === undefined ? "—" : `${t.guardText} (${formatValue(t.guard, spec)})`,
+        required: t.required ? "yes" : "no",
+        aggregate: spec.section === "transport" || spec.section === "uniformity" ? t.aggregate : "wafer-level",
+      };
+    }),
+  }));
+  const trends = targets?.trends ?? DEFAULT_TREND_SETTINGS;
+  return {
+    present: targets !== undefined,
+    file: targets?.file ?? "targets.yaml",
+    defaultGrade: targets?.defaultGrade ?? "",
+    grades,
+    trends: { baseline: describeBaseline(trends), runLength: trends.runLength },
+    metrics: METRICS.map((m) => ({ key: m.key, label: m.label, unit: prettyUnit(m.unit) || "—", rawUnit: m.unit, section: m.section, description: m.description })),
+  };
+}

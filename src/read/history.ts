@@ -1,0 +1,63 @@
+/**
+ * The data repository's history for the site: HEAD commit, the commits that
+ * touched the data folder, and every version of targets.yaml (parsed, or the
+ * reason it no longer parses). Read with the `git` command through
+ * src/read/gitHistory.ts; returns null — never throws — when git is missing,
+ * the data folder is not inside a work tree, or git fails, so the site still
+ * builds without history.
+ */
+import { commitsChangingFile, fileAtCommit, findRepo, listCommits, defaultGitRunner, type GitCommit, type GitRunner } from "./gitHistory.ts";
+import { readYaml } from "./frontMatter.ts";
+import { validateTargets, type Targets } from "../validate/targets.ts";
+import { formatProblem, InputError } from "../validate/problem.ts";
+
+export interface TargetsVersion {
+  hash: string;
+  shortHash: string;
+  /** Committer date, ISO 8601 (when this version came into force in the repository). */
+  date: string;
+  subject: string;
+  /** The targets as they stood at this commit, or why that file no longer parses (or was absent). */
+  targets?: Targets;
+  error?: string;
+}
+
+export interface DataHistory {
+  /** Full hash of HEAD, or null in a repository without commits. */
+  head: string | null;
+  /** Commits touching the data folder, newest first. */
+  commits: GitCommit[];
+  /** Versions of targets.yaml, newest first. */
+  targetsVersions: TargetsVersion[];
+}
+
+/** Most commits read; older history is left out of the pages. */
+export const MAX_COMMITS = 2000;
+
+/** Parses targets.yaml text as it stood at a commit; the reason in plain words when it does not parse. */
+export function parseOldTargets(text: string | null): { targets?: Targets; error?: string } {
+  if (text === null) return { error: "targets.yaml did not exist at this commit" };
+  try {
+    return { targets: validateTargets(readYaml(text, "targets.yaml"), "targets.yaml", text) };
+  } catch (err) {
+    if (err instanceof InputError) return { error: `no longer parses: ${formatProblem(err.problem)}` };
+    return { error: `no longer parses: ${(err as Error).message}` };
+  }
+}
+
+/** Reads the data folder's git history; null when there is none to read. */
+export async function loadDataHistory(dataDir: string, run: GitRunner = defaultGitRunner): Promise<DataHistory | null> {
+  try {
+    const repo = await findRepo(dataDir, run);
+    if (!repo) return null;
+    const commits = await listCommits(repo, { maxCount: MAX_COMMITS });
+    const targetsVersions: TargetsVersion[] = [];
+    for (const c of await commitsChangingFile(repo, "targets.yaml")) {
+      const parsed = parseOldTargets(await fileAtCommit(repo, c.hash, "targets.yaml"));
+      targetsVersions.push({ hash: c.hash, shortHash: c.shortHash, date: c.committedAt, subject: c.subject, ...parsed });
+    }
+    return { head: repo.head, commits, targetsVersions };
+  } catch {
+    return null;
+  }
+}

@@ -1,0 +1,96 @@
+// Builds the demo data with --base /qual/ and checks every internal link; checks the export files' shape.
+// No published values: the expectations are this program's own URL and file layout (docs/publishing.md).
+import { mkdtempSync, readdirSync, readFileSync, rmSync, statSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { build, PACKAGE_ROOT } from "../../src/cli/build.ts";
+import { parseArgs } from "../../src/cli/args.ts";
+
+function walk(dir: string): string[] {
+  return readdirSync(dir).flatMap((n) => {
+    const p = path.join(dir, n);
+    return statSync(p).isDirectory() ? walk(p) : [p];
+  });
+}
+
+describe("site built with --base /qual/", () => {
+  let root = "";
+  let out = "";
+  beforeAll(async () => {
+    root = mkdtempSync(path.join(tmpdir(), "wb-links-"));
+    out = path.join(root, "site");
+    const args = parseArgs(["build", "--data", path.join(PACKAGE_ROOT, "data"), "--out", out, "--base", "qual", "--quiet"]);
+    if (args.command !== "build") throw new Error("bad args");
+    const r = await build(args.options, { log: () => {}, today: () => "2026-01-01", now: () => "2026-01-01T00:00:00Z" });
+    expect(r.ok).toBe(true);
+  });
+  afterAll(() => rmSync(root, { recursive: true, force: true }));
+
+  it("every href/src is under /qual/, relative, an in-page anchor or a data: URL", () => {
+    const pages = walk(out).filter((f) => f.endsWith(".html"));
+    expect(pages.length).toBeGreaterThan(20);
+    const bad: string[] = [];
+    let checked = 0;
+    for (const f of pages) {
+      const html = readFileSync(f, "utf8");
+      for (const m of html.matchAll(/\s(?:href|src)="([^"]*)"/g)) {
+        const url = m[1];
+        checked++;
+        const ok = url.startsWith("/qual/") || url.startsWith("#") || url.startsWith("data:") || !/^([a-z][a-z0-9+.-]*:|\/)/i.test(url);
+        if (!ok) bad.push(`${path.relative(out, f)}: ${url}`);
+      }
+    }
+    expect(checked).toBeGreaterThan(500);
+    expect(bad).toEqual([]);
+  });
+
+  it("every /qual/ link points at a file that exists in the output", () => {
+    const missing = new Set<string>();
+    for (const f of walk(out).filter((x) => x.endsWith(".html"))) {
+      for (const m of readFileSync(f, "utf8").matchAll(/\s(?:href|src)="(\/qual\/[^"#]*)/g)) {
+        let rel = m[1].slice("/qual/".length);
+        if (rel === "" || rel.endsWith("/")) rel += "index.html";
+        try {
+          statSync(path.join(out, rel));
+        } catch {
+          missing.add(m[1]);
+        }
+      }
+    }
+    expect([...missing]).toEqual([]);
+  });
+
+  it("every section has an id (an anchor)", () => {
+    for (const f of walk(out).filter((x) => x.endsWith(".html"))) {
+      const html = readFileSync(f, "utf8");
+      const sections = [...html.matchAll(/<section\b([^>]*)>/g)];
+      for (const s of sections) expect(s[1], path.relative(out, f)).toMatch(/\bid="[^"]+"/);
+    }
+  });
+
+  it("results.csv and results.json: one row per wafer, one column per metric with its unit", () => {
+    const csv = readFileSync(path.join(out, "results.csv"), "utf8").trimEnd().split("\r\n");
+    const header = csv[0].split(",");
+    expect(header.slice(0, 6)).toEqual(["wafer", "run", "grown", "reactor", "grade", "verdict"]);
+    expect(header).toContain("peak_mobility [cm^2/(V s)]");
+    expect(header).toContain("peak_mobility_cv [%]");
+    const wafers = readdirSync(path.join(PACKAGE_ROOT, "data", "wafers"));
+    expect(csv.length - 1).toBe(wafers.length);
+    for (const line of csv.slice(1)) expect(line.split(",").length).toBe(header.length);
+    const json = JSON.parse(readFileSync(path.join(out, "results.json"), "utf8"));
+    expect(json.wafers.length).toBe(wafers.length);
+    expect(json.units.peak_mobility).toBe("cm^2/(V s)");
+    expect(Object.keys(json.wafers[0].metrics)).toEqual(Object.keys(json.units));
+    expect(json).toHaveProperty("dataCommit");
+  });
+
+  it("per-wafer points.csv and results.json with the data commit in provenance", () => {
+    const dir = path.join(out, "wafers", "TQ-2403");
+    const pts = readFileSync(path.join(dir, "points.csv"), "utf8").trimEnd().split("\r\n");
+    expect(pts[0]).toBe("device,file,gate [V],density [cm^-2],mobility [cm^2/(V s)],sheet_resistance [ohm/sq],hall_fit_r2,hall_fit_poor,symmetrised");
+    expect(pts.length).toBeGreaterThan(5);
+    const r = JSON.parse(readFileSync(path.join(dir, "results.json"), "utf8"));
+    expect(r.provenance).toHaveProperty("dataCommit");
+  });
+});
