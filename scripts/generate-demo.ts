@@ -16,6 +16,7 @@ import { ELEMENTARY_CHARGE } from "../src/physics/constants.ts";
 import { formatSweep, hallSweepRows } from "../src/synth/hallSweep.ts";
 import { seededUniform } from "../src/synth/random.ts";
 import { demoExtras } from "./demo/extras.ts";
+import { wellThicknessNm } from "./demo/structure.ts";
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 const dataDir = process.argv[2] ? path.resolve(process.argv[2]) : path.join(root, "data");
@@ -81,7 +82,7 @@ function waferMd(w: DemoWafer, devices: { id: string; geometry: string; at: [num
   if (w.grade) lines.push(`grade: ${w.grade}`);
   lines.push(`reactor: ${RUNS[w.run].reactor}`);
   lines.push("stack:");
-  const well = w.run === "TQ25-B" ? 8 : 10;
+  const well = wellThicknessNm(w);
   for (const [name, role, mat, ge, t] of [["cap", "cap", "Si", 0, 1], ["upper barrier", "barrier", "Si0.7Ge0.3", 0.3, 45], ["well", "well", "Si", 0, well], ["lower barrier", "barrier", "Si0.7Ge0.3", 0.3, 300], ["graded buffer", "buffer", "SiGe 0→0.3", 0.3, 3000], ["substrate", "substrate", "Si(001)", 0, 725000]] as const) {
     lines.push(`  - { name: ${name}, role: ${role}, material: "${mat}", ge: ${ge}, thickness_nm: ${t} }`);
   }
@@ -113,6 +114,11 @@ grades:
     interface_inplane_mismatch: { between: ["-0.3 %", "0.3 %"] }
     interface_width_top_image: { max: "2 nm" }
     peak_mobility_cv: { max: "4 %" }
+    buffer_relaxation: { min: "70 %" }
+    critical_thickness_margin: { min: "0 nm" }
+    interface_width_top: { max: "3 nm" }
+    interface_width_bottom: { max: "3 nm" }
+    peak_O: { max: "1e18 cm^-3" }
   test:
     peak_mobility: { min: "3e4 cm^2/(V s)" }
     turn_on_voltage: { max: "1.0 V" }

@@ -9,7 +9,7 @@ import { formatProblem } from "../validate/problem.ts";
 import { formatNumber, formatValue, prettyUnit } from "./format.ts";
 import { markerSeries, traceSeries, type ChartSpec } from "./charts.ts";
 import { renderNotes } from "./markdown.ts";
-import { structureSection } from "./structureSection.ts";
+import { structureResults, structureSection } from "./structureSection.ts";
 import { imagesSection } from "./imagesSection.ts";
 import { transportDepthSection } from "./transportDepthSection.ts";
 import { uniformitySection } from "./uniformitySection.ts";
@@ -82,6 +82,7 @@ export function resultsJson(o: WaferOutcome, dataCommit: string | null = null): 
       skipped: d.skipped,
       metrics: Object.fromEntries(Object.entries(d.metrics).map(([k, v]) => [k, round(v)])),
     })),
+    structure: structureResults(o),
     errors: o.problems.filter((p) => p.severity === "error").map(problemJson),
     warnings: o.problems.filter((p) => p.severity === "warning").map(problemJson),
     provenance: { ...o.provenance, dataCommit },

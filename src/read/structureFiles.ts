@@ -1,12 +1,38 @@
 /**
  * Reads and validates a wafer's X-ray diffraction files (`xrd.files`) and
- * composition depth profiles (`profiles.files`). Extension point filled by the
- * structure analysis (issue: strain and interface figures).
+ * composition depth profiles (`profiles.files`): each matched file is read as
+ * text, split by readTable and validated (src/validate/xrd.ts,
+ * src/validate/depthProfile.ts). A broken file becomes a located problem of
+ * this wafer; the other files are still read.
  */
 import type { WaferFileReader } from "./waferFiles.ts";
 import type { StructureInputs } from "../analyse/structure/index.ts";
 import type { WaferRecord } from "../validate/wafer.ts";
+import { validateXrd, type XrdFile } from "../validate/xrd.ts";
+import { validateDepthProfile, type DepthProfileFile } from "../validate/depthProfile.ts";
+import { readTable } from "./table.ts";
 
-export async function loadStructureInputs(_record: WaferRecord, _files: WaferFileReader): Promise<StructureInputs> {
-  return {};
+export async function loadStructureInputs(record: WaferRecord, files: WaferFileReader): Promise<StructureInputs> {
+  const xrd: XrdFile[] = [];
+  const profiles: DepthProfileFile[] = [];
+  const names = record.stack.map((l) => l.name);
+  if (record.xrd) {
+    for (const rel of files.glob(record.xrd.files, "xrd.files")) {
+      const f = await files.guard(async () => {
+        const { rel: path, text } = await files.readText(rel, "xrd");
+        return validateXrd(readTable(text, path), names);
+      });
+      if (f) xrd.push(f);
+    }
+  }
+  if (record.profiles) {
+    for (const rel of files.glob(record.profiles.files, "profiles.files")) {
+      const f = await files.guard(async () => {
+        const { rel: path, text } = await files.readText(rel, "depth profile");
+        return validateDepthProfile(readTable(text, path));
+      });
+      if (f) profiles.push(f);
+    }
+  }
+  return { xrd, profiles };
 }

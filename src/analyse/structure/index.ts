@@ -1,19 +1,130 @@
 /**
  * Structure analysis of one wafer: X-ray diffraction (buffer composition and
- * relaxation, well strain), critical thickness, depth profiles. Extension point:
- * inputs from src/read/structureFiles.ts, metrics in ./metrics.ts.
+ * relaxation, well strain), critical thickness of the well, depth profiles
+ * (interface widths, well thickness, barrier Ge, contaminants), and the
+ * comparison of measured with design (stack) values. Inputs from
+ * src/read/structureFiles.ts, metrics in ./metrics.ts. Pure; SI inside, metric
+ * values in each metric's unit.
  */
 import type { Layer } from "../../validate/wafer.ts";
 import type { AnalysisSettings } from "../../validate/settings.ts";
+import type { XrdFile } from "../../validate/xrd.ts";
+import type { DepthProfileFile } from "../../validate/depthProfile.ts";
+import { toMetricUnit } from "../metrics.ts";
+import { analyseDepthProfile, type DepthProfileResult } from "./depthProfile.ts";
+import { analyseXrd, type XrdAnalysis } from "./xrdAnalysis.ts";
+import { checkCriticalThickness, type CriticalThicknessCheck } from "./criticalThicknessCheck.ts";
+import { REGISTERED_CONTAMINANTS } from "./metrics.ts";
+import { strainedSiOnRelaxedSiGe } from "../../physics/sige.ts";
 
-// eslint-disable-next-line @typescript-eslint/no-empty-object-type
-export interface StructureInputs {}
+export interface StructureInputs {
+  xrd?: XrdFile[];
+  profiles?: DepthProfileFile[];
+}
+
+export interface ProfileAnalysis {
+  data: DepthProfileFile;
+  result: DepthProfileResult;
+}
+
+/** One line of the design-versus-measured table; values in `unit`. */
+export interface DesignRow {
+  quantity: string;
+  unit: string;
+  design?: number;
+  measured?: number;
+  measuredStdErr?: number;
+  source: string;
+}
+
+export interface Finding {
+  severity: "flag" | "note";
+  text: string;
+}
 
 export interface StructureAnalysis {
   /** Wafer-level metric values in each metric's unit. */
   metrics: Record<string, number>;
+  xrd?: XrdAnalysis;
+  profiles: ProfileAnalysis[];
+  critical: CriticalThicknessCheck;
+  design: DesignRow[];
+  findings: Finding[];
+  /** Peak contaminant level in or near the well per element (all elements, registered or not), cm⁻³. */
+  contaminantPeaks: Record<string, number>;
 }
 
-export function analyseStructure(_inputs: StructureInputs, _stack: Layer[], _settings: AnalysisSettings): StructureAnalysis | undefined {
-  return undefined;
+const layerOf = (stack: readonly Layer[], role: Layer["role"]) => stack.find((l) => l.role === role);
+
+function contaminantPeaks(p: ProfileAnalysis | undefined): Record<string, number> {
+  const out: Record<string, number> = {};
+  if (!p?.result.ok) return out;
+  for (const c of p.result.contaminants) {
+    const v = Math.max(c.insidePeak ?? -Infinity, c.nearPeak ?? -Infinity);
+    if (Number.isFinite(v)) out[c.element] = v;
+  }
+  return out;
+}
+
+function designRows(stack: readonly Layer[], xrd: XrdAnalysis | undefined, prof: ProfileAnalysis | undefined, crit: CriticalThicknessCheck): DesignRow[] {
+  const rows: DesignRow[] = [];
+  const buffer = layerOf(stack, "buffer");
+  const barrier = layerOf(stack, "barrier");
+  const well = layerOf(stack, "well");
+  const b = xrd?.buffer.ok ? xrd.buffer : undefined;
+  rows.push({ quantity: "Buffer Ge fraction", unit: "1", design: buffer?.ge, measured: b?.geFraction, measuredStdErr: b?.geFractionStdErr, source: "X-ray 004 + 224" });
+  rows.push({ quantity: "Buffer relaxation", unit: "%", measured: b && b.relaxation * 100, measuredStdErr: b && b.relaxationStdErr * 100, source: "X-ray 224" });
+  const s = xrd?.strain.ok ? xrd.strain : undefined;
+  rows.push({ quantity: "Well in-plane strain", unit: "%", design: buffer?.ge !== undefined ? strainedSiOnRelaxedSiGe(buffer.ge).epsParallel * 100 : undefined, measured: s && s.epsParallel * 100, measuredStdErr: s && s.epsParallelStdErr * 100, source: s ? (s.source === "well-peak" ? "well peak" : "buffer a∥, well assumed pseudomorphic") : "—" });
+  const r = prof?.result.ok ? prof.result : undefined;
+  rows.push({ quantity: "Well thickness", unit: "nm", design: well?.thickness_nm, measured: r?.wellThickness, measuredStdErr: r?.wellThicknessStdErr, source: prof ? `${prof.data.method} profile` : "—" });
+  rows.push({ quantity: "Barrier Ge fraction", unit: "1", design: barrier?.ge, measured: r?.barrierGeFraction, source: prof ? `${prof.data.method} profile` : "—" });
+  rows.push({ quantity: "Minimum Ge in the well", unit: "1", design: well?.ge, measured: r?.wellGeMin, source: prof ? `${prof.data.method} profile` : "—" });
+  return rows;
+}
+
+function findings(xrd: XrdAnalysis | undefined, profiles: ProfileAnalysis[], crit: CriticalThicknessCheck): Finding[] {
+  const out: Finding[] = [];
+  if (crit.ok && crit.beyond) out.push({ severity: "flag", text: crit.statement });
+  else if (crit.ok) out.push({ severity: "note", text: crit.statement });
+  else out.push({ severity: "note", text: `Critical thickness not checked: ${crit.reason}` });
+  if (xrd && !xrd.buffer.ok) out.push({ severity: "note", text: `Buffer figures not computed: ${xrd.buffer.reason}` });
+  if (xrd?.strain.ok) out.push({ severity: "note", text: xrd.strain.source === "well-peak" ? "Well strain measured from the well's own asymmetric peak." : "No well peak found in the asymmetric map: the well is assumed pseudomorphic on the buffer (its in-plane lattice constant is the buffer's)." });
+  for (const p of profiles) if (!p.result.ok) out.push({ severity: "note", text: `${p.data.file}: depth profile not analysed: ${p.result.reason}` });
+  return out;
+}
+
+/** Runs the structure analyses of one wafer (see module comment); undefined when the wafer has no XRD or profile files. Never throws for data. */
+export function analyseStructure(inputs: StructureInputs, stack: Layer[], _settings: AnalysisSettings): StructureAnalysis | undefined {
+  const xrdFiles = inputs.xrd ?? [];
+  const profFiles = inputs.profiles ?? [];
+  if (xrdFiles.length === 0 && profFiles.length === 0) return undefined;
+  const xrd = xrdFiles.length ? analyseXrd(xrdFiles, stack) : undefined;
+  const profiles = profFiles.map((data) => ({ data, result: analyseDepthProfile({ depth: data.depth, ge: data.ge, contaminants: data.contaminants }) }));
+  const prof = profiles.find((p) => p.result.ok) ?? profiles[0];
+  const r = prof?.result.ok ? prof.result : undefined;
+  const crit = checkCriticalThickness(stack, xrd?.strain, r ? r.wellThickness * 1e-9 : undefined);
+  const metrics: Record<string, number> = {};
+  const put = (key: string, si: number | undefined) => {
+    const v = toMetricUnit(key, si);
+    if (v !== undefined) metrics[key] = v;
+  };
+  if (xrd?.buffer.ok) {
+    put("ge_fraction", xrd.buffer.geFraction);
+    put("buffer_relaxation", xrd.buffer.relaxation);
+  }
+  if (xrd?.strain.ok) put("well_strain", xrd.strain.epsParallel);
+  if (crit.ok) {
+    put("critical_thickness", crit.matthewsBlakeslee);
+    put("critical_thickness_margin", crit.margin);
+  }
+  if (r) {
+    put("well_thickness", r.wellThickness * 1e-9);
+    put("interface_width_top", r.top.width10to90 * 1e-9);
+    put("interface_width_bottom", r.bottom.width10to90 * 1e-9);
+    put("barrier_ge_fraction", r.barrierGeFraction);
+  }
+  const peaks = contaminantPeaks(prof);
+  for (const el of REGISTERED_CONTAMINANTS) put(`peak_${el}`, peaks[el] === undefined ? undefined : peaks[el] * 1e6);
+  return { metrics, xrd, profiles, critical: crit, design: designRows(stack, xrd, prof, crit), findings: findings(xrd, profiles, crit), contaminantPeaks: peaks };
 }

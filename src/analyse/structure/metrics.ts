@@ -1,4 +1,25 @@
-/** Metrics of the structure analyses (registered in src/analyse/metrics.ts). */
+/**
+ * Metrics of the structure analyses (registered in src/analyse/metrics.ts).
+ * fromSI converts the SI value the analysis works in (1, m, m⁻³) to the unit.
+ * Contaminant peaks appear as `peak_<element>`; keys are registered statically,
+ * so only the elements in REGISTERED_CONTAMINANTS can be targeted. Every
+ * element's peak is still written to results.json (structure.contaminant_peaks).
+ */
 import { metric, type MetricSpec } from "../metricSpec.ts";
 
-export const STRUCTURE_METRICS: MetricSpec[] = [];
+/** Elements whose peak level is a registered metric `peak_<element>`. */
+export const REGISTERED_CONTAMINANTS = ["O", "C"] as const;
+
+export const STRUCTURE_METRICS: MetricSpec[] = [
+  metric("ge_fraction", "Buffer Ge fraction", "1", 1, "structure", "Ge fraction x of the SiGe buffer from the 004 and 224 X-ray peaks (Dismukes' law, composition-dependent elastic constants)", 3),
+  metric("buffer_relaxation", "Buffer relaxation", "%", 100, "structure", "relaxation R of the SiGe buffer against the Si substrate (0 % pseudomorphic, 100 % fully relaxed)", 3),
+  metric("well_strain", "Well in-plane strain", "%", 100, "structure", "in-plane strain ε∥ of the Si well relative to bulk Si (from the well peak, or the buffer's a∥ assuming a pseudomorphic well)", 3),
+  metric("critical_thickness", "Critical thickness (Matthews–Blakeslee)", "nm", 1e9, "structure", "Matthews–Blakeslee critical thickness of the well for its in-plane strain (single layer, 60° dislocations)", 3),
+  metric("critical_thickness_margin", "Critical-thickness margin", "nm", 1e9, "structure", "Matthews–Blakeslee critical thickness minus the well thickness (negative: the well is beyond its critical thickness)", 3),
+  metric("well_thickness", "Well thickness (profile)", "nm", 1e9, "structure", "distance between the fitted mid-points of the well's two interfaces on the depth profile", 3),
+  metric("interface_width_top", "Top interface width (10–90 %)", "nm", 1e9, "structure", "10–90 % width of the well's upper interface (nearer the surface), sigmoid fit", 3),
+  metric("interface_width_bottom", "Bottom interface width (10–90 %)", "nm", 1e9, "structure", "10–90 % width of the well's lower interface, sigmoid fit", 3),
+  metric("barrier_ge_fraction", "Barrier Ge fraction", "1", 1, "structure", "Ge fraction of the barriers on either side of the well (fitted plateaus, mean of both)", 3),
+  metric("peak_O", "Peak O in/near the well", "cm^-3", 1e-6, "structure", "largest oxygen concentration inside the well or within 10 nm of it (depth profile)", 2),
+  metric("peak_C", "Peak C in/near the well", "cm^-3", 1e-6, "structure", "largest carbon concentration inside the well or within 10 nm of it (depth profile)", 2),
+];
