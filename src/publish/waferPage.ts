@@ -12,6 +12,7 @@ import { renderNotes } from "./markdown.ts";
 import { structureSection } from "./structureSection.ts";
 import { imagesSection } from "./imagesSection.ts";
 import { transportDepthSection } from "./transportDepthSection.ts";
+import { deviceDepthJson, pointDepthJson } from "./transportDepthJson.ts";
 
 export interface MetricRow {
   key: string;
@@ -68,7 +69,9 @@ export function resultsJson(o: WaferOutcome): unknown {
         hall_fit_r2: round(p.hall.r2),
         hall_fit_poor: p.hall.poor,
         symmetrised: p.symmetrised,
+        ...pointDepthJson(d, p.file),
       })),
+      transport_depth: deviceDepthJson(d),
       skipped: d.skipped,
       metrics: Object.fromEntries(Object.entries(d.metrics).map(([k, v]) => [k, round(v)])),
     })),
