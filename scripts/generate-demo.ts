@@ -15,6 +15,7 @@ import { fileURLToPath } from "node:url";
 import { ELEMENTARY_CHARGE } from "../src/physics/constants.ts";
 import { formatSweep, hallSweepRows } from "../src/synth/hallSweep.ts";
 import { seededUniform } from "../src/synth/random.ts";
+import { demoGateSweeps, oscillationHook, parallelChannelOverride } from "./demo/transportDepth.ts";
 import { demoExtras } from "./demo/extras.ts";
 import { wellThicknessNm } from "./demo/structure.ts";
 
@@ -35,6 +36,8 @@ export interface DemoWafer {
   vdp?: boolean;
   broken?: "non-numeric";
   oneSign?: boolean;
+  /** A parallel conducting channel (two-carrier Drude): density cm⁻², mobility cm²/(V s). */
+  parallel?: { density: number; mobility: number };
   notes: string;
   waiver?: { metric: string; reason: string; approved_by: string; date: string };
 }
@@ -57,7 +60,7 @@ export const WAFERS: DemoWafer[] = [
   { id: "TQ-2408", run: "TQ24-B", grown: "2024-11-22", peakMobility: 1.21e5, peakDensity: 2.8e11, gateSlope: 5.5e11, turnOn: 0.66, notes: "Cap oxide from the new furnace; turn-on higher than usual.", waiver: { metric: "turn_on_voltage", reason: "device team confirmed the gate stack works up to 0.8 V for the planned dot layout", approved_by: "I. Okonkwo-Hale", date: "2024-12-03" } },
   { id: "TQ-2501", run: "TQ25-A", grown: "2025-02-11", peakMobility: 1.12e5, peakDensity: 3.3e11, gateSlope: 5.2e11, turnOn: 0.36, oneSign: true, notes: "The magnet power supply was limited to positive fields on the day; one field sign only." },
   { id: "TQ-2502", run: "TQ25-A", grown: "2025-02-12", peakMobility: 0.93e5, peakDensity: 3.5e11, gateSlope: 5.0e11, turnOn: 0.45, vdp: true, notes: "Slight haze at the wafer edge." },
-  { id: "TQ-2503", run: "TQ25-A", grown: "2025-02-13", peakMobility: 1.28e5, peakDensity: 3.0e11, gateSlope: 5.6e11, turnOn: 0.33, notes: "" },
+  { id: "TQ-2503", run: "TQ25-A", grown: "2025-02-13", peakMobility: 1.28e5, peakDensity: 3.0e11, gateSlope: 5.6e11, turnOn: 0.33, parallel: { density: 1.2e11, mobility: 1.5e4 }, notes: "Hall density came out higher than the gate calibration of the run suggested; a conducting layer in the upper barrier is suspected." },
   { id: "TQ-2504", run: "TQ25-B", grown: "2025-04-23", peakMobility: 1.38e5, peakDensity: 2.6e11, gateSlope: 5.9e11, turnOn: 0.28, notes: "Thinner well; mobility holds up." },
   { id: "TQ-2505", run: "TQ25-B", grown: "2025-04-24", peakMobility: 1.41e5, peakDensity: 2.7e11, gateSlope: 5.7e11, turnOn: 0.30, notes: "" },
   { id: "TQ-2506", run: "TQ25-B", grown: "2025-04-25", peakMobility: 1.02e5, peakDensity: 3.1e11, gateSlope: 5.4e11, turnOn: 0.35, vdp: true, notes: "Measured by the visiting student; repeat planned." },
@@ -119,6 +122,7 @@ grades:
     interface_width_top: { max: "3 nm" }
     interface_width_bottom: { max: "3 nm" }
     peak_O: { max: "1e18 cm^-3" }
+    hall_sdh_mismatch: { max: "5 %", aggregate: max }
   test:
     peak_mobility: { min: "3e4 cm^2/(V s)" }
     turn_on_voltage: { max: "1.0 V" }
@@ -129,6 +133,9 @@ trends:
 `);
   await write("analysis.yaml", `# Site-wide analysis settings (defaults in docs/formats.md).
 hall_max_field: "0.2 T"
+# Shubnikov–de Haas window: at 1.6 K the oscillations of these wells are
+# thermally damped below about 0.6 T.
+sdh_min_field: "0.6 T"
 `);
   for (const [id, r] of Object.entries(RUNS)) {
     await write(`runs/${id}.md`, `---\nreactor: ${r.reactor}\nstarted: ${r.started}\nrecipe: "${r.recipe}"\n---\n\n${r.notes}\n\nProcess gases (silane, germane, hydrogen) are handled under the lab's gas-safety procedures; nothing in these notes replaces them.\n`);
@@ -152,11 +159,13 @@ hall_max_field: "0.2 T"
           geometry: d.geometry,
           length_um: 100,
           width_um: 20,
-          maxField: 1,
-          points: w.oneSign ? 201 : 401,
+          maxField: 2,
+          points: w.oneSign ? 401 : 801,
           misalignment: 0.01 + 0.02 * rand(),
           noise: 2e-4,
           seed: seed++,
+          oscillation: w.parallel ? undefined : oscillationHook(w, nCm2 * 1e4),
+          override: w.parallel ? parallelChannelOverride(w, nCm2 * 1e4, mu * 1e-4) : undefined,
         });
         if (w.oneSign) rows.rows = rows.rows.filter((r) => r[0] >= 0);
         let text = formatSweep({ gate: `${vg.toFixed(2)} V`, temperature: "1.6 K", current: "10 nA", device: d.id }, rows);
@@ -166,6 +175,9 @@ hall_max_field: "0.2 T"
           text = lines.join("\n");
         }
         await write(`wafers/${w.id}/transport/${d.id}/vg_${vg.toFixed(2).replace(".", "p")}V.csv`, text);
+      }
+      if (d.geometry === "hall-bar") {
+        for (const [name, text] of Object.entries(demoGateSweeps(w, d.id, spread, 70000 + seed))) await write(`wafers/${w.id}/transport/${d.id}/${name}`, text);
       }
     }
     const extra = await demoExtras(w, { write, seed: seed++ });

@@ -75,7 +75,7 @@ export function analyseDevice(input: DeviceInput, settings: AnalysisSettings): D
     put("turn_on_voltage", summary.gateFit?.turnOn);
   }
   const sorted = sortByGate(points);
-  const depth = analyseDeviceDepth(sorted, gateSweeps, settings);
+  const depth = analyseDeviceDepth(sorted, gateSweeps, settings, input.spec);
   if (depth) Object.assign(metrics, depth.metrics);
   return { id: input.spec.id, geometry: input.spec.geometry, at_mm: input.spec.at_mm, points: sorted, gateSweeps, skipped, summary, depth, metrics };
 }

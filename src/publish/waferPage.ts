@@ -13,6 +13,7 @@ import { structureResults, structureSection } from "./structureSection.ts";
 import { imagesSection } from "./imagesSection.ts";
 import { transportDepthSection } from "./transportDepthSection.ts";
 import { uniformitySection } from "./uniformitySection.ts";
+import { deviceDepthJson, pointDepthJson } from "./transportDepthJson.ts";
 
 export interface MetricRow {
   key: string;
@@ -78,7 +79,9 @@ export function resultsJson(o: WaferOutcome, dataCommit: string | null = null): 
         hall_fit_r2: round(p.hall.r2),
         hall_fit_poor: p.hall.poor,
         symmetrised: p.symmetrised,
+        ...pointDepthJson(d, p.file),
       })),
+      transport_depth: deviceDepthJson(d),
       skipped: d.skipped,
       metrics: Object.fromEntries(Object.entries(d.metrics).map(([k, v]) => [k, round(v)])),
     })),

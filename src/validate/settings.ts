@@ -27,6 +27,8 @@ export interface AnalysisSettings {
   effective_mass: number;
   /** Hall–SdH density mismatch above which parallel conduction is flagged, %. */
   sdh_mismatch_tolerance: number;
+  /** Order of the smooth polynomial background (in B) removed before the SdH spectrum, 0–4. */
+  sdh_background_order: number;
 }
 
 type Spec =
@@ -46,6 +48,7 @@ export const SETTING_SPECS: Record<keyof AnalysisSettings, Spec> = {
   degeneracy: { kind: "number", min: 1, max: 12, doc: "spin × valley degeneracy g_s·g_v" },
   effective_mass: { kind: "number", min: 0.01, max: 2, doc: "effective mass in units of the electron mass" },
   sdh_mismatch_tolerance: { kind: "quantity", unit: "%", si: 1, doc: "Hall–SdH mismatch above which parallel conduction is flagged" },
+  sdh_background_order: { kind: "number", min: 0, max: 4, doc: "order of the polynomial background in B removed before the SdH spectrum" },
 };
 
 export const DEFAULT_SETTINGS: AnalysisSettings = {
@@ -59,6 +62,7 @@ export const DEFAULT_SETTINGS: AnalysisSettings = {
   degeneracy: 4,
   effective_mass: 0.19,
   sdh_mismatch_tolerance: 5,
+  sdh_background_order: 1,
 };
 
 /** Validates a settings mapping (from analysis.yaml or a wafer's `analysis:` block) over a base. */

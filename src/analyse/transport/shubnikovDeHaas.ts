@@ -11,7 +11,11 @@
  * (inverseFieldSpectrum.ts). Skipped, never guessed, when the peak lies below
  * three periods across the 1/B range (f·Δ(1/B) < 3), or is not clearly above the
  * spectrum's median (default 6×) in the band from one period across the range
- * up to the data's own Nyquist frequency 1/(2·largest 1/B step).
+ * up to the data's own Nyquist frequency 1/(2·largest 1/B step), or when the
+ * spectrum below the peak (more than 1.5 resolution widths 1/Δ(1/B) lower) holds
+ * an amplitude above `maxLowFrequencyRatio` (default 10) times the peak's: the
+ * "peak" is then a side lobe of a slow swing spanning fewer than the minimum
+ * number of periods (a low density whose oscillation is too slow for the window).
  * Units: B in T, ρ in Ω, f in T, n in m⁻².
  */
 import { Matrix, solve } from "ml-matrix";
@@ -32,6 +36,8 @@ export interface SdhOptions {
   minPeriods?: number;
   /** Smallest peak/median spectrum amplitude (default 6). */
   minPeakToMedian?: number;
+  /** Largest allowed (amplitude below the peak)/(peak amplitude) (default 10). */
+  maxLowFrequencyRatio?: number;
 }
 
 export interface SdhResult {
@@ -134,6 +140,15 @@ export function shubnikovDeHaas(
   const minRatio = options.minPeakToMedian ?? 6;
   if (peak.peakToMedian < minRatio) {
     return skipped(`spectral peak is only ${peak.peakToMedian.toFixed(1)}× the median amplitude; need ${minRatio}× (no clear oscillation)`);
+  }
+  const lowLimit = peak.frequency - 1.5 / span;
+  let low = 0;
+  spec.spectrum.frequency.forEach((f, i) => {
+    if (f > 0 && f < lowLimit) low = Math.max(low, spec.spectrum.amplitude[i]);
+  });
+  const maxLow = options.maxLowFrequencyRatio ?? 10;
+  if (low > maxLow * peak.amplitude) {
+    return skipped(`the spectrum is dominated by a slow swing (${(low / peak.amplitude).toFixed(0)}× the candidate peak at ${peak.frequency.toFixed(2)} T): the oscillation is too slow for fewer than ${minPeriods} periods to fit in this field window`);
   }
   const density = sdhDensity(peak.frequency, options.degeneracy ?? 4);
   if (!allFinite(peak.frequency, density)) return skipped("SdH frequency is not finite");
