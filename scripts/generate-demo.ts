@@ -60,9 +60,9 @@ export const WAFERS: DemoWafer[] = [
   { id: "TQ-2408", run: "TQ24-B", grown: "2024-11-22", peakMobility: 1.21e5, peakDensity: 2.8e11, gateSlope: 5.5e11, turnOn: 0.66, notes: "Cap oxide from the new furnace; turn-on higher than usual.", waiver: { metric: "turn_on_voltage", reason: "device team confirmed the gate stack works up to 0.8 V for the planned dot layout", approved_by: "I. Okonkwo-Hale", date: "2024-12-03" } },
   { id: "TQ-2501", run: "TQ25-A", grown: "2025-02-11", peakMobility: 1.12e5, peakDensity: 3.3e11, gateSlope: 5.2e11, turnOn: 0.36, oneSign: true, notes: "The magnet power supply was limited to positive fields on the day; one field sign only." },
   { id: "TQ-2502", run: "TQ25-A", grown: "2025-02-12", peakMobility: 0.93e5, peakDensity: 3.5e11, gateSlope: 5.0e11, turnOn: 0.45, vdp: true, notes: "Slight haze at the wafer edge." },
-  { id: "TQ-2503", run: "TQ25-A", grown: "2025-02-13", peakMobility: 1.28e5, peakDensity: 3.0e11, gateSlope: 5.6e11, turnOn: 0.33, parallel: { density: 1.2e11, mobility: 1.5e4 }, notes: "Hall density came out higher than the gate calibration of the run suggested; a conducting layer in the upper barrier is suspected." },
+  { id: "TQ-2503", run: "TQ25-A", grown: "2025-02-13", peakMobility: 1.28e5, peakDensity: 3.0e11, gateSlope: 5.6e11, turnOn: 0.33, notes: "Grown with a 20 nm well to test the thickness limit of the new reactor (see the structure section)." },
   { id: "TQ-2504", run: "TQ25-B", grown: "2025-04-23", peakMobility: 1.38e5, peakDensity: 2.6e11, gateSlope: 5.9e11, turnOn: 0.28, notes: "Thinner well; mobility holds up." },
-  { id: "TQ-2505", run: "TQ25-B", grown: "2025-04-24", peakMobility: 1.41e5, peakDensity: 2.7e11, gateSlope: 5.7e11, turnOn: 0.30, notes: "" },
+  { id: "TQ-2505", run: "TQ25-B", grown: "2025-04-24", peakMobility: 1.41e5, peakDensity: 2.7e11, gateSlope: 5.7e11, turnOn: 0.30, parallel: { density: 1.2e11, mobility: 1.5e4 }, notes: "Hall density came out higher than the gate calibration of the run suggested; a conducting layer in the upper barrier is suspected." },
   { id: "TQ-2506", run: "TQ25-B", grown: "2025-04-25", peakMobility: 1.02e5, peakDensity: 3.1e11, gateSlope: 5.4e11, turnOn: 0.35, vdp: true, notes: "Measured by the visiting student; repeat planned." },
 ];
 
@@ -116,7 +116,7 @@ grades:
     turn_on_voltage: { between: ["0.1 V", "0.6 V"], aggregate: max }
     interface_inplane_mismatch: { between: ["-0.3 %", "0.3 %"] }
     interface_width_top_image: { max: "2 nm" }
-    peak_mobility_cv: { max: "4 %" }
+    peak_mobility_cv: { max: "6 %" }
     buffer_relaxation: { min: "70 %" }
     critical_thickness_margin: { min: "0 nm" }
     interface_width_top: { max: "3 nm" }

@@ -128,7 +128,11 @@ export function judgeWafer(
   const metrics = ordered.map((k) => judgeMetric(k, values[k], limits[k], waivers.find((w) => w.metric === k)));
   const judged = metrics.filter((m) => m.target);
   let verdict = worst(judged.map((m) => m.verdict));
-  const reasons = judged.filter((m) => m.verdict !== "pass" && m.verdict !== "untested" && m.reason).map((m) => m.reason!);
+  // Reasons worst first, so the first line of a summary says why the verdict is what it is.
+  const reasons = judged
+    .filter((m) => m.verdict !== "pass" && m.verdict !== "untested" && m.reason)
+    .sort((a, b) => VERDICT_RANK[b.verdict] - VERDICT_RANK[a.verdict])
+    .map((m) => m.reason!);
   if (hasErrors) {
     verdict = "error";
     reasons.unshift(...errorReasons);
