@@ -15,7 +15,7 @@ import { OUTPUT, ROOT, startSite, type Site } from "./harness.ts";
 interface PageReport {
   key: string;
   ids: Set<string>;
-  canvases: { label: string; ink: number }[];
+  canvases: { label: string; ink: number; alt: boolean }[];
   verdicts: { text: string; shapes: number }[];
 }
 
@@ -62,6 +62,8 @@ async function visit(page: Page, url: URL, queue: URL[]): Promise<void> {
   const canvases: PageReport["canvases"] = [];
   for (const c of await page.$$("canvas")) {
     const label = (await c.getAttribute("data-chart")) ?? (await c.getAttribute("aria-label")) ?? "canvas";
+    // A text alternative: role="img" with a label, or a sibling table/summary inside the figure.
+    const alt = await c.evaluate((el) => (el.getAttribute("role") === "img" && (el.getAttribute("aria-label") ?? "").trim().length > 10) || !!el.closest("figure")?.querySelector("table, .sr-only"));
     let ink = 0;
     try {
       await c.scrollIntoViewIfNeeded();
@@ -69,7 +71,7 @@ async function visit(page: Page, url: URL, queue: URL[]): Promise<void> {
     } catch {
       ink = 0;
     }
-    canvases.push({ label, ink });
+    canvases.push({ label, ink, alt });
   }
   pages.set(key, { key, ids: new Set(info.ids), canvases, verdicts: info.verdicts });
   for (const href of [...info.links, ...info.forms]) {
@@ -145,6 +147,11 @@ describe("crawl of every page reachable from the index", () => {
     const all = [...pages.values()].flatMap((p) => p.canvases.map((c) => ({ page: p.key, ...c })));
     expect(all.length).toBeGreaterThan(0);
     expect(all.filter((c) => c.ink < 200)).toEqual([]);
+  });
+
+  it("gives every chart a text alternative", () => {
+    const all = [...pages.values()].flatMap((p) => p.canvases.map((c) => ({ page: p.key, ...c })));
+    expect(all.filter((c) => !c.alt)).toEqual([]);
   });
 
   it("resolves every internal link to a file", async () => {
