@@ -13,6 +13,7 @@ import { processWafer, type PipelineContext, type WaferOutcome } from "./pipelin
 import { loadSiteInputs } from "../read/site.ts";
 import { buildSiteModel, type SiteMeta } from "../publish/siteModel.ts";
 import { resultsJson, waferPageModel } from "../publish/waferPage.ts";
+import { writeSearch } from "../publish/searchIndex.ts";
 import type { Problem } from "../validate/problem.ts";
 import type { BuildOptions } from "./args.ts";
 import { loadDataHistory } from "../read/history.ts";
@@ -95,6 +96,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     const pages = await render(model, tmpDir);
     await writeExtras(outcomes, dataDir, tmpDir, meta.dataCommit ?? null);
     await writeExports(outcomes, tmpDir, meta);
+    await writeSearch(outcomes, site.runs, tmpDir, PACKAGE_ROOT);
     await swapInto(tmpDir, outDir);
     return { ok: true, outcomes, problems, outDir, pages };
   } finally {

@@ -28,7 +28,7 @@ export async function main(argv: string[]): Promise<number> {
   const started = Date.now();
   try {
     const result = await build({ ...parsed.options, quiet }, {
-      log: quiet ? () => {} : (s) => process.stdout.write(`\r\x1b[2K${s}`),
+      log: quiet ? () => {} : (s) => process.stdout.write(`\r\x1b[2K${s} (${((Date.now() - started) / 1000).toFixed(1)} s)`),
       today: () => new Date().toISOString().slice(0, 10),
       now: () => new Date().toISOString().replace(/\.\d+Z$/, "Z"),
     });

@@ -1,0 +1,70 @@
+/**
+ * The site search index: one MiniSearch document per wafer (id, run, grade,
+ * verdict, reasons, notes) and per growth run (id, notes), serialised at build
+ * time to /search-index.json and loaded in the browser by assets/search.js with
+ * MiniSearch.loadJSON. Hrefs are relative to the site root (the page adds the
+ * base path), so the index does not depend on where the site is served.
+ */
+import { promises as fs } from "node:fs";
+import path from "node:path";
+import MiniSearch from "minisearch";
+import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { RunNotes } from "../read/site.ts";
+
+export interface SearchDoc {
+  id: string;
+  kind: "wafer" | "run";
+  title: string;
+  href: string;
+  run: string;
+  grade: string;
+  verdict: string;
+  reasons: string;
+  notes: string;
+}
+
+/** Options shared by the build and the browser (loadJSON needs the same ones). */
+export const SEARCH_OPTIONS = {
+  fields: ["title", "run", "grade", "verdict", "reasons", "notes"],
+  storeFields: ["kind", "title", "href", "run", "verdict"],
+};
+
+/** Markdown to plain words: drops markup characters, keeps the text. */
+function plain(md: string): string {
+  return md.replace(/```[\s\S]*?```/g, " ").replace(/[#*_`>|[\]()]/g, " ").replace(/\s+/g, " ").trim();
+}
+
+/** The documents of the index, wafers first (in folder order), then runs. */
+export function searchDocuments(outcomes: WaferOutcome[], runs: Map<string, RunNotes>): SearchDoc[] {
+  const wafers: SearchDoc[] = outcomes.map((o) => ({
+    id: `wafer:${o.folder}`,
+    kind: "wafer",
+    title: o.folder,
+    href: `wafers/${o.folder}/`,
+    run: o.record?.run ?? "",
+    grade: o.judgement.grade,
+    verdict: o.judgement.verdict,
+    reasons: o.judgement.reasons.join(" · "),
+    notes: plain(o.record?.notes ?? ""),
+  }));
+  const runIds = [...new Set([...runs.keys(), ...wafers.map((w) => w.run).filter(Boolean)])].sort();
+  const runDocs: SearchDoc[] = runIds.map((id) => ({
+    id: `run:${id}`, kind: "run", title: id, href: `runs/${id}/`, run: id, grade: "", verdict: "", reasons: "",
+    notes: plain(runs.get(id)?.notes ?? ""),
+  }));
+  return [...wafers, ...runDocs];
+}
+
+/** The serialised index: `{ options, index }`, index being MiniSearch's toJSON(). */
+export function searchIndexJson(docs: SearchDoc[]): string {
+  const ms = new MiniSearch<SearchDoc>(SEARCH_OPTIONS);
+  ms.addAll(docs);
+  return JSON.stringify({ options: SEARCH_OPTIONS, index: ms.toJSON() });
+}
+
+/** Writes search-index.json and MiniSearch's browser build (assets/minisearch.js) into the output. */
+export async function writeSearch(outcomes: WaferOutcome[], runs: Map<string, RunNotes>, outDir: string, packageRoot: string): Promise<void> {
+  await fs.writeFile(path.join(outDir, "search-index.json"), searchIndexJson(searchDocuments(outcomes, runs)));
+  await fs.mkdir(path.join(outDir, "assets"), { recursive: true });
+  await fs.copyFile(path.join(packageRoot, "node_modules", "minisearch", "dist", "umd", "index.js"), path.join(outDir, "assets", "minisearch.js"));
+}

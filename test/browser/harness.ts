@@ -1,0 +1,79 @@
+/**
+ * Shared set-up for the browser tests: build the demo data once with the CLI
+ * into a temporary folder, serve it on 127.0.0.1 (random port) and launch
+ * Debian's Chromium through playwright-core. Fails fast, with a plain message,
+ * when Chromium is missing (never downloads a browser).
+ */
+import { execFile } from "node:child_process";
+import { existsSync, promises as fs } from "node:fs";
+import http from "node:http";
+import os from "node:os";
+import path from "node:path";
+import { promisify } from "node:util";
+import type { AddressInfo } from "node:net";
+import { chromium, type Browser } from "playwright-core";
+
+export const ROOT = path.resolve(import.meta.dirname, "../..");
+export const OUTPUT = path.join(ROOT, "test", "output");
+export const CHROMIUM = process.env.WAFERBOOK_CHROMIUM ?? "/usr/bin/chromium";
+const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"];
+
+const TYPES: Record<string, string> = {
+  ".html": "text/html; charset=utf-8", ".css": "text/css; charset=utf-8", ".js": "text/javascript; charset=utf-8",
+  ".json": "application/json", ".png": "image/png", ".svg": "image/svg+xml", ".csv": "text/csv; charset=utf-8",
+  ".txt": "text/plain; charset=utf-8", ".md": "text/markdown; charset=utf-8",
+};
+
+export interface Site {
+  dir: string;
+  origin: string;
+  browser: Browser;
+  close: () => Promise<void>;
+}
+
+/** A static file server for `dir` on 127.0.0.1 with a random port. Folders serve their index.html. */
+export async function serve(dir: string): Promise<{ origin: string; server: http.Server }> {
+  const server = http.createServer(async (req, res) => {
+    try {
+      const url = new URL(req.url ?? "/", "http://127.0.0.1");
+      let file = path.join(dir, decodeURIComponent(url.pathname));
+      if (!file.startsWith(dir)) throw new Error("outside");
+      if ((await fs.stat(file)).isDirectory()) file = path.join(file, "index.html");
+      const body = await fs.readFile(file);
+      res.writeHead(200, { "content-type": TYPES[path.extname(file)] ?? "application/octet-stream", "content-length": body.length });
+      res.end(req.method === "HEAD" ? undefined : body);
+    } catch {
+      res.writeHead(404, { "content-type": "text/plain" });
+      res.end("not found");
+    }
+  });
+  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
+  return { origin: `http://127.0.0.1:${(server.address() as AddressInfo).port}`, server };
+}
+
+/** Builds the demo site with the CLI, serves it and launches Chromium. */
+export async function startSite(): Promise<Site> {
+  if (!existsSync(CHROMIUM)) {
+    throw new Error(`Browser tests need Chromium at ${CHROMIUM}, which is missing. Install Debian's package (apt-get install chromium; .ci/run does this) or point WAFERBOOK_CHROMIUM at a Chromium binary.`);
+  }
+  const tmp = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-browser-"));
+  const dir = path.join(tmp, "site");
+  await promisify(execFile)(process.execPath, [path.join(ROOT, "bin", "waferbook.js"), "build", "--data", path.join(ROOT, "data"), "--out", dir], { cwd: ROOT, env: { ...process.env, CI: "true" }, timeout: 120_000 });
+  const { origin, server } = await serve(dir);
+  let browser: Browser;
+  try {
+    browser = await chromium.launch({ executablePath: CHROMIUM, headless: true, args: LAUNCH_ARGS, timeout: 30_000 });
+  } catch (e) {
+    server.close();
+    throw new Error(`Chromium at ${CHROMIUM} did not start within 30 s: ${(e as Error).message.split("\n")[0]}`);
+  }
+  await fs.mkdir(OUTPUT, { recursive: true });
+  return {
+    dir, origin, browser,
+    close: async () => {
+      await browser.close();
+      await new Promise((r) => server.close(r));
+      await fs.rm(tmp, { recursive: true, force: true });
+    },
+  };
+}

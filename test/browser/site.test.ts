@@ -1,0 +1,370 @@
+/**
+ * The built demo site in a real browser (Debian's Chromium via playwright-core):
+ * a crawl of every page reachable from the index, accessibility (axe-core),
+ * keyboard reach, verdict marks, the wafer table's sorting and filters, site
+ * search, screenshots at desktop and phone widths, and the print report.
+ * One build, one server and one browser for the whole file.
+ */
+import { promises as fs, readFileSync } from "node:fs";
+import path from "node:path";
+import { PNG } from "pngjs";
+import type { BrowserContext, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { OUTPUT, ROOT, startSite, type Site } from "./harness.ts";
+
+interface PageReport {
+  key: string;
+  ids: Set<string>;
+  canvases: { label: string; ink: number; alt: boolean }[];
+  verdicts: { text: string; shapes: number }[];
+}
+
+let site: Site;
+const pages = new Map<string, PageReport>();
+const consoleErrors: string[] = [];
+const failed: string[] = [];
+const external: string[] = [];
+const anchors: { from: string; target: string; id: string }[] = [];
+const otherLinks = new Map<string, string>(); // url → page that links it
+let waferUrl = "";
+let runUrl = "";
+
+/** Path and query of a URL: the crawl's page key. */
+const keyOf = (u: URL) => u.pathname + u.search;
+const isPage = (u: URL) => u.pathname.endsWith("/") || u.pathname.endsWith(".html");
+
+/** Pixels of a canvas screenshot that differ clearly from its corner (background) pixel. */
+function inkPixels(png: Buffer): number {
+  const img = PNG.sync.read(png);
+  const d = img.data;
+  let n = 0;
+  for (let i = 0; i < d.length; i += 4) {
+    if (Math.max(Math.abs(d[i] - d[0]), Math.abs(d[i + 1] - d[1]), Math.abs(d[i + 2] - d[2])) > 40) n++;
+  }
+  return n;
+}
+
+async function settle(page: Page): Promise<void> {
+  await page.evaluate(() => new Promise<void>((r) => requestAnimationFrame(() => requestAnimationFrame(() => r()))));
+}
+
+async function visit(page: Page, url: URL, queue: URL[]): Promise<void> {
+  const key = keyOf(url);
+  const res = await page.goto(url.href, { waitUntil: "load" });
+  if (!res || res.status() !== 200) failed.push(`${key}: HTTP ${res?.status()}`);
+  await settle(page);
+  const info = await page.evaluate(() => ({
+    ids: [...document.querySelectorAll("[id]")].map((e) => e.id),
+    links: [...document.querySelectorAll<HTMLAnchorElement>("a[href]")].map((a) => a.href),
+    forms: [...document.querySelectorAll<HTMLFormElement>("form[action]")].map((f) => f.action),
+    verdicts: [...document.querySelectorAll(".verdict")].map((v) => ({ text: (v.textContent ?? "").trim(), shapes: v.querySelectorAll("svg circle, svg path, svg rect, svg polygon, svg ellipse").length })),
+  }));
+  const canvases: PageReport["canvases"] = [];
+  for (const c of await page.$$("canvas")) {
+    const label = (await c.getAttribute("data-chart")) ?? (await c.getAttribute("aria-label")) ?? "canvas";
+    // A text alternative: role="img" with a label, or a sibling table/summary inside the figure.
+    const alt = await c.evaluate((el) => (el.getAttribute("role") === "img" && (el.getAttribute("aria-label") ?? "").trim().length > 10) || !!el.closest("figure")?.querySelector("table, .sr-only"));
+    let ink = 0;
+    try {
+      await c.scrollIntoViewIfNeeded();
+      ink = inkPixels(await c.screenshot());
+    } catch {
+      ink = 0;
+    }
+    canvases.push({ label, ink, alt });
+  }
+  pages.set(key, { key, ids: new Set(info.ids), canvases, verdicts: info.verdicts });
+  for (const href of [...info.links, ...info.forms]) {
+    const u = new URL(href);
+    if (u.protocol === "mailto:" || u.protocol === "data:") continue;
+    if (u.origin !== site.origin) {
+      external.push(`${key} links outside the site: ${href}`);
+      continue;
+    }
+    if (u.hash.length > 1) anchors.push({ from: key, target: keyOf(u), id: decodeURIComponent(u.hash.slice(1)) });
+    u.hash = "";
+    if (isPage(u)) queue.push(u);
+    else if (!otherLinks.has(u.href)) otherLinks.set(u.href, key);
+    if (!waferUrl && /\/wafers\/[^/]+\/$/.test(u.pathname)) waferUrl = u.href;
+    if (!runUrl && /\/runs\/[^/]+\/$/.test(u.pathname)) runUrl = u.href;
+  }
+}
+
+async function crawl(): Promise<void> {
+  const ctx = await site.browser.newContext({ viewport: { width: 1280, height: 900 } });
+  await ctx.route("**/*", (route) => {
+    const u = new URL(route.request().url());
+    if (u.origin === site.origin) return route.continue();
+    external.push(`request outside the site: ${u.href}`);
+    return route.abort();
+  });
+  const page = await ctx.newPage();
+  let current = "";
+  page.on("console", (m) => { if (m.type() === "error") consoleErrors.push(`${current}: ${m.text()}`); });
+  page.on("pageerror", (e) => consoleErrors.push(`${current}: ${e.message}`));
+  page.on("requestfailed", (r) => { if (r.url().startsWith(site.origin)) failed.push(`${current}: ${r.url()} (${r.failure()?.errorText})`); });
+  page.on("response", (r) => { if (r.status() >= 400) failed.push(`${current}: ${r.url()} HTTP ${r.status()}`); });
+  const queue: URL[] = [new URL("/", site.origin)];
+  while (queue.length) {
+    const u = queue.shift()!;
+    if (pages.has(keyOf(u))) continue;
+    current = keyOf(u);
+    await visit(page, u, queue);
+    // The search page is reached through the header form; search for the first wafer so its result links are crawled too.
+    if (current === "/search/" && waferUrl) queue.push(new URL(`/search/?q=${waferUrl.split("/").at(-2)}`, site.origin));
+  }
+  await ctx.close();
+}
+
+beforeAll(async () => {
+  site = await startSite();
+  await crawl();
+}, 170_000);
+
+afterAll(async () => {
+  await site?.close();
+});
+
+describe("crawl of every page reachable from the index", () => {
+  it("reaches the index, wafer, run and search pages", () => {
+    const keys = [...pages.keys()];
+    expect(keys).toContain("/");
+    expect(keys.filter((k) => k.startsWith("/wafers/")).length).toBeGreaterThan(5);
+    expect(keys.filter((k) => /^\/runs\/.+\//.test(k)).length).toBeGreaterThan(0);
+    expect(keys).toContain("/search/");
+  });
+
+  it("logs no console errors (CSP violations included) and no failed requests", () => {
+    expect(consoleErrors).toEqual([]);
+    expect(failed).toEqual([]);
+  });
+
+  it("makes no request and has no link outside 127.0.0.1", () => {
+    expect(external).toEqual([]);
+  });
+
+  it("draws every chart canvas (non-background pixels)", () => {
+    const all = [...pages.values()].flatMap((p) => p.canvases.map((c) => ({ page: p.key, ...c })));
+    expect(all.length).toBeGreaterThan(0);
+    expect(all.filter((c) => c.ink < 200)).toEqual([]);
+  });
+
+  it("gives every chart a text alternative", () => {
+    const all = [...pages.values()].flatMap((p) => p.canvases.map((c) => ({ page: p.key, ...c })));
+    expect(all.filter((c) => !c.alt)).toEqual([]);
+  });
+
+  it("resolves every internal link to a file", async () => {
+    const bad: string[] = [];
+    for (const [url, from] of otherLinks) {
+      const r = await fetch(url, { method: "HEAD" });
+      if (r.status !== 200) bad.push(`${from} → ${url}: ${r.status}`);
+    }
+    expect(bad).toEqual([]);
+  });
+
+  it("resolves every #anchor to an element with that id on the target page", () => {
+    expect(anchors.length).toBeGreaterThan(0);
+    const bad = anchors.filter((a) => !pages.get(a.target)?.ids.has(a.id)).map((a) => `${a.from} → ${a.target}#${a.id}`);
+    expect(bad).toEqual([]);
+  });
+
+  it("shows every verdict with a word and an svg shape, never colour alone", () => {
+    const all = [...pages.values()].flatMap((p) => p.verdicts.map((v) => ({ page: p.key, ...v })));
+    expect(all.length).toBeGreaterThan(10);
+    expect(all.filter((v) => !/^[a-z]{3,}/i.test(v.text) || v.shapes < 1)).toEqual([]);
+  });
+});
+
+async function axeViolations(ctx: BrowserContext, url: string): Promise<string[]> {
+  const page = await ctx.newPage();
+  await page.goto(url, { waitUntil: "load" });
+  await page.addScriptTag({ content: readFileSync(path.join(ROOT, "node_modules", "axe-core", "axe.min.js"), "utf8") });
+  const violations = await page.evaluate(async () => {
+    const r = await (window as unknown as { axe: { run: (d: Document, o: object) => Promise<{ violations: { id: string; impact: string; help: string; nodes: { target: string[] }[] }[] }> } }).axe.run(document, { resultTypes: ["violations"] });
+    return r.violations.filter((v) => v.impact === "serious" || v.impact === "critical").map((v) => `${v.impact} ${v.id}: ${v.help} — ${v.nodes.slice(0, 3).map((n) => n.target.join(" ")).join("; ")}`);
+  });
+  await page.close();
+  return violations;
+}
+
+describe("accessibility (axe-core): no serious or critical violations", () => {
+  let ctx: BrowserContext;
+  beforeAll(async () => {
+    ctx = await site.browser.newContext({ bypassCSP: true, viewport: { width: 1280, height: 900 } });
+  });
+  afterAll(async () => ctx?.close());
+  it("on the index", async () => expect(await axeViolations(ctx, `${site.origin}/`)).toEqual([]));
+  it("on a wafer page", async () => expect(await axeViolations(ctx, waferUrl)).toEqual([]));
+  it("on a run page", async () => expect(await axeViolations(ctx, runUrl)).toEqual([]));
+  it("on the search page with results", async () => expect(await axeViolations(ctx, `${site.origin}/search/?q=pass`)).toEqual([]));
+  it("on /trends/ (when the page exists)", async (t) => {
+    if (!pages.has("/trends/")) t.skip("no /trends/ page is linked from the site yet");
+    expect(await axeViolations(ctx, `${site.origin}/trends/`)).toEqual([]);
+  });
+});
+
+/** Tabs from the top of the page; returns the visible controls that focus never reached. */
+async function unreachedByTab(page: Page): Promise<string[]> {
+  const total = await page.evaluate(() => {
+    const sel = "a[href], button, input:not([type=hidden]), select, textarea, summary, [tabindex]:not([tabindex='-1'])";
+    const els = [...document.querySelectorAll<HTMLElement>(sel)].filter((e) => !(e as HTMLButtonElement).disabled && e.getClientRects().length > 0 && getComputedStyle(e).visibility !== "hidden");
+    els.forEach((e, i) => e.setAttribute("data-kb", String(i)));
+    (document.activeElement as HTMLElement | null)?.blur();
+    return els.length;
+  });
+  const reached = new Set<string>();
+  for (let i = 0; i < total + 15 && reached.size < total; i++) {
+    await page.keyboard.press("Tab");
+    const k = await page.evaluate(() => document.activeElement?.getAttribute("data-kb") ?? null);
+    if (k !== null) reached.add(k);
+  }
+  return page.evaluate((seen) => [...document.querySelectorAll("[data-kb]")].filter((e) => !seen.includes(e.getAttribute("data-kb")!)).map((e) => e.outerHTML.slice(0, 100)), [...reached]);
+}
+
+describe("keyboard", () => {
+  it("Tab reaches every control on the index and on a wafer page", async () => {
+    const ctx = await site.browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await ctx.newPage();
+    for (const url of [`${site.origin}/`, waferUrl]) {
+      await page.goto(url, { waitUntil: "load" });
+      expect(await unreachedByTab(page), url).toEqual([]);
+    }
+    await ctx.close();
+  });
+});
+
+describe("wafer table", () => {
+  let ctx: BrowserContext;
+  let page: Page;
+  beforeAll(async () => {
+    ctx = await site.browser.newContext({ viewport: { width: 1280, height: 900 } });
+    page = await ctx.newPage();
+  });
+  afterAll(async () => ctx?.close());
+  const visibleIds = () => page.$$eval("#wafer-table tbody tr:not([hidden]) th a", (as) => as.map((a) => a.textContent ?? ""));
+
+  it("sorts by a column with a header button and sets aria-sort", async () => {
+    await page.goto(`${site.origin}/`, { waitUntil: "load" });
+    const before = await visibleIds();
+    const button = page.locator("#wafer-table thead th").first().locator("button.sort");
+    await button.click();
+    expect(await page.locator("#wafer-table thead th").first().getAttribute("aria-sort")).toBe("ascending");
+    await button.click();
+    expect(await page.locator("#wafer-table thead th").first().getAttribute("aria-sort")).toBe("descending");
+    expect(await visibleIds()).toEqual([...before].sort().reverse());
+    expect(page.url()).toContain("sort=0");
+    expect(page.url()).toContain("dir=desc");
+  });
+
+  it("filters by verdict, shows the live count and restores the filter from the URL", async () => {
+    await page.goto(`${site.origin}/`, { waitUntil: "load" });
+    const total = (await visibleIds()).length;
+    const verdicts = await page.$$eval("#wafer-table tbody tr", (rs) => rs.map((r) => r.getAttribute("data-verdict")));
+    const pick = verdicts.find((v) => v !== "pass") ?? "pass";
+    const expected = verdicts.filter((v) => v === pick).length;
+    await page.selectOption("#f-verdict", pick);
+    expect((await visibleIds()).length).toBe(expected);
+    expect(await page.textContent("#wafer-count")).toBe(`${expected} of ${total} wafers shown`);
+    const linked = page.url();
+    expect(linked).toContain(`verdict=${pick}`);
+    await page.goto(linked, { waitUntil: "load" });
+    expect(await page.inputValue("#f-verdict")).toBe(pick);
+    expect((await visibleIds()).length).toBe(expected);
+  });
+
+  it("filters by growth date range and free text", async () => {
+    await page.goto(`${site.origin}/`, { waitUntil: "load" });
+    const grown = (await page.$$eval("#wafer-table tbody tr", (rs) => rs.map((r) => r.getAttribute("data-grown") ?? ""))).sort();
+    const mid = grown[Math.floor(grown.length / 2)];
+    await page.fill("#f-from", mid);
+    expect((await visibleIds()).length).toBe(grown.filter((g) => g >= mid).length);
+    await page.fill("#f-to", mid);
+    expect((await visibleIds()).length).toBe(grown.filter((g) => g === mid).length);
+    await page.click("#f-reset");
+    const first = (await visibleIds())[0];
+    await page.fill("#f-text", first);
+    expect(await visibleIds()).toContain(first);
+    expect(page.url()).toContain(`text=${first}`);
+  });
+
+  it("is a plain, complete table without JavaScript", async () => {
+    const noJs = await site.browser.newContext({ javaScriptEnabled: false });
+    const p = await noJs.newPage();
+    await p.goto(`${site.origin}/`);
+    const rows = await p.$$eval("#wafer-table tbody tr", (rs) => rs.length);
+    expect(rows).toBe([...pages.keys()].filter((k) => /^\/wafers\/[^/]+\/$/.test(k)).length);
+    expect(await p.isVisible("#wafer-filters")).toBe(false);
+    await noJs.close();
+  });
+});
+
+describe("site search", () => {
+  it("finds a wafer by id and by a word of its notes, linking to the section", async () => {
+    const ctx = await site.browser.newContext();
+    const page = await ctx.newPage();
+    const id = waferUrl.split("/").at(-2)!;
+    await page.goto(`${site.origin}/search/?q=${id}`, { waitUntil: "load" });
+    await page.waitForSelector("#search-results li a");
+    const first = await page.getAttribute("#search-results li a", "href");
+    expect(first).toBe(`/wafers/${id}/#summary`);
+    // A long word from that wafer's notes leads to its #notes section.
+    await page.goto(waferUrl);
+    const notes = (await page.textContent("#notes .notes")) ?? "";
+    const word = (notes.match(/[A-Za-z]{8,}/g) ?? []).sort((a, b) => b.length - a.length)[0];
+    if (word) {
+      await page.goto(`${site.origin}/search/?q=${encodeURIComponent(word)}`, { waitUntil: "load" });
+      await page.waitForSelector("#search-results li a");
+      const hrefs = await page.$$eval("#search-results li a", (as) => as.map((a) => a.getAttribute("href")));
+      expect(hrefs).toContain(`/wafers/${id}/#notes`);
+    }
+    // The header search box submits to the search page.
+    await page.goto(`${site.origin}/`);
+    await page.fill("#site-search", id);
+    await Promise.all([page.waitForURL(/\/search\/\?q=/), page.press("#site-search", "Enter")]);
+    await page.waitForSelector("#search-results li a");
+    await ctx.close();
+  });
+});
+
+describe("screenshots", () => {
+  it("index and a wafer page at 1280 px and 390 px, without sideways scrolling", async () => {
+    for (const width of [1280, 390]) {
+      const ctx = await site.browser.newContext({ viewport: { width, height: width > 500 ? 900 : 844 } });
+      const page = await ctx.newPage();
+      for (const [name, url] of [["index", `${site.origin}/`], ["wafer", waferUrl]] as const) {
+        await page.goto(url, { waitUntil: "load" });
+        await settle(page);
+        const file = path.join(OUTPUT, `${name}-${width}.png`);
+        await page.screenshot({ path: file });
+        await page.screenshot({ path: path.join(OUTPUT, `${name}-${width}-full.png`), fullPage: true });
+        expect(PNG.sync.read(await fs.readFile(file)).width).toBe(width);
+        const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+        expect(overflow, `${name} at ${width} px scrolls sideways`).toBeLessThanOrEqual(1);
+      }
+      await ctx.close();
+    }
+  });
+});
+
+describe("print", () => {
+  it("prints a wafer page as a report: no navigation, provenance footer, a real PDF", async () => {
+    const ctx = await site.browser.newContext();
+    const page = await ctx.newPage();
+    await page.goto(waferUrl, { waitUntil: "load" });
+    await page.emulateMedia({ media: "print" });
+    expect(await page.isVisible("header.top")).toBe(false);
+    expect(await page.isVisible("nav.crumbs")).toBe(false);
+    expect(await page.isVisible("#site-search")).toBe(false);
+    expect(await page.isVisible("footer.foot")).toBe(true);
+    expect(await page.textContent("footer.foot")).toMatch(/Built .* by waferbook/);
+    expect(await page.isVisible("#wafer-title")).toBe(true);
+    const pdf = await page.pdf({ format: "A4", printBackground: true });
+    expect(pdf.subarray(0, 5).toString("latin1")).toBe("%PDF-");
+    expect(pdf.length).toBeGreaterThan(20_000);
+    const pageCount = (pdf.toString("latin1").match(/\/Type\s*\/Page(?![a-zA-Z])/g) ?? []).length;
+    expect(pageCount).toBeGreaterThanOrEqual(1);
+    await fs.writeFile(path.join(OUTPUT, "wafer.pdf"), pdf);
+    await ctx.close();
+  });
+});
