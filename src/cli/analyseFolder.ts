@@ -5,7 +5,7 @@
  * worker (src/cli/workerPool.ts); its result is plain data.
  */
 import path from "node:path";
-import { analyseWafer } from "../analyse/wafer.ts";
+import { analyseWafer, type WaferAnalysis } from "../analyse/wafer.ts";
 import { loadWafer, type LoadContext } from "../read/wafer.ts";
 import { cacheKey, readEntry, writeEntry, type CacheEntry } from "./cache.ts";
 
@@ -43,8 +43,24 @@ export async function analyseFolder(folder: string, ctx: AnalyseContext, knownKe
     const inputs = loaded.record.devices.map((spec) => ({ spec, sweeps: loaded.devices.find((d) => d.id === spec.id)?.sweeps ?? [] }));
     analysis = analyseWafer({ devices: inputs, structure: loaded.structure, images: loaded.images, stack: loaded.record.stack }, loaded.record.settings);
   }
-  const entry: CacheEntry = { folder, record: loaded.record, files: loaded.files, problems: loaded.problems, analysis };
+  const entry: CacheEntry = { folder, record: loaded.record, files: loaded.files, problems: loaded.problems, analysis: analysis && keepForPublishing(analysis) };
   // Only wafers whose record validated are cached: a broken wafer.md is cheap to re-read, and its problems may depend on today's date.
   if (ctx.cacheDir && key && loaded.record) await writeEntry(ctx.cacheDir, key, entry);
   return { entry, cacheHit: false };
+}
+
+const NO_TRACE = { b: new Float64Array(0), rhoxx: new Float64Array(0), rxy: new Float64Array(0) };
+
+/**
+ * Drops what publishing never reads, so the build holds (and the cache
+ * stores) less per wafer: the full-resolution symmetrised traces of every
+ * field sweep except each device's last one (the one charted; the page links
+ * the raw files for the rest). Analysis results that were computed from the
+ * traces are kept.
+ */
+export function keepForPublishing(analysis: WaferAnalysis): WaferAnalysis {
+  return {
+    ...analysis,
+    devices: analysis.devices.map((d) => ({ ...d, points: d.points.map((p, i) => (i === d.points.length - 1 ? p : { ...p, trace: NO_TRACE })) })),
+  };
 }

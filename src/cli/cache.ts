@@ -33,7 +33,7 @@ import type { Problem } from "../validate/problem.ts";
 import type { WaferRecord } from "../validate/wafer.ts";
 
 /** Bumped when the entry's shape changes. */
-export const CACHE_FORMAT = "waferbook-cache-1";
+export const CACHE_FORMAT = "waferbook-cache-2";
 
 export interface CacheEntry {
   folder: string;
