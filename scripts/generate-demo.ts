@@ -80,7 +80,7 @@ async function write(rel: string, text: string | Buffer): Promise<void> {
   await fs.writeFile(abs, text);
 }
 
-function waferMd(w: DemoWafer, devices: { id: string; geometry: string; at: [number, number] }[], extra: string): string {
+export function waferMd(w: DemoWafer, devices: { id: string; geometry: string; at: [number, number] }[], extra: string): string {
   const lines = ["---", `wafer: ${w.id}`, `run: ${w.run}`, `grown: ${w.grown}`];
   if (w.grade) lines.push(`grade: ${w.grade}`);
   lines.push(`reactor: ${RUNS[w.run].reactor}`);

@@ -11,6 +11,8 @@ export interface BuildOptions {
   strict: boolean;
   basePath: string;
   quiet: boolean;
+  /** Analysis cache folder; null with --no-cache. Default: .waferbook-cache/ beside the output folder. */
+  cache?: string | null;
 }
 
 export type ParsedArgs = { command: "build"; options: BuildOptions } | { command: "help" } | { command: "version" } | { command: "usage-error"; message: string };
@@ -19,6 +21,7 @@ export const HELP = `waferbook — builds a qualification site from wafer record
 
 Usage:
   waferbook build [--data DIR] [--out DIR] [--strict] [--base PATH] [--quiet]
+                 [--cache DIR | --no-cache]
   waferbook --help | --version
 
 Options:
@@ -30,6 +33,10 @@ Options:
   --strict      exit with code 1 when any input error was found (for CI)
   --base PATH   serve the site under a sub-path, e.g. /qual/ (default: /)
   --quiet       print only problems and the summary
+  --cache DIR   where analysis results are kept between builds, keyed by the
+                wafer's files, settings and the analysis code (default:
+                .waferbook-cache/ beside the --out folder)
+  --no-cache    analyse every wafer from its raw files, ignoring the cache
   -h, --help    show this help
   --version     print the version
 
@@ -39,7 +46,7 @@ Exit codes: 0 built; 1 input errors with --strict, or nothing could be built;
 Formats: docs/formats.md. Verdicts support, and never replace, the lab's own
 QA sign-off.`;
 
-const OPTIONS = ["--data", "--out", "--strict", "--base", "--quiet", "--help", "--version"];
+const OPTIONS = ["--data", "--out", "--strict", "--base", "--quiet", "--cache", "--no-cache", "--help", "--version"];
 
 export function parseArgs(argv: string[]): ParsedArgs {
   if (argv.length === 0 || argv[0] === "--help" || argv[0] === "-h" || argv[0] === "help") return { command: "help" };
@@ -48,7 +55,7 @@ export function parseArgs(argv: string[]): ParsedArgs {
     const hint = didYouMean(argv[0], ["build"]);
     return { command: "usage-error", message: `unknown command ${JSON.stringify(argv[0])}${hint ? ` — did you mean "${hint}"?` : ""}` };
   }
-  const options: BuildOptions = { data: "data", out: "site", strict: false, basePath: "/", quiet: false };
+  const options: BuildOptions = { data: "data", out: "site", strict: false, basePath: "/", quiet: false, cache: undefined };
   for (let i = 1; i < argv.length; i++) {
     const a = argv[i];
     const [flag, inline] = a.includes("=") ? [a.slice(0, a.indexOf("=")), a.slice(a.indexOf("=") + 1)] : [a, undefined];
@@ -71,6 +78,8 @@ export function parseArgs(argv: string[]): ParsedArgs {
         }
         case "--strict": options.strict = true; break;
         case "--quiet": options.quiet = true; break;
+        case "--cache": options.cache = value(); break;
+        case "--no-cache": options.cache = null; break;
         case "--help": case "-h": return { command: "help" };
         default: {
           const hint = didYouMean(flag, OPTIONS);

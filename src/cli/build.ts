@@ -9,7 +9,9 @@ import { promises as fs, constants as fsc } from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { Eleventy } from "@11ty/eleventy";
-import { processWafer, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
+import { judgeOutcome, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
+import { codeVersion, defaultCacheDir } from "./cache.ts";
+import { analyseAll } from "./workerPool.ts";
 import { loadSiteInputs } from "../read/site.ts";
 import { buildSiteModel, type SiteMeta } from "../publish/siteModel.ts";
 import { resultsJson, waferPageModel } from "../publish/waferPage.ts";
@@ -35,6 +37,8 @@ export interface BuildResult {
   problems: Problem[];
   outDir: string;
   pages: number;
+  /** Wafers taken from the analysis cache / analysed from raw files; wall time of each phase, ms. */
+  stats?: { cacheHits: number; analysed: number; phases: Record<string, number> };
 }
 
 export class BuildLockedError extends Error {}
@@ -81,11 +85,22 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     const site = await loadSiteInputs(dataDir);
     const sitewideErrors = site.problems.filter((p) => p.severity === "error" && p.file === "targets.yaml");
     const ctx: PipelineContext = { dataDir, today: io.today(), siteSettings: site.settings, targets: site.targets, siteOverrides: {}, version, sitewideErrors };
-    const outcomes: WaferOutcome[] = [];
-    for (const [i, folder] of site.waferFolders.entries()) {
-      outcomes.push(await processWafer(folder, ctx));
-      if (!options.quiet) io.log(`analysed ${i + 1}/${site.waferFolders.length} ${folder}`);
-    }
+    const phases: Record<string, number> = {};
+    let t = performance.now();
+    const lap = (name: string) => {
+      const now = performance.now();
+      phases[name] = Math.round(now - t);
+      t = now;
+    };
+    const cacheDir = options.cache === null ? null : path.resolve(options.cache ?? defaultCacheDir(outDir));
+    const code = cacheDir ? await codeVersion(version) : "";
+    let done = 0;
+    const analysed = await analyseAll(site.waferFolders, { dataDir, today: ctx.today, siteSettings: ctx.siteSettings, cacheDir, code }, (_i, r) => {
+      if (!options.quiet) io.log(`analysed ${++done}/${site.waferFolders.length} ${r.entry.folder}${r.cacheHit ? " (cached)" : ""}`);
+    });
+    const outcomes: WaferOutcome[] = analysed.map((a) => judgeOutcome(a.entry, a.entry.analysis, ctx));
+    const stats = { cacheHits: analysed.filter((a) => a.cacheHit).length, analysed: analysed.filter((a) => !a.cacheHit).length, phases };
+    lap("analyse");
     const problems = [...site.problems, ...outcomes.flatMap((o) => o.problems)];
     if (site.waferFolders.length === 0 && site.problems.some((p) => p.severity === "error")) {
       return { ok: false, outcomes, problems, outDir, pages: 0 };
@@ -93,12 +108,15 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     const history = await loadDataHistory(dataDir);
     const meta: SiteMeta = { title: "waferbook", version, builtAt: io.now(), basePath: options.basePath, dataCommit: history?.head ?? null };
     const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history });
+    lap("model");
     const pages = await render(model, tmpDir);
-    await writeExtras(outcomes, dataDir, tmpDir, meta.dataCommit ?? null);
+    lap("render");
+    await writeExtras(outcomes, dataDir, tmpDir, meta.dataCommit ?? null, new Map(model.wafers.map((w) => [w.id, w])));
     await writeExports(outcomes, tmpDir, meta);
     await writeSearch(outcomes, site.runs, tmpDir, PACKAGE_ROOT);
     await swapInto(tmpDir, outDir);
-    return { ok: true, outcomes, problems, outDir, pages };
+    lap("write");
+    return { ok: true, outcomes, problems, outDir, pages, stats };
   } finally {
     await fs.rm(tmpDir, { recursive: true, force: true });
     await release();
@@ -121,7 +139,9 @@ async function render(model: ReturnType<typeof buildSiteModel>, tmpDir: string):
   return written;
 }
 
-async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string, dataCommit: string | null): Promise<void> {
+type PageModel = ReturnType<typeof waferPageModel>;
+
+async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string, dataCommit: string | null, pagesById: Map<string, PageModel>): Promise<void> {
   for (const o of outcomes) {
     const dir = path.join(tmpDir, "wafers", o.folder);
     await fs.mkdir(dir, { recursive: true });
@@ -133,7 +153,7 @@ async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: st
       await fs.mkdir(path.dirname(dest), { recursive: true });
       await fs.copyFile(path.join(dataDir, ...parts), dest);
     }
-    const page = waferPageModel(o);
+    const page = pagesById.get(o.folder) ?? waferPageModel(o);
     for (const section of [page.transportDepth, page.structure, page.images] as { files?: { path: string; bytes: Buffer }[] }[]) {
       for (const f of section?.files ?? []) {
         const parts = f.path.split("/");

@@ -3,6 +3,7 @@
  * errors with --strict, or nothing built; 2 bad usage.
  */
 import path from "node:path";
+import { writeFile } from "node:fs/promises";
 import { HELP, parseArgs } from "./args.ts";
 import { reportProblems, summary } from "./report.ts";
 
@@ -33,6 +34,8 @@ export async function main(argv: string[]): Promise<number> {
       now: () => new Date().toISOString().replace(/\.\d+Z$/, "Z"),
     });
     if (!quiet) process.stdout.write("\r\x1b[2K");
+    // For the benchmark (bench/run.ts): phase times, cache use and this process's peak memory.
+    if (process.env.WAFERBOOK_STATS) await writeFile(process.env.WAFERBOOK_STATS, JSON.stringify({ ...result.stats, wall_ms: Date.now() - started, maxRSS_kB: process.resourceUsage().maxRSS }) + "\n");
     reportProblems(result.problems, err);
     out(summary(result, (Date.now() - started) / 1000));
     if (!result.ok) {

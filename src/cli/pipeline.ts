@@ -67,7 +67,7 @@ export interface PipelineContext extends LoadContext {
   sitewideErrors: Problem[];
 }
 
-export function judgeOutcome(loaded: LoadedWafer, analysis: WaferAnalysis | undefined, ctx: PipelineContext): WaferOutcome {
+export function judgeOutcome(loaded: Pick<LoadedWafer, "folder" | "record" | "problems" | "files">, analysis: WaferAnalysis | undefined, ctx: PipelineContext): WaferOutcome {
   const problems = [...loaded.problems];
   const record = loaded.record;
   const values = analysis ? metricValues(analysis) : {};

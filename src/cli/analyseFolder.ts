@@ -1,0 +1,66 @@
+/**
+ * One wafer's read → validate → analyse step, with the analysis cache: the
+ * part of the pipeline that depends only on the wafer's own files, its
+ * settings and the code — never on targets. Runs in the main thread or in a
+ * worker (src/cli/workerPool.ts); its result is plain data.
+ */
+import path from "node:path";
+import { analyseWafer, type WaferAnalysis } from "../analyse/wafer.ts";
+import { loadWafer, type LoadContext } from "../read/wafer.ts";
+import { cacheKey, readEntry, writeEntry, type CacheEntry } from "./cache.ts";
+
+export interface AnalyseContext extends LoadContext {
+  /** Cache folder, or null to bypass the cache (--no-cache). */
+  cacheDir: string | null;
+  /** Analysis code version (cache.ts codeVersion). */
+  code: string;
+}
+
+export interface AnalysedFolder {
+  entry: CacheEntry;
+  cacheHit: boolean;
+}
+
+/** The cached result of one wafer folder, if any, and its cache key (undefined without a cache). */
+export async function lookUpFolder(folder: string, ctx: AnalyseContext): Promise<{ key?: string; hit?: AnalysedFolder }> {
+  if (!ctx.cacheDir) return {};
+  const key = await cacheKey(path.join(ctx.dataDir, "wafers", folder), ctx.code, ctx.siteSettings);
+  const entry = await readEntry(ctx.cacheDir, key);
+  return { key, hit: entry && entry.folder === folder ? { entry, cacheHit: true } : undefined };
+}
+
+/** Loads and analyses one wafer folder, or takes the result from the cache. `knownKey`: its cache key when already computed (and missed). */
+export async function analyseFolder(folder: string, ctx: AnalyseContext, knownKey?: string): Promise<AnalysedFolder> {
+  let key = knownKey;
+  if (ctx.cacheDir && !key) {
+    const found = await lookUpFolder(folder, ctx);
+    if (found.hit) return found.hit;
+    key = found.key;
+  }
+  const loaded = await loadWafer(folder, ctx);
+  let analysis: CacheEntry["analysis"];
+  if (loaded.record) {
+    const inputs = loaded.record.devices.map((spec) => ({ spec, sweeps: loaded.devices.find((d) => d.id === spec.id)?.sweeps ?? [] }));
+    analysis = analyseWafer({ devices: inputs, structure: loaded.structure, images: loaded.images, stack: loaded.record.stack }, loaded.record.settings);
+  }
+  const entry: CacheEntry = { folder, record: loaded.record, files: loaded.files, problems: loaded.problems, analysis: analysis && keepForPublishing(analysis) };
+  // Only wafers whose record validated are cached: a broken wafer.md is cheap to re-read, and its problems may depend on today's date.
+  if (ctx.cacheDir && key && loaded.record) await writeEntry(ctx.cacheDir, key, entry);
+  return { entry, cacheHit: false };
+}
+
+const NO_TRACE = { b: new Float64Array(0), rhoxx: new Float64Array(0), rxy: new Float64Array(0) };
+
+/**
+ * Drops what publishing never reads, so the build holds (and the cache
+ * stores) less per wafer: the full-resolution symmetrised traces of every
+ * field sweep except each device's last one (the one charted; the page links
+ * the raw files for the rest). Analysis results that were computed from the
+ * traces are kept.
+ */
+export function keepForPublishing(analysis: WaferAnalysis): WaferAnalysis {
+  return {
+    ...analysis,
+    devices: analysis.devices.map((d) => ({ ...d, points: d.points.map((p, i) => (i === d.points.length - 1 ? p : { ...p, trace: NO_TRACE })) })),
+  };
+}
