@@ -2,7 +2,7 @@
  * Property-based tests (fast-check): random and mutated inputs to the sweep
  * parser (readTable + validateSweep), the record loader (readFrontMatter +
  * validateWafer), and the analysis entry points (analyseFieldSweep,
- * analyseDeviceDepth, analyseStructure) never crash — the only throw allowed
+ * summariseDevice, analyseDeviceDepth, analyseStructure) never crash — the only throw allowed
  * is InputError, the only refusal `{ ok: false, reason }` — never hang (bounded
  * sizes, a time budget per property) and never put NaN or Infinity into a result.
  * Seeds are fixed so a failure reproduces.
@@ -21,6 +21,7 @@ import { InputError } from "../../src/validate/problem.ts";
 import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
 import { analyseFieldSweep, type TransportPoint } from "../../src/analyse/transport/fieldSweep.ts";
 import { analyseDeviceDepth } from "../../src/analyse/transport/deviceDepth.ts";
+import { summariseDevice } from "../../src/analyse/transport/deviceSummary.ts";
 import { analyseStructure } from "../../src/analyse/structure/index.ts";
 import { ROOT } from "./corpus.ts";
 
@@ -177,6 +178,7 @@ describe("device depth analysis", () => {
         }
         const depth = analyseDeviceDepth(points.sort((a, b) => a.gate_V - b.gate_V), gates, DEFAULT_SETTINGS, HB);
         expect(firstNonFinite(depth)).toBeUndefined();
+        expect(firstNonFinite(summariseDevice(points))).toBeUndefined();
       }),
       opts(300, 63),
     );
