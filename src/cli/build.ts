@@ -78,6 +78,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
   const dataDir = path.resolve(options.data);
   const outDir = path.resolve(options.out);
   const release = await acquireLock(outDir);
+  await recoverInterrupted(outDir);
   const tmpDir = path.join(path.dirname(outDir), `.${path.basename(outDir)}-building-${process.pid}`);
   try {
     await fs.rm(tmpDir, { recursive: true, force: true });
@@ -166,6 +167,21 @@ async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: st
   const chartJs = path.join(PACKAGE_ROOT, "node_modules", "chart.js", "dist", "chart.umd.min.js");
   await fs.mkdir(path.join(tmpDir, "assets"), { recursive: true });
   await fs.copyFile(chartJs, path.join(tmpDir, "assets", "chart.umd.min.js"));
+}
+
+/**
+ * Run while holding the lock: a build killed between the two renames of
+ * swapInto left the previous site at `.<out>-building-<pid>-old` and no
+ * outDir; put it back. Other leftovers of killed builds are removed.
+ */
+async function recoverInterrupted(outDir: string): Promise<void> {
+  const parent = path.dirname(outDir);
+  const prefix = `.${path.basename(outDir)}-building-`;
+  const left = (await fs.readdir(parent)).filter((n) => n.startsWith(prefix) && /^\d+(-old)?$/.test(n.slice(prefix.length)));
+  const hasOut = await fs.stat(outDir).then(() => true, () => false);
+  const old = left.find((n) => n.endsWith("-old"));
+  if (!hasOut && old) await fs.rename(path.join(parent, old), outDir);
+  for (const n of left) if (n !== old || hasOut) await fs.rm(path.join(parent, n), { recursive: true, force: true });
 }
 
 /** Replaces outDir by tmpDir with two renames; the old folder is removed only after the new one is in place. */

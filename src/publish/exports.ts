@@ -37,7 +37,7 @@ export function allResultsJson(outcomes: readonly WaferOutcome[], meta: { versio
   const metrics = exportedMetrics(outcomes);
   return {
     waferbookVersion: meta.version,
-    builtAt: meta.builtAt,
+    // No build time here: the footer "Built …" line is the one place a build's output varies (DEVELOPERS.md).
     dataCommit: meta.dataCommit ?? null,
     units: Object.fromEntries(metrics.map((m) => [m.key, m.unit])),
     wafers: outcomes.map((o) => ({

@@ -61,8 +61,8 @@ export async function readDataBytes(dataDir: string, abs: string, maxBytes = MAX
     throw new InputError({
       file: rel,
       message: "file is too large",
-      expected: `at most ${(maxBytes / 1048576).toFixed(0)} MiB`,
-      found: `${(stat.size / 1048576).toFixed(1)} MiB`,
+      expected: `at most ${maxBytes} bytes (${+(maxBytes / 1048576).toFixed(1)} MiB)`,
+      found: `${stat.size} bytes`,
       fix: "split the measurement into several files or decimate it before committing",
     });
   }
@@ -142,6 +142,19 @@ export async function listFiles(dir: string): Promise<string[]> {
   }
   await walk("");
   return out.sort();
+}
+
+/**
+ * Refuses a file path (not a pattern) named in a record that is absolute or
+ * climbs out of the wafer folder with `..`; `where` locates the field.
+ */
+export function checkRelativePath(rel: string, where: { file: string; field: string; line?: number }): void {
+  if (path.isAbsolute(rel) || /^[A-Za-z]:[\\/]/.test(rel) || rel.startsWith("\\")) {
+    throw new InputError({ ...where, message: "file path must be relative to the wafer folder", expected: "a path such as \"images/haadf-01.png\"", found: JSON.stringify(rel), fix: "remove the leading slash or drive" });
+  }
+  if (rel.split(/[\\/]/).includes("..")) {
+    throw new InputError({ ...where, message: "refused: file path leads outside the wafer folder", expected: "a path inside the wafer folder", found: JSON.stringify(rel), fix: "move the file into the wafer folder and drop the \"..\"" });
+  }
 }
 
 /**

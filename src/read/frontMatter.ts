@@ -30,7 +30,9 @@ export function readFrontMatter(text: string, file: string): FrontMatterDoc {
   } catch (err) {
     const e = err as { mark?: { line: number; column: number }; reason?: string; message: string };
     if (e.mark) {
-      throw new InputError({ file, line: e.mark.line + 2, column: e.mark.column + 1, message: `YAML syntax error: ${e.reason ?? "cannot parse"}`, expected: "valid YAML (spaces for indentation, \"key: value\")", found: "text YAML cannot read", fix: /tab/i.test(e.reason ?? "") ? "indent with spaces, not tabs" : "check the indentation and quoting on that line" });
+      // The front-matter text starts right after the opening "---", so YAML's line 0 is file line 1.
+      const line = e.mark.line + 1;
+      throw new InputError({ file, line, column: e.mark.column + 1, message: `YAML syntax error: ${e.reason ?? "cannot parse"}`, expected: "valid YAML (spaces for indentation, \"key: value\")", found: lineText(text, line), fix: /tab/i.test(e.reason ?? "") ? "indent with spaces, not tabs" : "check the indentation and quoting on that line" });
     }
     throw new InputError({ file, message: `cannot read front matter: ${e.message}` });
   }
@@ -43,8 +45,17 @@ export function readYaml(text: string, file: string): unknown {
     return yaml.load(text);
   } catch (err) {
     const e = err as { mark?: { line: number; column: number }; reason?: string; message: string };
-    throw new InputError({ file, line: e.mark ? e.mark.line + 1 : undefined, column: e.mark ? e.mark.column + 1 : undefined, message: `YAML syntax error: ${e.reason ?? e.message}`, expected: "valid YAML", found: "text YAML cannot read", fix: "check the indentation and quoting on that line" });
+    const line = e.mark ? e.mark.line + 1 : undefined;
+    throw new InputError({ file, line, column: e.mark ? e.mark.column + 1 : undefined, message: `YAML syntax error: ${e.reason ?? e.message}`, expected: "valid YAML", found: line === undefined ? "text YAML cannot read" : lineText(text, line), fix: "check the indentation and quoting on that line" });
   }
+}
+
+/** The text of a 1-based line, shortened and quoted, for "found" in a YAML syntax message. */
+function lineText(text: string, line: number): string {
+  const lines = text.split(/\r?\n/);
+  if (line > lines.length || (line === lines.length && lines[line - 1] === "")) return "the end of the text";
+  const t = lines[line - 1];
+  return JSON.stringify(t.length > 40 ? `${t.slice(0, 37)}…` : t);
 }
 
 /**

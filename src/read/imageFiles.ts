@@ -16,7 +16,13 @@ import { decodeMicrograph, MicrographFormatError } from "./micrograph.ts";
 /** Decodes one image entry; throws InputError located at the file and at `images[i].…` in wafer.md. */
 async function loadOne(spec: ImageSpec, i: number, files: WaferFileReader): Promise<MicrographInput> {
   const field = `images[${i}].file`;
-  const { rel, bytes } = await files.readBytes(spec.file, "image");
+  const { rel, bytes } = await files.readBytes(spec.file, "image").catch((e: unknown) => {
+    // A missing file is the record's mistake: point at the line of wafer.md that names it.
+    if (e instanceof InputError && e.problem.message === "file not found") {
+      throw new InputError({ file: files.recordFile, line: files.lineOf(field), field, message: "image file not found", expected: "a file in the wafer folder", found: JSON.stringify(spec.file), fix: "check the file name and that the image is committed" });
+    }
+    throw e;
+  });
   let img;
   try {
     img = decodeMicrograph(bytes);

@@ -86,19 +86,13 @@ export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
     out.problems.push({ severity: "error", file: "wafers", message: "no wafers folder", expected: "data/wafers/<wafer-id>/wafer.md", found: "nothing", fix: "add a wafer; see docs/formats.md" });
     return out;
   }
-  const seen = new Map<string, string>();
+  // Ids differing only by letter case are both kept and both marked `error` by loadWafer, so neither wafer silently disappears.
   for (const e of (await fs.readdir(wafersDir, { withFileTypes: true })).sort((a, b) => a.name.localeCompare(b.name))) {
     if (!e.isDirectory()) continue;
     if (!new RegExp(ID_PATTERN).test(e.name)) {
       out.problems.push({ severity: "error", file: `wafers/${e.name}`, message: "wafer folder name is not a valid id", expected: "letters, digits, \".\", \"-\", \"_\" (no \"..\")", found: JSON.stringify(e.name), fix: "rename the folder" });
       continue;
     }
-    const lower = e.name.toLowerCase();
-    if (seen.has(lower)) {
-      out.problems.push({ severity: "error", wafer: e.name, file: `wafers/${e.name}/wafer.md`, field: "wafer", message: "duplicate wafer id (ids must differ by more than letter case)", expected: "a unique id", found: `${JSON.stringify(e.name)} and ${JSON.stringify(seen.get(lower))}`, fix: "rename one of the two wafers" });
-      continue;
-    }
-    seen.set(lower, e.name);
     out.waferFolders.push(e.name);
   }
   return out;

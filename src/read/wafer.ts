@@ -4,12 +4,13 @@
  * broken file makes this wafer `error` without touching the others.
  */
 import { createHash } from "node:crypto";
+import { promises as fs } from "node:fs";
 import path from "node:path";
 import { InputError, type Problem } from "../validate/problem.ts";
 import type { AnalysisSettings } from "../validate/settings.ts";
 import { validateSweep, type Sweep } from "../validate/sweep.ts";
 import { validateWafer, type WaferRecord } from "../validate/wafer.ts";
-import { decodeText, listFiles, matchGlob, MAX_IMAGE_FILE_BYTES, readDataBytes, relPath } from "./dataFiles.ts";
+import { checkRelativePath, decodeText, listFiles, matchGlob, MAX_IMAGE_FILE_BYTES, readDataBytes, relPath } from "./dataFiles.ts";
 import { loadImageInputs } from "./imageFiles.ts";
 import { loadStructureInputs } from "./structureFiles.ts";
 import type { WaferFileReader } from "./waferFiles.ts";
@@ -75,6 +76,11 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
     out.problems.push(toProblem(err, folder, recordRel));
     return out;
   }
+  const twins = (await fs.readdir(path.join(ctx.dataDir, "wafers"))).filter((n) => n !== folder && n.toLowerCase() === folder.toLowerCase());
+  if (twins.length) {
+    const found = [folder, ...twins].sort().map((n) => JSON.stringify(n)).join(" and ");
+    out.problems.push({ severity: "error", wafer: folder, file: recordRel, line: lineOfField(matterText, "wafer", 2), field: "wafer", message: "duplicate wafer id (ids must differ by more than letter case)", expected: "a unique id", found, fix: "rename one of the wafers" });
+  }
   const all = (await listFiles(waferDir)).filter((f) => f !== "wafer.md");
   for (const [i, spec] of record.devices.entries()) {
     const field = `devices[${i}].files`;
@@ -91,6 +97,7 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
       out.problems.push({ severity: "error", wafer: folder, file: recordRel, line: lineOfField(matterText, field, 2), field, message: "file pattern matches no file", expected: "at least one sweep file", found: JSON.stringify(spec.files), fix: `check the pattern against the files in wafers/${folder}/` });
       continue;
     }
+    let failed = 0;
     for (const rel of matched) {
       try {
         const f = await readDataBytes(ctx.dataDir, path.join(waferDir, rel));
@@ -101,7 +108,11 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
         device.sweeps.push(sweep);
       } catch (err) {
         out.problems.push(toProblem(err, folder, rel));
+        failed++;
       }
+    }
+    if (failed === 0 && !device.sweeps.some((sw) => sw.kind === "field")) {
+      out.problems.push({ severity: "error", wafer: folder, file: recordRel, line: lineOfField(matterText, field, 2), field, message: `no field sweeps for device ${spec.id}: Hall analysis needs B sweeps`, expected: "at least one field sweep (a B column, with # gate:) among the device's files", found: `gate sweeps only (${matched.join(", ")})`, fix: "add the device's field sweeps to the pattern, or check that the files are not gate sweeps exported by mistake" });
     }
   }
   const reader = fileReader(ctx, waferDir, recordRel, matterText, all, out);
@@ -130,11 +141,13 @@ function fileReader(ctx: LoadContext, waferDir: string, recordRel: string, matte
       }
     },
     async readText(rel, role) {
+      checkRelativePath(rel, { file: recordRel, field: role });
       const f = await readDataBytes(ctx.dataDir, path.join(waferDir, rel));
       out.files.push(fileInfo(f.rel, f.bytes, role));
       return { rel: f.rel, text: decodeText(f) };
     },
     async readBytes(rel, role) {
+      checkRelativePath(rel, { file: recordRel, field: role });
       const f = await readDataBytes(ctx.dataDir, path.join(waferDir, rel), MAX_IMAGE_FILE_BYTES);
       out.files.push(fileInfo(f.rel, f.bytes, role));
       return { rel: f.rel, bytes: f.bytes };

@@ -7,6 +7,7 @@
  */
 import { Ajv, type ErrorObject } from "ajv";
 import { lineOfField, type FrontMatterDoc } from "../read/frontMatter.ts";
+import { checkRelativePath } from "../read/dataFiles.ts";
 import { applySettings, type AnalysisSettings } from "./settings.ts";
 import { didYouMean, InputError, show } from "./problem.ts";
 import { FIELD_HINTS, ID_PATTERN, WAFER_SCHEMA } from "./waferSchema.ts";
@@ -173,6 +174,7 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
       throw new InputError({ file, line: lineOf(`devices[${i}]`), field: `devices[${i}]`, message: "a Hall bar needs its dimensions", expected: "length_um (voltage-probe spacing) and width_um (bar width)", found: `length_um ${show(d.length_um)}, width_um ${show(d.width_um)}`, fix: "add both, in micrometres" });
     }
   });
+  ((r.images ?? []) as ImageSpec[]).forEach((im, i) => checkRelativePath(im.file, { file, field: `images[${i}].file`, line: lineOf(`images[${i}].file`) }));
   const settings = applySettings(ctx.siteSettings, r.analysis, { file, field: "analysis", lineOf: (k) => lineOf(`analysis.${k}`) });
   return {
     wafer: r.wafer,

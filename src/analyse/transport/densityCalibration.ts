@@ -55,6 +55,8 @@ export function densityCalibration(
   if (new Set(x).size < 2) {
     return skipped(`need Hall densities at two or more gate voltages, found ${new Set(x).size}`);
   }
+  // linearFit throws when the x values are numerically equal (e.g. 0 V and 1e-320 V): that is a data reason, not a bug.
+  if (!(Math.max(...x) - Math.min(...x) > 1e-9)) return skipped("gate voltages differ by less than 1 nV");
   const fit = linearFit(x, y);
   if (fit.slope === 0 || !Number.isFinite(fit.slope)) return skipped("Hall density does not change with gate voltage");
   const a = fit.slope;
@@ -72,6 +74,8 @@ export function densityCalibration(
     vErr = Math.sqrt(Math.max(0, varV));
   }
   if (!Number.isFinite(turnOn)) return skipped("turn-on voltage is not finite");
+  // Densities spanning hundreds of decades overflow the sums of the fit: refuse rather than publish NaN.
+  if (![a, b, fit.r2, capErr ?? 0, vErr ?? 0].every(Number.isFinite)) return skipped("the density-against-gate fit is not finite (densities out of any physical range)");
   return {
     ok: true,
     slope: a,

@@ -1,0 +1,203 @@
+/**
+ * Nothing lost, nothing varies: a killed build leaves the previous site
+ * exactly as it was; raw files are never written (hashes before and after,
+ * and no write call in the readers); two builds of the same inputs are
+ * byte-identical apart from the footer's "Built …" stamp; the output lock
+ * refuses a second build with a clear message; a build on mutated demo data
+ * publishes no NaN or Infinity.
+ */
+import { spawn, execFile } from "node:child_process";
+import { createHash } from "node:crypto";
+import { promises as fs } from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { promisify } from "node:util";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { build, BuildLockedError } from "../../src/cli/build.ts";
+import { io, ROOT } from "./corpus.ts";
+
+const run = promisify(execFile);
+const BIN = path.join(ROOT, "bin", "waferbook.js");
+let tmp: string;
+beforeAll(async () => {
+  tmp = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-lost-"));
+});
+afterAll(async () => {
+  await fs.rm(tmp, { recursive: true, force: true });
+});
+
+async function hashTree(dir: string): Promise<Map<string, string>> {
+  const out = new Map<string, string>();
+  async function walk(sub: string): Promise<void> {
+    for (const e of (await fs.readdir(path.join(dir, sub), { withFileTypes: true })).sort((a, b) => (a.name < b.name ? -1 : 1))) {
+      const rel = sub ? `${sub}/${e.name}` : e.name;
+      if (e.isDirectory()) await walk(rel);
+      else out.set(rel, createHash("sha256").update(await fs.readFile(path.join(dir, rel))).digest("hex"));
+    }
+  }
+  await walk("");
+  return out;
+}
+
+/** The demo data without its git history: copied, so the test never depends on the checkout. */
+async function demoCopy(name: string, wafers?: string[]): Promise<string> {
+  const data = path.join(tmp, name);
+  await fs.cp(path.join(ROOT, "data"), data, { recursive: true, filter: (src) => !wafers || !src.includes(`${path.sep}wafers${path.sep}`) || wafers.some((w) => src.includes(`${path.sep}wafers${path.sep}${w}`)) });
+  return data;
+}
+
+const opts = (data: string, out: string) => ({ data, out, strict: false, basePath: "/", quiet: true });
+
+describe("raw files are only read", () => {
+  it("a build leaves every file of the data folder byte-identical", async () => {
+    const data = await demoCopy("ro", ["TQ-2401", "TQ-2404"]);
+    const before = await hashTree(data);
+    const stats = await Promise.all([...before.keys()].map((f) => fs.stat(path.join(data, f)).then((s) => s.mtimeMs)));
+    await build(opts(data, path.join(tmp, "ro-site")), io);
+    expect(await hashTree(data)).toEqual(before);
+    const after = await Promise.all([...before.keys()].map((f) => fs.stat(path.join(data, f)).then((s) => s.mtimeMs)));
+    expect(after).toEqual(stats);
+  }, 120_000);
+
+  it("the readers contain no call that could write, and open raw files with the read flag", async () => {
+    for (const dir of ["src/read", "src/validate"]) {
+      for (const f of await fs.readdir(path.join(ROOT, dir))) {
+        const text = await fs.readFile(path.join(ROOT, dir, f), "utf8");
+        expect(text, `${dir}/${f}`).not.toMatch(/\b(writeFile|appendFile|createWriteStream|rename|unlink|rm|rmdir|mkdir|truncate|chmod|copyFile|symlink)\s*\(/);
+        expect(text, `${dir}/${f}`).not.toMatch(/O_WRONLY|O_RDWR|flag:\s*"[wa+]/);
+      }
+    }
+    expect(await fs.readFile(path.join(ROOT, "src/read/dataFiles.ts"), "utf8")).toMatch(/fs\.readFile\(abs, \{ flag: "r" \}\)/);
+  });
+});
+
+describe("deterministic output", () => {
+  it("two builds from two copies at different paths, at different times, differ only in the footer stamp", async () => {
+    const a = await demoCopy("det-a", ["TQ-2401", "TQ-2402", "TQ-2404", "TQ-2405"]);
+    const b = await demoCopy("det-b-other-path", ["TQ-2401", "TQ-2402", "TQ-2404", "TQ-2405"]);
+    await build(opts(a, path.join(tmp, "det-site-a")), { ...io, now: () => "2025-06-01T12:00:00Z" });
+    await build(opts(b, path.join(tmp, "det-site-b")), { ...io, now: () => "2025-07-09T08:30:15Z" });
+    const ha = await hashTree(path.join(tmp, "det-site-a"));
+    const hb = await hashTree(path.join(tmp, "det-site-b"));
+    expect([...hb.keys()]).toEqual([...ha.keys()]);
+    const stamp = /<p>Built [0-9TZ:-]+ by waferbook/g;
+    const differing: string[] = [];
+    for (const [f, h] of ha) {
+      if (hb.get(f) === h) continue;
+      const ta = (await fs.readFile(path.join(tmp, "det-site-a", f), "utf8")).replace(stamp, "<p>Built STAMP by waferbook");
+      const tb = (await fs.readFile(path.join(tmp, "det-site-b", f), "utf8")).replace(stamp, "<p>Built STAMP by waferbook");
+      if (ta !== tb) differing.push(f);
+      else expect(f).toMatch(/\.html$/);
+    }
+    expect(differing).toEqual([]);
+    // Neither absolute path of the data folders leaks into the site.
+    for (const f of ha.keys()) {
+      if (!/\.(html|json|csv|txt)$/.test(f)) continue;
+      const text = await fs.readFile(path.join(tmp, "det-site-a", f), "utf8");
+      expect(text.includes(tmp), f).toBe(false);
+    }
+  }, 240_000);
+});
+
+describe("the output lock", () => {
+  it("refuses a build while another live process holds the lock, with a clear message; a stale lock is taken over", async () => {
+    const data = await demoCopy("lock", ["TQ-2401"]);
+    const out = path.join(tmp, "lock-site");
+    const holder = spawn("sleep", ["30"]);
+    try {
+      await fs.writeFile(`${out}.lock`, `${holder.pid}\n`);
+      const err = await build(opts(data, out), io).catch((e) => e);
+      expect(err).toBeInstanceOf(BuildLockedError);
+      expect(err.message).toBe(`another build (process ${holder.pid}) is writing ${out}; wait for it to finish, or delete ${out}.lock if that process is gone`);
+      const r = await run(process.execPath, [BIN, "build", "--data", data, "--out", out], { env: { ...process.env, CI: "true" } }).catch((e) => e);
+      expect(r.code).toBe(1);
+      expect(r.stderr).toContain(`waferbook: another build (process ${holder.pid}) is writing`);
+      expect(r.stderr).not.toMatch(/\n\s+at /);
+      await expect(fs.stat(out)).rejects.toThrow();
+    } finally {
+      holder.kill("SIGKILL");
+    }
+    await new Promise((r) => holder.once("exit", r));
+    // The holder is gone: its lock is stale and the next build takes it over and removes it afterwards.
+    const r = await build(opts(data, out), io);
+    expect(r.ok).toBe(true);
+    await expect(fs.stat(`${out}.lock`)).rejects.toThrow();
+  }, 120_000);
+
+  it("two concurrent CLI builds into one folder never interleave: each finishes alone or is refused", async () => {
+    const data = await demoCopy("conc", ["TQ-2401", "TQ-2402"]);
+    const out = path.join(tmp, "conc-site");
+    const go = () => run(process.execPath, [BIN, "build", "--data", data, "--out", out], { env: { ...process.env, CI: "true" } }).then((r) => ({ code: 0, ...r }), (e) => e);
+    const results = await Promise.all([go(), go()]);
+    expect(results.some((r) => r.code === 0)).toBe(true);
+    for (const r of results) if (r.code !== 0) expect(r.stderr).toMatch(/another build \(process \d+\) is writing/);
+    const reference = path.join(tmp, "conc-ref");
+    await build(opts(data, reference), io);
+    const stamp = /<p>Built [0-9TZ:-]+ by/g;
+    const h = await hashTree(out);
+    expect([...h.keys()]).toEqual([...(await hashTree(reference)).keys()]);
+    const page = (await fs.readFile(path.join(out, "wafers/TQ-2401/index.html"), "utf8")).replace(stamp, "");
+    expect(page).toBe((await fs.readFile(path.join(reference, "wafers/TQ-2401/index.html"), "utf8")).replace(stamp, ""));
+  }, 180_000);
+});
+
+describe("a killed build loses nothing", () => {
+  it("SIGKILL at several moments leaves the previous site byte-identical", async () => {
+    const data = await demoCopy("kill");
+    const out = path.join(tmp, "kill-site");
+    await build(opts(data, out), io);
+    const before = await hashTree(out);
+    expect(before.size).toBeGreaterThan(20);
+    // The data change so a completed build would be visible.
+    await fs.appendFile(path.join(data, "wafers/TQ-2401/wafer.md"), "\nAn extra line of notes.\n");
+    let killed = 0;
+    for (const delay of [150, 400, 800, 1500, 2500, 4000]) {
+      const child = spawn(process.execPath, [BIN, "build", "--data", data, "--out", out], { env: { ...process.env, CI: "true" }, stdio: "ignore" });
+      const exited = new Promise<number | null>((r) => child.once("exit", (code) => r(code)));
+      await new Promise((r) => setTimeout(r, delay));
+      const wasKilled = child.exitCode === null && child.kill("SIGKILL");
+      await exited;
+      if (!wasKilled) break; // finished before the kill: later delays would too
+      killed++;
+      expect(await hashTree(out), `killed after ${delay} ms`).toEqual(before);
+    }
+    expect(killed).toBeGreaterThanOrEqual(3);
+    // The next build cleans up after the killed ones and succeeds.
+    const r = await build(opts(data, out), io);
+    expect(r.ok).toBe(true);
+    const left = (await fs.readdir(tmp)).filter((n) => n.startsWith(".kill-site-building-"));
+    expect(left).toEqual([]);
+    expect(await fs.readFile(path.join(out, "wafers/TQ-2401/index.html"), "utf8")).toContain("An extra line of notes.");
+  }, 300_000);
+});
+
+describe("no NaN or Infinity is published", () => {
+  it("a build on a mutated demo wafer writes none into results.json or any page", async () => {
+    const data = await demoCopy("nan", ["TQ-2401", "TQ-2402"]);
+    const dir = path.join(data, "wafers/TQ-2401/transport/HB1");
+    const files = (await fs.readdir(dir)).sort();
+    // Valid but hostile values: huge and tiny resistances, a zero Rxx column, a sign flip.
+    const edits: ((cells: string[], i: number) => void)[] = [
+      (c) => { c[1] = String(Number(c[1]) * 1e250); },
+      (c) => { c[2] = String(Number(c[2]) * 1e-300); },
+      (c) => { c[1] = "0"; },
+      (c) => { c[2] = String(-Number(c[2])); },
+      (c, i) => { if (i % 2) c[1] = "1e300"; },
+    ];
+    for (const [k, f] of files.entries()) {
+      const lines = (await fs.readFile(path.join(dir, f), "utf8")).split("\n");
+      let row = 0;
+      const edit = edits[k % edits.length];
+      const next = lines.map((l) => { if (!/^-?\d/.test(l)) return l; const c = l.split(","); edit(c, row++); return c.join(","); });
+      await fs.writeFile(path.join(dir, f), next.join("\n"));
+    }
+    const out = path.join(tmp, "nan-site");
+    const r = await build(opts(data, out), io);
+    expect(r.ok).toBe(true);
+    for (const [f] of await hashTree(out)) {
+      if (!/\.(html|json|csv)$/.test(f)) continue;
+      const text = await fs.readFile(path.join(out, f), "utf8");
+      expect(text.match(/\bNaN\b|\bInfinity\b|\bundefined\b/)?.[0], f).toBeUndefined();
+    }
+  }, 120_000);
+});
