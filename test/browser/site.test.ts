@@ -100,6 +100,15 @@ async function crawl(): Promise<void> {
   });
   const page = await ctx.newPage();
   let current = "";
+  // Requests still in flight when a page is left would be aborted by the next navigation and
+  // reported as failures; the crawl waits for them (see quiet()).
+  let inFlight = 0;
+  page.on("request", () => inFlight++);
+  page.on("requestfinished", () => inFlight--);
+  page.on("requestfailed", () => inFlight--);
+  const quiet = async () => {
+    for (let i = 0; i < 100 && inFlight > 0; i++) await page.waitForTimeout(50);
+  };
   page.on("console", (m) => { if (m.type() === "error") consoleErrors.push(`${current}: ${m.text()}`); });
   page.on("pageerror", (e) => consoleErrors.push(`${current}: ${e.message}`));
   page.on("requestfailed", (r) => { if (r.url().startsWith(site.origin)) failed.push(`${current}: ${r.url()} (${r.failure()?.errorText})`); });
@@ -110,6 +119,7 @@ async function crawl(): Promise<void> {
     if (pages.has(keyOf(u))) continue;
     current = keyOf(u);
     await visit(page, u, queue);
+    await quiet();
     // The search page is reached through the header form; search for the first wafer so its result links are crawled too.
     if (current === "/search/" && waferUrl) queue.push(new URL(`/search/?q=${waferUrl.split("/").at(-2)}`, site.origin));
   }
