@@ -7,7 +7,6 @@
  */
 import { promises as fs, constants as fsc } from "node:fs";
 import path from "node:path";
-import { fileURLToPath } from "node:url";
 import { Eleventy } from "@11ty/eleventy";
 import { judgeOutcome, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
 import { codeVersion, defaultCacheDir } from "./cache.ts";
@@ -20,8 +19,9 @@ import type { Problem } from "../validate/problem.ts";
 import type { BuildOptions } from "./args.ts";
 import { loadDataHistory } from "../read/history.ts";
 import { writeExports } from "./writeExports.ts";
+import { PACKAGE_ROOT } from "./paths.ts";
 
-export const PACKAGE_ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "../..");
+export { PACKAGE_ROOT };
 
 export interface BuildIO {
   log: (line: string) => void;
