@@ -195,10 +195,26 @@ function gaussianFit(win: number[], ctx: RefineCtx, c: { mu: number; mv: number;
   // Window coordinates gathered once; the per-point expression is unchanged (same operations, same result bits).
   const wu = win.map((j) => ctx.u[j]);
   const wv = win.map((j) => ctx.v[j]);
+  // The fitter evaluates the model at 2 × 6 finite-difference neighbours per
+  // step; the four that move only A or B share the Gaussian factor of the
+  // current shape, so each shape's factors are computed once (same bits).
+  const shapes = new Map<string, Float64Array>();
+  const gaussianFactors = (u0: number, v0: number, su: number, sv: number): Float64Array => {
+    const key = `${u0},${v0},${su},${sv}`;
+    let e = shapes.get(key);
+    if (!e) {
+      if (shapes.size >= 16) shapes.clear();
+      const du = 2 * su * su;
+      const dv = 2 * sv * sv;
+      e = new Float64Array(win.length);
+      for (let k = 0; k < win.length; k++) e[k] = Math.exp(-((wu[k] - u0) ** 2) / du - ((wv[k] - v0) ** 2) / dv);
+      shapes.set(key, e);
+    }
+    return e;
+  };
   const model = ([a, u0, v0, su, sv, b]: number[]) => {
-    const du = 2 * su * su;
-    const dv = 2 * sv * sv;
-    return (k: number) => a * Math.exp(-((wu[k] - u0) ** 2) / du - ((wv[k] - v0) ** 2) / dv) + b;
+    const e = gaussianFactors(u0, v0, su, sv);
+    return (k: number) => a * e[k] + b;
   };
   const sdu = Math.max(c.sdu, 0.5);
   const sdv = Math.max(c.sdv, 0.5);
