@@ -108,6 +108,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     const history = await loadDataHistory(dataDir);
     const meta: SiteMeta = { title: "waferbook", version, builtAt: io.now(), basePath: options.basePath, dataCommit: history?.head ?? null };
     const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history });
+    releasePictureData(outcomes);
     lap("model");
     const pages = await render(model, tmpDir);
     lap("render");
@@ -120,6 +121,21 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
   } finally {
     await fs.rm(tmpDir, { recursive: true, force: true });
     await release();
+  }
+}
+
+const NO_TRACE = { b: new Float64Array(0), rhoxx: new Float64Array(0), rxy: new Float64Array(0) };
+
+/**
+ * Once every page model exists, the arrays drawn into its pictures and charts
+ * (XRD map points, the charted full-resolution traces) are read by nothing
+ * else (results.json, exports and search use the fitted figures), so they are
+ * dropped before rendering, which holds every page's HTML at once.
+ */
+function releasePictureData(outcomes: WaferOutcome[]): void {
+  for (const o of outcomes) {
+    for (const f of o.analysis?.structure?.xrd?.files ?? []) f.points = undefined;
+    for (const d of o.analysis?.devices ?? []) for (const p of d.points) p.trace = NO_TRACE;
   }
 }
 
