@@ -95,10 +95,25 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     const cacheDir = options.cache === null ? null : path.resolve(options.cache ?? defaultCacheDir(outDir));
     const code = cacheDir ? await codeVersion(version) : "";
     let done = 0;
-    const analysed = await analyseAll(site.waferFolders, { dataDir, today: ctx.today, siteSettings: ctx.siteSettings, cacheDir, code }, (_i, r) => {
+    // Each wafer is judged and its page model built as soon as its analysis
+    // arrives, and the arrays drawn into its pictures are then dropped: the
+    // build holds every wafer's slim analysis and page model, never every
+    // wafer's map points and traces at once.
+    const outcomes: WaferOutcome[] = new Array(site.waferFolders.length);
+    const pageModels = new Map<string, PageModel>();
+    let failure: unknown;
+    const analysed = await analyseAll(site.waferFolders, { dataDir, today: ctx.today, siteSettings: ctx.siteSettings, cacheDir, code }, (i, r) => {
+      try {
+        const o = (outcomes[i] = judgeOutcome(r.entry, r.entry.analysis, ctx));
+        pageModels.set(o.folder, waferPageModel(o));
+        releasePictureData([o]);
+      } catch (err) {
+        // Thrown again below: this callback may run inside a worker's message handler.
+        failure ??= err;
+      }
       if (!options.quiet) io.log(`analysed ${++done}/${site.waferFolders.length} ${r.entry.folder}${r.cacheHit ? " (cached)" : ""}`);
     });
-    const outcomes: WaferOutcome[] = analysed.map((a) => judgeOutcome(a.entry, a.entry.analysis, ctx));
+    if (failure !== undefined) throw failure;
     const stats = { cacheHits: analysed.filter((a) => a.cacheHit).length, analysed: analysed.filter((a) => !a.cacheHit).length, phases };
     lap("analyse");
     const problems = [...site.problems, ...outcomes.flatMap((o) => o.problems)];
@@ -107,8 +122,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     }
     const history = await loadDataHistory(dataDir);
     const meta: SiteMeta = { title: "waferbook", version, builtAt: io.now(), basePath: options.basePath, dataCommit: history?.head ?? null };
-    const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history });
-    releasePictureData(outcomes);
+    const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history, pages: pageModels });
     lap("model");
     const pages = await render(model, tmpDir);
     lap("render");
@@ -127,10 +141,10 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
 const NO_TRACE = { b: new Float64Array(0), rhoxx: new Float64Array(0), rxy: new Float64Array(0) };
 
 /**
- * Once every page model exists, the arrays drawn into its pictures and charts
- * (XRD map points, the charted full-resolution traces) are read by nothing
- * else (results.json, exports and search use the fitted figures), so they are
- * dropped before rendering, which holds every page's HTML at once.
+ * Once a wafer's page model exists, the arrays drawn into its pictures and
+ * charts (XRD map points, the charted full-resolution traces) are read by
+ * nothing else (results.json, exports and search use the fitted figures), so
+ * they are dropped.
  */
 function releasePictureData(outcomes: WaferOutcome[]): void {
   for (const o of outcomes) {
