@@ -6,6 +6,7 @@
  */
 import path from "node:path";
 import { analyseWafer, type WaferAnalysis } from "../analyse/wafer.ts";
+import type { DeviceDepth } from "../analyse/transport/deviceDepth.ts";
 import { loadWafer, type LoadContext } from "../read/wafer.ts";
 import { cacheKey, readEntry, writeEntry, type CacheEntry } from "./cache.ts";
 
@@ -55,12 +56,29 @@ const NO_TRACE = { b: new Float64Array(0), rhoxx: new Float64Array(0), rxy: new 
  * Drops what publishing never reads, so the build holds (and the cache
  * stores) less per wafer: the full-resolution symmetrised traces of every
  * field sweep except each device's last one (the one charted; the page links
- * the raw files for the rest). Analysis results that were computed from the
+ * the raw files for the rest), and the SdH traces and spectra of all but the
+ * charted point (slimDepth). Analysis results that were computed from the
  * traces are kept.
  */
 export function keepForPublishing(analysis: WaferAnalysis): WaferAnalysis {
   return {
     ...analysis,
-    devices: analysis.devices.map((d) => ({ ...d, points: d.points.map((p, i) => (i === d.points.length - 1 ? p : { ...p, trace: NO_TRACE })) })),
+    devices: analysis.devices.map((d) => ({ ...d, points: d.points.map((p, i) => (i === d.points.length - 1 ? p : { ...p, trace: NO_TRACE })), depth: d.depth && slimDepth(d.depth) })),
   };
+}
+
+const NO_SDH_TRACE = { inverseField: [], oscillation: [] };
+const NO_SPECTRUM = { frequency: [], amplitude: [] };
+
+/**
+ * The Shubnikov–de Haas oscillation trace and spectrum are charted for one
+ * point per device only, the last with an SdH result; the other points keep
+ * their SdH figures but not those arrays (about 35 kB per point).
+ */
+function slimDepth(depth: DeviceDepth): DeviceDepth {
+  let charted = -1;
+  depth.points.forEach((p, i) => {
+    if (p.sdh.ok) charted = i;
+  });
+  return { ...depth, points: depth.points.map((p, i) => (i === charted || !p.sdh.ok ? p : { ...p, sdh: { ...p.sdh, trace: NO_SDH_TRACE, spectrum: NO_SPECTRUM } })) };
 }

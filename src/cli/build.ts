@@ -7,7 +7,6 @@
  */
 import { promises as fs, constants as fsc } from "node:fs";
 import path from "node:path";
-import { fileURLToPath } from "node:url";
 import { Eleventy } from "@11ty/eleventy";
 import { judgeOutcome, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
 import { codeVersion, defaultCacheDir } from "./cache.ts";
@@ -20,8 +19,9 @@ import type { Problem } from "../validate/problem.ts";
 import type { BuildOptions } from "./args.ts";
 import { loadDataHistory } from "../read/history.ts";
 import { writeExports } from "./writeExports.ts";
+import { PACKAGE_ROOT } from "./paths.ts";
 
-export const PACKAGE_ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "../..");
+export { PACKAGE_ROOT };
 
 export interface BuildIO {
   log: (line: string) => void;
@@ -96,10 +96,25 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     const cacheDir = options.cache === null ? null : path.resolve(options.cache ?? defaultCacheDir(outDir));
     const code = cacheDir ? await codeVersion(version) : "";
     let done = 0;
-    const analysed = await analyseAll(site.waferFolders, { dataDir, today: ctx.today, siteSettings: ctx.siteSettings, cacheDir, code }, (_i, r) => {
+    // Each wafer is judged and its page model built as soon as its analysis
+    // arrives, and the arrays drawn into its pictures are then dropped: the
+    // build holds every wafer's slim analysis and page model, never every
+    // wafer's map points and traces at once.
+    const outcomes: WaferOutcome[] = new Array(site.waferFolders.length);
+    const pageModels = new Map<string, PageModel>();
+    let failure: unknown;
+    const analysed = await analyseAll(site.waferFolders, { dataDir, today: ctx.today, siteSettings: ctx.siteSettings, cacheDir, code }, (i, r) => {
+      try {
+        const o = (outcomes[i] = judgeOutcome(r.entry, r.entry.analysis, ctx));
+        pageModels.set(o.folder, waferPageModel(o));
+        releasePictureData([o]);
+      } catch (err) {
+        // Thrown again below: this callback may run inside a worker's message handler.
+        failure ??= err;
+      }
       if (!options.quiet) io.log(`analysed ${++done}/${site.waferFolders.length} ${r.entry.folder}${r.cacheHit ? " (cached)" : ""}`);
     });
-    const outcomes: WaferOutcome[] = analysed.map((a) => judgeOutcome(a.entry, a.entry.analysis, ctx));
+    if (failure !== undefined) throw failure;
     const stats = { cacheHits: analysed.filter((a) => a.cacheHit).length, analysed: analysed.filter((a) => !a.cacheHit).length, phases };
     lap("analyse");
     const problems = [...site.problems, ...outcomes.flatMap((o) => o.problems)];
@@ -108,7 +123,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     }
     const history = await loadDataHistory(dataDir);
     const meta: SiteMeta = { title: "waferbook", version, builtAt: io.now(), basePath: options.basePath, dataCommit: history?.head ?? null };
-    const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history });
+    const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history, pages: pageModels });
     lap("model");
     const pages = await render(model, tmpDir);
     lap("render");
@@ -121,6 +136,21 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
   } finally {
     await fs.rm(tmpDir, { recursive: true, force: true });
     await release();
+  }
+}
+
+const NO_TRACE = { b: new Float64Array(0), rhoxx: new Float64Array(0), rxy: new Float64Array(0) };
+
+/**
+ * Once a wafer's page model exists, the arrays drawn into its pictures and
+ * charts (XRD map points, the charted full-resolution traces) are read by
+ * nothing else (results.json, exports and search use the fitted figures), so
+ * they are dropped.
+ */
+function releasePictureData(outcomes: WaferOutcome[]): void {
+  for (const o of outcomes) {
+    for (const f of o.analysis?.structure?.xrd?.files ?? []) f.points = undefined;
+    for (const d of o.analysis?.devices ?? []) for (const p of d.points) p.trace = NO_TRACE;
   }
 }
 

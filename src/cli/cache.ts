@@ -26,7 +26,7 @@ import { createHash } from "node:crypto";
 import { promises as fs } from "node:fs";
 import path from "node:path";
 import v8 from "node:v8";
-import { fileURLToPath } from "node:url";
+import { SRC_DIR } from "./paths.ts";
 import type { WaferAnalysis } from "../analyse/wafer.ts";
 import type { RawFileInfo } from "../read/wafer.ts";
 import type { Problem } from "../validate/problem.ts";
@@ -43,7 +43,7 @@ export interface CacheEntry {
   analysis?: WaferAnalysis;
 }
 
-const SRC = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
+const SRC = SRC_DIR;
 const CODE_FOLDERS = ["read", "validate", "analyse", "physics"];
 
 async function sourceFiles(dir: string): Promise<string[]> {

@@ -10,6 +10,7 @@
  */
 import os from "node:os";
 import { Worker } from "node:worker_threads";
+import { workerEntry } from "./paths.ts";
 import { analyseFolder, lookUpFolder, type AnalyseContext, type AnalysedFolder } from "./analyseFolder.ts";
 
 export const MAX_WORKERS = 8;
@@ -54,7 +55,7 @@ export async function analyseAll(folders: string[], ctx: AnalyseContext, onDone:
         }
       };
       for (let k = 0; k < size; k++) {
-        const w = new Worker(new URL("./workerBoot.mjs", import.meta.url), { workerData: ctx });
+        const w = new Worker(workerEntry(), { workerData: ctx });
         workers.push(w);
         w.on("message", (m: Reply) => {
           if (failed) return;

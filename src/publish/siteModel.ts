@@ -22,6 +22,8 @@ import { runComparisons } from "./runSummary.ts";
 export interface SiteExtras {
   targets?: Targets;
   history?: DataHistory | null;
+  /** Wafer page models built beforehand (by folder), e.g. as each wafer's analysis arrived; the rest are built here. */
+  pages?: Map<string, ReturnType<typeof waferPageModel>>;
 }
 
 /** Metrics shown as columns of the index table. */
@@ -39,7 +41,7 @@ export interface SiteMeta {
 
 export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNotes>, siteProblems: Problem[], meta: SiteMeta, extras: SiteExtras = {}) {
   const sorted = [...outcomes].sort((a, b) => (a.record?.grown ?? "").localeCompare(b.record?.grown ?? "") || a.folder.localeCompare(b.folder));
-  const wafers = sorted.map(waferPageModel);
+  const wafers = sorted.map((o) => extras.pages?.get(o.folder) ?? waferPageModel(o));
   // Previous/next within a run, in growth order.
   const byRun = new Map<string, typeof wafers>();
   for (const w of wafers) if (w.run) (byRun.get(w.run) ?? byRun.set(w.run, []).get(w.run)!).push(w);

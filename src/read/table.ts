@@ -87,7 +87,9 @@ export function readTable(text: string, file: string): RawTable {
   }
   const body = text.slice(Math.min(pos, text.length));
   let records: { record: string[]; info: { lines: number } }[];
-  try {
+  const plain = splitPlainRows(body, delimiter);
+  if (plain) records = plain;
+  else try {
     records = parse(body, {
       delimiter,
       relax_column_count: true,
@@ -114,6 +116,36 @@ export function readTable(text: string, file: string): RawTable {
     throw new InputError({ file, line: headerLine, message: "no data rows after the header", expected: "at least one row of numbers", found: "the header only", fix: "add the measured rows or remove the file" });
   }
   return { file, meta, columns, headerLine, delimiter, rows, rowLines };
+}
+
+/** A row of plain numeric cells: digits, sign, point and exponent only, no spaces, quotes or comments. */
+const PLAIN_ROW = { ",": /^[-+0-9.eE]+(?:,[-+0-9.eE]+)*$/, "\t": /^[-+0-9.eE]+(?:\t[-+0-9.eE]+)*$/ };
+
+/**
+ * Fast path for the common case, a body of plain numeric rows (LF or CRLF line
+ * ends, empty lines allowed): splits each line on the delimiter and numbers
+ * the rows as csv-parse's `info.lines` would. Returns undefined as soon as
+ * any line is anything else (quotes, comments, spaces, empty cells, text, a
+ * lone CR …), and the caller then parses the whole body with csv-parse, so
+ * every unusual file, and every error message, goes through the library
+ * exactly as before.
+ */
+function splitPlainRows(body: string, delimiter: "," | "\t"): { record: string[]; info: { lines: number } }[] | undefined {
+  const re = PLAIN_ROW[delimiter];
+  const out: { record: string[]; info: { lines: number } }[] = [];
+  let pos = 0;
+  let line = 0;
+  while (pos < body.length) {
+    let end = body.indexOf("\n", pos);
+    if (end < 0) end = body.length;
+    line++;
+    const raw = body.charCodeAt(end - 1) === 13 && end > pos ? body.slice(pos, end - 1) : body.slice(pos, end);
+    pos = end + 1;
+    if (raw === "") continue;
+    if (!re.test(raw)) return undefined;
+    out.push({ record: raw.split(delimiter), info: { lines: line } });
+  }
+  return out;
 }
 
 /** Parses a numeric column; non-numeric, NaN and infinite cells are errors naming row and column. */

@@ -7,7 +7,20 @@
  * "5e10 cm^-2", "0.6 V") are parsed and converted by mathjs; a dimension
  * mismatch is an error, never a silent assumption.
  */
-import { unit as mathUnit } from "mathjs";
+import { createRequire } from "node:module";
+
+type MathUnit = typeof import("mathjs").unit;
+let unitFn: MathUnit | undefined;
+/**
+ * mathjs's unit(), loaded on first use from the package's single-file build
+ * (the same library and version as its ESM entry, which is ~1,000 modules and
+ * cost seconds of start-up per build process and worker; the one-file build
+ * loads in a fraction of that).
+ */
+function mathUnit(text: string): import("mathjs").Unit {
+  unitFn ??= (createRequire(import.meta.url)("mathjs/lib/browser/math.js") as typeof import("mathjs")).unit;
+  return unitFn(text);
+}
 
 export type Dimension = "field" | "resistance" | "voltage" | "current" | "temperature" | "angle" | "length" | "fraction" | "concentration" | "counts";
 

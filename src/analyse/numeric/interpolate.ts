@@ -20,6 +20,25 @@ export function interpolateLinear(x: ArrayLike<number>, y: ArrayLike<number>, at
 
 /** Sorts paired arrays by x ascending (copies). */
 export function sortByX(x: ArrayLike<number>, y: ArrayLike<number>): { x: Float64Array; y: Float64Array } {
+  // Already ascending (the usual sweep): the stable sort would keep every index in place.
+  let ascending = true;
+  let descending = true;
+  for (let i = 1; i < x.length && (ascending || descending); i++) {
+    if (!(x[i - 1] <= x[i])) ascending = false;
+    if (!(x[i - 1] > x[i])) descending = false;
+  }
+  if (ascending || descending) {
+    const n = x.length;
+    const xs = new Float64Array(n);
+    const ys = new Float64Array(n);
+    // Strictly descending (a sweep run downwards): no ties, so the sorted order is the reverse.
+    for (let i = 0; i < n; i++) {
+      const k = ascending ? i : n - 1 - i;
+      xs[i] = x[k];
+      ys[i] = y[k];
+    }
+    return { x: xs, y: ys };
+  }
   const idx = Array.from({ length: x.length }, (_, i) => i).sort((a, b) => x[a] - x[b]);
   return { x: Float64Array.from(idx, (i) => x[i]), y: Float64Array.from(idx, (i) => y[i]) };
 }

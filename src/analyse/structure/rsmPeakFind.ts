@@ -73,13 +73,18 @@ function spacing(values: number[]): number {
 
 /** Spatial hash over normalised coordinates for neighbour queries. */
 function neighbourIndex(u: number[], v: number[], cell: number) {
-  const key = (a: number, b: number) => `${a},${b}`;
-  const grid = new Map<string, number[]>();
+  // Cells keyed by column, then row (numbers, not strings: this runs for every map point).
+  const grid = new Map<number, Map<number, number[]>>();
+  const EMPTY: number[] = [];
+  const cellAt = (a: number, b: number): number[] => grid.get(a)?.get(b) ?? EMPTY;
   u.forEach((_, i) => {
-    const k = key(Math.floor(u[i] / cell), Math.floor(v[i] / cell));
-    const list = grid.get(k);
+    const a = Math.floor(u[i] / cell);
+    const b = Math.floor(v[i] / cell);
+    let col = grid.get(a);
+    if (!col) grid.set(a, (col = new Map()));
+    const list = col.get(b);
     if (list) list.push(i);
-    else grid.set(k, [i]);
+    else col.set(b, [i]);
   });
   return (i: number, r: number): number[] => {
     const out: number[] = [];
@@ -88,7 +93,9 @@ function neighbourIndex(u: number[], v: number[], cell: number) {
     const reach = Math.ceil(r / cell);
     for (let a = cu - reach; a <= cu + reach; a++) {
       for (let b = cv - reach; b <= cv + reach; b++) {
-        for (const j of grid.get(key(a, b)) ?? []) {
+        const list = cellAt(a, b);
+        for (let k = 0; k < list.length; k++) {
+          const j = list[k];
           if ((u[j] - u[i]) ** 2 + (v[j] - v[i]) ** 2 <= r * r) out.push(j);
         }
       }
@@ -185,9 +192,29 @@ function refinePeak(i: number, ctx: RefineCtx): RawPeak {
 }
 
 function gaussianFit(win: number[], ctx: RefineCtx, c: { mu: number; mv: number; sdu: number; sdv: number }, height: number) {
-  const model = ([a, u0, v0, su, sv, b]: number[]) => (k: number) => {
-    const j = win[k];
-    return a * Math.exp(-((ctx.u[j] - u0) ** 2) / (2 * su * su) - ((ctx.v[j] - v0) ** 2) / (2 * sv * sv)) + b;
+  // Window coordinates gathered once; the per-point expression is unchanged (same operations, same result bits).
+  const wu = win.map((j) => ctx.u[j]);
+  const wv = win.map((j) => ctx.v[j]);
+  // The fitter evaluates the model at 2 × 6 finite-difference neighbours per
+  // step; the four that move only A or B share the Gaussian factor of the
+  // current shape, so each shape's factors are computed once (same bits).
+  const shapes = new Map<string, Float64Array>();
+  const gaussianFactors = (u0: number, v0: number, su: number, sv: number): Float64Array => {
+    const key = `${u0},${v0},${su},${sv}`;
+    let e = shapes.get(key);
+    if (!e) {
+      if (shapes.size >= 16) shapes.clear();
+      const du = 2 * su * su;
+      const dv = 2 * sv * sv;
+      e = new Float64Array(win.length);
+      for (let k = 0; k < win.length; k++) e[k] = Math.exp(-((wu[k] - u0) ** 2) / du - ((wv[k] - v0) ** 2) / dv);
+      shapes.set(key, e);
+    }
+    return e;
+  };
+  const model = ([a, u0, v0, su, sv, b]: number[]) => {
+    const e = gaussianFactors(u0, v0, su, sv);
+    return (k: number) => a * e[k] + b;
   };
   const sdu = Math.max(c.sdu, 0.5);
   const sdv = Math.max(c.sdv, 0.5);

@@ -53,6 +53,14 @@ export function resampleInverseField(field: number[], value: number[], count: nu
   return { inverseField: grid, value: out };
 }
 
+const FFTS = new Map<number, FFT>();
+/** One fft.js instance per size: building its twiddle tables is a large share of a transform's cost; transforms are synchronous, so sharing is safe. */
+function fftOfSize(m: number): FFT {
+  let f = FFTS.get(m);
+  if (!f) FFTS.set(m, (f = new FFT(m)));
+  return f;
+}
+
 export interface SpectrumResult {
   spectrum: Spectrum;
   /** Bin spacing after zero-padding, T. */
@@ -74,7 +82,7 @@ export function amplitudeSpectrum(values: number[], step: number, padFactor = 8)
     wSum += w;
     input[i] = (values[i] - mean) * w;
   }
-  const fft = new FFT(m);
+  const fft = fftOfSize(m);
   const out = fft.createComplexArray() as number[];
   fft.realTransform(out, input);
   const frequency: number[] = [];
