@@ -38,6 +38,49 @@ export interface NonlinearFit {
   n: number;
 }
 
+/** Iterations per pass, and the relative change of SS_res below which the fit has converged. */
+const PASS_ITERATIONS = 20;
+const RELATIVE_TOLERANCE = 1e-10;
+
+/**
+ * ml-levenberg-marquardt stops only on an absolute error tolerance, which a
+ * fit to real data never reaches, so it would always run to maxIterations.
+ * This runs it in passes of PASS_ITERATIONS and stops once a pass improves the
+ * sum of squared residuals by less than RELATIVE_TOLERANCE of itself (a
+ * relative-reduction test, as in Moré's MINPACK lmder; common practice).
+ */
+function runToConvergence(
+  xs: number[],
+  ys: number[],
+  model: (u: number[]) => (x: number) => number,
+  u0: number[],
+  o: { minValues?: number[]; maxValues?: number[]; maxIterations: number },
+): { parameterValues: number[]; parameterError: number; iterations: number } {
+  let u = u0;
+  let best = Infinity;
+  let iterations = 0;
+  while (iterations < o.maxIterations) {
+    const r = levenbergMarquardt({ x: xs, y: ys }, model, {
+      initialValues: u,
+      minValues: o.minValues,
+      maxValues: o.maxValues,
+      damping: 1e-2,
+      gradientDifference: 1e-6,
+      centralDifference: true,
+      maxIterations: Math.min(PASS_ITERATIONS, o.maxIterations - iterations),
+      errorTolerance: 1e-14,
+      improvementThreshold: 1e-6,
+    });
+    iterations += Math.max(1, r.iterations);
+    const improved = r.parameterError < best;
+    if (improved) u = r.parameterValues;
+    const converged = !improved || best - r.parameterError <= RELATIVE_TOLERANCE * best;
+    if (improved) best = r.parameterError;
+    if (converged || r.iterations < PASS_ITERATIONS) break;
+  }
+  return { parameterValues: u, parameterError: best, iterations };
+}
+
 export function nonlinearFit(
   model: Model,
   x: ArrayLike<number>,
@@ -64,16 +107,10 @@ export function nonlinearFit(
   const ys = Array.from(y);
   const scaledModel = (u: number[]) => model(toFull(u));
   const u0 = free.map((i) => options.initial[i] / scale[i]);
-  const result = levenbergMarquardt({ x: xs, y: ys }, scaledModel, {
-    initialValues: u0,
+  const result = runToConvergence(xs, ys, scaledModel, u0, {
     minValues: options.min ? free.map((i) => options.min![i] / scale[i]) : undefined,
     maxValues: options.max ? free.map((i) => options.max![i] / scale[i]) : undefined,
-    damping: 1e-2,
-    gradientDifference: 1e-6,
-    centralDifference: true,
     maxIterations: options.maxIterations ?? 300,
-    errorTolerance: 1e-14,
-    improvementThreshold: 1e-6,
   });
   const params = toFull(result.parameterValues);
   const f = model(params);
