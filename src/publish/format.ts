@@ -17,7 +17,7 @@ export function formatNumber(v: number, digits = 3): string {
   if (!Number.isFinite(v)) return "—";
   if (v === 0) return "0";
   const a = Math.abs(v);
-  if (a >= 1e-3 && a < 1e5) {
+  if (a >= 1e-3 && a < 1e4) {
     const s = v.toPrecision(digits);
     return s.includes("e") ? Number(s).toString() : s;
   }

@@ -54,6 +54,8 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
     grade: o.judgement.grade,
     reactor: o.record?.reactor ?? runs.get(o.record?.run ?? "")?.meta.reactor ?? "",
     verdict: o.judgement.verdict,
+    /** Sorts the verdict column by severity (pass < … < error), not alphabetically. */
+    verdictRank: VERDICT_RANK[o.judgement.verdict],
     firstReason: o.judgement.reasons[0] ?? "",
     metrics: INDEX_METRICS.map((k) => {
       const m = o.judgement.metrics.find((x) => x.key === k);

@@ -12,7 +12,7 @@
   function sci(v) {
     if (v === 0) return "0";
     var a = Math.abs(v);
-    if (a >= 1e-3 && a < 1e5) return String(Number(v.toPrecision(3)));
+    if (a >= 1e-3 && a < 1e4) return String(Number(v.toPrecision(3)));
     var e = Math.floor(Math.log10(a)), m = v / Math.pow(10, e);
     var exp = String(e).split("").map(function (c) { return SUP[c] || c; }).join("");
     return (Math.abs(m - 1) < 1e-9 ? "" : Number(m.toPrecision(3)) + "\u00d7") + "10" + exp;
