@@ -1,4 +1,3 @@
-import "tsx/esm";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 

@@ -61,6 +61,14 @@ function fftOfSize(m: number): FFT {
   return f;
 }
 
+const BUFFERS = new Map<number, { input: Float64Array; out: Float64Array }>();
+/** Reused work buffers per transform size (allocating 2·m numbers per sweep was a large share of the cost). */
+function buffersOfSize(m: number): { input: Float64Array; out: Float64Array } {
+  let b = BUFFERS.get(m);
+  if (!b) BUFFERS.set(m, (b = { input: new Float64Array(m), out: new Float64Array(2 * m) }));
+  return b;
+}
+
 export interface SpectrumResult {
   spectrum: Spectrum;
   /** Bin spacing after zero-padding, T. */
@@ -75,7 +83,9 @@ export function amplitudeSpectrum(values: number[], step: number, padFactor = 8)
   const n = values.length;
   const m = nextPow2(n) * padFactor;
   const mean = values.reduce((s, v) => s + v, 0) / n;
-  const input = new Array<number>(m).fill(0);
+  const { input, out } = buffersOfSize(m);
+  input.fill(0);
+  out.fill(0);
   let wSum = 0;
   for (let i = 0; i < n; i++) {
     const w = n > 1 ? 0.5 - 0.5 * Math.cos((2 * Math.PI * i) / (n - 1)) : 1;
@@ -83,7 +93,6 @@ export function amplitudeSpectrum(values: number[], step: number, padFactor = 8)
     input[i] = (values[i] - mean) * w;
   }
   const fft = fftOfSize(m);
-  const out = fft.createComplexArray() as number[];
   fft.realTransform(out, input);
   const frequency: number[] = [];
   const amplitude: number[] = [];
