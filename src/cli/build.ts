@@ -127,7 +127,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     lap("model");
     const pages = await render(model, tmpDir);
     lap("render");
-    await writeExtras(outcomes, dataDir, tmpDir, meta.dataCommit ?? null, new Map(model.wafers.map((w) => [w.id, w])));
+    await writeExtras(outcomes, dataDir, tmpDir, meta.dataCommit ?? null, new Map(model.wafers.map((w) => [w.id, w])), outDir);
     await writeExports(outcomes, tmpDir, meta);
     await writeSearch(outcomes, site.runs, tmpDir, PACKAGE_ROOT);
     await swapInto(tmpDir, outDir);
@@ -172,17 +172,51 @@ async function render(model: ReturnType<typeof buildSiteModel>, tmpDir: string):
 
 type PageModel = ReturnType<typeof waferPageModel>;
 
-async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string, dataCommit: string | null, pagesById: Map<string, PageModel>): Promise<void> {
+/**
+ * SHA-256 of each raw-file copy in the previous output's wafer folder, from its
+ * results.json provenance (empty when there is no usable previous output).
+ */
+async function previousCopies(prevWaferDir: string): Promise<Map<string, string>> {
+  try {
+    const prev = JSON.parse(await fs.readFile(path.join(prevWaferDir, "results.json"), "utf8")) as { provenance?: { files?: { path: string; sha256: string }[] } };
+    return new Map((prev.provenance?.files ?? []).map((f) => [f.path, f.sha256]));
+  } catch {
+    return new Map();
+  }
+}
+
+/**
+ * Puts a copy of a raw file into the new output. When the previous output
+ * already holds a copy with the same SHA-256, that copy (ours, never the raw
+ * file) is hard-linked instead of copying the bytes again; anything unusual
+ * falls back to a plain copy.
+ */
+async function placeRawCopy(rawAbs: string, dest: string, prevCopy: string | undefined): Promise<void> {
+  if (prevCopy) {
+    try {
+      await fs.link(prevCopy, dest);
+      return;
+    } catch {
+      // different file systems, missing file, or links not allowed: copy
+    }
+  }
+  await fs.copyFile(rawAbs, dest);
+}
+
+async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string, dataCommit: string | null, pagesById: Map<string, PageModel>, outDir: string): Promise<void> {
   for (const o of outcomes) {
     const dir = path.join(tmpDir, "wafers", o.folder);
     await fs.mkdir(dir, { recursive: true });
+    const prevDir = path.join(outDir, "wafers", o.folder);
+    const prevHashes = await previousCopies(prevDir);
     await fs.writeFile(path.join(dir, "results.json"), JSON.stringify(resultsJson(o, dataCommit), null, 1) + "\n");
     for (const f of o.provenance.files) {
       const parts = f.path.split("/");
       if (parts[0] !== "wafers" || parts[1] !== o.folder) continue;
       const dest = path.join(dir, "raw", ...parts.slice(2));
       await fs.mkdir(path.dirname(dest), { recursive: true });
-      await fs.copyFile(path.join(dataDir, ...parts), dest);
+      const same = prevHashes.get(f.path) === f.sha256;
+      await placeRawCopy(path.join(dataDir, ...parts), dest, same ? path.join(prevDir, "raw", ...parts.slice(2)) : undefined);
     }
     const page = pagesById.get(o.folder) ?? waferPageModel(o);
     for (const section of [page.transportDepth, page.structure, page.images] as { files?: { path: string; bytes: Buffer }[] }[]) {
