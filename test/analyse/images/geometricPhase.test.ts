@@ -2,8 +2,8 @@ import { describe, expect, it } from "vitest";
 import { geometricPhase, gpaFrameTilt, type GpaMaps } from "../../../src/analyse/images/geometricPhase.ts";
 import { growthCoordinate } from "../../../src/analyse/images/geometry.ts";
 import { syntheticMicrograph, type SyntheticMicrographSpec } from "../../../src/synth/micrograph.ts";
+import { PX, testMicrograph } from "../../helpers/micrograph.ts";
 
-const PX = 0.05e-9;
 // Expected out-of-plane strain of a coherent Si well against a relaxed Si0.7Ge0.3
 // reference: derived from Dismukes' law a(x) = 0.5431 + 0.01992x + 0.002733x² nm
 // (REFERENCES §2, [C] coefficients) and D = 2C12/C11 of Si = 2·63.9/165.8 (REFERENCES §3,
@@ -14,18 +14,7 @@ const D = (2 * 63.9) / 165.8;
 const aPerp = aSi * (1 - D * (aSiGe / aSi - 1));
 const STEP = aPerp / aSiGe - 1;
 
-const base: SyntheticMicrographSpec = {
-  width: 256,
-  height: 256,
-  pixelSize_m: PX,
-  inPlaneSpacing_m: 6.4 * PX,
-  barrierSpacing_m: 7 * PX,
-  wellSpacing_m: 7 * PX * (1 + STEP),
-  wellThickness_m: 80 * PX,
-  interfaceTau_m: 3 * PX,
-  noise: 0.05,
-  seed: 3,
-};
+const base: SyntheticMicrographSpec = testMicrograph(STEP, { noise: 0.05, seed: 3 });
 
 /** Mean of a map over the band lo < s < hi of the growth coordinate, inside a border. */
 function bandMean(m: GpaMaps, map: Float32Array, lo: number, hi: number, tilt_deg: number): number {

@@ -3,27 +3,15 @@ import { geometricPhase, type GpaMaps } from "../../../src/analyse/images/geomet
 import { wellCoherence } from "../../../src/analyse/images/wellCoherence.ts";
 import { zContrastProfile } from "../../../src/analyse/images/zContrastProfile.ts";
 import { syntheticMicrograph, type SyntheticMicrographSpec } from "../../../src/synth/micrograph.ts";
+import { PX, testMicrograph } from "../../helpers/micrograph.ts";
 
-const PX = 0.05e-9;
 // Expected out-of-plane strain, derived from Dismukes' law (REFERENCES §2, [C] coefficients)
 // and Si's D = 2C12/C11 = 2·63.9/165.8 (REFERENCES §3, Hall 1967 [M]): −2.006 % vs Si0.7Ge0.3.
 const aSiGe = 0.5431 + 0.01992 * 0.3 + 0.002733 * 0.09;
 const aPerp = 0.5431 * (1 - ((2 * 63.9) / 165.8) * (aSiGe / 0.5431 - 1));
 const EXPECTED_PCT = (aPerp / aSiGe - 1) * 100;
 
-const base: SyntheticMicrographSpec = {
-  width: 256,
-  height: 256,
-  pixelSize_m: PX,
-  inPlaneSpacing_m: 6.4 * PX,
-  barrierSpacing_m: 7 * PX,
-  wellSpacing_m: 7 * PX * (1 + EXPECTED_PCT / 100),
-  wellThickness_m: 80 * PX,
-  interfaceTau_m: 3 * PX,
-  noise: 0.05,
-  tilt_deg: 1.3,
-  seed: 5,
-};
+const base: SyntheticMicrographSpec = testMicrograph(EXPECTED_PCT / 100, { noise: 0.05, tilt_deg: 1.3, seed: 5 });
 
 function analyse(spec: Partial<SyntheticMicrographSpec>) {
   const img = syntheticMicrograph({ ...base, ...spec });

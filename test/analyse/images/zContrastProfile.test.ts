@@ -2,20 +2,9 @@ import { describe, expect, it } from "vitest";
 import { zContrastProfile } from "../../../src/analyse/images/zContrastProfile.ts";
 import { periodAverage } from "../../../src/analyse/images/growthProfile.ts";
 import { syntheticMicrograph, type SyntheticMicrographSpec } from "../../../src/synth/micrograph.ts";
+import { PX, testMicrograph } from "../../helpers/micrograph.ts";
 
-const PX = 0.05e-9;
-const base: SyntheticMicrographSpec = {
-  width: 256,
-  height: 256,
-  pixelSize_m: PX,
-  inPlaneSpacing_m: 6.4 * PX,
-  barrierSpacing_m: 7 * PX,
-  wellSpacing_m: 7 * PX * (1 - 0.02006),
-  wellThickness_m: 80 * PX,
-  interfaceTau_m: 3 * PX,
-  noise: 0.02,
-  seed: 1,
-};
+const base: SyntheticMicrographSpec = testMicrograph(-0.02006, { noise: 0.02, seed: 1 });
 
 function profile(spec: Partial<SyntheticMicrographSpec>, opts: { tilt_deg?: number } = {}) {
   const img = syntheticMicrograph({ ...base, ...spec });
