@@ -84,8 +84,9 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     await fs.rm(tmpDir, { recursive: true, force: true });
     const version = await readVersion();
     const site = await loadSiteInputs(dataDir);
-    const sitewideErrors = site.problems.filter((p) => p.severity === "error" && p.file === "targets.yaml");
-    const ctx: PipelineContext = { dataDir, today: io.today(), siteSettings: site.settings, targets: site.targets, siteOverrides: {}, version, sitewideErrors };
+    // A broken targets.yaml or analysis.yaml makes every verdict unreliable, so every wafer shows it.
+    const sitewideErrors = site.problems.filter((p) => p.severity === "error" && (p.file === "targets.yaml" || p.file === "analysis.yaml"));
+    const ctx: PipelineContext = { dataDir, today: io.today(), siteSettings: site.settings, targets: site.targets, siteOverrides: site.settingOverrides, version, sitewideErrors };
     const phases: Record<string, number> = {};
     let t = performance.now();
     const lap = (name: string) => {

@@ -31,6 +31,7 @@ import type { WaferAnalysis } from "../analyse/wafer.ts";
 import type { RawFileInfo } from "../read/wafer.ts";
 import type { Problem } from "../validate/problem.ts";
 import type { WaferRecord } from "../validate/wafer.ts";
+import { listFiles } from "../read/dataFiles.ts";
 
 /** Bumped when the entry's shape changes. */
 export const CACHE_FORMAT = "waferbook-cache-2";
@@ -45,6 +46,8 @@ export interface CacheEntry {
 
 const SRC = SRC_DIR;
 const CODE_FOLDERS = ["read", "validate", "analyse", "physics"];
+/** Files outside those folders that decide what a cache entry holds. */
+const CODE_FILES = ["cli/analyseFolder.ts", "cli/cache.ts"];
 
 async function sourceFiles(dir: string): Promise<string[]> {
   const out: string[] = [];
@@ -59,32 +62,16 @@ async function sourceFiles(dir: string): Promise<string[]> {
 /** Hash of the analysis code (sources of reading, validation, analysis, physics) and the package version; hex SHA-256. */
 export async function codeVersion(packageVersion: string): Promise<string> {
   const h = createHash("sha256").update(`${CACHE_FORMAT}\0${packageVersion}\0`);
-  const files = (await Promise.all(CODE_FOLDERS.map((f) => sourceFiles(path.join(SRC, f))))).flat().sort();
+  const files = [...(await Promise.all(CODE_FOLDERS.map((f) => sourceFiles(path.join(SRC, f))))).flat(), ...CODE_FILES.map((f) => path.join(SRC, f))].sort();
   for (const f of files) h.update(path.relative(SRC, f)).update("\0").update(await fs.readFile(f)).update("\0");
   return h.digest("hex");
 }
 
-/** Every regular file under dir, as sorted paths relative to dir with "/" separators. */
-async function allFiles(dir: string, prefix = ""): Promise<string[]> {
-  const out: string[] = [];
-  let entries;
-  try {
-    entries = await fs.readdir(dir, { withFileTypes: true });
-  } catch {
-    return out;
-  }
-  for (const e of entries) {
-    const rel = prefix ? `${prefix}/${e.name}` : e.name;
-    if (e.isDirectory()) out.push(...(await allFiles(path.join(dir, e.name), rel)));
-    else out.push(rel);
-  }
-  return out.sort();
-}
 
 /** The cache key of one wafer folder (hex SHA-256); reads and hashes its files without parsing them. */
 export async function cacheKey(waferDir: string, code: string, siteSettings: unknown): Promise<string> {
   const h = createHash("sha256").update(`${code}\0${JSON.stringify(siteSettings)}\0`);
-  for (const rel of await allFiles(waferDir)) {
+  for (const rel of await listFiles(waferDir).catch(() => [] as string[])) {
     let digest = "unreadable";
     try {
       const st = await fs.lstat(path.join(waferDir, rel));

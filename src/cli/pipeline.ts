@@ -94,12 +94,3 @@ export function judgeOutcome(loaded: Pick<LoadedWafer, "folder" | "record" | "pr
   };
 }
 
-export async function processWafer(folder: string, ctx: PipelineContext): Promise<WaferOutcome> {
-  const loaded = await loadWafer(folder, ctx);
-  let analysis: WaferAnalysis | undefined;
-  if (loaded.record) {
-    const inputs = loaded.record.devices.map((spec) => ({ spec, sweeps: loaded.devices.find((d) => d.id === spec.id)?.sweeps ?? [] }));
-    analysis = analyseWafer({ devices: inputs, structure: loaded.structure, images: loaded.images, stack: loaded.record.stack }, loaded.record.settings);
-  }
-  return judgeOutcome(loaded, analysis, ctx);
-}

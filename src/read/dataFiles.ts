@@ -123,11 +123,6 @@ function firstInvalidUtf8(bytes: Buffer): number {
   return 0;
 }
 
-/** Reads a text file from the data folder with all checks. */
-export async function readDataText(dataDir: string, abs: string): Promise<{ rel: string; text: string; bytes: Buffer }> {
-  const file = await readDataBytes(dataDir, abs);
-  return { rel: file.rel, text: decodeText(file), bytes: file.bytes };
-}
 
 /** Lists every file under a folder, recursively, as paths relative to it (sorted). */
 export async function listFiles(dir: string): Promise<string[]> {

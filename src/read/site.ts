@@ -23,6 +23,8 @@ export interface RunNotes {
 export interface SiteInputs {
   targets?: Targets;
   settings: AnalysisSettings;
+  /** The keys analysis.yaml sets, as written (for provenance: "site" rather than "default"). */
+  settingOverrides: Record<string, unknown>;
   runs: Map<string, RunNotes>;
   waferFolders: string[];
   files: RawFileInfo[];
@@ -34,7 +36,7 @@ async function exists(p: string): Promise<boolean> {
 }
 
 export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
-  const out: SiteInputs = { settings: DEFAULT_SETTINGS, runs: new Map(), waferFolders: [], files: [], problems: [] };
+  const out: SiteInputs = { settings: DEFAULT_SETTINGS, settingOverrides: {}, runs: new Map(), waferFolders: [], files: [], problems: [] };
   const catchInto = async (fn: () => Promise<void>) => {
     try {
       await fn();
@@ -63,7 +65,9 @@ export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
     const f = await readDataBytes(dataDir, abs);
     out.files.push(fileInfo(f.rel, f.bytes, "settings"));
     const text = decodeText(f);
-    out.settings = applySettings(DEFAULT_SETTINGS, readYaml(text, f.rel) ?? {}, { file: f.rel, field: "", lineOf: (k) => lineOfField("\n" + text, k, 1) });
+    const raw = readYaml(text, f.rel) ?? {};
+    out.settings = applySettings(DEFAULT_SETTINGS, raw, { file: f.rel, field: "", lineOf: (k) => lineOfField("\n" + text, k, 1) });
+    out.settingOverrides = raw as Record<string, unknown>;
   });
   const runsDir = path.join(dataDir, "runs");
   if (await exists(runsDir)) {

@@ -8,6 +8,7 @@
  * Omitted: the baseline is every wafer and the run length 8.
  */
 import { didYouMean, InputError, show } from "./problem.ts";
+import { isRealDate } from "./wafer.ts";
 
 export type TrendBaseline = { kind: "all" } | { kind: "first"; count: number } | { kind: "dates"; from: string; to: string };
 
@@ -23,7 +24,7 @@ const KEYS = ["baseline", "run_length"];
 
 function isoDate(v: unknown): string | undefined {
   if (v instanceof Date && !Number.isNaN(v.getTime())) return v.toISOString().slice(0, 10);
-  if (typeof v === "string" && /^\d{4}-\d{2}-\d{2}$/.test(v.trim()) && !Number.isNaN(Date.parse(v.trim()))) return v.trim();
+  if (typeof v === "string" && isRealDate(v.trim())) return v.trim();
   return undefined;
 }
 

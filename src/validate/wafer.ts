@@ -124,7 +124,8 @@ function ajvToInputError(e: ErrorObject, doc: FrontMatterDoc, file: string, data
   }
 }
 
-function isRealDate(s: string): boolean {
+/** True for a real calendar date written YYYY-MM-DD (30 February is refused). */
+export function isRealDate(s: string): boolean {
   const d = new Date(`${s}T00:00:00Z`);
   return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === s;
 }
@@ -150,7 +151,8 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
     const errors = validateShape.errors ?? [];
     // Report the most specific error first: unknown keys and missing fields before type noise.
     const order = ["additionalProperties", "required", "type", "enum", "pattern"];
-    errors.sort((a, b) => (order.indexOf(a.keyword) + 10) % 20 - (order.indexOf(b.keyword) + 10) % 20);
+    const rank = (k: string) => (order.includes(k) ? order.indexOf(k) : order.length);
+    errors.sort((a, b) => rank(a.keyword) - rank(b.keyword));
     throw ajvToInputError(errors[0], doc, file, data);
   }
   const r = data as Record<string, any>;
