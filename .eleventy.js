@@ -8,9 +8,6 @@ export default function (eleventyConfig) {
   eleventyConfig.setNunjucksEnvironmentOptions({ autoescape: true, throwOnUndefined: false, trimBlocks: true, lstripBlocks: true });
   eleventyConfig.addPassthroughCopy({ [path.join(root, "templates", "assets")]: "assets" });
   eleventyConfig.setQuietMode(true);
-  eleventyConfig.addFilter("json_script", (value) =>
-    JSON.stringify(value).replace(/</g, "\\u003c").replace(/>/g, "\\u003e").replace(/&/g, "\\u0026").replace(/\u2028/g, "\\u2028").replace(/\u2029/g, "\\u2029"),
-  );
   return {
     dir: { input: "templates", includes: "_includes", output: "site" },
     templateFormats: ["njk"],

@@ -48,15 +48,6 @@ function stackRows(o: WaferOutcome, s: StructureAnalysis): StackRow[] {
   });
 }
 
-function edgeCurve(f: InterfaceFit, base: number, top: boolean, z: number[]): [number, number][] {
-  const lo = f.centre - 5 * Math.max(f.tau, 0.2);
-  const hi = f.centre + 5 * Math.max(f.tau, 0.2);
-  return z.filter((v) => v >= lo && v <= hi).map((v) => {
-    const s = 1 / (1 + Math.exp(-(v - f.centre) / f.tau));
-    return [v, base + (f.barrierGe - base) * (top ? 1 - s : s)];
-  });
-}
-
 function profileCharts(s: StructureAnalysis): ChartSpec[] {
   const charts: ChartSpec[] = [];
   s.profiles.forEach((p, k) => {
@@ -65,18 +56,9 @@ function profileCharts(s: StructureAnalysis): ChartSpec[] {
     let summary = `${p.data.method} profile ${p.data.file}, ${p.data.depth.length} depths`;
     if (r.ok) {
       for (const [f, top] of [[r.top, true], [r.bottom, false]] as const) {
-        const pts = edgeCurve(f, r.wellGeMin, top, p.data.depth);
-        series.push({ label: `${top ? "Top" : "Bottom"} interface fit (τ ${formatNumber(f.tau, 3)} nm)`, points: pts.map(([a, b]) => [round(a), round(b)]), line: true, role: "fit" });
+        series.push(traceSeries(`${top ? "Top" : "Bottom"} interface fit (τ ${formatNumber(f.tau, 3)} nm)`, f.curve.depth, f.curve.ge, "fit"));
       }
-      const h = 2 * Math.log(9) / 2;
-      const marks: [number, number][] = [];
-      for (const [f, top] of [[r.top, true], [r.bottom, false]] as const) {
-        for (const sgn of [-1, 1]) {
-          const z = f.centre + sgn * h * f.tau;
-          const s = 1 / (1 + Math.exp(-(z - f.centre) / f.tau));
-          marks.push([z, r.wellGeMin + (f.barrierGe - r.wellGeMin) * (top ? 1 - s : s)]);
-        }
-      }
+      const marks: [number, number][] = [...r.top.marks, ...r.bottom.marks];
       series.push(markerSeries("10 % and 90 % points", marks, "reference"));
       summary += `; top interface at ${formatNumber(r.top.centre, 4)} nm, 10–90 % width ${formatNumber(r.top.width10to90, 3)} nm; bottom at ${formatNumber(r.bottom.centre, 4)} nm, width ${formatNumber(r.bottom.width10to90, 3)} nm; well ${formatNumber(r.wellThickness, 3)} nm thick`;
     }

@@ -8,7 +8,7 @@ import { METRICS, type MetricSpec } from "../analyse/metrics.ts";
 import { trendChart, type Trend, type TrendInput, type TrendPoint } from "../judge/trends.ts";
 import type { Targets } from "../validate/targets.ts";
 import { DEFAULT_TREND_SETTINGS } from "../validate/trendSettings.ts";
-import { markerSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
+import { jsonForScript, markerSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
 import { formatNumber, formatValue, prettyUnit } from "./format.ts";
 
 /** One wafer's values, as the site model knows them. */
@@ -93,7 +93,10 @@ export function trendsModel(wafers: readonly TrendWafer[], targets: Targets | un
       flagged: t.ok ? t.flagged : 0,
       centre: t.ok ? fmt(t.limits.centreLine) : "—",
       band: t.ok ? `${fmt(t.limits.lcl)} … ${fmt(t.limits.ucl)}` : "—",
-      charts: trendCharts(spec, t, targets, href),
+      ...(() => {
+        const charts = trendCharts(spec, t, targets, href);
+        return { charts, chartsJson: jsonForScript(charts) };
+      })(),
       rows: t.points.map((p) => ({
         id: p.id,
         href: href(p.id),

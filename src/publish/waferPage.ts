@@ -7,7 +7,7 @@ import type { WaferOutcome } from "../cli/pipeline.ts";
 import type { MetricJudgement, Verdict } from "../judge/verdict.ts";
 import { formatProblem } from "../validate/problem.ts";
 import { formatNumber, formatValue, prettyUnit } from "./format.ts";
-import { markerSeries, traceSeries, type ChartSpec } from "./charts.ts";
+import { jsonForScript, markerSeries, traceSeries, type ChartSpec } from "./charts.ts";
 import { renderNotes } from "./markdown.ts";
 import { structureResults, structureSection } from "./structureSection.ts";
 import { imagesSection } from "./imagesSection.ts";
@@ -139,6 +139,7 @@ export function waferPageModel(o: WaferOutcome) {
   const structure = structureSection(o);
   const images = imagesSection(o);
   const uniformity = uniformitySection(o);
+  const allCharts = [...transportCharts, ...(transportDepth?.charts ?? []), ...(structure?.charts ?? []), ...(images?.charts ?? [])];
   return {
     id: o.folder,
     run: r?.run,
@@ -177,7 +178,9 @@ export function waferPageModel(o: WaferOutcome) {
     images,
     uniformity,
     /** Every chart on the page, for the one JSON block the chart script reads. */
-    charts: [...transportCharts, ...(transportDepth?.charts ?? []), ...(structure?.charts ?? []), ...(images?.charts ?? [])],
+    charts: allCharts,
+    /** The same, serialised for the page's <script type="application/json"> block ("</script>" cannot close it). */
+    chartsJson: jsonForScript(allCharts),
     units: { mobility: prettyUnit("cm^2/(V s)"), density: prettyUnit("cm^-2") },
   };
 }

@@ -2,7 +2,7 @@
  * Nothing runs that shouldn't: text typed into records, file names and
  * metadata carrying <script>, <img onerror>, javascript: links and
  * quote-breaking strings is escaped on every page; chart JSON cannot close its
- * <script> tag (jsonForScript and the json_script filter); every page has the
+ * <script> tag (jsonForScript, used by every page model); every page has the
  * Content-Security-Policy meta allowing only the site's own scripts and styles;
  * and in headless Chromium no dialog opens, no data script runs, no console
  * error appears and no request leaves the site.
@@ -138,15 +138,6 @@ describe("serialisers for script blocks", () => {
   const value = { label: X.close, more: "a\u2028b\u2029c & <!-- -->", n: [1, 2] };
   it("jsonForScript escapes <, >, & and line separators and round-trips", () => {
     const s = jsonForScript(value);
-    expect(s).not.toMatch(/[<>&\u2028\u2029]/);
-    expect(JSON.parse(s)).toEqual(value);
-  });
-  it("the json_script filter of .eleventy.js does the same", async () => {
-    const filters: Record<string, (v: unknown) => string> = {};
-    const fake = new Proxy({}, { get: (_t, name) => (name === "addFilter" ? (n: string, f: (v: unknown) => string) => (filters[n] = f) : () => {}) });
-    const config = (await import(path.join(ROOT, ".eleventy.js"))).default;
-    config(fake);
-    const s = filters.json_script(value);
     expect(s).not.toMatch(/[<>&\u2028\u2029]/);
     expect(JSON.parse(s)).toEqual(value);
   });

@@ -20,7 +20,7 @@
  * degrees. Returns { ok: false, reason } when there is no clear well or a fit
  * fails.
  */
-import { fitSigmoidEdge } from "../numeric/sigmoidFit.ts";
+import { fitSigmoidEdge, LN9, sigmoidAt } from "../numeric/sigmoidFit.ts";
 import { cropToPowerOfTwo } from "./fft2d.ts";
 import { growthNormal, type GrowthAxis } from "./geometry.ts";
 import { projectProfile, smoothOverPeriod } from "./growthProfile.ts";
@@ -122,13 +122,13 @@ function fitEdge(s: number[], p: number[], from: number, to: number, options: ZC
   return {
     centre_px: fit.centre,
     centre_m: fit.centre * px,
-    width10to90_m: 2 * Math.log(9) * tau * px,
+    width10to90_m: 2 * LN9 * tau * px,
     width10to90StdErr_m: fit.width10to90StdErr * ratio * correlation * px,
     tau_m: tau * px,
     r2: fit.r2,
     curve: {
       z_m: z.map((zz) => zz * px),
-      value: z.map((zz) => fit.base + fit.step / (1 + Math.exp(-(zz - fit.centre) / fit.tau))),
+      value: z.map((zz) => sigmoidAt(fit, zz)),
     },
   };
 }

@@ -26,6 +26,8 @@ export interface SigmoidEdge {
   /** 4τ width, same unit as z. */
   width4tau: number;
   centreStdErr: number;
+  /** Depth the background slope is measured from (the window's mean z). */
+  zReference: number;
   r2: number;
   points: number;
   fit: NonlinearFit;
@@ -85,8 +87,14 @@ export function fitSigmoidEdge(
     width10to90StdErr: 2 * LN9 * fit.stdErr[3],
     width4tau: 4 * t,
     centreStdErr: fit.stdErr[2],
+    zReference: zMean,
     r2: fit.r2,
     points: n,
     fit,
   };
+}
+
+/** The fitted model at z: base + step/(1 + e^(−(z − centre)/τ)) + slope·(z − zReference). */
+export function sigmoidAt(edge: Pick<SigmoidEdge, "base" | "step" | "centre" | "tau" | "slope" | "zReference">, z: number): number {
+  return edge.base + edge.step / (1 + Math.exp(-(z - edge.centre) / edge.tau)) + edge.slope * (z - edge.zReference);
 }

@@ -20,7 +20,7 @@
  * Depth is in nm (any unit works if `window` and `nearDistance` use it too);
  * Ge is a fraction (convert at.% before calling); contaminants in cm⁻³ as given.
  */
-import { fitSigmoidEdge, type SigmoidEdge } from "../numeric/sigmoidFit.ts";
+import { fitSigmoidEdge, LN9, sigmoidAt, type SigmoidEdge } from "../numeric/sigmoidFit.ts";
 
 export interface DepthProfileInput {
   /** Depth below the surface, nm. */
@@ -51,6 +51,9 @@ export interface InterfaceFit {
   barrierGe: number;
   r2: number;
   points: number;
+  /** The fitted curve over its window, and its 10 % and 90 % points, for plotting (depth nm, Ge fraction). */
+  curve: { depth: number[]; ge: number[] };
+  marks: [number, number][];
 }
 
 export interface ContaminantPeak {
@@ -158,8 +161,7 @@ function fitEdge(z: number[], g: number[], from: number, to: number, which: "top
   const values = [fit.centre, fit.tau, fit.width10to90, fit.centreStdErr, fit.width10to90StdErr];
   if (!values.every(Number.isFinite)) return `the ${which} interface fit did not converge to finite values`;
   if (fit.centre < zs[0] || fit.centre > zs[zs.length - 1]) return `the ${which} interface fit put the edge outside its window`;
-  const zMean = zs.reduce((a, b) => a + b, 0) / zs.length;
-  const bg = fit.base + fit.slope * (fit.centre - zMean);
+  const bg = fit.base + fit.slope * (fit.centre - fit.zReference);
   // Top edge falls (barrier first, z → −∞ plateau = base); bottom edge rises (barrier plateau = base + step).
   const barrierGe = which === "top" ? bg : bg + fit.step;
   return {
@@ -172,6 +174,11 @@ function fitEdge(z: number[], g: number[], from: number, to: number, which: "top
     barrierGe,
     r2: fit.r2,
     points: fit.points,
+    curve: { depth: zs, ge: zs.map((zz) => sigmoidAt(fit, zz)) },
+    marks: [-1, 1].map((sgn): [number, number] => {
+      const zz = fit.centre + sgn * LN9 * fit.tau;
+      return [zz, sigmoidAt(fit, zz)];
+    }),
   };
 }
 
