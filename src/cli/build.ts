@@ -129,7 +129,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     const pages = await render(model, tmpDir);
     lap("render");
     await writeExtras(outcomes, dataDir, tmpDir, meta.dataCommit ?? null, new Map(model.wafers.map((w) => [w.id, w])), outDir);
-    await writeExports(outcomes, tmpDir, meta);
+    await writeExports(outcomes, tmpDir, meta, site.runs);
     await writeSearch(outcomes, site.runs, tmpDir, PACKAGE_ROOT);
     await swapInto(tmpDir, outDir);
     lap("write");

@@ -2,12 +2,13 @@
 import { promises as fs } from "node:fs";
 import path from "node:path";
 import type { WaferOutcome } from "./pipeline.ts";
+import type { RunNotes } from "../read/site.ts";
 import { allResultsJson, pointsCsv, resultsCsv } from "../publish/exports.ts";
 
-export async function writeExports(outcomes: readonly WaferOutcome[], outDir: string, meta: { version: string; builtAt: string; dataCommit?: string | null }): Promise<void> {
+export async function writeExports(outcomes: readonly WaferOutcome[], outDir: string, meta: { version: string; builtAt: string; dataCommit?: string | null }, runs: ReadonlyMap<string, RunNotes>): Promise<void> {
   const sorted = [...outcomes].sort((a, b) => (a.record?.grown ?? "").localeCompare(b.record?.grown ?? "") || a.folder.localeCompare(b.folder));
-  await fs.writeFile(path.join(outDir, "results.csv"), resultsCsv(sorted));
-  await fs.writeFile(path.join(outDir, "results.json"), JSON.stringify(allResultsJson(sorted, meta), null, 1) + "\n");
+  await fs.writeFile(path.join(outDir, "results.csv"), resultsCsv(sorted, runs));
+  await fs.writeFile(path.join(outDir, "results.json"), JSON.stringify(allResultsJson(sorted, meta, runs), null, 1) + "\n");
   for (const o of outcomes) {
     const dir = path.join(outDir, "wafers", o.folder);
     await fs.mkdir(dir, { recursive: true });

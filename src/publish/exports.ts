@@ -8,6 +8,8 @@
 import { METRICS } from "../analyse/metrics.ts";
 import type { WaferOutcome } from "../cli/pipeline.ts";
 import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants.ts";
+import { reactorOf } from "./siteModel.ts";
+import type { RunNotes } from "../read/site.ts";
 
 export function csvField(v: string | number | null | undefined): string {
   if (v === null || v === undefined) return "";
@@ -26,14 +28,14 @@ export function exportedMetrics(outcomes: readonly WaferOutcome[]) {
 
 const value = (o: WaferOutcome, key: string) => o.judgement.metrics.find((m) => m.key === key)?.value;
 
-export function resultsCsv(outcomes: readonly WaferOutcome[]): string {
+export function resultsCsv(outcomes: readonly WaferOutcome[], runs: ReadonlyMap<string, RunNotes> = new Map()): string {
   const metrics = exportedMetrics(outcomes);
   const header = ["wafer", "run", "grown", "reactor", "grade", "verdict", ...metrics.map((m) => `${m.key} [${m.unit}]`)];
-  const rows = outcomes.map((o) => [o.folder, o.record?.run ?? "", o.record?.grown ?? "", o.record?.reactor ?? "", o.judgement.grade, o.judgement.verdict, ...metrics.map((m) => value(o, m.key))]);
+  const rows = outcomes.map((o) => [o.folder, o.record?.run ?? "", o.record?.grown ?? "", reactorOf(o, runs), o.judgement.grade, o.judgement.verdict, ...metrics.map((m) => value(o, m.key))]);
   return toCsv([header, ...rows]);
 }
 
-export function allResultsJson(outcomes: readonly WaferOutcome[], meta: { version: string; builtAt: string; dataCommit?: string | null }) {
+export function allResultsJson(outcomes: readonly WaferOutcome[], meta: { version: string; builtAt: string; dataCommit?: string | null }, runs: ReadonlyMap<string, RunNotes> = new Map()) {
   const metrics = exportedMetrics(outcomes);
   return {
     waferbookVersion: meta.version,
@@ -44,7 +46,7 @@ export function allResultsJson(outcomes: readonly WaferOutcome[], meta: { versio
       wafer: o.folder,
       run: o.record?.run ?? null,
       grown: o.record?.grown ?? null,
-      reactor: o.record?.reactor ?? null,
+      reactor: reactorOf(o, runs) || null,
       grade: o.judgement.grade,
       verdict: o.judgement.verdict,
       reasons: o.judgement.reasons,

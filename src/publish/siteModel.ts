@@ -39,6 +39,11 @@ export interface SiteMeta {
   dataCommit?: string | null;
 }
 
+/** The wafer's reactor: its own record's, else its run notes' (one rule for pages, trends and exports). */
+export function reactorOf(o: WaferOutcome, runs: ReadonlyMap<string, RunNotes>): string {
+  return o.record?.reactor ?? runs.get(o.record?.run ?? "")?.meta.reactor ?? "";
+}
+
 export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNotes>, siteProblems: Problem[], meta: SiteMeta, extras: SiteExtras = {}) {
   const sorted = [...outcomes].sort((a, b) => (a.record?.grown ?? "").localeCompare(b.record?.grown ?? "") || a.folder.localeCompare(b.folder));
   const wafers = sorted.map((o) => extras.pages?.get(o.folder) ?? waferPageModel(o));
@@ -52,7 +57,7 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
     run: o.record?.run ?? "",
     grown: o.record?.grown ?? "",
     grade: o.judgement.grade,
-    reactor: o.record?.reactor ?? runs.get(o.record?.run ?? "")?.meta.reactor ?? "",
+    reactor: reactorOf(o, runs),
     verdict: o.judgement.verdict,
     /** Sorts the verdict column by severity (pass < … < error), not alphabetically. */
     verdictRank: VERDICT_RANK[o.judgement.verdict],

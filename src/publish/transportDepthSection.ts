@@ -13,6 +13,7 @@ import { percolationConductivity } from "../analyse/transport/percolation.ts";
 import { POWER_LAW_REFERENCE_DENSITY } from "../analyse/transport/mobilityPowerLaw.ts";
 import { markerSeries, traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
 import { formatNumber } from "./format.ts";
+import { densityAtGate } from "../analyse/transport/densityCalibration.ts";
 
 export interface FitRow {
   name: string;
@@ -125,7 +126,7 @@ function densityChart(d: DeviceAnalysis, x: DeviceDepth): ChartSpec | undefined 
   const c = x.calibration;
   if (c.ok) {
     const vs = [c.turnOnVoltage, Math.max(...d.points.map((p) => p.gate_V))];
-    series.push({ label: "calibration line", points: vs.map((v) => [v, (c.slope * v + c.intercept) * N11]), line: true, role: "fit" });
+    series.push({ label: "calibration line", points: vs.map((v) => [v, densityAtGate(c, v) * N11]), line: true, role: "fit" });
   }
   return {
     id: `depth-n-${d.id}`,

@@ -38,7 +38,8 @@ export function uniformitySection(o: WaferOutcome): UniformitySectionModel | und
     const spec = METRIC_BY_KEY.get(key)!;
     if (!devices.some((d) => d.metrics[key] !== undefined)) continue;
     const unit = prettyUnit(spec.unit);
-    const values = devices.map((d) => d.metrics[key]).filter((v): v is number => v !== undefined && Number.isFinite(v));
+    // Figures over every device, as for the judged <metric>_cv (uniformityMetrics); the map shows the positioned ones.
+    const values = (o.analysis?.devices ?? []).map((d) => d.metrics[key]).filter((v): v is number => v !== undefined && Number.isFinite(v));
     const u = uniformity(values);
     const svg = waferMapSvg(devices.map((d) => ({ id: d.id, atMm: d.at_mm!, value: d.metrics[key] ?? null })), {
       title: `${spec.label} across wafer ${o.folder}`,

@@ -14,7 +14,8 @@
  * Gaussian noise are added. Lengths in metres, image in arbitrary units.
  */
 import { growthNormal, inPlaneDirection, type GrowthAxis } from "../analyse/images/geometry.ts";
-import { seededUniform as uniform } from "./random.ts";
+import { seededGaussian } from "./random.ts";
+import { LN9 } from "../analyse/numeric/sigmoidFit.ts";
 
 export interface SyntheticMicrographSpec {
   width: number;
@@ -136,10 +137,8 @@ export function syntheticMicrograph(spec: SyntheticMicrographSpec): SyntheticMic
   });
   const noise = spec.noise ?? 0.02;
   if (noise > 0) {
-    const uni = uniform(spec.seed ?? 1);
-    for (let i = 0; i < pixels.length; i++) {
-      pixels[i] += noise * Math.sqrt(-2 * Math.log(uni() + 1e-300)) * Math.cos(2 * Math.PI * uni());
-    }
+    const gauss = seededGaussian(spec.seed ?? 1);
+    for (let i = 0; i < pixels.length; i++) pixels[i] += noise * gauss();
   }
   return {
     width,
@@ -152,7 +151,7 @@ export function syntheticMicrograph(spec: SyntheticMicrographSpec): SyntheticMic
       wellBottom_px: vb,
       wellTop_px: vt,
       tau_m: spec.interfaceTau_m,
-      interfaceWidth10to90_m: 2 * Math.log(9) * spec.interfaceTau_m,
+      interfaceWidth10to90_m: 2 * LN9 * spec.interfaceTau_m,
       inPlaneSpacing_m: spec.inPlaneSpacing_m,
       barrierSpacing_m: spec.barrierSpacing_m,
       wellSpacing_m: spec.wellSpacing_m,

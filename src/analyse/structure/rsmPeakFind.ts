@@ -19,6 +19,7 @@
  * Angles in rad. Pure; throws only for programming errors.
  */
 import { nonlinearFit } from "../numeric/nonlinearFit.ts";
+import { median } from "simple-statistics";
 
 export interface MapPoint {
   /** ω, rad. */
@@ -55,18 +56,13 @@ export interface PeakSearch {
   peaks: RawPeak[];
 }
 
-function median(v: number[]): number {
-  const s = v.slice().sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-}
 
 function spacing(values: number[]): number {
   const uniq = [...new Set(values.map((v) => Math.round(v * 1e9)))].sort((a, b) => a - b);
   const range = (uniq[uniq.length - 1] - uniq[0]) * 1e-9;
   if (uniq.length > 1 && uniq.length <= 3 * Math.sqrt(values.length)) {
     const d = uniq.slice(1).map((u, i) => (u - uniq[i]) * 1e-9);
-    return median(d) || range / Math.sqrt(values.length);
+    return (d.length ? median(d) : 0) || range / Math.sqrt(values.length);
   }
   return range / Math.sqrt(values.length) || 1;
 }

@@ -24,6 +24,7 @@ import { CU_KALPHA1, type Miller } from "./bragg.ts";
 import type { MeasuredReflection } from "./bufferRelaxation.ts";
 import { anglesToQ, layerPeakQ, qToAngles } from "./reciprocalSpace.ts";
 import { searchMapPeaks, type MapPoint, type PeakSearchOptions, type RawPeak } from "./rsmPeakFind.ts";
+import { median } from "simple-statistics";
 
 export type { MapPoint } from "./rsmPeakFind.ts";
 
@@ -149,10 +150,6 @@ export function rsmPeaks(points: readonly MapPoint[], opts: RsmOptions): RsmPeak
 
 const order = (l: string) => ["substrate", "buffer", "well"].indexOf(l) >>> 0;
 
-function median(v: number[]): number {
-  const s = v.slice().sort((a, b) => a - b);
-  return s[s.length >> 1];
-}
 
 function assignLayers(sub: RsmPeak, rest: RsmPeak[], asymmetric: boolean): void {
   const eps = 1e-3;

@@ -29,6 +29,7 @@ import { mobilityPowerLaw, type MobilityPowerLaw } from "./mobilityPowerLaw.ts";
 import { skipped, type Skipped } from "./outcome.ts";
 import type { PercolationFit } from "./percolation.ts";
 import { hallSdhMismatch, shubnikovDeHaas, type HallSdhMismatch, type SdhResult } from "./shubnikovDeHaas.ts";
+import { median } from "simple-statistics";
 
 export interface PointDepth {
   file: string;
@@ -78,11 +79,6 @@ export function analysePointDepth(p: TransportPoint, settings: AnalysisSettings)
   return out;
 }
 
-function median(v: number[]): number {
-  const s = v.slice().sort((a, b) => a - b);
-  const h = s.length >> 1;
-  return s.length % 2 ? s[h] : (s[h - 1] + s[h]) / 2;
-}
 
 /**
  * Everything in depth for one device. points: the device's transport points

@@ -14,6 +14,7 @@
  */
 import { VON_KLITZING } from "../../physics/constants.ts";
 import { allFinite, skipped, type Skipped } from "./outcome.ts";
+import { median } from "simple-statistics";
 
 export interface SweepData {
   /** Gate voltage, V. */
@@ -91,10 +92,8 @@ export function gateHysteresis(up: SweepData, down: SweepData, options: Hysteres
   });
   if (shifts.length < minPoints) return skipped(`only ${shifts.length} equal-resistance points in the conducting range; need ${minPoints}`);
   const mean = shifts.reduce((s, v) => s + v, 0) / shifts.length;
-  const sorted = shifts.slice().sort((a, b) => a - b);
-  const h = sorted.length >> 1;
-  const median = sorted.length % 2 ? sorted[h] : (sorted[h - 1] + sorted[h]) / 2;
+  const medianShift = median(shifts);
   const maxShift = shifts.reduce((m, v) => (Math.abs(v) > Math.abs(m) ? v : m), 0);
-  if (!allFinite(mean, median, maxShift)) return skipped("hysteresis shift is not finite");
-  return { ok: true, meanShift: mean, medianShift: median, maxShift, points: shifts.length, matches: { gateVoltage: gv, resistance: rs, shift: shifts } };
+  if (!allFinite(mean, medianShift, maxShift)) return skipped("hysteresis shift is not finite");
+  return { ok: true, meanShift: mean, medianShift, maxShift, points: shifts.length, matches: { gateVoltage: gv, resistance: rs, shift: shifts } };
 }

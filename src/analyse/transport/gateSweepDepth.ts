@@ -20,6 +20,7 @@ import { gateHysteresis, type GateHysteresis } from "./gateHysteresis.ts";
 import { percolationFit, sheetConductance, type PercolationFit } from "./percolation.ts";
 import { skipped, type Skipped } from "./outcome.ts";
 import { vanDerPauwSheetResistance } from "./vanDerPauw.ts";
+import { hallBarSheetResistance } from "./sheetResistance.ts";
 
 /** |B| below which a gate sweep counts as taken at zero field, T. */
 export const ZERO_FIELD_LIMIT = 1e-3;
@@ -46,7 +47,7 @@ export function gateSweepSheetResistance(sweep: Sweep, device: DeviceGeometry): 
   for (let i = 0; i < sweep.rows; i++) {
     if (device.geometry === "hall-bar") {
       const r = sweep.rxx ? sweep.rxx[i] : Number.NaN;
-      out.push(device.width_um && device.length_um ? (r * device.width_um) / device.length_um : Number.NaN);
+      out.push(device.width_um && device.length_um ? hallBarSheetResistance(r, device.width_um, device.length_um) : Number.NaN);
     } else {
       const ra = sweep.ra?.[i] ?? Number.NaN;
       const rb = sweep.rb?.[i] ?? Number.NaN;
