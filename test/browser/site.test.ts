@@ -208,9 +208,12 @@ describe("accessibility (axe-core): no serious or critical violations", () => {
   it("on a wafer page", async () => expect(await axeViolations(ctx, waferUrl)).toEqual([]));
   it("on a run page", async () => expect(await axeViolations(ctx, runUrl)).toEqual([]));
   it("on the search page with results", async () => expect(await axeViolations(ctx, `${site.origin}/search/?q=pass`)).toEqual([]));
-  it("on /trends/ (when the page exists)", async (t) => {
-    if (!pages.has("/trends/")) t.skip("no /trends/ page is linked from the site yet");
+  it("on /trends/", async () => {
+    expect(pages.has("/trends/"), "the crawl reached /trends/").toBe(true);
     expect(await axeViolations(ctx, `${site.origin}/trends/`)).toEqual([]);
+  });
+  it("on a per-metric trend page, /targets/ and /changes/", async () => {
+    for (const u of ["/trends/peak_mobility/", "/targets/", "/changes/"]) expect(await axeViolations(ctx, `${site.origin}${u}`), u).toEqual([]);
   });
 });
 
@@ -321,8 +324,9 @@ describe("site search", () => {
     // A long word from that wafer's notes leads to its #notes section.
     await page.goto(waferUrl);
     const notes = (await page.textContent("#notes .notes")) ?? "";
-    const word = (notes.match(/[A-Za-z]{8,}/g) ?? []).sort((a, b) => b.length - a.length)[0];
-    if (word) {
+    const word = (notes.match(/[A-Za-z]{8,}/g) ?? []).sort((a, b) => b.length - a.length)[0] ?? "";
+    expect(word, "the wafer's notes hold a word of 8+ letters to search for").not.toBe("");
+    {
       await page.goto(`${site.origin}/search/?q=${encodeURIComponent(word)}`, { waitUntil: "load" });
       await page.waitForSelector("#search-results li a");
       const hrefs = await page.$$eval("#search-results li a", (as) => as.map((a) => a.getAttribute("href")));

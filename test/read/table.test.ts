@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { readTable } from "../../src/read/table.ts";
+import { decodeText } from "../../src/read/dataFiles.ts";
 import { validateSweep } from "../../src/validate/sweep.ts";
 import { problemMessage } from "../helpers/problems.ts";
 
@@ -17,11 +18,18 @@ describe("sweep table reader", () => {
     expect(s.rxx![0]).toBe(1000);
     expect(s.direction).toBe("up");
   });
-  it("accepts tabs, CRLF and a byte-order mark is removed by the decoder", () => {
+  it("accepts tabs and CRLF line ends", () => {
     const tsv = good.replace(/,/g, "\t").replace(/\n/g, "\r\n");
     const s = validateSweep(readTable(tsv, "a.tsv"), "hall-bar");
     expect(s.rows).toBe(3);
     expect(s.rxy[2]).toBe(-1200);
+  });
+  it("removes a UTF-8 byte-order mark before the metadata (decodeText)", () => {
+    const bytes = Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(good.replace(/\n/g, "\r\n"))]);
+    const text = decodeText({ rel: "bom.csv", abs: "/nowhere/bom.csv", bytes });
+    const s = validateSweep(readTable(text, "bom.csv"), "hall-bar");
+    expect(s.gate_V).toBeCloseTo(0.35, 12);
+    expect(s.rows).toBe(3);
   });
   it("turns voltages into resistances with the current", () => {
     const t = "# gate: 0.5 V\n# current: 10 nA\nB [T],Vxx [uV],Vxy [uV]\n-1,10,-60\n0,10,0\n1,10,60\n";

@@ -9,7 +9,7 @@
  * D_w = 2C12/C11 of the well alloy (REFERENCES §2–§3). The value reported is
  * a⊥/a_b − 1 in per cent: the out-of-plane spacing change of the well relative
  * to the reference. For Si on Si0.7Ge0.3 this is −2.006 % (REFERENCES §4,
- * derived: a⊥ = 0.538305 nm against a = 0.549605 nm).
+ * derived: a⊥ = 0.538305 nm against a = 0.549322 nm).
  *
  * The well is the first layer with role `well`; the reference barrier is the
  * first layer below it (stack order is surface first) that has a Ge fraction.

@@ -11,7 +11,7 @@ const STACK: Layer[] = [
   { name: "well", role: "well", ge: 0, thickness_nm: 10 },
   { name: "lower barrier", role: "barrier", ge: 0.3, thickness_nm: 300 },
 ];
-// Dismukes' law (REFERENCES §2, [C] coefficients): a(0.3) = 0.549605 nm; a coherent Si well has
+// Dismukes' law (REFERENCES §2, [C] coefficients): a(0.3) = 0.549322 nm (REFERENCES §2 check value); a coherent Si well has
 // a⊥ = 0.538305 nm (REFERENCES §4 [D], from D_Si = 2C12/C11, §3): −2.006 % vs the Si0.7Ge0.3 lattice.
 const A_B = 0.5431 + 0.01992 * 0.3 + 0.002733 * 0.09;
 const A_PERP = 0.538305;
@@ -65,8 +65,9 @@ describe("analyseImages on a synthetic HAADF micrograph", () => {
     const c = a.images[0].coherence;
     if (!c.ok) throw new Error(c.reason);
     expect(c.coherent).toBe(false);
-    // Relaxed Si vs Si0.7Ge0.3: 0.5431/0.549605 − 1 = −1.18 % (Dismukes, REFERENCES §2 [D]); border pixels dilute it.
-    expect(c.inPlaneMismatch_pct.value).toBeLessThan(-0.9);
+    // Relaxed Si vs Si0.7Ge0.3: 0.5431/0.549322 − 1 = −1.133 % (Dismukes, REFERENCES §2 [D]); pixels near the
+    // interfaces dilute it slightly, so allow 0.15 percentage points.
+    expect(Math.abs(c.inPlaneMismatch_pct.value - (0.5431 / A_B - 1) * 100)).toBeLessThan(0.15);
     expect(a.images[0].findings.join(" ")).toMatch(/not coherent/);
   });
 
@@ -75,7 +76,8 @@ describe("analyseImages on a synthetic HAADF micrograph", () => {
     const a = analyseImages({ micrographs: [m] }, STACK, DEFAULT_SETTINGS)!;
     expect(a.images[0].widthsSkipped).toMatch(/HAADF images only/);
     expect(a.metrics.interface_width_top_image).toBeUndefined();
-    expect(a.metrics.interface_outofplane_strain).toBeCloseTo(-2.006, 0);
+    // Same REFERENCES §2–§4 value as the HAADF case, same 0.1-point tolerance.
+    expect(Math.abs(a.metrics.interface_outofplane_strain + 2.006)).toBeLessThan(0.1);
   });
 
   it("a featureless image: reasons, no metrics, no NaN", () => {
