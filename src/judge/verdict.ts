@@ -36,7 +36,6 @@ export interface MetricJudgement {
   /** Aggregated value used for the verdict. */
   value?: number;
   perDevice: Record<string, number>;
-  spread?: { min: number; max: number; n: number };
   target?: Target;
   verdict: Verdict;
   reason?: string;
@@ -50,9 +49,10 @@ export interface WaferJudgement {
   metrics: MetricJudgement[];
 }
 
+/** How devices combine into the wafer's value; `every-device` shows the mean (each device is judged separately). */
 function aggregate(values: number[], how: Aggregate): number | undefined {
   if (values.length === 0) return undefined;
-  if (how === "min" || how === "every-device") return undefined;
+  if (how === "min") return Math.min(...values);
   if (how === "max") return Math.max(...values);
   return values.reduce((a, b) => a + b, 0) / values.length;
 }
@@ -74,13 +74,8 @@ function judgeMetric(key: string, values: MetricValues | undefined, t: Target | 
   const spec = METRIC_BY_KEY.get(key)!;
   const per = values?.perDevice ?? {};
   const devVals = Object.values(per);
-  const spread = devVals.length ? { min: Math.min(...devVals), max: Math.max(...devVals), n: devVals.length } : undefined;
-  let value = values?.wafer;
-  if (value === undefined && devVals.length) {
-    const how = t?.aggregate ?? "mean";
-    value = how === "min" ? Math.min(...devVals) : how === "every-device" ? aggregate(devVals, "mean") : aggregate(devVals, how);
-  }
-  const j: MetricJudgement = { key, spec, value, perDevice: per, spread, target: t, verdict: "untested" };
+  const value = values?.wafer ?? aggregate(devVals, t?.aggregate ?? "mean");
+  const j: MetricJudgement = { key, spec, value, perDevice: per, target: t, verdict: "untested" };
   if (!t) {
     j.reason = value === undefined ? "no value and no target" : "no target for this grade";
     return finishWaiver(j, waiver);

@@ -10,7 +10,7 @@
  */
 import type { WaferOutcome } from "../cli/pipeline.ts";
 import type { ImageResult } from "../analyse/images/index.ts";
-import { renderMicrograph, renderStrainMap } from "../analyse/images/strainMapImage.ts";
+import { renderMicrograph, renderStrainMap } from "./strainMapImage.ts";
 import { traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
 import { formatNumber } from "./format.ts";
 

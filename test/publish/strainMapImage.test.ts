@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { PNG } from "pngjs";
-import { decodeMicrograph, MicrographFormatError } from "../../../src/read/micrograph.ts";
-import { divergingColour, renderMicrograph, renderStrainMap } from "../../../src/analyse/images/strainMapImage.ts";
+import { decodeMicrograph, MicrographFormatError } from "../../src/read/micrograph.ts";
+import { divergingColour, renderMicrograph, renderStrainMap } from "../../src/publish/strainMapImage.ts";
 
 function greyPng8(width: number, height: number, value: (x: number, y: number) => number): Buffer {
   const png = new PNG({ width, height });

@@ -16,7 +16,7 @@
  * PNG.sync.write. Throws RangeError for mismatched sizes (programming error).
  */
 import { PNG } from "pngjs";
-import { growthCoordinate, type GrowthAxis } from "./geometry.ts";
+import { growthCoordinate, type GrowthAxis } from "../analyse/images/geometry.ts";
 
 type RGB = [number, number, number];
 
