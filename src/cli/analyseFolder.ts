@@ -8,7 +8,7 @@ import path from "node:path";
 import { analyseWafer, type WaferAnalysis } from "../analyse/wafer.ts";
 import type { DeviceDepth } from "../analyse/transport/deviceDepth.ts";
 import { loadWafer, type LoadContext } from "../read/wafer.ts";
-import { cacheKey, readEntry, writeEntry, type CacheEntry } from "./cache.ts";
+import { cacheKey, readEntry, writeEntry, type CacheEntry, type EntryForm } from "./cache.ts";
 
 export interface AnalyseContext extends LoadContext {
   /** Cache folder, or null to bypass the cache (--no-cache). */
@@ -20,14 +20,30 @@ export interface AnalyseContext extends LoadContext {
 export interface AnalysedFolder {
   entry: CacheEntry;
   cacheHit: boolean;
+  /** "slim" for a cache hit (bulk arrays left out: see cache.ts); "full" when just analysed or loaded in full. */
+  form: EntryForm;
+  /** The cache key, when the cache is in use. */
+  key?: string;
 }
 
-/** The cached result of one wafer folder, if any, and its cache key (undefined without a cache). */
+/** The cached (slim) result of one wafer folder, if any, and its cache key (undefined without a cache). */
 export async function lookUpFolder(folder: string, ctx: AnalyseContext): Promise<{ key?: string; hit?: AnalysedFolder }> {
   if (!ctx.cacheDir) return {};
   const key = await cacheKey(path.join(ctx.dataDir, "wafers", folder), ctx.code, ctx.siteSettings);
-  const entry = await readEntry(ctx.cacheDir, key);
-  return { key, hit: entry && entry.folder === folder ? { entry, cacheHit: true } : undefined };
+  const entry = await readEntry(ctx.cacheDir, key, "slim");
+  return { key, hit: entry && entry.folder === folder ? { entry, cacheHit: true, form: "slim", key } : undefined };
+}
+
+/**
+ * The full form of a result taken slim from the cache (for drawing its page):
+ * read from the cache, or analysed again from the raw files if that form has
+ * gone missing.
+ */
+export async function loadInFull(found: AnalysedFolder, ctx: AnalyseContext): Promise<AnalysedFolder> {
+  if (found.form === "full") return found;
+  const entry = ctx.cacheDir && found.key ? await readEntry(ctx.cacheDir, found.key, "full") : undefined;
+  if (entry && entry.folder === found.entry.folder) return { ...found, entry, form: "full" };
+  return analyseFolder(found.entry.folder, ctx, found.key);
 }
 
 /** Loads and analyses one wafer folder, or takes the result from the cache. `knownKey`: its cache key when already computed (and missed). */
@@ -47,7 +63,7 @@ export async function analyseFolder(folder: string, ctx: AnalyseContext, knownKe
   const entry: CacheEntry = { folder, record: loaded.record, files: loaded.files, problems: loaded.problems, analysis: analysis && keepForPublishing(analysis) };
   // Only wafers whose record validated are cached: a broken wafer.md is cheap to re-read, and its problems may depend on today's date.
   if (ctx.cacheDir && key && loaded.record) await writeEntry(ctx.cacheDir, key, entry);
-  return { entry, cacheHit: false };
+  return { entry, cacheHit: false, form: "full", key };
 }
 
 const NO_TRACE = { b: new Float64Array(0), rhoxx: new Float64Array(0), rxy: new Float64Array(0) };

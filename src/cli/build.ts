@@ -12,7 +12,9 @@ import { judgeOutcome, type PipelineContext, type WaferOutcome } from "./pipelin
 import { codeVersion, defaultCacheDir } from "./cache.ts";
 import { analyseAll } from "./workerPool.ts";
 import { loadSiteInputs } from "../read/site.ts";
-import { buildSiteModel, type SiteMeta } from "../publish/siteModel.ts";
+import { buildSiteModel, sortOutcomes, waferPageExtras, type SiteMeta } from "../publish/siteModel.ts";
+import { linkReusedPage, pageCodeVersion, pageFingerprint, previousFingerprint } from "./pageReuse.ts";
+import { loadInFull, type AnalysedFolder } from "./analyseFolder.ts";
 import { resultsJson, waferPageModel } from "../publish/waferPage.ts";
 import { writeSearch } from "../publish/searchIndex.ts";
 import type { Problem } from "../validate/problem.ts";
@@ -37,8 +39,8 @@ export interface BuildResult {
   problems: Problem[];
   outDir: string;
   pages: number;
-  /** Wafers taken from the analysis cache / analysed from raw files; wall time of each phase, ms. */
-  stats?: { cacheHits: number; analysed: number; phases: Record<string, number> };
+  /** Wafers taken from the analysis cache / analysed from raw files; wafer pages reused unchanged from the previous output; wall time of each phase, ms. */
+  stats?: { cacheHits: number; analysed: number; pagesReused: number; phases: Record<string, number> };
 }
 
 export class BuildLockedError extends Error {}
@@ -96,19 +98,30 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     };
     const cacheDir = options.cache === null ? null : path.resolve(options.cache ?? defaultCacheDir(outDir));
     const code = cacheDir ? await codeVersion(version) : "";
+    const analyseCtx = { dataDir, today: ctx.today, siteSettings: ctx.siteSettings, cacheDir, code };
+    // Unchanged wafer pages are reused from the previous output (src/cli/pageReuse.ts); --no-cache builds every page afresh.
+    const reusePages = cacheDir !== null;
     let done = 0;
-    // Each wafer is judged and its page model built as soon as its analysis
-    // arrives, and the arrays drawn into its pictures are then dropped: the
-    // build holds every wafer's slim analysis and page model, never every
-    // wafer's map points and traces at once.
+    // Each wafer is judged as soon as its analysis arrives. A wafer analysed
+    // now (full form) gets its page model at once, and the arrays drawn into
+    // its pictures are then dropped; a cache hit arrives slim and is loaded in
+    // full later only if its page must be drawn again. The build holds every
+    // wafer's slim analysis and the page models of pages being drawn, never
+    // every wafer's map points and traces at once.
     const outcomes: WaferOutcome[] = new Array(site.waferFolders.length);
+    const found: AnalysedFolder[] = new Array(site.waferFolders.length);
     const pageModels = new Map<string, PageModel>();
     let failure: unknown;
-    const analysed = await analyseAll(site.waferFolders, { dataDir, today: ctx.today, siteSettings: ctx.siteSettings, cacheDir, code }, (i, r) => {
+    const drawPage = (r: AnalysedFolder) => {
+      const o = judgeOutcome(r.entry, r.entry.analysis, ctx);
+      pageModels.set(o.folder, waferPageModel(o));
+      releasePictureData([o]);
+    };
+    const analysed = await analyseAll(site.waferFolders, analyseCtx, (i, r) => {
       try {
-        const o = (outcomes[i] = judgeOutcome(r.entry, r.entry.analysis, ctx));
-        pageModels.set(o.folder, waferPageModel(o));
-        releasePictureData([o]);
+        outcomes[i] = judgeOutcome(r.entry, r.entry.analysis, ctx);
+        found[i] = r;
+        if (r.form === "full") drawPage(r);
       } catch (err) {
         // Thrown again below: this callback may run inside a worker's message handler.
         failure ??= err;
@@ -116,7 +129,6 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       if (!options.quiet) io.log(`analysed ${++done}/${site.waferFolders.length} ${r.entry.folder}${r.cacheHit ? " (cached)" : ""}`);
     });
     if (failure !== undefined) throw failure;
-    const stats = { cacheHits: analysed.filter((a) => a.cacheHit).length, analysed: analysed.filter((a) => !a.cacheHit).length, phases };
     lap("analyse");
     const problems = [...site.problems, ...outcomes.flatMap((o) => o.problems)];
     if (site.waferFolders.length === 0 && site.problems.some((p) => p.severity === "error")) {
@@ -124,11 +136,25 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     }
     const history = await loadDataHistory(dataDir);
     const meta: SiteMeta = { title: "waferbook", version, builtAt: io.now(), basePath: options.basePath, dataCommit: history?.head ?? null };
-    const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history, pages: pageModels });
+    const pageExtras = waferPageExtras(sortOutcomes(outcomes), meta.basePath, history);
+    const pageCode = await pageCodeVersion(version);
+    const fingerprints = new Map<string, string>();
+    const reused = new Set<string>();
+    for (const [i, o] of outcomes.entries()) {
+      const fp = pageFingerprint(pageCode, meta.basePath, o, pageExtras.get(o.folder));
+      fingerprints.set(o.folder, fp);
+      if (reusePages && (await previousFingerprint(path.join(outDir, "wafers", o.folder, "index.html"))) === fp) {
+        reused.add(o.folder);
+        pageModels.delete(o.folder);
+      } else if (!pageModels.has(o.folder)) drawPage(await loadInFull(found[i], analyseCtx));
+    }
+    const stats = { cacheHits: analysed.filter((a) => a.cacheHit).length, analysed: analysed.filter((a) => !a.cacheHit).length, pagesReused: reused.size, phases };
+    const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history, pages: pageModels, pageExtras, reused, fingerprints });
+    pageModels.clear();
     lap("model");
     const pages = await render(model, tmpDir);
     lap("render");
-    await writeExtras(outcomes, dataDir, tmpDir, meta.dataCommit ?? null, new Map(model.wafers.map((w) => [w.id, w])), outDir);
+    await writeExtras(outcomes, dataDir, tmpDir, meta.dataCommit ?? null, new Map(model.wafers.map((w) => [w.id, w])), outDir, reused);
     await writeExports(outcomes, tmpDir, meta, site.runs);
     await writeSearch(outcomes, site.runs, tmpDir, PACKAGE_ROOT);
     await swapInto(tmpDir, outDir);
@@ -204,7 +230,7 @@ async function placeRawCopy(rawAbs: string, dest: string, prevCopy: string | und
   await fs.copyFile(rawAbs, dest);
 }
 
-async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string, dataCommit: string | null, pagesById: Map<string, PageModel>, outDir: string): Promise<void> {
+async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string, dataCommit: string | null, pagesById: Map<string, PageModel>, outDir: string, reused: ReadonlySet<string>): Promise<void> {
   for (const o of outcomes) {
     const dir = path.join(tmpDir, "wafers", o.folder);
     await fs.mkdir(dir, { recursive: true });
@@ -219,7 +245,12 @@ async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: st
       const same = prevHashes.get(f.path) === f.sha256;
       await placeRawCopy(path.join(dataDir, ...parts), dest, same ? path.join(prevDir, "raw", ...parts.slice(2)) : undefined);
     }
-    const page = pagesById.get(o.folder) ?? waferPageModel(o);
+    if (reused.has(o.folder)) {
+      await linkReusedPage(prevDir, dir);
+      continue;
+    }
+    const page = pagesById.get(o.folder);
+    if (!page) throw new Error(`internal: no page model for wafer ${o.folder}`);
     for (const section of [page.transportDepth, page.structure, page.images] as { files?: { path: string; bytes: Buffer }[] }[]) {
       for (const f of section?.files ?? []) {
         const parts = f.path.split("/");

@@ -34,7 +34,7 @@ import type { WaferRecord } from "../validate/wafer.ts";
 import { listFiles } from "../read/dataFiles.ts";
 
 /** Bumped when the entry's shape changes. */
-export const CACHE_FORMAT = "waferbook-cache-2";
+export const CACHE_FORMAT = "waferbook-cache-3";
 
 export interface CacheEntry {
   folder: string;
@@ -49,22 +49,28 @@ const CODE_FOLDERS = ["read", "validate", "analyse", "physics"];
 /** Files outside those folders that decide what a cache entry holds. */
 const CODE_FILES = ["cli/analyseFolder.ts", "cli/cache.ts"];
 
-async function sourceFiles(dir: string): Promise<string[]> {
+/** Every file under dir whose name passes `keep`, absolute paths. */
+export async function sourceFiles(dir: string, keep: (name: string) => boolean = (n) => n.endsWith(".ts")): Promise<string[]> {
   const out: string[] = [];
   for (const e of await fs.readdir(dir, { withFileTypes: true })) {
     const abs = path.join(dir, e.name);
-    if (e.isDirectory()) out.push(...(await sourceFiles(abs)));
-    else if (e.isFile() && e.name.endsWith(".ts")) out.push(abs);
+    if (e.isDirectory()) out.push(...(await sourceFiles(abs, keep)));
+    else if (e.isFile() && keep(e.name)) out.push(abs);
   }
   return out;
 }
 
+/** SHA-256 (hex) of a salt and of each file's path (relative to root) and bytes, in sorted order. */
+export async function hashFiles(salt: string, root: string, files: string[]): Promise<string> {
+  const h = createHash("sha256").update(`${salt}\0`);
+  for (const f of [...files].sort()) h.update(path.relative(root, f)).update("\0").update(await fs.readFile(f)).update("\0");
+  return h.digest("hex");
+}
+
 /** Hash of the analysis code (sources of reading, validation, analysis, physics) and the package version; hex SHA-256. */
 export async function codeVersion(packageVersion: string): Promise<string> {
-  const h = createHash("sha256").update(`${CACHE_FORMAT}\0${packageVersion}\0`);
-  const files = [...(await Promise.all(CODE_FOLDERS.map((f) => sourceFiles(path.join(SRC, f))))).flat(), ...CODE_FILES.map((f) => path.join(SRC, f))].sort();
-  for (const f of files) h.update(path.relative(SRC, f)).update("\0").update(await fs.readFile(f)).update("\0");
-  return h.digest("hex");
+  const files = [...(await Promise.all(CODE_FOLDERS.map((f) => sourceFiles(path.join(SRC, f))))).flat(), ...CODE_FILES.map((f) => path.join(SRC, f))];
+  return hashFiles(`${CACHE_FORMAT}\0${packageVersion}`, SRC, files);
 }
 
 
@@ -84,30 +90,78 @@ export async function cacheKey(waferDir: string, code: string, siteSettings: unk
   return h.digest("hex");
 }
 
-function entryPath(cacheDir: string, key: string): string {
-  return path.join(cacheDir, key.slice(0, 2), `${key}.v8`);
+function entryPath(cacheDir: string, key: string, form: EntryForm = "full"): string {
+  return path.join(cacheDir, key.slice(0, 2), form === "full" ? `${key}.v8` : `${key}.slim.v8`);
 }
 
+/**
+ * Which form of an entry: "full" holds everything the wafer's page draws;
+ * "slim" (about a tenth of the size) holds the same record, problems,
+ * provenance and every figure, without the bulk arrays (traces, map points,
+ * spectra, image pixels and strain maps: see `slimAnalysis`). Judging,
+ * results.json, the exports, the search index and every site-wide page read
+ * only the slim form, so a wafer whose page is reused is never loaded in full.
+ */
+export type EntryForm = "full" | "slim";
+
 /** The entry stored under key, or undefined (missing or unreadable entries are misses). */
-export async function readEntry(cacheDir: string, key: string): Promise<CacheEntry | undefined> {
+export async function readEntry(cacheDir: string, key: string, form: EntryForm = "full"): Promise<CacheEntry | undefined> {
   try {
-    return v8.deserialize(await fs.readFile(entryPath(cacheDir, key))) as CacheEntry;
+    return v8.deserialize(await fs.readFile(entryPath(cacheDir, key, form))) as CacheEntry;
   } catch {
     return undefined;
   }
 }
 
-/** Stores an entry atomically (temporary file + rename). Failures to write are ignored: the cache is an optimisation. */
+/**
+ * Stores an entry atomically (temporary file + rename), in both forms; the
+ * slim form is written last, and a reader looks for it first, so a slim hit
+ * implies a complete full form beside it (unless deleted by hand: then the
+ * full read misses and the wafer is analysed again). Failures to write are
+ * ignored: the cache is an optimisation.
+ */
 export async function writeEntry(cacheDir: string, key: string, entry: CacheEntry): Promise<void> {
-  const dest = entryPath(cacheDir, key);
+  await fs.mkdir(path.dirname(entryPath(cacheDir, key)), { recursive: true }).catch(() => {});
+  await writeAtomically(entryPath(cacheDir, key, "full"), v8.serialize(entry));
+  await writeAtomically(entryPath(cacheDir, key, "slim"), v8.serialize({ ...entry, analysis: entry.analysis && slimAnalysis(entry.analysis) }));
+}
+
+async function writeAtomically(dest: string, bytes: Buffer): Promise<void> {
   const tmp = `${dest}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`;
   try {
-    await fs.mkdir(path.dirname(dest), { recursive: true });
-    await fs.writeFile(tmp, v8.serialize(entry));
+    await fs.writeFile(tmp, bytes);
     await fs.rename(tmp, dest);
   } catch {
     await fs.rm(tmp, { force: true }).catch(() => {});
   }
+}
+
+/**
+ * The analysis without its bulk arrays: every typed array (traces, map
+ * points' columns, image pixels, strain maps) becomes an empty one of the same
+ * kind, and XRD map points and the charted Shubnikov–de Haas trace and
+ * spectrum are dropped. Every scalar figure, fit and reason is kept, so
+ * judging and every site-wide output give the same result from either form
+ * (test/cli/incremental.test.ts builds both ways and compares).
+ */
+export function slimAnalysis(analysis: WaferAnalysis): WaferAnalysis {
+  return strip(analysis) as WaferAnalysis;
+}
+
+const BULK_NUMBER_ARRAYS = new Set(["inverseField", "oscillation", "frequency", "amplitude"]);
+
+function strip(x: unknown, key = ""): unknown {
+  if (ArrayBuffer.isView(x)) return new (x.constructor as new (n: number) => ArrayBufferView)(0);
+  if (Array.isArray(x)) return BULK_NUMBER_ARRAYS.has(key) && typeof x[0] === "number" ? [] : x.map((v) => strip(v));
+  if (x === null || typeof x !== "object") return x;
+  const out: Record<string, unknown> = {};
+  for (const [k, v] of Object.entries(x)) out[k] = k === "points" && isMapPoints(v) ? undefined : strip(v, k);
+  return out;
+}
+
+/** XRD map points: an array of objects with omega, twoTheta and counts (the only "points" that are bulk data). */
+function isMapPoints(v: unknown): boolean {
+  return Array.isArray(v) && v.length > 0 && typeof v[0] === "object" && v[0] !== null && "twoTheta" in v[0] && "counts" in v[0];
 }
 
 /** The default cache folder: `.waferbook-cache/` beside the output folder. */

@@ -1,12 +1,18 @@
 /**
- * Analyses wafer folders in parallel on worker threads (node:worker_threads),
- * each wafer independently, and returns the results in the order of the
- * folders given, whatever order they finish in — so the output is the same as
- * a sequential build. The pool size is os.availableParallelism() − 0, capped
- * at MAX_WORKERS and at the number of wafers; with one core, or few wafers,
- * the folders are analysed in this thread (starting a worker costs about half
- * a second of module loading). WAFERBOOK_WORKERS=n overrides the size (0 = in
- * this thread).
+ * Analyses wafer folders, in parallel on worker threads (node:worker_threads)
+ * where that pays, each wafer independently, and returns the results in the
+ * order of the folders given, whatever order they finish in — so the output
+ * is the same as a sequential build.
+ *
+ * Cache look-ups (hash the wafer's files, read its slim entry) run in this
+ * thread, one folder after another. The first misses start the pool, and
+ * every further miss goes to it at once, so hashing overlaps analysis instead
+ * of preceding it. The pool size is os.availableParallelism(), capped at
+ * MAX_WORKERS and at the wafers that can still miss; with one core, or when
+ * fewer than MIN_WAFERS_FOR_WORKERS wafers could miss, the misses are
+ * analysed in this thread (starting a worker costs a few tenths of a second
+ * of module loading). WAFERBOOK_WORKERS=n overrides the size (0 = in this
+ * thread).
  */
 import os from "node:os";
 import { Worker } from "node:worker_threads";
@@ -16,6 +22,8 @@ import { analyseFolder, lookUpFolder, type AnalyseContext, type AnalysedFolder }
 export const MAX_WORKERS = 8;
 /** Below this many wafers, starting workers costs more than it saves. */
 export const MIN_WAFERS_FOR_WORKERS = 6;
+/** Misses seen before the pool starts (one changed wafer is cheaper in this thread). */
+const MISSES_TO_START_POOL = 2;
 
 export function poolSize(wafers: number): number {
   const env = process.env.WAFERBOOK_WORKERS;
@@ -27,57 +35,91 @@ export function poolSize(wafers: number): number {
 
 type Reply = { id: number; ok: true; result: AnalysedFolder } | { id: number; ok: false; error: string };
 
-/** Analyses every folder; onDone(i) is called as each finishes (progress). Internal errors reject. */
+/** A fixed set of analysis workers fed from one queue. */
+class Pool {
+  private readonly workers: Worker[] = [];
+  private readonly idle: Worker[] = [];
+  private readonly queue: { id: number; folder: string; key?: string }[] = [];
+  private readonly waiting = new Map<number, { resolve: (r: AnalysedFolder) => void; reject: (e: Error) => void; folder: string }>();
+  private failure: Error | undefined;
+
+  constructor(size: number, ctx: AnalyseContext) {
+    for (let k = 0; k < size; k++) {
+      const w = new Worker(workerEntry(), { workerData: ctx });
+      this.workers.push(w);
+      this.idle.push(w);
+      w.on("message", (m: Reply) => {
+        const job = this.waiting.get(m.id);
+        this.waiting.delete(m.id);
+        if (m.ok) job?.resolve(m.result);
+        else job?.reject(new Error(`analysis of ${job.folder} failed in a worker:\n${m.error}`));
+        this.idle.push(w);
+        this.pump();
+      });
+      w.on("error", (e) => this.fail(e));
+    }
+  }
+
+  run(id: number, folder: string, key?: string): Promise<AnalysedFolder> {
+    if (this.failure) return Promise.reject(this.failure);
+    return new Promise((resolve, reject) => {
+      this.waiting.set(id, { resolve, reject, folder });
+      this.queue.push({ id, folder, key });
+      this.pump();
+    });
+  }
+
+  private pump(): void {
+    while (this.idle.length > 0 && this.queue.length > 0) this.idle.pop()!.postMessage(this.queue.shift());
+  }
+
+  private fail(e: Error): void {
+    this.failure ??= e;
+    for (const job of this.waiting.values()) job.reject(e);
+    this.waiting.clear();
+  }
+
+  close(): Promise<unknown> {
+    return Promise.all(this.workers.map((w) => w.terminate()));
+  }
+}
+
+/** Analyses every folder; onDone(i) is called as each finishes (progress, page models). Internal errors reject. */
 export async function analyseAll(folders: string[], ctx: AnalyseContext, onDone: (i: number, r: AnalysedFolder) => void = () => {}): Promise<AnalysedFolder[]> {
   const results: AnalysedFolder[] = new Array(folders.length);
-  // Cache look-ups (hash the files, read the entry) are cheap and run here; only misses go to the workers.
   const misses: { i: number; key?: string }[] = [];
-  for (const [i, f] of folders.entries()) {
-    const { key, hit } = await lookUpFolder(f, ctx);
-    if (hit) onDone(i, (results[i] = hit));
-    else misses.push({ i, key });
-  }
-  const size = poolSize(misses.length);
-  if (size === 0) {
-    for (const { i, key } of misses) onDone(i, (results[i] = await analyseFolder(folders[i], ctx, key)));
-    return results;
-  }
-  let next = 0;
-  const workers: Worker[] = [];
-  try {
-    await new Promise<void>((resolve, reject) => {
-      let finished = 0;
-      let failed = false;
-      const feed = (w: Worker) => {
-        if (next < misses.length) {
-          const { i, key } = misses[next++];
-          w.postMessage({ id: i, folder: folders[i], key });
-        }
-      };
-      for (let k = 0; k < size; k++) {
-        const w = new Worker(workerEntry(), { workerData: ctx });
-        workers.push(w);
-        w.on("message", (m: Reply) => {
-          if (failed) return;
-          if (!m.ok) {
-            failed = true;
-            reject(new Error(`analysis of ${folders[m.id]} failed in a worker:\n${m.error}`));
-            return;
-          }
-          results[m.id] = m.result;
-          onDone(m.id, m.result);
-          if (++finished === misses.length) resolve();
-          else feed(w);
-        });
-        w.on("error", (e) => {
-          failed = true;
-          reject(e);
-        });
-        feed(w);
-      }
+  const running: Promise<void>[] = [];
+  let pool: Pool | undefined;
+  const toPool = (p: Pool, m: { i: number; key?: string }) => {
+    const job = p.run(m.i, folders[m.i], m.key).then((r) => {
+      onDone(m.i, (results[m.i] = r));
     });
+    // Handled here so a failure while look-ups go on is not an unhandled rejection; Promise.all below reports it.
+    job.catch(() => {});
+    running.push(job);
+  };
+  try {
+    for (const [i, f] of folders.entries()) {
+      const { key, hit } = await lookUpFolder(f, ctx);
+      if (hit) {
+        onDone(i, (results[i] = hit));
+        continue;
+      }
+      misses.push({ i, key });
+      if (!pool && misses.length >= MISSES_TO_START_POOL) {
+        const size = poolSize(misses.length + folders.length - 1 - i);
+        if (size > 0) {
+          pool = new Pool(size, ctx);
+          for (const m of misses) toPool(pool, m);
+        }
+      } else if (pool) toPool(pool, misses.at(-1)!);
+    }
+    if (!pool) for (const { i, key } of misses) onDone(i, (results[i] = await analyseFolder(folders[i], ctx, key)));
+    await Promise.all(running);
   } finally {
-    await Promise.all(workers.map((w) => w.terminate()));
+    // Settle every job before the workers go, so no rejection is left unhandled.
+    await Promise.allSettled(running);
+    await pool?.close();
   }
   return results;
 }

@@ -4,9 +4,10 @@ import path from "node:path";
 import type { WaferOutcome } from "./pipeline.ts";
 import type { RunNotes } from "../read/site.ts";
 import { allResultsJson, pointsCsv, resultsCsv } from "../publish/exports.ts";
+import { sortOutcomes } from "../publish/siteModel.ts";
 
 export async function writeExports(outcomes: readonly WaferOutcome[], outDir: string, meta: { version: string; builtAt: string; dataCommit?: string | null }, runs: ReadonlyMap<string, RunNotes>): Promise<void> {
-  const sorted = [...outcomes].sort((a, b) => (a.record?.grown ?? "").localeCompare(b.record?.grown ?? "") || a.folder.localeCompare(b.folder));
+  const sorted = sortOutcomes(outcomes);
   await fs.writeFile(path.join(outDir, "results.csv"), resultsCsv(sorted, runs));
   await fs.writeFile(path.join(outDir, "results.json"), JSON.stringify(allResultsJson(sorted, meta, runs), null, 1) + "\n");
   for (const o of outcomes) {

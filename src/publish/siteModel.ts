@@ -24,6 +24,43 @@ export interface SiteExtras {
   history?: DataHistory | null;
   /** Wafer page models built beforehand (by folder), e.g. as each wafer's analysis arrived; the rest are built here. */
   pages?: Map<string, ReturnType<typeof waferPageModel>>;
+  /** Wafers whose page is not rendered (reused from the previous output): left out of `wafers`. */
+  reused?: ReadonlySet<string>;
+  /** waferPageExtras of these outcomes, when already computed. */
+  pageExtras?: ReturnType<typeof waferPageExtras>;
+  /** Each rendered wafer page's content fingerprint (src/cli/pageReuse.ts), written into the page. */
+  fingerprints?: ReadonlyMap<string, string>;
+}
+
+/** Wafers in growth order (then by folder): the order of the index, run pages, neighbours and exports. */
+export function sortOutcomes(outcomes: readonly WaferOutcome[]): WaferOutcome[] {
+  return [...outcomes].sort((a, b) => (a.record?.grown ?? "").localeCompare(b.record?.grown ?? "") || a.folder.localeCompare(b.folder));
+}
+
+/**
+ * What a wafer page shows besides the wafer's own outcome: previous/next wafer
+ * in its run (growth order), the breadcrumb trail and the wafer's history. With
+ * the outcome, the page's code and the base path, this is everything the page
+ * depends on (the page fingerprint hashes exactly these).
+ */
+export function waferPageExtras(sorted: readonly WaferOutcome[], basePath: string, history: DataHistory | null) {
+  const byRun = new Map<string, string[]>();
+  for (const o of sorted) if (o.record?.run) (byRun.get(o.record.run) ?? byRun.set(o.record.run, []).get(o.record.run)!).push(o.folder);
+  const neighbours = new Map<string, { prev?: string; next?: string }>();
+  for (const list of byRun.values()) list.forEach((id, i) => neighbours.set(id, { prev: list[i - 1], next: list[i + 1] }));
+  return new Map(
+    sorted.map((o) => {
+      const run = o.record?.run;
+      return [
+        o.folder,
+        {
+          ...neighbours.get(o.folder),
+          history: waferHistoryModel(history, o.folder, { values: o.values, grade: o.record?.grade, waivers: o.record?.waivers ?? [], hasErrors: o.judgement.verdict === "error" }),
+          crumbs: [{ label: "Wafers", href: basePath }, ...(run ? [{ label: `Run ${run}`, href: `${basePath}runs/${run}/` }] : []), { label: o.folder }],
+        },
+      ];
+    }),
+  );
 }
 
 /** Metrics shown as columns of the index table. */
@@ -45,13 +82,9 @@ export function reactorOf(o: WaferOutcome, runs: ReadonlyMap<string, RunNotes>):
 }
 
 export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNotes>, siteProblems: Problem[], meta: SiteMeta, extras: SiteExtras = {}) {
-  const sorted = [...outcomes].sort((a, b) => (a.record?.grown ?? "").localeCompare(b.record?.grown ?? "") || a.folder.localeCompare(b.folder));
-  const wafers = sorted.map((o) => extras.pages?.get(o.folder) ?? waferPageModel(o));
-  // Previous/next within a run, in growth order.
-  const byRun = new Map<string, typeof wafers>();
-  for (const w of wafers) if (w.run) (byRun.get(w.run) ?? byRun.set(w.run, []).get(w.run)!).push(w);
-  const neighbours = new Map<string, { prev?: string; next?: string }>();
-  for (const list of byRun.values()) list.forEach((w, i) => neighbours.set(w.id, { prev: list[i - 1]?.id, next: list[i + 1]?.id }));
+  const sorted = sortOutcomes(outcomes);
+  const history = extras.history ?? null;
+  const pageExtras = extras.pageExtras ?? waferPageExtras(sorted, meta.basePath, history);
   const index = sorted.map((o) => ({
     id: o.folder,
     run: o.record?.run ?? "",
@@ -67,7 +100,7 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
       return { key: k, text: m ? formatValue(m.value, m.spec) : "—", sort: m?.value ?? null, verdict: m?.verdict ?? "untested" };
     }),
   }));
-  const runIds = [...new Set([...byRun.keys(), ...runs.keys()])].sort();
+  const runIds = [...new Set([...sorted.flatMap((o) => (o.record?.run ? [o.record.run] : [])), ...runs.keys()])].sort();
   const judged = (o: WaferOutcome) => Object.fromEntries(o.judgement.metrics.map((m) => [m.key, m.value]));
   const comparisons = runComparisons(runIds.map((id) => ({ id, started: runs.get(id)?.meta.started, wafers: sorted.filter((o) => o.record?.run === id).map((o) => ({ grown: o.record?.grown ?? "", values: judged(o) })) })));
   const runPages = runIds.map((id) => {
@@ -84,16 +117,11 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
     };
   });
   const failing = index.filter((w) => w.verdict === "fail" || w.verdict === "error" || w.verdict === "incomplete");
-  const history = extras.history ?? null;
-  const historyOf = (o: WaferOutcome) => waferHistoryModel(history, o.folder, { values: o.values, grade: o.record?.grade, waivers: o.record?.waivers ?? [], hasErrors: o.judgement.verdict === "error" });
   return {
     meta,
-    wafers: wafers.map((w, i) => ({
-      ...w,
-      ...neighbours.get(w.id),
-      history: historyOf(sorted[i]),
-      crumbs: [{ label: "Wafers", href: meta.basePath }, ...(w.run ? [{ label: `Run ${w.run}`, href: `${meta.basePath}runs/${w.run}/` }] : []), { label: w.id }],
-    })),
+    wafers: sorted
+      .filter((o) => !extras.reused?.has(o.folder))
+      .map((o) => ({ ...(extras.pages?.get(o.folder) ?? waferPageModel(o)), ...pageExtras.get(o.folder)!, fingerprint: extras.fingerprints?.get(o.folder) ?? "" })),
     trends: trendsModel(index.map((w, i) => ({ id: w.id, grown: w.grown, run: w.run, reactor: w.reactor, values: judged(sorted[i]) })), extras.targets, meta.basePath),
     targets: targetsPageModel(extras.targets),
     changes: changesModel(history, sorted.map((o) => o.folder), meta.basePath),

@@ -1,0 +1,83 @@
+/**
+ * Reusing unchanged wafer pages from the previous output.
+ *
+ * A wafer page is a pure function of: the wafer's outcome (record, provenance
+ * with every file's SHA-256, problems, metric values, judgement), what the
+ * page shows beside it (previous/next wafer, breadcrumbs, history: see
+ * `waferPageExtras`), the base path, and the code that draws it (all of src/,
+ * templates/, .eleventy.js and the package version). The page fingerprint is
+ * the SHA-256 of exactly those inputs; it is written into the page as
+ * `<meta name="waferbook-page" content="…">`. When the previous output holds a
+ * page with the same fingerprint, its files are hard-linked into the new
+ * output instead of analysing, drawing and rendering the page again. Nothing
+ * build-specific (time stamp, repository HEAD) is on a wafer page, so a reused
+ * page is byte-for-byte the page a fresh build would write (tested in
+ * test/cli/incremental.test.ts).
+ *
+ * The analysis itself is not hashed: it is a deterministic function of the
+ * files (hashed in the provenance), the settings (in the record) and the code
+ * (hashed in the code version).
+ */
+import { createHash } from "node:crypto";
+import { promises as fs } from "node:fs";
+import path from "node:path";
+import type { WaferOutcome } from "./pipeline.ts";
+import { hashFiles, sourceFiles } from "./cache.ts";
+import { PACKAGE_ROOT, SRC_DIR } from "./paths.ts";
+
+/** Bumped when the fingerprint's inputs change shape. */
+const PAGE_FORMAT = "waferbook-page-1";
+
+/** Hash of everything that draws a page: sources, templates, Eleventy configuration and package version. */
+export async function pageCodeVersion(packageVersion: string): Promise<string> {
+  const files = [...(await sourceFiles(SRC_DIR)), ...(await sourceFiles(path.join(PACKAGE_ROOT, "templates"), () => true)), path.join(PACKAGE_ROOT, ".eleventy.js")];
+  return hashFiles(`${PAGE_FORMAT}\0${packageVersion}`, PACKAGE_ROOT, files);
+}
+
+/** The page fingerprint (hex SHA-256) of one wafer page. */
+export function pageFingerprint(code: string, basePath: string, outcome: WaferOutcome, extras: unknown): string {
+  const h = createHash("sha256").update(`${code}\0${basePath}\0`);
+  h.update(JSON.stringify({ ...outcome, analysis: undefined }));
+  h.update("\0");
+  h.update(JSON.stringify(extras));
+  return h.digest("hex");
+}
+
+const META = /<meta name="waferbook-page" content="([0-9a-f]{64})">/;
+
+/** The fingerprint written in a previous page (index.html), or undefined when there is none. */
+export async function previousFingerprint(pageFile: string): Promise<string | undefined> {
+  let h: fs.FileHandle | undefined;
+  try {
+    h = await fs.open(pageFile, "r");
+    const buf = Buffer.alloc(4096);
+    const { bytesRead } = await h.read(buf, 0, buf.length, 0);
+    return META.exec(buf.toString("utf8", 0, bytesRead))?.[1];
+  } catch {
+    return undefined;
+  } finally {
+    await h?.close();
+  }
+}
+
+/**
+ * Hard-links a reused page's files (index.html and its pictures) from the
+ * previous output's wafer folder into the new one, leaving out what every
+ * build writes afresh (results.json, points.csv) and the raw-file copies
+ * (placed separately). Falls back to copying where links fail.
+ */
+export async function linkReusedPage(prevDir: string, newDir: string, rel = ""): Promise<void> {
+  for (const e of await fs.readdir(path.join(prevDir, rel), { withFileTypes: true })) {
+    const r = rel ? `${rel}/${e.name}` : e.name;
+    if (!rel && (e.name === "raw" || e.name === "results.json" || e.name === "points.csv")) continue;
+    const from = path.join(prevDir, r);
+    const to = path.join(newDir, r);
+    if (e.isDirectory()) {
+      await fs.mkdir(to, { recursive: true });
+      await linkReusedPage(prevDir, newDir, r);
+    } else if (e.isFile()) {
+      await fs.mkdir(path.dirname(to), { recursive: true });
+      await fs.link(from, to).catch(() => fs.copyFile(from, to));
+    }
+  }
+}

@@ -1,0 +1,113 @@
+/**
+ * Incremental builds: a wafer page reused from the previous output (same page
+ * fingerprint) must be byte-for-byte the page a fresh build writes, and every
+ * other file too. Each scenario builds incrementally into one folder and
+ * fresh (--no-cache, nothing reused) into another, then compares the two
+ * trees file by file, ignoring only the site-wide "Built …" stamp.
+ */
+import { execFile } from "node:child_process";
+import { createHash } from "node:crypto";
+import { promises as fs } from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { promisify } from "node:util";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { build, PACKAGE_ROOT, type BuildIO } from "../../src/cli/build.ts";
+
+const git = promisify(execFile);
+const WAFERS = ["TQ-2401", "TQ-2402", "TQ-2404", "TQ-2405", "TQ-2406", "TQ-2501"];
+const io: BuildIO = { log: () => {}, today: () => "2026-06-01", now: () => "2026-06-01T00:00:00Z" };
+let tmp = "";
+
+beforeAll(async () => {
+  tmp = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-incr-"));
+});
+afterAll(async () => {
+  await fs.rm(tmp, { recursive: true, force: true });
+});
+
+async function demoCopy(name: string): Promise<string> {
+  const data = path.join(tmp, name);
+  const sep = path.sep;
+  await fs.cp(path.join(PACKAGE_ROOT, "data"), data, { recursive: true, filter: (src) => !src.includes(`${sep}wafers${sep}`) || WAFERS.some((w) => src.includes(`${sep}wafers${sep}${w}`)) });
+  return data;
+}
+
+async function tree(dir: string, sub = "", out = new Map<string, string>()): Promise<Map<string, string>> {
+  for (const e of (await fs.readdir(path.join(dir, sub), { withFileTypes: true })).sort((a, b) => (a.name < b.name ? -1 : 1))) {
+    const rel = sub ? `${sub}/${e.name}` : e.name;
+    if (e.isDirectory()) await tree(dir, rel, out);
+    else out.set(rel, createHash("sha256").update((await fs.readFile(path.join(dir, rel), "utf8")).replace(/<p>Built [0-9TZ:-]+ by/g, "<p>Built STAMP by")).digest("hex"));
+  }
+  return out;
+}
+
+async function expectSameSite(incremental: string, fresh: string): Promise<void> {
+  const a = await tree(incremental);
+  const b = await tree(fresh);
+  expect([...a.keys()]).toEqual([...b.keys()]);
+  const differing = [...a].filter(([f, h]) => b.get(f) !== h).map(([f]) => f);
+  expect(differing).toEqual([]);
+}
+
+const at = (data: string, out: string, fresh = false) => ({ data, out, strict: false, basePath: "/", quiet: true, cache: fresh ? null : path.join(tmp, `${path.basename(out)}-cache`) });
+
+async function commitAll(data: string, message: string): Promise<void> {
+  const env = { ...process.env, GIT_AUTHOR_NAME: "Test Grower", GIT_AUTHOR_EMAIL: "grower@example.invalid", GIT_COMMITTER_NAME: "Test Grower", GIT_COMMITTER_EMAIL: "grower@example.invalid", GIT_AUTHOR_DATE: "2026-05-01T10:00:00Z", GIT_COMMITTER_DATE: "2026-05-01T10:00:00Z" };
+  await git("git", ["add", "-A"], { cwd: data, env });
+  await git("git", ["commit", "-q", "-m", message], { cwd: data, env });
+}
+
+describe("incremental builds reuse unchanged wafer pages and match a fresh build", () => {
+  it("unchanged, one wafer changed, targets changed, and a commit touching another wafer", async () => {
+    const data = await demoCopy("data");
+    await git("git", ["init", "-q", "-b", "main"], { cwd: data });
+    await commitAll(data, "Demo data");
+    const out = path.join(tmp, "site");
+    const fresh = path.join(tmp, "fresh");
+
+    const cold = await build(at(data, out), io);
+    expect(cold.stats).toMatchObject({ analysed: WAFERS.length, pagesReused: 0 });
+    const warm = await build(at(data, out), io);
+    expect(warm.stats).toMatchObject({ cacheHits: WAFERS.length, analysed: 0, pagesReused: WAFERS.length });
+    const freshRun = await build(at(data, fresh, true), io);
+    expect(freshRun.stats).toMatchObject({ pagesReused: 0 });
+    await expectSameSite(out, fresh);
+
+    // One wafer's notes change, committed: its page is drawn again; the others are reused, history and all.
+    const md = path.join(data, "wafers", "TQ-2402", "wafer.md");
+    await fs.appendFile(md, "\nRe-measured the van der Pauw square after re-bonding.\n");
+    await commitAll(data, "TQ-2402: note on re-bonding");
+    const one = await build(at(data, out), io);
+    expect(one.stats).toMatchObject({ analysed: 1, pagesReused: WAFERS.length - 1 });
+    await build(at(data, fresh, true), io);
+    await expectSameSite(out, fresh);
+
+    // Targets change: nothing is analysed again; pages whose verdicts or history change are drawn again.
+    const targets = path.join(data, "targets.yaml");
+    const text = await fs.readFile(targets, "utf8");
+    const tightened = text.replace(/min: "1\.0e5 cm\^2\/\(V s\)"/, 'min: "1.5e5 cm^2/(V s)"');
+    expect(tightened).not.toBe(text);
+    await fs.writeFile(targets, tightened);
+    await commitAll(data, "Tighter mobility target");
+    const t = await build(at(data, out), io);
+    expect(t.stats).toMatchObject({ analysed: 0, cacheHits: WAFERS.length });
+    // Pages list the verdicts under each targets.yaml commit, so a new targets commit draws them again
+    // (a wafer with input errors has no verdicts over time, and its page may stay as it was).
+    expect(t.stats!.pagesReused).toBeLessThanOrEqual(1);
+    await build(at(data, fresh, true), io);
+    await expectSameSite(out, fresh);
+  }, 240_000);
+
+  it("a page whose previous copy was edited by hand or has no fingerprint is drawn again", async () => {
+    const data = await demoCopy("data-edit");
+    const out = path.join(tmp, "site-edit");
+    await build(at(data, out), io);
+    const page = path.join(out, "wafers", "TQ-2401", "index.html");
+    const original = await fs.readFile(page, "utf8");
+    await fs.writeFile(page, original.replace(/<meta name="waferbook-page" content="[0-9a-f]+">/, ""));
+    const r = await build(at(data, out), io);
+    expect(r.stats).toMatchObject({ pagesReused: WAFERS.length - 1 });
+    expect(await fs.readFile(page, "utf8")).toBe(original);
+  }, 120_000);
+});
