@@ -8,6 +8,7 @@
 import { promises as fs, constants as fsc } from "node:fs";
 import path from "node:path";
 import { Eleventy } from "@11ty/eleventy";
+import pLimit from "p-limit";
 import { judgeOutcome, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
 import { codeVersion, defaultCacheDir } from "./cache.ts";
 import { analyseAll } from "./workerPool.ts";
@@ -231,38 +232,42 @@ async function placeRawCopy(rawAbs: string, dest: string, prevCopy: string | und
 }
 
 async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string, dataCommit: string | null, pagesById: Map<string, PageModel>, outDir: string, reused: ReadonlySet<string>): Promise<void> {
-  for (const o of outcomes) {
-    const dir = path.join(tmpDir, "wafers", o.folder);
-    await fs.mkdir(dir, { recursive: true });
-    const prevDir = path.join(outDir, "wafers", o.folder);
-    const prevHashes = await previousCopies(prevDir);
-    await fs.writeFile(path.join(dir, "results.json"), JSON.stringify(resultsJson(o, dataCommit), null, 1) + "\n");
-    for (const f of o.provenance.files) {
-      const parts = f.path.split("/");
-      if (parts[0] !== "wafers" || parts[1] !== o.folder) continue;
-      const dest = path.join(dir, "raw", ...parts.slice(2));
-      await fs.mkdir(path.dirname(dest), { recursive: true });
-      const same = prevHashes.get(f.path) === f.sha256;
-      await placeRawCopy(path.join(dataDir, ...parts), dest, same ? path.join(prevDir, "raw", ...parts.slice(2)) : undefined);
-    }
-    if (reused.has(o.folder)) {
-      await linkReusedPage(prevDir, dir);
-      continue;
-    }
-    const page = pagesById.get(o.folder);
-    if (!page) throw new Error(`internal: no page model for wafer ${o.folder}`);
-    for (const section of [page.transportDepth, page.structure, page.images] as { files?: { path: string; bytes: Buffer }[] }[]) {
-      for (const f of section?.files ?? []) {
-        const parts = f.path.split("/");
-        if (parts[0] !== "wafers" || parts[1] !== o.folder || parts.includes("..")) throw new Error(`section file outside its wafer folder: ${f.path}`);
-        await fs.mkdir(path.dirname(path.join(tmpDir, ...parts)), { recursive: true });
-        await fs.writeFile(path.join(tmpDir, ...parts), f.bytes);
-      }
-    }
-  }
+  // Several wafers at a time: this is file copies, links and small writes, mostly waiting on the disk.
+  const limit = pLimit(8);
+  await Promise.all(outcomes.map((o) => limit(() => writeWaferExtras(o, dataDir, tmpDir, dataCommit, pagesById.get(o.folder), outDir, reused.has(o.folder)))));
   const chartJs = path.join(PACKAGE_ROOT, "node_modules", "chart.js", "dist", "chart.umd.min.js");
   await fs.mkdir(path.join(tmpDir, "assets"), { recursive: true });
   await fs.copyFile(chartJs, path.join(tmpDir, "assets", "chart.umd.min.js"));
+}
+
+/** One wafer's results.json, raw-file copies and page pictures (or its reused page's files). */
+async function writeWaferExtras(o: WaferOutcome, dataDir: string, tmpDir: string, dataCommit: string | null, page: PageModel | undefined, outDir: string, reused: boolean): Promise<void> {
+  const dir = path.join(tmpDir, "wafers", o.folder);
+  await fs.mkdir(dir, { recursive: true });
+  const prevDir = path.join(outDir, "wafers", o.folder);
+  const prevHashes = await previousCopies(prevDir);
+  await fs.writeFile(path.join(dir, "results.json"), JSON.stringify(resultsJson(o, dataCommit), null, 1) + "\n");
+  for (const f of o.provenance.files) {
+    const parts = f.path.split("/");
+    if (parts[0] !== "wafers" || parts[1] !== o.folder) continue;
+    const dest = path.join(dir, "raw", ...parts.slice(2));
+    await fs.mkdir(path.dirname(dest), { recursive: true });
+    const same = prevHashes.get(f.path) === f.sha256;
+    await placeRawCopy(path.join(dataDir, ...parts), dest, same ? path.join(prevDir, "raw", ...parts.slice(2)) : undefined);
+  }
+  if (reused) {
+    await linkReusedPage(prevDir, dir);
+    return;
+  }
+  if (!page) throw new Error(`internal: no page model for wafer ${o.folder}`);
+  for (const section of [page.transportDepth, page.structure, page.images] as { files?: { path: string; bytes: Buffer }[] }[]) {
+    for (const f of section?.files ?? []) {
+      const parts = f.path.split("/");
+      if (parts[0] !== "wafers" || parts[1] !== o.folder || parts.includes("..")) throw new Error(`section file outside its wafer folder: ${f.path}`);
+      await fs.mkdir(path.dirname(path.join(tmpDir, ...parts)), { recursive: true });
+      await fs.writeFile(path.join(tmpDir, ...parts), f.bytes);
+    }
+  }
 }
 
 /**

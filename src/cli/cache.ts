@@ -26,6 +26,7 @@ import { createHash } from "node:crypto";
 import { promises as fs } from "node:fs";
 import path from "node:path";
 import v8 from "node:v8";
+import pLimit from "p-limit";
 import { SRC_DIR } from "./paths.ts";
 import type { WaferAnalysis } from "../analyse/wafer.ts";
 import type { RawFileInfo } from "../read/wafer.ts";
@@ -74,20 +75,24 @@ export async function codeVersion(packageVersion: string): Promise<string> {
 }
 
 
-/** The cache key of one wafer folder (hex SHA-256); reads and hashes its files without parsing them. */
+/** The cache key of one wafer folder (hex SHA-256); reads and hashes its files (several at a time) without parsing them. */
 export async function cacheKey(waferDir: string, code: string, siteSettings: unknown): Promise<string> {
+  const files = await listFiles(waferDir).catch(() => [] as string[]);
+  const limit = pLimit(8);
+  const digests = await Promise.all(files.map((rel) => limit(() => fileDigest(path.join(waferDir, rel)))));
   const h = createHash("sha256").update(`${code}\0${JSON.stringify(siteSettings)}\0`);
-  for (const rel of await listFiles(waferDir).catch(() => [] as string[])) {
-    let digest = "unreadable";
-    try {
-      const st = await fs.lstat(path.join(waferDir, rel));
-      digest = st.isFile() ? createHash("sha256").update(await fs.readFile(path.join(waferDir, rel))).digest("hex") : `special:${st.mode}`;
-    } catch {
-      // A file that vanished or cannot be read: the loader will report it.
-    }
-    h.update(`${rel}\0${digest}\0`);
-  }
+  files.forEach((rel, i) => h.update(`${rel}\0${digests[i]}\0`));
   return h.digest("hex");
+}
+
+async function fileDigest(abs: string): Promise<string> {
+  try {
+    const st = await fs.lstat(abs);
+    return st.isFile() ? createHash("sha256").update(await fs.readFile(abs)).digest("hex") : `special:${st.mode}`;
+  } catch {
+    // A file that vanished or cannot be read: the loader will report it.
+    return "unreadable";
+  }
 }
 
 function entryPath(cacheDir: string, key: string, form: EntryForm = "full"): string {

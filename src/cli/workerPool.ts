@@ -5,7 +5,7 @@
  * is the same as a sequential build.
  *
  * Cache look-ups (hash the wafer's files, read its slim entry) run in this
- * thread, one folder after another. The first misses start the pool, and
+ * thread, a few folders at a time. The first misses start the pool, and
  * every further miss goes to it at once, so hashing overlaps analysis instead
  * of preceding it. The pool size is os.availableParallelism(), capped at
  * MAX_WORKERS and at the wafers that can still miss; with one core, or when
@@ -16,6 +16,7 @@
  */
 import os from "node:os";
 import { Worker } from "node:worker_threads";
+import pLimit from "p-limit";
 import { workerEntry } from "./paths.ts";
 import { analyseFolder, lookUpFolder, type AnalyseContext, type AnalysedFolder } from "./analyseFolder.ts";
 
@@ -99,21 +100,30 @@ export async function analyseAll(folders: string[], ctx: AnalyseContext, onDone:
     running.push(job);
   };
   try {
-    for (const [i, f] of folders.entries()) {
-      const { key, hit } = await lookUpFolder(f, ctx);
-      if (hit) {
-        onDone(i, (results[i] = hit));
-        continue;
-      }
-      misses.push({ i, key });
-      if (!pool && misses.length >= MISSES_TO_START_POOL) {
-        const size = poolSize(misses.length + folders.length - 1 - i);
-        if (size > 0) {
-          pool = new Pool(size, ctx);
-          for (const m of misses) toPool(pool, m);
-        }
-      } else if (pool) toPool(pool, misses.at(-1)!);
-    }
+    // A few look-ups at a time: each is file reads and hashing, mostly waiting on the disk.
+    const limit = pLimit(4);
+    let looked = 0;
+    await Promise.all(
+      folders.map((f, i) =>
+        limit(async () => {
+          const { key, hit } = await lookUpFolder(f, ctx);
+          looked++;
+          if (hit) {
+            onDone(i, (results[i] = hit));
+            return;
+          }
+          misses.push({ i, key });
+          if (!pool && misses.length >= MISSES_TO_START_POOL) {
+            const size = poolSize(misses.length + folders.length - looked);
+            if (size > 0) {
+              pool = new Pool(size, ctx);
+              for (const m of misses) toPool(pool, m);
+            }
+          } else if (pool) toPool(pool, misses.at(-1)!);
+        }),
+      ),
+    );
+    misses.sort((a, b) => a.i - b.i);
     if (!pool) for (const { i, key } of misses) onDone(i, (results[i] = await analyseFolder(folders[i], ctx, key)));
     await Promise.all(running);
   } finally {
