@@ -7,7 +7,6 @@
  */
 import { promises as fs, constants as fsc } from "node:fs";
 import path from "node:path";
-import { Eleventy } from "@11ty/eleventy";
 import pLimit from "p-limit";
 import { judgeOutcome, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
 import { codeVersion, defaultCacheDir } from "./cache.ts";
@@ -16,7 +15,9 @@ import { loadSiteInputs } from "../read/site.ts";
 import { buildSiteModel, sortOutcomes, waferPageExtras, type SiteMeta } from "../publish/siteModel.ts";
 import { linkReusedPage, pageCodeVersion, pageFingerprint, previousFingerprint } from "./pageReuse.ts";
 import { loadInFull, type AnalysedFolder } from "./analyseFolder.ts";
-import { resultsJson, waferPageModel } from "../publish/waferPage.ts";
+import { renderTemplates, WaferPages } from "./waferPages.ts";
+import { slimAnalysis } from "./cache.ts";
+import { resultsJson } from "../publish/waferPage.ts";
 import { writeSearch } from "../publish/searchIndex.ts";
 import type { Problem } from "../validate/problem.ts";
 import type { BuildOptions } from "./args.ts";
@@ -103,26 +104,26 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     // Unchanged wafer pages are reused from the previous output (src/cli/pageReuse.ts); --no-cache builds every page afresh.
     const reusePages = cacheDir !== null;
     let done = 0;
-    // Each wafer is judged as soon as its analysis arrives. A wafer analysed
-    // now (full form) gets its page model at once, and the arrays drawn into
-    // its pictures are then dropped; a cache hit arrives slim and is loaded in
-    // full later only if its page must be drawn again. The build holds every
-    // wafer's slim analysis and the page models of pages being drawn, never
-    // every wafer's map points and traces at once.
+    // Each wafer is judged as soon as its analysis arrives, from its slim form
+    // (figures only: see cache.ts slimAnalysis), which is all the site-wide
+    // pages, results.json and the exports read. A wafer analysed now (full
+    // form) has its page drawn at once (waferPages.ts); a cache hit arrives
+    // slim and is loaded in full later only if its page must be drawn again.
+    // So the build never holds more than a few wafers' traces and map points.
     const outcomes: WaferOutcome[] = new Array(site.waferFolders.length);
     const found: AnalysedFolder[] = new Array(site.waferFolders.length);
-    const pageModels = new Map<string, PageModel>();
+    const scratchDir = `${tmpDir}-pages`;
+    const pages = new WaferPages(tmpDir, scratchDir);
     let failure: unknown;
-    const drawPage = (r: AnalysedFolder) => {
-      const o = judgeOutcome(r.entry, r.entry.analysis, ctx);
-      pageModels.set(o.folder, waferPageModel(o));
-      releasePictureData([o]);
-    };
     const analysed = await analyseAll(site.waferFolders, analyseCtx, (i, r) => {
       try {
-        outcomes[i] = judgeOutcome(r.entry, r.entry.analysis, ctx);
         found[i] = r;
-        if (r.form === "full") drawPage(r);
+        if (r.form === "full") {
+          pages.draw(judgeOutcome(r.entry, r.entry.analysis, ctx));
+          r.entry = { ...r.entry, analysis: r.entry.analysis && slimAnalysis(r.entry.analysis) };
+          r.form = "slim";
+        }
+        outcomes[i] = judgeOutcome(r.entry, r.entry.analysis, ctx);
       } catch (err) {
         // Thrown again below: this callback may run inside a worker's message handler.
         failure ??= err;
@@ -137,68 +138,39 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     }
     const history = await loadDataHistory(dataDir);
     const meta: SiteMeta = { title: "waferbook", version, builtAt: io.now(), basePath: options.basePath, dataCommit: history?.head ?? null };
-    const pageExtras = waferPageExtras(sortOutcomes(outcomes), meta.basePath, history);
+    const sorted = sortOutcomes(outcomes);
+    const pageExtras = waferPageExtras(sorted, meta.basePath, history);
     const pageCode = await pageCodeVersion(version);
     const fingerprints = new Map<string, string>();
     const reused = new Set<string>();
     for (const [i, o] of outcomes.entries()) {
       const fp = pageFingerprint(pageCode, meta.basePath, o, pageExtras.get(o.folder));
       fingerprints.set(o.folder, fp);
-      if (reusePages && (await previousFingerprint(path.join(outDir, "wafers", o.folder, "index.html"))) === fp) {
-        reused.add(o.folder);
-        pageModels.delete(o.folder);
-      } else if (!pageModels.has(o.folder)) drawPage(await loadInFull(found[i], analyseCtx));
+      if (pages.has(o.folder)) continue;
+      if (reusePages && (await previousFingerprint(path.join(outDir, "wafers", o.folder, "index.html"))) === fp) reused.add(o.folder);
+      else {
+        const full = await loadInFull(found[i], analyseCtx);
+        pages.draw(judgeOutcome(full.entry, full.entry.analysis, ctx));
+      }
     }
     const stats = { cacheHits: analysed.filter((a) => a.cacheHit).length, analysed: analysed.filter((a) => !a.cacheHit).length, pagesReused: reused.size, phases };
-    const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history, pages: pageModels, pageExtras, reused, fingerprints });
-    pageModels.clear();
+    const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history });
     lap("model");
-    const pages = await render(model, tmpDir);
+    let written = await renderTemplates(path.join(PACKAGE_ROOT, "templates"), tmpDir, model);
+    written += await pages.render(sorted.map((o) => o.folder), meta, pageExtras, fingerprints);
     lap("render");
-    await writeExtras(outcomes, dataDir, tmpDir, meta.dataCommit ?? null, new Map(model.wafers.map((w) => [w.id, w])), outDir, reused);
+    await writeExtras(outcomes, dataDir, tmpDir, meta.dataCommit ?? null, outDir, reused);
     await writeExports(outcomes, tmpDir, meta, site.runs);
     await writeSearch(outcomes, site.runs, tmpDir, PACKAGE_ROOT);
     await swapInto(tmpDir, outDir);
     lap("write");
-    return { ok: true, outcomes, problems, outDir, pages, stats };
+    return { ok: true, outcomes, problems, outDir, pages: written, stats };
   } finally {
     await fs.rm(tmpDir, { recursive: true, force: true });
+    await fs.rm(`${tmpDir}-pages`, { recursive: true, force: true });
     await release();
   }
 }
-
-const NO_TRACE = { b: new Float64Array(0), rhoxx: new Float64Array(0), rxy: new Float64Array(0) };
-
-/**
- * Once a wafer's page model exists, the arrays drawn into its pictures and
- * charts (XRD map points, the charted full-resolution traces) are read by
- * nothing else (results.json, exports and search use the fitted figures), so
- * they are dropped.
- */
-function releasePictureData(outcomes: WaferOutcome[]): void {
-  for (const o of outcomes) {
-    for (const f of o.analysis?.structure?.xrd?.files ?? []) f.points = undefined;
-    for (const d of o.analysis?.devices ?? []) for (const p of d.points) p.trace = NO_TRACE;
-  }
-}
-
-async function render(model: ReturnType<typeof buildSiteModel>, tmpDir: string): Promise<number> {
-  const input = path.join(PACKAGE_ROOT, "templates");
-  const elev = new Eleventy(input, tmpDir, {
-    source: "cli",
-    quietMode: true,
-    configPath: path.join(PACKAGE_ROOT, ".eleventy.js"),
-    config(c: any) {
-      c.addGlobalData("wb", model);
-    },
-  });
-  elev.disableLogger();
-  const result = (await elev.write()) as unknown;
-  const written = Array.isArray(result) ? (result as unknown[]).flat(2).length : 0;
-  return written;
-}
-
-type PageModel = ReturnType<typeof waferPageModel>;
 
 /**
  * SHA-256 of each raw-file copy in the previous output's wafer folder, from its
@@ -231,17 +203,17 @@ async function placeRawCopy(rawAbs: string, dest: string, prevCopy: string | und
   await fs.copyFile(rawAbs, dest);
 }
 
-async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string, dataCommit: string | null, pagesById: Map<string, PageModel>, outDir: string, reused: ReadonlySet<string>): Promise<void> {
+async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string, dataCommit: string | null, outDir: string, reused: ReadonlySet<string>): Promise<void> {
   // Several wafers at a time: this is file copies, links and small writes, mostly waiting on the disk.
   const limit = pLimit(8);
-  await Promise.all(outcomes.map((o) => limit(() => writeWaferExtras(o, dataDir, tmpDir, dataCommit, pagesById.get(o.folder), outDir, reused.has(o.folder)))));
+  await Promise.all(outcomes.map((o) => limit(() => writeWaferExtras(o, dataDir, tmpDir, dataCommit, outDir, reused.has(o.folder)))));
   const chartJs = path.join(PACKAGE_ROOT, "node_modules", "chart.js", "dist", "chart.umd.min.js");
   await fs.mkdir(path.join(tmpDir, "assets"), { recursive: true });
   await fs.copyFile(chartJs, path.join(tmpDir, "assets", "chart.umd.min.js"));
 }
 
-/** One wafer's results.json, raw-file copies and page pictures (or its reused page's files). */
-async function writeWaferExtras(o: WaferOutcome, dataDir: string, tmpDir: string, dataCommit: string | null, page: PageModel | undefined, outDir: string, reused: boolean): Promise<void> {
+/** One wafer's results.json and raw-file copies, and its reused page's files (a drawn page's pictures are written as it is drawn). */
+async function writeWaferExtras(o: WaferOutcome, dataDir: string, tmpDir: string, dataCommit: string | null, outDir: string, reused: boolean): Promise<void> {
   const dir = path.join(tmpDir, "wafers", o.folder);
   await fs.mkdir(dir, { recursive: true });
   const prevDir = path.join(outDir, "wafers", o.folder);
@@ -255,19 +227,7 @@ async function writeWaferExtras(o: WaferOutcome, dataDir: string, tmpDir: string
     const same = prevHashes.get(f.path) === f.sha256;
     await placeRawCopy(path.join(dataDir, ...parts), dest, same ? path.join(prevDir, "raw", ...parts.slice(2)) : undefined);
   }
-  if (reused) {
-    await linkReusedPage(prevDir, dir);
-    return;
-  }
-  if (!page) throw new Error(`internal: no page model for wafer ${o.folder}`);
-  for (const section of [page.transportDepth, page.structure, page.images] as { files?: { path: string; bytes: Buffer }[] }[]) {
-    for (const f of section?.files ?? []) {
-      const parts = f.path.split("/");
-      if (parts[0] !== "wafers" || parts[1] !== o.folder || parts.includes("..")) throw new Error(`section file outside its wafer folder: ${f.path}`);
-      await fs.mkdir(path.dirname(path.join(tmpDir, ...parts)), { recursive: true });
-      await fs.writeFile(path.join(tmpDir, ...parts), f.bytes);
-    }
-  }
+  if (reused) await linkReusedPage(prevDir, dir);
 }
 
 /**
@@ -278,7 +238,7 @@ async function writeWaferExtras(o: WaferOutcome, dataDir: string, tmpDir: string
 async function recoverInterrupted(outDir: string): Promise<void> {
   const parent = path.dirname(outDir);
   const prefix = `.${path.basename(outDir)}-building-`;
-  const left = (await fs.readdir(parent)).filter((n) => n.startsWith(prefix) && /^\d+(-old)?$/.test(n.slice(prefix.length)));
+  const left = (await fs.readdir(parent)).filter((n) => n.startsWith(prefix) && /^\d+(-old|-pages)?$/.test(n.slice(prefix.length)));
   const hasOut = await fs.stat(outDir).then(() => true, () => false);
   const old = left.find((n) => n.endsWith("-old"));
   if (!hasOut && old) await fs.rename(path.join(parent, old), outDir);

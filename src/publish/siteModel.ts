@@ -1,6 +1,8 @@
 /**
- * The whole site as plain data for the templates: index rows, wafer pages,
- * run pages. Built once per build from the wafer outcomes.
+ * The site-wide pages as plain data for the templates: index rows, run pages,
+ * trends, targets, changes; and what each wafer page shows beside its wafer
+ * (waferPageExtras). Built once per build from the wafer outcomes (slim:
+ * figures only, no bulk arrays).
  */
 import type { WaferOutcome } from "../cli/pipeline.ts";
 import type { RunNotes } from "../read/site.ts";
@@ -8,7 +10,6 @@ import { formatProblem, type Problem } from "../validate/problem.ts";
 import { METRIC_BY_KEY } from "../analyse/metrics.ts";
 import { formatValue } from "./format.ts";
 import { renderNotes } from "./markdown.ts";
-import { waferPageModel } from "./waferPage.ts";
 import type { Verdict } from "../judge/verdict.ts";
 import { VERDICT_RANK } from "../judge/verdict.ts";
 import type { Targets } from "../validate/targets.ts";
@@ -22,14 +23,6 @@ import { runComparisons } from "./runSummary.ts";
 export interface SiteExtras {
   targets?: Targets;
   history?: DataHistory | null;
-  /** Wafer page models built beforehand (by folder), e.g. as each wafer's analysis arrived; the rest are built here. */
-  pages?: Map<string, ReturnType<typeof waferPageModel>>;
-  /** Wafers whose page is not rendered (reused from the previous output): left out of `wafers`. */
-  reused?: ReadonlySet<string>;
-  /** waferPageExtras of these outcomes, when already computed. */
-  pageExtras?: ReturnType<typeof waferPageExtras>;
-  /** Each rendered wafer page's content fingerprint (src/cli/pageReuse.ts), written into the page. */
-  fingerprints?: ReadonlyMap<string, string>;
 }
 
 /** Wafers in growth order (then by folder): the order of the index, run pages, neighbours and exports. */
@@ -84,7 +77,6 @@ export function reactorOf(o: WaferOutcome, runs: ReadonlyMap<string, RunNotes>):
 export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNotes>, siteProblems: Problem[], meta: SiteMeta, extras: SiteExtras = {}) {
   const sorted = sortOutcomes(outcomes);
   const history = extras.history ?? null;
-  const pageExtras = extras.pageExtras ?? waferPageExtras(sorted, meta.basePath, history);
   const index = sorted.map((o) => ({
     id: o.folder,
     run: o.record?.run ?? "",
@@ -119,9 +111,8 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
   const failing = index.filter((w) => w.verdict === "fail" || w.verdict === "error" || w.verdict === "incomplete");
   return {
     meta,
-    wafers: sorted
-      .filter((o) => !extras.reused?.has(o.folder))
-      .map((o) => ({ ...(extras.pages?.get(o.folder) ?? waferPageModel(o)), ...pageExtras.get(o.folder)!, fingerprint: extras.fingerprints?.get(o.folder) ?? "" })),
+    /** Wafer pages are rendered apart, a batch at a time (src/cli/waferPages.ts): none here. */
+    wafers: [] as never[],
     trends: trendsModel(index.map((w, i) => ({ id: w.id, grown: w.grown, run: w.run, reactor: w.reactor, values: judged(sorted[i]) })), extras.targets, meta.basePath),
     targets: targetsPageModel(extras.targets),
     changes: changesModel(history, sorted.map((o) => o.folder), meta.basePath),
