@@ -8,7 +8,8 @@
  * ms per wafer and MB/s of raw sweep data. A final pass runs under the V8
  * sampling profiler (node:inspector) and prints the top-10 functions by self
  * time. A digest of the analysis results (every number, 12 significant digits)
- * is printed so a change can be checked for identical output.
+ * is printed (and with --dump written to FILE) so a change can be checked
+ * for identical output.
  */
 import { createHash } from "node:crypto";
 import { promises as fs } from "node:fs";
@@ -23,14 +24,15 @@ import { DEFAULT_SIZE, generateBenchData } from "./generate.ts";
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 
 function parse(argv: string[]) {
-  const o = { wafers: 10, repeats: 5, dir: "/tmp/wb-analysis-bench", profile: true };
+  const o = { wafers: 10, repeats: 5, dir: "/tmp/wb-analysis-bench", profile: true, dump: "" };
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i];
     if (a === "--wafers") o.wafers = Number(argv[++i]);
     else if (a === "--repeats") o.repeats = Number(argv[++i]);
     else if (a === "--dir") o.dir = argv[++i];
     else if (a === "--no-profile") o.profile = false;
-    else throw new Error(`unknown option ${a}; options: --wafers N --repeats N --dir DIR --no-profile`);
+    else if (a === "--dump") o.dump = argv[++i];
+    else throw new Error(`unknown option ${a}; options: --wafers N --repeats N --dir DIR --no-profile --dump FILE`);
   }
   return o;
 }
@@ -51,13 +53,13 @@ function analyseAll(loaded: LoadedWafer[]) {
   });
 }
 
-function digest(value: unknown): string {
-  const json = JSON.stringify(value, (_k, v) => {
+/** Every number at 12 significant digits, typed arrays as lists, indented (so two dumps can be diffed). */
+function canonicalJson(value: unknown): string {
+  return JSON.stringify(value, (_k, v) => {
     if (ArrayBuffer.isView(v)) return Array.from(v as Float64Array, (x) => Number(x.toPrecision(12)));
     if (typeof v === "number") return Number.isFinite(v) ? Number(v.toPrecision(12)) : String(v);
     return v;
-  });
-  return createHash("sha256").update(json).digest("hex").slice(0, 16);
+  }, 1);
 }
 
 interface ProfileNode { id: number; callFrame: { functionName: string; url: string; lineNumber: number; columnNumber: number }; children?: number[] }
@@ -106,7 +108,9 @@ async function main() {
   times.sort((a, b) => a - b);
   const med = times[Math.floor(times.length / 2)];
   console.log(`analyse: median ${(med / ok.length).toFixed(1)} ms/wafer over ${o.repeats} repeats (min ${(times[0] / ok.length).toFixed(1)}, max ${(times.at(-1)! / ok.length).toFixed(1)}), ${(mb / (med / 1000)).toFixed(1)} MB/s of sweep data`);
-  console.log(`results digest ${digest(result)}`);
+  const json = canonicalJson(result);
+  console.log(`results digest ${createHash("sha256").update(json).digest("hex").slice(0, 16)}`);
+  if (o.dump) await fs.writeFile(o.dump, json);
 
   if (o.profile) {
     const session = new Session();
