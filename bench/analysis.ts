@@ -69,6 +69,8 @@ function topSelfTime(profile: { nodes: ProfileNode[]; samples: number[]; timeDel
   const self = new Map<string, number>();
   profile.samples.forEach((id, i) => {
     const f = byId.get(id)!.callFrame;
+    // The profiler's own stop call and idle time are not analysis.
+    if ((f.functionName === "dispatch" && !f.url) || f.functionName === "(idle)") return;
     const where = f.url ? `${f.url.replace(/^.*\//, "")}:${f.lineNumber + 1}:${f.columnNumber + 1}` : "(native)";
     const key = `${f.functionName || "(anonymous)"} ${where}`.trim();
     self.set(key, (self.get(key) ?? 0) + (profile.timeDeltas[i] ?? 0) / 1000);
