@@ -246,6 +246,23 @@ function gaussianFit(win: number[], ctx: RefineCtx, c: { mu: number; mv: number;
     const e = gaussianFactors(u0, v0, su, sv);
     return (k: number) => a * e[k] + b;
   };
+  // Analytic partial derivatives in (A, u0, v0, σu, σv, B), from the same Gaussian factors.
+  const jacobian = ([a, u0, v0, su, sv]: number[]) => {
+    const e = gaussianFactors(u0, v0, su, sv);
+    const g = new Float64Array(6);
+    g[5] = 1;
+    return (k: number) => {
+      const du = wu[k] - u0;
+      const dv = wv[k] - v0;
+      const ae = a * e[k];
+      g[0] = e[k];
+      g[1] = (ae * du) / (su * su);
+      g[2] = (ae * dv) / (sv * sv);
+      g[3] = (ae * du * du) / (su * su * su);
+      g[4] = (ae * dv * dv) / (sv * sv * sv);
+      return g;
+    };
+  };
   const sdu = Math.max(c.sdu, 0.5);
   const sdv = Math.max(c.sdv, 0.5);
   try {
@@ -254,6 +271,7 @@ function gaussianFit(win: number[], ctx: RefineCtx, c: { mu: number; mv: number;
       scale: [Math.max(height, 1), 1, 1, sdu, sdv, Math.max(ctx.background, 1)],
       min: [0, c.mu - 3 * sdu - 1, c.mv - 3 * sdv - 1, 0.1, 0.1, -Infinity],
       max: [Infinity, c.mu + 3 * sdu + 1, c.mv + 3 * sdv + 1, 50, 50, Infinity],
+      jacobian,
     });
     const [, u0, v0] = fit.params;
     const [, eu, ev] = fit.stdErr;
