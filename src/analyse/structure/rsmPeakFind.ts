@@ -67,33 +67,65 @@ function spacing(values: number[]): number {
   return range / Math.sqrt(values.length) || 1;
 }
 
-/** Spatial hash over normalised coordinates for neighbour queries. */
-function neighbourIndex(u: number[], v: number[], cell: number) {
-  // Cells keyed by column, then row (numbers, not strings: this runs for every map point).
-  const grid = new Map<number, Map<number, number[]>>();
-  const EMPTY: number[] = [];
-  const cellAt = (a: number, b: number): number[] => grid.get(a)?.get(b) ?? EMPTY;
-  u.forEach((_, i) => {
-    const a = Math.floor(u[i] / cell);
-    const b = Math.floor(v[i] / cell);
-    let col = grid.get(a);
-    if (!col) grid.set(a, (col = new Map()));
-    const list = col.get(b);
-    if (list) list.push(i);
-    else col.set(b, [i]);
-  });
-  return (i: number, r: number): number[] => {
+type NeighbourQuery = (i: number, r: number, ordered?: boolean) => number[];
+
+/**
+ * Neighbour queries over normalised coordinates: every point j with
+ * (u_j − u_i)² + (v_j − v_i)² ≤ r². A flat grid of cells about one spacing wide
+ * (cell lists in one Int32Array) keeps each query to the cells the circle
+ * touches. With `ordered` (default true) the list comes in a fixed order: by
+ * cell of a `cell`-wide grid (column, then row), then by index, so that sums
+ * over it (smoothing, centroids, the fit) do not depend on the fine grid.
+ */
+function neighbourIndex(u: number[], v: number[], cell: number): NeighbourQuery {
+  const n = u.length;
+  let uMin = Infinity, uMax = -Infinity, vMin = Infinity, vMax = -Infinity;
+  for (let i = 0; i < n; i++) {
+    uMin = Math.min(uMin, u[i]); uMax = Math.max(uMax, u[i]);
+    vMin = Math.min(vMin, v[i]); vMax = Math.max(vMax, v[i]);
+  }
+  // Fine cells of width f (≥ 1 spacing), widened until the grid has at most ~4 cells per point.
+  let f = 1;
+  while (((uMax - uMin) / f + 1) * ((vMax - vMin) / f + 1) > 4 * n + 1024) f *= 2;
+  const cols = n ? Math.floor((uMax - uMin) / f) + 1 : 0;
+  const rows = n ? Math.floor((vMax - vMin) / f) + 1 : 0;
+  const cellOf = new Int32Array(n);
+  const start = new Int32Array(cols * rows + 1);
+  for (let i = 0; i < n; i++) {
+    cellOf[i] = Math.floor((u[i] - uMin) / f) * rows + Math.floor((v[i] - vMin) / f);
+    start[cellOf[i] + 1]++;
+  }
+  for (let c = 0; c < cols * rows; c++) start[c + 1] += start[c];
+  const items = new Int32Array(n);
+  const fill = start.slice(0, cols * rows);
+  for (let i = 0; i < n; i++) items[fill[cellOf[i]]++] = i;
+  // Rank of each point in the fixed output order.
+  const ca = u.map((x) => Math.floor(x / cell));
+  const cb = v.map((x) => Math.floor(x / cell));
+  const byOrder = Array.from({ length: n }, (_, i) => i).sort((i, j) => ca[i] - ca[j] || cb[i] - cb[j] || i - j);
+  const rank = new Int32Array(n);
+  byOrder.forEach((i, k) => (rank[i] = k));
+  return (i, r, ordered = true) => {
     const out: number[] = [];
-    const cu = Math.floor(u[i] / cell);
-    const cv = Math.floor(v[i] / cell);
-    const reach = Math.ceil(r / cell);
-    for (let a = cu - reach; a <= cu + reach; a++) {
-      for (let b = cv - reach; b <= cv + reach; b++) {
-        const list = cellAt(a, b);
-        for (let k = 0; k < list.length; k++) {
-          const j = list[k];
-          if ((u[j] - u[i]) ** 2 + (v[j] - v[i]) ** 2 <= r * r) out.push(j);
-        }
+    const reach = Math.ceil(r / f);
+    const cu = Math.floor((u[i] - uMin) / f);
+    const cv = Math.floor((v[i] - vMin) / f);
+    const ui = u[i], vi = v[i];
+    for (let a = Math.max(0, cu - reach); a <= Math.min(cols - 1, cu + reach); a++) {
+      const base = a * rows;
+      const end = start[base + Math.min(rows - 1, cv + reach) + 1];
+      for (let k = start[base + Math.max(0, cv - reach)]; k < end; k++) {
+        const j = items[k];
+        if ((u[j] - ui) ** 2 + (v[j] - vi) ** 2 <= r * r) out.push(j);
+      }
+    }
+    if (ordered) {
+      // Insertion sort by rank: lists are short and nearly in order.
+      for (let x = 1; x < out.length; x++) {
+        const j = out[x];
+        let y = x - 1;
+        while (y >= 0 && rank[out[y]] > rank[j]) { out[y + 1] = out[y]; y--; }
+        out[y + 1] = j;
       }
     }
     return out;
@@ -118,13 +150,15 @@ export function searchMapPeaks(points: readonly MapPoint[], options: PeakSearchO
   const near = neighbourIndex(u, v, radius);
   const smooth = counts.map((_, i) => {
     const nb = near(i, 1.5);
-    return nb.reduce((s, j) => s + counts[j], 0) / nb.length;
+    let sum = 0;
+    for (const j of nb) sum += counts[j];
+    return sum / nb.length;
   });
   const level = background + (options.threshold ?? 6) * noise;
   const maxima: number[] = [];
   smooth.forEach((s, i) => {
     if (s <= level) return;
-    const isMax = near(i, radius).every((j) => j === i || smooth[j] < s || (smooth[j] === s && j > i));
+    const isMax = near(i, radius, false).every((j) => j === i || smooth[j] < s || (smooth[j] === s && j > i));
     if (isMax) maxima.push(i);
   });
   maxima.sort((a, b) => smooth[b] - smooth[a]);
@@ -138,7 +172,7 @@ interface RefineCtx {
   v: number[];
   counts: number[];
   background: number;
-  near: (i: number, r: number) => number[];
+  near: NeighbourQuery;
   sp: number;
   st: number;
   refine: "gaussian" | "centroid";
@@ -212,6 +246,23 @@ function gaussianFit(win: number[], ctx: RefineCtx, c: { mu: number; mv: number;
     const e = gaussianFactors(u0, v0, su, sv);
     return (k: number) => a * e[k] + b;
   };
+  // Analytic partial derivatives in (A, u0, v0, σu, σv, B), from the same Gaussian factors.
+  const jacobian = ([a, u0, v0, su, sv]: number[]) => {
+    const e = gaussianFactors(u0, v0, su, sv);
+    const g = new Float64Array(6);
+    g[5] = 1;
+    return (k: number) => {
+      const du = wu[k] - u0;
+      const dv = wv[k] - v0;
+      const ae = a * e[k];
+      g[0] = e[k];
+      g[1] = (ae * du) / (su * su);
+      g[2] = (ae * dv) / (sv * sv);
+      g[3] = (ae * du * du) / (su * su * su);
+      g[4] = (ae * dv * dv) / (sv * sv * sv);
+      return g;
+    };
+  };
   const sdu = Math.max(c.sdu, 0.5);
   const sdv = Math.max(c.sdv, 0.5);
   try {
@@ -220,6 +271,7 @@ function gaussianFit(win: number[], ctx: RefineCtx, c: { mu: number; mv: number;
       scale: [Math.max(height, 1), 1, 1, sdu, sdv, Math.max(ctx.background, 1)],
       min: [0, c.mu - 3 * sdu - 1, c.mv - 3 * sdv - 1, 0.1, 0.1, -Infinity],
       max: [Infinity, c.mu + 3 * sdu + 1, c.mv + 3 * sdv + 1, 50, 50, Infinity],
+      jacobian,
     });
     const [, u0, v0] = fit.params;
     const [, eu, ev] = fit.stdErr;

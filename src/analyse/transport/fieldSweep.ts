@@ -10,7 +10,7 @@ import type { Sweep } from "../../validate/sweep.ts";
 import type { AnalysisSettings } from "../../validate/settings.ts";
 import { hallMobility, hallSlope, sheetDensity, type HallFit } from "./hallSlope.ts";
 import { hallBarSheetResistance, zeroFieldValue } from "./sheetResistance.ts";
-import { symmetriseField } from "./symmetrise.ts";
+import { fieldBranches, symmetriseBranches } from "./symmetrise.ts";
 import { vanDerPauwSheetResistance } from "./vanDerPauw.ts";
 
 export interface DeviceGeometry {
@@ -39,21 +39,22 @@ export type FieldSweepResult = { ok: true; point: TransportPoint } | { ok: false
 
 export function analyseFieldSweep(sweep: Sweep, device: DeviceGeometry, settings: AnalysisSettings): FieldSweepResult {
   const fail = (reason: string): FieldSweepResult => ({ ok: false, file: sweep.file, reason });
-  const xy = symmetriseField(sweep.x, sweep.rxy, "odd");
+  const branches = fieldBranches(sweep.x);
+  const xy = symmetriseBranches(branches, sweep.rxy, "odd");
   const hall = hallSlope(xy.b, xy.y, settings.hall_max_field, settings.hall_min_r2);
   if (!hall.ok) return fail(hall.reason);
   const density = sheetDensity(hall.fit.slope);
   let rhoxx: Float64Array;
   let sheetResistance: number;
   if (device.geometry === "hall-bar") {
-    const xx = symmetriseField(sweep.x, sweep.rxx!, "even");
+    const xx = symmetriseBranches(branches, sweep.rxx!, "even");
     const scale = device.width_um! / device.length_um!;
     rhoxx = xx.y.map((v) => v * scale);
     sheetResistance = hallBarSheetResistance(zeroFieldValue(xx.b, xx.y), device.width_um!, device.length_um!);
     if (!sameGrid(xx.b, xy.b)) return fail("Rxx and Rxy traces do not share a field grid");
   } else {
-    const a = symmetriseField(sweep.x, sweep.ra!, "even");
-    const b = symmetriseField(sweep.x, sweep.rb!, "even");
+    const a = symmetriseBranches(branches, sweep.ra!, "even");
+    const b = symmetriseBranches(branches, sweep.rb!, "even");
     const ra0 = zeroFieldValue(a.b, a.y);
     const rb0 = zeroFieldValue(b.b, b.y);
     if (!(ra0 > 0 && rb0 > 0)) return fail(`van der Pauw resistances at zero field must be positive (found R_A = ${ra0.toPrecision(4)} Ω, R_B = ${rb0.toPrecision(4)} Ω): check the contact configuration`);

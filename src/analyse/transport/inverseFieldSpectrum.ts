@@ -9,6 +9,7 @@
  * Frequencies are in T (cycles per unit of 1/B).
  */
 import FFT from "fft.js";
+import { quickselect } from "simple-statistics";
 
 export interface UniformTrace {
   /** Uniform grid in 1/B, T⁻¹, ascending. */
@@ -34,21 +35,25 @@ function nextPow2(n: number): number {
  * Resample a signal given at ascending |B| (T) onto `count` points uniform in 1/B.
  * Throws RangeError for fewer than 2 points or count < 2.
  */
-export function resampleInverseField(field: number[], value: number[], count: number): UniformTrace {
-  if (field.length < 2 || count < 2) throw new RangeError("resampleInverseField: need 2 or more points");
-  const u = field.map((b) => 1 / b).reverse();
-  const v = value.slice().reverse();
+export function resampleInverseField(field: ArrayLike<number>, value: ArrayLike<number>, count: number): UniformTrace {
+  const n = field.length;
+  if (n < 2 || count < 2) throw new RangeError("resampleInverseField: need 2 or more points");
+  // u[j] = 1/B in ascending order (the field reversed); v[j] the matching value.
+  const u = new Float64Array(n);
+  for (let j = 0; j < n; j++) u[j] = 1 / field[n - 1 - j];
   const u0 = u[0];
-  const step = (u[u.length - 1] - u0) / (count - 1);
-  const grid: number[] = [];
-  const out: number[] = [];
+  const uLast = u[n - 1];
+  const step = (uLast - u0) / (count - 1);
+  const grid = new Array<number>(count);
+  const out = new Array<number>(count);
   let j = 0;
   for (let k = 0; k < count; k++) {
-    const x = k === count - 1 ? u[u.length - 1] : u0 + k * step;
-    while (j < u.length - 2 && u[j + 1] < x) j++;
+    const x = k === count - 1 ? uLast : u0 + k * step;
+    while (j < n - 2 && u[j + 1] < x) j++;
     const t = (x - u[j]) / (u[j + 1] - u[j]);
-    grid.push(x);
-    out.push(v[j] + t * (v[j + 1] - v[j]));
+    const vj = value[n - 1 - j];
+    grid[k] = x;
+    out[k] = vj + t * (value[n - 2 - j] - vj);
   }
   return { inverseField: grid, value: out };
 }
@@ -61,47 +66,75 @@ function fftOfSize(m: number): FFT {
   return f;
 }
 
-const BUFFERS = new Map<number, { input: Float64Array; out: Float64Array }>();
+interface WorkBuffers {
+  input: Float64Array;
+  out: Float64Array;
+  /** Leading entries of `input` that may be non-zero (the rest are zero). */
+  used: number;
+}
+const BUFFERS = new Map<number, WorkBuffers>();
 /** Reused work buffers per transform size (allocating 2·m numbers per sweep was a large share of the cost). */
-function buffersOfSize(m: number): { input: Float64Array; out: Float64Array } {
+function buffersOfSize(m: number): WorkBuffers {
   let b = BUFFERS.get(m);
-  if (!b) BUFFERS.set(m, (b = { input: new Float64Array(m), out: new Float64Array(2 * m) }));
+  if (!b) BUFFERS.set(m, (b = { input: new Float64Array(m), out: new Float64Array(2 * m), used: 0 }));
   return b;
 }
 
+const WINDOWS = new Map<number, { w: Float64Array; sum: number }>();
+/** Hann window of n points, w_i = 0.5 − 0.5·cos(2πi/(n − 1)) (1 for n = 1), and its sum; kept per n. */
+function hannWindow(n: number): { w: Float64Array; sum: number } {
+  let h = WINDOWS.get(n);
+  if (!h) {
+    if (WINDOWS.size >= 32) WINDOWS.clear();
+    const w = new Float64Array(n);
+    let sum = 0;
+    for (let i = 0; i < n; i++) {
+      w[i] = n > 1 ? 0.5 - 0.5 * Math.cos((2 * Math.PI * i) / (n - 1)) : 1;
+      sum += w[i];
+    }
+    WINDOWS.set(n, (h = { w, sum }));
+  }
+  return h;
+}
+
 export interface SpectrumResult {
-  spectrum: Spectrum;
+  /** Amplitude of bin k (frequency k·binWidth), unit of the signal; bins 0 … min(m/2, ⌈maxFrequency/binWidth⌉). */
+  amplitude: Float64Array;
   /** Bin spacing after zero-padding, T. */
   binWidth: number;
+  /** Highest frequency of the full spectrum (the padded grid's Nyquist frequency, (m/2)·binWidth), T. */
+  nyquist: number;
 }
 
 /**
  * Amplitude spectrum of a uniformly sampled trace (sample step `step` in T⁻¹),
  * Hann-windowed and zero-padded to `padFactor`× the next power of two.
+ * Amplitudes are computed only up to `maxFrequency` (T, default: all bins up
+ * to the padded grid's Nyquist frequency); the transform itself is the same.
  */
-export function amplitudeSpectrum(values: number[], step: number, padFactor = 8): SpectrumResult {
+export function amplitudeSpectrum(values: ArrayLike<number>, step: number, padFactor = 8, maxFrequency = Number.POSITIVE_INFINITY): SpectrumResult {
   const n = values.length;
   const m = nextPow2(n) * padFactor;
-  const mean = values.reduce((s, v) => s + v, 0) / n;
-  const { input, out } = buffersOfSize(m);
-  input.fill(0);
-  out.fill(0);
-  let wSum = 0;
-  for (let i = 0; i < n; i++) {
-    const w = n > 1 ? 0.5 - 0.5 * Math.cos((2 * Math.PI * i) / (n - 1)) : 1;
-    wSum += w;
-    input[i] = (values[i] - mean) * w;
-  }
+  let mean = 0;
+  for (let i = 0; i < n; i++) mean += values[i];
+  mean /= n;
+  const buf = buffersOfSize(m);
+  const { input, out } = buf;
+  if (buf.used > n) input.fill(0, n, buf.used);
+  buf.used = n;
+  const { w, sum: wSum } = hannWindow(n);
+  for (let i = 0; i < n; i++) input[i] = (values[i] - mean) * w[i];
   const fft = fftOfSize(m);
   fft.realTransform(out, input);
-  const frequency: number[] = [];
-  const amplitude: number[] = [];
   const binWidth = 1 / (m * step);
-  for (let k = 0; k <= m / 2; k++) {
-    frequency.push(k * binWidth);
-    amplitude.push((2 * Math.hypot(out[2 * k], out[2 * k + 1])) / wSum);
+  const last = Math.min(m / 2, maxFrequency === Number.POSITIVE_INFINITY ? m / 2 : Math.ceil(maxFrequency / binWidth));
+  const amplitude = new Float64Array(last + 1);
+  for (let k = 0; k <= last; k++) {
+    const re = out[2 * k];
+    const im = out[2 * k + 1];
+    amplitude[k] = (2 * Math.sqrt(re * re + im * im)) / wSum;
   }
-  return { spectrum: { frequency, amplitude }, binWidth };
+  return { amplitude, binWidth, nyquist: (m / 2) * binWidth };
 }
 
 export interface SpectrumPeak {
@@ -113,6 +146,8 @@ export interface SpectrumPeak {
   peakToMedian: number;
 }
 
+let bandScratch = new Float64Array(0);
+
 /**
  * Dominant peak in the band fMin ≤ f ≤ fMax (T): the largest interior local
  * maximum (a monotonic low-frequency leakage tail is therefore never taken for a
@@ -120,9 +155,11 @@ export interface SpectrumPeak {
  * fMax should not exceed the Nyquist frequency of the original (unresampled)
  * data, 1/(2·largest 1/B step): above it the interpolated trace holds no
  * information and would make the median meaninglessly small.
+ * The median is the upper median (element ⌊N/2⌋ of the sorted band), found by
+ * selection (Floyd–Rivest) rather than a full sort.
  */
 export function dominantPeak(s: SpectrumResult, fMin: number, fMax = Number.POSITIVE_INFINITY): SpectrumPeak | null {
-  const a = s.spectrum.amplitude;
+  const a = s.amplitude;
   const kLo = Math.max(1, Math.ceil(fMin / s.binWidth));
   const kHi = Math.min(a.length - 1, Math.floor(fMax / s.binWidth));
   if (kLo >= kHi - 2) return null;
@@ -131,9 +168,16 @@ export function dominantPeak(s: SpectrumResult, fMin: number, fMax = Number.POSI
     if (a[i] > a[i - 1] && a[i] >= a[i + 1] && (k < 0 || a[i] > a[k])) k = i;
   }
   if (k < 0 || !(a[k] > 0)) return null;
-  const band = a.slice(kLo, kHi + 1).sort((x, y) => x - y);
-  const median = band[Math.floor(band.length / 2)];
-  const [l, c, r] = [a[k - 1], a[k], a[k + 1]].map((v) => Math.log(Math.max(v, 1e-300)));
+  const len = kHi - kLo + 1;
+  if (bandScratch.length < len) bandScratch = new Float64Array(len);
+  const band = bandScratch.subarray(0, len);
+  band.set(a.subarray(kLo, kHi + 1));
+  const mid = Math.floor(len / 2);
+  quickselect(band as unknown as number[], mid);
+  const median = band[mid];
+  const l = Math.log(Math.max(a[k - 1], 1e-300));
+  const c = Math.log(Math.max(a[k], 1e-300));
+  const r = Math.log(Math.max(a[k + 1], 1e-300));
   const den = l - 2 * c + r;
   const delta = den < 0 ? (0.5 * (l - r)) / den : 0;
   return {
@@ -145,18 +189,21 @@ export function dominantPeak(s: SpectrumResult, fMin: number, fMax = Number.POSI
 
 /**
  * Reduce a spectrum to at most `maxPoints` points up to fMax (T), keeping the
- * largest amplitude of each bucket (so peaks survive), for charts.
+ * largest amplitude of each bucket (so peaks survive), for charts. Needs the
+ * amplitudes computed up to fMax (amplitudeSpectrum's maxFrequency).
  */
-export function downsampleSpectrum(s: Spectrum, fMax: number, maxPoints = 400): Spectrum {
-  const idx = s.frequency.map((f, i) => i).filter((i) => s.frequency[i] <= fMax);
-  const per = Math.max(1, Math.ceil(idx.length / maxPoints));
+export function downsampleSpectrum(s: SpectrumResult, fMax: number, maxPoints = 400): Spectrum {
+  const a = s.amplitude;
+  let count = 0;
+  while (count < a.length && count * s.binWidth <= fMax) count++;
+  const per = Math.max(1, Math.ceil(count / maxPoints));
   const frequency: number[] = [];
   const amplitude: number[] = [];
-  for (let b = 0; b < idx.length; b += per) {
-    let best = idx[b];
-    for (let j = b; j < Math.min(b + per, idx.length); j++) if (s.amplitude[idx[j]] > s.amplitude[best]) best = idx[j];
-    frequency.push(s.frequency[best]);
-    amplitude.push(s.amplitude[best]);
+  for (let b = 0; b < count; b += per) {
+    let best = b;
+    for (let j = b; j < Math.min(b + per, count); j++) if (a[j] > a[best]) best = j;
+    frequency.push(best * s.binWidth);
+    amplitude.push(a[best]);
   }
   return { frequency, amplitude };
 }

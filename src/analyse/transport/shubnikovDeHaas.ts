@@ -82,17 +82,28 @@ function polynomialBackground(b: number[], rho: number[], order: number): number
   return t.map((x) => coef.reduce((s, c, j) => s + c * x ** j, 0));
 }
 
+/**
+ * |B| > 0 inside [lo, hi] with finite values, ascending (stable: equal fields
+ * keep their input order), points at the same field averaged.
+ */
 function cleanSweep(field: ArrayLike<number>, rho: ArrayLike<number>, lo: number, hi: number) {
-  const pts: [number, number][] = [];
+  const keep: number[] = [];
+  let ascending = true;
   for (let i = 0; i < field.length; i++) {
     const b = Math.abs(field[i]);
-    if (Number.isFinite(b) && Number.isFinite(rho[i]) && b > 0 && b >= lo && b <= hi) pts.push([b, rho[i]]);
+    if (Number.isFinite(b) && Number.isFinite(rho[i]) && b > 0 && b >= lo && b <= hi) {
+      if (keep.length && Math.abs(field[keep[keep.length - 1]]) > b) ascending = false;
+      keep.push(i);
+    }
   }
-  pts.sort((p, q) => p[0] - q[0]);
+  // The symmetrised trace is already ascending; otherwise a stable sort by |B|.
+  if (!ascending) keep.sort((p, q) => Math.abs(field[p]) - Math.abs(field[q]));
   const b: number[] = [];
   const r: number[] = [];
   const c: number[] = [];
-  for (const [x, y] of pts) {
+  for (const i of keep) {
+    const x = Math.abs(field[i]);
+    const y = rho[i];
     const last = b.length - 1;
     if (last >= 0 && b[last] === x) {
       r[last] = (r[last] * c[last] + y) / (c[last] + 1);
@@ -128,10 +139,12 @@ export function shubnikovDeHaas(
   const trace = resampleInverseField(b, delta, count);
   const span = 1 / b[0] - 1 / b[b.length - 1];
   const step = span / (count - 1);
-  const spec = amplitudeSpectrum(trace.value, step);
   let coarsest = 0;
   for (let i = 1; i < b.length; i++) coarsest = Math.max(coarsest, 1 / b[i - 1] - 1 / b[i]);
-  const peak = dominantPeak(spec, 1 / span, 1 / (2 * coarsest));
+  const fMax = 1 / (2 * coarsest);
+  // The peak lies below fMax and the chart reaches 3× the peak: no bin above 3·fMax is read.
+  const spec = amplitudeSpectrum(trace.value, step, 8, 3 * fMax);
+  const peak = dominantPeak(spec, 1 / span, fMax);
   if (!peak) return skipped("no oscillation peak in the spectrum above one period across the 1/B range");
   const periods = peak.frequency * span;
   if (periods < minPeriods) {
@@ -143,9 +156,7 @@ export function shubnikovDeHaas(
   }
   const lowLimit = peak.frequency - 1.5 / span;
   let low = 0;
-  spec.spectrum.frequency.forEach((f, i) => {
-    if (f > 0 && f < lowLimit) low = Math.max(low, spec.spectrum.amplitude[i]);
-  });
+  for (let i = 1; i < spec.amplitude.length && i * spec.binWidth < lowLimit; i++) low = Math.max(low, spec.amplitude[i]);
   const maxLow = options.maxLowFrequencyRatio ?? 10;
   if (low > maxLow * peak.amplitude) {
     return skipped(`the spectrum is dominated by a slow swing (${(low / peak.amplitude).toFixed(0)}× the candidate peak at ${peak.frequency.toFixed(2)} T): the oscillation is too slow for fewer than ${minPeriods} periods to fit in this field window`);
@@ -161,7 +172,7 @@ export function shubnikovDeHaas(
     peakToMedian: Math.min(peak.peakToMedian, 1e12),
     fieldRange: [b[0], b[b.length - 1]],
     background: { variable: "B", order },
-    spectrum: downsampleSpectrum(spec.spectrum, Math.min(3 * peak.frequency, spec.spectrum.frequency.at(-1)!)),
+    spectrum: downsampleSpectrum(spec, Math.min(3 * peak.frequency, spec.nyquist)),
     trace: { inverseField: trace.inverseField, oscillation: trace.value },
   };
 }

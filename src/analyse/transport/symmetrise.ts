@@ -11,8 +11,6 @@
  * A sweep with one field sign only is returned unsymmetrised with
  * `symmetrised: false` (the validator has already warned).
  */
-import { interpolateLinear, sortByX } from "../numeric/interpolate.ts";
-
 export interface SymmetrisedTrace {
   /** |B| grid, T, ascending. */
   b: Float64Array;
@@ -21,41 +19,131 @@ export interface SymmetrisedTrace {
   symmetrised: boolean;
 }
 
-export function symmetriseField(B: ArrayLike<number>, y: ArrayLike<number>, parity: "even" | "odd"): SymmetrisedTrace {
-  const posB: number[] = [];
-  const posY: number[] = [];
-  const negB: number[] = [];
-  const negY: number[] = [];
+/** Indices of `idx` ordered by key(i) ascending, stable (equal keys keep their order), as sortByX orders. */
+function sortIndices(idx: Int32Array, key: (i: number) => number): Int32Array {
+  let ascending = true;
+  let descending = true;
+  for (let k = 1; k < idx.length && (ascending || descending); k++) {
+    const a = key(idx[k - 1]);
+    const b = key(idx[k]);
+    if (!(a <= b)) ascending = false;
+    if (!(a > b)) descending = false;
+  }
+  if (ascending) return idx;
+  // Strictly descending (a branch swept towards zero): no ties, so the sorted order is the reverse.
+  if (descending) return idx.reverse();
+  return new Int32Array(Array.from(idx).sort((a, b) => key(a) - key(b)));
+}
+
+/**
+ * The part of symmetrisation that depends only on the field column: the two
+ * branches sorted by |B|, the common |B| grid, and where each grid point falls
+ * on the negative branch. Computed once per sweep and shared by its traces.
+ */
+export interface FieldBranches {
+  /** Input indices of B ≥ 0, ascending in B; of B ≤ 0, ascending in |B|. */
+  posIdx: Int32Array;
+  negIdx: Int32Array;
+  posX: Float64Array;
+  negX: Float64Array;
+  /** Points with B > 0, B < 0. */
+  posCount: number;
+  negCount: number;
+  /** Positions in posIdx of the grid (|B| inside the range both signs cover), first and last + 1. */
+  from: number;
+  to: number;
+  /** Per grid point: bracketing negative-branch positions and the linear weight (lo === hi: take lo). */
+  lo: Int32Array;
+  hi: Int32Array;
+  t: Float64Array;
+}
+
+/** Splits and sorts a field column (T) for symmetriseBranches. */
+export function fieldBranches(B: ArrayLike<number>): FieldBranches {
+  let nPos = 0;
+  let nNeg = 0;
   for (let i = 0; i < B.length; i++) {
-    if (B[i] >= 0) {
-      posB.push(B[i]);
-      posY.push(y[i]);
-    }
-    if (B[i] <= 0) {
-      negB.push(-B[i]);
-      negY.push(y[i]);
-    }
+    if (B[i] >= 0) nPos++;
+    if (B[i] <= 0) nNeg++;
   }
-  const pos = sortByX(posB, posY);
-  const neg = sortByX(negB, negY);
-  const posCount = posB.filter((b) => b > 0).length;
-  const negCount = negB.filter((b) => b > 0).length;
-  if (posCount < 2 || negCount < 2) {
-    const one = posCount >= negCount ? pos : neg;
-    const sign = posCount >= negCount || parity === "even" ? 1 : -1;
-    return { b: one.x, y: one.y.map((v) => sign * v), symmetrised: false };
+  let posIdx: Int32Array = new Int32Array(nPos);
+  let negIdx: Int32Array = new Int32Array(nNeg);
+  let posCount = 0;
+  let negCount = 0;
+  for (let i = 0, p = 0, q = 0; i < B.length; i++) {
+    if (B[i] >= 0) posIdx[p++] = i;
+    if (B[i] <= 0) negIdx[q++] = i;
+    if (B[i] > 0) posCount++;
+    if (B[i] < 0) negCount++;
   }
-  const top = Math.min(pos.x[pos.x.length - 1], neg.x[neg.x.length - 1]);
-  const bottom = Math.max(pos.x[0], neg.x[0]);
-  const grid: number[] = [];
-  const out: number[] = [];
-  for (let i = 0; i < pos.x.length; i++) {
-    const b = pos.x[i];
-    if (b < bottom || b > top) continue;
-    const yn = interpolateLinear(neg.x, neg.y, b);
-    const yp = pos.y[i];
-    grid.push(b);
-    out.push(parity === "even" ? (yp + yn) / 2 : (yp - yn) / 2);
+  posIdx = sortIndices(posIdx, (i) => B[i]);
+  negIdx = sortIndices(negIdx, (i) => -B[i]);
+  const posX = new Float64Array(posIdx.length);
+  for (let k = 0; k < posIdx.length; k++) posX[k] = B[posIdx[k]];
+  const negX = new Float64Array(negIdx.length);
+  for (let k = 0; k < negIdx.length; k++) negX[k] = -B[negIdx[k]];
+  let from = 0;
+  let to = 0;
+  if (posCount >= 2 && negCount >= 2) {
+    const top = Math.min(posX[posX.length - 1], negX[negX.length - 1]);
+    const bottom = Math.max(posX[0], negX[0]);
+    while (from < posX.length && posX[from] < bottom) from++;
+    to = from;
+    while (to < posX.length && posX[to] <= top) to++;
   }
-  return { b: Float64Array.from(grid), y: Float64Array.from(out), symmetrised: true };
+  const lo = new Int32Array(to - from);
+  const hi = new Int32Array(to - from);
+  const t = new Float64Array(to - from);
+  for (let g = 0; g < to - from; g++) bracket(negX, posX[from + g], g, lo, hi, t);
+  return { posIdx, negIdx, posX, negX, posCount, negCount, from, to, lo, hi, t };
+}
+
+/** The bisection of interpolateLinear (numeric/interpolate.ts), kept so results are bit-identical. */
+function bracket(x: Float64Array, at: number, g: number, los: Int32Array, his: Int32Array, ts: Float64Array): void {
+  let lo = 0;
+  let hi = x.length - 1;
+  while (hi - lo > 1) {
+    const mid = (lo + hi) >> 1;
+    if (x[mid] <= at) lo = mid;
+    else hi = mid;
+  }
+  if (x[hi] === x[lo]) {
+    los[g] = his[g] = lo;
+    return;
+  }
+  los[g] = lo;
+  his[g] = hi;
+  ts[g] = (at - x[lo]) / (x[hi] - x[lo]);
+}
+
+/** symmetriseField for a trace y measured on the field column that `br` was made from. */
+export function symmetriseBranches(br: FieldBranches, y: ArrayLike<number>, parity: "even" | "odd"): SymmetrisedTrace {
+  if (br.posCount < 2 || br.negCount < 2) {
+    const usePos = br.posCount >= br.negCount;
+    const idx = usePos ? br.posIdx : br.negIdx;
+    const sign = usePos || parity === "even" ? 1 : -1;
+    const one = new Float64Array(idx.length);
+    for (let k = 0; k < idx.length; k++) one[k] = sign * y[idx[k]];
+    return { b: (usePos ? br.posX : br.negX).slice(), y: one, symmetrised: false };
+  }
+  const n = br.to - br.from;
+  const out = new Float64Array(n);
+  const { posIdx, negIdx, lo, hi, t } = br;
+  for (let g = 0; g < n; g++) {
+    const l = lo[g];
+    const yl = y[negIdx[l]];
+    const yn = hi[g] === l ? yl : yl + t[g] * (y[negIdx[hi[g]]] - yl);
+    const yp = y[posIdx[br.from + g]];
+    out[g] = parity === "even" ? (yp + yn) / 2 : (yp - yn) / 2;
+  }
+  return { b: br.posX.slice(br.from, br.to), y: out, symmetrised: true };
+}
+
+/**
+ * Symmetrises (parity "even") or antisymmetrises ("odd") y(B), B in T. For
+ * several traces on one field column, call fieldBranches once and
+ * symmetriseBranches per trace (same results).
+ */
+export function symmetriseField(B: ArrayLike<number>, y: ArrayLike<number>, parity: "even" | "odd"): SymmetrisedTrace {
+  return symmetriseBranches(fieldBranches(B), y, parity);
 }
