@@ -73,8 +73,21 @@ const PAD = { l: 58, r: 12, t: 12, b: 42 };
 export function rsmSvg(f: XrdFileResult, geFraction: number | undefined, id: string, bins = 44): string | undefined {
   if (!f.points || !f.peaks.ok) return undefined;
   const pk = f.peaks;
-  const q = f.points.map((p) => ({ ...anglesToQ(p.omega + pk.offset.omega, p.twoTheta + pk.offset.twoTheta, pk.wavelength), c: p.counts }));
-  const box: Box = { x0: Math.min(...q.map((p) => p.qx)), x1: Math.max(...q.map((p) => p.qx)), z0: Math.min(...q.map((p) => p.qz)), z1: Math.max(...q.map((p) => p.qz)) };
+  // One pass into typed arrays (maps hold tens of thousands of points).
+  const n = f.points.length;
+  const qxs = new Float64Array(n);
+  const qzs = new Float64Array(n);
+  const box: Box = { x0: Infinity, x1: -Infinity, z0: Infinity, z1: -Infinity };
+  for (let k = 0; k < n; k++) {
+    const p = f.points[k];
+    const { qx, qz } = anglesToQ(p.omega + pk.offset.omega, p.twoTheta + pk.offset.twoTheta, pk.wavelength);
+    qxs[k] = qx;
+    qzs[k] = qz;
+    if (qx < box.x0) box.x0 = qx;
+    if (qx > box.x1) box.x1 = qx;
+    if (qz < box.z0) box.z0 = qz;
+    if (qz > box.z1) box.z1 = qz;
+  }
   if (box.x1 - box.x0 < 1e-3 * box.z1) {
     const mid = (box.x0 + box.x1) / 2;
     const half = (box.z1 - box.z0) / 2;
@@ -83,18 +96,27 @@ export function rsmSvg(f: XrdFileResult, geFraction: number | undefined, id: str
   }
   const px = (qx: number) => PAD.l + ((qx - box.x0) / (box.x1 - box.x0)) * (W - PAD.l - PAD.r);
   const pz = (qz: number) => H - PAD.b - ((qz - box.z0) / (box.z1 - box.z0)) * (H - PAD.t - PAD.b);
-  const grid = new Map<number, number>();
-  for (const p of q) {
-    const i = Math.min(bins - 1, Math.floor(((p.qx - box.x0) / (box.x1 - box.x0)) * bins));
-    const j = Math.min(bins - 1, Math.floor(((p.qz - box.z0) / (box.z1 - box.z0)) * bins));
-    grid.set(i * bins + j, Math.max(grid.get(i * bins + j) ?? 0, p.c));
+  // Highest count per bin; bins listed in the order first reached (the order the cells are drawn).
+  const binMax = new Float64Array(bins * bins).fill(-Infinity);
+  const order: number[] = [];
+  for (let k = 0; k < n; k++) {
+    const i = Math.min(bins - 1, Math.floor(((qxs[k] - box.x0) / (box.x1 - box.x0)) * bins));
+    const j = Math.min(bins - 1, Math.floor(((qzs[k] - box.z0) / (box.z1 - box.z0)) * bins));
+    const key = i * bins + j;
+    if (binMax[key] === -Infinity) {
+      order.push(key);
+      binMax[key] = Math.max(0, f.points[k].counts);
+    } else binMax[key] = Math.max(binMax[key], f.points[k].counts);
   }
   const floor = Math.max(1, pk.background + 3 * pk.noise);
-  const top = Math.log10(Math.max(...grid.values(), floor * 10) / floor);
+  let highest = floor * 10;
+  for (const key of order) highest = Math.max(highest, binMax[key]);
+  const top = Math.log10(highest / floor);
   const cw = (W - PAD.l - PAD.r) / bins;
   const ch = (H - PAD.t - PAD.b) / bins;
   const cells: string[] = [];
-  for (const [k, c] of grid) {
+  for (const k of order) {
+    const c = binMax[k];
     if (c <= floor) continue;
     const level = Math.min(1, Math.log10(c / floor) / top);
     const i = Math.floor(k / bins);
