@@ -35,15 +35,14 @@ export async function lookUpFolder(folder: string, ctx: AnalyseContext): Promise
 }
 
 /**
- * The full form of a result taken slim from the cache (for drawing its page):
- * read from the cache, or analysed again from the raw files if that form has
- * gone missing.
+ * The full form of a wafer's result (for drawing its page): read from the
+ * cache under its key, or analysed again from the raw files if that form is
+ * missing (or there is no cache).
  */
-export async function loadInFull(found: AnalysedFolder, ctx: AnalyseContext): Promise<AnalysedFolder> {
-  if (found.form === "full") return found;
-  const entry = ctx.cacheDir && found.key ? await readEntry(ctx.cacheDir, found.key, "full") : undefined;
-  if (entry && entry.folder === found.entry.folder) return { ...found, entry, form: "full" };
-  return analyseFolder(found.entry.folder, ctx, found.key);
+export async function loadInFull(folder: string, key: string | undefined, ctx: AnalyseContext): Promise<AnalysedFolder> {
+  const entry = ctx.cacheDir && key ? await readEntry(ctx.cacheDir, key, "full") : undefined;
+  if (entry && entry.folder === folder) return { entry, cacheHit: true, form: "full", key };
+  return analyseFolder(folder, ctx, key);
 }
 
 /** Loads and analyses one wafer folder, or takes the result from the cache. `knownKey`: its cache key when already computed (and missed). */

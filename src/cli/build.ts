@@ -10,13 +10,12 @@ import path from "node:path";
 import pLimit from "p-limit";
 import { judgeOutcome, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
 import { codeVersion, defaultCacheDir } from "./cache.ts";
-import { analyseAll } from "./workerPool.ts";
+import { WaferJobs } from "./workerPool.ts";
 import { loadSiteInputs } from "../read/site.ts";
 import { buildSiteModel, sortOutcomes, waferPageExtras, type SiteMeta } from "../publish/siteModel.ts";
 import { linkReusedPage, pageCodeVersion, pageFingerprint, previousFingerprint } from "./pageReuse.ts";
-import { loadInFull, type AnalysedFolder } from "./analyseFolder.ts";
-import { renderTemplates, WaferPages } from "./waferPages.ts";
-import { slimAnalysis } from "./cache.ts";
+import type { AnalysedFolder } from "./analyseFolder.ts";
+import { renderTemplates, renderWaferPages } from "./waferPages.ts";
 import { resultsJson } from "../publish/waferPage.ts";
 import { writeSearch } from "../publish/searchIndex.ts";
 import type { Problem } from "../validate/problem.ts";
@@ -100,65 +99,67 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     };
     const cacheDir = options.cache === null ? null : path.resolve(options.cache ?? defaultCacheDir(outDir));
     const code = cacheDir ? await codeVersion(version) : "";
-    const analyseCtx = { dataDir, today: ctx.today, siteSettings: ctx.siteSettings, cacheDir, code };
+    const scratchDir = `${tmpDir}-pages`;
+    const jobs = new WaferJobs({ dataDir, today: ctx.today, siteSettings: ctx.siteSettings, cacheDir, code, pipeline: ctx, outDir: tmpDir, scratchDir });
     // Unchanged wafer pages are reused from the previous output (src/cli/pageReuse.ts); --no-cache builds every page afresh.
     const reusePages = cacheDir !== null;
     let done = 0;
-    // Each wafer is judged as soon as its analysis arrives, from its slim form
+    // Each wafer is judged as soon as its result arrives, from its slim form
     // (figures only: see cache.ts slimAnalysis), which is all the site-wide
-    // pages, results.json and the exports read. A wafer analysed now (full
-    // form) has its page drawn at once (waferPages.ts); a cache hit arrives
-    // slim and is loaded in full later only if its page must be drawn again.
-    // So the build never holds more than a few wafers' traces and map points.
+    // pages, results.json and the exports read. A wafer analysed now has its
+    // page drawn by the same job, where its full analysis is (waferJob.ts); a
+    // cache hit arrives slim, and its page is reused or drawn again below. So
+    // the main thread never holds a wafer's traces and map points.
     const outcomes: WaferOutcome[] = new Array(site.waferFolders.length);
     const found: AnalysedFolder[] = new Array(site.waferFolders.length);
-    const scratchDir = `${tmpDir}-pages`;
-    const pages = new WaferPages(tmpDir, scratchDir);
-    let failure: unknown;
-    const analysed = await analyseAll(site.waferFolders, analyseCtx, (i, r) => {
-      try {
-        found[i] = r;
-        if (r.form === "full") {
-          pages.draw(judgeOutcome(r.entry, r.entry.analysis, ctx));
-          r.entry = { ...r.entry, analysis: r.entry.analysis && slimAnalysis(r.entry.analysis) };
-          r.form = "slim";
-        }
-        outcomes[i] = judgeOutcome(r.entry, r.entry.analysis, ctx);
-      } catch (err) {
-        // Thrown again below: this callback may run inside a worker's message handler.
-        failure ??= err;
-      }
-      if (!options.quiet) io.log(`analysed ${++done}/${site.waferFolders.length} ${r.entry.folder}${r.cacheHit ? " (cached)" : ""}`);
-    });
-    if (failure !== undefined) throw failure;
-    lap("analyse");
-    const problems = [...site.problems, ...outcomes.flatMap((o) => o.problems)];
-    if (site.waferFolders.length === 0 && site.problems.some((p) => p.severity === "error")) {
-      return { ok: false, outcomes, problems, outDir, pages: 0 };
-    }
-    const history = await loadDataHistory(dataDir);
-    const meta: SiteMeta = { title: "waferbook", version, builtAt: io.now(), basePath: options.basePath, dataCommit: history?.head ?? null };
-    const sorted = sortOutcomes(outcomes);
-    const pageExtras = waferPageExtras(sorted, meta.basePath, history);
-    const pageCode = await pageCodeVersion(version);
-    const fingerprints = new Map<string, string>();
+    const drawn = new Set<string>();
     const reused = new Set<string>();
-    for (const [i, o] of outcomes.entries()) {
-      const fp = pageFingerprint(pageCode, meta.basePath, o, pageExtras.get(o.folder));
-      fingerprints.set(o.folder, fp);
-      if (pages.has(o.folder)) continue;
-      if (reusePages && (await previousFingerprint(path.join(outDir, "wafers", o.folder, "index.html"))) === fp) reused.add(o.folder);
-      else {
-        const full = await loadInFull(found[i], analyseCtx);
-        pages.draw(judgeOutcome(full.entry, full.entry.analysis, ctx));
+    let meta: SiteMeta;
+    let written = 0;
+    let stats: NonNullable<BuildResult["stats"]>;
+    let failure: unknown;
+    try {
+      const analysed = await jobs.analyseAll(site.waferFolders, (i, r, isDrawn) => {
+        try {
+          found[i] = r;
+          if (isDrawn) drawn.add(r.entry.folder);
+          outcomes[i] = judgeOutcome(r.entry, r.entry.analysis, ctx);
+        } catch (err) {
+          // Thrown again below: this callback may run inside a worker's message handler.
+          failure ??= err;
+        }
+        if (!options.quiet) io.log(`analysed ${++done}/${site.waferFolders.length} ${r.entry.folder}${r.cacheHit ? " (cached)" : ""}`);
+      });
+      if (failure !== undefined) throw failure;
+      lap("analyse");
+      if (site.waferFolders.length === 0 && site.problems.some((p) => p.severity === "error")) {
+        return { ok: false, outcomes, problems: [...site.problems], outDir, pages: 0 };
       }
+      const history = await loadDataHistory(dataDir);
+      meta = { title: "waferbook", version, builtAt: io.now(), basePath: options.basePath, dataCommit: history?.head ?? null };
+      const sorted = sortOutcomes(outcomes);
+      const pageExtras = waferPageExtras(sorted, meta.basePath, history);
+      const pageCode = await pageCodeVersion(version);
+      const fingerprints = new Map<string, string>();
+      const toDraw: { folder: string; key?: string }[] = [];
+      for (const [i, o] of outcomes.entries()) {
+        const fp = pageFingerprint(pageCode, meta.basePath, o, pageExtras.get(o.folder));
+        fingerprints.set(o.folder, fp);
+        if (drawn.has(o.folder)) continue;
+        if (reusePages && (await previousFingerprint(path.join(outDir, "wafers", o.folder, "index.html"))) === fp) reused.add(o.folder);
+        else toDraw.push({ folder: o.folder, key: found[i].key });
+      }
+      await jobs.drawAll(toDraw);
+      stats = { cacheHits: analysed.filter((a) => a.cacheHit).length, analysed: analysed.filter((a) => !a.cacheHit).length, pagesReused: reused.size, phases };
+      const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history });
+      lap("model");
+      written = await renderTemplates(path.join(PACKAGE_ROOT, "templates"), tmpDir, model);
+      written += await renderWaferPages(sorted.map((o) => o.folder).filter((f) => !reused.has(f)), tmpDir, scratchDir, meta, pageExtras, fingerprints);
+      lap("render");
+    } finally {
+      await jobs.close();
     }
-    const stats = { cacheHits: analysed.filter((a) => a.cacheHit).length, analysed: analysed.filter((a) => !a.cacheHit).length, pagesReused: reused.size, phases };
-    const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history });
-    lap("model");
-    let written = await renderTemplates(path.join(PACKAGE_ROOT, "templates"), tmpDir, model);
-    written += await pages.render(sorted.map((o) => o.folder), meta, pageExtras, fingerprints);
-    lap("render");
+    const problems = [...site.problems, ...outcomes.flatMap((o) => o.problems)];
     await writeExtras(outcomes, dataDir, tmpDir, meta.dataCommit ?? null, outDir, reused);
     await writeExports(outcomes, tmpDir, meta, site.runs);
     await writeSearch(outcomes, site.runs, tmpDir, PACKAGE_ROOT);

@@ -2,11 +2,12 @@
  * Wafer pages, drawn one wafer at a time and rendered a batch at a time, so
  * the build's memory follows the largest wafer (and the batch size), not the
  * size of the archive:
- *   - `draw` turns one wafer's full analysis into its page model as soon as
- *     that analysis is at hand, writes the page's pictures (PNG files) into
- *     the output being built, and parks the rest of the model (strings: chart
- *     data, SVG figures, tables) in a scratch folder beside it;
- *   - `render` reads the parked models back PAGES_PER_RENDER at a time, adds
+ *   - `drawWaferPage` turns one wafer's full analysis into its page model as
+ *     soon as that analysis is at hand (in the worker that analysed it),
+ *     writes the page's pictures (PNG files) into the output being built, and
+ *     parks the rest of the model (strings: chart data, SVG figures, tables)
+ *     in a scratch folder beside it;
+ *   - `renderWaferPages` reads the parked models back PAGES_PER_RENDER at a time, adds
  *     what each page shows beside the wafer (neighbours, breadcrumbs, history,
  *     fingerprint) and renders the batch with Eleventy from templates/wafer.njk
  *     alone; the site-wide pages are rendered once, separately (build.ts).
@@ -26,66 +27,47 @@ type PageExtras = ReturnType<typeof waferPageExtras> extends Map<string, infer E
 /** Wafer pages rendered per Eleventy run: bounds memory (about 0.5 MB per page) against the run's fixed cost (~0.1 s). */
 export const PAGES_PER_RENDER = 40;
 
-export class WaferPages {
-  private readonly drawn = new Set<string>();
-  private readonly writes: Promise<unknown>[] = [];
+/** Where a drawn page's model waits for rendering. */
+function parkedPath(scratchDir: string, folder: string): string {
+  return path.join(scratchDir, `${encodeURIComponent(folder)}.v8`);
+}
 
-  /** outDir: the output being built; scratchDir: a private folder for parked page models (removed by the caller). */
-  constructor(
-    private readonly outDir: string,
-    private readonly scratchDir: string,
-  ) {}
-
-  has(folder: string): boolean {
-    return this.drawn.has(folder);
-  }
-
-  /** Draws one wafer's page from its outcome with the full analysis; the writes finish by `render`. */
-  draw(o: WaferOutcome): void {
-    const model = waferPageModel(o);
-    this.drawn.add(o.folder);
-    const files: { path: string; bytes: Buffer }[] = [];
-    for (const section of [model.transportDepth, model.structure, model.images] as ({ files?: { path: string; bytes: Buffer }[] } | undefined)[]) {
-      for (const f of section?.files ?? []) files.push(f);
-      if (section?.files) section.files = [];
+/**
+ * Draws one wafer's page from its outcome with the full analysis: writes the
+ * page's pictures into the output being built and parks the rest of the model
+ * in the scratch folder. Runs in a worker or in the main thread.
+ */
+export async function drawWaferPage(o: WaferOutcome, outDir: string, scratchDir: string): Promise<void> {
+  const model = waferPageModel(o);
+  for (const section of [model.transportDepth, model.structure, model.images] as ({ files?: { path: string; bytes: Buffer }[] } | undefined)[]) {
+    for (const f of section?.files ?? []) {
+      const parts = f.path.split("/");
+      if (parts[0] !== "wafers" || parts[1] !== o.folder || parts.includes("..")) throw new Error(`section file outside its wafer folder: ${f.path}`);
+      await fs.mkdir(path.dirname(path.join(outDir, ...parts)), { recursive: true });
+      await fs.writeFile(path.join(outDir, ...parts), f.bytes);
     }
-    const parked = v8.serialize(model);
-    const job = (async () => {
-      for (const f of files) {
-        const parts = f.path.split("/");
-        if (parts[0] !== "wafers" || parts[1] !== o.folder || parts.includes("..")) throw new Error(`section file outside its wafer folder: ${f.path}`);
-        await fs.mkdir(path.dirname(path.join(this.outDir, ...parts)), { recursive: true });
-        await fs.writeFile(path.join(this.outDir, ...parts), f.bytes);
-      }
-      await fs.mkdir(this.scratchDir, { recursive: true });
-      await fs.writeFile(this.parkedPath(o.folder), parked);
-    })();
-    job.catch(() => {});
-    this.writes.push(job);
+    if (section?.files) section.files = [];
   }
+  await fs.mkdir(scratchDir, { recursive: true });
+  await fs.writeFile(parkedPath(scratchDir, o.folder), v8.serialize(model));
+}
 
-  /**
-   * Renders every drawn page (in the given order), PAGES_PER_RENDER per
-   * Eleventy run; returns the number of files Eleventy wrote.
-   */
-  async render(order: readonly string[], meta: SiteMeta, extras: ReadonlyMap<string, PageExtras>, fingerprints: ReadonlyMap<string, string>): Promise<number> {
-    await Promise.all(this.writes);
-    const folders = order.filter((f) => this.drawn.has(f));
-    let written = 0;
-    for (let k = 0; k < folders.length; k += PAGES_PER_RENDER) {
-      const batch = [];
-      for (const folder of folders.slice(k, k + PAGES_PER_RENDER)) {
-        const model = v8.deserialize(await fs.readFile(this.parkedPath(folder))) as PageModel;
-        batch.push({ ...model, ...extras.get(folder)!, fingerprint: fingerprints.get(folder) ?? "" });
-      }
-      written += await renderTemplates(path.join(PACKAGE_ROOT, "templates", "wafer.njk"), this.outDir, { meta, wafers: batch });
+/**
+ * Renders the drawn pages of `folders` (in that order), PAGES_PER_RENDER per
+ * Eleventy run, adding what each page shows beside its wafer; returns the
+ * number of pages written.
+ */
+export async function renderWaferPages(folders: readonly string[], outDir: string, scratchDir: string, meta: SiteMeta, extras: ReadonlyMap<string, PageExtras>, fingerprints: ReadonlyMap<string, string>): Promise<number> {
+  let written = 0;
+  for (let k = 0; k < folders.length; k += PAGES_PER_RENDER) {
+    const batch = [];
+    for (const folder of folders.slice(k, k + PAGES_PER_RENDER)) {
+      const model = v8.deserialize(await fs.readFile(parkedPath(scratchDir, folder))) as PageModel;
+      batch.push({ ...model, ...extras.get(folder)!, fingerprint: fingerprints.get(folder) ?? "" });
     }
-    return written;
+    written += await renderTemplates(path.join(PACKAGE_ROOT, "templates", "wafer.njk"), outDir, { meta, wafers: batch });
   }
-
-  private parkedPath(folder: string): string {
-    return path.join(this.scratchDir, `${encodeURIComponent(folder)}.v8`);
-  }
+  return written;
 }
 
 /** Runs Eleventy on templates/ (or one template of it) with `wb` as global data, into outDir; returns the number of files written. */

@@ -1,11 +1,12 @@
-/** Worker side of workerPool.ts: analyses one folder per message and replies with plain data. */
+/** Worker side of workerPool.ts: runs one wafer job per message (waferJob.ts) and replies with plain data. */
 import { parentPort, workerData } from "node:worker_threads";
-import { analyseFolder, type AnalyseContext } from "./analyseFolder.ts";
+import { analyseJob, drawJob, type JobContext } from "./waferJob.ts";
 
-const ctx = workerData as AnalyseContext;
-parentPort!.on("message", async (m: { id: number; folder: string; key?: string }) => {
+const ctx = workerData as JobContext;
+parentPort!.on("message", async (m: { id: number; kind: "analyse" | "draw"; folder: string; key?: string }) => {
   try {
-    parentPort!.postMessage({ id: m.id, ok: true, result: await analyseFolder(m.folder, ctx, m.key) });
+    const result = m.kind === "draw" ? await drawJob(m.folder, ctx, m.key) : await analyseJob(m.folder, ctx, m.key);
+    parentPort!.postMessage({ id: m.id, ok: true, result });
   } catch (e) {
     parentPort!.postMessage({ id: m.id, ok: false, error: (e as Error).stack ?? String(e) });
   }

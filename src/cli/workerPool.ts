@@ -1,50 +1,53 @@
 /**
- * Analyses wafer folders, in parallel on worker threads (node:worker_threads)
- * where that pays, each wafer independently, and returns the results in the
- * order of the folders given, whatever order they finish in — so the output
+ * Runs the per-wafer jobs of a build (waferJob.ts: analyse and draw, or draw
+ * again from the cache), in parallel on worker threads (node:worker_threads)
+ * where that pays, each wafer independently; results are put back in the
+ * order of the folders given, whatever order they finish in, so the output
  * is the same as a sequential build.
  *
  * Cache look-ups (hash the wafer's files, read its slim entry) run in this
- * thread, a few folders at a time. The first misses start the pool, and
- * every further miss goes to it at once, so hashing overlaps analysis instead
- * of preceding it. The pool size is os.availableParallelism(), capped at
- * MAX_WORKERS and at the wafers that can still miss; with one core, or when
- * fewer than MIN_WAFERS_FOR_WORKERS wafers could miss, the misses are
- * analysed in this thread (starting a worker costs a few tenths of a second
- * of module loading). WAFERBOOK_WORKERS=n overrides the size (0 = in this
- * thread).
+ * thread, a few folders at a time. The first misses start the pool, and every
+ * further miss goes to it at once, so hashing overlaps analysis instead of
+ * preceding it. The pool size is os.availableParallelism(), capped at
+ * MAX_WORKERS and at the jobs that can still come; with one core, or fewer
+ * than MIN_WAFERS_FOR_WORKERS jobs, they run in this thread (starting a
+ * worker costs a few tenths of a second of module loading).
+ * WAFERBOOK_WORKERS=n overrides the size (0 = in this thread).
  */
 import os from "node:os";
 import { Worker } from "node:worker_threads";
 import pLimit from "p-limit";
 import { workerEntry } from "./paths.ts";
-import { analyseFolder, lookUpFolder, type AnalyseContext, type AnalysedFolder } from "./analyseFolder.ts";
+import { lookUpFolder, type AnalysedFolder } from "./analyseFolder.ts";
+import { analyseJob, drawJob, type JobContext, type JobResult } from "./waferJob.ts";
 
 export const MAX_WORKERS = 8;
-/** Below this many wafers, starting workers costs more than it saves. */
+/** Below this many jobs, starting workers costs more than it saves. */
 export const MIN_WAFERS_FOR_WORKERS = 6;
 /** Misses seen before the pool starts (one changed wafer is cheaper in this thread). */
 const MISSES_TO_START_POOL = 2;
 
-export function poolSize(wafers: number): number {
+export function poolSize(jobs: number): number {
   const env = process.env.WAFERBOOK_WORKERS;
-  if (env !== undefined && /^\d+$/.test(env)) return Math.min(Number(env), wafers);
+  if (env !== undefined && /^\d+$/.test(env)) return Math.min(Number(env), jobs);
   const cores = typeof os.availableParallelism === "function" ? os.availableParallelism() : os.cpus().length;
-  if (cores < 2 || wafers < MIN_WAFERS_FOR_WORKERS) return 0;
-  return Math.min(cores, MAX_WORKERS, wafers);
+  if (cores < 2 || jobs < MIN_WAFERS_FOR_WORKERS) return 0;
+  return Math.min(cores, MAX_WORKERS, jobs);
 }
 
-type Reply = { id: number; ok: true; result: AnalysedFolder } | { id: number; ok: false; error: string };
+type Kind = "analyse" | "draw";
+type Reply = { id: number; ok: true; result: JobResult } | { id: number; ok: false; error: string };
 
-/** A fixed set of analysis workers fed from one queue. */
+/** A fixed set of workers fed from one queue. */
 class Pool {
   private readonly workers: Worker[] = [];
   private readonly idle: Worker[] = [];
-  private readonly queue: { id: number; folder: string; key?: string }[] = [];
-  private readonly waiting = new Map<number, { resolve: (r: AnalysedFolder) => void; reject: (e: Error) => void; folder: string }>();
+  private readonly queue: { id: number; kind: Kind; folder: string; key?: string }[] = [];
+  private readonly waiting = new Map<number, { resolve: (r: JobResult) => void; reject: (e: Error) => void; folder: string }>();
   private failure: Error | undefined;
+  private nextId = 0;
 
-  constructor(size: number, ctx: AnalyseContext) {
+  constructor(size: number, ctx: JobContext) {
     for (let k = 0; k < size; k++) {
       const w = new Worker(workerEntry(), { workerData: ctx });
       this.workers.push(w);
@@ -53,7 +56,7 @@ class Pool {
         const job = this.waiting.get(m.id);
         this.waiting.delete(m.id);
         if (m.ok) job?.resolve(m.result);
-        else job?.reject(new Error(`analysis of ${job.folder} failed in a worker:\n${m.error}`));
+        else job?.reject(new Error(`${job.folder} failed in a worker:\n${m.error}`));
         this.idle.push(w);
         this.pump();
       });
@@ -61,11 +64,16 @@ class Pool {
     }
   }
 
-  run(id: number, folder: string, key?: string): Promise<AnalysedFolder> {
+  get size(): number {
+    return this.workers.length;
+  }
+
+  run(kind: Kind, folder: string, key?: string): Promise<JobResult> {
     if (this.failure) return Promise.reject(this.failure);
+    const id = this.nextId++;
     return new Promise((resolve, reject) => {
       this.waiting.set(id, { resolve, reject, folder });
-      this.queue.push({ id, folder, key });
+      this.queue.push({ id, kind, folder, key });
       this.pump();
     });
   }
@@ -85,51 +93,79 @@ class Pool {
   }
 }
 
-/** Analyses every folder; onDone(i) is called as each finishes (progress, page models). Internal errors reject. */
-export async function analyseAll(folders: string[], ctx: AnalyseContext, onDone: (i: number, r: AnalysedFolder) => void = () => {}): Promise<AnalysedFolder[]> {
-  const results: AnalysedFolder[] = new Array(folders.length);
-  const misses: { i: number; key?: string }[] = [];
-  const running: Promise<void>[] = [];
-  let pool: Pool | undefined;
-  const toPool = (p: Pool, m: { i: number; key?: string }) => {
-    const job = p.run(m.i, folders[m.i], m.key).then((r) => {
-      onDone(m.i, (results[m.i] = r));
-    });
-    // Handled here so a failure while look-ups go on is not an unhandled rejection; Promise.all below reports it.
-    job.catch(() => {});
-    running.push(job);
-  };
-  try {
-    // A few look-ups at a time: each is file reads and hashing, mostly waiting on the disk.
-    const limit = pLimit(4);
-    let looked = 0;
-    await Promise.all(
-      folders.map((f, i) =>
-        limit(async () => {
-          const { key, hit } = await lookUpFolder(f, ctx);
-          looked++;
-          if (hit) {
-            onDone(i, (results[i] = hit));
-            return;
-          }
-          misses.push({ i, key });
-          if (!pool && misses.length >= MISSES_TO_START_POOL) {
-            const size = poolSize(misses.length + folders.length - looked);
-            if (size > 0) {
-              pool = new Pool(size, ctx);
-              for (const m of misses) toPool(pool, m);
-            }
-          } else if (pool) toPool(pool, misses.at(-1)!);
-        }),
-      ),
-    );
-    misses.sort((a, b) => a.i - b.i);
-    if (!pool) for (const { i, key } of misses) onDone(i, (results[i] = await analyseFolder(folders[i], ctx, key)));
-    await Promise.all(running);
-  } finally {
-    // Settle every job before the workers go, so no rejection is left unhandled.
-    await Promise.allSettled(running);
-    await pool?.close();
+/** The wafer jobs of one build, sharing one pool (started when first worth it, closed by `close`). */
+export class WaferJobs {
+  private pool: Pool | undefined;
+
+  constructor(private readonly ctx: JobContext) {}
+
+  private startPool(jobsAhead: number): Pool | undefined {
+    if (!this.pool) {
+      const size = poolSize(jobsAhead);
+      if (size > 0) this.pool = new Pool(size, this.ctx);
+    }
+    return this.pool;
   }
-  return results;
+
+  /**
+   * Looks every folder up in the cache; analyses (and draws) the misses.
+   * onDone(i, r, drawn) runs as each finishes, with the slim result.
+   */
+  async analyseAll(folders: string[], onDone: (i: number, r: AnalysedFolder, drawn: boolean) => void = () => {}): Promise<AnalysedFolder[]> {
+    const results: AnalysedFolder[] = new Array(folders.length);
+    const misses: { i: number; key?: string }[] = [];
+    const running: Promise<void>[] = [];
+    const finish = (i: number, j: JobResult) => onDone(i, (results[i] = j.result), j.drawn);
+    const toPool = (p: Pool, m: { i: number; key?: string }) => {
+      const job = p.run("analyse", folders[m.i], m.key).then((j) => finish(m.i, j));
+      // Handled here so a failure while look-ups go on is not an unhandled rejection; Promise.all below reports it.
+      job.catch(() => {});
+      running.push(job);
+    };
+    try {
+      // A few look-ups at a time: each is file reads and hashing, mostly waiting on the disk.
+      const limit = pLimit(4);
+      let looked = 0;
+      await Promise.all(
+        folders.map((f, i) =>
+          limit(async () => {
+            const { key, hit } = await lookUpFolder(f, this.ctx);
+            looked++;
+            if (hit) {
+              onDone(i, (results[i] = hit), false);
+              return;
+            }
+            misses.push({ i, key });
+            if (this.pool) toPool(this.pool, misses.at(-1)!);
+            else if (misses.length >= MISSES_TO_START_POOL) {
+              const pool = this.startPool(misses.length + folders.length - looked);
+              if (pool) for (const m of misses) toPool(pool, m);
+            }
+          }),
+        ),
+      );
+      if (!this.pool) for (const m of misses.sort((a, b) => a.i - b.i)) finish(m.i, await analyseJob(folders[m.i], this.ctx, m.key));
+      await Promise.all(running);
+    } finally {
+      await Promise.allSettled(running);
+    }
+    return results;
+  }
+
+  /** Draws the pages of wafers taken slim from the cache (targets or neighbours changed). */
+  async drawAll(items: { folder: string; key?: string }[]): Promise<void> {
+    const pool = this.pool ?? this.startPool(items.length);
+    if (!pool) {
+      for (const it of items) await drawJob(it.folder, this.ctx, it.key);
+      return;
+    }
+    const jobs = items.map((it) => pool.run("draw", it.folder, it.key));
+    for (const j of jobs) j.catch(() => {});
+    await Promise.all(jobs);
+  }
+
+  async close(): Promise<void> {
+    await this.pool?.close();
+    this.pool = undefined;
+  }
 }
