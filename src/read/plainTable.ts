@@ -38,46 +38,48 @@ const LF = 10;
 const CR = 13;
 
 /**
- * Scans a body of plain numeric rows with `columns` cells each; undefined as
- * soon as anything else is met (the caller then uses csv-parse). Throws
- * nothing.
+ * Scans the body of plain numeric rows with `columns` cells each that starts
+ * at index `start` of `text` (the whole file is passed rather than a slice of
+ * it: reading characters of a flat string is faster than through a slice);
+ * undefined as soon as anything else is met (the caller then uses csv-parse).
+ * Throws nothing.
  */
-export function scanPlainBody(body: string, delimiter: "," | "\t", columns: number): PlainBody | undefined {
+export function scanPlainBody(text: string, start: number, delimiter: "," | "\t", columns: number): PlainBody | undefined {
   if (columns < 1) return undefined;
   let capacity = 1;
-  for (let i = body.indexOf("\n"); i >= 0; i = body.indexOf("\n", i + 1)) capacity++;
+  for (let i = text.indexOf("\n", start); i >= 0; i = text.indexOf("\n", i + 1)) capacity++;
   const cols: Float64Array[] = [];
   for (let j = 0; j < columns; j++) cols.push(new Float64Array(capacity));
   const bodyLines: number[] = [];
   const sep = delimiter.charCodeAt(0);
-  const n = body.length;
+  const n = text.length;
   let crlf = -1; // -1: no line end seen yet, 0: LF, 1: CRLF
-  let p = 0;
+  let p = start;
   let line = 0;
   let rows = 0;
   while (p < n) {
     line++;
-    let c = body.charCodeAt(p);
+    let c = text.charCodeAt(p);
     if (c !== LF && c !== CR) {
       for (let j = 0; ; ) {
         // One number: sign, digits, point, digits, exponent (c is its first character).
         const start = p;
         const negative = c === 45;
-        if (negative || c === 43) c = body.charCodeAt(++p);
+        if (negative || c === 43) c = text.charCodeAt(++p);
         let m = 0;
         const intStart = p;
         while (c >= 48 && c <= 57) {
           m = m * 10 + (c - 48);
-          c = body.charCodeAt(++p);
+          c = text.charCodeAt(++p);
         }
         let digits = p - intStart;
         let fraction = 0;
         if (c === 46) {
-          c = body.charCodeAt(++p);
+          c = text.charCodeAt(++p);
           const fracStart = p;
           while (c >= 48 && c <= 57) {
             m = m * 10 + (c - 48);
-            c = body.charCodeAt(++p);
+            c = text.charCodeAt(++p);
           }
           fraction = p - fracStart;
           digits += fraction;
@@ -85,13 +87,13 @@ export function scanPlainBody(body: string, delimiter: "," | "\t", columns: numb
         if (digits === 0) return undefined;
         let exponent = 0;
         if (c === 101 || c === 69) {
-          c = body.charCodeAt(++p);
+          c = text.charCodeAt(++p);
           const negativeExponent = c === 45;
-          if (negativeExponent || c === 43) c = body.charCodeAt(++p);
+          if (negativeExponent || c === 43) c = text.charCodeAt(++p);
           const expStart = p;
           while (c >= 48 && c <= 57) {
             exponent = exponent * 10 + (c - 48); // Infinity for absurd lengths: Number() decides below
-            c = body.charCodeAt(++p);
+            c = text.charCodeAt(++p);
           }
           if (p === expStart) return undefined;
           if (negativeExponent) exponent = -exponent;
@@ -102,13 +104,13 @@ export function scanPlainBody(body: string, delimiter: "," | "\t", columns: numb
           v = k >= 0 ? m * POW10[k] : m / POW10[-k];
           if (negative) v = -v;
         } else {
-          v = Number(body.slice(start, p));
+          v = Number(text.slice(start, p));
           if (v - v !== 0) return undefined; // beyond the double range: csv-parse path reports it
         }
         cols[j][rows] = v;
         if (++j === columns) break;
         if (c !== sep) return undefined;
-        c = body.charCodeAt(++p);
+        c = text.charCodeAt(++p);
       }
       bodyLines.push(line);
       rows++;
@@ -118,7 +120,7 @@ export function scanPlainBody(body: string, delimiter: "," | "\t", columns: numb
       crlf = 0;
       p++;
     } else if (c === CR) {
-      if (crlf === 0 || body.charCodeAt(p + 1) !== LF) return undefined;
+      if (crlf === 0 || text.charCodeAt(p + 1) !== LF) return undefined;
       crlf = 1;
       p += 2;
     } else if (p < n) return undefined;
@@ -134,7 +136,7 @@ export function scanPlainBody(body: string, delimiter: "," | "\t", columns: numb
  */
 export function parsePlainNumber(text: string): number | undefined {
   if (text.includes("\n") || text.includes("\r")) return undefined;
-  const scanned = scanPlainBody(text, ",", 1);
+  const scanned = scanPlainBody(text, 0, ",", 1);
   return scanned && scanned.bodyLines.length === 1 ? scanned.numeric[0][0] : undefined;
 }
 

@@ -92,14 +92,15 @@ export function readTable(text: string, file: string): RawTable {
     }
     seen.set(c.name, c.index);
   }
-  const body = text.slice(Math.min(pos, text.length));
-  const plain = scanPlainBody(body, delimiter, columns.length);
+  const bodyStart = Math.min(pos, text.length);
+  const plain = scanPlainBody(text, bodyStart, delimiter, columns.length);
   if (plain) {
     if (plain.bodyLines.length === 0) throw noRows(file, headerLine);
     const rowLines = plain.bodyLines;
     for (let i = 0; i < rowLines.length; i++) rowLines[i] += headerLine;
-    return plainTable({ file, meta, columns, headerLine, delimiter, rowLines, numeric: plain.numeric }, body);
+    return plainTable({ file, meta, columns, headerLine, delimiter, rowLines, numeric: plain.numeric }, text, bodyStart);
   }
+  const body = text.slice(bodyStart);
   let records: { record: string[]; info: { lines: number } }[];
   try {
     records = parse(body, {
@@ -137,11 +138,11 @@ function noRows(file: string, headerLine: number): InputError {
  * (`rows`, wanted only by error messages and text columns) is split from the
  * body the first time it is asked for.
  */
-function plainTable(t: Omit<RawTable, "rows">, body: string): RawTable {
+function plainTable(t: Omit<RawTable, "rows">, text: string, bodyStart: number): RawTable {
   let rows: string[][] | undefined;
   return Object.defineProperty(t, "rows", {
     enumerable: true,
-    get: () => (rows ??= splitPlainBody(body, t.delimiter)),
+    get: () => (rows ??= splitPlainBody(text.slice(bodyStart), t.delimiter)),
   }) as RawTable;
 }
 

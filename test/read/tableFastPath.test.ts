@@ -105,7 +105,7 @@ describe("plain numeric fast path of readTable", () => {
       const header = text.split(/\r?\n/).find((l) => !l.startsWith("#"))!;
       const body = text.slice(text.indexOf(header) + header.length).replace(/^\r?\n/, "");
       const delimiter = header.includes("\t") ? "\t" : ",";
-      expect(scanPlainBody(body, delimiter, header.split(delimiter).length)).toBeUndefined();
+      expect(scanPlainBody(body, 0, delimiter, header.split(delimiter).length)).toBeUndefined();
       const o = outcome(text);
       if (!("error" in o)) expect(readTable(text, "t.csv").numeric).toBeUndefined();
     });
