@@ -27,17 +27,34 @@ export function relPath(dataDir: string, abs: string): string {
   return path.relative(dataDir, abs).split(path.sep).join("/");
 }
 
-/** Resolves symbolic links and refuses anything that ends up outside the data folder. */
+/** Resolved data folders (dataDir → its real path), so a build resolves each root once, not once per file. */
+const realRoots = new Map<string, string>();
+
+/** The data folder with symbolic links resolved, memoised per dataDir; a failure is not remembered. */
+async function realRoot(dataDir: string): Promise<string> {
+  let real = realRoots.get(dataDir);
+  if (real === undefined) {
+    real = await fs.realpath(dataDir);
+    realRoots.set(dataDir, real);
+  }
+  return real;
+}
+
+/**
+ * Resolves symbolic links and refuses anything that ends up outside the data
+ * folder. The folder itself is resolved once per process (it is not expected
+ * to be re-linked during a build); each file is resolved on every call.
+ */
 export async function checkInside(dataDir: string, abs: string): Promise<void> {
   const rel = relPath(dataDir, abs);
-  const realRoot = await fs.realpath(dataDir);
+  const realRootDir = await realRoot(dataDir);
   let real: string;
   try {
     real = await fs.realpath(abs);
   } catch {
     throw new InputError({ file: rel, message: "file not found", fix: "check the file name and that it is committed" });
   }
-  const inside = path.relative(realRoot, real);
+  const inside = path.relative(realRootDir, real);
   if (inside.startsWith("..") || path.isAbsolute(inside)) {
     throw new InputError({
       file: rel,

@@ -5,12 +5,14 @@
  *   B [T],Rxx [ohm],Rxy [ohm] ← one header row, units in square brackets
  *   -1.0,612.3,-6241.5        ← rows, comma or tab separated
  *
- * Rows are split by csv-parse (RFC 4180 quoting, CRLF). This module knows
+ * Plain numeric bodies are read in one pass (src/read/plainTable.ts); any
+ * other body is split by csv-parse (RFC 4180 quoting, CRLF). This module knows
  * nothing about physics: it returns located cells; src/validate gives them
  * meaning and units.
  */
 import { parse } from "csv-parse/sync";
 import { InputError } from "../validate/problem.ts";
+import { scanPlainBody, splitPlainBody } from "./plainTable.ts";
 
 export interface MetaEntry {
   value: string;
@@ -30,10 +32,15 @@ export interface RawTable {
   columns: ColumnHeader[];
   headerLine: number;
   delimiter: "," | "\t";
-  /** Cell text, row-major. */
+  /** Cell text, row-major (on the fast path split from the text only when first read). */
   rows: string[][];
-  /** 1-based file line number of each row. */
+  /** 1-based file line number of each row; its length is the number of rows. */
   rowLines: number[];
+  /**
+   * Cell values, column-major (`numeric[col.index][row]`), present when every
+   * cell is a plain finite number (src/read/plainTable.ts); unitless, as written.
+   */
+  numeric?: Float64Array[];
 }
 
 const HEADER_CELL = /^([A-Za-z_][A-Za-z0-9_.]*)\s*(?:\[([^\]]*)\])?$/;
@@ -85,11 +92,17 @@ export function readTable(text: string, file: string): RawTable {
     }
     seen.set(c.name, c.index);
   }
-  const body = text.slice(Math.min(pos, text.length));
+  const bodyStart = Math.min(pos, text.length);
+  const plain = scanPlainBody(text, bodyStart, delimiter, columns.length);
+  if (plain) {
+    if (plain.bodyLines.length === 0) throw noRows(file, headerLine);
+    const rowLines = plain.bodyLines;
+    for (let i = 0; i < rowLines.length; i++) rowLines[i] += headerLine;
+    return plainTable({ file, meta, columns, headerLine, delimiter, rowLines, numeric: plain.numeric }, text, bodyStart);
+  }
+  const body = text.slice(bodyStart);
   let records: { record: string[]; info: { lines: number } }[];
-  const plain = splitPlainRows(body, delimiter);
-  if (plain) records = plain;
-  else try {
+  try {
     records = parse(body, {
       delimiter,
       relax_column_count: true,
@@ -112,44 +125,35 @@ export function readTable(text: string, file: string): RawTable {
     rows.push(r.record);
     rowLines.push(rowLine);
   }
-  if (rows.length === 0) {
-    throw new InputError({ file, line: headerLine, message: "no data rows after the header", expected: "at least one row of numbers", found: "the header only", fix: "add the measured rows or remove the file" });
-  }
+  if (rows.length === 0) throw noRows(file, headerLine);
   return { file, meta, columns, headerLine, delimiter, rows, rowLines };
 }
 
-/** A row of plain numeric cells: digits, sign, point and exponent only, no spaces, quotes or comments. */
-const PLAIN_ROW = { ",": /^[-+0-9.eE]+(?:,[-+0-9.eE]+)*$/, "\t": /^[-+0-9.eE]+(?:\t[-+0-9.eE]+)*$/ };
+function noRows(file: string, headerLine: number): InputError {
+  return new InputError({ file, line: headerLine, message: "no data rows after the header", expected: "at least one row of numbers", found: "the header only", fix: "add the measured rows or remove the file" });
+}
 
 /**
- * Fast path for the common case, a body of plain numeric rows (LF or CRLF line
- * ends, empty lines allowed): splits each line on the delimiter and numbers
- * the rows as csv-parse's `info.lines` would. Returns undefined as soon as
- * any line is anything else (quotes, comments, spaces, empty cells, text, a
- * lone CR …), and the caller then parses the whole body with csv-parse, so
- * every unusual file, and every error message, goes through the library
- * exactly as before.
+ * A table read by the fast path: `numeric` holds every cell; the cell text
+ * (`rows`, wanted only by error messages and text columns) is split from the
+ * body the first time it is asked for.
  */
-function splitPlainRows(body: string, delimiter: "," | "\t"): { record: string[]; info: { lines: number } }[] | undefined {
-  const re = PLAIN_ROW[delimiter];
-  const out: { record: string[]; info: { lines: number } }[] = [];
-  let pos = 0;
-  let line = 0;
-  while (pos < body.length) {
-    let end = body.indexOf("\n", pos);
-    if (end < 0) end = body.length;
-    line++;
-    const raw = body.charCodeAt(end - 1) === 13 && end > pos ? body.slice(pos, end - 1) : body.slice(pos, end);
-    pos = end + 1;
-    if (raw === "") continue;
-    if (!re.test(raw)) return undefined;
-    out.push({ record: raw.split(delimiter), info: { lines: line } });
-  }
-  return out;
+function plainTable(t: Omit<RawTable, "rows">, text: string, bodyStart: number): RawTable {
+  let rows: string[][] | undefined;
+  return Object.defineProperty(t, "rows", {
+    enumerable: true,
+    get: () => (rows ??= splitPlainBody(text.slice(bodyStart), t.delimiter)),
+  }) as RawTable;
 }
 
 /** Parses a numeric column; non-numeric, NaN and infinite cells are errors naming row and column. */
 export function numericColumn(table: RawTable, col: ColumnHeader, factor = 1, offset = 0): Float64Array {
+  const values = table.numeric?.[col.index];
+  if (values) {
+    const out = new Float64Array(values.length);
+    for (let i = 0; i < values.length; i++) out[i] = values[i] * factor + offset;
+    return out;
+  }
   const out = new Float64Array(table.rows.length);
   for (let i = 0; i < table.rows.length; i++) {
     const cell = table.rows[i][col.index];

@@ -138,7 +138,10 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
     if (!currentCol && current_A === undefined) {
       throw new InputError({ file: t.file, line: t.headerLine, field: `column ${name}`, message: "voltage given without the current", expected: "an I column or a line \"# current: 10 nA\"", found: "neither", fix: "add the source current so voltages can be turned into resistances" });
     }
-    return v.map((vv, i) => vv / (currentCol ? currentCol[i] : current_A!));
+    // v is this call's own array (numericColumn): divide in place.
+    if (currentCol) for (let i = 0; i < v.length; i++) v[i] /= currentCol[i];
+    else for (let i = 0; i < v.length; i++) v[i] /= current_A!;
+    return v;
   };
   const rxx = toResistance("Rxx") ?? toResistance("Vxx");
   const rxy = toResistance("Rxy") ?? toResistance("Vxy");

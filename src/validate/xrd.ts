@@ -100,8 +100,8 @@ function readMap(t: RawTable, common: XrdCommon): XrdFile {
   if (back >= 0) {
     throw new InputError({ file: t.file, line: t.rowLines[back], message: "ω is not below 2θ", expected: "an incidence angle ω smaller than the scattering angle 2θ (reflection geometry)", found: `ω = ${t.rows[back][need(t, "omega", "map").index]}°, 2θ = ${t.rows[back][need(t, "two_theta", "map").index]}°`, fix: "check that the omega and two_theta columns are not swapped" });
   }
-  if (t.rows.length < 25) {
-    throw new InputError({ file: t.file, line: t.headerLine, message: "too few points for a reciprocal-space map", expected: "at least 25 points", found: `${t.rows.length}`, fix: "export the whole map, or give a peak table (columns layer, omega, two_theta) instead" });
+  if (t.rowLines.length < 25) {
+    throw new InputError({ file: t.file, line: t.headerLine, message: "too few points for a reciprocal-space map", expected: "at least 25 points", found: `${t.rowLines.length}`, fix: "export the whole map, or give a peak table (columns layer, omega, two_theta) instead" });
   }
   const points = Array.from(w, (o, i) => ({ omega: o, twoTheta: tt[i], counts: counts[i] }));
   const distinct = (a: Float64Array) => new Set(Array.from(a, (x) => Math.round(x / DEG * 1e6))).size;
