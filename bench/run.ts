@@ -28,6 +28,8 @@ export interface BuildRun {
   wall_s: number;
   maxRSS_MB: number;
   cacheHits: number;
+  /** Wafer pages reused unchanged from the previous output. */
+  pagesReused: number;
   analysed: number;
   phases_ms: Record<string, number>;
 }
@@ -68,9 +70,9 @@ export async function runBuild(dataDir: string, outDir: string, extraArgs: strin
   const [cmd, argv] = timeBin ? ["/usr/bin/time", ["-f", "%M", "-o", rssFile, process.execPath, ...args]] : [process.execPath, args];
   execFileSync(cmd, argv, { env: { ...process.env, WAFERBOOK_STATS: statsFile }, stdio: ["ignore", "ignore", "pipe"], maxBuffer: 64 * 1024 * 1024 });
   const wall = (performance.now() - t) / 1000;
-  const s = JSON.parse(await fs.readFile(statsFile, "utf8").catch(() => "{}")) as { cacheHits?: number; analysed?: number; phases?: Record<string, number>; maxRSS_kB?: number };
+  const s = JSON.parse(await fs.readFile(statsFile, "utf8").catch(() => "{}")) as { cacheHits?: number; analysed?: number; pagesReused?: number; phases?: Record<string, number>; maxRSS_kB?: number };
   const rss = timeBin ? Number((await fs.readFile(rssFile, "utf8")).trim().split("\n").at(-1)) : s.maxRSS_kB ?? 0;
-  return { wall_s: round(wall, 2), maxRSS_MB: round(rss / 1024, 0), cacheHits: s.cacheHits ?? 0, analysed: s.analysed ?? -1, phases_ms: s.phases ?? {} };
+  return { wall_s: round(wall, 2), maxRSS_MB: round(rss / 1024, 0), cacheHits: s.cacheHits ?? 0, analysed: s.analysed ?? -1, pagesReused: s.pagesReused ?? 0, phases_ms: s.phases ?? {} };
 }
 
 /** Page weight of every wafer page: index.html plus the PNGs beside it, kB. */
@@ -122,7 +124,7 @@ export async function bench(size: BenchSize, dir: string, log: (s: string) => vo
 }
 
 export function table(r: BenchResult): string {
-  const run = (b: BuildRun) => `${b.wall_s} s (re-analysed ${b.analysed}, cached ${b.cacheHits}; ${Object.entries(b.phases_ms).map(([k, v]) => `${k} ${(v / 1000).toFixed(1)}`).join(", ")} s)`;
+  const run = (b: BuildRun) => `${b.wall_s} s (re-analysed ${b.analysed}, cached ${b.cacheHits}, pages reused ${b.pagesReused}; ${Object.entries(b.phases_ms).map(([k, v]) => `${k} ${(v / 1000).toFixed(1)}`).join(", ")} s)`;
   const rows: [string, string][] = [
     ["size", `${r.size.wafers} wafers × ${r.size.devices} devices × ${r.size.sweeps} sweeps × ${r.size.points} points${r.size.images ? " + images" : ""}; ${r.cores} cores`],
     ["raw data", `${r.raw_MB} MB (sweeps ${r.sweep_MB} MB)`],

@@ -150,6 +150,8 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
         else toDraw.push({ folder: o.folder, key: found[i].key });
       }
       await jobs.drawAll(toDraw);
+      // The workers' heaps go before rendering, the main thread's busiest moment for memory.
+      await jobs.close();
       stats = { cacheHits: analysed.filter((a) => a.cacheHit).length, analysed: analysed.filter((a) => !a.cacheHit).length, pagesReused: reused.size, phases };
       const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history });
       lap("model");
