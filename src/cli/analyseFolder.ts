@@ -8,6 +8,7 @@ import path from "node:path";
 import { analyseWafer, type WaferAnalysis } from "../analyse/wafer.ts";
 import type { DeviceDepth } from "../analyse/transport/deviceDepth.ts";
 import { loadWafer, type LoadContext } from "../read/wafer.ts";
+import type { FileHashes } from "./fileHashes.ts";
 import { cacheKey, readEntry, writeEntry, type CacheEntry, type EntryForm } from "./cache.ts";
 
 export interface AnalyseContext extends LoadContext {
@@ -27,9 +28,9 @@ export interface AnalysedFolder {
 }
 
 /** The cached (slim) result of one wafer folder, if any, and its cache key (undefined without a cache). */
-export async function lookUpFolder(folder: string, ctx: AnalyseContext): Promise<{ key?: string; hit?: AnalysedFolder }> {
+export async function lookUpFolder(folder: string, ctx: AnalyseContext, hashes?: FileHashes): Promise<{ key?: string; hit?: AnalysedFolder }> {
   if (!ctx.cacheDir) return {};
-  const key = await cacheKey(path.join(ctx.dataDir, "wafers", folder), ctx.code, ctx.siteSettings);
+  const key = await cacheKey(path.join(ctx.dataDir, "wafers", folder), ctx.code, ctx.siteSettings, hashes);
   const entry = await readEntry(ctx.cacheDir, key, "slim");
   return { key, hit: entry && entry.folder === folder ? { entry, cacheHit: true, form: "slim", key } : undefined };
 }

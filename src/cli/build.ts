@@ -40,8 +40,8 @@ export interface BuildResult {
   problems: Problem[];
   outDir: string;
   pages: number;
-  /** Wafers taken from the analysis cache / analysed from raw files; wafer pages reused unchanged from the previous output; wall time of each phase, ms. */
-  stats?: { cacheHits: number; analysed: number; pagesReused: number; phases: Record<string, number> };
+  /** Wafers taken from the analysis cache / analysed from raw files; wafer pages reused unchanged from the previous output; raw files read to compute cache keys (the others' hashes came from the file-hash record); wall time of each phase, ms. */
+  stats?: { cacheHits: number; analysed: number; pagesReused: number; filesHashed: number; phases: Record<string, number> };
 }
 
 export class BuildLockedError extends Error {}
@@ -152,7 +152,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       await jobs.drawAll(toDraw);
       // The workers' heaps go before rendering, the main thread's busiest moment for memory.
       await jobs.close();
-      stats = { cacheHits: analysed.filter((a) => a.cacheHit).length, analysed: analysed.filter((a) => !a.cacheHit).length, pagesReused: reused.size, phases };
+      stats = { cacheHits: analysed.filter((a) => a.cacheHit).length, analysed: analysed.filter((a) => !a.cacheHit).length, pagesReused: reused.size, filesHashed: jobs.fileHashes?.hashed ?? 0, phases };
       const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history });
       lap("model");
       written = await renderTemplates(path.join(PACKAGE_ROOT, "templates"), tmpDir, model);

@@ -33,6 +33,7 @@ import type { RawFileInfo } from "../read/wafer.ts";
 import type { Problem } from "../validate/problem.ts";
 import type { WaferRecord } from "../validate/wafer.ts";
 import { listFiles } from "../read/dataFiles.ts";
+import type { FileHashes } from "./fileHashes.ts";
 
 /** Bumped when the entry's shape changes. */
 export const CACHE_FORMAT = "waferbook-cache-3";
@@ -75,20 +76,25 @@ export async function codeVersion(packageVersion: string): Promise<string> {
 }
 
 
-/** The cache key of one wafer folder (hex SHA-256); reads and hashes its files (several at a time) without parsing them. */
-export async function cacheKey(waferDir: string, code: string, siteSettings: unknown): Promise<string> {
+/**
+ * The cache key of one wafer folder (hex SHA-256); hashes its files (several
+ * at a time, or takes unchanged files' hashes from `hashes`) without parsing
+ * them.
+ */
+export async function cacheKey(waferDir: string, code: string, siteSettings: unknown, hashes?: FileHashes): Promise<string> {
   const files = await listFiles(waferDir).catch(() => [] as string[]);
   const limit = pLimit(8);
-  const digests = await Promise.all(files.map((rel) => limit(() => fileDigest(path.join(waferDir, rel)))));
+  const digests = await Promise.all(files.map((rel) => limit(() => fileDigest(path.join(waferDir, rel), hashes))));
   const h = createHash("sha256").update(`${code}\0${JSON.stringify(siteSettings)}\0`);
   files.forEach((rel, i) => h.update(`${rel}\0${digests[i]}\0`));
   return h.digest("hex");
 }
 
-async function fileDigest(abs: string): Promise<string> {
+async function fileDigest(abs: string, hashes?: FileHashes): Promise<string> {
   try {
     const st = await fs.lstat(abs);
-    return st.isFile() ? createHash("sha256").update(await fs.readFile(abs)).digest("hex") : `special:${st.mode}`;
+    if (!st.isFile()) return `special:${st.mode}`;
+    return hashes ? await hashes.sha256(abs, st) : createHash("sha256").update(await fs.readFile(abs)).digest("hex");
   } catch {
     // A file that vanished or cannot be read: the loader will report it.
     return "unreadable";
@@ -142,22 +148,24 @@ async function writeAtomically(dest: string, bytes: Buffer): Promise<void> {
 }
 
 /**
- * The analysis without its bulk arrays: every typed array (traces, map
- * points' columns, image pixels, strain maps) becomes an empty one of the same
- * kind, and XRD map points and the charted Shubnikov–de Haas trace and
- * spectrum are dropped. Every scalar figure, fit and reason is kept, so
- * judging and every site-wide output give the same result from either form
- * (test/cli/incremental.test.ts builds both ways and compares).
+ * The analysis without its bulk arrays: every typed array (traces, image
+ * pixels, strain maps) becomes an empty one of the same kind, the plain
+ * number arrays that only charts read (BULK_ARRAYS: SdH traces and spectra,
+ * gate-sweep columns other than the gate voltage, depth-profile columns)
+ * become empty, and XRD map points are dropped. Every scalar figure, fit,
+ * reason and per-point result is kept, so judging and every site-wide output
+ * give the same result from either form (test/cli/slimEntry.test.ts).
  */
 export function slimAnalysis(analysis: WaferAnalysis): WaferAnalysis {
-  return strip(analysis) as WaferAnalysis;
+  return strip(analysis, "") as WaferAnalysis;
 }
 
-const BULK_NUMBER_ARRAYS = new Set(["inverseField", "oscillation", "frequency", "amplitude"]);
+/** Names of plain number arrays read only by charts (results.json counts gate-sweep points from `gateVoltage`, which stays). */
+const BULK_ARRAYS = new Set(["inverseField", "oscillation", "frequency", "amplitude", "sheetResistance", "density", "conductivity", "depth", "ge"]);
 
-function strip(x: unknown, key = ""): unknown {
+function strip(x: unknown, key: string): unknown {
   if (ArrayBuffer.isView(x)) return new (x.constructor as new (n: number) => ArrayBufferView)(0);
-  if (Array.isArray(x)) return BULK_NUMBER_ARRAYS.has(key) && typeof x[0] === "number" ? [] : x.map((v) => strip(v));
+  if (Array.isArray(x)) return BULK_ARRAYS.has(key) && typeof x[0] === "number" ? [] : x.map((v) => strip(v, ""));
   if (x === null || typeof x !== "object") return x;
   const out: Record<string, unknown> = {};
   for (const [k, v] of Object.entries(x)) out[k] = k === "points" && isMapPoints(v) ? undefined : strip(v, k);

@@ -18,6 +18,7 @@ import os from "node:os";
 import { Worker } from "node:worker_threads";
 import pLimit from "p-limit";
 import { workerEntry } from "./paths.ts";
+import { FileHashes } from "./fileHashes.ts";
 import { lookUpFolder, type AnalysedFolder } from "./analyseFolder.ts";
 import { analyseJob, drawJob, type JobContext, type JobResult } from "./waferJob.ts";
 
@@ -96,6 +97,8 @@ class Pool {
 /** The wafer jobs of one build, sharing one pool (started when first worth it, closed by `close`). */
 export class WaferJobs {
   private pool: Pool | undefined;
+  /** The file-hash record used by the last analyseAll (counts of files hashed and reused). */
+  fileHashes: FileHashes | undefined;
 
   constructor(private readonly ctx: JobContext) {}
 
@@ -113,6 +116,7 @@ export class WaferJobs {
    */
   async analyseAll(folders: string[], onDone: (i: number, r: AnalysedFolder, drawn: boolean) => void = () => {}): Promise<AnalysedFolder[]> {
     const results: AnalysedFolder[] = new Array(folders.length);
+    const hashes = (this.fileHashes = await FileHashes.open(this.ctx.cacheDir));
     const misses: { i: number; key?: string }[] = [];
     const running: Promise<void>[] = [];
     const finish = (i: number, j: JobResult) => onDone(i, (results[i] = j.result), j.drawn);
@@ -129,7 +133,7 @@ export class WaferJobs {
       await Promise.all(
         folders.map((f, i) =>
           limit(async () => {
-            const { key, hit } = await lookUpFolder(f, this.ctx);
+            const { key, hit } = await lookUpFolder(f, this.ctx, hashes);
             looked++;
             if (hit) {
               onDone(i, (results[i] = hit), false);
@@ -149,6 +153,7 @@ export class WaferJobs {
     } finally {
       await Promise.allSettled(running);
     }
+    await hashes.save();
     return results;
   }
 
