@@ -163,7 +163,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     }
     const problems = [...site.problems, ...outcomes.flatMap((o) => o.problems)];
     await writeExtras(outcomes, dataDir, tmpDir, meta.dataCommit ?? null, outDir, reused);
-    await writeExports(outcomes, tmpDir, meta, site.runs);
+    await writeExports(outcomes, tmpDir, meta, site.runs, reused);
     await writeSearch(outcomes, site.runs, tmpDir, PACKAGE_ROOT);
     await swapInto(tmpDir, outDir);
     lap("write");
@@ -215,22 +215,32 @@ async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: st
   await fs.copyFile(chartJs, path.join(tmpDir, "assets", "chart.umd.min.js"));
 }
 
-/** One wafer's results.json and raw-file copies, and its reused page's files (a drawn page's pictures are written as it is drawn). */
+/**
+ * One wafer's results.json and raw-file copies; for a reused page, its whole
+ * previous folder is linked instead (raw copies, points.csv and pictures are
+ * determined by the page fingerprint) and only results.json is written.
+ */
 async function writeWaferExtras(o: WaferOutcome, dataDir: string, tmpDir: string, dataCommit: string | null, outDir: string, reused: boolean): Promise<void> {
   const dir = path.join(tmpDir, "wafers", o.folder);
-  await fs.mkdir(dir, { recursive: true });
   const prevDir = path.join(outDir, "wafers", o.folder);
-  const prevHashes = await previousCopies(prevDir);
-  await fs.writeFile(path.join(dir, "results.json"), JSON.stringify(resultsJson(o, dataCommit), null, 1) + "\n");
-  for (const f of o.provenance.files) {
-    const parts = f.path.split("/");
-    if (parts[0] !== "wafers" || parts[1] !== o.folder) continue;
-    const dest = path.join(dir, "raw", ...parts.slice(2));
-    await fs.mkdir(path.dirname(dest), { recursive: true });
-    const same = prevHashes.get(f.path) === f.sha256;
-    await placeRawCopy(path.join(dataDir, ...parts), dest, same ? path.join(prevDir, "raw", ...parts.slice(2)) : undefined);
-  }
   if (reused) await linkReusedPage(prevDir, dir);
+  else {
+    await fs.mkdir(dir, { recursive: true });
+    const prevHashes = await previousCopies(prevDir);
+    const made = new Set<string>();
+    for (const f of o.provenance.files) {
+      const parts = f.path.split("/");
+      if (parts[0] !== "wafers" || parts[1] !== o.folder) continue;
+      const dest = path.join(dir, "raw", ...parts.slice(2));
+      if (!made.has(path.dirname(dest))) {
+        await fs.mkdir(path.dirname(dest), { recursive: true });
+        made.add(path.dirname(dest));
+      }
+      const same = prevHashes.get(f.path) === f.sha256;
+      await placeRawCopy(path.join(dataDir, ...parts), dest, same ? path.join(prevDir, "raw", ...parts.slice(2)) : undefined);
+    }
+  }
+  await fs.writeFile(path.join(dir, "results.json"), JSON.stringify(resultsJson(o, dataCommit), null, 1) + "\n");
 }
 
 /**

@@ -61,23 +61,23 @@ export async function previousFingerprint(pageFile: string): Promise<string | un
 }
 
 /**
- * Hard-links a reused page's files (index.html and its pictures) from the
- * previous output's wafer folder into the new one, leaving out what every
- * build writes afresh (results.json, points.csv) and the raw-file copies
- * (placed separately). Falls back to copying where links fail.
+ * Hard-links a reused page's folder (index.html, its pictures, points.csv and
+ * the raw-file copies: all determined by the fingerprint) from the previous
+ * output into the new one, except results.json, which every build writes
+ * afresh (it names the data commit). Nothing may later write to a linked path:
+ * that would change the previous output too. Falls back to copying where
+ * links fail.
  */
 export async function linkReusedPage(prevDir: string, newDir: string, rel = ""): Promise<void> {
-  for (const e of await fs.readdir(path.join(prevDir, rel), { withFileTypes: true })) {
+  const entries = await fs.readdir(path.join(prevDir, rel), { withFileTypes: true });
+  await fs.mkdir(path.join(newDir, rel), { recursive: true });
+  for (const e of entries) {
     const r = rel ? `${rel}/${e.name}` : e.name;
-    if (!rel && (e.name === "raw" || e.name === "results.json" || e.name === "points.csv")) continue;
+    if (r === "results.json") continue;
     const from = path.join(prevDir, r);
     const to = path.join(newDir, r);
-    if (e.isDirectory()) {
-      await fs.mkdir(to, { recursive: true });
-      await linkReusedPage(prevDir, newDir, r);
-    } else if (e.isFile()) {
-      await fs.mkdir(path.dirname(to), { recursive: true });
-      await fs.link(from, to).catch(() => fs.copyFile(from, to));
-    }
+    if (e.isDirectory()) await linkReusedPage(prevDir, newDir, r);
+    else if (e.isFile()) await fs.link(from, to).catch(() => fs.copyFile(from, to));
   }
 }
+
