@@ -5,7 +5,7 @@
  * place. A failed build leaves the previous output exactly as it was. A lock
  * file keeps two builds from writing the same output at once.
  */
-import { promises as fs, constants as fsc } from "node:fs";
+import { linkSync, promises as fs, constants as fsc } from "node:fs";
 import path from "node:path";
 import pLimit from "p-limit";
 import { judgeOutcome, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
@@ -13,6 +13,7 @@ import { codeVersion, defaultCacheDir } from "./cache.ts";
 import { WaferJobs } from "./workerPool.ts";
 import { loadSiteInputs } from "../read/site.ts";
 import { buildSiteModel, sortOutcomes, waferPageExtras, type SiteMeta } from "../publish/siteModel.ts";
+import { rawCopyPath } from "../publish/rawCopies.ts";
 import { linkReusedPage, pageCodeVersion, pageFingerprint, previousFingerprint } from "./pageReuse.ts";
 import type { AnalysedFolder } from "./analyseFolder.ts";
 import { renderTemplates, renderWaferPages } from "./waferPages.ts";
@@ -115,6 +116,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     const drawn = new Set<string>();
     const reused = new Set<string>();
     let meta: SiteMeta;
+    let commitsOf: CommitsOf = () => ({ wafer: null, targets: null });
     let written = 0;
     let stats: NonNullable<BuildResult["stats"]>;
     let failure: unknown;
@@ -139,6 +141,8 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       meta = { title: "waferbook", version, builtAt: io.now(), basePath: options.basePath, dataCommit: history?.head ?? null };
       const sorted = sortOutcomes(outcomes);
       const pageExtras = waferPageExtras(sorted, meta.basePath, history);
+      const targetsCommit = history?.targetsVersions[0]?.hash ?? null;
+      commitsOf = (folder) => ({ wafer: pageExtras.get(folder)?.history.commits[0]?.hash ?? null, targets: targetsCommit });
       const pageCode = await pageCodeVersion(version);
       const fingerprints = new Map<string, string>();
       const toDraw: { folder: string; key?: string }[] = [];
@@ -162,7 +166,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       await jobs.close();
     }
     const problems = [...site.problems, ...outcomes.flatMap((o) => o.problems)];
-    await writeExtras(outcomes, dataDir, tmpDir, meta.dataCommit ?? null, outDir, reused);
+    await writeExtras(outcomes, dataDir, tmpDir, commitsOf, outDir, reused);
     await writeExports(outcomes, tmpDir, meta, site.runs, reused);
     await writeSearch(outcomes, site.runs, tmpDir, PACKAGE_ROOT);
     await swapInto(tmpDir, outDir);
@@ -175,72 +179,57 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
   }
 }
 
-/**
- * SHA-256 of each raw-file copy in the previous output's wafer folder, from its
- * results.json provenance (empty when there is no usable previous output).
- */
-async function previousCopies(prevWaferDir: string): Promise<Map<string, string>> {
-  try {
-    const prev = JSON.parse(await fs.readFile(path.join(prevWaferDir, "results.json"), "utf8")) as { provenance?: { files?: { path: string; sha256: string }[] } };
-    return new Map((prev.provenance?.files ?? []).map((f) => [f.path, f.sha256]));
-  } catch {
-    return new Map();
-  }
-}
+type CommitsOf = (folder: string) => { wafer: string | null; targets: string | null };
 
 /**
- * Puts a copy of a raw file into the new output. When the previous output
- * already holds a copy with the same SHA-256, that copy (ours, never the raw
- * file) is hard-linked instead of copying the bytes again; anything unusual
- * falls back to a plain copy.
+ * Writes each wafer's results.json and places its raw-file copies in the
+ * site's content-addressed raw/ folder (src/publish/rawCopies.ts); a reused
+ * page's folder is linked from the previous output as it is. Several wafers at
+ * a time: this is file copies, links and small writes, mostly waiting on the
+ * disk.
  */
-async function placeRawCopy(rawAbs: string, dest: string, prevCopy: string | undefined): Promise<void> {
-  if (prevCopy) {
-    try {
-      await fs.link(prevCopy, dest);
-      return;
-    } catch {
-      // different file systems, missing file, or links not allowed: copy
-    }
-  }
-  await fs.copyFile(rawAbs, dest);
-}
-
-async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string, dataCommit: string | null, outDir: string, reused: ReadonlySet<string>): Promise<void> {
-  // Several wafers at a time: this is file copies, links and small writes, mostly waiting on the disk.
+async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string, commitsOf: CommitsOf, outDir: string, reused: ReadonlySet<string>): Promise<void> {
+  await fs.mkdir(path.join(tmpDir, "raw"), { recursive: true });
+  const placed = new Set<string>();
   const limit = pLimit(8);
-  await Promise.all(outcomes.map((o) => limit(() => writeWaferExtras(o, dataDir, tmpDir, dataCommit, outDir, reused.has(o.folder)))));
+  await Promise.all(
+    outcomes.map((o) =>
+      limit(async () => {
+        const dir = path.join(tmpDir, "wafers", o.folder);
+        if (reused.has(o.folder)) await linkReusedPage(path.join(outDir, "wafers", o.folder), dir);
+        else {
+          await fs.mkdir(dir, { recursive: true });
+          await fs.writeFile(path.join(dir, "results.json"), JSON.stringify(resultsJson(o, commitsOf(o.folder)), null, 1) + "\n");
+        }
+        for (const f of o.provenance.files) {
+          const parts = f.path.split("/");
+          const rel = rawCopyPath(f);
+          if (parts[0] !== "wafers" || parts[1] !== o.folder || placed.has(rel)) continue;
+          placed.add(rel);
+          await placeRawCopy(path.join(dataDir, ...parts), path.join(tmpDir, rel), path.join(outDir, rel));
+        }
+      }),
+    ),
+  );
   const chartJs = path.join(PACKAGE_ROOT, "node_modules", "chart.js", "dist", "chart.umd.min.js");
   await fs.mkdir(path.join(tmpDir, "assets"), { recursive: true });
   await fs.copyFile(chartJs, path.join(tmpDir, "assets", "chart.umd.min.js"));
 }
 
 /**
- * One wafer's results.json and raw-file copies; for a reused page, its whole
- * previous folder is linked instead (raw copies, points.csv and pictures are
- * determined by the page fingerprint) and only results.json is written.
+ * Puts a copy of a raw file into the new output. The copies are named by
+ * their SHA-256, so a copy of that name in the previous output holds the same
+ * bytes: it (ours, never the raw file) is hard-linked instead of copying the
+ * bytes again; anything unusual falls back to a plain copy of the raw file.
  */
-async function writeWaferExtras(o: WaferOutcome, dataDir: string, tmpDir: string, dataCommit: string | null, outDir: string, reused: boolean): Promise<void> {
-  const dir = path.join(tmpDir, "wafers", o.folder);
-  const prevDir = path.join(outDir, "wafers", o.folder);
-  if (reused) await linkReusedPage(prevDir, dir);
-  else {
-    await fs.mkdir(dir, { recursive: true });
-    const prevHashes = await previousCopies(prevDir);
-    const made = new Set<string>();
-    for (const f of o.provenance.files) {
-      const parts = f.path.split("/");
-      if (parts[0] !== "wafers" || parts[1] !== o.folder) continue;
-      const dest = path.join(dir, "raw", ...parts.slice(2));
-      if (!made.has(path.dirname(dest))) {
-        await fs.mkdir(path.dirname(dest), { recursive: true });
-        made.add(path.dirname(dest));
-      }
-      const same = prevHashes.get(f.path) === f.sha256;
-      await placeRawCopy(path.join(dataDir, ...parts), dest, same ? path.join(prevDir, "raw", ...parts.slice(2)) : undefined);
-    }
+async function placeRawCopy(rawAbs: string, dest: string, prevCopy: string): Promise<void> {
+  try {
+    linkSync(prevCopy, dest);
+    return;
+  } catch {
+    // no previous copy, different file systems, or links not allowed: copy
   }
-  await fs.writeFile(path.join(dir, "results.json"), JSON.stringify(resultsJson(o, dataCommit), null, 1) + "\n");
+  await fs.copyFile(rawAbs, dest);
 }
 
 /**

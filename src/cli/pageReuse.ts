@@ -8,8 +8,8 @@
  * templates/, .eleventy.js and the package version). The page fingerprint is
  * the SHA-256 of exactly those inputs; it is written into the page as
  * `<meta name="waferbook-page" content="…">`. When the previous output holds a
- * page with the same fingerprint, its files are hard-linked into the new
- * output instead of analysing, drawing and rendering the page again. Nothing
+ * page with the same fingerprint, its folder's files are hard-linked into the
+ * new output instead of loading, drawing and rendering the page again. Nothing
  * build-specific (time stamp, repository HEAD) is on a wafer page, so a reused
  * page is byte-for-byte the page a fresh build would write (tested in
  * test/cli/incremental.test.ts).
@@ -19,7 +19,7 @@
  * (hashed in the code version).
  */
 import { createHash } from "node:crypto";
-import { promises as fs } from "node:fs";
+import { copyFileSync, linkSync, mkdirSync, promises as fs, readdirSync } from "node:fs";
 import path from "node:path";
 import type { WaferOutcome } from "./pipeline.ts";
 import { hashFiles, sourceFiles } from "./cache.ts";
@@ -61,23 +61,30 @@ export async function previousFingerprint(pageFile: string): Promise<string | un
 }
 
 /**
- * Hard-links a reused page's folder (index.html, its pictures, points.csv and
- * the raw-file copies: all determined by the fingerprint) from the previous
- * output into the new one, except results.json, which every build writes
- * afresh (it names the data commit). Nothing may later write to a linked path:
- * that would change the previous output too. Falls back to copying where
- * links fail.
+ * Hard-links a reused page's folder (index.html, its pictures, results.json
+ * and points.csv: all determined by the fingerprint) from the previous output
+ * into the new one; its raw-file copies live in the site's raw/ folder and are
+ * placed separately. Nothing may later write to a linked
+ * path: that would change the previous output too. Falls back to copying
+ * where links fail.
  */
-export async function linkReusedPage(prevDir: string, newDir: string, rel = ""): Promise<void> {
-  const entries = await fs.readdir(path.join(prevDir, rel), { withFileTypes: true });
-  await fs.mkdir(path.join(newDir, rel), { recursive: true });
-  for (const e of entries) {
-    const r = rel ? `${rel}/${e.name}` : e.name;
-    if (r === "results.json") continue;
-    const from = path.join(prevDir, r);
-    const to = path.join(newDir, r);
-    if (e.isDirectory()) await linkReusedPage(prevDir, newDir, r);
-    else if (e.isFile()) await fs.link(from, to).catch(() => fs.copyFile(from, to));
-  }
+export async function linkReusedPage(prevDir: string, newDir: string): Promise<void> {
+  // Synchronous calls: thousands of small metadata operations, where the promise API's overhead per call dominates.
+  const walk = (rel: string) => {
+    // Top-down, so each folder's parent exists: a plain mkdir (the recursive form checks every ancestor).
+    if (rel) mkdirSync(path.join(newDir, rel));
+    else mkdirSync(newDir, { recursive: true });
+    for (const e of readdirSync(path.join(prevDir, rel), { withFileTypes: true })) {
+      const r = rel ? `${rel}/${e.name}` : e.name;
+      if (e.isDirectory()) walk(r);
+      else if (e.isFile()) {
+        try {
+          linkSync(path.join(prevDir, r), path.join(newDir, r));
+        } catch {
+          copyFileSync(path.join(prevDir, r), path.join(newDir, r));
+        }
+      }
+    }
+  };
+  walk("");
 }
-

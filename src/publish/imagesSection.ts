@@ -8,6 +8,7 @@
  * them. Image links in the page are relative (`images/<name>.png`). Returns
  * undefined while the wafer has no images.
  */
+import { rawCopyHref } from "./rawCopies.ts";
 import type { WaferOutcome } from "../cli/pipeline.ts";
 import type { ImageResult } from "../analyse/images/index.ts";
 import { renderMicrograph, renderStrainMap } from "./strainMapImage.ts";
@@ -76,15 +77,14 @@ function profileChart(r: ImageResult, id: string): ChartSpec | null {
   };
 }
 
-function block(r: ImageResult, i: number, wafer: string, files: SectionFile[]): ImageBlock {
+function block(r: ImageResult, i: number, wafer: string, files: SectionFile[], rawHref: (file: string) => string): ImageBlock {
   const m = r.input;
   const id = `image${i + 1}`;
   const add = (name: string, bytes: Buffer) => files.push({ path: `wafers/${wafer}/images/${name}`, bytes });
   const micro = renderMicrograph(m.pixels, m.width, m.height, PAGE_IMAGE_SIDE);
   add(`${id}-micrograph.png`, micro.png);
-  const rawHref = `raw/${m.file.split("/").slice(2).join("/")}`;
   const micrograph: PagePicture = {
-    src: `images/${id}-micrograph.png`, href: rawHref, width: micro.width, height: micro.height,
+    src: `images/${id}-micrograph.png`, href: rawHref(m.file), width: micro.width, height: micro.height,
     alt: `${m.kind.toUpperCase()} cross-section micrograph ${m.file}, ${m.width} × ${m.height} pixels of ${formatNumber(m.pixelSize_m * 1e9, 3)} nm, growth direction ${m.growthAxis}`,
     caption: `Micrograph (shown at 1/${micro.factor} scale; the link opens the original file).`,
   };
@@ -143,7 +143,8 @@ export function imagesSection(o: WaferOutcome): ImagesSectionModel | undefined {
   let model: ImagesSectionModel | undefined;
   if (a && a.images.length) {
     const files: SectionFile[] = [];
-    const images = a.images.map((r, i) => block(r, i, o.folder, files));
+    const copies = new Map(o.provenance.files.map((f) => [f.path, rawCopyHref(f)]));
+    const images = a.images.map((r, i) => block(r, i, o.folder, files, (file) => copies.get(file) ?? ""));
     const charts = images.map((b) => b.chart).filter((c): c is ChartSpec => c !== null);
     const sources = [...new Set(Object.values(a.metricSource))].map((i) => a.images[i].input.file);
     const metricNote = sources.length ? `The wafer's image metrics come from ${sources.join(" and ")}.` : "No image gave a metric.";

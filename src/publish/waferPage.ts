@@ -9,6 +9,7 @@ import { formatProblem } from "../validate/problem.ts";
 import { formatNumber, formatValue, prettyUnit } from "./format.ts";
 import { jsonForScript, markerSeries, traceSeries, type ChartSpec } from "./charts.ts";
 import { renderNotes } from "./markdown.ts";
+import { rawCopyHref } from "./rawCopies.ts";
 import { structureResults, structureSection } from "./structureSection.ts";
 import { imagesSection } from "./imagesSection.ts";
 import { transportDepthSection } from "./transportDepthSection.ts";
@@ -53,7 +54,13 @@ function round(v: number | undefined, digits = 6): number | null {
   return v === undefined || !Number.isFinite(v) ? null : Number(v.toPrecision(digits));
 }
 
-export function resultsJson(o: WaferOutcome, dataCommit: string | null = null): unknown {
+/**
+ * One wafer's results.json. `commits`: the latest commit that changed the
+ * wafer's folder and the latest that changed targets.yaml (null outside a
+ * repository). Deliberately not the repository's HEAD: the file then changes
+ * only when the wafer's figures, verdicts or history do, like its page.
+ */
+export function resultsJson(o: WaferOutcome, commits: { wafer: string | null; targets: string | null } = { wafer: null, targets: null }): unknown {
   const metrics: Record<string, unknown> = {};
   for (const m of o.judgement.metrics) {
     metrics[m.key] = { value: round(m.value), unit: m.spec.unit, verdict: m.verdict, target: m.target ? { min: round(m.target.min), max: round(m.target.max), text: m.target.text, guard: m.target.guardText ?? null, required: m.target.required, aggregate: m.target.aggregate } : null, reason: m.reason ?? null, waiver: m.waiver ?? null };
@@ -88,7 +95,7 @@ export function resultsJson(o: WaferOutcome, dataCommit: string | null = null): 
     structure: structureResults(o),
     errors: o.problems.filter((p) => p.severity === "error").map(problemJson),
     warnings: o.problems.filter((p) => p.severity === "warning").map(problemJson),
-    provenance: { ...o.provenance, dataCommit },
+    provenance: { ...o.provenance, waferCommit: commits.wafer, targetsCommit: commits.targets },
   };
 }
 
@@ -170,7 +177,7 @@ export function waferPageModel(o: WaferOutcome) {
     stack: (r?.stack ?? []).map((l) => ({ ...l, ge: l.ge === undefined ? "" : formatNumber(l.ge, 3), thickness: l.thickness_nm === undefined ? "" : `${formatNumber(l.thickness_nm, 3)} nm` })),
     notesHtml: renderNotes(r?.notes ?? ""),
     problems: o.problems.map((p) => ({ severity: p.severity, text: formatProblem(p) })),
-    files: o.provenance.files.map((f) => ({ ...f, size: f.bytes < 1024 ? `${f.bytes} B` : `${(f.bytes / 1024).toFixed(1)} KiB`, href: `raw/${f.path.split("/").slice(2).join("/")}` })),
+    files: o.provenance.files.map((f) => ({ ...f, size: f.bytes < 1024 ? `${f.bytes} B` : `${(f.bytes / 1024).toFixed(1)} KiB`, href: rawCopyHref(f), name: f.path.split("/").at(-1) ?? f.path })),
     settings: o.provenance.settings,
     transportCharts,
     transportDepth,

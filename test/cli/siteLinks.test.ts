@@ -85,12 +85,13 @@ describe("site built with --base /qual/", () => {
     expect(json).toHaveProperty("dataCommit");
   });
 
-  it("per-wafer points.csv and results.json with the data commit in provenance", () => {
+  it("per-wafer points.csv and results.json with the wafer's and the targets' latest commits in provenance", () => {
     const dir = path.join(out, "wafers", "TQ-2403");
     const pts = readFileSync(path.join(dir, "points.csv"), "utf8").trimEnd().split("\r\n");
     expect(pts[0]).toBe("device,file,gate [V],density [cm^-2],mobility [cm^2/(V s)],sheet_resistance [ohm/sq],hall_fit_r2,hall_fit_poor,symmetrised");
     expect(pts.length).toBeGreaterThan(5);
     const r = JSON.parse(readFileSync(path.join(dir, "results.json"), "utf8"));
-    expect(r.provenance).toHaveProperty("dataCommit");
+    expect(r.provenance).toHaveProperty("waferCommit");
+    expect(r.provenance).toHaveProperty("targetsCommit");
   });
 });

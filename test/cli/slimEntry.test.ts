@@ -40,7 +40,7 @@ describe("slim analysis", () => {
     for (let i = 0; i < WAFERS.length; i++) {
       expect(slim[i].judgement, WAFERS[i]).toEqual(full[i].judgement);
       expect(slim[i].values, WAFERS[i]).toEqual(full[i].values);
-      expect(JSON.stringify(resultsJson(slim[i], "abc")), WAFERS[i]).toBe(JSON.stringify(resultsJson(full[i], "abc")));
+      expect(JSON.stringify(resultsJson(slim[i], { wafer: "abc", targets: "def" })), WAFERS[i]).toBe(JSON.stringify(resultsJson(full[i], { wafer: "abc", targets: "def" })));
       expect(pointsCsv(slim[i]), WAFERS[i]).toBe(pointsCsv(full[i]));
     }
     expect(resultsCsv(slim, site.runs)).toBe(resultsCsv(full, site.runs));

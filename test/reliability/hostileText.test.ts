@@ -126,11 +126,16 @@ describe("escaping in the built pages", () => {
     expect(run).toContain("&lt;script&gt;window.__pwned=1");
   });
 
-  it("raw copies keep the hostile file name inside the wafer's raw folder only", async () => {
-    const raw = await fs.readdir(path.join(out, "wafers/EVIL-1.a_b/raw/transport"));
-    expect(raw).toContain(HOSTILE_FILE);
+  it("the raw copy of the hostile file is named by its SHA-256 only; the name appears escaped as link text and download name", async () => {
     const results = JSON.parse(await fs.readFile(path.join(out, "wafers/EVIL-1.a_b/results.json"), "utf8"));
     expect(results.wafer).toBe("EVIL-1.a_b");
+    const f = results.provenance.files.find((x: { path: string }) => x.path.endsWith(HOSTILE_FILE));
+    expect(f).toBeDefined();
+    const raw = await fs.readdir(path.join(out, "raw"));
+    expect(raw).toContain(`${f.sha256}.csv`);
+    expect(raw.every((n) => /^[0-9a-f]{64}(\.[a-z0-9]{1,10})?$/.test(n))).toBe(true);
+    const page = await fs.readFile(path.join(out, "wafers/EVIL-1.a_b/index.html"), "utf8");
+    expect(page).toContain(`href="../../raw/${f.sha256}.csv" download="q&#39;&quot;&gt;&lt;img src=x onerror=alert(&#39;file&#39;)&gt;.csv"`);
   });
 });
 
