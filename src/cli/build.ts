@@ -16,7 +16,7 @@ import { buildSiteModel, sortOutcomes, waferPageExtras, type SiteMeta } from "..
 import { rawCopyPath } from "../publish/rawCopies.ts";
 import { linkReusedPage, pageCodeVersion, pageFingerprint, previousFingerprint } from "./pageReuse.ts";
 import type { AnalysedFolder } from "./analyseFolder.ts";
-import { renderTemplates, renderWaferPages } from "./waferPages.ts";
+import { PAGES_PER_RENDER, renderTemplates, renderWaferPages, waferPageBatch } from "./waferPages.ts";
 import { resultsJson } from "../publish/waferPage.ts";
 import { writeSearch } from "../publish/searchIndex.ts";
 import type { Problem } from "../validate/problem.ts";
@@ -147,7 +147,8 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       const fingerprints = new Map<string, string>();
       const toDraw: { folder: string; key?: string }[] = [];
       for (const [i, o] of outcomes.entries()) {
-        const fp = pageFingerprint(pageCode, meta.basePath, o, pageExtras.get(o.folder));
+        // Everything in the wafer's output folder: the page's extras, and the commits its results.json names.
+        const fp = pageFingerprint(pageCode, meta.basePath, o, { extras: pageExtras.get(o.folder), commits: commitsOf(o.folder) });
         fingerprints.set(o.folder, fp);
         if (drawn.has(o.folder)) continue;
         if (reusePages && (await previousFingerprint(path.join(outDir, "wafers", o.folder, "index.html"))) === fp) reused.add(o.folder);
@@ -159,8 +160,14 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       stats = { cacheHits: analysed.filter((a) => a.cacheHit).length, analysed: analysed.filter((a) => !a.cacheHit).length, pagesReused: reused.size, filesHashed: jobs.fileHashes?.hashed ?? 0, phases };
       const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history });
       lap("model");
-      written = await renderTemplates(path.join(PACKAGE_ROOT, "templates"), tmpDir, model);
-      written += await renderWaferPages(sorted.map((o) => o.folder).filter((f) => !reused.has(f)), tmpDir, scratchDir, meta, pageExtras, fingerprints);
+      const toRender = sorted.map((o) => o.folder).filter((f) => !reused.has(f));
+      const templates = path.join(PACKAGE_ROOT, "templates");
+      // A few pages (a warm build) go with the site-wide pages in one Eleventy run; many are rendered in batches.
+      if (toRender.length <= PAGES_PER_RENDER) written = await renderTemplates(templates, tmpDir, { ...model, wafers: await waferPageBatch(toRender, scratchDir, pageExtras, fingerprints) });
+      else {
+        written = await renderTemplates(templates, tmpDir, model);
+        written += await renderWaferPages(toRender, tmpDir, scratchDir, meta, pageExtras, fingerprints);
+      }
       lap("render");
     } finally {
       await jobs.close();

@@ -1,11 +1,12 @@
 /**
  * Reusing unchanged wafer pages from the previous output.
  *
- * A wafer page is a pure function of: the wafer's outcome (record, provenance
- * with every file's SHA-256, problems, metric values, judgement), what the
- * page shows beside it (previous/next wafer, breadcrumbs, history: see
- * `waferPageExtras`), the base path, and the code that draws it (all of src/,
- * templates/, .eleventy.js and the package version). The page fingerprint is
+ * A wafer's output folder (page, pictures, results.json, points.csv) is a pure
+ * function of: the wafer's outcome (record, provenance with every file's
+ * SHA-256, problems, metric values, judgement), what the page shows beside it
+ * (previous/next wafer, breadcrumbs, history: see `waferPageExtras`), the
+ * commits its results.json names, the base path, and the code that draws it
+ * (all of src/, templates/, .eleventy.js and the package version). The page fingerprint is
  * the SHA-256 of exactly those inputs; it is written into the page as
  * `<meta name="waferbook-page" content="…">`. When the previous output holds a
  * page with the same fingerprint, its folder's files are hard-linked into the

@@ -52,20 +52,25 @@ export async function drawWaferPage(o: WaferOutcome, outDir: string, scratchDir:
   await fs.writeFile(parkedPath(scratchDir, o.folder), v8.serialize(model));
 }
 
+/** The wafer pages of `folders` as the templates read them: each drawn model with what the page shows beside it. */
+export async function waferPageBatch(folders: readonly string[], scratchDir: string, extras: ReadonlyMap<string, PageExtras>, fingerprints: ReadonlyMap<string, string>) {
+  const batch = [];
+  for (const folder of folders) {
+    const model = v8.deserialize(await fs.readFile(parkedPath(scratchDir, folder))) as PageModel;
+    batch.push({ ...model, ...extras.get(folder)!, fingerprint: fingerprints.get(folder) ?? "" });
+  }
+  return batch;
+}
+
 /**
  * Renders the drawn pages of `folders` (in that order), PAGES_PER_RENDER per
- * Eleventy run, adding what each page shows beside its wafer; returns the
- * number of pages written.
+ * Eleventy run; returns the number of pages written.
  */
 export async function renderWaferPages(folders: readonly string[], outDir: string, scratchDir: string, meta: SiteMeta, extras: ReadonlyMap<string, PageExtras>, fingerprints: ReadonlyMap<string, string>): Promise<number> {
   let written = 0;
   for (let k = 0; k < folders.length; k += PAGES_PER_RENDER) {
-    const batch = [];
-    for (const folder of folders.slice(k, k + PAGES_PER_RENDER)) {
-      const model = v8.deserialize(await fs.readFile(parkedPath(scratchDir, folder))) as PageModel;
-      batch.push({ ...model, ...extras.get(folder)!, fingerprint: fingerprints.get(folder) ?? "" });
-    }
-    written += await renderTemplates(path.join(PACKAGE_ROOT, "templates", "wafer.njk"), outDir, { meta, wafers: batch });
+    const wafers = await waferPageBatch(folders.slice(k, k + PAGES_PER_RENDER), scratchDir, extras, fingerprints);
+    written += await renderTemplates(path.join(PACKAGE_ROOT, "templates", "wafer.njk"), outDir, { meta, wafers });
   }
   return written;
 }
