@@ -16,7 +16,7 @@ import { buildSiteModel, sortOutcomes, waferPageExtras, type SiteMeta } from "..
 import { rawCopyPath } from "../publish/rawCopies.ts";
 import { linkReusedPage, pageCodeVersion, pageFingerprint, previousFingerprint } from "./pageReuse.ts";
 import type { AnalysedFolder } from "./analyseFolder.ts";
-import { PAGES_PER_RENDER, renderTemplates, renderWaferPages, waferPageBatch } from "./waferPages.ts";
+import { PAGES_PER_RENDER, renderTemplates, renderWaferPages, waferPageBatch } from "./render.ts";
 import { resultsJson } from "../publish/waferPage.ts";
 import { writeSearch } from "../publish/searchIndex.ts";
 import type { Problem } from "../validate/problem.ts";

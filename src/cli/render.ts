@@ -1,0 +1,63 @@
+/**
+ * Rendering with Eleventy: the site-wide pages in one run, wafer pages in
+ * batches from the models parked by drawWaferPage (waferPages.ts), so the
+ * memory of rendering follows the batch, not the archive.
+ *
+ * Eleventy is loaded on first use, after setting ELEVENTY_SKIP_ESM_RESOLVER:
+ * Eleventy otherwise registers an ES-module resolve hook (for its watch
+ * mode's cache busting), which on Node 20 sends every later import of the
+ * process through a hooks thread. waferbook never watches, so it opts out
+ * (the variable is Eleventy's own switch for this).
+ */
+import { promises as fs } from "node:fs";
+import path from "node:path";
+import v8 from "node:v8";
+import type { SiteMeta, waferPageExtras } from "../publish/siteModel.ts";
+import { PACKAGE_ROOT } from "./paths.ts";
+import { parkedPath, type PageModel } from "./waferPages.ts";
+
+type PageExtras = ReturnType<typeof waferPageExtras> extends Map<string, infer E> ? E : never;
+
+/** Wafer pages rendered per Eleventy run: bounds memory (about 0.5 MB per page) against the run's fixed cost (~0.1 s). */
+export const PAGES_PER_RENDER = 40;
+
+/** The wafer pages of `folders` as the templates read them: each drawn model with what the page shows beside it. */
+export async function waferPageBatch(folders: readonly string[], scratchDir: string, extras: ReadonlyMap<string, PageExtras>, fingerprints: ReadonlyMap<string, string>) {
+  const batch = [];
+  for (const folder of folders) {
+    const model = v8.deserialize(await fs.readFile(parkedPath(scratchDir, folder))) as PageModel;
+    batch.push({ ...model, ...extras.get(folder)!, fingerprint: fingerprints.get(folder) ?? "" });
+  }
+  return batch;
+}
+
+/**
+ * Renders the drawn pages of `folders` (in that order), PAGES_PER_RENDER per
+ * Eleventy run; returns the number of pages written.
+ */
+export async function renderWaferPages(folders: readonly string[], outDir: string, scratchDir: string, meta: SiteMeta, extras: ReadonlyMap<string, PageExtras>, fingerprints: ReadonlyMap<string, string>): Promise<number> {
+  let written = 0;
+  for (let k = 0; k < folders.length; k += PAGES_PER_RENDER) {
+    const wafers = await waferPageBatch(folders.slice(k, k + PAGES_PER_RENDER), scratchDir, extras, fingerprints);
+    written += await renderTemplates(path.join(PACKAGE_ROOT, "templates", "wafer.njk"), outDir, { meta, wafers });
+  }
+  return written;
+}
+
+/** Runs Eleventy on templates/ (or one template of it) with `wb` as global data, into outDir; returns the number of files written. */
+export async function renderTemplates(input: string, outDir: string, wb: unknown): Promise<number> {
+  process.env.ELEVENTY_SKIP_ESM_RESOLVER ??= "1";
+  const { Eleventy } = await import("@11ty/eleventy");
+  const elev = new Eleventy(input, outDir, {
+    source: "cli",
+    quietMode: true,
+    configPath: path.join(PACKAGE_ROOT, ".eleventy.js"),
+    config(c: { addGlobalData: (name: string, value: unknown) => void }) {
+      c.addGlobalData("wb", wb);
+    },
+  });
+  elev.disableLogger();
+  const result = (await elev.write()) as unknown;
+  // The result lists the passthrough copies and the templates written; count the pages.
+  return Array.isArray(result) ? (result as unknown[]).flat(3).filter((x) => typeof x === "object" && x !== null && "outputPath" in x && "content" in x).length : 0;
+}
