@@ -6,10 +6,11 @@
  * is the same as a sequential build.
  *
  * Cache look-ups (hash the wafer's files, read its slim entry) run in this
- * thread, a few folders at a time. The first misses start the pool, and every
- * further miss goes to it at once, so hashing overlaps analysis instead of
- * preceding it. The pool size is os.availableParallelism(), capped at
- * MAX_WORKERS and at the jobs that can still come; with one core, or fewer
+ * thread, a few folders at a time. Misses go to the pool as soon as they are
+ * found, so hashing overlaps analysis instead of preceding it (the first miss
+ * starts one worker, the second the rest of the pool). The pool size is
+ * os.availableParallelism(), capped at MAX_WORKERS and at the jobs that can
+ * still come; with one core, or fewer
  * than MIN_WAFERS_FOR_WORKERS jobs, they run in this thread (starting a
  * worker costs a few tenths of a second of module loading).
  * WAFERBOOK_WORKERS=n overrides the size (0 = in this thread).
@@ -25,8 +26,8 @@ import { analyseJob, drawJob, type JobContext, type JobResult } from "./waferJob
 export const MAX_WORKERS = 8;
 /** Below this many jobs, starting workers costs more than it saves. */
 export const MIN_WAFERS_FOR_WORKERS = 6;
-/** Misses seen before the pool starts (one changed wafer is cheaper in this thread). */
-const MISSES_TO_START_POOL = 2;
+/** Misses seen before the pool grows beyond the one worker started at the first miss. */
+const MISSES_FOR_FULL_POOL = 2;
 
 export function poolSize(jobs: number): number {
   const env = process.env.WAFERBOOK_WORKERS;
@@ -48,9 +49,17 @@ class Pool {
   private failure: Error | undefined;
   private nextId = 0;
 
-  constructor(size: number, ctx: JobContext) {
-    for (let k = 0; k < size; k++) {
-      const w = new Worker(workerEntry(), { workerData: ctx });
+  constructor(
+    size: number,
+    private readonly ctx: JobContext,
+  ) {
+    this.grow(size);
+  }
+
+  /** Adds workers up to `size` in all. */
+  grow(size: number): void {
+    while (this.workers.length < size) {
+      const w = new Worker(workerEntry(), { workerData: this.ctx });
       this.workers.push(w);
       this.idle.push(w);
       w.on("message", (m: Reply) => {
@@ -63,6 +72,7 @@ class Pool {
       });
       w.on("error", (e) => this.fail(e));
     }
+    this.pump();
   }
 
   get size(): number {
@@ -102,10 +112,12 @@ export class WaferJobs {
 
   constructor(private readonly ctx: JobContext) {}
 
-  private startPool(jobsAhead: number): Pool | undefined {
-    if (!this.pool) {
-      const size = poolSize(jobsAhead);
-      if (size > 0) this.pool = new Pool(size, this.ctx);
+  /** Starts (or grows) the pool for the jobs that may still come; undefined when they are better run in this thread. */
+  private startPool(jobsAhead: number, atMost = MAX_WORKERS): Pool | undefined {
+    const size = Math.min(poolSize(jobsAhead), atMost);
+    if (size > 0) {
+      if (this.pool) this.pool.grow(size);
+      else this.pool = new Pool(size, this.ctx);
     }
     return this.pool;
   }
@@ -130,6 +142,7 @@ export class WaferJobs {
       // A few look-ups at a time: each is file reads and hashing, mostly waiting on the disk.
       const limit = pLimit(4);
       let looked = 0;
+      let sent = false;
       await Promise.all(
         folders.map((f, i) =>
           limit(async () => {
@@ -140,11 +153,12 @@ export class WaferJobs {
               return;
             }
             misses.push({ i, key });
-            if (this.pool) toPool(this.pool, misses.at(-1)!);
-            else if (misses.length >= MISSES_TO_START_POOL) {
-              const pool = this.startPool(misses.length + folders.length - looked);
-              if (pool) for (const m of misses) toPool(pool, m);
-            }
+            // The first miss starts one worker, so it is analysed while the look-ups go on; more misses grow the pool.
+            const pool = this.startPool(misses.length + folders.length - looked, misses.length < MISSES_FOR_FULL_POOL ? 1 : MAX_WORKERS);
+            if (pool && !sent) {
+              for (const m of misses) toPool(pool, m);
+              sent = true;
+            } else if (pool) toPool(pool, misses.at(-1)!);
           }),
         ),
       );
@@ -159,7 +173,7 @@ export class WaferJobs {
 
   /** Draws the pages of wafers taken slim from the cache (targets or neighbours changed). */
   async drawAll(items: { folder: string; key?: string }[]): Promise<void> {
-    const pool = this.pool ?? this.startPool(items.length);
+    const pool = this.startPool(items.length);
     if (!pool) {
       for (const it of items) await drawJob(it.folder, this.ctx, it.key);
       return;
