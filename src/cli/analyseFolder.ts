@@ -4,6 +4,7 @@
  * settings and the code — never on targets. Runs in the main thread or in a
  * worker (src/cli/workerPool.ts); its result is plain data.
  */
+import { promises as fs } from "node:fs";
 import path from "node:path";
 import { analyseWafer, type WaferAnalysis } from "../analyse/wafer.ts";
 import type { DeviceDepth } from "../analyse/transport/deviceDepth.ts";
@@ -30,7 +31,8 @@ export interface AnalysedFolder {
 /** The cached (slim) result of one wafer folder, if any, and its cache key (undefined without a cache). */
 export async function lookUpFolder(folder: string, ctx: AnalyseContext, hashes?: FileHashes): Promise<{ key?: string; hit?: AnalysedFolder }> {
   if (!ctx.cacheDir) return {};
-  const key = await cacheKey(path.join(ctx.dataDir, "wafers", folder), ctx.code, ctx.siteSettings, hashes);
+  const twins = (await fs.readdir(path.join(ctx.dataDir, "wafers")).catch(() => [] as string[])).filter((n) => n !== folder && n.toLowerCase() === folder.toLowerCase()).sort();
+  const key = await cacheKey(path.join(ctx.dataDir, "wafers", folder), ctx.code, ctx.siteSettings, hashes, twins);
   const entry = await readEntry(ctx.cacheDir, key, "slim");
   return { key, hit: entry && entry.folder === folder ? { entry, cacheHit: true, form: "slim", key } : undefined };
 }

@@ -5,7 +5,9 @@
  * place. A failed build leaves the previous output exactly as it was. A lock
  * file keeps two builds from writing the same output at once.
  */
-import { linkSync, promises as fs, constants as fsc } from "node:fs";
+import { createHash } from "node:crypto";
+import { promises as fs } from "node:fs";
+import os from "node:os";
 import path from "node:path";
 import pLimit from "p-limit";
 import { judgeOutcome, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
@@ -14,7 +16,7 @@ import { WaferJobs } from "./workerPool.ts";
 import { loadSiteInputs } from "../read/site.ts";
 import { buildSiteModel, sortOutcomes, waferPageExtras, type SiteMeta } from "../publish/siteModel.ts";
 import { rawCopyPath } from "../publish/rawCopies.ts";
-import { linkReusedPage, pageCodeVersion, pageFingerprint, previousFingerprint } from "./pageReuse.ts";
+import { linkOrCopy, linkReusedPage, pageCodeVersion, pageFingerprint, previousFingerprint } from "./pageReuse.ts";
 import type { AnalysedFolder } from "./analyseFolder.ts";
 import { PAGES_PER_RENDER, renderTemplates, renderWaferPages, waferPageBatch } from "./render.ts";
 import { resultsJson } from "../publish/waferPage.ts";
@@ -45,32 +47,58 @@ export interface BuildResult {
   stats?: { cacheHits: number; analysed: number; pagesReused: number; filesHashed: number; phases: Record<string, number> };
 }
 
-export class BuildLockedError extends Error {}
+/** A build stopped for a reason that is not a bug (reported without a stack trace; the previous site stays as it was). */
+export class BuildStoppedError extends Error {}
+/** Another live build holds the output folder's lock. */
+export class BuildLockedError extends BuildStoppedError {}
 
+/**
+ * Takes the output folder's lock, `<out>.lock`, holding "pid@host". The lock
+ * file is written under a temporary name and hard-linked into place, so it
+ * never exists half-written. A lock is stale only when it names a process on
+ * this host that no longer exists; a stale lock is renamed away (one taker
+ * wins) before the lock is taken again. Returns the release function.
+ */
 async function acquireLock(outDir: string): Promise<() => Promise<void>> {
   const lock = `${outDir}.lock`;
+  const me = `${process.pid}@${os.hostname()}`;
   await fs.mkdir(path.dirname(outDir), { recursive: true });
+  const tmp = `${lock}.${process.pid}.${Math.random().toString(36).slice(2)}`;
+  await fs.writeFile(tmp, `${me}\n`);
   try {
-    const h = await fs.open(lock, fsc.O_CREAT | fsc.O_EXCL | fsc.O_WRONLY);
-    await h.writeFile(`${process.pid}\n`);
-    await h.close();
-  } catch (err) {
-    if ((err as NodeJS.ErrnoException).code !== "EEXIST") throw err;
-    const pid = Number((await fs.readFile(lock, "utf8").catch(() => "")).trim());
-    let alive = false;
-    try {
-      if (pid > 0) {
-        process.kill(pid, 0);
-        alive = true;
+    for (let attempt = 0; ; attempt++) {
+      try {
+        await fs.link(tmp, lock);
+        return () => fs.rm(lock, { force: true });
+      } catch (err) {
+        if ((err as NodeJS.ErrnoException).code !== "EEXIST" || attempt > 5) throw err;
       }
-    } catch {
-      alive = false;
+      const holder = (await fs.readFile(lock, "utf8").catch(() => "")).trim();
+      if (holderAlive(holder)) {
+        const who = /^(\d+)(?:@(.*))?$/.exec(holder);
+        const desc = who ? (who[2] === undefined || who[2] === os.hostname() ? `process ${who[1]}` : `process ${who[1]} on ${who[2]}`) : "an unknown process";
+        throw new BuildLockedError(`another build (${desc}) is writing ${outDir}; wait for it to finish, or delete ${lock} if that process is gone`);
+      }
+      // Stale: move it aside under a unique name (only one of several takers succeeds), then try again.
+      await fs.rename(lock, `${lock}.stale-${process.pid}`).catch(() => {});
+      await fs.rm(`${lock}.stale-${process.pid}`, { force: true });
     }
-    if (alive) throw new BuildLockedError(`another build (process ${pid}) is writing ${outDir}; wait for it to finish, or delete ${lock} if that process is gone`);
-    await fs.rm(lock, { force: true });
-    return acquireLock(outDir);
+  } finally {
+    await fs.rm(tmp, { force: true });
   }
-  return () => fs.rm(lock, { force: true });
+}
+
+/** Whether a lock's holder ("pid@host", or a bare pid from older versions) may still be running. */
+function holderAlive(holder: string): boolean {
+  const m = /^(\d+)(?:@(.*))?$/.exec(holder);
+  if (!m) return false;
+  if (m[2] !== undefined && m[2] !== os.hostname()) return true; // another machine's process: cannot tell, so assume it runs
+  try {
+    process.kill(Number(m[1]), 0);
+    return true;
+  } catch (err) {
+    return (err as NodeJS.ErrnoException).code === "EPERM"; // exists, but belongs to another user
+  }
 }
 
 export async function readVersion(): Promise<string> {
@@ -82,9 +110,9 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
   const dataDir = path.resolve(options.data);
   const outDir = path.resolve(options.out);
   const release = await acquireLock(outDir);
-  await recoverInterrupted(outDir);
   const tmpDir = path.join(path.dirname(outDir), `.${path.basename(outDir)}-building-${process.pid}`);
   try {
+    await recoverInterrupted(outDir);
     await fs.rm(tmpDir, { recursive: true, force: true });
     const version = await readVersion();
     const site = await loadSiteInputs(dataDir);
@@ -180,9 +208,12 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     lap("write");
     return { ok: true, outcomes, problems, outDir, pages: written, stats };
   } finally {
-    await fs.rm(tmpDir, { recursive: true, force: true });
-    await fs.rm(`${tmpDir}-pages`, { recursive: true, force: true });
-    await release();
+    try {
+      await fs.rm(tmpDir, { recursive: true, force: true });
+      await fs.rm(`${tmpDir}-pages`, { recursive: true, force: true });
+    } finally {
+      await release();
+    }
   }
 }
 
@@ -213,7 +244,7 @@ async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: st
           const rel = rawCopyPath(f);
           if (parts[0] !== "wafers" || parts[1] !== o.folder || placed.has(rel)) continue;
           placed.add(rel);
-          await placeRawCopy(path.join(dataDir, ...parts), path.join(tmpDir, rel), path.join(outDir, rel));
+          await placeRawCopy(path.join(dataDir, ...parts), path.join(tmpDir, rel), path.join(outDir, rel), f.sha256, f.path);
         }
       }),
     ),
@@ -227,16 +258,17 @@ async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: st
  * Puts a copy of a raw file into the new output. The copies are named by
  * their SHA-256, so a copy of that name in the previous output holds the same
  * bytes: it (ours, never the raw file) is hard-linked instead of copying the
- * bytes again; anything unusual falls back to a plain copy of the raw file.
+ * bytes again. Otherwise the raw file is read, and its bytes are checked
+ * against the SHA-256 that was analysed before they are written: a file that
+ * changed during the build stops the build (the previous site stays).
  */
-async function placeRawCopy(rawAbs: string, dest: string, prevCopy: string): Promise<void> {
-  try {
-    linkSync(prevCopy, dest);
-    return;
-  } catch {
-    // no previous copy, different file systems, or links not allowed: copy
+async function placeRawCopy(rawAbs: string, dest: string, prevCopy: string, sha256: string, rel: string): Promise<void> {
+  if (linkOrCopy(prevCopy, dest, { copy: false })) return;
+  const bytes = await fs.readFile(rawAbs, { flag: "r" });
+  if (createHash("sha256").update(bytes).digest("hex") !== sha256) {
+    throw new BuildStoppedError(`${rel} changed while the site was being built (its bytes no longer match the SHA-256 that was analysed); build again once it is complete`);
   }
-  await fs.copyFile(rawAbs, dest);
+  await fs.writeFile(dest, bytes, { flag: "wx" });
 }
 
 /**

@@ -23,7 +23,7 @@
  * none, and concurrent builds or CI runners sharing the folder cannot tear it.
  */
 import { createHash } from "node:crypto";
-import { lstatSync, promises as fs } from "node:fs";
+import { lstatSync, promises as fs, readFileSync, readlinkSync, statSync } from "node:fs";
 import path from "node:path";
 import v8 from "node:v8";
 import pLimit from "p-limit";
@@ -72,7 +72,22 @@ export async function hashFiles(salt: string, root: string, files: string[]): Pr
 /** Hash of the analysis code (sources of reading, validation, analysis, physics) and the package version; hex SHA-256. */
 export async function codeVersion(packageVersion: string): Promise<string> {
   const files = [...(await Promise.all(CODE_FOLDERS.map((f) => sourceFiles(path.join(SRC, f))))).flat(), ...CODE_FILES.map((f) => path.join(SRC, f))];
-  return hashFiles(`${CACHE_FORMAT}\0${packageVersion}`, SRC, files);
+  return hashFiles(`${CACHE_FORMAT}\0${packageVersion}\0${runtimeVersion()}`, SRC, files);
+}
+
+/**
+ * What else the results depend on besides our sources: the Node.js and zlib
+ * versions (PNG bytes, number formatting) and the exact installed libraries
+ * (package-lock.json). Part of the cache key and of every page fingerprint.
+ */
+export function runtimeVersion(): string {
+  let lock = "no-lockfile";
+  try {
+    lock = sha256(readFileSync(path.join(SRC, "..", "package-lock.json")));
+  } catch {
+    // an installed package without its lockfile: the package version stands in
+  }
+  return `node ${process.versions.node}, zlib ${process.versions.zlib}, lock ${lock}`;
 }
 
 
@@ -81,11 +96,12 @@ export async function codeVersion(packageVersion: string): Promise<string> {
  * at a time, or takes unchanged files' hashes from `hashes`) without parsing
  * them.
  */
-export async function cacheKey(waferDir: string, code: string, siteSettings: unknown, hashes?: FileHashes): Promise<string> {
+export async function cacheKey(waferDir: string, code: string, siteSettings: unknown, hashes?: FileHashes, twins: string[] = []): Promise<string> {
   const files = await listFiles(waferDir).catch(() => [] as string[]);
   const limit = pLimit(8);
   const digests = await Promise.all(files.map((rel) => limit(() => fileDigest(path.join(waferDir, rel), hashes))));
-  const h = createHash("sha256").update(`${code}\0${JSON.stringify(siteSettings)}\0`);
+  // Folders whose names differ only in letter case make the wafer an error (read/wafer.ts), so they are part of the key.
+  const h = createHash("sha256").update(`${code}\0${JSON.stringify(siteSettings)}\0${JSON.stringify(twins)}\0`);
   files.forEach((rel, i) => h.update(`${rel}\0${digests[i]}\0`));
   return h.digest("hex");
 }
@@ -94,13 +110,22 @@ async function fileDigest(abs: string, hashes?: FileHashes): Promise<string> {
   try {
     // Synchronous: a cached stat takes microseconds, while the promise API's overhead per call is ~10× that (12,000 files at the benchmark's size).
     const st = lstatSync(abs);
+    if (st.isSymbolicLink()) {
+      // The loader follows links that stay inside the data folder, so the key follows them too: the link's text and its target's bytes.
+      const target = statSync(abs);
+      if (!target.isFile()) return `special:${target.mode}`;
+      const bytes = hashes ? await hashes.sha256(abs, target) : sha256(await fs.readFile(abs));
+      return `link:${readlinkSync(abs)}:${bytes}`;
+    }
     if (!st.isFile()) return `special:${st.mode}`;
-    return hashes ? await hashes.sha256(abs, st) : createHash("sha256").update(await fs.readFile(abs)).digest("hex");
+    return hashes ? await hashes.sha256(abs, st) : sha256(await fs.readFile(abs));
   } catch {
-    // A file that vanished or cannot be read: the loader will report it.
+    // A file that vanished, a dangling link or a file that cannot be read: the loader will report it.
     return "unreadable";
   }
 }
+
+const sha256 = (bytes: Buffer) => createHash("sha256").update(bytes).digest("hex");
 
 function entryPath(cacheDir: string, key: string, form: EntryForm = "full"): string {
   return path.join(cacheDir, key.slice(0, 2), form === "full" ? `${key}.v8` : `${key}.slim.v8`);
@@ -127,24 +152,29 @@ export async function readEntry(cacheDir: string, key: string, form: EntryForm =
 
 /**
  * Stores an entry atomically (temporary file + rename), in both forms; the
- * slim form is written last, and a reader looks for it first, so a slim hit
- * implies a complete full form beside it (unless deleted by hand: then the
- * full read misses and the wafer is analysed again). Failures to write are
+ * slim form is written only once the full form is in place, and a reader
+ * looks for it first, so a slim hit implies a complete full form beside it
+ * (unless deleted by hand: then the full read misses and the wafer is
+ * analysed again). Failures to write are
  * ignored: the cache is an optimisation.
  */
 export async function writeEntry(cacheDir: string, key: string, entry: CacheEntry): Promise<void> {
   await fs.mkdir(path.dirname(entryPath(cacheDir, key)), { recursive: true }).catch(() => {});
-  await writeAtomically(entryPath(cacheDir, key, "full"), v8.serialize(entry));
-  await writeAtomically(entryPath(cacheDir, key, "slim"), v8.serialize({ ...entry, analysis: entry.analysis && slimAnalysis(entry.analysis) }));
+  if (await writeAtomically(entryPath(cacheDir, key, "full"), v8.serialize(entry))) {
+    await writeAtomically(entryPath(cacheDir, key, "slim"), v8.serialize({ ...entry, analysis: entry.analysis && slimAnalysis(entry.analysis) }));
+  }
 }
 
-async function writeAtomically(dest: string, bytes: Buffer): Promise<void> {
+/** Writes a file by temporary name and rename; false (and nothing left behind) if that failed. */
+async function writeAtomically(dest: string, bytes: Buffer): Promise<boolean> {
   const tmp = `${dest}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`;
   try {
     await fs.writeFile(tmp, bytes);
     await fs.rename(tmp, dest);
+    return true;
   } catch {
     await fs.rm(tmp, { force: true }).catch(() => {});
+    return false;
   }
 }
 

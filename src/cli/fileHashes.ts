@@ -6,9 +6,10 @@
  * stored hash is used instead of reading the file.
  *
  * Guards:
- *   - a hash is trusted only if the file's modification time was at least
- *     RACY_MS before the moment it was hashed ("racily clean" files, changed
- *     within the time-stamp granularity right after hashing, are read again);
+ *   - a hash is trusted only if the file's modification and status-change
+ *     times were at least RACY_MS before the moment it was hashed ("racily
+ *     clean" files, changed within the time-stamp granularity right after
+ *     hashing, are read again);
  *   - the status-change time (ctime) cannot be set by tools that preserve
  *     modification times (cp -p, rsync -t, tar), so a rewrite is noticed even
  *     when size and mtime are restored;
@@ -54,7 +55,7 @@ export class FileHashes {
   /** SHA-256 (hex) of a regular file, from the record when the file is unchanged, else read and hashed. */
   async sha256(abs: string, st: Stats): Promise<string> {
     const row = this.file ? this.rows.get(abs) : undefined;
-    if (row && row[0] === st.size && row[1] === st.mtimeMs && row[2] === st.ctimeMs && row[3] === st.ino && row[4] === st.dev && st.mtimeMs < row[5] - RACY_MS) {
+    if (row && row[0] === st.size && row[1] === st.mtimeMs && row[2] === st.ctimeMs && row[3] === st.ino && row[4] === st.dev && Math.max(st.mtimeMs, st.ctimeMs) < row[5] - RACY_MS) {
       this.reused++;
       return row[6];
     }

@@ -15,7 +15,7 @@ export async function main(argv: string[]): Promise<number> {
     out(HELP);
     return 0;
   }
-  const { build, BuildLockedError, readVersion } = await import("./build.ts");
+  const { build, BuildLockedError, BuildStoppedError, readVersion } = await import("./build.ts");
   if (parsed.command === "version") {
     out(await readVersion());
     return 0;
@@ -50,8 +50,9 @@ export async function main(argv: string[]): Promise<number> {
     }
     return 0;
   } catch (e) {
-    if (e instanceof BuildLockedError) {
+    if (e instanceof BuildStoppedError) {
       err(`waferbook: ${e.message}`);
+      if (!(e instanceof BuildLockedError)) err("The previous site was left as it was.");
       return 1;
     }
     err("waferbook: internal error (please report it with the data that triggered it):");

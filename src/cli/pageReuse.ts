@@ -20,10 +20,10 @@
  * (hashed in the code version).
  */
 import { createHash } from "node:crypto";
-import { copyFileSync, linkSync, mkdirSync, promises as fs, readdirSync } from "node:fs";
+import { constants as fsConstants, copyFileSync, linkSync, mkdirSync, promises as fs, readdirSync } from "node:fs";
 import path from "node:path";
 import type { WaferOutcome } from "./pipeline.ts";
-import { hashFiles, sourceFiles } from "./cache.ts";
+import { hashFiles, runtimeVersion, sourceFiles } from "./cache.ts";
 import { PACKAGE_ROOT, SRC_DIR } from "./paths.ts";
 
 /** Bumped when the fingerprint's inputs change shape. */
@@ -32,7 +32,7 @@ const PAGE_FORMAT = "waferbook-page-1";
 /** Hash of everything that draws a page: sources, templates, Eleventy configuration and package version. */
 export async function pageCodeVersion(packageVersion: string): Promise<string> {
   const files = [...(await sourceFiles(SRC_DIR)), ...(await sourceFiles(path.join(PACKAGE_ROOT, "templates"), () => true)), path.join(PACKAGE_ROOT, ".eleventy.js")];
-  return hashFiles(`${PAGE_FORMAT}\0${packageVersion}`, PACKAGE_ROOT, files);
+  return hashFiles(`${PAGE_FORMAT}\0${packageVersion}\0${runtimeVersion()}`, PACKAGE_ROOT, files);
 }
 
 /** The page fingerprint (hex SHA-256) of one wafer page. */
@@ -78,14 +78,29 @@ export async function linkReusedPage(prevDir: string, newDir: string): Promise<v
     for (const e of readdirSync(path.join(prevDir, rel), { withFileTypes: true })) {
       const r = rel ? `${rel}/${e.name}` : e.name;
       if (e.isDirectory()) walk(r);
-      else if (e.isFile()) {
-        try {
-          linkSync(path.join(prevDir, r), path.join(newDir, r));
-        } catch {
-          copyFileSync(path.join(prevDir, r), path.join(newDir, r));
-        }
-      }
+      else if (e.isFile()) linkOrCopy(path.join(prevDir, r), path.join(newDir, r), { copy: true });
     }
   };
   walk("");
+}
+
+/**
+ * Hard-links `from` to `to` (a new name: never replaces an existing file, so
+ * nothing is ever written through a link into the previous output). Where
+ * links are not possible (another file system, not permitted, too many links)
+ * copies instead when `copy`, else returns false; a missing `from` returns
+ * false; anything else (an existing `to`) throws.
+ */
+export function linkOrCopy(from: string, to: string, { copy }: { copy: boolean }): boolean {
+  try {
+    linkSync(from, to);
+    return true;
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code;
+    if (code === "ENOENT") return false;
+    if (code !== "EXDEV" && code !== "EPERM" && code !== "EMLINK" && code !== "ENOTSUP") throw err;
+    if (!copy) return false;
+    copyFileSync(from, to, fsConstants.COPYFILE_EXCL);
+    return true;
+  }
 }

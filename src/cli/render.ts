@@ -18,8 +18,12 @@ import { parkedPath, type PageModel } from "./waferPages.ts";
 
 type PageExtras = ReturnType<typeof waferPageExtras> extends Map<string, infer E> ? E : never;
 
-/** Wafer pages rendered per Eleventy run: bounds memory (about 0.5 MB per page) against the run's fixed cost (~0.1 s). */
-export const PAGES_PER_RENDER = 40;
+/**
+ * Wafer pages rendered per Eleventy run: bounds memory (about 0.5 MB per page)
+ * against the run's fixed cost (~0.1 s). WAFERBOOK_PAGES_PER_RENDER=n changes
+ * it (tests use a small n to exercise batching on a few wafers).
+ */
+export const PAGES_PER_RENDER = Number(process.env.WAFERBOOK_PAGES_PER_RENDER) > 0 ? Number(process.env.WAFERBOOK_PAGES_PER_RENDER) : 40;
 
 /** The wafer pages of `folders` as the templates read them: each drawn model with what the page shows beside it. */
 export async function waferPageBatch(folders: readonly string[], scratchDir: string, extras: ReadonlyMap<string, PageExtras>, fingerprints: ReadonlyMap<string, string>) {

@@ -47,6 +47,7 @@ class Pool {
   private readonly queue: { id: number; kind: Kind; folder: string; key?: string }[] = [];
   private readonly waiting = new Map<number, { resolve: (r: JobResult) => void; reject: (e: Error) => void; folder: string }>();
   private failure: Error | undefined;
+  private closing = false;
   private nextId = 0;
 
   constructor(
@@ -71,6 +72,10 @@ class Pool {
         this.pump();
       });
       w.on("error", (e) => this.fail(e));
+      // A worker that stops on its own (a library calling process.exit) would leave its job waiting forever.
+      w.on("exit", (code) => {
+        if (!this.closing) this.fail(new Error(`an analysis worker stopped unexpectedly (exit code ${code})`));
+      });
     }
     this.pump();
   }
@@ -97,9 +102,11 @@ class Pool {
     this.failure ??= e;
     for (const job of this.waiting.values()) job.reject(e);
     this.waiting.clear();
+    this.queue.length = 0;
   }
 
   close(): Promise<unknown> {
+    this.closing = true;
     return Promise.all(this.workers.map((w) => w.terminate()));
   }
 }

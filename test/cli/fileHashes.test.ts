@@ -24,7 +24,7 @@ const sha = (s: string) => createHash("sha256").update(s).digest("hex");
 const hourAgo = () => new Date(Date.now() - 3600e3);
 
 describe("file-hash record", () => {
-  it("reuses a stored hash only for an unchanged, not racily modified file, across save and open", async () => {
+  it("reuses a stored hash only for an unchanged, not racily modified file, across save and open", { timeout: 20_000 }, async () => {
     const cache = path.join(tmp, "cache");
     const file = path.join(tmp, "sweep.csv");
     await fs.writeFile(file, "B [T],Rxx [ohm]\n0,1\n");
@@ -33,8 +33,9 @@ describe("file-hash record", () => {
     expect(await h.sha256(file, await fs.stat(file))).toBe(sha("B [T],Rxx [ohm]\n0,1\n"));
     expect(await h.sha256(file, await fs.stat(file))).toBe(sha("B [T],Rxx [ohm]\n0,1\n"));
     expect([h.hashed, h.reused]).toEqual([2, 0]);
-    // Modified an hour before hashing: the stored hash is used from then on, also after save/open.
+    // Modified an hour before hashing (and its status changed more than the racy window before): the stored hash is used from then on, also after save/open.
     await fs.utimes(file, hourAgo(), hourAgo());
+    await new Promise((r) => setTimeout(r, 2100));
     await h.sha256(file, await fs.stat(file));
     await h.save();
     h = await FileHashes.open(cache);

@@ -99,6 +99,16 @@ describe("incremental builds reuse unchanged wafer pages and match a fresh build
     await expectSameSite(out, fresh);
   }, 240_000);
 
+  it("wafer pages rendered in batches (several Eleventy runs) equal pages rendered with the site-wide pages in one run", async () => {
+    const data = await demoCopy("data-batches");
+    const one = path.join(tmp, "site-one-run");
+    const batched = path.join(tmp, "site-batched");
+    await build(at(data, one, true), io);
+    // The CLI in a child process, so the batch size (read when the module loads) can be set: 6 wafers in batches of 2.
+    await git(process.execPath, [path.join(PACKAGE_ROOT, "bin", "waferbook.js"), "build", "--data", data, "--out", batched, "--no-cache", "--quiet"], { env: { ...process.env, CI: "true", WAFERBOOK_PAGES_PER_RENDER: "2" } });
+    await expectSameSite(batched, one);
+  }, 120_000);
+
   it("a page whose previous copy was edited by hand or has no fingerprint is drawn again", async () => {
     const data = await demoCopy("data-edit");
     const out = path.join(tmp, "site-edit");
