@@ -6,13 +6,14 @@
  * file keeps two builds from writing the same output at once.
  */
 import { createHash } from "node:crypto";
-import { promises as fs } from "node:fs";
+import { constants as fsConstants, promises as fs } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import pLimit from "p-limit";
 import { judgeOutcome, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
 import { codeVersion, defaultCacheDir } from "./cache.ts";
 import { WaferJobs } from "./workerPool.ts";
+import type { FileHashes } from "./fileHashes.ts";
 import { loadSiteInputs } from "../read/site.ts";
 import { buildSiteModel, sortOutcomes, waferPageExtras, type SiteMeta } from "../publish/siteModel.ts";
 import { rawCopyPath } from "../publish/rawCopies.ts";
@@ -201,7 +202,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       await jobs.close();
     }
     const problems = [...site.problems, ...outcomes.flatMap((o) => o.problems)];
-    await writeExtras(outcomes, dataDir, tmpDir, commitsOf, outDir, reused);
+    await writeExtras(outcomes, dataDir, tmpDir, commitsOf, outDir, reused, jobs.fileHashes);
     await writeExports(outcomes, tmpDir, meta, site.runs, reused);
     await writeSearch(outcomes, site.runs, tmpDir, PACKAGE_ROOT);
     await swapInto(tmpDir, outDir);
@@ -226,7 +227,7 @@ type CommitsOf = (folder: string) => { wafer: string | null; targets: string | n
  * a time: this is file copies, links and small writes, mostly waiting on the
  * disk.
  */
-async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string, commitsOf: CommitsOf, outDir: string, reused: ReadonlySet<string>): Promise<void> {
+async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string, commitsOf: CommitsOf, outDir: string, reused: ReadonlySet<string>, hashes: FileHashes | undefined): Promise<void> {
   await fs.mkdir(path.join(tmpDir, "raw"), { recursive: true });
   const placed = new Set<string>();
   const limit = pLimit(8);
@@ -244,7 +245,7 @@ async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: st
           const rel = rawCopyPath(f);
           if (parts[0] !== "wafers" || parts[1] !== o.folder || placed.has(rel)) continue;
           placed.add(rel);
-          await placeRawCopy(path.join(dataDir, ...parts), path.join(tmpDir, rel), path.join(outDir, rel), f.sha256, f.path);
+          await placeRawCopy(path.join(dataDir, ...parts), path.join(tmpDir, rel), path.join(outDir, rel), f.sha256, f.path, hashes);
         }
       }),
     ),
@@ -258,12 +259,19 @@ async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: st
  * Puts a copy of a raw file into the new output. The copies are named by
  * their SHA-256, so a copy of that name in the previous output holds the same
  * bytes: it (ours, never the raw file) is hard-linked instead of copying the
- * bytes again. Otherwise the raw file is read, and its bytes are checked
- * against the SHA-256 that was analysed before they are written: a file that
+ * bytes again. Otherwise the raw file is copied, and the copy must hold the
+ * bytes that were analysed: when the file-hash record vouches that the file
+ * is unchanged since it was hashed with that SHA-256, a plain copy; else the
+ * file is read and its bytes checked before they are written. A file that
  * changed during the build stops the build (the previous site stays).
  */
-async function placeRawCopy(rawAbs: string, dest: string, prevCopy: string, sha256: string, rel: string): Promise<void> {
+export async function placeRawCopy(rawAbs: string, dest: string, prevCopy: string, sha256: string, rel: string, hashes: FileHashes | undefined): Promise<void> {
   if (linkOrCopy(prevCopy, dest, { copy: false })) return;
+  const st = await fs.stat(rawAbs);
+  if (hashes?.trusted(rawAbs, st) === sha256) {
+    await fs.copyFile(rawAbs, dest, fsConstants.COPYFILE_EXCL);
+    return;
+  }
   const bytes = await fs.readFile(rawAbs, { flag: "r" });
   if (createHash("sha256").update(bytes).digest("hex") !== sha256) {
     throw new BuildStoppedError(`${rel} changed while the site was being built (its bytes no longer match the SHA-256 that was analysed); build again once it is complete`);

@@ -52,12 +52,21 @@ export class FileHashes {
     return h;
   }
 
+  /**
+   * The recorded SHA-256 of a file whose size, times, inode and device are
+   * what they were when it was hashed (and not racily modified), else undefined.
+   */
+  trusted(abs: string, st: Stats): string | undefined {
+    const row = this.file ? this.rows.get(abs) : undefined;
+    return row && row[0] === st.size && row[1] === st.mtimeMs && row[2] === st.ctimeMs && row[3] === st.ino && row[4] === st.dev && Math.max(st.mtimeMs, st.ctimeMs) < row[5] - RACY_MS ? row[6] : undefined;
+  }
+
   /** SHA-256 (hex) of a regular file, from the record when the file is unchanged, else read and hashed. */
   async sha256(abs: string, st: Stats): Promise<string> {
-    const row = this.file ? this.rows.get(abs) : undefined;
-    if (row && row[0] === st.size && row[1] === st.mtimeMs && row[2] === st.ctimeMs && row[3] === st.ino && row[4] === st.dev && Math.max(st.mtimeMs, st.ctimeMs) < row[5] - RACY_MS) {
+    const known = this.trusted(abs, st);
+    if (known) {
       this.reused++;
-      return row[6];
+      return known;
     }
     const hashedAt = Date.now();
     const digest = createHash("sha256").update(await fs.readFile(abs)).digest("hex");

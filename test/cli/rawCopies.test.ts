@@ -1,0 +1,52 @@
+/**
+ * Raw-file copies (src/cli/build.ts placeRawCopy, src/publish/rawCopies.ts):
+ * named by SHA-256; linked from the previous output when it has that name;
+ * otherwise copied only if the bytes are the ones analysed — a file that
+ * changed during the build stops the build with a clear message.
+ */
+import { createHash } from "node:crypto";
+import { promises as fs } from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { BuildStoppedError, placeRawCopy } from "../../src/cli/build.ts";
+import { FileHashes } from "../../src/cli/fileHashes.ts";
+import { rawCopyHref, rawCopyPath } from "../../src/publish/rawCopies.ts";
+
+let tmp = "";
+beforeAll(async () => {
+  tmp = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-raw-"));
+});
+afterAll(async () => {
+  await fs.rm(tmp, { recursive: true, force: true });
+});
+const sha = (s: string) => createHash("sha256").update(s).digest("hex");
+
+describe("raw-file copies", () => {
+  it("are named by SHA-256 with a safe lower-case extension", () => {
+    const h = sha("x");
+    expect(rawCopyPath({ path: "wafers/W/transport/HB1/vg #1?.CSV", sha256: h })).toBe(`raw/${h}.csv`);
+    expect(rawCopyPath({ path: "wafers/W/notes", sha256: h })).toBe(`raw/${h}`);
+    expect(rawCopyPath({ path: "wafers/W/a.tar.<script>", sha256: h })).toBe(`raw/${h}`);
+    expect(rawCopyHref({ path: "wafers/W/wafer.md", sha256: h })).toBe(`../../raw/${h}.md`);
+  });
+
+  it("link the previous copy, else copy checked bytes; a changed file stops the build", async () => {
+    const raw = path.join(tmp, "sweep.csv");
+    await fs.writeFile(raw, "B [T],Rxx [ohm]\n0,1\n");
+    const good = sha("B [T],Rxx [ohm]\n0,1\n");
+    const prev = path.join(tmp, "prev.csv");
+    await fs.writeFile(prev, "B [T],Rxx [ohm]\n0,1\n");
+    // A previous copy of that name: hard-linked (same inode), the raw file not read.
+    await placeRawCopy(path.join(tmp, "missing.csv"), path.join(tmp, "a.csv"), prev, good, "wafers/W/sweep.csv", undefined);
+    expect((await fs.stat(path.join(tmp, "a.csv"))).ino).toBe((await fs.stat(prev)).ino);
+    // No previous copy: read, checked, written.
+    await placeRawCopy(raw, path.join(tmp, "b.csv"), path.join(tmp, "none.csv"), good, "wafers/W/sweep.csv", await FileHashes.open(null));
+    expect(await fs.readFile(path.join(tmp, "b.csv"), "utf8")).toBe("B [T],Rxx [ohm]\n0,1\n");
+    // The file changed since it was analysed.
+    const err = await placeRawCopy(raw, path.join(tmp, "c.csv"), path.join(tmp, "none.csv"), sha("something else"), "wafers/W/sweep.csv", undefined).catch((e) => e);
+    expect(err).toBeInstanceOf(BuildStoppedError);
+    expect(err.message).toBe("wafers/W/sweep.csv changed while the site was being built (its bytes no longer match the SHA-256 that was analysed); build again once it is complete");
+    await expect(fs.stat(path.join(tmp, "c.csv"))).rejects.toThrow();
+  });
+});
