@@ -269,7 +269,8 @@ export async function placeRawCopy(rawAbs: string, dest: string, prevCopy: strin
   if (linkOrCopy(prevCopy, dest, { copy: false })) return;
   const st = await fs.stat(rawAbs);
   if (hashes?.trusted(rawAbs, st) === sha256) {
-    await fs.copyFile(rawAbs, dest, fsConstants.COPYFILE_EXCL);
+    // A copy-on-write clone where the file system offers one (btrfs, XFS, APFS), else a plain copy.
+    await fs.copyFile(rawAbs, dest, fsConstants.COPYFILE_EXCL | fsConstants.COPYFILE_FICLONE);
     return;
   }
   const bytes = await fs.readFile(rawAbs, { flag: "r" });
