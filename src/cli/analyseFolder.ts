@@ -4,13 +4,11 @@
  * settings and the code — never on targets. Runs in the main thread or in a
  * worker (src/cli/workerPool.ts); its result is plain data.
  */
-import { promises as fs } from "node:fs";
-import path from "node:path";
 import { analyseWafer, type WaferAnalysis } from "../analyse/wafer.ts";
 import type { DeviceDepth } from "../analyse/transport/deviceDepth.ts";
 import { loadWafer, type LoadContext } from "../read/wafer.ts";
-import type { FileHashes } from "./fileHashes.ts";
-import { cacheKey, readEntry, writeEntry, type CacheEntry, type EntryForm } from "./cache.ts";
+import { readEntry, writeEntry, type CacheEntry, type EntryForm } from "./cache.ts";
+import { lookUpFolder } from "./lookUp.ts";
 
 export interface AnalyseContext extends LoadContext {
   /** Cache folder, or null to bypass the cache (--no-cache). */
@@ -26,15 +24,6 @@ export interface AnalysedFolder {
   form: EntryForm;
   /** The cache key, when the cache is in use. */
   key?: string;
-}
-
-/** The cached (slim) result of one wafer folder, if any, and its cache key (undefined without a cache). */
-export async function lookUpFolder(folder: string, ctx: AnalyseContext, hashes?: FileHashes): Promise<{ key?: string; hit?: AnalysedFolder }> {
-  if (!ctx.cacheDir) return {};
-  const twins = (await fs.readdir(path.join(ctx.dataDir, "wafers")).catch(() => [] as string[])).filter((n) => n !== folder && n.toLowerCase() === folder.toLowerCase()).sort();
-  const key = await cacheKey(path.join(ctx.dataDir, "wafers", folder), ctx.code, ctx.siteSettings, hashes, twins);
-  const entry = await readEntry(ctx.cacheDir, key, "slim");
-  return { key, hit: entry && entry.folder === folder ? { entry, cacheHit: true, form: "slim", key } : undefined };
 }
 
 /**

@@ -20,7 +20,7 @@ import { rawCopyPath } from "../publish/rawCopies.ts";
 import { linkOrCopy, linkReusedPage, pageCodeVersion, pageFingerprint, previousFingerprint } from "./pageReuse.ts";
 import type { AnalysedFolder } from "./analyseFolder.ts";
 import { PAGES_PER_RENDER, renderTemplates, renderWaferPages, waferPageBatch } from "./render.ts";
-import { resultsJson } from "../publish/waferPage.ts";
+import { resultsJson } from "../publish/resultsJson.ts";
 import { writeSearch } from "../publish/searchIndex.ts";
 import type { Problem } from "../validate/problem.ts";
 import type { BuildOptions } from "./args.ts";

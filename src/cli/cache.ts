@@ -49,7 +49,7 @@ export interface CacheEntry {
 const SRC = SRC_DIR;
 const CODE_FOLDERS = ["read", "validate", "analyse", "physics"];
 /** Files outside those folders that decide what a cache entry holds. */
-const CODE_FILES = ["cli/analyseFolder.ts", "cli/cache.ts"];
+const CODE_FILES = ["cli/analyseFolder.ts", "cli/cache.ts", "cli/lookUp.ts"];
 
 /** Every file under dir whose name passes `keep`, absolute paths. */
 export async function sourceFiles(dir: string, keep: (name: string) => boolean = (n) => n.endsWith(".ts")): Promise<string[]> {

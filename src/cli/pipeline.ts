@@ -3,9 +3,9 @@
  * time, each independent: a broken wafer yields an `error` outcome with its
  * problems and never stops the others.
  */
-import { analyseWafer, type WaferAnalysis } from "../analyse/wafer.ts";
+import type { WaferAnalysis } from "../analyse/wafer.ts";
 import { judgeWafer, type MetricValues, type WaferJudgement } from "../judge/verdict.ts";
-import { loadWafer, type LoadContext, type LoadedWafer, type RawFileInfo } from "../read/wafer.ts";
+import type { LoadContext, LoadedWafer, RawFileInfo } from "../read/wafer.ts";
 import { METRIC_BY_KEY } from "../analyse/metrics.ts";
 import { formatProblem, type Problem } from "../validate/problem.ts";
 import type { WaferRecord } from "../validate/wafer.ts";

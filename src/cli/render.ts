@@ -14,7 +14,12 @@ import path from "node:path";
 import v8 from "node:v8";
 import type { SiteMeta, waferPageExtras } from "../publish/siteModel.ts";
 import { PACKAGE_ROOT } from "./paths.ts";
-import { parkedPath, type PageModel } from "./waferPages.ts";
+import type { PageModel } from "./waferPages.ts";
+
+/** Where a drawn page's model waits for rendering. */
+export function parkedPath(scratchDir: string, folder: string): string {
+  return path.join(scratchDir, `${encodeURIComponent(folder)}.v8`);
+}
 
 type PageExtras = ReturnType<typeof waferPageExtras> extends Map<string, infer E> ? E : never;
 

@@ -17,13 +17,9 @@ import path from "node:path";
 import v8 from "node:v8";
 import type { WaferOutcome } from "./pipeline.ts";
 import { waferPageModel } from "../publish/waferPage.ts";
+import { parkedPath } from "./render.ts";
 
 export type PageModel = ReturnType<typeof waferPageModel>;
-
-/** Where a drawn page's model waits for rendering. */
-export function parkedPath(scratchDir: string, folder: string): string {
-  return path.join(scratchDir, `${encodeURIComponent(folder)}.v8`);
-}
 
 /**
  * Draws one wafer's page from its outcome with the full analysis: writes the

@@ -20,8 +20,12 @@ import { Worker } from "node:worker_threads";
 import pLimit from "p-limit";
 import { workerEntry } from "./paths.ts";
 import { FileHashes } from "./fileHashes.ts";
-import { lookUpFolder, type AnalysedFolder } from "./analyseFolder.ts";
-import { analyseJob, drawJob, type JobContext, type JobResult } from "./waferJob.ts";
+import type { AnalysedFolder } from "./analyseFolder.ts";
+import { lookUpFolder } from "./lookUp.ts";
+import type { JobContext, JobResult } from "./waferJob.ts";
+
+/** The jobs themselves, loaded only when they run in this thread (the analysis and drawing code is otherwise loaded by the workers alone). */
+const jobsHere = () => import("./waferJob.ts");
 
 export const MAX_WORKERS = 8;
 /** Below this many jobs, starting workers costs more than it saves. */
@@ -169,7 +173,10 @@ export class WaferJobs {
           }),
         ),
       );
-      if (!this.pool) for (const m of misses.sort((a, b) => a.i - b.i)) finish(m.i, await analyseJob(folders[m.i], this.ctx, m.key));
+      if (!this.pool && misses.length) {
+        const { analyseJob } = await jobsHere();
+        for (const m of misses.sort((a, b) => a.i - b.i)) finish(m.i, await analyseJob(folders[m.i], this.ctx, m.key));
+      }
       await Promise.all(running);
     } finally {
       await Promise.allSettled(running);
@@ -182,6 +189,8 @@ export class WaferJobs {
   async drawAll(items: { folder: string; key?: string }[]): Promise<void> {
     const pool = this.startPool(items.length);
     if (!pool) {
+      if (!items.length) return;
+      const { drawJob } = await jobsHere();
       for (const it of items) await drawJob(it.folder, this.ctx, it.key);
       return;
     }

@@ -11,7 +11,7 @@ import { validateTargets, type Targets } from "../validate/targets.ts";
 import { ID_PATTERN } from "../validate/waferSchema.ts";
 import { decodeText, readDataBytes } from "./dataFiles.ts";
 import { lineOfField, readFrontMatter, readYaml } from "./frontMatter.ts";
-import { fileInfo, type RawFileInfo } from "./wafer.ts";
+import { fileInfo, type RawFileInfo } from "./fileInfo.ts";
 
 export interface RunNotes {
   id: string;

@@ -3,7 +3,9 @@
  * decoded and validated into typed sweeps. Problems stay with the wafer: a
  * broken file makes this wafer `error` without touching the others.
  */
-import { createHash } from "node:crypto";
+import { fileInfo, type RawFileInfo } from "./fileInfo.ts";
+
+export { fileInfo, type RawFileInfo };
 import { promises as fs } from "node:fs";
 import path from "node:path";
 import { InputError, type Problem } from "../validate/problem.ts";
@@ -19,14 +21,7 @@ import type { ImageInputs } from "../analyse/images/index.ts";
 import { readFrontMatter, lineOfField } from "./frontMatter.ts";
 import { readTable } from "./table.ts";
 
-export interface RawFileInfo {
-  /** Path relative to the data folder. */
-  path: string;
-  bytes: number;
-  sha256: string;
-  /** What the file is for: record, sweep, xrd, profile, image. */
-  role: string;
-}
+
 
 export interface LoadedDevice {
   id: string;
@@ -54,9 +49,6 @@ function toProblem(err: unknown, wafer: string, _fallbackFile: string): Problem 
   throw err;
 }
 
-export function fileInfo(rel: string, bytes: Buffer, role: string): RawFileInfo {
-  return { path: rel, bytes: bytes.length, sha256: createHash("sha256").update(bytes).digest("hex"), role };
-}
 
 export async function loadWafer(folder: string, ctx: LoadContext): Promise<LoadedWafer> {
   const waferDir = path.join(ctx.dataDir, "wafers", folder);

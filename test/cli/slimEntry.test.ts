@@ -15,7 +15,7 @@ import { judgeOutcome, type PipelineContext } from "../../src/cli/pipeline.ts";
 import { PACKAGE_ROOT } from "../../src/cli/paths.ts";
 import { loadSiteInputs } from "../../src/read/site.ts";
 import { pointsCsv, resultsCsv } from "../../src/publish/exports.ts";
-import { resultsJson } from "../../src/publish/waferPage.ts";
+import { resultsJson } from "../../src/publish/resultsJson.ts";
 import { buildSiteModel } from "../../src/publish/siteModel.ts";
 import { searchDocuments } from "../../src/publish/searchIndex.ts";
 
