@@ -72,7 +72,7 @@ export async function readDataBytes(dataDir: string, abs: string, maxBytes = MAX
   await checkInside(dataDir, abs);
   const stat = await fs.stat(abs);
   if (!stat.isFile()) {
-    throw new InputError({ file: rel, message: "not a regular file", expected: "a file", found: "a folder or device" });
+    throw new InputError({ file: rel, message: "not a regular file", expected: "a file", found: "a folder or device", fix: "make the pattern or path that names it match files only" });
   }
   if (stat.size > maxBytes) {
     throw new InputError({

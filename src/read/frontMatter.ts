@@ -34,7 +34,8 @@ export function readFrontMatter(text: string, file: string): FrontMatterDoc {
       const line = e.mark.line + 1;
       throw new InputError({ file, line, column: e.mark.column + 1, message: `YAML syntax error: ${e.reason ?? "cannot parse"}`, expected: "valid YAML (spaces for indentation, \"key: value\")", found: lineText(text, line), fix: /tab/i.test(e.reason ?? "") ? "indent with spaces, not tabs" : "check the indentation and quoting on that line" });
     }
-    throw new InputError({ file, message: `cannot read front matter: ${e.message}` });
+    // No position from the parser: locate at the opening "---" of the block it could not read.
+    throw new InputError({ file, line: 1, message: `cannot read front matter: ${e.message.split("\n")[0]}`, expected: "YAML \"key: value\" lines between the two \"---\" lines", found: "text the YAML reader refused", fix: "check the indentation and quoting of the front matter; see docs/formats.md" });
   }
   return { data: parsed.data, body: parsed.content, firstLine: 2, matterText: parsed.matter };
 }
@@ -45,8 +46,9 @@ export function readYaml(text: string, file: string): unknown {
     return yaml.load(text);
   } catch (err) {
     const e = err as { mark?: { line: number; column: number }; reason?: string; message: string };
-    const line = e.mark ? e.mark.line + 1 : undefined;
-    throw new InputError({ file, line, column: e.mark ? e.mark.column + 1 : undefined, message: `YAML syntax error: ${e.reason ?? e.message}`, expected: "valid YAML", found: line === undefined ? "text YAML cannot read" : lineText(text, line), fix: "check the indentation and quoting on that line" });
+    // Without a position from the parser, point at the top of the file.
+    const line = e.mark ? e.mark.line + 1 : 1;
+    throw new InputError({ file, line, column: e.mark ? e.mark.column + 1 : undefined, message: `YAML syntax error: ${e.reason ?? e.message}`, expected: "valid YAML", found: e.mark ? lineText(text, line) : "text YAML cannot read", fix: e.mark ? "check the indentation and quoting on that line" : "check the indentation and quoting in the file" });
   }
 }
 

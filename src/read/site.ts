@@ -66,7 +66,7 @@ export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
     out.files.push(fileInfo(f.rel, f.bytes, "settings"));
     const text = decodeText(f);
     const raw = readYaml(text, f.rel) ?? {};
-    out.settings = applySettings(DEFAULT_SETTINGS, raw, { file: f.rel, field: "", lineOf: (k) => lineOfField("\n" + text, k, 1) });
+    out.settings = applySettings(DEFAULT_SETTINGS, raw, { file: f.rel, field: "", line: 1, lineOf: (k) => lineOfField("\n" + text, k, 1) });
     out.settingOverrides = raw as Record<string, unknown>;
   });
   const runsDir = path.join(dataDir, "runs");

@@ -50,6 +50,8 @@ export function readTable(text: string, file: string): RawTable {
   let pos = 0;
   let line = 0;
   let headerText: string | undefined;
+  /** Last non-blank line read (1 when there is none), for locating a missing header. */
+  let lastContent = 1;
   while (pos < text.length) {
     let end = text.indexOf("\n", pos);
     if (end < 0) end = text.length;
@@ -58,6 +60,7 @@ export function readTable(text: string, file: string): RawTable {
     pos = end + 1;
     const trimmed = raw.trim();
     if (trimmed === "") continue;
+    lastContent = line;
     if (trimmed.startsWith("#")) {
       const m = /^#\s*([A-Za-z_][A-Za-z0-9_ ]*?)\s*:\s*(.*)$/.exec(trimmed);
       if (m) {
@@ -73,7 +76,8 @@ export function readTable(text: string, file: string): RawTable {
     break;
   }
   if (headerText === undefined) {
-    throw new InputError({ file, message: "no header row", expected: "a header such as \"B [T],Rxx [ohm],Rxy [ohm]\" after the # metadata lines", found: "only metadata or blank lines", fix: "add the column header and the data rows" });
+    // Located at the last metadata line: the header belongs right after it.
+    throw new InputError({ file, line: lastContent, message: "no header row", expected: "a header such as \"B [T],Rxx [ohm],Rxy [ohm]\" after the # metadata lines", found: "only metadata or blank lines", fix: "add the column header and the data rows" });
   }
   const headerLine = line;
   const delimiter: "," | "\t" = headerText.includes("\t") ? "\t" : ",";
@@ -113,7 +117,7 @@ export function readTable(text: string, file: string): RawTable {
     }) as unknown as { record: string[]; info: { lines: number } }[];
   } catch (err) {
     const e = err as { message: string; lines?: number };
-    throw new InputError({ file, line: e.lines !== undefined ? headerLine + e.lines : undefined, message: "cannot split rows", expected: "comma- or tab-separated values", found: e.message.split("\n")[0], fix: "check quoting and separators" });
+    throw new InputError({ file, line: e.lines !== undefined ? headerLine + e.lines : headerLine, message: "cannot split rows", expected: "comma- or tab-separated values", found: e.message.split("\n")[0], fix: "check quoting and separators" });
   }
   const rows: string[][] = [];
   const rowLines: number[] = [];

@@ -69,11 +69,12 @@ export const DEFAULT_SETTINGS: AnalysisSettings = {
 export function applySettings(
   base: AnalysisSettings,
   raw: unknown,
-  where: { file: string; field: string; lineOf?: (key: string) => number | undefined },
+  where: { file: string; field: string; line?: number; lineOf?: (key: string) => number | undefined },
 ): AnalysisSettings {
   if (raw === undefined || raw === null) return base;
   if (typeof raw !== "object" || Array.isArray(raw)) {
-    throw new InputError({ file: where.file, field: where.field, message: "analysis settings must be a mapping", expected: "key: value pairs", found: show(raw) });
+    const under = where.field ? ` indented under ${where.field}:` : "";
+    throw new InputError({ file: where.file, line: where.line, field: where.field, message: "analysis settings must be a mapping", expected: "key: value pairs", found: show(raw), fix: `write one "setting: value" per line${under}, such as hall_max_field: "0.2 T"; see docs/formats.md, section Analysis settings` });
   }
   const out: AnalysisSettings = { ...base };
   const known = Object.keys(SETTING_SPECS);

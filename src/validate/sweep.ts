@@ -113,10 +113,10 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
   const temperature_K = metaValue(t, "temperature");
   let current_A = metaValue(t, "current");
   if (kind === "field" && gate_V === undefined) {
-    throw new InputError({ file: t.file, field: "# gate", message: "field sweep without its gate voltage", expected: "a line \"# gate: <value> V\" before the header", found: "none", fix: "add the gate voltage the sweep was taken at" });
+    throw new InputError({ file: t.file, line: t.headerLine, field: "# gate", message: "field sweep without its gate voltage", expected: "a line \"# gate: <value> V\" before the header", found: "none", fix: "add the gate voltage the sweep was taken at" });
   }
   if (kind === "gate" && field_T === undefined) {
-    throw new InputError({ file: t.file, field: "# field", message: "gate sweep without its field", expected: "a line \"# field: <value> T\" before the header", found: "none", fix: "add the field the sweep was taken at (0 T for zero field)" });
+    throw new InputError({ file: t.file, line: t.headerLine, field: "# field", message: "gate sweep without its field", expected: "a line \"# field: <value> T\" before the header", found: "none", fix: "add the field the sweep was taken at (0 T for zero field)" });
   }
   const I = column(t, "I");
   let currentCol: Float64Array | undefined;
@@ -157,7 +157,10 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
     let neg = 0;
     for (const b of x) b > 0 ? pos++ : b < 0 ? neg++ : 0;
     if (pos + neg < 2) {
-      throw new InputError({ file: t.file, field: "column B", message: "too few field values", expected: "at least two non-zero fields", found: `${x.length} rows`, fix: "check the export" });
+      // Located at the last data row, not the header: "found N rows" sends the
+      // reader to where the data stop, which is where a cut-short export shows.
+      const lastRow = t.rowLines[t.rowLines.length - 1] ?? t.headerLine;
+      throw new InputError({ file: t.file, line: lastRow, field: "column B", message: "too few field values", expected: "at least two non-zero fields", found: `${x.length} rows`, fix: "check that the export is complete, or sweep the field through at least two non-zero values" });
     }
     if (pos === 0 || neg === 0) {
       warnings.push({ severity: "warning", file: t.file, field: "column B", message: "field has one sign only, so Rxx and Rxy cannot be (anti)symmetrised and contact misalignment is not removed", expected: "fields of both signs", found: pos === 0 ? "negative fields only" : "positive fields only", fix: "sweep through zero to the opposite field" });

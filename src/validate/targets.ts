@@ -54,13 +54,14 @@ export function validateTargets(raw: unknown, file: string, yamlText: string): T
       throw new InputError({ file, line: lineOf(k), field: k, message: "unknown key", expected: "default_grade, grades or trends", found: JSON.stringify(k), fix: hint ? `did you mean "${hint}"?` : "remove it" });
     }
   }
-  if (!r.grades || typeof r.grades !== "object" || Array.isArray(r.grades)) {
-    throw new InputError({ file, line: lineOf("grades"), field: "grades", message: "no grades", expected: "a mapping of grade name → metric limits", found: show(r.grades), fix: "add at least one grade" });
+  if (!r.grades || typeof r.grades !== "object" || Array.isArray(r.grades) || Object.keys(r.grades).length === 0) {
+    // An absent key has no line of its own: point at the top of the file, where top-level keys go.
+    throw new InputError({ file, line: lineOf("grades") ?? 1, field: "grades", message: "no grades", expected: "a mapping of grade name → metric limits", found: r.grades && typeof r.grades === "object" && !Array.isArray(r.grades) ? "an empty mapping" : show(r.grades), fix: "add at least one grade" });
   }
   const grades: Targets["grades"] = {};
   for (const [grade, limits] of Object.entries(r.grades as Record<string, unknown>)) {
     if (!limits || typeof limits !== "object" || Array.isArray(limits)) {
-      throw new InputError({ file, line: lineOf(`grades.${grade}`), field: `grades.${grade}`, message: "grade must map metrics to limits", expected: "metric: { min: \"…\" }", found: show(limits) });
+      throw new InputError({ file, line: lineOf(`grades.${grade}`), field: `grades.${grade}`, message: "grade must map metrics to limits", expected: "metric: { min: \"…\" }", found: show(limits), fix: `indent the grade's metrics under "${grade}:", one per line, such as peak_mobility: { min: "1e5 cm^2/(V s)" }` });
     }
     grades[grade] = {};
     for (const [metric, spec] of Object.entries(limits as Record<string, unknown>)) {
@@ -69,7 +70,7 @@ export function validateTargets(raw: unknown, file: string, yamlText: string): T
   }
   const defaultGrade = r.default_grade ?? Object.keys(grades)[0];
   if (typeof defaultGrade !== "string" || !(defaultGrade in grades)) {
-    throw new InputError({ file, line: lineOf("default_grade"), field: "default_grade", message: "default grade is not one of the grades", expected: Object.keys(grades).join(", "), found: show(defaultGrade), fix: "name one of the grades defined below" });
+    throw new InputError({ file, line: lineOf("default_grade") ?? lineOf("grades") ?? 1, field: "default_grade", message: "default grade is not one of the grades", expected: Object.keys(grades).join(", "), found: show(defaultGrade), fix: "name one of the grades defined below" });
   }
   return { defaultGrade, grades, file, trends: readTrendSettings(r.trends, file, lineOf) };
 }
@@ -82,7 +83,7 @@ function readTarget(metric: string, spec: unknown, where: { file: string; field:
     throw new InputError({ ...where, message: "unknown metric", expected: "a metric key listed in docs/formats.md", found: JSON.stringify(metric), fix: hint ? `did you mean "${hint}"?` : "check the spelling against docs/formats.md" });
   }
   if (!spec || typeof spec !== "object" || Array.isArray(spec)) {
-    throw new InputError({ ...where, message: "limit must be a mapping", expected: `{ min: "…" }, { max: "…" } or { between: ["…", "…"] }`, found: show(spec) });
+    throw new InputError({ ...where, message: "limit must be a mapping", expected: `{ min: "…" }, { max: "…" } or { between: ["…", "…"] }`, found: show(spec), fix: `write the limit in braces with its unit, such as ${metric}: { min: "…" }` });
   }
   const s = spec as Record<string, unknown>;
   for (const k of Object.keys(s)) {
@@ -109,7 +110,7 @@ function readTarget(metric: string, spec: unknown, where: { file: string; field:
     t.text = `≤ ${s.max}`;
   } else {
     if (!Array.isArray(s.between) || s.between.length !== 2) {
-      throw new InputError({ ...where, field: `${where.field}.between`, message: "between needs two values", expected: "[low, high]", found: show(s.between) });
+      throw new InputError({ ...where, field: `${where.field}.between`, message: "between needs two values", expected: "[low, high]", found: show(s.between), fix: "give the low and the high limit with units in brackets, such as between: [\"0.1 V\", \"0.6 V\"]" });
     }
     t.min = q(s.between[0], "between[0]");
     t.max = q(s.between[1], "between[1]");
@@ -121,7 +122,7 @@ function readTarget(metric: string, spec: unknown, where: { file: string; field:
     const text = typeof g === "string" ? g.trim() : g;
     if (typeof text === "string" && text.endsWith("%")) {
       const pct = parseQuantity(text, "%");
-      if (!pct.ok || pct.value < 0 || pct.value >= 100) throw new InputError({ ...where, field: `${where.field}.guard`, message: "cannot read the guard band", expected: "a percentage between 0 and 100, such as \"5 %\", or an amount with the metric's unit", found: show(g) });
+      if (!pct.ok || pct.value < 0 || pct.value >= 100) throw new InputError({ ...where, field: `${where.field}.guard`, message: "cannot read the guard band", expected: "a percentage between 0 and 100, such as \"5 %\", or an amount with the metric's unit", found: show(g), fix: "write a percentage from 0 up to (not including) 100, such as guard: \"5 %\"" });
       const ref = t.min !== undefined && t.max !== undefined ? t.max - t.min : Math.abs((t.min ?? t.max)!);
       t.guard = (pct.value / 100) * ref;
     } else {
@@ -130,12 +131,12 @@ function readTarget(metric: string, spec: unknown, where: { file: string; field:
     t.guardText = String(g);
   }
   if ("required" in s) {
-    if (typeof s.required !== "boolean") throw new InputError({ ...where, field: `${where.field}.required`, message: "required must be true or false", expected: "true or false", found: show(s.required) });
+    if (typeof s.required !== "boolean") throw new InputError({ ...where, field: `${where.field}.required`, message: "required must be true or false", expected: "true or false", found: show(s.required), fix: "write required: true or required: false, without quotes" });
     t.required = s.required;
   }
   if ("aggregate" in s) {
     const options: Aggregate[] = ["mean", "min", "max", "every-device"];
-    if (!options.includes(s.aggregate as Aggregate)) throw new InputError({ ...where, field: `${where.field}.aggregate`, message: "unknown aggregate", expected: options.join(" | "), found: show(s.aggregate) });
+    if (!options.includes(s.aggregate as Aggregate)) throw new InputError({ ...where, field: `${where.field}.aggregate`, message: "unknown aggregate", expected: options.join(" | "), found: show(s.aggregate), fix: `use one of ${options.join(", ")}` });
     t.aggregate = s.aggregate as Aggregate;
   }
   return t;

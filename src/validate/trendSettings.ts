@@ -21,6 +21,7 @@ export interface TrendSettings {
 export const DEFAULT_TREND_SETTINGS: TrendSettings = { baseline: { kind: "all" }, runLength: 8 };
 
 const KEYS = ["baseline", "run_length"];
+const BASELINE_FIX = "write baseline: { first: 8 }, baseline: { from: 2024-01-01, to: 2024-12-31 } with both dates, or baseline: all";
 
 function isoDate(v: unknown): string | undefined {
   if (v instanceof Date && !Number.isNaN(v.getTime())) return v.toISOString().slice(0, 10);
@@ -33,7 +34,7 @@ export function readTrendSettings(raw: unknown, file: string, lineOf: (field: st
   const where = (field: string) => ({ file, field, line: lineOf(field) });
   if (raw === null || raw === undefined) return DEFAULT_TREND_SETTINGS;
   if (typeof raw !== "object" || Array.isArray(raw)) {
-    throw new InputError({ ...where("trends"), message: "trends must be a mapping", expected: "baseline and run_length", found: show(raw) });
+    throw new InputError({ ...where("trends"), message: "trends must be a mapping", expected: "baseline and run_length", found: show(raw), fix: "indent baseline: and run_length: under trends:, or remove the trends: line for the defaults" });
   }
   const r = raw as Record<string, unknown>;
   for (const k of Object.keys(r)) {
@@ -46,7 +47,7 @@ export function readTrendSettings(raw: unknown, file: string, lineOf: (field: st
   if ("run_length" in r) {
     const n = r.run_length;
     if (typeof n !== "number" || !Number.isInteger(n) || n < 2 || n > 50) {
-      throw new InputError({ ...where("trends.run_length"), message: "run length must be a whole number from 2 to 50", expected: "e.g. 8 (or 9)", found: show(n) });
+      throw new InputError({ ...where("trends.run_length"), message: "run length must be a whole number from 2 to 50", expected: "e.g. 8 (or 9)", found: show(n), fix: "write a whole number without quotes or unit, such as run_length: 8" });
     }
     out.runLength = n;
   }
@@ -57,11 +58,11 @@ export function readTrendSettings(raw: unknown, file: string, lineOf: (field: st
 function readBaseline(b: unknown, at: { file: string; field: string; line?: number }): TrendBaseline {
   const expected = "{ first: N } or { from: YYYY-MM-DD, to: YYYY-MM-DD } (growth dates)";
   if (b === "all") return { kind: "all" };
-  if (!b || typeof b !== "object" || Array.isArray(b)) throw new InputError({ ...at, message: "cannot read the trend baseline", expected, found: show(b) });
+  if (!b || typeof b !== "object" || Array.isArray(b)) throw new InputError({ ...at, message: "cannot read the trend baseline", expected, found: show(b), fix: BASELINE_FIX });
   const o = b as Record<string, unknown>;
   if ("first" in o && Object.keys(o).length === 1) {
     const n = o.first;
-    if (typeof n !== "number" || !Number.isInteger(n) || n < 2) throw new InputError({ ...at, field: `${at.field}.first`, message: "baseline needs at least 2 wafers", expected: "a whole number ≥ 2", found: show(n) });
+    if (typeof n !== "number" || !Number.isInteger(n) || n < 2) throw new InputError({ ...at, field: `${at.field}.first`, message: "baseline needs at least 2 wafers", expected: "a whole number ≥ 2", found: show(n), fix: "write a whole number of wafers, 2 or more, such as baseline: { first: 8 }" });
     return { kind: "first", count: n };
   }
   const from = isoDate(o.from);
@@ -70,5 +71,5 @@ function readBaseline(b: unknown, at: { file: string; field: string; line?: numb
     if (from > to) throw new InputError({ ...at, message: "baseline dates are reversed", expected: "from before to", found: `${from} … ${to}`, fix: "swap them" });
     return { kind: "dates", from, to };
   }
-  throw new InputError({ ...at, message: "cannot read the trend baseline", expected, found: show(b) });
+  throw new InputError({ ...at, message: "cannot read the trend baseline", expected, found: show(b), fix: BASELINE_FIX });
 }

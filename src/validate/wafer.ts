@@ -109,7 +109,13 @@ function ajvToInputError(e: ErrorObject, doc: FrontMatterDoc, file: string, data
     case "required": {
       const key = (e.params as { missingProperty: string }).missingProperty;
       const field = base ? `${base}.${key}` : key;
-      return new InputError({ file, line: base ? lineOf(base) : undefined, field, message: "required field is missing", expected: FIELD_HINTS[key] ?? `a value for "${key}"`, found: "nothing", fix: `add "${key}: …"` });
+      // A missing field has no line of its own. A top-level one is located at the
+      // opening "---" (always present, unlike the line after it, which may be the
+      // closing "---" of an empty block); a nested one at the mapping that lacks it.
+      const opening = doc.firstLine - 1;
+      const line = base ? (lineOf(base) ?? opening) : opening;
+      const fix = base ? `add "${key}: …" to ${base}` : `add a line "${key}: …" between the two "---" lines`;
+      return new InputError({ file, line, field, message: "required field is missing", expected: FIELD_HINTS[key] ?? `a value for "${key}"`, found: "nothing", fix });
     }
     case "enum":
       return new InputError({ file, line: lineOf(base), field: base, message: "value is not one of the allowed choices", expected: (e.params as { allowedValues: unknown[] }).allowedValues.join(" | "), found: show(valueAt), fix: FIELD_HINTS[last] ? `use ${FIELD_HINTS[last]}` : "use one of the listed values" });
@@ -145,7 +151,7 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
   const { file } = ctx;
   const lineOf = (f: string) => lineOfField(doc.matterText, f, doc.firstLine);
   if (typeof data !== "object" || Array.isArray(data)) {
-    throw new InputError({ file, line: doc.firstLine, message: "front matter must be a mapping of fields", expected: "key: value lines", found: show(data) });
+    throw new InputError({ file, line: doc.firstLine, message: "front matter must be a mapping of fields", expected: "key: value lines", found: show(data), fix: "write one \"key: value\" per line between the two \"---\" lines, such as \"wafer: <id>\"; see docs/formats.md" });
   }
   if (!validateShape(data)) {
     const errors = validateShape.errors ?? [];
@@ -177,7 +183,7 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
     }
   });
   ((r.images ?? []) as ImageSpec[]).forEach((im, i) => checkRelativePath(im.file, { file, field: `images[${i}].file`, line: lineOf(`images[${i}].file`) }));
-  const settings = applySettings(ctx.siteSettings, r.analysis, { file, field: "analysis", lineOf: (k) => lineOf(`analysis.${k}`) });
+  const settings = applySettings(ctx.siteSettings, r.analysis, { file, field: "analysis", line: lineOf("analysis"), lineOf: (k) => lineOf(`analysis.${k}`) });
   return {
     wafer: r.wafer,
     run: r.run,

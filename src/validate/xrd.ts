@@ -32,7 +32,7 @@ export const PEAK_LAYERS = ["substrate", "buffer", "well"];
 export function parseReflection(t: RawTable): Miller {
   const entry = t.meta.get("reflection");
   if (!entry) {
-    throw new InputError({ file: t.file, field: "# reflection", message: "the reflection is not given", expected: "a line \"# reflection: h k l\" before the header, such as \"# reflection: 0 0 4\"", found: "none", fix: "add the Miller indices of the measured reflection" });
+    throw new InputError({ file: t.file, line: t.headerLine, field: "# reflection", message: "the reflection is not given", expected: "a line \"# reflection: h k l\" before the header, such as \"# reflection: 0 0 4\"", found: "none", fix: "add the Miller indices of the measured reflection" });
   }
   const v = entry.value.trim();
   const parts = /^\d{3}$/.test(v) ? v.split("") : v.split(/[\s,]+/);

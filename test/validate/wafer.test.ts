@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { readFrontMatter } from "../../src/read/frontMatter.ts";
 import { problemMessage } from "../helpers/problems.ts";
-import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
+import { applySettings, DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
 import { validateWafer } from "../../src/validate/wafer.ts";
 
 const ctx = { folder: "W-1", file: "wafers/W-1/wafer.md", today: "2026-12-01", siteSettings: DEFAULT_SETTINGS };
@@ -28,7 +28,9 @@ describe("wafer record", () => {
     ["wrong type", ok.replace("length_um: 100", "length_um: long"), "wafers/W-1/wafer.md:8: devices[0].length_um: wrong type (expected a number, found \"long\") — see docs/formats.md for this field"],
     ["id not matching the folder", ok.replace("wafer: W-1", "wafer: W-2"), 'wafers/W-1/wafer.md:2: wafer: wafer id does not match its folder (expected "W-1", found "W-2") — make the id and the folder name the same (rename one of them)'],
     ["future growth date", ok.replace("2025-03-14", "2031-01-01"), "wafers/W-1/wafer.md:4: grown: date is in the future (expected a date on or before 2026-12-01, found 2031-01-01) — correct the year or month"],
-    ["missing required field", ok.replace("run: R-1\n", ""), 'wafers/W-1/wafer.md: run: required field is missing (expected the growth run id, found nothing) — add "run: …"'],
+    ["missing required field", ok.replace("run: R-1\n", ""), 'wafers/W-1/wafer.md:1: run: required field is missing (expected the growth run id, found nothing) — add a line "run: …" between the two "---" lines'],
+    ["missing required field inside a device: located at the device", ok.replace('    files: "t/*.csv"\n', ""), 'wafers/W-1/wafer.md:6: devices[0].files: required field is missing (expected a value for "files", found nothing) — add "files: …" to devices[0]'],
+    ["front matter that is a list", "---\n- a\n- b\n---\n", 'wafers/W-1/wafer.md:2: front matter must be a mapping of fields (expected key: value lines, found a list of 2) — write one "key: value" per line between the two "---" lines, such as "wafer: <id>"; see docs/formats.md'],
     ["bad geometry", ok.replace("geometry: hall-bar", "geometry: hallbar"), 'wafers/W-1/wafer.md:7: devices[0].geometry: value is not one of the allowed choices (expected hall-bar | van-der-pauw, found "hallbar") — use hall-bar or van-der-pauw'],
     ["unknown setting", ok.replace("hall_max_field", "hall_max_feild"), 'wafers/W-1/wafer.md:12: analysis.hall_max_feild: unknown analysis setting'],
     ["setting with the wrong dimension", ok.replace('"150 mT"', '"150 mV"'), 'wafers/W-1/wafer.md:12: analysis.hall_max_field: cannot read setting (upper end of the low-field range used for the Hall slope) (expected a value with a unit convertible to T, such as "1 T", found "150 mV", which has a different dimension) — see docs/formats.md, section Analysis settings'],
@@ -45,6 +47,11 @@ describe("wafer record", () => {
   it("near-miss keys get a did-you-mean hint", () => {
     expect(message(ok.replace("run: R-1", "run: R-1\ngrwon: 2025-01-01"))).toContain('did you mean "grown"?');
     expect(message(ok.replace("hall_max_field", "hall_max_feild"))).toContain('did you mean "hall_max_field"?');
+  });
+  it("an analysis.yaml that is not a mapping is located at its first line, with a fix", () => {
+    expect(problemMessage(() => applySettings(DEFAULT_SETTINGS, "fast", { file: "analysis.yaml", field: "", line: 1 }))).toBe(
+      'analysis.yaml:1: analysis settings must be a mapping (expected key: value pairs, found "fast") — write one "setting: value" per line, such as hall_max_field: "0.2 T"; see docs/formats.md, section Analysis settings',
+    );
   });
   it("ids that could escape a path are refused", () => {
     expect(message(ok.replace("run: R-1", "run: ../etc"))).toMatch(/run: not a valid id/);
