@@ -11,7 +11,7 @@ import { analyseImages, type ImageAnalysis, type ImageInputs } from "./images/in
 import { analyseDeviceDepth, type DeviceDepth } from "./transport/deviceDepth.ts";
 import { toMetricUnit } from "./metrics.ts";
 import { analyseFieldSweep, type TransportPoint } from "./transport/fieldSweep.ts";
-import { sortByGate, summariseDevice, type DeviceSummary } from "./transport/deviceSummary.ts";
+import { pointsCalibration, sortByGate, summariseDevice, type DeviceSummary } from "./transport/deviceSummary.ts";
 
 export interface DeviceInput {
   spec: DeviceSpec;
@@ -62,7 +62,10 @@ export function analyseDevice(input: DeviceInput, settings: AnalysisSettings): D
     if (r.ok) points.push(r.point);
     else skipped.push({ file: r.file, reason: r.reason });
   }
-  const summary = summariseDevice(points);
+  const sorted = sortByGate(points);
+  // One n(Vg) fit per device, shared by the summary (gate fit) and the depth analysis (gate capacitance, gate sweeps).
+  const calibration = pointsCalibration(sorted);
+  const summary = summariseDevice(points, calibration);
   const metrics: Record<string, number> = {};
   const put = (key: string, si: number | undefined) => {
     const v = toMetricUnit(key, si);
@@ -74,8 +77,7 @@ export function analyseDevice(input: DeviceInput, settings: AnalysisSettings): D
     put("gate_density_slope", summary.gateFit?.slope);
     put("turn_on_voltage", summary.gateFit?.turnOn);
   }
-  const sorted = sortByGate(points);
-  const depth = analyseDeviceDepth(sorted, gateSweeps, settings, input.spec);
+  const depth = analyseDeviceDepth(sorted, gateSweeps, settings, input.spec, calibration);
   if (depth) Object.assign(metrics, depth.metrics);
   return { id: input.spec.id, geometry: input.spec.geometry, at_mm: input.spec.at_mm, points: sorted, gateSweeps, skipped, summary, depth, metrics };
 }

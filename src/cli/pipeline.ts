@@ -11,6 +11,7 @@ import { formatProblem, type Problem } from "../validate/problem.ts";
 import type { WaferRecord } from "../validate/wafer.ts";
 import type { Targets } from "../validate/targets.ts";
 import { SETTING_SPECS } from "../validate/settings.ts";
+import { sig6 } from "../publish/format.ts";
 import { uniformityMetrics } from "../analyse/uniformityMetrics.ts";
 
 export interface Provenance {
@@ -52,7 +53,7 @@ function settingsProvenance(record: WaferRecord | undefined, siteOverrides: Reco
     let text: string;
     if (v === null) text = "derived from the data";
     else if (Array.isArray(v)) text = v.map((x) => `${(x / ("si" in spec ? spec.si : 1)).toPrecision(3)} ${"unit" in spec ? spec.unit : ""}`).join(" … ");
-    else if (typeof v === "number") text = "unit" in spec ? `${Number((v / spec.si).toPrecision(6))} ${spec.unit}` : String(v);
+    else if (typeof v === "number") text = "unit" in spec ? `${sig6(v / spec.si)} ${spec.unit}` : String(v);
     else text = String(v);
     const source = key in record.settingOverrides ? "wafer" : key in siteOverrides ? "site" : "default";
     return { key, value: text, source };

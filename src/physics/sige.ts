@@ -115,13 +115,24 @@ export interface StrainedSiWell {
 }
 
 /**
- * A coherent Si well on a fully relaxed Si(1−x)Ge(x) buffer: a∥ = a_Dismukes(x),
- * ε∥ = (a∥ − a_Si)/a_Si, ε⊥ = −D_Si·ε∥, a⊥ = a_Si·(1 + ε⊥). For x = 0.3:
- * ε∥ = +1.146 %, ε⊥ = −0.883 %, a⊥ = 0.538305 nm (REFERENCES §4, derived).
+ * A coherent Si layer held at the in-plane lattice constant aParallel (m) by
+ * biaxial stress: ε∥ = (a∥ − a_Si)/a_Si with a_Si = 5.431 Å, ε⊥ = −D_Si·ε∥
+ * with D_Si = 2C12/C11 of Si, a⊥ = a_Si·(1 + ε⊥) (REFERENCES §3–§4). Strains
+ * dimensionless, lengths in m. Does not throw: a non-finite aParallel gives
+ * non-finite strains, so callers check their input (wellStrain,
+ * strainedSiOnRelaxedSiGe via latticeDismukes).
  */
-export function strainedSiOnRelaxedSiGe(x: number): StrainedSiWell {
-  const aParallel = latticeDismukes(x);
+export function strainedSiAtParallel(aParallel: number): StrainedSiWell {
   const epsParallel = (aParallel - A_SI) / A_SI;
   const epsPerpendicular = -biaxialRatio(0) * epsParallel;
   return { epsParallel, epsPerpendicular, aParallel, aPerpendicular: A_SI * (1 + epsPerpendicular) };
+}
+
+/**
+ * A coherent Si well on a fully relaxed Si(1−x)Ge(x) buffer: a∥ = a_Dismukes(x),
+ * then ε∥, ε⊥ and a⊥ as in strainedSiAtParallel. For x = 0.3:
+ * ε∥ = +1.146 %, ε⊥ = −0.883 %, a⊥ = 0.538305 nm (REFERENCES §4, derived).
+ */
+export function strainedSiOnRelaxedSiGe(x: number): StrainedSiWell {
+  return strainedSiAtParallel(latticeDismukes(x));
 }

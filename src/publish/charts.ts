@@ -5,6 +5,7 @@
  * are linked for full resolution.
  */
 import { lttb } from "../analyse/numeric/lttb.ts";
+import { sig6 } from "./format.ts";
 
 export interface ChartSeries {
   label: string;
@@ -52,9 +53,9 @@ export function markerSeries(label: string, pts: [number, number][], role: Chart
   return { label, points: pts.map(([a, b]) => [round(a), round(b)]), line: false, role };
 }
 
-/** Six significant digits is plenty on screen and keeps the JSON small. */
+/** Six significant digits (format.ts `sig6`) is plenty on screen and keeps the JSON small; non-finite values become 0. */
 export function round(v: number): number {
-  return Number.isFinite(v) ? Number(v.toPrecision(6)) : 0;
+  return Number.isFinite(v) ? sig6(v) : 0;
 }
 
 /** Serialises JSON for a <script type="application/json"> block: `<` is escaped so "</script>" in a string cannot close the tag. */

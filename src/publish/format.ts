@@ -12,6 +12,18 @@ export function prettyUnit(unit: string): string {
   return unit.replace(/\^(-?\d+)/g, (_, e: string) => [...e].map((c) => SUPERSCRIPT[c] ?? c).join("")).replace(/\bu([FVAm])/g, "µ$1");
 }
 
+/**
+ * v rounded to 6 significant digits, as a number: Number(v.toPrecision(6)),
+ * e.g. 1234.5678 → 1234.57, 1.23456789e15 → 1.23457e15. Exported numbers
+ * (charts, CSV/JSON exports, provenance) use it: six digits is well beyond any
+ * measurement's precision and keeps files small. Non-finite values pass through
+ * unchanged (NaN → NaN, ±Infinity → ±Infinity); each caller decides what a
+ * non-finite value becomes (0, empty cell, null, or printed as is). −0 becomes 0.
+ */
+export function sig6(v: number): number {
+  return Number(v.toPrecision(6));
+}
+
 /** Significant-digit formatting with engineering-friendly exponents: 1.23×10¹¹. */
 export function formatNumber(v: number, digits = 3): string {
   if (!Number.isFinite(v)) return "—";

@@ -12,11 +12,12 @@
  * `maxSide` block-averages by an integer factor so the page copy stays light;
  * omit it for the full-resolution copy.
  *
- * Encoding: 8-bit RGBA (strain) or greyscale (micrograph) with pngjs
- * PNG.sync.write. Throws RangeError for mismatched sizes (programming error).
+ * Encoding: 8-bit RGBA (strain) with pngjs PNG.sync.write, or 8-bit greyscale
+ * (micrograph) with greyPng.ts. Throws RangeError for mismatched sizes (programming error).
  */
 import { PNG } from "pngjs";
 import { growthCoordinate, type GrowthAxis } from "../analyse/images/geometry.ts";
+import { encodeGreyPng } from "./greyPng.ts";
 
 type RGB = [number, number, number];
 
@@ -142,12 +143,6 @@ export function renderMicrograph(pixels: ArrayLike<number>, width: number, heigh
   const sorted = Array.from(small.map).filter(Number.isFinite).sort((a, b) => a - b);
   const lo = sorted[Math.floor(0.005 * (sorted.length - 1))] ?? 0;
   const hi = sorted[Math.floor(0.995 * (sorted.length - 1))] ?? 1;
-  const png = new PNG({ width: small.width, height: small.height });
-  for (let i = 0; i < small.map.length; i++) {
-    const v = small.map[i];
-    const g = Number.isFinite(v) && hi > lo ? Math.round(255 * Math.max(0, Math.min(1, (v - lo) / (hi - lo)))) : 128;
-    png.data[4 * i] = png.data[4 * i + 1] = png.data[4 * i + 2] = g;
-    png.data[4 * i + 3] = 255;
-  }
-  return { png: PNG.sync.write(png, { colorType: 0 }), width: small.width, height: small.height, factor: small.factor };
+  const levels = Array.from(small.map, (v) => (Number.isFinite(v) && hi > lo ? Math.round(255 * Math.max(0, Math.min(1, (v - lo) / (hi - lo)))) : 128));
+  return { png: encodeGreyPng(levels, small.width, small.height), width: small.width, height: small.height, factor: small.factor };
 }

@@ -9,7 +9,7 @@ import { trendChart, type Trend, type TrendInput, type TrendPoint } from "../jud
 import type { Targets } from "../validate/targets.ts";
 import { DEFAULT_TREND_SETTINGS } from "../validate/trendSettings.ts";
 import { jsonForScript, markerSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
-import { formatNumber, formatValue, prettyUnit } from "./format.ts";
+import { formatNumber, formatValue, prettyUnit, sig6 } from "./format.ts";
 
 /** One wafer's values, as the site model knows them. */
 export interface TrendWafer {
@@ -41,7 +41,7 @@ function groupSeries(points: TrendPoint[], keyOf: (p: TrendPoint) => string, nam
 
 function limitLines(t: Trend & { ok: true }, x0: number, x1: number): ChartSeries[] {
   const l = t.limits;
-  const line = (label: string, y: number, role: ChartSeries["role"]): ChartSeries => ({ label, points: [[x0, y], [x1, y]].map(([a, b]) => [a, Number(b.toPrecision(6))]) as [number, number][], line: true, role });
+  const line = (label: string, y: number, role: ChartSeries["role"]): ChartSeries => ({ label, points: [[x0, y], [x1, y]].map(([a, b]) => [a, sig6(b)]) as [number, number][], line: true, role });
   return [line("centre line", l.centreLine, "reference"), line("UCL (+3σ)", l.ucl, "fit"), line("LCL (−3σ)", l.lcl, "fit")];
 }
 

@@ -1,9 +1,10 @@
 /**
- * Encodes a synthetic micrograph as a greyscale PNG (8- or 16-bit, pngjs),
- * the way a microscope export would store it: intensities stretched linearly
- * between their 0.1 % and 99.9 % levels onto the full grey range.
+ * Encodes a synthetic micrograph as a greyscale PNG (8- or 16-bit), the way a
+ * microscope export would store it: intensities stretched linearly between
+ * their 0.1 % and 99.9 % levels onto the full grey range. The PNG itself is
+ * written by src/publish/greyPng.ts.
  */
-import { PNG } from "pngjs";
+import { encodeGreyPng } from "../publish/greyPng.ts";
 
 /** Greyscale PNG of row-major pixels; throws RangeError when the sizes disagree. */
 export function micrographPng(pixels: ArrayLike<number>, width: number, height: number, bitDepth: 8 | 16 = 8): Buffer {
@@ -13,17 +14,7 @@ export function micrographPng(pixels: ArrayLike<number>, width: number, height: 
   const hi = sorted[Math.floor(0.999 * (sorted.length - 1))];
   const max = bitDepth === 16 ? 65535 : 255;
   const level = (v: number) => Math.round(max * Math.max(0, Math.min(1, hi > lo ? (v - lo) / (hi - lo) : 0.5)));
-  const png = new PNG({ width, height });
-  if (bitDepth === 16) {
-    const samples = new Uint16Array(width * height);
-    for (let i = 0; i < samples.length; i++) samples[i] = level(pixels[i]);
-    png.data = Buffer.from(samples.buffer);
-    return PNG.sync.write(png, { colorType: 0, inputColorType: 0, bitDepth: 16 });
-  }
-  for (let i = 0; i < width * height; i++) {
-    const g = level(pixels[i]);
-    png.data[4 * i] = png.data[4 * i + 1] = png.data[4 * i + 2] = g;
-    png.data[4 * i + 3] = 255;
-  }
-  return PNG.sync.write(png, { colorType: 0 });
+  const levels = new Float64Array(width * height);
+  for (let i = 0; i < levels.length; i++) levels[i] = level(pixels[i]);
+  return encodeGreyPng(levels, width, height, bitDepth);
 }

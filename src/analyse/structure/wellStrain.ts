@@ -6,9 +6,11 @@
  * a∥ comes from the well's own asymmetric peak when it is visible
  * (`source: "well-peak"`); otherwise the well is assumed pseudomorphic on the
  * buffer, so a∥(well) = a∥(buffer) (`source: "pseudomorphic-on-buffer"`).
- * Uncertainty: σ(ε∥) = σ(a∥)/a_Si; σ(ε⊥) = D·σ(ε∥). Lengths in m.
+ * Uncertainty: σ(ε∥) = σ(a∥)/a_Si; σ(ε⊥) = D·σ(ε∥). Lengths in m. The strain
+ * relations themselves are sige.ts `strainedSiAtParallel` (shared with
+ * `strainedSiOnRelaxedSiGe`).
  */
-import { A_SI, biaxialRatio } from "../../physics/sige.ts";
+import { A_SI, biaxialRatio, strainedSiAtParallel } from "../../physics/sige.ts";
 import type { MeasuredReflection } from "./bufferRelaxation.ts";
 import { aParallelFromQ, aPerpendicularFromQ } from "./reciprocalSpace.ts";
 
@@ -60,18 +62,17 @@ export function wellStrain(input: WellStrainInput): WellStrain {
   } else {
     return { ok: false, reason: "neither a well peak nor the buffer's in-plane lattice constant is available" };
   }
-  const epsParallel = (aPar - A_SI) / A_SI;
+  const strained = strainedSiAtParallel(aPar);
   const epsErr = aParErr / A_SI;
-  const epsPerpendicular = -d * epsParallel;
   return {
     ok: true,
     source,
-    epsParallel,
+    epsParallel: strained.epsParallel,
     epsParallelStdErr: epsErr,
-    epsPerpendicular,
+    epsPerpendicular: strained.epsPerpendicular,
     epsPerpendicularStdErr: d * epsErr,
     aParallel: aPar,
-    aPerpendicularExpected: A_SI * (1 + epsPerpendicular),
+    aPerpendicularExpected: strained.aPerpendicular,
     ...(aPerpMeasured !== undefined ? { aPerpendicularMeasured: aPerpMeasured } : {}),
   };
 }

@@ -19,8 +19,9 @@
 import type { AnalysisSettings } from "../../validate/settings.ts";
 import type { Sweep } from "../../validate/sweep.ts";
 import { toMetricUnit } from "../metrics.ts";
-import { densityCalibration, type DensityCalibration } from "./densityCalibration.ts";
+import type { DensityCalibration } from "./densityCalibration.ts";
 import { derivedQuantities, type DerivedQuantities } from "./derivedQuantities.ts";
+import { pointsCalibration } from "./deviceSummary.ts";
 import { dinglePlot, dingleRatio, type DingleFit } from "./dingle.ts";
 import type { DeviceGeometry, TransportPoint } from "./fieldSweep.ts";
 import { analyseGateSweeps, deviceHysteresis, devicePercolation, type GateSweepDepth } from "./gateSweepDepth.ts";
@@ -83,16 +84,20 @@ export function analysePointDepth(p: TransportPoint, settings: AnalysisSettings)
 /**
  * Everything in depth for one device. points: the device's transport points
  * (any order); gateSweeps: its gate sweeps; device: geometry with W, L (µm) for
- * Hall bars. Returns undefined when the device has neither points nor gate sweeps.
+ * Hall bars; knownCalibration: the device's gate calibration when the caller has it
+ * already (analyseDevice passes deviceSummary.ts pointsCalibration of the same points),
+ * computed here otherwise. Returns undefined when the device has neither points
+ * nor gate sweeps.
  */
 export function analyseDeviceDepth(
   points: TransportPoint[],
   gateSweeps: Sweep[],
   settings: AnalysisSettings,
   device: DeviceGeometry = DEFAULT_GEOMETRY,
+  knownCalibration?: DensityCalibration | Skipped,
 ): DeviceDepth | undefined {
   if (points.length === 0 && gateSweeps.length === 0) return undefined;
-  const calibration = densityCalibration(points.map((p) => p.gate_V), points.map((p) => p.density));
+  const calibration = knownCalibration ?? pointsCalibration(points);
   const sweeps = analyseGateSweeps(gateSweeps, device, calibration, settings);
   const percolation = devicePercolation(sweeps);
   const hysteresis = deviceHysteresis(sweeps);

@@ -8,8 +8,9 @@
  * where the extrapolated density vanishes; common practice for gated 2DEGs).
  */
 import { ELEMENTARY_CHARGE } from "../../physics/constants.ts";
-import { densityCalibration } from "./densityCalibration.ts";
+import { densityCalibration, type DensityCalibration } from "./densityCalibration.ts";
 import type { TransportPoint } from "./fieldSweep.ts";
+import type { Skipped } from "./outcome.ts";
 
 export interface GateFit {
   /** dn/dVg, m⁻²/V. */
@@ -36,7 +37,23 @@ export function sortByGate(points: TransportPoint[]): TransportPoint[] {
   return [...points].sort((a, b) => a.gate_V - b.gate_V);
 }
 
-export function summariseDevice(points: TransportPoint[]): DeviceSummary | undefined {
+/**
+ * The device's n(Vg) gate calibration (densityCalibration.ts): Hall density
+ * (m⁻²) against gate voltage (V) over the transport points in the order given
+ * (usedIndices index that order; pass them sorted by gate with sortByGate, as
+ * analyseDevice does). Fitted once per device and shared by summariseDevice and
+ * analyseDeviceDepth; never throws (the two arrays always match).
+ */
+export function pointsCalibration(points: TransportPoint[]): DensityCalibration | Skipped {
+  return densityCalibration(points.map((p) => p.gate_V), points.map((p) => p.density));
+}
+
+/**
+ * Peak mobility and gate fit of one device (see the module comment); undefined
+ * without points. calibration: pointsCalibration(sortByGate(points)) when the
+ * caller has it already (analyseDevice), computed here otherwise.
+ */
+export function summariseDevice(points: TransportPoint[], calibration?: DensityCalibration | Skipped): DeviceSummary | undefined {
   if (points.length === 0) return undefined;
   const sorted = sortByGate(points);
   const peak = sorted.reduce((best, p) => (p.mobility > best.mobility ? p : best), sorted[0]);
@@ -47,7 +64,7 @@ export function summariseDevice(points: TransportPoint[]): DeviceSummary | undef
     return summary;
   }
   // The same n(Vg) line as the gate calibration (densityCalibration.ts), so the two never disagree.
-  const cal = densityCalibration(sorted.map((p) => p.gate_V), sorted.map((p) => p.density));
+  const cal = calibration ?? pointsCalibration(sorted);
   if (!cal.ok) summary.gateFitSkipped = cal.reason;
   else {
     summary.gateFit = {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import {
   A_SI, A_SI_CODATA_2018, biaxialRatio, elasticConstants, geFractionDismukes, latticeDismukes, latticeVegard,
-  poissonRatio, strainedPerpendicular, strainedSiOnRelaxedSiGe,
+  poissonRatio, strainedPerpendicular, strainedSiAtParallel, strainedSiOnRelaxedSiGe,
 } from "../../../src/physics/sige.ts";
 import { CU_KALPHA1, dSpacing, degToRad, planeTilt, radToDeg, twoThetaCubic, braggAngle } from "../../../src/analyse/structure/bragg.ts";
 import { anglesToQ, layerPeakQ, qToAngles } from "../../../src/analyse/structure/reciprocalSpace.ts";
@@ -57,6 +57,16 @@ describe("strained Si on relaxed Si0.7Ge0.3 (REFERENCES §4, [D] with Dismukes)"
     // the value is 0.5383041 nm, so the check holds to 5e-6 nm (1e-5 relative).
     expect(w.aPerpendicular * 1e9).toBeCloseTo(0.538305, 5);
     expect(strainedPerpendicular(A_SI, w.aParallel, biaxialRatio(0))).toBeCloseTo(w.aPerpendicular, 16);
+  });
+  it("strainedSiAtParallel: zero strain at a_Si; the x = 0.3 values at a∥ = 0.549322 nm ([D] same relations)", () => {
+    const bulk = strainedSiAtParallel(A_SI);
+    expect(bulk.epsParallel).toBe(0);
+    expect(bulk.aPerpendicular).toBe(A_SI);
+    const w = strainedSiAtParallel(0.549322e-9);
+    expect(100 * w.epsParallel).toBeCloseTo(1.146, 3);
+    expect(100 * w.epsPerpendicular).toBeCloseTo(-0.883, 3);
+    expect(w.epsPerpendicular / w.epsParallel).toBeCloseTo(-0.770808, 6);
+    expect(Number.isNaN(strainedSiAtParallel(Number.NaN).epsParallel)).toBe(true);
   });
   it("Vegard would give +1.254 % instead (the law must be pinned)", () => {
     expect(100 * (latticeVegard(0.3) - A_SI) / A_SI).toBeCloseTo(1.254, 3);

@@ -8,6 +8,8 @@ import { readTable } from "../../../src/read/table.ts";
 import { validateSweep } from "../../../src/validate/sweep.ts";
 import { analyseFieldSweep, type TransportPoint } from "../../../src/analyse/transport/fieldSweep.ts";
 import { analyseDeviceDepth } from "../../../src/analyse/transport/deviceDepth.ts";
+import { pointsCalibration, sortByGate, summariseDevice } from "../../../src/analyse/transport/deviceSummary.ts";
+import { skipped } from "../../../src/analyse/transport/outcome.ts";
 import { DEFAULT_SETTINGS } from "../../../src/validate/settings.ts";
 import { formatSweep, hallSweepRows } from "../../../src/synth/hallSweep.ts";
 import { oscillatingResistivity } from "../../../src/synth/quantumOscillations.ts";
@@ -107,5 +109,25 @@ describe("analyseDeviceDepth outcomes", () => {
     expect(depth.percolation.ok).toBe(false);
     expect(depth.hysteresis.ok).toBe(false);
     expect(analyseDeviceDepth([], [], settings, device)).toBeUndefined();
+  });
+});
+
+describe("one gate calibration per device (pointsCalibration shared by summary and depth)", () => {
+  const points = [...fieldPoints()].reverse();
+  const gates = gateFiles(0.02);
+  const cal = pointsCalibration(sortByGate(points));
+  it("a calibration passed in gives exactly what each function computes itself", () => {
+    const sorted = sortByGate(points);
+    expect(analyseDeviceDepth(sorted, gates, settings, device, cal)).toEqual(analyseDeviceDepth(sorted, gates, settings, device));
+    expect(summariseDevice(points, cal)).toEqual(summariseDevice(points));
+    // Synthetic slope set above: dn/dVg = C/e = 5.6e15 m⁻²/V ([D] from the generator's parameters), within the 2e-4 noise.
+    expect(cal.ok && rel(cal.slope, C / ELEMENTARY_CHARGE)).toBeLessThan(1e-3);
+  });
+  it("the passed calibration is the one used (no second fit)", () => {
+    const none = skipped("calibration withheld for this check");
+    const depth = analyseDeviceDepth(sortByGate(points), gates, settings, device, none)!;
+    expect(depth.calibration).toBe(none);
+    expect(depth.metrics.gate_capacitance).toBeUndefined();
+    expect(summariseDevice(points, none)?.gateFitSkipped).toBe("calibration withheld for this check");
   });
 });
