@@ -8,7 +8,7 @@
  * Omitted: the baseline is every wafer and the run length 8.
  */
 import { didYouMean, InputError, show } from "./problem.ts";
-import { isRealDate } from "./wafer.ts";
+import { isRealDate } from "./dates.ts";
 
 export type TrendBaseline = { kind: "all" } | { kind: "first"; count: number } | { kind: "dates"; from: string; to: string };
 

@@ -5,6 +5,7 @@
  * "did you mean" hint. Semantic checks (id equals folder, real and past dates,
  * settings) follow.
  */
+import { isRealDate } from "./dates.ts";
 import { Ajv, type ErrorObject } from "ajv";
 import { lineOfField, type FrontMatterDoc } from "../read/frontMatter.ts";
 import { checkRelativePath } from "../read/dataFiles.ts";
@@ -130,11 +131,6 @@ function ajvToInputError(e: ErrorObject, doc: FrontMatterDoc, file: string, data
   }
 }
 
-/** True for a real calendar date written YYYY-MM-DD (30 February is refused). */
-export function isRealDate(s: string): boolean {
-  const d = new Date(`${s}T00:00:00Z`);
-  return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === s;
-}
 
 export interface WaferContext {
   /** Folder name the record lives in. */
