@@ -29,14 +29,16 @@ Options:
                 analysis.yaml and runs/<run>.md (default: ./data)
   --out DIR     where the site is written (default: ./site). The folder is
                 replaced only when the build succeeds; a failed build leaves
-                the previous site as it was.
+                the previous site as it was. Wafer pages whose content has
+                not changed are carried over from the previous site.
   --strict      exit with code 1 when any input error was found (for CI)
   --base PATH   serve the site under a sub-path, e.g. /qual/ (default: /)
   --quiet       print only problems and the summary
   --cache DIR   where analysis results are kept between builds, keyed by the
                 wafer's files, settings and the analysis code (default:
                 .waferbook-cache/ beside the --out folder)
-  --no-cache    analyse every wafer from its raw files, ignoring the cache
+  --no-cache    analyse every wafer from its raw files and draw every page
+                afresh, ignoring the cache and the pages of the previous site
   -h, --help    show this help
   --version     print the version
 
