@@ -27,7 +27,7 @@ import { lstatSync, promises as fs, readFileSync, readlinkSync, statSync } from 
 import path from "node:path";
 import v8 from "node:v8";
 import pLimit from "p-limit";
-import { SRC_DIR } from "./paths.ts";
+import { PACKAGE_ROOT, SRC_DIR } from "./paths.ts";
 import type { WaferAnalysis } from "../analyse/wafer.ts";
 import type { RawFileInfo } from "../read/wafer.ts";
 import type { Problem } from "../validate/problem.ts";
@@ -83,7 +83,7 @@ export async function codeVersion(packageVersion: string): Promise<string> {
 export function runtimeVersion(): string {
   let lock = "no-lockfile";
   try {
-    lock = sha256(readFileSync(path.join(SRC, "..", "package-lock.json")));
+    lock = sha256(readFileSync(path.join(PACKAGE_ROOT, "package-lock.json")));
   } catch {
     // an installed package without its lockfile: the package version stands in
   }

@@ -10,10 +10,19 @@ import type { AnalyseContext, AnalysedFolder } from "./analyseFolder.ts";
 import { cacheKey, readEntry } from "./cache.ts";
 import type { FileHashes } from "./fileHashes.ts";
 
-/** The cached (slim) result of one wafer folder, if any, and its cache key (undefined without a cache). */
-export async function lookUpFolder(folder: string, ctx: AnalyseContext, hashes?: FileHashes): Promise<{ key?: string; hit?: AnalysedFolder }> {
+/** The names in the data folder's wafers/ folder, as the loader's duplicate-id check sees them (read once per build). */
+export async function waferListing(dataDir: string): Promise<string[]> {
+  return fs.readdir(path.join(dataDir, "wafers")).catch(() => [] as string[]);
+}
+
+/**
+ * The cached (slim) result of one wafer folder, if any, and its cache key
+ * (undefined without a cache). `listing`: waferListing's result, for the
+ * letter-case twins that are part of the key.
+ */
+export async function lookUpFolder(folder: string, ctx: AnalyseContext, hashes?: FileHashes, listing?: readonly string[]): Promise<{ key?: string; hit?: AnalysedFolder }> {
   if (!ctx.cacheDir) return {};
-  const twins = (await fs.readdir(path.join(ctx.dataDir, "wafers")).catch(() => [] as string[])).filter((n) => n !== folder && n.toLowerCase() === folder.toLowerCase()).sort();
+  const twins = (listing ?? (await waferListing(ctx.dataDir))).filter((n) => n !== folder && n.toLowerCase() === folder.toLowerCase()).sort();
   const key = await cacheKey(path.join(ctx.dataDir, "wafers", folder), ctx.code, ctx.siteSettings, hashes, twins);
   const entry = await readEntry(ctx.cacheDir, key, "slim");
   return { key, hit: entry && entry.folder === folder ? { entry, cacheHit: true, form: "slim", key } : undefined };

@@ -53,6 +53,19 @@ export async function renderWaferPages(folders: readonly string[], outDir: strin
   return written;
 }
 
+/**
+ * Renders the site: the site-wide pages from `model`, and the drawn wafer
+ * pages of `folders`. A few wafer pages (a warm build) go with the site-wide
+ * pages in one Eleventy run; more are rendered in batches of PAGES_PER_RENDER.
+ * Returns the pages written.
+ */
+export async function renderSite(model: object, folders: readonly string[], outDir: string, scratchDir: string, meta: SiteMeta, extras: ReadonlyMap<string, PageExtras>, fingerprints: ReadonlyMap<string, string>): Promise<number> {
+  const templates = path.join(PACKAGE_ROOT, "templates");
+  if (folders.length <= PAGES_PER_RENDER) return renderTemplates(templates, outDir, { ...model, wafers: await waferPageBatch(folders, scratchDir, extras, fingerprints) });
+  const written = await renderTemplates(templates, outDir, { ...model, wafers: [] });
+  return written + (await renderWaferPages(folders, outDir, scratchDir, meta, extras, fingerprints));
+}
+
 /** Runs Eleventy on templates/ (or one template of it) with `wb` as global data, into outDir; returns the number of files written. */
 export async function renderTemplates(input: string, outDir: string, wb: unknown): Promise<number> {
   process.env.ELEVENTY_SKIP_ESM_RESOLVER ??= "1";

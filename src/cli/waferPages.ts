@@ -7,7 +7,7 @@
  *     writes the page's pictures (PNG files) into the output being built, and
  *     parks the rest of the model (strings: chart data, SVG figures, tables)
  *     in a scratch folder beside it;
- *   - `renderWaferPages` (render.ts) reads the parked models back PAGES_PER_RENDER at a time, adds
+ *   - `renderSite` (render.ts) reads the parked models back PAGES_PER_RENDER at a time, adds
  *     what each page shows beside the wafer (neighbours, breadcrumbs, history,
  *     fingerprint) and renders the batch with Eleventy from templates/wafer.njk
  *     alone; the site-wide pages are rendered once, separately (build.ts).

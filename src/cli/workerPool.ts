@@ -21,7 +21,7 @@ import pLimit from "p-limit";
 import { workerEntry } from "./paths.ts";
 import { FileHashes } from "./fileHashes.ts";
 import type { AnalysedFolder } from "./analyseFolder.ts";
-import { lookUpFolder } from "./lookUp.ts";
+import { lookUpFolder, waferListing } from "./lookUp.ts";
 import type { JobContext, JobResult } from "./waferJob.ts";
 
 /** The jobs themselves, loaded only when they run in this thread (the analysis and drawing code is otherwise loaded by the workers alone). */
@@ -140,7 +140,8 @@ export class WaferJobs {
   async analyseAll(folders: string[], onDone: (i: number, r: AnalysedFolder, drawn: boolean) => void = () => {}): Promise<AnalysedFolder[]> {
     const results: AnalysedFolder[] = new Array(folders.length);
     const hashes = (this.fileHashes = await FileHashes.open(this.ctx.cacheDir));
-    const misses: { i: number; key?: string }[] = [];
+    // Misses not yet handed to the pool; what is left at the end is analysed in this thread.
+    const pending: { i: number; key?: string }[] = [];
     const running: Promise<void>[] = [];
     const finish = (i: number, j: JobResult) => onDone(i, (results[i] = j.result), j.drawn);
     const toPool = (p: Pool, m: { i: number; key?: string }) => {
@@ -150,32 +151,31 @@ export class WaferJobs {
       running.push(job);
     };
     try {
+      const listing = await waferListing(this.ctx.dataDir);
       // A few look-ups at a time: each is file reads and hashing, mostly waiting on the disk.
       const limit = pLimit(4);
       let looked = 0;
-      let sent = false;
+      let misses = 0;
       await Promise.all(
         folders.map((f, i) =>
           limit(async () => {
-            const { key, hit } = await lookUpFolder(f, this.ctx, hashes);
+            const { key, hit } = await lookUpFolder(f, this.ctx, hashes, listing);
             looked++;
             if (hit) {
               onDone(i, (results[i] = hit), false);
               return;
             }
-            misses.push({ i, key });
+            pending.push({ i, key });
+            misses++;
             // The first miss starts one worker, so it is analysed while the look-ups go on; more misses grow the pool.
-            const pool = this.startPool(misses.length + folders.length - looked, misses.length < MISSES_FOR_FULL_POOL ? 1 : MAX_WORKERS);
-            if (pool && !sent) {
-              for (const m of misses) toPool(pool, m);
-              sent = true;
-            } else if (pool) toPool(pool, misses.at(-1)!);
+            const pool = this.startPool(misses + folders.length - looked, misses < MISSES_FOR_FULL_POOL ? 1 : MAX_WORKERS);
+            if (pool) for (const m of pending.splice(0)) toPool(pool, m);
           }),
         ),
       );
-      if (!this.pool && misses.length) {
+      if (pending.length) {
         const { analyseJob } = await jobsHere();
-        for (const m of misses.sort((a, b) => a.i - b.i)) finish(m.i, await analyseJob(folders[m.i], this.ctx, m.key));
+        for (const m of pending.sort((a, b) => a.i - b.i)) finish(m.i, await analyseJob(folders[m.i], this.ctx, m.key));
       }
       await Promise.all(running);
     } finally {

@@ -111,8 +111,6 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
   const failing = index.filter((w) => w.verdict === "fail" || w.verdict === "error" || w.verdict === "incomplete");
   return {
     meta,
-    /** Wafer pages are rendered apart, a batch at a time (src/cli/waferPages.ts): none here. */
-    wafers: [] as never[],
     trends: trendsModel(index.map((w, i) => ({ id: w.id, grown: w.grown, run: w.run, reactor: w.reactor, values: judged(sorted[i]) })), extras.targets, meta.basePath),
     targets: targetsPageModel(extras.targets),
     changes: changesModel(history, sorted.map((o) => o.folder), meta.basePath),

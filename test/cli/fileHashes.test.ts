@@ -7,26 +7,20 @@
  */
 import { createHash } from "node:crypto";
 import { promises as fs } from "node:fs";
-import os from "node:os";
 import path from "node:path";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
+import { useTempDir } from "../helpers/tempDir.ts";
 import { FileHashes } from "../../src/cli/fileHashes.ts";
 
-let tmp = "";
-beforeAll(async () => {
-  tmp = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-hashes-"));
-});
-afterAll(async () => {
-  await fs.rm(tmp, { recursive: true, force: true });
-});
+const tempDir = useTempDir("hashes");
 
 const sha = (s: string) => createHash("sha256").update(s).digest("hex");
 const hourAgo = () => new Date(Date.now() - 3600e3);
 
 describe("file-hash record", () => {
   it("reuses a stored hash only for an unchanged, not racily modified file, across save and open", { timeout: 20_000 }, async () => {
-    const cache = path.join(tmp, "cache");
-    const file = path.join(tmp, "sweep.csv");
+    const cache = path.join(tempDir(), "cache");
+    const file = path.join(tempDir(), "sweep.csv");
     await fs.writeFile(file, "B [T],Rxx [ohm]\n0,1\n");
     // Just written: hashed, and hashed again next time (modified within the racy window).
     let h = await FileHashes.open(cache);
@@ -51,14 +45,14 @@ describe("file-hash record", () => {
   });
 
   it("without a cache folder it stores nothing and always reads; a damaged record is ignored", async () => {
-    const file = path.join(tmp, "other.csv");
+    const file = path.join(tempDir(), "other.csv");
     await fs.writeFile(file, "x");
     await fs.utimes(file, hourAgo(), hourAgo());
     const none = await FileHashes.open(null);
     await none.sha256(file, await fs.stat(file));
     await none.sha256(file, await fs.stat(file));
     expect([none.hashed, none.reused]).toEqual([2, 0]);
-    const cache = path.join(tmp, "damaged");
+    const cache = path.join(tempDir(), "damaged");
     await fs.mkdir(cache);
     await fs.writeFile(path.join(cache, "file-hashes.json"), "{ not json");
     const h = await FileHashes.open(cache);

@@ -8,26 +8,19 @@
 import { execFile } from "node:child_process";
 import { createHash } from "node:crypto";
 import { promises as fs } from "node:fs";
-import os from "node:os";
 import path from "node:path";
 import { promisify } from "node:util";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
+import { useTempDir } from "../helpers/tempDir.ts";
 import { build, PACKAGE_ROOT, type BuildIO } from "../../src/cli/build.ts";
 
 const git = promisify(execFile);
 const WAFERS = ["TQ-2401", "TQ-2402", "TQ-2404", "TQ-2405", "TQ-2406", "TQ-2501"];
 const io: BuildIO = { log: () => {}, today: () => "2026-06-01", now: () => "2026-06-01T00:00:00Z" };
-let tmp = "";
-
-beforeAll(async () => {
-  tmp = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-incr-"));
-});
-afterAll(async () => {
-  await fs.rm(tmp, { recursive: true, force: true });
-});
+const tempDir = useTempDir("incr");
 
 async function demoCopy(name: string): Promise<string> {
-  const data = path.join(tmp, name);
+  const data = path.join(tempDir(), name);
   const sep = path.sep;
   await fs.cp(path.join(PACKAGE_ROOT, "data"), data, { recursive: true, filter: (src) => !src.includes(`${sep}wafers${sep}`) || WAFERS.some((w) => src.includes(`${sep}wafers${sep}${w}`)) });
   return data;
@@ -50,7 +43,7 @@ async function expectSameSite(incremental: string, fresh: string): Promise<void>
   expect(differing).toEqual([]);
 }
 
-const at = (data: string, out: string, fresh = false) => ({ data, out, strict: false, basePath: "/", quiet: true, cache: fresh ? null : path.join(tmp, `${path.basename(out)}-cache`) });
+const at = (data: string, out: string, fresh = false) => ({ data, out, strict: false, basePath: "/", quiet: true, cache: fresh ? null : path.join(tempDir(), `${path.basename(out)}-cache`) });
 
 async function commitAll(data: string, message: string): Promise<void> {
   const env = { ...process.env, GIT_AUTHOR_NAME: "Test Grower", GIT_AUTHOR_EMAIL: "grower@example.invalid", GIT_COMMITTER_NAME: "Test Grower", GIT_COMMITTER_EMAIL: "grower@example.invalid", GIT_AUTHOR_DATE: "2026-05-01T10:00:00Z", GIT_COMMITTER_DATE: "2026-05-01T10:00:00Z" };
@@ -63,8 +56,8 @@ describe("incremental builds reuse unchanged wafer pages and match a fresh build
     const data = await demoCopy("data");
     await git("git", ["init", "-q", "-b", "main"], { cwd: data });
     await commitAll(data, "Demo data");
-    const out = path.join(tmp, "site");
-    const fresh = path.join(tmp, "fresh");
+    const out = path.join(tempDir(), "site");
+    const fresh = path.join(tempDir(), "fresh");
 
     const cold = await build(at(data, out), io);
     expect(cold.stats).toMatchObject({ analysed: WAFERS.length, pagesReused: 0 });
@@ -101,8 +94,8 @@ describe("incremental builds reuse unchanged wafer pages and match a fresh build
 
   it("wafer pages rendered in batches (several Eleventy runs) equal pages rendered with the site-wide pages in one run", async () => {
     const data = await demoCopy("data-batches");
-    const one = path.join(tmp, "site-one-run");
-    const batched = path.join(tmp, "site-batched");
+    const one = path.join(tempDir(), "site-one-run");
+    const batched = path.join(tempDir(), "site-batched");
     await build(at(data, one, true), io);
     // The CLI in a child process, so the batch size (read when the module loads) can be set: 6 wafers in batches of 2.
     await git(process.execPath, [path.join(PACKAGE_ROOT, "bin", "waferbook.js"), "build", "--data", data, "--out", batched, "--no-cache", "--quiet"], { env: { ...process.env, CI: "true", WAFERBOOK_PAGES_PER_RENDER: "2" } });
@@ -111,7 +104,7 @@ describe("incremental builds reuse unchanged wafer pages and match a fresh build
 
   it("a page whose previous copy was edited by hand or has no fingerprint is drawn again", async () => {
     const data = await demoCopy("data-edit");
-    const out = path.join(tmp, "site-edit");
+    const out = path.join(tempDir(), "site-edit");
     await build(at(data, out), io);
     const page = path.join(out, "wafers", "TQ-2401", "index.html");
     const original = await fs.readFile(page, "utf8");

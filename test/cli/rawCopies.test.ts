@@ -6,20 +6,15 @@
  */
 import { createHash } from "node:crypto";
 import { promises as fs } from "node:fs";
-import os from "node:os";
 import path from "node:path";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { BuildStoppedError, placeRawCopy } from "../../src/cli/build.ts";
+import { describe, expect, it } from "vitest";
+import { useTempDir } from "../helpers/tempDir.ts";
+import { BuildStoppedError } from "../../src/cli/outputFolder.ts";
+import { placeRawCopy } from "../../src/cli/writeWaferFiles.ts";
 import { FileHashes } from "../../src/cli/fileHashes.ts";
 import { rawCopyHref, rawCopyPath } from "../../src/publish/rawCopies.ts";
 
-let tmp = "";
-beforeAll(async () => {
-  tmp = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-raw-"));
-});
-afterAll(async () => {
-  await fs.rm(tmp, { recursive: true, force: true });
-});
+const tempDir = useTempDir("raw");
 const sha = (s: string) => createHash("sha256").update(s).digest("hex");
 
 describe("raw-file copies", () => {
@@ -32,21 +27,21 @@ describe("raw-file copies", () => {
   });
 
   it("link the previous copy, else copy checked bytes; a changed file stops the build", async () => {
-    const raw = path.join(tmp, "sweep.csv");
+    const raw = path.join(tempDir(), "sweep.csv");
     await fs.writeFile(raw, "B [T],Rxx [ohm]\n0,1\n");
     const good = sha("B [T],Rxx [ohm]\n0,1\n");
-    const prev = path.join(tmp, "prev.csv");
+    const prev = path.join(tempDir(), "prev.csv");
     await fs.writeFile(prev, "B [T],Rxx [ohm]\n0,1\n");
     // A previous copy of that name: hard-linked (same inode), the raw file not read.
-    await placeRawCopy(path.join(tmp, "missing.csv"), path.join(tmp, "a.csv"), prev, good, "wafers/W/sweep.csv", undefined);
-    expect((await fs.stat(path.join(tmp, "a.csv"))).ino).toBe((await fs.stat(prev)).ino);
+    await placeRawCopy(path.join(tempDir(), "missing.csv"), path.join(tempDir(), "a.csv"), prev, good, "wafers/W/sweep.csv", undefined);
+    expect((await fs.stat(path.join(tempDir(), "a.csv"))).ino).toBe((await fs.stat(prev)).ino);
     // No previous copy: read, checked, written.
-    await placeRawCopy(raw, path.join(tmp, "b.csv"), path.join(tmp, "none.csv"), good, "wafers/W/sweep.csv", await FileHashes.open(null));
-    expect(await fs.readFile(path.join(tmp, "b.csv"), "utf8")).toBe("B [T],Rxx [ohm]\n0,1\n");
+    await placeRawCopy(raw, path.join(tempDir(), "b.csv"), path.join(tempDir(), "none.csv"), good, "wafers/W/sweep.csv", await FileHashes.open(null));
+    expect(await fs.readFile(path.join(tempDir(), "b.csv"), "utf8")).toBe("B [T],Rxx [ohm]\n0,1\n");
     // The file changed since it was analysed.
-    const err = await placeRawCopy(raw, path.join(tmp, "c.csv"), path.join(tmp, "none.csv"), sha("something else"), "wafers/W/sweep.csv", undefined).catch((e) => e);
+    const err = await placeRawCopy(raw, path.join(tempDir(), "c.csv"), path.join(tempDir(), "none.csv"), sha("something else"), "wafers/W/sweep.csv", undefined).catch((e) => e);
     expect(err).toBeInstanceOf(BuildStoppedError);
     expect(err.message).toBe("wafers/W/sweep.csv changed while the site was being built (its bytes no longer match the SHA-256 that was analysed); build again once it is complete");
-    await expect(fs.stat(path.join(tmp, "c.csv"))).rejects.toThrow();
+    await expect(fs.stat(path.join(tempDir(), "c.csv"))).rejects.toThrow();
   });
 });

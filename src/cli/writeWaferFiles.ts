@@ -1,0 +1,79 @@
+/**
+ * The files of each wafer's output folder that are not rendered pages: its
+ * results.json, its raw-file copies in the site's content-addressed raw/
+ * folder, and the site's assets; a reused page's folder is linked from the
+ * previous output as it is.
+ */
+import { createHash } from "node:crypto";
+import { constants as fsConstants, promises as fs } from "node:fs";
+import path from "node:path";
+import pLimit from "p-limit";
+import type { WaferOutcome } from "./pipeline.ts";
+import type { FileHashes } from "./fileHashes.ts";
+import { BuildStoppedError } from "./outputFolder.ts";
+import { linkOrCopy, linkReusedPage } from "./pageReuse.ts";
+import { PACKAGE_ROOT } from "./paths.ts";
+import { rawCopyPath } from "../publish/rawCopies.ts";
+import { resultsJson } from "../publish/resultsJson.ts";
+
+export type CommitsOf = (folder: string) => { wafer: string | null; targets: string | null };
+
+/**
+ * Writes each wafer's results.json and places its raw-file copies in the
+ * site's content-addressed raw/ folder (src/publish/rawCopies.ts); a reused
+ * page's folder is linked from the previous output as it is. Several wafers at
+ * a time: this is file copies, links and small writes, mostly waiting on the
+ * disk.
+ */
+export async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string, commitsOf: CommitsOf, outDir: string, reused: ReadonlySet<string>, hashes: FileHashes | undefined): Promise<void> {
+  await fs.mkdir(path.join(tmpDir, "raw"), { recursive: true });
+  const placed = new Set<string>();
+  const limit = pLimit(8);
+  await Promise.all(
+    outcomes.map((o) =>
+      limit(async () => {
+        const dir = path.join(tmpDir, "wafers", o.folder);
+        if (reused.has(o.folder)) await linkReusedPage(path.join(outDir, "wafers", o.folder), dir);
+        else {
+          await fs.mkdir(dir, { recursive: true });
+          await fs.writeFile(path.join(dir, "results.json"), JSON.stringify(resultsJson(o, commitsOf(o.folder)), null, 1) + "\n");
+        }
+        for (const f of o.provenance.files) {
+          const parts = f.path.split("/");
+          const rel = rawCopyPath(f);
+          if (parts[0] !== "wafers" || parts[1] !== o.folder || placed.has(rel)) continue;
+          placed.add(rel);
+          await placeRawCopy(path.join(dataDir, ...parts), path.join(tmpDir, rel), path.join(outDir, rel), f.sha256, f.path, hashes);
+        }
+      }),
+    ),
+  );
+  const chartJs = path.join(PACKAGE_ROOT, "node_modules", "chart.js", "dist", "chart.umd.min.js");
+  await fs.mkdir(path.join(tmpDir, "assets"), { recursive: true });
+  await fs.copyFile(chartJs, path.join(tmpDir, "assets", "chart.umd.min.js"));
+}
+
+/**
+ * Puts a copy of a raw file into the new output. The copies are named by
+ * their SHA-256, so a copy of that name in the previous output holds the same
+ * bytes: it (ours, never the raw file) is hard-linked instead of copying the
+ * bytes again. Otherwise the raw file is copied, and the copy must hold the
+ * bytes that were analysed: when the file-hash record vouches that the file
+ * is unchanged since it was hashed with that SHA-256, a plain copy; else the
+ * file is read and its bytes checked before they are written. A file that
+ * changed during the build stops the build (the previous site stays).
+ */
+export async function placeRawCopy(rawAbs: string, dest: string, prevCopy: string, sha256: string, rel: string, hashes: FileHashes | undefined): Promise<void> {
+  if (linkOrCopy(prevCopy, dest, { copy: false })) return;
+  const st = await fs.stat(rawAbs);
+  if (hashes?.trusted(rawAbs, st) === sha256) {
+    // A copy-on-write clone where the file system offers one (btrfs, XFS, APFS), else a plain copy.
+    await fs.copyFile(rawAbs, dest, fsConstants.COPYFILE_EXCL | fsConstants.COPYFILE_FICLONE);
+    return;
+  }
+  const bytes = await fs.readFile(rawAbs, { flag: "r" });
+  if (createHash("sha256").update(bytes).digest("hex") !== sha256) {
+    throw new BuildStoppedError(`${rel} changed while the site was being built (its bytes no longer match the SHA-256 that was analysed); build again once it is complete`);
+  }
+  await fs.writeFile(dest, bytes, { flag: "wx" });
+}
