@@ -7,7 +7,7 @@
 import { analyseWafer, type WaferAnalysis } from "../analyse/wafer.ts";
 import type { DeviceDepth } from "../analyse/transport/deviceDepth.ts";
 import { loadWafer, type LoadContext } from "../read/wafer.ts";
-import { readEntry, writeEntry, type CacheEntry, type EntryForm } from "./cache.ts";
+import { readEntry, slimAnalysis, writeEntry, type CacheEntry, type EntryForm } from "./cache.ts";
 import { lookUpFolder } from "./lookUp.ts";
 
 export interface AnalyseContext extends LoadContext {
@@ -24,6 +24,8 @@ export interface AnalysedFolder {
   form: EntryForm;
   /** The cache key, when the cache is in use. */
   key?: string;
+  /** The slim form of a full result's analysis, when already made (for the cache). */
+  slim?: WaferAnalysis;
 }
 
 /**
@@ -53,8 +55,9 @@ export async function analyseFolder(folder: string, ctx: AnalyseContext, knownKe
   }
   const entry: CacheEntry = { folder, record: loaded.record, files: loaded.files, problems: loaded.problems, analysis: analysis && keepForPublishing(analysis) };
   // Only wafers whose record validated are cached: a broken wafer.md is cheap to re-read, and its problems may depend on today's date.
-  if (ctx.cacheDir && key && loaded.record) await writeEntry(ctx.cacheDir, key, entry);
-  return { entry, cacheHit: false, form: "full", key };
+  const slim = entry.analysis && slimAnalysis(entry.analysis);
+  if (ctx.cacheDir && key && loaded.record) await writeEntry(ctx.cacheDir, key, entry, slim);
+  return { entry, cacheHit: false, form: "full", key, slim };
 }
 
 const NO_TRACE = { b: new Float64Array(0), rhoxx: new Float64Array(0), rxy: new Float64Array(0) };

@@ -158,10 +158,10 @@ export async function readEntry(cacheDir: string, key: string, form: EntryForm =
  * analysed again). Failures to write are
  * ignored: the cache is an optimisation.
  */
-export async function writeEntry(cacheDir: string, key: string, entry: CacheEntry): Promise<void> {
+export async function writeEntry(cacheDir: string, key: string, entry: CacheEntry, slim = entry.analysis && slimAnalysis(entry.analysis)): Promise<void> {
   await fs.mkdir(path.dirname(entryPath(cacheDir, key)), { recursive: true }).catch(() => {});
   if (await writeAtomically(entryPath(cacheDir, key, "full"), v8.serialize(entry))) {
-    await writeAtomically(entryPath(cacheDir, key, "slim"), v8.serialize({ ...entry, analysis: entry.analysis && slimAnalysis(entry.analysis) }));
+    await writeAtomically(entryPath(cacheDir, key, "slim"), v8.serialize({ ...entry, analysis: slim }));
   }
 }
 

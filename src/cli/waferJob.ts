@@ -27,14 +27,18 @@ export interface JobResult {
 /** Analyses a folder that missed the cache and draws its page; returns the slim result. */
 export async function analyseJob(folder: string, ctx: JobContext, key?: string): Promise<JobResult> {
   const r = await analyseFolder(folder, ctx, key);
-  if (r.form !== "full") return { result: r, drawn: false };
-  await drawWaferPage(judgeOutcome(r.entry, r.entry.analysis, ctx.pipeline), ctx.outDir, ctx.scratchDir);
-  return { result: { ...r, entry: { ...r.entry, analysis: r.entry.analysis && slimAnalysis(r.entry.analysis) }, form: "slim" }, drawn: true };
+  return r.form === "full" ? drawThenSlim(r, ctx) : { result: r, drawn: false };
 }
 
 /** Draws the page of a wafer that was taken slim from the cache (loading it in full). */
 export async function drawJob(folder: string, ctx: JobContext, key?: string): Promise<JobResult> {
-  const full = await loadInFull(folder, key, ctx);
-  await drawWaferPage(judgeOutcome(full.entry, full.entry.analysis, ctx.pipeline), ctx.outDir, ctx.scratchDir);
-  return { result: { ...full, entry: { ...full.entry, analysis: full.entry.analysis && slimAnalysis(full.entry.analysis) }, form: "slim" }, drawn: true };
+  return drawThenSlim(await loadInFull(folder, key, ctx), ctx);
+}
+
+/** Draws a page from a full result, then returns the result in its slim form (all the main thread needs). */
+async function drawThenSlim(full: AnalysedFolder, ctx: JobContext): Promise<JobResult> {
+  const { entry } = full;
+  await drawWaferPage(judgeOutcome(entry, entry.analysis, ctx.pipeline), ctx.outDir, ctx.scratchDir);
+  const slim = full.slim ?? (entry.analysis && slimAnalysis(entry.analysis));
+  return { result: { entry: { ...entry, analysis: slim }, cacheHit: full.cacheHit, form: "slim", key: full.key }, drawn: true };
 }
