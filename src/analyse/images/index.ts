@@ -16,7 +16,7 @@
  */
 import type { Layer } from "../../validate/wafer.ts";
 import type { AnalysisSettings } from "../../validate/settings.ts";
-import { toMetricUnit } from "../metrics.ts";
+import { putMetric } from "../metrics.ts";
 import { expectedWellStrain, type ExpectedWellStrain } from "./expectedWellStrain.ts";
 import { geometricPhase, type GpaResult } from "./geometricPhase.ts";
 import { growthCoordinate, type GrowthAxis, type PixelRect } from "./geometry.ts";
@@ -145,9 +145,9 @@ export function analyseImages(inputs: ImageInputs, stack: Layer[], _settings: An
   const images = list.map((m) => analyseMicrograph(m, stack));
   const metrics: Record<string, number> = {};
   const metricSource: Record<string, number> = {};
+  // First value wins: a later image never overwrites a metric an earlier one gave.
   const put = (key: string, si: number, i: number) => {
-    const v = toMetricUnit(key, si);
-    if (v !== undefined && !(key in metrics)) (metrics[key] = v), (metricSource[key] = i);
+    if (!(key in metrics) && putMetric(metrics, key, si)) metricSource[key] = i;
   };
   images.forEach((r, i) => {
     if (r.profile.ok && r.widthsSkipped === null) {
