@@ -40,3 +40,15 @@ export function toMetricUnit(key: string, si: number | undefined): number | unde
   if (si === undefined || !Number.isFinite(si)) return undefined;
   return si * spec.fromSI;
 }
+
+/**
+ * Stores the SI value `si` of metric `key` in `metrics`, converted to the metric's unit by
+ * toMetricUnit; an undefined or non-finite value stores nothing (an existing entry is left).
+ * Returns true when a value was stored. Throws for a key not in the registry.
+ */
+export function putMetric(metrics: Record<string, number>, key: string, si: number | undefined): boolean {
+  const v = toMetricUnit(key, si);
+  if (v === undefined) return false;
+  metrics[key] = v;
+  return true;
+}

@@ -9,7 +9,7 @@ import type { DeviceSpec, Layer } from "../validate/wafer.ts";
 import { analyseStructure, type StructureAnalysis, type StructureInputs } from "./structure/index.ts";
 import { analyseImages, type ImageAnalysis, type ImageInputs } from "./images/index.ts";
 import { analyseDeviceDepth, type DeviceDepth } from "./transport/deviceDepth.ts";
-import { toMetricUnit } from "./metrics.ts";
+import { putMetric } from "./metrics.ts";
 import { analyseFieldSweep, type TransportPoint } from "./transport/fieldSweep.ts";
 import { pointsCalibration, sortByGate, summariseDevice, type DeviceSummary } from "./transport/deviceSummary.ts";
 
@@ -67,10 +67,7 @@ export function analyseDevice(input: DeviceInput, settings: AnalysisSettings): D
   const calibration = pointsCalibration(sorted);
   const summary = summariseDevice(points, calibration);
   const metrics: Record<string, number> = {};
-  const put = (key: string, si: number | undefined) => {
-    const v = toMetricUnit(key, si);
-    if (v !== undefined) metrics[key] = v;
-  };
+  const put = (key: string, si: number | undefined) => putMetric(metrics, key, si);
   if (summary) {
     put("peak_mobility", summary.peakMobility);
     put("density_at_peak_mobility", summary.densityAtPeakMobility);

@@ -16,6 +16,7 @@
 import { growthNormal, inPlaneDirection, type GrowthAxis } from "../analyse/images/geometry.ts";
 import { seededGaussian } from "./random.ts";
 import { LN9 } from "../analyse/numeric/sigmoidFit.ts";
+import { degToRad } from "../analyse/numeric/angle.ts";
 
 export interface SyntheticMicrographSpec {
   width: number;
@@ -106,7 +107,7 @@ export function syntheticMicrograph(spec: SyntheticMicrographSpec): SyntheticMic
   const { width, height } = spec;
   if (!(width >= 8 && height >= 8)) throw new RangeError("syntheticMicrograph: image must be at least 8×8");
   const px = spec.pixelSize_m;
-  const tilt = ((spec.tilt_deg ?? 0) * Math.PI) / 180;
+  const tilt = degToRad(spec.tilt_deg ?? 0);
   const axis = spec.growthAxis ?? "up";
   const n = growthNormal(axis, tilt);
   const t = inPlaneDirection(axis, tilt);

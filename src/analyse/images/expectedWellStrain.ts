@@ -12,7 +12,8 @@
  * derived: a⊥ = 0.538305 nm against a = 0.549322 nm).
  *
  * The well is the first layer with role `well`; the reference barrier is the
- * first layer below it (stack order is surface first) that has a Ge fraction.
+ * first layer below it (stack order is surface first) with role `barrier` or
+ * `buffer` and a Ge fraction.
  * Returns { ok: false, reason } when the stack does not say enough.
  */
 import { biaxialRatio, latticeDismukes, strainedPerpendicular } from "../../physics/sige.ts";

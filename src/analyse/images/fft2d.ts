@@ -14,7 +14,7 @@
  * Throws RangeError when a size is not a power of two ≥ 2 or the arrays do not
  * match the size (programming errors).
  */
-import FFT from "fft.js";
+import { fftOfSize, nextPowerOfTwo } from "../numeric/fft.ts";
 
 export interface ComplexImage {
   width: number;
@@ -31,10 +31,6 @@ export function isPowerOfTwo(n: number): boolean {
 export function largestPowerOfTwoAtMost(n: number): number {
   if (!(n >= 2)) return 0;
   return 2 ** Math.floor(Math.log2(n));
-}
-
-export function nextPowerOfTwo(n: number): number {
-  return n <= 2 ? 2 : 2 ** Math.ceil(Math.log2(n));
 }
 
 /** Signed frequency index of bin k on an axis of length n: k for k < n/2, else k − n. */
@@ -90,7 +86,7 @@ function transformAxis(data: ComplexImage, alongRows: boolean, inverse: boolean)
   const { width, height, re, im } = data;
   const n = alongRows ? width : height;
   const count = alongRows ? height : width;
-  const fft = new FFT(n);
+  const fft = fftOfSize(n);
   const input = new Float64Array(2 * n);
   const output = new Float64Array(2 * n);
   for (let line = 0; line < count; line++) {

@@ -28,6 +28,7 @@
 import { fft2dInPlace, fft2dReal, padToPowerOfTwo, type ComplexImage } from "./fft2d.ts";
 import { growthNormal, inPlaneDirection, type GrowthAxis, type PixelRect, type Vec2 } from "./geometry.ts";
 import { findBraggPeaks } from "./latticeSpacing.ts";
+import { degToRad, radToDeg } from "../numeric/angle.ts";
 
 export interface GpaOptions {
   /** Reference (unstrained) region in pixels; default the image less a border of 3 resolution lengths. */
@@ -96,7 +97,7 @@ export function gpaFrameTilt(g1: Vec2, g2: Vec2, axis: GrowthAxis): number {
       if (Math.abs(a) < Math.abs(best)) best = a;
     }
   }
-  const deg = (best * 180) / Math.PI;
+  const deg = radToDeg(best);
   return Math.abs(deg) <= 10 ? deg : 0;
 }
 
@@ -189,7 +190,7 @@ export function geometricPhase(
   if (Math.abs(det) < 1e-12 || !(ref[0].a > 0 && ref[1].a > 0)) return { ok: false, reason: "the two lattice spots are collinear or absent in the reference region" };
   const axis = options.growthAxis ?? "up";
   const frameTilt_deg = options.frameTilt_deg ?? gpaFrameTilt(ref[0], ref[1], axis);
-  const maps = strainMaps(fields, ref, width, height, axis, (frameTilt_deg * Math.PI) / 180);
+  const maps = strainMaps(fields, ref, width, height, axis, degToRad(frameTilt_deg));
   return {
     ok: true,
     width,

@@ -16,12 +16,13 @@
  */
 import type { Layer } from "../../validate/wafer.ts";
 import type { AnalysisSettings } from "../../validate/settings.ts";
-import { toMetricUnit } from "../metrics.ts";
+import { putMetric } from "../metrics.ts";
 import { expectedWellStrain, type ExpectedWellStrain } from "./expectedWellStrain.ts";
 import { geometricPhase, type GpaResult } from "./geometricPhase.ts";
 import { growthCoordinate, type GrowthAxis, type PixelRect } from "./geometry.ts";
 import { wellCoherence, type WellCoherenceResult } from "./wellCoherence.ts";
 import { zContrastProfile, type ZContrastResult } from "./zContrastProfile.ts";
+import { degToRad } from "../numeric/angle.ts";
 
 /** One decoded micrograph with its wafer.md description. */
 export interface MicrographInput {
@@ -72,7 +73,7 @@ export function bandRectangle(width: number, height: number, axis: GrowthAxis, t
   const vertical = axis === "up" || axis === "down";
   const across = vertical ? width : height;
   const along = vertical ? height : width;
-  const slack = Math.abs(Math.tan((tilt_deg * Math.PI) / 180)) * (across / 2 - border);
+  const slack = Math.abs(Math.tan(degToRad(tilt_deg))) * (across / 2 - border);
   const lo = sLo + slack;
   const hi = sHi - slack;
   const c = (along - 1) / 2;
@@ -85,7 +86,7 @@ export function bandRectangle(width: number, height: number, axis: GrowthAxis, t
 
 /** Growth-coordinate band [min, max] covered by a pixel rectangle. */
 function rectangleBand(m: MicrographInput, r: PixelRect, tilt_deg: number) {
-  const t = (tilt_deg * Math.PI) / 180;
+  const t = degToRad(tilt_deg);
   const s = [[r[0], r[1]], [r[2] - 1, r[1]], [r[0], r[3] - 1], [r[2] - 1, r[3] - 1]].map(([x, y]) => growthCoordinate(x, y, m.width, m.height, m.growthAxis, t));
   return { bottom_px: Math.min(...s), top_px: Math.max(...s) };
 }
@@ -145,9 +146,9 @@ export function analyseImages(inputs: ImageInputs, stack: Layer[], _settings: An
   const images = list.map((m) => analyseMicrograph(m, stack));
   const metrics: Record<string, number> = {};
   const metricSource: Record<string, number> = {};
+  // First value wins: a later image never overwrites a metric an earlier one gave.
   const put = (key: string, si: number, i: number) => {
-    const v = toMetricUnit(key, si);
-    if (v !== undefined && !(key in metrics)) (metrics[key] = v), (metricSource[key] = i);
+    if (!(key in metrics) && putMetric(metrics, key, si)) metricSource[key] = i;
   };
   images.forEach((r, i) => {
     if (r.profile.ok && r.widthsSkipped === null) {

@@ -2,6 +2,7 @@
  * Tilt of the interfaces in a lattice image, from the structure tensor.
  */
 import { growthNormal, type GrowthAxis } from "./geometry.ts";
+import { radToDeg } from "../numeric/angle.ts";
 
 /** Separable Gaussian blur (σ in pixels, edges clamped). */
 function gaussianBlur(pixels: ArrayLike<number>, width: number, height: number, sigma: number): Float64Array {
@@ -55,5 +56,5 @@ export function interfaceTilt(pixels: ArrayLike<number>, width: number, height: 
   let a = normal - Math.atan2(n.y, n.x);
   while (a > Math.PI / 2) a -= Math.PI;
   while (a <= -Math.PI / 2) a += Math.PI;
-  return (a * 180) / Math.PI;
+  return radToDeg(a);
 }

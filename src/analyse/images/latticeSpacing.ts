@@ -15,6 +15,7 @@
  */
 import { fft2dReal, hannWindow, isPowerOfTwo, powerSpectrum, signedBin } from "./fft2d.ts";
 import type { Vec2 } from "./geometry.ts";
+import { radToDeg } from "../numeric/angle.ts";
 
 export interface BraggPeak {
   /** Spatial frequency, cycles/pixel (x right, y down). */
@@ -197,7 +198,7 @@ export function latticeSpacing(
     g,
     period_px: period,
     period_m: options.pixelSize_m ? period * options.pixelSize_m : null,
-    angle_deg: (Math.atan2(g.y, g.x) * 180) / Math.PI,
+    angle_deg: radToDeg(Math.atan2(g.y, g.x)),
     contrast: chosen.contrast,
   };
 }

@@ -24,6 +24,7 @@
  */
 import type { GpaMaps } from "./geometricPhase.ts";
 import { growthCoordinate } from "./geometry.ts";
+import { degToRad } from "../numeric/angle.ts";
 
 export interface WellCoherenceOptions {
   /** Growth coordinates (pixels, geometry.ts) of the well's lower and upper interfaces. */
@@ -109,7 +110,7 @@ export function wellCoherence(maps: GpaMaps, options: WellCoherenceOptions): Wel
   if (!(Number.isFinite(bottom_px) && Number.isFinite(top_px) && top_px > bottom_px)) {
     return { ok: false, reason: "well band is missing or reversed (top must lie above bottom)" };
   }
-  const tilt = ((options.tilt_deg ?? maps.frameTilt_deg) * Math.PI) / 180;
+  const tilt = degToRad(options.tilt_deg ?? maps.frameTilt_deg);
   const thickness = top_px - bottom_px;
   const margin = Math.max(2 * maps.resolution_px, 0.15 * thickness);
   if (thickness - 2 * margin < 2) {

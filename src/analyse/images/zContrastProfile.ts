@@ -26,6 +26,7 @@ import { growthNormal, type GrowthAxis } from "./geometry.ts";
 import { projectProfile, smoothOverPeriod } from "./growthProfile.ts";
 import { interfaceTilt } from "./interfaceTilt.ts";
 import { latticeSpacing } from "./latticeSpacing.ts";
+import { degToRad } from "../numeric/angle.ts";
 
 export interface ZContrastOptions {
   pixelSize_m: number;
@@ -79,7 +80,7 @@ function growthPeriod(pixels: ArrayLike<number>, width: number, height: number, 
   const r = latticeSpacing(crop.pixels, crop.width, crop.height, { direction: n });
   if (!r.ok) return null;
   const cos = Math.abs(r.g.x * n.x + r.g.y * n.y) * r.period_px;
-  return cos >= Math.cos((10 * Math.PI) / 180) ? r.period_px : null;
+  return cos >= Math.cos(degToRad(10)) ? r.period_px : null;
 }
 
 /** Index range [iB, iT] of the dark band around the profile minimum, or a reason. */
@@ -148,7 +149,7 @@ export function zContrastProfile(pixels: ArrayLike<number>, width: number, heigh
   if (Math.abs(tilt) > maxTilt) {
     return { ok: false, reason: `interfaces are tilted by ${tilt.toFixed(1)}°, more than the ${maxTilt}° that is corrected; rotate the image first` };
   }
-  const full = projectProfile(pixels, width, height, axis, (tilt * Math.PI) / 180);
+  const full = projectProfile(pixels, width, height, axis, degToRad(tilt));
   // Drop the end bins, where the moving average runs out of samples.
   const trim = period ? Math.ceil(period) + 2 : 1;
   const smoothed = smoothOverPeriod(full.value, period).slice(trim, -trim);

@@ -6,16 +6,28 @@
 export function interpolateLinear(x: ArrayLike<number>, y: ArrayLike<number>, at: number): number {
   const n = x.length;
   if (n === 0 || at < x[0] || at > x[n - 1]) return NaN;
+  const lo = bracket(x, at);
+  const hi = Math.min(lo + 1, n - 1);
+  if (x[hi] === x[lo]) return y[lo];
+  const t = (at - x[lo]) / (x[hi] - x[lo]);
+  return y[lo] + t * (y[hi] - y[lo]);
+}
+
+/**
+ * Bisection on an ascending grid x: the index lo (0 … n − 2) of the interval
+ * [x[lo], x[lo + 1]] that holds `at`, for x[0] ≤ at ≤ x[n − 1]; at = x[n − 1]
+ * gives n − 2. For n ≤ 1 it returns 0. The caller checks the range (outside it
+ * the first or last interval is returned). Never throws.
+ */
+export function bracket(x: ArrayLike<number>, at: number): number {
   let lo = 0;
-  let hi = n - 1;
+  let hi = x.length - 1;
   while (hi - lo > 1) {
     const mid = (lo + hi) >> 1;
     if (x[mid] <= at) lo = mid;
     else hi = mid;
   }
-  if (x[hi] === x[lo]) return y[lo];
-  const t = (at - x[lo]) / (x[hi] - x[lo]);
-  return y[lo] + t * (y[hi] - y[lo]);
+  return lo;
 }
 
 /** Sorts paired arrays by x ascending (copies). */

@@ -45,5 +45,4 @@ export function planeTilt(hkl: Miller): number {
   return Math.atan2(Math.hypot(hkl[0], hkl[1]), hkl[2]);
 }
 
-export const degToRad = (deg: number): number => (deg * Math.PI) / 180;
-export const radToDeg = (rad: number): number => (rad * 180) / Math.PI;
+export { degToRad, radToDeg } from "../numeric/angle.ts";

@@ -10,7 +10,7 @@ import type { Layer } from "../../validate/wafer.ts";
 import type { AnalysisSettings } from "../../validate/settings.ts";
 import type { XrdFile } from "../../validate/xrd.ts";
 import type { DepthProfileFile } from "../../validate/depthProfile.ts";
-import { toMetricUnit } from "../metrics.ts";
+import { putMetric } from "../metrics.ts";
 import { analyseDepthProfile, type DepthProfileResult } from "./depthProfile.ts";
 import { analyseXrd, type XrdAnalysis } from "./xrdAnalysis.ts";
 import { checkCriticalThickness, type CriticalThicknessCheck } from "./criticalThicknessCheck.ts";
@@ -105,10 +105,7 @@ export function analyseStructure(inputs: StructureInputs, stack: Layer[], _setti
   const r = prof?.result.ok ? prof.result : undefined;
   const crit = checkCriticalThickness(stack, xrd?.strain, r ? r.wellThickness * 1e-9 : undefined);
   const metrics: Record<string, number> = {};
-  const put = (key: string, si: number | undefined) => {
-    const v = toMetricUnit(key, si);
-    if (v !== undefined) metrics[key] = v;
-  };
+  const put = (key: string, si: number | undefined) => putMetric(metrics, key, si);
   if (xrd?.buffer.ok) {
     put("ge_fraction", xrd.buffer.geFraction);
     put("buffer_relaxation", xrd.buffer.relaxation);

@@ -18,7 +18,7 @@
  */
 import type { AnalysisSettings } from "../../validate/settings.ts";
 import type { Sweep } from "../../validate/sweep.ts";
-import { toMetricUnit } from "../metrics.ts";
+import { putMetric } from "../metrics.ts";
 import type { DensityCalibration } from "./densityCalibration.ts";
 import { derivedQuantities, type DerivedQuantities } from "./derivedQuantities.ts";
 import { pointsCalibration } from "./deviceSummary.ts";
@@ -110,10 +110,7 @@ export function analyseDeviceDepth(
   const mismatches = depthPoints.flatMap((d) => (d.mismatch ? [d.mismatch.mismatchPercent] : []));
   const largest = mismatches.length ? mismatches.reduce((m, v) => (Math.abs(v) > Math.abs(m) ? v : m), 0) : undefined;
   const metrics: Record<string, number> = {};
-  const put = (key: string, si: number | undefined) => {
-    const v = toMetricUnit(key, si);
-    if (v !== undefined) metrics[key] = v;
-  };
+  const put = (key: string, si: number | undefined) => putMetric(metrics, key, si);
   if (calibration.ok) put("gate_capacitance", calibration.capacitance);
   if (percolation.ok) put("percolation_density", percolation.density);
   if (powerLaw.ok) put("mobility_exponent", powerLaw.exponent);

@@ -8,7 +8,7 @@
  * three-bin interpolation (e.g. Gasior & Gonzalez, CERN-AB-2004-023, 2004).
  * Frequencies are in T (cycles per unit of 1/B).
  */
-import FFT from "fft.js";
+import { fftOfSize, nextPowerOfTwo } from "../numeric/fft.ts";
 import { quickselect } from "simple-statistics";
 
 export interface UniformTrace {
@@ -23,12 +23,6 @@ export interface Spectrum {
   frequency: number[];
   /** Amplitude, unit of the signal. */
   amplitude: number[];
-}
-
-function nextPow2(n: number): number {
-  let m = 1;
-  while (m < n) m *= 2;
-  return m;
 }
 
 /**
@@ -56,14 +50,6 @@ export function resampleInverseField(field: ArrayLike<number>, value: ArrayLike<
     out[k] = vj + t * (value[n - 2 - j] - vj);
   }
   return { inverseField: grid, value: out };
-}
-
-const FFTS = new Map<number, FFT>();
-/** One fft.js instance per size: building its twiddle tables is a large share of a transform's cost; transforms are synchronous, so sharing is safe. */
-function fftOfSize(m: number): FFT {
-  let f = FFTS.get(m);
-  if (!f) FFTS.set(m, (f = new FFT(m)));
-  return f;
 }
 
 interface WorkBuffers {
@@ -114,7 +100,7 @@ export interface SpectrumResult {
  */
 export function amplitudeSpectrum(values: ArrayLike<number>, step: number, padFactor = 8, maxFrequency = Number.POSITIVE_INFINITY): SpectrumResult {
   const n = values.length;
-  const m = nextPow2(n) * padFactor;
+  const m = nextPowerOfTwo(n) * padFactor;
   let mean = 0;
   for (let i = 0; i < n; i++) mean += values[i];
   mean /= n;

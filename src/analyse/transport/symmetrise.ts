@@ -11,6 +11,8 @@
  * A sweep with one field sign only is returned unsymmetrised with
  * `symmetrised: false` (the validator has already warned).
  */
+import { bracket } from "../numeric/interpolate.ts";
+
 export interface SymmetrisedTrace {
   /** |B| grid, T, ascending. */
   b: Float64Array;
@@ -94,19 +96,14 @@ export function fieldBranches(B: ArrayLike<number>): FieldBranches {
   const lo = new Int32Array(to - from);
   const hi = new Int32Array(to - from);
   const t = new Float64Array(to - from);
-  for (let g = 0; g < to - from; g++) bracket(negX, posX[from + g], g, lo, hi, t);
+  for (let g = 0; g < to - from; g++) bracketInto(negX, posX[from + g], g, lo, hi, t);
   return { posIdx, negIdx, posX, negX, posCount, negCount, from, to, lo, hi, t };
 }
 
-/** The bisection of interpolateLinear (numeric/interpolate.ts), kept so results are bit-identical. */
-function bracket(x: Float64Array, at: number, g: number, los: Int32Array, his: Int32Array, ts: Float64Array): void {
-  let lo = 0;
-  let hi = x.length - 1;
-  while (hi - lo > 1) {
-    const mid = (lo + hi) >> 1;
-    if (x[mid] <= at) lo = mid;
-    else hi = mid;
-  }
+/** Where `at` falls on the ascending grid x (the bisection interpolateLinear uses), stored at grid point g. */
+function bracketInto(x: Float64Array, at: number, g: number, los: Int32Array, his: Int32Array, ts: Float64Array): void {
+  const lo = bracket(x, at);
+  const hi = Math.min(lo + 1, x.length - 1);
   if (x[hi] === x[lo]) {
     los[g] = his[g] = lo;
     return;

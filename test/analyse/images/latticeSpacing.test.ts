@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { latticeSpacing, findBraggPeaks } from "../../../src/analyse/images/latticeSpacing.ts";
-import { cropToPowerOfTwo, fft2dReal, ifft2d, nextPowerOfTwo, padToPowerOfTwo } from "../../../src/analyse/images/fft2d.ts";
+import { cropToPowerOfTwo, fft2dReal, ifft2d, padToPowerOfTwo } from "../../../src/analyse/images/fft2d.ts";
+import { fftOfSize, nextPowerOfTwo } from "../../../src/analyse/numeric/fft.ts";
 import { syntheticMicrograph } from "../../../src/synth/micrograph.ts";
 
 const PX = 0.05e-9;
@@ -40,6 +41,10 @@ describe("fft2d", () => {
     const p = padToPowerOfTwo(pix, 300, 200);
     expect([p.width, p.height]).toEqual([512, 256]);
     expect(nextPowerOfTwo(257)).toBe(512);
+    expect([nextPowerOfTwo(0), nextPowerOfTwo(1), nextPowerOfTwo(2), nextPowerOfTwo(3), nextPowerOfTwo(256)]).toEqual([2, 2, 2, 4, 256]);
+    expect(nextPowerOfTwo(2 ** 40 + 1)).toBe(2 ** 41);
+    expect(fftOfSize(64)).toBe(fftOfSize(64));
+    expect(() => fftOfSize(12)).toThrow();
   });
 });
 

@@ -85,8 +85,8 @@ describe("rsmPeaks on synthetic maps (target: x within 0.005, R within 2 points;
   it("finds substrate, buffer and well and undoes the instrument offsets", () => {
     if (!r224.ok) throw new Error(r224.reason);
     expect(r224.peaks.slice(0, 3).map((p) => p.layer)).toEqual(["substrate", "buffer", "well"]);
-    expect(r224.offset.omega).toBeCloseTo(-off224.omega, 4);
-    expect(r224.offset.twoTheta).toBeCloseTo(-off224.twoTheta, 4);
+    expect(r224.offset.omega).toBeCloseTo(-off224.omega, 6);
+    expect(r224.offset.twoTheta).toBeCloseTo(-off224.twoTheta, 6);
     const buf = r224.peaks[1];
     expect(Math.abs(buf.twoTheta - m224.truth.buffer.twoTheta)).toBeLessThan(degToRad(0.002));
     expect(buf.qxStdErr).toBeGreaterThan(0);
@@ -110,7 +110,8 @@ describe("rsmPeaks on synthetic maps (target: x within 0.005, R within 2 points;
     const w = wellStrain({ wellAsymmetric: reflectionOf(r224, "well") });
     if (!w.ok) throw new Error(w.reason);
     expect(w.source).toBe("well-peak");
-    expect(w.epsParallel).toBeCloseTo((m224.buffer.aParallel - A_SI) / A_SI, 3);
+    const expected = (m224.buffer.aParallel - A_SI) / A_SI;
+    expect(Math.abs(w.epsParallel / expected - 1)).toBeLessThan(1e-3);
   });
   it("empty, tiny, flat and substrate-less maps give reasons", () => {
     expect(rsmPeaks([], { reflection: [2, 2, 4] })).toMatchObject({ ok: false, reason: expect.stringMatching(/usable points/) });
