@@ -136,13 +136,14 @@ function fileReader(ctx: LoadContext, waferDir: string, recordRel: string, matte
       }
     },
     async readText(rel, role) {
+      // rel comes from glob (listFiles names), yet a POSIX file name may hold a backslash (a file named a\..\b.csv matches "*.csv"): still refused here.
       checkRelativePath(rel, { file: recordRel, field: role });
       const f = await readDataBytes(ctx.dataDir, path.join(waferDir, rel));
       out.files.push(fileInfo(f.rel, f.bytes, role));
       return { rel: f.rel, text: decodeText(f) };
     },
     async readBytes(rel, role) {
-      checkRelativePath(rel, { file: recordRel, field: role });
+      // rel is an images[i].file that validateWafer has already passed through checkRelativePath.
       const f = await readDataBytes(ctx.dataDir, path.join(waferDir, rel), MAX_IMAGE_FILE_BYTES);
       out.files.push(fileInfo(f.rel, f.bytes, role));
       return { rel: f.rel, bytes: f.bytes };
