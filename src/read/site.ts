@@ -8,7 +8,7 @@ import path from "node:path";
 import { InputError, type Problem } from "../validate/problem.ts";
 import { applySettings, DEFAULT_SETTINGS, type AnalysisSettings } from "../validate/settings.ts";
 import { validateTargets, type Targets } from "../validate/targets.ts";
-import { ID_PATTERN } from "../validate/waferSchema.ts";
+import { WAFER_ID } from "../validate/waferSchema.ts";
 import { decodeText, readDataBytes } from "./dataFiles.ts";
 import { lineOfField, readFrontMatter, readYaml } from "./frontMatter.ts";
 import { fileInfo, type RawFileInfo } from "./fileInfo.ts";
@@ -78,7 +78,7 @@ export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
       await catchInto(async () => {
         const id = name.slice(0, -3);
         const f = await readDataBytes(dataDir, path.join(runsDir, name));
-        if (!new RegExp(ID_PATTERN).test(id)) throw new InputError({ file: f.rel, message: "run file name is not a valid id", expected: "letters, digits, \".\", \"-\", \"_\"", found: JSON.stringify(id), fix: "rename the file" });
+        if (!WAFER_ID.test(id)) throw new InputError({ file: f.rel, message: "run file name is not a valid id", expected: "letters, digits, \".\", \"-\", \"_\"", found: JSON.stringify(id), fix: "rename the file" });
         out.files.push(fileInfo(f.rel, f.bytes, "run"));
         const doc = readFrontMatter(decodeText(f), f.rel);
         const meta: Record<string, string> = {};
@@ -97,7 +97,7 @@ export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
   out.waferListing = entries.map((e) => e.name);
   for (const e of entries.sort((a, b) => a.name.localeCompare(b.name))) {
     if (!e.isDirectory()) continue;
-    if (!new RegExp(ID_PATTERN).test(e.name)) {
+    if (!WAFER_ID.test(e.name)) {
       out.problems.push({ severity: "error", file: `wafers/${e.name}`, message: "wafer folder name is not a valid id", expected: "letters, digits, \".\", \"-\", \"_\" (no \"..\")", found: JSON.stringify(e.name), fix: "rename the folder" });
       continue;
     }
