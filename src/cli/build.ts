@@ -74,7 +74,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     };
     const cacheDir = options.cache === null ? null : path.resolve(options.cache ?? defaultCacheDir(outDir));
     const code = cacheDir ? await codeVersion(version) : "";
-    const jobs = new WaferJobs({ dataDir, today: ctx.today, siteSettings: ctx.siteSettings, cacheDir, code, pipeline: ctx, outDir: tmpDir, scratchDir });
+    const jobs = new WaferJobs({ dataDir, today: ctx.today, siteSettings: ctx.siteSettings, waferListing: site.waferListing, cacheDir, code, pipeline: ctx, outDir: tmpDir, scratchDir });
     // Unchanged wafer pages are reused from the previous output (src/cli/pageReuse.ts); --no-cache builds every page afresh.
     const reusePages = cacheDir !== null;
     let done = 0;

@@ -10,9 +10,9 @@ import type { AnalyseContext, AnalysedFolder } from "./analyseFolder.ts";
 import { cacheKey, readEntry } from "./cache.ts";
 import type { FileHashes } from "./fileHashes.ts";
 
-/** The names in the data folder's wafers/ folder, as the loader's duplicate-id check sees them (read once per build). */
-export async function waferListing(dataDir: string): Promise<string[]> {
-  return fs.readdir(path.join(dataDir, "wafers")).catch(() => [] as string[]);
+/** The names in the data folder's wafers/ folder, as the loader's duplicate-id check sees them: ctx.waferListing when given (read once per build by loadSiteInputs), else read now. */
+export async function waferListing(ctx: Pick<AnalyseContext, "dataDir" | "waferListing">): Promise<readonly string[]> {
+  return ctx.waferListing ?? fs.readdir(path.join(ctx.dataDir, "wafers")).catch(() => [] as string[]);
 }
 
 /**
@@ -22,7 +22,7 @@ export async function waferListing(dataDir: string): Promise<string[]> {
  */
 export async function lookUpFolder(folder: string, ctx: AnalyseContext, hashes?: FileHashes, listing?: readonly string[]): Promise<{ key?: string; hit?: AnalysedFolder }> {
   if (!ctx.cacheDir) return {};
-  const twins = (listing ?? (await waferListing(ctx.dataDir))).filter((n) => n !== folder && n.toLowerCase() === folder.toLowerCase()).sort();
+  const twins = (listing ?? (await waferListing(ctx))).filter((n) => n !== folder && n.toLowerCase() === folder.toLowerCase()).sort();
   const key = await cacheKey(path.join(ctx.dataDir, "wafers", folder), ctx.code, ctx.siteSettings, hashes, twins);
   const entry = await readEntry(ctx.cacheDir, key, "slim");
   return { key, hit: entry && entry.folder === folder ? { entry, cacheHit: true, form: "slim", key } : undefined };

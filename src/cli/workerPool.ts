@@ -151,7 +151,7 @@ export class WaferJobs {
       running.push(job);
     };
     try {
-      const listing = await waferListing(this.ctx.dataDir);
+      const listing = await waferListing(this.ctx);
       // A few look-ups at a time: each is file reads and hashing, mostly waiting on the disk.
       const limit = pLimit(4);
       let looked = 0;

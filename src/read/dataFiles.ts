@@ -129,12 +129,25 @@ function lineOfOffset(bytes: Buffer, offset: number): number {
   return line;
 }
 
+/**
+ * Offset of the first byte that starts an ill-formed UTF-8 sequence (the
+ * Unicode Standard, ch. 3, Table 3-7 "Well-Formed UTF-8 Byte Sequences"):
+ * lead bytes C2–F4 only (no overlong C0/C1, nothing past U+10FFFF), and the
+ * second byte narrowed after E0 (A0–BF, no overlong), ED (80–9F, no
+ * surrogates), F0 (90–BF, no overlong) and F4 (80–8F); 0 if none is found.
+ */
 function firstInvalidUtf8(bytes: Buffer): number {
   for (let i = 0; i < bytes.length; ) {
     const b = bytes[i];
-    const len = b < 0x80 ? 1 : b >> 5 === 6 ? 2 : b >> 4 === 14 ? 3 : b >> 3 === 30 ? 4 : 0;
+    if (b < 0x80) {
+      i++;
+      continue;
+    }
+    const len = b >= 0xc2 && b <= 0xdf ? 2 : b >= 0xe0 && b <= 0xef ? 3 : b >= 0xf0 && b <= 0xf4 ? 4 : 0;
     if (len === 0) return i;
-    for (let k = 1; k < len; k++) if (i + k >= bytes.length || bytes[i + k] >> 6 !== 2) return i;
+    const [lo, hi] = b === 0xe0 ? [0xa0, 0xbf] : b === 0xed ? [0x80, 0x9f] : b === 0xf0 ? [0x90, 0xbf] : b === 0xf4 ? [0x80, 0x8f] : [0x80, 0xbf];
+    if (i + 1 >= bytes.length || bytes[i + 1] < lo || bytes[i + 1] > hi) return i;
+    for (let k = 2; k < len; k++) if (i + k >= bytes.length || bytes[i + k] >> 6 !== 2) return i;
     i += len;
   }
   return 0;

@@ -8,7 +8,7 @@ import path from "node:path";
 import { InputError, type Problem } from "../validate/problem.ts";
 import { applySettings, DEFAULT_SETTINGS, type AnalysisSettings } from "../validate/settings.ts";
 import { validateTargets, type Targets } from "../validate/targets.ts";
-import { ID_PATTERN } from "../validate/waferSchema.ts";
+import { WAFER_ID } from "../validate/waferSchema.ts";
 import { decodeText, readDataBytes } from "./dataFiles.ts";
 import { lineOfField, readFrontMatter, readYaml } from "./frontMatter.ts";
 import { fileInfo, type RawFileInfo } from "./fileInfo.ts";
@@ -27,6 +27,8 @@ export interface SiteInputs {
   settingOverrides: Record<string, unknown>;
   runs: Map<string, RunNotes>;
   waferFolders: string[];
+  /** Every name in wafers/ as read (folders or not, valid ids or not), for the letter-case twin check; empty without a wafers folder. */
+  waferListing: string[];
   files: RawFileInfo[];
   problems: Problem[];
 }
@@ -36,7 +38,7 @@ async function exists(p: string): Promise<boolean> {
 }
 
 export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
-  const out: SiteInputs = { settings: DEFAULT_SETTINGS, settingOverrides: {}, runs: new Map(), waferFolders: [], files: [], problems: [] };
+  const out: SiteInputs = { settings: DEFAULT_SETTINGS, settingOverrides: {}, runs: new Map(), waferFolders: [], waferListing: [], files: [], problems: [] };
   const catchInto = async (fn: () => Promise<void>) => {
     try {
       await fn();
@@ -76,7 +78,7 @@ export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
       await catchInto(async () => {
         const id = name.slice(0, -3);
         const f = await readDataBytes(dataDir, path.join(runsDir, name));
-        if (!new RegExp(ID_PATTERN).test(id)) throw new InputError({ file: f.rel, message: "run file name is not a valid id", expected: "letters, digits, \".\", \"-\", \"_\"", found: JSON.stringify(id), fix: "rename the file" });
+        if (!WAFER_ID.test(id)) throw new InputError({ file: f.rel, message: "run file name is not a valid id", expected: "letters, digits, \".\", \"-\", \"_\"", found: JSON.stringify(id), fix: "rename the file" });
         out.files.push(fileInfo(f.rel, f.bytes, "run"));
         const doc = readFrontMatter(decodeText(f), f.rel);
         const meta: Record<string, string> = {};
@@ -91,9 +93,11 @@ export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
     return out;
   }
   // Ids differing only by letter case are both kept and both marked `error` by loadWafer, so neither wafer silently disappears.
-  for (const e of (await fs.readdir(wafersDir, { withFileTypes: true })).sort((a, b) => a.name.localeCompare(b.name))) {
+  const entries = await fs.readdir(wafersDir, { withFileTypes: true });
+  out.waferListing = entries.map((e) => e.name);
+  for (const e of entries.sort((a, b) => a.name.localeCompare(b.name))) {
     if (!e.isDirectory()) continue;
-    if (!new RegExp(ID_PATTERN).test(e.name)) {
+    if (!WAFER_ID.test(e.name)) {
       out.problems.push({ severity: "error", file: `wafers/${e.name}`, message: "wafer folder name is not a valid id", expected: "letters, digits, \".\", \"-\", \"_\" (no \"..\")", found: JSON.stringify(e.name), fix: "rename the folder" });
       continue;
     }

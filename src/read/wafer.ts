@@ -42,6 +42,8 @@ export interface LoadContext {
   dataDir: string;
   today: string;
   siteSettings: AnalysisSettings;
+  /** The names in wafers/ (SiteInputs.waferListing), read once per build; read here when absent. */
+  waferListing?: readonly string[];
 }
 
 function toProblem(err: unknown, wafer: string, _fallbackFile: string): Problem {
@@ -68,7 +70,8 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
     out.problems.push(toProblem(err, folder, recordRel));
     return out;
   }
-  const twins = (await fs.readdir(path.join(ctx.dataDir, "wafers"))).filter((n) => n !== folder && n.toLowerCase() === folder.toLowerCase());
+  const listing = ctx.waferListing ?? (await fs.readdir(path.join(ctx.dataDir, "wafers")));
+  const twins = listing.filter((n) => n !== folder && n.toLowerCase() === folder.toLowerCase());
   if (twins.length) {
     const found = [folder, ...twins].sort().map((n) => JSON.stringify(n)).join(" and ");
     out.problems.push({ severity: "error", wafer: folder, file: recordRel, line: lineOfField(matterText, "wafer", 2), field: "wafer", message: "duplicate wafer id (ids must differ by more than letter case)", expected: "a unique id", found, fix: "rename one of the wafers" });
@@ -133,13 +136,14 @@ function fileReader(ctx: LoadContext, waferDir: string, recordRel: string, matte
       }
     },
     async readText(rel, role) {
+      // rel comes from glob (listFiles names), yet a POSIX file name may hold a backslash (a file named a\..\b.csv matches "*.csv"): still refused here.
       checkRelativePath(rel, { file: recordRel, field: role });
       const f = await readDataBytes(ctx.dataDir, path.join(waferDir, rel));
       out.files.push(fileInfo(f.rel, f.bytes, role));
       return { rel: f.rel, text: decodeText(f) };
     },
     async readBytes(rel, role) {
-      checkRelativePath(rel, { file: recordRel, field: role });
+      // rel is an images[i].file that validateWafer has already passed through checkRelativePath.
       const f = await readDataBytes(ctx.dataDir, path.join(waferDir, rel), MAX_IMAGE_FILE_BYTES);
       out.files.push(fileInfo(f.rel, f.bytes, role));
       return { rel: f.rel, bytes: f.bytes };

@@ -11,7 +11,7 @@ import { lineOfField, type FrontMatterDoc } from "../read/frontMatter.ts";
 import { checkRelativePath } from "../read/dataFiles.ts";
 import { applySettings, type AnalysisSettings } from "./settings.ts";
 import { didYouMean, InputError, show } from "./problem.ts";
-import { FIELD_HINTS, ID_PATTERN, WAFER_SCHEMA } from "./waferSchema.ts";
+import { FIELD_HINTS, WAFER_SCHEMA } from "./waferSchema.ts";
 
 export type LayerRole = "substrate" | "buffer" | "barrier" | "well" | "cap" | "other";
 export interface Layer {
@@ -199,5 +199,3 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
     file,
   };
 }
-
-export const WAFER_ID = new RegExp(ID_PATTERN);

@@ -3,6 +3,8 @@
  * The prose version, with examples, is docs/formats.md; keep the two together.
  */
 export const ID_PATTERN = "^(?!.*\\.\\.)[A-Za-z0-9][A-Za-z0-9._-]{0,63}$";
+/** ID_PATTERN compiled once (no `g` flag, so `test` keeps no state): wafer, run and device ids, and wafer folder and run file names. */
+export const WAFER_ID = new RegExp(ID_PATTERN);
 
 const fileSet = {
   type: "object",

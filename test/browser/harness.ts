@@ -16,7 +16,8 @@ import { chromium, type Browser } from "playwright-core";
 export const ROOT = path.resolve(import.meta.dirname, "../..");
 export const OUTPUT = path.join(ROOT, "test", "output");
 export const CHROMIUM = process.env.WAFERBOOK_CHROMIUM ?? "/usr/bin/chromium";
-const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"];
+/** Chromium flags for every browser test: no sandbox (containers), no GPU, and no traffic of the browser's own. */
+export const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"];
 
 const TYPES: Record<string, string> = {
   ".html": "text/html; charset=utf-8", ".css": "text/css; charset=utf-8", ".js": "text/javascript; charset=utf-8",

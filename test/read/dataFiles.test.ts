@@ -7,7 +7,7 @@ import { promises as fs } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { checkInside } from "../../src/read/dataFiles.ts";
+import { checkInside, decodeText } from "../../src/read/dataFiles.ts";
 import { formatProblem, InputError } from "../../src/validate/problem.ts";
 
 async function message(p: Promise<unknown>): Promise<string> {
@@ -46,5 +46,38 @@ describe("checkInside", () => {
     await fs.mkdir(data);
     await fs.writeFile(path.join(data, "a.csv"), "x");
     expect(await message(checkInside(data, path.join(data, "a.csv")))).toBe("accepted");
+  });
+});
+
+describe("decodeText on ill-formed UTF-8", () => {
+  // Two good lines ("B_T,Rxx_Ohm\n" and "0,1\n", 16 bytes), then "2," and the bad sequence at offset 18 on line 3.
+  const decode = (bad: number[]) => {
+    const bytes = Buffer.concat([Buffer.from("B_T,Rxx_Ohm\n0,1\n2,"), Buffer.from(bad), Buffer.from("\n")]);
+    try {
+      decodeText({ rel: "w/s.csv", abs: "/nowhere/w/s.csv", bytes });
+    } catch (e) {
+      if (e instanceof InputError) return formatProblem(e.problem);
+      throw e;
+    }
+    return "accepted";
+  };
+  const fix = " — re-save the file as UTF-8 (for example from a Latin-1 export)";
+  it("points at an overlong form (C0 AF, an overlong \"/\")", () => {
+    expect(decode([0xc0, 0xaf])).toBe(`w/s.csv:3: bytes are not valid UTF-8 (expected UTF-8 text, found byte 0xc0 at offset 18)${fix}`);
+  });
+  it("points at an overlong three-byte form (E0 80 AF)", () => {
+    expect(decode([0xe0, 0x80, 0xaf])).toBe(`w/s.csv:3: bytes are not valid UTF-8 (expected UTF-8 text, found byte 0xe0 at offset 18)${fix}`);
+  });
+  it("points at an encoded surrogate (ED A0 80, U+D800)", () => {
+    expect(decode([0xed, 0xa0, 0x80])).toBe(`w/s.csv:3: bytes are not valid UTF-8 (expected UTF-8 text, found byte 0xed at offset 18)${fix}`);
+  });
+  it("points at a lead byte past U+10FFFF (F5, and F4 90)", () => {
+    expect(decode([0xf5, 0x80, 0x80, 0x80])).toBe(`w/s.csv:3: bytes are not valid UTF-8 (expected UTF-8 text, found byte 0xf5 at offset 18)${fix}`);
+    expect(decode([0xf4, 0x90, 0x80, 0x80])).toBe(`w/s.csv:3: bytes are not valid UTF-8 (expected UTF-8 text, found byte 0xf4 at offset 18)${fix}`);
+  });
+  it("passes the well-formed edges of each range (U+0080, U+0800, U+D7FF, U+E000, U+10000, U+10FFFF) and points at what follows", () => {
+    const good = [0xc2, 0x80, 0xe0, 0xa0, 0x80, 0xed, 0x9f, 0xbf, 0xee, 0x80, 0x80, 0xf0, 0x90, 0x80, 0x80, 0xf4, 0x8f, 0xbf, 0xbf];
+    expect(decode(good)).toBe("accepted");
+    expect(decode([...good, 0xc1, 0xbf])).toBe(`w/s.csv:3: bytes are not valid UTF-8 (expected UTF-8 text, found byte 0xc1 at offset ${18 + good.length})${fix}`);
   });
 });

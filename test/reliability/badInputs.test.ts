@@ -49,7 +49,6 @@ describe("malformed-input corpus", () => {
     }
     const sitewide = r.problems.some((p) => p.wafer === undefined);
     const affected = new Set(r.problems.filter((p) => p.wafer !== undefined).map((p) => p.wafer!));
-    const errorsOnly = r.problems.filter((p) => p.severity === "error");
     for (const o of r.outcomes) {
       const results = JSON.parse(await fs.readFile(path.join(c.out, "wafers", o.folder, "results.json"), "utf8"));
       const page = await fs.readFile(path.join(c.out, "wafers", o.folder, "index.html"), "utf8");
@@ -75,7 +74,6 @@ describe("malformed-input corpus", () => {
       }
     }
     expect(r.outcomes.map((o) => o.folder)).toContain("OK-1");
-    expect(errorsOnly.length + r.problems.filter((p) => p.severity === "warning").length).toBe(r.problems.length);
   });
 });
 

@@ -8,7 +8,6 @@
  * error appears and no request leaves the site.
  */
 import { promises as fs } from "node:fs";
-import http from "node:http";
 import os from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -156,22 +155,10 @@ describe("serialisers for script blocks", () => {
 describe("in headless Chromium", () => {
   it("no dialog, no data script, no console error, no request outside the site", async () => {
     const { chromium } = await import("playwright-core");
-    const server = http.createServer(async (req, res) => {
-      const url = decodeURIComponent(new URL(req.url ?? "/", "http://x").pathname);
-      let file = path.join(out, url);
-      if (!file.startsWith(out)) return res.writeHead(403).end();
-      if (url.endsWith("/")) file = path.join(file, "index.html");
-      try {
-        const body = await fs.readFile(file);
-        const type = file.endsWith(".html") ? "text/html" : file.endsWith(".js") ? "text/javascript" : file.endsWith(".css") ? "text/css" : file.endsWith(".json") ? "application/json" : "application/octet-stream";
-        res.writeHead(200, { "content-type": type }).end(body);
-      } catch {
-        res.writeHead(404).end();
-      }
-    });
-    await new Promise<void>((r) => server.listen(0, "127.0.0.1", r));
-    const origin = `http://127.0.0.1:${(server.address() as { port: number }).port}`;
-    const browser = await chromium.launch({ executablePath: "/usr/bin/chromium", args: ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"] });
+    // Loaded here, like playwright-core, so the other tests of this file never load the browser harness.
+    const { serve, CHROMIUM, LAUNCH_ARGS } = await import("../browser/harness.ts");
+    const { origin, server } = await serve(out);
+    const browser = await chromium.launch({ executablePath: CHROMIUM, args: LAUNCH_ARGS });
     try {
       const page = await browser.newPage();
       const dialogs: string[] = [];

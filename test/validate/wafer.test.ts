@@ -23,7 +23,7 @@ describe("wafer record", () => {
   });
   const cases: [string, string, string][] = [
     ["no front matter", "wafer: W-1\n", 'wafers/W-1/wafer.md:1: no front matter (expected the file to start with a line "---", the YAML fields, and another "---", found "wafer: W-1") — add the front matter block; see docs/formats.md'],
-    ["YAML syntax error with line and column", "---\nwafer: W-1\nrun: [R-1\ngrown: 2025-01-01\n---\n", "wafers/W-1/wafer.md:"],
+    ["YAML syntax error with line and column", "---\nwafer: W-1\nrun: [R-1\ngrown: 2025-01-01\n---\n", "wafers/W-1/wafer.md:4:1: YAML syntax error: deficient indentation (expected valid YAML (spaces for indentation, \"key: value\"), found \"grown: 2025-01-01\") — check the indentation and quoting on that line"],
     ["unknown key with a hint", ok.replace("run: R-1", "run: R-1\ngrwon: 2025-01-01"), 'wafers/W-1/wafer.md:4: grwon: unknown key'],
     ["wrong type", ok.replace("length_um: 100", "length_um: long"), "wafers/W-1/wafer.md:8: devices[0].length_um: wrong type (expected a number, found \"long\") — see docs/formats.md for this field"],
     ["id not matching the folder", ok.replace("wafer: W-1", "wafer: W-2"), 'wafers/W-1/wafer.md:2: wafer: wafer id does not match its folder (expected "W-1", found "W-2") — make the id and the folder name the same (rename one of them)'],
@@ -43,6 +43,8 @@ describe("wafer record", () => {
   }
   it("YAML errors report line and column in the file", () => {
     expect(message("---\nwafer: W-1\nrun: [R-1\ngrown: 2025-01-01\n---\n")).toMatch(/^wafers\/W-1\/wafer\.md:\d+:\d+: YAML syntax error/);
+    // The unclosed "[" of line 3 is noticed at line 4, column 1 (the file's own numbering, "---" being line 1).
+    expect(message("---\nwafer: W-1\nrun: [R-1\ngrown: 2025-01-01\n---\n")).toBe("wafers/W-1/wafer.md:4:1: YAML syntax error: deficient indentation (expected valid YAML (spaces for indentation, \"key: value\"), found \"grown: 2025-01-01\") — check the indentation and quoting on that line");
   });
   it("near-miss keys get a did-you-mean hint", () => {
     expect(message(ok.replace("run: R-1", "run: R-1\ngrwon: 2025-01-01"))).toContain('did you mean "grown"?');
