@@ -8,7 +8,7 @@
 import { METRICS } from "../analyse/metrics.ts";
 import type { WaferOutcome } from "../cli/pipeline.ts";
 import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants.ts";
-import { sig6 } from "./format.ts";
+import { sig6, sig6OrNull } from "./format.ts";
 import { reactorOf } from "./siteModel.ts";
 import type { RunNotes } from "../read/site.ts";
 
@@ -53,7 +53,7 @@ export function allResultsJson(outcomes: readonly WaferOutcome[], meta: { versio
       reasons: o.judgement.reasons,
       metrics: Object.fromEntries(metrics.map((m) => {
         const v = value(o, m.key);
-        return [m.key, v === undefined || !Number.isFinite(v) ? null : sig6(v)];
+        return [m.key, sig6OrNull(v)];
       })),
     })),
   };

@@ -24,6 +24,15 @@ export function sig6(v: number): number {
   return Number(v.toPrecision(6));
 }
 
+/**
+ * sig6(v) for a finite number; null for undefined, null, NaN and ±Infinity.
+ * The form exported JSON uses (results.json, the summary export), where a
+ * missing or non-finite figure is written as null.
+ */
+export function sig6OrNull(v: number | undefined | null): number | null {
+  return v == null || !Number.isFinite(v) ? null : sig6(v);
+}
+
 /** Significant-digit formatting with engineering-friendly exponents: 1.23×10¹¹. */
 export function formatNumber(v: number, digits = 3): string {
   if (!Number.isFinite(v)) return "—";

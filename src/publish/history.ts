@@ -5,7 +5,7 @@
  */
 import type { DataHistory } from "../read/history.ts";
 import type { GitCommit } from "../read/gitHistory.ts";
-import { firstRecorded, verdictsOverTime, type WaferForHistory } from "../judge/verdictHistory.ts";
+import { verdictsOverTime, type WaferForHistory } from "../judge/verdictHistory.ts";
 
 /** "2025-03-04T10:20:30+01:00" → "2025-03-04 10:20". */
 export function shortDate(iso: string): string {
@@ -49,7 +49,7 @@ export function waferHistoryModel(history: DataHistory | null, waferId: string, 
   if (!history) return { available: false, commits: [], verdicts: [], recorded: "" };
   const prefix = `wafers/${waferId}/`;
   const mine = history.commits.filter((c) => c.dataFiles.some((f) => f.startsWith(prefix)));
-  const recorded = firstRecorded(history.commits, waferId);
+  const recorded = mine.at(-1)?.committedAt; // commits are newest first: the oldest one is when the wafer was recorded (as firstRecorded)
   return {
     available: true,
     recorded: recorded ? shortDate(recorded) : "",

@@ -134,22 +134,15 @@ function block(r: ImageResult, i: number, wafer: string, files: SectionFile[], r
   };
 }
 
-const cache = new WeakMap<WaferOutcome, ImagesSectionModel | undefined>();
-
-/** The images section of a wafer page (cached per outcome: the build calls it twice). */
+/** The images section of a wafer page, or undefined while the wafer has no images. */
 export function imagesSection(o: WaferOutcome): ImagesSectionModel | undefined {
-  if (cache.has(o)) return cache.get(o);
   const a = o.analysis?.images;
-  let model: ImagesSectionModel | undefined;
-  if (a && a.images.length) {
-    const files: SectionFile[] = [];
-    const copies = new Map(o.provenance.files.map((f) => [f.path, rawCopyHref(f)]));
-    const images = a.images.map((r, i) => block(r, i, o.folder, files, (file) => copies.get(file) ?? ""));
-    const charts = images.map((b) => b.chart).filter((c): c is ChartSpec => c !== null);
-    const sources = [...new Set(Object.values(a.metricSource))].map((i) => a.images[i].input.file);
-    const metricNote = sources.length ? `The wafer's image metrics come from ${sources.join(" and ")}.` : "No image gave a metric.";
-    model = { charts, images, files, metricNote };
-  }
-  cache.set(o, model);
-  return model;
+  if (!a || !a.images.length) return undefined;
+  const files: SectionFile[] = [];
+  const copies = new Map(o.provenance.files.map((f) => [f.path, rawCopyHref(f)]));
+  const images = a.images.map((r, i) => block(r, i, o.folder, files, (file) => copies.get(file) ?? ""));
+  const charts = images.map((b) => b.chart).filter((c): c is ChartSpec => c !== null);
+  const sources = [...new Set(Object.values(a.metricSource))].map((i) => a.images[i].input.file);
+  const metricNote = sources.length ? `The wafer's image metrics come from ${sources.join(" and ")}.` : "No image gave a metric.";
+  return { charts, images, files, metricNote };
 }

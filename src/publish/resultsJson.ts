@@ -7,12 +7,9 @@
 import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants.ts";
 import type { WaferOutcome } from "../cli/pipeline.ts";
 import { formatProblem } from "../validate/problem.ts";
+import { sig6OrNull } from "./format.ts";
 import { structureResults } from "./structureSection.ts";
 import { deviceDepthJson, pointDepthJson } from "./transportDepthJson.ts";
-
-function round(v: number | undefined, digits = 6): number | null {
-  return v === undefined || !Number.isFinite(v) ? null : Number(v.toPrecision(digits));
-}
 
 /**
  * One wafer's results.json. `commits`: the latest commit that changed the
@@ -23,7 +20,7 @@ function round(v: number | undefined, digits = 6): number | null {
 export function resultsJson(o: WaferOutcome, commits: { wafer: string | null; targets: string | null } = { wafer: null, targets: null }): unknown {
   const metrics: Record<string, unknown> = {};
   for (const m of o.judgement.metrics) {
-    metrics[m.key] = { value: round(m.value), unit: m.spec.unit, verdict: m.verdict, target: m.target ? { min: round(m.target.min), max: round(m.target.max), text: m.target.text, guard: m.target.guardText ?? null, required: m.target.required, aggregate: m.target.aggregate } : null, reason: m.reason ?? null, waiver: m.waiver ?? null };
+    metrics[m.key] = { value: sig6OrNull(m.value), unit: m.spec.unit, verdict: m.verdict, target: m.target ? { min: sig6OrNull(m.target.min), max: sig6OrNull(m.target.max), text: m.target.text, guard: m.target.guardText ?? null, required: m.target.required, aggregate: m.target.aggregate } : null, reason: m.reason ?? null, waiver: m.waiver ?? null };
   }
   return {
     wafer: o.folder,
@@ -39,18 +36,18 @@ export function resultsJson(o: WaferOutcome, commits: { wafer: string | null; ta
       at_mm: d.at_mm ?? null,
       points: d.points.map((p) => ({
         file: p.file,
-        gate_V: round(p.gate_V),
-        density_per_cm2: round(p.density * PER_M2_TO_PER_CM2),
-        mobility_cm2_per_Vs: round(p.mobility * M2_PER_VS_TO_CM2_PER_VS),
-        sheet_resistance_ohm_per_sq: round(p.sheetResistance),
-        hall_fit_r2: round(p.hall.r2),
+        gate_V: sig6OrNull(p.gate_V),
+        density_per_cm2: sig6OrNull(p.density * PER_M2_TO_PER_CM2),
+        mobility_cm2_per_Vs: sig6OrNull(p.mobility * M2_PER_VS_TO_CM2_PER_VS),
+        sheet_resistance_ohm_per_sq: sig6OrNull(p.sheetResistance),
+        hall_fit_r2: sig6OrNull(p.hall.r2),
         hall_fit_poor: p.hall.poor,
         symmetrised: p.symmetrised,
         ...pointDepthJson(d, p.file),
       })),
       transport_depth: deviceDepthJson(d),
       skipped: d.skipped,
-      metrics: Object.fromEntries(Object.entries(d.metrics).map(([k, v]) => [k, round(v)])),
+      metrics: Object.fromEntries(Object.entries(d.metrics).map(([k, v]) => [k, sig6OrNull(v)])),
     })),
     structure: structureResults(o),
     errors: o.problems.filter((p) => p.severity === "error").map(problemJson),

@@ -2,7 +2,7 @@
  * The site search index: one MiniSearch document per wafer (id, run, grade,
  * verdict, reasons, notes) and per growth run (id, notes), serialised at build
  * time to /search-index.json and loaded in the browser by assets/search.js with
- * MiniSearch.loadJSON. Hrefs are relative to the site root (the page adds the
+ * MiniSearch.loadJS. Hrefs are relative to the site root (the page adds the
  * base path), so the index does not depend on where the site is served.
  */
 import { promises as fs } from "node:fs";
@@ -23,7 +23,7 @@ export interface SearchDoc {
   notes: string;
 }
 
-/** Options shared by the build and the browser (loadJSON needs the same ones). */
+/** Options shared by the build and the browser (loadJS needs the same ones). */
 export const SEARCH_OPTIONS = {
   fields: ["title", "run", "grade", "verdict", "reasons", "notes"],
   storeFields: ["kind", "title", "href", "run", "verdict"],

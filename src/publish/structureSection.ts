@@ -10,8 +10,8 @@ import type { WaferOutcome } from "../cli/pipeline.ts";
 import type { StructureAnalysis } from "../analyse/structure/index.ts";
 import type { InterfaceFit } from "../analyse/structure/depthProfile.ts";
 import { radToDeg } from "../analyse/structure/bragg.ts";
-import { markerSeries, round, traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
-import { formatNumber } from "./format.ts";
+import { markerSeries, traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
+import { formatNumber, sig6OrNull } from "./format.ts";
 import { rsmSvg, stackSvg, type StackRow } from "./structureSvg.ts";
 
 export interface StructureSectionModel {
@@ -150,7 +150,7 @@ export function structureResults(o: WaferOutcome): unknown {
   const s = o.analysis?.structure;
   if (!s) return null;
   return {
-    contaminant_peaks_cm3: Object.fromEntries(Object.entries(s.contaminantPeaks).map(([k, v]) => [k, round(v)])),
+    contaminant_peaks_cm3: Object.fromEntries(Object.entries(s.contaminantPeaks).map(([k, v]) => [k, sig6OrNull(v)])),
     beyond_critical_thickness: s.critical.ok ? s.critical.beyond : null,
     strain_source: s.critical.ok ? s.critical.strainSource : null,
     findings: s.findings,

@@ -5,7 +5,7 @@
  * alternative. Numbers are formatted here; templates only place strings.
  */
 import { METRICS, type MetricSpec } from "../analyse/metrics.ts";
-import { trendChart, type Trend, type TrendInput, type TrendPoint } from "../judge/trends.ts";
+import { describeBaseline, trendChart, type Trend, type TrendInput, type TrendPoint } from "../judge/trends.ts";
 import type { Targets } from "../validate/targets.ts";
 import { DEFAULT_TREND_SETTINGS } from "../validate/trendSettings.ts";
 import { jsonForScript, markerSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
@@ -73,6 +73,7 @@ export function trendsModel(wafers: readonly TrendWafer[], targets: Targets | un
     if (inputs.length === 0) continue;
     const t = trendChart(inputs, settings);
     const fmt = (v: number) => formatValue(v, spec);
+    const charts = trendCharts(spec, t, targets, href);
     pages.push({
       key: spec.key,
       label: spec.label,
@@ -81,7 +82,7 @@ export function trendsModel(wafers: readonly TrendWafer[], targets: Targets | un
       ok: t.ok,
       reason: t.ok ? "" : t.reason,
       baseline: t.baselineText,
-      runLength: t.ok ? t.runLength : settings.runLength,
+      runLength: settings.runLength,
       limits: t.ok ? [
         { label: "Centre line (baseline mean)", value: fmt(t.limits.centreLine) },
         { label: "σ̂ = MR̄/1.128", value: fmt(t.limits.sigma) },
@@ -93,10 +94,8 @@ export function trendsModel(wafers: readonly TrendWafer[], targets: Targets | un
       flagged: t.ok ? t.flagged : 0,
       centre: t.ok ? fmt(t.limits.centreLine) : "—",
       band: t.ok ? `${fmt(t.limits.lcl)} … ${fmt(t.limits.ucl)}` : "—",
-      ...(() => {
-        const charts = trendCharts(spec, t, targets, href);
-        return { charts, chartsJson: jsonForScript(charts) };
-      })(),
+      charts,
+      chartsJson: jsonForScript(charts),
       rows: t.points.map((p) => ({
         id: p.id,
         href: href(p.id),
@@ -112,7 +111,7 @@ export function trendsModel(wafers: readonly TrendWafer[], targets: Targets | un
       })),
     });
   }
-  return { pages, baseline: pages[0]?.baseline ?? "all wafers", runLength: settings.runLength, flaggedTotal: pages.reduce((a, p) => a + p.flagged, 0) };
+  return { pages, baseline: describeBaseline(settings), runLength: settings.runLength, flaggedTotal: pages.reduce((a, p) => a + p.flagged, 0) };
 }
 
 export type TrendsModel = ReturnType<typeof trendsModel>;

@@ -42,7 +42,7 @@
     if (!r.ok) throw new Error("HTTP " + r.status);
     return r.json();
   }).then(function (data) {
-    show(MiniSearch.loadJSON(JSON.stringify(data.index), data.options));
+    show(MiniSearch.loadJS(data.index, data.options));
   }).catch(function (e) {
     status.textContent = "The search index could not be loaded (" + e.message + ").";
   });

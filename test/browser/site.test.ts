@@ -298,6 +298,11 @@ describe("wafer table", () => {
     const first = (await visibleIds())[0];
     await page.fill("#f-text", first);
     expect(await visibleIds()).toContain(first);
+    // Exactly the rows whose text holds the term (case-blind) stay visible; the term must leave some rows out, or a filter that does nothing would pass.
+    const holding = await page.$$eval("#wafer-table tbody tr", (rs, t) => rs.filter((r) => (r.textContent ?? "").toLowerCase().includes(t)).map((r) => r.querySelector("th a")?.textContent ?? ""), first.toLowerCase());
+    expect(holding.length).toBeGreaterThan(0);
+    expect(holding.length).toBeLessThan(grown.length);
+    expect(await visibleIds()).toEqual(holding);
     expect(page.url()).toContain(`text=${first}`);
   });
 

@@ -1,4 +1,4 @@
-import MiniSearch from "minisearch";
+import MiniSearch, { type AsPlainObject } from "minisearch";
 import { describe, expect, it } from "vitest";
 import type { WaferOutcome } from "../../src/cli/pipeline.ts";
 import { SEARCH_OPTIONS, searchDocuments, searchIndexJson } from "../../src/publish/searchIndex.ts";
@@ -21,8 +21,8 @@ describe("site search index", () => {
   });
 
   it("round-trips through JSON and finds notes, reasons and runs by the field that matched", () => {
-    const data = JSON.parse(searchIndexJson(docs)) as { options: typeof SEARCH_OPTIONS; index: unknown };
-    const ms = MiniSearch.loadJSON(JSON.stringify(data.index), data.options);
+    const data = JSON.parse(searchIndexJson(docs)) as { options: typeof SEARCH_OPTIONS; index: AsPlainObject };
+    const ms = MiniSearch.loadJS(data.index, data.options);
     const haze = ms.search("haze");
     expect(haze.map((h) => h.id)).toEqual(["wafer:ZX-0101"]);
     expect(haze[0].match.haze).toEqual(["notes"]);

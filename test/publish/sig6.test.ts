@@ -5,7 +5,7 @@
 import { describe, expect, it } from "vitest";
 import { round } from "../../src/publish/charts.ts";
 import { csvField } from "../../src/publish/exports.ts";
-import { sig6 } from "../../src/publish/format.ts";
+import { sig6, sig6OrNull } from "../../src/publish/format.ts";
 
 describe("sig6", () => {
   it("rounds to six significant digits (values worked by hand)", () => {
@@ -27,5 +27,14 @@ describe("sig6", () => {
     expect(round(98765.4321)).toBe(98765.4);
     expect(csvField(Number.POSITIVE_INFINITY)).toBe("");
     expect(csvField(1.23456789e-7)).toBe("1.23457e-7");
+  });
+  it("sig6OrNull (JSON exports): sig6 for finite values, null for missing or non-finite", () => {
+    expect(sig6OrNull(1234.5678)).toBe(1234.57);
+    expect(sig6OrNull(0)).toBe(0);
+    expect(sig6OrNull(undefined)).toBeNull();
+    expect(sig6OrNull(null)).toBeNull();
+    expect(sig6OrNull(Number.NaN)).toBeNull();
+    expect(sig6OrNull(Number.POSITIVE_INFINITY)).toBeNull();
+    expect(sig6OrNull(Number.NEGATIVE_INFINITY)).toBeNull();
   });
 });
