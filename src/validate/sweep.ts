@@ -6,7 +6,8 @@
  */
 import { numericColumn, type ColumnHeader, type RawTable } from "../read/table.ts";
 import { didYouMean, InputError, type Problem } from "./problem.ts";
-import { acceptedUnits, splitValueUnit, unitFactor, type Dimension } from "./units.ts";
+import { acceptedUnits, COLUMN_UNITS, splitValueUnit, unitFactor, type Dimension } from "./units.ts";
+import { suggestUnit } from "./unitSpelling.ts";
 
 export type Geometry = "hall-bar" | "van-der-pauw";
 
@@ -68,7 +69,7 @@ function readColumn(t: RawTable, c: ColumnHeader): Float64Array {
   const spec = SWEEP_COLUMNS[c.name];
   const factor = unitFactor(spec.dim, c.unit);
   if (factor === undefined) {
-    throw new InputError({ file: t.file, line: t.headerLine, field: `column ${c.name}`, message: `unit of the ${spec.meaning} is not accepted`, expected: acceptedUnits(spec.dim), found: c.unit === "" ? "no unit" : JSON.stringify(c.unit), fix: `write the header as "${c.name} [${acceptedUnits(spec.dim).split(", ")[0]}]"` });
+    throw new InputError({ file: t.file, line: t.headerLine, field: `column ${c.name}`, message: `unit of the ${spec.meaning} is not accepted`, expected: acceptedUnits(spec.dim), found: c.unit === "" ? "no unit" : JSON.stringify(c.unit), fix: `write the header as "${c.name} [${suggestUnit(c.unit, Object.keys(COLUMN_UNITS[spec.dim])) ?? acceptedUnits(spec.dim).split(", ")[0]}]"` });
   }
   return numericColumn(t, c, factor);
 }

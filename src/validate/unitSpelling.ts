@@ -1,0 +1,67 @@
+/**
+ * Unit spellings as labs write them, brought to one form before mathjs (or the
+ * closed column-unit lists) read them. The one place that knows that
+ * `cm²/(V·s)`, `cm2/Vs`, `cm^2/(V*s)` and `cm^2 V^-1 s^-1` are the same unit.
+ *
+ * Rules, applied in order to the unit text (a leading number is left alone):
+ *  - no-break and thin spaces → space; U+2212 minus → "-";
+ *  - Ω (U+03A9) and the ohm sign (U+2126) → "ohm"; "Ohm", "OHM", "ohms" → "ohm"
+ *    (a prefix keeps its case: kOhm → kohm, MΩ → Mohm, mΩ → mohm);
+ *  - µ (micro sign U+00B5) and μ (Greek mu U+03BC) → the prefix "u";
+ *  - Å → "angstrom";
+ *  - "·", "⋅", "×" and a dot between two letters (V.s) → multiplication;
+ *  - superscripts (cm⁻², m²) → "^-2", "^2"; a unit followed directly by a
+ *    power (cm2, cm-2, V-1) → "cm^2", "cm^-2", "V^-1";
+ *  - "Vs" → "(V s)";
+ *  - a unit starting "1/" → "/" (mathjs reads "5 /cm^2", not "5 1/cm^2");
+ *  - "per square": "/sq", "/□", "/square" and a trailing " sq" are dropped
+ *    (sheet resistance has the dimension of a resistance).
+ * Letter case is otherwise kept: "mT" and "MT" are different units, and a
+ * wrong case is reported with a suggestion (suggestUnit), never guessed.
+ */
+import { didYouMean } from "./problem.ts";
+
+const SUPERSCRIPT_DIGITS: Record<string, string> = { "⁰": "0", "¹": "1", "²": "2", "³": "3", "⁴": "4", "⁵": "5", "⁶": "6", "⁷": "7", "⁸": "8", "⁹": "9", "⁻": "-" };
+
+/** The number a quantity starts with (kept as written, so "1e5" is never read as a unit). */
+const LEADING_NUMBER = /^\s*[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?/;
+
+/** Brings a unit (or "<number> <unit>") to the spelling mathjs and the column lists use. */
+export function normaliseUnitText(text: string): string {
+  const number = LEADING_NUMBER.exec(text)?.[0] ?? "";
+  const unit = normaliseUnit(text.slice(number.length));
+  return number ? `${number.trim()} ${unit}`.trim() : unit;
+}
+
+/** Brings a unit alone (a column header's "[…]", a metadata unit) to its one spelling. */
+export function normaliseUnit(text: string): string {
+  let u = text
+    .replace(/[\u00a0\u2009\u202f]/g, " ")
+    .replace(/\u2212/g, "-")
+    .replace(/[Ω\u2126]/g, "ohm")
+    .replace(/[µμ]/g, "u")
+    .replace(/Å/g, "angstrom")
+    .replace(/[·⋅×]/g, " ")
+    .replace(/([A-Za-z])\.(?=[A-Za-z])/g, "$1 ")
+    .replace(/[⁰¹²³⁴⁵⁶⁷⁸⁹⁻]+/g, (s) => "^" + [...s].map((c) => SUPERSCRIPT_DIGITS[c]).join(""))
+    .trim();
+  u = u.replace(/(?<![A-Za-z])([A-Za-z]?)ohms?(?![A-Za-z])/gi, (_, prefix: string) => `${prefix}ohm`);
+  // Per square: Ω/sq, Ω/□, ohm per square.
+  u = u.replace(/\s*(?:\/\s*(?:sq|□|square)|\s+(?:sq|□)|\s+per\s+square)$/i, "");
+  // cm2, cm-2, V-1 (a power written without the caret), each followed by a space so "cm2V-1s-1" splits.
+  u = u.replace(/(?<![A-Za-z^])([A-Za-z]+)(-?\d+)(?![\d.])/g, (_, name: string, power: string) => `${name}^${power} `);
+  u = u.replace(/(?<![A-Za-z])Vs(?![A-Za-z])/g, "(V s)");
+  u = u.replace(/^1\s*\//, "/");
+  return u.replace(/\s+/g, " ").replace(/\s*([/*^])\s*/g, "$1").trim();
+}
+
+/**
+ * The accepted unit the lab most likely meant: the same letters in another
+ * case ("mt" → "mT"), else the nearest by edit distance; undefined when none is close.
+ */
+export function suggestUnit(unit: string, accepted: readonly string[]): string | undefined {
+  const sameLetters = accepted.find((a) => a.toLowerCase() === unit.toLowerCase());
+  if (sameLetters !== undefined) return sameLetters;
+  const real = accepted.filter((a) => a !== "" && a !== "1");
+  return unit.length > 1 ? didYouMean(unit, real) : undefined;
+}
