@@ -25,8 +25,8 @@ export interface Sweep {
   x: Float64Array;
   /** Longitudinal resistance (Hall bar), Ω. */
   rxx?: Float64Array;
-  /** Hall resistance, Ω. */
-  rxy: Float64Array;
+  /** Hall resistance, Ω: always present on a field sweep; optional on a gate sweep, which does not use it. */
+  rxy?: Float64Array;
   /** van der Pauw four-terminal resistances, Ω. */
   ra?: Float64Array;
   rb?: Float64Array;
@@ -148,10 +148,13 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
   const rxy = toResistance("Rxy") ?? toResistance("Vxy");
   const ra = toResistance("Ra");
   const rb = toResistance("Rb");
-  const need = geometry === "hall-bar" ? "Rxx and Rxy (or Vxx and Vxy with a current)" : "Ra, Rb and Rxy";
-  const ok = geometry === "hall-bar" ? rxx && rxy : ra && rb && rxy;
+  // The Hall resistance is needed only where the Hall effect is used: field sweeps. A gate sweep
+  // (percolation, hysteresis) needs only the longitudinal resistance(s).
+  const hall = kind === "field";
+  const need = geometry === "hall-bar" ? (hall ? "Rxx and Rxy (or Vxx and Vxy with a current)" : "Rxx (or Vxx with a current)") : hall ? "Ra, Rb and Rxy" : "Ra and Rb";
+  const ok = (geometry === "hall-bar" ? rxx : ra && rb) && (!hall || rxy);
   if (!ok) {
-    throw new InputError({ file: t.file, line: t.headerLine, message: `missing a column a ${geometry} needs`, expected: need, found: t.columns.map((c) => c.name).join(", "), fix: "add the missing column, or check the device geometry in wafer.md" });
+    throw new InputError({ file: t.file, line: t.headerLine, message: `missing a column a ${geometry}${hall ? "" : " gate sweep"} needs`, expected: need, found: t.columns.map((c) => c.name).join(", "), fix: "add the missing column, or check the device geometry in wafer.md" });
   }
   if (kind === "field") {
     let pos = 0;
@@ -168,5 +171,5 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
     }
   }
   if (current_A === undefined && currentCol) current_A = currentCol.reduce((a, b) => a + b, 0) / currentCol.length;
-  return { file: t.file, kind, geometry, gate_V, field_T, temperature_K, current_A, x, rxx, rxy: rxy!, ra, rb, direction, rows: x.length, warnings };
+  return { file: t.file, kind, geometry, gate_V, field_T, temperature_K, current_A, x, rxx, rxy, ra, rb, direction, rows: x.length, warnings };
 }
