@@ -12,7 +12,9 @@
  *  - "·", "⋅", "×" and a dot between two letters (V.s) → multiplication;
  *  - superscripts (cm⁻², m²) → "^-2", "^2"; a unit followed directly by a
  *    power (cm2, cm-2, V-1) → "cm^2", "cm^-2", "V^-1";
- *  - "Vs" → "(V s)";
+ *  - "Vs" → "(V s)"; after the last slash, units multiplied together are all in
+ *    the denominator, as labs mean them: cm²/V·s → cm^2/(V s), cm^2/V*s → cm^2/(V*s)
+ *    (the strict reading, cm²·s/V, would fail the dimension check anyway);
  *  - a unit starting "1/" → "/" (mathjs reads "5 /cm^2", not "5 1/cm^2");
  *  - "per square": "/sq", "/□", "/square" and a trailing " sq" are dropped
  *    (sheet resistance has the dimension of a resistance).
@@ -52,7 +54,9 @@ export function normaliseUnit(text: string): string {
   u = u.replace(/(?<![A-Za-z^])([A-Za-z]+)(-?\d+)(?![\d.])/g, (_, name: string, power: string) => `${name}^${power} `);
   u = u.replace(/(?<![A-Za-z])Vs(?![A-Za-z])/g, "(V s)");
   u = u.replace(/^1\s*\//, "/");
-  return u.replace(/\s+/g, " ").replace(/\s*([/*^])\s*/g, "$1").trim();
+  u = u.replace(/\s+/g, " ").replace(/\s*([/*^])\s*/g, "$1").trim();
+  // After the last slash, units multiplied together are all in the denominator: cm²/V·s = cm²/(V·s).
+  return u.replace(/\/([^/()]*[ *][^/()]*)$/, "/($1)");
 }
 
 /**
