@@ -61,11 +61,13 @@ export function normaliseUnit(text: string): string {
 
 /**
  * The accepted unit the lab most likely meant: the same letters in another
- * case ("mt" → "mT"), else the nearest by edit distance; undefined when none is close.
+ * case ("mt" → "mT"), else, for a name of three letters or more, the nearest
+ * by edit distance ("kOmh" → "kOhm"); undefined when none is close.
  */
 export function suggestUnit(unit: string, accepted: readonly string[]): string | undefined {
   const sameLetters = accepted.find((a) => a.toLowerCase() === unit.toLowerCase());
   if (sameLetters !== undefined) return sameLetters;
-  const real = accepted.filter((a) => a !== "" && a !== "1");
-  return unit.length > 1 ? didYouMean(unit, real) : undefined;
+  // Edit distance only for longer names: two-letter units are all near one another (mV, mT, kΩ).
+  const real = accepted.filter((a) => a.length >= 2);
+  return unit.length >= 3 ? didYouMean(unit, real) : undefined;
 }

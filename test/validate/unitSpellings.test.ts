@@ -99,5 +99,7 @@ describe("column and metadata units (closed lists)", () => {
     expect(suggestUnit("mt", Object.keys(COLUMN_UNITS.field))).toBe("mT");
     expect(suggestUnit("MV", Object.keys(COLUMN_UNITS.voltage))).toBe("mV");
     expect(suggestUnit("furlong", Object.keys(COLUMN_UNITS.field))).toBeUndefined();
+    expect(suggestUnit("kOmh", Object.keys(COLUMN_UNITS.resistance))).toMatch(/^kohm$/i);
+    expect(suggestUnit("mV", Object.keys(COLUMN_UNITS.resistance))).toBeUndefined();
   });
 });
