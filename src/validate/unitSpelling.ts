@@ -3,7 +3,9 @@
  * closed column-unit lists) read them. The one place that knows that
  * `cm²/(V·s)`, `cm2/Vs`, `cm^2/(V*s)` and `cm^2 V^-1 s^-1` are the same unit.
  *
- * Rules, applied in order to the unit text (a leading number is left alone):
+ * A leading number is left alone, except that the form the site prints,
+ * "1.23×10⁵" (or "1.23 x 10^5"), becomes "1.23e5". Rules, applied in order
+ * to the unit text:
  *  - no-break and thin spaces → space; U+2212 minus → "-";
  *  - Ω (U+03A9) and the ohm sign (U+2126) → "ohm"; "Ohm", "OHM", "ohms" → "ohm"
  *    (a prefix keeps its case: kOhm → kohm, MΩ → Mohm, mΩ → mohm);
@@ -28,8 +30,12 @@ const SUPERSCRIPT_DIGITS: Record<string, string> = { "⁰": "0", "¹": "1", "²"
 /** The number a quantity starts with (kept as written, so "1e5" is never read as a unit). */
 const LEADING_NUMBER = /^\s*[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?/;
 
+/** A number in the form the site prints, "1.23×10⁵" (also "1.23 x 10^5"): mantissa, then the exponent after a caret or in superscript. */
+const TIMES_TEN = /^(\s*[-+]?(?:\d+\.?\d*|\.\d+))\s*[×xX·*]\s*10(?:\^([-+\u2212]?\d+)|([⁻]?[⁰¹²³⁴⁵⁶⁷⁸⁹]+))/;
+
 /** Brings a unit (or "<number> <unit>") to the spelling mathjs and the column lists use. */
 export function normaliseUnitText(text: string): string {
+  text = text.replace(TIMES_TEN, (_, mantissa: string, caret: string | undefined, sup: string | undefined) => `${mantissa}e${caret ?? [...sup!].map((c) => SUPERSCRIPT_DIGITS[c]).join("")}`.replace("\u2212", "-"));
   const number = LEADING_NUMBER.exec(text)?.[0] ?? "";
   const unit = normaliseUnit(text.slice(number.length));
   return number ? `${number.trim()} ${unit}`.trim() : unit;

@@ -3,7 +3,8 @@
 // and derived units: confirmed); nothing here is computed by the code under test.
 import { describe, expect, it } from "vitest";
 import { METRICS } from "../../src/analyse/metrics.ts";
-import { prettyUnit } from "../../src/publish/format.ts";
+import { formatValue, prettyUnit } from "../../src/publish/format.ts";
+import type { MetricSpec } from "../../src/analyse/metrics.ts";
 import { SETTING_SPECS } from "../../src/validate/settings.ts";
 import { COLUMN_UNITS, parseQuantity, unitFactor, type Dimension } from "../../src/validate/units.ts";
 import { suggestUnit } from "../../src/validate/unitSpelling.ts";
@@ -101,5 +102,22 @@ describe("column and metadata units (closed lists)", () => {
     expect(suggestUnit("furlong", Object.keys(COLUMN_UNITS.field))).toBeUndefined();
     expect(suggestUnit("kOmh", Object.keys(COLUMN_UNITS.resistance))).toMatch(/^kohm$/i);
     expect(suggestUnit("mV", Object.keys(COLUMN_UNITS.resistance))).toBeUndefined();
+  });
+});
+
+describe("values as the site prints them (formatValue), typed back in", () => {
+  it.each(printed.filter((u) => !DIMENSIONLESS.has(u)))("%s", (unit) => {
+    const spec = METRICS.find((m) => m.unit === unit) ?? { unit, digits: 3 };
+    for (const v of [1.234e5, 4.56e-3, 0.5, 2.5e11, -3.2e-5]) {
+      const text = formatValue(v, spec as MetricSpec);
+      // Printed to spec.digits significant digits: back within half a unit of the last digit.
+      expect(Math.abs(si(text, unit) / v - 1), text).toBeLessThan(5 * 10 ** -((spec.digits ?? 3) - 1));
+    }
+  });
+  it("the ×10 forms by hand: 1.23×10⁵, 1.23 x 10^5, 4.5×10⁻³", () => {
+    expect(si("1.23×10⁵ V", "V")).toBeCloseTo(1.23e5, 6);
+    expect(si("1.23 x 10^5 V", "V")).toBeCloseTo(1.23e5, 6);
+    expect(si("4.5×10⁻³ V", "V")).toBeCloseTo(4.5e-3, 12);
+    expect(si("4.5×10^\u22123 V", "V")).toBeCloseTo(4.5e-3, 12);
   });
 });
