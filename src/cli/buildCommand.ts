@@ -7,7 +7,7 @@ import path from "node:path";
 import { writeFile } from "node:fs/promises";
 import { EXIT, type BuildOptions } from "./args.ts";
 import { build, BuildLockedError, BuildStoppedError } from "./build.ts";
-import { reportProblems, summary } from "./report.ts";
+import { reportInternalError, reportProblems, summary } from "./report.ts";
 import type { CommandIO } from "./main.ts";
 
 export async function runBuild(options: BuildOptions, io: CommandIO): Promise<number> {
@@ -41,7 +41,8 @@ export async function runBuild(options: BuildOptions, io: CommandIO): Promise<nu
       if (!(e instanceof BuildLockedError)) io.err("The previous site was left as it was.");
       return EXIT.inputErrors;
     }
+    reportInternalError(e, io.err);
     io.err("The previous site was left as it was.");
-    throw e;
+    return EXIT.internal;
   }
 }

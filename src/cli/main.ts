@@ -5,6 +5,7 @@
  * Only an internal error prints a stack trace.
  */
 import { EXIT, parseArgs, type CommandName, type CommandRun } from "./args.ts";
+import { reportInternalError } from "./report.ts";
 
 export interface CommandIO {
   /** The command's result (summary, machine-readable output): stdout. */
@@ -41,8 +42,7 @@ export async function main(argv: string[]): Promise<number> {
     const run = RUNNERS[parsed.command] as Runner<CommandName>;
     return await run(parsed.options, io);
   } catch (e) {
-    io.err("waferbook: internal error (please report it with the data that triggered it):");
-    io.err((e as Error)?.stack ?? String(e));
+    reportInternalError(e, io.err);
     return EXIT.internal;
   }
 }

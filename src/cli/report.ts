@@ -22,3 +22,9 @@ export function summary(result: BuildResult, seconds: number): string {
   const warnings = result.problems.filter((p) => p.severity === "warning").length;
   return `${result.outcomes.length} wafers (${verdicts || "none"}); ${errors} input error${errors === 1 ? "" : "s"}, ${warnings} warning${warnings === 1 ? "" : "s"}; ${seconds.toFixed(1)} s`;
 }
+
+/** Prints an internal error (a bug): what to do, then the stack trace. The caller returns EXIT.internal. */
+export function reportInternalError(e: unknown, log: (s: string) => void): void {
+  log("waferbook: internal error (please report it with the data that triggered it):");
+  log((e as Error)?.stack ?? String(e));
+}

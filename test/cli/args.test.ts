@@ -103,19 +103,21 @@ describe("exit codes (main.ts)", () => {
 });
 
 describe("an internal error", () => {
-  it("exits 70 with the stack trace", async () => {
+  it("in a build exits 70 with the stack trace, and says the previous site is untouched", async () => {
     vi.resetModules();
-    vi.doMock("../../src/cli/buildCommand.ts", () => ({ runBuild: async () => { throw new Error("a bug for the test"); } }));
+    class Stopped extends Error {}
+    vi.doMock("../../src/cli/build.ts", () => ({ build: async () => { throw new TypeError("a bug for the test"); }, BuildStoppedError: Stopped, BuildLockedError: class extends Stopped {} }));
     const { main } = await import("../../src/cli/main.ts");
     const write = process.stderr.write;
     const captured: string[] = [];
     process.stderr.write = ((s: string) => (captured.push(s), true)) as typeof process.stderr.write;
     try {
-      expect(await main(["build", "--data", "x"])).toBe(70);
+      expect(await main(["build", "--data", "x", "--quiet"])).toBe(70);
     } finally {
       process.stderr.write = write;
-      vi.doUnmock("../../src/cli/buildCommand.ts");
+      vi.doUnmock("../../src/cli/build.ts");
+      vi.resetModules();
     }
-    expect(captured.join("")).toMatch(/internal error[\s\S]*a bug for the test[\s\S]*\n\s+at /);
+    expect(captured.join("")).toMatch(/^waferbook: internal error .*\nTypeError: a bug for the test\n\s+at [\s\S]*\nThe previous site was left as it was\.\n$/);
   });
 });
