@@ -53,7 +53,8 @@ function metaValue(t: RawTable, key: string): number | undefined {
   const entry = t.meta.get(key);
   if (!entry) return undefined;
   const dim = META[key];
-  const vu = splitValueUnit(entry.value);
+  // A table with decimal commas has them in its metadata too: "# gate: 0,35 V".
+  const vu = splitValueUnit(t.decimal === "," ? entry.value.replace(/^(\s*[-+]?\d*),(\d)/, "$1.$2") : entry.value);
   const factor = vu ? unitFactor(dim, vu.unit) : undefined;
   if (!vu || factor === undefined) {
     throw new InputError({ file: t.file, line: entry.line, field: `# ${key}`, message: `cannot read the ${key} metadata`, expected: `a number and one of ${acceptedUnits(dim)}`, found: JSON.stringify(entry.value), fix: `write for example "# ${key}: ${dim === "voltage" ? "0.35 V" : dim === "field" ? "0 T" : dim === "temperature" ? "1.6 K" : "10 nA"}"` });

@@ -82,3 +82,13 @@ describe("messages that name the separator or decimal problem", () => {
     expect(error("B [T];Rxx [ohm],Rxy [ohm]\n1;2;3\n")).toMatch(/^t\.csv:1: the header holds both semicolons and commas, so the separator is unclear .* — use one separator throughout, or declare it before the header, e\.g\. "# separator: ;"$/);
   });
 });
+
+describe("a whole sweep as a decimal-comma instrument writes it", () => {
+  it("metadata values with decimal commas too", async () => {
+    const { validateSweep } = await import("../../src/validate/sweep.ts");
+    const s = validateSweep(readTable("# gate: 0,35 V\n# current: 10 nA\nB [T];Vxx [µV];Vxy [µV]\n-1;6,5;-60\n0;6,25;0\n1;6,5;60\n", "s.csv"), "hall-bar");
+    expect(s.gate_V).toBeCloseTo(0.35, 12);
+    // 6.25 µV / 10 nA = 625 Ω (by hand)
+    expect(s.rxx![1]).toBeCloseTo(625, 9);
+  });
+});
