@@ -126,7 +126,7 @@ function ajvToInputError(e: ErrorObject, doc: FrontMatterDoc, file: string, data
       return new InputError({ file, line: lineOf(base), field: base, message: isDate ? "not a date" : "not a valid id", expected: isDate ? "a date written YYYY-MM-DD" : "letters, digits, \".\", \"-\" or \"_\" (up to 64, starting with a letter or digit, no \"..\")", found: show(valueAt), fix: isDate ? "write the date as 2025-03-14" : "rename it using only the allowed characters" });
     }
     case "type": {
-      const slip = unitInKey(last, valueAt);
+      const slip = (e.params as { type: string }).type === "number" ? unitInKey(last, valueAt) : undefined;
       if (slip) return new InputError({ file, line: lineOf(base), field: base, ...slip, found: show(valueAt) });
       return new InputError({ file, line: lineOf(base), field: base, message: "wrong type", expected: `${(e.params as { type: string }).type === "array" ? "a list" : (e.params as { type: string }).type === "object" ? "a mapping" : `a ${(e.params as { type: string }).type}`}`, found: show(valueAt), fix: "see docs/formats.md for this field" });
     }
