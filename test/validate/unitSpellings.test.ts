@@ -58,7 +58,7 @@ describe("spellings a lab uses", () => {
     ["1/cm^2", "m^-2", 1e4], ["cm-2", "m^-2", 1e4], ["cm⁻²", "m^-2", 1e4], ["/cm2", "m^-2", 1e4], ["cm\u22122", "m^-2", 1e4], ["cm−2/V", "m^-2/V", 1e4],
     // Resistance, Ω
     ["Ohm", "ohm", 1], ["ohm", "ohm", 1], ["Ω", "ohm", 1], ["\u2126", "ohm", 1], ["ohms", "ohm", 1], ["kOhm", "ohm", 1e3], ["kΩ", "ohm", 1e3], ["MΩ", "ohm", 1e6], ["mΩ", "ohm", 1e-3],
-    ["Ω/sq", "ohm", 1], ["Ohm/□", "ohm", 1], ["ohm per square", "ohm", 1],
+    ["Ω/sq", "ohm", 1], ["Ω/□", "ohm", 1], ["ohm/sq", "ohm", 1], ["Ohm/□", "ohm", 1], ["ohm per square", "ohm", 1],
     // Micro: u, µ (U+00B5), μ (U+03BC)
     ["uF/cm^2", "F/m^2", 1e-2], ["\u00b5F/cm²", "F/m^2", 1e-2], ["\u03bcF/cm²", "F/m^2", 1e-2], ["\u00b5m", "m", 1e-6], ["\u03bcm", "m", 1e-6], ["um", "m", 1e-6],
     // Ångström, 1e-10 m
