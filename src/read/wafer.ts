@@ -8,7 +8,7 @@ import { fileInfo, type RawFileInfo } from "./fileInfo.ts";
 export { fileInfo, type RawFileInfo };
 import { promises as fs } from "node:fs";
 import path from "node:path";
-import { InputError, type Problem } from "../validate/problem.ts";
+import { capProblem, InputError, type Problem } from "../validate/problem.ts";
 import type { AnalysisSettings } from "../validate/settings.ts";
 import { validateSweep, type Sweep } from "../validate/sweep.ts";
 import { validateWafer, type WaferRecord } from "../validate/wafer.ts";
@@ -113,6 +113,8 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
   const reader = fileReader(ctx, waferDir, recordRel, matterText, all, out);
   out.structure = await loadStructureInputs(record, reader);
   out.images = await loadImageInputs(record, reader);
+  // Problems pushed as literals (file patterns, reports) may echo long input too.
+  out.problems = out.problems.map(capProblem);
   return out;
 }
 
