@@ -7,7 +7,7 @@ import type { WaferAnalysis } from "../analyse/wafer.ts";
 import { judgeWafer, type MetricValues, type WaferJudgement } from "../judge/verdict.ts";
 import type { LoadContext, LoadedWafer, RawFileInfo } from "../read/wafer.ts";
 import { METRIC_BY_KEY } from "../analyse/metrics.ts";
-import { formatProblem, type Problem } from "../validate/problem.ts";
+import { capProblem, formatProblem, type Problem } from "../validate/problem.ts";
 import type { WaferRecord } from "../validate/wafer.ts";
 import type { Targets } from "../validate/targets.ts";
 import { SETTING_SPECS } from "../validate/settings.ts";
@@ -81,7 +81,8 @@ export function judgeOutcome(loaded: Pick<LoadedWafer, "folder" | "record" | "pr
       problems.push({ severity: "error", wafer: loaded.folder, file: record!.file, field: `waivers[${i}].metric`, message: "waiver names an unknown metric", expected: "a metric key from docs/formats.md", found: JSON.stringify(w.metric), fix: "correct the metric key or remove the waiver" });
     }
   }
-  const errors = [...problems.filter((p) => p.severity === "error"), ...ctx.sitewideErrors];
+  const capped = problems.map(capProblem);
+  const errors = [...capped.filter((p) => p.severity === "error"), ...ctx.sitewideErrors];
   const targets = ctx.targets ?? { defaultGrade: grade, grades: {}, file: "targets.yaml" };
   const judgement = judgeWafer(values, grade, targets, record?.waivers ?? [], errors.length > 0, errors.map((p) => `input error: ${formatProblem(p)}`));
   return {
@@ -90,7 +91,7 @@ export function judgeOutcome(loaded: Pick<LoadedWafer, "folder" | "record" | "pr
     analysis,
     values,
     judgement,
-    problems,
+    problems: capped,
     provenance: { files: loaded.files, settings: settingsProvenance(record, ctx.siteOverrides), waferbookVersion: ctx.version },
   };
 }

@@ -154,11 +154,22 @@ function firstInvalidUtf8(bytes: Buffer): number {
 }
 
 
-/** Lists every file under a folder, recursively, as paths relative to it (sorted). */
-export async function listFiles(dir: string): Promise<string[]> {
+/**
+ * Lists every file under a folder, recursively, as paths relative to it
+ * (sorted). `label` names the folder in messages (relative to the data
+ * folder). A chain of folders whose path exceeds the system's limit
+ * (ENAMETOOLONG, e.g. 4096 bytes on Linux) is an InputError located at the
+ * chain's first folder, not an internal error.
+ */
+export async function listFiles(dir: string, label = ""): Promise<string[]> {
   const out: string[] = [];
   async function walk(sub: string): Promise<void> {
-    const entries = await fs.readdir(path.join(dir, sub), { withFileTypes: true });
+    const entries = await fs.readdir(path.join(dir, sub), { withFileTypes: true }).catch((err: NodeJS.ErrnoException) => {
+      if (err.code !== "ENAMETOOLONG") throw err;
+      const top = [label, sub.split("/")[0]].filter(Boolean).join("/");
+      const depth = sub.split("/").length;
+      throw new InputError({ file: top, message: "folder path is longer than the system allows", expected: "a path of at most a few thousand characters", found: `folders nested ${depth} deep, ${path.join(dir, sub).length} characters in all`, fix: "flatten the folders or shorten their names" });
+    });
     for (const e of entries) {
       const rel = sub ? `${sub}/${e.name}` : e.name;
       if (e.isDirectory()) await walk(rel);

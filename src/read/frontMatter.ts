@@ -4,8 +4,8 @@
  * become located problems with line and column in the file.
  */
 import matter from "gray-matter";
-import * as yaml from "js-yaml";
 import { InputError } from "../validate/problem.ts";
+import { ALIAS_LIMIT_REASON, loadYaml, MAX_YAML_ALIASES, MAX_YAML_ALIAS_NODES } from "./yamlLoad.ts";
 
 export interface FrontMatterDoc {
   data: unknown;
@@ -26,13 +26,13 @@ export function readFrontMatter(text: string, file: string): FrontMatterDoc {
   }
   let parsed: matter.GrayMatterFile<string>;
   try {
-    parsed = matter(text, { engines: { yaml: (s: string) => yaml.load(s) as object } });
+    parsed = matter(text, { engines: { yaml: (s: string) => loadYaml(s) as object } });
   } catch (err) {
     const e = err as { mark?: { line: number; column: number }; reason?: string; message: string };
     if (e.mark) {
       // The front-matter text starts right after the opening "---", so YAML's line 0 is file line 1.
       const line = e.mark.line + 1;
-      throw new InputError({ file, line, column: e.mark.column + 1, message: `YAML syntax error: ${e.reason ?? "cannot parse"}`, expected: "valid YAML (spaces for indentation, \"key: value\")", found: lineText(text, line), fix: /tab/i.test(e.reason ?? "") ? "indent with spaces, not tabs" : "check the indentation and quoting on that line" });
+      throw new InputError({ file, line, column: e.mark.column + 1, message: `YAML syntax error: ${e.reason ?? "cannot parse"}`, expected: "valid YAML (spaces for indentation, \"key: value\")", found: lineText(text, line), fix: /tab/i.test(e.reason ?? "") ? "indent with spaces, not tabs" : "check the indentation and quoting on that line", ...aliasLimit(e.reason) });
     }
     // No position from the parser: locate at the opening "---" of the block it could not read.
     throw new InputError({ file, line: 1, message: `cannot read front matter: ${e.message.split("\n")[0]}`, expected: "YAML \"key: value\" lines between the two \"---\" lines", found: "text the YAML reader refused", fix: "check the indentation and quoting of the front matter; see docs/formats.md" });
@@ -43,13 +43,20 @@ export function readFrontMatter(text: string, file: string): FrontMatterDoc {
 /** Reads a plain YAML file (targets.yaml, analysis.yaml) with located syntax errors. */
 export function readYaml(text: string, file: string): unknown {
   try {
-    return yaml.load(text);
+    return loadYaml(text);
   } catch (err) {
     const e = err as { mark?: { line: number; column: number }; reason?: string; message: string };
     // Without a position from the parser, point at the top of the file.
     const line = e.mark ? e.mark.line + 1 : 1;
-    throw new InputError({ file, line, column: e.mark ? e.mark.column + 1 : undefined, message: `YAML syntax error: ${e.reason ?? e.message}`, expected: "valid YAML", found: e.mark ? lineText(text, line) : "text YAML cannot read", fix: e.mark ? "check the indentation and quoting on that line" : "check the indentation and quoting in the file" });
+    throw new InputError({ file, line, column: e.mark ? e.mark.column + 1 : undefined, message: `YAML syntax error: ${e.reason ?? e.message}`, expected: "valid YAML", found: e.mark ? lineText(text, line) : "text YAML cannot read", fix: e.mark ? "check the indentation and quoting on that line" : "check the indentation and quoting in the file", ...aliasLimit(e.reason) });
   }
+}
+
+/** Message, expected and fix for a refused alias budget (loadYaml's own limit or js-yaml's maxAliases); nothing for other errors. */
+function aliasLimit(reason: string | undefined): { message: string; expected: string; fix: string } | Record<string, never> {
+  if (!reason || !(reason.startsWith(ALIAS_LIMIT_REASON) || reason.includes("maxAliases"))) return {};
+  const limits = `at most ${MAX_YAML_ALIASES} aliases, repeating at most ${MAX_YAML_ALIAS_NODES.toLocaleString("en-US")} nodes in all`;
+  return { message: `YAML alias limit: ${reason}`, expected: limits, fix: "write the values out instead of repeating them through aliases (docs/formats.md, Limits)" };
 }
 
 /** The text of a 1-based line, shortened and quoted, for "found" in a YAML syntax message. */

@@ -14,7 +14,7 @@ import { InputError } from "../validate/problem.ts";
 import { decodeMicrograph, MicrographFormatError } from "./micrograph.ts";
 
 /** Decodes one image entry; throws InputError located at the file and at `images[i].…` in wafer.md. */
-async function loadOne(spec: ImageSpec, i: number, files: WaferFileReader): Promise<MicrographInput> {
+async function loadOne(spec: ImageSpec, i: number, files: WaferFileReader, maxPixels: number): Promise<MicrographInput> {
   const field = `images[${i}].file`;
   const { rel, bytes } = await files.readBytes(spec.file, "image").catch((e: unknown) => {
     // A missing file is the record's mistake: point at the line of wafer.md that names it.
@@ -25,10 +25,10 @@ async function loadOne(spec: ImageSpec, i: number, files: WaferFileReader): Prom
   });
   let img;
   try {
-    img = decodeMicrograph(bytes);
+    img = decodeMicrograph(bytes, maxPixels);
   } catch (e) {
     if (!(e instanceof MicrographFormatError)) throw e;
-    throw new InputError({ file: rel, field, message: "not a greyscale PNG micrograph", expected: e.expected, found: e.found, fix: `${e.fix} (listed in ${files.recordFile} line ${files.lineOf(field) ?? "?"})` });
+    throw new InputError({ file: rel, field, message: e.what, expected: e.expected, found: e.found, fix: `${e.fix} (listed in ${files.recordFile} line ${files.lineOf(field) ?? "?"})` });
   }
   if (spec.reference) {
     const [x0, y0, x1, y1] = spec.reference;
@@ -60,7 +60,7 @@ async function loadOne(spec: ImageSpec, i: number, files: WaferFileReader): Prom
 export async function loadImageInputs(record: WaferRecord, files: WaferFileReader): Promise<ImageInputs> {
   const micrographs: MicrographInput[] = [];
   for (const [i, spec] of record.images.entries()) {
-    const m = await files.guard(() => loadOne(spec, i, files));
+    const m = await files.guard(() => loadOne(spec, i, files, record.settings.max_image_pixels));
     if (m) micrographs.push(m);
   }
   return micrographs.length ? { micrographs } : {};

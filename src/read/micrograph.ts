@@ -10,22 +10,34 @@
  * bit depths other than 8 and 16, and true-colour images.
  *
  * Output pixels are normalised to 0…1: value / (2^bitDepth − 1), row-major.
+ *
+ * Before anything is decoded, the pixel count declared in the IHDR chunk
+ * (width × height, PNG specification §11.2.2) is checked against `maxPixels`
+ * (the `max_image_pixels` analysis setting): a few kilobytes of compressed
+ * zeros can declare 20000 × 20000 pixels, and decoding them costs gigabytes.
+ * pngjs bounds the inflated data by the declared size, so this check bounds
+ * the whole decode.
  */
 import { PNG } from "pngjs";
+import { DEFAULT_MAX_IMAGE_PIXELS } from "../validate/settings.ts";
 
 /** A lattice-image file that is not an 8- or 16-bit greyscale PNG. */
 export class MicrographFormatError extends Error {
   readonly expected: string;
   readonly found: string;
   readonly fix: string;
-  constructor(expected: string, found: string, fix: string) {
+  /** What is wrong, in a few words, for the problem's message. */
+  readonly what: string;
+  constructor(expected: string, found: string, fix: string, what = "not a greyscale PNG micrograph") {
     super(`expected ${expected}, found ${found}. ${fix}`);
     this.name = "MicrographFormatError";
     this.expected = expected;
     this.found = found;
     this.fix = fix;
+    this.what = what;
   }
 }
+
 
 export interface Micrograph {
   width: number;
@@ -56,14 +68,36 @@ function describeBytes(b: Uint8Array): string {
 }
 
 /**
- * Decodes an 8- or 16-bit greyscale PNG into normalised pixels.
- * Throws MicrographFormatError for anything else (see the module comment).
+ * Reads width and height from the IHDR chunk, which must come first (after the
+ * 8-byte signature: length, "IHDR", width and height as 4-byte big-endian
+ * numbers), and refuses an image above `maxPixels` before it is decoded.
+ * A file too short to hold the header is left for the decoder to call damaged.
  */
-export function decodeMicrograph(bytes: Uint8Array): Micrograph {
+function checkDeclaredSize(buf: Buffer, maxPixels: number): void {
+  if (buf.length < 24 || buf.toString("latin1", 12, 16) !== "IHDR") return;
+  const width = buf.readUInt32BE(16);
+  const height = buf.readUInt32BE(20);
+  if (width * height <= maxPixels) return;
+  const n = (v: number) => v.toLocaleString("en-US");
+  throw new MicrographFormatError(
+    `at most ${n(maxPixels)} pixels (the max_image_pixels setting)`,
+    `${n(width)} × ${n(height)} = ${n(width * height)} pixels declared in the PNG header`,
+    "Crop or downsample the micrograph, or raise max_image_pixels in analysis.yaml or the wafer's analysis: block (docs/formats.md, Limits).",
+    "micrograph too large",
+  );
+}
+
+/**
+ * Decodes an 8- or 16-bit greyscale PNG of at most `maxPixels` pixels into
+ * normalised pixels. Throws MicrographFormatError for anything else (see the
+ * module comment).
+ */
+export function decodeMicrograph(bytes: Uint8Array, maxPixels: number = DEFAULT_MAX_IMAGE_PIXELS): Micrograph {
   const buf = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   if (buf.length < 8 || !PNG_SIGNATURE.every((v, i) => buf[i] === v)) {
     throw new MicrographFormatError(EXPECTED, describeBytes(buf), FIX);
   }
+  checkDeclaredSize(buf, maxPixels);
   let png;
   try {
     png = PNG.sync.read(buf, { skipRescale: true });

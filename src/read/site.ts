@@ -9,6 +9,7 @@ import { InputError, type Problem } from "../validate/problem.ts";
 import { applySettings, DEFAULT_SETTINGS, type AnalysisSettings } from "../validate/settings.ts";
 import { validateTargets, type Targets } from "../validate/targets.ts";
 import { WAFER_ID } from "../validate/waferSchema.ts";
+import { siteNameProblem } from "../validate/siteNames.ts";
 import { decodeText, readDataBytes } from "./dataFiles.ts";
 import { lineOfField, readFrontMatter, readYaml } from "./frontMatter.ts";
 import { fileInfo, type RawFileInfo } from "./fileInfo.ts";
@@ -79,6 +80,8 @@ export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
         const id = name.slice(0, -3);
         const f = await readDataBytes(dataDir, path.join(runsDir, name));
         if (!WAFER_ID.test(id)) throw new InputError({ file: f.rel, message: "run file name is not a valid id", expected: "letters, digits, \".\", \"-\", \"_\"", found: JSON.stringify(id), fix: "rename the file" });
+        const reserved = siteNameProblem(id, "run", { file: f.rel, rename: "file" });
+        if (reserved) throw new InputError(reserved);
         out.files.push(fileInfo(f.rel, f.bytes, "run"));
         const doc = readFrontMatter(decodeText(f), f.rel);
         const meta: Record<string, string> = {};
@@ -99,6 +102,11 @@ export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
     if (!e.isDirectory()) continue;
     if (!WAFER_ID.test(e.name)) {
       out.problems.push({ severity: "error", file: `wafers/${e.name}`, message: "wafer folder name is not a valid id", expected: "letters, digits, \".\", \"-\", \"_\" (no \"..\")", found: JSON.stringify(e.name), fix: "rename the folder" });
+      continue;
+    }
+    const reserved = siteNameProblem(e.name, "wafer", { file: `wafers/${e.name}`, rename: "folder (and the wafer: field)" });
+    if (reserved) {
+      out.problems.push(reserved);
       continue;
     }
     out.waferFolders.push(e.name);

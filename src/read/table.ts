@@ -6,9 +6,10 @@
  *   -1.0,612.3,-6241.5        ← rows, comma or tab separated
  *
  * Plain numeric bodies are read in one pass (src/read/plainTable.ts); any
- * other body is split by csv-parse (RFC 4180 quoting, CRLF). This module knows
- * nothing about physics: it returns located cells; src/validate gives them
- * meaning and units.
+ * other body is split by csv-parse (RFC 4180 quoting, CRLF). Lines end in LF
+ * or CRLF; a file whose lines all end in a lone CR is read as if they were LF.
+ * Numbers are decimal only (no 0x, 0b, 0o). This module knows nothing about
+ * physics: it returns located cells; src/validate gives them meaning and units.
  */
 import { parse } from "csv-parse/sync";
 import { InputError } from "../validate/problem.ts";
@@ -49,6 +50,8 @@ export interface RawTable {
 const HEADER_CELL = /^([A-Za-z_][A-Za-z0-9_.]*)\s*(?:\[([^\]]*)\])?$/;
 
 export function readTable(text: string, file: string): RawTable {
+  // Carriage returns alone end the lines of files from some older instruments and classic Mac OS: read each as a line end.
+  if (text.indexOf("\n") < 0 && text.indexOf("\r") >= 0) text = text.replace(/\r/g, "\n");
   const meta = new Map<string, MetaEntry>();
   let pos = 0;
   let line = 0;
@@ -154,7 +157,12 @@ function plainTable(t: Omit<RawTable, "rows">, text: string, bodyStart: number):
   }) as RawTable;
 }
 
-/** Parses a numeric column; non-numeric, NaN and infinite cells are errors naming row and column. */
+/** A cell's number syntax: decimal only, the same as the fast path's (src/read/plainTable.ts). */
+const DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+/** Hexadecimal, binary and octal literals, which Number() would read (0x7D0 → 2000). */
+const NON_DECIMAL = /^[+-]?0[xXbBoO]/;
+
+/** Parses a numeric column; non-decimal, non-numeric, NaN and infinite cells are errors naming row and column. */
 export function numericColumn(table: RawTable, col: ColumnHeader, factor = 1, offset = 0): Float64Array {
   const values = table.numeric?.[col.index];
   if (values) {
@@ -165,7 +173,19 @@ export function numericColumn(table: RawTable, col: ColumnHeader, factor = 1, of
   const out = new Float64Array(table.rows.length);
   for (let i = 0; i < table.rows.length; i++) {
     const cell = table.rows[i][col.index];
-    const v = cell === "" ? NaN : Number(numberText(cell, table.decimal));
+    const text = cell === "" ? "" : numberText(cell, table.decimal);
+    const v = DECIMAL.test(text) ? Number(text) : NaN;
+    if (NON_DECIMAL.test(text)) {
+      throw new InputError({
+        file: table.file,
+        line: table.rowLines[i],
+        field: `column ${col.index + 1} (${col.name})`,
+        message: "cell is not a decimal number",
+        expected: "decimal digits such as 2000 or 2.0e3",
+        found: JSON.stringify(cell),
+        fix: "write the value in decimal; hexadecimal (0x), binary (0b) and octal (0o) numbers are not read",
+      });
+    }
     if (!Number.isFinite(v)) {
       throw new InputError({
         file: table.file,

@@ -8,10 +8,11 @@ import { fileInfo, type RawFileInfo } from "./fileInfo.ts";
 export { fileInfo, type RawFileInfo };
 import { promises as fs } from "node:fs";
 import path from "node:path";
-import { InputError, type Problem } from "../validate/problem.ts";
+import { capProblem, InputError, type Problem } from "../validate/problem.ts";
 import type { AnalysisSettings } from "../validate/settings.ts";
 import { validateSweep, type Sweep } from "../validate/sweep.ts";
 import { validateWafer, type WaferRecord } from "../validate/wafer.ts";
+import { deviceDimensionWarnings } from "../validate/recordNumbers.ts";
 import { checkRelativePath, decodeText, listFiles, matchGlob, MAX_IMAGE_FILE_BYTES, readDataBytes, relPath } from "./dataFiles.ts";
 import { loadImageInputs } from "./imageFiles.ts";
 import { loadStructureInputs } from "./structureFiles.ts";
@@ -66,6 +67,7 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
     matterText = doc.matterText;
     record = validateWafer(doc, { folder, file: f.rel, today: ctx.today, siteSettings: ctx.siteSettings });
     out.record = record;
+    for (const w of deviceDimensionWarnings(record.devices, f.rel, (field) => lineOfField(doc.matterText, field, doc.firstLine))) out.problems.push({ ...w, wafer: folder });
   } catch (err) {
     out.problems.push(toProblem(err, folder, recordRel));
     return out;
@@ -76,7 +78,13 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
     const found = [folder, ...twins].sort().map((n) => JSON.stringify(n)).join(" and ");
     out.problems.push({ severity: "error", wafer: folder, file: recordRel, line: lineOfField(matterText, "wafer", 2), field: "wafer", message: "duplicate wafer id (ids must differ by more than letter case)", expected: "a unique id", found, fix: "rename one of the wafers" });
   }
-  const all = (await listFiles(waferDir)).filter((f) => f !== "wafer.md");
+  let all: string[];
+  try {
+    all = (await listFiles(waferDir, relPath(ctx.dataDir, waferDir))).filter((f) => f !== "wafer.md");
+  } catch (err) {
+    out.problems.push(toProblem(err, folder, recordRel));
+    return out;
+  }
   for (const [i, spec] of record.devices.entries()) {
     const field = `devices[${i}].files`;
     const device: LoadedDevice = { id: spec.id, sweeps: [] };
@@ -113,6 +121,8 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
   const reader = fileReader(ctx, waferDir, recordRel, matterText, all, out);
   out.structure = await loadStructureInputs(record, reader);
   out.images = await loadImageInputs(record, reader);
+  // Problems pushed as literals (file patterns, reports) may echo long input too.
+  out.problems = out.problems.map(capProblem);
   return out;
 }
 

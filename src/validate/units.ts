@@ -98,13 +98,14 @@ export function parseQuantity(text: unknown, target: string): QuantityResult {
     const m = /^([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(%?)$/.exec(t);
     if (!m) return { ok: false, expected: target === "%" ? "a percentage such as \"5 %\"" : "a plain number", found: JSON.stringify(t) };
     const v = Number(m[1]);
+    if (!Number.isFinite(v)) return { ok: false, expected, found: `${JSON.stringify(t)}, beyond the largest number (about 1.8e308)` };
     if (target === "%") return { ok: true, value: m[2] ? v : v * 100 };
     return { ok: true, value: m[2] ? v / 100 : v };
   }
   try {
     const u = mathUnit(normaliseUnitText(t));
     const v = u.toNumber(normaliseUnitText(target));
-    if (!Number.isFinite(v)) return { ok: false, expected, found: JSON.stringify(t) };
+    if (!Number.isFinite(v)) return { ok: false, expected, found: Number.isNaN(v) ? JSON.stringify(t) : `${JSON.stringify(t)}, beyond the largest number (about 1.8e308)` };
     return { ok: true, value: v };
   } catch (err) {
     const msg = (err as Error).message;

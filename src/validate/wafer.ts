@@ -10,6 +10,8 @@ import { Ajv, type ErrorObject } from "ajv";
 import { lineOfField, type FrontMatterDoc } from "../read/frontMatter.ts";
 import { checkRelativePath } from "../read/dataFiles.ts";
 import { applySettings, type AnalysisSettings } from "./settings.ts";
+import { checkDeviceDimensions, checkFiniteNumbers } from "./recordNumbers.ts";
+import { siteNameProblem } from "./siteNames.ts";
 import { didYouMean, InputError, show } from "./problem.ts";
 import { FIELD_HINTS, WAFER_SCHEMA } from "./waferSchema.ts";
 import { unitInKey } from "./unitInKey.ts";
@@ -165,6 +167,9 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
   if (r.wafer !== ctx.folder) {
     throw new InputError({ file, line: lineOf("wafer"), field: "wafer", message: "wafer id does not match its folder", expected: JSON.stringify(ctx.folder), found: JSON.stringify(r.wafer), fix: "make the id and the folder name the same (rename one of them)" });
   }
+  const reservedRun = siteNameProblem(r.run, "run", { file, line: lineOf("run"), field: "run", rename: "run (and its runs/<id>.md file)" });
+  if (reservedRun) throw new InputError(reservedRun);
+  checkFiniteNumbers(r, file, lineOf);
   for (const [key, value] of [["grown", r.grown], ...((r.waivers ?? []) as Waiver[]).map((w, i) => [`waivers[${i}].date`, w.date])] as [string, string][]) {
     if (!isRealDate(value)) {
       throw new InputError({ file, line: lineOf(key), field: key, message: "not a calendar date", expected: "a real date YYYY-MM-DD", found: JSON.stringify(value), fix: "correct the month or day" });
@@ -182,6 +187,7 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
       throw new InputError({ file, line: lineOf(`devices[${i}]`), field: `devices[${i}]`, message: "a Hall bar needs its dimensions", expected: "length_um (voltage-probe spacing) and width_um (bar width)", found: `length_um ${show(d.length_um)}, width_um ${show(d.width_um)}`, fix: "add both, in micrometres" });
     }
   });
+  checkDeviceDimensions(devices, file, lineOf);
   ((r.images ?? []) as ImageSpec[]).forEach((im, i) => checkRelativePath(im.file, { file, field: `images[${i}].file`, line: lineOf(`images[${i}].file`) }));
   const settings = applySettings(ctx.siteSettings, r.analysis, { file, field: "analysis", line: lineOf("analysis"), lineOf: (k) => lineOf(`analysis.${k}`) });
   return {

@@ -4,6 +4,7 @@ import { loadImageInputs } from "../../src/read/imageFiles.ts";
 import type { WaferFileReader } from "../../src/read/waferFiles.ts";
 import { InputError, type Problem } from "../../src/validate/problem.ts";
 import type { ImageSpec, WaferRecord } from "../../src/validate/wafer.ts";
+import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
 import { micrographPng } from "../../src/synth/micrographPng.ts";
 
 /** A reader over in-memory files that records problems the way the real one does. */
@@ -27,7 +28,7 @@ function fakeReader(files: Record<string, Buffer>) {
   return { reader, problems };
 }
 
-const record = (images: ImageSpec[]) => ({ images }) as unknown as WaferRecord;
+const record = (images: ImageSpec[]) => ({ images, settings: DEFAULT_SETTINGS }) as unknown as WaferRecord;
 const spec = (file: string, extra: Partial<ImageSpec> = {}): ImageSpec => ({ file, pixel_nm: 0.05, kind: "haadf", growth_axis: "up", ...extra });
 const grey = micrographPng(Float32Array.from({ length: 64 * 48 }, (_, i) => (i % 7) / 7), 64, 48, 8);
 
