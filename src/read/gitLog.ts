@@ -63,8 +63,6 @@ const ISO = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}(?:Z|[+-]\d{2}:\d{2})$/;
 /** A --name-status letter (with the similarity score of C and R). */
 const STATUS = /^[ACDMRTUXB]\d*$/;
 
-const utf8 = new TextDecoder("utf-8");
-
 /** Converts a repository-relative path to one relative to the data folder, or null if outside it. */
 export function dataPathOf(prefix: string, repoPath: string): string | null {
   if (!prefix) return repoPath;
@@ -97,10 +95,10 @@ export class GitLogParser {
     for (;;) {
       const nul = chunk.indexOf(0, from);
       if (nul < 0) break;
-      const piece = chunk.subarray(from, nul);
-      const bytes = this.pending.length ? Buffer.concat([...this.pending, piece]) : piece;
-      this.pending = [];
-      this.token(utf8.decode(bytes));
+      if (this.pending.length) {
+        this.token(Buffer.concat([...this.pending, chunk.subarray(from, nul)]).toString("utf8"));
+        this.pending = [];
+      } else this.token(chunk.toString("utf8", from, nul));
       this.offset += nul - from + 1;
       this.tokenStart = this.offset;
       from = nul + 1;
