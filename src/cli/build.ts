@@ -151,7 +151,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     } finally {
       await jobs.close();
     }
-    const problems = [...site.problems, ...buildProblems, ...outcomes.flatMap((o) => o.problems)];
+    const problems = [...site.problems, ...buildProblems, ...jobs.cacheWarnings, ...outcomes.flatMap((o) => o.problems)];
     await writeExtras(outcomes, dataDir, tmpDir, commitsOf, outDir, reused, jobs.fileHashes);
     await writeExports(outcomes, tmpDir, meta, site.runs, reused);
     await writeSearch(outcomes, site.runs, tmpDir, PACKAGE_ROOT);

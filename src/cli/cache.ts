@@ -18,9 +18,14 @@
  *   - the path and SHA-256 of every file in the wafer folder (wafer.md
  *     included), in sorted order. The files are read and hashed, never parsed,
  *     to compute the key (about 1 GB/s; see docs/scaling.md).
- * Value = v8.serialize of a `CacheEntry` (typed arrays survive), written to a
- * temporary file and renamed into place, so a reader sees a whole entry or
- * none, and concurrent builds or CI runners sharing the folder cannot tear it.
+ * Value = ENTRY_MAGIC, the SHA-256 of the payload, then the payload: v8.serialize
+ * of a `CacheEntry` (typed arrays survive). Written to a temporary file and
+ * renamed into place, so a reader sees a whole entry or none, and concurrent
+ * builds or CI runners sharing the folder cannot tear it. The checksum is
+ * verified on every read: an entry whose bytes changed after it was written
+ * (a flipped bit on disk or in transit, a truncated copy, a hand edit) is
+ * discarded with a warning naming it and the wafer is analysed again, so the
+ * cache can make a build slower but never change what it publishes.
  */
 import { createHash } from "node:crypto";
 import { lstatSync, promises as fs, readFileSync, readlinkSync, statSync } from "node:fs";
@@ -36,7 +41,10 @@ import { listFiles } from "../read/dataFiles.ts";
 import type { FileHashes } from "./fileHashes.ts";
 
 /** Bumped when the entry's shape changes. */
-export const CACHE_FORMAT = "waferbook-cache-3";
+export const CACHE_FORMAT = "waferbook-cache-4";
+/** The first bytes of every entry file (format and version of the file layout). */
+const ENTRY_MAGIC = Buffer.from("WBCACHE\x04", "latin1");
+const CHECKSUM_BYTES = 32;
 
 export interface CacheEntry {
   folder: string;
@@ -127,7 +135,7 @@ async function fileDigest(abs: string, hashes?: FileHashes): Promise<string> {
 
 const sha256 = (bytes: Buffer) => createHash("sha256").update(bytes).digest("hex");
 
-function entryPath(cacheDir: string, key: string, form: EntryForm = "full"): string {
+export function entryPath(cacheDir: string, key: string, form: EntryForm = "full"): string {
   return path.join(cacheDir, key.slice(0, 2), form === "full" ? `${key}.v8` : `${key}.slim.v8`);
 }
 
@@ -141,13 +149,55 @@ function entryPath(cacheDir: string, key: string, form: EntryForm = "full"): str
  */
 export type EntryForm = "full" | "slim";
 
-/** The entry stored under key, or undefined (missing or unreadable entries are misses). */
-export async function readEntry(cacheDir: string, key: string, form: EntryForm = "full"): Promise<CacheEntry | undefined> {
+/**
+ * The entry stored under key, or undefined. A missing or unreadable file is a
+ * plain miss; a file whose layout or SHA-256 checksum is wrong, or whose
+ * payload does not deserialise to an entry, is deleted and reported to
+ * `onDamaged` (its path and what is wrong), then read as a miss.
+ */
+export async function readEntry(cacheDir: string, key: string, form: EntryForm = "full", onDamaged?: (file: string, reason: string) => void): Promise<CacheEntry | undefined> {
+  const file = entryPath(cacheDir, key, form);
+  let bytes: Buffer;
   try {
-    return v8.deserialize(await fs.readFile(entryPath(cacheDir, key, form))) as CacheEntry;
+    bytes = await fs.readFile(file);
   } catch {
     return undefined;
   }
+  const damaged = (reason: string) => {
+    onDamaged?.(file, reason);
+    return fs.rm(file, { force: true }).then(
+      () => undefined,
+      () => undefined,
+    );
+  };
+  const head = ENTRY_MAGIC.length + CHECKSUM_BYTES;
+  if (bytes.length < head || !bytes.subarray(0, ENTRY_MAGIC.length).equals(ENTRY_MAGIC)) return damaged(`not a waferbook cache entry of this version (${bytes.length} bytes, unexpected header)`);
+  const payload = bytes.subarray(head);
+  if (!createHash("sha256").update(payload).digest().equals(bytes.subarray(ENTRY_MAGIC.length, head))) return damaged("its SHA-256 checksum does not match its contents");
+  try {
+    const entry = v8.deserialize(payload) as CacheEntry;
+    if (entry && typeof entry === "object" && typeof entry.folder === "string" && Array.isArray(entry.files) && Array.isArray(entry.problems)) return entry;
+  } catch {
+    // reported below
+  }
+  return damaged("its contents do not read as a cache entry");
+}
+
+/** The warning for a damaged entry that was discarded (the wafer is then analysed again). */
+export function damagedEntryWarning(folder: string, file: string, reason: string): Problem {
+  return {
+    severity: "warning",
+    file: `wafers/${folder}/wafer.md`,
+    wafer: folder,
+    message: `the analysis cache entry ${file} was damaged and has been discarded (${reason}); the wafer was analysed again from its raw files`,
+    fix: "nothing to do for this build; if it recurs, check the disk holding the cache, or whatever copies the cache between machines",
+  };
+}
+
+/** Header (magic and SHA-256 of the payload) and payload of an entry file. */
+function entryBytes(entry: CacheEntry): Buffer {
+  const payload = v8.serialize(entry);
+  return Buffer.concat([ENTRY_MAGIC, createHash("sha256").update(payload).digest(), payload]);
 }
 
 /**
@@ -160,8 +210,8 @@ export async function readEntry(cacheDir: string, key: string, form: EntryForm =
  */
 export async function writeEntry(cacheDir: string, key: string, entry: CacheEntry, slim = entry.analysis && slimAnalysis(entry.analysis)): Promise<void> {
   await fs.mkdir(path.dirname(entryPath(cacheDir, key)), { recursive: true }).catch(() => {});
-  if (await writeAtomically(entryPath(cacheDir, key, "full"), v8.serialize(entry))) {
-    await writeAtomically(entryPath(cacheDir, key, "slim"), v8.serialize({ ...entry, analysis: slim }));
+  if (await writeAtomically(entryPath(cacheDir, key, "full"), entryBytes(entry))) {
+    await writeAtomically(entryPath(cacheDir, key, "slim"), entryBytes({ ...entry, analysis: slim }));
   }
 }
 
