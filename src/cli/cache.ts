@@ -17,7 +17,9 @@
  *     wafer's own overrides are in wafer.md, hashed below);
  *   - the path and SHA-256 of every file in the wafer folder (wafer.md
  *     included), in sorted order. The files are read and hashed, never parsed,
- *     to compute the key (about 1 GB/s; see docs/scaling.md).
+ *     to compute the key (about 1 GB/s; see docs/scaling.md), through a
+ *     bounded buffer (fileHashes.ts sha256File): memory does not grow with
+ *     file size.
  * Value = ENTRY_MAGIC, the SHA-256 of the payload, then the payload: v8.serialize
  * of a `CacheEntry` (typed arrays survive). Written to a temporary file and
  * renamed into place, so a reader sees a whole entry or none, and concurrent
@@ -38,7 +40,7 @@ import type { RawFileInfo } from "../read/wafer.ts";
 import type { Problem } from "../validate/problem.ts";
 import type { WaferRecord } from "../validate/wafer.ts";
 import { listFiles } from "../read/dataFiles.ts";
-import type { FileHashes } from "./fileHashes.ts";
+import { sha256File, type FileHashes } from "./fileHashes.ts";
 
 /** Bumped when the entry's shape changes. */
 export const CACHE_FORMAT = "waferbook-cache-4";
@@ -70,10 +72,10 @@ export async function sourceFiles(dir: string, keep: (name: string) => boolean =
   return out;
 }
 
-/** SHA-256 (hex) of a salt and of each file's path (relative to root) and bytes, in sorted order. */
+/** SHA-256 (hex) of a salt and of each file's path (relative to root) and SHA-256, in sorted order (files streamed, never read whole). */
 export async function hashFiles(salt: string, root: string, files: string[]): Promise<string> {
   const h = createHash("sha256").update(`${salt}\0`);
-  for (const f of [...files].sort()) h.update(path.relative(root, f)).update("\0").update(await fs.readFile(f)).update("\0");
+  for (const f of [...files].sort()) h.update(path.relative(root, f)).update("\0").update(await sha256File(f)).update("\0");
   return h.digest("hex");
 }
 
@@ -122,11 +124,11 @@ async function fileDigest(abs: string, hashes?: FileHashes): Promise<string> {
       // The loader follows links that stay inside the data folder, so the key follows them too: the link's text and its target's bytes.
       const target = statSync(abs);
       if (!target.isFile()) return `special:${target.mode}`;
-      const bytes = hashes ? await hashes.sha256(abs, target) : sha256(await fs.readFile(abs));
+      const bytes = hashes ? await hashes.sha256(abs, target) : await sha256File(abs);
       return `link:${readlinkSync(abs)}:${bytes}`;
     }
     if (!st.isFile()) return `special:${st.mode}`;
-    return hashes ? await hashes.sha256(abs, st) : sha256(await fs.readFile(abs));
+    return hashes ? await hashes.sha256(abs, st) : await sha256File(abs);
   } catch {
     // A file that vanished, a dangling link or a file that cannot be read: the loader will report it.
     return "unreadable";
