@@ -104,12 +104,13 @@ export function runtimeVersion(): string {
 /**
  * The cache key of one wafer folder (hex SHA-256); hashes its files (several
  * at a time, or takes unchanged files' hashes from `hashes`) without parsing
- * them.
+ * them. `digestsOut` receives each file's digest (path relative to the folder).
  */
-export async function cacheKey(waferDir: string, code: string, siteSettings: unknown, hashes?: FileHashes, twins: string[] = []): Promise<string> {
+export async function cacheKey(waferDir: string, code: string, siteSettings: unknown, hashes?: FileHashes, twins: string[] = [], digestsOut?: Map<string, string>): Promise<string> {
   const files = await listFiles(waferDir).catch(() => [] as string[]);
   const limit = pLimit(8);
   const digests = await Promise.all(files.map((rel) => limit(() => fileDigest(path.join(waferDir, rel), hashes))));
+  files.forEach((rel, i) => digestsOut?.set(rel, digests[i]));
   // Folders whose names differ only in letter case make the wafer an error (read/wafer.ts), so they are part of the key.
   const h = createHash("sha256").update(`${code}\0${JSON.stringify(siteSettings)}\0${JSON.stringify(twins)}\0`);
   files.forEach((rel, i) => h.update(`${rel}\0${digests[i]}\0`));
@@ -194,6 +195,23 @@ export function damagedEntryWarning(folder: string, file: string, reason: string
     message: `the analysis cache entry ${file} was damaged and has been discarded (${reason}); the wafer was analysed again from its raw files`,
     fix: "nothing to do for this build; if it recurs, check the disk holding the cache, or whatever copies the cache between machines",
   };
+}
+
+/**
+ * Why an entry does not belong to the folder's files as they are now hashed,
+ * or undefined when it does: every file the entry's analysis read (its
+ * provenance SHA-256, taken from the bytes parsed) must have the digest the
+ * key was made from. A file that changed between hashing and reading would
+ * otherwise leave an entry describing other bytes than its key names.
+ */
+export function entryMismatch(entry: CacheEntry, folder: string, digests: ReadonlyMap<string, string>): string | undefined {
+  const prefix = `wafers/${folder}/`;
+  for (const f of entry.files) {
+    if (!f.path.startsWith(prefix)) continue;
+    const d = digests.get(f.path.slice(prefix.length));
+    if (d !== f.sha256 && !d?.endsWith(`:${f.sha256}`)) return `it records ${f.path} with other bytes than the file holds now`;
+  }
+  return undefined;
 }
 
 /** Header (magic and SHA-256 of the payload) and payload of an entry file. */

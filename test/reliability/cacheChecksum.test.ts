@@ -87,6 +87,31 @@ describe("a damaged cache entry", () => {
     expect(third.stats?.cacheHits).toBe(1);
   }, 90_000);
 
+  it("an entry with a sound checksum that records other bytes than its key's files is not used (a file changed under the analysis)", async () => {
+    const data = path.join(tmp(), "stale-data");
+    const out = path.join(tmp(), "stale-site");
+    const cache = path.join(tmp(), "stale-cache");
+    await fs.cp(HEALTHY_DIR, data, { recursive: true });
+    const opts = { data, out, strict: false, basePath: "/", quiet: true, cache };
+    const mobility = async () => (JSON.parse(await fs.readFile(path.join(out, "wafers", "OK-1", "results.json"), "utf8")) as { metrics: Record<string, { value: number }> }).metrics.peak_mobility.value;
+    await build(opts, io);
+    const before = await mobility();
+    const entriesA = await entryFiles(cache);
+    const record = path.join(data, "wafers", "OK-1", "wafer.md");
+    await fs.writeFile(record, (await fs.readFile(record, "utf8")).replace("width_um: 20", "width_um: 25"));
+    await build(opts, io);
+    const after = await mobility();
+    // μ = 1/(n e ρ) with ρ = R W/L: a wider bar, the same resistances, a lower mobility (common practice, van der Pauw / Hall bar geometry).
+    expect(after).toBeLessThan(before);
+    const entriesB = (await entryFiles(cache)).filter((f) => !entriesA.includes(f));
+    expect(entriesB).toHaveLength(2);
+    // What a build racing an edit could have stored: the entries made from the old bytes, under the new bytes' key.
+    for (const b of entriesB) await fs.copyFile(entriesA.find((a) => a.endsWith(".slim.v8") === b.endsWith(".slim.v8"))!, b);
+    const third = await build(opts, io);
+    expect(third.problems.find((p) => /cache entry/.test(p.message))?.message).toMatch(/records wafers\/OK-1\/wafer\.md with other bytes than the file holds now/);
+    expect(await mobility()).toBe(after);
+  }, 90_000);
+
   it("property: any single flipped bit anywhere in an entry file is caught, reported and the entry discarded", async () => {
     const cache = path.join(tmp(), "unit-cache");
     const entry: CacheEntry = { folder: "W-1", files: [{ path: "wafers/W-1/wafer.md", bytes: 10, sha256: "0".repeat(64), role: "record" }], problems: [] };
