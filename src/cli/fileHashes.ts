@@ -37,7 +37,9 @@ export const HASH_CHUNK_BYTES = 1 << 20;
 export async function sha256File(abs: string): Promise<string> {
   const handle = await fs.open(abs, "r");
   try {
-    const buf = Buffer.allocUnsafe(HASH_CHUNK_BYTES);
+    // Small files (most raw files, every source file) get a buffer of their own size, not a whole chunk.
+    const { size } = await handle.stat();
+    const buf = Buffer.allocUnsafe(Math.min(HASH_CHUNK_BYTES, size + 1));
     const hash = createHash("sha256");
     for (;;) {
       const { bytesRead } = await handle.read(buf, 0, buf.length, null);
