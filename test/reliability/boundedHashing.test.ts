@@ -3,7 +3,7 @@
  * pattern, are hashed for the cache key through a bounded buffer, so memory
  * stays bounded whatever their size, several at once included. Measured in a
  * child process (its peak resident set, getrusage ru_maxrss) on sparse files
- * (a truncate to 256 MiB is instant and takes no disk space).
+ * (a truncate to 160 MiB is instant and takes no disk space).
  *
  * Sources: SHA-256 (FIPS 180-4) from node:crypto, computed here over the same
  * bytes (zeros, then a marker) written out independently of the code checked.
@@ -20,7 +20,7 @@ import { ROOT } from "./corpus.ts";
 const execFileP = promisify(execFile);
 const tmp = useTempDir("bounded-hashing");
 const MiB = 1 << 20;
-const SIZE = 256 * MiB;
+const SIZE = 160 * MiB;
 const FILES = 4;
 const MARK = Buffer.from("end of a stray file\n");
 
@@ -63,7 +63,7 @@ process.stdout.write(JSON.stringify({ before, peak: process.resourceUsage().maxR
     expect(r.one).toBe(expectedDigest());
     expect(r.hashed).toBe(FILES + 1);
     expect(r.key).toMatch(/^[0-9a-f]{64}$/);
-    // Whole-file reads of four files at once would need 1 GiB; chunked hashing needs a few MiB. 128 MiB leaves room for the runtime.
+    // Whole-file reads of four files at once would need 640 MiB; chunked hashing needs a few MiB. 128 MiB leaves room for the runtime.
     expect(r.peak - r.before).toBeLessThan(128 * MiB);
   }, 60_000);
 });
