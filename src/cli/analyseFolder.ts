@@ -7,7 +7,8 @@
 import { analyseWafer, type WaferAnalysis } from "../analyse/wafer.ts";
 import type { DeviceDepth } from "../analyse/transport/deviceDepth.ts";
 import { loadWafer, type LoadContext } from "../read/wafer.ts";
-import { readEntry, slimAnalysis, writeEntry, type CacheEntry, type EntryForm } from "./cache.ts";
+import { damagedEntryWarning, readEntry, slimAnalysis, writeEntry, type CacheEntry, type EntryForm } from "./cache.ts";
+import type { Problem } from "../validate/problem.ts";
 import { lookUpFolder } from "./lookUp.ts";
 
 export interface AnalyseContext extends LoadContext {
@@ -26,6 +27,8 @@ export interface AnalysedFolder {
   key?: string;
   /** The slim form of a full result's analysis, when already made (for the cache). */
   slim?: WaferAnalysis;
+  /** Warnings about the cache itself (a damaged entry discarded), for the build output; never stored in an entry. */
+  warnings?: Problem[];
 }
 
 /**
@@ -34,9 +37,11 @@ export interface AnalysedFolder {
  * missing (or there is no cache).
  */
 export async function loadInFull(folder: string, key: string | undefined, ctx: AnalyseContext): Promise<AnalysedFolder> {
-  const entry = ctx.cacheDir && key ? await readEntry(ctx.cacheDir, key, "full") : undefined;
+  const warnings: Problem[] = [];
+  const entry = ctx.cacheDir && key ? await readEntry(ctx.cacheDir, key, "full", (file, reason) => warnings.push(damagedEntryWarning(folder, file, reason))) : undefined;
   if (entry && entry.folder === folder) return { entry, cacheHit: true, form: "full", key };
-  return analyseFolder(folder, ctx, key);
+  const fresh = await analyseFolder(folder, ctx, key);
+  return warnings.length ? { ...fresh, warnings } : fresh;
 }
 
 /** Loads and analyses one wafer folder, or takes the result from the cache. `knownKey`: its cache key when already computed (and missed). */
@@ -46,6 +51,7 @@ export async function analyseFolder(folder: string, ctx: AnalyseContext, knownKe
     const found = await lookUpFolder(folder, ctx);
     if (found.hit) return found.hit;
     key = found.key;
+    if (found.damaged) return { ...(await analyseFolder(folder, ctx, key)), warnings: [found.damaged] };
   }
   const loaded = await loadWafer(folder, ctx);
   let analysis: CacheEntry["analysis"];

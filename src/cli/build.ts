@@ -50,6 +50,16 @@ export async function readVersion(): Promise<string> {
   return pkg.version;
 }
 
+/** The build-output warning for a history that could not be read (the changes page shows the same reason). */
+function historyWarning(reason: string): Problem {
+  return {
+    severity: "warning",
+    file: "",
+    message: `the git history could not be read, so the changes page and the wafers' histories show no commits: ${reason}`,
+    fix: "run `git log` in the data folder to see the error; check that git is installed and the .git folder is intact",
+  };
+}
+
 export async function build(options: BuildOptions, io: BuildIO): Promise<BuildResult> {
   const dataDir = path.resolve(options.data);
   const outDir = path.resolve(options.out);
@@ -93,6 +103,8 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     let written = 0;
     let stats: NonNullable<BuildResult["stats"]>;
     let failure: unknown;
+    /** Warnings about the build's own inputs besides the data files: history that could not be read. */
+    const buildProblems: Problem[] = [];
     try {
       const analysed = await jobs.analyseAll(site.waferFolders, (i, r, isDrawn) => {
         try {
@@ -111,6 +123,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
         return { ok: false, outcomes, problems: [...site.problems], outDir, pages: 0 };
       }
       const history = await loadDataHistory(dataDir);
+      if (history?.failure) buildProblems.push(historyWarning(history.failure));
       meta = { title: "waferbook", version, builtAt: io.now(), basePath: options.basePath, dataCommit: history?.head ?? null };
       const sorted = sortOutcomes(outcomes);
       const pageExtras = waferPageExtras(sorted, meta.basePath, history);
@@ -138,7 +151,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     } finally {
       await jobs.close();
     }
-    const problems = [...site.problems, ...outcomes.flatMap((o) => o.problems)];
+    const problems = [...site.problems, ...buildProblems, ...jobs.cacheWarnings, ...outcomes.flatMap((o) => o.problems)];
     await writeExtras(outcomes, dataDir, tmpDir, commitsOf, outDir, reused, jobs.fileHashes);
     await writeExports(outcomes, tmpDir, meta, site.runs, reused);
     await writeSearch(outcomes, site.runs, tmpDir, PACKAGE_ROOT);

@@ -17,10 +17,17 @@
  *     wafer's own overrides are in wafer.md, hashed below);
  *   - the path and SHA-256 of every file in the wafer folder (wafer.md
  *     included), in sorted order. The files are read and hashed, never parsed,
- *     to compute the key (about 1 GB/s; see docs/scaling.md).
- * Value = v8.serialize of a `CacheEntry` (typed arrays survive), written to a
- * temporary file and renamed into place, so a reader sees a whole entry or
- * none, and concurrent builds or CI runners sharing the folder cannot tear it.
+ *     to compute the key (about 1 GB/s; see docs/scaling.md), through a
+ *     bounded buffer (fileHashes.ts sha256File): memory does not grow with
+ *     file size.
+ * Value = ENTRY_MAGIC, the SHA-256 of the payload, then the payload: v8.serialize
+ * of a `CacheEntry` (typed arrays survive). Written to a temporary file and
+ * renamed into place, so a reader sees a whole entry or none, and concurrent
+ * builds or CI runners sharing the folder cannot tear it. The checksum is
+ * verified on every read: an entry whose bytes changed after it was written
+ * (a flipped bit on disk or in transit, a truncated copy, a hand edit) is
+ * discarded with a warning naming it and the wafer is analysed again, so the
+ * cache can make a build slower but never change what it publishes.
  */
 import { createHash } from "node:crypto";
 import { lstatSync, promises as fs, readFileSync, readlinkSync, statSync } from "node:fs";
@@ -33,10 +40,13 @@ import type { RawFileInfo } from "../read/wafer.ts";
 import type { Problem } from "../validate/problem.ts";
 import type { WaferRecord } from "../validate/wafer.ts";
 import { listFiles } from "../read/dataFiles.ts";
-import type { FileHashes } from "./fileHashes.ts";
+import { sha256File, type FileHashes } from "./fileHashes.ts";
 
 /** Bumped when the entry's shape changes. */
-export const CACHE_FORMAT = "waferbook-cache-3";
+export const CACHE_FORMAT = "waferbook-cache-4";
+/** The first bytes of every entry file (format and version of the file layout). */
+const ENTRY_MAGIC = Buffer.from("WBCACHE\x04", "latin1");
+const CHECKSUM_BYTES = 32;
 
 export interface CacheEntry {
   folder: string;
@@ -62,10 +72,10 @@ export async function sourceFiles(dir: string, keep: (name: string) => boolean =
   return out;
 }
 
-/** SHA-256 (hex) of a salt and of each file's path (relative to root) and bytes, in sorted order. */
+/** SHA-256 (hex) of a salt and of each file's path (relative to root) and SHA-256, in sorted order (files streamed, never read whole). */
 export async function hashFiles(salt: string, root: string, files: string[]): Promise<string> {
   const h = createHash("sha256").update(`${salt}\0`);
-  for (const f of [...files].sort()) h.update(path.relative(root, f)).update("\0").update(await fs.readFile(f)).update("\0");
+  for (const f of [...files].sort()) h.update(path.relative(root, f)).update("\0").update(await sha256File(f)).update("\0");
   return h.digest("hex");
 }
 
@@ -94,12 +104,13 @@ export function runtimeVersion(): string {
 /**
  * The cache key of one wafer folder (hex SHA-256); hashes its files (several
  * at a time, or takes unchanged files' hashes from `hashes`) without parsing
- * them.
+ * them. `digestsOut` receives each file's digest (path relative to the folder).
  */
-export async function cacheKey(waferDir: string, code: string, siteSettings: unknown, hashes?: FileHashes, twins: string[] = []): Promise<string> {
+export async function cacheKey(waferDir: string, code: string, siteSettings: unknown, hashes?: FileHashes, twins: string[] = [], digestsOut?: Map<string, string>): Promise<string> {
   const files = await listFiles(waferDir).catch(() => [] as string[]);
   const limit = pLimit(8);
   const digests = await Promise.all(files.map((rel) => limit(() => fileDigest(path.join(waferDir, rel), hashes))));
+  files.forEach((rel, i) => digestsOut?.set(rel, digests[i]));
   // Folders whose names differ only in letter case make the wafer an error (read/wafer.ts), so they are part of the key.
   const h = createHash("sha256").update(`${code}\0${JSON.stringify(siteSettings)}\0${JSON.stringify(twins)}\0`);
   files.forEach((rel, i) => h.update(`${rel}\0${digests[i]}\0`));
@@ -114,11 +125,11 @@ async function fileDigest(abs: string, hashes?: FileHashes): Promise<string> {
       // The loader follows links that stay inside the data folder, so the key follows them too: the link's text and its target's bytes.
       const target = statSync(abs);
       if (!target.isFile()) return `special:${target.mode}`;
-      const bytes = hashes ? await hashes.sha256(abs, target) : sha256(await fs.readFile(abs));
+      const bytes = hashes ? await hashes.sha256(abs, target) : await sha256File(abs);
       return `link:${readlinkSync(abs)}:${bytes}`;
     }
     if (!st.isFile()) return `special:${st.mode}`;
-    return hashes ? await hashes.sha256(abs, st) : sha256(await fs.readFile(abs));
+    return hashes ? await hashes.sha256(abs, st) : await sha256File(abs);
   } catch {
     // A file that vanished, a dangling link or a file that cannot be read: the loader will report it.
     return "unreadable";
@@ -127,7 +138,7 @@ async function fileDigest(abs: string, hashes?: FileHashes): Promise<string> {
 
 const sha256 = (bytes: Buffer) => createHash("sha256").update(bytes).digest("hex");
 
-function entryPath(cacheDir: string, key: string, form: EntryForm = "full"): string {
+export function entryPath(cacheDir: string, key: string, form: EntryForm = "full"): string {
   return path.join(cacheDir, key.slice(0, 2), form === "full" ? `${key}.v8` : `${key}.slim.v8`);
 }
 
@@ -141,13 +152,72 @@ function entryPath(cacheDir: string, key: string, form: EntryForm = "full"): str
  */
 export type EntryForm = "full" | "slim";
 
-/** The entry stored under key, or undefined (missing or unreadable entries are misses). */
-export async function readEntry(cacheDir: string, key: string, form: EntryForm = "full"): Promise<CacheEntry | undefined> {
+/**
+ * The entry stored under key, or undefined. A missing or unreadable file is a
+ * plain miss; a file whose layout or SHA-256 checksum is wrong, or whose
+ * payload does not deserialise to an entry, is deleted and reported to
+ * `onDamaged` (its path and what is wrong), then read as a miss.
+ */
+export async function readEntry(cacheDir: string, key: string, form: EntryForm = "full", onDamaged?: (file: string, reason: string) => void): Promise<CacheEntry | undefined> {
+  const file = entryPath(cacheDir, key, form);
+  let bytes: Buffer;
   try {
-    return v8.deserialize(await fs.readFile(entryPath(cacheDir, key, form))) as CacheEntry;
+    bytes = await fs.readFile(file);
   } catch {
     return undefined;
   }
+  const damaged = (reason: string) => {
+    onDamaged?.(file, reason);
+    return fs.rm(file, { force: true }).then(
+      () => undefined,
+      () => undefined,
+    );
+  };
+  const head = ENTRY_MAGIC.length + CHECKSUM_BYTES;
+  if (bytes.length < head || !bytes.subarray(0, ENTRY_MAGIC.length).equals(ENTRY_MAGIC)) return damaged(`not a waferbook cache entry of this version (${bytes.length} bytes, unexpected header)`);
+  const payload = bytes.subarray(head);
+  if (!createHash("sha256").update(payload).digest().equals(bytes.subarray(ENTRY_MAGIC.length, head))) return damaged("its SHA-256 checksum does not match its contents");
+  try {
+    const entry = v8.deserialize(payload) as CacheEntry;
+    if (entry && typeof entry === "object" && typeof entry.folder === "string" && Array.isArray(entry.files) && Array.isArray(entry.problems)) return entry;
+  } catch {
+    // reported below
+  }
+  return damaged("its contents do not read as a cache entry");
+}
+
+/** The warning for a damaged entry that was discarded (the wafer is then analysed again). */
+export function damagedEntryWarning(folder: string, file: string, reason: string): Problem {
+  return {
+    severity: "warning",
+    file: `wafers/${folder}/wafer.md`,
+    wafer: folder,
+    message: `the analysis cache entry ${file} was damaged and has been discarded (${reason}); the wafer was analysed again from its raw files`,
+    fix: "nothing to do for this build; if it recurs, check the disk holding the cache, or whatever copies the cache between machines",
+  };
+}
+
+/**
+ * Why an entry does not belong to the folder's files as they are now hashed,
+ * or undefined when it does: every file the entry's analysis read (its
+ * provenance SHA-256, taken from the bytes parsed) must have the digest the
+ * key was made from. A file that changed between hashing and reading would
+ * otherwise leave an entry describing other bytes than its key names.
+ */
+export function entryMismatch(entry: CacheEntry, folder: string, digests: ReadonlyMap<string, string>): string | undefined {
+  const prefix = `wafers/${folder}/`;
+  for (const f of entry.files) {
+    if (!f.path.startsWith(prefix)) continue;
+    const d = digests.get(f.path.slice(prefix.length));
+    if (d !== f.sha256 && !d?.endsWith(`:${f.sha256}`)) return `it records ${f.path} with other bytes than the file holds now`;
+  }
+  return undefined;
+}
+
+/** Header (magic and SHA-256 of the payload) and payload of an entry file. */
+function entryBytes(entry: CacheEntry): Buffer {
+  const payload = v8.serialize(entry);
+  return Buffer.concat([ENTRY_MAGIC, createHash("sha256").update(payload).digest(), payload]);
 }
 
 /**
@@ -160,8 +230,8 @@ export async function readEntry(cacheDir: string, key: string, form: EntryForm =
  */
 export async function writeEntry(cacheDir: string, key: string, entry: CacheEntry, slim = entry.analysis && slimAnalysis(entry.analysis)): Promise<void> {
   await fs.mkdir(path.dirname(entryPath(cacheDir, key)), { recursive: true }).catch(() => {});
-  if (await writeAtomically(entryPath(cacheDir, key, "full"), v8.serialize(entry))) {
-    await writeAtomically(entryPath(cacheDir, key, "slim"), v8.serialize({ ...entry, analysis: slim }));
+  if (await writeAtomically(entryPath(cacheDir, key, "full"), entryBytes(entry))) {
+    await writeAtomically(entryPath(cacheDir, key, "slim"), entryBytes({ ...entry, analysis: slim }));
   }
 }
 

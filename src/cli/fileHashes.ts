@@ -24,6 +24,32 @@ import { promises as fs } from "node:fs";
 import path from "node:path";
 
 const FORMAT = "waferbook-file-hashes-1";
+/**
+ * Bytes read at a time when hashing a file. A file is hashed through one
+ * buffer of this size, never read whole, so memory per file being hashed is
+ * bounded whatever its size (a stray multi-GB file in a wafer folder costs
+ * time, not memory); cache.ts hashes at most 8 files of a folder and 4
+ * folders at a time, 32 MiB in all.
+ */
+export const HASH_CHUNK_BYTES = 1 << 20;
+
+/** SHA-256 (hex) of a file's bytes, read in chunks of HASH_CHUNK_BYTES (common practice: incremental hashing, FIPS 180-4 via node:crypto). */
+export async function sha256File(abs: string): Promise<string> {
+  const handle = await fs.open(abs, "r");
+  try {
+    // Small files (most raw files, every source file) get a buffer of their own size, not a whole chunk.
+    const { size } = await handle.stat();
+    const buf = Buffer.allocUnsafe(Math.min(HASH_CHUNK_BYTES, size + 1));
+    const hash = createHash("sha256");
+    for (;;) {
+      const { bytesRead } = await handle.read(buf, 0, buf.length, null);
+      if (bytesRead === 0) return hash.digest("hex");
+      hash.update(buf.subarray(0, bytesRead));
+    }
+  } finally {
+    await handle.close();
+  }
+}
 /** Files modified less than this long before they were hashed are hashed again next time. */
 const RACY_MS = 2000;
 
@@ -69,7 +95,7 @@ export class FileHashes {
       return known;
     }
     const hashedAt = Date.now();
-    const digest = createHash("sha256").update(await fs.readFile(abs)).digest("hex");
+    const digest = await sha256File(abs);
     this.hashed++;
     if (this.file) {
       this.rows.set(abs, [st.size, st.mtimeMs, st.ctimeMs, st.ino, st.dev, hashedAt, digest]);

@@ -40,5 +40,5 @@ async function drawThenSlim(full: AnalysedFolder, ctx: JobContext): Promise<JobR
   const { entry } = full;
   await drawWaferPage(judgeOutcome(entry, entry.analysis, ctx.pipeline), ctx.outDir, ctx.scratchDir);
   const slim = full.slim ?? (entry.analysis && slimAnalysis(entry.analysis));
-  return { result: { entry: { ...entry, analysis: slim }, cacheHit: full.cacheHit, form: "slim", key: full.key }, drawn: true };
+  return { result: { entry: { ...entry, analysis: slim }, cacheHit: full.cacheHit, form: "slim", key: full.key, warnings: full.warnings }, drawn: true };
 }

@@ -23,6 +23,7 @@ import { FileHashes } from "./fileHashes.ts";
 import type { AnalysedFolder } from "./analyseFolder.ts";
 import { lookUpFolder, waferListing } from "./lookUp.ts";
 import type { JobContext, JobResult } from "./waferJob.ts";
+import type { Problem } from "../validate/problem.ts";
 
 /** The jobs themselves, loaded only when they run in this thread (the analysis and drawing code is otherwise loaded by the workers alone). */
 const jobsHere = () => import("./waferJob.ts");
@@ -120,6 +121,8 @@ export class WaferJobs {
   private pool: Pool | undefined;
   /** The file-hash record used by the last analyseAll (counts of files hashed and reused). */
   fileHashes: FileHashes | undefined;
+  /** Damaged cache entries discarded so far (cache.ts readEntry), as warnings for the build output. */
+  readonly cacheWarnings: Problem[] = [];
 
   constructor(private readonly ctx: JobContext) {}
 
@@ -143,7 +146,10 @@ export class WaferJobs {
     // Misses not yet handed to the pool; what is left at the end is analysed in this thread.
     const pending: { i: number; key?: string }[] = [];
     const running: Promise<void>[] = [];
-    const finish = (i: number, j: JobResult) => onDone(i, (results[i] = j.result), j.drawn);
+    const finish = (i: number, j: JobResult) => {
+      this.cacheWarnings.push(...(j.result.warnings ?? []));
+      onDone(i, (results[i] = j.result), j.drawn);
+    };
     const toPool = (p: Pool, m: { i: number; key?: string }) => {
       const job = p.run("analyse", folders[m.i], m.key).then((j) => finish(m.i, j));
       // Handled here so a failure while look-ups go on is not an unhandled rejection; Promise.all below reports it.
@@ -159,8 +165,9 @@ export class WaferJobs {
       await Promise.all(
         folders.map((f, i) =>
           limit(async () => {
-            const { key, hit } = await lookUpFolder(f, this.ctx, hashes, listing);
+            const { key, hit, damaged } = await lookUpFolder(f, this.ctx, hashes, listing);
             looked++;
+            if (damaged) this.cacheWarnings.push(damaged);
             if (hit) {
               onDone(i, (results[i] = hit), false);
               return;
@@ -191,12 +198,12 @@ export class WaferJobs {
     if (!pool) {
       if (!items.length) return;
       const { drawJob } = await jobsHere();
-      for (const it of items) await drawJob(it.folder, this.ctx, it.key);
+      for (const it of items) this.cacheWarnings.push(...((await drawJob(it.folder, this.ctx, it.key)).result.warnings ?? []));
       return;
     }
     const jobs = items.map((it) => pool.run("draw", it.folder, it.key));
     for (const j of jobs) j.catch(() => {});
-    await Promise.all(jobs);
+    for (const j of await Promise.all(jobs)) this.cacheWarnings.push(...(j.result.warnings ?? []));
   }
 
   async close(): Promise<void> {

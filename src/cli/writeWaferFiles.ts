@@ -5,7 +5,7 @@
  * previous output as it is.
  */
 import { createHash } from "node:crypto";
-import { constants as fsConstants, promises as fs } from "node:fs";
+import { constants as fsConstants, existsSync, promises as fs } from "node:fs";
 import path from "node:path";
 import pLimit from "p-limit";
 import type { WaferOutcome } from "./pipeline.ts";
@@ -15,6 +15,8 @@ import { linkOrCopy, linkReusedPage } from "./pageReuse.ts";
 import { PACKAGE_ROOT } from "./paths.ts";
 import { rawCopyPath } from "../publish/rawCopies.ts";
 import { resultsJson } from "../publish/resultsJson.ts";
+import { openDataFile, readOpenFile, type OpenDataFile } from "../read/dataFiles.ts";
+import { InputError } from "../validate/problem.ts";
 
 export type CommitsOf = (folder: string) => { wafer: string | null; targets: string | null };
 
@@ -43,7 +45,7 @@ export async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmp
           const rel = rawCopyPath(f);
           if (parts[0] !== "wafers" || parts[1] !== o.folder || placed.has(rel)) continue;
           placed.add(rel);
-          await placeRawCopy(path.join(dataDir, ...parts), path.join(tmpDir, rel), path.join(outDir, rel), f.sha256, f.path, hashes);
+          await placeRawCopy(path.join(dataDir, ...parts), path.join(tmpDir, rel), path.join(outDir, rel), f.sha256, f.path, hashes, dataDir);
         }
       }),
     ),
@@ -58,22 +60,35 @@ export async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmp
  * their SHA-256, so a copy of that name in the previous output holds the same
  * bytes: it (ours, never the raw file) is hard-linked instead of copying the
  * bytes again. Otherwise the raw file is copied, and the copy must hold the
- * bytes that were analysed: when the file-hash record vouches that the file
- * is unchanged since it was hashed with that SHA-256, a plain copy; else the
- * file is read and its bytes checked before they are written. A file that
- * changed during the build stops the build (the previous site stays).
+ * bytes that were analysed. The raw file is opened once, as the loader opens
+ * it (dataFiles.ts openDataFile: inside the data folder, no link in its place,
+ * the descriptor checked), and everything comes from that descriptor: when the
+ * file-hash record vouches that the file is unchanged since it was hashed with
+ * that SHA-256, a plain copy of the open file; else its bytes are read, checked
+ * and written. A file that changed during the build stops the build (the
+ * previous site stays).
  */
-export async function placeRawCopy(rawAbs: string, dest: string, prevCopy: string, sha256: string, rel: string, hashes: FileHashes | undefined): Promise<void> {
+export async function placeRawCopy(rawAbs: string, dest: string, prevCopy: string, sha256: string, rel: string, hashes: FileHashes | undefined, dataDir = path.dirname(rawAbs)): Promise<void> {
   if (linkOrCopy(prevCopy, dest, { copy: false })) return;
-  const st = await fs.stat(rawAbs);
-  if (hashes?.trusted(rawAbs, st) === sha256) {
-    // A copy-on-write clone where the file system offers one (btrfs, XFS, APFS), else a plain copy.
-    await fs.copyFile(rawAbs, dest, fsConstants.COPYFILE_EXCL | fsConstants.COPYFILE_FICLONE);
-    return;
+  const changed = () => new BuildStoppedError(`${rel} changed while the site was being built (its bytes no longer match the SHA-256 that was analysed); build again once it is complete`);
+  let file: OpenDataFile;
+  try {
+    file = await openDataFile(dataDir, rawAbs);
+  } catch (err) {
+    if (err instanceof InputError) throw changed();
+    throw err;
   }
-  const bytes = await fs.readFile(rawAbs, { flag: "r" });
-  if (createHash("sha256").update(bytes).digest("hex") !== sha256) {
-    throw new BuildStoppedError(`${rel} changed while the site was being built (its bytes no longer match the SHA-256 that was analysed); build again once it is complete`);
+  try {
+    const { handle, stat } = file;
+    if (hashes?.trusted(rawAbs, stat) === sha256 && existsSync(`/proc/self/fd/${handle.fd}`)) {
+      // The open file itself, through its descriptor's /proc entry (Linux): a copy-on-write clone where the file system offers one (btrfs, XFS), else a plain copy.
+      await fs.copyFile(`/proc/self/fd/${handle.fd}`, dest, fsConstants.COPYFILE_EXCL | fsConstants.COPYFILE_FICLONE);
+      return;
+    }
+    const bytes = await readOpenFile(handle, stat.size);
+    if (createHash("sha256").update(bytes).digest("hex") !== sha256) throw changed();
+    await fs.writeFile(dest, bytes, { flag: "wx" });
+  } finally {
+    await file.handle.close();
   }
-  await fs.writeFile(dest, bytes, { flag: "wx" });
 }

@@ -38,7 +38,9 @@ function commitRow(c: GitCommit, known: Set<string>, basePath: string) {
 export function changesModel(history: DataHistory | null, waferIds: readonly string[], basePath: string) {
   const known = new Set(waferIds);
   return {
-    available: history !== null,
+    available: history !== null && !history.failure,
+    /** Why the history could not be read (shown as a warning), or "". */
+    warning: history?.failure ?? "",
     head: history?.head ?? null,
     commits: (history?.commits ?? []).map((c) => commitRow(c, known, basePath)),
   };
@@ -46,12 +48,13 @@ export function changesModel(history: DataHistory | null, waferIds: readonly str
 
 /** The history block of one wafer page. */
 export function waferHistoryModel(history: DataHistory | null, waferId: string, w: WaferForHistory) {
-  if (!history) return { available: false, commits: [], verdicts: [], recorded: "" };
+  if (!history || history.failure) return { available: false, warning: history?.failure ?? "", commits: [], verdicts: [], recorded: "" };
   const prefix = `wafers/${waferId}/`;
   const mine = history.commits.filter((c) => c.dataFiles.some((f) => f.startsWith(prefix)));
   const recorded = mine.at(-1)?.committedAt; // commits are newest first: the oldest one is when the wafer was recorded (as firstRecorded)
   return {
     available: true,
+    warning: "",
     recorded: recorded ? shortDate(recorded) : "",
     commits: mine.map((c) => ({ shortHash: c.shortHash, hash: c.hash, date: shortDate(c.date), author: c.author, subject: c.subject, files: c.dataFiles.filter((f) => f.startsWith(prefix)).map((f) => f.slice(prefix.length)) })),
     verdicts: verdictsOverTime(w, history.targetsVersions, recorded).map((v) => ({ ...v, date: shortDate(v.date), reasons: v.reasons, note: v.note ?? "" })),

@@ -1,12 +1,26 @@
 /**
  * Safe, read-only access to the data folder.
  *
- * Every raw file is opened read-only (fs.readFile) and checked before parsing:
- * it must lie inside the data folder after symbolic links are resolved, must be
+ * Every raw file is opened once, read-only, and checked before parsing: it
+ * must lie inside the data folder after symbolic links are resolved, must be
  * below a size limit, must not be binary and must be valid UTF-8. A leading
  * byte-order mark is removed. Nothing here ever writes to the data folder.
+ *
+ * One file, read once: the path is resolved (links followed) and checked to
+ * lie inside the data folder, then that resolved path is opened with
+ * O_NOFOLLOW (a link put in its place meanwhile is refused, not followed) and
+ * O_NONBLOCK (a FIFO cannot stall the build), and the open descriptor itself
+ * is checked: on Linux the path the kernel gives for it (/proc/self/fd/N) must
+ * still lie inside the data folder, elsewhere its device and inode must be
+ * those of the checked path. Size and type come from the descriptor (fstat),
+ * and the bytes are read from it; the caller hashes and parses those bytes,
+ * and the raw copy published is made from the same kind of checked descriptor
+ * (src/cli/writeWaferFiles.ts). A file swapped for a link to a file outside
+ * the data folder while a build runs is therefore either read as the file it
+ * was, or refused; its outside bytes are never read.
  */
-import { promises as fs } from "node:fs";
+import { constants as fsConstants, promises as fs, type Stats } from "node:fs";
+import type { FileHandle } from "node:fs/promises";
 import path from "node:path";
 import picomatch from "picomatch";
 import { InputError } from "../validate/problem.ts";
@@ -42,10 +56,11 @@ async function realRoot(dataDir: string): Promise<string> {
 
 /**
  * Resolves symbolic links and refuses anything that ends up outside the data
- * folder. The folder itself is resolved once per process (it is not expected
- * to be re-linked during a build); each file is resolved on every call.
+ * folder; returns the resolved path. The folder itself is resolved once per
+ * process (it is not expected to be re-linked during a build); each file is
+ * resolved on every call.
  */
-export async function checkInside(dataDir: string, abs: string): Promise<void> {
+export async function checkInside(dataDir: string, abs: string): Promise<string> {
   const rel = relPath(dataDir, abs);
   const realRootDir = await realRoot(dataDir);
   let real: string;
@@ -54,37 +69,113 @@ export async function checkInside(dataDir: string, abs: string): Promise<void> {
   } catch {
     throw new InputError({ file: rel, message: "file not found", fix: "check the file name and that it is committed" });
   }
-  const inside = path.relative(realRootDir, real);
-  if (inside.startsWith("..") || path.isAbsolute(inside)) {
-    throw new InputError({
-      file: rel,
-      message: "refused: this path leads outside the data folder",
-      expected: "a file inside the data folder",
-      found: "a symbolic link or path to " + JSON.stringify(real),
-      fix: "copy the file into the wafer folder instead of linking to it",
-    });
+  if (!isInside(realRootDir, real)) throw outsideError(rel, real);
+  return real;
+}
+
+function isInside(root: string, real: string): boolean {
+  const inside = path.relative(root, real);
+  return !(inside.startsWith("..") || path.isAbsolute(inside));
+}
+
+function outsideError(rel: string, real: string): InputError {
+  return new InputError({
+    file: rel,
+    message: "refused: this path leads outside the data folder",
+    expected: "a file inside the data folder",
+    found: "a symbolic link or path to " + JSON.stringify(real),
+    fix: "copy the file into the wafer folder instead of linking to it",
+  });
+}
+
+function changedError(rel: string): InputError {
+  return new InputError({
+    file: rel,
+    message: "the file was replaced while it was being read (it is now a symbolic link or another file)",
+    expected: "a file that stays in place during the build",
+    found: "a different file at the checked path",
+    fix: "build again once the file is in place, and copy files into the wafer folder instead of linking to them",
+  });
+}
+
+/** An open data file: the descriptor that was checked, and its fstat. The caller closes `handle`. */
+export interface OpenDataFile {
+  rel: string;
+  handle: FileHandle;
+  stat: Stats;
+}
+
+/**
+ * Opens a data file once, safely (see the file's doc comment): the resolved
+ * path is checked to lie inside the data folder, opened without following a
+ * link in its place, and the descriptor is checked to be that file.
+ */
+export async function openDataFile(dataDir: string, abs: string): Promise<OpenDataFile> {
+  const rel = relPath(dataDir, abs);
+  const real = await checkInside(dataDir, abs);
+  let handle: FileHandle;
+  try {
+    handle = await fs.open(real, fsConstants.O_RDONLY | fsConstants.O_NOFOLLOW | fsConstants.O_NONBLOCK);
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code;
+    if (code === "ELOOP" || code === "EMLINK") throw changedError(rel);
+    if (code === "ENOENT") throw new InputError({ file: rel, message: "file not found", fix: "check the file name and that it is committed" });
+    if (code === "ENXIO") throw new InputError({ file: rel, message: "not a regular file", expected: "a file", found: "a socket or device", fix: "make the pattern or path that names it match files only" });
+    throw new InputError({ file: rel, message: "file cannot be opened", expected: "a readable file", found: code ?? String(err), fix: "check the file's permissions" });
+  }
+  try {
+    const stat = await handle.stat();
+    let fdPath: string | undefined;
+    try {
+      fdPath = await fs.readlink(`/proc/self/fd/${handle.fd}`);
+    } catch {
+      // no /proc (not Linux): compare the descriptor with the checked path instead
+    }
+    if (fdPath !== undefined) {
+      if (!isInside(await realRoot(dataDir), fdPath.replace(/ \(deleted\)$/, ""))) throw outsideError(rel, fdPath);
+    } else {
+      const now = await fs.lstat(real).catch(() => undefined);
+      if (!now || now.dev !== stat.dev || now.ino !== stat.ino) throw changedError(rel);
+    }
+    return { rel, handle, stat };
+  } catch (err) {
+    await handle.close();
+    throw err;
   }
 }
 
-/** Reads a raw file as bytes after the safety checks (inside the data folder, size limit). */
+/** Reads an open file's bytes from its descriptor (at most `size`: what fstat reported). */
+export async function readOpenFile(handle: FileHandle, size: number): Promise<Buffer> {
+  const bytes = Buffer.allocUnsafe(size);
+  let got = 0;
+  while (got < size) {
+    const { bytesRead } = await handle.read(bytes, got, size - got, got);
+    if (bytesRead === 0) break;
+    got += bytesRead;
+  }
+  return got === size ? bytes : bytes.subarray(0, got);
+}
+
+/** Reads a raw file as bytes after the safety checks (inside the data folder, opened once, size limit). */
 export async function readDataBytes(dataDir: string, abs: string, maxBytes = MAX_TEXT_FILE_BYTES): Promise<DataFile> {
-  const rel = relPath(dataDir, abs);
-  await checkInside(dataDir, abs);
-  const stat = await fs.stat(abs);
-  if (!stat.isFile()) {
-    throw new InputError({ file: rel, message: "not a regular file", expected: "a file", found: "a folder or device", fix: "make the pattern or path that names it match files only" });
+  const { rel, handle, stat } = await openDataFile(dataDir, abs);
+  try {
+    if (!stat.isFile()) {
+      throw new InputError({ file: rel, message: "not a regular file", expected: "a file", found: "a folder or device", fix: "make the pattern or path that names it match files only" });
+    }
+    if (stat.size > maxBytes) {
+      throw new InputError({
+        file: rel,
+        message: "file is too large",
+        expected: `at most ${maxBytes} bytes (${+(maxBytes / 1048576).toFixed(1)} MiB)`,
+        found: `${stat.size} bytes`,
+        fix: "split the measurement into several files or decimate it before committing",
+      });
+    }
+    return { rel, abs, bytes: await readOpenFile(handle, stat.size) };
+  } finally {
+    await handle.close();
   }
-  if (stat.size > maxBytes) {
-    throw new InputError({
-      file: rel,
-      message: "file is too large",
-      expected: `at most ${maxBytes} bytes (${+(maxBytes / 1048576).toFixed(1)} MiB)`,
-      found: `${stat.size} bytes`,
-      fix: "split the measurement into several files or decimate it before committing",
-    });
-  }
-  const bytes = await fs.readFile(abs, { flag: "r" });
-  return { rel, abs, bytes };
 }
 
 const utf8 = new TextDecoder("utf-8", { fatal: true });

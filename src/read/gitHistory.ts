@@ -1,51 +1,26 @@
 /**
  * Git history of the data folder, read with the `git` command (side-effecting reader).
  *
- * Everything goes through an injectable {@link GitRunner} (default: `execFile("git", …)`), so tests
- * can use a real temporary repository or a fake. When git is not installed, or the folder is not
- * inside a git work tree, {@link findRepo} returns null and the site builds without history.
+ * Everything goes through an injectable {@link GitRunner} (src/read/gitRunner.ts: spawn, no output
+ * limit; tests use a real temporary repository or a fake). {@link findRepo} returns null only when
+ * git answers that the folder is not inside a work tree and no `.git` lies on the way up; any other
+ * failure (git missing or refusing the repository, a damaged `.git`) rejects with a GitError, so the
+ * caller can say so instead of claiming there is no repository.
  *
  * Paths: git reports paths relative to the repository root (POSIX separators). The data folder may
  * be a subfolder of the repository; {@link GitRepo.prefix} is that subfolder ("" at the root, else
  * ending in "/"). Functions here take paths RELATIVE TO THE DATA FOLDER and return both forms.
  *
- * Log parsing: `git log -z --name-only --format=<RS>%H<US>%h<US>%aI<US>%cI<US>%an<US>%s`, i.e. each
- * commit starts with the record separator U+001E, header fields are split by the unit separator
- * U+001F, and with -z the header and each file name end in NUL (file names are not quoted, so any
- * byte other than NUL is safe). Commits are returned newest first (git's default order).
+ * The log is streamed through the NUL-separated parser of src/read/gitLog.ts (format described
+ * there); commits are returned newest first (git's default order).
  */
-import { execFile } from "node:child_process";
+import { promises as fs } from "node:fs";
+import path from "node:path";
+import { dataPathOf, LOG_ARGS, parseGitLogStream, type GitCommit } from "./gitLog.ts";
+import { defaultGitRunner, GitError, streamOf, type GitRunner } from "./gitRunner.ts";
 
-/** Runs git with `args` in `cwd`; resolves with stdout, rejects when git fails or is missing. */
-export type GitRunner = (args: readonly string[], cwd: string) => Promise<string>;
-
-export interface GitRunnerOptions {
-  /** Path of the git executable; default "git" (found on PATH). */
-  gitPath?: string;
-  /** Extra environment variables (merged over process.env). */
-  env?: Record<string, string>;
-}
-
-/** The default runner: execFile with UTF-8 output, a 64 MiB buffer, no pager, no optional locks. */
-export function makeGitRunner(options: GitRunnerOptions = {}): GitRunner {
-  const gitPath = options.gitPath ?? "git";
-  return (args, cwd) =>
-    new Promise((resolve, reject) => {
-      execFile(
-        gitPath,
-        [...args],
-        {
-          cwd,
-          encoding: "utf8",
-          maxBuffer: 64 * 1024 * 1024,
-          env: { ...process.env, GIT_PAGER: "cat", GIT_OPTIONAL_LOCKS: "0", LC_ALL: "C", ...options.env },
-        },
-        (error, stdout) => (error ? reject(error) : resolve(stdout)),
-      );
-    });
-}
-
-export const defaultGitRunner: GitRunner = makeGitRunner();
+export { defaultGitRunner, GitError, makeGitRunner, type GitRunner, type GitRunnerOptions } from "./gitRunner.ts";
+export { GitLogError, LOG_ARGS, LOG_FORMAT, parseGitLog, type GitCommit } from "./gitLog.ts";
 
 export interface GitRepo {
   /** Absolute path of the repository's top-level folder, as git reports it. */
@@ -57,48 +32,53 @@ export interface GitRepo {
   run: GitRunner;
 }
 
-export interface GitCommit {
-  hash: string;
-  shortHash: string;
-  /** Author date, strict ISO 8601 with offset (git %aI). */
-  date: string;
-  /** Committer date, strict ISO 8601 (git %cI). */
-  committedAt: string;
-  author: string;
-  subject: string;
-  /** Files changed, relative to the repository root (merge commits list none). */
-  files: string[];
-  /** The subset of `files` inside the data folder, relative to the data folder. */
-  dataFiles: string[];
-}
-
 /**
  * Finds the git work tree containing `folder` (absolute path of the data folder).
- * Returns null — never throws — when git is missing, the folder is not in a work tree, or git
- * refuses the repository (e.g. unsafe ownership).
+ * Returns null when git says the folder is not inside a work tree and no `.git` is found in it or
+ * above it (below GIT_CEILING_DIRECTORIES); rejects with the GitError otherwise (git missing, unsafe
+ * ownership, a damaged repository), since then the history exists but cannot be read.
  */
 export async function findRepo(folder: string, run: GitRunner = defaultGitRunner): Promise<GitRepo | null> {
   let out: string;
   try {
     out = await run(["rev-parse", "--is-inside-work-tree", "--show-toplevel", "--show-prefix"], folder);
-  } catch {
-    return null;
+  } catch (err) {
+    const notARepo = err instanceof GitError && err.exitCode === 128 && /not a git repository/i.test(err.stderr);
+    if (!notARepo) throw err;
+    const found = await dotGitAbove(folder, run);
+    if (found === null) return null;
+    throw new GitError(err.args, err.exitCode, `${err.stderr.trim()} (yet ${found} exists: the repository may be damaged)`);
   }
   const lines = out.split("\n");
+  // Inside the .git folder itself, or a bare repository: there is no work tree to read.
   if (lines[0]?.trim() !== "true" || !lines[1]) return null;
   const repo: GitRepo = { root: lines[1].trim(), prefix: (lines[2] ?? "").trim(), head: null, run };
   repo.head = await headCommit(repo);
   return repo;
 }
 
-/** Full hash of HEAD for provenance, or null when the repository has no commits yet. */
-export async function headCommit(repo: Pick<GitRepo, "root" | "run">): Promise<string | null> {
-  try {
-    const out = (await repo.run(["rev-parse", "--verify", "--quiet", "HEAD^{commit}"], repo.root)).trim();
-    return /^[0-9a-f]{40,64}$/.test(out) ? out : null;
-  } catch {
-    return null;
+/** The first `.git` entry in `folder` or a folder above it, stopping at GIT_CEILING_DIRECTORIES (as git does); null if none. */
+async function dotGitAbove(folder: string, run: GitRunner): Promise<string | null> {
+  const ceilings = (run.env?.GIT_CEILING_DIRECTORIES ?? process.env.GIT_CEILING_DIRECTORIES ?? "").split(path.delimiter).filter(Boolean).map((c) => path.resolve(c));
+  for (let dir = path.resolve(folder); ; dir = path.dirname(dir)) {
+    const candidate = path.join(dir, ".git");
+    if (await fs.lstat(candidate).then(() => true, () => false)) return candidate;
+    if (ceilings.includes(path.dirname(dir)) || path.dirname(dir) === dir) return null;
   }
+}
+
+/** Full hash of HEAD for provenance, or null when the repository has no commits yet; rejects when git fails otherwise. */
+export async function headCommit(repo: Pick<GitRepo, "root" | "run">): Promise<string | null> {
+  let out: string;
+  try {
+    out = (await repo.run(["rev-parse", "--verify", "--quiet", "HEAD^{commit}"], repo.root)).trim();
+  } catch (err) {
+    // --quiet: exit code 1 and no message when HEAD names no commit yet (an unborn branch).
+    if (err instanceof GitError && err.exitCode === 1) return null;
+    throw err;
+  }
+  if (!/^[0-9a-f]{40}(?:[0-9a-f]{24})?$/.test(out)) throw new GitError(["rev-parse"], 0, `unexpected answer for HEAD: ${JSON.stringify(out.slice(0, 80))}`);
+  return out;
 }
 
 /** Converts a data-folder-relative path (either separator; a leading "./" is dropped) to a repository-relative POSIX path. */
@@ -109,28 +89,7 @@ export function toRepoPath(repo: Pick<GitRepo, "prefix">, dataPath: string): str
 
 /** Converts a repository-relative path to one relative to the data folder, or null if outside it. */
 export function toDataPath(repo: Pick<GitRepo, "prefix">, repoPath: string): string | null {
-  if (!repo.prefix) return repoPath;
-  return repoPath.startsWith(repo.prefix) ? repoPath.slice(repo.prefix.length) : null;
-}
-
-export const LOG_FORMAT = "%x1e%H%x1f%h%x1f%aI%x1f%cI%x1f%an%x1f%s";
-
-/** Parses the output of `git log -z --name-only --format=LOG_FORMAT` (exported for tests). */
-export function parseGitLog(stdout: string, prefix = ""): GitCommit[] {
-  const commits: GitCommit[] = [];
-  for (const record of stdout.split("\x1e")) {
-    if (record.trim() === "") continue;
-    const nul = record.indexOf("\0");
-    const header = nul < 0 ? record : record.slice(0, nul);
-    const fields = header.split("\x1f");
-    if (fields.length < 6) continue;
-    const [hash, shortHash, date, committedAt, author, ...subjectParts] = fields;
-    // After the header's NUL, git writes one "\n" before the NUL-terminated file names.
-    const files = nul < 0 ? [] : record.slice(nul + 1).replace(/^\n/, "").split("\0").filter((f) => f !== "");
-    const dataFiles = files.map((f) => toDataPath({ prefix }, f)).filter((f): f is string => f !== null);
-    commits.push({ hash, shortHash, date, committedAt, author, subject: subjectParts.join("\x1f").trim(), files, dataFiles });
-  }
-  return commits;
+  return dataPathOf(repo.prefix, repoPath);
 }
 
 export interface ListCommitsOptions {
@@ -142,17 +101,17 @@ export interface ListCommitsOptions {
 
 /**
  * Commits touching the data folder (or `options.path` inside it), newest first, each with the files
- * it changed. Returns [] for a repository without commits. Rejects (GitError from the runner) on
- * unexpected git failures; callers building the site may catch and go on without history.
+ * it changed. Returns [] for a repository without commits. The log is streamed (no size limit).
+ * Rejects with a GitError when git fails, or a GitLogError when its output does not parse.
  */
 export async function listCommits(repo: GitRepo, options: ListCommitsOptions = {}): Promise<GitCommit[]> {
   if (repo.head === null) return [];
   const target = options.path === undefined ? repo.prefix : toRepoPath(repo, options.path);
-  const args = ["log", "-z", "--name-only", `--format=${LOG_FORMAT}`, "--no-color"];
+  const args = [...LOG_ARGS];
   if (options.maxCount !== undefined) args.push(`--max-count=${Math.max(1, Math.floor(options.maxCount))}`);
   // Pathspec relative to the top, taken literally (no glob characters in file names can misfire).
   if (target !== "") args.push("--", `:(top,literal)${target}`);
-  return parseGitLog(await repo.run(args, repo.root), repo.prefix);
+  return parseGitLogStream(streamOf(repo.run, args, repo.root), repo.prefix);
 }
 
 /** Commits that changed one file (e.g. "targets.yaml", relative to the data folder), newest first. */
@@ -161,15 +120,19 @@ export async function commitsChangingFile(repo: GitRepo, dataPath: string): Prom
 }
 
 /**
- * Content (UTF-8 text) of a data-folder-relative file at a commit, via `git show <hash>:<path>`.
- * Returns null when the file does not exist at that commit (or git fails). Throws RangeError for a malformed hash
- * (programming error: hashes come from {@link listCommits}).
+ * Content (UTF-8 text) of a data-folder-relative file at a commit. Returns null when the file does not
+ * exist at that commit (`git rev-parse --verify --quiet` answers with exit code 1); rejects with the
+ * GitError when git fails otherwise (a damaged repository is not mistaken for an absent file).
+ * Throws RangeError for a malformed hash (programming error: hashes come from {@link listCommits}).
  */
 export async function fileAtCommit(repo: GitRepo, hash: string, dataPath: string): Promise<string | null> {
   if (!/^[0-9a-f]{4,64}$/i.test(hash)) throw new RangeError(`fileAtCommit: not a commit hash: ${hash}`);
+  let blob: string;
   try {
-    return await repo.run(["show", "--no-textconv", `${hash}:${toRepoPath(repo, dataPath)}`], repo.root);
-  } catch {
-    return null;
+    blob = (await repo.run(["rev-parse", "--verify", "--quiet", `${hash}:${toRepoPath(repo, dataPath)}`], repo.root)).trim();
+  } catch (err) {
+    if (err instanceof GitError && err.exitCode === 1) return null;
+    throw err;
   }
+  return repo.run(["cat-file", "blob", blob], repo.root);
 }

@@ -2,9 +2,11 @@
  * The data repository's history for the site: HEAD commit, the commits that
  * touched the data folder, and every version of targets.yaml (parsed, or the
  * reason it no longer parses). Read with the `git` command through
- * src/read/gitHistory.ts; returns null — never throws — when git is missing,
- * the data folder is not inside a work tree, or git fails, so the site still
- * builds without history.
+ * src/read/gitHistory.ts. Never throws: returns null only when the data
+ * folder is not inside a git work tree; when git is missing, refuses the
+ * repository, fails or writes a log that does not parse, the history comes
+ * back empty with `failure` saying why, so that the changes page and the
+ * build output can warn instead of silently showing nothing.
  */
 import { commitsChangingFile, fileAtCommit, findRepo, listCommits, defaultGitRunner, type GitCommit, type GitRunner } from "./gitHistory.ts";
 import { readYaml } from "./frontMatter.ts";
@@ -29,6 +31,8 @@ export interface DataHistory {
   commits: GitCommit[];
   /** Versions of targets.yaml, newest first. */
   targetsVersions: TargetsVersion[];
+  /** Why the history could not be read (then commits and targetsVersions are empty): shown as a warning. */
+  failure?: string;
 }
 
 /** Most commits read; older history is left out of the pages. */
@@ -45,11 +49,13 @@ export function parseOldTargets(text: string | null): { targets?: Targets; error
   }
 }
 
-/** Reads the data folder's git history; null when there is none to read. */
+/** Reads the data folder's git history; null when the folder is not in a git work tree; a `failure` when it could not be read. */
 export async function loadDataHistory(dataDir: string, run: GitRunner = defaultGitRunner): Promise<DataHistory | null> {
+  let head: string | null = null;
   try {
     const repo = await findRepo(dataDir, run);
     if (!repo) return null;
+    head = repo.head;
     const commits = await listCommits(repo, { maxCount: MAX_COMMITS });
     const targetsVersions: TargetsVersion[] = [];
     for (const c of await commitsChangingFile(repo, "targets.yaml")) {
@@ -57,7 +63,7 @@ export async function loadDataHistory(dataDir: string, run: GitRunner = defaultG
       targetsVersions.push({ hash: c.hash, shortHash: c.shortHash, date: c.committedAt, subject: c.subject, ...parsed });
     }
     return { head: repo.head, commits, targetsVersions };
-  } catch {
-    return null;
+  } catch (err) {
+    return { head, commits: [], targetsVersions: [], failure: (err instanceof Error ? err.message : String(err)).split(dataDir).join("<data folder>") };
   }
 }

@@ -13,6 +13,7 @@ import {
   listCommits,
   makeGitRunner,
   parseGitLog,
+  GitLogError,
   toDataPath,
   toRepoPath,
   type GitRepo,
@@ -130,21 +131,22 @@ describe.skipIf(!hasGit)("gitHistory with a temporary repository", () => {
 });
 
 describe("gitHistory without git", () => {
-  it("returns null when the git executable is missing", async () => {
+  // Issue 13 §3: a missing git is a failure to read history, never "not a repository".
+  it("rejects with a GitError when the git executable is missing", async () => {
     const missing = makeGitRunner({ gitPath: join(TMP, "definitely-not-git-here") });
-    expect(await findRepo(TMP, missing)).toBeNull();
+    await expect(findRepo(TMP, missing)).rejects.toThrow(/git could not be run/);
   });
 
-  it("returns null when the runner rejects", async () => {
-    expect(await findRepo("/anywhere", async () => Promise.reject(new Error("spawn git ENOENT")))).toBeNull();
+  it("passes on what the runner rejects with", async () => {
+    await expect(findRepo("/anywhere", async () => Promise.reject(new Error("spawn git ENOENT")))).rejects.toThrow("spawn git ENOENT");
   });
 });
 
 describe("parseGitLog and path helpers", () => {
-  it("parses records with odd subjects and file names (spaces, non-ASCII, newline)", () => {
+  it("parses NUL-separated records with odd subjects and file names (spaces, non-ASCII, newline)", () => {
     const rec = (h: string, subject: string, files: string[]) =>
-      `\x1e${h}\x1f${h.slice(0, 7)}\x1f2024-01-02T03:04:05+01:00\x1f2024-01-02T03:04:05+01:00\x1fZoë Example\x1f${subject}\0` +
-      (files.length ? "\n" + files.map((f) => f + "\0").join("") : "");
+      `${h}\0${h.slice(0, 7)}\0${"2024-01-02T03:04:05+01:00"}\0${"2024-01-02T03:04:05+01:00"}\0Zoë Example\0${subject}\0` +
+      (files.length ? "\n" + files.map((f) => "M\0" + f + "\0").join("") : "");
     const out =
       rec("a".repeat(40), "Merge: nothing", []) +
       rec("b".repeat(40), "Add wafer <W-2> & data", ["d/wafers/W 2.md", "d/ü\nodd.csv", "\nother/x"]);
@@ -159,9 +161,9 @@ describe("parseGitLog and path helpers", () => {
     });
   });
 
-  it("ignores empty or malformed output", () => {
+  it("reads empty output as no commits and refuses malformed output", () => {
     expect(parseGitLog("")).toEqual([]);
-    expect(parseGitLog("\x1egarbage\0")).toEqual([]);
+    expect(() => parseGitLog("\x1egarbage\0")).toThrow(GitLogError);
   });
 
   it("converts between data-folder and repository paths", () => {
