@@ -111,7 +111,7 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
   const failing = index.filter((w) => w.verdict === "fail" || w.verdict === "error" || w.verdict === "incomplete");
   return {
     meta,
-    trends: trendsModel(index.map((w, i) => ({ id: w.id, grown: w.grown, run: w.run, reactor: w.reactor, values: judged(sorted[i]) })), extras.targets, meta.basePath),
+    trends: trendsModel(index.map((w, i) => ({ id: w.id, grown: w.grown, run: w.run, reactor: w.reactor, grade: w.grade, verdict: w.verdict, values: judged(sorted[i]) })), extras.targets, meta.basePath),
     targets: targetsPageModel(extras.targets),
     changes: changesModel(history, sorted.map((o) => o.folder), meta.basePath),
     index,
