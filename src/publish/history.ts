@@ -6,6 +6,7 @@
 import type { DataHistory } from "../read/history.ts";
 import type { GitCommit } from "../read/gitHistory.ts";
 import { verdictsOverTime, type WaferForHistory } from "../judge/verdictHistory.ts";
+import { targetsChange } from "../judge/targetsChange.ts";
 
 /** "2025-03-04T10:20:30+01:00" → "2025-03-04 10:20". */
 export function shortDate(iso: string): string {
@@ -22,6 +23,21 @@ export function affectedWafers(c: Pick<GitCommit, "dataFiles">): string[] {
   return [...ids].sort();
 }
 
+/** Limit-by-limit change and verdict flips of a commit that changed targets.yaml (null for other commits). */
+function targetsRow(c: GitCommit, history: DataHistory, wafers: readonly (WaferForHistory & { id: string })[], known: Set<string>, basePath: string) {
+  if (!c.dataFiles.includes("targets.yaml")) return null;
+  const i = history.targetsVersions.findIndex((v) => v.hash === c.hash);
+  if (i < 0) return null;
+  const t = targetsChange(history.targetsVersions[i + 1], history.targetsVersions[i], wafers);
+  return {
+    note: t.note ?? "",
+    first: i === history.targetsVersions.length - 1,
+    limits: t.limits,
+    other: t.other,
+    flips: t.flips.map((f) => ({ ...f, href: known.has(f.id) ? `${basePath}wafers/${f.id}/` : "" })),
+  };
+}
+
 function commitRow(c: GitCommit, known: Set<string>, basePath: string) {
   return {
     hash: c.hash,
@@ -35,12 +51,16 @@ function commitRow(c: GitCommit, known: Set<string>, basePath: string) {
   };
 }
 
-export function changesModel(history: DataHistory | null, waferIds: readonly string[], basePath: string) {
+/**
+ * The /changes/ page. `wafers`: today's figures of every wafer, re-judged under the targets before
+ * and after each targets commit to list the wafers whose verdict that commit changed.
+ */
+export function changesModel(history: DataHistory | null, waferIds: readonly string[], basePath: string, wafers: readonly (WaferForHistory & { id: string })[] = []) {
   const known = new Set(waferIds);
   return {
     available: history !== null,
     head: history?.head ?? null,
-    commits: (history?.commits ?? []).map((c) => commitRow(c, known, basePath)),
+    commits: (history?.commits ?? []).map((c) => ({ ...commitRow(c, known, basePath), targets: history ? targetsRow(c, history, wafers, known, basePath) : null })),
   };
 }
 

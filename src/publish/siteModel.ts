@@ -48,12 +48,17 @@ export function waferPageExtras(sorted: readonly WaferOutcome[], basePath: strin
         o.folder,
         {
           ...neighbours.get(o.folder),
-          history: waferHistoryModel(history, o.folder, { values: o.values, grade: o.record?.grade, waivers: o.record?.waivers ?? [], hasErrors: o.judgement.verdict === "error" }),
+          history: waferHistoryModel(history, o.folder, historyInput(o)),
           crumbs: [{ label: "Wafers", href: basePath }, ...(run ? [{ label: `Run ${run}`, href: `${basePath}runs/${run}/` }] : []), { label: o.folder }],
         },
       ];
     }),
   );
+}
+
+/** A wafer as the history re-judges it: today's figures, its grade, waivers and whether it has input errors. */
+function historyInput(o: WaferOutcome) {
+  return { values: o.values, grade: o.record?.grade, waivers: o.record?.waivers ?? [], hasErrors: o.judgement.verdict === "error" };
 }
 
 /** Metrics shown as columns of the index table. */
@@ -113,7 +118,7 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
     meta,
     trends: trendsModel(index.map((w, i) => ({ id: w.id, grown: w.grown, run: w.run, reactor: w.reactor, grade: w.grade, verdict: w.verdict, values: judged(sorted[i]) })), extras.targets, meta.basePath),
     targets: targetsPageModel(extras.targets),
-    changes: changesModel(history, sorted.map((o) => o.folder), meta.basePath),
+    changes: changesModel(history, sorted.map((o) => o.folder), meta.basePath, sorted.map((o) => ({ id: o.folder, ...historyInput(o) }))),
     index,
     runs: runPages,
     failing,
