@@ -25,6 +25,7 @@ import { reactorOf } from "./siteModel.ts";
 import type { RunNotes } from "../read/site.ts";
 import { metricStdErrors } from "./metricStdErr.ts";
 import { decisionConflict } from "../judge/decision.ts";
+import { decisionJson } from "./decisionSection.ts";
 
 /** A plain decimal number written as text (e.g. "-1.5", "+2e-3"): a spreadsheet reads it as a number, never as a formula. */
 const PLAIN_NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
@@ -113,12 +114,6 @@ function metricMaps(o: WaferOutcome, metrics: readonly { key: string }[]) {
     limits: Object.fromEntries(xs.map(([k, x]) => [k, { min: sig6OrNull(x.min), max: sig6OrNull(x.max) }])),
     verdicts: Object.fromEntries(xs.map(([k, x]) => [k, x.verdict || null])),
   };
-}
-
-/** The lab's decision in results.json, with the conflict with the computed verdict (null when none recorded). */
-export function decisionJson(o: WaferOutcome) {
-  const d = o.record?.decision;
-  return d ? { state: d.state, by: d.by, date: d.date, reason: d.reason, conflict: decisionConflict(d, o.judgement) ?? null } : null;
 }
 
 export function pointsCsv(o: WaferOutcome): string {

@@ -7,6 +7,7 @@ import type { DataHistory } from "../read/history.ts";
 import type { GitCommit } from "../read/gitHistory.ts";
 import { verdictsOverTime, type WaferForHistory } from "../judge/verdictHistory.ts";
 import { targetsChange } from "../judge/targetsChange.ts";
+import type { DecisionCommit } from "../read/decisionCommits.ts";
 
 /** "2025-03-04T10:20:30+01:00" → "2025-03-04 10:20". */
 export function shortDate(iso: string): string {
@@ -38,6 +39,13 @@ function targetsRow(c: GitCommit, history: DataHistory, wafers: readonly (WaferF
   };
 }
 
+/** Decisions a commit recorded (from DataHistory.decisions), for the changes page. */
+function decisionsIn(c: GitCommit, history: DataHistory | null, known: Set<string>, basePath: string) {
+  const out: { id: string; href: string }[] = [];
+  for (const [id, d] of history?.decisions ?? []) if (d.hash === c.hash) out.push({ id, href: known.has(id) ? `${basePath}wafers/${id}/` : "" });
+  return out.sort((a, b) => a.id.localeCompare(b.id));
+}
+
 function commitRow(c: GitCommit, known: Set<string>, basePath: string) {
   return {
     hash: c.hash,
@@ -60,13 +68,13 @@ export function changesModel(history: DataHistory | null, waferIds: readonly str
   return {
     available: history !== null,
     head: history?.head ?? null,
-    commits: (history?.commits ?? []).map((c) => ({ ...commitRow(c, known, basePath), targets: history ? targetsRow(c, history, wafers, known, basePath) : null })),
+    commits: (history?.commits ?? []).map((c) => ({ ...commitRow(c, known, basePath), targets: history ? targetsRow(c, history, wafers, known, basePath) : null, decisions: decisionsIn(c, history, known, basePath) })),
   };
 }
 
 /** The history block of one wafer page. */
 export function waferHistoryModel(history: DataHistory | null, waferId: string, w: WaferForHistory) {
-  if (!history) return { available: false, commits: [], verdicts: [], recorded: "" };
+  if (!history) return { available: false, commits: [], verdicts: [], recorded: "", decision: null };
   const prefix = `wafers/${waferId}/`;
   const mine = history.commits.filter((c) => c.dataFiles.some((f) => f.startsWith(prefix)));
   const recorded = mine.at(-1)?.committedAt; // commits are newest first: the oldest one is when the wafer was recorded (as firstRecorded)
@@ -75,5 +83,12 @@ export function waferHistoryModel(history: DataHistory | null, waferId: string, 
     recorded: recorded ? shortDate(recorded) : "",
     commits: mine.map((c) => ({ shortHash: c.shortHash, hash: c.hash, date: shortDate(c.date), author: c.author, subject: c.subject, files: c.dataFiles.filter((f) => f.startsWith(prefix)).map((f) => f.slice(prefix.length)) })),
     verdicts: verdictsOverTime(w, history.targetsVersions, recorded).map((v) => ({ ...v, date: shortDate(v.date), reasons: v.reasons, note: v.note ?? "" })),
+    decision: decisionCommitModel(history.decisions?.get(waferId)),
   };
+}
+
+/** The commit that recorded a wafer's decision, as the wafer page shows it (null without a decision or history). */
+export function decisionCommitModel(c: DecisionCommit | undefined) {
+  if (!c) return null;
+  return { hash: c.hash ?? "", shortHash: c.shortHash ?? "", date: c.committedAt ? shortDate(c.committedAt) : "", committer: c.committer ?? "", author: c.author ?? "", subject: c.subject ?? "", note: c.note ?? "" };
 }

@@ -10,6 +10,7 @@ import { commitsChangingFile, fileAtCommit, findRepo, listCommits, defaultGitRun
 import { readYaml } from "./frontMatter.ts";
 import { validateTargets, type Targets } from "../validate/targets.ts";
 import { formatProblem, InputError } from "../validate/problem.ts";
+import type { DecisionCommit } from "./decisionCommits.ts";
 
 export interface TargetsVersion {
   hash: string;
@@ -29,6 +30,8 @@ export interface DataHistory {
   commits: GitCommit[];
   /** Versions of targets.yaml, newest first. */
   targetsVersions: TargetsVersion[];
+  /** Wafer id → the commit that recorded its decision (src/read/decisionCommits.ts), filled by the build. */
+  decisions?: Map<string, DecisionCommit>;
 }
 
 /** Most commits read; older history is left out of the pages. */
