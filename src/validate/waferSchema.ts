@@ -74,7 +74,6 @@ export const WAFER_SCHEMA = {
         },
       },
     },
-    decision: DECISION_SCHEMA,
     waivers: {
       type: "array",
       items: {
@@ -89,6 +88,7 @@ export const WAFER_SCHEMA = {
         },
       },
     },
+    decision: DECISION_SCHEMA,
   },
 } as const;
 
