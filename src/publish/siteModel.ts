@@ -18,6 +18,7 @@ import { trendsModel } from "./trends.ts";
 import { targetsPageModel } from "./targetsPage.ts";
 import { changesModel, waferHistoryModel } from "./history.ts";
 import { runComparisons } from "./runSummary.ts";
+import { decisionModel } from "./decisionSection.ts";
 
 /** Site-wide inputs beyond the wafers: the targets in force and the data repository's history. */
 export interface SiteExtras {
@@ -122,6 +123,10 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
     index,
     runs: runPages,
     failing,
+    decisionConflicts: sorted.flatMap((o) => {
+      const d = decisionModel(o);
+      return d?.conflict ? [{ id: o.folder, verdict: o.judgement.verdict, conflict: d.conflict }] : [];
+    }),
     indexMetrics: INDEX_METRICS.map((k) => ({ key: k, label: METRIC_BY_KEY.get(k)!.label })),
     verdictCounts: countVerdicts(index.map((w) => w.verdict)),
     siteProblems: siteProblems.map((p) => ({ severity: p.severity, text: formatProblem(p) })),
