@@ -66,7 +66,12 @@ function trendCharts(spec: MetricSpec, groups: Trend[], by: string, targets: Tar
     ...(dropped.length ? [{ ...markerSeries("dropped from the baseline (Phase I)", dropped.map((p) => [dayNumber(p.date), p.value]), "reference"), links: dropped.map((p) => href(p.id)), tips: dropped.map((p) => `${p.id}: ${p.note}`) }] : []),
     ...(left.length ? [{ ...markerSeries("left out of the baseline and the rules", left.map((p) => [dayNumber(p.date), p.value]), "third"), links: left.map((p) => href(p.id)), tips: left.map((p) => `${p.id}: ${p.note}`) }] : []),
   ];
-  const lines = groups.flatMap((t) => (t.ok ? limitLines(t, x0, x1, by === "none" ? "" : ` (${groupName(by, t.group)})`) : []));
+  // Separate limits are drawn over their own group's dates only (±5 days), one set over the whole chart.
+  const span = (t: Trend): [number, number] => {
+    const d = t.points.map((p) => dayNumber(p.date));
+    return by === "none" || d.length === 0 ? [x0, x1] : [Math.min(...d) - 5, Math.max(...d) + 5];
+  };
+  const lines = groups.flatMap((t) => (t.ok ? limitLines(t, ...span(t), by === "none" ? "" : ` (${groupName(by, t.group)})`) : []));
   const target = targets?.grades[targets.defaultGrade]?.[spec.key];
   const limits = target ? [{ axis: "y" as const, min: target.min, max: target.max, label: `target (${targets!.defaultGrade})` }] : undefined;
   const limitText = groups.map((t) => `${by === "none" ? "" : `${groupName(by, t.group)}: `}${t.ok ? `centre line ${formatValue(t.limits.centreLine, spec)}, control limits ${formatValue(t.limits.lcl, spec)} to ${formatValue(t.limits.ucl, spec)}` : `no limits (${t.reason})`}`).join("; ");
