@@ -11,6 +11,11 @@ export interface MetricSpec {
   description: string;
   /** Number of significant digits shown on pages. */
   digits: number;
+  /**
+   * Natural bounds of the quantity in `unit` (e.g. min 0 for a width or a density, [0, 1] for a
+   * fraction); absent when the quantity may take any sign. Set from src/analyse/metricBounds.ts.
+   */
+  bounds?: { min?: number; max?: number };
 }
 
 export const metric = (key: string, label: string, unit: string, fromSI: number, section: MetricSpec["section"], description: string, digits = 3): MetricSpec => ({ key, label, unit, fromSI, section, description, digits });

@@ -9,6 +9,7 @@ import { IMAGE_METRICS } from "./images/metrics.ts";
 import { UNIFORMITY_METRICS } from "./uniformityMetrics.ts";
 
 import { metric, type MetricSpec } from "./metricSpec.ts";
+import { withNaturalBounds } from "./metricBounds.ts";
 export type { MetricSpec };
 
 const m = metric;
@@ -21,15 +22,16 @@ const HALL_METRICS: MetricSpec[] = [
   m("turn_on_voltage", "Turn-on voltage", "V", 1, "transport", "gate voltage where the fitted density extrapolates to zero"),
 ];
 
-export const METRICS: MetricSpec[] = [...HALL_METRICS, ...TRANSPORT_DEPTH_METRICS, ...STRUCTURE_METRICS, ...IMAGE_METRICS, ...UNIFORMITY_METRICS];
+export const METRICS: MetricSpec[] = [...HALL_METRICS, ...TRANSPORT_DEPTH_METRICS, ...STRUCTURE_METRICS, ...IMAGE_METRICS, ...UNIFORMITY_METRICS].map(withNaturalBounds);
 
 export const METRIC_BY_KEY: ReadonlyMap<string, MetricSpec> = new Map(METRICS.map((s) => [s.key, s]));
 
 export function registerMetrics(specs: MetricSpec[]): void {
   for (const s of specs) {
     if (METRIC_BY_KEY.has(s.key)) continue;
-    METRICS.push(s);
-    (METRIC_BY_KEY as Map<string, MetricSpec>).set(s.key, s);
+    const spec = withNaturalBounds(s);
+    METRICS.push(spec);
+    (METRIC_BY_KEY as Map<string, MetricSpec>).set(s.key, spec);
   }
 }
 

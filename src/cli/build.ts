@@ -20,6 +20,7 @@ import { writeSearch } from "../publish/searchIndex.ts";
 import type { Problem } from "../validate/problem.ts";
 import type { BuildOptions } from "./args.ts";
 import { loadDataHistory } from "../read/history.ts";
+import { decisionCommits } from "../read/decisionCommits.ts";
 import { writeExports } from "./writeExports.ts";
 import { PACKAGE_ROOT } from "./paths.ts";
 import { acquireLock, BuildLockedError, BuildStoppedError, recoverInterrupted, swapInto } from "./outputFolder.ts";
@@ -124,6 +125,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       }
       const history = await loadDataHistory(dataDir);
       if (history?.failure) buildProblems.push(historyWarning(history.failure));
+      if (history && !history.failure) history.decisions = await decisionCommits(dataDir, history, outcomes.map((o) => ({ id: o.folder, file: o.record?.file ?? "", decision: o.record?.decision })));
       meta = { title: "waferbook", version, builtAt: io.now(), basePath: options.basePath, dataCommit: history?.head ?? null };
       const sorted = sortOutcomes(outcomes);
       const pageExtras = waferPageExtras(sorted, meta.basePath, history);

@@ -121,7 +121,7 @@ export function controlChart(
     minus1: centreLine - sigma,
     baseline: { from, to, count },
   };
-  const points = series.map((p, index) => classify(p, index, limits));
+  const points = series.map((p, index) => classifyPoint(p, index, limits, index >= from && index <= to));
   return { ok: true, limits, points };
 }
 
@@ -152,13 +152,13 @@ function resolveBaseline(
   return { from, to };
 }
 
-function classify(p: ChartInput, index: number, l: ControlLimits): ChartPoint {
+/** Side and zone of one point against given limits (edges strictly exceeded; see the header). */
+export function classifyPoint(p: ChartInput, index: number, l: ControlLimits, inBaseline: boolean): ChartPoint {
   const v = p.value;
   const side: ChartSide = v > l.centreLine ? "above" : v < l.centreLine ? "below" : "on";
   let band: 0 | 1 | 2 | 3 = 0;
   if (side === "above") band = v > l.ucl ? 3 : v > l.plus2 ? 2 : v > l.plus1 ? 1 : 0;
   if (side === "below") band = v < l.lcl ? 3 : v < l.minus2 ? 2 : v < l.minus1 ? 1 : 0;
-  const inBaseline = index >= l.baseline.from && index <= l.baseline.to;
   return { id: p.id, index, value: v, z: (v - l.centreLine) / l.sigma, side, band, inBaseline };
 }
 

@@ -1,9 +1,21 @@
 /**
- * Site-wide exports: /results.csv and /results.json (one row per wafer, one
- * column per metric with its unit in the header) and per wafer points.csv
- * (every Hall point of every device). CSV per RFC 4180: comma-separated,
- * fields with a comma, quote or line break quoted, quotes doubled, CRLF line
- * ends. Values in the metric's unit, six significant digits; empty when absent.
+ * Site-wide exports: /results.csv and /results.json (one row per wafer; per
+ * metric its value, standard error, limits and verdict, units in the header)
+ * and per wafer points.csv (every Hall point of every device). CSV per RFC
+ * 4180: comma-separated, fields with a comma, quote or line break quoted,
+ * quotes doubled, CRLF line ends. Values in the metric's unit, six significant
+ * digits; empty when absent.
+ *
+ * Spreadsheet safety (OWASP, "CSV Injection"; REFERENCES §17): a text cell
+ * that begins with =, +, -, @, tab or carriage return would be run as a
+ * formula by a spreadsheet, so it is prefixed with a single quote and quoted.
+ * Numbers are written as numbers (a negative number stays -1.5), and a text
+ * cell that is exactly a decimal number is left as it is (it cannot run).
+ *
+ * results.csv columns, in this order (docs/formats.md §7):
+ *   wafer, run, grown, reactor, grade, verdict, decision, decision_by, decision_date,
+ *   decision_reason, decision_conflict, then per metric <key> [unit], <key>_stderr [unit],
+ *   <key>_min [unit], <key>_max [unit], <key>_verdict.
  */
 import { METRICS } from "../analyse/metrics.ts";
 import type { WaferOutcome } from "../cli/pipeline.ts";
@@ -11,28 +23,63 @@ import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants
 import { sig6, sig6OrNull } from "./format.ts";
 import { reactorOf } from "./siteModel.ts";
 import type { RunNotes } from "../read/site.ts";
+import { metricStdErrors } from "./metricStdErr.ts";
+import { decisionConflict } from "../judge/decision.ts";
+import { decisionJson } from "./decisionSection.ts";
+
+/** A plain decimal number written as text (e.g. "-1.5", "+2e-3"): a spreadsheet reads it as a number, never as a formula. */
+const PLAIN_NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+
+/** True when a spreadsheet would treat the text cell as a formula (OWASP "CSV Injection": leading =, +, -, @, tab, CR). */
+export function isFormulaLike(s: string): boolean {
+  return /^[=+\-@\t\r]/.test(s) && !PLAIN_NUMBER.test(s);
+}
 
 export function csvField(v: string | number | null | undefined): string {
   if (v === null || v === undefined) return "";
-  const s = typeof v === "number" ? (Number.isFinite(v) ? String(sig6(v)) : "") : v;
-  return /[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+  if (typeof v === "number") return Number.isFinite(v) ? String(sig6(v)) : "";
+  if (isFormulaLike(v)) return `"'${v.replace(/"/g, '""')}"`;
+  return /[",\r\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v;
 }
 
 export function toCsv(rows: (string | number | null | undefined)[][]): string {
   return rows.map((r) => r.map(csvField).join(",")).join("\r\n") + "\r\n";
 }
 
-/** Metrics that have a value on at least one wafer, in registry order. */
+/** Metrics that have a value or a limit on at least one wafer, in registry order. */
 export function exportedMetrics(outcomes: readonly WaferOutcome[]) {
-  return METRICS.filter((m) => outcomes.some((o) => o.judgement.metrics.some((j) => j.key === m.key && j.value !== undefined)));
+  return METRICS.filter((m) => outcomes.some((o) => o.judgement.metrics.some((j) => j.key === m.key && (j.value !== undefined || j.target !== undefined))));
 }
 
-const value = (o: WaferOutcome, key: string) => o.judgement.metrics.find((m) => m.key === key)?.value;
+/** One metric of one wafer as exported: value, standard error, limits of the wafer's grade, verdict. */
+export function exportedMetric(o: WaferOutcome, key: string, stdErrs: Record<string, number>) {
+  const j = o.judgement.metrics.find((m) => m.key === key);
+  return { value: j?.value, stderr: stdErrs[key], min: j?.target?.min, max: j?.target?.max, verdict: j?.verdict ?? "" };
+}
+
+/** The per-metric column names, in order, for one metric (see the header comment). */
+export function metricColumns(m: { key: string; unit: string }): string[] {
+  return [`${m.key} [${m.unit}]`, `${m.key}_stderr [${m.unit}]`, `${m.key}_min [${m.unit}]`, `${m.key}_max [${m.unit}]`, `${m.key}_verdict`];
+}
+
+export const DECISION_COLUMNS = ["decision", "decision_by", "decision_date", "decision_reason", "decision_conflict"];
+
+function decisionCells(o: WaferOutcome): string[] {
+  const d = o.record?.decision;
+  if (!d) return ["", "", "", "", ""];
+  return [d.state, d.by, d.date, d.reason, decisionConflict(d, o.judgement) ?? ""];
+}
 
 export function resultsCsv(outcomes: readonly WaferOutcome[], runs: ReadonlyMap<string, RunNotes> = new Map()): string {
   const metrics = exportedMetrics(outcomes);
-  const header = ["wafer", "run", "grown", "reactor", "grade", "verdict", ...metrics.map((m) => `${m.key} [${m.unit}]`)];
-  const rows = outcomes.map((o) => [o.folder, o.record?.run ?? "", o.record?.grown ?? "", reactorOf(o, runs), o.judgement.grade, o.judgement.verdict, ...metrics.map((m) => value(o, m.key))]);
+  const header = ["wafer", "run", "grown", "reactor", "grade", "verdict", ...DECISION_COLUMNS, ...metrics.flatMap(metricColumns)];
+  const rows = outcomes.map((o) => {
+    const se = metricStdErrors(o);
+    return [o.folder, o.record?.run ?? "", o.record?.grown ?? "", reactorOf(o, runs), o.judgement.grade, o.judgement.verdict, ...decisionCells(o), ...metrics.flatMap((m) => {
+      const x = exportedMetric(o, m.key, se);
+      return [x.value, x.stderr, x.min, x.max, x.verdict];
+    })];
+  });
   return toCsv([header, ...rows]);
 }
 
@@ -51,11 +98,21 @@ export function allResultsJson(outcomes: readonly WaferOutcome[], meta: { versio
       grade: o.judgement.grade,
       verdict: o.judgement.verdict,
       reasons: o.judgement.reasons,
-      metrics: Object.fromEntries(metrics.map((m) => {
-        const v = value(o, m.key);
-        return [m.key, sig6OrNull(v)];
-      })),
+      decision: decisionJson(o),
+      ...metricMaps(o, metrics),
     })),
+  };
+}
+
+/** The per-metric maps of a wafer in results.json, keyed like the CSV columns: metrics, stderr, limits, verdicts. */
+function metricMaps(o: WaferOutcome, metrics: readonly { key: string }[]) {
+  const se = metricStdErrors(o);
+  const xs = metrics.map((m) => [m.key, exportedMetric(o, m.key, se)] as const);
+  return {
+    metrics: Object.fromEntries(xs.map(([k, x]) => [k, sig6OrNull(x.value)])),
+    stderr: Object.fromEntries(xs.map(([k, x]) => [k, sig6OrNull(x.stderr)])),
+    limits: Object.fromEntries(xs.map(([k, x]) => [k, { min: sig6OrNull(x.min), max: sig6OrNull(x.max) }])),
+    verdicts: Object.fromEntries(xs.map(([k, x]) => [k, x.verdict || null])),
   };
 }
 

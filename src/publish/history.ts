@@ -6,6 +6,8 @@
 import type { DataHistory } from "../read/history.ts";
 import type { GitCommit } from "../read/gitHistory.ts";
 import { verdictsOverTime, type WaferForHistory } from "../judge/verdictHistory.ts";
+import { targetsChange } from "../judge/targetsChange.ts";
+import type { DecisionCommit } from "../read/decisionCommits.ts";
 
 /** "2025-03-04T10:20:30+01:00" → "2025-03-04 10:20". */
 export function shortDate(iso: string): string {
@@ -22,6 +24,28 @@ export function affectedWafers(c: Pick<GitCommit, "dataFiles">): string[] {
   return [...ids].sort();
 }
 
+/** Limit-by-limit change and verdict flips of a commit that changed targets.yaml (null for other commits). */
+function targetsRow(c: GitCommit, history: DataHistory, wafers: readonly (WaferForHistory & { id: string })[], known: Set<string>, basePath: string) {
+  if (!c.dataFiles.includes("targets.yaml")) return null;
+  const i = history.targetsVersions.findIndex((v) => v.hash === c.hash);
+  if (i < 0) return null;
+  const t = targetsChange(history.targetsVersions[i + 1], history.targetsVersions[i], wafers);
+  return {
+    note: t.note ?? "",
+    first: i === history.targetsVersions.length - 1,
+    limits: t.limits,
+    other: t.other,
+    flips: t.flips.map((f) => ({ ...f, href: known.has(f.id) ? `${basePath}wafers/${f.id}/` : "" })),
+  };
+}
+
+/** Decisions a commit recorded (from DataHistory.decisions), for the changes page. */
+function decisionsIn(c: GitCommit, history: DataHistory | null, known: Set<string>, basePath: string) {
+  const out: { id: string; href: string }[] = [];
+  for (const [id, d] of history?.decisions ?? []) if (d.hash === c.hash) out.push({ id, href: known.has(id) ? `${basePath}wafers/${id}/` : "" });
+  return out.sort((a, b) => a.id.localeCompare(b.id));
+}
+
 function commitRow(c: GitCommit, known: Set<string>, basePath: string) {
   return {
     hash: c.hash,
@@ -35,20 +59,24 @@ function commitRow(c: GitCommit, known: Set<string>, basePath: string) {
   };
 }
 
-export function changesModel(history: DataHistory | null, waferIds: readonly string[], basePath: string) {
+/**
+ * The /changes/ page. `wafers`: today's figures of every wafer, re-judged under the targets before
+ * and after each targets commit to list the wafers whose verdict that commit changed.
+ */
+export function changesModel(history: DataHistory | null, waferIds: readonly string[], basePath: string, wafers: readonly (WaferForHistory & { id: string })[] = []) {
   const known = new Set(waferIds);
   return {
     available: history !== null && !history.failure,
     /** Why the history could not be read (shown as a warning), or "". */
     warning: history?.failure ?? "",
     head: history?.head ?? null,
-    commits: (history?.commits ?? []).map((c) => commitRow(c, known, basePath)),
+    commits: (history?.commits ?? []).map((c) => ({ ...commitRow(c, known, basePath), targets: history ? targetsRow(c, history, wafers, known, basePath) : null, decisions: decisionsIn(c, history, known, basePath) })),
   };
 }
 
 /** The history block of one wafer page. */
 export function waferHistoryModel(history: DataHistory | null, waferId: string, w: WaferForHistory) {
-  if (!history || history.failure) return { available: false, warning: history?.failure ?? "", commits: [], verdicts: [], recorded: "" };
+  if (!history || history.failure) return { available: false, warning: history?.failure ?? "", commits: [], verdicts: [], recorded: "", decision: null };
   const prefix = `wafers/${waferId}/`;
   const mine = history.commits.filter((c) => c.dataFiles.some((f) => f.startsWith(prefix)));
   const recorded = mine.at(-1)?.committedAt; // commits are newest first: the oldest one is when the wafer was recorded (as firstRecorded)
@@ -58,5 +86,12 @@ export function waferHistoryModel(history: DataHistory | null, waferId: string, 
     recorded: recorded ? shortDate(recorded) : "",
     commits: mine.map((c) => ({ shortHash: c.shortHash, hash: c.hash, date: shortDate(c.date), author: c.author, subject: c.subject, files: c.dataFiles.filter((f) => f.startsWith(prefix)).map((f) => f.slice(prefix.length)) })),
     verdicts: verdictsOverTime(w, history.targetsVersions, recorded).map((v) => ({ ...v, date: shortDate(v.date), reasons: v.reasons, note: v.note ?? "" })),
+    decision: decisionCommitModel(history.decisions?.get(waferId)),
   };
+}
+
+/** The commit that recorded a wafer's decision, as the wafer page shows it (null without a decision or history). */
+export function decisionCommitModel(c: DecisionCommit | undefined) {
+  if (!c) return null;
+  return { hash: c.hash ?? "", shortHash: c.shortHash ?? "", date: c.committedAt ? shortDate(c.committedAt) : "", committer: c.committer ?? "", author: c.author ?? "", subject: c.subject ?? "", note: c.note ?? "" };
 }

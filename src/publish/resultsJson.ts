@@ -8,6 +8,8 @@ import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants
 import type { WaferOutcome } from "../cli/pipeline.ts";
 import { formatProblem } from "../validate/problem.ts";
 import { sig6OrNull } from "./format.ts";
+import { decisionJson } from "./decisionSection.ts";
+import { metricStdErrors } from "./metricStdErr.ts";
 import { structureResults } from "./structureSection.ts";
 import { deviceDepthJson, pointDepthJson } from "./transportDepthJson.ts";
 
@@ -19,8 +21,9 @@ import { deviceDepthJson, pointDepthJson } from "./transportDepthJson.ts";
  */
 export function resultsJson(o: WaferOutcome, commits: { wafer: string | null; targets: string | null } = { wafer: null, targets: null }): unknown {
   const metrics: Record<string, unknown> = {};
+  const se = metricStdErrors(o);
   for (const m of o.judgement.metrics) {
-    metrics[m.key] = { value: sig6OrNull(m.value), unit: m.spec.unit, verdict: m.verdict, target: m.target ? { min: sig6OrNull(m.target.min), max: sig6OrNull(m.target.max), text: m.target.text, guard: m.target.guardText ?? null, required: m.target.required, aggregate: m.target.aggregate } : null, reason: m.reason ?? null, waiver: m.waiver ?? null };
+    metrics[m.key] = { value: sig6OrNull(m.value), stderr: sig6OrNull(se[m.key]), unit: m.spec.unit, verdict: m.verdict, target: m.target ? { min: sig6OrNull(m.target.min), max: sig6OrNull(m.target.max), text: m.target.text, guard: m.target.guardText ?? null, required: m.target.required, aggregate: m.target.aggregate } : null, reason: m.reason ?? null, waiver: m.waiver ?? null };
   }
   return {
     wafer: o.folder,
@@ -29,6 +32,7 @@ export function resultsJson(o: WaferOutcome, commits: { wafer: string | null; ta
     grade: o.judgement.grade,
     verdict: o.judgement.verdict,
     reasons: o.judgement.reasons,
+    decision: decisionJson(o),
     metrics,
     devices: (o.analysis?.devices ?? []).map((d) => ({
       id: d.id,

@@ -18,6 +18,7 @@ import { trendsModel } from "./trends.ts";
 import { targetsPageModel } from "./targetsPage.ts";
 import { changesModel, waferHistoryModel } from "./history.ts";
 import { runComparisons } from "./runSummary.ts";
+import { decisionModel } from "./decisionSection.ts";
 
 /** Site-wide inputs beyond the wafers: the targets in force and the data repository's history. */
 export interface SiteExtras {
@@ -48,12 +49,17 @@ export function waferPageExtras(sorted: readonly WaferOutcome[], basePath: strin
         o.folder,
         {
           ...neighbours.get(o.folder),
-          history: waferHistoryModel(history, o.folder, { values: o.values, grade: o.record?.grade, waivers: o.record?.waivers ?? [], hasErrors: o.judgement.verdict === "error" }),
+          history: waferHistoryModel(history, o.folder, historyInput(o)),
           crumbs: [{ label: "Wafers", href: basePath }, ...(run ? [{ label: `Run ${run}`, href: `${basePath}runs/${run}/` }] : []), { label: o.folder }],
         },
       ];
     }),
   );
+}
+
+/** A wafer as the history re-judges it: today's figures, its grade, waivers and whether it has input errors. */
+function historyInput(o: WaferOutcome) {
+  return { values: o.values, grade: o.record?.grade, waivers: o.record?.waivers ?? [], hasErrors: o.judgement.verdict === "error" };
 }
 
 /** Metrics shown as columns of the index table. */
@@ -111,12 +117,16 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
   const failing = index.filter((w) => w.verdict === "fail" || w.verdict === "error" || w.verdict === "incomplete");
   return {
     meta,
-    trends: trendsModel(index.map((w, i) => ({ id: w.id, grown: w.grown, run: w.run, reactor: w.reactor, values: judged(sorted[i]) })), extras.targets, meta.basePath),
+    trends: trendsModel(index.map((w, i) => ({ id: w.id, grown: w.grown, run: w.run, reactor: w.reactor, grade: w.grade, verdict: w.verdict, values: judged(sorted[i]) })), extras.targets, meta.basePath),
     targets: targetsPageModel(extras.targets),
-    changes: changesModel(history, sorted.map((o) => o.folder), meta.basePath),
+    changes: changesModel(history, sorted.map((o) => o.folder), meta.basePath, sorted.map((o) => ({ id: o.folder, ...historyInput(o) }))),
     index,
     runs: runPages,
     failing,
+    decisionConflicts: sorted.flatMap((o) => {
+      const d = decisionModel(o);
+      return d?.conflict ? [{ id: o.folder, verdict: o.judgement.verdict, conflict: d.conflict }] : [];
+    }),
     indexMetrics: INDEX_METRICS.map((k) => ({ key: k, label: METRIC_BY_KEY.get(k)!.label })),
     verdictCounts: countVerdicts(index.map((w) => w.verdict)),
     siteProblems: siteProblems.map((p) => ({ severity: p.severity, text: formatProblem(p) })),

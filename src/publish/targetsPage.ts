@@ -7,6 +7,8 @@ import { METRICS, METRIC_BY_KEY } from "../analyse/metrics.ts";
 import type { Targets } from "../validate/targets.ts";
 import { DEFAULT_TREND_SETTINGS } from "../validate/trendSettings.ts";
 import { describeBaseline } from "../judge/trends.ts";
+import { DEFAULT_MAX_PASSES } from "../judge/phaseOne.ts";
+import { describeProduction } from "./trends.ts";
 import { formatValue, prettyUnit } from "./format.ts";
 
 export function targetsPageModel(targets: Targets | undefined) {
@@ -33,7 +35,7 @@ export function targetsPageModel(targets: Targets | undefined) {
     file: targets?.file ?? "targets.yaml",
     defaultGrade: targets?.defaultGrade ?? "",
     grades,
-    trends: { baseline: describeBaseline(trends), runLength: trends.runLength },
+    trends: { baseline: describeBaseline(trends), runLength: trends.runLength, production: describeProduction(targets), maxPasses: trends.maxPasses ?? DEFAULT_MAX_PASSES, limitsBy: trends.limitsBy ?? "none", exclusions: (trends.exclude ?? []).length },
     metrics: METRICS.map((m) => ({ key: m.key, label: m.label, unit: prettyUnit(m.unit) || "—", rawUnit: m.unit, section: m.section, description: m.description })),
   };
 }

@@ -2,6 +2,7 @@
  * Builds the plain page model and results.json for one wafer. Every number is
  * rounded and given its unit here; templates only place strings.
  */
+import { decisionModel } from "./decisionSection.ts";
 import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants.ts";
 import type { WaferOutcome } from "../cli/pipeline.ts";
 import type { MetricJudgement, Verdict } from "../judge/verdict.ts";
@@ -102,6 +103,7 @@ export function waferPageModel(o: WaferOutcome) {
     title: r?.title,
     verdict: o.judgement.verdict,
     reasons: o.judgement.reasons,
+    decision: decisionModel(o),
     metrics: o.judgement.metrics.map(metricRow),
     devices: (o.analysis?.devices ?? []).map((d) => ({
       id: d.id,

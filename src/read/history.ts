@@ -12,6 +12,7 @@ import { commitsChangingFile, fileAtCommit, findRepo, listCommits, defaultGitRun
 import { readYaml } from "./frontMatter.ts";
 import { validateTargets, type Targets } from "../validate/targets.ts";
 import { formatProblem, InputError } from "../validate/problem.ts";
+import type { DecisionCommit } from "./decisionCommits.ts";
 
 export interface TargetsVersion {
   hash: string;
@@ -33,6 +34,8 @@ export interface DataHistory {
   targetsVersions: TargetsVersion[];
   /** Why the history could not be read (then commits and targetsVersions are empty): shown as a warning. */
   failure?: string;
+  /** Wafer id → the commit that recorded its decision (src/read/decisionCommits.ts), filled by the build. */
+  decisions?: Map<string, DecisionCommit>;
 }
 
 /** Most commits read; older history is left out of the pages. */

@@ -72,7 +72,7 @@ export function validateTargets(raw: unknown, file: string, yamlText: string): T
   if (typeof defaultGrade !== "string" || !(defaultGrade in grades)) {
     throw new InputError({ file, line: lineOf("default_grade") ?? lineOf("grades") ?? 1, field: "default_grade", message: "default grade is not one of the grades", expected: Object.keys(grades).join(", "), found: show(defaultGrade), fix: "name one of the grades defined below" });
   }
-  return { defaultGrade, grades, file, trends: readTrendSettings(r.trends, file, lineOf) };
+  return { defaultGrade, grades, file, trends: readTrendSettings(r.trends, file, lineOf, Object.keys(grades)) };
 }
 
 function readTarget(metric: string, spec: unknown, where: { file: string; field: string; line?: number }): Target {

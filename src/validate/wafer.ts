@@ -5,6 +5,7 @@
  * "did you mean" hint. Semantic checks (id equals folder, real and past dates,
  * settings) follow.
  */
+import { readDecision, type Decision } from "./decision.ts";
 import { isRealDate } from "./dates.ts";
 import { Ajv, type ErrorObject } from "ajv";
 import { lineOfField, type FrontMatterDoc } from "../read/frontMatter.ts";
@@ -58,6 +59,8 @@ export interface WaferRecord {
   profiles?: { files: string };
   images: ImageSpec[];
   waivers: Waiver[];
+  /** The lab's decision on the wafer (src/validate/decision.ts), when recorded. */
+  decision?: Decision;
   /** Settings in force for this wafer: defaults ← analysis.yaml ← the wafer's `analysis:` block. */
   settings: AnalysisSettings;
   /** Only the keys this wafer overrides, as typed. */
@@ -203,6 +206,7 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
     profiles: r.profiles,
     images: r.images ?? [],
     waivers: r.waivers ?? [],
+    decision: readDecision(r.decision, { file, grown: r.grown, today: ctx.today, lineOf }),
     settings,
     settingOverrides: (r.analysis as Record<string, unknown>) ?? {},
     notes: doc.body,

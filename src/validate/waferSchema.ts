@@ -2,6 +2,7 @@
  * JSON Schema of a wafer record's front matter (wafer.md), checked with Ajv.
  * The prose version, with examples, is docs/formats.md; keep the two together.
  */
+import { DECISION_SCHEMA } from "./decision.ts";
 export const ID_PATTERN = "^(?!.*\\.\\.)[A-Za-z0-9][A-Za-z0-9._-]{0,63}$";
 /** ID_PATTERN compiled once (no `g` flag, so `test` keeps no state): wafer, run and device ids, and wafer folder and run file names. */
 export const WAFER_ID = new RegExp(ID_PATTERN);
@@ -87,6 +88,7 @@ export const WAFER_SCHEMA = {
         },
       },
     },
+    decision: DECISION_SCHEMA,
   },
 } as const;
 
@@ -97,4 +99,5 @@ export const FIELD_HINTS: Record<string, string> = {
   grown: "the growth date as YYYY-MM-DD",
   geometry: "hall-bar or van-der-pauw",
   role: "substrate, buffer, barrier, well, cap or other",
+  state: "released, held or rejected (the lab's decision on the wafer)",
 };
