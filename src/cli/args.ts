@@ -9,6 +9,7 @@ export interface BuildOptions {
   data: string;
   out: string;
   strict: boolean;
+  /** "/qual/"-style path for absolute links (--base); "" (the default) for relative links (src/publish/siteUrl.ts). */
   basePath: string;
   quiet: boolean;
   /** Analysis cache folder; null with --no-cache. Default: .waferbook-cache/ beside the output folder. */
@@ -32,7 +33,9 @@ Options:
                 the previous site as it was. Wafer pages whose content has
                 not changed are carried over from the previous site.
   --strict      exit with code 1 when any input error was found (for CI)
-  --base PATH   serve the site under a sub-path, e.g. /qual/ (default: /)
+  --base PATH   absolute links under PATH for a web server, e.g. /qual/ or /
+                (default: relative links, which work opened from disk and
+                on a server under any path)
   --quiet       print only problems and the summary
   --cache DIR   where analysis results are kept between builds, keyed by the
                 wafer's files, settings and the analysis code (default:
@@ -57,7 +60,7 @@ export function parseArgs(argv: string[]): ParsedArgs {
     const hint = didYouMean(argv[0], ["build"]);
     return { command: "usage-error", message: `unknown command ${JSON.stringify(argv[0])}${hint ? ` — did you mean "${hint}"?` : ""}` };
   }
-  const options: BuildOptions = { data: "data", out: "site", strict: false, basePath: "/", quiet: false, cache: undefined };
+  const options: BuildOptions = { data: "data", out: "site", strict: false, basePath: "", quiet: false, cache: undefined };
   for (let i = 1; i < argv.length; i++) {
     const a = argv[i];
     const [flag, inline] = a.includes("=") ? [a.slice(0, a.indexOf("=")), a.slice(a.indexOf("=") + 1)] : [a, undefined];

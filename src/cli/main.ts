@@ -6,6 +6,7 @@ import path from "node:path";
 import { writeFile } from "node:fs/promises";
 import { HELP, parseArgs } from "./args.ts";
 import { reportProblems, summary } from "./report.ts";
+import { siteWrittenMessage } from "./siteMessage.ts";
 
 export async function main(argv: string[]): Promise<number> {
   const parsed = parseArgs(argv);
@@ -42,7 +43,7 @@ export async function main(argv: string[]): Promise<number> {
       err("waferbook: nothing could be built; the previous site was left as it was.");
       return 1;
     }
-    out(`site written to ${path.relative(process.cwd(), result.outDir) || "."}/index.html`);
+    out(siteWrittenMessage(path.relative(process.cwd(), result.outDir) || ".", parsed.options.basePath));
     const errors = result.problems.filter((p) => p.severity === "error").length;
     if (parsed.options.strict && errors > 0) {
       err(`waferbook: --strict: ${errors} input error${errors === 1 ? "" : "s"} (listed above)`);

@@ -3,6 +3,7 @@
  * folder, with the wafers each affected) and, per wafer, its own commits and
  * its verdicts under every version of targets.yaml since it was recorded.
  */
+import { siteUrl } from "./siteUrl.ts";
 import type { DataHistory } from "../read/history.ts";
 import type { GitCommit } from "../read/gitHistory.ts";
 import { verdictsOverTime, type WaferForHistory } from "../judge/verdictHistory.ts";
@@ -31,7 +32,7 @@ function commitRow(c: GitCommit, known: Set<string>, basePath: string) {
     subject: c.subject,
     files: c.dataFiles,
     targetsChanged: c.dataFiles.includes("targets.yaml"),
-    wafers: affectedWafers(c).map((id) => ({ id, href: known.has(id) ? `${basePath}wafers/${id}/` : "" })),
+    wafers: affectedWafers(c).map((id) => ({ id, href: known.has(id) ? siteUrl(`wafers/${id}/`, "/changes/", basePath) : "" })),
   };
 }
 

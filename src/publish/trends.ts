@@ -4,6 +4,7 @@
  * and by reactor, with flagged points linking to their wafers and a table
  * alternative. Numbers are formatted here; templates only place strings.
  */
+import { siteUrl } from "./siteUrl.ts";
 import { METRICS, type MetricSpec } from "../analyse/metrics.ts";
 import { describeBaseline, trendChart, type Trend, type TrendInput, type TrendPoint } from "../judge/trends.ts";
 import type { Targets } from "../validate/targets.ts";
@@ -66,9 +67,9 @@ function trendCharts(spec: MetricSpec, t: Trend, targets: Targets | undefined, h
 /** Builds the trend index and one page per metric with at least one value. */
 export function trendsModel(wafers: readonly TrendWafer[], targets: Targets | undefined, basePath: string) {
   const settings = targets?.trends ?? DEFAULT_TREND_SETTINGS;
-  const href = (id: string) => `${basePath}wafers/${id}/`;
   const pages = [];
   for (const spec of METRICS) {
+    const href = (id: string) => siteUrl(`wafers/${id}/`, `/trends/${spec.key}/`, basePath);
     const inputs: TrendInput[] = wafers.filter((w) => w.values[spec.key] !== undefined && w.grown).map((w) => ({ id: w.id, date: w.grown, run: w.run, reactor: w.reactor, value: w.values[spec.key]! }));
     if (inputs.length === 0) continue;
     const t = trendChart(inputs, settings);
