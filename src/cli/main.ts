@@ -7,11 +7,14 @@ import { writeFile } from "node:fs/promises";
 import { HELP, parseArgs } from "./args.ts";
 import { reportProblems, summary } from "./report.ts";
 import { siteWrittenMessage } from "./siteMessage.ts";
+import { runCommand } from "./commands.ts";
 
 export async function main(argv: string[]): Promise<number> {
-  const parsed = parseArgs(argv);
   const out = (s: string) => process.stdout.write(s + "\n");
   const err = (s: string) => process.stderr.write(s + "\n");
+  // check and init: each command in its own file (arguments, help and all).
+  if (argv[0] === "check" || argv[0] === "init") return runCommand(argv[0], argv.slice(1), { out, err });
+  const parsed = parseArgs(argv);
   if (parsed.command === "help") {
     out(HELP);
     return 0;
