@@ -23,9 +23,11 @@ export const HELP = `waferbook — builds a qualification site from wafer record
 Usage:
   waferbook build [--data DIR] [--out DIR] [--strict] [--base PATH] [--quiet]
                  [--cache DIR | --no-cache]
-  waferbook --help | --version
+  waferbook check [--data DIR]   read and validate everything, write nothing
+  waferbook init <folder>        create a new data repository
+  waferbook --help | --version   (waferbook check --help, init --help: theirs)
 
-Options:
+Options of build:
   --data DIR    the data folder: wafers/<id>/wafer.md, targets.yaml, optional
                 analysis.yaml and runs/<run>.md (default: ./data)
   --out DIR     where the site is written (default: ./site). The folder is
@@ -57,7 +59,7 @@ export function parseArgs(argv: string[]): ParsedArgs {
   if (argv.length === 0 || argv[0] === "--help" || argv[0] === "-h" || argv[0] === "help") return { command: "help" };
   if (argv[0] === "--version") return { command: "version" };
   if (argv[0] !== "build") {
-    const hint = didYouMean(argv[0], ["build"]);
+    const hint = didYouMean(argv[0], ["build", "check", "init"]);
     return { command: "usage-error", message: `unknown command ${JSON.stringify(argv[0])}${hint ? ` — did you mean "${hint}"?` : ""}` };
   }
   const options: BuildOptions = { data: "data", out: "site", strict: false, basePath: "", quiet: false, cache: undefined };
