@@ -69,6 +69,9 @@ export function fromDiskChecks(getSite: () => Site): void {
     const header = await page.evaluate(() => { const s = getComputedStyle(document.querySelector("header.top")!); return { display: s.display, background: s.backgroundColor }; });
     expect(header.display).toBe("flex");
     expect(header.background).not.toBe("rgba(0, 0, 0, 0)");
+    // The wafer table's script runs from disk too, and keeps its sort in the address.
+    await page.locator("#wafer-table thead th").first().locator("button.sort").click();
+    expect(page.url()).toContain("sort=0");
 
     // The header's Runs link, then a run, then one of its wafers: each lands on a page file, not a folder listing.
     await Promise.all([page.waitForURL(/\/runs\/index\.html$/), page.click("header.top nav >> text=Runs")]);
