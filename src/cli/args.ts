@@ -67,7 +67,7 @@ const build = define<BuildOptions>({
     data: COMMON_OPTIONS.data,
     out: { type: "string", arg: "DIR", help: "where the site is written (default: ./site). The folder is\nreplaced only when the build succeeds; a failed build leaves\nthe previous site as it was. Wafer pages whose content has\nnot changed are carried over from the previous site." },
     strict: { type: "boolean", help: "exit with code 1 when any input error was found (for CI)" },
-    base: { type: "string", arg: "PATH", help: "serve the site under a sub-path, e.g. /qual/ (default: /)" },
+    base: { type: "string", arg: "PATH", help: "absolute links under PATH for a web server, e.g. /qual/ or /\n(default: relative links, which work opened from disk and\non a server under any path)" },
     quiet: COMMON_OPTIONS.quiet,
     cache: { type: "string", arg: "DIR", help: "where analysis results are kept between builds, keyed by the\nwafer's files, settings and the analysis code (default:\n.waferbook-cache/ beside the --out folder)" },
     "no-cache": { type: "boolean", help: "analyse every wafer from its raw files and draw every page\nafresh, ignoring the cache and the pages of the previous site" },
@@ -81,7 +81,7 @@ const build = define<BuildOptions>({
       data: (v.data as string | undefined) ?? "data",
       out,
       strict: v.strict === true,
-      basePath: v.base === undefined ? "/" : basePath(v.base as string),
+      basePath: v.base === undefined ? "" : basePath(v.base as string),
       quiet: v.quiet === true,
       cache: lastCache === "no-cache" ? null : lastCache === "cache" ? (v.cache as string) : undefined,
     };
@@ -94,6 +94,9 @@ export const COMMANDS = {
 };
 
 export type CommandName = keyof typeof COMMANDS;
+
+/** Commands that read their own arguments (src/cli/check.ts, init.ts), dispatched by main.ts before parseArgs. */
+export const SELF_PARSED = ["check", "init"] as const;
 type OptionsOf<K extends CommandName> = (typeof COMMANDS)[K] extends CommandSpec<infer T> ? T : never;
 export type CommandRun = { [K in CommandName]: { command: K; options: OptionsOf<K> } }[CommandName];
 
@@ -145,11 +148,15 @@ export const HELP = `waferbook — builds a qualification site from wafer record
 
 Usage:
 ${(Object.keys(COMMANDS) as CommandName[]).map((n) => `  waferbook ${n} ${COMMANDS[n].usage}`).join("\n")}
+  waferbook check [--data DIR]
+  waferbook init <folder>
   waferbook <command> --help
   waferbook --help | --version
 
 Commands:
 ${(Object.keys(COMMANDS) as CommandName[]).map((n) => `  ${n.padEnd(8)}${COMMANDS[n].summary}`).join("\n")}
+  check   reads and validates everything, writes nothing (exit 1 on any input error)
+  init    creates a new data repository (targets, settings, an example wafer, CI files)
 
 Options of build:
 ${optionLines({ ...COMMANDS.build.options, ...STANDARD })}
@@ -214,6 +221,6 @@ export function parseArgs(argv: string[]): ParsedArgs {
 }
 
 function unknownCommand(word: string): ParsedArgs {
-  const hint = didYouMean(word, Object.keys(COMMANDS));
+  const hint = didYouMean(word, [...Object.keys(COMMANDS), ...SELF_PARSED]);
   return usageError(`unknown command ${JSON.stringify(word)}${hint ? ` — did you mean "${hint}"?` : ""}`);
 }

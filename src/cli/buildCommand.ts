@@ -4,6 +4,7 @@
  * so stdout carries nothing but the result. Returns the exit code (args.ts EXIT).
  */
 import path from "node:path";
+import { siteWrittenMessage } from "./siteMessage.ts";
 import { writeFile } from "node:fs/promises";
 import { EXIT, type BuildOptions } from "./args.ts";
 import { build, BuildLockedError, BuildStoppedError } from "./build.ts";
@@ -28,7 +29,7 @@ export async function runBuild(options: BuildOptions, io: CommandIO): Promise<nu
       io.err("waferbook: nothing could be built; the previous site was left as it was.");
       return EXIT.inputErrors;
     }
-    io.out(`site written to ${path.relative(process.cwd(), result.outDir) || "."}/index.html`);
+    io.out(siteWrittenMessage(path.relative(process.cwd(), result.outDir) || ".", options.basePath));
     const errors = result.problems.filter((p) => p.severity === "error").length;
     if (options.strict && errors > 0) {
       io.err(`waferbook: --strict: ${errors} input error${errors === 1 ? "" : "s"} (listed above)`);

@@ -4,8 +4,9 @@
  * or nothing built; 2 bad usage; 70 internal error (args.ts EXIT, README).
  * Only an internal error prints a stack trace.
  */
-import { EXIT, parseArgs, type CommandName, type CommandRun } from "./args.ts";
+import { EXIT, SELF_PARSED, parseArgs, type CommandName, type CommandRun } from "./args.ts";
 import { reportInternalError } from "./report.ts";
+import { runCommand } from "./commands.ts";
 
 export interface CommandIO {
   /** The command's result (summary, machine-readable output): stdout. */
@@ -23,6 +24,9 @@ const RUNNERS: { [K in CommandName]: Runner<K> } = {
 
 export async function main(argv: string[]): Promise<number> {
   const io: CommandIO = { out: (s) => process.stdout.write(s + "\n"), err: (s) => process.stderr.write(s + "\n") };
+  // check and init: each command in its own file (arguments, help and all).
+  const first = argv[0] as (typeof SELF_PARSED)[number];
+  if (SELF_PARSED.includes(first)) return runCommand(first, argv.slice(1), io);
   try {
     const parsed = parseArgs(argv);
     if (parsed.command === "help") {

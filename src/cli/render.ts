@@ -13,6 +13,7 @@ import { promises as fs } from "node:fs";
 import path from "node:path";
 import v8 from "node:v8";
 import type { SiteMeta, waferPageExtras } from "../publish/siteModel.ts";
+import { siteRoot, siteUrl } from "../publish/siteUrl.ts";
 import { PACKAGE_ROOT } from "./paths.ts";
 import type { PageModel } from "./waferPages.ts";
 
@@ -66,16 +67,34 @@ export async function renderSite(model: object, folders: readonly string[], outD
   return written + (await renderWaferPages(folders, outDir, scratchDir, meta, extras, fingerprints));
 }
 
-/** Runs Eleventy on templates/ (or one template of it) with `wb` as global data, into outDir; returns the number of files written. */
+type FilterThis = { page?: { url?: string | false; inputPath?: string } };
+
+/** The page a filter runs for, as its URL path ("/wafers/TQ-2401/"); a page without one cannot hold links. */
+function pageUrl(self: FilterThis): string {
+  const url = self.page?.url;
+  if (typeof url !== "string") throw new Error(`links need the page's URL, which ${self.page?.inputPath ?? "this template"} does not have`);
+  return url;
+}
+
+/**
+ * Runs Eleventy on templates/ (or one template of it) with `wb` as global data, into outDir; returns the number of files written.
+ * Filters: `link` turns a path from the site root into the link a page writes (`{{ "runs/" | link }}`),
+ * `siteRoot` gives the root for scripts that build links (`{{ page.url | siteRoot }}`; src/publish/siteUrl.ts).
+ */
 export async function renderTemplates(input: string, outDir: string, wb: unknown): Promise<number> {
   process.env.ELEVENTY_SKIP_ESM_RESOLVER ??= "1";
   const { Eleventy } = await import("@11ty/eleventy");
+  const basePath = (wb as { meta?: { basePath?: string } }).meta?.basePath ?? "";
   const elev = new Eleventy(input, outDir, {
     source: "cli",
     quietMode: true,
     configPath: path.join(PACKAGE_ROOT, ".eleventy.js"),
-    config(c: { addGlobalData: (name: string, value: unknown) => void }) {
+    config(c: { addGlobalData: (name: string, value: unknown) => void; addFilter: (name: string, f: (this: FilterThis, ...args: never[]) => string) => void }) {
       c.addGlobalData("wb", wb);
+      c.addFilter("link", function (this: FilterThis, target: string) {
+        return siteUrl(target, pageUrl(this), basePath);
+      });
+      c.addFilter("siteRoot", (url: string) => siteRoot(url, basePath));
     },
   });
   elev.disableLogger();

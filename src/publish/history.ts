@@ -3,6 +3,7 @@
  * folder, with the wafers each affected) and, per wafer, its own commits and
  * its verdicts under every version of targets.yaml since it was recorded.
  */
+import { siteUrl } from "./siteUrl.ts";
 import type { DataHistory } from "../read/history.ts";
 import type { GitCommit } from "../read/gitHistory.ts";
 import { verdictsOverTime, type WaferForHistory } from "../judge/verdictHistory.ts";
@@ -35,14 +36,14 @@ function targetsRow(c: GitCommit, history: DataHistory, wafers: readonly (WaferF
     first: i === history.targetsVersions.length - 1,
     limits: t.limits,
     other: t.other,
-    flips: t.flips.map((f) => ({ ...f, href: known.has(f.id) ? `${basePath}wafers/${f.id}/` : "" })),
+    flips: t.flips.map((f) => ({ ...f, href: known.has(f.id) ? siteUrl(`wafers/${f.id}/`, "/changes/", basePath) : "" })),
   };
 }
 
 /** Decisions a commit recorded (from DataHistory.decisions), for the changes page. */
 function decisionsIn(c: GitCommit, history: DataHistory | null, known: Set<string>, basePath: string) {
   const out: { id: string; href: string }[] = [];
-  for (const [id, d] of history?.decisions ?? []) if (d.hash === c.hash) out.push({ id, href: known.has(id) ? `${basePath}wafers/${id}/` : "" });
+  for (const [id, d] of history?.decisions ?? []) if (d.hash === c.hash) out.push({ id, href: known.has(id) ? siteUrl(`wafers/${id}/`, "/changes/", basePath) : "" });
   return out.sort((a, b) => a.id.localeCompare(b.id));
 }
 
@@ -55,7 +56,7 @@ function commitRow(c: GitCommit, known: Set<string>, basePath: string) {
     subject: c.subject,
     files: c.dataFiles,
     targetsChanged: c.dataFiles.includes("targets.yaml"),
-    wafers: affectedWafers(c).map((id) => ({ id, href: known.has(id) ? `${basePath}wafers/${id}/` : "" })),
+    wafers: affectedWafers(c).map((id) => ({ id, href: known.has(id) ? siteUrl(`wafers/${id}/`, "/changes/", basePath) : "" })),
   };
 }
 

@@ -1,9 +1,12 @@
 /**
  * The site search index: one MiniSearch document per wafer (id, run, grade,
  * verdict, reasons, notes) and per growth run (id, notes), serialised at build
- * time to /search-index.json and loaded in the browser by assets/search.js with
- * MiniSearch.loadJS. Hrefs are relative to the site root (the page adds the
- * base path), so the index does not depend on where the site is served.
+ * time into assets/search-index.js and loaded in the browser by assets/search.js
+ * with MiniSearch.loadJS. The index is a script, not a JSON file fetched by the
+ * page, because browsers refuse fetch() on pages opened from disk (file://)
+ * while <script src> works there. Hrefs are paths from the site root (the page
+ * turns them into links, src/publish/siteUrl.ts), so the index does not depend
+ * on where the site is served.
  */
 import { promises as fs } from "node:fs";
 import path from "node:path";
@@ -62,9 +65,14 @@ export function searchIndexJson(docs: SearchDoc[]): string {
   return JSON.stringify({ options: SEARCH_OPTIONS, index: ms.toJSON() });
 }
 
-/** Writes search-index.json and MiniSearch's browser build (assets/minisearch.js) into the output. */
+/** The index as a script that sets window.waferbookSearchIndex (JSON is a JavaScript expression). */
+export function searchIndexScript(json: string): string {
+  return `window.waferbookSearchIndex = ${json};\n`;
+}
+
+/** Writes the index (assets/search-index.js) and MiniSearch's browser build (assets/minisearch.js) into the output. */
 export async function writeSearch(outcomes: WaferOutcome[], runs: Map<string, RunNotes>, outDir: string, packageRoot: string): Promise<void> {
-  await fs.writeFile(path.join(outDir, "search-index.json"), searchIndexJson(searchDocuments(outcomes, runs)));
   await fs.mkdir(path.join(outDir, "assets"), { recursive: true });
+  await fs.writeFile(path.join(outDir, "assets", "search-index.js"), searchIndexScript(searchIndexJson(searchDocuments(outcomes, runs))));
   await fs.copyFile(path.join(packageRoot, "node_modules", "minisearch", "dist", "umd", "index.js"), path.join(outDir, "assets", "minisearch.js"));
 }

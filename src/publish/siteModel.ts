@@ -4,6 +4,7 @@
  * (waferPageExtras). Built once per build from the wafer outcomes (slim:
  * figures only, no bulk arrays).
  */
+import { siteUrl } from "./siteUrl.ts";
 import type { WaferOutcome } from "../cli/pipeline.ts";
 import type { RunNotes } from "../read/site.ts";
 import { formatProblem, type Problem } from "../validate/problem.ts";
@@ -45,12 +46,13 @@ export function waferPageExtras(sorted: readonly WaferOutcome[], basePath: strin
   return new Map(
     sorted.map((o) => {
       const run = o.record?.run;
+      const page = `/wafers/${o.folder}/`;
       return [
         o.folder,
         {
           ...neighbours.get(o.folder),
           history: waferHistoryModel(history, o.folder, historyInput(o)),
-          crumbs: [{ label: "Wafers", href: basePath }, ...(run ? [{ label: `Run ${run}`, href: `${basePath}runs/${run}/` }] : []), { label: o.folder }],
+          crumbs: [{ label: "Wafers", href: siteUrl("", page, basePath) }, ...(run ? [{ label: `Run ${run}`, href: siteUrl(`runs/${run}/`, page, basePath) }] : []), { label: o.folder }],
         },
       ];
     }),
@@ -107,7 +109,7 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
     return {
       comparison: comparisons.get(id)!,
       id,
-      crumbs: [{ label: "Runs", href: `${meta.basePath}runs/` }, { label: id }],
+      crumbs: [{ label: "Runs", href: siteUrl("runs/", `/runs/${id}/`, meta.basePath) }, { label: id }],
       meta: Object.entries(notes?.meta ?? {}).map(([k, v]) => ({ key: k, value: v })),
       notesHtml: renderNotes(notes?.notes ?? ""),
       wafers: members,

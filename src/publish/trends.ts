@@ -4,6 +4,7 @@
  * and by reactor, with flagged points linking to their wafers and a table
  * alternative. Numbers are formatted here; templates only place strings.
  */
+import { siteUrl } from "./siteUrl.ts";
 import { METRIC_BY_KEY, METRICS, type MetricSpec } from "../analyse/metrics.ts";
 import { describeBaseline, orderByDate, trendGroups, type Trend, type TrendInput, type TrendPoint } from "../judge/trends.ts";
 import { DEFAULT_MAX_PASSES, ROUGH_BASELINE_BELOW } from "../judge/phaseOne.ts";
@@ -121,9 +122,9 @@ export function trendsModel(wafers: readonly TrendWafer[], targets: Targets | un
   const settings = targets?.trends ?? DEFAULT_TREND_SETTINGS;
   const by = settings.limitsBy ?? "none";
   const production = productionGrades(targets);
-  const href = (id: string) => `${basePath}wafers/${id}/`;
   const pages = [];
   for (const spec of METRICS) {
+    const href = (id: string) => siteUrl(`wafers/${id}/`, `/trends/${spec.key}/`, basePath);
     const inputs: TrendInput[] = wafers.filter((w) => w.values[spec.key] !== undefined && w.grown).map((w) => ({ id: w.id, date: w.grown, run: w.run, reactor: w.reactor, value: w.values[spec.key]!, grade: w.grade, error: w.verdict === "error" }));
     if (inputs.length === 0) continue;
     const groups = trendGroups(inputs, settings, { metric: spec.key, productionGrades: production, bounds: spec.bounds, group: "" });
@@ -170,7 +171,7 @@ export function trendsModel(wafers: readonly TrendWafer[], targets: Targets | un
       })),
     });
   }
-  const exclusions = (settings.exclude ?? []).map((e) => ({ wafer: e.wafer, href: wafers.some((w) => w.id === e.wafer) ? href(e.wafer) : "", metric: e.metric ? METRIC_BY_KEY.get(e.metric)?.label ?? e.metric : "every metric", reason: e.reason }));
+  const exclusions = (settings.exclude ?? []).map((e) => ({ wafer: e.wafer, href: wafers.some((w) => w.id === e.wafer) ? siteUrl(`wafers/${e.wafer}/`, "/trends/", basePath) : "", metric: e.metric ? METRIC_BY_KEY.get(e.metric)?.label ?? e.metric : "every metric", reason: e.reason }));
   return {
     pages,
     baseline: describeBaseline(settings),

@@ -1,10 +1,16 @@
-// Site search: loads /search-index.json (built at build time) with MiniSearch
-// and lists matches that link to the wafer or run section that matched.
+// Site search: loads the index built at build time (assets/search-index.js,
+// which sets window.waferbookSearchIndex; a script rather than fetched JSON so
+// that search works on pages opened from disk) with MiniSearch and lists
+// matches that link to the wafer or run section that matched.
 (function () {
   "use strict";
   var form = document.getElementById("search-form");
   if (!form || typeof MiniSearch === "undefined") return;
-  var base = form.getAttribute("data-base") || "/";
+  // The site root from this page: "../" when links are relative (they name index.html, as a folder
+  // URL opened from disk shows a file listing), or the base path such as "/qual/" (tidy folder URLs).
+  var root = form.getAttribute("data-root") || "";
+  var relative = root.charAt(0) !== "/";
+  function link(href) { return root + href + (relative && (href === "" || href.slice(-1) === "/") ? "index.html" : ""); }
   var input = document.getElementById("search-q");
   var status = document.getElementById("search-status");
   var list = document.getElementById("search-results");
@@ -28,7 +34,7 @@
       var where = anchorFor(hit);
       var li = document.createElement("li");
       var a = document.createElement("a");
-      a.href = base + hit.href + "#" + where[0];
+      a.href = link(hit.href) + "#" + where[0];
       a.textContent = (hit.kind === "run" ? "Run " : "Wafer ") + hit.title;
       li.appendChild(a);
       var info = document.createElement("span");
@@ -38,12 +44,10 @@
       list.appendChild(li);
     });
   }
-  fetch(base + "search-index.json").then(function (r) {
-    if (!r.ok) throw new Error("HTTP " + r.status);
-    return r.json();
-  }).then(function (data) {
-    show(MiniSearch.loadJS(data.index, data.options));
-  }).catch(function (e) {
-    status.textContent = "The search index could not be loaded (" + e.message + ").";
-  });
+  var data = window.waferbookSearchIndex;
+  if (!data) {
+    status.textContent = "The search index (assets/search-index.js) did not load, so search cannot run; the wafer table and run list still work.";
+    return;
+  }
+  show(MiniSearch.loadJS(data.index, data.options));
 })();

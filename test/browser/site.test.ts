@@ -2,7 +2,8 @@
  * The built demo site in a real browser (Debian's Chromium via playwright-core):
  * a crawl of every page reachable from the index, accessibility (axe-core),
  * keyboard reach, verdict marks, the wafer table's sorting and filters, site
- * search, screenshots at desktop and phone widths, and the print report.
+ * search, the site opened from disk (file://, fromDisk.ts), screenshots at
+ * desktop and phone widths, and the print report.
  * One build, one server and one browser for the whole file.
  */
 import { promises as fs, readFileSync } from "node:fs";
@@ -10,6 +11,7 @@ import path from "node:path";
 import { PNG } from "pngjs";
 import type { BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { fromDiskChecks } from "./fromDisk.ts";
 import { OUTPUT, ROOT, startSite, type Site } from "./harness.ts";
 
 interface PageReport {
@@ -29,8 +31,8 @@ const otherLinks = new Map<string, string>(); // url → page that links it
 let waferUrl = "";
 let runUrl = "";
 
-/** Path and query of a URL: the crawl's page key. */
-const keyOf = (u: URL) => u.pathname + u.search;
+/** Path and query of a URL: the crawl's page key (a folder and its index.html are one page: links name index.html so the site opens from disk). */
+const keyOf = (u: URL) => u.pathname.replace(/\/index\.html$/, "/") + u.search;
 const isPage = (u: URL) => u.pathname.endsWith("/") || u.pathname.endsWith(".html");
 
 /** Pixels of a canvas screenshot that differ clearly from its corner (background) pixel. */
@@ -85,8 +87,8 @@ async function visit(page: Page, url: URL, queue: URL[]): Promise<void> {
     u.hash = "";
     if (isPage(u)) queue.push(u);
     else if (!otherLinks.has(u.href)) otherLinks.set(u.href, key);
-    if (!waferUrl && /\/wafers\/[^/]+\/$/.test(u.pathname)) waferUrl = u.href;
-    if (!runUrl && /\/runs\/[^/]+\/$/.test(u.pathname)) runUrl = u.href;
+    if (!waferUrl && /\/wafers\/[^/]+\/(index\.html)?$/.test(u.pathname)) waferUrl = u.href;
+    if (!runUrl && /\/runs\/[^/]+\/(index\.html)?$/.test(u.pathname)) runUrl = u.href;
   }
 }
 
@@ -121,7 +123,7 @@ async function crawl(): Promise<void> {
     await visit(page, u, queue);
     await quiet();
     // The search page is reached through the header form; search for the first wafer so its result links are crawled too.
-    if (current === "/search/" && waferUrl) queue.push(new URL(`/search/?q=${waferUrl.split("/").at(-2)}`, site.origin));
+    if (current === "/search/" && waferUrl) queue.push(new URL(`/search/?q=${/\/wafers\/([^/]+)\//.exec(waferUrl)![1]}`, site.origin));
   }
   await ctx.close();
 }
@@ -321,11 +323,11 @@ describe("site search", () => {
   it("finds a wafer by id and by a word of its notes, linking to the section", async () => {
     const ctx = await site.browser.newContext();
     const page = await ctx.newPage();
-    const id = waferUrl.split("/").at(-2)!;
+    const id = /\/wafers\/([^/]+)\//.exec(waferUrl)![1];
     await page.goto(`${site.origin}/search/?q=${id}`, { waitUntil: "load" });
     await page.waitForSelector("#search-results li a");
     const first = await page.getAttribute("#search-results li a", "href");
-    expect(first).toBe(`/wafers/${id}/#summary`);
+    expect(first).toBe(`../wafers/${id}/index.html#summary`);
     // A long word from that wafer's notes leads to its #notes section.
     await page.goto(waferUrl);
     const notes = (await page.textContent("#notes .notes")) ?? "";
@@ -335,16 +337,18 @@ describe("site search", () => {
       await page.goto(`${site.origin}/search/?q=${encodeURIComponent(word)}`, { waitUntil: "load" });
       await page.waitForSelector("#search-results li a");
       const hrefs = await page.$$eval("#search-results li a", (as) => as.map((a) => a.getAttribute("href")));
-      expect(hrefs).toContain(`/wafers/${id}/#notes`);
+      expect(hrefs).toContain(`../wafers/${id}/index.html#notes`);
     }
     // The header search box submits to the search page.
     await page.goto(`${site.origin}/`);
     await page.fill("#site-search", id);
-    await Promise.all([page.waitForURL(/\/search\/\?q=/), page.press("#site-search", "Enter")]);
+    await Promise.all([page.waitForURL(/\/search\/(index\.html)?\?q=/), page.press("#site-search", "Enter")]);
     await page.waitForSelector("#search-results li a");
     await ctx.close();
   });
 });
+
+describe("opened from disk (file://)", () => fromDiskChecks(() => site));
 
 describe("screenshots", () => {
   it("index and a wafer page at 1280 px and 390 px, without sideways scrolling", async () => {

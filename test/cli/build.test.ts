@@ -43,7 +43,7 @@ describe("waferbook build on the demo data", () => {
     const wafers = (await fs.readdir(path.join(root, "data", "wafers"))).sort();
     expect(wafers.length).toBeGreaterThanOrEqual(12);
     for (const w of wafers) {
-      expect(index).toContain(`href="/wafers/${w}/"`);
+      expect(index).toContain(`href="wafers/${w}/index.html"`);
       const page = await fs.readFile(path.join(out, "wafers", w, "index.html"), "utf8");
       expect(page).toContain(`Wafer ${w}`);
       const results = JSON.parse(await fs.readFile(path.join(out, "wafers", w, "results.json"), "utf8"));
@@ -127,6 +127,6 @@ describe("a wafer added by hand following docs/formats.md", () => {
     expect(res.metrics.gate_density_slope.value / 5e11).toBeCloseTo(1, 2);
     expect(res.metrics.turn_on_voltage.value).toBeCloseTo(0.4, 2);
     const index = await fs.readFile(path.join(site, "index.html"), "utf8");
-    expect(index).toContain('href="/wafers/HAND-1/"');
+    expect(index).toContain('href="wafers/HAND-1/index.html"');
   });
 });

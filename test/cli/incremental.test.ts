@@ -43,7 +43,7 @@ async function expectSameSite(incremental: string, fresh: string): Promise<void>
   expect(differing).toEqual([]);
 }
 
-const at = (data: string, out: string, fresh = false) => ({ data, out, strict: false, basePath: "/", quiet: true, cache: fresh ? null : path.join(tempDir(), `${path.basename(out)}-cache`) });
+const at = (data: string, out: string, fresh = false) => ({ data, out, strict: false, basePath: "", quiet: true, cache: fresh ? null : path.join(tempDir(), `${path.basename(out)}-cache`) });
 
 async function commitAll(data: string, message: string): Promise<void> {
   const env = { ...process.env, GIT_AUTHOR_NAME: "Test Grower", GIT_AUTHOR_EMAIL: "grower@example.invalid", GIT_COMMITTER_NAME: "Test Grower", GIT_COMMITTER_EMAIL: "grower@example.invalid", GIT_AUTHOR_DATE: "2026-05-01T10:00:00Z", GIT_COMMITTER_DATE: "2026-05-01T10:00:00Z" };
