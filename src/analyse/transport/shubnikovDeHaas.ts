@@ -86,7 +86,7 @@ function polynomialBackground(b: number[], rho: number[], order: number): number
  * |B| > 0 inside [lo, hi] with finite values, ascending (stable: equal fields
  * keep their input order), points at the same field averaged.
  */
-function cleanSweep(field: ArrayLike<number>, rho: ArrayLike<number>, lo: number, hi: number) {
+export function cleanSweep(field: ArrayLike<number>, rho: ArrayLike<number>, lo: number, hi: number) {
   const keep: number[] = [];
   let ascending = true;
   for (let i = 0; i < field.length; i++) {
@@ -180,21 +180,28 @@ export function shubnikovDeHaas(
 export interface HallSdhMismatch {
   /** 100·(n_Hall − n_SdH)/n_SdH, %. */
   mismatchPercent: number;
-  /** True when |mismatch| exceeds the tolerance: probable parallel conduction. */
+  /** Its standard error from both densities' standard errors, %. */
+  stdErrPercent: number;
+  /** True when |mismatch| exceeds the tolerance and 3 standard errors: probable parallel conduction. */
   parallelConduction: boolean;
   tolerancePercent: number;
 }
 
 /**
- * Compare a Hall density with the SdH density of the same point (both m⁻²). A
- * Hall density that differs from the well's SdH density by more than the
- * tolerance (default 5 %) points to a parallel conducting channel.
- * Throws RangeError unless both densities are finite and > 0.
+ * Compare a Hall density with the SdH density of the same point (both m⁻²,
+ * with standard errors, default 0). A Hall density that differs from the
+ * well's SdH density by more than the tolerance (default 5 %) and by more
+ * than three combined standard errors points to a parallel conducting
+ * channel. The standard error of m = 100·(n_H/n_S − 1) is
+ * 100·(n_H/n_S)·√((σ_H/n_H)² + (σ_S/n_S)²) (first-order propagation; common
+ * practice). Throws RangeError unless both densities are finite and > 0.
  */
-export function hallSdhMismatch(nHall: number, nSdh: number, tolerancePercent = 5): HallSdhMismatch {
+export function hallSdhMismatch(nHall: number, nSdh: number, tolerancePercent = 5, hallStdErr = 0, sdhStdErr = 0): HallSdhMismatch {
   if (!(nHall > 0 && nSdh > 0) || !allFinite(nHall, nSdh)) {
     throw new RangeError(`hallSdhMismatch: densities must be finite and > 0 (Hall ${nHall}, SdH ${nSdh})`);
   }
   const m = (100 * (nHall - nSdh)) / nSdh;
-  return { mismatchPercent: m, parallelConduction: Math.abs(m) > tolerancePercent, tolerancePercent };
+  const se = 100 * (nHall / nSdh) * Math.hypot(hallStdErr / nHall, sdhStdErr / nSdh);
+  const stdErrPercent = Number.isFinite(se) ? se : Number.POSITIVE_INFINITY;
+  return { mismatchPercent: m, stdErrPercent, parallelConduction: Math.abs(m) > tolerancePercent && Math.abs(m) > 3 * stdErrPercent, tolerancePercent };
 }
