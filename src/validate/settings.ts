@@ -71,7 +71,7 @@ export const DEFAULT_SETTINGS: AnalysisSettings = {
   degeneracy: 4,
   effective_mass: 0.19,
   sdh_mismatch_tolerance: 5,
-  sdh_background_order: 1,
+  sdh_background_order: 2,
   sdh_min_r2: 0.9,
   sdh_max_lifetime_error: 30,
   sdh_amplitude_factor: "free",

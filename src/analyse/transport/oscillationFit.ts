@@ -48,7 +48,7 @@ export interface OscillationFitOptions {
   massRatio?: number;
   /** g_s·g_v (default 4). */
   degeneracy?: number;
-  /** Order of the background polynomial in B (default 1, 0–4). */
+  /** Order of the background polynomial in B (default 2, 0–4). */
   backgroundOrder?: number;
   /** Fewest periods in the window (default 3). */
   minPeriods?: number;
@@ -256,7 +256,7 @@ export function fitOscillations(
   const o = {
     massRatio: options.massRatio ?? 0.19,
     degeneracy: options.degeneracy ?? 4,
-    backgroundOrder: Math.max(0, Math.min(4, Math.round(options.backgroundOrder ?? 1))),
+    backgroundOrder: Math.max(0, Math.min(4, Math.round(options.backgroundOrder ?? 2))),
     minPeriods: options.minPeriods ?? 3,
     minR2: options.minR2 ?? 0.9,
     maxLifetimeError: options.maxLifetimeError ?? 0.3,

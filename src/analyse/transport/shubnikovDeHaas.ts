@@ -3,10 +3,13 @@
  *
  * The oscillations are periodic in 1/B with frequency f (T): Δ(1/B) = g_s·g_v·e/(h·n),
  * so n_SdH = g_s·g_v·e·f/h (REFERENCES §7; Si(001), g = 4: n[cm⁻²] = 9.6720e10·f[T]).
+ * This spectrum only seeds the least-squares fit of the whole oscillation
+ * (oscillationFit.ts), which gives the reported n_SdH and τ_q.
  * Method: symmetrised ρ_xx(|B|) restricted to [minField, maxField]; smooth
- * background removed as a least-squares polynomial in B (default order 1: a
- * straight line; higher orders also absorb the large, slow high-field swings of
- * strongly damped oscillations, which then lose their spectral peak); resampled uniformly in 1/B; Hann
+ * background removed as a least-squares polynomial in B (default order 2, which
+ * also follows the curved magnetoresistance of a parallel channel; orders above
+ * 3 also absorb the large, slow high-field swings of strongly damped
+ * oscillations, which then lose their spectral peak); resampled uniformly in 1/B; Hann
  * window; zero-padded; FFT; dominant peak with sub-bin interpolation
  * (inverseFieldSpectrum.ts). Skipped, never guessed, when the peak lies below
  * three periods across the 1/B range (f·Δ(1/B) < 3), or is not clearly above the
@@ -30,7 +33,7 @@ export interface SdhOptions {
   maxField?: number;
   /** g_s·g_v (Si(001) default 4). */
   degeneracy?: number;
-  /** Order of the background polynomial in B (default 1, 0–4). */
+  /** Order of the background polynomial in B (default 2, 0–4). */
   backgroundOrder?: number;
   /** Fewest periods across the 1/B range (default 3). */
   minPeriods?: number;
@@ -128,7 +131,7 @@ export function shubnikovDeHaas(
   options: SdhOptions = {},
 ): SdhResult | Skipped {
   if (field.length !== rhoXX.length) throw new RangeError(`shubnikovDeHaas: ${field.length} fields, ${rhoXX.length} values`);
-  const order = Math.max(0, Math.min(4, Math.round(options.backgroundOrder ?? 1)));
+  const order = Math.max(0, Math.min(4, Math.round(options.backgroundOrder ?? 2)));
   const minPeriods = options.minPeriods ?? 3;
   const { b, r } = cleanSweep(field, rhoXX, options.minField ?? 0, options.maxField ?? Number.POSITIVE_INFINITY);
   const need = Math.max(16, order + 8);
