@@ -18,7 +18,9 @@
  * hall_sdh_mismatch (largest |mismatch| over the points, %), gate_hysteresis
  * (|mean shift|, V), quantum_lifetime (median τ_q over the points where it is
  * determined), scattering_time_ratio (median τ_t/τ_q over the same points).
- * Points whose τ_q is not determined are left out of the medians. Pure; SI inside.
+ * Points whose τ_q is not determined are left out of the medians; so are
+ * points flagged for parallel conduction, whose ρxx oscillation a second
+ * channel reshapes. Pure; SI inside.
  */
 import type { AnalysisSettings } from "../../validate/settings.ts";
 import type { Sweep } from "../../validate/sweep.ts";
@@ -101,6 +103,10 @@ export function analysePointDepth(p: TransportPoint, settings: AnalysisSettings)
     out.mismatch = hallSdhMismatch(p.density, oscillation.density.value, settings.sdh_mismatch_tolerance, hallDensityStdErr, oscillation.density.stdErr);
   }
   out.dingle = dinglePlot(oscillation);
+  if (out.mismatch?.parallelConduction && oscillation.quantumLifetime.ok) {
+    // A parallel channel shunts and reshapes the well's oscillation in ρxx: its amplitude no longer gives τ_q.
+    out.oscillation = { ...oscillation, quantumLifetime: skipped(`probable parallel conduction (Hall density ${out.mismatch.mismatchPercent.toFixed(1)} % from the SdH density): a second channel reshapes the oscillation of ρxx, so its amplitude does not give the well's τ_q`) };
+  }
   const tau = pointLifetime(out);
   if (tau !== undefined && derived.ok) out.scatteringTimeRatio = dingleRatio(derived.transportLifetime, tau);
   return out;
