@@ -26,6 +26,8 @@ interface Work {
   /** ρ̂_bg·4·X/sinh X and ρ̂_bg·4·2X/sinh 2X at each point. */
   scale: Float64Array;
   scale2: Float64Array;
+  /** Work columns of the oscillation terms (reused by every solve). */
+  osc: Float64Array[];
 }
 
 function powerColumns(L: ModelLayout): Float64Array[] {
@@ -40,10 +42,7 @@ function powerColumns(L: ModelLayout): Float64Array[] {
 /** Linear solve at fixed β, f: coefficients [c_0 … c_k, α, γ] and SS_res. */
 function project(w: Work, beta: number, f: number) {
   const n = w.rho.length;
-  const cos = new Float64Array(n);
-  const sin = new Float64Array(n);
-  const cos2 = new Float64Array(n);
-  const sin2 = new Float64Array(n);
+  const [cos, sin, cos2, sin2] = w.osc;
   for (let i = 0; i < n; i++) {
     const b = w.L.field[i];
     const d = Math.exp(-beta / b);
@@ -149,7 +148,7 @@ export function seedOscillation(L: ModelLayout, rho: Float64Array, f0: number, s
     }
   };
   setScale(bg.coef);
-  const w: Work = { L, rho, powers, scale, scale2 };
+  const w: Work = { L, rho, powers, scale, scale2, osc: Array.from({ length: 4 }, () => new Float64Array(n)) };
   // Dingle estimate on ρ − ρ̂_bg relative to 4ρ̂_bg·X/sinh X.
   const resid = new Float64Array(n);
   for (let i = 0; i < n; i++) {

@@ -10,7 +10,7 @@
  * also follows the curved magnetoresistance of a parallel channel; orders above
  * 3 also absorb the large, slow high-field swings of strongly damped
  * oscillations, which then lose their spectral peak); resampled uniformly in 1/B; Hann
- * window; zero-padded; FFT; dominant peak with sub-bin interpolation
+ * window; zero-padded (4×); FFT; dominant peak with sub-bin interpolation
  * (inverseFieldSpectrum.ts). Skipped, never guessed, when the peak lies below
  * three periods across the 1/B range (f·Δ(1/B) < 3), or is not clearly above the
  * spectrum's median (default 6×) in the band from one period across the range
@@ -146,7 +146,8 @@ export function shubnikovDeHaas(
   for (let i = 1; i < b.length; i++) coarsest = Math.max(coarsest, 1 / b[i - 1] - 1 / b[i]);
   const fMax = 1 / (2 * coarsest);
   // The peak lies below fMax and the chart reaches 3× the peak: no bin above 3·fMax is read.
-  const spec = amplitudeSpectrum(trace.value, step, 8, 3 * fMax);
+  // 4× zero-padding: the peak only seeds the fit (oscillationFit.ts), which refines f.
+  const spec = amplitudeSpectrum(trace.value, step, 4, 3 * fMax);
   const peak = dominantPeak(spec, 1 / span, fMax);
   if (!peak) return skipped("no oscillation peak in the spectrum above one period across the 1/B range");
   const periods = peak.frequency * span;
