@@ -132,7 +132,7 @@ function sdhCharts(id: string, x: DeviceDepth): ChartSpec[] {
       x: { label: "Inverse field 1/B (T⁻¹)" },
       y: { label: "ln[Δρ/(4ρ_bg·X/sinh X)]" },
       series: [markerSeries("one-period amplitudes", d.inverseField.map((v, i) => [v, d.ordinate[i]])), { label: "fitted line ln A − β/B", points: u.map((v) => [v, d.line.intercept + d.line.slope * v]), line: true, role: "fit" }],
-      summary: `Per-period amplitudes of the same data against the fit's line (slope −β = ${f(d.line.slope)} T, A = ${f(o.amplitudeFactor.value)}); ${o.quantumLifetime.ok ? `τ_q = ${pm(o.quantumLifetime.value * 1e12, o.quantumLifetime.stdErr * 1e12)} ps` : `τ_q not determined: ${o.quantumLifetime.reason}`}`,
+      summary: `Per-period amplitudes of the same data against the fit's line (β = ${f(-d.line.slope)} T, A = ${f(o.amplitudeFactor.value)}); ${o.quantumLifetime.ok ? `τ_q = ${pm(o.quantumLifetime.value * 1e12, o.quantumLifetime.stdErr * 1e12)} ps` : `τ_q not determined: ${o.quantumLifetime.reason}`}`,
     });
   }
   return charts;

@@ -165,12 +165,11 @@ export function analyseDeviceDepth(
   };
 }
 
-/** Why no point has a determined τ_q (the first point's reason as an example). */
+/** Why no point has a determined τ_q: the first fitted point's reason, else the first point's. */
 function lifetimeReason(points: PointDepth[]): string {
   if (points.length === 0) return "no field sweeps";
-  for (const d of points) {
-    if (!d.oscillation.ok) return `τ_q not determined at any point (e.g. ${d.file}: ${d.oscillation.reason})`;
-    if (!d.oscillation.quantumLifetime.ok) return `τ_q not determined at any point (e.g. ${d.file}: ${d.oscillation.quantumLifetime.reason})`;
-  }
-  return "τ_q not determined at any point";
+  const fitted = points.find((d) => d.oscillation.ok && !d.oscillation.quantumLifetime.ok);
+  if (fitted && fitted.oscillation.ok && !fitted.oscillation.quantumLifetime.ok) return `τ_q not determined at any point (e.g. ${fitted.file}: ${fitted.oscillation.quantumLifetime.reason})`;
+  const first = points.find((d) => !d.oscillation.ok);
+  return first && !first.oscillation.ok ? `τ_q not determined at any point (e.g. ${first.file}: ${first.oscillation.reason})` : "τ_q not determined at any point";
 }

@@ -107,7 +107,7 @@ export interface OscillationFit {
   spinSplitting?: { onsetField: number; harmonicRatio: number; note: string };
   temperature?: number;
   massRatio: number;
-  /** Fitted data and model, background removed, against 1/B (ascending), Ω. */
+  /** Fitted data and model, background removed, against 1/B (ascending), Ω; at most 200 points each, for charts. */
   curve: { inverseField: number[]; oscillation: number[] };
   model: { inverseField: number[]; oscillation: number[] };
 }
@@ -145,6 +145,19 @@ function prepare(b: number[], r: number[], lo: number, hi: number, order: number
   const first = field[0] ?? 0;
   const last = field[field.length - 1] ?? 0;
   return { L: { order, mid: (first + last) / 2, half: (last - first) / 2 || 1, field, thermal, thermal2 }, rho };
+}
+
+/** At most CURVE_POINTS evenly spaced entries of a chart curve. */
+const CURVE_POINTS = 200;
+function thin(x: number[], y: number[]): { inverseField: number[]; oscillation: number[] } {
+  const step = Math.max(1, x.length / CURVE_POINTS);
+  const inverseField: number[] = [];
+  const oscillation: number[] = [];
+  for (let q = 0; Math.floor(q * step) < x.length; q++) {
+    inverseField.push(x[Math.floor(q * step)]);
+    oscillation.push(y[Math.floor(q * step)]);
+  }
+  return { inverseField, oscillation };
 }
 
 /** Every other point (the starting values need fewer points than the fit), when there are more than 150. */
@@ -235,8 +248,8 @@ function fitWindow(P: Prepared, f0: number, o: Required<Omit<OscillationFitOptio
     fieldRange: [L.field[0], L.field[n - 1]],
     temperature,
     massRatio: o.massRatio,
-    curve: { inverseField: u, oscillation: data },
-    model: { inverseField: u, oscillation: fitted },
+    curve: thin(u, data),
+    model: thin(u, fitted),
   };
 }
 
