@@ -9,6 +9,7 @@ import { describe, expect, it } from "vitest";
 import { analyseFieldSweep, type TransportPoint } from "../../../src/analyse/transport/fieldSweep.ts";
 import { analysePointDepth, type PointDepth } from "../../../src/analyse/transport/deviceDepth.ts";
 import { fitOscillations } from "../../../src/analyse/transport/oscillationFit.ts";
+import { hallSdhMismatch } from "../../../src/analyse/transport/shubnikovDeHaas.ts";
 import { DEFAULT_SETTINGS, type AnalysisSettings } from "../../../src/validate/settings.ts";
 import type { Sweep } from "../../../src/validate/sweep.ts";
 import { lkDingle, lkFrequency, lkSweep, lkThermal, rng, type LkParams } from "../../helpers/lifshitzKosevich.ts";
@@ -202,5 +203,18 @@ describe("oscillation fit: rejections, spin splitting, settings", () => {
     const o = fitOscillations(r.point.trace.b, r.point.trace.rhoxx, 1, 2.9, { minField: 0.5, maxField: 2.5 });
     expect(o.ok).toBe(false);
     expect(() => fitOscillations([1, 2], [1], 1, 1)).toThrow(RangeError);
+  });
+});
+
+describe("Hall–SdH mismatch with its uncertainty", () => {
+  it("flags only beyond the tolerance and three combined standard errors (first-order propagation, common practice)", () => {
+    // m = 10 %; σ = 100·1.1·√((0.02/1.1)² + 0.02²) = 2.973 % [D]: 10 > 3σ = 8.92 → flagged
+    const a = hallSdhMismatch(1.1e15, 1e15, 5, 0.02e15, 0.02e15);
+    expect(a.stdErrPercent).toBeCloseTo(2.973, 3);
+    expect(a.parallelConduction).toBe(true);
+    // σ doubled: 3σ = 17.8 % > 10 % → not flagged
+    expect(hallSdhMismatch(1.1e15, 1e15, 5, 0.04e15, 0.04e15).parallelConduction).toBe(false);
+    // within the tolerance: never flagged, however small σ
+    expect(hallSdhMismatch(1.04e15, 1e15, 5, 1, 1).parallelConduction).toBe(false);
   });
 });
