@@ -19,6 +19,10 @@
  * an amplitude above `maxLowFrequencyRatio` (default 10) times the peak's: the
  * "peak" is then a side lobe of a slow swing spanning fewer than the minimum
  * number of periods (a low density whose oscillation is too slow for the window).
+ * When the whole window fails these tests, they are repeated once over the part
+ * of the window where the oscillation is visible (its RMS over a third of the
+ * 1/B range ≥ 10 % of the largest): a strongly damped oscillation lives at the
+ * high-field end only, where the Hann window hides it.
  * Units: B in T, ρ in Ω, f in T, n in m⁻².
  */
 import { Matrix, solve } from "ml-matrix";
@@ -131,9 +135,47 @@ export function shubnikovDeHaas(
   options: SdhOptions = {},
 ): SdhResult | Skipped {
   if (field.length !== rhoXX.length) throw new RangeError(`shubnikovDeHaas: ${field.length} fields, ${rhoXX.length} values`);
+  const { b, r } = cleanSweep(field, rhoXX, options.minField ?? 0, options.maxField ?? Number.POSITIVE_INFINITY);
+  const first = spectrumOfWindow(b, r, options);
+  if (first.ok || b.length < 16) return first;
+  // A strongly damped oscillation lives at the high-field end only, where the Hann window is small;
+  // its spectrum then shows the burst's slow envelope. Retry on the part where it is visible.
+  const lo = visibleFrom(b, r, Math.max(0, Math.min(4, Math.round(options.backgroundOrder ?? 2))));
+  if (!(lo > b[0] * 1.05)) return first;
+  const k = b.findIndex((x) => x >= lo);
+  const second = spectrumOfWindow(b.slice(k), r.slice(k), options);
+  return second.ok ? second : first;
+}
+
+/**
+ * Lowest field (T) where the background-free oscillation is still visible:
+ * its RMS over a third of the 1/B range is ≥ 10 % of the largest such RMS.
+ */
+function visibleFrom(b: number[], r: number[], order: number): number {
+  const bg = polynomialBackground(b, r, order);
+  const trace = resampleInverseField(b, r.map((v, i) => v - bg[i]), 256);
+  const v = trace.value;
+  const w = Math.floor(v.length / 3);
+  const rms: number[] = [];
+  let sum = 0;
+  for (let i = 0; i < v.length; i++) {
+    sum += v[i] * v[i];
+    if (i >= w) sum -= v[i - w] * v[i - w];
+    if (i >= w - 1) rms.push(Math.sqrt(Math.max(0, sum) / w));
+  }
+  const top = Math.max(...rms);
+  let last = 0;
+  rms.forEach((x, i) => {
+    if (x >= 0.1 * top) last = i;
+  });
+  // rms[i] covers samples i … i + w − 1 (ascending 1/B); its low-field end is the largest 1/B.
+  return 1 / trace.inverseField[Math.min(v.length - 1, last + w - 1)];
+}
+
+/** The spectral analysis of an ascending, clean window (see shubnikovDeHaas). */
+function spectrumOfWindow(b: number[], r: number[], options: SdhOptions): SdhResult | Skipped {
   const order = Math.max(0, Math.min(4, Math.round(options.backgroundOrder ?? 2)));
   const minPeriods = options.minPeriods ?? 3;
-  const { b, r } = cleanSweep(field, rhoXX, options.minField ?? 0, options.maxField ?? Number.POSITIVE_INFINITY);
   const need = Math.max(16, order + 8);
   if (b.length < need) return skipped(`only ${b.length} field points in the SdH range; need ${need}`);
   const bg = polynomialBackground(b, r, order);

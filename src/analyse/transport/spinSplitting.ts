@@ -4,7 +4,8 @@
  * Once the Zeeman splitting is resolved, each maximum of ρxx splits in two and
  * the oscillation gains a strong second harmonic (2f in the 1/B spectrum).
  * Per period of the fitted oscillation (uniform steps in 1/B), the relative
- * oscillation z = ρ/ρ_bg − 1 is projected by least squares onto
+ * oscillation divided by the fitted envelope of the fundamental,
+ * z = (ρ/ρ_bg − 1)/(4A·(X/sinh X)·e^(−β/B)), is projected by least squares onto
  * cos Θ, sin Θ, cos 2Θ, sin 2Θ (Θ = 2πf/B + φ, from the fit) and a local
  * straight line in 1/B (what is left of the background). The maxima of
  * cos Θ + h·cos 2Θ split when h > ¼ (its second derivative at Θ = 0 changes
@@ -23,7 +24,7 @@ export const SPLIT_RATIO = 0.25;
 export function spinSplittingOnset(
   L: ModelLayout,
   rho: Float64Array,
-  fit: { frequency: { value: number }; phase: { value: number }; background: { coefficients: number[] } },
+  fit: { frequency: { value: number }; phase: { value: number }; amplitudeFactor: { value: number }; dingleField: { value: number }; background: { coefficients: number[] } },
 ): { field: number; ratio: number } | null {
   const n = rho.length;
   const f = fit.frequency.value;
@@ -59,7 +60,9 @@ export function spinSplittingOnset(
       cols[3][q] = Math.sin(2 * th);
       cols[4][q] = 1;
       cols[5][q] = 1 / L.field[i] - 1 / L.field[idx[0]];
-      z[q] = rho[i] / background(p, L, i) - 1;
+      // Divided by the fitted envelope of the fundamental, which changes several-fold within one period when damping is strong.
+      const envelope = 4 * fit.amplitudeFactor.value * L.thermal[i] * Math.exp(-fit.dingleField.value / L.field[i]);
+      z[q] = (rho[i] / background(p, L, i) - 1) / envelope;
     });
     const sol = linearLeastSquares(cols, z);
     if (!sol) continue;
