@@ -26,7 +26,8 @@
  * split for h > ¼) the window is ended below it and the fit repeated, and
  * the result says so.
  * Not determined (reason given): fewer than `minPeriods` periods, R² of the
- * oscillation below `minR2`, a failed fit; τ_q alone also without a
+ * oscillation below `minR2`, a failed fit, or a frequency that ran to the edge
+ * of its search range (the spectral peak ± one resolution width 1/Δ(1/B)); τ_q alone also without a
  * temperature or when its relative standard error exceeds `maxLifetimeError`.
  * R² here is 1 − SS_res/Σ(ρ − ρ_bg)²: the share of the background-free
  * variation the oscillation term explains. Units: B, f in T, ρ in Ω, τ in s.
@@ -215,6 +216,7 @@ function fitWindow(P: Prepared, f0: number, o: Required<Omit<OscillationFitOptio
   const beta = p[dingleFieldIndex(k)];
   const periods = freq * span;
   if (!allFinite(freq, beta, r2, noise, se[frequencyIndex(k)], se[dingleFieldIndex(k)])) return skipped("the oscillation fit gave non-finite values");
+  if (Math.abs(freq - f0) >= 0.999 / span) return skipped(`the fitted frequency ran to the edge of its search range (${(f0 - 1 / span).toPrecision(3)}–${(f0 + 1 / span).toPrecision(3)} T around the spectral peak): no consistent oscillation`);
   if (periods < o.minPeriods) return skipped(`only ${periods.toFixed(1)} oscillation periods between ${L.field[0]} T and ${L.field[n - 1]} T; need ${o.minPeriods}`);
   if (r2 < o.minR2) return skipped(`the oscillation fit explains too little of the signal (R² ${r2.toFixed(3)} < ${o.minR2}): no clear Lifshitz–Kosevich oscillation`);
   const g = o.degeneracy;
