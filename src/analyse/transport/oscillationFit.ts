@@ -59,7 +59,7 @@ export interface OscillationFitOptions {
   maxLifetimeError?: number;
   /** "free" (default) or the fixed amplitude factor A. */
   amplitudeFactor?: number | "free";
-  /** Most field points fitted (default 300). */
+  /** About how many field points are fitted (default 200). */
   maxPoints?: number;
 }
 
@@ -276,7 +276,7 @@ export function fitOscillations(
     minR2: options.minR2 ?? 0.9,
     maxLifetimeError: options.maxLifetimeError ?? 0.3,
     amplitudeFactor: options.amplitudeFactor ?? "free",
-    maxPoints: options.maxPoints ?? 300,
+    maxPoints: options.maxPoints ?? 200,
   };
   const T = temperature !== undefined && temperature >= 0 && Number.isFinite(temperature) ? temperature : undefined;
   const { b, r } = cleanSweep(field, rhoXX, options.minField ?? 0, options.maxField ?? Number.POSITIVE_INFINITY);

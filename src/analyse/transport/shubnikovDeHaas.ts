@@ -180,7 +180,7 @@ function spectrumOfWindow(b: number[], r: number[], options: SdhOptions): SdhRes
   if (b.length < need) return skipped(`only ${b.length} field points in the SdH range; need ${need}`);
   const bg = polynomialBackground(b, r, order);
   const delta = r.map((v, i) => v - bg[i]);
-  const count = Math.min(2048, Math.max(256, 2 ** Math.ceil(Math.log2(2 * b.length))));
+  const count = Math.min(1024, Math.max(256, 2 ** Math.ceil(Math.log2(b.length))));
   const trace = resampleInverseField(b, delta, count);
   const span = 1 / b[0] - 1 / b[b.length - 1];
   const step = span / (count - 1);
