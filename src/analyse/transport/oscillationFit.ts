@@ -185,7 +185,7 @@ function fitWindow(P: Prepared, f0: number, o: Required<Omit<OscillationFitOptio
   const fit = denseLevenbergMarquardt(
     { n, y: rho, value: (p, i) => modelValue(p, L, i), gradient: (p, i, out) => modelGradient(p, L, i, out) },
     seed,
-    { min, max, fixed: fixedA ? [amplitudeIndex(k)] : [], maxIterations: 50 },
+    { min, max, fixed: fixedA ? [amplitudeIndex(k)] : [], maxIterations: 30 },
   );
   if (!fit) return skipped("the oscillation fit failed (singular Jacobian)");
   const p = fit.params.slice();
