@@ -1,6 +1,7 @@
 /**
  * results.json fields of the transport analyses in depth, in lab units: per
- * point (SdH density, mismatch, τ_t, l, k_F·l, τ_q) and per device (every fit
+ * point (SdH density and τ_q from the oscillation fit with standard errors,
+ * or why not determined; mismatch, τ_t, l, k_F·l, τ_t/τ_q) and per device (every fit
  * with its window, parameters, standard errors, R² and points, or its reason).
  */
 import type { DeviceAnalysis } from "../analyse/wafer.ts";
@@ -18,19 +19,27 @@ function roundTo(v: number | undefined | null, digits: number): number | null {
 export function pointDepthJson(d: DeviceAnalysis, file: string): Record<string, unknown> {
   const p: PointDepth | undefined = d.depth?.points.find((x) => x.file === file);
   if (!p) return {};
+  const o = p.oscillation;
+  const tq = o.ok ? o.quantumLifetime : null;
   return {
-    sdh_density_per_cm2: p.sdh.ok ? sig6OrNull(p.sdh.density * CM2) : null,
-    sdh_skipped: p.sdh.ok ? null : p.sdh.reason,
-    sdh_frequency_T: p.sdh.ok ? sig6OrNull(p.sdh.frequency) : null,
-    sdh_periods: p.sdh.ok ? roundTo(p.sdh.periods, 3) : null,
+    sdh_density_per_cm2: o.ok ? sig6OrNull(o.density.value * CM2) : null,
+    sdh_density_stderr_per_cm2: o.ok ? roundTo(o.density.stdErr * CM2, 3) : null,
+    sdh_skipped: o.ok ? null : o.reason,
+    sdh_frequency_T: o.ok ? sig6OrNull(o.frequency.value) : null,
+    sdh_periods: o.ok ? roundTo(o.periods, 3) : null,
+    oscillation_fit: o.ok
+      ? { r2: roundTo(o.r2, 6), residual_noise_ohm: roundTo(o.residualNoise, 4), residual_noise_relative: roundTo(o.residualNoiseRelative, 3), points: o.points, field_range_T: o.fieldRange.map((b) => sig6OrNull(b)), amplitude_factor: roundTo(o.amplitudeFactor.value, 4), amplitude_factor_stderr: o.amplitudeFactor.fixed ? null : roundTo(o.amplitudeFactor.stdErr, 3), phase_rad: roundTo(o.phase.value, 4), background_order: o.background.order, spin_splitting: o.spinSplitting?.note ?? null }
+      : null,
     hall_sdh_mismatch_percent: p.mismatch ? roundTo(p.mismatch.mismatchPercent, 4) : null,
+    hall_sdh_mismatch_stderr_percent: p.mismatch ? roundTo(p.mismatch.stdErrPercent, 3) : null,
     parallel_conduction: p.mismatch ? p.mismatch.parallelConduction : null,
     transport_lifetime_ps: p.derived.ok ? sig6OrNull(p.derived.transportLifetime * 1e12) : null,
     mean_free_path_um: p.derived.ok ? sig6OrNull(p.derived.meanFreePath * 1e6) : null,
     kf_l: p.derived.ok ? sig6OrNull(p.derived.kfl) : null,
-    quantum_lifetime_ps: p.dingle.ok ? sig6OrNull(p.dingle.quantumLifetime * 1e12) : null,
-    quantum_lifetime_skipped: p.dingle.ok ? null : p.dingle.reason,
-    dingle_ratio: sig6OrNull(p.dingleRatio),
+    quantum_lifetime_ps: tq?.ok ? sig6OrNull(tq.value * 1e12) : null,
+    quantum_lifetime_stderr_ps: tq?.ok ? roundTo(tq.stdErr * 1e12, 3) : null,
+    quantum_lifetime_skipped: tq ? (tq.ok ? null : tq.reason) : o.ok ? null : o.reason,
+    scattering_time_ratio: sig6OrNull(p.scatteringTimeRatio),
   };
 }
 
@@ -54,7 +63,8 @@ export function deviceDepthJson(d: DeviceAnalysis): unknown {
       ? { method: "least-squares line ln μ = α ln n + c", window: { min_density_per_cm2: sig6OrNull(pl.window.minDensity * CM2), max_density_per_cm2: sig6OrNull(pl.window.maxDensity * CM2), rule: pl.window.rule }, params: { alpha: sig6OrNull(pl.exponent), mobility_at_1e11_cm2_per_Vs: sig6OrNull(pl.mobilityAtReference * 1e4) }, errors: { alpha: sig6OrNull(pl.exponentStdErr) }, r2: sig6OrNull(pl.r2), points: pl.points }
       : { skipped: pl.reason },
     hysteresis: h.ok ? { up: h.up, down: h.down, mean_shift_V: sig6OrNull(h.meanShift), median_shift_V: sig6OrNull(h.medianShift), max_shift_V: sig6OrNull(h.maxShift), points: h.points } : { skipped: h.reason },
-    quantum_lifetime: x.quantumLifetime.ok ? { median_ps: sig6OrNull(x.quantumLifetime.value * 1e12), points: x.quantumLifetime.points } : { skipped: x.quantumLifetime.reason },
+    quantum_lifetime: x.quantumLifetime.ok ? { method: "least-squares fit of the Lifshitz–Kosevich form, median over the points where τ_q is determined", median_ps: sig6OrNull(x.quantumLifetime.value * 1e12), points: x.quantumLifetime.points } : { skipped: x.quantumLifetime.reason },
+    scattering_time_ratio: x.scatteringTimeRatio.ok ? { median: sig6OrNull(x.scatteringTimeRatio.value), points: x.scatteringTimeRatio.points } : { skipped: x.scatteringTimeRatio.reason },
     parallel_conduction_flagged: x.parallelConduction,
   };
 }

@@ -1,9 +1,11 @@
 /**
  * Page model of the transport in depth (percolation, power law, Shubnikov–de
- * Haas) section of a wafer page: per device four charts (σ vs n with the
+ * Haas) section of a wafer page: per device the charts (σ vs n with the
  * percolation fit, μ vs n log–log with the power law, the SdH oscillation in 1/B
- * with its spectrum, density vs gate with Hall and SdH densities), a table of
- * the fits, a table of per-point figures and the reasons for anything skipped.
+ * with the fitted Lifshitz–Kosevich curve, its spectrum, the Dingle plot as a
+ * diagnostic view with the fit's line, density vs gate with Hall and SdH
+ * densities), a table of the fits, a table of per-point figures with standard
+ * errors, notes (spin splitting) and the reasons for anything not determined.
  * Returns undefined while no device has a depth analysis.
  */
 import type { WaferOutcome } from "../cli/pipeline.ts";
@@ -33,6 +35,7 @@ export interface DepthPointRow {
   kfl: string;
   tauQ: string;
   ratio: string;
+  fit: string;
 }
 
 export interface DepthDevice {
@@ -41,6 +44,7 @@ export interface DepthDevice {
   fits: FitRow[];
   points: DepthPointRow[];
   skipped: string[];
+  notes: string[];
   flagged: string;
 }
 
@@ -95,27 +99,43 @@ function mobilityChart(d: DeviceAnalysis, x: DeviceDepth): ChartSpec | undefined
 }
 
 function sdhCharts(id: string, x: DeviceDepth): ChartSpec[] {
+  // The charted point is the last with a spectrum, as the slim form keeps (cli/analyseFolder.ts).
   const best = x.points.filter((p) => p.sdh.ok).at(-1);
   if (!best || !best.sdh.ok) return [];
   const s = best.sdh;
-  return [
-    {
+  const o = best.oscillation;
+  const charts: ChartSpec[] = [];
+  if (o.ok) {
+    charts.push({
       id: `depth-osc-${id}`,
-      title: `${id}: ρxx oscillation against 1/B at Vg = ${f(best.gate_V)} V`,
+      title: `${id}: ρxx oscillation against 1/B at Vg = ${f(best.gate_V)} V, with the fit`,
       x: { label: "Inverse field 1/B (T⁻¹)" },
-      y: { label: "Δρxx, background removed (Ω)" },
-      series: [traceSeries("Δρxx", s.trace.inverseField, s.trace.oscillation)],
-      summary: `Background-free ρxx from ${best.file} between ${f(s.fieldRange[0])} T and ${f(s.fieldRange[1])} T: ${f(s.periods)} periods`,
-    },
-    {
-      id: `depth-fft-${id}`,
-      title: `${id}: spectrum of the oscillation at Vg = ${f(best.gate_V)} V`,
-      x: { label: "Frequency in 1/B (T)" },
-      y: { label: "Amplitude (Ω)" },
-      series: [traceSeries("FFT amplitude", s.spectrum.frequency, s.spectrum.amplitude, "data", 400)],
-      summary: `Dominant frequency ${f(s.frequency, 4)} T, so n_SdH = ${f(s.density * 1e-4, 4)} cm⁻² (Hall ${f(best.hallDensity * 1e-4, 4)} cm⁻²)`,
-    },
-  ];
+      y: { label: "ρxx − fitted background (Ω)" },
+      series: [traceSeries("data", o.curve.inverseField, o.curve.oscillation), traceSeries("Lifshitz–Kosevich fit", o.model.inverseField, o.model.oscillation, "fit")],
+      summary: `Fit of ${best.file} between ${f(o.fieldRange[0])} T and ${f(o.fieldRange[1])} T: ${f(o.periods)} periods, R² ${o.r2.toFixed(4)}, residual noise ${f(o.residualNoise)} Ω (${f(o.residualNoiseRelative * 100, 2)} % of ρxx)${o.spinSplitting ? `; ${o.spinSplitting.note}` : ""}`,
+    });
+  }
+  charts.push({
+    id: `depth-fft-${id}`,
+    title: `${id}: spectrum of the oscillation at Vg = ${f(best.gate_V)} V`,
+    x: { label: "Frequency in 1/B (T)" },
+    y: { label: "Amplitude (Ω)" },
+    series: [traceSeries("FFT amplitude", s.spectrum.frequency, s.spectrum.amplitude, "data", 400)],
+    summary: `Spectral peak ${f(s.frequency, 4)} T (the fit's starting value)${o.ok ? `; fitted f = ${pm(o.frequency.value, o.frequency.stdErr, 5)} T, so n_SdH = ${pm(o.density.value * 1e-4, o.density.stdErr * 1e-4, 5)} cm⁻²` : `; no fit: ${o.reason}`} (Hall ${f(best.hallDensity * 1e-4, 4)} cm⁻²)`,
+  });
+  const d = best.dingle;
+  if (o.ok && d.ok) {
+    const u = [Math.min(...d.inverseField), Math.max(...d.inverseField)];
+    charts.push({
+      id: `depth-dingle-${id}`,
+      title: `${id}: Dingle plot at Vg = ${f(best.gate_V)} V (diagnostic)`,
+      x: { label: "Inverse field 1/B (T⁻¹)" },
+      y: { label: "ln[Δρ/(4ρ_bg·X/sinh X)]" },
+      series: [markerSeries("one-period amplitudes", d.inverseField.map((v, i) => [v, d.ordinate[i]])), { label: "fitted line ln A − β/B", points: u.map((v) => [v, d.line.intercept + d.line.slope * v]), line: true, role: "fit" }],
+      summary: `Per-period amplitudes of the same data against the fit's line (β = ${f(-d.line.slope)} T, A = ${f(o.amplitudeFactor.value)}); ${o.quantumLifetime.ok ? `τ_q = ${pm(o.quantumLifetime.value * 1e12, o.quantumLifetime.stdErr * 1e12)} ps` : `τ_q not determined: ${o.quantumLifetime.reason}`}`,
+    });
+  }
+  return charts;
 }
 
 function densityChart(d: DeviceAnalysis, x: DeviceDepth): ChartSpec | undefined {
@@ -149,33 +169,44 @@ function fitRows(x: DeviceDepth): FitRow[] {
     pc.ok ? { name: "Percolation σ = A(n − n_p)^p", result: `n_p = ${pm(pc.density * 1e-4, pc.densityStdErr * 1e-4)} cm⁻², p = ${pc.exponentFixed ? `${f(pc.exponent)} (fixed)` : pm(pc.exponent, pc.exponentStdErr)}, A = ${pm(pc.prefactor, pc.prefactorStdErr)} S·m^2p`, window: `${f(pc.window.minDensity * 1e-4)}–${f(pc.window.maxDensity * 1e-4)} cm⁻² (${pc.window.rule})`, quality: `R² ${pc.r2.toFixed(4)}, ${pc.points} points, ${pc.excludedInsulating} insulating left out` } : { name: "Percolation σ = A(n − n_p)^p", result: skip(pc.reason), window: "", quality: "" },
     pl.ok ? { name: "Mobility power law μ ∝ n^α", result: `α = ${pm(pl.exponent, pl.exponentStdErr)}`, window: `${f(pl.window.minDensity * 1e-4)}–${f(pl.window.maxDensity * 1e-4)} cm⁻² (${pl.window.rule})`, quality: `R² ${pl.r2.toFixed(4)}, ${pl.points} points` } : { name: "Mobility power law μ ∝ n^α", result: skip(pl.reason), window: "", quality: "" },
     h.ok ? { name: "Gate hysteresis (down − up)", result: `mean ${f(h.meanShift * 1e3)} mV, largest ${f(h.maxShift * 1e3)} mV`, window: "conducting range, R ≤ h/e²", quality: `${h.points} equal-resistance points` } : { name: "Gate hysteresis (down − up)", result: skip(h.reason), window: "", quality: "" },
-    q.ok ? { name: "Quantum lifetime (Dingle)", result: `τ_q = ${f(q.value * 1e12)} ps (median)`, window: "SdH field window", quality: `${q.points} points` } : { name: "Quantum lifetime (Dingle)", result: skip(q.reason), window: "", quality: "" },
+    q.ok ? { name: "Quantum lifetime (Lifshitz–Kosevich fit)", result: `τ_q = ${f(q.value * 1e12)} ps (median)`, window: "SdH field window", quality: `${q.points} of ${x.points.length} points determined` } : { name: "Quantum lifetime (Lifshitz–Kosevich fit)", result: `not determined: ${q.reason}`, window: "", quality: "" },
+    x.scatteringTimeRatio.ok ? { name: "Scattering-time ratio τ_t/τ_q", result: `${f(x.scatteringTimeRatio.value)} (median)`, window: "points with both lifetimes", quality: `${x.scatteringTimeRatio.points} points` } : { name: "Scattering-time ratio τ_t/τ_q", result: `not determined: ${x.scatteringTimeRatio.reason}`, window: "", quality: "" },
   ];
 }
 
 function pointRows(x: DeviceDepth): DepthPointRow[] {
-  return x.points.map((p) => ({
-    gate: f(p.gate_V, 3),
-    hall: f(p.hallDensity * 1e-4, 4),
-    sdh: p.sdh.ok ? f(p.sdh.density * 1e-4, 4) : "—",
-    mismatch: p.mismatch ? `${f(p.mismatch.mismatchPercent, 3)} %` : "—",
-    flag: p.mismatch?.parallelConduction ?? false,
-    tauT: p.derived.ok ? f(p.derived.transportLifetime * 1e12) : "—",
-    mfp: p.derived.ok ? f(p.derived.meanFreePath * 1e6) : "—",
-    kfl: p.derived.ok ? f(p.derived.kfl) : "—",
-    tauQ: p.dingle.ok ? f(p.dingle.quantumLifetime * 1e12) : "—",
-    ratio: p.dingleRatio !== undefined ? f(p.dingleRatio) : "—",
-  }));
+  return x.points.map((p) => {
+    const o = p.oscillation;
+    const tq = o.ok ? o.quantumLifetime : undefined;
+    return {
+      gate: f(p.gate_V, 3),
+      hall: f(p.hallDensity * 1e-4, 4),
+      sdh: o.ok ? pm(o.density.value * 1e-4, o.density.stdErr * 1e-4, 5) : "not determined",
+      mismatch: p.mismatch ? `${pm(p.mismatch.mismatchPercent, p.mismatch.stdErrPercent)} %` : "—",
+      flag: p.mismatch?.parallelConduction ?? false,
+      tauT: p.derived.ok ? f(p.derived.transportLifetime * 1e12) : "—",
+      mfp: p.derived.ok ? f(p.derived.meanFreePath * 1e6) : "—",
+      kfl: p.derived.ok ? f(p.derived.kfl) : "—",
+      tauQ: tq?.ok ? pm(tq.value * 1e12, tq.stdErr * 1e12) : "not determined",
+      ratio: p.scatteringTimeRatio !== undefined ? f(p.scatteringTimeRatio) : "—",
+      fit: o.ok ? `R² ${o.r2.toFixed(3)}, ${f(o.periods, 2)} periods` : "—",
+    };
+  });
 }
 
 function deviceModel(d: DeviceAnalysis, x: DeviceDepth): DepthDevice {
   const charts = [conductivityChart(d.id, x), mobilityChart(d, x), ...sdhCharts(d.id, x), densityChart(d, x)].filter((c): c is ChartSpec => c !== undefined);
   const skipped = [
     ...x.gateSweeps.flatMap((s) => (s.percolation.ok ? [] : [`${s.file}: ${s.percolation.reason}`])),
-    ...x.points.flatMap((p) => (p.sdh.ok ? [] : [`${p.file}: no SdH density — ${p.sdh.reason}`])),
+    ...x.points.flatMap((p) => {
+      const o = p.oscillation;
+      if (!o.ok) return [`${p.file}: SdH density and τ_q not determined — ${o.reason}`];
+      return o.quantumLifetime.ok ? [] : [`${p.file}: τ_q not determined — ${o.quantumLifetime.reason}`];
+    }),
   ];
-  const flagged = x.parallelConduction.length ? `Probable parallel conduction: the Hall density differs from the SdH density of the well by more than the tolerance at ${x.parallelConduction.join(", ")}.` : "";
-  return { id: d.id, charts, fits: fitRows(x), points: pointRows(x), skipped, flagged };
+  const notes = x.points.flatMap((p) => (p.oscillation.ok && p.oscillation.spinSplitting ? [`${p.file}: ${p.oscillation.spinSplitting.note}`] : []));
+  const flagged = x.parallelConduction.length ? `Probable parallel conduction: the Hall density differs from the SdH density of the well by more than the tolerance and three standard errors at ${x.parallelConduction.join(", ")}.` : "";
+  return { id: d.id, charts, fits: fitRows(x), points: pointRows(x), skipped, notes, flagged };
 }
 
 export function transportDepthSection(o: WaferOutcome): TransportDepthSectionModel | undefined {

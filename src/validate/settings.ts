@@ -27,8 +27,14 @@ export interface AnalysisSettings {
   effective_mass: number;
   /** Hall–SdH density mismatch above which parallel conduction is flagged, %. */
   sdh_mismatch_tolerance: number;
-  /** Order of the smooth polynomial background (in B) removed before the SdH spectrum, 0–4. */
+  /** Order of the smooth polynomial background (in B) of the SdH spectrum and fit, 0–4. */
   sdh_background_order: number;
+  /** Smallest R² of the oscillation fit. */
+  sdh_min_r2: number;
+  /** Largest relative standard error of τ_q, %. */
+  sdh_max_lifetime_error: number;
+  /** Amplitude factor A of the oscillation fit, or "free" to fit it. */
+  sdh_amplitude_factor: number | "free";
   /** Largest micrograph accepted, width × height in pixels, checked from the PNG header before decoding. */
   max_image_pixels: number;
 }
@@ -50,7 +56,10 @@ export const SETTING_SPECS: Record<keyof AnalysisSettings, Spec> = {
   degeneracy: { kind: "number", min: 1, max: 12, doc: "spin × valley degeneracy g_s·g_v" },
   effective_mass: { kind: "number", min: 0.01, max: 2, doc: "effective mass in units of the electron mass" },
   sdh_mismatch_tolerance: { kind: "quantity", unit: "%", si: 1, doc: "Hall–SdH mismatch above which parallel conduction is flagged" },
-  sdh_background_order: { kind: "number", min: 0, max: 4, doc: "order of the polynomial background in B removed before the SdH spectrum" },
+  sdh_background_order: { kind: "number", min: 0, max: 4, doc: "order of the polynomial background in B of the SdH spectrum and fit" },
+  sdh_min_r2: { kind: "number", min: 0, max: 1, doc: "R² of the SdH oscillation fit below which its figures are not determined" },
+  sdh_max_lifetime_error: { kind: "quantity", unit: "%", si: 1, doc: "relative standard error of τ_q above which it is not determined" },
+  sdh_amplitude_factor: { kind: "number", min: 0.01, max: 2, doc: "amplitude factor A of the SdH fit, or free", orFree: true },
   max_image_pixels: { kind: "number", min: 65_536, max: 1e9, doc: "largest micrograph accepted, width × height in pixels" },
 };
 
@@ -68,7 +77,10 @@ export const DEFAULT_SETTINGS: AnalysisSettings = {
   degeneracy: 4,
   effective_mass: 0.19,
   sdh_mismatch_tolerance: 5,
-  sdh_background_order: 1,
+  sdh_background_order: 2,
+  sdh_min_r2: 0.9,
+  sdh_max_lifetime_error: 30,
+  sdh_amplitude_factor: "free",
   max_image_pixels: DEFAULT_MAX_IMAGE_PIXELS,
 };
 

@@ -1,120 +1,86 @@
 /**
- * Quantum lifetime τ_q from a Dingle plot of Shubnikov–de Haas amplitudes.
+ * Dingle plot of a fitted Shubnikov–de Haas oscillation: a diagnostic view of
+ * the same data the fit used (oscillationFit.ts), with the fitted line.
  *
- * The 2D amplitude is Δρ/ρ0 = 4·(X/sinh X)·exp(−π/(ω_c τ_q)) with ω_c = eB/m*
- * (Dingle, Proc. R. Soc. A 211, 517 (1952); Coleridge, Stoner & Fletcher, PRB 39,
- * 1120 (1989); REFERENCES §7). So ln[Δρ/(4ρ0·X/sinh X)] is a straight line in 1/B
- * with slope −π m* / (e τ_q) and intercept 0 for an ideal gas; fitted by least squares.
- * Amplitudes: at each inner local extremum of the background-free trace
- * (uniform in 1/B), half its distance from the mean of its two neighbouring
- * extrema (cancels a residual background linear over one period). Amplitudes below `minRelativeAmplitude` (default
- * 2 %) of the largest are dropped as noise.
- * Dingle ratio τ_t/τ_q (Das Sarma & Stern, PRB 32, 8442 (1985)): ≫ 1 for remote
- * small-angle scattering, ≈ 1 for short-range scattering (REFERENCES §12).
- * The LK form holds for small oscillations (Δρ/ρ0 ≲ 0.5); larger swings, spin
- * splitting or a poor background bias τ_q (synthetic tests: within 10 %).
- * Units: 1/B in T⁻¹, ρ in Ω, T in K, τ in s.
+ * The 2D amplitude is Δρ/ρ_bg = 4A·(X/sinh X)·exp(−π/(ω_c τ_q)) (Dingle, Proc.
+ * R. Soc. A 211, 517 (1952); Coleridge, PRB 44, 3793 (1991); REFERENCES §7),
+ * so ln[Δρ/(4ρ_bg·X/sinh X)] = ln A − β·(1/B) with β = π m* /(e τ_q): a
+ * straight line in 1/B. Amplitudes: per whole period of the fitted
+ * oscillation, the background-free, thermal-factor-free trace
+ * (ρ − ρ_bg)/(4ρ_bg·X/sinh X) is projected by least squares onto cos Θ, sin Θ
+ * (Θ = 2πf/B + φ from the fit) and a constant; the amplitude is √(a² + b²) at
+ * the period's mean 1/B, kept when above 3 standard errors. This replaces
+ * picking extrema, which noise multiplies. τ_q itself comes from the fit;
+ * this plot only shows whether the data follow its line.
+ * Dingle ratio τ_t/τ_q (Das Sarma & Stern, PRB 32, 8442 (1985)): ≫ 1 for
+ * remote small-angle scattering, ≈ 1 for short-range scattering (REFERENCES §12, §14).
+ * Units: 1/B in T⁻¹, τ in s.
  */
-import { ELECTRON_MASS, ELEMENTARY_CHARGE } from "../../physics/constants.ts";
-import { linearFit } from "../numeric/linearFit.ts";
+import { linearLeastSquares } from "../numeric/linearLeastSquares.ts";
+import type { OscillationFit } from "./oscillationFit.ts";
 import { allFinite, skipped, type Skipped } from "./outcome.ts";
-import { dingleTemperature, thermalFactor } from "./thermalFactor.ts";
+import { thermalFactor } from "./thermalFactor.ts";
 
-export interface DingleOptions {
-  /** m* / m_e (default 0.19). */
-  massRatio?: number;
-  /** Fewest extrema with an amplitude (default 4). */
-  minExtrema?: number;
-  /** Smallest extremum kept, relative to the largest (default 0.02). */
-  minRelativeAmplitude?: number;
-}
-
-export interface DingleFit {
+export interface DinglePlot {
   ok: true;
-  /** Quantum lifetime τ_q, s. */
-  quantumLifetime: number;
-  quantumLifetimeStdErr: number;
-  /** Dingle temperature T_D = ħ/(2π k_B τ_q), K. */
-  dingleTemperature: number;
-  /** Slope of the Dingle plot, T. */
-  slope: number;
-  /** Intercept of the Dingle plot (0 for ideal amplitudes). */
-  intercept: number;
-  r2: number;
-  /** Amplitudes used: 1/B of each extremum (T⁻¹) and its amplitude Δρ (Ω). */
-  extrema: { inverseField: number[]; amplitude: number[] };
-  /** Dingle-plot ordinate ln[Δρ/(4ρ0·X/sinh X)] at each extremum. */
-  dingleOrdinate: number[];
+  /** Mean 1/B of each period (T⁻¹) and its amplitude Δρ/(4ρ_bg·X/sinh X). */
+  inverseField: number[];
+  amplitude: number[];
+  /** ln of each amplitude. */
+  ordinate: number[];
+  /** The fit's line ln A − β·(1/B): intercept ln A, slope −β (T). */
+  line: { intercept: number; slope: number };
 }
 
-/**
- * Oscillation amplitudes at the extrema: the local maxima and minima of the
- * trace are found (sign changes of its first difference); at each inner
- * extremum k the amplitude is |v_k − (v_k−1 + v_k+1)/2|/2, measured from the
- * mean of its two neighbouring opposite extrema. This cancels a residual
- * background that is linear over one period.
- */
-export function oscillationAmplitudes(u: number[], value: number[]): { inverseField: number[]; amplitude: number[] } {
-  const eu: number[] = [];
-  const ev: number[] = [];
-  for (let i = 1; i + 1 < value.length; i++) {
-    if ((value[i] - value[i - 1]) * (value[i + 1] - value[i]) < 0) {
-      eu.push(u[i]);
-      ev.push(value[i]);
-    }
-  }
+/** Dingle plot of a fit (see the module comment); Skipped without a temperature or with fewer than two clear periods. */
+export function dinglePlot(fit: OscillationFit): DinglePlot | Skipped {
+  const T = fit.temperature;
+  if (T === undefined) return skipped("no measurement temperature, so the thermal factor is unknown");
+  const { mid, half, coefficients } = fit.background;
+  const f = fit.frequency.value;
+  const phi = fit.phase.value;
+  const u = fit.curve.inverseField;
+  const uMin = u[0];
+  const groups = new Map<number, number[]>();
+  u.forEach((x, i) => {
+    const k = Math.floor((x - uMin) * f);
+    const g = groups.get(k);
+    if (g) g.push(i);
+    else groups.set(k, [i]);
+  });
   const inverseField: number[] = [];
   const amplitude: number[] = [];
-  for (let k = 1; k + 1 < eu.length; k++) {
-    inverseField.push(eu[k]);
-    amplitude.push(Math.abs(ev[k] - (ev[k - 1] + ev[k + 1]) / 2) / 2);
+  for (const idx of [...groups.values()]) {
+    const m = idx.length;
+    if (m < 6 || (u[idx[m - 1]] - u[idx[0]]) * f < 0.8) continue;
+    const cols = [new Float64Array(m), new Float64Array(m), new Float64Array(m).fill(1)];
+    const z = new Float64Array(m);
+    let mean = 0;
+    idx.forEach((i, q) => {
+      const b = 1 / u[i];
+      const t = (b - mid) / half;
+      const bg = coefficients.reduce((s, c, j) => s + c * t ** j, 0);
+      const th = 2 * Math.PI * f * u[i] + phi;
+      cols[0][q] = Math.cos(th);
+      cols[1][q] = Math.sin(th);
+      z[q] = fit.curve.oscillation[i] / (4 * bg * thermalFactor(T, b, fit.massRatio));
+      mean += u[i] / m;
+    });
+    const sol = linearLeastSquares(cols, z);
+    if (!sol) continue;
+    const a = Math.hypot(sol.coef[0], sol.coef[1]);
+    const se = Math.sqrt(sol.ssRes / Math.max(1, m - 3)) * Math.sqrt(2 / m);
+    if (a > 3 * se && Number.isFinite(a)) {
+      inverseField.push(mean);
+      amplitude.push(a);
+    }
   }
-  return { inverseField, amplitude };
-}
-
-/**
- * Dingle analysis of a background-free oscillation trace (from shubnikovDeHaas):
- * inverseField ascending in T⁻¹, oscillation Δρ in Ω, rho0 the zero-field ρ_xx in Ω,
- * temperature in K. Returns { ok: false, reason } without a temperature, with
- * too few extrema, or when the amplitude does not decay towards low field.
- */
-export function dinglePlot(
-  inverseField: number[],
-  oscillation: number[],
-  rho0: number,
-  temperature: number | undefined,
-  options: DingleOptions = {},
-): DingleFit | Skipped {
-  if (temperature === undefined || !(temperature >= 0) || !Number.isFinite(temperature)) {
-    return skipped("no measurement temperature, so the thermal factor is unknown");
-  }
-  if (!(rho0 > 0) || !Number.isFinite(rho0)) return skipped("no positive zero-field resistivity ρ0");
-  const m = options.massRatio ?? 0.19;
-  const minExtrema = Math.max(3, options.minExtrema ?? 4);
-  const all = oscillationAmplitudes(inverseField, oscillation);
-  const top = Math.max(0, ...all.amplitude);
-  const keep = all.amplitude.map((a, i) => i).filter((i) => all.amplitude[i] >= (options.minRelativeAmplitude ?? 0.02) * top && all.inverseField[i] > 0);
-  if (keep.length < minExtrema) return skipped(`only ${keep.length} clear oscillation extrema; the Dingle plot needs ${minExtrema}`);
-  const u = keep.map((i) => all.inverseField[i]);
-  const amp = keep.map((i) => all.amplitude[i]);
-  const y = keep.map((i, k) => Math.log(amp[k] / (4 * rho0 * thermalFactor(temperature, 1 / u[k], m))));
-  if (!y.every(Number.isFinite)) return skipped("thermal factor underflows at these fields (temperature too high)");
-  const fit = linearFit(u, y);
-  if (!(fit.slope < 0)) return skipped("oscillation amplitude does not decay towards low field");
-  const tau = (-Math.PI * m * ELECTRON_MASS) / (ELEMENTARY_CHARGE * fit.slope);
-  const tauErr = (tau * fit.slopeStdErr) / Math.abs(fit.slope);
-  if (!allFinite(tau, tauErr, fit.r2)) return skipped("Dingle fit gave non-finite values");
-  return {
-    ok: true,
-    quantumLifetime: tau,
-    quantumLifetimeStdErr: tauErr,
-    dingleTemperature: dingleTemperature(tau),
-    slope: fit.slope,
-    intercept: fit.intercept,
-    r2: fit.r2,
-    extrema: { inverseField: u, amplitude: amp },
-    dingleOrdinate: y,
-  };
+  if (inverseField.length < 2) return skipped(`only ${inverseField.length} period(s) with an amplitude clear of the noise`);
+  const ordinate = amplitude.map((a) => Math.log(a));
+  const A = fit.amplitudeFactor.value;
+  const line = { intercept: Math.log(A), slope: -fit.dingleField.value };
+  if (!allFinite(line.intercept, line.slope)) return skipped("the fitted line is not finite");
+  return { ok: true, inverseField, amplitude, ordinate, line };
 }
 
 /**

@@ -3,11 +3,14 @@
  *
  * The oscillations are periodic in 1/B with frequency f (T): Δ(1/B) = g_s·g_v·e/(h·n),
  * so n_SdH = g_s·g_v·e·f/h (REFERENCES §7; Si(001), g = 4: n[cm⁻²] = 9.6720e10·f[T]).
+ * This spectrum only seeds the least-squares fit of the whole oscillation
+ * (oscillationFit.ts), which gives the reported n_SdH and τ_q.
  * Method: symmetrised ρ_xx(|B|) restricted to [minField, maxField]; smooth
- * background removed as a least-squares polynomial in B (default order 1: a
- * straight line; higher orders also absorb the large, slow high-field swings of
- * strongly damped oscillations, which then lose their spectral peak); resampled uniformly in 1/B; Hann
- * window; zero-padded; FFT; dominant peak with sub-bin interpolation
+ * background removed as a least-squares polynomial in B (default order 2, which
+ * also follows the curved magnetoresistance of a parallel channel; orders above
+ * 3 also absorb the large, slow high-field swings of strongly damped
+ * oscillations, which then lose their spectral peak); resampled uniformly in 1/B; Hann
+ * window; zero-padded (4×); FFT; dominant peak with sub-bin interpolation
  * (inverseFieldSpectrum.ts). Skipped, never guessed, when the peak lies below
  * three periods across the 1/B range (f·Δ(1/B) < 3), or is not clearly above the
  * spectrum's median (default 6×) in the band from one period across the range
@@ -16,6 +19,10 @@
  * an amplitude above `maxLowFrequencyRatio` (default 10) times the peak's: the
  * "peak" is then a side lobe of a slow swing spanning fewer than the minimum
  * number of periods (a low density whose oscillation is too slow for the window).
+ * When the whole window fails these tests, they are repeated once over the part
+ * of the window where the oscillation is visible (its RMS over a third of the
+ * 1/B range ≥ 10 % of the largest): a strongly damped oscillation lives at the
+ * high-field end only, where the Hann window hides it.
  * Units: B in T, ρ in Ω, f in T, n in m⁻².
  */
 import { Matrix, solve } from "ml-matrix";
@@ -30,7 +37,7 @@ export interface SdhOptions {
   maxField?: number;
   /** g_s·g_v (Si(001) default 4). */
   degeneracy?: number;
-  /** Order of the background polynomial in B (default 1, 0–4). */
+  /** Order of the background polynomial in B (default 2, 0–4). */
   backgroundOrder?: number;
   /** Fewest periods across the 1/B range (default 3). */
   minPeriods?: number;
@@ -86,7 +93,7 @@ function polynomialBackground(b: number[], rho: number[], order: number): number
  * |B| > 0 inside [lo, hi] with finite values, ascending (stable: equal fields
  * keep their input order), points at the same field averaged.
  */
-function cleanSweep(field: ArrayLike<number>, rho: ArrayLike<number>, lo: number, hi: number) {
+export function cleanSweep(field: ArrayLike<number>, rho: ArrayLike<number>, lo: number, hi: number) {
   const keep: number[] = [];
   let ascending = true;
   for (let i = 0; i < field.length; i++) {
@@ -128,14 +135,52 @@ export function shubnikovDeHaas(
   options: SdhOptions = {},
 ): SdhResult | Skipped {
   if (field.length !== rhoXX.length) throw new RangeError(`shubnikovDeHaas: ${field.length} fields, ${rhoXX.length} values`);
-  const order = Math.max(0, Math.min(4, Math.round(options.backgroundOrder ?? 1)));
-  const minPeriods = options.minPeriods ?? 3;
   const { b, r } = cleanSweep(field, rhoXX, options.minField ?? 0, options.maxField ?? Number.POSITIVE_INFINITY);
+  const first = spectrumOfWindow(b, r, options);
+  if (first.ok || b.length < 16) return first;
+  // A strongly damped oscillation lives at the high-field end only, where the Hann window is small;
+  // its spectrum then shows the burst's slow envelope. Retry on the part where it is visible.
+  const lo = visibleFrom(b, r, Math.max(0, Math.min(4, Math.round(options.backgroundOrder ?? 2))));
+  if (!(lo > b[0] * 1.05)) return first;
+  const k = b.findIndex((x) => x >= lo);
+  const second = spectrumOfWindow(b.slice(k), r.slice(k), options);
+  return second.ok ? second : first;
+}
+
+/**
+ * Lowest field (T) where the background-free oscillation is still visible:
+ * its RMS over a third of the 1/B range is ≥ 10 % of the largest such RMS.
+ */
+function visibleFrom(b: number[], r: number[], order: number): number {
+  const bg = polynomialBackground(b, r, order);
+  const trace = resampleInverseField(b, r.map((v, i) => v - bg[i]), 256);
+  const v = trace.value;
+  const w = Math.floor(v.length / 3);
+  const rms: number[] = [];
+  let sum = 0;
+  for (let i = 0; i < v.length; i++) {
+    sum += v[i] * v[i];
+    if (i >= w) sum -= v[i - w] * v[i - w];
+    if (i >= w - 1) rms.push(Math.sqrt(Math.max(0, sum) / w));
+  }
+  const top = Math.max(...rms);
+  let last = 0;
+  rms.forEach((x, i) => {
+    if (x >= 0.1 * top) last = i;
+  });
+  // rms[i] covers samples i … i + w − 1 (ascending 1/B); its low-field end is the largest 1/B.
+  return 1 / trace.inverseField[Math.min(v.length - 1, last + w - 1)];
+}
+
+/** The spectral analysis of an ascending, clean window (see shubnikovDeHaas). */
+function spectrumOfWindow(b: number[], r: number[], options: SdhOptions): SdhResult | Skipped {
+  const order = Math.max(0, Math.min(4, Math.round(options.backgroundOrder ?? 2)));
+  const minPeriods = options.minPeriods ?? 3;
   const need = Math.max(16, order + 8);
   if (b.length < need) return skipped(`only ${b.length} field points in the SdH range; need ${need}`);
   const bg = polynomialBackground(b, r, order);
   const delta = r.map((v, i) => v - bg[i]);
-  const count = Math.min(2048, Math.max(256, 2 ** Math.ceil(Math.log2(2 * b.length))));
+  const count = Math.min(1024, Math.max(256, 2 ** Math.ceil(Math.log2(b.length))));
   const trace = resampleInverseField(b, delta, count);
   const span = 1 / b[0] - 1 / b[b.length - 1];
   const step = span / (count - 1);
@@ -143,7 +188,8 @@ export function shubnikovDeHaas(
   for (let i = 1; i < b.length; i++) coarsest = Math.max(coarsest, 1 / b[i - 1] - 1 / b[i]);
   const fMax = 1 / (2 * coarsest);
   // The peak lies below fMax and the chart reaches 3× the peak: no bin above 3·fMax is read.
-  const spec = amplitudeSpectrum(trace.value, step, 8, 3 * fMax);
+  // 4× zero-padding: the peak only seeds the fit (oscillationFit.ts), which refines f.
+  const spec = amplitudeSpectrum(trace.value, step, 4, 3 * fMax);
   const peak = dominantPeak(spec, 1 / span, fMax);
   if (!peak) return skipped("no oscillation peak in the spectrum above one period across the 1/B range");
   const periods = peak.frequency * span;
@@ -180,21 +226,28 @@ export function shubnikovDeHaas(
 export interface HallSdhMismatch {
   /** 100·(n_Hall − n_SdH)/n_SdH, %. */
   mismatchPercent: number;
-  /** True when |mismatch| exceeds the tolerance: probable parallel conduction. */
+  /** Its standard error from both densities' standard errors, %. */
+  stdErrPercent: number;
+  /** True when |mismatch| exceeds the tolerance and 3 standard errors: probable parallel conduction. */
   parallelConduction: boolean;
   tolerancePercent: number;
 }
 
 /**
- * Compare a Hall density with the SdH density of the same point (both m⁻²). A
- * Hall density that differs from the well's SdH density by more than the
- * tolerance (default 5 %) points to a parallel conducting channel.
- * Throws RangeError unless both densities are finite and > 0.
+ * Compare a Hall density with the SdH density of the same point (both m⁻²,
+ * with standard errors, default 0). A Hall density that differs from the
+ * well's SdH density by more than the tolerance (default 5 %) and by more
+ * than three combined standard errors points to a parallel conducting
+ * channel. The standard error of m = 100·(n_H/n_S − 1) is
+ * 100·(n_H/n_S)·√((σ_H/n_H)² + (σ_S/n_S)²) (first-order propagation; common
+ * practice). Throws RangeError unless both densities are finite and > 0.
  */
-export function hallSdhMismatch(nHall: number, nSdh: number, tolerancePercent = 5): HallSdhMismatch {
+export function hallSdhMismatch(nHall: number, nSdh: number, tolerancePercent = 5, hallStdErr = 0, sdhStdErr = 0): HallSdhMismatch {
   if (!(nHall > 0 && nSdh > 0) || !allFinite(nHall, nSdh)) {
     throw new RangeError(`hallSdhMismatch: densities must be finite and > 0 (Hall ${nHall}, SdH ${nSdh})`);
   }
   const m = (100 * (nHall - nSdh)) / nSdh;
-  return { mismatchPercent: m, parallelConduction: Math.abs(m) > tolerancePercent, tolerancePercent };
+  const se = 100 * (nHall / nSdh) * Math.hypot(hallStdErr / nHall, sdhStdErr / nSdh);
+  const stdErrPercent = Number.isFinite(se) ? se : Number.POSITIVE_INFINITY;
+  return { mismatchPercent: m, stdErrPercent, parallelConduction: Math.abs(m) > tolerancePercent && Math.abs(m) > 3 * stdErrPercent, tolerancePercent };
 }

@@ -1,9 +1,9 @@
 import { describe, expect, it } from "vitest";
 import { dingleTemperature, thermalArgument, thermalFactor } from "../../../src/analyse/transport/thermalFactor.ts";
 import { dinglePlot, dingleRatio } from "../../../src/analyse/transport/dingle.ts";
+import { fitOscillations } from "../../../src/analyse/transport/oscillationFit.ts";
+import { lkSweep, type LkParams } from "../../helpers/lifshitzKosevich.ts";
 import { derivedQuantities, fermiEnergy, fermiWavevector } from "../../../src/analyse/transport/derivedQuantities.ts";
-import { shubnikovDeHaas } from "../../../src/analyse/transport/shubnikovDeHaas.ts";
-import { fieldGrid, oscillationSweep } from "../../../src/synth/quantumOscillations.ts";
 import { ELEMENTARY_CHARGE } from "../../../src/physics/constants.ts";
 
 const rel = (a: number, b: number) => Math.abs(a / b - 1);
@@ -27,37 +27,28 @@ describe("Lifshitz–Kosevich thermal factor", () => {
   });
 });
 
-describe("Dingle plot", () => {
-  // Synthetic LK + Dingle oscillations (REFERENCES §7 amplitude formula), |Δρ/ρ0| < 0.65.
-  const cases = [
-    { density: 3e15, quantumLifetime: 1e-12, temperature: 0.5, range: [0.45, 2] },
-    { density: 2e15, quantumLifetime: 1.5e-12, temperature: 0.3, range: [0.3, 2] },
-  ];
-  for (const c of cases) {
-    it(`recovers τ_q = ${c.quantumLifetime * 1e12} ps within 10 % (T = ${c.temperature} K)`, () => {
-      const s = oscillationSweep(fieldGrid(0, 3, 1501), { rho0: 600, ...c });
-      const sdh = shubnikovDeHaas(s.field, s.rhoXX, { minField: c.range[0], maxField: c.range[1] });
-      expect(sdh.ok).toBe(true);
-      if (!sdh.ok) return;
-      const d = dinglePlot(sdh.trace.inverseField, sdh.trace.oscillation, 600, c.temperature);
-      expect(d.ok).toBe(true);
-      if (!d.ok) return;
-      expect(rel(d.quantumLifetime, c.quantumLifetime)).toBeLessThan(0.1);
-      expect(d.extrema.amplitude.length).toBeGreaterThanOrEqual(4);
-    });
-  }
-  it("skips without a temperature, with too few extrema, or without decay", () => {
-    const u = Array.from({ length: 400 }, (_, i) => 0.5 + i * 0.005);
-    const osc = u.map((x) => Math.exp(-2 * x) * Math.cos(2 * Math.PI * 3 * x));
-    const noT = dinglePlot(u, osc, 600, undefined);
-    expect(noT.ok).toBe(false);
-    if (!noT.ok) expect(noT.reason).toMatch(/temperature/);
-    const short = dinglePlot(u.slice(0, 30), osc.slice(0, 30), 600, 0.1);
-    expect(short.ok).toBe(false);
-    if (!short.ok) expect(short.reason).toMatch(/extrema/);
-    const growing = dinglePlot(u, u.map((x) => Math.exp(2 * x) * Math.cos(2 * Math.PI * 3 * x)), 600, 0.1);
-    expect(growing.ok).toBe(false);
-    if (!growing.ok) expect(growing.reason).toMatch(/decay/);
+describe("Dingle plot (diagnostic view of the oscillation fit)", () => {
+  // Synthetic LK + Dingle oscillations (REFERENCES §7 amplitude formula) from the independent test generator.
+  const p: LkParams = { density: 3e15, tauQ: 1e-12, temperature: 0.5, mass: 0.19, rho0: 600, slope: 0, g: 0, harmonic: false };
+  const s = lkSweep(p, 3, 1501, 0, 1e-4, 3);
+  const fit = fitOscillations(s.B, s.rxx, 0.5, 3.1, { minField: 0.45, maxField: 2 });
+  it("per-period amplitudes lie on the fit's line ln A − β/B, with β = π m*/(e τ_q) = 3.3936 T at 1 ps (REFERENCES §7, derived, CODATA 2018)", () => {
+    expect(fit.ok).toBe(true);
+    if (!fit.ok) return;
+    const d = dinglePlot(fit);
+    expect(d.ok).toBe(true);
+    if (!d.ok) return;
+    expect(d.line.slope).toBeCloseTo(-3.3936, 1);
+    expect(d.inverseField.length).toBeGreaterThanOrEqual(4);
+    d.inverseField.forEach((u, i) => expect(Math.abs(d.ordinate[i] - (d.line.intercept + d.line.slope * u))).toBeLessThan(0.1));
+  });
+  it("is skipped without a temperature", () => {
+    const noT = fitOscillations(s.B, s.rxx, undefined, 3.1, { minField: 0.45, maxField: 2 });
+    expect(noT.ok).toBe(true);
+    if (!noT.ok) return;
+    const d = dinglePlot(noT);
+    expect(d.ok).toBe(false);
+    if (!d.ok) expect(d.reason).toMatch(/temperature/);
   });
   it("Dingle ratio τ_t/τ_q and its input check", () => {
     expect(dingleRatio(10.803e-12, 1e-12)).toBeCloseTo(10.803, 10);

@@ -1,0 +1,134 @@
+/**
+ * Levenberg–Marquardt for a model with an analytic Jacobian and few
+ * parameters (≤ ~12), fast enough to run per field sweep.
+ *
+ * Method: Levenberg (1944), Marquardt (1963) with Marquardt's scaling
+ * (damping λ·diag(JᵀJ)), as in Moré, "The Levenberg–Marquardt algorithm:
+ * implementation and theory", Lecture Notes in Math. 630 (1978) and Press et
+ * al., Numerical Recipes, 3rd ed., §15.5. A step is taken when it lowers
+ * SS_res (λ /= 10), otherwise λ *= 10; it stops when an accepted step lowers
+ * SS_res by less than 1e-10 of itself, or after maxIterations. Parameters may
+ * be bounded (steps are clipped) or held fixed. The standard errors are the
+ * square roots of the diagonal of s²·(JᵀJ)⁻¹ at the solution, s² = SS_res/(n − k)
+ * with k the number of free parameters (common practice; the same as
+ * nonlinearFit.ts, which uses ml-levenberg-marquardt and suits general use).
+ * Returns null when JᵀJ is singular at the start. Throws RangeError when
+ * there are fewer points than free parameters + 1.
+ */
+import { choleskySolve } from "./linearLeastSquares.ts";
+
+export interface DenseProblem {
+  /** Number of data points. */
+  n: number;
+  y: ArrayLike<number>;
+  /** Model value at point i for parameters p. */
+  value: (p: number[], i: number) => number;
+  /** Writes ∂model/∂p_j at point i into `out` (all parameters). */
+  gradient: (p: number[], i: number, out: Float64Array) => void;
+}
+
+export interface DenseFit {
+  params: number[];
+  stdErr: number[];
+  ssRes: number;
+  iterations: number;
+}
+
+/** Solves A·x = r (A symmetric positive definite) after scaling A to unit diagonal, so parameters of any size factor alike. */
+function scaledSolve(a: Float64Array, r: ArrayLike<number>, m: number): Float64Array | null {
+  const d = new Float64Array(m);
+  for (let j = 0; j < m; j++) d[j] = a[j * m + j] > 0 ? 1 / Math.sqrt(a[j * m + j]) : 0;
+  const b = new Float64Array(m * m);
+  const rs = new Float64Array(m);
+  for (let i = 0; i < m; i++) {
+    rs[i] = r[i] * d[i];
+    for (let j = 0; j < m; j++) b[i * m + j] = a[i * m + j] * d[i] * d[j];
+  }
+  const x = choleskySolve(b, rs, m);
+  if (!x) return null;
+  for (let j = 0; j < m; j++) x[j] *= d[j];
+  return x;
+}
+
+function ss(pr: DenseProblem, p: number[]): number {
+  let s = 0;
+  for (let i = 0; i < pr.n; i++) s += (pr.y[i] - pr.value(p, i)) ** 2;
+  return s;
+}
+
+/** JᵀJ (free parameters) and Jᵀr at p. */
+function normalEquations(pr: DenseProblem, p: number[], free: number[]) {
+  const m = free.length;
+  const jtj = new Float64Array(m * m);
+  const jtr = new Float64Array(m);
+  const row = new Float64Array(p.length);
+  for (let i = 0; i < pr.n; i++) {
+    pr.gradient(p, i, row);
+    const r = pr.y[i] - pr.value(p, i);
+    for (let a = 0; a < m; a++) {
+      const ga = row[free[a]];
+      jtr[a] += ga * r;
+      for (let b = 0; b <= a; b++) jtj[a * m + b] += ga * row[free[b]];
+    }
+  }
+  for (let a = 0; a < m; a++) for (let b = 0; b < a; b++) jtj[b * m + a] = jtj[a * m + b];
+  return { jtj, jtr };
+}
+
+export function denseLevenbergMarquardt(
+  pr: DenseProblem,
+  initial: number[],
+  o: { min?: number[]; max?: number[]; fixed?: number[]; maxIterations?: number } = {},
+): DenseFit | null {
+  const k = initial.length;
+  const fixed = new Set(o.fixed ?? []);
+  const free = [...Array(k).keys()].filter((i) => !fixed.has(i));
+  const m = free.length;
+  if (pr.n < m + 1) throw new RangeError(`denseLevenbergMarquardt: ${pr.n} points cannot determine ${m} free parameters`);
+  const clip = (v: number, i: number) => Math.min(o.max?.[i] ?? Infinity, Math.max(o.min?.[i] ?? -Infinity, v));
+  let p = initial.slice();
+  let cost = ss(pr, p);
+  let lambda = 1e-3;
+  let iterations = 0;
+  let ne = normalEquations(pr, p, free);
+  for (; iterations < (o.maxIterations ?? 50); iterations++) {
+    let accepted = false;
+    for (let tries = 0; tries < 12 && !accepted; tries++) {
+      const a = ne.jtj.slice();
+      for (let j = 0; j < m; j++) a[j * m + j] *= 1 + lambda;
+      const step = scaledSolve(a, ne.jtr, m);
+      if (!step) {
+        lambda *= 10;
+        continue;
+      }
+      const q = p.slice();
+      free.forEach((pi, j) => (q[pi] = clip(p[pi] + step[j], pi)));
+      const c = ss(pr, q);
+      if (c < cost) {
+        const gain = cost - c;
+        p = q;
+        const done = gain <= 1e-10 * cost;
+        cost = c;
+        lambda = Math.max(lambda / 10, 1e-9);
+        accepted = true;
+        ne = normalEquations(pr, p, free);
+        if (done) return finish(pr, p, free, cost, iterations + 1, ne.jtj);
+      } else lambda *= 10;
+    }
+    if (!accepted) break;
+  }
+  return finish(pr, p, free, cost, iterations, ne.jtj);
+}
+
+function finish(pr: DenseProblem, p: number[], free: number[], cost: number, iterations: number, jtj: Float64Array): DenseFit {
+  const m = free.length;
+  const s2 = cost / Math.max(1, pr.n - m);
+  const stdErr = new Array<number>(p.length).fill(0);
+  for (let j = 0; j < m; j++) {
+    const e = new Float64Array(m);
+    e[j] = 1;
+    const col = scaledSolve(jtj, e, m);
+    stdErr[free[j]] = col ? Math.sqrt(Math.max(0, col[j] * s2)) : Number.POSITIVE_INFINITY;
+  }
+  return { params: p, stdErr, ssRes: cost, iterations };
+}

@@ -1,0 +1,110 @@
+/**
+ * The Shubnikov–de Haas model fitted to ρxx(B) of a 2D electron gas, and its
+ * partial derivatives.
+ *
+ *   ρxx(B) = ρ_bg(B)·[1 + 4·A·(X/sinh X)·exp(−π/(ω_c τ_q))·cos(2π f/B + φ)]
+ *   X = 2π²k_B T m* /(ħ e B),  ω_c = eB/m*,  ρ_bg(B) = Σ_j c_j·t^j,
+ *
+ * the fundamental of the Lifshitz–Kosevich sum in the 2D form of Coleridge,
+ * Phys. Rev. B 44, 3793 (1991) and Ando, Fowler & Stern, Rev. Mod. Phys. 54,
+ * 437 (1982) (REFERENCES §7, §14). A = 1 in the ideal form; the spin factor
+ * cos(π g m* /(2 m_e)) (≈ 0.83 for g = 2, m* = 0.19 m_e) and density
+ * inhomogeneity lower it. t = (B − B_mid)/B_half maps the field window onto
+ * [−1, 1] so the background coefficients are well conditioned.
+ * exp(−π/(ω_c τ_q)) is written exp(−β/B) with the Dingle field
+ * β = π m* /(e τ_q) (T); the fitted parameters are
+ * [c_0 … c_k, A, β, f, φ, A₂]. A₂ is the amplitude factor of the second
+ * harmonic of the same Lifshitz–Kosevich sum, 4·A₂·(2X/sinh 2X)·e^(−2β/B)·
+ * cos(2·(2πf/B + φ)) (harmonic s: X → sX, e^(−β/B) → e^(−sβ/B), phase s·φ;
+ * its spin factor cos(2π g m* /(2 m_e)) may be negative, so A₂ has either
+ * sign). Left out, a harmonic of a few per cent of the fundamental biases f
+ * and τ_q by several per cent over a window of a few periods.
+ * Units: B and f in T, ρ in Ω, φ in rad.
+ */
+import { ELECTRON_MASS, ELEMENTARY_CHARGE } from "../../physics/constants.ts";
+
+/** The fitted window: fields and the thermal factors there. */
+export interface ModelLayout {
+  order: number;
+  /** Centre and half width of the field window, T (t = (B − mid)/half). */
+  mid: number;
+  half: number;
+  /** The fitted fields, T (ascending). */
+  field: Float64Array;
+  /** X/sinh X and 2X/sinh 2X at each field (1 without a temperature). */
+  thermal: Float64Array;
+  thermal2: Float64Array;
+}
+
+export const amplitudeIndex = (order: number) => order + 1;
+export const dingleFieldIndex = (order: number) => order + 2;
+export const frequencyIndex = (order: number) => order + 3;
+export const phaseIndex = (order: number) => order + 4;
+export const harmonicIndex = (order: number) => order + 5;
+export const parameterCount = (order: number) => order + 6;
+
+/** Dingle field β = π m* /(e τ_q), T, of a quantum lifetime τ_q (s). */
+export function dingleField(quantumLifetime: number, massRatio: number): number {
+  return (Math.PI * massRatio * ELECTRON_MASS) / (ELEMENTARY_CHARGE * quantumLifetime);
+}
+
+/** Quantum lifetime τ_q = π m* /(e β), s, of a Dingle field β (T). */
+export function lifetimeOfDingleField(beta: number, massRatio: number): number {
+  return (Math.PI * massRatio * ELECTRON_MASS) / (ELEMENTARY_CHARGE * beta);
+}
+
+/** ρ_bg at field index i. */
+export function background(p: ArrayLike<number>, L: ModelLayout, i: number): number {
+  const t = (L.field[i] - L.mid) / L.half;
+  let v = 0;
+  let tj = 1;
+  for (let j = 0; j <= L.order; j++) {
+    v += p[j] * tj;
+    tj *= t;
+  }
+  return v;
+}
+
+/** Relative oscillation ρ/ρ_bg − 1 of the model at field index i. */
+export function relativeOscillation(p: ArrayLike<number>, L: ModelLayout, i: number): number {
+  const k = L.order;
+  const b = L.field[i];
+  const d = Math.exp(-p[k + 2] / b);
+  const th = (2 * Math.PI * p[k + 3]) / b + p[k + 4];
+  return 4 * p[k + 1] * L.thermal[i] * d * Math.cos(th) + 4 * p[k + 5] * L.thermal2[i] * d * d * Math.cos(2 * th);
+}
+
+/** ρxx of the model at field index i, Ω. */
+export function modelValue(p: ArrayLike<number>, L: ModelLayout, i: number): number {
+  return background(p, L, i) * (1 + relativeOscillation(p, L, i));
+}
+
+/** ∂ρxx/∂p at field index i, written into out (see the module comment for the form). */
+export function modelGradient(p: ArrayLike<number>, L: ModelLayout, i: number, out: Float64Array): void {
+  const k = L.order;
+  const b = L.field[i];
+  const t = (b - L.mid) / L.half;
+  const d = Math.exp(-p[k + 2] / b);
+  const e1 = 4 * L.thermal[i] * d;
+  const e2 = 4 * L.thermal2[i] * d * d;
+  const th = (2 * Math.PI * p[k + 3]) / b + p[k + 4];
+  const c1 = Math.cos(th);
+  const s1 = Math.sin(th);
+  const c2 = Math.cos(2 * th);
+  const s2 = Math.sin(2 * th);
+  const a1 = p[k + 1];
+  const a2 = p[k + 5];
+  const bg = background(p, L, i);
+  const osc = 1 + a1 * e1 * c1 + a2 * e2 * c2;
+  let tj = 1;
+  for (let j = 0; j <= k; j++) {
+    out[j] = tj * osc;
+    tj *= t;
+  }
+  out[k + 1] = bg * e1 * c1;
+  out[k + 2] = (-bg * (a1 * e1 * c1 + 2 * a2 * e2 * c2)) / b;
+  const dTheta = -bg * (a1 * e1 * s1 + 2 * a2 * e2 * s2);
+  out[k + 3] = (dTheta * 2 * Math.PI) / b;
+  out[k + 4] = dTheta;
+  out[k + 5] = bg * e2 * c2;
+}
