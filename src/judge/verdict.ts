@@ -14,13 +14,12 @@ import type { Aggregate, Target, Targets } from "../validate/targets.ts";
 import type { Waiver } from "../validate/wafer.ts";
 import { formatValue } from "../publish/format.ts";
 
-export type Verdict = "pass" | "marginal" | "fail" | "waived" | "incomplete" | "untested" | "error";
+import { VERDICT_RANK, type Verdict } from "./states.ts";
+export { VERDICT_RANK, type Verdict } from "./states.ts";
 
-/** Severity rank: higher is worse. */
-export const VERDICT_RANK: Record<Verdict, number> = { untested: 0, pass: 1, waived: 2, marginal: 3, incomplete: 4, fail: 5, error: 6 };
-
+/** The worst of the verdicts; `unjudged` when there are none (or only not-judged states). */
 export function worst(verdicts: Verdict[]): Verdict {
-  return verdicts.reduce<Verdict>((w, v) => (VERDICT_RANK[v] > VERDICT_RANK[w] ? v : w), "untested");
+  return verdicts.reduce<Verdict>((w, v) => (VERDICT_RANK[v] > VERDICT_RANK[w] ? v : w), "unjudged");
 }
 
 export interface MetricValues {
@@ -75,13 +74,13 @@ function judgeMetric(key: string, values: MetricValues | undefined, t: Target | 
   const per = values?.perDevice ?? {};
   const devVals = Object.values(per);
   const value = values?.wafer ?? aggregate(devVals, t?.aggregate ?? "mean");
-  const j: MetricJudgement = { key, spec, value, perDevice: per, target: t, verdict: "untested" };
+  const j: MetricJudgement = { key, spec, value, perDevice: per, target: t, verdict: value === undefined ? "unmeasured" : "recorded" };
   if (!t) {
     j.reason = value === undefined ? "no value and no target" : "no target for this grade";
     return finishWaiver(j, waiver);
   }
   if (value === undefined) {
-    j.verdict = t.required ? "incomplete" : "untested";
+    j.verdict = t.required ? "incomplete" : "unmeasured";
     j.reason = t.required ? `${spec.label} is required but was not measured or could not be computed` : `${spec.label} was not measured`;
     return finishWaiver(j, waiver);
   }
@@ -125,7 +124,7 @@ export function judgeWafer(
   let verdict = worst(judged.map((m) => m.verdict));
   // Reasons worst first, so the first line of a summary says why the verdict is what it is.
   const reasons = judged
-    .filter((m) => m.verdict !== "pass" && m.verdict !== "untested" && m.reason)
+    .filter((m) => m.verdict !== "pass" && VERDICT_RANK[m.verdict] > 0 && m.reason)
     .sort((a, b) => VERDICT_RANK[b.verdict] - VERDICT_RANK[a.verdict])
     .map((m) => m.reason!);
   if (hasErrors) {
