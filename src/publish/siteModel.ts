@@ -48,7 +48,7 @@ export function waferPageExtras(sorted: readonly WaferOutcome[], basePath: strin
         o.folder,
         {
           ...neighbours.get(o.folder),
-          history: waferHistoryModel(history, o.folder, { values: o.values, grade: o.record?.grade, waivers: o.record?.waivers ?? [], hasErrors: o.judgement.verdict === "error" }),
+          history: waferHistoryModel(history, o.folder, { values: o.values, grade: o.record?.grade, waivers: o.record?.waivers ?? [], hasErrors: o.judgement.verdict === "error", findings: o.judgement.findings.map((f) => f.check) }),
           crumbs: [{ label: "Wafers", href: basePath }, ...(run ? [{ label: `Run ${run}`, href: `${basePath}runs/${run}/` }] : []), { label: o.folder }],
         },
       ];

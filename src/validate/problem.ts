@@ -24,13 +24,70 @@ export interface Problem {
   wafer?: string;
 }
 
-/** Thrown inside readers and validators; caught at the wafer boundary and turned into data. */
+/**
+ * Thrown inside readers and validators; caught at the wafer boundary and
+ * turned into data. `problem` is the first; `problems` holds every problem
+ * found in the file (a validator that checks everything throws them together:
+ * see ProblemList).
+ */
 export class InputError extends Error {
   readonly problem: Problem;
-  constructor(problem: Omit<Problem, "severity"> & { severity?: Severity }) {
-    super(formatProblem({ severity: "error", ...problem }));
+  readonly problems: Problem[];
+  constructor(problem: Omit<Problem, "severity"> & { severity?: Severity }, more: Problem[] = []) {
+    super([problem, ...more].map((p) => formatProblem({ severity: "error", ...p })).join("\n"));
     this.name = "InputError";
     this.problem = { severity: "error", ...problem };
+    this.problems = [this.problem, ...more];
+  }
+}
+
+/** Most problems reported for one file; beyond it one line says how many more there were. */
+export const MAX_PROBLEMS_PER_FILE = 50;
+
+/**
+ * Collects a file's problems so that one bad field does not hide the next.
+ * `attempt` runs a check and records the InputError it throws (every problem
+ * it carries); `done` throws them all at once, at most MAX_PROBLEMS_PER_FILE
+ * of them plus a line saying how many were left out.
+ */
+export class ProblemList {
+  readonly problems: Problem[] = [];
+  constructor(readonly file: string, readonly cap = MAX_PROBLEMS_PER_FILE) {}
+
+  add(p: Omit<Problem, "severity"> & { severity?: Severity }): void {
+    this.problems.push({ severity: "error", ...p });
+  }
+
+  /** Runs fn; an InputError it throws is recorded and `undefined` returned. */
+  attempt<T>(fn: () => T): T | undefined {
+    try {
+      return fn();
+    } catch (err) {
+      if (!(err instanceof InputError)) throw err;
+      this.problems.push(...err.problems);
+      return undefined;
+    }
+  }
+
+  get ok(): boolean {
+    return this.problems.length === 0;
+  }
+
+  /** The problems, capped, with a closing line when some were left out. */
+  capped(): Problem[] {
+    if (this.problems.length <= this.cap) return [...this.problems];
+    const left = this.problems.length - this.cap;
+    return [
+      ...this.problems.slice(0, this.cap),
+      { severity: "error", file: this.file, message: `${left} more problem${left === 1 ? "" : "s"} in this file not listed (only the first ${this.cap} are)`, fix: "correct the problems above and build again to see the rest" },
+    ];
+  }
+
+  /** Throws every recorded problem together; returns when there is none. */
+  done(): void {
+    if (this.ok) return;
+    const [first, ...more] = this.capped();
+    throw new InputError(first, more);
   }
 }
 
