@@ -1,6 +1,7 @@
 /**
  * Entry point of the `waferbook` command. Sets exit codes: 0 built; 1 input
- * errors with --strict, or nothing built; 2 bad usage.
+ * errors with --strict, a site-wide input error (targets.yaml, analysis.yaml,
+ * a run note: nothing is built), or nothing built; 2 bad usage.
  */
 import path from "node:path";
 import { writeFile } from "node:fs/promises";
@@ -39,7 +40,7 @@ export async function main(argv: string[]): Promise<number> {
     reportProblems(result.problems, err);
     out(summary(result, (Date.now() - started) / 1000));
     if (!result.ok) {
-      err("waferbook: nothing could be built; the previous site was left as it was.");
+      err(`waferbook: ${result.reason ? `${result.reason}: ` : ""}nothing could be built; the previous site was left as it was.`);
       return 1;
     }
     out(`site written to ${path.relative(process.cwd(), result.outDir) || "."}/index.html`);

@@ -39,7 +39,7 @@ export const FINDING_SPECS: readonly FindingSpec[] = [
   { key: "beyond_critical_thickness", label: "Critical thickness", description: "the well is thinner than its Matthews–Blakeslee critical thickness", defaultConsequence: "fail", clear: "the well is within its critical thickness" },
   { key: "parallel_conduction", label: "Parallel conduction", description: "the Hall density agrees with the Shubnikov–de Haas density of the well within sdh_mismatch_tolerance", defaultConsequence: "fail", clear: "Hall and SdH densities agree" },
   { key: "one_sign_field", label: "Field of both signs", description: "every field sweep runs through zero to both field signs, so Rxx and Rxy are (anti)symmetrised", defaultConsequence: "marginal", clear: "every field sweep has both field signs" },
-  { key: "fit_undetermined", label: "Fits determined", description: "every fit that had its data (Hall slopes, gate calibration, percolation, power law, Dingle, depth-profile edges, X-ray, micrograph profile and strain maps) gave an accepted result", defaultConsequence: "marginal", clear: "every fit with data was accepted" },
+  { key: "fit_undetermined", label: "Fits determined", description: "every fit that had its data (Hall slopes, gate calibration, percolation, power law, quantum lifetime, depth-profile edges, X-ray, micrograph profile and strain maps) gave an accepted result", defaultConsequence: "marginal", clear: "every fit with data was accepted" },
   { key: "coarse_profile", label: "Profile sampling", description: `the depth profile has at least ${MIN_POINTS_ACROSS_INTERFACE} depth steps across each interface's 10–90 % width`, defaultConsequence: "marginal", clear: "the profile resolves both interfaces" },
 ];
 
@@ -111,11 +111,11 @@ function undeterminedFits(a: WaferAnalysis): string[] {
     if (d.points.length >= 3 && !x.powerLaw.ok) out.push(`device ${d.id}: mobility power law not determined: ${x.powerLaw.reason}`);
     const zeroField = x.gateSweeps.filter((g) => Math.abs(g.field_T) <= 1e-3);
     if (zeroField.length && x.calibration.ok && !x.percolation.ok) out.push(`device ${d.id}: percolation fit rejected: ${x.percolation.reason}`);
-    // A Dingle plot needs the measurement temperature: without one it is missing data, not an undetermined fit.
-    const hasTemperature = new Set(d.points.filter((p) => p.temperature_K !== undefined).map((p) => p.file));
-    const dingle = x.points.filter((p) => p.sdh.ok && !p.dingle.ok && hasTemperature.has(p.file));
-    if (dingle.length) out.push(`device ${d.id}: Dingle fit not determined at ${dingle.map((p) => `${base(p.file)}${p.dingle.ok ? "" : ` (${p.dingle.reason})`}`).join(", ")}`);
-    else if (x.points.some((p) => p.sdh.ok && hasTemperature.has(p.file)) && !x.quantumLifetime.ok) out.push(`device ${d.id}: quantum lifetime not determined: ${x.quantumLifetime.reason}`);
+    // Judged at the level of the figure: the device's quantum lifetime (median over the points with a
+    // Dingle fit) is undetermined when no point gave one although some had oscillations and a temperature
+    // (without a temperature the thermal factor is unknown: missing data, not an undetermined fit).
+    const withTemperature = new Set(d.points.filter((p) => p.temperature_K !== undefined).map((p) => p.file));
+    if (x.points.some((p) => p.sdh.ok && withTemperature.has(p.file)) && !x.quantumLifetime.ok) out.push(`device ${d.id}: quantum lifetime not determined: ${x.quantumLifetime.reason}`);
   }
   const s = a.structure;
   for (const p of s?.profiles ?? []) if (!p.result.ok) out.push(`${base(p.data.file)}: depth profile not fitted: ${p.result.reason}`);

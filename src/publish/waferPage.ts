@@ -14,6 +14,7 @@ import { structureSection } from "./structureSection.ts";
 import { imagesSection } from "./imagesSection.ts";
 import { transportDepthSection } from "./transportDepthSection.ts";
 import { uniformitySection } from "./uniformitySection.ts";
+import { checkTable, verdictLegend } from "./judgedRows.ts";
 
 export interface MetricRow {
   key: string;
@@ -103,6 +104,8 @@ export function waferPageModel(o: WaferOutcome) {
     verdict: o.judgement.verdict,
     reasons: o.judgement.reasons,
     metrics: o.judgement.metrics.map(metricRow),
+    checks: checkTable(o.judgement),
+    legend: verdictLegend(),
     devices: (o.analysis?.devices ?? []).map((d) => ({
       id: d.id,
       geometry: d.geometry,

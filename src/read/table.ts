@@ -11,7 +11,7 @@
  * meaning and units.
  */
 import { parse } from "csv-parse/sync";
-import { InputError } from "../validate/problem.ts";
+import { InputError, ProblemList } from "../validate/problem.ts";
 import { scanPlainBody, splitPlainBody } from "./plainTable.ts";
 
 export interface MetaEntry {
@@ -81,21 +81,26 @@ export function readTable(text: string, file: string): RawTable {
   }
   const headerLine = line;
   const delimiter: "," | "\t" = headerText.includes("\t") ? "\t" : ",";
-  const columns = headerText.split(delimiter).map((cell, index) => {
+  // Every bad header cell and every repeated name is reported, not just the first.
+  const headerProblems = new ProblemList(file);
+  const columns: ColumnHeader[] = [];
+  headerText.split(delimiter).forEach((cell, index) => {
     const c = cell.trim();
     const m = HEADER_CELL.exec(c);
     if (!m) {
-      throw new InputError({ file, line: headerLine, message: `cannot read column header ${JSON.stringify(c)}`, expected: "a name with its unit in brackets, such as \"Rxx [ohm]\"", found: JSON.stringify(c), fix: "write each column as name [unit]" });
+      headerProblems.add({ file, line: headerLine, message: `cannot read column header ${JSON.stringify(c)}`, expected: "a name with its unit in brackets, such as \"Rxx [ohm]\"", found: JSON.stringify(c), fix: "write each column as name [unit]" });
+      return;
     }
-    return { name: m[1], unit: (m[2] ?? "").trim(), index };
+    columns.push({ name: m[1], unit: (m[2] ?? "").trim(), index });
   });
   const seen = new Map<string, number>();
   for (const c of columns) {
     if (seen.has(c.name)) {
-      throw new InputError({ file, line: headerLine, message: `column "${c.name}" appears twice`, expected: "each column once", found: `columns ${seen.get(c.name)! + 1} and ${c.index + 1}`, fix: "rename or remove one of them" });
+      headerProblems.add({ file, line: headerLine, message: `column "${c.name}" appears twice`, expected: "each column once", found: `columns ${seen.get(c.name)! + 1} and ${c.index + 1}`, fix: "rename or remove one of them" });
     }
     seen.set(c.name, c.index);
   }
+  headerProblems.done();
   const bodyStart = Math.min(pos, text.length);
   const plain = scanPlainBody(text, bodyStart, delimiter, columns.length);
   if (plain) {
@@ -159,11 +164,13 @@ export function numericColumn(table: RawTable, col: ColumnHeader, factor = 1, of
     return out;
   }
   const out = new Float64Array(table.rows.length);
+  // Every bad cell of the column is reported (up to the per-file cap), not just the first.
+  const list = new ProblemList(table.file);
   for (let i = 0; i < table.rows.length; i++) {
     const cell = table.rows[i][col.index];
     const v = cell === "" ? NaN : Number(cell);
     if (!Number.isFinite(v)) {
-      throw new InputError({
+      list.add({
         file: table.file,
         line: table.rowLines[i],
         field: `column ${col.index + 1} (${col.name})`,
@@ -175,5 +182,6 @@ export function numericColumn(table: RawTable, col: ColumnHeader, factor = 1, of
     }
     out[i] = v * factor + offset;
   }
+  list.done();
   return out;
 }

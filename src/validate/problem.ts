@@ -33,11 +33,14 @@ export interface Problem {
 export class InputError extends Error {
   readonly problem: Problem;
   readonly problems: Problem[];
-  constructor(problem: Omit<Problem, "severity"> & { severity?: Severity }, more: Problem[] = []) {
+  /** Problems found beyond the cap and left out; when > 0 the last of `problems` is the line saying so. */
+  readonly omitted: number;
+  constructor(problem: Omit<Problem, "severity"> & { severity?: Severity }, more: Problem[] = [], omitted = 0) {
     super([problem, ...more].map((p) => formatProblem({ severity: "error", ...p })).join("\n"));
     this.name = "InputError";
     this.problem = { severity: "error", ...problem };
     this.problems = [this.problem, ...more];
+    this.omitted = omitted;
   }
 }
 
@@ -51,20 +54,25 @@ export const MAX_PROBLEMS_PER_FILE = 50;
  * of them plus a line saying how many were left out.
  */
 export class ProblemList {
+  /** The first `cap` problems; the rest are only counted. */
   readonly problems: Problem[] = [];
+  private dropped = 0;
   constructor(readonly file: string, readonly cap = MAX_PROBLEMS_PER_FILE) {}
 
   add(p: Omit<Problem, "severity"> & { severity?: Severity }): void {
-    this.problems.push({ severity: "error", ...p });
+    if (this.problems.length < this.cap) this.problems.push({ severity: "error", ...p });
+    else this.dropped++;
   }
 
-  /** Runs fn; an InputError it throws is recorded and `undefined` returned. */
+  /** Runs fn; an InputError it throws is recorded (with its count of left-out problems) and `undefined` returned. */
   attempt<T>(fn: () => T): T | undefined {
     try {
       return fn();
     } catch (err) {
       if (!(err instanceof InputError)) throw err;
-      this.problems.push(...err.problems);
+      const own = err.omitted > 0 ? err.problems.slice(0, -1) : err.problems;
+      for (const p of own) this.add(p);
+      this.dropped += err.omitted;
       return undefined;
     }
   }
@@ -73,21 +81,20 @@ export class ProblemList {
     return this.problems.length === 0;
   }
 
-  /** The problems, capped, with a closing line when some were left out. */
-  capped(): Problem[] {
-    if (this.problems.length <= this.cap) return [...this.problems];
-    const left = this.problems.length - this.cap;
-    return [
-      ...this.problems.slice(0, this.cap),
-      { severity: "error", file: this.file, message: `${left} more problem${left === 1 ? "" : "s"} in this file not listed (only the first ${this.cap} are)`, fix: "correct the problems above and build again to see the rest" },
-    ];
+  /** True once the cap is reached: a loop over many rows may stop looking. */
+  get full(): boolean {
+    return this.problems.length >= this.cap;
   }
 
-  /** Throws every recorded problem together; returns when there is none. */
+  /** Throws every recorded problem together, with a closing line when some were left out; returns when there is none. */
   done(): void {
     if (this.ok) return;
-    const [first, ...more] = this.capped();
-    throw new InputError(first, more);
+    const [first, ...more] = this.problems;
+    if (this.dropped > 0) {
+      const n = this.dropped;
+      more.push({ severity: "error", file: this.file, message: `${n} more problem${n === 1 ? "" : "s"} in this file not listed (only the first ${this.cap} are shown)`, fix: "correct the problems above and build again to see the rest" });
+    }
+    throw new InputError(first, more, this.dropped);
   }
 }
 
