@@ -63,7 +63,9 @@ export function validateDepthProfile(t: RawTable): DepthProfileFile {
     }
   });
   const hasDepth = t.columns.some((c) => c.name === "depth");
-  if (!hasDepth || !t.columns.some((c) => c.name === "Ge")) {
+  // A misspelt column is already reported as unknown (with its likely name): not again as missing.
+  const unknownNames = t.columns.some((c) => c.name !== "depth" && c.name !== "Ge" && !(ELEMENT.test(c.name) && c.name !== "Si"));
+  if ((!hasDepth || !t.columns.some((c) => c.name === "Ge")) && !unknownNames) {
     list.add({ file: t.file, line: t.headerLine, message: `missing the ${hasDepth ? "Ge" : "depth"} column`, expected: "depth [nm] and Ge [1] (or Ge [at.%])", found: t.columns.map((c) => c.name).join(", "), fix: `add the ${hasDepth ? "Ge" : "depth"} column` });
   }
   list.done();

@@ -144,11 +144,13 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
   }
   const voltagesNeedCurrent = ["Vxx", "Vxy"].filter((n) => column(t, n));
   if (voltagesNeedCurrent.length && !column(t, "I") && !t.meta.has("current")) {
-    for (const name of voltagesNeedCurrent) list.add({ file: t.file, line: t.headerLine, field: `column ${name}`, message: "voltage given without the current", expected: "an I column or a line \"# current: 10 nA\"", found: "neither", fix: "add the source current so voltages can be turned into resistances" });
+    list.add({ file: t.file, line: t.headerLine, field: `column ${voltagesNeedCurrent.join(", ")}`, message: "voltage given without the current", expected: "an I column or a line \"# current: 10 nA\"", found: "neither", fix: "add the source current so voltages can be turned into resistances" });
   }
   const has = (n: string) => !!column(t, n);
   const columnsOk = geometry === "hall-bar" ? (has("Rxx") || has("Vxx")) && (has("Rxy") || has("Vxy")) : has("Ra") && has("Rb") && (has("Rxy") || has("Vxy"));
-  if (!columnsOk) {
+  // A misspelt column is already reported as unknown (with its likely name): not again as missing.
+  const unknownNames = t.columns.some((c) => !(c.name in SWEEP_COLUMNS));
+  if (!columnsOk && !unknownNames) {
     const need = geometry === "hall-bar" ? "Rxx and Rxy (or Vxx and Vxy with a current)" : "Ra, Rb and Rxy";
     list.add({ file: t.file, line: t.headerLine, message: `missing a column a ${geometry} needs`, expected: need, found: t.columns.map((c) => c.name).join(", "), fix: "add the missing column, or check the device geometry in wafer.md" });
   }

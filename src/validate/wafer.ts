@@ -179,7 +179,7 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
   const shapeOk = list.ok;
   const bad = (field: string) => [...badFields].some((b) => b === "" ? false : field === b || field.startsWith(`${b}.`) || field.startsWith(`${b}[`) || b.startsWith(`${field}.`) || b.startsWith(`${field}[`));
   const r = data as Record<string, any>;
-  if (typeof r.wafer === "string" && r.wafer !== ctx.folder) {
+  if (typeof r.wafer === "string" && !bad("wafer") && r.wafer !== ctx.folder) {
     list.add({ file, line: lineOf("wafer"), field: "wafer", message: "wafer id does not match its folder", expected: JSON.stringify(ctx.folder), found: JSON.stringify(r.wafer), fix: "make the id and the folder name the same (rename one of them)" });
   }
   const waivers = (Array.isArray(r.waivers) ? r.waivers : []) as Record<string, unknown>[];
