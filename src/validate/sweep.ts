@@ -144,7 +144,7 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
   }
   const voltagesNeedCurrent = ["Vxx", "Vxy"].filter((n) => column(t, n));
   if (voltagesNeedCurrent.length && !column(t, "I") && !t.meta.has("current")) {
-    list.add({ file: t.file, line: t.headerLine, field: `column ${voltagesNeedCurrent.join(", ")}`, message: "voltage given without the current", expected: "an I column or a line \"# current: 10 nA\"", found: "neither", fix: "add the source current so voltages can be turned into resistances" });
+    list.add({ file: t.file, line: t.headerLine, field: voltagesNeedCurrent.length > 1 ? `columns ${voltagesNeedCurrent.join(" and ")}` : `column ${voltagesNeedCurrent[0]}`, message: "voltage given without the current", expected: "an I column or a line \"# current: 10 nA\"", found: "neither", fix: "add the source current so voltages can be turned into resistances" });
   }
   const has = (n: string) => !!column(t, n);
   const columnsOk = geometry === "hall-bar" ? (has("Rxx") || has("Vxx")) && (has("Rxy") || has("Vxy")) : has("Ra") && has("Rb") && (has("Rxy") || has("Vxy"));

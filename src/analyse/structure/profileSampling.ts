@@ -24,5 +24,6 @@ export const MIN_POINTS_ACROSS_INTERFACE = 3;
 export function profileSampling(step: number, widths: readonly number[], minPoints = MIN_POINTS_ACROSS_INTERFACE): ProfileSampling {
   const narrowest = Math.min(...widths.filter((w) => Number.isFinite(w) && w > 0));
   const pointsAcross = step > 0 && Number.isFinite(narrowest) ? narrowest / step : Infinity;
-  return { step, pointsAcross, coarse: pointsAcross < minPoints };
+  // A relative tolerance keeps an exact multiple (1.2 nm / 0.4 nm) from falling just short in floating point.
+  return { step, pointsAcross, coarse: pointsAcross < minPoints * (1 - 1e-9) };
 }
