@@ -35,12 +35,12 @@ export interface FindingSpec {
 }
 
 export const FINDING_SPECS: readonly FindingSpec[] = [
-  { key: "incoherent_well", label: "Well coherence", description: "the well's in-plane lattice runs on from the reference across both interfaces (geometric phase analysis of the micrographs)", defaultConsequence: "fail", clear: "the well is coherent" },
-  { key: "beyond_critical_thickness", label: "Critical thickness", description: "the well is thinner than its Matthews–Blakeslee critical thickness", defaultConsequence: "fail", clear: "the well is within its critical thickness" },
-  { key: "parallel_conduction", label: "Parallel conduction", description: "the Hall density agrees with the Shubnikov–de Haas density of the well within sdh_mismatch_tolerance", defaultConsequence: "fail", clear: "Hall and SdH densities agree" },
-  { key: "one_sign_field", label: "Field of both signs", description: "every field sweep runs through zero to both field signs, so Rxx and Rxy are (anti)symmetrised", defaultConsequence: "marginal", clear: "every field sweep has both field signs" },
-  { key: "fit_undetermined", label: "Fits determined", description: "every fit that had its data (Hall slopes, gate calibration, percolation, power law, quantum lifetime, depth-profile edges, X-ray, micrograph profile and strain maps) gave an accepted result", defaultConsequence: "marginal", clear: "every fit with data was accepted" },
-  { key: "coarse_profile", label: "Profile sampling", description: `the depth profile has at least ${MIN_POINTS_ACROSS_INTERFACE} depth steps across each interface's 10–90 % width`, defaultConsequence: "marginal", clear: "the profile resolves both interfaces" },
+  { key: "incoherent_well", label: "Incoherent well", description: "the well's in-plane lattice does not run on from the reference across its interfaces (geometric phase analysis of the micrographs)", defaultConsequence: "fail", clear: "the well is coherent" },
+  { key: "beyond_critical_thickness", label: "Beyond critical thickness", description: "the well is thicker than its Matthews–Blakeslee critical thickness", defaultConsequence: "fail", clear: "the well is within its critical thickness" },
+  { key: "parallel_conduction", label: "Parallel conduction", description: "the Hall density differs from the Shubnikov–de Haas density of the well by more than sdh_mismatch_tolerance", defaultConsequence: "fail", clear: "Hall and SdH densities agree" },
+  { key: "one_sign_field", label: "One-sign field sweep", description: "a field sweep has one field sign only, so Rxx and Rxy are not (anti)symmetrised", defaultConsequence: "marginal", clear: "every field sweep has both field signs" },
+  { key: "fit_undetermined", label: "Rejected or undetermined fit", description: "a fit that had its data (Hall slope, gate calibration, percolation, power law, quantum lifetime, depth-profile edges, X-ray, micrograph profile or strain maps) was rejected or left undetermined", defaultConsequence: "marginal", clear: "every fit with data was accepted" },
+  { key: "coarse_profile", label: "Profile too coarse", description: `the depth profile has fewer than ${MIN_POINTS_ACROSS_INTERFACE} depth steps across an interface's 10–90 % width`, defaultConsequence: "marginal", clear: "the profile resolves both interfaces" },
 ];
 
 export const FINDING_BY_KEY: ReadonlyMap<string, FindingSpec> = new Map(FINDING_SPECS.map((f) => [f.key, f]));

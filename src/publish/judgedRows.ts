@@ -20,7 +20,7 @@ export function findingRow(f: FindingJudgement, grade: string): CheckRow {
   return {
     kind: "finding",
     key: `finding-${f.key}`,
-    label: `Finding: ${f.spec.label}`,
+    label: `Finding: ${f.spec.label.toLowerCase()}`,
     value: !f.check.checked ? "not checked" : f.check.raised.length ? "raised" : "not raised",
     target: `if raised, ${CONSEQUENCE_WORD[f.consequence]} (${f.fromGrade ? `set for grade ${grade}` : "default"})`,
     verdict: f.verdict,
@@ -49,7 +49,11 @@ export function checkTable(j: WaferJudgement): CheckTable {
   };
 }
 
-/** The legend: every state's word and meaning, in the order of the states module. */
+/** Legend order: the judged states from best to worst, then the states that say why nothing was judged. */
+const LEGEND_ORDER: readonly Verdict[] = ["pass", "marginal", "waived", "incomplete", "fail", "error", "noted", "recorded", "unmeasured", "unjudged"];
+
+/** The legend: every state's word and meaning (src/judge/states.ts). */
 export function verdictLegend(): { key: Verdict; meaning: string }[] {
-  return VERDICT_STATES.map((s) => ({ key: s.key, meaning: s.meaning }));
+  const meaning = new Map(VERDICT_STATES.map((s) => [s.key, s.meaning]));
+  return LEGEND_ORDER.map((key) => ({ key, meaning: meaning.get(key)! }));
 }

@@ -43,7 +43,7 @@ describe("findings as judged checks", () => {
     const j = judge("qubit", checks({ incoherent_well: ["a.png: in-plane mismatch -1.134 % exceeds ±0.25 %: the well is not coherent"] }));
     expect(j.metrics.find((m) => m.key === "peak_mobility")!.verdict).toBe("pass");
     expect(j.verdict).toBe("fail");
-    expect(j.reasons[0]).toBe("Well coherence: a.png: in-plane mismatch -1.134 % exceeds ±0.25 %: the well is not coherent");
+    expect(j.reasons[0]).toBe("Incoherent well: a.png: in-plane mismatch -1.134 % exceeds ±0.25 %: the well is not coherent");
     expect(j.findings.find((f) => f.key === "incoherent_well")).toMatchObject({ verdict: "fail", consequence: "fail", fromGrade: false });
   });
 
@@ -56,7 +56,7 @@ describe("findings as judged checks", () => {
     const noted = judge("test", checks({ incoherent_well: ["not coherent"] }));
     expect(noted.verdict).toBe("pass");
     expect(noted.findings.find((f) => f.key === "incoherent_well")).toMatchObject({ verdict: "noted", consequence: "note", fromGrade: true });
-    expect(noted.reasons).toEqual(["note: Well coherence: not coherent (a note for this grade)"]);
+    expect(noted.reasons).toEqual(["note: Incoherent well: not coherent (a note for this grade)"]);
     expect(judge("test", checks({ one_sign_field: ["device HB1: 6 sweeps"] })).verdict).toBe("fail");
   });
 
@@ -64,7 +64,7 @@ describe("findings as judged checks", () => {
     const waiver: Waiver = { finding: "incoherent_well", reason: "strain relaxed by design for this test stack", approved_by: "R. Adeyemi", date: "2025-01-10" };
     const j = judge("qubit", checks({ incoherent_well: ["not coherent"] }), [waiver]);
     expect(j.verdict).toBe("waived");
-    expect(j.reasons[0]).toBe("waived by R. Adeyemi on 2025-01-10: strain relaxed by design for this test stack (was fail: Well coherence: not coherent)");
+    expect(j.reasons[0]).toBe("waived by R. Adeyemi on 2025-01-10: strain relaxed by design for this test stack (was fail: Incoherent well: not coherent)");
     expect(judge("qubit", checks({ parallel_conduction: ["x"] }), [waiver]).verdict).toBe("fail");
   });
 
