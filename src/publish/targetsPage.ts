@@ -1,6 +1,6 @@
 /**
  * Page model of /targets/: the grades and limits in force (with guard band,
- * required, aggregate), the trend settings, and every registered metric with
+ * required, aggregate) and each finding's consequence, the trend settings, and every registered metric with
  * its unit and description.
  */
 import { METRICS, METRIC_BY_KEY } from "../analyse/metrics.ts";
@@ -8,6 +8,7 @@ import type { Targets } from "../validate/targets.ts";
 import { DEFAULT_TREND_SETTINGS } from "../validate/trendSettings.ts";
 import { describeBaseline } from "../judge/trends.ts";
 import { formatValue, prettyUnit } from "./format.ts";
+import { FINDING_SPECS } from "../judge/findings.ts";
 
 export function targetsPageModel(targets: Targets | undefined) {
   const grades = Object.entries(targets?.grades ?? {}).map(([name, limits]) => ({
@@ -25,6 +26,11 @@ export function targetsPageModel(targets: Targets | undefined) {
         required: t.required ? "yes" : "no",
         aggregate: spec.section === "transport" || spec.section === "uniformity" ? t.aggregate : "wafer-level",
       };
+    }),
+    // Every finding's consequence for this grade: the grade's own (findings: block) or the default.
+    findings: FINDING_SPECS.map((f) => {
+      const set = targets?.findings?.[name]?.[f.key];
+      return { key: f.key, label: f.label, consequence: set ?? f.defaultConsequence, from: set ? "this grade" : "default" };
     }),
   }));
   const trends = targets?.trends ?? DEFAULT_TREND_SETTINGS;
