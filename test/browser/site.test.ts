@@ -230,9 +230,9 @@ describe("verdict states (issue 15): a word, a shape of their own and a legend; 
       await page.goto(url(), { waitUntil: "load" });
       await openAll(page);
       const r = await page.evaluate(() => {
-        const marks = (sel: string) => [...document.querySelectorAll(`${sel} .verdict`)].map((v) => (v.textContent ?? "").trim());
         const legend = [...document.querySelectorAll("#verdict-legend dt .verdict")].map((v) => ({ word: (v.textContent ?? "").trim(), shape: v.querySelector("svg")!.innerHTML.replace(/\s+/g, " "), meaning: (v.closest("div")!.querySelector("dd")!.textContent ?? "").trim() }));
-        return { judged: marks("#metrics > .table-wrap table"), other: marks("#other-figures table"), legend, legendVisible: !!document.querySelector("#verdict-legend summary")?.textContent?.trim() };
+        // No named helpers inside evaluate: the test transform may wrap them in a helper the page does not have.
+        return { judged: [...document.querySelectorAll("#metrics > .table-wrap table .verdict")].map((v) => (v.textContent ?? "").trim()), other: [...document.querySelectorAll("#other-figures table .verdict")].map((v) => (v.textContent ?? "").trim()), legend, legendVisible: !!document.querySelector("#verdict-legend summary")?.textContent?.trim() };
       });
       expect(r.legendVisible).toBe(true);
       const words = r.legend.map((l) => l.word);
