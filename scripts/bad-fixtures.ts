@@ -68,7 +68,8 @@ W("future-growth-date", "FUTURE", { "wafer.md": record("FUTURE").replace("2024-0
 W("not-a-calendar-date", "FEB30", { "wafer.md": record("FEB30").replace("2024-05-02", "2024-02-30"), "transport/a.csv": good() });
 W("hall-bar-without-dimensions", "NODIM", { "wafer.md": record("NODIM", "", "devices:\n  - { id: HB1, geometry: hall-bar, files: \"transport/*.csv\" }\n"), "transport/a.csv": good() });
 W("duplicate-device-id", "DUPDEV", { "wafer.md": record("DUPDEV", "", "devices:\n  - { id: HB1, geometry: hall-bar, length_um: 100, width_um: 20, files: \"transport/*.csv\" }\n  - { id: HB1, geometry: hall-bar, length_um: 100, width_um: 20, files: \"transport/*.csv\" }\n"), "transport/a.csv": good() });
-W("unknown-waiver-metric", "WAIVE", { "wafer.md": record("WAIVE", "waivers:\n  - { metric: peak_mobilty, reason: \"accepted\", approved_by: \"A. Nobody\", date: 2024-06-01 }\n"), "transport/a.csv": good() });
+// Two problems in one wafer.md: both are reported (issue 15).
+W("unknown-waiver-metric", "WAIVE", { "wafer.md": record("WAIVE", "waivers:\n  - { metric: peak_mobilty, reason: \"accepted\", approved_by: \"A. Nobody\", date: 2024-06-01 }\n", `devices:\n  - { id: HB1, geometry: hall-bar, length_um: 100, width_um: 5O, files: "transport/*.csv" }\n`), "transport/a.csv": good() });
 W("unknown-grade", "GRADE", { "wafer.md": record("GRADE", "grade: qubitt\n"), "transport/a.csv": good() });
 cases["duplicate-wafer-id-case"] = { "wafers/DUP-1/wafer.md": record("DUP-1"), "wafers/DUP-1/transport/a.csv": good(), "wafers/dup-1/wafer.md": record("dup-1"), "wafers/dup-1/transport/a.csv": good() };
 // --- globs ---
@@ -86,6 +87,8 @@ W("metadata-only", "METAONLY", csv("# gate: 0.5 V\n# temperature: 1.6 K\n"));
 W("not-utf8", "LATIN1", csv(Buffer.concat([Buffer.from("# gate: 0.5 V\n# operator: "), Buffer.from([0x4d, 0xfc, 0x6c, 0x6c, 0x65, 0x72]), Buffer.from("\n" + header.slice(15) + rows())])));
 W("binary-file", "BINARY", csv(Buffer.from([0x50, 0x4b, 0x03, 0x04, 0x14, 0x00, 0x00, 0x00, 0x08, 0x00])));
 W("unknown-column", "UNKCOL", csv("# gate: 0.5 V\nB [T],Rxz [ohm],Rxy [ohm]\n" + rows()));
+// Problems in different columns and a metadata line: every one is reported, not just the first column's (issue 15).
+W("two-bad-columns", "TWOCOL", csv("# gate: 0.5 V\n# temperature: 1.6 parsecs\nB [T],Rxx [kg],Rxy [ohm]\n-0.500,500.0,500.0\n-0.250,500.0,OVL\n0.000,500.0,0.0\n0.250,500.0,-250.0\n0.500,500.0,n/a\n"));
 W("duplicate-column", "DUPCOL", csv("# gate: 0.5 V\nB [T],Rxx [ohm],Rxx [ohm]\n" + rows()));
 W("missing-required-column", "NORXX", csv("# gate: 0.5 V\nB [T],Rxy [ohm]\n-0.5,500\n0.5,-500\n"));
 W("missing-column-vdp", "NORA", { "wafer.md": record("NORA", "", "devices:\n  - { id: V1, geometry: van-der-pauw, files: \"transport/*.csv\" }\n"), "transport/s.csv": header + rows() });
@@ -115,7 +118,8 @@ W("gate-sweep-only", "GATEONLY", { "wafer.md": record("GATEONLY"), "transport/ga
 cases["targets-unparseable-unit"] = { "targets.yaml": TARGETS.replace("1e4 cm^2/(V s)", "1e4 furlongs") };
 cases["targets-incompatible-unit"] = { "targets.yaml": TARGETS.replace("1e4 cm^2/(V s)", "1e4 cm^-2") };
 cases["targets-bare-number"] = { "targets.yaml": TARGETS.replace("\"1e4 cm^2/(V s)\"", "10000") };
-cases["targets-unknown-metric"] = { "targets.yaml": TARGETS.replace("peak_mobility", "peak_mobilty") };
+// Every problem of the file: a misspelt metric, a bad aggregate, an unknown finding and consequence (issue 15).
+cases["targets-unknown-metric"] = { "targets.yaml": TARGETS.replace("peak_mobility", "peak_mobilty") + '    turn_on_voltage: { max: "1.0 V", aggregate: maximum }\n    findings:\n      incoherent_wel: note\n      one_sign_field: ignore\n' };
 cases["targets-yaml-syntax-error"] = { "targets.yaml": "default_grade: test\ngrades:\n  test:\n    peak_mobility: { min: \"1e4 cm^2/(V s)\"\n" };
 cases["targets-reversed-between"] = { "targets.yaml": TARGETS.replace("{ min: \"1e4 cm^2/(V s)\" }", "{ between: [\"2e4 cm^2/(V s)\", \"1e4 cm^2/(V s)\"] }") };
 // --- structure and images ---

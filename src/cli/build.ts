@@ -38,12 +38,23 @@ export interface BuildIO {
 
 export interface BuildResult {
   ok: boolean;
+  /** Why nothing was built, when ok is false and the reason is known. */
+  reason?: string;
   outcomes: WaferOutcome[];
   problems: Problem[];
   outDir: string;
   pages: number;
   /** Wafers taken from the analysis cache / analysed from raw files; wafer pages reused unchanged from the previous output; raw files read to compute cache keys (the others' hashes came from the file-hash record); wall time of each phase, ms. */
   stats?: { cacheHits: number; analysed: number; pagesReused: number; filesHashed: number; phases: Record<string, number> };
+}
+
+/**
+ * Errors outside any wafer folder (targets.yaml, analysis.yaml, runs/*.md, a
+ * missing data or wafers folder). A badly named wafer folder is the wafer's own
+ * problem and does not stop the build.
+ */
+export function siteWideErrors(problems: readonly Problem[]): Problem[] {
+  return problems.filter((p) => p.severity === "error" && p.wafer === undefined && !p.file.startsWith("wafers/"));
 }
 
 export async function readVersion(): Promise<string> {
@@ -73,9 +84,13 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     await fs.rm(tmpDir, { recursive: true, force: true });
     const version = await readVersion();
     const site = await loadSiteInputs(dataDir);
-    // A broken targets.yaml or analysis.yaml makes every verdict unreliable, so every wafer shows it.
-    const sitewideErrors = site.problems.filter((p) => p.severity === "error" && (p.file === "targets.yaml" || p.file === "analysis.yaml"));
-    const ctx: PipelineContext = { dataDir, today: io.today(), siteSettings: site.settings, targets: site.targets, siteOverrides: site.settingOverrides, version, sitewideErrors };
+    // A broken site-wide input (targets.yaml, analysis.yaml, a run note) makes every verdict unreliable:
+    // the build stops before anything is written, so the previous site stays as it was (exit 1, --strict or not).
+    const sitewide = siteWideErrors(site.problems);
+    if (sitewide.length) {
+      return { ok: false, outcomes: [], problems: [...site.problems], outDir, pages: 0, reason: `${sitewide.length} site-wide input error${sitewide.length === 1 ? "" : "s"} (listed above)` };
+    }
+    const ctx: PipelineContext = { dataDir, today: io.today(), siteSettings: site.settings, targets: site.targets, siteOverrides: site.settingOverrides, version, sitewideErrors: [] };
     const phases: Record<string, number> = {};
     let t = performance.now();
     const lap = (name: string) => {

@@ -26,7 +26,7 @@ export async function runBuild(options: BuildOptions, io: CommandIO): Promise<nu
     reportProblems(result.problems, io.err);
     io.out(summary(result, (Date.now() - started) / 1000));
     if (!result.ok) {
-      io.err("waferbook: nothing could be built; the previous site was left as it was.");
+      io.err(`waferbook: ${result.reason ? `${result.reason}: ` : ""}nothing could be built; the previous site was left as it was.`);
       return EXIT.inputErrors;
     }
     io.out(siteWrittenMessage(path.relative(process.cwd(), result.outDir) || ".", options.basePath));

@@ -1,6 +1,7 @@
 /**
  * Entry point of the `waferbook` command: reads the arguments (args.ts), runs
  * the command and returns its exit code — 0 done; 1 input errors with --strict,
+ * a site-wide input error (targets.yaml, analysis.yaml, a run note),
  * or nothing built; 2 bad usage; 70 internal error (args.ts EXIT, README).
  * Only an internal error prints a stack trace.
  */

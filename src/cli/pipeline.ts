@@ -6,7 +6,7 @@
 import type { WaferAnalysis } from "../analyse/wafer.ts";
 import { judgeWafer, type MetricValues, type WaferJudgement } from "../judge/verdict.ts";
 import type { LoadContext, LoadedWafer, RawFileInfo } from "../read/wafer.ts";
-import { METRIC_BY_KEY } from "../analyse/metrics.ts";
+import { findingChecks } from "../judge/findings.ts";
 import { capProblem, formatProblem, type Problem } from "../validate/problem.ts";
 import type { WaferRecord } from "../validate/wafer.ts";
 import type { Targets } from "../validate/targets.ts";
@@ -76,15 +76,10 @@ export function judgeOutcome(loaded: Pick<LoadedWafer, "folder" | "record" | "pr
   if (record && ctx.targets && !(grade in ctx.targets.grades)) {
     problems.push({ severity: "error", wafer: loaded.folder, file: record.file, field: "grade", message: "unknown grade", expected: Object.keys(ctx.targets.grades).join(", "), found: JSON.stringify(grade), fix: "use a grade defined in targets.yaml" });
   }
-  for (const [i, w] of (record?.waivers ?? []).entries()) {
-    if (!METRIC_BY_KEY.has(w.metric)) {
-      problems.push({ severity: "error", wafer: loaded.folder, file: record!.file, field: `waivers[${i}].metric`, message: "waiver names an unknown metric", expected: "a metric key from docs/formats.md", found: JSON.stringify(w.metric), fix: "correct the metric key or remove the waiver" });
-    }
-  }
   const capped = problems.map(capProblem);
   const errors = [...capped.filter((p) => p.severity === "error"), ...ctx.sitewideErrors];
-  const targets = ctx.targets ?? { defaultGrade: grade, grades: {}, file: "targets.yaml" };
-  const judgement = judgeWafer(values, grade, targets, record?.waivers ?? [], errors.length > 0, errors.map((p) => `input error: ${formatProblem(p)}`));
+  const targets = ctx.targets ?? { defaultGrade: grade, grades: {}, findings: {}, file: "targets.yaml" };
+  const judgement = judgeWafer(values, grade, targets, record?.waivers ?? [], errors.length > 0, errors.map((p) => `input error: ${formatProblem(p)}`), findingChecks(analysis));
   return {
     folder: loaded.folder,
     record,

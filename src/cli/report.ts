@@ -8,7 +8,7 @@ import type { BuildResult } from "./build.ts";
 import type { Verdict } from "../judge/verdict.ts";
 
 /** The order the summary lists verdict counts in, best first, whatever order the wafers came in. */
-export const SUMMARY_ORDER: readonly Verdict[] = ["pass", "marginal", "waived", "fail", "incomplete", "untested", "error"];
+export const SUMMARY_ORDER: readonly Verdict[] = ["pass", "marginal", "waived", "fail", "incomplete", "unjudged", "error", "noted", "recorded", "unmeasured"];
 
 export function reportProblems(problems: Problem[], log: (s: string) => void): void {
   for (const p of problems) log(formatProblem(p));

@@ -11,6 +11,7 @@
  */
 import { judgeWafer, type MetricValues, type Verdict } from "./verdict.ts";
 import type { Waiver } from "../validate/wafer.ts";
+import type { FindingCheck } from "./findings.ts";
 import type { TargetsVersion } from "../read/history.ts";
 
 export interface VerdictAtVersion {
@@ -33,6 +34,8 @@ export interface WaferForHistory {
   grade?: string;
   waivers: Waiver[];
   hasErrors: boolean;
+  /** Today's finding checks, judged under each version's consequences (none: findings are not judged). */
+  findings?: FindingCheck[];
 }
 
 /** Selects the targets versions that apply since `recordedAt` (ISO date or timestamp; undefined: not committed). Oldest first. */
@@ -55,7 +58,7 @@ export function verdictsOverTime(w: WaferForHistory, versions: readonly TargetsV
     if (!v.targets) return { ...base, verdict: null, grade: null, reasons: [], note: v.error ?? "targets unavailable" };
     const grade = w.grade ?? v.targets.defaultGrade;
     if (!(grade in v.targets.grades)) return { ...base, verdict: null, grade, reasons: [], note: `grade ${grade} was not defined in these targets` };
-    const j = judgeWafer(w.values, grade, v.targets, w.waivers, w.hasErrors, w.hasErrors ? ["the wafer has input errors today"] : []);
+    const j = judgeWafer(w.values, grade, v.targets, w.waivers, w.hasErrors, w.hasErrors ? ["the wafer has input errors today"] : [], w.findings ?? []);
     return { ...base, verdict: j.verdict, grade, reasons: j.reasons };
   });
 }

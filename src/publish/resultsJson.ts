@@ -34,6 +34,7 @@ export function resultsJson(o: WaferOutcome, commits: { wafer: string | null; ta
     reasons: o.judgement.reasons,
     decision: decisionJson(o),
     metrics,
+    findings: Object.fromEntries(o.judgement.findings.map((f) => [f.key, { verdict: f.verdict, consequence: f.consequence, consequence_from: f.fromGrade ? "grade" : "default", checked: f.check.checked, raised: f.check.raised, reason: f.reason ?? null, waiver: f.waiver ?? null }])),
     devices: (o.analysis?.devices ?? []).map((d) => ({
       id: d.id,
       geometry: d.geometry,

@@ -61,7 +61,7 @@ export function waferPageExtras(sorted: readonly WaferOutcome[], basePath: strin
 
 /** A wafer as the history re-judges it: today's figures, its grade, waivers and whether it has input errors. */
 function historyInput(o: WaferOutcome) {
-  return { values: o.values, grade: o.record?.grade, waivers: o.record?.waivers ?? [], hasErrors: o.judgement.verdict === "error" };
+  return { values: o.values, grade: o.record?.grade, waivers: o.record?.waivers ?? [], hasErrors: o.judgement.verdict === "error", findings: o.judgement.findings.map((f) => f.check) };
 }
 
 /** Metrics shown as columns of the index table. */
@@ -97,7 +97,7 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
     firstReason: o.judgement.reasons[0] ?? "",
     metrics: INDEX_METRICS.map((k) => {
       const m = o.judgement.metrics.find((x) => x.key === k);
-      return { key: k, text: m ? formatValue(m.value, m.spec) : "—", sort: m?.value ?? null, verdict: m?.verdict ?? "untested" };
+      return { key: k, text: m ? formatValue(m.value, m.spec) : "—", sort: m?.value ?? null, verdict: m?.verdict ?? "unmeasured" };
     }),
   }));
   const runIds = [...new Set([...sorted.flatMap((o) => (o.record?.run ? [o.record.run] : [])), ...runs.keys()])].sort();

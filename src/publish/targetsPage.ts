@@ -1,6 +1,6 @@
 /**
  * Page model of /targets/: the grades and limits in force (with guard band,
- * required, aggregate), the trend settings, and every registered metric with
+ * required, aggregate) and each finding's consequence, the trend settings, and every registered metric with
  * its unit and description.
  */
 import { METRICS, METRIC_BY_KEY } from "../analyse/metrics.ts";
@@ -10,6 +10,7 @@ import { describeBaseline } from "../judge/trends.ts";
 import { DEFAULT_MAX_PASSES } from "../judge/phaseOne.ts";
 import { describeProduction } from "./trends.ts";
 import { formatValue, prettyUnit } from "./format.ts";
+import { FINDING_SPECS } from "../judge/findings.ts";
 
 export function targetsPageModel(targets: Targets | undefined) {
   const grades = Object.entries(targets?.grades ?? {}).map(([name, limits]) => ({
@@ -27,6 +28,11 @@ export function targetsPageModel(targets: Targets | undefined) {
         required: t.required ? "yes" : "no",
         aggregate: spec.section === "transport" || spec.section === "uniformity" ? t.aggregate : "wafer-level",
       };
+    }),
+    // Every finding's consequence for this grade: the grade's own (findings: block) or the default.
+    findings: FINDING_SPECS.map((f) => {
+      const set = targets?.findings?.[name]?.[f.key];
+      return { key: f.key, label: f.label, consequence: set ?? f.defaultConsequence, from: set ? "this grade" : "default" };
     }),
   }));
   const trends = targets?.trends ?? DEFAULT_TREND_SETTINGS;

@@ -15,6 +15,7 @@ import { structureSection } from "./structureSection.ts";
 import { imagesSection } from "./imagesSection.ts";
 import { transportDepthSection } from "./transportDepthSection.ts";
 import { uniformitySection } from "./uniformitySection.ts";
+import { checkTable, verdictLegend } from "./judgedRows.ts";
 
 export interface MetricRow {
   key: string;
@@ -105,6 +106,8 @@ export function waferPageModel(o: WaferOutcome) {
     reasons: o.judgement.reasons,
     decision: decisionModel(o),
     metrics: o.judgement.metrics.map(metricRow),
+    checks: checkTable(o.judgement),
+    legend: verdictLegend(),
     devices: (o.analysis?.devices ?? []).map((d) => ({
       id: d.id,
       geometry: d.geometry,

@@ -44,7 +44,7 @@ export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
     try {
       await fn();
     } catch (err) {
-      if (err instanceof InputError) out.problems.push(err.problem);
+      if (err instanceof InputError) out.problems.push(...err.problems);
       else throw err;
     }
   };

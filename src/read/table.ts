@@ -12,7 +12,7 @@
  * physics: it returns located cells; src/validate gives them meaning and units.
  */
 import { parse } from "csv-parse/sync";
-import { InputError } from "../validate/problem.ts";
+import { InputError, ProblemList } from "../validate/problem.ts";
 import { scanPlainBody, splitPlainBody } from "./plainTable.ts";
 import { cellCountProblem, decimalFix, numberText, tableDialect, type DecimalMark, type Separator } from "./tableDialect.ts";
 
@@ -88,21 +88,26 @@ export function readTable(text: string, file: string): RawTable {
   const headerLine = line;
   const bodyStart = Math.min(pos, text.length);
   const { delimiter, decimal } = tableDialect(file, meta, headerText, headerLine, text.slice(bodyStart));
-  const columns = headerText.split(delimiter).map((cell, index) => {
+  // Every bad header cell and every repeated name is reported, not just the first.
+  const headerProblems = new ProblemList(file);
+  const columns: ColumnHeader[] = [];
+  headerText.split(delimiter).forEach((cell, index) => {
     const c = cell.trim();
     const m = HEADER_CELL.exec(c);
     if (!m) {
-      throw new InputError({ file, line: headerLine, message: `cannot read column header ${JSON.stringify(c)}`, expected: "a name with its unit in brackets, such as \"Rxx [ohm]\"", found: JSON.stringify(c), fix: "write each column as name [unit]" });
+      headerProblems.add({ file, line: headerLine, message: `cannot read column header ${JSON.stringify(c)}`, expected: "a name with its unit in brackets, such as \"Rxx [ohm]\"", found: JSON.stringify(c), fix: "write each column as name [unit]" });
+      return;
     }
-    return { name: m[1], unit: (m[2] ?? "").trim(), index };
+    columns.push({ name: m[1], unit: (m[2] ?? "").trim(), index });
   });
   const seen = new Map<string, number>();
   for (const c of columns) {
     if (seen.has(c.name)) {
-      throw new InputError({ file, line: headerLine, message: `column "${c.name}" appears twice`, expected: "each column once", found: `columns ${seen.get(c.name)! + 1} and ${c.index + 1}`, fix: "rename or remove one of them" });
+      headerProblems.add({ file, line: headerLine, message: `column "${c.name}" appears twice`, expected: "each column once", found: `columns ${seen.get(c.name)! + 1} and ${c.index + 1}`, fix: "rename or remove one of them" });
     }
     seen.set(c.name, c.index);
   }
+  headerProblems.done();
   const plain = scanPlainBody(text, bodyStart, delimiter, columns.length, decimal);
   if (plain) {
     if (plain.bodyLines.length === 0) throw noRows(file, headerLine);
@@ -171,12 +176,14 @@ export function numericColumn(table: RawTable, col: ColumnHeader, factor = 1, of
     return out;
   }
   const out = new Float64Array(table.rows.length);
+  // Every bad cell of the column is reported (up to the per-file cap), not just the first.
+  const list = new ProblemList(table.file);
   for (let i = 0; i < table.rows.length; i++) {
     const cell = table.rows[i][col.index];
     const text = cell === "" ? "" : numberText(cell, table.decimal);
     const v = DECIMAL.test(text) ? Number(text) : NaN;
     if (NON_DECIMAL.test(text)) {
-      throw new InputError({
+      list.add({
         file: table.file,
         line: table.rowLines[i],
         field: `column ${col.index + 1} (${col.name})`,
@@ -185,9 +192,8 @@ export function numericColumn(table: RawTable, col: ColumnHeader, factor = 1, of
         found: JSON.stringify(cell),
         fix: "write the value in decimal; hexadecimal (0x), binary (0b) and octal (0o) numbers are not read",
       });
-    }
-    if (!Number.isFinite(v)) {
-      throw new InputError({
+    } else if (!Number.isFinite(v)) {
+      list.add({
         file: table.file,
         line: table.rowLines[i],
         field: `column ${col.index + 1} (${col.name})`,
@@ -199,5 +205,6 @@ export function numericColumn(table: RawTable, col: ColumnHeader, factor = 1, of
     }
     out[i] = v * factor + offset;
   }
+  list.done();
   return out;
 }

@@ -47,8 +47,9 @@ export interface LoadContext {
   waferListing?: readonly string[];
 }
 
-function toProblem(err: unknown, wafer: string, _fallbackFile: string): Problem {
-  if (err instanceof InputError) return { ...err.problem, wafer };
+/** Every problem an InputError carries, marked with the wafer; anything else is rethrown (an internal error). */
+function toProblems(err: unknown, wafer: string): Problem[] {
+  if (err instanceof InputError) return err.problems.map((p) => ({ ...p, wafer }));
   throw err;
 }
 
@@ -69,7 +70,7 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
     out.record = record;
     for (const w of deviceDimensionWarnings(record.devices, f.rel, (field) => lineOfField(doc.matterText, field, doc.firstLine))) out.problems.push({ ...w, wafer: folder });
   } catch (err) {
-    out.problems.push(toProblem(err, folder, recordRel));
+    out.problems.push(...toProblems(err, folder));
     return out;
   }
   const listing = ctx.waferListing ?? (await fs.readdir(path.join(ctx.dataDir, "wafers")));
@@ -82,7 +83,7 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
   try {
     all = (await listFiles(waferDir, relPath(ctx.dataDir, waferDir))).filter((f) => f !== "wafer.md");
   } catch (err) {
-    out.problems.push(toProblem(err, folder, recordRel));
+    out.problems.push(...toProblems(err, folder));
     return out;
   }
   for (const [i, spec] of record.devices.entries()) {
@@ -93,7 +94,7 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
     try {
       matched = matchGlob(spec.files, all, { file: recordRel, field });
     } catch (err) {
-      out.problems.push(toProblem(err, folder, recordRel));
+      out.problems.push(...toProblems(err, folder));
       continue;
     }
     if (matched.length === 0) {
@@ -110,7 +111,7 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
         for (const w of sweep.warnings) out.problems.push({ ...w, wafer: folder });
         device.sweeps.push(sweep);
       } catch (err) {
-        out.problems.push(toProblem(err, folder, rel));
+        out.problems.push(...toProblems(err, folder));
         failed++;
       }
     }
@@ -141,7 +142,7 @@ function fileReader(ctx: LoadContext, waferDir: string, recordRel: string, matte
         if (matched.length === 0) report({ severity: "error", file: recordRel, line: lineOf(field), field, message: "file pattern matches no file", expected: "at least one file", found: JSON.stringify(pattern), fix: `check the pattern against the files in wafers/${folder}/` });
         return matched;
       } catch (err) {
-        out.problems.push(toProblem(err, folder, recordRel));
+        out.problems.push(...toProblems(err, folder));
         return [];
       }
     },
@@ -162,7 +163,7 @@ function fileReader(ctx: LoadContext, waferDir: string, recordRel: string, matte
       try {
         return await fn();
       } catch (err) {
-        out.problems.push(toProblem(err, folder, recordRel));
+        out.problems.push(...toProblems(err, folder));
         return undefined;
       }
     },

@@ -6,7 +6,7 @@
  * contaminants in cm⁻³. See docs/formats.md.
  */
 import { numericColumn, type RawTable } from "../read/table.ts";
-import { didYouMean, InputError } from "./problem.ts";
+import { didYouMean, InputError, ProblemList } from "./problem.ts";
 import { acceptedUnits, unitFactor } from "./units.ts";
 
 export interface DepthProfileFile {
@@ -34,7 +34,9 @@ export function validateDepthProfile(t: RawTable): DepthProfileFile {
   let depth: Float64Array | undefined;
   let ge: Float64Array | undefined;
   const contaminants: Record<string, number[]> = {};
-  for (const c of t.columns) {
+  // Each column is checked on its own: a bad column does not hide the next (ProblemList).
+  const list = new ProblemList(t.file);
+  for (const c of t.columns) list.attempt(() => {
     if (c.name === "depth") {
       const f = unitFactor("length", c.unit);
       if (f === undefined) throw unitError(t, "depth", c.unit, acceptedUnits("length"), "depth [nm]");
@@ -59,10 +61,15 @@ export function validateDepthProfile(t: RawTable): DepthProfileFile {
       const hint = didYouMean(c.name, known);
       throw new InputError({ file: t.file, line: t.headerLine, field: `column ${c.index + 1}`, message: "unknown column in a depth profile", expected: "depth [nm], Ge [1] or Ge [at.%], and contaminants named by element symbol such as O [cm^-3]", found: JSON.stringify(c.name), fix: hint ? `did you mean "${hint}"?` : c.name === "Si" ? "remove the Si column: the Si fraction is 1 − Ge" : "rename or remove the column" });
     }
+  });
+  const hasDepth = t.columns.some((c) => c.name === "depth");
+  // A misspelt column is already reported as unknown (with its likely name): not again as missing.
+  const unknownNames = t.columns.some((c) => c.name !== "depth" && c.name !== "Ge" && !(ELEMENT.test(c.name) && c.name !== "Si"));
+  if ((!hasDepth || !t.columns.some((c) => c.name === "Ge")) && !unknownNames) {
+    list.add({ file: t.file, line: t.headerLine, message: `missing the ${hasDepth ? "Ge" : "depth"} column`, expected: "depth [nm] and Ge [1] (or Ge [at.%])", found: t.columns.map((c) => c.name).join(", "), fix: `add the ${hasDepth ? "Ge" : "depth"} column` });
   }
-  if (!depth || !ge) {
-    throw new InputError({ file: t.file, line: t.headerLine, message: `missing the ${depth ? "Ge" : "depth"} column`, expected: "depth [nm] and Ge [1] (or Ge [at.%])", found: t.columns.map((c) => c.name).join(", "), fix: `add the ${depth ? "Ge" : "depth"} column` });
-  }
+  list.done();
+  if (!depth || !ge) throw new Error("validateDepthProfile: unreachable (columns checked above)");
   for (let i = 1; i < depth.length; i++) {
     if (!(depth[i] > depth[i - 1])) {
       throw new InputError({ file: t.file, line: t.rowLines[i], field: "column depth", message: depth[i] === depth[i - 1] ? "depth repeats" : "depth is not increasing", expected: "depth increasing from row to row", found: `${t.rows[i - 1][t.columns.find((c) => c.name === "depth")!.index]} then ${t.rows[i][t.columns.find((c) => c.name === "depth")!.index]}`, fix: "sort the rows by depth and merge repeated depths" });

@@ -59,14 +59,79 @@ export function capProblem<P extends Problem>(p: P): P {
   return out;
 }
 
-/** Thrown inside readers and validators; caught at the wafer boundary and turned into data. */
+/**
+ * Thrown inside readers and validators; caught at the wafer boundary and
+ * turned into data. `problem` is the first; `problems` holds every problem
+ * found in the file (a validator that checks everything throws them together:
+ * see ProblemList).
+ */
 export class InputError extends Error {
   readonly problem: Problem;
-  constructor(problem: Omit<Problem, "severity"> & { severity?: Severity }) {
-    const capped = capProblem({ severity: "error", ...problem });
-    super(formatProblem(capped));
+  readonly problems: Problem[];
+  /** Problems found beyond the cap and left out; when > 0 the last of `problems` is the line saying so. */
+  readonly omitted: number;
+  constructor(problem: Omit<Problem, "severity"> & { severity?: Severity }, more: Problem[] = [], omitted = 0) {
+    const first = capProblem({ severity: "error", ...problem } as Problem);
+    const rest = more.map(capProblem);
+    super([first, ...rest].map(formatProblem).join("\n"));
     this.name = "InputError";
-    this.problem = capped;
+    this.problem = first;
+    this.problems = [first, ...rest];
+    this.omitted = omitted;
+  }
+}
+
+/** Most problems reported for one file; beyond it one line says how many more there were. */
+export const MAX_PROBLEMS_PER_FILE = 50;
+
+/**
+ * Collects a file's problems so that one bad field does not hide the next.
+ * `attempt` runs a check and records the InputError it throws (every problem
+ * it carries); `done` throws them all at once, at most MAX_PROBLEMS_PER_FILE
+ * of them plus a line saying how many were left out.
+ */
+export class ProblemList {
+  /** The first `cap` problems; the rest are only counted. */
+  readonly problems: Problem[] = [];
+  private dropped = 0;
+  constructor(readonly file: string, readonly cap = MAX_PROBLEMS_PER_FILE) {}
+
+  add(p: Omit<Problem, "severity"> & { severity?: Severity }): void {
+    if (this.problems.length < this.cap) this.problems.push({ severity: "error", ...p });
+    else this.dropped++;
+  }
+
+  /** Runs fn; an InputError it throws is recorded (with its count of left-out problems) and `undefined` returned. */
+  attempt<T>(fn: () => T): T | undefined {
+    try {
+      return fn();
+    } catch (err) {
+      if (!(err instanceof InputError)) throw err;
+      const own = err.omitted > 0 ? err.problems.slice(0, -1) : err.problems;
+      for (const p of own) this.add(p);
+      this.dropped += err.omitted;
+      return undefined;
+    }
+  }
+
+  get ok(): boolean {
+    return this.problems.length === 0;
+  }
+
+  /** True once the cap is reached: a loop over many rows may stop looking. */
+  get full(): boolean {
+    return this.problems.length >= this.cap;
+  }
+
+  /** Throws every recorded problem together, with a closing line when some were left out; returns when there is none. */
+  done(): void {
+    if (this.ok) return;
+    const [first, ...more] = this.problems;
+    if (this.dropped > 0) {
+      const n = this.dropped;
+      more.push({ severity: "error", file: this.file, message: `${n} more problem${n === 1 ? "" : "s"} in this file not listed (only the first ${this.cap} are shown)`, fix: "correct the problems above and build again to see the rest" });
+    }
+    throw new InputError(first, more, this.dropped);
   }
 }
 

@@ -4,7 +4,7 @@
  * (docs/formats.md); values with dimensions are typed with units and converted
  * here, once. Inside the analysis everything is SI.
  */
-import { didYouMean, InputError, show } from "./problem.ts";
+import { didYouMean, InputError, ProblemList, show } from "./problem.ts";
 import { parseQuantity } from "./units.ts";
 
 export interface AnalysisSettings {
@@ -97,19 +97,25 @@ export function applySettings(
   }
   const out: AnalysisSettings = { ...base };
   const known = Object.keys(SETTING_SPECS);
+  // Each setting is read on its own, so every bad one is reported (ProblemList).
+  const list = new ProblemList(where.file);
   for (const [key, value] of Object.entries(raw as Record<string, unknown>)) {
     const field = where.field ? `${where.field}.${key}` : key;
     const line = where.lineOf?.(key);
     if (!(key in SETTING_SPECS)) {
       const hint = didYouMean(key, known);
-      throw new InputError({ file: where.file, line, field, message: "unknown analysis setting", expected: `one of ${known.join(", ")}`, found: JSON.stringify(key), fix: hint ? `did you mean "${hint}"?` : "remove it or check docs/formats.md" });
+      list.add({ file: where.file, line, field, message: "unknown analysis setting", expected: `one of ${known.join(", ")}`, found: JSON.stringify(key), fix: hint ? `did you mean "${hint}"?` : "remove it or check docs/formats.md" });
+      continue;
     }
     const spec = SETTING_SPECS[key as keyof AnalysisSettings];
     const fail = (expected: string, found: string): never => {
       throw new InputError({ file: where.file, line, field, message: `cannot read setting (${spec.doc})`, expected, found, fix: "see docs/formats.md, section Analysis settings" });
     };
-    (out as unknown as Record<string, unknown>)[key] = readSetting(spec, value, fail);
+    list.attempt(() => {
+      (out as unknown as Record<string, unknown>)[key] = readSetting(spec, value, fail);
+    });
   }
+  list.done();
   return out;
 }
 

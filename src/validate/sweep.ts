@@ -5,7 +5,7 @@
  * current, the metadata each kind of sweep must carry.
  */
 import { numericColumn, type ColumnHeader, type RawTable } from "../read/table.ts";
-import { didYouMean, InputError, type Problem } from "./problem.ts";
+import { didYouMean, InputError, ProblemList, type Problem } from "./problem.ts";
 import { acceptedUnits, COLUMN_UNITS, splitValueUnit, unitFactor, type Dimension } from "./units.ts";
 import { suggestUnit } from "./unitSpelling.ts";
 
@@ -90,56 +90,93 @@ function checkAxis(t: RawTable, x: Float64Array, name: string): "up" | "down" {
   return up ? "up" : "down";
 }
 
+/**
+ * Every problem of the file is reported (up to MAX_PROBLEMS_PER_FILE): each
+ * unknown column, each column's unit and bad cells, each metadata line; only
+ * the checks that need a column that could not be read are left out.
+ */
 export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
   const warnings: Problem[] = [];
+  const list = new ProblemList(t.file);
   for (const c of t.columns) {
     if (!(c.name in SWEEP_COLUMNS)) {
       const hint = didYouMean(c.name, Object.keys(SWEEP_COLUMNS));
-      throw new InputError({ file: t.file, line: t.headerLine, field: `column ${c.index + 1}`, message: "unknown column", expected: Object.keys(SWEEP_COLUMNS).join(", "), found: JSON.stringify(c.name), fix: hint ? `did you mean "${hint}"?` : "rename or remove the column" });
+      list.add({ file: t.file, line: t.headerLine, field: `column ${c.index + 1}`, message: "unknown column", expected: Object.keys(SWEEP_COLUMNS).join(", "), found: JSON.stringify(c.name), fix: hint ? `did you mean "${hint}"?` : "rename or remove the column" });
     }
   }
   const hasB = column(t, "B");
   const hasVg = column(t, "Vg");
   if (hasB && hasVg) {
-    throw new InputError({ file: t.file, line: t.headerLine, message: "both B and Vg columns", expected: "one sweep axis: B (field sweep) or Vg (gate sweep)", found: "both", fix: "keep the swept quantity as a column and give the fixed one as # metadata" });
+    list.add({ file: t.file, line: t.headerLine, message: "both B and Vg columns", expected: "one sweep axis: B (field sweep) or Vg (gate sweep)", found: "both", fix: "keep the swept quantity as a column and give the fixed one as # metadata" });
   }
   if (!hasB && !hasVg) {
-    throw new InputError({ file: t.file, line: t.headerLine, message: "no sweep axis", expected: "a B column (field sweep) or a Vg column (gate sweep)", found: t.columns.map((c) => c.name).join(", "), fix: "add the swept quantity as the first column" });
+    list.add({ file: t.file, line: t.headerLine, message: "no sweep axis", expected: "a B column (field sweep) or a Vg column (gate sweep)", found: t.columns.map((c) => c.name).join(", "), fix: "add the swept quantity as the first column" });
   }
+  // Each known column is read on its own: a bad unit or cell in one does not hide another's.
+  const values = new Map<string, Float64Array>();
+  for (const c of t.columns) {
+    if (!(c.name in SWEEP_COLUMNS)) continue;
+    const v = list.attempt(() => readColumn(t, c));
+    if (v) values.set(c.name, v);
+  }
+  const meta = (key: string) => list.attempt(() => metaValue(t, key));
+  const gate_V = meta("gate");
+  const field_T = meta("field");
+  const temperature_K = meta("temperature");
+  let current_A = meta("current");
   const kind = hasB ? "field" : "gate";
-  const axis = hasB ?? hasVg!;
-  const x = readColumn(t, axis);
-  const direction = checkAxis(t, x, axis.name);
-  const gate_V = metaValue(t, "gate");
-  const field_T = metaValue(t, "field");
-  const temperature_K = metaValue(t, "temperature");
-  let current_A = metaValue(t, "current");
-  if (kind === "field" && gate_V === undefined) {
-    throw new InputError({ file: t.file, line: t.headerLine, field: "# gate", message: "field sweep without its gate voltage", expected: "a line \"# gate: <value> V\" before the header", found: "none", fix: "add the gate voltage the sweep was taken at" });
+  const axis = hasB ?? hasVg;
+  const x = axis ? values.get(axis.name) : undefined;
+  const direction = x && axis ? list.attempt(() => checkAxis(t, x, axis.name)) : undefined;
+  if (axis && kind === "field" && gate_V === undefined && !t.meta.has("gate")) {
+    list.add({ file: t.file, line: t.headerLine, field: "# gate", message: "field sweep without its gate voltage", expected: "a line \"# gate: <value> V\" before the header", found: "none", fix: "add the gate voltage the sweep was taken at" });
   }
-  if (kind === "gate" && field_T === undefined) {
-    throw new InputError({ file: t.file, line: t.headerLine, field: "# field", message: "gate sweep without its field", expected: "a line \"# field: <value> T\" before the header", found: "none", fix: "add the field the sweep was taken at (0 T for zero field)" });
+  if (axis && kind === "gate" && field_T === undefined && !t.meta.has("field")) {
+    list.add({ file: t.file, line: t.headerLine, field: "# field", message: "gate sweep without its field", expected: "a line \"# field: <value> T\" before the header", found: "none", fix: "add the field the sweep was taken at (0 T for zero field)" });
   }
-  const I = column(t, "I");
-  let currentCol: Float64Array | undefined;
-  if (I) {
-    currentCol = readColumn(t, I);
+  const currentCol = values.get("I");
+  if (currentCol) {
     const zero = currentCol.findIndex((v) => v === 0);
     if (zero >= 0) {
-      throw new InputError({ file: t.file, line: t.rowLines[zero], field: "column I", message: "current is zero", expected: "a non-zero source current", found: "0", fix: "remove rows taken with the source off" });
+      list.add({ file: t.file, line: t.rowLines[zero], field: "column I", message: "current is zero", expected: "a non-zero source current", found: "0", fix: "remove rows taken with the source off" });
     }
   }
   if (current_A === 0) {
-    throw new InputError({ file: t.file, line: t.meta.get("current")?.line, field: "# current", message: "current is zero", expected: "a non-zero source current", found: "0", fix: "give the current the sample was driven with" });
+    list.add({ file: t.file, line: t.meta.get("current")?.line, field: "# current", message: "current is zero", expected: "a non-zero source current", found: "0", fix: "give the current the sample was driven with" });
   }
-  const toResistance = (name: string): Float64Array | undefined => {
-    const c = column(t, name);
-    if (!c) return undefined;
-    const v = readColumn(t, c);
-    if (name.startsWith("R")) return v;
-    if (!currentCol && current_A === undefined) {
-      throw new InputError({ file: t.file, line: t.headerLine, field: `column ${name}`, message: "voltage given without the current", expected: "an I column or a line \"# current: 10 nA\"", found: "neither", fix: "add the source current so voltages can be turned into resistances" });
+  const voltagesNeedCurrent = ["Vxx", "Vxy"].filter((n) => column(t, n));
+  if (voltagesNeedCurrent.length && !column(t, "I") && !t.meta.has("current")) {
+    list.add({ file: t.file, line: t.headerLine, field: voltagesNeedCurrent.length > 1 ? `columns ${voltagesNeedCurrent.join(" and ")}` : `column ${voltagesNeedCurrent[0]}`, message: "voltage given without the current", expected: "an I column or a line \"# current: 10 nA\"", found: "neither", fix: "add the source current so voltages can be turned into resistances" });
+  }
+  const has = (n: string) => !!column(t, n);
+  // The Hall resistance is needed only where the Hall effect is used: field sweeps. A gate sweep
+  // (percolation, hysteresis) needs only the longitudinal resistance(s).
+  const hall = kind === "field";
+  const columnsOk = (geometry === "hall-bar" ? has("Rxx") || has("Vxx") : has("Ra") && has("Rb")) && (!hall || has("Rxy") || has("Vxy"));
+  // A misspelt column is already reported as unknown (with its likely name): not again as missing.
+  const unknownNames = t.columns.some((c) => !(c.name in SWEEP_COLUMNS));
+  if (!columnsOk && !unknownNames) {
+    const need = geometry === "hall-bar" ? (hall ? "Rxx and Rxy (or Vxx and Vxy with a current)" : "Rxx (or Vxx with a current)") : hall ? "Ra, Rb and Rxy" : "Ra and Rb";
+    list.add({ file: t.file, line: t.headerLine, message: `missing a column a ${geometry}${hall ? "" : " gate sweep"} needs`, expected: need, found: t.columns.map((c) => c.name).join(", "), fix: "add the missing column, or check the device geometry in wafer.md" });
+  }
+  if (kind === "field" && x) {
+    let pos = 0;
+    let neg = 0;
+    for (const b of x) b > 0 ? pos++ : b < 0 ? neg++ : 0;
+    if (pos + neg < 2) {
+      // Located at the last data row, not the header: "found N rows" sends the
+      // reader to where the data stop, which is where a cut-short export shows.
+      const lastRow = t.rowLines[t.rowLines.length - 1] ?? t.headerLine;
+      list.add({ file: t.file, line: lastRow, field: "column B", message: "too few field values", expected: "at least two non-zero fields", found: `${x.length} rows`, fix: "check that the export is complete, or sweep the field through at least two non-zero values" });
+    } else if (pos === 0 || neg === 0) {
+      warnings.push({ severity: "warning", file: t.file, field: "column B", message: "field has one sign only, so Rxx and Rxy cannot be (anti)symmetrised and contact misalignment is not removed", expected: "fields of both signs", found: pos === 0 ? "negative fields only" : "positive fields only", fix: "sweep through zero to the opposite field" });
     }
+  }
+  list.done();
+  const toResistance = (name: string): Float64Array | undefined => {
+    const v = values.get(name);
+    if (!v) return undefined;
+    if (name.startsWith("R")) return v;
     // v is this call's own array (numericColumn): divide in place.
     if (currentCol) for (let i = 0; i < v.length; i++) v[i] /= currentCol[i];
     else for (let i = 0; i < v.length; i++) v[i] /= current_A!;
@@ -149,28 +186,6 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
   const rxy = toResistance("Rxy") ?? toResistance("Vxy");
   const ra = toResistance("Ra");
   const rb = toResistance("Rb");
-  // The Hall resistance is needed only where the Hall effect is used: field sweeps. A gate sweep
-  // (percolation, hysteresis) needs only the longitudinal resistance(s).
-  const hall = kind === "field";
-  const need = geometry === "hall-bar" ? (hall ? "Rxx and Rxy (or Vxx and Vxy with a current)" : "Rxx (or Vxx with a current)") : hall ? "Ra, Rb and Rxy" : "Ra and Rb";
-  const ok = (geometry === "hall-bar" ? rxx : ra && rb) && (!hall || rxy);
-  if (!ok) {
-    throw new InputError({ file: t.file, line: t.headerLine, message: `missing a column a ${geometry}${hall ? "" : " gate sweep"} needs`, expected: need, found: t.columns.map((c) => c.name).join(", "), fix: "add the missing column, or check the device geometry in wafer.md" });
-  }
-  if (kind === "field") {
-    let pos = 0;
-    let neg = 0;
-    for (const b of x) b > 0 ? pos++ : b < 0 ? neg++ : 0;
-    if (pos + neg < 2) {
-      // Located at the last data row, not the header: "found N rows" sends the
-      // reader to where the data stop, which is where a cut-short export shows.
-      const lastRow = t.rowLines[t.rowLines.length - 1] ?? t.headerLine;
-      throw new InputError({ file: t.file, line: lastRow, field: "column B", message: "too few field values", expected: "at least two non-zero fields", found: `${x.length} rows`, fix: "check that the export is complete, or sweep the field through at least two non-zero values" });
-    }
-    if (pos === 0 || neg === 0) {
-      warnings.push({ severity: "warning", file: t.file, field: "column B", message: "field has one sign only, so Rxx and Rxy cannot be (anti)symmetrised and contact misalignment is not removed", expected: "fields of both signs", found: pos === 0 ? "negative fields only" : "positive fields only", fix: "sweep through zero to the opposite field" });
-    }
-  }
   if (current_A === undefined && currentCol) current_A = currentCol.reduce((a, b) => a + b, 0) / currentCol.length;
-  return { file: t.file, kind, geometry, gate_V, field_T, temperature_K, current_A, x, rxx, rxy, ra, rb, direction, rows: x.length, warnings };
+  return { file: t.file, kind, geometry, gate_V, field_T, temperature_K, current_A, x: x!, rxx, rxy, ra, rb, direction: direction!, rows: x!.length, warnings };
 }

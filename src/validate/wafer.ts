@@ -13,7 +13,9 @@ import { checkRelativePath } from "../read/dataFiles.ts";
 import { applySettings, type AnalysisSettings } from "./settings.ts";
 import { checkDeviceDimensions, checkFiniteNumbers } from "./recordNumbers.ts";
 import { siteNameProblem } from "./siteNames.ts";
-import { didYouMean, InputError, show } from "./problem.ts";
+import { didYouMean, InputError, ProblemList, show } from "./problem.ts";
+import { METRIC_BY_KEY } from "../analyse/metrics.ts";
+import { FINDING_BY_KEY, FINDING_KEYS } from "../judge/findings.ts";
 import { FIELD_HINTS, WAFER_SCHEMA } from "./waferSchema.ts";
 import { unitInKey } from "./unitInKey.ts";
 
@@ -40,8 +42,10 @@ export interface ImageSpec {
   growth_axis: "up" | "down" | "left" | "right";
   reference?: [number, number, number, number];
 }
+/** A recorded waiver: it names a metric or a finding (src/judge/findings.ts), never both. */
 export interface Waiver {
-  metric: string;
+  metric?: string;
+  finding?: string;
   reason: string;
   approved_by: string;
   date: string;
@@ -151,6 +155,11 @@ export interface WaferContext {
   siteSettings: AnalysisSettings;
 }
 
+/**
+ * Every problem of the record is reported (up to MAX_PROBLEMS_PER_FILE): each
+ * schema error once per field, then the semantic checks, each on its own, on
+ * the parts whose shape is valid.
+ */
 export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferRecord {
   const data = datesToStrings(doc.data ?? {});
   const { file } = ctx;
@@ -158,41 +167,79 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
   if (typeof data !== "object" || Array.isArray(data)) {
     throw new InputError({ file, line: doc.firstLine, message: "front matter must be a mapping of fields", expected: "key: value lines", found: show(data), fix: "write one \"key: value\" per line between the two \"---\" lines, such as \"wafer: <id>\"; see docs/formats.md" });
   }
+  const list = new ProblemList(file);
+  /** Fields whose value failed the schema: semantic checks skip them. */
+  const badFields = new Set<string>();
   if (!validateShape(data)) {
-    const errors = validateShape.errors ?? [];
-    // Report the most specific error first: unknown keys and missing fields before type noise.
+    // One message per field, the most specific: unknown keys and missing fields before type noise.
     const order = ["additionalProperties", "required", "type", "enum", "pattern"];
     const rank = (k: string) => (order.includes(k) ? order.indexOf(k) : order.length);
-    errors.sort((a, b) => rank(a.keyword) - rank(b.keyword));
-    throw ajvToInputError(errors[0], doc, file, data);
+    const errors = [...(validateShape.errors ?? [])].sort((a, b) => rank(a.keyword) - rank(b.keyword));
+    const seen = new Set<string>();
+    for (const e of errors) {
+      const err = ajvToInputError(e, doc, file, data);
+      const key = err.problem.field ?? "";
+      if (seen.has(key)) continue;
+      seen.add(key);
+      badFields.add(fieldPath(e.instancePath));
+      list.add(err.problem);
+    }
   }
+  const shapeOk = list.ok;
+  const bad = (field: string) => [...badFields].some((b) => b === "" ? false : field === b || field.startsWith(`${b}.`) || field.startsWith(`${b}[`) || b.startsWith(`${field}.`) || b.startsWith(`${field}[`));
   const r = data as Record<string, any>;
-  if (r.wafer !== ctx.folder) {
-    throw new InputError({ file, line: lineOf("wafer"), field: "wafer", message: "wafer id does not match its folder", expected: JSON.stringify(ctx.folder), found: JSON.stringify(r.wafer), fix: "make the id and the folder name the same (rename one of them)" });
+  if (typeof r.wafer === "string" && !bad("wafer") && r.wafer !== ctx.folder) {
+    list.add({ file, line: lineOf("wafer"), field: "wafer", message: "wafer id does not match its folder", expected: JSON.stringify(ctx.folder), found: JSON.stringify(r.wafer), fix: "make the id and the folder name the same (rename one of them)" });
   }
   const reservedRun = siteNameProblem(r.run, "run", { file, line: lineOf("run"), field: "run", rename: "run (and its runs/<id>.md file)" });
-  if (reservedRun) throw new InputError(reservedRun);
-  checkFiniteNumbers(r, file, lineOf);
-  for (const [key, value] of [["grown", r.grown], ...((r.waivers ?? []) as Waiver[]).map((w, i) => [`waivers[${i}].date`, w.date])] as [string, string][]) {
+  if (reservedRun && !bad("run")) list.add(reservedRun);
+  list.attempt(() => checkFiniteNumbers(r, file, lineOf));
+  const waivers = (Array.isArray(r.waivers) ? r.waivers : []) as Record<string, unknown>[];
+  const dates: [string, unknown][] = [["grown", r.grown], ...waivers.map((w, i): [string, unknown] => [`waivers[${i}].date`, w?.date])];
+  for (const [key, value] of dates) {
+    if (typeof value !== "string" || bad(key)) continue;
     if (!isRealDate(value)) {
-      throw new InputError({ file, line: lineOf(key), field: key, message: "not a calendar date", expected: "a real date YYYY-MM-DD", found: JSON.stringify(value), fix: "correct the month or day" });
-    }
-    if (value > ctx.today) {
-      throw new InputError({ file, line: lineOf(key), field: key, message: "date is in the future", expected: `a date on or before ${ctx.today}`, found: value, fix: "correct the year or month" });
+      list.add({ file, line: lineOf(key), field: key, message: "not a calendar date", expected: "a real date YYYY-MM-DD", found: JSON.stringify(value), fix: "correct the month or day" });
+    } else if (value > ctx.today) {
+      list.add({ file, line: lineOf(key), field: key, message: "date is in the future", expected: `a date on or before ${ctx.today}`, found: value, fix: "correct the year or month" });
     }
   }
-  const devices = (r.devices ?? []) as DeviceSpec[];
-  const ids = new Set<string>();
-  devices.forEach((d, i) => {
-    if (ids.has(d.id)) throw new InputError({ file, line: lineOf(`devices[${i}].id`), field: `devices[${i}].id`, message: "device id is used twice", expected: "a unique id per device", found: JSON.stringify(d.id), fix: "rename one of the devices" });
-    ids.add(d.id);
-    if (d.geometry === "hall-bar" && (d.length_um === undefined || d.width_um === undefined)) {
-      throw new InputError({ file, line: lineOf(`devices[${i}]`), field: `devices[${i}]`, message: "a Hall bar needs its dimensions", expected: "length_um (voltage-probe spacing) and width_um (bar width)", found: `length_um ${show(d.length_um)}, width_um ${show(d.width_um)}`, fix: "add both, in micrometres" });
+  waivers.forEach((w, i) => {
+    if (!w || typeof w !== "object") return;
+    const field = `waivers[${i}]`;
+    const named = ["metric", "finding"].filter((k) => k in w);
+    if (named.length !== 1) {
+      list.add({ file, line: lineOf(field), field, message: "a waiver names exactly one metric or one finding", expected: "metric: <metric key> or finding: <finding key>", found: named.length ? "both" : "neither", fix: "keep one of metric: or finding:" });
+      return;
+    }
+    const [k] = named;
+    const value = w[k];
+    if (typeof value !== "string" || bad(`${field}.${k}`)) return;
+    const known = k === "metric" ? [...METRIC_BY_KEY.keys()] : [...FINDING_KEYS];
+    if (!(k === "metric" ? METRIC_BY_KEY.has(value) : FINDING_BY_KEY.has(value))) {
+      const hint = didYouMean(value, known);
+      list.add({ file, line: lineOf(`${field}.${k}`), field: `${field}.${k}`, message: `waiver names an unknown ${k}`, expected: `a ${k} key from docs/formats.md`, found: JSON.stringify(value), fix: hint ? `did you mean "${hint}"?` : `correct the ${k} key or remove the waiver` });
     }
   });
-  checkDeviceDimensions(devices, file, lineOf);
-  ((r.images ?? []) as ImageSpec[]).forEach((im, i) => checkRelativePath(im.file, { file, field: `images[${i}].file`, line: lineOf(`images[${i}].file`) }));
-  const settings = applySettings(ctx.siteSettings, r.analysis, { file, field: "analysis", line: lineOf("analysis"), lineOf: (k) => lineOf(`analysis.${k}`) });
+  const devices = (Array.isArray(r.devices) ? r.devices : []) as DeviceSpec[];
+  const ids = new Set<string>();
+  devices.forEach((d, i) => {
+    if (!d || typeof d !== "object" || bad(`devices[${i}]`)) return;
+    if (ids.has(d.id)) list.add({ file, line: lineOf(`devices[${i}].id`), field: `devices[${i}].id`, message: "device id is used twice", expected: "a unique id per device", found: JSON.stringify(d.id), fix: "rename one of the devices" });
+    ids.add(d.id);
+    if (d.geometry === "hall-bar" && (d.length_um === undefined || d.width_um === undefined)) {
+      list.add({ file, line: lineOf(`devices[${i}]`), field: `devices[${i}]`, message: "a Hall bar needs its dimensions", expected: "length_um (voltage-probe spacing) and width_um (bar width)", found: `length_um ${show(d.length_um)}, width_um ${show(d.width_um)}`, fix: "add both, in micrometres" });
+    }
+  });
+  list.attempt(() => checkDeviceDimensions(devices.filter((d, i) => d && typeof d === "object" && !bad(`devices[${i}]`)), file, lineOf));
+  const images = (Array.isArray(r.images) ? r.images : []) as ImageSpec[];
+  images.forEach((im, i) => {
+    if (im && typeof im.file === "string" && !bad(`images[${i}].file`)) list.attempt(() => checkRelativePath(im.file, { file, field: `images[${i}].file`, line: lineOf(`images[${i}].file`) }));
+  });
+  const settings = bad("analysis") ? ctx.siteSettings : list.attempt(() => applySettings(ctx.siteSettings, r.analysis, { file, field: "analysis", line: lineOf("analysis"), lineOf: (k) => lineOf(`analysis.${k}`) }));
+  const decision = bad("decision") ? undefined : list.attempt(() => readDecision(r.decision, { file, grown: r.grown, today: ctx.today, lineOf }));
+  list.done();
+  if (!shapeOk || !settings) throw new Error("validateWafer: problems recorded but not thrown"); // unreachable: done() threw
   return {
     wafer: r.wafer,
     run: r.run,
@@ -206,7 +253,7 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
     profiles: r.profiles,
     images: r.images ?? [],
     waivers: r.waivers ?? [],
-    decision: readDecision(r.decision, { file, grown: r.grown, today: ctx.today, lineOf }),
+    decision,
     settings,
     settingOverrides: (r.analysis as Record<string, unknown>) ?? {},
     notes: doc.body,

@@ -79,9 +79,11 @@ export const WAFER_SCHEMA = {
       items: {
         type: "object",
         additionalProperties: false,
-        required: ["metric", "reason", "approved_by", "date"],
+        // Exactly one of metric or finding: checked in wafer.ts, with a located message.
+        required: ["reason", "approved_by", "date"],
         properties: {
           metric: { type: "string" },
+          finding: { type: "string" },
           reason: { type: "string", minLength: 1 },
           approved_by: { type: "string", minLength: 1 },
           date: { type: "string", pattern: "^\\d{4}-\\d{2}-\\d{2}$" },

@@ -10,7 +10,7 @@ import { numericColumn, type ColumnHeader, type RawTable } from "../read/table.t
 import { CU_KALPHA1, type Miller } from "../analyse/structure/bragg.ts";
 import type { MapPoint } from "../analyse/structure/rsmPeakFind.ts";
 import type { TableRow } from "../analyse/structure/rsmPeaks.ts";
-import { didYouMean, InputError } from "./problem.ts";
+import { didYouMean, InputError, ProblemList } from "./problem.ts";
 import { acceptedUnits, splitValueUnit, unitFactor, type Dimension } from "./units.ts";
 
 interface XrdCommon {
@@ -57,16 +57,20 @@ export function parseWavelength(t: RawTable): { wavelength: number; given: boole
 }
 
 function checkColumns(t: RawTable, known: Record<string, Dimension | "text">, kind: string): void {
+  // Every column is checked, so all unknown names and units are reported together.
+  const list = new ProblemList(t.file);
   for (const c of t.columns) {
     const dim = known[c.name];
     if (dim === undefined) {
       const hint = didYouMean(c.name, Object.keys(known));
-      throw new InputError({ file: t.file, line: t.headerLine, field: `column ${c.index + 1}`, message: `unknown column in a ${kind}`, expected: Object.keys(known).join(", "), found: JSON.stringify(c.name), fix: hint ? `did you mean "${hint}"?` : "rename or remove the column" });
+      list.add({ file: t.file, line: t.headerLine, field: `column ${c.index + 1}`, message: `unknown column in a ${kind}`, expected: Object.keys(known).join(", "), found: JSON.stringify(c.name), fix: hint ? `did you mean "${hint}"?` : "rename or remove the column" });
+      continue;
     }
     if (dim !== "text" && unitFactor(dim, c.unit) === undefined) {
-      throw new InputError({ file: t.file, line: t.headerLine, field: `column ${c.name}`, message: `unit of ${c.name} is not accepted`, expected: acceptedUnits(dim) || "no unit", found: c.unit === "" ? "no unit" : JSON.stringify(c.unit), fix: dim === "angle" ? `write the header as "${c.name} [deg]"` : `write the header as "${c.name}"` });
+      list.add({ file: t.file, line: t.headerLine, field: `column ${c.name}`, message: `unit of ${c.name} is not accepted`, expected: acceptedUnits(dim) || "no unit", found: c.unit === "" ? "no unit" : JSON.stringify(c.unit), fix: dim === "angle" ? `write the header as "${c.name} [deg]"` : `write the header as "${c.name}"` });
     }
   }
+  list.done();
 }
 
 function need(t: RawTable, name: string, kind: string): ColumnHeader {

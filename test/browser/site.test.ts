@@ -188,9 +188,10 @@ describe("crawl of every page reachable from the index", () => {
   });
 });
 
-async function axeViolations(ctx: BrowserContext, url: string): Promise<string[]> {
+async function axeViolations(ctx: BrowserContext, url: string, prepare?: (page: Page) => Promise<void>): Promise<string[]> {
   const page = await ctx.newPage();
   await page.goto(url, { waitUntil: "load" });
+  await prepare?.(page);
   await page.addScriptTag({ content: readFileSync(path.join(ROOT, "node_modules", "axe-core", "axe.min.js"), "utf8") });
   const violations = await page.evaluate(async () => {
     const r = await (window as unknown as { axe: { run: (d: Document, o: object) => Promise<{ violations: { id: string; impact: string; help: string; nodes: { target: string[] }[] }[] }> } }).axe.run(document, { resultTypes: ["violations"] });
@@ -216,6 +217,47 @@ describe("accessibility (axe-core): no serious or critical violations", () => {
   });
   it("on a per-metric trend page, /targets/ and /changes/", async () => {
     for (const u of ["/trends/peak_mobility/", "/targets/", "/changes/"]) expect(await axeViolations(ctx, `${site.origin}${u}`), u).toEqual([]);
+  });
+});
+
+describe("verdict states (issue 15): a word, a shape of their own and a legend; judged rows first", () => {
+  // TQ-2501 (demo): judged metrics, finding rows, an unmeasured image metric and recorded figures folded below.
+  const url = () => `${site.origin}/wafers/TQ-2501/`;
+  const openAll = async (page: Page) => {
+    await page.evaluate(() => document.querySelectorAll("details").forEach((d) => (d.open = true)));
+  };
+  it("every state in the tables has a text label that the legend explains, each legend shape is distinct", async () => {
+    const page = await site.browser.newPage();
+    try {
+      await page.goto(url(), { waitUntil: "load" });
+      await openAll(page);
+      const r = await page.evaluate(() => {
+        const legend = [...document.querySelectorAll("#verdict-legend dt .verdict")].map((v) => ({ word: (v.textContent ?? "").trim(), shape: v.querySelector("svg")!.innerHTML.replace(/\s+/g, " "), meaning: (v.closest("div")!.querySelector("dd")!.textContent ?? "").trim() }));
+        // No named helpers inside evaluate: the test transform may wrap them in a helper the page does not have.
+        return { judged: [...document.querySelectorAll("#metrics > .table-wrap table .verdict")].map((v) => (v.textContent ?? "").trim()), other: [...document.querySelectorAll("#other-figures table .verdict")].map((v) => (v.textContent ?? "").trim()), legend, legendVisible: !!document.querySelector("#verdict-legend summary")?.textContent?.trim() };
+      });
+      expect(r.legendVisible).toBe(true);
+      const words = r.legend.map((l) => l.word);
+      for (const w of ["recorded", "unmeasured", "noted", "unjudged", "pass", "fail"]) expect(words).toContain(w);
+      expect(new Set(r.legend.map((l) => l.shape)).size).toBe(r.legend.length);
+      expect(r.legend.filter((l) => l.meaning.length < 10)).toEqual([]);
+      for (const w of [...r.judged, ...r.other]) expect(words).toContain(w);
+      // Judged first; the folded group holds only what was not judged.
+      expect(r.judged).not.toContain("recorded");
+      expect(r.other.length).toBeGreaterThan(0);
+      expect(r.other.filter((w) => w !== "recorded" && w !== "unmeasured")).toEqual([]);
+      expect(r.judged).toContain("unmeasured");
+    } finally {
+      await page.close();
+    }
+  });
+  it("axe reports no serious or critical violations with the other figures and the legend unfolded", async () => {
+    const ctx = await site.browser.newContext({ bypassCSP: true, viewport: { width: 1280, height: 900 } });
+    try {
+      expect(await axeViolations(ctx, url(), openAll)).toEqual([]);
+    } finally {
+      await ctx.close();
+    }
   });
 });
 

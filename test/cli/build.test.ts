@@ -49,7 +49,7 @@ describe("waferbook build on the demo data", () => {
       const results = JSON.parse(await fs.readFile(path.join(out, "wafers", w, "results.json"), "utf8"));
       expect(Object.keys(results)).toEqual(expect.arrayContaining(["wafer", "run", "grown", "grade", "verdict", "metrics", "devices", "errors"]));
       expect(results.wafer).toBe(w);
-      expect(["pass", "fail", "untested", "error", "marginal", "waived", "incomplete"]).toContain(results.verdict);
+      expect(["pass", "fail", "unjudged", "error", "marginal", "waived", "incomplete"]).toContain(results.verdict);
       for (const m of Object.values(results.metrics) as { value: unknown; unit: string; verdict: string }[]) {
         expect(typeof m.unit).toBe("string");
         expect(m.value === null || Number.isFinite(m.value)).toBe(true);

@@ -8,9 +8,9 @@ const result = (verdicts: string[]) => ({ outcomes: verdicts.map((v) => ({ judge
 
 describe("build summary", () => {
   it("lists verdicts best first, the same for any wafer order", () => {
-    const a = summary(result(["error", "fail", "pass", "untested", "pass", "marginal", "waived", "incomplete"]), 1.23);
-    const b = summary(result(["pass", "incomplete", "waived", "marginal", "pass", "untested", "fail", "error"]), 1.23);
-    expect(a).toBe("8 wafers (2 pass, 1 marginal, 1 waived, 1 fail, 1 incomplete, 1 untested, 1 error); 1 input error, 2 warnings; 1.2 s");
+    const a = summary(result(["error", "fail", "pass", "unjudged", "pass", "marginal", "waived", "incomplete"]), 1.23);
+    const b = summary(result(["pass", "incomplete", "waived", "marginal", "pass", "unjudged", "fail", "error"]), 1.23);
+    expect(a).toBe("8 wafers (2 pass, 1 marginal, 1 waived, 1 fail, 1 incomplete, 1 unjudged, 1 error); 1 input error, 2 warnings; 1.2 s");
     expect(b).toBe(a);
   });
   it("leaves out verdicts no wafer has, and says none for no wafers", () => {

@@ -44,7 +44,7 @@ describe("verdicts", () => {
     expect(worst(["pass", "waived", "marginal"])).toBe("marginal");
     expect(worst(["pass", "incomplete", "marginal"])).toBe("incomplete");
     expect(worst(["fail", "error"])).toBe("error");
-    expect(worst(["untested"])).toBe("untested");
+    expect(worst(["recorded", "unmeasured"])).toBe("unjudged");
   });
   it("passes, marks values inside the guard band marginal, and fails outside", () => {
     expect(judge({ peak_mobility: { a: 1.2e5 } }).metrics[0].verdict).toBe("pass");

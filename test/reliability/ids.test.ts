@@ -20,25 +20,38 @@ describe("the id pattern", () => {
 });
 
 describe("invalid names in the data folder", () => {
-  it("a wafer folder and a run file with bad names get problems and no pages", async () => {
+  it("wafer folders with bad names get problems and no pages; the other wafers build", async () => {
     const tmp = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-ids-"));
     try {
       const data = path.join(tmp, "data");
       await fs.cp(HEALTHY_DIR, data, { recursive: true });
       await fs.cp(path.join(data, "wafers/OK-1"), path.join(data, "wafers/bad name"), { recursive: true });
       await fs.cp(path.join(data, "wafers/OK-1"), path.join(data, "wafers/.hidden"), { recursive: true });
-      await fs.mkdir(path.join(data, "runs"));
-      await fs.writeFile(path.join(data, "runs", "a..b.md"), "---\nreactor: x\n---\n");
       const out = path.join(tmp, "site");
       const r = await build({ data, out, strict: false, basePath: "/", quiet: true }, io);
       expect(r.outcomes.map((o) => o.folder)).toEqual(["OK-1"]);
       expect(r.problems.map(formatProblem)).toEqual([
-        'runs/a..b.md: run file name is not a valid id (expected letters, digits, ".", "-", "_", found "a..b") — rename the file',
         'wafers/.hidden: wafer folder name is not a valid id (expected letters, digits, ".", "-", "_" (no ".."), found ".hidden") — rename the folder',
         'wafers/bad name: wafer folder name is not a valid id (expected letters, digits, ".", "-", "_" (no ".."), found "bad name") — rename the folder',
       ]);
       expect((await fs.readdir(path.join(out, "wafers"))).sort()).toEqual(["OK-1"]);
-      expect((await fs.readdir(path.join(out, "runs"))).sort()).toEqual(["R1", "index.html"]);
+    } finally {
+      await fs.rm(tmp, { recursive: true, force: true });
+    }
+  }, 60_000);
+
+  it("a run file with a bad name is a site-wide error: the build stops and writes nothing (issue 15)", async () => {
+    const tmp = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-ids-"));
+    try {
+      const data = path.join(tmp, "data");
+      await fs.cp(HEALTHY_DIR, data, { recursive: true });
+      await fs.mkdir(path.join(data, "runs"));
+      await fs.writeFile(path.join(data, "runs", "a..b.md"), "---\nreactor: x\n---\n");
+      const out = path.join(tmp, "site");
+      const r = await build({ data, out, strict: false, basePath: "/", quiet: true }, io);
+      expect(r.ok).toBe(false);
+      expect(r.problems.map(formatProblem)).toEqual(['runs/a..b.md: run file name is not a valid id (expected letters, digits, ".", "-", "_", found "a..b") — rename the file']);
+      await expect(fs.stat(out)).rejects.toThrow();
     } finally {
       await fs.rm(tmp, { recursive: true, force: true });
     }

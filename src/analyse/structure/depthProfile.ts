@@ -78,6 +78,8 @@ export type DepthProfileResult =
       wellGeMin: number;
       nearDistance: number;
       contaminants: ContaminantPeak[];
+      /** Median depth spacing of the profile, nm (profileSampling.ts judges it against the interface widths). */
+      depthStep: number;
     }
   | { ok: false; reason: string };
 
@@ -140,6 +142,7 @@ export function analyseDepthProfile(input: DepthProfileInput, options: DepthProf
     wellGeMin: inside.length ? Math.min(...inside.map((i) => sm3[i])) : minOf(well),
     nearDistance,
     contaminants: contaminantPeaks(input, top.centre, bottom.centre, nearDistance),
+    depthStep: medianStep(z),
   };
 }
 
