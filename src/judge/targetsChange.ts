@@ -88,5 +88,5 @@ export function targetsChange(
 function verdictUnder(w: WaferForHistory, t: Targets): { verdict: Verdict; grade: string } | undefined {
   const grade = w.grade ?? t.defaultGrade;
   if (!(grade in t.grades)) return undefined;
-  return { verdict: judgeWafer(w.values, grade, t, w.waivers, w.hasErrors).verdict, grade };
+  return { verdict: judgeWafer(w.values, grade, t, w.waivers, w.hasErrors, [], w.findings ?? []).verdict, grade };
 }
