@@ -14,7 +14,7 @@ export interface UnitSlip {
   fix: string;
 }
 
-/** The slip for `key: value`, or undefined when the value is not a number with a unit or the key names no unit. */
+/** The slip for `key: value`, or undefined when the value is not a number with a length unit or the key names no unit. */
 export function unitInKey(key: string, value: unknown): UnitSlip | undefined {
   const m = /_(um|nm|mm)$/.exec(key);
   if (!m || typeof value !== "string") return undefined;
@@ -22,6 +22,9 @@ export function unitInKey(key: string, value: unknown): UnitSlip | undefined {
   if (!vu || vu.unit === "") return undefined;
   const unitName = KEY_UNITS[m[1]];
   const q = parseQuantity(value, m[1]);
+  // "5O" (a letter O typed for a zero) is a typo, not a unit: only a value with a real unit (a
+  // length, or another dimension such as "20 V") is this slip; anything else keeps "wrong type".
+  if (!q.ok && !/different dimension/.test(q.found)) return undefined;
   const number = q.ok ? Number(q.value.toPrecision(6)) : undefined;
   return {
     message: `the unit goes in the key, not the value: ${key} is in ${unitName}`,

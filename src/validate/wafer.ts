@@ -191,7 +191,7 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
   if (typeof r.wafer === "string" && !bad("wafer") && r.wafer !== ctx.folder) {
     list.add({ file, line: lineOf("wafer"), field: "wafer", message: "wafer id does not match its folder", expected: JSON.stringify(ctx.folder), found: JSON.stringify(r.wafer), fix: "make the id and the folder name the same (rename one of them)" });
   }
-  const reservedRun = siteNameProblem(r.run, "run", { file, line: lineOf("run"), field: "run", rename: "run (and its runs/<id>.md file)" });
+  const reservedRun = typeof r.run !== "string" ? undefined : siteNameProblem(r.run, "run", { file, line: lineOf("run"), field: "run", rename: "run (and its runs/<id>.md file)" });
   if (reservedRun && !bad("run")) list.add(reservedRun);
   list.attempt(() => checkFiniteNumbers(r, file, lineOf));
   const waivers = (Array.isArray(r.waivers) ? r.waivers : []) as Record<string, unknown>[];

@@ -16,7 +16,7 @@ const usage = (...a: string[]) => {
 
 describe("waferbook build options", () => {
   it("defaults", () => {
-    expect(build()).toEqual({ data: "data", out: "site", strict: false, basePath: "/", quiet: false, cache: undefined });
+    expect(build()).toEqual({ data: "data", out: "site", strict: false, basePath: "", quiet: false, cache: undefined });
   });
   it("every option, separate and inline values", () => {
     expect(build("--data", "d", "--out=o", "--strict", "--base", "qual", "--quiet", "--cache", "c")).toEqual({ data: "d", out: "o", strict: true, basePath: "/qual/", quiet: true, cache: "c" });
