@@ -1,6 +1,7 @@
 /**
  * Entry point of the `waferbook` command. Sets exit codes: 0 built; 1 input
- * errors with --strict, or nothing built; 2 bad usage.
+ * errors with --strict, or nothing built; 2 bad usage, or an output/cache
+ * folder refused before anything was written (src/cli/outputGuard.ts).
  */
 import path from "node:path";
 import { writeFile } from "node:fs/promises";
@@ -15,7 +16,7 @@ export async function main(argv: string[]): Promise<number> {
     out(HELP);
     return 0;
   }
-  const { build, BuildLockedError, BuildStoppedError, readVersion } = await import("./build.ts");
+  const { build, BuildLockedError, BuildStoppedError, OutputRefusedError, readVersion } = await import("./build.ts");
   if (parsed.command === "version") {
     out(await readVersion());
     return 0;
@@ -37,6 +38,7 @@ export async function main(argv: string[]): Promise<number> {
     // For the benchmark (bench/run.ts): phase times, cache use and this process's peak memory.
     if (process.env.WAFERBOOK_STATS) await writeFile(process.env.WAFERBOOK_STATS, JSON.stringify({ ...result.stats, wall_ms: Date.now() - started, maxRSS_kB: process.resourceUsage().maxRSS }) + "\n");
     reportProblems(result.problems, err);
+    for (const w of result.warnings ?? []) err(`waferbook: warning: ${w}`);
     out(summary(result, (Date.now() - started) / 1000));
     if (!result.ok) {
       err("waferbook: nothing could be built; the previous site was left as it was.");
@@ -50,9 +52,19 @@ export async function main(argv: string[]): Promise<number> {
     }
     return 0;
   } catch (e) {
+    if (e instanceof OutputRefusedError) {
+      err(`waferbook: ${e.message}`);
+      return 2;
+    }
     if (e instanceof BuildStoppedError) {
       err(`waferbook: ${e.message}`);
-      if (!(e instanceof BuildLockedError)) err("The previous site was left as it was.");
+      if (!(e instanceof BuildLockedError) && e.previousKept) err("The previous site was left as it was.");
+      return 1;
+    }
+    const sys = e as NodeJS.ErrnoException;
+    if (typeof sys.code === "string" && /^E[A-Z]+$/.test(sys.code) && sys.syscall) {
+      // The file system said no (permissions, space, a file in the way): one line, no stack. Nothing was published.
+      err(`waferbook: ${sys.syscall} failed: ${sys.code}${sys.path ? ` on ${sys.path}` : ""}; the previous site was left as it was.`);
       return 1;
     }
     err("waferbook: internal error (please report it with the data that triggered it):");
