@@ -7,6 +7,7 @@ import path from "node:path";
 import { writeFile } from "node:fs/promises";
 import { HELP, parseArgs } from "./args.ts";
 import { reportProblems, summary } from "./report.ts";
+import { buildStamp } from "./buildStamp.ts";
 
 export async function main(argv: string[]): Promise<number> {
   const parsed = parseArgs(argv);
@@ -26,13 +27,18 @@ export async function main(argv: string[]): Promise<number> {
     err("Run `waferbook --help` for the options.");
     return 2;
   }
+  const stamp = buildStamp(process.env, () => new Date());
+  if ("error" in stamp) {
+    err(`waferbook: ${stamp.error}`);
+    return 2;
+  }
   const quiet = parsed.options.quiet || process.env.CI === "true" || !process.stdout.isTTY;
   const started = Date.now();
   try {
     const result = await build({ ...parsed.options, quiet }, {
       log: quiet ? () => {} : (s) => process.stdout.write(`\r\x1b[2K${s} (${((Date.now() - started) / 1000).toFixed(1)} s)`),
       today: () => new Date().toISOString().slice(0, 10),
-      now: () => new Date().toISOString().replace(/\.\d+Z$/, "Z"),
+      now: stamp.stamp,
     });
     if (!quiet) process.stdout.write("\r\x1b[2K");
     // For the benchmark (bench/run.ts): phase times, cache use and this process's peak memory.

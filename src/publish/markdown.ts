@@ -19,10 +19,10 @@ const md = new MarkdownIt({ html: false, linkify: false, typographer: false });
 const inlineImage = md.renderer.rules.image!;
 md.renderer.rules.image = (tokens, idx, options, env, self) => {
   const token = tokens[idx];
-  const src = token.attrGet("src") ?? "";
+  const src = String(token.attrGet("src") ?? "");
   if (/^data:image\//i.test(src)) return inlineImage(tokens, idx, options, env, self);
   const label = self.renderInlineAsText(token.children ?? [], options, env) || src;
-  const title = token.attrGet("title");
+  const title = token.attrGet("title") == null ? "" : String(token.attrGet("title"));
   const esc = md.utils.escapeHtml;
   return `<a class="note-image" href="${esc(src)}"${title ? ` title="${esc(title)}"` : ""}>${esc(`[picture: ${label}]`)}</a>`;
 };
