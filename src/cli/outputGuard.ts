@@ -75,10 +75,10 @@ export async function checkOutput(given: { data: string; out: string; cache: str
   const outReal = await resolveReal(outAbs);
   const tree = await workTreeOf(data);
   for (const o of new Set([outAt, outReal])) {
+    if (tree && tree !== data && within(tree, o)) throw new OutputRefusedError(`refusing --out ${shown(given.out, o)}: it ${o === tree ? "is" : "holds"} the git work tree ${tree} that holds the data folder ${data}; ${CHOOSE}`);
+    if (tree && within(o, path.join(tree, ".git"))) throw new OutputRefusedError(`refusing --out ${shown(given.out, o)}: it lies inside ${path.join(tree, ".git")}, the git folder of the data folder ${data}; ${CHOOSE}`);
     const r = relation(o, data);
     if (r) throw new OutputRefusedError(`refusing --out ${shown(given.out, o)}: it ${r} the data folder ${data}; ${CHOOSE}`);
-    if (tree && within(tree, o)) throw new OutputRefusedError(`refusing --out ${shown(given.out, o)}: it ${o === tree ? "is" : "holds"} the git work tree ${tree} that holds the data folder ${data}; ${CHOOSE}`);
-    if (tree && within(o, path.join(tree, ".git"))) throw new OutputRefusedError(`refusing --out ${shown(given.out, o)}: it lies inside ${path.join(tree, ".git")}, the git folder of the data folder ${data}; ${CHOOSE}`);
   }
   if (given.cache !== null) {
     const cache = await resolveReal(given.cache);
