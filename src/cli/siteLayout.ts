@@ -103,7 +103,8 @@ export async function recoverInterrupted(outDir: string): Promise<string[]> {
   layout = await readLayout(outDir);
   const links = names.filter((n) => n.startsWith(`.${layout.base}-link-`));
   await removeAll(layout.parent, [...left.filter((n) => n !== old || layout.kind !== "missing"), ...links], warnings);
-  await removeAll(layout.parent, stale(layout, layout.current), warnings);
+  // Generations never published (newer than the link's); older ones are pruned after the next publish.
+  await removeAll(layout.parent, layout.gens.filter((g) => layout.current !== null && g > layout.current).map((g) => genName(layout.base, g)), warnings);
   return warnings;
 }
 
