@@ -55,3 +55,38 @@ export async function cli(args: string[], opts: { cwd?: string; env?: Record<str
     return { code: err.code, stdout: err.stdout, stderr: err.stderr };
   }
 }
+
+/** Script in data files: each, if it ever ran on the site, requests /__ran__?<kind> from the site itself. */
+export const HOSTILE = {
+  html: `<!doctype html><title>x</title><script>fetch("/__ran__?html");document.title="ran"</script>\n`,
+  svg: `<svg xmlns="http://www.w3.org/2000/svg" onload="fetch('/__ran__?svg-onload')"><script>fetch("/__ran__?svg")</script></svg>\n`,
+  xml: `<?xml version="1.0"?><html xmlns="http://www.w3.org/1999/xhtml"><script>fetch("/__ran__?xhtml")</script></html>\n`,
+};
+
+/**
+ * The healthy fixture plus wafer EVIL-1, whose device pattern `transport/*`
+ * also matches an .html, an .svg and an .xhtml file (none parses as a
+ * sweep), whose images entry names the .svg, and whose notes embed a picture
+ * from another site.
+ */
+export async function hostileData(dir: string): Promise<string> {
+  await healthyData(dir);
+  const w = path.join(dir, "wafers", "EVIL-1");
+  await fs.cp(path.join(HEALTHY_DIR, "wafers", "OK-1", "transport"), path.join(w, "transport"), { recursive: true });
+  await fs.writeFile(path.join(w, "transport", "evil.html"), HOSTILE.html);
+  await fs.writeFile(path.join(w, "transport", "evil.svg"), HOSTILE.svg);
+  await fs.writeFile(path.join(w, "transport", "evil.xhtml"), HOSTILE.xml);
+  await fs.writeFile(path.join(w, "wafer.md"), `---
+wafer: EVIL-1
+run: R1
+grown: 2024-05-03
+devices:
+  - { id: HB1, geometry: hall-bar, length_um: 100, width_um: 20, files: "transport/*" }
+images:
+  - { file: transport/evil.svg, pixel_nm: 0.05, kind: haadf, growth_axis: up }
+---
+
+Logo of the supplier: ![supplier logo](https://pictures.invalid/logo.png "their logo")
+`);
+  return dir;
+}
