@@ -27,10 +27,11 @@ Usage:
 Options:
   --data DIR    the data folder: wafers/<id>/wafer.md, targets.yaml, optional
                 analysis.yaml and runs/<run>.md (default: ./data)
-  --out DIR     where the site is written (default: ./site). The folder is
-                replaced only when the build succeeds; a failed build leaves
-                the previous site as it was. Wafer pages whose content has
-                not changed are carried over from the previous site.
+  --out DIR     where the site is written (default: ./site): a link to the
+                current build's folder beside it, switched only when the build
+                succeeds; a failed build leaves the previous site as it was.
+                Wafer pages whose content has not changed are carried over
+                from the previous site (docs/publishing.md).
   --strict      exit with code 1 when any input error was found (for CI)
   --base PATH   serve the site under a sub-path, e.g. /qual/ (default: /)
   --quiet       print only problems and the summary
@@ -43,7 +44,9 @@ Options:
   --version     print the version
 
 Exit codes: 0 built; 1 input errors with --strict, or nothing could be built;
-2 bad usage.
+2 bad usage, or an --out/--cache refused before anything was written (it is,
+holds or lies in the data folder or its git work tree; a folder waferbook did
+not write; a file; not writable), or a malformed SOURCE_DATE_EPOCH.
 
 Formats: docs/formats.md. Verdicts support, and never replace, the lab's own
 QA sign-off.`;
