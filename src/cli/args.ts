@@ -1,9 +1,45 @@
 /**
- * Command-line arguments: `waferbook build [--data DIR] [--out DIR] [--strict]
- * [--base PATH] [--no-cache] [--quiet]`. Unknown options are a usage error
- * (exit code 2) with a hint.
+ * Command-line arguments, read with Node's `util.parseArgs`. Each command is
+ * one entry of `COMMANDS`: its one-line summary, usage, options (in
+ * `util.parseArgs` form plus help text) and a `normalise` that turns the
+ * parsed values into the command's typed options or throws `UsageError`.
+ * Adding a command is one entry here and one runner line in main.ts.
+ *
+ * Every command takes `--help` (`-h`) and `--version`. Unknown commands and
+ * options are usage errors (exit code 2) with a "did you mean" hint.
  */
+import { parseArgs as nodeParseArgs } from "node:util";
 import { didYouMean } from "../validate/problem.ts";
+
+/** A usage mistake: printed as `waferbook: <message>` with exit code 2. */
+export class UsageError extends Error {}
+
+export interface OptionSpec {
+  type: "string" | "boolean";
+  short?: string;
+  /** Shown in the help: `--data DIR`. */
+  arg?: string;
+  help: string;
+}
+
+export interface CommandSpec<T> {
+  summary: string;
+  /** Usage line(s) after `waferbook <command> `, e.g. `[--data DIR] [--strict]`. */
+  usage: string;
+  options: Record<string, OptionSpec>;
+  /** Positional arguments allowed: how many at most (default 0). */
+  maxPositionals?: number;
+  /** Parsed values (in the order given, for options that override each other) → typed options. */
+  normalise(values: Record<string, string | boolean | undefined>, positionals: string[], order: string[]): T;
+}
+
+const define = <T>(spec: CommandSpec<T>): CommandSpec<T> => spec;
+
+/** Options several commands share; a command lists the ones it takes. */
+export const COMMON_OPTIONS = {
+  data: { type: "string", arg: "DIR", help: "the data folder: wafers/<id>/wafer.md, targets.yaml, optional\nanalysis.yaml and runs/<run>.md (default: ./data)" },
+  quiet: { type: "boolean", help: "print only problems and the summary" },
+} satisfies Record<string, OptionSpec>;
 
 export interface BuildOptions {
   data: string;
@@ -15,86 +51,172 @@ export interface BuildOptions {
   cache?: string | null;
 }
 
-export type ParsedArgs = { command: "build"; options: BuildOptions } | { command: "help" } | { command: "version" } | { command: "usage-error"; message: string };
+/** `--base qual` → `/qual/`; refuses anything but a plain URL path. */
+function basePath(value: string): string {
+  let b = value;
+  if (!b.startsWith("/")) b = "/" + b;
+  if (!b.endsWith("/")) b += "/";
+  if (!/^\/[A-Za-z0-9._~\-/]*$/.test(b) || b.includes("..")) throw new UsageError(`--base must be a URL path such as /qual/, found ${JSON.stringify(b)}`);
+  return b;
+}
+
+const build = define<BuildOptions>({
+  summary: "builds the qualification site",
+  usage: "[--data DIR] [--out DIR] [--strict] [--base PATH] [--quiet]\n      [--cache DIR | --no-cache]",
+  options: {
+    data: COMMON_OPTIONS.data,
+    out: { type: "string", arg: "DIR", help: "where the site is written (default: ./site): a link to the\ncurrent build's folder beside it, switched only when the build\nsucceeds; a failed build leaves the previous site as it was.\nWafer pages whose content has not changed are carried over\nfrom the previous site (docs/publishing.md)." },
+    strict: { type: "boolean", help: "exit with code 1 when any input error was found (for CI)" },
+    base: { type: "string", arg: "PATH", help: "serve the site under a sub-path, e.g. /qual/ (default: /)" },
+    quiet: COMMON_OPTIONS.quiet,
+    cache: { type: "string", arg: "DIR", help: "where analysis results are kept between builds, keyed by the\nwafer's files, settings and the analysis code (default:\n.waferbook-cache/ beside the --out folder)" },
+    "no-cache": { type: "boolean", help: "analyse every wafer from its raw files and draw every page\nafresh, ignoring the cache and the pages of the previous site" },
+  },
+  normalise(v, _positionals, order) {
+    const out = (v.out as string | undefined) ?? "site";
+    if (!out.trim() || out === "/") throw new UsageError("--out must name a folder");
+    // --cache DIR and --no-cache: the later one wins.
+    const lastCache = order.filter((n) => n === "cache" || n === "no-cache").at(-1);
+    return {
+      data: (v.data as string | undefined) ?? "data",
+      out,
+      strict: v.strict === true,
+      basePath: v.base === undefined ? "/" : basePath(v.base as string),
+      quiet: v.quiet === true,
+      cache: lastCache === "no-cache" ? null : lastCache === "cache" ? (v.cache as string) : undefined,
+    };
+  },
+});
+
+/** The commands, in the order the help lists them. */
+export const COMMANDS = {
+  build,
+};
+
+export type CommandName = keyof typeof COMMANDS;
+type OptionsOf<K extends CommandName> = (typeof COMMANDS)[K] extends CommandSpec<infer T> ? T : never;
+export type CommandRun = { [K in CommandName]: { command: K; options: OptionsOf<K> } }[CommandName];
+
+export type ParsedArgs =
+  | CommandRun
+  | { command: "help"; text: string }
+  | { command: "version" }
+  | { command: "usage-error"; message: string; helpCommand: string };
+
+/** Exit codes of the `waferbook` command (README "Exit codes"). */
+export const EXIT = {
+  ok: 0,
+  /** Input errors with --strict, or nothing could be built. */
+  inputErrors: 1,
+  /** Bad usage: unknown command or option, missing value; an --out/--cache refused before anything was written (outputGuard.ts); a malformed SOURCE_DATE_EPOCH. */
+  usage: 2,
+  /** A bug in waferbook (EX_SOFTWARE of BSD's sysexits.h). */
+  internal: 70,
+} as const;
+
+const EXIT_TEXT = `Exit codes: 0 done; 1 input errors (with --strict), or nothing could be
+built; 2 bad usage, or an --out/--cache refused before anything was written
+(it is, holds or lies in the data folder or its git work tree; a folder
+waferbook did not write; a file; not writable); 70 internal error (a bug:
+please report it).`;
+
+const STANDARD: Record<string, OptionSpec> = {
+  help: { type: "boolean", short: "h", help: "show this help" },
+  version: { type: "boolean", help: "print the version" },
+};
+
+function optionLines(options: Record<string, OptionSpec>): string {
+  const rows = Object.entries(options).map(([name, o]) => [`${o.short ? `-${o.short}, ` : ""}--${name}${o.arg ? ` ${o.arg}` : ""}`, o.help] as const);
+  const width = Math.max(...rows.map(([l]) => l.length)) + 2;
+  return rows.map(([l, h]) => `  ${l.padEnd(width)}${h.split("\n").join("\n" + " ".repeat(width + 2))}`).join("\n");
+}
+
+export function commandHelp(name: CommandName): string {
+  const c: CommandSpec<unknown> = COMMANDS[name];
+  return `waferbook ${name} — ${c.summary}
+
+Usage:
+  waferbook ${name} ${c.usage}
+
+Options:
+${optionLines({ ...c.options, ...STANDARD })}
+
+${EXIT_TEXT}`;
+}
 
 export const HELP = `waferbook — builds a qualification site from wafer records and raw measurements
 
 Usage:
-  waferbook build [--data DIR] [--out DIR] [--strict] [--base PATH] [--quiet]
-                 [--cache DIR | --no-cache]
+${(Object.keys(COMMANDS) as CommandName[]).map((n) => `  waferbook ${n} ${COMMANDS[n].usage}`).join("\n")}
+  waferbook <command> --help
   waferbook --help | --version
 
-Options:
-  --data DIR    the data folder: wafers/<id>/wafer.md, targets.yaml, optional
-                analysis.yaml and runs/<run>.md (default: ./data)
-  --out DIR     where the site is written (default: ./site): a link to the
-                current build's folder beside it, switched only when the build
-                succeeds; a failed build leaves the previous site as it was.
-                Wafer pages whose content has not changed are carried over
-                from the previous site (docs/publishing.md).
-  --strict      exit with code 1 when any input error was found (for CI)
-  --base PATH   serve the site under a sub-path, e.g. /qual/ (default: /)
-  --quiet       print only problems and the summary
-  --cache DIR   where analysis results are kept between builds, keyed by the
-                wafer's files, settings and the analysis code (default:
-                .waferbook-cache/ beside the --out folder)
-  --no-cache    analyse every wafer from its raw files and draw every page
-                afresh, ignoring the cache and the pages of the previous site
-  -h, --help    show this help
-  --version     print the version
+Commands:
+${(Object.keys(COMMANDS) as CommandName[]).map((n) => `  ${n.padEnd(8)}${COMMANDS[n].summary}`).join("\n")}
 
-Exit codes: 0 built; 1 input errors with --strict, or nothing could be built;
-2 bad usage, or an --out/--cache refused before anything was written (it is,
-holds or lies in the data folder or its git work tree; a folder waferbook did
-not write; a file; not writable), or a malformed SOURCE_DATE_EPOCH.
+Options of build:
+${optionLines({ ...COMMANDS.build.options, ...STANDARD })}
+
+${EXIT_TEXT}
 
 Formats: docs/formats.md. Verdicts support, and never replace, the lab's own
 QA sign-off.`;
 
-const OPTIONS = ["--data", "--out", "--strict", "--base", "--quiet", "--cache", "--no-cache", "--help", "--version"];
+const usageError = (message: string, helpCommand = "waferbook --help"): ParsedArgs => ({ command: "usage-error", message, helpCommand });
 
 export function parseArgs(argv: string[]): ParsedArgs {
-  if (argv.length === 0 || argv[0] === "--help" || argv[0] === "-h" || argv[0] === "help") return { command: "help" };
-  if (argv[0] === "--version") return { command: "version" };
-  if (argv[0] !== "build") {
-    const hint = didYouMean(argv[0], ["build"]);
-    return { command: "usage-error", message: `unknown command ${JSON.stringify(argv[0])}${hint ? ` — did you mean "${hint}"?` : ""}` };
+  const first = argv[0];
+  if (first === undefined || first === "--help" || first === "-h") return { command: "help", text: HELP };
+  if (first === "--version") return { command: "version" };
+  if (first === "help") {
+    const topic = argv[1];
+    if (topic === undefined) return { command: "help", text: HELP };
+    return topic in COMMANDS ? { command: "help", text: commandHelp(topic as CommandName) } : unknownCommand(topic);
   }
-  const options: BuildOptions = { data: "data", out: "site", strict: false, basePath: "/", quiet: false, cache: undefined };
-  for (let i = 1; i < argv.length; i++) {
-    const a = argv[i];
-    const [flag, inline] = a.includes("=") ? [a.slice(0, a.indexOf("=")), a.slice(a.indexOf("=") + 1)] : [a, undefined];
-    const value = () => {
-      const v = inline ?? argv[++i];
-      if (v === undefined || v.startsWith("--")) throw new Error(`${flag} needs a value`);
-      return v;
-    };
-    try {
-      switch (flag) {
-        case "--data": options.data = value(); break;
-        case "--out": options.out = value(); break;
-        case "--base": {
-          let b = value();
-          if (!b.startsWith("/")) b = "/" + b;
-          if (!b.endsWith("/")) b += "/";
-          if (!/^\/[A-Za-z0-9._~\-/]*$/.test(b) || b.includes("..")) throw new Error(`--base must be a URL path such as /qual/, found ${JSON.stringify(b)}`);
-          options.basePath = b;
-          break;
-        }
-        case "--strict": options.strict = true; break;
-        case "--quiet": options.quiet = true; break;
-        case "--cache": options.cache = value(); break;
-        case "--no-cache": options.cache = null; break;
-        case "--help": case "-h": return { command: "help" };
-        default: {
-          const hint = didYouMean(flag, OPTIONS);
-          return { command: "usage-error", message: `unknown option ${JSON.stringify(flag)}${hint ? ` — did you mean "${hint}"?` : ""}` };
-        }
-      }
-    } catch (err) {
-      return { command: "usage-error", message: (err as Error).message };
+  if (!(first in COMMANDS)) return unknownCommand(first);
+  const name = first as CommandName;
+  const spec: CommandSpec<unknown> = COMMANDS[name];
+  const helpCommand = `waferbook ${name} --help`;
+  const options = { ...spec.options, ...STANDARD };
+  // Not strict: unknown options come back as tokens, so the message can suggest the nearest known one.
+  const { tokens } = nodeParseArgs({ args: argv.slice(1), options: options as never, strict: false, allowPositionals: true, tokens: true });
+  const optionTokens = tokens.filter((t) => t.kind === "option");
+  if (optionTokens.some((t) => t.name === "help")) return { command: "help", text: commandHelp(name) };
+  if (optionTokens.some((t) => t.name === "version")) return { command: "version" };
+  const values: Record<string, string | boolean | undefined> = {};
+  const order: string[] = [];
+  const positionals: string[] = [];
+  for (const t of tokens) {
+    if (t.kind === "positional") {
+      positionals.push(t.value);
+      continue;
     }
+    if (t.kind !== "option") continue;
+    const o = spec.options[t.name];
+    if (!o) {
+      const hint = didYouMean(t.rawName, Object.keys(options).map((n) => `--${n}`));
+      return usageError(`unknown option ${JSON.stringify(t.rawName)}${hint ? ` — did you mean "${hint}"?` : ""}`, helpCommand);
+    }
+    if (o.type === "string") {
+      // `--data --out site`: the next word is another option, not the folder.
+      if (t.value === undefined || (!t.inlineValue && t.value.startsWith("--"))) return usageError(`${t.rawName} needs a value`, helpCommand);
+      values[t.name] = t.value;
+    } else {
+      if (t.inlineValue) return usageError(`${t.rawName} takes no value, found ${JSON.stringify(t.value)}`, helpCommand);
+      values[t.name] = true;
+    }
+    order.push(t.name);
   }
-  if (!options.out.trim() || options.out === "/" ) return { command: "usage-error", message: "--out must name a folder" };
-  return { command: "build", options };
+  if (positionals.length > (spec.maxPositionals ?? 0)) return usageError(`unexpected argument ${JSON.stringify(positionals[spec.maxPositionals ?? 0])}`, helpCommand);
+  try {
+    return { command: name, options: spec.normalise(values, positionals, order) } as CommandRun;
+  } catch (err) {
+    if (err instanceof UsageError) return usageError(err.message, helpCommand);
+    throw err;
+  }
+}
+
+function unknownCommand(word: string): ParsedArgs {
+  const hint = didYouMean(word, Object.keys(COMMANDS));
+  return usageError(`unknown command ${JSON.stringify(word)}${hint ? ` — did you mean "${hint}"?` : ""}`);
 }

@@ -5,6 +5,10 @@
 import type { Problem } from "../validate/problem.ts";
 import { formatProblem } from "../validate/problem.ts";
 import type { BuildResult } from "./build.ts";
+import type { Verdict } from "../judge/verdict.ts";
+
+/** The order the summary lists verdict counts in, best first, whatever order the wafers came in. */
+export const SUMMARY_ORDER: readonly Verdict[] = ["pass", "marginal", "waived", "fail", "incomplete", "untested", "error"];
 
 export function reportProblems(problems: Problem[], log: (s: string) => void): void {
   for (const p of problems) log(formatProblem(p));
@@ -13,8 +17,14 @@ export function reportProblems(problems: Problem[], log: (s: string) => void): v
 export function summary(result: BuildResult, seconds: number): string {
   const counts = new Map<string, number>();
   for (const o of result.outcomes) counts.set(o.judgement.verdict, (counts.get(o.judgement.verdict) ?? 0) + 1);
-  const verdicts = [...counts.entries()].map(([v, n]) => `${n} ${v}`).join(", ");
+  const verdicts = SUMMARY_ORDER.filter((v) => counts.has(v)).map((v) => `${counts.get(v)} ${v}`).join(", ");
   const errors = result.problems.filter((p) => p.severity === "error").length;
   const warnings = result.problems.filter((p) => p.severity === "warning").length;
   return `${result.outcomes.length} wafers (${verdicts || "none"}); ${errors} input error${errors === 1 ? "" : "s"}, ${warnings} warning${warnings === 1 ? "" : "s"}; ${seconds.toFixed(1)} s`;
+}
+
+/** Prints an internal error (a bug): what to do, then the stack trace. The caller returns EXIT.internal. */
+export function reportInternalError(e: unknown, log: (s: string) => void): void {
+  log("waferbook: internal error (please report it with the data that triggered it):");
+  log((e as Error)?.stack ?? String(e));
 }

@@ -5,7 +5,9 @@
  * row.
  *
  * Accepted: rows of exactly `columns` plain decimal numbers
- * `[+-]? (d+ (. d*)? | . d+) ([eE] [+-]? d+)?` separated by the delimiter,
+ * `[+-]? (d+ (. d*)? | . d+) ([eE] [+-]? d+)?` separated by the delimiter
+ * (comma, tab or semicolon), the point being the table's decimal mark (a
+ * point, or a comma in a table declared or detected so: src/read/tableDialect.ts),
  * empty lines, and one kind of line end throughout (LF or CRLF, set by the
  * first). Anything else — spaces, quotes, comments, empty cells, text such as
  * NaN or OVLD, a lone CR, mixed line ends, a wrong cell count, a number beyond
@@ -44,7 +46,7 @@ const CR = 13;
  * undefined as soon as anything else is met (the caller then uses csv-parse).
  * Throws nothing.
  */
-export function scanPlainBody(text: string, start: number, delimiter: "," | "\t", columns: number): PlainBody | undefined {
+export function scanPlainBody(text: string, start: number, delimiter: "," | "\t" | ";", columns: number, decimal: "." | "," = "."): PlainBody | undefined {
   if (columns < 1) return undefined;
   let capacity = 1;
   for (let i = text.indexOf("\n", start); i >= 0; i = text.indexOf("\n", i + 1)) capacity++;
@@ -52,6 +54,7 @@ export function scanPlainBody(text: string, start: number, delimiter: "," | "\t"
   for (let j = 0; j < columns; j++) cols.push(new Float64Array(capacity));
   const bodyLines: number[] = [];
   const sep = delimiter.charCodeAt(0);
+  const point = decimal.charCodeAt(0);
   const n = text.length;
   let crlf = -1; // -1: no line end seen yet, 0: LF, 1: CRLF
   let p = start;
@@ -74,7 +77,7 @@ export function scanPlainBody(text: string, start: number, delimiter: "," | "\t"
         }
         let digits = p - intStart;
         let fraction = 0;
-        if (c === 46) {
+        if (c === point) {
           c = text.charCodeAt(++p);
           const fracStart = p;
           while (c >= 48 && c <= 57) {
@@ -104,7 +107,7 @@ export function scanPlainBody(text: string, start: number, delimiter: "," | "\t"
           v = k >= 0 ? m * POW10[k] : m / POW10[-k];
           if (negative) v = -v;
         } else {
-          v = Number(text.slice(start, p));
+          v = Number(point === 46 ? text.slice(start, p) : text.slice(start, p).replace(",", "."));
           if (v - v !== 0) return undefined; // beyond the double range: csv-parse path reports it
         }
         cols[j][rows] = v;
@@ -141,7 +144,7 @@ export function parsePlainNumber(text: string): number | undefined {
 }
 
 /** Cell text of a body scanPlainBody accepted, row-major: the rows csv-parse would give. */
-export function splitPlainBody(body: string, delimiter: "," | "\t"): string[][] {
+export function splitPlainBody(body: string, delimiter: "," | "\t" | ";"): string[][] {
   const rows: string[][] = [];
   for (const raw of body.split("\n")) {
     const line = raw.charCodeAt(raw.length - 1) === CR ? raw.slice(0, -1) : raw;

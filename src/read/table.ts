@@ -13,6 +13,7 @@
 import { parse } from "csv-parse/sync";
 import { InputError } from "../validate/problem.ts";
 import { scanPlainBody, splitPlainBody } from "./plainTable.ts";
+import { cellCountProblem, decimalFix, numberText, tableDialect, type DecimalMark, type Separator } from "./tableDialect.ts";
 
 export interface MetaEntry {
   value: string;
@@ -31,7 +32,9 @@ export interface RawTable {
   meta: Map<string, MetaEntry>;
   columns: ColumnHeader[];
   headerLine: number;
-  delimiter: "," | "\t";
+  delimiter: Separator;
+  /** Decimal mark of the numbers (tableDialect.ts); cell text keeps it as written. */
+  decimal: DecimalMark;
   /** Cell text, row-major (on the fast path split from the text only when first read). */
   rows: string[][];
   /** 1-based file line number of each row; its length is the number of rows. */
@@ -80,7 +83,8 @@ export function readTable(text: string, file: string): RawTable {
     throw new InputError({ file, line: lastContent, message: "no header row", expected: "a header such as \"B [T],Rxx [ohm],Rxy [ohm]\" after the # metadata lines", found: "only metadata or blank lines", fix: "add the column header and the data rows" });
   }
   const headerLine = line;
-  const delimiter: "," | "\t" = headerText.includes("\t") ? "\t" : ",";
+  const bodyStart = Math.min(pos, text.length);
+  const { delimiter, decimal } = tableDialect(file, meta, headerText, headerLine, text.slice(bodyStart));
   const columns = headerText.split(delimiter).map((cell, index) => {
     const c = cell.trim();
     const m = HEADER_CELL.exec(c);
@@ -96,13 +100,12 @@ export function readTable(text: string, file: string): RawTable {
     }
     seen.set(c.name, c.index);
   }
-  const bodyStart = Math.min(pos, text.length);
-  const plain = scanPlainBody(text, bodyStart, delimiter, columns.length);
+  const plain = scanPlainBody(text, bodyStart, delimiter, columns.length, decimal);
   if (plain) {
     if (plain.bodyLines.length === 0) throw noRows(file, headerLine);
     const rowLines = plain.bodyLines;
     for (let i = 0; i < rowLines.length; i++) rowLines[i] += headerLine;
-    return plainTable({ file, meta, columns, headerLine, delimiter, rowLines, numeric: plain.numeric }, text, bodyStart);
+    return plainTable({ file, meta, columns, headerLine, delimiter, decimal, rowLines, numeric: plain.numeric }, text, bodyStart);
   }
   const body = text.slice(bodyStart);
   let records: { record: string[]; info: { lines: number } }[];
@@ -124,13 +127,14 @@ export function readTable(text: string, file: string): RawTable {
   for (const r of records) {
     const rowLine = headerLine + r.info.lines;
     if (r.record.length !== columns.length) {
-      throw new InputError({ file, line: rowLine, message: "row has the wrong number of cells", expected: `${columns.length} cells as in the header`, found: `${r.record.length}`, fix: "fill or remove the incomplete row" });
+      const dialect = cellCountProblem(r.record, columns.length, delimiter);
+      throw new InputError({ file, line: rowLine, message: dialect?.message ?? "row has the wrong number of cells", expected: `${columns.length} cells as in the header`, found: `${r.record.length}`, fix: dialect?.fix ?? "fill or remove the incomplete row" });
     }
     rows.push(r.record);
     rowLines.push(rowLine);
   }
   if (rows.length === 0) throw noRows(file, headerLine);
-  return { file, meta, columns, headerLine, delimiter, rows, rowLines };
+  return { file, meta, columns, headerLine, delimiter, decimal, rows, rowLines };
 }
 
 function noRows(file: string, headerLine: number): InputError {
@@ -161,7 +165,7 @@ export function numericColumn(table: RawTable, col: ColumnHeader, factor = 1, of
   const out = new Float64Array(table.rows.length);
   for (let i = 0; i < table.rows.length; i++) {
     const cell = table.rows[i][col.index];
-    const v = cell === "" ? NaN : Number(cell);
+    const v = cell === "" ? NaN : Number(numberText(cell, table.decimal));
     if (!Number.isFinite(v)) {
       throw new InputError({
         file: table.file,
@@ -170,7 +174,7 @@ export function numericColumn(table: RawTable, col: ColumnHeader, factor = 1, of
         message: "cell is not a finite number",
         expected: "a number such as 1.25e-3",
         found: JSON.stringify(cell),
-        fix: /nan|inf/i.test(cell) ? "remove the row, or leave out points the instrument could not measure" : "correct the cell",
+        fix: decimalFix(cell, table.decimal) ?? (/nan|inf/i.test(cell) ? "remove the row, or leave out points the instrument could not measure" : "correct the cell"),
       });
     }
     out[i] = v * factor + offset;

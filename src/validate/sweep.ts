@@ -6,7 +6,8 @@
  */
 import { numericColumn, type ColumnHeader, type RawTable } from "../read/table.ts";
 import { didYouMean, InputError, type Problem } from "./problem.ts";
-import { acceptedUnits, splitValueUnit, unitFactor, type Dimension } from "./units.ts";
+import { acceptedUnits, COLUMN_UNITS, splitValueUnit, unitFactor, type Dimension } from "./units.ts";
+import { suggestUnit } from "./unitSpelling.ts";
 
 export type Geometry = "hall-bar" | "van-der-pauw";
 
@@ -24,8 +25,8 @@ export interface Sweep {
   x: Float64Array;
   /** Longitudinal resistance (Hall bar), Ω. */
   rxx?: Float64Array;
-  /** Hall resistance, Ω. */
-  rxy: Float64Array;
+  /** Hall resistance, Ω: always present on a field sweep; optional on a gate sweep, which does not use it. */
+  rxy?: Float64Array;
   /** van der Pauw four-terminal resistances, Ω. */
   ra?: Float64Array;
   rb?: Float64Array;
@@ -52,7 +53,8 @@ function metaValue(t: RawTable, key: string): number | undefined {
   const entry = t.meta.get(key);
   if (!entry) return undefined;
   const dim = META[key];
-  const vu = splitValueUnit(entry.value);
+  // A table with decimal commas has them in its metadata too: "# gate: 0,35 V".
+  const vu = splitValueUnit(t.decimal === "," ? entry.value.replace(/^(\s*[-+]?\d*),(\d)/, "$1.$2") : entry.value);
   const factor = vu ? unitFactor(dim, vu.unit) : undefined;
   if (!vu || factor === undefined) {
     throw new InputError({ file: t.file, line: entry.line, field: `# ${key}`, message: `cannot read the ${key} metadata`, expected: `a number and one of ${acceptedUnits(dim)}`, found: JSON.stringify(entry.value), fix: `write for example "# ${key}: ${dim === "voltage" ? "0.35 V" : dim === "field" ? "0 T" : dim === "temperature" ? "1.6 K" : "10 nA"}"` });
@@ -68,7 +70,7 @@ function readColumn(t: RawTable, c: ColumnHeader): Float64Array {
   const spec = SWEEP_COLUMNS[c.name];
   const factor = unitFactor(spec.dim, c.unit);
   if (factor === undefined) {
-    throw new InputError({ file: t.file, line: t.headerLine, field: `column ${c.name}`, message: `unit of the ${spec.meaning} is not accepted`, expected: acceptedUnits(spec.dim), found: c.unit === "" ? "no unit" : JSON.stringify(c.unit), fix: `write the header as "${c.name} [${acceptedUnits(spec.dim).split(", ")[0]}]"` });
+    throw new InputError({ file: t.file, line: t.headerLine, field: `column ${c.name}`, message: `unit of the ${spec.meaning} is not accepted`, expected: acceptedUnits(spec.dim), found: c.unit === "" ? "no unit" : JSON.stringify(c.unit), fix: `write the header as "${c.name} [${suggestUnit(c.unit, Object.keys(COLUMN_UNITS[spec.dim])) ?? acceptedUnits(spec.dim).split(", ")[0]}]"` });
   }
   return numericColumn(t, c, factor);
 }
@@ -147,10 +149,13 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
   const rxy = toResistance("Rxy") ?? toResistance("Vxy");
   const ra = toResistance("Ra");
   const rb = toResistance("Rb");
-  const need = geometry === "hall-bar" ? "Rxx and Rxy (or Vxx and Vxy with a current)" : "Ra, Rb and Rxy";
-  const ok = geometry === "hall-bar" ? rxx && rxy : ra && rb && rxy;
+  // The Hall resistance is needed only where the Hall effect is used: field sweeps. A gate sweep
+  // (percolation, hysteresis) needs only the longitudinal resistance(s).
+  const hall = kind === "field";
+  const need = geometry === "hall-bar" ? (hall ? "Rxx and Rxy (or Vxx and Vxy with a current)" : "Rxx (or Vxx with a current)") : hall ? "Ra, Rb and Rxy" : "Ra and Rb";
+  const ok = (geometry === "hall-bar" ? rxx : ra && rb) && (!hall || rxy);
   if (!ok) {
-    throw new InputError({ file: t.file, line: t.headerLine, message: `missing a column a ${geometry} needs`, expected: need, found: t.columns.map((c) => c.name).join(", "), fix: "add the missing column, or check the device geometry in wafer.md" });
+    throw new InputError({ file: t.file, line: t.headerLine, message: `missing a column a ${geometry}${hall ? "" : " gate sweep"} needs`, expected: need, found: t.columns.map((c) => c.name).join(", "), fix: "add the missing column, or check the device geometry in wafer.md" });
   }
   if (kind === "field") {
     let pos = 0;
@@ -167,5 +172,5 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
     }
   }
   if (current_A === undefined && currentCol) current_A = currentCol.reduce((a, b) => a + b, 0) / currentCol.length;
-  return { file: t.file, kind, geometry, gate_V, field_T, temperature_K, current_A, x, rxx, rxy: rxy!, ra, rb, direction, rows: x.length, warnings };
+  return { file: t.file, kind, geometry, gate_V, field_T, temperature_K, current_A, x, rxx, rxy, ra, rb, direction, rows: x.length, warnings };
 }

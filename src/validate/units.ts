@@ -8,6 +8,7 @@
  * mismatch is an error, never a silent assumption.
  */
 import { createRequire } from "node:module";
+import { normaliseUnit, normaliseUnitText } from "./unitSpelling.ts";
 
 type MathUnit = typeof import("mathjs").unit;
 let unitFn: MathUnit | undefined;
@@ -51,10 +52,18 @@ export const BASE_UNIT: Record<Dimension, string> = {
   counts: "counts",
 };
 
-/** The factor to the base unit, or undefined when the unit is not accepted for the dimension. */
+/** Each dimension's accepted units, keyed by their one spelling (unitSpelling.ts). */
+const BY_SPELLING = new Map<Dimension, Map<string, number>>();
+
+/**
+ * The factor to the base unit, or undefined when the unit is not accepted for
+ * the dimension. Any lab spelling of an accepted unit is accepted (kΩ, kOhm,
+ * µA, μA, uA, cm⁻³, cm-3); letter case otherwise counts (mT, not mt).
+ */
 export function unitFactor(dim: Dimension, unit: string): number | undefined {
-  const table = COLUMN_UNITS[dim];
-  return Object.prototype.hasOwnProperty.call(table, unit) ? table[unit] : undefined;
+  let table = BY_SPELLING.get(dim);
+  if (!table) BY_SPELLING.set(dim, (table = new Map(Object.entries(COLUMN_UNITS[dim]).map(([u, f]) => [normaliseUnit(u), f]))));
+  return table.get(normaliseUnit(unit));
 }
 
 export function acceptedUnits(dim: Dimension): string {
@@ -102,9 +111,4 @@ export function parseQuantity(text: unknown, target: string): QuantityResult {
     const dimension = /do not match|not match/i.test(msg);
     return { ok: false, expected, found: dimension ? `${JSON.stringify(t)}, which has a different dimension` : `${JSON.stringify(t)}, which is not a known quantity` };
   }
-}
-
-/** Accepts the lab spellings "ohm", "Ω", "µ" and "um" in typed quantities. */
-function normaliseUnitText(s: string): string {
-  return s.replace(/Ω/g, "ohm").replace(/[µμ]/g, "u").replace(/\bsq\b/g, "");
 }

@@ -12,6 +12,7 @@ import { checkRelativePath } from "../read/dataFiles.ts";
 import { applySettings, type AnalysisSettings } from "./settings.ts";
 import { didYouMean, InputError, show } from "./problem.ts";
 import { FIELD_HINTS, WAFER_SCHEMA } from "./waferSchema.ts";
+import { unitInKey } from "./unitInKey.ts";
 
 export type LayerRole = "substrate" | "buffer" | "barrier" | "well" | "cap" | "other";
 export interface Layer {
@@ -124,8 +125,11 @@ function ajvToInputError(e: ErrorObject, doc: FrontMatterDoc, file: string, data
       const isDate = /grown|date/.test(last);
       return new InputError({ file, line: lineOf(base), field: base, message: isDate ? "not a date" : "not a valid id", expected: isDate ? "a date written YYYY-MM-DD" : "letters, digits, \".\", \"-\" or \"_\" (up to 64, starting with a letter or digit, no \"..\")", found: show(valueAt), fix: isDate ? "write the date as 2025-03-14" : "rename it using only the allowed characters" });
     }
-    case "type":
+    case "type": {
+      const slip = (e.params as { type: string }).type === "number" ? unitInKey(last, valueAt) : undefined;
+      if (slip) return new InputError({ file, line: lineOf(base), field: base, ...slip, found: show(valueAt) });
       return new InputError({ file, line: lineOf(base), field: base, message: "wrong type", expected: `${(e.params as { type: string }).type === "array" ? "a list" : (e.params as { type: string }).type === "object" ? "a mapping" : `a ${(e.params as { type: string }).type}`}`, found: show(valueAt), fix: "see docs/formats.md for this field" });
+    }
     default:
       return new InputError({ file, line: lineOf(base), field: base, message: `value is out of range (${e.message})`, expected: e.message ?? "a valid value", found: show(valueAt), fix: "see docs/formats.md for this field" });
   }

@@ -22,7 +22,7 @@ describe("sweep table reader", () => {
     const tsv = good.replace(/,/g, "\t").replace(/\n/g, "\r\n");
     const s = validateSweep(readTable(tsv, "a.tsv"), "hall-bar");
     expect(s.rows).toBe(3);
-    expect(s.rxy[2]).toBe(-1200);
+    expect(s.rxy![2]).toBe(-1200);
   });
   it("removes a UTF-8 byte-order mark before the metadata (decodeText)", () => {
     const bytes = Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(good.replace(/\n/g, "\r\n"))]);
@@ -35,7 +35,7 @@ describe("sweep table reader", () => {
     const t = "# gate: 0.5 V\n# current: 10 nA\nB [T],Vxx [uV],Vxy [uV]\n-1,10,-60\n0,10,0\n1,10,60\n";
     const s = validateSweep(readTable(t, "v.csv"), "hall-bar");
     expect(s.rxx![0]).toBeCloseTo(1000, 9);
-    expect(s.rxy[2]).toBeCloseTo(6000, 9);
+    expect(s.rxy![2]).toBeCloseTo(6000, 9);
   });
   it("reads a gate sweep with its field", () => {
     const s = validateSweep(readTable("# field: 0 T\nVg [V],Rxx [ohm],Rxy [ohm]\n1.2,100,0\n1.0,150,0\n0.8,300,1\n", "g.csv"), "hall-bar");

@@ -88,7 +88,6 @@ const TRICKY: [string, string][] = [
   ["too few cells", H + "-1,1,2\n0,1\n"],
   ["too many cells", H + "-1,1,2\n0,1,2,3\n"],
   ["trailing delimiter", H + "-1,1,2,\n"],
-  ["comma in a tab file", "# gate: 0.5 V\nB [T]\tRxx [ohm]\tRxy [ohm]\n-1\t1,5\t2\n"],
 ];
 
 describe("plain numeric fast path of readTable", () => {

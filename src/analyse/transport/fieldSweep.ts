@@ -40,7 +40,7 @@ export type FieldSweepResult = { ok: true; point: TransportPoint } | { ok: false
 export function analyseFieldSweep(sweep: Sweep, device: DeviceGeometry, settings: AnalysisSettings): FieldSweepResult {
   const fail = (reason: string): FieldSweepResult => ({ ok: false, file: sweep.file, reason });
   const branches = fieldBranches(sweep.x);
-  const xy = symmetriseBranches(branches, sweep.rxy, "odd");
+  const xy = symmetriseBranches(branches, sweep.rxy!, "odd");
   const hall = hallSlope(xy.b, xy.y, settings.hall_max_field, settings.hall_min_r2);
   if (!hall.ok) return fail(hall.reason);
   const density = sheetDensity(hall.fit.slope);
