@@ -6,7 +6,8 @@
 import path from "node:path";
 import { writeFile } from "node:fs/promises";
 import { EXIT, type BuildOptions } from "./args.ts";
-import { build, BuildLockedError, BuildStoppedError, OutputRefusedError } from "./build.ts";
+import { build, BuildLockedError, BuildStoppedError } from "./build.ts";
+import { OutputRefusedError } from "./outputGuard.ts";
 import { reportInternalError, reportProblems, summary } from "./report.ts";
 import { buildStamp } from "./buildStamp.ts";
 import type { CommandIO } from "./main.ts";
