@@ -65,7 +65,7 @@ const build = define<BuildOptions>({
   usage: "[--data DIR] [--out DIR] [--strict] [--base PATH] [--quiet]\n      [--cache DIR | --no-cache]",
   options: {
     data: COMMON_OPTIONS.data,
-    out: { type: "string", arg: "DIR", help: "where the site is written (default: ./site). The folder is\nreplaced only when the build succeeds; a failed build leaves\nthe previous site as it was. Wafer pages whose content has\nnot changed are carried over from the previous site." },
+    out: { type: "string", arg: "DIR", help: "where the site is written (default: ./site): a link to the\ncurrent build's folder beside it, switched only when the build\nsucceeds; a failed build leaves the previous site as it was.\nWafer pages whose content has not changed are carried over\nfrom the previous site (docs/publishing.md)." },
     strict: { type: "boolean", help: "exit with code 1 when any input error was found (for CI)" },
     base: { type: "string", arg: "PATH", help: "absolute links under PATH for a web server, e.g. /qual/ or /\n(default: relative links, which work opened from disk and\non a server under any path)" },
     quiet: COMMON_OPTIONS.quiet,
@@ -111,14 +111,17 @@ export const EXIT = {
   ok: 0,
   /** Input errors with --strict, or nothing could be built. */
   inputErrors: 1,
-  /** Bad usage: unknown command or option, missing value. */
+  /** Bad usage: unknown command or option, missing value; an --out/--cache refused before anything was written (outputGuard.ts); a malformed SOURCE_DATE_EPOCH. */
   usage: 2,
   /** A bug in waferbook (EX_SOFTWARE of BSD's sysexits.h). */
   internal: 70,
 } as const;
 
 const EXIT_TEXT = `Exit codes: 0 done; 1 input errors (with --strict), or nothing could be
-built; 2 bad usage; 70 internal error (a bug: please report it).`;
+built; 2 bad usage, or an --out/--cache refused before anything was written
+(it is, holds or lies in the data folder or its git work tree; a folder
+waferbook did not write; a file; not writable); 70 internal error (a bug:
+please report it).`;
 
 const STANDARD: Record<string, OptionSpec> = {
   help: { type: "boolean", short: "h", help: "show this help" },

@@ -23,10 +23,12 @@ import { loadDataHistory } from "../read/history.ts";
 import { decisionCommits } from "../read/decisionCommits.ts";
 import { writeExports } from "./writeExports.ts";
 import { PACKAGE_ROOT } from "./paths.ts";
-import { acquireLock, BuildLockedError, BuildStoppedError, recoverInterrupted, swapInto } from "./outputFolder.ts";
+import { acquireLock, BuildLockedError, BuildStoppedError } from "./outputFolder.ts";
+import { checkOutput, OutputRefusedError } from "./outputGuard.ts";
+import { publish, recoverInterrupted } from "./siteLayout.ts";
 import { writeExtras, type CommitsOf } from "./writeWaferFiles.ts";
 
-export { PACKAGE_ROOT, BuildLockedError, BuildStoppedError };
+export { PACKAGE_ROOT, BuildLockedError, BuildStoppedError, OutputRefusedError };
 
 export interface BuildIO {
   log: (line: string) => void;
@@ -45,6 +47,8 @@ export interface BuildResult {
   outDir: string;
   pages: number;
   /** Wafers taken from the analysis cache / analysed from raw files; wafer pages reused unchanged from the previous output; raw files read to compute cache keys (the others' hashes came from the file-hash record); wall time of each phase, ms. */
+  /** Things the user should know that did not stop the build (e.g. an old site generation that could not be removed). */
+  warnings?: string[];
   stats?: { cacheHits: number; analysed: number; pagesReused: number; filesHashed: number; phases: Record<string, number> };
 }
 
@@ -75,12 +79,16 @@ function historyWarning(reason: string): Problem {
 export async function build(options: BuildOptions, io: BuildIO): Promise<BuildResult> {
   const dataDir = path.resolve(options.data);
   const outDir = path.resolve(options.out);
+  const cacheDir = options.cache === null ? null : path.resolve(options.cache ?? defaultCacheDir(outDir));
+  // Before anything is written: the output can never be, hold or lie in the data (outputGuard.ts).
+  await checkOutput({ data: dataDir, out: outDir, cache: cacheDir });
   const release = await acquireLock(outDir);
   const tmpDir = path.join(path.dirname(outDir), `.${path.basename(outDir)}-building-${process.pid}`);
   // Drawn pages' models wait here for rendering (waferPages.ts); a killed build's is removed by recoverInterrupted.
   const scratchDir = `${tmpDir}-pages`;
+  const warnings: string[] = [];
   try {
-    await recoverInterrupted(outDir);
+    warnings.push(...(await recoverInterrupted(outDir)));
     await fs.rm(tmpDir, { recursive: true, force: true });
     const version = await readVersion();
     const site = await loadSiteInputs(dataDir);
@@ -98,7 +106,6 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       phases[name] = Math.round(now - t);
       t = now;
     };
-    const cacheDir = options.cache === null ? null : path.resolve(options.cache ?? defaultCacheDir(outDir));
     const code = cacheDir ? await codeVersion(version) : "";
     const jobs = new WaferJobs({ dataDir, today: ctx.today, siteSettings: ctx.siteSettings, waferListing: site.waferListing, cacheDir, code, pipeline: ctx, outDir: tmpDir, scratchDir });
     // Unchanged wafer pages are reused from the previous output (src/cli/pageReuse.ts); --no-cache builds every page afresh.
@@ -136,7 +143,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       if (failure !== undefined) throw failure;
       lap("analyse");
       if (site.waferFolders.length === 0 && site.problems.some((p) => p.severity === "error")) {
-        return { ok: false, outcomes, problems: [...site.problems], outDir, pages: 0 };
+        return { ok: false, outcomes, problems: [...site.problems], outDir, pages: 0, warnings };
       }
       const history = await loadDataHistory(dataDir);
       if (history?.failure) buildProblems.push(historyWarning(history.failure));
@@ -172,16 +179,15 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     await writeExtras(outcomes, dataDir, tmpDir, commitsOf, outDir, reused, jobs.fileHashes);
     await writeExports(outcomes, tmpDir, meta, site.runs, reused);
     await writeSearch(outcomes, site.runs, tmpDir, PACKAGE_ROOT);
-    await swapInto(tmpDir, outDir);
+    warnings.push(...(await publish(tmpDir, outDir)));
     lap("write");
-    return { ok: true, outcomes, problems, outDir, pages: written, stats };
+    return { ok: true, outcomes, problems, outDir, pages: written, stats, warnings };
   } finally {
-    try {
-      await fs.rm(tmpDir, { recursive: true, force: true });
-      await fs.rm(scratchDir, { recursive: true, force: true });
-    } finally {
-      await release();
+    // Best effort: once the site is published, nothing here may turn the build into a failure.
+    for (const dir of [tmpDir, scratchDir]) {
+      await fs.rm(dir, { recursive: true, force: true }).catch((err: NodeJS.ErrnoException) => warnings.push(`could not remove ${dir} (${err.code ?? err.message}); the next build removes it`));
     }
+    await release().catch((err: NodeJS.ErrnoException) => warnings.push(`could not remove the lock ${outDir}.lock (${err.code ?? err.message}); delete it by hand`));
   }
 }
 

@@ -8,22 +8,31 @@ import { siteWrittenMessage } from "./siteMessage.ts";
 import { writeFile } from "node:fs/promises";
 import { EXIT, type BuildOptions } from "./args.ts";
 import { build, BuildLockedError, BuildStoppedError } from "./build.ts";
+import { OutputRefusedError } from "./outputGuard.ts";
 import { reportInternalError, reportProblems, summary } from "./report.ts";
+import { buildStamp } from "./buildStamp.ts";
 import type { CommandIO } from "./main.ts";
 
 export async function runBuild(options: BuildOptions, io: CommandIO): Promise<number> {
+  // The footer's build time: SOURCE_DATE_EPOCH when set (reproducible builds), else the clock.
+  const stamp = buildStamp(process.env, () => new Date());
+  if ("error" in stamp) {
+    io.err(`waferbook: ${stamp.error}`);
+    return EXIT.usage;
+  }
   const quiet = options.quiet || process.env.CI === "true" || !process.stderr.isTTY;
   const started = Date.now();
   try {
     const result = await build({ ...options, quiet }, {
       log: quiet ? () => {} : (s) => process.stderr.write(`\r\x1b[2K${s} (${((Date.now() - started) / 1000).toFixed(1)} s)`),
       today: () => new Date().toISOString().slice(0, 10),
-      now: () => new Date().toISOString().replace(/\.\d+Z$/, "Z"),
+      now: stamp.stamp,
     });
     if (!quiet) process.stderr.write("\r\x1b[2K");
     // For the benchmark (bench/run.ts): phase times, cache use and this process's peak memory.
     if (process.env.WAFERBOOK_STATS) await writeFile(process.env.WAFERBOOK_STATS, JSON.stringify({ ...result.stats, wall_ms: Date.now() - started, maxRSS_kB: process.resourceUsage().maxRSS }) + "\n");
     reportProblems(result.problems, io.err);
+    for (const w of result.warnings ?? []) io.err(`waferbook: warning: ${w}`);
     io.out(summary(result, (Date.now() - started) / 1000));
     if (!result.ok) {
       io.err(`waferbook: ${result.reason ? `${result.reason}: ` : ""}nothing could be built; the previous site was left as it was.`);
@@ -37,9 +46,19 @@ export async function runBuild(options: BuildOptions, io: CommandIO): Promise<nu
     }
     return EXIT.ok;
   } catch (e) {
+    if (e instanceof OutputRefusedError) {
+      io.err(`waferbook: ${e.message}`);
+      return EXIT.usage;
+    }
     if (e instanceof BuildStoppedError) {
       io.err(`waferbook: ${e.message}`);
-      if (!(e instanceof BuildLockedError)) io.err("The previous site was left as it was.");
+      if (!(e instanceof BuildLockedError) && e.previousKept) io.err("The previous site was left as it was.");
+      return EXIT.inputErrors;
+    }
+    const sys = e as NodeJS.ErrnoException;
+    if (typeof sys.code === "string" && /^E[A-Z]+$/.test(sys.code) && sys.syscall) {
+      // The file system said no (permissions, space, a file in the way) before anything was published: one line, no stack.
+      io.err(`waferbook: ${sys.syscall} failed: ${sys.code}${sys.path ? ` on ${sys.path}` : ""}; the previous site was left as it was.`);
       return EXIT.inputErrors;
     }
     reportInternalError(e, io.err);

@@ -1,15 +1,18 @@
 /**
- * The output folder's life cycle, so that a failed or killed build never
- * leaves a half-written site: a lock that keeps two builds apart, recovery of
- * what a killed build left behind, and the two-rename swap of the finished
- * folder into place.
+ * The output folder's lock, which keeps two builds apart, and the errors that
+ * stop a build. How a finished site is published (and what a killed build left
+ * is recovered) is src/cli/siteLayout.ts; the checks made before anything is
+ * written are src/cli/outputGuard.ts.
  */
 import { promises as fs } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 
-/** A build stopped for a reason that is not a bug (reported without a stack trace; the previous site stays as it was). */
-export class BuildStoppedError extends Error {}
+/** A build stopped for a reason that is not a bug (reported without a stack trace). */
+export class BuildStoppedError extends Error {
+  /** Whether the previous site is still published as it was (false only when publishing failed half-way and could not be undone). */
+  previousKept = true;
+}
 /** Another live build holds the output folder's lock. */
 export class BuildLockedError extends BuildStoppedError {}
 
@@ -60,39 +63,4 @@ function holderAlive(holder: string): boolean {
   } catch (err) {
     return (err as NodeJS.ErrnoException).code === "EPERM"; // exists, but belongs to another user
   }
-}
-
-/**
- * Run while holding the lock: a build killed between the two renames of
- * swapInto left the previous site at `.<out>-building-<pid>-old` and no
- * outDir; put it back. Other leftovers of killed builds are removed.
- */
-export async function recoverInterrupted(outDir: string): Promise<void> {
-  const parent = path.dirname(outDir);
-  const prefix = `.${path.basename(outDir)}-building-`;
-  const left = (await fs.readdir(parent)).filter((n) => n.startsWith(prefix) && /^\d+(-old|-pages)?$/.test(n.slice(prefix.length)));
-  const hasOut = await fs.stat(outDir).then(() => true, () => false);
-  const old = left.find((n) => n.endsWith("-old"));
-  if (!hasOut && old) await fs.rename(path.join(parent, old), outDir);
-  for (const n of left) if (n !== old || hasOut) await fs.rm(path.join(parent, n), { recursive: true, force: true });
-}
-
-/** Replaces outDir by tmpDir with two renames; the old folder is removed only after the new one is in place. */
-export async function swapInto(tmpDir: string, outDir: string): Promise<void> {
-  const old = `${tmpDir}-old`;
-  await fs.rm(old, { recursive: true, force: true });
-  let hadOld = false;
-  try {
-    await fs.rename(outDir, old);
-    hadOld = true;
-  } catch (err) {
-    if ((err as NodeJS.ErrnoException).code !== "ENOENT") throw err;
-  }
-  try {
-    await fs.rename(tmpDir, outDir);
-  } catch (err) {
-    if (hadOld) await fs.rename(old, outDir);
-    throw err;
-  }
-  if (hadOld) await fs.rm(old, { recursive: true, force: true });
 }

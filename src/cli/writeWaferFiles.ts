@@ -2,10 +2,12 @@
  * The files of each wafer's output folder that are not rendered pages: its
  * results.json, its raw-file copies in the site's content-addressed raw/
  * folder, and the site's assets; a reused page's folder is linked from the
- * previous output as it is.
+ * previous output as it is. raw/ is append-only: every raw object of the
+ * previous site is carried over, so a link sent once keeps working after the
+ * file it names was replaced (docs/publishing.md says how to prune).
  */
 import { createHash } from "node:crypto";
-import { constants as fsConstants, existsSync, promises as fs } from "node:fs";
+import { constants as fsConstants, existsSync, promises as fs, readdirSync } from "node:fs";
 import path from "node:path";
 import pLimit from "p-limit";
 import type { WaferOutcome } from "./pipeline.ts";
@@ -13,7 +15,7 @@ import type { FileHashes } from "./fileHashes.ts";
 import { BuildStoppedError } from "./outputFolder.ts";
 import { linkOrCopy, linkReusedPage } from "./pageReuse.ts";
 import { PACKAGE_ROOT } from "./paths.ts";
-import { rawCopyPath } from "../publish/rawCopies.ts";
+import { RAW_OBJECT_NAME, rawCopyPath } from "../publish/rawCopies.ts";
 import { resultsJson } from "../publish/resultsJson.ts";
 import { openDataFile, readOpenFile, type OpenDataFile } from "../read/dataFiles.ts";
 import { InputError } from "../validate/problem.ts";
@@ -50,6 +52,7 @@ export async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmp
       }),
     ),
   );
+  carryOverRawObjects(path.join(outDir, "raw"), path.join(tmpDir, "raw"));
   const chartJs = path.join(PACKAGE_ROOT, "node_modules", "chart.js", "dist", "chart.umd.min.js");
   await fs.mkdir(path.join(tmpDir, "assets"), { recursive: true });
   await fs.copyFile(chartJs, path.join(tmpDir, "assets", "chart.umd.min.js"));
@@ -91,4 +94,28 @@ export async function placeRawCopy(rawAbs: string, dest: string, prevCopy: strin
   } finally {
     await file.handle.close();
   }
+}
+
+/**
+ * Hard-links into the new raw/ folder every object of the previous one that
+ * the new build did not place itself. Only regular files whose names this
+ * version writes (`<SHA-256>.<inert extension or bin>`: RAW_OBJECT_NAME) are
+ * carried: a copy an older version published under an active type (.html,
+ * .svg) or without extension, or anything else found there, is left behind.
+ * Returns how many were carried.
+ */
+export function carryOverRawObjects(prevRaw: string, newRaw: string): number {
+  let entries;
+  try {
+    entries = readdirSync(prevRaw, { withFileTypes: true });
+  } catch {
+    return 0; // no previous site, or one without raw files
+  }
+  const present = new Set(readdirSync(newRaw));
+  let carried = 0;
+  for (const e of entries) {
+    if (!e.isFile() || !RAW_OBJECT_NAME.test(e.name) || present.has(e.name)) continue;
+    if (linkOrCopy(path.join(prevRaw, e.name), path.join(newRaw, e.name), { copy: true })) carried++;
+  }
+  return carried;
 }

@@ -2,11 +2,30 @@
  * Markdown notes → HTML with raw HTML disabled (markdown-it `html: false`), so
  * text typed into a record can never inject markup or script. Links are
  * limited to http(s), mailto and relative targets by markdown-it's own
- * validateLink (javascript:, vbscript:, file: and data: are refused).
+ * validateLink (javascript:, vbscript:, file: and data: are refused, except
+ * data: images).
+ *
+ * Images are never fetched: `![label](https://…/x.png)` renders as a link to
+ * the picture, labelled with its alt text, so a page makes no request to
+ * another site (which its Content-Security-Policy would block, with a console
+ * error) and a relative picture path (the raw files are published by content
+ * hash, not by path) never gives a broken image. Only an inline data: image,
+ * which needs no request, is shown as a picture.
  */
 import MarkdownIt from "markdown-it";
 
 const md = new MarkdownIt({ html: false, linkify: false, typographer: false });
+
+const inlineImage = md.renderer.rules.image!;
+md.renderer.rules.image = (tokens, idx, options, env, self) => {
+  const token = tokens[idx];
+  const src = String(token.attrGet("src") ?? "");
+  if (/^data:image\//i.test(src)) return inlineImage(tokens, idx, options, env, self);
+  const label = self.renderInlineAsText(token.children ?? [], options, env) || src;
+  const title = token.attrGet("title") == null ? "" : String(token.attrGet("title"));
+  const esc = md.utils.escapeHtml;
+  return `<a class="note-image" href="${esc(src)}"${title ? ` title="${esc(title)}"` : ""}>${esc(`[picture: ${label}]`)}</a>`;
+};
 
 export function renderNotes(text: string): string {
   return md.render(text ?? "");

@@ -18,11 +18,11 @@ const tempDir = useTempDir("raw");
 const sha = (s: string) => createHash("sha256").update(s).digest("hex");
 
 describe("raw-file copies", () => {
-  it("are named by SHA-256 with a safe lower-case extension", () => {
+  it("are named by SHA-256 with a lower-case inert extension, else .bin", () => {
     const h = sha("x");
     expect(rawCopyPath({ path: "wafers/W/transport/HB1/vg #1?.CSV", sha256: h })).toBe(`raw/${h}.csv`);
-    expect(rawCopyPath({ path: "wafers/W/notes", sha256: h })).toBe(`raw/${h}`);
-    expect(rawCopyPath({ path: "wafers/W/a.tar.<script>", sha256: h })).toBe(`raw/${h}`);
+    expect(rawCopyPath({ path: "wafers/W/notes", sha256: h })).toBe(`raw/${h}.bin`);
+    expect(rawCopyPath({ path: "wafers/W/a.tar.<script>", sha256: h })).toBe(`raw/${h}.bin`);
     expect(rawCopyHref({ path: "wafers/W/wafer.md", sha256: h })).toBe(`../../raw/${h}.md`);
   });
 
