@@ -199,6 +199,8 @@ describe("CI files (parsed with js-yaml)", () => {
     expect(job.cache?.paths.map((p) => p.replace(/\/$/, ""))).toContain(".waferbook-cache");
     expect(job.script!.filter((l) => l.includes("waferbook"))).toEqual(documentedCommands());
     expect(job.script!.findIndex((l) => l.startsWith("npm ci"))).toBe(0);
-    expect(job.artifacts?.paths.map((p) => p.replace(/\/$/, ""))).toEqual(["site"]);
+    // site is a symbolic link (docs/publishing.md): the job uploads a plain copy of what it points to.
+    expect(job.script!.at(-1)).toMatch(/cp -rL site\/\. site-files\//);
+    expect(job.artifacts?.paths.map((p) => p.replace(/\/$/, ""))).toEqual(["site-files"]);
   });
 });
