@@ -76,7 +76,7 @@ describe("a 20 MB header cell in a build", () => {
     expect(stderr[0]).toMatch(/^wafers\/BIG\/transport\/vg_0p50V\.csv:3: cannot read column header "\?x+… \(expected a name with its unit in brackets/);
     expect(stderr[0].length).toBeLessThan(1000);
     const long = "x".repeat(1000);
-    for (const f of ["wafers/BIG/results.json", "wafers/BIG/index.html", "results.json", "results.csv", "index.html", "search-index.json"]) {
+    for (const f of ["wafers/BIG/results.json", "wafers/BIG/index.html", "results.json", "results.csv", "index.html", "assets/search-index.js"]) {
       const text = await fs.readFile(path.join(out, f), "utf8");
       expect(text.length, f).toBeLessThan(1_000_000);
       expect(text.includes(long), f).toBe(false);

@@ -46,7 +46,7 @@ async function demoCopy(name: string, wafers?: string[]): Promise<string> {
   return data;
 }
 
-const opts = (data: string, out: string) => ({ data, out, strict: false, basePath: "/", quiet: true });
+const opts = (data: string, out: string) => ({ data, out, strict: false, basePath: "", quiet: true });
 
 describe("raw files are only read", () => {
   it("a build leaves every file of the data folder byte-identical", async () => {
