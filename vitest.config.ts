@@ -5,5 +5,8 @@ export default defineConfig({
     testTimeout: 60_000,
     hookTimeout: 180_000,
     pool: "forks",
+    // Two files at a time (vitest's default on 2 cores is one): most of the slow files wait on
+    // child builds and the browser, so two overlap well; the suite is written to stay correct when busy.
+    maxWorkers: 2,
   },
 });

@@ -36,7 +36,7 @@ export interface GitCommit {
   committedAt: string;
   author: string;
   subject: string;
-  /** Files changed, relative to the repository root (merge commits list none). */
+  /** Files changed, relative to the repository root (a merge commit lists what it changed against its first parent: what it brought into the line it joined). */
   files: string[];
   /** The subset of `files` inside the data folder, relative to the data folder. */
   dataFiles: string[];
@@ -44,7 +44,7 @@ export interface GitCommit {
 
 export const LOG_FORMAT = "%H%x00%h%x00%aI%x00%cI%x00%an%x00%s";
 /** The arguments of `git log` that produce what {@link GitLogParser} reads (options that user configuration could otherwise change are pinned). */
-export const LOG_ARGS = ["log", "-z", "--name-status", "--no-renames", `--format=${LOG_FORMAT}`, "--no-color", "--no-show-signature", "--encoding=UTF-8"];
+export const LOG_ARGS = ["log", "-z", "--name-status", "--no-renames", "--diff-merges=first-parent", `--format=${LOG_FORMAT}`, "--no-color", "--no-show-signature", "--encoding=UTF-8"];
 
 /** The log did not have the expected shape at `offset` (bytes from the start). */
 export class GitLogError extends Error {

@@ -59,7 +59,7 @@ export async function startSite(): Promise<Site> {
   }
   const tmp = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-browser-"));
   const dir = path.join(tmp, "site");
-  await promisify(execFile)(process.execPath, [path.join(ROOT, "bin", "waferbook.js"), "build", "--data", path.join(ROOT, "data"), "--out", dir], { cwd: ROOT, env: { ...process.env, CI: "true" }, timeout: 120_000 });
+  await promisify(execFile)(process.execPath, [path.join(ROOT, "bin", "waferbook.js"), "build", "--data", path.join(ROOT, "data"), "--out", dir], { cwd: ROOT, env: { ...process.env, CI: "true" }, timeout: 300_000 });
   const { origin, server } = await serve(dir);
   let browser: Browser;
   try {

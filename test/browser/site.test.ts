@@ -35,16 +35,6 @@ let runUrl = "";
 const keyOf = (u: URL) => u.pathname.replace(/\/index\.html$/, "/") + u.search;
 const isPage = (u: URL) => u.pathname.endsWith("/") || u.pathname.endsWith(".html");
 
-/** Pixels of a canvas screenshot that differ clearly from its corner (background) pixel. */
-function inkPixels(png: Buffer): number {
-  const img = PNG.sync.read(png);
-  const d = img.data;
-  let n = 0;
-  for (let i = 0; i < d.length; i += 4) {
-    if (Math.max(Math.abs(d[i] - d[0]), Math.abs(d[i + 1] - d[1]), Math.abs(d[i + 2] - d[2])) > 40) n++;
-  }
-  return n;
-}
 
 async function settle(page: Page): Promise<void> {
   await page.evaluate(() => new Promise<void>((r) => requestAnimationFrame(() => requestAnimationFrame(() => r()))));
@@ -61,20 +51,26 @@ async function visit(page: Page, url: URL, queue: URL[]): Promise<void> {
     forms: [...document.querySelectorAll<HTMLFormElement>("form[action]")].map((f) => f.action),
     verdicts: [...document.querySelectorAll(".verdict")].map((v) => ({ text: (v.textContent ?? "").trim(), shapes: v.querySelectorAll("svg circle, svg path, svg rect, svg polygon, svg ellipse").length })),
   }));
-  const canvases: PageReport["canvases"] = [];
-  for (const c of await page.$$("canvas")) {
-    const label = (await c.getAttribute("data-chart")) ?? (await c.getAttribute("aria-label")) ?? "canvas";
-    // A text alternative: role="img" with a label, or a sibling table/summary inside the figure.
-    const alt = await c.evaluate((el) => (el.getAttribute("role") === "img" && (el.getAttribute("aria-label") ?? "").trim().length > 10) || !!el.closest("figure")?.querySelector("table, .sr-only"));
-    let ink = 0;
-    try {
-      await c.scrollIntoViewIfNeeded();
-      ink = inkPixels(await c.screenshot());
-    } catch {
-      ink = 0;
-    }
-    canvases.push({ label, ink, alt });
-  }
+  // Ink is read from each canvas's own pixels (getImageData, composited over the white page as a
+  // screenshot would show them): the same count as a screenshot of the element, without one per chart.
+  const canvases: PageReport["canvases"] = await page.evaluate(() =>
+    [...document.querySelectorAll("canvas")].map((el) => {
+      const label = el.getAttribute("data-chart") ?? el.getAttribute("aria-label") ?? "canvas";
+      // A text alternative: role="img" with a label, or a sibling table/summary inside the figure.
+      const alt = (el.getAttribute("role") === "img" && (el.getAttribute("aria-label") ?? "").trim().length > 10) || !!el.closest("figure")?.querySelector("table, .sr-only");
+      let ink = 0;
+      const g = el.width > 0 && el.height > 0 ? el.getContext("2d") : null;
+      if (g) {
+        const d = g.getImageData(0, 0, el.width, el.height).data;
+        const over = (i: number, c: number) => (d[i + c] * d[i + 3]) / 255 + 255 * (1 - d[i + 3] / 255);
+        const bg = [over(0, 0), over(0, 1), over(0, 2)];
+        for (let i = 0; i < d.length; i += 4) {
+          if (Math.max(Math.abs(over(i, 0) - bg[0]), Math.abs(over(i, 1) - bg[1]), Math.abs(over(i, 2) - bg[2])) > 40) ink++;
+        }
+      }
+      return { label, ink, alt };
+    }),
+  );
   pages.set(key, { key, ids: new Set(info.ids), canvases, verdicts: info.verdicts });
   for (const href of [...info.links, ...info.forms]) {
     const u = new URL(href);
@@ -120,8 +116,11 @@ async function crawl(): Promise<void> {
     const u = queue.shift()!;
     if (pages.has(keyOf(u))) continue;
     current = keyOf(u);
+    const t0 = Date.now();
     await visit(page, u, queue);
+    const t1 = Date.now();
     await quiet();
+    if (process.env.WB_TIMING) console.log(`crawl ${current} visit ${t1 - t0} ms quiet ${Date.now() - t1} ms inFlight ${inFlight}`);
     // The search page is reached through the header form; search for the first wafer so its result links are crawled too.
     if (current === "/search/" && waferUrl) queue.push(new URL(`/search/?q=${/\/wafers\/([^/]+)\//.exec(waferUrl)![1]}`, site.origin));
   }
@@ -129,9 +128,11 @@ async function crawl(): Promise<void> {
 }
 
 beforeAll(async () => {
+  const t0 = Date.now();
   site = await startSite();
+  if (process.env.WB_TIMING) console.log(`startSite ${Date.now() - t0} ms`);
   await crawl();
-}, 170_000);
+}, 400_000);
 
 afterAll(async () => {
   await site?.close();
@@ -208,7 +209,7 @@ describe("accessibility (axe-core): no serious or critical violations", () => {
   });
   afterAll(async () => ctx?.close());
   it("on the index", async () => expect(await axeViolations(ctx, `${site.origin}/`)).toEqual([]));
-  it("on a wafer page", async () => expect(await axeViolations(ctx, waferUrl)).toEqual([]));
+  // A wafer page: checked below with its folded groups and legend open (verdict states), which covers it closed too.
   it("on a run page", async () => expect(await axeViolations(ctx, runUrl)).toEqual([]));
   it("on the search page with results", async () => expect(await axeViolations(ctx, `${site.origin}/search/?q=pass`)).toEqual([]));
   it("on /trends/", async () => {
@@ -402,7 +403,6 @@ describe("screenshots", () => {
         await settle(page);
         const file = path.join(OUTPUT, `${name}-${width}.png`);
         await page.screenshot({ path: file });
-        await page.screenshot({ path: path.join(OUTPUT, `${name}-${width}-full.png`), fullPage: true });
         expect(PNG.sync.read(await fs.readFile(file)).width).toBe(width);
         const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
         expect(overflow, `${name} at ${width} px scrolls sideways`).toBeLessThanOrEqual(1);

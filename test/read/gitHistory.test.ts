@@ -173,3 +173,29 @@ describe("parseGitLog and path helpers", () => {
     expect(toDataPath({ prefix: "" }, "README.md")).toBe("README.md");
   });
 });
+
+describe.skipIf(!hasGit)("merge commits", () => {
+  it("a merge lists what it changed against its first parent, so a limit a merge restores is in the targets history", async () => {
+    const root = mkdtempSync(join(TMP, "wb-git-merge-"));
+    try {
+      git(root, ["init", "-q", "-b", "main"]);
+      git(root, ["config", "user.name", "Imaginary Grower"]);
+      git(root, ["config", "user.email", "grower@example.invalid"]);
+      writeFileSync(join(root, "targets.yaml"), "v: 1\n");
+      git(root, ["add", "-A"]);
+      git(root, ["commit", "-q", "-m", "v1"], "2024-01-01T10:00:00+00:00");
+      git(root, ["checkout", "-q", "-b", "side"]);
+      writeFileSync(join(root, "targets.yaml"), "v: 2\n");
+      git(root, ["commit", "-q", "-am", "v2 on a side branch"], "2024-01-02T10:00:00+00:00");
+      git(root, ["checkout", "-q", "main"]);
+      git(root, ["merge", "-q", "--no-ff", "-m", "Merge side", "side"], "2024-01-03T10:00:00+00:00");
+      const repo = (await findRepo(root, run))!;
+      const commits = await listCommits(repo);
+      const merge = commits.find((c) => c.subject === "Merge side")!;
+      expect(merge.files).toEqual(["targets.yaml"]);
+      expect((await commitsChangingFile(repo, "targets.yaml")).map((c) => c.subject)).toContain("Merge side");
+    } finally {
+      rmSync(root, { recursive: true, force: true });
+    }
+  });
+});
