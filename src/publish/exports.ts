@@ -14,8 +14,9 @@
  *
  * results.csv columns, in this order (docs/formats.md §7):
  *   wafer, run, grown, reactor, grade, verdict, decision, decision_by, decision_date,
- *   decision_reason, decision_conflict, then per metric <key> [unit], <key>_stderr [unit],
- *   <key>_min [unit], <key>_max [unit], <key>_verdict.
+ *   decision_reason, decision_conflict, then per finding finding_<key> (its verdict: pass when
+ *   checked and not raised, else the consequence in force), then per metric <key> [unit],
+ *   <key>_stderr [unit], <key>_min [unit], <key>_max [unit], <key>_verdict.
  */
 import { METRICS } from "../analyse/metrics.ts";
 import type { WaferOutcome } from "../cli/pipeline.ts";
@@ -26,6 +27,7 @@ import type { RunNotes } from "../read/site.ts";
 import { metricStdErrors } from "./metricStdErr.ts";
 import { decisionConflict } from "../judge/decision.ts";
 import { decisionJson } from "./decisionSection.ts";
+import { FINDING_KEYS } from "../judge/findings.ts";
 
 /** A plain decimal number written as text (e.g. "-1.5", "+2e-3"): a spreadsheet reads it as a number, never as a formula. */
 const PLAIN_NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
@@ -64,6 +66,14 @@ export function metricColumns(m: { key: string; unit: string }): string[] {
 
 export const DECISION_COLUMNS = ["decision", "decision_by", "decision_date", "decision_reason", "decision_conflict"];
 
+/** One column per finding (judge/findings.ts), so a row says which finding failed a wafer whose metrics all pass. */
+export const FINDING_COLUMNS = FINDING_KEYS.map((k) => `finding_${k}`);
+
+function findingCells(o: WaferOutcome): string[] {
+  const by = new Map(o.judgement.findings.map((f) => [f.key, f.verdict as string]));
+  return FINDING_KEYS.map((k) => by.get(k) ?? "");
+}
+
 function decisionCells(o: WaferOutcome): string[] {
   const d = o.record?.decision;
   if (!d) return ["", "", "", "", ""];
@@ -72,10 +82,10 @@ function decisionCells(o: WaferOutcome): string[] {
 
 export function resultsCsv(outcomes: readonly WaferOutcome[], runs: ReadonlyMap<string, RunNotes> = new Map()): string {
   const metrics = exportedMetrics(outcomes);
-  const header = ["wafer", "run", "grown", "reactor", "grade", "verdict", ...DECISION_COLUMNS, ...metrics.flatMap(metricColumns)];
+  const header = ["wafer", "run", "grown", "reactor", "grade", "verdict", ...DECISION_COLUMNS, ...FINDING_COLUMNS, ...metrics.flatMap(metricColumns)];
   const rows = outcomes.map((o) => {
     const se = metricStdErrors(o);
-    return [o.folder, o.record?.run ?? "", o.record?.grown ?? "", reactorOf(o, runs), o.judgement.grade, o.judgement.verdict, ...decisionCells(o), ...metrics.flatMap((m) => {
+    return [o.folder, o.record?.run ?? "", o.record?.grown ?? "", reactorOf(o, runs), o.judgement.grade, o.judgement.verdict, ...decisionCells(o), ...findingCells(o), ...metrics.flatMap((m) => {
       const x = exportedMetric(o, m.key, se);
       return [x.value, x.stderr, x.min, x.max, x.verdict];
     })];
@@ -99,6 +109,8 @@ export function allResultsJson(outcomes: readonly WaferOutcome[], meta: { versio
       verdict: o.judgement.verdict,
       reasons: o.judgement.reasons,
       decision: decisionJson(o),
+      // Each finding's judged check: its verdict, the consequence in force for the grade, and why.
+      findings: Object.fromEntries(o.judgement.findings.map((f) => [f.key, { verdict: f.verdict, consequence: f.consequence, reason: f.reason ?? null }])),
       ...metricMaps(o, metrics),
     })),
   };

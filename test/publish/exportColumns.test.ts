@@ -29,12 +29,16 @@ describe("results.csv columns", () => {
   const header = rows[0];
   const col = (row: string[], name: string) => row[header.indexOf(name)];
 
-  it("names five columns per metric, consistently, after the wafer and decision columns", () => {
+  it("names five columns per metric, consistently, after the wafer, decision and finding columns", () => {
     expect(header.slice(0, 11)).toEqual(["wafer", "run", "grown", "reactor", "grade", "verdict", "decision", "decision_by", "decision_date", "decision_reason", "decision_conflict"]);
-    const i = header.indexOf("peak_mobility [cm^2/(V s)]");
-    expect(header.slice(i, i + 5)).toEqual(["peak_mobility [cm^2/(V s)]", "peak_mobility_stderr [cm^2/(V s)]", "peak_mobility_min [cm^2/(V s)]", "peak_mobility_max [cm^2/(V s)]", "peak_mobility_verdict"]);
-    for (const h of header.slice(11)) expect(h).toMatch(/^[a-z0-9_]+(_stderr|_min|_max)? \[[^\]]*\]$|^[a-z0-9_]+_verdict$/);
-    expect(header.length).toBe(11 + 5 * 3);
+    // One column per finding (issue 15 §2), named finding_<key>, holding the finding's verdict.
+    const findings = header.filter((h) => h.startsWith("finding_"));
+    expect(findings).toEqual(["finding_incoherent_well", "finding_beyond_critical_thickness", "finding_parallel_conduction", "finding_one_sign_field", "finding_fit_undetermined", "finding_coarse_profile"]);
+    const rest = header.filter((h) => !h.startsWith("finding_"));
+    const i = rest.indexOf("peak_mobility [cm^2/(V s)]");
+    expect(rest.slice(i, i + 5)).toEqual(["peak_mobility [cm^2/(V s)]", "peak_mobility_stderr [cm^2/(V s)]", "peak_mobility_min [cm^2/(V s)]", "peak_mobility_max [cm^2/(V s)]", "peak_mobility_verdict"]);
+    for (const h of rest.slice(11)) expect(h).toMatch(/^[a-z0-9_]+(_stderr|_min|_max)? \[[^\]]*\]$|^[a-z0-9_]+_verdict$/);
+    expect(rest.length).toBe(11 + 5 * 3);
   });
 
   it("gives each metric's value, limits, verdict and standard error", () => {
