@@ -85,8 +85,37 @@ export async function checkOutput(given: { data: string; out: string; cache: str
     const r = relation(cache, data);
     if (r) throw new OutputRefusedError(`refusing --cache ${shown(given.cache, cache)}: it ${r} the data folder ${data}; the data folder is only ever read — choose a cache folder outside it (or --no-cache)`);
   }
+  // The names a build works under beside --out (its lock, generations, building folders, links) are
+  // removed or renamed by the build: the data or the cache must never be one of them, or inside one.
+  for (const [what, given2, real] of [["data folder", given.data, data], ...(given.cache !== null ? [["--cache", given.cache, await resolveReal(given.cache)]] : [])] as [string, string, string][]) {
+    const name = workingNameHolding(outAt, real);
+    if (name) throw new OutputRefusedError(`refusing --out ${outAt}: the ${what} ${shown(given2, real)} is ${name === real ? "" : "inside "}${name}, a name the build uses for its own working files beside the output (lock, generations, building folders); rename the ${what} or choose another --out`);
+  }
+  await checkOwnLock(outAbs);
   await checkOwnOutput(outAbs);
   await checkWritableParent(outAbs);
+}
+
+/**
+ * The working name beside `out` (same parent folder) that is or holds `p`: `<out>.lock…` or
+ * `.<out>-…` (generations, building folders, links: src/cli/siteLayout.ts), else null.
+ */
+function workingNameHolding(out: string, p: string): string | null {
+  const parent = path.dirname(out);
+  const base = path.basename(out);
+  if (!within(p, parent) || p === parent) return null;
+  const first = path.relative(parent, p).split(path.sep)[0];
+  const ours = first === `${base}.lock` || first.startsWith(`${base}.lock.`) || first.startsWith(`.${base}-`);
+  return ours ? path.join(parent, first) : null;
+}
+
+/** An existing `<out>.lock` must be a lock file a build wrote ("pid@host"): anything else is the user's, never removed. */
+async function checkOwnLock(out: string): Promise<void> {
+  const lock = `${out}.lock`;
+  const st = await fs.lstat(lock).catch(() => null);
+  if (!st) return;
+  const text = st.isFile() && st.size < 1024 ? (await fs.readFile(lock, "utf8").catch(() => "")).trim() : "";
+  if (!/^\d+(@\S*)?$/.test(text)) throw new OutputRefusedError(`refusing --out ${out}: ${lock} exists and is not a lock a build wrote (expected a small file holding "pid@host"); move it away, or choose another --out`);
 }
 
 /** The output folder, when it exists, must be one waferbook wrote. */

@@ -17,7 +17,7 @@
  * generation and replaced by a link (the only moment, two system calls long,
  * when the name is absent).
  */
-import { promises as fs } from "node:fs";
+import { lstatSync, promises as fs } from "node:fs";
 import path from "node:path";
 import { BuildStoppedError } from "./outputFolder.ts";
 
@@ -37,8 +37,10 @@ export function isGenerationLink(out: string, target: string): boolean {
 interface Layout {
   parent: string;
   base: string;
-  /** Generation numbers present, ascending. */
+  /** Generation numbers present (folders with the marker), ascending. */
   gens: number[];
+  /** The highest number of any name shaped like a generation, marked or not (0 for none). */
+  highest: number;
   /** The generation the link points at, or null (no link, a plain folder, or nothing). */
   current: number | null;
   kind: "missing" | "link" | "folder";
@@ -48,12 +50,25 @@ async function readLayout(outDir: string): Promise<Layout> {
   const parent = path.dirname(outDir);
   const base = path.basename(outDir);
   const re = genPattern(base);
-  const gens = (await fs.readdir(parent)).map((n) => re.exec(n)).filter((m) => m !== null).map((m) => Number(m[1])).sort((a, b) => a - b);
+  // Only folders that carry the marker are generations (a folder of the user's with a look-alike name is never touched).
+  const named = (await fs.readdir(parent)).map((n) => re.exec(n)).filter((m) => m !== null);
+  const gens = named.filter((m) => isMarkedFolder(path.join(parent, m[0]))).map((m) => Number(m[1])).sort((a, b) => a - b);
+  // New generations are numbered past every look-alike name too, so a publish never lands on one.
+  const highest = Math.max(0, ...named.map((m) => Number(m[1])));
   const st = await fs.lstat(outDir).catch(() => null);
-  if (!st) return { parent, base, gens, current: null, kind: "missing" };
-  if (!st.isSymbolicLink()) return { parent, base, gens, current: null, kind: "folder" };
+  if (!st) return { parent, base, gens, highest, current: null, kind: "missing" };
+  if (!st.isSymbolicLink()) return { parent, base, gens, highest, current: null, kind: "folder" };
   const m = re.exec(await fs.readlink(outDir));
-  return { parent, base, gens, current: m ? Number(m[1]) : null, kind: "link" };
+  return { parent, base, gens, highest, current: m ? Number(m[1]) : null, kind: "link" };
+}
+
+/** A real folder (not a link) holding the site marker: a site waferbook wrote. */
+function isMarkedFolder(dir: string): boolean {
+  try {
+    return lstatSync(dir).isDirectory() && lstatSync(path.join(dir, SITE_MARKER)).isFile();
+  } catch {
+    return false;
+  }
 }
 
 /** Points `outDir` at generation `n` atomically: a new link under a temporary name, renamed over the old one. */
@@ -117,7 +132,7 @@ export async function publish(tmpDir: string, outDir: string): Promise<string[]>
   await fs.writeFile(path.join(tmpDir, SITE_MARKER), MARKER_TEXT);
   let layout = await readLayout(outDir);
   if (layout.kind === "folder") layout = await migrate(layout, outDir);
-  const next = (layout.gens.at(-1) ?? 0) + 1;
+  const next = Math.max(layout.gens.at(-1) ?? 0, layout.highest) + 1;
   const gen = path.join(layout.parent, genName(layout.base, next));
   try {
     await fs.rename(tmpDir, gen);
@@ -137,8 +152,10 @@ async function migrate(layout: Layout, outDir: string): Promise<Layout> {
     await fs.rmdir(outDir);
     return { ...layout, kind: "missing" };
   }
-  const n = (layout.gens.at(-1) ?? 0) + 1;
+  const n = Math.max(layout.gens.at(-1) ?? 0, layout.highest) + 1;
   const gen = path.join(layout.parent, genName(layout.base, n));
+  // The guard (outputGuard.ts) has recognised it as a site of ours: mark it, so it counts as a generation.
+  await fs.writeFile(path.join(outDir, SITE_MARKER), MARKER_TEXT).catch(() => {});
   try {
     await fs.rename(outDir, gen);
   } catch (err) {
