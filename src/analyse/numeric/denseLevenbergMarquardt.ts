@@ -4,7 +4,7 @@
  *
  * Method: Levenberg (1944), Marquardt (1963) with Marquardt's scaling
  * (damping λ·diag(JᵀJ)), as in Moré, "The Levenberg–Marquardt algorithm:
- * implementation and theory", Lecture Notes in Math. 630 (1978) and Press et
+ * implementation and theory", Springer LNM 630 (1978) and Press et
  * al., Numerical Recipes, 3rd ed., §15.5. A step is taken when it lowers
  * SS_res (λ /= 10), otherwise λ *= 10; it stops when an accepted step lowers
  * SS_res by less than 1e-10 of itself, or after maxIterations. Parameters may

@@ -16,7 +16,7 @@
  * Steps: the window's points thinned to about `maxPoints` steps uniform in
  * 1/B (never averaged, which would damp the fast low-field oscillation); starting values by
  * variable projection from the spectrum's peak and a Dingle estimate
- * (oscillationSeed.ts); Levenberg–Marquardt on all parameters with the
+ * (oscillationStart.ts); Levenberg–Marquardt on all parameters with the
  * analytic Jacobian, standard errors from s²(JᵀJ)⁻¹ (denseLevenbergMarquardt.ts).
  * The model carries the second harmonic of the same sum (A₂ free; see
  * oscillationModel.ts), which would otherwise bias f and τ_q.
@@ -37,7 +37,7 @@ import { allFinite, skipped, type Skipped } from "./outcome.ts";
 import {
   amplitudeIndex, background, dingleFieldIndex, frequencyIndex, harmonicIndex, lifetimeOfDingleField, modelGradient, modelValue, parameterCount, phaseIndex, type ModelLayout,
 } from "./oscillationModel.ts";
-import { seedOscillation } from "./oscillationSeed.ts";
+import { seedOscillation } from "./oscillationStart.ts";
 import { cleanSweep, sdhDensity } from "./shubnikovDeHaas.ts";
 import { spinSplittingOnset } from "./spinSplitting.ts";
 import { dingleTemperature, thermalFactor } from "./thermalFactor.ts";
