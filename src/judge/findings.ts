@@ -18,11 +18,8 @@
 import type { WaferAnalysis } from "../analyse/wafer.ts";
 import { profileSampling, MIN_POINTS_ACROSS_INTERFACE } from "../analyse/structure/profileSampling.ts";
 
-export type Consequence = "fail" | "marginal" | "note";
-export const CONSEQUENCES: readonly Consequence[] = ["fail", "marginal", "note"];
-
-export const FINDING_KEYS = ["incoherent_well", "beyond_critical_thickness", "parallel_conduction", "one_sign_field", "fit_undetermined", "coarse_profile"] as const;
-export type FindingKey = (typeof FINDING_KEYS)[number];
+import { FINDING_KEYS, type Consequence, type FindingKey } from "../validate/findingKeys.ts";
+export { CONSEQUENCES, FINDING_KEYS, isFindingKey, type Consequence, type FindingKey } from "../validate/findingKeys.ts";
 
 export interface FindingSpec {
   key: FindingKey;

@@ -7,8 +7,6 @@
  * under the version before and the version of the commit (src/judge/verdict.ts), so the list shows
  * exactly the wafers the commit moved, whatever else changed since. Pure.
  */
-import { METRIC_BY_KEY } from "../analyse/metrics.ts";
-import { formatValue } from "../publish/format.ts";
 import type { Target, Targets } from "../validate/targets.ts";
 import { judgeWafer, type Verdict } from "./verdict.ts";
 import type { WaferForHistory } from "./verdictHistory.ts";
@@ -16,9 +14,9 @@ import type { WaferForHistory } from "./verdictHistory.ts";
 export interface LimitChange {
   grade: string;
   metric: string;
-  /** The limit in words before and after ("none" when absent). */
-  before: string;
-  after: string;
+  /** The limit before and after (undefined when absent); publish/history.ts puts it in words. */
+  before?: Target;
+  after?: Target;
 }
 
 export interface VerdictFlip {
@@ -37,15 +35,6 @@ export interface TargetsChange {
   note?: string;
 }
 
-/** A limit in words, in the metric's unit: "≥ 1.00×10⁵ cm²/(V s), guard 5 %, required, max over devices". */
-export function describeLimit(t: Target | undefined): string {
-  if (!t) return "none";
-  const spec = METRIC_BY_KEY.get(t.metric);
-  const f = (v: number) => (spec ? formatValue(v, spec) : String(v));
-  const range = t.min !== undefined && t.max !== undefined ? `${f(t.min)} … ${f(t.max)}` : t.min !== undefined ? `≥ ${f(t.min)}` : `≤ ${f(t.max!)}`;
-  return [range, t.guardText ? `guard ${t.guardText}` : "", t.required ? "required" : "", t.aggregate !== "mean" ? `${t.aggregate} over devices` : ""].filter(Boolean).join(", ");
-}
-
 const same = (a: Target | undefined, b: Target | undefined) =>
   a?.min === b?.min && a?.max === b?.max && a?.guard === b?.guard && a?.required === b?.required && a?.aggregate === b?.aggregate;
 
@@ -57,7 +46,7 @@ export function diffLimits(before: Targets | undefined, after: Targets | undefin
     const a = before?.grades[g] ?? {};
     const b = after?.grades[g] ?? {};
     const metrics = [...new Set([...Object.keys(a), ...Object.keys(b)])].sort();
-    for (const m of metrics) if (!same(a[m], b[m])) out.push({ grade: g, metric: m, before: describeLimit(a[m]), after: describeLimit(b[m]) });
+    for (const m of metrics) if (!same(a[m], b[m])) out.push({ grade: g, metric: m, before: a[m], after: b[m] });
   }
   return out;
 }

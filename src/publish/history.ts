@@ -4,6 +4,9 @@
  * its verdicts under every version of targets.yaml since it was recorded.
  */
 import { siteUrl } from "./siteUrl.ts";
+import { formatValue } from "./format.ts";
+import { METRIC_BY_KEY } from "../analyse/metrics.ts";
+import type { Target } from "../validate/targets.ts";
 import type { DataHistory } from "../read/history.ts";
 import type { GitCommit } from "../read/gitHistory.ts";
 import { verdictsOverTime, type WaferForHistory } from "../judge/verdictHistory.ts";
@@ -25,6 +28,15 @@ export function affectedWafers(c: Pick<GitCommit, "dataFiles">): string[] {
   return [...ids].sort();
 }
 
+/** A limit in words, in the metric's unit: "≥ 1.00×10⁵ cm²/(V s), guard 5 %, required, max over devices"; "none" when absent. */
+export function describeLimit(t: Target | undefined): string {
+  if (!t) return "none";
+  const spec = METRIC_BY_KEY.get(t.metric);
+  const f = (v: number) => (spec ? formatValue(v, spec) : String(v));
+  const range = t.min !== undefined && t.max !== undefined ? `${f(t.min)} … ${f(t.max)}` : t.min !== undefined ? `≥ ${f(t.min)}` : `≤ ${f(t.max!)}`;
+  return [range, t.guardText ? `guard ${t.guardText}` : "", t.required ? "required" : "", t.aggregate !== "mean" ? `${t.aggregate} over devices` : ""].filter(Boolean).join(", ");
+}
+
 /** Limit-by-limit change and verdict flips of a commit that changed targets.yaml (null for other commits). */
 function targetsRow(c: GitCommit, history: DataHistory, wafers: readonly (WaferForHistory & { id: string })[], known: Set<string>, basePath: string) {
   if (!c.dataFiles.includes("targets.yaml")) return null;
@@ -34,7 +46,7 @@ function targetsRow(c: GitCommit, history: DataHistory, wafers: readonly (WaferF
   return {
     note: t.note ?? "",
     first: i === history.targetsVersions.length - 1,
-    limits: t.limits,
+    limits: t.limits.map((l) => ({ grade: l.grade, metric: l.metric, before: describeLimit(l.before), after: describeLimit(l.after) })),
     other: t.other,
     flips: t.flips.map((f) => ({ ...f, href: known.has(f.id) ? siteUrl(`wafers/${f.id}/`, "/changes/", basePath) : "" })),
   };

@@ -14,7 +14,7 @@
 import { lineOfField } from "../read/frontMatter.ts";
 import { METRIC_BY_KEY } from "../analyse/metrics.ts";
 import { didYouMean, InputError, ProblemList, show } from "./problem.ts";
-import { CONSEQUENCES, FINDING_BY_KEY, FINDING_KEYS, type Consequence, type FindingKey } from "../judge/findings.ts";
+import { CONSEQUENCES, FINDING_KEYS, isFindingKey, type Consequence, type FindingKey } from "./findingKeys.ts";
 import { parseQuantity } from "./units.ts";
 import { readTrendSettings, type TrendSettings } from "./trendSettings.ts";
 
@@ -108,7 +108,7 @@ function readConsequences(spec: unknown, where: { file: string; field: string; l
   }
   for (const [key, value] of Object.entries(spec as Record<string, unknown>)) {
     const at = { file: where.file, field: `${where.field}.${key}`, line: lineOf(key) ?? where.line };
-    if (!FINDING_BY_KEY.has(key)) {
+    if (!isFindingKey(key)) {
       const hint = didYouMean(key, FINDING_KEYS);
       list.add({ ...at, message: "unknown finding", expected: FINDING_KEYS.join(", "), found: JSON.stringify(key), fix: hint ? `did you mean "${hint}"?` : "check the spelling against docs/formats.md" });
       continue;

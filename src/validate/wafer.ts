@@ -15,7 +15,7 @@ import { checkDeviceDimensions, checkFiniteNumbers } from "./recordNumbers.ts";
 import { siteNameProblem } from "./siteNames.ts";
 import { didYouMean, InputError, ProblemList, show } from "./problem.ts";
 import { METRIC_BY_KEY } from "../analyse/metrics.ts";
-import { FINDING_BY_KEY, FINDING_KEYS } from "../judge/findings.ts";
+import { FINDING_KEYS, isFindingKey } from "./findingKeys.ts";
 import { FIELD_HINTS, WAFER_SCHEMA } from "./waferSchema.ts";
 import { unitInKey } from "./unitInKey.ts";
 
@@ -216,7 +216,7 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
     const value = w[k];
     if (typeof value !== "string" || bad(`${field}.${k}`)) return;
     const known = k === "metric" ? [...METRIC_BY_KEY.keys()] : [...FINDING_KEYS];
-    if (!(k === "metric" ? METRIC_BY_KEY.has(value) : FINDING_BY_KEY.has(value))) {
+    if (!(k === "metric" ? METRIC_BY_KEY.has(value) : isFindingKey(value))) {
       const hint = didYouMean(value, known);
       list.add({ file, line: lineOf(`${field}.${k}`), field: `${field}.${k}`, message: `waiver names an unknown ${k}`, expected: `a ${k} key from docs/formats.md`, found: JSON.stringify(value), fix: hint ? `did you mean "${hint}"?` : `correct the ${k} key or remove the waiver` });
     }

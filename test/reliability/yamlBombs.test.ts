@@ -23,8 +23,9 @@ import { afterAll, describe, expect, it } from "vitest";
 import { readFrontMatter, readYaml } from "../../src/read/frontMatter.ts";
 import { loadSiteInputs } from "../../src/read/site.ts";
 import { loadYaml } from "../../src/read/yamlLoad.ts";
-import { formatProblem, InputError } from "../../src/validate/problem.ts";
+import { formatProblem } from "../../src/validate/problem.ts";
 import { buildCase, HEALTHY_DIR, ROOT } from "./corpus.ts";
+import { problemMessage } from "../helpers/problems.ts";
 
 const NAMES = "abcdefghi";
 
@@ -37,15 +38,6 @@ function laughs(indent: string): string {
 
 const okRecord = (id: string, extra: string) => `---\nwafer: ${id}\n${extra}\nrun: R1\ngrown: 2024-05-02\ndevices:\n  - { id: HB1, geometry: hall-bar, length_um: 100, width_um: 20, files: "transport/*.csv" }\n---\n\nNotes.\n`;
 
-function problemOf(fn: () => unknown): string {
-  try {
-    fn();
-  } catch (e) {
-    if (e instanceof InputError) return formatProblem(e.problem);
-    throw e;
-  }
-  throw new Error("expected an InputError");
-}
 
 const tmps: string[] = [];
 afterAll(async () => {
@@ -62,7 +54,7 @@ async function tempData(): Promise<{ data: string; out: string }> {
 describe("the YAML loader's alias budget", () => {
   it("refuses a billion-laughs document at the alias that passes 100,000 repeated nodes, in well under 2 s", () => {
     const t0 = performance.now();
-    const msg = problemOf(() => readYaml(`lol:\n${laughs("  ")}\n`, "analysis.yaml"));
+    const msg = problemMessage(() => readYaml(`lol:\n${laughs("  ")}\n`, "analysis.yaml"));
     expect(performance.now() - t0).toBeLessThan(2000);
     // Line 7 of the file is "  f: &f [*e,…"; its first "*" is column 10.
     expect(msg).toBe(
@@ -80,17 +72,17 @@ describe("the YAML loader's alias budget", () => {
     const list = `big: &b [${Array(999).fill("x").join(",")}]\n`;
     const at = list + `r: [${Array(100).fill("*b").join(",")}]\n`;
     expect(() => loadYaml(at)).not.toThrow();
-    expect(problemOf(() => readYaml(at + "one: &s y\nmore: *s\n", "targets.yaml"))).toMatch(/^targets\.yaml:4:7: YAML alias limit: too many nodes repeated/);
+    expect(problemMessage(() => readYaml(at + "one: &s y\nmore: *s\n", "targets.yaml"))).toMatch(/^targets\.yaml:4:7: YAML alias limit: too many nodes repeated/);
   });
 
   it("refuses more than 1000 aliases however small", () => {
     const text = `s: &s 1\nr: [${Array(1001).fill("*s").join(",")}]\n`;
-    expect(problemOf(() => readYaml(text, "targets.yaml"))).toMatch(/^targets\.yaml:2:\d+: YAML alias limit: aliases exceeded maxAliases \(1000\)/);
+    expect(problemMessage(() => readYaml(text, "targets.yaml"))).toMatch(/^targets\.yaml:2:\d+: YAML alias limit: aliases exceeded maxAliases \(1000\)/);
     expect(() => loadYaml(`s: &s 1\nr: [${Array(1000).fill("*s").join(",")}]\n`)).not.toThrow();
   });
 
   it("locates a bomb in front matter on the file's own line", () => {
-    expect(problemOf(() => readFrontMatter(okRecord("W-1", `lol:\n${laughs("  ")}`), "wafers/W-1/wafer.md"))).toMatch(/^wafers\/W-1\/wafer\.md:9:10: YAML alias limit: /);
+    expect(problemMessage(() => readFrontMatter(okRecord("W-1", `lol:\n${laughs("  ")}`), "wafers/W-1/wafer.md"))).toMatch(/^wafers\/W-1\/wafer\.md:9:10: YAML alias limit: /);
   });
 });
 
