@@ -129,7 +129,7 @@ function block(r: ImageResult, i: number, wafer: string, files: SectionFile[], r
   return {
     id,
     title: `${m.file}`,
-    facts: `${m.kind.toUpperCase()}, ${m.width} × ${m.height} pixels, ${formatNumber(m.pixelSize_m * 1e9, 3)} nm per pixel, growth direction ${m.growthAxis}`,
+    facts: `${m.kind.toUpperCase()}, ${m.format ? `${m.format}, ` : ""}${m.width} × ${m.height} pixels, ${formatNumber(m.pixelSize_m * 1e9, 3)} nm per pixel ${m.pixelSizeSource === "file" ? "(from the file's resolution tags)" : "(from wafer.md)"}${m.pixelSizeNote ? ` — ${m.pixelSizeNote}, so not used` : ""}, growth direction ${m.growthAxis}`,
     micrograph, chart: profileChart(r, id), maps, numbers, findings: r.findings, skipped,
   };
 }

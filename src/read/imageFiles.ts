@@ -11,7 +11,8 @@ import type { WaferFileReader } from "./waferFiles.ts";
 import type { ImageInputs, MicrographInput } from "../analyse/images/index.ts";
 import type { ImageSpec, WaferRecord } from "../validate/wafer.ts";
 import { InputError } from "../validate/problem.ts";
-import { decodeMicrograph, MicrographFormatError } from "./micrograph.ts";
+import { decodeMicrograph, MicrographFormatError, type Micrograph } from "./micrograph.ts";
+import { decodeTiffMicrograph, isTiff, type TiffPixelSize } from "./tiffMicrograph.ts";
 
 /** Decodes one image entry; throws InputError located at the file and at `images[i].…` in wafer.md. */
 async function loadOne(spec: ImageSpec, i: number, files: WaferFileReader, maxPixels: number): Promise<MicrographInput> {
@@ -23,9 +24,14 @@ async function loadOne(spec: ImageSpec, i: number, files: WaferFileReader, maxPi
     }
     throw e;
   });
-  let img;
+  let img: Micrograph;
+  let fileSize: TiffPixelSize = {};
   try {
-    img = decodeMicrograph(bytes, maxPixels);
+    if (isTiff(bytes)) {
+      const t = decodeTiffMicrograph(bytes, maxPixels);
+      img = t;
+      fileSize = t.pixelSize;
+    } else img = decodeMicrograph(bytes, maxPixels);
   } catch (e) {
     if (!(e instanceof MicrographFormatError)) throw e;
     throw new InputError({ file: rel, field, message: e.what, expected: e.expected, found: e.found, fix: `${e.fix} (listed in ${files.recordFile} line ${files.lineOf(field) ?? "?"})` });
@@ -43,11 +49,46 @@ async function loadOne(spec: ImageSpec, i: number, files: WaferFileReader, maxPi
       throw new InputError({ file: files.recordFile, line: files.lineOf(rf), field: rf, message: "reference rectangle is too small", expected: "at least 16 × 16 pixels", found: `${x1 - x0} × ${y1 - y0} pixels`, fix: "enlarge the reference region" });
     }
   }
+  const pixelField = `images[${i}].pixel_nm`;
+  let pixelNm: number;
+  let pixelSizeSource: MicrographInput["pixelSizeSource"];
+  if (spec.pixel_nm !== undefined) {
+    pixelNm = spec.pixel_nm;
+    pixelSizeSource = "record";
+    if (fileSize.nm !== undefined && Math.abs(fileSize.nm - spec.pixel_nm) > 0.01 * spec.pixel_nm) {
+      files.report({
+        severity: "warning",
+        file: files.recordFile,
+        line: files.lineOf(pixelField),
+        field: pixelField,
+        message: `pixel size in wafer.md differs from the one in ${rel} by ${((100 * Math.abs(fileSize.nm - spec.pixel_nm)) / spec.pixel_nm).toFixed(1)} %`,
+        expected: "the two within 1 %",
+        found: `${spec.pixel_nm} nm in wafer.md, ${+fileSize.nm.toPrecision(6)} nm from the file's resolution tags`,
+        fix: "check the microscope calibration; wafer.md's value is the one used. Remove pixel_nm to use the file's",
+      });
+    }
+  } else if (fileSize.nm !== undefined) {
+    pixelNm = fileSize.nm;
+    pixelSizeSource = "file";
+  } else {
+    throw new InputError({
+      file: files.recordFile,
+      line: files.lineOf(`images[${i}]`),
+      field: pixelField,
+      message: "no pixel size for the micrograph",
+      expected: "pixel_nm in wafer.md, or a TIFF whose resolution tags give the scale",
+      found: fileSize.note ? `none in wafer.md, and ${fileSize.note}` : `none in wafer.md or in ${rel}`,
+      fix: "add pixel_nm (nm per pixel, from the microscope's calibration) to the image entry",
+    });
+  }
   return {
     file: rel,
     index: i,
     kind: spec.kind,
-    pixelSize_m: spec.pixel_nm * 1e-9,
+    pixelSize_m: pixelNm * 1e-9,
+    pixelSizeSource,
+    pixelSizeNote: fileSize.note,
+    format: `${img.container === "tiff" ? "TIFF" : "PNG"}, ${img.bitDepth}-bit ${img.storedAs.startsWith("float") ? "float" : "integer"}${img.storedAs === "float-rescaled" ? " (negative values: rescaled from its minimum)" : ""}`,
     growthAxis: spec.growth_axis,
     reference: spec.reference,
     width: img.width,

@@ -42,15 +42,17 @@ export class MicrographFormatError extends Error {
 export interface Micrograph {
   width: number;
   height: number;
-  bitDepth: 8 | 16;
-  /** Row-major intensities normalised to 0…1 (raw / (2^bitDepth − 1)). */
+  bitDepth: 8 | 16 | 32 | 64;
+  /** Row-major intensities normalised to 0…1 (raw / (2^bitDepth − 1) for integers; see tiffMicrograph.ts for floats). */
   pixels: Float32Array;
   /** How the grey values were stored. */
-  storedAs: "grey" | "grey+alpha" | "rgb-equal";
+  storedAs: "grey" | "grey+alpha" | "rgb-equal" | "float" | "float-rescaled";
+  /** The file format. */
+  container: "png" | "tiff";
 }
 
-const EXPECTED = "a PNG image, 8- or 16-bit greyscale";
-const FIX = "Export the micrograph as an 8- or 16-bit greyscale PNG.";
+const EXPECTED = "a greyscale image: PNG (8- or 16-bit) or TIFF";
+const FIX = "Export the micrograph as a greyscale PNG or TIFF.";
 const PNG_SIGNATURE = [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a];
 
 /** Names the format of non-PNG bytes from their first bytes. */
@@ -129,8 +131,9 @@ export function decodeMicrograph(bytes: Uint8Array, maxPixels: number = DEFAULT_
   return {
     width,
     height,
-    bitDepth: depth,
+    bitDepth: depth as 8 | 16,
     pixels,
     storedAs: colour ? "rgb-equal" : colorType === 4 ? "grey+alpha" : "grey",
+    container: "png",
   };
 }

@@ -37,7 +37,8 @@ export interface DeviceSpec {
 }
 export interface ImageSpec {
   file: string;
-  pixel_nm: number;
+  /** nm per pixel; may be left out for a TIFF whose resolution tags give it (src/read/tiffMicrograph.ts). */
+  pixel_nm?: number;
   kind: "haadf" | "hrtem";
   growth_axis: "up" | "down" | "left" | "right";
   reference?: [number, number, number, number];

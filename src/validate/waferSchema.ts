@@ -64,7 +64,7 @@ export const WAFER_SCHEMA = {
       items: {
         type: "object",
         additionalProperties: false,
-        required: ["file", "pixel_nm", "kind", "growth_axis"],
+        required: ["file", "kind", "growth_axis"],
         properties: {
           file: { type: "string", minLength: 1 },
           pixel_nm: { type: "number", exclusiveMinimum: 0 },

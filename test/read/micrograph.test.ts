@@ -46,7 +46,7 @@ describe("decodeMicrograph", () => {
   it("rejects JPEG-like bytes, naming what was found", () => {
     const e = catchFormat(() => decodeMicrograph(Buffer.from([0xff, 0xd8, 0xff, 0xe0, 0, 16, 0x4a, 0x46, 0x49, 0x46])));
     expect(e.found).toMatch(/JPEG/);
-    expect(e.expected).toMatch(/greyscale PNG|PNG image, 8- or 16-bit greyscale/);
+    expect(e.expected).toMatch(/greyscale PNG|greyscale image: PNG|PNG image, 8- or 16-bit greyscale/);
     expect(e.fix).toMatch(/greyscale PNG/);
     expect(e.message).toMatch(/expected .*found JPEG/);
   });

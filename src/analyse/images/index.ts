@@ -32,6 +32,12 @@ export interface MicrographInput {
   index: number;
   kind: "haadf" | "hrtem";
   pixelSize_m: number;
+  /** Where the pixel size came from: wafer.md (`record`) or the TIFF's resolution tags (`file`). */
+  pixelSizeSource?: "record" | "file";
+  /** Why a TIFF's resolution tags were not used as its scale, when they exist. */
+  pixelSizeNote?: string;
+  /** File format and sample type, in words ("TIFF, 16-bit integer"). */
+  format?: string;
   growthAxis: GrowthAxis;
   /** Reference region in pixels [x0, y0, x1, y1), when wafer.md gives one. */
   reference?: PixelRect;

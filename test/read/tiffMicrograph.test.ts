@@ -1,0 +1,117 @@
+/**
+ * TIFF micrographs (issue: raw files as instruments leave them). Files are
+ * written by src/synth/tiffFile.ts from the TIFF 6.0 specification (Adobe
+ * 1992), which shares no code with the reader; expected intensities are the
+ * written samples divided by the full scale, written out here.
+ */
+import { describe, expect, it } from "vitest";
+import { decodeTiffMicrograph, isTiff } from "../../src/read/tiffMicrograph.ts";
+import { decodeMicrograph, MicrographFormatError } from "../../src/read/micrograph.ts";
+import { micrographPng } from "../../src/synth/micrographPng.ts";
+import { packBits, writeTiff } from "../../src/synth/tiffFile.ts";
+
+const W = 23;
+const H = 17;
+/** A ramp with structure in both directions, integer samples below `max`. */
+function samples(max: number): number[] {
+  return Array.from({ length: W * H }, (_, i) => Math.round((((i % W) * 7 + Math.floor(i / W) * 13) % 101) * (max / 100)));
+}
+
+describe("greyscale TIFF decoding", () => {
+  for (const bits of [8, 16, 32] as const) {
+    for (const compression of ["none", "packbits", "deflate"] as const) {
+      for (const littleEndian of [true, false]) {
+        it(`${bits}-bit unsigned, ${compression}, ${littleEndian ? "II" : "MM"}: every pixel is sample / (2^${bits} − 1)`, () => {
+          const max = 2 ** bits - 1;
+          const s = samples(max);
+          const bytes = writeTiff({ width: W, height: H, samples: s, bits, format: "uint", compression, littleEndian, rowsPerStrip: 5 });
+          expect(isTiff(bytes)).toBe(true);
+          const m = decodeTiffMicrograph(bytes);
+          expect([m.width, m.height, m.bitDepth, m.container]).toEqual([W, H, bits, "tiff"]);
+          for (let i = 0; i < s.length; i++) expect(m.pixels[i]).toBeCloseTo(s[i] / max, 6);
+        });
+      }
+    }
+  }
+  it("32- and 64-bit float: intensities keep their ratios (value / max)", () => {
+    for (const bits of [32, 64] as const) {
+      const s = samples(1000).map((v) => v / 7 + 0.5);
+      const m = decodeTiffMicrograph(writeTiff({ width: W, height: H, samples: s, bits, format: "float", compression: "deflate" }));
+      const max = Math.max(...s);
+      expect(m.storedAs).toBe("float");
+      for (let i = 0; i < s.length; i++) expect(m.pixels[i]).toBeCloseTo(s[i] / max, 6);
+    }
+  });
+  it("float with negative values is rescaled from its minimum, and says so", () => {
+    const s = samples(100).map((v) => v - 30);
+    const m = decodeTiffMicrograph(writeTiff({ width: W, height: H, samples: s, bits: 32, format: "float" }));
+    expect(m.storedAs).toBe("float-rescaled");
+    expect(Math.min(...m.pixels)).toBe(0);
+    expect(Math.max(...m.pixels)).toBe(1);
+  });
+  it("a 16-bit TIFF and a 16-bit PNG of the same samples decode to the same intensities", () => {
+    const s = samples(65535);
+    const t = decodeTiffMicrograph(writeTiff({ width: W, height: H, samples: s, bits: 16, format: "uint", compression: "deflate" }));
+    const p = decodeMicrograph(micrographPng(s.map((v) => v / 65535), W, H, 16));
+    expect(Array.from(t.pixels)).toEqual(Array.from(p.pixels));
+  });
+  it("WhiteIsZero images are inverted", () => {
+    const s = samples(255);
+    const m = decodeTiffMicrograph(writeTiff({ width: W, height: H, samples: s, bits: 8, format: "uint", photometric: 0 }));
+    expect(m.pixels[5]).toBeCloseTo(1 - s[5] / 255, 6);
+  });
+  it("PackBits encoder round-trips through the TIFF 6.0 §9 decoding rule (checked by hand here)", () => {
+    const src = Uint8Array.from([1, 1, 1, 1, 2, 3, 4, 4, 5]);
+    const enc = packBits(src);
+    const out: number[] = [];
+    for (let i = 0; i < enc.length; ) {
+      const n = enc[i] > 127 ? enc[i] - 256 : enc[i];
+      if (n >= 0) { out.push(...enc.subarray(i + 1, i + 2 + n)); i += n + 2; } else { for (let k = 0; k < 1 - n; k++) out.push(enc[i + 1]); i += 2; }
+    }
+    expect(out).toEqual(Array.from(src));
+  });
+});
+
+describe("pixel size from the resolution tags", () => {
+  it("reads nm per pixel from pixels per centimetre (ResolutionUnit 3)", () => {
+    const m = decodeTiffMicrograph(writeTiff({ width: W, height: H, samples: samples(255), bits: 8, format: "uint", pixelNm: 0.0325 }));
+    expect(m.pixelSize.nm).toBeCloseTo(0.0325, 6);
+  });
+  it("reads pixels per inch (ResolutionUnit 2): 2.54e7 nm per inch", () => {
+    const m = decodeTiffMicrograph(writeTiff({ width: W, height: H, samples: samples(255), bits: 8, format: "uint", resolution: { perUnit: 2.54e7 / 0.05, unit: 2 } }));
+    expect(m.pixelSize.nm).toBeCloseTo(0.05, 6);
+  });
+  it("ignores 72 per inch (a display default) and a unitless resolution, with the reason", () => {
+    const a = decodeTiffMicrograph(writeTiff({ width: W, height: H, samples: samples(255), bits: 8, format: "uint", resolution: { perUnit: 72, unit: 2 } }));
+    expect(a.pixelSize.nm).toBeUndefined();
+    expect(a.pixelSize.note).toMatch(/not a micrograph scale/);
+    const b = decodeTiffMicrograph(writeTiff({ width: W, height: H, samples: samples(255), bits: 8, format: "uint", resolution: { perUnit: 1e8, unit: 1 } }));
+    expect(b.pixelSize.note).toMatch(/no physical unit/);
+  });
+});
+
+describe("refusals, before any decompression where it matters", () => {
+  const refuse = (bytes: Uint8Array, pattern: RegExp, max?: number) => {
+    try {
+      decodeTiffMicrograph(bytes, max);
+    } catch (e) {
+      expect(e).toBeInstanceOf(MicrographFormatError);
+      expect(`${(e as MicrographFormatError).what}: ${(e as MicrographFormatError).found}`).toMatch(pattern);
+      return;
+    }
+    throw new Error("not refused");
+  };
+  it("refuses a declared pixel count above max_image_pixels from the header alone", () => {
+    // 100 × 100 declared, limit 5000: refused though the strips are tiny.
+    refuse(writeTiff({ width: 100, height: 100, samples: new Array(10000).fill(0), bits: 8, format: "uint", compression: "deflate" }), /too large: 100 × 100 = 10,000/, 5000);
+  });
+  it("refuses colour, and damaged data", () => {
+    refuse(writeTiff({ width: W, height: H, samples: samples(255), bits: 8, format: "uint", photometric: 2 }), /RGB colour TIFF/);
+    const ok = writeTiff({ width: W, height: H, samples: samples(255), bits: 8, format: "uint" });
+    refuse(ok.subarray(0, 40), /damaged|without an image/);
+  });
+  it("a PNG decoder call on TIFF bytes still names the format", () => {
+    const bytes = writeTiff({ width: W, height: H, samples: samples(255), bits: 8, format: "uint" });
+    expect(() => decodeMicrograph(bytes)).toThrow(/TIFF data/);
+  });
+});
