@@ -3,7 +3,7 @@
  *
  * A fictional lab — the Tarnwick Quantum Materials Lab — grows strained-Si
  * quantum wells on relaxed Si0.7Ge0.3 in two reactors ("Heron" and "Kite").
- * Fourteen wafers over four growth runs; Hall bars and van der Pauw squares;
+ * Fifteen wafers over four growth runs (one kept in its instruments' own file formats); Hall bars and van der Pauw squares;
  * some pass, some fail, one has a broken file, one was swept with one field
  * sign only. All names and numbers are invented.
  *
@@ -18,6 +18,7 @@ import { seededUniform } from "../src/synth/random.ts";
 import { demoGateSweeps, oscillationHook, parallelChannelOverride } from "./demo/transportDepth.ts";
 import { demoExtras } from "./demo/extras.ts";
 import { wellThicknessNm } from "./demo/structure.ts";
+import { loggerExport, loggerFileName, loggerReading } from "./demo/instrumentExport.ts";
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 const dataDir = process.argv[2] ? path.resolve(process.argv[2]) : path.join(root, "data");
@@ -40,6 +41,8 @@ export interface DemoWafer {
   parallel?: { density: number; mobility: number };
   notes: string;
   waiver?: { metric: string; reason: string; approved_by: string; date: string };
+  /** Sweeps kept exactly as the (fictional) cryostat logger exports them, read by wafer.md's reading instructions. */
+  instrument?: boolean;
 }
 
 export const RUNS: Record<string, { reactor: string; started: string; recipe: string; notes: string }> = {
@@ -64,6 +67,8 @@ export const WAFERS: DemoWafer[] = [
   { id: "TQ-2504", run: "TQ25-B", grown: "2025-04-23", peakMobility: 1.38e5, peakDensity: 2.6e11, gateSlope: 5.9e11, turnOn: 0.28, notes: "Thinner well; mobility holds up." },
   { id: "TQ-2505", run: "TQ25-B", grown: "2025-04-24", peakMobility: 1.41e5, peakDensity: 2.7e11, gateSlope: 5.7e11, turnOn: 0.30, parallel: { density: 1.2e11, mobility: 1.5e4 }, notes: "Hall density came out higher than the gate calibration of the run suggested; a conducting layer in the upper barrier is suspected." },
   { id: "TQ-2506", run: "TQ25-B", grown: "2025-04-25", peakMobility: 1.02e5, peakDensity: 3.1e11, gateSlope: 5.4e11, turnOn: 0.35, vdp: true, notes: "Measured by the visiting student; repeat planned." },
+  // Last, so the random draws of the wafers above are unchanged.
+  { id: "TQ-2507", run: "TQ25-B", grown: "2025-04-28", peakMobility: 1.24e5, peakDensity: 2.9e11, gateSlope: 5.6e11, turnOn: 0.31, instrument: true, notes: "First wafer measured with the new cryostat logger: its sweep files and the microscope's 16-bit TIFF are kept exactly as exported, and wafer.md says how to read them." },
 ];
 
 /** Peaked mobility–density curve: μ(n) = μ_peak·2(n/n_p)^a / (1 + (n/n_p)^(2a)), a = 0.9. */
@@ -93,7 +98,8 @@ export function waferMd(w: DemoWafer, devices: { id: string; geometry: string; a
   for (const d of devices) {
     lines.push(`  - id: ${d.id}`, `    geometry: ${d.geometry}`);
     if (d.geometry === "hall-bar") lines.push("    length_um: 100", "    width_um: 20");
-    lines.push(`    at_mm: [${d.at[0]}, ${d.at[1]}]`, `    files: "transport/${d.id}/*.csv"`);
+    lines.push(`    at_mm: [${d.at[0]}, ${d.at[1]}]`);
+    lines.push(w.instrument ? loggerReading(d.id) : `    files: "transport/${d.id}/*.csv"`);
   }
   if (w.waiver) {
     lines.push("waivers:", `  - metric: ${w.waiver.metric}`, `    reason: "${w.waiver.reason}"`, `    approved_by: "${w.waiver.approved_by}"`, `    date: ${w.waiver.date}`);
@@ -149,6 +155,7 @@ sdh_min_field: "0.6 T"
       { id: "HB2", geometry: "hall-bar", at: [15, -12] },
     ];
     if (w.vdp) devices.push({ id: "VDP1", geometry: "van-der-pauw", at: [2, 30] });
+    let counter = 0;
     for (const [di, d] of devices.entries()) {
       const spread = 1 + 0.04 * (rand() - 0.5) + (di === 1 ? -0.03 : 0);
       for (const [gi, vg] of GATES.entries()) {
@@ -176,10 +183,14 @@ sdh_min_field: "0.6 T"
           lines[140] = lines[140].replace(/,[^,]*$/, ",OVLD");
           text = lines.join("\n");
         }
-        await write(`wafers/${w.id}/transport/${d.id}/vg_${vg.toFixed(2).replace(".", "p")}V.csv`, text);
+        if (w.instrument) await write(`wafers/${w.id}/transport/${d.id}/${loggerFileName(d.id, text, ++counter)}`, loggerExport(text, `${w.id} ${d.id}`, `${w.grown}T10:${String(counter).padStart(2, "0")}:00`));
+        else await write(`wafers/${w.id}/transport/${d.id}/vg_${vg.toFixed(2).replace(".", "p")}V.csv`, text);
       }
       if (d.geometry === "hall-bar") {
-        for (const [name, text] of Object.entries(demoGateSweeps(w, d.id, spread, 70000 + seed))) await write(`wafers/${w.id}/transport/${d.id}/${name}`, text);
+        for (const [name, text] of Object.entries(demoGateSweeps(w, d.id, spread, 70000 + seed))) {
+          if (w.instrument) await write(`wafers/${w.id}/transport/${d.id}/${loggerFileName(d.id, text, ++counter)}`, loggerExport(text, `${w.id} ${d.id}`, `${w.grown}T11:${String(counter).padStart(2, "0")}:00`));
+          else await write(`wafers/${w.id}/transport/${d.id}/${name}`, text);
+        }
       }
     }
     const extra = await demoExtras(w, { write, seed: seed++ });

@@ -13,6 +13,7 @@ import type { DemoWriter } from "./extras.ts";
 import { latticeDismukes, strainedSiOnRelaxedSiGe } from "../../src/physics/sige.ts";
 import { syntheticMicrograph, type SyntheticMicrographSpec } from "../../src/synth/micrograph.ts";
 import { micrographPng } from "../../src/synth/micrographPng.ts";
+import { writeTiff } from "../../src/synth/tiffFile.ts";
 
 const PX_NM = 0.05;
 const SIZE = 512;
@@ -27,6 +28,8 @@ interface DemoImage {
   /** Image width across the growth axis, pixels (default 512; narrower keeps the 16-bit file light). */
   across?: number;
   reference?: [number, number, number, number];
+  /** Written as the microscope's 16-bit TIFF (Deflate), its scale in the resolution tags and not in wafer.md. */
+  tiff?: boolean;
 }
 
 const IMAGES: Record<string, DemoImage> = {
@@ -34,6 +37,7 @@ const IMAGES: Record<string, DemoImage> = {
   "TQ-2405": { width_nm: 0.8, tilt_deg: 1.8, axis: "up", bitDepth: 16, across: 320 },
   "TQ-2406": { width_nm: 1.2, tilt_deg: -0.6, axis: "up", relaxed: true, bitDepth: 8 },
   "TQ-2504": { width_nm: 2.4, tilt_deg: 1.2, axis: "right", bitDepth: 8 },
+  "TQ-2507": { width_nm: 0.9, tilt_deg: 0.7, axis: "up", bitDepth: 16, across: 256, tiff: true },
 };
 
 export async function imagesDemo(w: DemoWafer, io: DemoWriter): Promise<string> {
@@ -64,9 +68,12 @@ export async function imagesDemo(w: DemoWafer, io: DemoWriter): Promise<string> 
     seed: io.seed,
   };
   const img = syntheticMicrograph(spec);
-  const file = `images/${w.id}-haadf-01.png`;
-  await io.write(`wafers/${w.id}/${file}`, micrographPng(img.pixels, width, height, d.bitDepth));
-  const lines = ["images:", `  - file: ${file}`, `    pixel_nm: ${PX_NM}`, "    kind: haadf", `    growth_axis: ${d.axis}`];
+  const file = `images/${w.id}-haadf-01.${d.tiff ? "tif" : "png"}`;
+  if (d.tiff) {
+    const levels = Array.from(img.pixels, (v) => Math.round(Math.min(1, Math.max(0, v)) * 65535));
+    await io.write(`wafers/${w.id}/${file}`, writeTiff({ width, height, samples: levels, bits: 16, format: "uint", compression: "deflate", pixelNm: PX_NM, rowsPerStrip: 32 }));
+  } else await io.write(`wafers/${w.id}/${file}`, micrographPng(img.pixels, width, height, d.bitDepth));
+  const lines = ["images:", `  - file: ${file}`, ...(d.tiff ? ["    # pixel size: read from the TIFF's resolution tags"] : [`    pixel_nm: ${PX_NM}`]), "    kind: haadf", `    growth_axis: ${d.axis}`];
   if (d.reference) lines.push(`    reference: [${d.reference.join(", ")}]`);
   return lines.join("\n");
 }

@@ -11,6 +11,7 @@ import type { WaferRecord } from "../validate/wafer.ts";
 import { validateXrd, type XrdFile } from "../validate/xrd.ts";
 import { validateDepthProfile, type DepthProfileFile } from "../validate/depthProfile.ts";
 import { readTable } from "./table.ts";
+import { readInstrumentTable } from "./instrumentTable.ts";
 
 export async function loadStructureInputs(record: WaferRecord, files: WaferFileReader): Promise<StructureInputs> {
   const xrd: XrdFile[] = [];
@@ -20,7 +21,8 @@ export async function loadStructureInputs(record: WaferRecord, files: WaferFileR
     for (const rel of files.glob(record.xrd.files, "xrd.files")) {
       const f = await files.guard(async () => {
         const { rel: path, text } = await files.readText(rel, "xrd");
-        return validateXrd(readTable(text, path), names);
+        const r = record.xrd!.reading;
+        return validateXrd(r ? readInstrumentTable(text, path, r) : readTable(text, path), names);
       });
       if (f) xrd.push(f);
     }
@@ -29,7 +31,8 @@ export async function loadStructureInputs(record: WaferRecord, files: WaferFileR
     for (const rel of files.glob(record.profiles.files, "profiles.files")) {
       const f = await files.guard(async () => {
         const { rel: path, text } = await files.readText(rel, "depth profile");
-        return validateDepthProfile(readTable(text, path));
+        const r = record.profiles!.reading;
+        return validateDepthProfile(r ? readInstrumentTable(text, path, r) : readTable(text, path));
       });
       if (f) profiles.push(f);
     }

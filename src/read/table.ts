@@ -19,6 +19,8 @@ import { cellCountProblem, decimalFix, numberText, tableDialect, type DecimalMar
 export interface MetaEntry {
   value: string;
   line: number;
+  /** The wafer.md rule that supplied the value when the file itself does not carry it ("gate.file_name (wafers/X/wafer.md:17)"). */
+  rule?: string;
 }
 
 export interface ColumnHeader {
@@ -45,6 +47,12 @@ export interface RawTable {
    * cell is a plain finite number (src/read/plainTable.ts); unitless, as written.
    */
   numeric?: Float64Array[];
+  /** Read by wafer.md's reading instructions (src/read/instrumentTable.ts): notes on the reading, e.g. a rule the file's own line overrode. */
+  readingNotes?: import("../validate/problem.ts").Problem[];
+  /** Conditions a rule could not find in this file, with the reason ("file name `x.dat` does not match `gate.file_name` (…:17)"). */
+  conditionMisses?: Map<string, string>;
+  /** Header names the `columns` mapping leaves out (ignored). */
+  ignoredColumns?: string[];
 }
 
 const HEADER_CELL = /^([A-Za-z_][A-Za-z0-9_.]*)\s*(?:\[([^\]]*)\])?$/;

@@ -21,6 +21,7 @@ import type { StructureInputs } from "../analyse/structure/index.ts";
 import type { ImageInputs } from "../analyse/images/index.ts";
 import { readFrontMatter, lineOfField } from "./frontMatter.ts";
 import { readTable } from "./table.ts";
+import { readInstrumentTable } from "./instrumentTable.ts";
 
 
 
@@ -102,11 +103,14 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
       continue;
     }
     let failed = 0;
+    const ignored = new Set<string>();
     for (const rel of matched) {
       try {
         const f = await readDataBytes(ctx.dataDir, path.join(waferDir, rel));
         out.files.push(fileInfo(f.rel, f.bytes, "sweep"));
-        const table = readTable(decodeText(f), f.rel);
+        const text = decodeText(f);
+        const table = spec.reading ? readInstrumentTable(text, f.rel, spec.reading) : readTable(text, f.rel);
+        for (const c of table.ignoredColumns ?? []) ignored.add(c);
         const sweep = validateSweep(table, spec.geometry);
         for (const w of sweep.warnings) out.problems.push({ ...w, wafer: folder });
         device.sweeps.push(sweep);
@@ -114,6 +118,11 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
         out.problems.push(...toProblems(err, folder));
         failed++;
       }
+    }
+    if (ignored.size) {
+      // One note per device, not per file: the columns the mapping leaves out are not read.
+      const names = [...ignored];
+      out.problems.push({ severity: "warning", wafer: folder, file: recordRel, line: lineOfField(matterText, `devices[${i}].columns`, 2), field: `devices[${i}].columns`, message: `columns not named in the mapping are ignored: ${names.slice(0, 8).map((n) => JSON.stringify(n)).join(", ")}${names.length > 8 ? ` and ${names.length - 8} more` : ""}`, expected: "every column the analysis should read mapped in columns:", found: `${names.length} unmapped`, fix: "map a column to a quantity if the analysis should use it; otherwise nothing to do" });
     }
     if (failed === 0 && !device.sweeps.some((sw) => sw.kind === "field")) {
       out.problems.push({ severity: "error", wafer: folder, file: recordRel, line: lineOfField(matterText, field, 2), field, message: `no field sweeps for device ${spec.id}: Hall analysis needs B sweeps`, expected: "at least one field sweep (a B column, with # gate:) among the device's files", found: `gate sweeps only (${matched.join(", ")})`, fix: "add the device's field sweeps to the pattern, or check that the files are not gate sweeps exported by mistake" });

@@ -57,7 +57,7 @@ function metaValue(t: RawTable, key: string): number | undefined {
   const vu = splitValueUnit(t.decimal === "," ? entry.value.replace(/^(\s*[-+]?\d*),(\d)/, "$1.$2") : entry.value);
   const factor = vu ? unitFactor(dim, vu.unit) : undefined;
   if (!vu || factor === undefined) {
-    throw new InputError({ file: t.file, line: entry.line, field: `# ${key}`, message: `cannot read the ${key} metadata`, expected: `a number and one of ${acceptedUnits(dim)}`, found: JSON.stringify(entry.value), fix: `write for example "# ${key}: ${dim === "voltage" ? "0.35 V" : dim === "field" ? "0 T" : dim === "temperature" ? "1.6 K" : "10 nA"}"` });
+    throw new InputError({ file: t.file, line: entry.line, field: entry.rule ?? `# ${key}`, message: `cannot read the ${key} ${entry.rule ? `condition given by ${entry.rule}` : "metadata"}`, expected: `a number and one of ${acceptedUnits(dim)}`, found: JSON.stringify(entry.value), fix: `write for example "# ${key}: ${dim === "voltage" ? "0.35 V" : dim === "field" ? "0 T" : dim === "temperature" ? "1.6 K" : "10 nA"}"` });
   }
   return vu.value * factor;
 }
@@ -96,7 +96,7 @@ function checkAxis(t: RawTable, x: Float64Array, name: string): "up" | "down" {
  * the checks that need a column that could not be read are left out.
  */
 export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
-  const warnings: Problem[] = [];
+  const warnings: Problem[] = [...(t.readingNotes ?? [])];
   const list = new ProblemList(t.file);
   for (const c of t.columns) {
     if (!(c.name in SWEEP_COLUMNS)) {
@@ -129,10 +129,10 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
   const x = axis ? values.get(axis.name) : undefined;
   const direction = x && axis ? list.attempt(() => checkAxis(t, x, axis.name)) : undefined;
   if (axis && kind === "field" && gate_V === undefined && !t.meta.has("gate")) {
-    list.add({ file: t.file, line: t.headerLine, field: "# gate", message: "field sweep without its gate voltage", expected: "a line \"# gate: <value> V\" before the header", found: "none", fix: "add the gate voltage the sweep was taken at" });
+    list.add({ file: t.file, line: t.headerLine, field: "# gate", message: t.conditionMisses?.has("gate") ? `field sweep without its gate voltage: ${t.conditionMisses.get("gate")}` : "field sweep without its gate voltage", expected: "a line \"# gate: <value> V\" before the header", found: "none", fix: "add the gate voltage the sweep was taken at" });
   }
   if (axis && kind === "gate" && field_T === undefined && !t.meta.has("field")) {
-    list.add({ file: t.file, line: t.headerLine, field: "# field", message: "gate sweep without its field", expected: "a line \"# field: <value> T\" before the header", found: "none", fix: "add the field the sweep was taken at (0 T for zero field)" });
+    list.add({ file: t.file, line: t.headerLine, field: "# field", message: t.conditionMisses?.has("field") ? `gate sweep without its field: ${t.conditionMisses.get("field")}` : "gate sweep without its field", expected: "a line \"# field: <value> T\" before the header", found: "none", fix: "add the field the sweep was taken at (0 T for zero field)" });
   }
   const currentCol = values.get("I");
   if (currentCol) {

@@ -6,6 +6,10 @@
  * settings) follow.
  */
 import { readDecision, type Decision } from "./decision.ts";
+import type { ReadingRules } from "../read/instrumentTable.ts";
+import { compileReadingRules, deviceReading, PROFILE_READING, xrdReading, type ReadingContext } from "./readingRules.ts";
+import { SWEEP_COLUMNS } from "./sweep.ts";
+import { MAP_COLUMNS, PEAK_COLUMNS } from "./xrd.ts";
 import { isRealDate } from "./dates.ts";
 import { Ajv, type ErrorObject } from "ajv";
 import { lineOfField, type FrontMatterDoc } from "../read/frontMatter.ts";
@@ -34,6 +38,8 @@ export interface DeviceSpec {
   width_um?: number;
   at_mm?: [number, number];
   files: string;
+  /** Compiled reading instructions (columns, layout, conditions), when given; not enumerable, so never serialised. */
+  reading?: ReadingRules;
 }
 export interface ImageSpec {
   file: string;
@@ -60,8 +66,8 @@ export interface WaferRecord {
   title?: string;
   stack: Layer[];
   devices: DeviceSpec[];
-  xrd?: { files: string };
-  profiles?: { files: string };
+  xrd?: { files: string; reading?: ReadingRules };
+  profiles?: { files: string; reading?: ReadingRules };
   images: ImageSpec[];
   waivers: Waiver[];
   /** The lab's decision on the wafer (src/validate/decision.ts), when recorded. */
@@ -232,6 +238,15 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
       list.add({ file, line: lineOf(`devices[${i}]`), field: `devices[${i}]`, message: "a Hall bar needs its dimensions", expected: "length_um (voltage-probe spacing) and width_um (bar width)", found: `length_um ${show(d.length_um)}, width_um ${show(d.width_um)}`, fix: "add both, in micrometres" });
     }
   });
+  // Reading instructions for files as the instruments write them: compiled once, each problem at its wafer.md line.
+  const attach = (entry: unknown, prefix: string, ctx: ReadingContext) => {
+    if (!entry || typeof entry !== "object" || bad(prefix)) return;
+    const rules = compileReadingRules(entry as Record<string, unknown>, prefix, ctx, file, lineOf, list);
+    if (rules) Object.defineProperty(entry, "reading", { value: rules, enumerable: false, configurable: true });
+  };
+  devices.forEach((d, i) => attach(d, `devices[${i}]`, deviceReading(SWEEP_COLUMNS)));
+  attach(r.xrd, "xrd", xrdReading({ ...MAP_COLUMNS, ...PEAK_COLUMNS }));
+  attach(r.profiles, "profiles", PROFILE_READING);
   list.attempt(() => checkDeviceDimensions(devices.filter((d, i) => d && typeof d === "object" && !bad(`devices[${i}]`)), file, lineOf));
   const images = (Array.isArray(r.images) ? r.images : []) as ImageSpec[];
   images.forEach((im, i) => {

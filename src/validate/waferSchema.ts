@@ -7,11 +7,39 @@ export const ID_PATTERN = "^(?!.*\\.\\.)[A-Za-z0-9][A-Za-z0-9._-]{0,63}$";
 /** ID_PATTERN compiled once (no `g` flag, so `test` keeps no state): wafer, run and device ids, and wafer folder and run file names. */
 export const WAFER_ID = new RegExp(ID_PATTERN);
 
+/** Reading instructions for files as the instruments write them (src/validate/readingRules.ts, docs/formats.md). */
+const READING = {
+  columns: { type: "object", maxProperties: 64, additionalProperties: { type: "string", minLength: 1 } },
+  layout: {
+    type: "object",
+    additionalProperties: false,
+    properties: {
+      separator: { enum: ["comma", "semicolon", "tab", "whitespace"] },
+      decimal: { enum: ["point", "comma"] },
+      header_row: { type: "integer", minimum: 1, maximum: 100000 },
+    },
+  },
+  conditions: {
+    type: "object",
+    maxProperties: 16,
+    additionalProperties: {
+      type: "object",
+      additionalProperties: false,
+      properties: {
+        file_name: { type: "string", minLength: 1 },
+        line: { type: "string", minLength: 1 },
+        value: { type: ["string", "number"] },
+        unit: { type: "string", minLength: 1 },
+      },
+    },
+  },
+} as const;
+
 const fileSet = {
   type: "object",
   additionalProperties: false,
   required: ["files"],
-  properties: { files: { type: "string", minLength: 1 } },
+  properties: { files: { type: "string", minLength: 1 }, ...READING },
 };
 
 export const WAFER_SCHEMA = {
@@ -53,6 +81,7 @@ export const WAFER_SCHEMA = {
           width_um: { type: "number", exclusiveMinimum: 0 },
           at_mm: { type: "array", items: { type: "number" }, minItems: 2, maxItems: 2 },
           files: { type: "string", minLength: 1 },
+          ...READING,
         },
       },
     },

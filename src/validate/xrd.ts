@@ -23,8 +23,8 @@ interface XrdCommon {
 export type XrdFile = (XrdCommon & { kind: "map"; points: MapPoint[]; grid: boolean }) | (XrdCommon & { kind: "peaks"; rows: TableRow[] });
 
 const DEG = Math.PI / 180;
-const MAP_COLUMNS: Record<string, Dimension> = { omega: "angle", two_theta: "angle", counts: "counts" };
-const PEAK_COLUMNS: Record<string, Dimension | "text"> = { layer: "text", omega: "angle", two_theta: "angle", omega_err: "angle", two_theta_err: "angle" };
+export const MAP_COLUMNS: Record<string, Dimension> = { omega: "angle", two_theta: "angle", counts: "counts" };
+export const PEAK_COLUMNS: Record<string, Dimension | "text"> = { layer: "text", omega: "angle", two_theta: "angle", omega_err: "angle", two_theta_err: "angle" };
 /** Layer words a peak table understands besides the stack's layer names. */
 export const PEAK_LAYERS = ["substrate", "buffer", "well"];
 
