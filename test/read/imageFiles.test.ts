@@ -51,7 +51,7 @@ describe("loadImageInputs", () => {
     expect(problems).toHaveLength(1);
     expect(problems[0]).toMatchObject({ file: "wafers/W1/images/a.jpg", field: "images[0].file" });
     expect(problems[0].found).toMatch(/JPEG/);
-    expect(problems[0].expected).toMatch(/8- or 16-bit greyscale/);
+    expect(problems[0].expected).toMatch(/greyscale image: PNG \(8- or 16-bit\) or TIFF/);
     expect(problems[0].fix).toMatch(/wafer\.md line 12/);
     expect(r.micrographs?.map((m) => m.index)).toEqual([1]); // the good image still loads
   });
