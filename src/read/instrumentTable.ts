@@ -217,7 +217,7 @@ export function readInstrumentTable(text: string, file: string, rules: ReadingRu
     if (s !== "" && !s.startsWith("#")) bodyIndex.push(i);
   }
   if (bodyIndex.length === 0) {
-    throw new InputError({ file, line: headerLine, message: "no data rows after the column names", expected: "at least one row of numbers", found: "the header only", fix: "check that the export is complete, or layout.header_row" });
+    throw new InputError({ file, line: headerLine, message: "no data rows after the header", expected: "at least one row of numbers", found: "the header only", fix: "check that the export is complete, or layout.header_row" });
   }
   const sample = bodyIndex.slice(0, 50).map((i) => lines[i]).join("\n");
   const decimal: DecimalMark = rules.decimal ? (rules.decimal === "comma" ? "," : ".") : sep !== "," && sample.includes(",") && !/\d\.\d|\.\d/.test(sample) ? "," : ".";
@@ -234,7 +234,7 @@ export function readInstrumentTable(text: string, file: string, rules: ReadingRu
   bodyIndex.forEach((li, r) => {
     const parts = splitCells(lines[li], sep);
     if (parts.length < need) {
-      bad.add({ file, line: li + 1, message: "row has too few cells", expected: `at least ${need} cells (the mapped columns reach column ${need})`, found: `${parts.length}`, fix: parts.length === 1 && sep !== "ws" ? `check layout.separator (${ruleRef(where)}): the row holds no ${sep === "\t" ? "tab" : JSON.stringify(sep)}` : "fill or remove the incomplete row" });
+      bad.add({ file, line: li + 1, message: "row has the wrong number of cells", expected: `at least ${need} cells (the mapped columns reach column ${need})`, found: `${parts.length}`, fix: parts.length === 1 && sep !== "ws" ? `check layout.separator (${ruleRef(where)}): the row holds no ${sep === "\t" ? "tab" : JSON.stringify(sep)}` : "fill or remove the incomplete row" });
       rows[r] = mapped.map(() => "");
       return;
     }
@@ -257,7 +257,12 @@ export function readInstrumentTable(text: string, file: string, rules: ReadingRu
     preamble.push({ text: lines[i], line: i + 1 });
     // waferbook's own "# key: value" lines are read in a preamble too.
     const m = /^#\s*([A-Za-z_][A-Za-z0-9_ ]*?)\s*:\s*(.*)$/.exec(lines[i].trim());
-    if (m && !meta.has(m[1].toLowerCase())) meta.set(m[1].toLowerCase(), { value: m[2].trim(), line: i + 1 });
+    if (!m) continue;
+    const key = m[1].toLowerCase();
+    if (meta.has(key)) {
+      throw new InputError({ file, line: i + 1, message: `metadata "${key}" is given twice`, expected: "each key once", found: `a second "${key}" (first on line ${meta.get(key)!.line})`, fix: "keep one of the two lines" });
+    }
+    meta.set(key, { value: m[2].trim(), line: i + 1 });
   }
   const t: RawTable = { file, meta, columns: cols, headerLine, delimiter: sep === "ws" ? "\t" : sep, decimal, rows, rowLines, ...(allNumeric ? { numeric } : {}) };
   applyConditions(t, rules, preamble, notes, misses);
