@@ -66,14 +66,20 @@ export async function codeVersion(packageVersion: string): Promise<string> {
 /**
  * What else the results depend on besides our sources: the Node.js and zlib
  * versions (PNG bytes, number formatting) and the exact installed libraries
- * (package-lock.json). Part of the cache key and of every page fingerprint.
+ * (package-lock.json: ours in a checkout; installed as a package, which ships
+ * none, the nearest one above it — the lab repository's, which pins our
+ * libraries too). Part of the cache key and of every page fingerprint.
  */
 export function runtimeVersion(): string {
   let lock = "no-lockfile";
-  try {
-    lock = sha256(readFileSync(path.join(PACKAGE_ROOT, "package-lock.json")));
-  } catch {
-    // an installed package without its lockfile: the package version stands in
+  for (let dir = PACKAGE_ROOT; ; dir = path.dirname(dir)) {
+    try {
+      lock = sha256(readFileSync(path.join(dir, "package-lock.json")));
+      break;
+    } catch {
+      // none here: look further up (without any, the package version stands in)
+    }
+    if (path.dirname(dir) === dir) break;
   }
   return `node ${process.versions.node}, zlib ${process.versions.zlib}, lock ${lock}`;
 }
