@@ -8,6 +8,10 @@ export default function (eleventyConfig) {
   eleventyConfig.setNunjucksEnvironmentOptions({ autoescape: true, throwOnUndefined: false, trimBlocks: true, lstripBlocks: true });
   eleventyConfig.addPassthroughCopy({ [path.join(root, "templates", "assets")]: "assets" });
   eleventyConfig.setQuietMode(true);
+  // Installed as a package, templates/ lies under node_modules/, which Eleventy skips by default;
+  // and the lab's .gitignore (read from the working folder) has no say over our templates.
+  eleventyConfig.ignores.delete("**/node_modules/**");
+  eleventyConfig.setUseGitIgnore(false);
   return {
     dir: { input: "templates", includes: "_includes", output: "site" },
     templateFormats: ["njk"],

@@ -1,61 +1,36 @@
 #!/usr/bin/env node
-// waferbook command. Start-up: the TypeScript sources are bundled once with
-// esbuild (the compiler tsx itself uses) into .waferbook-build/<hash of src>/
-// and run as plain JavaScript, main thread and analysis workers alike; loading
-// ~150 modules through tsx's loader hooks cost about a second per process.
-// A source change gives a new hash and a new bundle; if esbuild is missing or
-// the package folder is read-only (or WAFERBOOK_NO_BUNDLE is set), the
-// sources run through tsx as before. Same code either way: the bundle is a
-// mechanical concatenation of the transpiled modules.
-import { createHash } from "node:crypto";
-import { promises as fs } from "node:fs";
+// The waferbook command. It runs compiled JavaScript: dist/, made from src/
+// by scripts/bundle.mjs when the package is packed or prepared (npm pack,
+// npm ci, an install from a git address). An installed package holds no
+// sources and compiles nothing at run time.
+//
+// In a checkout (src/ beside this file) the sources may have changed since
+// dist/ was made: dist/source-hash names the sources it was compiled from;
+// when it does not match, the sources are compiled once into
+// .waferbook-build/<hash>/ (about a quarter of a second) and run from there.
+// If esbuild is missing or the folder read-only, or WAFERBOOK_NO_BUNDLE is
+// set, the sources run through tsx (a development dependency) instead.
+import { existsSync, promises as fs } from "node:fs";
 import path from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
-const BUILD_DIR = path.join(ROOT, ".waferbook-build");
+const DIST = path.join(ROOT, "dist");
 
-async function sources(dir) {
-  const out = [];
-  for (const e of await fs.readdir(dir, { withFileTypes: true })) {
-    const abs = path.join(dir, e.name);
-    if (e.isDirectory()) out.push(...(await sources(abs)));
-    else if (/\.(ts|mjs|js|json)$/.test(e.name)) out.push(abs);
-  }
-  return out;
-}
-
-/** The bundle's folder for the current sources, bundling first when needed; null to run through tsx. */
-async function bundle() {
+/** The folder of compiled code to run in a checkout, compiling first when needed; null to run the sources through tsx. */
+async function checkoutBundle() {
   if (process.env.WAFERBOOK_NO_BUNDLE) return null;
   try {
-    const h = createHash("sha256").update(`bundle-1\0${process.version}\0`);
-    for (const f of (await sources(path.join(ROOT, "src"))).sort()) h.update(path.relative(ROOT, f)).update("\0").update(await fs.readFile(f)).update("\0");
-    const dir = path.join(BUILD_DIR, h.digest("hex").slice(0, 20));
-    if (await fs.access(path.join(dir, "main.js")).then(() => true, () => false)) return dir;
-    const { build } = await import("esbuild");
-    const tmp = `${dir}.tmp-${process.pid}`;
-    await build({
-      entryPoints: { main: path.join(ROOT, "src/cli/main.ts"), worker: path.join(ROOT, "src/cli/worker.ts") },
-      outdir: tmp,
-      bundle: true,
-      splitting: true,
-      format: "esm",
-      platform: "node",
-      target: "node20",
-      packages: "external",
-      keepNames: true,
-      define: { WAFERBOOK_BUNDLED_WORKER: JSON.stringify("./worker.js") },
-      logLevel: "silent",
-    });
-    await fs.rename(tmp, dir).catch(async (err) => {
-      await fs.rm(tmp, { recursive: true, force: true });
-      if (!(await fs.access(path.join(dir, "main.js")).then(() => true, () => false))) throw err;
-    });
-    // Bundles of older sources untouched for a day are of no further use (a build still running from one keeps it).
-    for (const old of await fs.readdir(BUILD_DIR)) {
-      const st = await fs.stat(path.join(BUILD_DIR, old)).catch(() => undefined);
-      if (old !== path.basename(dir) && st && Date.now() - st.mtimeMs > 86400e3) await fs.rm(path.join(BUILD_DIR, old), { recursive: true, force: true });
+    const { bundle, sourceHash } = await import(pathToFileURL(path.join(ROOT, "scripts", "bundle.mjs")).href);
+    const hash = await sourceHash(ROOT);
+    if ((await fs.readFile(path.join(DIST, "source-hash"), "utf8").catch(() => "")).trim() === hash) return DIST;
+    const buildDir = path.join(ROOT, ".waferbook-build");
+    const dir = path.join(buildDir, hash);
+    if (!existsSync(path.join(dir, "main.js"))) await bundle(ROOT, dir);
+    // Copies of older sources untouched for a day are of no further use (a build still running from one keeps it).
+    for (const old of await fs.readdir(buildDir)) {
+      const st = await fs.stat(path.join(buildDir, old)).catch(() => undefined);
+      if (old !== hash && st && Date.now() - st.mtimeMs > 86400e3) await fs.rm(path.join(buildDir, old), { recursive: true, force: true });
     }
     return dir;
   } catch {
@@ -63,12 +38,21 @@ async function bundle() {
   }
 }
 
-const dir = await bundle();
 let main;
-if (dir) ({ main } = await import(pathToFileURL(path.join(dir, "main.js")).href));
-else {
-  const { register } = await import("tsx/esm/api");
-  register();
-  ({ main } = await import("../src/cli/main.ts"));
+if (!existsSync(path.join(ROOT, "src", "cli", "main.ts"))) {
+  // An installed package: dist/ is all there is.
+  if (!existsSync(path.join(DIST, "main.js"))) {
+    process.stderr.write(`waferbook: ${DIST} is missing: this copy of waferbook was installed without being compiled (npm runs "prepare" for that); reinstall it with npm.\n`);
+    process.exit(70);
+  }
+  ({ main } = await import(pathToFileURL(path.join(DIST, "main.js")).href));
+} else {
+  const dir = await checkoutBundle();
+  if (dir) ({ main } = await import(pathToFileURL(path.join(dir, "main.js")).href));
+  else {
+    const { register } = await import("tsx/esm/api");
+    register();
+    ({ main } = await import("../src/cli/main.ts"));
+  }
 }
 process.exitCode = await main(process.argv.slice(2));

@@ -88,9 +88,36 @@ const build = define<BuildOptions>({
   },
 });
 
+export interface ServeOptions {
+  data: string;
+  out: string;
+  /** 0: any free port. */
+  port: number;
+  quiet: boolean;
+}
+
+const serve = define<ServeOptions>({
+  summary: "builds the site, serves it on localhost and rebuilds on every change",
+  usage: "[--data DIR] [--out DIR] [--port N] [--quiet]",
+  options: {
+    data: COMMON_OPTIONS.data,
+    out: { type: "string", arg: "DIR", help: "where the site is written, as with build (default: ./site)" },
+    port: { type: "string", arg: "N", help: "the port on localhost (default: 8080; 0 picks a free one)" },
+    quiet: COMMON_OPTIONS.quiet,
+  },
+  normalise(v) {
+    const out = (v.out as string | undefined) ?? "site";
+    if (!out.trim() || out === "/") throw new UsageError("--out must name a folder");
+    const port = v.port === undefined ? 8080 : Number(v.port);
+    if (!/^\d+$/.test(String(v.port ?? "8080")) || port > 65535) throw new UsageError(`--port must be a whole number from 0 to 65535, found ${JSON.stringify(v.port)}`);
+    return { data: (v.data as string | undefined) ?? "data", out, port, quiet: v.quiet === true };
+  },
+});
+
 /** The commands, in the order the help lists them. */
 export const COMMANDS = {
   build,
+  serve,
 };
 
 export type CommandName = keyof typeof COMMANDS;

@@ -22,7 +22,7 @@ import type { BuildOptions } from "./args.ts";
 import { loadDataHistory } from "../read/history.ts";
 import { decisionCommits } from "../read/decisionCommits.ts";
 import { writeExports } from "./writeExports.ts";
-import { PACKAGE_ROOT } from "./paths.ts";
+import { PACKAGE_ROOT, packageFile } from "./paths.ts";
 import { acquireLock, BuildLockedError, BuildStoppedError } from "./outputFolder.ts";
 import { checkOutput, OutputRefusedError } from "./outputGuard.ts";
 import { publish, recoverInterrupted } from "./siteLayout.ts";
@@ -178,7 +178,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     const problems = [...site.problems, ...buildProblems, ...jobs.cacheWarnings, ...outcomes.flatMap((o) => o.problems)];
     await writeExtras(outcomes, dataDir, tmpDir, commitsOf, outDir, reused, jobs.fileHashes);
     await writeExports(outcomes, tmpDir, meta, site.runs, reused);
-    await writeSearch(outcomes, site.runs, tmpDir, PACKAGE_ROOT);
+    await writeSearch(outcomes, site.runs, tmpDir, packageFile("minisearch", "dist/umd/index.js"));
     warnings.push(...(await publish(tmpDir, outDir)));
     lap("write");
     return { ok: true, outcomes, problems, outDir, pages: written, stats, warnings };

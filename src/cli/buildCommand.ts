@@ -13,7 +13,8 @@ import { reportInternalError, reportProblems, summary } from "./report.ts";
 import { buildStamp } from "./buildStamp.ts";
 import type { CommandIO } from "./main.ts";
 
-export async function runBuild(options: BuildOptions, io: CommandIO): Promise<number> {
+/** `announce: false` leaves out the line saying where the site went (serve says it its own way). */
+export async function runBuild(options: BuildOptions, io: CommandIO, { announce = true } = {}): Promise<number> {
   // The footer's build time: SOURCE_DATE_EPOCH when set (reproducible builds), else the clock.
   const stamp = buildStamp(process.env, () => new Date());
   if ("error" in stamp) {
@@ -38,7 +39,7 @@ export async function runBuild(options: BuildOptions, io: CommandIO): Promise<nu
       io.err(`waferbook: ${result.reason ? `${result.reason}: ` : ""}nothing could be built; the previous site was left as it was.`);
       return EXIT.inputErrors;
     }
-    io.out(siteWrittenMessage(path.relative(process.cwd(), result.outDir) || ".", options.basePath));
+    if (announce) io.out(siteWrittenMessage(path.relative(process.cwd(), result.outDir) || ".", options.basePath));
     const errors = result.problems.filter((p) => p.severity === "error").length;
     if (options.strict && errors > 0) {
       io.err(`waferbook: --strict: ${errors} input error${errors === 1 ? "" : "s"} (listed above)`);

@@ -9,7 +9,8 @@
  * Key = SHA-256 of
  *   - CACHE_FORMAT and the analysis code version (`codeVersion`: a hash of
  *     every source file under src/read, src/validate, src/analyse and
- *     src/physics plus the package version, computed once per build — a code
+ *     src/physics (codeDigest.ts; an installed package carries that digest
+ *     in dist/code-version.json) plus the package version, computed once per build — a code
  *     change invalidates the cache without anyone remembering to bump a
  *     number; changes to judging or publishing do not, since their output is
  *     never cached);
@@ -34,7 +35,8 @@ import { lstatSync, promises as fs, readFileSync, readlinkSync, statSync } from 
 import path from "node:path";
 import v8 from "node:v8";
 import pLimit from "p-limit";
-import { PACKAGE_ROOT, SRC_DIR } from "./paths.ts";
+import { PACKAGE_ROOT } from "./paths.ts";
+import { codeDigests } from "./codeDigest.ts";
 import type { WaferAnalysis } from "../analyse/wafer.ts";
 import type { RawFileInfo } from "../read/wafer.ts";
 import type { Problem } from "../validate/problem.ts";
@@ -56,46 +58,28 @@ export interface CacheEntry {
   analysis?: WaferAnalysis;
 }
 
-const SRC = SRC_DIR;
-const CODE_FOLDERS = ["read", "validate", "analyse", "physics"];
-/** Files outside those folders that decide what a cache entry holds. */
-const CODE_FILES = ["cli/analyseFolder.ts", "cli/cache.ts", "cli/lookUp.ts"];
-
-/** Every file under dir whose name passes `keep`, absolute paths. */
-export async function sourceFiles(dir: string, keep: (name: string) => boolean = (n) => n.endsWith(".ts")): Promise<string[]> {
-  const out: string[] = [];
-  for (const e of await fs.readdir(dir, { withFileTypes: true })) {
-    const abs = path.join(dir, e.name);
-    if (e.isDirectory()) out.push(...(await sourceFiles(abs, keep)));
-    else if (e.isFile() && keep(e.name)) out.push(abs);
-  }
-  return out;
-}
-
-/** SHA-256 (hex) of a salt and of each file's path (relative to root) and SHA-256, in sorted order (files streamed, never read whole). */
-export async function hashFiles(salt: string, root: string, files: string[]): Promise<string> {
-  const h = createHash("sha256").update(`${salt}\0`);
-  for (const f of [...files].sort()) h.update(path.relative(root, f)).update("\0").update(await sha256File(f)).update("\0");
-  return h.digest("hex");
-}
-
-/** Hash of the analysis code (sources of reading, validation, analysis, physics) and the package version; hex SHA-256. */
+/** Hash of the analysis code (cache.ts header: codeDigest.ts) and the package version; hex SHA-256. */
 export async function codeVersion(packageVersion: string): Promise<string> {
-  const files = [...(await Promise.all(CODE_FOLDERS.map((f) => sourceFiles(path.join(SRC, f))))).flat(), ...CODE_FILES.map((f) => path.join(SRC, f))];
-  return hashFiles(`${CACHE_FORMAT}\0${packageVersion}\0${runtimeVersion()}`, SRC, files);
+  return sha256(`${CACHE_FORMAT}\0${packageVersion}\0${runtimeVersion()}\0${(await codeDigests()).analysis}`);
 }
 
 /**
  * What else the results depend on besides our sources: the Node.js and zlib
  * versions (PNG bytes, number formatting) and the exact installed libraries
- * (package-lock.json). Part of the cache key and of every page fingerprint.
+ * (package-lock.json: ours in a checkout; installed as a package, which ships
+ * none, the nearest one above it — the lab repository's, which pins our
+ * libraries too). Part of the cache key and of every page fingerprint.
  */
 export function runtimeVersion(): string {
   let lock = "no-lockfile";
-  try {
-    lock = sha256(readFileSync(path.join(PACKAGE_ROOT, "package-lock.json")));
-  } catch {
-    // an installed package without its lockfile: the package version stands in
+  for (let dir = PACKAGE_ROOT; ; dir = path.dirname(dir)) {
+    try {
+      lock = sha256(readFileSync(path.join(dir, "package-lock.json")));
+      break;
+    } catch {
+      // none here: look further up (without any, the package version stands in)
+    }
+    if (path.dirname(dir) === dir) break;
   }
   return `node ${process.versions.node}, zlib ${process.versions.zlib}, lock ${lock}`;
 }
@@ -136,7 +120,7 @@ async function fileDigest(abs: string, hashes?: FileHashes): Promise<string> {
   }
 }
 
-const sha256 = (bytes: Buffer) => createHash("sha256").update(bytes).digest("hex");
+const sha256 = (bytes: Buffer | string) => createHash("sha256").update(bytes).digest("hex");
 
 export function entryPath(cacheDir: string, key: string, form: EntryForm = "full"): string {
   return path.join(cacheDir, key.slice(0, 2), form === "full" ? `${key}.v8` : `${key}.slim.v8`);

@@ -21,6 +21,7 @@ type Runner<K extends CommandName> = (options: Extract<CommandRun, { command: K 
 /** One line per command; each loads its code only when run. */
 const RUNNERS: { [K in CommandName]: Runner<K> } = {
   build: async (o, io) => (await import("./buildCommand.ts")).runBuild(o, io),
+  serve: async (o, io) => (await import("./serveCommand.ts")).runServe(o, io),
 };
 
 export async function main(argv: string[]): Promise<number> {

@@ -23,16 +23,17 @@ import { createHash } from "node:crypto";
 import { constants as fsConstants, copyFileSync, linkSync, mkdirSync, promises as fs, readdirSync } from "node:fs";
 import path from "node:path";
 import type { WaferOutcome } from "./pipeline.ts";
-import { hashFiles, runtimeVersion, sourceFiles } from "./cache.ts";
-import { PACKAGE_ROOT, SRC_DIR } from "./paths.ts";
+import { runtimeVersion } from "./cache.ts";
+import { codeDigests, hashFiles, sourceFiles } from "./codeDigest.ts";
+import { PACKAGE_ROOT } from "./paths.ts";
 
 /** Bumped when the fingerprint's inputs change shape. */
 const PAGE_FORMAT = "waferbook-page-1";
 
 /** Hash of everything that draws a page: sources, templates, Eleventy configuration and package version. */
 export async function pageCodeVersion(packageVersion: string): Promise<string> {
-  const files = [...(await sourceFiles(SRC_DIR)), ...(await sourceFiles(path.join(PACKAGE_ROOT, "templates"), () => true)), path.join(PACKAGE_ROOT, ".eleventy.js")];
-  return hashFiles(`${PAGE_FORMAT}\0${packageVersion}\0${runtimeVersion()}`, PACKAGE_ROOT, files);
+  const files = [...(await sourceFiles(path.join(PACKAGE_ROOT, "templates"), () => true)), path.join(PACKAGE_ROOT, ".eleventy.js")];
+  return hashFiles(`${PAGE_FORMAT}\0${packageVersion}\0${runtimeVersion()}\0${(await codeDigests()).drawing}`, PACKAGE_ROOT, files);
 }
 
 /** The page fingerprint (hex SHA-256) of one wafer page. */

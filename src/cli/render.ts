@@ -100,5 +100,8 @@ export async function renderTemplates(input: string, outDir: string, wb: unknown
   elev.disableLogger();
   const result = (await elev.write()) as unknown;
   // The result lists the passthrough copies and the templates written; count the pages.
-  return Array.isArray(result) ? (result as unknown[]).flat(3).filter((x) => typeof x === "object" && x !== null && "outputPath" in x && "content" in x).length : 0;
+  const pages = Array.isArray(result) ? (result as unknown[]).flat(3).filter((x) => typeof x === "object" && x !== null && "outputPath" in x && "content" in x).length : 0;
+  // Every call has pages to write; none means Eleventy skipped the templates (it ignores node_modules/ unless told: .eleventy.js).
+  if (pages === 0) throw new Error(`Eleventy wrote no page from ${input}`);
+  return pages;
 }

@@ -14,7 +14,7 @@ import type { WaferOutcome } from "./pipeline.ts";
 import type { FileHashes } from "./fileHashes.ts";
 import { BuildStoppedError } from "./outputFolder.ts";
 import { linkOrCopy, linkReusedPage } from "./pageReuse.ts";
-import { PACKAGE_ROOT } from "./paths.ts";
+import { packageFile } from "./paths.ts";
 import { RAW_OBJECT_NAME, rawCopyPath } from "../publish/rawCopies.ts";
 import { resultsJson } from "../publish/resultsJson.ts";
 import { openDataFile, readOpenFile, type OpenDataFile } from "../read/dataFiles.ts";
@@ -53,7 +53,7 @@ export async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmp
     ),
   );
   carryOverRawObjects(path.join(outDir, "raw"), path.join(tmpDir, "raw"));
-  const chartJs = path.join(PACKAGE_ROOT, "node_modules", "chart.js", "dist", "chart.umd.min.js");
+  const chartJs = packageFile("chart.js", "dist/chart.umd.min.js");
   await fs.mkdir(path.join(tmpDir, "assets"), { recursive: true });
   await fs.copyFile(chartJs, path.join(tmpDir, "assets", "chart.umd.min.js"));
 }

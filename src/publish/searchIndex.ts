@@ -70,9 +70,9 @@ export function searchIndexScript(json: string): string {
   return `window.waferbookSearchIndex = ${json};\n`;
 }
 
-/** Writes the index (assets/search-index.js) and MiniSearch's browser build (assets/minisearch.js) into the output. */
-export async function writeSearch(outcomes: WaferOutcome[], runs: Map<string, RunNotes>, outDir: string, packageRoot: string): Promise<void> {
+/** Writes the index (assets/search-index.js) and MiniSearch's browser build (`miniSearchBrowser`, its dist/umd/index.js) as assets/minisearch.js into the output. */
+export async function writeSearch(outcomes: WaferOutcome[], runs: Map<string, RunNotes>, outDir: string, miniSearchBrowser: string): Promise<void> {
   await fs.mkdir(path.join(outDir, "assets"), { recursive: true });
   await fs.writeFile(path.join(outDir, "assets", "search-index.js"), searchIndexScript(searchIndexJson(searchDocuments(outcomes, runs))));
-  await fs.copyFile(path.join(packageRoot, "node_modules", "minisearch", "dist", "umd", "index.js"), path.join(outDir, "assets", "minisearch.js"));
+  await fs.copyFile(miniSearchBrowser, path.join(outDir, "assets", "minisearch.js"));
 }

@@ -13,6 +13,7 @@ import { siteNameProblem } from "../validate/siteNames.ts";
 import { decodeText, readDataBytes } from "./dataFiles.ts";
 import { lineOfField, readFrontMatter, readYaml } from "./frontMatter.ts";
 import { fileInfo, type RawFileInfo } from "./fileInfo.ts";
+import { linkedWaferFolder } from "./linkedFolder.ts";
 
 export interface RunNotes {
   id: string;
@@ -99,7 +100,14 @@ export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
   const entries = await fs.readdir(wafersDir, { withFileTypes: true });
   out.waferListing = entries.map((e) => e.name);
   for (const e of entries.sort((a, b) => a.name.localeCompare(b.name))) {
-    if (!e.isDirectory()) continue;
+    if (e.isSymbolicLink()) {
+      // Followed when it stays inside the data folder; otherwise skipped with a warning saying why (linkedFolder.ts).
+      const skipped = await linkedWaferFolder(dataDir, e.name);
+      if (skipped) {
+        out.problems.push(skipped);
+        continue;
+      }
+    } else if (!e.isDirectory()) continue;
     if (!WAFER_ID.test(e.name)) {
       out.problems.push({ severity: "error", file: `wafers/${e.name}`, message: "wafer folder name is not a valid id", expected: "letters, digits, \".\", \"-\", \"_\" (no \"..\")", found: JSON.stringify(e.name), fix: "rename the folder" });
       continue;

@@ -5,8 +5,8 @@
  * 0o3720 as 2000; "1e309 %" and "-1e309" overflow to ±Infinity; a file whose
  * lines end in a lone CR used to be one line with "no header row".
  * Each is now refused with a located error, warned about, or read correctly.
- * Values are invented test inputs; the plausible device range (0.5 µm to
- * 20 mm) is common practice.
+ * Values are invented test inputs; the plausible device range (1 µm to
+ * 10 mm) is common practice.
  */
 import { promises as fs } from "node:fs";
 import os from "node:os";
@@ -45,7 +45,7 @@ describe("device geometry", () => {
     expect(() => validate(record("{ id: HB1, geometry: hall-bar, length_um: 0.001, width_um: 1000000, files: \"*.csv\" }"))).not.toThrow();
   });
 
-  it("warns outside 0.5 µm … 20 mm, and reads the wafer", async () => {
+  it("warns outside 1 µm … 10 mm, and reads the wafer", async () => {
     const tmp = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-not-numbers-"));
     tmps.push(tmp);
     const data = path.join(tmp, "data");
@@ -54,8 +54,8 @@ describe("device geometry", () => {
     await fs.writeFile(md, (await fs.readFile(md, "utf8")).replace("length_um: 100, width_um: 20", "length_um: 25000, width_um: 0.2"));
     const w = await loadWafer("OK-1", { dataDir: data, today: "2025-06-01", siteSettings: DEFAULT_SETTINGS });
     expect(w.problems.map(formatProblem)).toEqual([
-      "wafers/OK-1/wafer.md:6: warning: devices[0].length_um: unusual device dimension (expected micrometres between 0.5 and 20000 (0.5 µm to 20 mm), found 25000) — check that the value is in micrometres",
-      "wafers/OK-1/wafer.md:6: warning: devices[0].width_um: unusual device dimension (expected micrometres between 0.5 and 20000 (0.5 µm to 20 mm), found 0.2) — check that the value is in micrometres",
+      "wafers/OK-1/wafer.md:6: warning: devices[0].length_um: unusual device dimension (expected micrometres between 1 and 10000 (1 µm to 10 mm, the usual range of Hall bars), found 25000 (in nanometres that would be 25 µm)) — if it was typed in nanometres, write length_um: 25; as written, the length enters the sheet resistance as 1/L (R·W/L), so the mobility comes out 1000× too large",
+      "wafers/OK-1/wafer.md:6: warning: devices[0].width_um: unusual device dimension (expected micrometres between 1 and 10000 (1 µm to 10 mm, the usual range of Hall bars), found 0.2 (in millimetres that would be 200 µm)) — if it was typed in millimetres, write width_um: 200; as written, the width enters the sheet resistance as W (R·W/L), so the mobility comes out 1000× too large",
     ]);
     expect(w.record?.devices[0].length_um).toBe(25000);
   });

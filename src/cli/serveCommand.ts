@@ -1,0 +1,139 @@
+/**
+ * `waferbook serve`: builds the site as `build` does, serves the output folder
+ * on localhost with Eleventy's development server (@11ty/eleventy-dev-server,
+ * which also injects the script that reloads an open page), watches the data
+ * folder with Eleventy's watcher (@11ty/chokidar-with-glob-support, chokidar 4)
+ * and rebuilds after a change. Changes are gathered for DEBOUNCE_MS after the
+ * last one (saving a file, copying a folder of raw files), and a change during
+ * a rebuild gives one more rebuild when it ends. A rebuild is an ordinary
+ * build: atomic, so a failed one (a site-wide input error, say) prints its
+ * located problems and leaves the last good site served; input errors inside a
+ * wafer are printed and shown on its page, as with `build`.
+ *
+ * The server listens on localhost only: it is a preview for the person editing
+ * the records, not a way to publish (docs/publishing.md). Ctrl-C stops it.
+ */
+import path from "node:path";
+import type { BuildOptions, ServeOptions } from "./args.ts";
+import { EXIT } from "./args.ts";
+import { runBuild } from "./buildCommand.ts";
+import type { CommandIO } from "./main.ts";
+
+/** Quiet time after the last change before rebuilding, in milliseconds. */
+export const DEBOUNCE_MS = 300;
+const HOST = "localhost";
+
+export interface ServeHandle {
+  /** The site's address, e.g. http://localhost:8080/. */
+  url: string;
+  /** Stops watching and serving. */
+  close(): Promise<void>;
+}
+
+/** Builds, serves and starts watching; resolves once the server listens. */
+export async function startServe(options: ServeOptions, io: CommandIO): Promise<ServeHandle> {
+  const dataDir = path.resolve(options.data);
+  const outDir = path.resolve(options.out);
+  const buildOptions: BuildOptions = { data: options.data, out: options.out, strict: false, basePath: "", quiet: options.quiet };
+  const buildOnce = () => runBuild(buildOptions, io, { announce: false });
+  if ((await buildOnce()) !== EXIT.ok) io.err("waferbook serve: the first build failed; fix the problems above and save: the site is built again on every change.");
+
+  const { default: DevServer } = await import("@11ty/eleventy-dev-server");
+  const server = DevServer.getServer("waferbook", outDir, {
+    domDiff: false,
+    portReassignmentRetryCount: 0,
+    messageOnStart: () => false,
+    logger: { info: () => {}, log: () => {}, error: (...a) => io.err(`waferbook serve: ${a.join(" ")}`) },
+  });
+  // The server only on localhost, and a port in use as a plain message (the package would retry without a host, or throw).
+  const http = server.server;
+  http.removeAllListeners("error");
+  await new Promise<void>((resolve, reject) => {
+    http.once("error", (e: NodeJS.ErrnoException) => reject(e.code === "EADDRINUSE" ? new PortInUseError(options.port) : e));
+    http.listen({ port: options.port, host: HOST }, () => resolve());
+  });
+  await server.ready();
+  http.on("error", (e: Error) => io.err(`waferbook serve: server error: ${e.message}`));
+  const url = server.getServerUrl(HOST, "/");
+
+  const { watch } = await import("@11ty/chokidar-with-glob-support");
+  const watcher = watch(dataDir, { ignoreInitial: true, ignored: ["**/.git/**"], awaitWriteFinish: { stabilityThreshold: 150, pollInterval: 25 } });
+  let timer: NodeJS.Timeout | undefined;
+  let running: Promise<void> | undefined;
+  let again = false;
+  let changed = new Set<string>();
+  const rebuild = async (): Promise<void> => {
+    if (running) {
+      again = true;
+      return;
+    }
+    const files = [...changed].sort();
+    changed = new Set();
+    io.err(`waferbook serve: ${files.slice(0, 3).join(", ")}${files.length > 3 ? ` and ${files.length - 3} more` : ""} changed: building…`);
+    running = buildOnce().then((code) => {
+      if (code === EXIT.ok) {
+        server.reload({});
+        io.err(`waferbook serve: built; open pages reload (${url})`);
+      } else {
+        server.sendError({ error: new Error("waferbook: the build failed; the terminal lists why. The last good site is still served.") });
+        io.err("waferbook serve: the build failed (above); the last good site is still served.");
+      }
+    });
+    await running;
+    running = undefined;
+    if (again) {
+      again = false;
+      await rebuild();
+    }
+  };
+  watcher.on("all", (_event: string, file: string) => {
+    changed.add(path.relative(dataDir, file).split(path.sep).join("/") || ".");
+    clearTimeout(timer);
+    timer = setTimeout(() => void rebuild(), DEBOUNCE_MS);
+  });
+  await new Promise<void>((resolve) => watcher.once("ready", () => resolve()));
+  io.out(`waferbook serve: ${url} (the site in ${shown(outDir)}, rebuilt when ${shown(dataDir)} changes; Ctrl-C stops)`);
+
+  return {
+    url,
+    async close() {
+      clearTimeout(timer);
+      await watcher.close();
+      await running;
+      await server.close();
+    },
+  };
+}
+
+/** A folder as the user would type it: relative below the working folder, else absolute. */
+function shown(dir: string): string {
+  const rel = path.relative(process.cwd(), dir);
+  return rel === "" ? "." : rel.startsWith("..") || path.isAbsolute(rel) ? dir : rel;
+}
+
+class PortInUseError extends Error {
+  constructor(port: number) {
+    super(`port ${port} on ${HOST} is in use; choose another with --port N (0 picks a free one)`);
+  }
+}
+
+/** The `serve` command: serves until interrupted (SIGINT, SIGTERM); returns the exit code. */
+export async function runServe(options: ServeOptions, io: CommandIO): Promise<number> {
+  let handle: ServeHandle;
+  try {
+    handle = await startServe(options, io);
+  } catch (e) {
+    if (e instanceof PortInUseError) {
+      io.err(`waferbook serve: ${e.message}`);
+      return EXIT.usage;
+    }
+    throw e;
+  }
+  await new Promise<void>((resolve) => {
+    process.once("SIGINT", resolve);
+    process.once("SIGTERM", resolve);
+  });
+  io.err("waferbook serve: stopping");
+  await handle.close();
+  return EXIT.ok;
+}

@@ -1,0 +1,58 @@
+/**
+ * A wafer folder that is a symbolic link (a lab keeping raw data elsewhere on
+ * a shared drive, say). It is followed when its target, after every link on
+ * the way is resolved (realpath), is a folder inside the data folder that
+ * does not hold the link itself; the wafer's files are then read through the
+ * link with the usual checks (dataFiles.ts: each resolved path inside the
+ * data folder, opened once with O_NOFOLLOW). Any other link is skipped, and
+ * the reason is a located warning, never silence: a target outside the data
+ * folder (refused like any path that leads out of it), a dangling link, a
+ * loop of links, a link to a file, or a link to a folder that holds it.
+ */
+import { promises as fs } from "node:fs";
+import path from "node:path";
+import type { Problem } from "../validate/problem.ts";
+
+const INSIDE_FIX = "move the folder into the data folder (a link may point anywhere inside it, e.g. to raw/<wafer-id>), or mount the shared drive inside the data folder";
+
+/** Is `real` the folder `root` or inside it (both resolved)? */
+function within(root: string, real: string): boolean {
+  const rel = path.relative(root, real);
+  return rel === "" || !(rel.startsWith("..") || path.isAbsolute(rel));
+}
+
+/**
+ * Decides whether the link `wafers/<name>` is followed as a wafer folder:
+ * null when it is, else the warning that names it and why it was skipped.
+ */
+export async function linkedWaferFolder(dataDir: string, name: string): Promise<Problem | null> {
+  const file = `wafers/${name}`;
+  const link = path.join(dataDir, "wafers", name);
+  const text = await fs.readlink(link).catch(() => "?");
+  const skipped = (why: string, found: string, fix: string): Problem => ({
+    severity: "warning",
+    file,
+    message: `symbolic link skipped: ${why}`,
+    expected: "a folder, or a link to a folder inside the data folder",
+    found,
+    fix,
+  });
+  let target: string;
+  try {
+    target = await fs.realpath(link);
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code;
+    if (code === "ELOOP") return skipped("it is a loop of links", `a link to ${JSON.stringify(text)} that leads back to itself`, "point the link at the wafer's folder itself");
+    if (code === "ENOENT") return skipped("it is dangling (its target does not exist)", `a link to ${JSON.stringify(text)}`, "point the link at an existing folder, or mount the drive it points to");
+    return skipped(`it cannot be followed (${code ?? String(err)})`, `a link to ${JSON.stringify(text)}`, "check the link and the permissions of its target");
+  }
+  const realData = await fs.realpath(dataDir);
+  if (!within(realData, target)) return skipped("it leads outside the data folder", `a link to ${JSON.stringify(target)}`, INSIDE_FIX);
+  const st = await fs.stat(target);
+  if (!st.isDirectory()) return skipped("it leads to a file, not a folder", `a link to ${JSON.stringify(path.relative(realData, target).split(path.sep).join("/"))}`, "link the wafer's folder, not a file in it");
+  // A folder that holds the link (the data folder, wafers/ itself) would make the wafer contain itself.
+  if (within(target, path.join(await fs.realpath(path.join(dataDir, "wafers")), name))) {
+    return skipped("it is a loop (it leads to a folder that holds the link)", `a link to ${JSON.stringify(path.relative(realData, target).split(path.sep).join("/") || ".")}`, "point the link at the wafer's own folder");
+  }
+  return null;
+}
