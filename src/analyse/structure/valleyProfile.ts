@@ -15,8 +15,10 @@
  * x_top, x_bot their fitted barrier plateaus (at the centres), and x_w the
  * median of the measured Ge over the middle half of the well (between the
  * centres). Layers sit at d_l = l·a0/4 for integer l (z0 fixed at depth 0),
- * from c_top − 6 nm to c_bot + 6 nm. x is clipped to [0, 1] (a fraction;
- * noise can put the median of a pure-Si well slightly below 0).
+ * from c_top − 6 nm to c_bot + 6 nm. The three levels are clipped to [0, 1]
+ * before use (fractions; counting noise can put the median of a pure-Si well
+ * slightly below 0). Clipping the levels, not x(d) point by point, keeps x
+ * smooth: a kink where x(d) crossed 0 would add a spurious 2·k0 component.
  *
  * Departure of the measurement from the model (a spike, a graded well):
  * residuals r_i = measured − model over the same depth range are averaged
@@ -35,7 +37,7 @@ export interface LayerProfile {
   xTop: number;
   xBottom: number;
   xWell: number;
-  /** The model x(d) at any depth (nm), clipped to [0, 1]. */
+  /** The model x(d) at any depth (nm) (in [0, 1] whenever x_w lies below both plateaus; clipped otherwise). */
   at: (depthNm: number) => number;
 }
 
@@ -68,9 +70,10 @@ export function layerProfile(depth: readonly number[], ge: readonly number[], to
     if (d >= top.centre + quarter && d <= bottom.centre - quarter && Number.isFinite(ge[i])) middle.push(ge[i]);
   });
   if (middle.length === 0) return undefined;
-  const xWell = median(middle);
-  const xTop = top.barrierGe;
-  const xBottom = bottom.barrierGe;
+  const clip = (v: number) => Math.min(1, Math.max(0, v));
+  const xWell = clip(median(middle));
+  const xTop = clip(top.barrierGe);
+  const xBottom = clip(bottom.barrierGe);
   const at = (d: number) => {
     const x = xTop - (xTop - xWell) * logistic((d - top.centre) / top.tau) + (xBottom - xWell) * logistic((d - bottom.centre) / bottom.tau);
     return Math.min(1, Math.max(0, x));
