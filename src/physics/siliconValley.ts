@@ -9,9 +9,9 @@ import { ELECTRON_MASS } from "./constants.ts";
 
 /** Si lattice constant of the model, m: a0 = 0.5431 nm (CODATA a(Si) rounded, [C]); (001) layers are a0/4 apart. */
 export const VALLEY_LATTICE_CONSTANT = 0.5431e-9;
-/** Longitudinal electron mass of Si (along the growth axis z), kg: 0.916 m_e [M]. */
+/** Longitudinal electron mass of Si (along the growth axis z), kg: 0.916 m_e [M] (introductory texts often round to 0.98 m_e; 0.916 is the value the issue and REFERENCES §16 name). */
 export const SI_LONGITUDINAL_MASS = 0.916 * ELECTRON_MASS;
-/** Transverse electron mass of Si (in plane), kg: 0.19 m_e [M]. */
+/** Transverse electron mass of Si (in plane), kg: 0.19 m_e (REFERENCES §16 lists it [M]; confirmed in standard semiconductor references). */
 export const SI_TRANSVERSE_MASS = 0.19 * ELECTRON_MASS;
 /** Valley minimum along [001] in units of 2π/a0: k0 = 0.82·2π/a0, as used by Losert et al., PRB 108, 125405 (2023) [M]. */
 export const VALLEY_K0_FRACTION = 0.82;

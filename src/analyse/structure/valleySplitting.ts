@@ -23,11 +23,15 @@
  * density at peak mobility (mean over its devices) when it has transport
  * data, else 5 MV/m.
  *
- * Constants (REFERENCES §16): a0 = 0.5431 nm confirmed (CODATA a(Si));
- * a_dot(2 meV) = 14.16 nm derived. From memory, not yet checked against the
- * papers: k0 = 0.82·2π/a0, m_l = 0.916 m_e, m_t = 0.19 m_e, b = 0.5 eV per unit
- * Ge (≈ 150 meV at x = 0.3), ε_r(Si) = 11.7, and the σ² prefactor a0²/(8π·a_dot²)
- * (re-derived in valleyCoupling.ts).
+ * Constants (REFERENCES §16). Confirmed: a0 = 0.5431 nm (CODATA a(Si), as §16
+ * marks it); m_t = 0.19 m_e (standard Si transverse mass, found in several
+ * semiconductor references); E_v = 2|Δ| for the two-valley Hamiltonian and the
+ * measured range of 20–300 µeV (Losert et al. 2023, introduction) against which
+ * the demo figures were read. Derived: a_dot(2 meV) = 14.16 nm; the σ²
+ * prefactor a0²/(8π·a_dot²) (re-derived in valleyCoupling.ts and checked by a
+ * Monte Carlo test). From memory, not checked against the papers: k0 =
+ * 0.82·2π/a0, m_l = 0.916 m_e (textbooks often give 0.98), b = 0.5 eV per unit Ge
+ * (≈ 150 meV at x = 0.3), ε_r(Si) = 11.7.
  *
  * A model estimate of a distribution, not a measurement: it assumes the
  * profile represents the whole wafer and ignores atomic steps, miscut and
