@@ -22,9 +22,11 @@
  *
  * Departure of the measurement from the model (a spike, a graded well):
  * residuals r_i = measured − model over the same depth range are averaged
- * over runs of 5 points; where |mean| > 4·s/√5, s the point-to-point noise
- * of the profile (1.4826·MAD of first differences / √2: robust, common
- * practice), the run is reported. Such features are not in the prediction.
+ * over runs of 5 points; where |mean| > 4·max(s, 0.001)/√5, s the
+ * point-to-point noise of the profile (1.4826·MAD of first differences / √2:
+ * robust, common practice; the floor of 0.001 = 0.1 at.% keeps a noiseless or
+ * rounded profile from reporting departures of no consequence), the run is
+ * reported. Such features are not in the prediction.
  * Pure; never throws for data.
  */
 import type { InterfaceFit } from "./depthProfile.ts";
@@ -54,6 +56,8 @@ export interface ProfileDeparture {
 /** Window of the layer sum on either side of the well, nm. */
 export const LAYER_MARGIN_NM = 6;
 const RUN = 5;
+/** Smallest noise level assumed when judging departures, Ge fraction (0.1 at.%). */
+const NOISE_FLOOR = 0.001;
 
 const logistic = (u: number) => 1 / (1 + Math.exp(-u));
 const median = (v: number[]) => {
@@ -95,7 +99,7 @@ export function profileDeparture(depth: readonly number[], ge: readonly number[]
   const hi = model.depth[model.depth.length - 1];
   const inRange = idx.filter((i) => depth[i] >= lo && depth[i] <= hi);
   const resid = inRange.map((i) => ge[i] - model.at(depth[i]));
-  const limit = (4 * noise) / Math.sqrt(RUN);
+  const limit = (4 * Math.max(noise, NOISE_FLOOR)) / Math.sqrt(RUN);
   const ranges: [number, number][] = [];
   let largest = 0;
   let largestDepth = NaN;
@@ -109,7 +113,7 @@ export function profileDeparture(depth: readonly number[], ge: readonly number[]
       largest = mean;
       largestDepth = 0.5 * (from + to);
     }
-    if (!(mean > limit) || !(noise > 0)) continue;
+    if (!(mean > limit)) continue;
     const last = ranges[ranges.length - 1];
     if (last && from <= last[1]) last[1] = to;
     else ranges.push([from, to]);
