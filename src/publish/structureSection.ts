@@ -157,6 +157,22 @@ export function structureResults(o: WaferOutcome): unknown {
     contaminant_peaks_cm3: Object.fromEntries(Object.entries(s.contaminantPeaks).map(([k, v]) => [k, sig6OrNull(v)])),
     beyond_critical_thickness: s.critical.ok ? s.critical.beyond : null,
     strain_source: s.critical.ok ? s.critical.strainSource : null,
+    valley_inputs: valleyInputs(s),
     findings: s.findings,
+  };
+}
+
+/** What the valley-splitting prediction was made from (its five figures are registered metrics); null without a prediction. */
+function valleyInputs(s: StructureAnalysis): unknown {
+  const v = s.valley;
+  if (!v?.result.ok) return v ? { file: v.file, reason: v.result.ok ? null : v.result.reason } : null;
+  const r = v.result;
+  return {
+    file: v.file,
+    field_MV_per_m: sig6OrNull(r.field / 1e6),
+    field_source: r.fieldSource,
+    dot_radius_nm: sig6OrNull(r.dotRadius),
+    ge_top_well_bottom: [r.xTop, r.xWell, r.xBottom].map(sig6OrNull),
+    departures_nm: r.departure.ranges.map(([a, b]) => [sig6OrNull(a), sig6OrNull(b)]),
   };
 }

@@ -129,7 +129,8 @@ export function predictValleySplitting(input: ValleyInput, settings: ValleySetti
   if (!(c.sigma > 0)) return { ok: false, reason: "no Ge within the envelope, so the alloy-disorder spread is zero and the Rician model does not apply" };
   const nu = c.magnitude;
   const sigma = c.sigma;
-  const top = 2 * (nu + 5 * sigma);
+  // Plotted range: the bulk of the distribution, and the threshold with some room beyond it.
+  const top = Math.max(2 * (nu + 5 * sigma), 1.2 * settings.threshold);
   const energy = Array.from({ length: DISTRIBUTION_POINTS }, (_, i) => (top * i) / (DISTRIBUTION_POINTS - 1));
   return {
     ok: true,
