@@ -165,7 +165,8 @@ export function structureResults(o: WaferOutcome): unknown {
 /** What the valley-splitting prediction was made from (its five figures are registered metrics); null without a prediction. */
 function valleyInputs(s: StructureAnalysis): unknown {
   const v = s.valley;
-  if (!v?.result.ok) return v ? { file: v.file, reason: v.result.ok ? null : v.result.reason } : null;
+  if (!v) return null;
+  if (!v.result.ok) return { file: v.file, reason: v.result.reason };
   const r = v.result;
   return {
     file: v.file,
