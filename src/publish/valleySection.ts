@@ -44,7 +44,7 @@ export function valleySection(s: StructureAnalysis, measured?: { depth: readonly
     const keep = measured.depth.map((_, i) => i).filter((i) => measured.depth[i] >= lo && measured.depth[i] <= hi);
     series.push(traceSeries("Ge fraction (measured)", keep.map((i) => measured.depth[i]), keep.map((i) => measured.ge[i]), "data", 300));
   }
-  series.push(traceSeries("Ge fraction on the atomic layers (model)", depth, ge, "fit", 400));
+  series.push(traceSeries("Ge fraction on the atomic layers (model)", depth, ge, "third", 400));
   const wMax = Math.max(...weight);
   const xMax = Math.max(...ge);
   const scale = wMax > 0 ? xMax / wMax : 1;
@@ -60,14 +60,14 @@ export function valleySection(s: StructureAnalysis, measured?: { depth: readonly
   const e = r.distribution.energy.map((x) => x / J_PER_UEV);
   const dens = r.distribution.density.map((p) => p * J_PER_UEV);
   const peak = Math.max(...dens);
-  const marker = (label: string, at: number): ChartSeries => ({ ...markerSeries(label, [[at / J_PER_UEV, 0], [at / J_PER_UEV, peak]], "reference"), line: true });
+  const marker = (label: string, at: number, role: ChartSeries["role"]): ChartSeries => ({ ...markerSeries(label, [[at / J_PER_UEV, 0], [at / J_PER_UEV, peak]], role), line: true });
   const threshold = r.settings.threshold / J_PER_UEV;
   const distChart: ChartSpec = {
     id: "valley-distribution",
     title: "Predicted distribution of the valley splitting E_v over dots",
     x: { label: "E_v (µeV)" },
     y: { label: "Probability density (1/µeV)" },
-    series: [traceSeries("Predicted density of E_v", e, dens, "data", 200), marker("10th percentile", r.p10), marker("Mean", r.mean)],
+    series: [traceSeries("Predicted density of E_v", e, dens, "data", 200), marker("10th percentile", r.p10, "reference"), marker("Mean", r.mean, "fit")],
     limits: [{ axis: "x", min: threshold, label: `threshold ${formatNumber(threshold, 3)} µeV` }],
     summary: `Rician distribution of E_v: mean ${ueV(r.mean)}, 10th percentile ${ueV(r.p10)}, deterministic part ${ueV(r.deterministicSplitting)}, disorder σ ${ueV(r.sigma)}; ${formatNumber(r.yieldFraction * 100, 3)} % of dots reach the threshold of ${formatNumber(threshold, 3)} µeV (shaded)`,
   };
