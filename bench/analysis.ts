@@ -11,7 +11,8 @@
  * fit, per field sweep) is also timed on its own: median and 90th-percentile
  * ms per sweep over every field sweep, wall clock and CPU time of this
  * thread (budget: median ≤ 5 ms on one core; on a busy machine the CPU time
- * is the fairer figure).
+ * is the fairer figure). The valley-splitting prediction is timed on its own
+ * too, per wafer with an analysed depth profile (budget: < 20 ms on one core).
  * A digest of the analysis results (every number, 12 significant digits)
  * is printed (and with --dump written to FILE) so a change can be checked
  * for identical output.
@@ -25,6 +26,8 @@ import { analyseWafer } from "../src/analyse/wafer.ts";
 import { analyseFieldSweep, type TransportPoint } from "../src/analyse/transport/fieldSweep.ts";
 import { fitOscillations } from "../src/analyse/transport/oscillationFit.ts";
 import { shubnikovDeHaas } from "../src/analyse/transport/shubnikovDeHaas.ts";
+import { analyseDepthProfile } from "../src/analyse/structure/depthProfile.ts";
+import { predictValleySplitting } from "../src/analyse/structure/valleySplitting.ts";
 import type { AnalysisSettings } from "../src/validate/settings.ts";
 import { loadWafer, type LoadedWafer } from "../src/read/wafer.ts";
 import { loadSiteInputs } from "../src/read/site.ts";
@@ -95,6 +98,31 @@ function oscillationStep(loaded: LoadedWafer[], repeats: number): { median: numb
   return { median: times[Math.floor(times.length / 2)] ?? 0, p90: times[Math.floor(times.length * 0.9)] ?? 0, cpuMedian: cpu[Math.floor(cpu.length / 2)] ?? 0, sweeps: jobs.length, fitted };
 }
 
+/** Median and largest ms per wafer of the valley-splitting prediction alone (predictValleySplitting), over every wafer with an analysed profile, `repeats` times. */
+function valleyStep(loaded: LoadedWafer[], repeats: number): { median: number; max: number; cpuMedian: number; wafers: number } {
+  const jobs: { input: Parameters<typeof predictValleySplitting>[0]; settings: AnalysisSettings }[] = [];
+  for (const w of loaded) {
+    for (const p of w.structure.profiles ?? []) {
+      const r = analyseDepthProfile({ depth: p.depth, ge: p.ge });
+      if (r.ok) jobs.push({ input: { depth: p.depth, ge: p.ge, top: r.top, bottom: r.bottom }, settings: w.record!.settings });
+    }
+  }
+  const times: number[] = [];
+  const cpu: number[] = [];
+  for (let k = 0; k < repeats; k++) {
+    for (const { input, settings: s } of jobs) {
+      const c = process.cpuUsage();
+      const t = performance.now();
+      predictValleySplitting(input, { field: s.valley_field, orbitalEnergy: s.valley_dot_orbital_energy, bandOffset: s.valley_band_offset_per_ge, threshold: s.valley_splitting_threshold });
+      times.push(performance.now() - t);
+      cpu.push(process.cpuUsage(c).user / 1000);
+    }
+  }
+  times.sort((a, b) => a - b);
+  cpu.sort((a, b) => a - b);
+  return { median: times[Math.floor(times.length / 2)] ?? 0, max: times.at(-1) ?? 0, cpuMedian: cpu[Math.floor(cpu.length / 2)] ?? 0, wafers: jobs.length };
+}
+
 /** Every number at 12 significant digits, typed arrays as lists, indented (so two dumps can be diffed). */
 function canonicalJson(value: unknown): string {
   return JSON.stringify(value, (_k, v) => {
@@ -154,6 +182,8 @@ async function main() {
   console.log(`analyse: median ${(med / ok.length).toFixed(1)} ms/wafer over ${o.repeats} repeats (min ${(times[0] / ok.length).toFixed(1)}, max ${(times.at(-1)! / ok.length).toFixed(1)}), ${(mb / (med / 1000)).toFixed(1)} MB/s of sweep data`);
   const osc = oscillationStep(ok, o.repeats);
   console.log(`oscillation step (spectrum + Lifshitz–Kosevich fit): median ${osc.median.toFixed(2)} ms/sweep, 90th percentile ${osc.p90.toFixed(2)} ms (CPU time: median ${osc.cpuMedian.toFixed(2)} ms), over ${osc.sweeps} field sweeps (${osc.fitted} fitted)`);
+  const valley = valleyStep(ok, o.repeats);
+  console.log(`valley-splitting prediction (layers + Schrödinger + Rician): median ${valley.median.toFixed(2)} ms/wafer, max ${valley.max.toFixed(2)} ms (CPU time: median ${valley.cpuMedian.toFixed(2)} ms; budget < 20 ms on one core), over ${valley.wafers} wafers with an analysed profile`);
   const json = canonicalJson(result);
   console.log(`results digest ${createHash("sha256").update(json).digest("hex").slice(0, 16)}`);
   if (o.dump) await fs.writeFile(o.dump, json);

@@ -128,6 +128,8 @@ grades:
     interface_width_top: { max: "3 nm" }
     interface_width_bottom: { max: "3 nm" }
     peak_O: { max: "1e18 cm^-3" }
+    # Predicted from the Ge profile (a model estimate, not a measurement): 90 % of dots above about k_B·T at 0.1 K.
+    valley_splitting_p10: { min: "8 µeV" }
     hall_sdh_mismatch: { max: "5 %", aggregate: max }
   test:
     peak_mobility: { min: "3e4 cm^2/(V s)" }

@@ -17,7 +17,12 @@ const NON_NEGATIVE = [
   "peak_mobility_cv", "density_at_peak_mobility_cv", "turn_on_voltage_cv",
   // relaxation R (0 % pseudomorphic)
   "buffer_relaxation",
+  // predicted valley splittings and disorder spread (magnitudes)
+  "valley_splitting_mean", "valley_splitting_p10", "valley_splitting_deterministic", "valley_splitting_disorder",
 ];
+
+/** Shares in %: 0 … 100. */
+const PERCENTAGES = ["valley_splitting_yield"];
 
 /** Ge fractions x of Si(1−x)Ge(x): 0 … 1. */
 const FRACTIONS = ["ge_fraction", "barrier_ge_fraction"];
@@ -25,6 +30,7 @@ const FRACTIONS = ["ge_fraction", "barrier_ge_fraction"];
 /** The bounds of a metric key, or undefined when it has none. */
 export function naturalBounds(key: string): { min?: number; max?: number } | undefined {
   if (FRACTIONS.includes(key)) return { min: 0, max: 1 };
+  if (PERCENTAGES.includes(key)) return { min: 0, max: 100 };
   if (NON_NEGATIVE.includes(key) || /^peak_[A-Z][a-z]?$/.test(key)) return { min: 0 };
   return undefined;
 }

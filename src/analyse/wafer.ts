@@ -79,10 +79,17 @@ export function analyseDevice(input: DeviceInput, settings: AnalysisSettings): D
   return { id: input.spec.id, geometry: input.spec.geometry, at_mm: input.spec.at_mm, points: sorted, gateSweeps, skipped, summary, depth, metrics };
 }
 
+/** The wafer's electron density at peak mobility, m⁻²: the mean over its devices (as the metric's default aggregate), or undefined. */
+function waferDensity(devices: DeviceAnalysis[]): number | undefined {
+  const n = devices.map((d) => d.summary?.densityAtPeakMobility).filter((v): v is number => v !== undefined && Number.isFinite(v) && v > 0);
+  return n.length ? n.reduce((a, b) => a + b, 0) / n.length : undefined;
+}
+
 export function analyseWafer(inputs: WaferInputs, settings: AnalysisSettings): WaferAnalysis {
+  const devices = inputs.devices.map((d) => analyseDevice(d, settings));
   return {
-    devices: inputs.devices.map((d) => analyseDevice(d, settings)),
-    structure: analyseStructure(inputs.structure, inputs.stack, settings),
+    devices,
+    structure: analyseStructure(inputs.structure, inputs.stack, settings, { electronDensity: waferDensity(devices) }),
     images: analyseImages(inputs.images, inputs.stack, settings),
   };
 }

@@ -236,7 +236,8 @@ async function writeAtomically(dest: string, bytes: Buffer): Promise<boolean> {
  * The analysis without its bulk arrays: every typed array (traces, image
  * pixels, strain maps) becomes an empty one of the same kind, the plain
  * number arrays that only charts read (BULK_ARRAYS: SdH traces and spectra,
- * gate-sweep columns other than the gate voltage, depth-profile columns)
+ * gate-sweep columns other than the gate voltage, depth-profile columns, the
+ * valley prediction's layer weights and E_v distribution)
  * become empty, and XRD map points are dropped. Every scalar figure, fit,
  * reason and per-point result is kept, so judging and every site-wide output
  * give the same result from either form (test/cli/slimEntry.test.ts).
@@ -246,7 +247,7 @@ export function slimAnalysis(analysis: WaferAnalysis): WaferAnalysis {
 }
 
 /** Names of plain number arrays read only by charts (results.json counts gate-sweep points from `gateVoltage`, which stays). */
-const BULK_ARRAYS = new Set(["inverseField", "oscillation", "frequency", "amplitude", "sheetResistance", "density", "conductivity", "depth", "ge"]);
+const BULK_ARRAYS = new Set(["inverseField", "oscillation", "frequency", "amplitude", "sheetResistance", "density", "conductivity", "depth", "ge", "weight", "energy"]);
 
 function strip(x: unknown, key: string): unknown {
   if (ArrayBuffer.isView(x)) return new (x.constructor as new (n: number) => ArrayBufferView)(0);

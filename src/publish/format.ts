@@ -9,7 +9,7 @@ const SUPERSCRIPT: Record<string, string> = { "-": "⁻", "0": "⁰", "1": "¹",
 /** "cm^2/(V s)" → "cm²/(V s)"; "1" → "". */
 export function prettyUnit(unit: string): string {
   if (unit === "1") return "";
-  return unit.replace(/\^(-?\d+)/g, (_, e: string) => [...e].map((c) => SUPERSCRIPT[c] ?? c).join("")).replace(/\bu([FVAm])/g, "µ$1");
+  return unit.replace(/\^(-?\d+)/g, (_, e: string) => [...e].map((c) => SUPERSCRIPT[c] ?? c).join("")).replace(/\bu([FVAme])/g, "µ$1");
 }
 
 /**

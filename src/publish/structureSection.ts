@@ -13,6 +13,7 @@ import { radToDeg } from "../analyse/structure/bragg.ts";
 import { markerSeries, traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
 import { formatNumber, sig6OrNull } from "./format.ts";
 import { rsmSvg, stackSvg, type StackRow } from "./structureSvg.ts";
+import { valleySection, type ValleySectionModel } from "./valleySection.ts";
 
 export interface StructureSectionModel {
   charts: ChartSpec[];
@@ -27,6 +28,8 @@ export interface StructureSectionModel {
   design: { quantity: string; design: string; measured: string; source: string }[];
   profiles: { file: string; method: string; rows: { label: string; value: string }[]; reason?: string }[];
   findings: { severity: string; text: string }[];
+  /** The "valley splitting (predicted)" part (valleySection.ts). */
+  valley?: ValleySectionModel;
 }
 
 const pm = (v: number, e: number | undefined, digits = 4) => (e !== undefined && e > 0 ? `${formatNumber(v, digits)} ± ${formatNumber(e, 2)}` : formatNumber(v, digits));
@@ -142,6 +145,7 @@ export function structureSection(o: WaferOutcome): StructureSectionModel | undef
     design: s.design.map((d) => ({ quantity: d.quantity, design: fmt(d.design, d.unit), measured: d.measured === undefined ? "—" : d.measuredStdErr ? `${pm(d.measured, d.measuredStdErr)}${d.unit === "1" ? "" : ` ${d.unit}`}` : fmt(d.measured, d.unit), source: d.source })),
     profiles: profileRows(s),
     findings: s.findings,
+    valley: valleySection(s, s.profiles.find((p) => p.data.file === s.valley?.file)?.data),
   };
 }
 
@@ -153,6 +157,23 @@ export function structureResults(o: WaferOutcome): unknown {
     contaminant_peaks_cm3: Object.fromEntries(Object.entries(s.contaminantPeaks).map(([k, v]) => [k, sig6OrNull(v)])),
     beyond_critical_thickness: s.critical.ok ? s.critical.beyond : null,
     strain_source: s.critical.ok ? s.critical.strainSource : null,
+    valley_inputs: valleyInputs(s),
     findings: s.findings,
+  };
+}
+
+/** What the valley-splitting prediction was made from (its five figures are registered metrics); null without a prediction. */
+function valleyInputs(s: StructureAnalysis): unknown {
+  const v = s.valley;
+  if (!v) return null;
+  if (!v.result.ok) return { file: v.file, reason: v.result.reason };
+  const r = v.result;
+  return {
+    file: v.file,
+    field_MV_per_m: sig6OrNull(r.field / 1e6),
+    field_source: r.fieldSource,
+    dot_radius_nm: sig6OrNull(r.dotRadius),
+    ge_top_well_bottom: [r.xTop, r.xWell, r.xBottom].map(sig6OrNull),
+    departures_nm: r.departure.ranges.map(([a, b]) => [sig6OrNull(a), sig6OrNull(b)]),
   };
 }

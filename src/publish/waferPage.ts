@@ -94,7 +94,7 @@ export function waferPageModel(o: WaferOutcome) {
   const structure = structureSection(o);
   const images = imagesSection(o);
   const uniformity = uniformitySection(o);
-  const allCharts = [...transportCharts, ...(transportDepth?.charts ?? []), ...(structure?.charts ?? []), ...(images?.charts ?? [])];
+  const allCharts = [...transportCharts, ...(transportDepth?.charts ?? []), ...(structure?.charts ?? []), ...(structure?.valley?.charts ?? []), ...(images?.charts ?? [])];
   return {
     id: o.folder,
     run: r?.run,

@@ -37,6 +37,14 @@ export interface AnalysisSettings {
   sdh_amplitude_factor: number | "free";
   /** Largest micrograph accepted, width × height in pixels, checked from the PNG header before decoding. */
   max_image_pixels: number;
+  /** Valley-splitting prediction: vertical field, V/m (null: from the density at peak mobility, else 5 MV/m). */
+  valley_field: number | null;
+  /** Valley-splitting prediction: orbital energy of the dot, J. */
+  valley_dot_orbital_energy: number;
+  /** Valley-splitting prediction: conduction-band offset per unit Ge fraction, J. */
+  valley_band_offset_per_ge: number;
+  /** Valley-splitting prediction: E_v threshold of the yield, J. */
+  valley_splitting_threshold: number;
 }
 
 type Spec =
@@ -61,6 +69,10 @@ export const SETTING_SPECS: Record<keyof AnalysisSettings, Spec> = {
   sdh_max_lifetime_error: { kind: "quantity", unit: "%", si: 1, doc: "relative standard error of τ_q above which it is not determined" },
   sdh_amplitude_factor: { kind: "number", min: 0.01, max: 2, doc: "amplitude factor A of the SdH fit, or free", orFree: true },
   max_image_pixels: { kind: "number", min: 65_536, max: 1e9, doc: "largest micrograph accepted, width × height in pixels" },
+  valley_field: { kind: "quantity", unit: "MV/m", si: 1e6, doc: "vertical electric field of the valley-splitting prediction", nullable: true },
+  valley_dot_orbital_energy: { kind: "quantity", unit: "meV", si: 1.602176634e-22, doc: "orbital energy of the quantum dot in the valley-splitting prediction" },
+  valley_band_offset_per_ge: { kind: "quantity", unit: "eV", si: 1.602176634e-19, doc: "conduction-band offset per unit Ge fraction in the valley-splitting prediction" },
+  valley_splitting_threshold: { kind: "quantity", unit: "ueV", si: 1.602176634e-25, doc: "valley splitting a dot needs, for the predicted yield" },
 };
 
 /** Default of `max_image_pixels`: 4096 × 4096, the largest frame common STEM/TEM cameras record (measured: about 4 s and 250 MB to decode). */
@@ -82,6 +94,10 @@ export const DEFAULT_SETTINGS: AnalysisSettings = {
   sdh_max_lifetime_error: 30,
   sdh_amplitude_factor: "free",
   max_image_pixels: DEFAULT_MAX_IMAGE_PIXELS,
+  valley_field: null,
+  valley_dot_orbital_energy: 2e-3 * 1.602176634e-19,
+  valley_band_offset_per_ge: 0.5 * 1.602176634e-19,
+  valley_splitting_threshold: 100e-6 * 1.602176634e-19,
 };
 
 /** Validates a settings mapping (from analysis.yaml or a wafer's `analysis:` block) over a base. */

@@ -9,6 +9,9 @@
  * Widths: the 10–90 % width of a logistic step is 2·ln 9·τ = 4.394449·τ; the
  * "4τ" width spans 11.92 %–88.08 % (REFERENCES §10, derived). A falling edge has
  * Δx < 0; τ is reported positive.
+ * Start: τ = span/20; when that search collapses to τ → 0 (a sharp edge sampled
+ * finely) or fails, it is run again from the 10–90 % width read off the data,
+ * and the better of the two is kept.
  */
 import { nonlinearFit, type NonlinearFit } from "./nonlinearFit.ts";
 
@@ -67,14 +70,21 @@ export function fitSigmoidEdge(
   const useSlope = options.slope ?? true;
   const model = ([x0, dx, z0, tau, s]: number[]) => (zz: number) =>
     x0 + dx / (1 + Math.exp(-(zz - z0) / tau)) + s * (zz - zMean);
-  const tau0 = span / 20;
-  const fit = nonlinearFit(model, zs, vs, {
-    initial: [lo, stepGuess, centre, tau0, 0],
-    scale: [Math.abs(stepGuess), Math.abs(stepGuess), span, tau0, Math.abs(stepGuess) / span],
-    min: [-Infinity, -Infinity, zs[0] - span, span * 1e-5, -Infinity],
-    max: [Infinity, Infinity, zs[n - 1] + span, span, Infinity],
-    fixed: useSlope ? [] : [4],
-  });
+  const run = (tau0: number) =>
+    nonlinearFit(model, zs, vs, {
+      initial: [lo, stepGuess, centre, tau0, 0],
+      scale: [Math.abs(stepGuess), Math.abs(stepGuess), span, tau0, Math.abs(stepGuess) / span],
+      min: [-Infinity, -Infinity, zs[0] - span, span * 1e-5, -Infinity],
+      max: [Infinity, Infinity, zs[n - 1] + span, span, Infinity],
+      fixed: useSlope ? [] : [4],
+    });
+  let fit = run(span / 20);
+  // A sharp edge sampled finely can send the search from the broad first guess to τ → 0, where the
+  // model is a step and no longer depends on τ. Then start again from the width the data show.
+  if (!fit.params.every(Number.isFinite) || Math.abs(fit.params[3]) < span * 1e-4) {
+    const retry = run(widthGuess(zs, vs, lo, hi) / (2 * LN9));
+    if (retry.params.every(Number.isFinite) && (!fit.params.every(Number.isFinite) || retry.ssRes <= fit.ssRes)) fit = retry;
+  }
   const [base, step, z0, tau, slope] = fit.params;
   const t = Math.abs(tau);
   return {
@@ -92,6 +102,18 @@ export function fitSigmoidEdge(
     points: n,
     fit,
   };
+}
+
+/** The 10–90 % width of the edge as the data show it: the first crossings of the 10 % and 90 % levels between the plateaus lo and hi (at least the median spacing). */
+function widthGuess(z: number[], v: number[], lo: number, hi: number): number {
+  const cross = (f: number) => {
+    const level = lo + f * (hi - lo);
+    for (let i = 1; i < z.length; i++) if ((v[i - 1] - level) * (v[i] - level) <= 0) return z[i];
+    return NaN;
+  };
+  const steps = z.slice(1).map((zz, i) => zz - z[i]).sort((a, b) => a - b);
+  const w = Math.abs(cross(0.9) - cross(0.1));
+  return Math.max(Number.isFinite(w) ? w : 0, steps[steps.length >> 1] ?? 0, 1e-12);
 }
 
 /** The fitted model at z: base + step/(1 + e^(−(z − centre)/τ)) + slope·(z − zReference). */

@@ -1,8 +1,9 @@
 /**
  * Structure analysis of one wafer: X-ray diffraction (buffer composition and
  * relaxation, well strain), critical thickness of the well, depth profiles
- * (interface widths, well thickness, barrier Ge, contaminants), and the
- * comparison of measured with design (stack) values. Inputs from
+ * (interface widths, well thickness, barrier Ge, contaminants), the
+ * valley splitting predicted from the profile's fitted interfaces
+ * (valleySplitting.ts), and the comparison of measured with design (stack) values. Inputs from
  * src/read/structureFiles.ts, metrics in ./metrics.ts. Pure; SI inside, metric
  * values in each metric's unit.
  */
@@ -16,6 +17,7 @@ import { analyseXrd, type XrdAnalysis } from "./xrdAnalysis.ts";
 import { checkCriticalThickness, type CriticalThicknessCheck } from "./criticalThicknessCheck.ts";
 import { REGISTERED_CONTAMINANTS } from "./metrics.ts";
 import { strainedSiOnRelaxedSiGe } from "../../physics/sige.ts";
+import { predictValleySplitting, type ValleySplitting } from "./valleySplitting.ts";
 
 export interface StructureInputs {
   xrd?: XrdFile[];
@@ -52,6 +54,14 @@ export interface StructureAnalysis {
   findings: Finding[];
   /** Peak contaminant level in or near the well per element (all elements, registered or not), cm⁻³. */
   contaminantPeaks: Record<string, number>;
+  /** Valley splitting predicted from the analysed profile (absent when no profile was analysed). */
+  valley?: { file: string; result: ValleySplitting };
+}
+
+/** What the structure analysis takes from other sections of the wafer. */
+export interface StructureContext {
+  /** The wafer's electron density at peak mobility (mean over its devices), m⁻²; sets the field of the valley prediction. */
+  electronDensity?: number;
 }
 
 const layerOf = (stack: readonly Layer[], role: Layer["role"]) => stack.find((l) => l.role === role);
@@ -95,7 +105,7 @@ function findings(xrd: XrdAnalysis | undefined, profiles: ProfileAnalysis[], cri
 }
 
 /** Runs the structure analyses of one wafer (see module comment); undefined when the wafer has no XRD or profile files. Never throws for data. */
-export function analyseStructure(inputs: StructureInputs, stack: Layer[], _settings: AnalysisSettings): StructureAnalysis | undefined {
+export function analyseStructure(inputs: StructureInputs, stack: Layer[], settings: AnalysisSettings, context: StructureContext = {}): StructureAnalysis | undefined {
   const xrdFiles = inputs.xrd ?? [];
   const profFiles = inputs.profiles ?? [];
   if (xrdFiles.length === 0 && profFiles.length === 0) return undefined;
@@ -123,5 +133,16 @@ export function analyseStructure(inputs: StructureInputs, stack: Layer[], _setti
   }
   const peaks = contaminantPeaks(prof);
   for (const el of REGISTERED_CONTAMINANTS) put(`peak_${el}`, peaks[el] === undefined ? undefined : peaks[el] * 1e6);
-  return { metrics, xrd, profiles, critical: crit, design: designRows(stack, xrd, prof, crit), findings: findings(xrd, profiles, crit), contaminantPeaks: peaks };
+  const valley = r && prof ? { file: prof.data.file, result: predictValleySplitting({ depth: prof.data.depth, ge: prof.data.ge, top: r.top, bottom: r.bottom, electronDensity: context.electronDensity }, { field: settings.valley_field, orbitalEnergy: settings.valley_dot_orbital_energy, bandOffset: settings.valley_band_offset_per_ge, threshold: settings.valley_splitting_threshold }) } : undefined;
+  if (valley?.result.ok) {
+    const v = valley.result;
+    put("valley_splitting_mean", v.mean);
+    put("valley_splitting_p10", v.p10);
+    put("valley_splitting_deterministic", v.deterministicSplitting);
+    put("valley_splitting_disorder", v.sigma);
+    put("valley_splitting_yield", v.yieldFraction);
+  }
+  const found = findings(xrd, profiles, crit);
+  if (valley && !valley.result.ok) found.push({ severity: "note", text: `Valley splitting not predicted: ${valley.result.reason}` });
+  return { metrics, xrd, profiles, critical: crit, design: designRows(stack, xrd, prof, crit), findings: found, contaminantPeaks: peaks, valley };
 }
