@@ -15,14 +15,10 @@ import { fileURLToPath, pathToFileURL } from "node:url";
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 const BUILD_DIR = path.join(ROOT, ".waferbook-build");
 
+/** Every source file under dir (node's recursive readdir, the one directory walk the program uses), absolute paths. */
 async function sources(dir) {
-  const out = [];
-  for (const e of await fs.readdir(dir, { withFileTypes: true })) {
-    const abs = path.join(dir, e.name);
-    if (e.isDirectory()) out.push(...(await sources(abs)));
-    else if (/\.(ts|mjs|js|json)$/.test(e.name)) out.push(abs);
-  }
-  return out;
+  const entries = await fs.readdir(dir, { recursive: true, withFileTypes: true });
+  return entries.filter((e) => !e.isDirectory() && /\.(ts|mjs|js|json)$/.test(e.name)).map((e) => path.join(e.parentPath, e.name));
 }
 
 /** The bundle's folder for the current sources, bundling first when needed; null to run through tsx. */
