@@ -17,14 +17,10 @@ import { fileURLToPath, pathToFileURL } from "node:url";
 
 const exists = (p) => fs.access(p).then(() => true, () => false);
 
+/** Every source file under dir (node's recursive readdir), absolute paths. */
 async function sources(dir) {
-  const out = [];
-  for (const e of await fs.readdir(dir, { withFileTypes: true })) {
-    const abs = path.join(dir, e.name);
-    if (e.isDirectory()) out.push(...(await sources(abs)));
-    else if (/\.(ts|mjs|js|json)$/.test(e.name)) out.push(abs);
-  }
-  return out;
+  const entries = await fs.readdir(dir, { recursive: true, withFileTypes: true });
+  return entries.filter((e) => e.isFile() && /\.(ts|mjs|js|json)$/.test(e.name)).map((e) => path.join(e.parentPath, e.name));
 }
 
 /** SHA-256 (hex, 20 digits) of the sources under root/src, this script and the Node.js version: names the compiled copy. */

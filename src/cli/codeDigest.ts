@@ -26,15 +26,10 @@ export interface CodeDigests {
   drawing: string;
 }
 
-/** Every file under dir whose name passes `keep`, absolute paths. */
+/** Every file under dir whose name passes `keep`, absolute paths (node's recursive readdir). */
 export async function sourceFiles(dir: string, keep: (name: string) => boolean = (n) => n.endsWith(".ts")): Promise<string[]> {
-  const out: string[] = [];
-  for (const e of await fs.readdir(dir, { withFileTypes: true })) {
-    const abs = path.join(dir, e.name);
-    if (e.isDirectory()) out.push(...(await sourceFiles(abs, keep)));
-    else if (e.isFile() && keep(e.name)) out.push(abs);
-  }
-  return out;
+  const entries = await fs.readdir(dir, { recursive: true, withFileTypes: true });
+  return entries.filter((e) => e.isFile() && keep(e.name)).map((e) => path.join(e.parentPath, e.name));
 }
 
 /** SHA-256 (hex) of a salt and of each file's path (relative to root, with "/") and SHA-256, in sorted order (files streamed, never read whole). */

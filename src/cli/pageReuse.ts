@@ -72,17 +72,14 @@ export async function previousFingerprint(pageFile: string): Promise<string | un
  */
 export async function linkReusedPage(prevDir: string, newDir: string): Promise<void> {
   // Synchronous calls: thousands of small metadata operations, where the promise API's overhead per call dominates.
-  const walk = (rel: string) => {
-    // Top-down, so each folder's parent exists: a plain mkdir (the recursive form checks every ancestor).
-    if (rel) mkdirSync(path.join(newDir, rel));
-    else mkdirSync(newDir, { recursive: true });
-    for (const e of readdirSync(path.join(prevDir, rel), { withFileTypes: true })) {
-      const r = rel ? `${rel}/${e.name}` : e.name;
-      if (e.isDirectory()) walk(r);
-      else if (e.isFile()) linkOrCopy(path.join(prevDir, r), path.join(newDir, r), { copy: true });
-    }
-  };
-  walk("");
+  mkdirSync(newDir, { recursive: true });
+  // Node's recursive readdir lists a folder's entry (read from its parent) before the folder's own
+  // entries, so each folder is made before anything inside it: a plain mkdir (the recursive form checks every ancestor).
+  for (const e of readdirSync(prevDir, { recursive: true, withFileTypes: true })) {
+    const r = path.relative(prevDir, path.join(e.parentPath, e.name));
+    if (e.isDirectory()) mkdirSync(path.join(newDir, r));
+    else if (e.isFile()) linkOrCopy(path.join(prevDir, r), path.join(newDir, r), { copy: true });
+  }
 }
 
 /**

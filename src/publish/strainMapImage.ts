@@ -18,6 +18,7 @@
 import { PNG } from "pngjs";
 import { growthCoordinate, type GrowthAxis } from "../analyse/images/geometry.ts";
 import { encodeGreyPng } from "./greyPng.ts";
+import { quantile } from "simple-statistics";
 
 type RGB = [number, number, number];
 
@@ -67,9 +68,7 @@ export function downsample(map: ArrayLike<number>, width: number, height: number
 function absQuantile(map: ArrayLike<number>, q: number): number {
   const a: number[] = [];
   for (let i = 0; i < map.length; i++) if (Number.isFinite(map[i])) a.push(Math.abs(map[i]));
-  if (!a.length) return 0;
-  a.sort((x, y) => x - y);
-  return a[Math.min(a.length - 1, Math.floor(q * a.length))];
+  return a.length ? quantile(a, q) : 0;
 }
 
 export interface InterfaceLines {
@@ -140,9 +139,8 @@ export function renderStrainMap(map: ArrayLike<number>, width: number, height: n
 /** Greyscale 8-bit PNG of a micrograph, stretched between its 0.5 % and 99.5 % levels. */
 export function renderMicrograph(pixels: ArrayLike<number>, width: number, height: number, maxSide?: number): PngPicture {
   const small = downsample(pixels, width, height, maxSide);
-  const sorted = Array.from(small.map).filter(Number.isFinite).sort((a, b) => a - b);
-  const lo = sorted[Math.floor(0.005 * (sorted.length - 1))] ?? 0;
-  const hi = sorted[Math.floor(0.995 * (sorted.length - 1))] ?? 1;
+  const finite = Array.from(small.map).filter(Number.isFinite);
+  const [lo, hi] = finite.length ? quantile(finite, [0.005, 0.995]) : [0, 1];
   const levels = Array.from(small.map, (v) => (Number.isFinite(v) && hi > lo ? Math.round(255 * Math.max(0, Math.min(1, (v - lo) / (hi - lo)))) : 128));
   return { png: encodeGreyPng(levels, small.width, small.height), width: small.width, height: small.height, factor: small.factor };
 }

@@ -6,6 +6,7 @@
 import matter from "gray-matter";
 import { InputError } from "../validate/problem.ts";
 import { ALIAS_LIMIT_REASON, loadYaml, MAX_YAML_ALIASES, MAX_YAML_ALIAS_NODES } from "./yamlLoad.ts";
+import { fieldOffsets, offsetOfPath, type FieldOffsets } from "./yamlPositions.ts";
 
 export interface FrontMatterDoc {
   data: unknown;
@@ -68,48 +69,24 @@ function lineText(text: string, line: number): string {
 }
 
 /**
- * Finds the line of a field in YAML text by walking the dotted path through
- * indentation. Approximate but dependable for the simple block style the
- * records use; returns undefined when it cannot tell.
+ * The 1-based file line of a field (dotted path, "[i]" for items) in YAML text,
+ * from the parser's own source positions (yamlPositions.ts): the line of the
+ * field's key, or of its nearest present ancestor when the field itself is
+ * absent; undefined when the text does not parse or not even the first part is
+ * there. `firstLine` is the file line of matterText's first line (or of the
+ * line after it when matterText starts with the newline after "---", as
+ * gray-matter's does).
  */
 export function lineOfField(matterText: string, fieldPath: string, firstLine: number): number | undefined {
-  const lines = matterText.split(/\r?\n/);
-  // matterText from gray-matter starts with the newline after "---".
-  const offset = lines[0] === "" ? firstLine - 1 : firstLine;
-  const parts = fieldPath.split(/\.|\[(\d+)\]/).filter((p) => p !== undefined && p !== "");
-  let from = 0;
-  let indent = -1;
-  let found: number | undefined;
-  for (const part of parts) {
-    if (/^\d+$/.test(part)) {
-      let count = -1;
-      for (let i = from; i < lines.length; i++) {
-        const m = /^(\s*)-\s/.exec(lines[i]);
-        if (m && m[1].length > indent - 0) {
-          count++;
-          if (count === Number(part)) {
-            from = i;
-            found = i;
-            indent = m[1].length;
-            break;
-          }
-        }
-      }
-      continue;
-    }
-    const re = new RegExp(`^(\\s*)(?:-\\s+)?${part.replace(/[.*+?^${}()|[\]\\]/g, "\\$&")}\\s*:`);
-    let hit = false;
-    for (let i = from; i < lines.length; i++) {
-      const m = re.exec(lines[i]);
-      if (m) {
-        from = i;
-        found = i;
-        indent = m[1].length;
-        hit = true;
-        break;
-      }
-    }
-    if (!hit) break;
-  }
-  return found === undefined ? undefined : found + offset;
+  if (cached?.text !== matterText) cached = { text: matterText, offsets: fieldOffsets(matterText) };
+  const offsets = cached.offsets;
+  const at = offsets && offsetOfPath(offsets, fieldPath);
+  if (at === undefined) return undefined;
+  let line = 0;
+  for (let i = matterText.indexOf("\n"); i !== -1 && i < at; i = matterText.indexOf("\n", i + 1)) line++;
+  const offset = matterText.startsWith("\n") || matterText.startsWith("\r\n") ? firstLine - 1 : firstLine;
+  return line + offset;
 }
+
+/** The last text located and its field offsets (validators ask for many fields of one record in a row). */
+let cached: { text: string; offsets: FieldOffsets | undefined } | undefined;

@@ -9,14 +9,32 @@
  *   f(v) = σ((v − v_bottom)/τ) − σ((v − v_top)/τ),   σ(t) = 1/(1 + e^(−t)),
  * a logistic step at each interface (REFERENCES §10), so a barrier value p_b
  * becomes p_b + (p_w − p_b)·f(v). Plane k+1 sits one local spacing above plane
- * k. The lattice is placed in the image with the growth direction of
- * geometry.ts (tilted by `tilt_deg`), then a constant background and seeded
+ * k. The lattice is placed in the image along the growth direction (tilted
+ * by `tilt_deg`, see growthDirections), then a constant background and seeded
  * Gaussian noise are added. Lengths in metres, image in arbitrary units.
+ *
+ * The geometry and the 10–90 % width are written out here, independently of
+ * the image analysis, so the image tests do not check the analysis against itself.
  */
-import { growthNormal, inPlaneDirection, type GrowthAxis } from "../analyse/images/geometry.ts";
 import { seededGaussian } from "./random.ts";
-import { LN9 } from "../analyse/numeric/sigmoidFit.ts";
-import { degToRad } from "../analyse/numeric/angle.ts";
+
+/** Direction in the image toward the wafer surface (`up` = toward row 0). */
+export type GrowthAxis = "up" | "down" | "left" | "right";
+
+/**
+ * Unit vectors of the growth normal n (toward the surface) and the in-plane
+ * direction t = n rotated by +90°, in pixel coordinates (x right, y down). The
+ * axis' base vector is rotated by the tilt with [[cos, −sin], [sin, cos]]
+ * (a plane rotation, common practice); with y down, a positive tilt turns clockwise on screen.
+ */
+function growthDirections(axis: GrowthAxis, tiltDeg: number) {
+  const tilt = (tiltDeg * Math.PI) / 180;
+  const [bx, by] = { up: [0, -1], down: [0, 1], left: [-1, 0], right: [1, 0] }[axis];
+  const c = Math.cos(tilt);
+  const s = Math.sin(tilt);
+  const n = { x: c * bx - s * by, y: s * bx + c * by };
+  return { n, t: { x: -n.y, y: n.x } };
+}
 
 export interface SyntheticMicrographSpec {
   width: number;
@@ -107,10 +125,8 @@ export function syntheticMicrograph(spec: SyntheticMicrographSpec): SyntheticMic
   const { width, height } = spec;
   if (!(width >= 8 && height >= 8)) throw new RangeError("syntheticMicrograph: image must be at least 8×8");
   const px = spec.pixelSize_m;
-  const tilt = degToRad(spec.tilt_deg ?? 0);
   const axis = spec.growthAxis ?? "up";
-  const n = growthNormal(axis, tilt);
-  const t = inPlaneDirection(axis, tilt);
+  const { n, t } = growthDirections(axis, spec.tilt_deg ?? 0);
   const sigma = (spec.columnSigma_m ?? 0.2 * spec.inPlaneSpacing_m) / px;
   const reach = Math.ceil(3.5 * sigma);
   const halfSpan = Math.hypot(width, height) / 2 + 2 * reach;
@@ -152,7 +168,8 @@ export function syntheticMicrograph(spec: SyntheticMicrographSpec): SyntheticMic
       wellBottom_px: vb,
       wellTop_px: vt,
       tau_m: spec.interfaceTau_m,
-      interfaceWidth10to90_m: 2 * LN9 * spec.interfaceTau_m,
+      // Logistic σ(t) reaches 10 % and 90 % at t = ∓ln 9, so the 10–90 % width is 2·ln 9·τ (REFERENCES §10).
+      interfaceWidth10to90_m: 2 * Math.log(9) * spec.interfaceTau_m,
       inPlaneSpacing_m: spec.inPlaneSpacing_m,
       barrierSpacing_m: spec.barrierSpacing_m,
       wellSpacing_m: spec.wellSpacing_m,

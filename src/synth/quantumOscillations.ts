@@ -7,9 +7,25 @@
  * (Lifshitz & Kosevich 1956; Dingle 1952; 2D form of Coleridge, Stoner &
  * Fletcher, PRB 39, 1120 (1989); REFERENCES §7). Units: B in T, ρ in Ω, n in m⁻²,
  * τ_q in s, T in K. At B = 0 it returns ρ0.
+ *
+ * Written out here from the published form, independently of the analysis
+ * (the transport thermal factor), so a mistake there does not cancel
+ * in the tests that fit these curves.
  */
-import { ELECTRON_MASS, ELEMENTARY_CHARGE, PLANCK } from "../physics/constants.ts";
-import { thermalFactor } from "../analyse/transport/thermalFactor.ts";
+import { BOLTZMANN, ELECTRON_MASS, ELEMENTARY_CHARGE, HBAR, PLANCK } from "../physics/constants.ts";
+
+/**
+ * Lifshitz–Kosevich thermal damping X/sinh X with X = 2π²k_B T m* /(ħ e B)
+ * (Lifshitz & Kosevich 1956; REFERENCES §7). B > 0 in T, T in K, m in m_e.
+ * X/sinh X = 2X·e^(−X)/(1 − e^(−2X)), which stays finite for large X; the
+ * series 1 − X²/6 below X = 10⁻⁶.
+ */
+function thermalDamping(temperature: number, b: number, m: number): number {
+  const x = (2 * Math.PI ** 2 * BOLTZMANN * temperature * m * ELECTRON_MASS) / (HBAR * ELEMENTARY_CHARGE * b);
+  if (x < 1e-6) return 1 - (x * x) / 6;
+  const e = Math.exp(-x);
+  return (2 * x * e) / (1 - e * e);
+}
 
 export interface OscillationParams {
   /** Zero-field resistivity ρ0, Ω. */
@@ -33,7 +49,7 @@ export function oscillatingResistivity(field: number, p: OscillationParams): num
   const m = p.massRatio ?? 0.19;
   const f = (PLANCK * p.density) / ((p.degeneracy ?? 4) * ELEMENTARY_CHARGE);
   const wcTau = (ELEMENTARY_CHARGE * b * p.quantumLifetime) / (m * ELECTRON_MASS);
-  const thermal = thermalFactor(p.temperature, b, m);
+  const thermal = thermalDamping(p.temperature, b, m);
   return p.rho0 * (1 + 4 * thermal * Math.exp(-Math.PI / wcTau) * Math.cos((2 * Math.PI * f) / b - Math.PI));
 }
 

@@ -7,14 +7,45 @@
  * pseudomorphic on the buffer (a∥ = buffer a∥, a⊥ from Si elasticity). Each peak
  * is a Gaussian in rocking (ω − 2θ/2) and radial (2θ) coordinates; counts are
  * Poisson deviates of (background + peaks). Angles in rad, lengths in m.
+ *
+ * The lattice relations (./sigeLattice.ts) and the reciprocal-space geometry
+ * below are written out from their published forms, independently of
+ * the structure analysis, so the X-ray tests do not check the analysis against
+ * itself.
  */
-import { A_SI, biaxialRatio, latticeDismukes, strainedPerpendicular } from "../physics/sige.ts";
-import { CU_KALPHA1, type Miller } from "../analyse/structure/bragg.ts";
-import { layerPeakQ, qToAngles, type AnglePoint } from "../analyse/structure/reciprocalSpace.ts";
+import { A_SI, biaxialD, perpendicularLattice, relaxedLattice } from "./sigeLattice.ts";
 import { seededPoisson } from "./random.ts";
 
+/** Cu Kα1 wavelength, m: 1.54059292 Å (International Tables for Crystallography Vol. C, §4.2.2; REFERENCES §4). */
+const CU_KALPHA1_M = 1.54059292e-10;
+
+/** Miller indices hkl. */
+export type Reflection = readonly [number, number, number];
+
+/** Incidence angle ω and scattering angle 2θ, rad. */
+export interface PeakAngles {
+  omega: number;
+  twoTheta: number;
+}
+
+/**
+ * Angles of reflection hkl of a (001) layer with in-plane a∥ and out-of-plane a⊥
+ * (m), grazing incidence. The peak sits at Qx = 2π√(h²+k²)/a∥, Qz = 2πl/a⊥
+ * (Q includes 2π); Bragg's law |Q| = 2k·sin θ with k = 2π/λ gives θ, and the
+ * tilt ψ = atan2(Qx, Qz) of Q from the surface normal gives ω = θ − ψ
+ * (Bowen & Tanner 1998; Fewster 2000; REFERENCES §4).
+ */
+function peakAngles(aParallel: number, aPerpendicular: number, hkl: Reflection, wavelength: number): PeakAngles {
+  const qx = (2 * Math.PI * Math.hypot(hkl[0], hkl[1])) / aParallel;
+  const qz = (2 * Math.PI * hkl[2]) / aPerpendicular;
+  const k = (2 * Math.PI) / wavelength;
+  const theta = Math.asin(Math.hypot(qx, qz) / (2 * k));
+  if (!Number.isFinite(theta) || !(qz > 0)) throw new RangeError(`synthReciprocalSpaceMap: reflection ${hkl.join("")} is not reachable in reflection`);
+  return { omega: theta - Math.atan2(qx, qz), twoTheta: 2 * theta };
+}
+
 export interface SynthMapOptions {
-  reflection: Miller;
+  reflection: Reflection;
   geFraction: number;
   /** Buffer relaxation, 1. */
   relaxation: number;
@@ -39,7 +70,7 @@ export interface SynthMapOptions {
 export interface SynthMap {
   points: { omega: number; twoTheta: number; counts: number }[];
   /** True (offset-free) peak angles, rad. */
-  truth: { substrate: AnglePoint; buffer: AnglePoint; well?: AnglePoint };
+  truth: { substrate: PeakAngles; buffer: PeakAngles; well?: PeakAngles };
   /** Buffer lattice constants, m. */
   buffer: { aParallel: number; aPerpendicular: number; aRelaxed: number };
 }
@@ -48,15 +79,12 @@ const DEG = Math.PI / 180;
 
 /** Generates a seeded synthetic map (see module comment). Grazing-incidence geometry for asymmetric reflections. */
 export function synthReciprocalSpaceMap(o: SynthMapOptions): SynthMap {
-  const lambda = o.wavelength ?? CU_KALPHA1;
-  const aR = latticeDismukes(o.geFraction);
+  const lambda = o.wavelength ?? CU_KALPHA1_M;
+  const aR = relaxedLattice(o.geFraction);
   const aPar = A_SI + o.relaxation * (aR - A_SI);
-  const aPerp = strainedPerpendicular(aR, aPar, biaxialRatio(o.geFraction));
-  const wellPerp = strainedPerpendicular(A_SI, aPar, biaxialRatio(0));
-  const at = (ap: number, az: number) => {
-    const q = layerPeakQ(ap, az, o.reflection);
-    return qToAngles(q.qx, q.qz, lambda);
-  };
+  const aPerp = perpendicularLattice(aR, aPar, biaxialD(o.geFraction));
+  const wellPerp = perpendicularLattice(A_SI, aPar, biaxialD(0));
+  const at = (ap: number, az: number) => peakAngles(ap, az, o.reflection, lambda);
   const truth = { substrate: at(A_SI, A_SI), buffer: at(aPar, aPerp), ...(o.well ?? true ? { well: at(aPar, wellPerp) } : {}) };
   const sr = o.sigmaRocking ?? 0.012 * DEG;
   const st = o.sigmaRadial ?? 0.01 * DEG;

@@ -16,6 +16,7 @@
 import { fft2dReal, hannWindow, isPowerOfTwo, powerSpectrum, signedBin } from "./fft2d.ts";
 import type { Vec2 } from "./geometry.ts";
 import { radToDeg } from "../numeric/angle.ts";
+import { median } from "simple-statistics";
 
 export interface BraggPeak {
   /** Spatial frequency, cycles/pixel (x right, y down). */
@@ -74,13 +75,12 @@ export function findBraggPeaks(
       if (isMax) candidates.push({ kx, ky, p });
     }
   }
-  band.sort((a, b) => a - b);
-  const median = band.length ? band[Math.floor(band.length / 2)] : 0;
+  const bandMedian = band.length ? median(band) : 0;
   candidates.sort((a, b) => b.p - a.p);
   return candidates.slice(0, options.count ?? 8).map((c) => ({
     g: { x: c.kx / width, y: c.ky / height },
     power: c.p,
-    contrast: median > 0 ? c.p / median : Number.MAX_VALUE,
+    contrast: bandMedian > 0 ? c.p / bandMedian : Number.MAX_VALUE,
   }));
 }
 

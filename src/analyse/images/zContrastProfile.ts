@@ -10,7 +10,7 @@
  * which removes the atomic-plane modulation; (4) the well is the darker band
  * (a Si well between SiGe barriers is darker in HAADF: Ge is heavier)
  * around the profile minimum, below half-way between the minimum and the
- * 90th-percentile level; (5) each interface is fitted with the logistic edge
+ * 90th-percentile level (simple-statistics quantile, type 7); (5) each interface is fitted with the logistic edge
  * of sigmoidFit.ts (REFERENCES §10), 10–90 % width = 2·ln 9·τ. The two moving
  * averages add 2·p²/12 to the edge's variance (π²τ²/3 for a logistic); this
  * is removed: τ² ← τ_fit² − p²/(2π²).
@@ -27,6 +27,7 @@ import { projectProfile, smoothOverPeriod } from "./growthProfile.ts";
 import { interfaceTilt } from "./interfaceTilt.ts";
 import { latticeSpacing } from "./latticeSpacing.ts";
 import { degToRad } from "../numeric/angle.ts";
+import { median, quantile } from "simple-statistics";
 
 export interface ZContrastOptions {
   pixelSize_m: number;
@@ -85,13 +86,12 @@ function growthPeriod(pixels: ArrayLike<number>, width: number, height: number, 
 
 /** Index range [iB, iT] of the dark band around the profile minimum, or a reason. */
 function darkBand(p: number[]): { iB: number; iT: number } | { reason: string } {
-  const sorted = p.slice().sort((a, b) => a - b);
-  const hi = sorted[Math.floor(0.9 * (sorted.length - 1))];
+  const hi = quantile(p, 0.9);
   let iMin = 0;
   for (let i = 1; i < p.length; i++) if (p[i] < p[iMin]) iMin = i;
   const lo = p[iMin];
-  const diffs = p.slice(1).map((v, i) => v - p[i]).sort((a, b) => Math.abs(a) - Math.abs(b));
-  const noise = Math.abs(diffs[Math.floor(diffs.length / 2)] ?? 0) * 1.4826 + 1e-12;
+  const absDiffs = p.slice(1).map((v, i) => Math.abs(v - p[i]));
+  const noise = (absDiffs.length ? median(absDiffs) : 0) * 1.4826 + 1e-12;
   if (hi - lo < 10 * noise) return { reason: "no darker well band stands out of the profile noise" };
   const thr = (hi + lo) / 2;
   let iB = iMin;

@@ -2,7 +2,7 @@
  * Quantum-well figures from a composition depth profile (SIMS, EDX, atom probe).
  *
  * Well location: the Ge fraction, smoothed by a 5-point running mean, is cut at
- * half-way between its minimum and its 90th percentile; the well is the
+ * half-way between its minimum and its 90th percentile (simple-statistics quantile: linear interpolation, Hyndman & Fan type 7); the well is the
  * low-Ge run bounded by high-Ge runs (barriers) on both sides — so a Si cap at
  * the surface is not mistaken for the well. With several, the run with the
  * lowest Ge wins.
@@ -21,6 +21,7 @@
  * Ge is a fraction (convert at.% before calling); contaminants in cm⁻³ as given.
  */
 import { fitSigmoidEdge, LN9, sigmoidAt, type SigmoidEdge } from "../numeric/sigmoidFit.ts";
+import { median, min, quantile } from "simple-statistics";
 
 export interface DepthProfileInput {
   /** Depth below the surface, nm. */
@@ -99,9 +100,8 @@ export function analyseDepthProfile(input: DepthProfileInput, options: DepthProf
   const z = idx.map((i) => input.depth[i]);
   const g = idx.map((i) => input.ge[i]);
   const sm = runningMean(g, 2);
-  const sorted = sm.slice().sort((a, b) => a - b);
-  const lo = sorted[0];
-  const hi = sorted[Math.floor(0.9 * (sorted.length - 1))];
+  const lo = min(sm);
+  const hi = quantile(sm, 0.9);
   if (!(hi - lo > 0.02)) return { ok: false, reason: "the Ge profile has no contrast between barrier and well" };
   const half = (lo + hi) / 2;
   const runs: { start: number; end: number; low: boolean }[] = [];
@@ -147,8 +147,7 @@ export function analyseDepthProfile(input: DepthProfileInput, options: DepthProf
 }
 
 function medianStep(z: number[]): number {
-  const d = z.slice(1).map((v, i) => v - z[i]).sort((a, b) => a - b);
-  return d[d.length >> 1] || 1;
+  return z.length > 1 ? median(z.slice(1).map((v, i) => v - z[i])) || 1 : 1;
 }
 
 function fitEdge(z: number[], g: number[], from: number, to: number, which: "top" | "bottom"): InterfaceFit | string {

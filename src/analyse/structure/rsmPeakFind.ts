@@ -12,13 +12,16 @@
  *    (rocking p = ω − 2θ/2, radial t = 2θ): an intensity centroid of
  *    (counts − bg) in a window (two passes: 6 spacings, then 3 second-moment
  *    widths), then a 2-D Gaussian A·exp(−(p−p0)²/2σp² − (t−t0)²/2σt²) + B fitted
- *    by Levenberg–Marquardt (nonlinearFit.ts). Uncertainty: the Gaussian fit's
- *    Jacobian standard errors; for the centroid, Poisson counting noise
+ *    by Levenberg–Marquardt (nonlinearFit.ts). Uncertainty: for the Gaussian fit,
+ *    the sandwich covariance with Poisson variances (sandwichCovariance.ts; the
+ *    pooled Jacobian errors were about half the Monte Carlo scatter, test/analyse/
+ *    standardErrors/xray.test.ts); for the centroid, Poisson counting noise
  *    propagated to the weighted mean, σ²(x̄) = Σ(x_i − x̄)²·var(c_i)/W².
  *    If the fit fails or lands outside the window, the centroid is kept.
  * Angles in rad. Pure; throws only for programming errors.
  */
 import { nonlinearFit } from "../numeric/nonlinearFit.ts";
+import { sandwichCovariance } from "../numeric/sandwichCovariance.ts";
 import { median } from "simple-statistics";
 
 export interface MapPoint {
@@ -274,7 +277,14 @@ function gaussianFit(win: number[], ctx: RefineCtx, c: { mu: number; mv: number;
       jacobian,
     });
     const [, u0, v0] = fit.params;
-    const [, eu, ev] = fit.stdErr;
+    // Counts are Poisson: the centre's errors come from the sandwich covariance with
+    // var(c_k) = max(fitted count, 1), not the pooled s²(JᵀJ)⁻¹ of the unweighted fit.
+    const f = model(fit.params);
+    const jac = jacobian(fit.params);
+    const rows = win.map((_, k) => Float64Array.from(jac(k)));
+    const cov = sandwichCovariance(rows, win.map((_, k) => Math.max(f(k), 1)));
+    const eu = Math.sqrt(cov[1][1]);
+    const ev = Math.sqrt(cov[2][2]);
     const ok = [u0, v0, eu, ev].every(Number.isFinite) && Math.abs(u0 - c.mu) < 3 * sdu + 1 && Math.abs(v0 - c.mv) < 3 * sdv + 1;
     return ok ? { mu: u0, mv: v0, eu, ev } : undefined;
   } catch {

@@ -30,6 +30,38 @@ describe("fft2d", () => {
     const back = ifft2d(f);
     for (let i = 0; i < 128; i++) expect(back.re[i]).toBeCloseTo(pix[i], 5);
   });
+  // Known transforms of the forward DFT F(u,v) = Σ f(x,y)·exp(−2πi(ux/W + vy/H)) (definition; common practice).
+  it("transforms a single cosine into two spots of height A·W·H/2 at ±k, nothing else", () => {
+    const [W, H, u0, v0, A, phi] = [16, 8, 3, 2, 1.7, 0.4];
+    const pix = new Float64Array(W * H);
+    for (let y = 0; y < H; y++) for (let x = 0; x < W; x++) pix[y * W + x] = A * Math.cos(2 * Math.PI * (u0 * x / W + v0 * y / H) + phi);
+    const f = fft2dReal(pix, W, H, { subtractMean: false });
+    // cos θ = (e^{iθ} + e^{−iθ})/2 → F(u0,v0) = (A·W·H/2)·e^{iφ}, F(−u0,−v0) its conjugate.
+    const at = (u: number, v: number) => ((v + H) % H) * W + ((u + W) % W);
+    expect(f.re[at(u0, v0)]).toBeCloseTo((A * W * H / 2) * Math.cos(phi), 9);
+    expect(f.im[at(u0, v0)]).toBeCloseTo((A * W * H / 2) * Math.sin(phi), 9);
+    expect(f.re[at(-u0, -v0)]).toBeCloseTo((A * W * H / 2) * Math.cos(phi), 9);
+    expect(f.im[at(-u0, -v0)]).toBeCloseTo(-(A * W * H / 2) * Math.sin(phi), 9);
+    for (let i = 0; i < W * H; i++) if (i !== at(u0, v0) && i !== at(-u0, -v0)) expect(Math.hypot(f.re[i], f.im[i])).toBeLessThan(1e-9);
+  });
+  it("transforms a separable product r^x·δ(y − y0) into G(u)·exp(−2πi v·y0/H)", () => {
+    const [W, H, r, y0] = [16, 8, 0.8, 3];
+    const pix = new Float64Array(W * H);
+    for (let x = 0; x < W; x++) pix[y0 * W + x] = r ** x;
+    const f = fft2dReal(pix, W, H, { subtractMean: false });
+    for (let v = 0; v < H; v++) {
+      for (let u = 0; u < W; u++) {
+        // Geometric series: G(u) = (1 − r^W)/(1 − r·e^{−2πiu/W}); times the shift factor e^{−2πi v y0/H}.
+        const a = (-2 * Math.PI * u) / W;
+        const [dr, di] = [1 - r * Math.cos(a), -r * Math.sin(a)];
+        const d2 = dr * dr + di * di;
+        const [gr, gi] = [((1 - r ** W) * dr) / d2, (-(1 - r ** W) * di) / d2];
+        const b = (-2 * Math.PI * v * y0) / H;
+        expect(f.re[v * W + u]).toBeCloseTo(gr * Math.cos(b) - gi * Math.sin(b), 9);
+        expect(f.im[v * W + u]).toBeCloseTo(gr * Math.sin(b) + gi * Math.cos(b), 9);
+      }
+    }
+  });
   it("rejects non-power-of-two sizes", () => {
     expect(() => fft2dReal(new Float32Array(12 * 8), 12, 8)).toThrow(RangeError);
   });
@@ -70,11 +102,24 @@ describe("latticeSpacing", () => {
     const r = latticeSpacing(img.pixels, img.width, img.height, { direction: { x: 0, y: 1 } });
     expect(r.ok && Math.abs(r.period_px / 7.9 - 1)).toBeLessThan(5e-4);
   });
-  it("finds non-collinear spots strongest first", () => {
+  it("finds the two non-collinear lattice spots, strongest first", () => {
     const img = lattice(6.37, 7.9);
     const peaks = findBraggPeaks(img.pixels, 256, 256);
     expect(peaks.length).toBeGreaterThan(1);
-    expect(peaks[0].power).toBeGreaterThanOrEqual(peaks[1].power);
+    for (let i = 1; i < peaks.length; i++) expect(peaks[i - 1].power).toBeGreaterThanOrEqual(peaks[i].power);
+    // The two strongest spots are the two lattice directions' fundamentals: not collinear
+    // (|g0 × g1| / (|g0||g1|) = |sin angle| > sin 45°), at 1/6.37 px⁻¹ along x and 1/7.9 px⁻¹ along y
+    // to one bin (1/256 px⁻¹), as the synthetic lattice was drawn.
+    const [g0, g1] = [peaks[0].g, peaks[1].g];
+    expect(Math.abs(g0.x * g1.y - g0.y * g1.x) / (Math.hypot(g0.x, g0.y) * Math.hypot(g1.x, g1.y))).toBeGreaterThan(Math.SQRT1_2);
+    const along = (g: { x: number; y: number }) => (Math.abs(g.x) > Math.abs(g.y) ? "x" : "y");
+    const gx = along(g0) === "x" ? g0 : g1;
+    const gy = along(g0) === "x" ? g1 : g0;
+    expect(along(gx)).toBe("x");
+    expect(along(gy)).toBe("y");
+    expect(Math.abs(Math.abs(gx.x) - 1 / 6.37)).toBeLessThanOrEqual(1 / 256);
+    expect(Math.abs(Math.abs(gy.y) - 1 / 7.9)).toBeLessThanOrEqual(1 / 256);
+    expect(Math.abs(gx.y) + Math.abs(gy.x)).toBeLessThanOrEqual(1 / 256);
   });
   it("returns a reason for pure noise, NaN pixels and non-power-of-two sizes", () => {
     let s = 1;

@@ -13,10 +13,20 @@ function exactLaw(np: number, a: number, p: number) {
   for (let k = 0; k <= 60; k++) {
     const nn = 5e13 * k; // 0 … 3e15 m⁻² (0 … 3e11 cm⁻²)
     n.push(nn);
-    s.push(percolationConductivity(nn, np, a, p));
+    // Written out here, not the module's percolationConductivity: σ = A·(n − n_p)^p above n_p, 0 at and below.
+    s.push(nn > np ? a * (nn - np) ** p : 0);
   }
   return { n, s };
 }
+
+describe("percolationConductivity (the charts' forward law)", () => {
+  it("σ = A·(n − n_p)^p above n_p, 0 at and below (hand values)", () => {
+    expect(percolationConductivity(5, 1, 2, 1.5)).toBeCloseTo(16, 12); // 2·4^1.5 = 16
+    expect(percolationConductivity(10, 1, 1, 2)).toBe(81);
+    expect(percolationConductivity(1, 1, 2, 1.5)).toBe(0);
+    expect(percolationConductivity(0.5, 1, 2, 1.5)).toBe(0);
+  });
+});
 
 describe("percolationFit", () => {
   const np = 5e14; // 5e10 cm⁻²
@@ -70,7 +80,7 @@ describe("percolationFit", () => {
   it("skips with a reason when the sweep never approaches the insulating side", () => {
     const a = 1e-3 / 2.5e15 ** 1.31;
     const n = Array.from({ length: 20 }, (_, k) => 2e15 + 5e13 * k);
-    const s = n.map((x) => percolationConductivity(x, np, a, 1.31));
+    const s = n.map((x) => a * (x - np) ** 1.31); // all above n_p (written out, REFERENCES §8 model)
     const r = percolationFit(n, s);
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.reason).toMatch(/insulating side/);
