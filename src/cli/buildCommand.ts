@@ -32,8 +32,8 @@ export async function runBuild(options: BuildOptions, io: CommandIO): Promise<nu
     const shard = options.shard;
     const result = shard ? await buildShard({ ...options, quiet, shard }, buildIO) : await build({ ...options, quiet }, buildIO);
     if (!quiet) process.stderr.write("\r\x1b[2K");
-    // For the benchmark (bench/run.ts): phase times, cache use and this process's peak memory.
-    if (process.env.WAFERBOOK_STATS) await writeFile(process.env.WAFERBOOK_STATS, JSON.stringify({ ...result.stats, wall_ms: Date.now() - started, maxRSS_kB: process.resourceUsage().maxRSS }) + "\n");
+    // For the benchmark (bench/run.ts): phase times, cache use, this process's CPU time (all threads) and peak memory.
+    if (process.env.WAFERBOOK_STATS) await writeFile(process.env.WAFERBOOK_STATS, JSON.stringify({ ...result.stats, wall_ms: Date.now() - started, cpu_ms: Math.round((process.resourceUsage().userCPUTime + process.resourceUsage().systemCPUTime) / 1000), maxRSS_kB: process.resourceUsage().maxRSS }) + "\n");
     reportProblems(result.problems, io.err);
     for (const w of result.warnings ?? []) io.err(`waferbook: warning: ${w}`);
     io.out(summary(result, (Date.now() - started) / 1000));
