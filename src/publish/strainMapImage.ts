@@ -17,7 +17,7 @@
  */
 import { PNG } from "pngjs";
 import { growthCoordinate, type GrowthAxis } from "../analyse/images/geometry.ts";
-import { encodeGreyPng } from "./greyPng.ts";
+import { encodeGreyPng, PAGE_PNG } from "./greyPng.ts";
 
 type RGB = [number, number, number];
 
@@ -134,7 +134,7 @@ export function renderStrainMap(map: ArrayLike<number>, width: number, height: n
       put(x, y, x === zeroX ? LINE : divergingColour(t));
     }
   }
-  return { png: PNG.sync.write(png), width: png.width, height: png.height, factor: f, limit, colourBar: [small.height + gap, small.height + gap + bar] };
+  return { png: PNG.sync.write(png, PAGE_PNG), width: png.width, height: png.height, factor: f, limit, colourBar: [small.height + gap, small.height + gap + bar] };
 }
 
 /** Greyscale 8-bit PNG of a micrograph, stretched between its 0.5 % and 99.5 % levels. */
@@ -144,5 +144,5 @@ export function renderMicrograph(pixels: ArrayLike<number>, width: number, heigh
   const lo = sorted[Math.floor(0.005 * (sorted.length - 1))] ?? 0;
   const hi = sorted[Math.floor(0.995 * (sorted.length - 1))] ?? 1;
   const levels = Array.from(small.map, (v) => (Number.isFinite(v) && hi > lo ? Math.round(255 * Math.max(0, Math.min(1, (v - lo) / (hi - lo)))) : 128));
-  return { png: encodeGreyPng(levels, small.width, small.height), width: small.width, height: small.height, factor: small.factor };
+  return { png: encodeGreyPng(levels, small.width, small.height, 8, PAGE_PNG), width: small.width, height: small.height, factor: small.factor };
 }
