@@ -8,6 +8,7 @@
  */
 import { promises as fs } from "node:fs";
 import path from "node:path";
+import pLimit from "p-limit";
 import { judgeOutcome, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
 import { codeVersion, damagedEntryWarning, defaultCacheDir } from "./cache.ts";
 import { drawnPageKey, restoreDrawnPage } from "./drawnPages.ts";
@@ -166,13 +167,14 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
         else toDraw.push({ folder: o.folder, key: found[i].key, outcome: o });
       }
       // Pages drawn by a --shard build (or an earlier one) are taken from the cache as drawn (drawnPages.ts).
-      let pagesFromCache = 0;
-      const stillToDraw = [];
-      for (const it of toDraw) {
-        const restored = cacheDir && it.key && (await restoreDrawnPage(cacheDir, drawnPageKey(pageCode, it.key, it.outcome), it.folder, tmpDir, scratchDir, (file, reason) => jobs.cacheWarnings.push(damagedEntryWarning(it.folder, file, reason))));
-        if (restored) pagesFromCache++;
-        else stillToDraw.push(it);
-      }
+      // A few at a time: each is a file read and a few writes.
+      const restoreLimit = pLimit(4);
+      const damagedPages: Problem[][] = toDraw.map(() => []);
+      const restored = await Promise.all(toDraw.map((it, k) => restoreLimit(async () => !!cacheDir && !!it.key && (await restoreDrawnPage(cacheDir, drawnPageKey(pageCode, it.key, it.outcome), it.folder, tmpDir, scratchDir, (file, reason) => damagedPages[k].push(damagedEntryWarning(it.folder, file, reason)))))));
+      // In folder order, whatever order the reads finished in.
+      jobs.cacheWarnings.push(...damagedPages.flat());
+      const pagesFromCache = restored.filter(Boolean).length;
+      const stillToDraw = toDraw.filter((_, k) => !restored[k]);
       await jobs.drawAll(stillToDraw);
       // The workers' heaps go before rendering, the main thread's busiest moment for memory.
       await jobs.close();
