@@ -14,12 +14,16 @@
  *   - largest and median wafer page weight: the page's HTML (charts' data
  *     and SVG maps are embedded in it) plus its PNG pictures.
  * Prints a table and writes bench/results/<date>-<size>.json (git-ignored).
+ * With `--shards N`, measures a sharded build instead (bench/shards.ts): a
+ * cold single-process build, N `--shard K/N` processes sharing one cache
+ * folder, then the assembly; each shard's time, the assembly's, the speed-up.
  */
-import { execFileSync } from "node:child_process";
+import { execFile } from "node:child_process";
 import { promises as fs } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
+import { promisify } from "node:util";
 import { DEFAULT_SIZE, generateBenchData, writeBenchWafer, type BenchSize } from "./generate.ts";
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
@@ -27,6 +31,8 @@ const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 export interface BuildRun {
   wall_s: number;
   maxRSS_MB: number;
+  /** CPU time of the build process, all its threads (user + system), s: less sensitive to a busy machine than wall time. */
+  cpu_s: number;
   cacheHits: number;
   /** Wafer pages reused unchanged from the previous output. */
   pagesReused: number;
@@ -57,10 +63,14 @@ async function sizeOf(dir: string, filter: (rel: string) => boolean = () => true
   return total;
 }
 
-/** Runs one build as a child process and returns its measurements. */
-export async function runBuild(dataDir: string, outDir: string, extraArgs: string[] = []): Promise<BuildRun> {
-  const statsFile = path.join(path.dirname(outDir), `stats-${process.pid}.json`);
-  const rssFile = path.join(path.dirname(outDir), `rss-${process.pid}.txt`);
+/**
+ * Runs one build as a child process and returns its measurements. `tag`
+ * names its stats files (builds run at the same time need different tags);
+ * `env` is added to the child's environment.
+ */
+export async function runBuild(dataDir: string, outDir: string, extraArgs: string[] = [], { tag = "", env = {} }: { tag?: string; env?: Record<string, string> } = {}): Promise<BuildRun> {
+  const statsFile = path.join(path.dirname(outDir), `stats-${process.pid}${tag}.json`);
+  const rssFile = path.join(path.dirname(outDir), `rss-${process.pid}${tag}.txt`);
   await fs.rm(statsFile, { force: true });
   // BENCH_WAFERBOOK_BIN: another checkout's bin/waferbook.js, to measure a "before".
   const bin = process.env.BENCH_WAFERBOOK_BIN ?? path.join(ROOT, "bin", "waferbook.js");
@@ -68,11 +78,11 @@ export async function runBuild(dataDir: string, outDir: string, extraArgs: strin
   const timeBin = await fs.access("/usr/bin/time").then(() => true, () => false);
   const t = performance.now();
   const [cmd, argv] = timeBin ? ["/usr/bin/time", ["-f", "%M", "-o", rssFile, process.execPath, ...args]] : [process.execPath, args];
-  execFileSync(cmd, argv, { env: { ...process.env, WAFERBOOK_STATS: statsFile }, stdio: ["ignore", "ignore", "pipe"], maxBuffer: 64 * 1024 * 1024 });
+  await promisify(execFile)(cmd, argv, { env: { ...process.env, ...env, WAFERBOOK_STATS: statsFile }, maxBuffer: 64 * 1024 * 1024 });
   const wall = (performance.now() - t) / 1000;
-  const s = JSON.parse(await fs.readFile(statsFile, "utf8").catch(() => "{}")) as { cacheHits?: number; analysed?: number; pagesReused?: number; phases?: Record<string, number>; maxRSS_kB?: number };
+  const s = JSON.parse(await fs.readFile(statsFile, "utf8").catch(() => "{}")) as { cacheHits?: number; analysed?: number; pagesReused?: number; phases?: Record<string, number>; maxRSS_kB?: number; cpu_ms?: number };
   const rss = timeBin ? Number((await fs.readFile(rssFile, "utf8")).trim().split("\n").at(-1)) : s.maxRSS_kB ?? 0;
-  return { wall_s: round(wall, 2), maxRSS_MB: round(rss / 1024, 0), cacheHits: s.cacheHits ?? 0, analysed: s.analysed ?? -1, pagesReused: s.pagesReused ?? 0, phases_ms: s.phases ?? {} };
+  return { wall_s: round(wall, 2), maxRSS_MB: round(rss / 1024, 0), cpu_s: round((s.cpu_ms ?? 0) / 1000, 2), cacheHits: s.cacheHits ?? 0, analysed: s.analysed ?? -1, pagesReused: s.pagesReused ?? 0, phases_ms: s.phases ?? {} };
 }
 
 /** Page weight of every wafer page: index.html plus the PNGs beside it, kB. */
@@ -129,7 +139,7 @@ export function table(r: BenchResult): string {
     ["size", `${r.size.wafers} wafers × ${r.size.devices} devices × ${r.size.sweeps} sweeps × ${r.size.points} points${r.size.images ? " + images" : ""}; ${r.cores} cores`],
     ["raw data", `${r.raw_MB} MB (sweeps ${r.sweep_MB} MB)`],
     ["cold build", run(r.cold)],
-    ["throughput", `${r.throughput_MBps} MB/s raw, ${r.sweep_throughput_MBps} MB/s sweeps (goal ≥ 50)`],
+    ["throughput", `${r.throughput_MBps} MB/s raw (${round(r.throughput_MBps / r.cores, 2)} MB/s per core on ${r.cores} cores), ${r.sweep_throughput_MBps} MB/s sweeps (goal ≥ 50)`],
     ["warm, one wafer changed", `${run(r.warmOneWafer)} = ${Math.round((100 * r.warmOneWafer.wall_s) / r.cold.wall_s)} % of cold (goal ≤ 10 %)`],
     ["warm, targets changed", `${run(r.warmTargets)} (goal: re-analysed 0)`],
     ["peak RSS", `cold ${r.cold.maxRSS_MB} MB, warm ${r.warmOneWafer.maxRSS_MB} MB (goal ≤ 1024)`],
@@ -139,9 +149,10 @@ export function table(r: BenchResult): string {
   return rows.map(([k, v]) => `${k.padEnd(w)}  ${v}`).join("\n");
 }
 
-function parse(argv: string[]): { size: BenchSize; keep: boolean; dir?: string } {
+function parse(argv: string[]): { size: BenchSize; keep: boolean; dir?: string; shards?: number } {
   const size = { ...DEFAULT_SIZE };
   let keep = false;
+  let shards: number | undefined;
   let dir: string | undefined;
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i];
@@ -157,20 +168,32 @@ function parse(argv: string[]): { size: BenchSize; keep: boolean; dir?: string }
     else if (a === "--images") size.images = true;
     else if (a === "--keep") keep = true;
     else if (a === "--dir") dir = argv[++i];
-    else throw new Error(`unknown option ${a}; options: --wafers N --devices N --sweeps N --points N --images --keep --dir DIR`);
+    else if (a === "--shards") shards = num();
+    else throw new Error(`unknown option ${a}; options: --wafers N --devices N --sweeps N --points N --images --keep --dir DIR --shards N`);
   }
-  return { size, keep, dir };
+  return { size, keep, dir, shards };
+}
+
+/** `--shards N`: the sharded benchmark (bench/shards.ts) on the same synthetic archive. */
+async function benchSharded(size: BenchSize, dir: string, shards: number) {
+  const { benchShards, shardTable } = await import("./shards.ts");
+  const dataDir = path.join(dir, "data");
+  console.log(`generating ${size.wafers} wafers × ${size.devices} devices × ${size.sweeps} sweeps × ${size.points} points${size.images ? " + images" : ""} into ${dir}`);
+  await generateBenchData(dataDir, size, path.join(ROOT, "data"));
+  const r = { size, ...(await benchShards(runBuild, dataDir, dir, shards, round((await sizeOf(dataDir)) / (1024 * 1024), 1))) };
+  console.log(shardTable(r));
+  return r;
 }
 
 async function main(): Promise<void> {
-  const { size, keep, dir: given } = parse(process.argv.slice(2));
+  const { size, keep, dir: given, shards } = parse(process.argv.slice(2));
   const dir = given ? path.resolve(given) : await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-bench-"));
   try {
-    const r = await bench(size, dir);
-    console.log(table(r));
+    const r = shards ? await benchSharded(size, dir, shards) : await bench(size, dir);
+    if (!shards) console.log(table(r as BenchResult));
     const resultsDir = path.join(ROOT, "bench", "results");
     await fs.mkdir(resultsDir, { recursive: true });
-    const file = path.join(resultsDir, `${new Date().toISOString().replace(/[:.]/g, "-")}-${size.wafers}w.json`);
+    const file = path.join(resultsDir, `${new Date().toISOString().replace(/[:.]/g, "-")}-${size.wafers}w${shards ? `-${shards}shards` : ""}.json`);
     await fs.writeFile(file, JSON.stringify(r, null, 1) + "\n");
     console.log(`results written to ${path.relative(process.cwd(), file)}`);
   } finally {

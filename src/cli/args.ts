@@ -10,6 +10,7 @@
  */
 import { parseArgs as nodeParseArgs } from "node:util";
 import { didYouMean } from "../validate/problem.ts";
+import { parseShard, type Shard } from "./shard.ts";
 
 /** A usage mistake: printed as `waferbook: <message>` with exit code 2. */
 export class UsageError extends Error {}
@@ -49,6 +50,8 @@ export interface BuildOptions {
   quiet: boolean;
   /** Analysis cache folder; null with --no-cache. Default: .waferbook-cache/ beside the output folder. */
   cache?: string | null;
+  /** --shard K/N: analyse and draw only partition K of N into the cache, render nothing (src/cli/shard.ts). */
+  shard?: Shard;
 }
 
 /** `--base qual` → `/qual/`; refuses anything but a plain URL path. */
@@ -62,7 +65,7 @@ function basePath(value: string): string {
 
 const build = define<BuildOptions>({
   summary: "builds the qualification site",
-  usage: "[--data DIR] [--out DIR] [--strict] [--base PATH] [--quiet]\n      [--cache DIR | --no-cache]",
+  usage: "[--data DIR] [--out DIR] [--strict] [--base PATH] [--quiet]\n      [--cache DIR | --no-cache] [--shard K/N]",
   options: {
     data: COMMON_OPTIONS.data,
     out: { type: "string", arg: "DIR", help: "where the site is written (default: ./site): a link to the\ncurrent build's folder beside it, switched only when the build\nsucceeds; a failed build leaves the previous site as it was.\nWafer pages whose content has not changed are carried over\nfrom the previous site (docs/publishing.md)." },
@@ -71,12 +74,20 @@ const build = define<BuildOptions>({
     quiet: COMMON_OPTIONS.quiet,
     cache: { type: "string", arg: "DIR", help: "where analysis results are kept between builds, keyed by the\nwafer's files, settings and the analysis code (default:\n.waferbook-cache/ beside the --out folder)" },
     "no-cache": { type: "boolean", help: "analyse every wafer from its raw files and draw every page\nafresh, ignoring the cache and the pages of the previous site" },
+    shard: { type: "string", arg: "K/N", help: "analyse and draw only the wafers of shard K of N (1 ≤ K ≤ N)\ninto the cache folder, and write no site (--out is not\ntouched); copy the N cache folders into one and build\nwithout --shard to render the whole site (docs/scaling.md)" },
   },
   normalise(v, _positionals, order) {
     const out = (v.out as string | undefined) ?? "site";
     if (!out.trim() || out === "/") throw new UsageError("--out must name a folder");
     // --cache DIR and --no-cache: the later one wins.
     const lastCache = order.filter((n) => n === "cache" || n === "no-cache").at(-1);
+    let shard: Shard | undefined;
+    if (v.shard !== undefined) {
+      const parsed = parseShard(v.shard as string);
+      if ("error" in parsed) throw new UsageError(parsed.error);
+      if (lastCache === "no-cache") throw new UsageError("--shard writes its results into the cache folder, so it cannot run with --no-cache; drop --no-cache (and give --cache DIR to choose the folder)");
+      shard = parsed;
+    }
     return {
       data: (v.data as string | undefined) ?? "data",
       out,
@@ -84,6 +95,7 @@ const build = define<BuildOptions>({
       basePath: v.base === undefined ? "" : basePath(v.base as string),
       quiet: v.quiet === true,
       cache: lastCache === "no-cache" ? null : lastCache === "cache" ? (v.cache as string) : undefined,
+      ...(shard ? { shard } : {}),
     };
   },
 });

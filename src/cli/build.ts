@@ -8,8 +8,10 @@
  */
 import { promises as fs } from "node:fs";
 import path from "node:path";
+import pLimit from "p-limit";
 import { judgeOutcome, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
-import { codeVersion, defaultCacheDir } from "./cache.ts";
+import { codeVersion, damagedEntryWarning, defaultCacheDir } from "./cache.ts";
+import { drawnPageKey, restoreDrawnPage } from "./drawnPages.ts";
 import { WaferJobs } from "./workerPool.ts";
 import { loadSiteInputs } from "../read/site.ts";
 import { buildSiteModel, sortOutcomes, waferPageExtras, type SiteMeta } from "../publish/siteModel.ts";
@@ -46,10 +48,10 @@ export interface BuildResult {
   problems: Problem[];
   outDir: string;
   pages: number;
-  /** Wafers taken from the analysis cache / analysed from raw files; wafer pages reused unchanged from the previous output; raw files read to compute cache keys (the others' hashes came from the file-hash record); wall time of each phase, ms. */
+  /** Wafers taken from the analysis cache / analysed from raw files; wafer pages reused unchanged from the previous output; pages taken as drawn from the cache (drawnPages.ts); raw files read to compute cache keys (the others' hashes came from the file-hash record); wall time of each phase, ms. */
   /** Things the user should know that did not stop the build (e.g. an old site generation that could not be removed). */
   warnings?: string[];
-  stats?: { cacheHits: number; analysed: number; pagesReused: number; filesHashed: number; phases: Record<string, number> };
+  stats?: { cacheHits: number; analysed: number; pagesReused: number; pagesFromCache?: number; drawn?: number; filesHashed: number; phases: Record<string, number> };
 }
 
 /**
@@ -155,19 +157,28 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       commitsOf = (folder) => ({ wafer: pageExtras.get(folder)?.history.commits[0]?.hash ?? null, targets: targetsCommit });
       const pageCode = await pageCodeVersion(version);
       const fingerprints = new Map<string, string>();
-      const toDraw: { folder: string; key?: string }[] = [];
+      const toDraw: { folder: string; key?: string; outcome: WaferOutcome }[] = [];
       for (const [i, o] of outcomes.entries()) {
         // Everything in the wafer's output folder: the page's extras, and the commits its results.json names.
         const fp = pageFingerprint(pageCode, meta.basePath, o, { extras: pageExtras.get(o.folder), commits: commitsOf(o.folder) });
         fingerprints.set(o.folder, fp);
         if (drawn.has(o.folder)) continue;
         if (reusePages && (await previousFingerprint(path.join(outDir, "wafers", o.folder, "index.html"))) === fp) reused.add(o.folder);
-        else toDraw.push({ folder: o.folder, key: found[i].key });
+        else toDraw.push({ folder: o.folder, key: found[i].key, outcome: o });
       }
-      await jobs.drawAll(toDraw);
+      // Pages drawn by a --shard build (or an earlier one) are taken from the cache as drawn (drawnPages.ts).
+      // A few at a time: each is a file read and a few writes.
+      const restoreLimit = pLimit(4);
+      const damagedPages: Problem[][] = toDraw.map(() => []);
+      const restored = await Promise.all(toDraw.map((it, k) => restoreLimit(async () => !!cacheDir && !!it.key && (await restoreDrawnPage(cacheDir, drawnPageKey(pageCode, it.key, it.outcome), it.folder, tmpDir, scratchDir, (file, reason) => damagedPages[k].push(damagedEntryWarning(it.folder, file, reason)))))));
+      // In folder order, whatever order the reads finished in.
+      jobs.cacheWarnings.push(...damagedPages.flat());
+      const pagesFromCache = restored.filter(Boolean).length;
+      const stillToDraw = toDraw.filter((_, k) => !restored[k]);
+      await jobs.drawAll(stillToDraw);
       // The workers' heaps go before rendering, the main thread's busiest moment for memory.
       await jobs.close();
-      stats = { cacheHits: analysed.filter((a) => a.cacheHit).length, analysed: analysed.filter((a) => !a.cacheHit).length, pagesReused: reused.size, filesHashed: jobs.fileHashes?.hashed ?? 0, phases };
+      stats = { cacheHits: analysed.filter((a) => a.cacheHit).length, analysed: analysed.filter((a) => !a.cacheHit).length, pagesReused: reused.size, pagesFromCache, drawn: drawn.size + stillToDraw.length, filesHashed: jobs.fileHashes?.hashed ?? 0, phases };
       const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history });
       lap("model");
       written = await renderSite(model, sorted.map((o) => o.folder).filter((f) => !reused.has(f)), tmpDir, scratchDir, meta, pageExtras, fingerprints);

@@ -9,8 +9,9 @@ import { writeFile } from "node:fs/promises";
 import { EXIT, type BuildOptions } from "./args.ts";
 import { build, BuildLockedError, BuildStoppedError } from "./build.ts";
 import { OutputRefusedError } from "./outputGuard.ts";
-import { reportInternalError, reportProblems, summary } from "./report.ts";
+import { cacheLine, reportInternalError, reportProblems, summary } from "./report.ts";
 import { buildStamp } from "./buildStamp.ts";
+import { buildShard, type ShardResult } from "./shardBuild.ts";
 import type { CommandIO } from "./main.ts";
 
 /** `announce: false` leaves out the line saying where the site went (serve says it its own way). */
@@ -24,22 +25,28 @@ export async function runBuild(options: BuildOptions, io: CommandIO, { announce 
   const quiet = options.quiet || process.env.CI === "true" || !process.stderr.isTTY;
   const started = Date.now();
   try {
-    const result = await build({ ...options, quiet }, {
-      log: quiet ? () => {} : (s) => process.stderr.write(`\r\x1b[2K${s} (${((Date.now() - started) / 1000).toFixed(1)} s)`),
+    const buildIO = {
+      log: quiet ? () => {} : (s: string) => process.stderr.write(`\r\x1b[2K${s} (${((Date.now() - started) / 1000).toFixed(1)} s)`),
       today: () => new Date().toISOString().slice(0, 10),
       now: stamp.stamp,
-    });
+    };
+    const shard = options.shard;
+    const result = shard ? await buildShard({ ...options, quiet, shard }, buildIO) : await build({ ...options, quiet }, buildIO);
     if (!quiet) process.stderr.write("\r\x1b[2K");
-    // For the benchmark (bench/run.ts): phase times, cache use and this process's peak memory.
-    if (process.env.WAFERBOOK_STATS) await writeFile(process.env.WAFERBOOK_STATS, JSON.stringify({ ...result.stats, wall_ms: Date.now() - started, maxRSS_kB: process.resourceUsage().maxRSS }) + "\n");
+    // For the benchmark (bench/run.ts): phase times, cache use, this process's CPU time (all threads) and peak memory.
+    if (process.env.WAFERBOOK_STATS) await writeFile(process.env.WAFERBOOK_STATS, JSON.stringify({ ...result.stats, wall_ms: Date.now() - started, cpu_ms: Math.round((process.resourceUsage().userCPUTime + process.resourceUsage().systemCPUTime) / 1000), maxRSS_kB: process.resourceUsage().maxRSS }) + "\n");
     reportProblems(result.problems, io.err);
     for (const w of result.warnings ?? []) io.err(`waferbook: warning: ${w}`);
     io.out(summary(result, (Date.now() - started) / 1000));
+    if (result.ok && result.stats) io.out(cacheLine(result.stats));
     if (!result.ok) {
       io.err(`waferbook: ${result.reason ? `${result.reason}: ` : ""}nothing could be built; the previous site was left as it was.`);
       return EXIT.inputErrors;
     }
-    if (announce) io.out(siteWrittenMessage(path.relative(process.cwd(), result.outDir) || ".", options.basePath));
+    if ("shard" in result) {
+      const sh = (result as ShardResult).shard;
+      io.out(`shard ${sh.index}/${sh.count}: ${sh.wafers} of ${sh.of} wafers, ${sh.pagesStored} drawn page${sh.pagesStored === 1 ? "" : "s"} stored; cache written to ${path.relative(process.cwd(), sh.cacheDir) || "."} (no site written: copy every shard's cache folder into one and run waferbook build on it)`);
+    } else if (announce) io.out(siteWrittenMessage(path.relative(process.cwd(), result.outDir) || ".", options.basePath));
     const errors = result.problems.filter((p) => p.severity === "error").length;
     if (options.strict && errors > 0) {
       io.err(`waferbook: --strict: ${errors} input error${errors === 1 ? "" : "s"} (listed above)`);

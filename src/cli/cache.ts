@@ -157,10 +157,8 @@ export async function readEntry(cacheDir: string, key: string, form: EntryForm =
       () => undefined,
     );
   };
-  const head = ENTRY_MAGIC.length + CHECKSUM_BYTES;
-  if (bytes.length < head || !bytes.subarray(0, ENTRY_MAGIC.length).equals(ENTRY_MAGIC)) return damaged(`not a waferbook cache entry of this version (${bytes.length} bytes, unexpected header)`);
-  const payload = bytes.subarray(head);
-  if (!createHash("sha256").update(payload).digest().equals(bytes.subarray(ENTRY_MAGIC.length, head))) return damaged("its SHA-256 checksum does not match its contents");
+  const payload = unseal(bytes);
+  if (typeof payload === "string") return damaged(payload);
   try {
     const entry = v8.deserialize(payload) as CacheEntry;
     if (entry && typeof entry === "object" && typeof entry.folder === "string" && Array.isArray(entry.files) && Array.isArray(entry.problems)) return entry;
@@ -200,8 +198,21 @@ export function entryMismatch(entry: CacheEntry, folder: string, digests: Readon
 
 /** Header (magic and SHA-256 of the payload) and payload of an entry file. */
 function entryBytes(entry: CacheEntry): Buffer {
-  const payload = v8.serialize(entry);
+  return seal(v8.serialize(entry));
+}
+
+/** A cache file's bytes: ENTRY_MAGIC, the SHA-256 of the payload, the payload. */
+export function seal(payload: Buffer): Buffer {
   return Buffer.concat([ENTRY_MAGIC, createHash("sha256").update(payload).digest(), payload]);
+}
+
+/** The payload of a cache file written by `seal`, or what is wrong with it (a string) when the header or checksum does not match. */
+export function unseal(bytes: Buffer): Buffer | string {
+  const head = ENTRY_MAGIC.length + CHECKSUM_BYTES;
+  if (bytes.length < head || !bytes.subarray(0, ENTRY_MAGIC.length).equals(ENTRY_MAGIC)) return `not a waferbook cache entry of this version (${bytes.length} bytes, unexpected header)`;
+  const payload = bytes.subarray(head);
+  if (!createHash("sha256").update(payload).digest().equals(bytes.subarray(ENTRY_MAGIC.length, head))) return "its SHA-256 checksum does not match its contents";
+  return payload;
 }
 
 /**
@@ -220,7 +231,7 @@ export async function writeEntry(cacheDir: string, key: string, entry: CacheEntr
 }
 
 /** Writes a file by temporary name and rename; false (and nothing left behind) if that failed. */
-async function writeAtomically(dest: string, bytes: Buffer): Promise<boolean> {
+export async function writeAtomically(dest: string, bytes: Buffer): Promise<boolean> {
   const tmp = `${dest}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`;
   try {
     await fs.writeFile(tmp, bytes);

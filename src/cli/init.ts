@@ -9,6 +9,10 @@
  *   .github/workflows/waferbook.yml         CI for GitHub Actions
  *   .gitlab-ci.yml                          CI for GitLab CI/CD
  *
+ * With `--shards N` the two CI files are the sharded ones
+ * (starter/*-sharded.yml): N parallel `build --shard K/N` jobs, then one job
+ * that merges their cache entries and builds the site (docs/scaling.md).
+ *
  * then prints the next three steps. Refuses a folder that exists and is not
  * empty (exit code 2), so nothing of the user's is ever overwritten; files
  * are created exclusively ("wx") for the same reason.
@@ -20,10 +24,13 @@ import type { CommandIO } from "./commands.ts";
 import { EXAMPLE_RUN, EXAMPLE_WAFER, exampleWaferFiles } from "./initExample.ts";
 import { PACKAGE_ROOT } from "./paths.ts";
 
+/** The most shards `init --shards` writes (GitLab's `parallel` allows 200; a GitHub matrix 256 jobs). */
+export const MAX_CI_SHARDS = 200;
+
 export const INIT_HELP = `waferbook init — creates a new data repository
 
 Usage:
-  waferbook init <folder>
+  waferbook init [--shards N] <folder>
 
 Writes, into <folder> (created if missing; it must be empty):
   data/targets.yaml               your grades and limits, commented
@@ -38,6 +45,10 @@ run \`waferbook check\` and then \`waferbook build --strict\`, and upload the
 site (docs/publishing.md walks through them).
 
 Options:
+  --shards N    CI files that split the analysis over N parallel jobs
+                (2 ≤ N ≤ ${MAX_CI_SHARDS}), each running \`waferbook build --shard K/N\`,
+                then one job that merges their cache entries and builds the
+                site (docs/scaling.md)
   -h, --help    show this help
   --version     print the version
 
@@ -53,10 +64,23 @@ const COPIED: [string, string][] = [
   ["gitlab-ci.yml", ".gitlab-ci.yml"],
 ];
 
-/** Every file of a new data repository, by path inside it. */
-export async function starterFiles(): Promise<Map<string, string>> {
+/**
+ * A sharded CI file with its number of shards set to n: the GitHub matrix
+ * list `shard: [1, 2, …]` becomes 1 … n, GitLab's `parallel:` becomes n.
+ */
+export function withShards(text: string, n: number): string {
+  const list = Array.from({ length: n }, (_, i) => i + 1).join(", ");
+  return text.replace(/^(\s*shard: )\[[\d, ]*\]/m, `$1[${list}]`).replace(/^(\s*parallel: )\d+/m, `$1${n}`);
+}
+
+/** Every file of a new data repository, by path inside it; `shards`: the sharded CI files with that many shards. */
+export async function starterFiles(shards?: number): Promise<Map<string, string>> {
   const files = new Map<string, string>();
-  for (const [from, to] of COPIED) files.set(to, await fs.readFile(path.join(PACKAGE_ROOT, "starter", from), "utf8"));
+  for (const [from, to] of COPIED) {
+    const sharded = shards !== undefined && from.endsWith(".yml");
+    const text = await fs.readFile(path.join(PACKAGE_ROOT, "starter", sharded ? from.replace(/\.yml$/, "-sharded.yml") : from), "utf8");
+    files.set(to, sharded ? withShards(text, shards) : text);
+  }
   for (const [rel, text] of exampleWaferFiles()) files.set(`data/${rel}`, text);
   return files;
 }
@@ -83,9 +107,9 @@ async function refusal(dir: string): Promise<string | null> {
 
 /** The `init` command: argv after "init"; returns the exit code. */
 export async function initCommand(argv: string[], io: CommandIO): Promise<number> {
-  let parsed: { values: { help?: boolean; version?: boolean }; positionals: string[] };
+  let parsed: { values: { help?: boolean; version?: boolean; shards?: string }; positionals: string[] };
   try {
-    parsed = parseArgs({ args: argv, options: { help: { type: "boolean", short: "h" }, version: { type: "boolean" } }, strict: true, allowPositionals: true });
+    parsed = parseArgs({ args: argv, options: { help: { type: "boolean", short: "h" }, version: { type: "boolean" }, shards: { type: "string" } }, strict: true, allowPositionals: true });
   } catch (e) {
     io.err(`waferbook init: ${(e as Error).message}`);
     io.err("Run `waferbook init --help` for the usage.");
@@ -104,6 +128,16 @@ export async function initCommand(argv: string[], io: CommandIO): Promise<number
     io.err("Run `waferbook init --help` for the usage.");
     return 2;
   }
+  let shards: number | undefined;
+  if (parsed.values.shards !== undefined) {
+    const raw = parsed.values.shards;
+    shards = /^\d{1,4}$/.test(raw) ? Number(raw) : NaN;
+    if (!(shards >= 2 && shards <= MAX_CI_SHARDS)) {
+      io.err(`waferbook init: --shards needs a whole number of parallel jobs from 2 to ${MAX_CI_SHARDS}, found ${JSON.stringify(raw)}; nothing was written.`);
+      io.err("Run `waferbook init --help` for the usage.");
+      return 2;
+    }
+  }
   const shown = parsed.positionals[0];
   const dir = path.resolve(shown);
   const why = await refusal(dir);
@@ -112,13 +146,13 @@ export async function initCommand(argv: string[], io: CommandIO): Promise<number
     io.err("Give a new folder name, or an empty folder, so that none of its files are overwritten.");
     return 2;
   }
-  const files = await starterFiles();
+  const files = await starterFiles(shards);
   for (const [rel, text] of files) {
     const abs = path.join(dir, rel);
     await fs.mkdir(path.dirname(abs), { recursive: true });
     await fs.writeFile(abs, text, { flag: "wx" });
   }
-  io.out(`Created a waferbook data repository in ${shown}/ (${files.size} files): data/ with targets, settings and an example wafer, .gitignore, and CI files for GitHub Actions and GitLab CI/CD.`);
+  io.out(`Created a waferbook data repository in ${shown}/ (${files.size} files): data/ with targets, settings and an example wafer, .gitignore, and CI files for GitHub Actions and GitLab CI/CD${shards ? `, each running ${shards} shard jobs and one job that builds the site` : ""}.`);
   io.out("");
   io.out("Next steps:");
   for (const s of nextSteps(shown)) io.out(`  ${s}`);

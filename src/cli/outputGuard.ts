@@ -80,11 +80,7 @@ export async function checkOutput(given: { data: string; out: string; cache: str
     const r = relation(o, data);
     if (r) throw new OutputRefusedError(`refusing --out ${shown(given.out, o)}: it ${r} the data folder ${data}; ${CHOOSE}`);
   }
-  if (given.cache !== null) {
-    const cache = await resolveReal(given.cache);
-    const r = relation(cache, data);
-    if (r) throw new OutputRefusedError(`refusing --cache ${shown(given.cache, cache)}: it ${r} the data folder ${data}; the data folder is only ever read — choose a cache folder outside it (or --no-cache)`);
-  }
+  if (given.cache !== null) await checkCacheFolder(given.data, given.cache, given.cache);
   // The names a build works under beside --out (its lock, generations, building folders, links) are
   // removed or renamed by the build: the data or the cache must never be one of them, or inside one.
   for (const [what, given2, real] of [["data folder", given.data, data], ...(given.cache !== null ? [["--cache", given.cache, await resolveReal(given.cache)]] : [])] as [string, string, string][]) {
@@ -94,6 +90,14 @@ export async function checkOutput(given: { data: string; out: string; cache: str
   await checkOwnLock(outAbs);
   await checkOwnOutput(outAbs);
   await checkWritableParent(outAbs);
+}
+
+/** Refuses a cache folder that is, lies inside or holds the data folder (`shownAs`: the path as the user gave it). */
+export async function checkCacheFolder(dataDir: string, cacheDir: string, shownAs: string): Promise<void> {
+  const data = await resolveReal(dataDir);
+  const cache = await resolveReal(cacheDir);
+  const r = relation(cache, data);
+  if (r) throw new OutputRefusedError(`refusing --cache ${shown(shownAs, cache)}: it ${r} the data folder ${data}; the data folder is only ever read — choose a cache folder outside it (or --no-cache)`);
 }
 
 /**

@@ -23,6 +23,12 @@ export function summary(result: BuildResult, seconds: number): string {
   return `${result.outcomes.length} wafers (${verdicts || "none"}); ${errors} input error${errors === 1 ? "" : "s"}, ${warnings} warning${warnings === 1 ? "" : "s"}; ${seconds.toFixed(1)} s`;
 }
 
+/** What the build took from the cache and what it did itself: "analysed 0 wafers (14 from the cache); drew 0 pages (14 from the cache, 0 reused)". */
+export function cacheLine(stats: NonNullable<BuildResult["stats"]>): string {
+  const pages = stats.pagesFromCache !== undefined ? ` (${stats.pagesFromCache} from the cache, ${stats.pagesReused} reused from the previous site)` : "";
+  return `analysed ${stats.analysed} wafer${stats.analysed === 1 ? "" : "s"} (${stats.cacheHits} from the cache)${stats.drawn !== undefined ? `; drew ${stats.drawn} page${stats.drawn === 1 ? "" : "s"}${pages}` : ""}`;
+}
+
 /** Prints an internal error (a bug): what to do, then the stack trace. The caller returns EXIT.internal. */
 export function reportInternalError(e: unknown, log: (s: string) => void): void {
   log("waferbook: internal error (please report it with the data that triggered it):");

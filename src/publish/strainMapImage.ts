@@ -17,7 +17,7 @@
  */
 import { PNG } from "pngjs";
 import { growthCoordinate, type GrowthAxis } from "../analyse/images/geometry.ts";
-import { encodeGreyPng } from "./greyPng.ts";
+import { encodeGreyPng, PAGE_PNG } from "./greyPng.ts";
 import { quantile } from "simple-statistics";
 
 type RGB = [number, number, number];
@@ -133,7 +133,7 @@ export function renderStrainMap(map: ArrayLike<number>, width: number, height: n
       put(x, y, x === zeroX ? LINE : divergingColour(t));
     }
   }
-  return { png: PNG.sync.write(png), width: png.width, height: png.height, factor: f, limit, colourBar: [small.height + gap, small.height + gap + bar] };
+  return { png: PNG.sync.write(png, PAGE_PNG), width: png.width, height: png.height, factor: f, limit, colourBar: [small.height + gap, small.height + gap + bar] };
 }
 
 /** Greyscale 8-bit PNG of a micrograph, stretched between its 0.5 % and 99.5 % levels. */
@@ -142,5 +142,5 @@ export function renderMicrograph(pixels: ArrayLike<number>, width: number, heigh
   const finite = Array.from(small.map).filter(Number.isFinite);
   const [lo, hi] = finite.length ? quantile(finite, [0.005, 0.995]) : [0, 1];
   const levels = Array.from(small.map, (v) => (Number.isFinite(v) && hi > lo ? Math.round(255 * Math.max(0, Math.min(1, (v - lo) / (hi - lo)))) : 128));
-  return { png: encodeGreyPng(levels, small.width, small.height), width: small.width, height: small.height, factor: small.factor };
+  return { png: encodeGreyPng(levels, small.width, small.height, 8, PAGE_PNG), width: small.width, height: small.height, factor: small.factor };
 }
