@@ -5,8 +5,12 @@
  */
 import type { GrowthConditions } from "../validate/growth.ts";
 import { growthVariables } from "../validate/growth.ts";
-import { formatNumber } from "./format.ts";
 import { sig6OrNull } from "./format.ts";
+
+/** A recorded condition as growers write it: up to 4 significant digits, no padding zeros ("625", "4.5", "0.6"). */
+function asRecorded(v: number, digits = 4): string {
+  return String(Number(v.toPrecision(digits)));
+}
 
 export interface GrowthSectionModel {
   recipe: string;
@@ -14,26 +18,26 @@ export interface GrowthSectionModel {
   anneals: { name: string; temperature: string; time: string }[];
 }
 
-const withUnit = (v: number | undefined, unit: string, digits = 3) => (v === undefined ? "" : `${formatNumber(v, digits)} ${unit}`);
+const withUnit = (v: number | undefined, unit: string, digits = 4) => (v === undefined ? "" : `${asRecorded(v, digits)} ${unit}`);
 
-/** "20 sccm SiH4 · 20 000 sccm H2" → written per gas with the flow first. */
+/** "SiH4 20 sccm · H2 20 slm": per gas, flows of 1000 sccm and more in slm. */
 function flowText(flows: [string, number][]): string {
-  return flows.map(([gas, f]) => `${gas} ${f >= 1000 ? `${formatNumber(f / 1000, 3)} slm` : `${formatNumber(f, 3)} sccm`}`).join(" · ");
+  return flows.map(([gas, f]) => `${gas} ${f >= 1000 ? `${asRecorded(f / 1000)} slm` : `${asRecorded(f)} sccm`}`).join(" · ");
 }
 
 /** A duration in the largest unit that keeps it whole-ish: 600 s → "10 min". */
 function timeText(s: number): string {
-  if (s >= 3600 && s % 360 === 0) return `${formatNumber(s / 3600, 3)} h`;
-  if (s >= 60 && s % 6 === 0) return `${formatNumber(s / 60, 3)} min`;
-  return `${formatNumber(s, 3)} s`;
+  if (s >= 3600 && s % 360 === 0) return `${asRecorded(s / 3600)} h`;
+  if (s >= 60 && s % 6 === 0) return `${asRecorded(s / 60)} min`;
+  return `${asRecorded(s)} s`;
 }
 
 export function growthSection(g: GrowthConditions | undefined): GrowthSectionModel | undefined {
   if (!g) return undefined;
   return {
     recipe: g.recipe ?? "",
-    layers: g.layers.map((l) => ({ layer: l.layer, temperature: withUnit(l.temperature_C, "°C", 4), rate: withUnit(l.rate_nm_per_min, "nm/min"), pressure: withUnit(l.pressure_Torr, "Torr"), flows: flowText(l.flows_sccm) })),
-    anneals: g.anneals.map((a) => ({ name: a.name, temperature: withUnit(a.temperature_C, "°C", 4), time: timeText(a.time_s) })),
+    layers: g.layers.map((l) => ({ layer: l.layer, temperature: withUnit(l.temperature_C, "°C"), rate: withUnit(l.rate_nm_per_min, "nm/min"), pressure: withUnit(l.pressure_Torr, "Torr"), flows: flowText(l.flows_sccm) })),
+    anneals: g.anneals.map((a) => ({ name: a.name, temperature: withUnit(a.temperature_C, "°C"), time: timeText(a.time_s) })),
   };
 }
 

@@ -128,10 +128,10 @@ describe("relation page", () => {
     expect(legend.map((d) => d.label.replace(/ \(.*/, ""))).toEqual(["reactor Heron", "reactor Kite", "least squares"]);
     expect(legend[0].labels).toContain("TQ-2401");
     expect((await inks(page))[0]).toBeGreaterThan(300);
+    await page.screenshot({ path: path.join(OUTPUT, "relation-1280.png"), fullPage: true });
     // A changed filter goes into the address.
     await page.selectOption("#r-run", "TQ24-B");
     expect(page.url()).toContain("run=TQ24-B");
-    await page.screenshot({ path: path.join(OUTPUT, "relation-1280.png"), fullPage: true });
     await page.close();
     expect(await axe(`${site.origin}/relation/?x=growth_well_temperature&y=interface_width_top&by=reactor&grade=qubit`, "#relation-table tbody tr")).toEqual([]);
   });
