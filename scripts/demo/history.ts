@@ -5,7 +5,8 @@
  * started, each wafer's files by the person who measured it, a waiver added
  * after the device team's review, and a targets change that flips wafers
  * (the qubit mobility minimum raised from 0.9e5 to 1.0e5 cm²/(V s) in March
- * 2025: TQ-2502 passed before and fails after). `npm run build` builds this
+ * 2025: TQ-2502 goes from marginal to fail, TQ-2407 and TQ-2506 from pass to
+ * marginal, as the changes page lists). `npm run build` builds this
  * repository, so the changes page and the wafers' histories tell the lab's
  * story rather than list waferbook's own development commits.
  *
