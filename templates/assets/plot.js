@@ -43,10 +43,22 @@
       ctx.font = "11px system-ui, sans-serif";
       ctx.fillStyle = "#1d262b";
       ctx.textBaseline = "middle";
+      // Each label goes to the first of a few places beside its point that no earlier label covers.
+      var placed = [], OFFSETS = [[6, -7], [6, 8], [-6, -7], [-6, 8], [6, -19], [-6, 19]];
+      function free(r) { return placed.every(function (q) { return r.x + r.w < q.x || q.x + q.w < r.x || r.y + r.h < q.y || q.y + q.h < r.y; }); }
       chart.data.datasets.forEach(function (ds, i) {
         if (!ds.pointText || !chart.isDatasetVisible(i)) return;
         chart.getDatasetMeta(i).data.forEach(function (el, k) {
-          if (ds.pointText[k]) ctx.fillText(ds.pointText[k], el.x + 6, el.y - 7);
+          var text = ds.pointText[k];
+          if (!text) return;
+          var w = ctx.measureText(text).width, box = null;
+          for (var j = 0; j < OFFSETS.length && !box; j++) {
+            var o = OFFSETS[j], r = { x: o[0] < 0 ? el.x + o[0] - w : el.x + o[0], y: el.y + o[1] - 6, w: w, h: 12 };
+            if (free(r)) box = r;
+          }
+          box = box || { x: el.x + 6, y: el.y - 13, w: w, h: 12 };
+          placed.push(box);
+          ctx.fillText(text, box.x, box.y + 6);
         });
       });
       ctx.restore();
