@@ -154,6 +154,14 @@ describe("from disk (file://)", () => {
     const run = pathToFileURL(path.join(site.dir, "runs", "TQ24-A", "index.html")).href;
     page = await open(run);
     expect((await inks(page))[0]).toBeGreaterThan(300);
+    // The run page's entry point opens the comparison of its wafers.
+    await Promise.all([page.waitForURL(/\/compare\/index\.html\?w=TQ-2401,TQ-2402,TQ-2403,TQ-2404$/), page.click("text=Compare the wafers of this run")]);
+    await page.waitForSelector("#metrics table");
+    // A wafer page's "Compare with…" opens the comparison with that wafer ticked, waiting for a second.
+    await page.goto(pathToFileURL(path.join(site.dir, "wafers", "TQ-2405", "index.html")).href);
+    await Promise.all([page.waitForURL(/\/compare\/index\.html\?w=TQ-2405$/), page.click("text=Compare with…")]);
+    expect(await page.isChecked('input[name=w][value="TQ-2405"]')).toBe(true);
+    expect(await page.textContent("#compare-status")).toContain("Choose at least 2 wafers");
     await page.close();
   });
 
