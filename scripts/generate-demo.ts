@@ -19,6 +19,7 @@ import { demoGateSweeps, oscillationHook, parallelChannelOverride } from "./demo
 import { demoExtras } from "./demo/extras.ts";
 import { wellThicknessNm } from "./demo/structure.ts";
 import { loggerExport, loggerFileName, loggerReading } from "./demo/instrumentExport.ts";
+import { growthBlock } from "./demo/growth.ts";
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 const dataDir = process.argv[2] ? path.resolve(process.argv[2]) : path.join(root, "data");
@@ -105,6 +106,7 @@ export function waferMd(w: DemoWafer, devices: { id: string; geometry: string; a
     lines.push("waivers:", `  - metric: ${w.waiver.metric}`, `    reason: "${w.waiver.reason}"`, `    approved_by: "${w.waiver.approved_by}"`, `    date: ${w.waiver.date}`);
   }
   lines.push(extra.trimEnd());
+  lines.push(growthBlock(w));
   lines.push("---", "", w.notes || "No notes recorded.", "", "Measured at 1.6 K in the Tarnwick variable-temperature insert. Follow the lab's own cryogen-handling and electrical-safety procedures when repeating these measurements.", "");
   return lines.filter((l) => l !== "").join("\n").replace(/\n---\n/, "\n---\n\n") + "\n";
 }

@@ -18,6 +18,7 @@ import v8 from "node:v8";
 import type { WaferOutcome } from "./pipeline.ts";
 import { waferPageModel } from "../publish/waferPage.ts";
 import { parkedPath } from "./render.ts";
+import { compareScript } from "../publish/compareData.ts";
 
 export type PageModel = ReturnType<typeof waferPageModel>;
 
@@ -37,6 +38,9 @@ export async function drawWaferPage(o: WaferOutcome, outDir: string, scratchDir:
     }
     if (section?.files) section.files = [];
   }
+  // The comparison page's lean data of this wafer (src/publish/compareData.ts), beside its page.
+  await fs.mkdir(path.join(outDir, "wafers", o.folder), { recursive: true });
+  await fs.writeFile(path.join(outDir, "wafers", o.folder, "compare.js"), compareScript(o));
   await fs.mkdir(scratchDir, { recursive: true });
   await fs.writeFile(parkedPath(scratchDir, o.folder), v8.serialize(model));
 }

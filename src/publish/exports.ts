@@ -16,7 +16,8 @@
  *   wafer, run, grown, reactor, grade, verdict, decision, decision_by, decision_date,
  *   decision_reason, decision_conflict, then per finding finding_<key> (its verdict: pass when
  *   checked and not raised, else the consequence in force), then per metric <key> [unit],
- *   <key>_stderr [unit], <key>_min [unit], <key>_max [unit], <key>_verdict.
+ *   <key>_stderr [unit], <key>_min [unit], <key>_max [unit], <key>_verdict, then, when any wafer records growth
+ *   conditions, growth_recipe and one column per growth condition any wafer records (<key> [unit], src/validate/growth.ts growthVariables).
  */
 import { METRICS } from "../analyse/metrics.ts";
 import type { WaferOutcome } from "../cli/pipeline.ts";
@@ -28,6 +29,7 @@ import { metricStdErrors } from "./metricStdErr.ts";
 import { decisionConflict } from "../judge/decision.ts";
 import { decisionJson } from "./decisionSection.ts";
 import { FINDING_KEYS } from "../judge/findings.ts";
+import { growthColumns, growthValues } from "./growthSection.ts";
 
 /** A plain decimal number written as text (e.g. "-1.5", "+2e-3"): a spreadsheet reads it as a number, never as a formula. */
 const PLAIN_NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
@@ -82,13 +84,17 @@ function decisionCells(o: WaferOutcome): string[] {
 
 export function resultsCsv(outcomes: readonly WaferOutcome[], runs: ReadonlyMap<string, RunNotes> = new Map()): string {
   const metrics = exportedMetrics(outcomes);
-  const header = ["wafer", "run", "grown", "reactor", "grade", "verdict", ...DECISION_COLUMNS, ...FINDING_COLUMNS, ...metrics.flatMap(metricColumns)];
+  const growth = growthColumns(outcomes.map((o) => o.record?.growth));
+  // Growth columns only when some wafer records growth conditions: a lab without them keeps its columns.
+  const anyGrowth = outcomes.some((o) => o.record?.growth);
+  const header = ["wafer", "run", "grown", "reactor", "grade", "verdict", ...DECISION_COLUMNS, ...FINDING_COLUMNS, ...metrics.flatMap(metricColumns), ...(anyGrowth ? ["growth_recipe", ...growth.map((g) => `${g.key} [${g.unit}]`)] : [])];
   const rows = outcomes.map((o) => {
     const se = metricStdErrors(o);
+    const gv = growthValues(o.record?.growth);
     return [o.folder, o.record?.run ?? "", o.record?.grown ?? "", reactorOf(o, runs), o.judgement.grade, o.judgement.verdict, ...decisionCells(o), ...findingCells(o), ...metrics.flatMap((m) => {
       const x = exportedMetric(o, m.key, se);
       return [x.value, x.stderr, x.min, x.max, x.verdict];
-    })];
+    }), ...(anyGrowth ? [o.record?.growth?.recipe ?? "", ...growth.map((g) => gv[g.key] ?? null)] : [])];
   });
   return toCsv([header, ...rows]);
 }
@@ -112,8 +118,16 @@ export function allResultsJson(outcomes: readonly WaferOutcome[], meta: { versio
       // Each finding's judged check: its verdict, the consequence in force for the grade, and why.
       findings: Object.fromEntries(o.judgement.findings.map((f) => [f.key, { verdict: f.verdict, consequence: f.consequence, reason: f.reason ?? null }])),
       ...metricMaps(o, metrics),
+      growth: growthJson(o),
     })),
   };
+}
+
+/** A wafer's growth conditions in results.json: recipe, per-layer and anneal records in their units, and the flat values keyed like the CSV columns; null when not recorded. */
+export function growthJson(o: WaferOutcome) {
+  const g = o.record?.growth;
+  if (!g) return null;
+  return { recipe: g.recipe ?? null, layers: g.layers.map((l) => ({ layer: l.layer, temperature_C: sig6OrNull(l.temperature_C), rate_nm_per_min: sig6OrNull(l.rate_nm_per_min), pressure_Torr: sig6OrNull(l.pressure_Torr), flows_sccm: Object.fromEntries(l.flows_sccm.map(([k, v]) => [k, sig6OrNull(v)])) })), anneals: g.anneals.map((a) => ({ name: a.name, temperature_C: sig6OrNull(a.temperature_C), time_s: sig6OrNull(a.time_s) })), values: growthValues(g) };
 }
 
 /** The per-metric maps of a wafer in results.json, keyed like the CSV columns: metrics, stderr, limits, verdicts. */

@@ -12,6 +12,7 @@ import { decisionJson } from "./decisionSection.ts";
 import { metricStdErrors } from "./metricStdErr.ts";
 import { structureResults } from "./structureSection.ts";
 import { deviceDepthJson, pointDepthJson } from "./transportDepthJson.ts";
+import { growthJson } from "./exports.ts";
 
 /**
  * One wafer's results.json. `commits`: the latest commit that changed the
@@ -33,6 +34,7 @@ export function resultsJson(o: WaferOutcome, commits: { wafer: string | null; ta
     verdict: o.judgement.verdict,
     reasons: o.judgement.reasons,
     decision: decisionJson(o),
+    growth: growthJson(o),
     metrics,
     findings: Object.fromEntries(o.judgement.findings.map((f) => [f.key, { verdict: f.verdict, consequence: f.consequence, consequence_from: f.fromGrade ? "grade" : "default", checked: f.check.checked, raised: f.check.raised, reason: f.reason ?? null, waiver: f.waiver ?? null }])),
     devices: (o.analysis?.devices ?? []).map((d) => ({

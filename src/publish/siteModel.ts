@@ -20,6 +20,8 @@ import { targetsPageModel } from "./targetsPage.ts";
 import { changesModel, waferHistoryModel } from "./history.ts";
 import { runComparisons } from "./runSummary.ts";
 import { decisionModel } from "./decisionSection.ts";
+import { relationModel } from "./relationData.ts";
+import { runChart } from "./runChart.ts";
 
 /** Site-wide inputs beyond the wafers: the targets in force and the data repository's history. */
 export interface SiteExtras {
@@ -114,6 +116,7 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
       notesHtml: renderNotes(notes?.notes ?? ""),
       wafers: members,
       verdictCounts: countVerdicts(members.map((m) => m.verdict)),
+      mobilityChart: runChart(id, sorted.filter((o) => o.record?.run === id), meta.basePath),
     };
   });
   const failing = index.filter((w) => w.verdict === "fail" || w.verdict === "error" || w.verdict === "incomplete");
@@ -123,6 +126,7 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
     targets: targetsPageModel(extras.targets),
     changes: changesModel(history, sorted.map((o) => o.folder), meta.basePath, sorted.map((o) => ({ id: o.folder, ...historyInput(o) }))),
     index,
+    relation: relationModel(sorted, (o) => reactorOf(o, runs)),
     runs: runPages,
     failing,
     decisionConflicts: sorted.flatMap((o) => {

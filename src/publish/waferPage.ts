@@ -16,6 +16,7 @@ import { imagesSection } from "./imagesSection.ts";
 import { transportDepthSection } from "./transportDepthSection.ts";
 import { uniformitySection } from "./uniformitySection.ts";
 import { checkTable, verdictLegend } from "./judgedRows.ts";
+import { growthSection } from "./growthSection.ts";
 
 export interface MetricRow {
   key: string;
@@ -125,6 +126,7 @@ export function waferPageModel(o: WaferOutcome) {
       })),
       skipped: d.skipped,
     })),
+    growth: growthSection(r?.growth),
     stack: (r?.stack ?? []).map((l) => ({ ...l, ge: l.ge === undefined ? "" : formatNumber(l.ge, 3), thickness: l.thickness_nm === undefined ? "" : `${formatNumber(l.thickness_nm, 3)} nm` })),
     notesHtml: renderNotes(r?.notes ?? ""),
     problems: o.problems.map((p) => ({ severity: p.severity, text: formatProblem(p) })),

@@ -21,6 +21,8 @@ export const SITE_NAMES: readonly string[] = [
   "targets",
   "changes",
   "search",
+  "compare",
+  "relation",
   "search-index.json",
   "results.json",
   "results.csv",

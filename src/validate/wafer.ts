@@ -22,6 +22,7 @@ import { METRIC_BY_KEY } from "../analyse/metrics.ts";
 import { FINDING_KEYS, isFindingKey } from "./findingKeys.ts";
 import { FIELD_HINTS, WAFER_SCHEMA } from "./waferSchema.ts";
 import { unitInKey } from "./unitInKey.ts";
+import { readGrowth, type GrowthConditions } from "./growth.ts";
 
 export type LayerRole = "substrate" | "buffer" | "barrier" | "well" | "cap" | "other";
 export interface Layer {
@@ -72,6 +73,8 @@ export interface WaferRecord {
   waivers: Waiver[];
   /** The lab's decision on the wafer (src/validate/decision.ts), when recorded. */
   decision?: Decision;
+  /** Growth conditions (src/validate/growth.ts), when recorded. */
+  growth?: GrowthConditions;
   /** Settings in force for this wafer: defaults ← analysis.yaml ← the wafer's `analysis:` block. */
   settings: AnalysisSettings;
   /** Only the keys this wafer overrides, as typed. */
@@ -253,6 +256,8 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
     if (im && typeof im.file === "string" && !bad(`images[${i}].file`)) list.attempt(() => checkRelativePath(im.file, { file, field: `images[${i}].file`, line: lineOf(`images[${i}].file`) }));
   });
   const settings = bad("analysis") ? ctx.siteSettings : list.attempt(() => applySettings(ctx.siteSettings, r.analysis, { file, field: "analysis", line: lineOf("analysis"), lineOf: (k) => lineOf(`analysis.${k}`) }));
+  const stackNames = (Array.isArray(r.stack) ? r.stack : []).map((l: { name?: unknown }) => l?.name).filter((n: unknown): n is string => typeof n === "string");
+  const growth = bad("growth") ? undefined : list.attempt(() => readGrowth(r.growth, { file, lineOf, stackNames }));
   const decision = bad("decision") ? undefined : list.attempt(() => readDecision(r.decision, { file, grown: r.grown, today: ctx.today, lineOf }));
   list.done();
   if (!shapeOk || !settings) throw new Error("validateWafer: problems recorded but not thrown"); // unreachable: done() threw
@@ -270,6 +275,7 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
     images: r.images ?? [],
     waivers: r.waivers ?? [],
     decision,
+    growth,
     settings,
     settingOverrides: (r.analysis as Record<string, unknown>) ?? {},
     notes: doc.body,

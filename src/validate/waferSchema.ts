@@ -120,6 +120,8 @@ export const WAFER_SCHEMA = {
       },
     },
     decision: DECISION_SCHEMA,
+    // Checked field by field in growth.ts, with located messages.
+    growth: { type: "object" },
   },
 } as const;
 

@@ -1,0 +1,204 @@
+/**
+ * Growth conditions of a wafer: the `growth:` block of wafer.md (docs/formats.md,
+ * section 1, Growth conditions). Every quantity is typed with its unit and
+ * converted here, once, to the unit the site shows: temperatures to °C, growth
+ * rates to nm/min, gas flows to sccm (standard cm³/min), anneal times to s.
+ * Units are read by mathjs through parseQuantity (units.ts); the spellings
+ * growers write that mathjs does not know (°C, sccm, slm, Torr) are brought to its
+ * names first. Every problem is located (file, line, field) and reported with
+ * the others of the file.
+ */
+import { didYouMean, InputError, ProblemList, show } from "./problem.ts";
+import { parseQuantity } from "./units.ts";
+
+export interface GrowthLayer {
+  /** The stack layer's name (stack[].name). */
+  layer: string;
+  /** Substrate (susceptor) temperature during the layer, °C. */
+  temperature_C?: number;
+  /** Growth rate, nm/min. */
+  rate_nm_per_min?: number;
+  /** Chamber pressure, Torr. */
+  pressure_Torr?: number;
+  /** Precursor and carrier flows, gas name → sccm, in the order written. */
+  flows_sccm: [string, number][];
+}
+
+export interface GrowthAnneal {
+  name: string;
+  temperature_C: number;
+  time_s: number;
+}
+
+export interface GrowthConditions {
+  /** The reactor's recipe name. */
+  recipe?: string;
+  layers: GrowthLayer[];
+  anneals: GrowthAnneal[];
+}
+
+/** A quantity's target unit (mathjs name), the unit shown, and its plausible range in the shown unit. */
+const QUANTITIES = {
+  temperature: { target: "degC", shown: "°C", min: -50, max: 1500, what: "substrate temperature" },
+  rate: { target: "nm/min", shown: "nm/min", min: 0, max: 1e5, what: "growth rate" },
+  pressure: { target: "torr", shown: "Torr", min: 0, max: 1e4, what: "chamber pressure" },
+  flow: { target: "cm^3/min", shown: "sccm", min: 0, max: 1e6, what: "gas flow" },
+  time: { target: "s", shown: "s", min: 0, max: 1e6, what: "anneal time" },
+} as const;
+type QuantityName = keyof typeof QUANTITIES;
+
+/** Growers' spellings mathjs does not know, brought to its names: °C → degC, sccm → cm^3/min, slm → L/min, Torr → torr. */
+export function growthUnitText(text: string): string {
+  return text
+    .replace(/°\s*C\b/g, "degC")
+    .replace(/°\s*F\b/g, "degF")
+    .replace(/\bsccm\b/g, "cm^3/min")
+    .replace(/\bslpm\b|\bslm\b/g, "L/min")
+    .replace(/\bTorr\b/g, "torr");
+}
+
+const LAYER_KEYS = ["layer", "temperature", "rate", "pressure", "flows"];
+const ANNEAL_KEYS = ["name", "temperature", "time"];
+const TOP_KEYS = ["recipe", "layers", "anneals"];
+
+export interface GrowthWhere {
+  file: string;
+  lineOf: (field: string) => number | undefined;
+  /** Names of the record's stack layers: a growth layer must name one of them (when the stack is given). */
+  stackNames: readonly string[];
+}
+
+/**
+ * Validates the `growth:` block; undefined when absent. Throws an InputError
+ * holding every problem of the block.
+ */
+export function readGrowth(raw: unknown, where: GrowthWhere): GrowthConditions | undefined {
+  if (raw === undefined || raw === null) return undefined;
+  const { file, lineOf } = where;
+  const list = new ProblemList(file);
+  const fail = (field: string, message: string, expected: string, found: string, fix: string) => list.add({ file, line: lineOf(field), field, message, expected, found, fix });
+  if (typeof raw !== "object" || Array.isArray(raw)) {
+    throw new InputError({ file, line: lineOf("growth"), field: "growth", message: "growth conditions must be a mapping", expected: "recipe:, layers: and anneals: indented under growth:", found: show(raw), fix: "see docs/formats.md, section Growth conditions" });
+  }
+  const r = raw as Record<string, unknown>;
+  unknownKeys(r, TOP_KEYS, "growth", fail);
+  let recipe: string | undefined;
+  if (r.recipe !== undefined) {
+    if (typeof r.recipe === "string" && r.recipe.trim()) recipe = r.recipe.trim();
+    else fail("growth.recipe", "recipe name is not text", "the reactor's recipe name, such as \"QW-625-v2\"", show(r.recipe), "write the recipe name in quotes");
+  }
+  const quantity = (value: unknown, q: QuantityName, field: string, required: boolean): number | undefined => {
+    const spec = QUANTITIES[q];
+    if (value === undefined) {
+      if (required) fail(field, `${spec.what} is missing`, `a value with a unit, such as "1 ${spec.shown}"`, "nothing", `add ${field.split(".").at(-1)}: "… ${spec.shown}"`);
+      return undefined;
+    }
+    const parsed = parseQuantity(typeof value === "string" ? growthUnitText(value) : value, spec.target);
+    if (!parsed.ok) {
+      fail(field, `cannot read the ${spec.what}`, `a value with a unit convertible to ${spec.shown}, such as "${q === "temperature" ? "625 °C" : `1 ${spec.shown}`}"`, typeof value === "string" ? JSON.stringify(value) : parsed.found, `write the number with its unit, in quotes (units: ${unitsOf(q)})`);
+      return undefined;
+    }
+    if (!(parsed.value >= spec.min && parsed.value <= spec.max) || (q !== "temperature" && q !== "flow" && parsed.value === 0)) {
+      fail(field, `${spec.what} is out of range`, `${q === "temperature" || q === "flow" ? "from" : "above"} ${spec.min} up to ${spec.max} ${spec.shown}`, `${show(value)} (${Number(parsed.value.toPrecision(6))} ${spec.shown})`, "check the number and its unit");
+      return undefined;
+    }
+    return Number(parsed.value.toPrecision(12));
+  };
+  const layers: GrowthLayer[] = [];
+  const seen = new Set<string>();
+  listOf(r.layers, "growth.layers", fail).forEach((item, i) => {
+    const at = `growth.layers[${i}]`;
+    if (!item) return fail(at, "a growth layer must be a mapping", "layer:, temperature:, rate:, pressure: and flows:", "something else", "write { layer: well, temperature: \"625 °C\", … }");
+    unknownKeys(item, LAYER_KEYS, at, fail);
+    const name = item.layer;
+    if (typeof name !== "string" || !name.trim()) return fail(`${at}.layer`, "growth layer does not name its layer", "the name of a layer of stack:", show(name), "add layer: <name of a stack layer>");
+    if (where.stackNames.length && !where.stackNames.includes(name)) {
+      const hint = didYouMean(name, [...where.stackNames]);
+      fail(`${at}.layer`, "growth layer names no layer of the stack", `one of ${where.stackNames.join(", ")}`, JSON.stringify(name), hint ? `did you mean "${hint}"?` : "use a name from stack:");
+    }
+    if (seen.has(name)) fail(`${at}.layer`, "layer has two growth entries", "one entry per layer", JSON.stringify(name), "merge the two entries");
+    seen.add(name);
+    const flows: [string, number][] = [];
+    if (item.flows !== undefined) {
+      if (!item.flows || typeof item.flows !== "object" || Array.isArray(item.flows)) fail(`${at}.flows`, "flows must be a mapping of gas to flow", "{ SiH4: \"20 sccm\", GeH4: \"8 sccm\" }", show(item.flows), "write one gas: flow pair per gas");
+      else {
+        for (const [gas, v] of Object.entries(item.flows as Record<string, unknown>)) {
+          const f = quantity(v, "flow", `${at}.flows.${gas}`, true);
+          if (f !== undefined) flows.push([gas, f]);
+        }
+      }
+    }
+    layers.push({ layer: name, temperature_C: quantity(item.temperature, "temperature", `${at}.temperature`, false), rate_nm_per_min: quantity(item.rate, "rate", `${at}.rate`, false), pressure_Torr: quantity(item.pressure, "pressure", `${at}.pressure`, false), flows_sccm: flows });
+  });
+  const anneals: GrowthAnneal[] = [];
+  listOf(r.anneals, "growth.anneals", fail).forEach((item, i) => {
+    const at = `growth.anneals[${i}]`;
+    if (!item) return fail(at, "an anneal must be a mapping", "name:, temperature: and time:", "something else", "write { name: post-growth, temperature: \"800 °C\", time: \"60 s\" }");
+    unknownKeys(item, ANNEAL_KEYS, at, fail);
+    const name = typeof item.name === "string" && item.name.trim() ? item.name.trim() : undefined;
+    if (!name) fail(`${at}.name`, "anneal has no name", "a short name, such as post-growth", show(item.name), "add name: …");
+    const temperature = quantity(item.temperature, "temperature", `${at}.temperature`, true);
+    const time = quantity(item.time, "time", `${at}.time`, true);
+    if (name && temperature !== undefined && time !== undefined) anneals.push({ name, temperature_C: temperature, time_s: time });
+  });
+  list.done();
+  return { recipe, layers, anneals };
+}
+
+function unitsOf(q: QuantityName): string {
+  return { temperature: "°C or K", rate: "nm/min, nm/s or um/h", pressure: "Torr, mbar or Pa", flow: "sccm or slm", time: "s, min or h" }[q];
+}
+
+type Fail = (field: string, message: string, expected: string, found: string, fix: string) => void;
+
+function unknownKeys(obj: Record<string, unknown>, known: readonly string[], at: string, fail: Fail): void {
+  for (const k of Object.keys(obj)) {
+    if (known.includes(k)) continue;
+    const hint = didYouMean(k, [...known]);
+    fail(`${at}.${k}`, "unknown key", `one of ${known.join(", ")}`, JSON.stringify(k), hint ? `did you mean "${hint}"?` : "remove it, or see docs/formats.md, section Growth conditions");
+  }
+}
+
+/** The items of a list field (a mapping each, or null for an item that is not); a non-list is reported. */
+function listOf(v: unknown, field: string, fail: Fail): (Record<string, unknown> | null)[] {
+  if (v === undefined || v === null) return [];
+  if (!Array.isArray(v)) {
+    fail(field, "wrong type", "a list", show(v), "write one \"- …\" item per line");
+    return [];
+  }
+  return v.map((x) => (x && typeof x === "object" && !Array.isArray(x) ? (x as Record<string, unknown>) : null));
+}
+
+/** One numeric growth condition, flattened for the exports and the relation page. */
+export interface GrowthVariable {
+  /** Column key: growth_<layer>_temperature, growth_<layer>_flow_<gas>, anneal_<name>_time… */
+  key: string;
+  label: string;
+  /** Unit as shown (°C, nm/min, Torr, sccm, s). */
+  unit: string;
+  value: number;
+}
+
+/** Lower-case letters, digits and underscores: "upper barrier" → "upper_barrier". */
+export function slug(text: string): string {
+  return text.toLowerCase().replace(/[^a-z0-9]+/g, "_").replace(/^_|_$/g, "") || "x";
+}
+
+/** The numeric conditions of a wafer, flattened in a fixed order (layers as written, then anneals). */
+export function growthVariables(g: GrowthConditions | undefined): GrowthVariable[] {
+  if (!g) return [];
+  const out: GrowthVariable[] = [];
+  for (const l of g.layers) {
+    const s = slug(l.layer);
+    if (l.temperature_C !== undefined) out.push({ key: `growth_${s}_temperature`, label: `${l.layer}: growth temperature`, unit: "°C", value: l.temperature_C });
+    if (l.rate_nm_per_min !== undefined) out.push({ key: `growth_${s}_rate`, label: `${l.layer}: growth rate`, unit: "nm/min", value: l.rate_nm_per_min });
+    if (l.pressure_Torr !== undefined) out.push({ key: `growth_${s}_pressure`, label: `${l.layer}: pressure`, unit: "Torr", value: l.pressure_Torr });
+    for (const [gas, f] of l.flows_sccm) out.push({ key: `growth_${s}_flow_${slug(gas)}`, label: `${l.layer}: ${gas} flow`, unit: "sccm", value: f });
+  }
+  for (const a of g.anneals) {
+    const s = slug(a.name);
+    out.push({ key: `anneal_${s}_temperature`, label: `${a.name} anneal: temperature`, unit: "°C", value: a.temperature_C });
+    out.push({ key: `anneal_${s}_time`, label: `${a.name} anneal: time`, unit: "s", value: a.time_s });
+  }
+  return out;
+}

@@ -1,0 +1,27 @@
+// Ordinary least squares of y on x and Pearson's correlation coefficient r,
+// for the relation page. With x̄, ȳ the means, Sxx = Σ(x−x̄)², Syy = Σ(y−ȳ)²,
+// Sxy = Σ(x−x̄)(y−ȳ): slope b = Sxy/Sxx, intercept a = ȳ − b·x̄,
+// r = Sxy/√(Sxx·Syy) (the textbook formulas, e.g. Press et al., Numerical
+// Recipes, 3rd ed., §14.5 and §15.2). Deviations from the means are summed,
+// not raw sums of squares, so large offsets (temperatures in °C, densities
+// of 10¹¹) lose no digits. Returns null with fewer than 3 points or when x
+// (or y) does not vary.
+(function (root) {
+  "use strict";
+  function leastSquares(points) {
+    var n = points.length;
+    if (n < 3) return null;
+    var mx = 0, my = 0, i;
+    for (i = 0; i < n; i++) { mx += points[i][0]; my += points[i][1]; }
+    mx /= n; my /= n;
+    var sxx = 0, syy = 0, sxy = 0;
+    for (i = 0; i < n; i++) {
+      var dx = points[i][0] - mx, dy = points[i][1] - my;
+      sxx += dx * dx; syy += dy * dy; sxy += dx * dy;
+    }
+    if (!(sxx > 0) || !(syy > 0)) return null;
+    var slope = sxy / sxx;
+    return { n: n, slope: slope, intercept: my - slope * mx, r: sxy / Math.sqrt(sxx * syy) };
+  }
+  root.waferbookLeastSquares = leastSquares;
+})(typeof window !== "undefined" ? window : globalThis);

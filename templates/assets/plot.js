@@ -1,0 +1,112 @@
+// Scatter and line charts for the comparison and relation pages, drawn with
+// Chart.js: one series per wafer, run or reactor, each told apart by a
+// marker shape, a line dash and its name in the legend (never colour alone);
+// optional text labels beside points; log axes labelled at 1, 2 and 5 per
+// decade; every axis padded so no point sits on the frame.
+// window.waferbookPlot(canvas, spec) → the Chart; spec: { x: {label, log}, y: {label, log},
+//   series: [{ label, points: [[x, y]], line, style, labels, links, dash }] }.
+(function () {
+  "use strict";
+  var COLOURS = ["#2c5f66", "#b5632d", "#6a3c98", "#1d6b3a", "#a4262c", "#5b6770", "#8a6d00", "#1f4e96"];
+  var SHAPES = ["circle", "rect", "triangle", "rectRot", "crossRot", "star", "cross", "rectRounded"];
+  var DASHES = [[], [6, 3], [2, 2], [8, 3, 2, 3], [4, 4], [10, 2], [1, 3], [12, 4]];
+  var SUP = { "-": "\u207b", "0": "\u2070", "1": "\u00b9", "2": "\u00b2", "3": "\u00b3", "4": "\u2074", "5": "\u2075", "6": "\u2076", "7": "\u2077", "8": "\u2078", "9": "\u2079" };
+  function sci(v) {
+    if (v === 0) return "0";
+    var a = Math.abs(v);
+    if (a >= 1e-3 && a < 1e4) return String(Number(v.toPrecision(3)));
+    var e = Math.floor(Math.log10(a) + 1e-9), m = v / Math.pow(10, e);
+    var exp = String(e).split("").map(function (c) { return SUP[c] || c; }).join("");
+    return (Math.abs(Math.abs(m) - 1) < 1e-9 ? (m < 0 ? "\u2212" : "") : Number(m.toPrecision(3)) + "\u00d7") + "10" + exp;
+  }
+  function logTick(v) {
+    var m = v / Math.pow(10, Math.floor(Math.log10(v) + 1e-9));
+    return [1, 2, 5].some(function (k) { return Math.abs(m - k) < 1e-6; }) ? sci(v) : "";
+  }
+  // Axis bounds with a margin: 6 % of the span (linear) or of the decades spanned (log).
+  function bounds(values, log) {
+    var vs = values.filter(function (v) { return isFinite(v) && (!log || v > 0); });
+    if (!vs.length) return {};
+    var lo = Math.min.apply(null, vs), hi = Math.max.apply(null, vs);
+    if (log) {
+      var a = Math.log10(lo), b = Math.log10(hi), pad = Math.max((b - a) * 0.06, 0.05);
+      return { min: Math.pow(10, a - pad), max: Math.pow(10, b + pad) };
+    }
+    var span = hi - lo || Math.abs(hi) || 1;
+    return { min: lo - span * 0.06, max: hi + span * 0.06 };
+  }
+  var pointText = {
+    id: "pointText",
+    afterDatasetsDraw: function (chart) {
+      var ctx = chart.ctx;
+      ctx.save();
+      ctx.font = "11px system-ui, sans-serif";
+      ctx.fillStyle = "#1d262b";
+      ctx.textBaseline = "middle";
+      // Each label goes to the first of a few places beside its point that no earlier label covers.
+      var placed = [], OFFSETS = [[6, -7], [6, 8], [-6, -7], [-6, 8], [6, -19], [-6, 19]];
+      function free(r) { return placed.every(function (q) { return r.x + r.w < q.x || q.x + q.w < r.x || r.y + r.h < q.y || q.y + q.h < r.y; }); }
+      chart.data.datasets.forEach(function (ds, i) {
+        if (!ds.pointText || !chart.isDatasetVisible(i)) return;
+        chart.getDatasetMeta(i).data.forEach(function (el, k) {
+          var text = ds.pointText[k];
+          if (!text) return;
+          var w = ctx.measureText(text).width, box = null;
+          for (var j = 0; j < OFFSETS.length && !box; j++) {
+            var o = OFFSETS[j], r = { x: o[0] < 0 ? el.x + o[0] - w : el.x + o[0], y: el.y + o[1] - 6, w: w, h: 12 };
+            if (free(r)) box = r;
+          }
+          box = box || { x: el.x + 6, y: el.y - 13, w: w, h: 12 };
+          placed.push(box);
+          ctx.fillText(text, box.x, box.y + 6);
+        });
+      });
+      ctx.restore();
+    }
+  };
+  window.waferbookPlot = function (canvas, spec) {
+    var xs = [], ys = [];
+    spec.series.forEach(function (s) { s.points.forEach(function (p) { xs.push(p[0]); ys.push(p[1]); }); });
+    // Log axes get explicit padded bounds (their end labels stay blank unless 1, 2 or 5 per decade); linear ones "grace", which adds no tick of its own.
+    var bx = spec.x.log ? bounds(xs, true) : {}, by = spec.y.log ? bounds(ys, true) : {};
+    var datasets = spec.series.map(function (s) {
+      var k = (s.style || 0) % COLOURS.length;
+      return {
+        label: s.label,
+        data: s.points.map(function (p) { return { x: p[0], y: p[1] }; }),
+        showLine: !!s.line, parsing: false,
+        borderColor: COLOURS[k], backgroundColor: s.line ? COLOURS[k] : COLOURS[k] + "cc",
+        borderDash: s.line ? (s.dash || DASHES[k]) : [], pointStyle: SHAPES[k],
+        pointRadius: s.line ? 0 : 4.5, pointHoverRadius: s.line ? 0 : 6, borderWidth: s.line ? 1.8 : 1,
+        pointText: s.labels, links: s.links
+      };
+    });
+    return new Chart(canvas, {
+      type: "scatter",
+      data: { datasets: datasets },
+      options: {
+        animation: false, maintainAspectRatio: false, responsive: true,
+        layout: { padding: { right: 28, top: 6 } },
+        scales: {
+          x: { type: spec.x.log ? "logarithmic" : "linear", min: bx.min, max: bx.max, grace: spec.x.log ? undefined : "6%", title: { display: true, text: spec.x.label }, ticks: { callback: spec.x.log ? logTick : sci, autoSkip: !spec.x.log } },
+          y: { type: spec.y.log ? "logarithmic" : "linear", min: by.min, max: by.max, grace: spec.y.log ? undefined : "6%", title: { display: true, text: spec.y.label }, ticks: { callback: spec.y.log ? logTick : sci, autoSkip: !spec.y.log } }
+        },
+        plugins: {
+          legend: { labels: { usePointStyle: true, font: { size: 12 } } },
+          tooltip: { callbacks: { label: function (c) {
+            var name = c.dataset.pointText && c.dataset.pointText[c.dataIndex];
+            return (name ? name + " (" + c.dataset.label + ")" : c.dataset.label) + ": " + sci(c.parsed.x) + ", " + sci(c.parsed.y);
+          } } }
+        },
+        onClick: function (e, items, chart) {
+          for (var i = 0; i < items.length; i++) {
+            var ds = chart.data.datasets[items[i].datasetIndex];
+            if (ds.links && ds.links[items[i].index]) { window.location.href = ds.links[items[i].index]; return; }
+          }
+        }
+      },
+      plugins: [pointText]
+    });
+  };
+  window.waferbookPlot.sci = sci;
+})();

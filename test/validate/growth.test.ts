@@ -1,0 +1,80 @@
+/**
+ * The growth: block of wafer.md (src/validate/growth.ts): quantities with
+ * units converted once, and every problem located at its file and line.
+ * Conversions checked against the definitions (common practice): T(°C) =
+ * T(K) − 273.15; 1 slm = 1000 sccm; 1 min = 60 s; 1 nm/s = 60 nm/min.
+ */
+import { describe, expect, it } from "vitest";
+import { readFrontMatter } from "../../src/read/frontMatter.ts";
+import { InputError } from "../../src/validate/problem.ts";
+import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
+import { validateWafer } from "../../src/validate/wafer.ts";
+import { growthVariables } from "../../src/validate/growth.ts";
+
+const ctx = { folder: "W-1", file: "wafers/W-1/wafer.md", today: "2026-12-01", siteSettings: DEFAULT_SETTINGS };
+const load = (text: string) => validateWafer(readFrontMatter(text, ctx.file), ctx);
+
+// Line numbers: "---" is line 1, so the growth layers start on line 9.
+const record = (layers: string, anneals = '    - { name: post, temperature: "1073.15 K", time: "2 min" }') =>
+  `---\nwafer: W-1\nrun: R-1\ngrown: 2025-03-14\nstack:\n  - { name: well, role: well }\n  - { name: upper barrier, role: barrier }\ngrowth:\n  recipe: "QW-625"\n  layers:\n${layers}\n  anneals:\n${anneals}\n---\n`;
+
+function problems(text: string): string[] {
+  try {
+    load(text);
+  } catch (e) {
+    if (e instanceof InputError) return e.problems.map((p) => `${p.file}:${p.line}: ${p.field}: ${p.message}`);
+    throw e;
+  }
+  return [];
+}
+
+describe("growth conditions", () => {
+  it("reads the quantities in °C, nm/min, Torr, sccm and s", () => {
+    const r = load(record('    - { layer: well, temperature: "625 °C", rate: "0.03 nm/s", pressure: "20 Torr", flows: { SiH4: "20 sccm", H2: "20 slm" } }'));
+    const g = r.growth!;
+    expect(g.recipe).toBe("QW-625");
+    expect(g.layers[0].temperature_C).toBe(625);
+    expect(g.layers[0].rate_nm_per_min).toBeCloseTo(1.8, 10); // 0.03 nm/s × 60
+    expect(g.layers[0].pressure_Torr).toBeCloseTo(20, 10);
+    expect(g.layers[0].flows_sccm).toEqual([["SiH4", 20], ["H2", 20000]]); // 20 slm = 20 000 sccm
+    expect(g.anneals[0].temperature_C).toBeCloseTo(800, 9); // 1073.15 K − 273.15
+    expect(g.anneals[0].time_s).toBe(120);
+    expect(growthVariables(g).map((v) => v.key)).toEqual(["growth_well_temperature", "growth_well_rate", "growth_well_pressure", "growth_well_flow_sih4", "growth_well_flow_h2", "anneal_post_temperature", "anneal_post_time"]);
+  });
+
+  it("locates every bad quantity, unknown layer and unknown key at its line", () => {
+    const text = record(
+      [
+        '    - { layer: well, temperature: "625", rate: "2 V" }',
+        '    - { layer: uper barrier, temperature: "650 °C", flows: { GeH4: "-3 sccm" } }',
+        '    - { layer: well, temprature: "600 °C" }',
+      ].join("\n"),
+      '    - { name: post, temperature: "800 °C" }',
+    );
+    expect(problems(text)).toEqual([
+      "wafers/W-1/wafer.md:11: growth.layers[0].temperature: cannot read the substrate temperature",
+      "wafers/W-1/wafer.md:11: growth.layers[0].rate: cannot read the growth rate",
+      "wafers/W-1/wafer.md:12: growth.layers[1].layer: growth layer names no layer of the stack",
+      "wafers/W-1/wafer.md:12: growth.layers[1].flows.GeH4: gas flow is out of range",
+      "wafers/W-1/wafer.md:13: growth.layers[2].temprature: unknown key",
+      "wafers/W-1/wafer.md:13: growth.layers[2].layer: layer has two growth entries",
+      "wafers/W-1/wafer.md:15: growth.anneals[0].time: anneal time is missing",
+    ]);
+  });
+
+  it("suggests the stack layer meant and says a bare number lacks its unit", () => {
+    try {
+      load(record('    - { layer: uper barrier, temperature: 650 }'));
+      expect.unreachable();
+    } catch (e) {
+      const [layer, temp] = (e as InputError).problems;
+      expect(layer.fix).toBe('did you mean "upper barrier"?');
+      expect(temp.found).toBe("the bare number 650 (no unit)");
+    }
+  });
+
+  it("refuses a growth block that is not a mapping, located at its line", () => {
+    const text = "---\nwafer: W-1\nrun: R-1\ngrown: 2025-03-14\ngrowth: 625 C\n---\n";
+    expect(problems(text)).toEqual(["wafers/W-1/wafer.md:5: growth: wrong type"]);
+  });
+});
