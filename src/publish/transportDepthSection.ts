@@ -15,6 +15,7 @@ import { percolationConductivity } from "../analyse/transport/percolation.ts";
 import { POWER_LAW_REFERENCE_DENSITY } from "../analyse/transport/mobilityPowerLaw.ts";
 import { markerSeries, traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
 import { formatNumber } from "./format.ts";
+import { oscillationChart } from "./traceViews.ts";
 import { densityAtGate } from "../analyse/transport/densityCalibration.ts";
 
 export interface FitRow {
@@ -105,16 +106,8 @@ function sdhCharts(id: string, x: DeviceDepth): ChartSpec[] {
   const s = best.sdh;
   const o = best.oscillation;
   const charts: ChartSpec[] = [];
-  if (o.ok) {
-    charts.push({
-      id: `depth-osc-${id}`,
-      title: `${id}: ρxx oscillation against 1/B at Vg = ${f(best.gate_V)} V, with the fit`,
-      x: { label: "Inverse field 1/B (T⁻¹)" },
-      y: { label: "ρxx − fitted background (Ω)" },
-      series: [traceSeries("data", o.curve.inverseField, o.curve.oscillation), traceSeries("Lifshitz–Kosevich fit", o.model.inverseField, o.model.oscillation, "fit")],
-      summary: `Fit of ${best.file} between ${f(o.fieldRange[0])} T and ${f(o.fieldRange[1])} T: ${f(o.periods)} periods, R² ${o.r2.toFixed(4)}, residual noise ${f(o.residualNoise)} Ω (${f(o.residualNoiseRelative * 100, 2)} % of ρxx)${o.spinSplitting ? `; ${o.spinSplitting.note}` : ""}`,
-    });
-  }
+  const osc = oscillationChart(id, x);
+  if (osc) charts.push(osc);
   charts.push({
     id: `depth-fft-${id}`,
     title: `${id}: spectrum of the oscillation at Vg = ${f(best.gate_V)} V`,

@@ -8,7 +8,8 @@ import type { WaferOutcome } from "../cli/pipeline.ts";
 import type { MetricJudgement, Verdict } from "../judge/verdict.ts";
 import { formatProblem } from "../validate/problem.ts";
 import { formatNumber, formatValue, prettyUnit } from "./format.ts";
-import { jsonForScript, markerSeries, traceSeries, type ChartSpec } from "./charts.ts";
+import { jsonForScript, markerSeries, type ChartSpec } from "./charts.ts";
+import { traceChart } from "./traceViews.ts";
 import { renderNotes } from "./markdown.ts";
 import { rawCopyHref } from "./rawCopies.ts";
 import { structureSection } from "./structureSection.ts";
@@ -74,15 +75,8 @@ export function waferCharts(o: WaferOutcome): ChartSpec[] {
     summary: withPoints.map((d) => `${d.id}: peak ${formatNumber((d.summary?.peakMobility ?? 0) * 1e4)} cm²/V s`).join("; "),
   });
   for (const d of withPoints) {
-    const p = d.points[d.points.length - 1];
-    charts.push({
-      id: `traces-${d.id}`,
-      title: `${d.id}: ρxx and Rxy against field at Vg = ${formatNumber(p.gate_V)} V`,
-      x: { label: "Field |B| (T)" },
-      y: { label: "Resistance (kΩ)" },
-      series: [traceSeries("ρxx (symmetrised, Ω/□ ÷ 1000)", p.trace.b, p.trace.rhoxx.map((v) => v / 1000), "data"), traceSeries("Rxy (antisymmetrised)", p.trace.b, p.trace.rxy.map((v) => Math.abs(v) / 1000), "second")],
-      summary: `Symmetrised traces from ${p.file}, ${p.trace.b.length} field values up to ${formatNumber(p.trace.b[p.trace.b.length - 1])} T`,
-    });
+    const traces = traceChart(d);
+    if (traces) charts.push(traces);
   }
   return charts;
 }
