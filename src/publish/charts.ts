@@ -13,8 +13,12 @@ export interface ChartSeries {
   points: [number, number][];
   /** Draw as a line (true) or as markers (false). */
   line: boolean;
-  /** Role picks the colour from the site palette: data, fit, reference, second; "flag" rings points flagged by a rule. */
-  role?: "data" | "fit" | "second" | "third" | "reference" | "flag";
+  /**
+   * Role picks colour, marker shape and dash from the site palette: data, second … fifth for series
+   * of equal rank (distinct shapes and colours), fit, reference, "muted" (hollow grey: points shown
+   * but not judged); "flag" rings points flagged by a rule.
+   */
+  role?: "data" | "fit" | "second" | "third" | "fourth" | "fifth" | "reference" | "muted" | "flag";
   /** Per point (same order as `points`): a link opened when the point is clicked (e.g. the wafer's page). */
   links?: string[];
   /** Per point: a tooltip line naming it (e.g. "TQ-2403 · run TQ24-A"). */
@@ -58,6 +62,9 @@ export interface ChartSpec {
   /** A short text alternative for screen readers. */
   summary: string;
 }
+
+/** Roles for series of equal rank (devices, runs, reactors), in order: each its own colour and marker. */
+export const SERIES_ROLES = ["data", "second", "third", "fourth", "fifth"] as const;
 
 /** Points kept per trace on a page. */
 export const TRACE_POINTS = 300;

@@ -7,14 +7,17 @@
  *   - the oscillating part of ρxx (background removed) against 1/B with the
  *     fitted Lifshitz–Kosevich curve (src/analyse/transport/oscillationFit.ts),
  *     for every gate voltage whose fit succeeded.
- * Traces are downsampled (LTTB, at most TRACE_POINTS for ρxx and a third of
- * that for the smoother Rxy) and rounded to four significant digits so a page
- * with every gate voltage stays light.
+ * Traces are downsampled (LTTB: 220 points for ρxx, 60 for the smoother Rxy;
+ * 160 for the oscillation data and 100 for the smooth fitted curve) and
+ * rounded to four significant digits, so a page with every gate voltage
+ * stays light (about 4 kB of JSON per view).
  */
 import type { DeviceAnalysis } from "../analyse/wafer.ts";
 import type { DeviceDepth } from "../analyse/transport/deviceDepth.ts";
 import { lttb } from "../analyse/numeric/lttb.ts";
-import { TRACE_POINTS, type ChartSeries, type ChartSpec } from "./charts.ts";
+import type { ChartSeries, ChartSpec } from "./charts.ts";
+
+const POINTS = { rhoxx: 220, rxy: 60, oscillation: 160, model: 100 };
 import { formatNumber } from "./format.ts";
 
 /** Four significant digits: plenty for a line on screen. */
@@ -35,8 +38,8 @@ export function traceChart(d: DeviceAnalysis): ChartSpec | undefined {
     label: `${gateText(p.gate_V)} (${p.file.split("/").at(-1)})`,
     caption: `Symmetrised traces from ${p.file}, ${p.trace.b.length} field values shown up to ${formatNumber(p.trace.b[p.trace.b.length - 1])} T`,
     series: [
-      line("ρxx (symmetrised), left axis", p.trace.b, p.trace.rhoxx, TRACE_POINTS, "data"),
-      line("|Rxy| (antisymmetrised), right axis", p.trace.b, Array.from(p.trace.rxy, (v) => Math.abs(v) / 1000), TRACE_POINTS / 3, "second", "y2"),
+      line("ρxx (symmetrised), left axis", p.trace.b, p.trace.rhoxx, POINTS.rhoxx, "data"),
+      line("|Rxy| (antisymmetrised), right axis", p.trace.b, Array.from(p.trace.rxy, (v) => Math.abs(v) / 1000), POINTS.rxy, "second", "y2"),
     ],
   }));
   const last = views.length - 1;
@@ -65,8 +68,8 @@ export function oscillationChart(id: string, x: DeviceDepth): ChartSpec | undefi
       label: gateText(p.gate_V),
       caption: `Fit of ${p.file} between ${formatNumber(o.fieldRange[0])} T and ${formatNumber(o.fieldRange[1])} T: ${formatNumber(o.periods)} periods, R² ${o.r2.toFixed(4)}, residual noise ${formatNumber(o.residualNoise)} Ω${o.spinSplitting ? `; ${o.spinSplitting.note}` : ""}`,
       series: [
-        line("ρxx − fitted background (data)", o.curve.inverseField, o.curve.oscillation, TRACE_POINTS, "data"),
-        line("Lifshitz–Kosevich fit", o.model.inverseField, o.model.oscillation, TRACE_POINTS, "fit"),
+        line("ρxx − fitted background (data)", o.curve.inverseField, o.curve.oscillation, POINTS.oscillation, "data"),
+        line("Lifshitz–Kosevich fit", o.model.inverseField, o.model.oscillation, POINTS.model, "fit"),
       ],
     };
   });

@@ -1,8 +1,9 @@
 /**
  * Page model of the transport in depth (percolation, power law, Shubnikov–de
  * Haas) section of a wafer page: per device the charts (σ vs n with the
- * percolation fit, μ vs n log–log with the power law, the SdH oscillation in 1/B
- * with the fitted Lifshitz–Kosevich curve, its spectrum, the Dingle plot as a
+ * percolation fit, μ vs n log–log with the power law, the spectrum of the SdH
+ * oscillation (the oscillation itself with its Lifshitz–Kosevich fit, per gate
+ * voltage, is `primary`: traceViews.ts), the Dingle plot as a
  * diagnostic view with the fit's line, density vs gate with Hall and SdH
  * densities), a table of the fits, a table of per-point figures with standard
  * errors, notes (spin splitting) and the reasons for anything not determined.
@@ -50,7 +51,10 @@ export interface DepthDevice {
 }
 
 export interface TransportDepthSectionModel {
+  /** Every chart of the devices' blocks (the appendix draws them). */
   charts: ChartSpec[];
+  /** The oscillation view of each device (every fitted gate voltage, with the Lifshitz–Kosevich curve), drawn in the main transport section. */
+  primary: ChartSpec[];
   devices: DepthDevice[];
 }
 
@@ -106,8 +110,6 @@ function sdhCharts(id: string, x: DeviceDepth): ChartSpec[] {
   const s = best.sdh;
   const o = best.oscillation;
   const charts: ChartSpec[] = [];
-  const osc = oscillationChart(id, x);
-  if (osc) charts.push(osc);
   charts.push({
     id: `depth-fft-${id}`,
     title: `${id}: spectrum of the oscillation at Vg = ${f(best.gate_V)} V`,
@@ -203,7 +205,9 @@ function deviceModel(d: DeviceAnalysis, x: DeviceDepth): DepthDevice {
 }
 
 export function transportDepthSection(o: WaferOutcome): TransportDepthSectionModel | undefined {
-  const devices = (o.analysis?.devices ?? []).flatMap((d) => (d.depth ? [deviceModel(d, d.depth)] : []));
-  if (devices.length === 0) return undefined;
-  return { charts: devices.flatMap((d) => d.charts), devices };
+  const withDepth = (o.analysis?.devices ?? []).flatMap((d) => (d.depth ? [{ d, x: d.depth }] : []));
+  if (withDepth.length === 0) return undefined;
+  const devices = withDepth.map(({ d, x }) => deviceModel(d, x));
+  const primary = withDepth.flatMap(({ d, x }) => oscillationChart(d.id, x) ?? []);
+  return { charts: devices.flatMap((d) => d.charts), primary, devices };
 }

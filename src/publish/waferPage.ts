@@ -8,8 +8,9 @@ import type { WaferOutcome } from "../cli/pipeline.ts";
 import type { MetricJudgement, Verdict } from "../judge/verdict.ts";
 import { formatProblem } from "../validate/problem.ts";
 import { formatNumber, formatValue, prettyUnit } from "./format.ts";
-import { jsonForScript, markerSeries, type ChartSpec } from "./charts.ts";
+import { jsonForScript, markerSeries, SERIES_ROLES, type ChartSpec } from "./charts.ts";
 import { traceChart } from "./traceViews.ts";
+import { pageIndex } from "./pageIndex.ts";
 import { renderNotes } from "./markdown.ts";
 import { rawCopyHref } from "./rawCopies.ts";
 import { structureSection } from "./structureSection.ts";
@@ -57,7 +58,7 @@ export function waferCharts(o: WaferOutcome): ChartSpec[] {
   const devices = o.analysis?.devices ?? [];
   const withPoints = devices.filter((d) => d.points.length);
   if (withPoints.length === 0) return charts;
-  const roles = ["data", "second", "third", "fit"] as const;
+  const roles = SERIES_ROLES;
   charts.push({
     id: "density-vs-gate",
     title: "Hall density against gate voltage",
@@ -83,13 +84,26 @@ export function waferCharts(o: WaferOutcome): ChartSpec[] {
 
 export function waferPageModel(o: WaferOutcome) {
   const r = o.record;
-  const transportCharts = waferCharts(o);
   const transportDepth = transportDepthSection(o);
+  const transportCharts = [...waferCharts(o), ...(transportDepth?.primary ?? [])];
   const structure = structureSection(o);
   const images = imagesSection(o);
   const uniformity = uniformitySection(o);
   const allCharts = [...transportCharts, ...(transportDepth?.charts ?? []), ...(structure?.charts ?? []), ...(images?.charts ?? [])];
+  const devices = o.analysis?.devices ?? [];
   return {
+    /** The "On this page" list (pageIndex.ts). */
+    toc: pageIndex({
+      decision: !!o.record?.decision,
+      problems: o.problems.length > 0,
+      transport: true,
+      uniformity: uniformity !== undefined,
+      structure: structure !== undefined,
+      images: images !== undefined,
+      stack: (r?.stack ?? []).length > 0,
+      deviceTables: devices.length > 0,
+      transportDepth: transportDepth !== undefined,
+    }),
     id: o.folder,
     run: r?.run,
     grown: r?.grown,

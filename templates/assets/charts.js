@@ -30,28 +30,46 @@
   }
   /** Ticks at 1, 2 and 5 per decade inside [min, max]. */
   function logTicks(min, max) { return decadeTicks(min, max, [1, 2, 5]); }
-  var ALL = [1, 2, 3, 4, 5, 6, 7, 8, 9];
+  /** Mantissa sets from coarse to fine: 1-2-5 first, finer only for ranges too narrow for it. */
+  var LEVELS = [[1, 2, 5], [1, 2, 3, 4, 5, 6, 7, 8, 9], [1, 1.2, 1.5, 2, 2.5, 3, 4, 5, 6, 7, 8, 9]];
+  /** Largest gap between neighbouring ticks (and the axis ends) as a fraction of the axis, in decades. */
+  function widestGap(min, max, ticks) {
+    var edges = [min].concat(ticks, [max]).map(function (v) { return Math.log10(v); });
+    var g = 0;
+    for (var i = 1; i < edges.length; i++) g = Math.max(g, edges[i] - edges[i - 1]);
+    return g / (edges[edges.length - 1] - edges[0]);
+  }
+  /** Largest m × 10^k ≤ v (or smallest ≥ v when `up`), m from `mantissas`. */
+  function snap(v, mantissas, up) {
+    var k = Math.floor(Math.log10(v) + 1e-9), best = up ? Infinity : 0;
+    [k - 1, k, k + 1].forEach(function (e) {
+      mantissas.forEach(function (m) {
+        var c = clean(m * Math.pow(10, e));
+        if (up ? c >= v * (1 - 1e-9) && c < best : c <= v * (1 + 1e-9) && c > best) best = c;
+      });
+    });
+    return best;
+  }
   /**
    * A log axis for data between lo and hi (both > 0): the range widened on each side by
-   * `pad` of its span in decades (at least 0.04 decade), so no point touches the frame,
-   * and ticks at 1, 2, 5 per decade; when fewer than two of those fall inside (a range
-   * narrower than a factor of about 2.5), every mantissa 1…9 is used instead, and the
-   * range is widened to the neighbouring ones when even those leave fewer than two.
+   * `pad` of its span in decades (at least 0.04 decade), so no point touches the frame.
+   * Ticks at 1, 2 and 5 per decade when that gives at least three ticks with no gap wider
+   * than 60 % of the axis; otherwise every mantissa 1…9, then 1, 1.2, 1.5, 2, 2.5, 3…9 by the
+   * same test; when even the finest leaves fewer than three, the range is widened to the
+   * neighbouring ticks of the finest set.
    */
   function logAxis(lo, hi, pad) {
     var a = Math.log10(lo), b = Math.log10(hi);
     var p = Math.max((b - a) * (pad == null ? 0.06 : pad), 0.04);
     var min = Math.pow(10, a - p), max = Math.pow(10, b + p);
-    var ticks = logTicks(min, max);
-    if (ticks.length < 2) ticks = decadeTicks(min, max, ALL);
-    if (ticks.length < 2) {
-      // Narrower than one step of the mantissas: widen to the nearest m × 10^k (m = 1…9) on each side.
-      var k = Math.floor(Math.log10(min) + 1e-9), j = Math.floor(Math.log10(max) + 1e-9);
-      min = clean(Math.floor(min / Math.pow(10, k) + 1e-9) * Math.pow(10, k));
-      max = clean(Math.ceil(max / Math.pow(10, j) - 1e-9) * Math.pow(10, j));
-      ticks = decadeTicks(min, max, ALL);
+    for (var i = 0; i < LEVELS.length; i++) {
+      var ticks = decadeTicks(min, max, LEVELS[i]);
+      if (ticks.length >= 3 && widestGap(min, max, ticks) <= 0.6) return { min: min, max: max, ticks: ticks };
     }
-    return { min: min, max: max, ticks: ticks };
+    var fine = LEVELS[LEVELS.length - 1];
+    min = snap(min, fine, false);
+    max = snap(max, fine, true);
+    return { min: min, max: max, ticks: decadeTicks(min, max, fine) };
   }
   var api = { sci: sci, logTicks: logTicks, logAxis: logAxis };
   if (typeof globalThis !== "undefined") globalThis.waferbookAxes = api;
@@ -60,9 +78,11 @@
   var el = document.getElementById("chart-data");
   if (!el || typeof Chart === "undefined") return;
   var specs = JSON.parse(el.textContent || "[]");
-  var palette = { data: "#2c5f66", second: "#b5632d", third: "#6a3c98", fit: "#1d262b", reference: "#5d6368", flag: "#a4262c" };
-  var dashes = { data: [], second: [6, 3], third: [2, 2], fit: [8, 4], reference: [3, 3], flag: [] };
-  var shapes = { data: "circle", second: "rect", third: "triangle", fit: "crossRot", reference: "rectRot", flag: "circle" };
+  // Series of equal rank (data, second … fifth) differ in colour and in marker shape or dash, never colour alone.
+  var palette = { data: "#2c5f66", second: "#b5632d", third: "#6a3c98", fourth: "#1f5a8a", fifth: "#8a5d00", fit: "#1d262b", reference: "#5d6368", muted: "#5d6368", flag: "#a4262c" };
+  var dashes = { data: [], second: [6, 3], third: [2, 2], fourth: [10, 3, 2, 3], fifth: [1, 3], fit: [8, 4], reference: [3, 3], muted: [2, 4], flag: [] };
+  var shapes = { data: "circle", second: "rect", third: "triangle", fourth: "rectRot", fifth: "star", fit: "crossRot", reference: "rectRot", muted: "circle", flag: "circle" };
+  var HOLLOW = { muted: true, flag: true, fifth: true };
   var TARGET = { line: "#2d7047", fill: "rgba(45,112,71,0.12)", dash: [5, 4] };
   function unitOf(label) { var m = /\(([^)]*)\)\s*$/.exec(label); return m ? " " + m[1] : ""; }
   function day(v) { return new Date(Math.round(v) * 86400000).toISOString().slice(0, 10); }
@@ -75,11 +95,13 @@
       showLine: s.line,
       borderColor: palette[role], backgroundColor: palette[role],
       borderDash: s.line ? dashes[role] : [], pointStyle: shapes[role],
-      pointRadius: s.line ? 0 : role === "flag" ? 7 : 4, pointHoverRadius: s.line ? 3 : 6,
-      borderWidth: s.line ? 1.8 : role === "flag" ? 2 : 1, parsing: false,
+      // Markers at least 4.5 px in radius; open shapes (cross, star, rings) drawn with a 2 px stroke.
+      pointRadius: s.line ? 0 : role === "flag" ? 7.5 : role === "fifth" || role === "fit" ? 5.5 : 4.5, pointHoverRadius: s.line ? 3 : 7,
+      borderWidth: s.line ? 1.8 : HOLLOW[role] || role === "fit" ? 2 : 1, parsing: false,
       links: s.links, tips: s.tips
     };
-    if (role === "flag") { ds.backgroundColor = "rgba(0,0,0,0)"; ds.order = -1; }
+    if (!s.line && HOLLOW[role]) ds.backgroundColor = "rgba(0,0,0,0)";
+    if (role === "flag") ds.order = -1;
     return ds;
   }
 

@@ -11,7 +11,7 @@ let axes: Axes;
 
 beforeAll(async () => {
   // A plain browser script: it publishes its axis helpers on globalThis and stops without a document.
-  await import("../../templates/assets/charts.js");
+  await import(/* @vite-ignore */ new URL("../../templates/assets/charts.js", import.meta.url).href);
   axes = (globalThis as unknown as { waferbookAxes: Axes }).waferbookAxes;
 });
 
@@ -43,23 +43,30 @@ describe("logAxis (padding and fallbacks)", () => {
     expect(a.max).toBeGreaterThan(1e7);
     expect(a.ticks).toEqual([1e5, 2e5, 5e5, 1e6, 2e6, 5e6, 1e7]);
   });
-  it("pads at least 0.04 decade; a range of a factor 5 keeps 1-2-5 ticks", () => {
-    // 1.2e11 … 6e11: span 0.699 decade, 6 % = 0.042 → min 1.2e11 / 10^0.042 ≈ 1.09e11.
+  it("a sheet-density range of a factor 5 keeps 1-2-5 ticks (widest gap 52 % ≤ 60 %)", () => {
+    // 1.06e11 … 5.1e11: span 0.682 decade, pad 6 % = 0.041 → 9.63e10 … 5.61e11; gap 2e11 → 5e11 is 0.398 of 0.764 decade.
+    expect(axes.logAxis(1.06e11, 5.1e11).ticks).toEqual([1e11, 2e11, 5e11]);
+  });
+  it("uses every mantissa 1…9 when 1-2-5 gives fewer than three ticks", () => {
+    // 1.2e11 … 6e11 padded (0.042 decade) to ≈ 1.09e11 … 6.61e11: only 2e11 and 5e11 of 1-2-5 inside.
     const a = axes.logAxis(1.2e11, 6e11);
     expect(a.min).toBeCloseTo(1.2e11 / 10 ** (0.06 * Math.log10(5)), -7);
-    expect(a.ticks).toEqual([2e11, 5e11]);
+    expect(a.ticks).toEqual([2e11, 3e11, 4e11, 5e11, 6e11]);
   });
-  it("falls back to every mantissa 1…9 when fewer than two 1-2-5 ticks fall inside", () => {
-    // 2.3e5 … 4.2e5, padded by 0.04 decade (×/÷ 1.0965) to ≈ 2.10e5 … 4.61e5: neither 2e5 nor 5e5 inside, 3e5 and 4e5 are.
-    const a = axes.logAxis(2.3e5, 4.2e5);
-    expect(a.ticks).toEqual([3e5, 4e5]);
+  it("goes to 1, 1.2, 1.5, 2, 2.5, 3 … when 1…9 leaves fewer than three ticks", () => {
+    // 2.3e5 … 4.2e5, padded by 0.04 decade (×/÷ 1.0965) to ≈ 2.10e5 … 4.61e5: 3e5, 4e5 of 1…9; 2.5e5 joins at the finest set.
+    expect(axes.logAxis(2.3e5, 4.2e5).ticks).toEqual([2.5e5, 3e5, 4e5]);
   });
-  it("widens a very narrow range to the neighbouring mantissas", () => {
-    // 1.1e5 … 1.6e5 padded by 0.04 decade ≈ 1.00e5 … 1.75e5: widened to 1e5 … 2e5.
+  it("a mobility range of 8.6e4 … 1.38e5 gets ticks above 1e5 too (1…9 alone would leave the top 60 % empty)", () => {
+    // Padded (0.04 decade) to ≈ 7.84e4 … 1.51e5; 1…9 gives 8e4, 9e4, 1e5 (gap 1e5 → 1.51e5 is 0.180 of 0.285 decade: 63 %).
+    expect(axes.logAxis(8.6e4, 1.38e5).ticks).toEqual([8e4, 9e4, 1e5, 1.2e5, 1.5e5]);
+  });
+  it("widens a very narrow range to the neighbouring ticks of the finest set", () => {
+    // 1.1e5 … 1.6e5 padded to ≈ 1.003e5 … 1.754e5: only 1.2e5 and 1.5e5 inside, so the axis runs 1e5 … 2e5.
     const a = axes.logAxis(1.1e5, 1.6e5);
     expect(a.min).toBe(1e5);
     expect(a.max).toBe(2e5);
-    expect(a.ticks).toEqual([1e5, 2e5]);
+    expect(a.ticks).toEqual([1e5, 1.2e5, 1.5e5, 2e5]);
   });
 });
 

@@ -1,0 +1,49 @@
+/**
+ * The "On this page" list of a wafer page: its sections in page order, only
+ * those the page draws, each an anchor link (id, label). The appendix (left
+ * out of print) lists its parts beneath it.
+ */
+export interface PageIndexEntry {
+  id: string;
+  label: string;
+  children?: PageIndexEntry[];
+}
+
+export interface PageIndexInput {
+  decision: boolean;
+  problems: boolean;
+  transport: boolean;
+  uniformity: boolean;
+  structure: boolean;
+  images: boolean;
+  stack: boolean;
+  /** Devices with per-sweep tables, and whether the transport analyses in depth exist. */
+  deviceTables: boolean;
+  transportDepth: boolean;
+}
+
+export function pageIndex(p: PageIndexInput): PageIndexEntry[] {
+  const e = (on: boolean, id: string, label: string): PageIndexEntry[] => (on ? [{ id, label }] : []);
+  return [
+    { id: "summary", label: "Verdict" },
+    ...e(p.decision, "decision", "Lab decision"),
+    ...e(p.problems, "problems", "Input problems"),
+    { id: "metrics", label: "Metrics against targets" },
+    ...e(p.transport, "transport", "Magnetotransport"),
+    ...e(p.uniformity, "uniformity", "Within-wafer uniformity"),
+    ...e(p.structure, "structure", "Strain and interfaces"),
+    ...e(p.images, "images", "Lattice images"),
+    ...e(p.stack, "stack", "Layer stack (design)"),
+    { id: "notes", label: "Notes" },
+    {
+      id: "appendix",
+      label: "Appendix (not printed)",
+      children: [
+        ...e(p.deviceTables, "appendix-sweeps", "Hall analysis per field sweep"),
+        ...e(p.transportDepth, "transport-depth", "Transport in depth"),
+        { id: "provenance", label: "Raw files and settings" },
+        { id: "history", label: "History" },
+      ],
+    },
+  ];
+}
