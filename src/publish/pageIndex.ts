@@ -41,6 +41,7 @@ export function pageIndex(p: PageIndexInput): PageIndexEntry[] {
       children: [
         ...e(p.deviceTables, "appendix-sweeps", "Hall analysis per field sweep"),
         ...e(p.transportDepth, "transport-depth", "Transport in depth"),
+        ...e(p.structure, "appendix-structure", "Strain and interfaces: tables"),
         { id: "provenance", label: "Raw files and settings" },
         { id: "history", label: "History" },
       ],

@@ -16,7 +16,10 @@ import { stackSvg, type StackRow } from "./structureSvg.ts";
 import { rsmFigure } from "./rsmFigure.ts";
 
 export interface StructureSectionModel {
+  /** Every chart (for the page's JSON); `primary` in the section, `secondaryCharts` in the appendix. */
   charts: ChartSpec[];
+  primary: ChartSpec[];
+  secondaryCharts: ChartSpec[];
   /** Inline SVG markup built with every text escaped. */
   stackSvg: string;
   maps: { file: string; reflection: string; svg?: string; note: string }[];
@@ -143,9 +146,13 @@ export function structureSection(o: WaferOutcome): StructureSectionModel | undef
   if (!s) return undefined;
   const fmt = (v: number | undefined, unit: string) => (v === undefined ? "—" : `${formatNumber(v, 4)}${unit === "1" ? "" : ` ${unit}`}`);
   const files: StructureSectionModel["files"] = [];
+  const charts = profileCharts(s);
+  const secondary = (c: ChartSpec) => c.id.endsWith("-contaminants");
   return {
     files,
-    charts: profileCharts(s),
+    charts,
+    primary: charts.filter((c) => !secondary(c)),
+    secondaryCharts: charts.filter(secondary),
     stackSvg: stackSvg(stackRows(o, s), "stack-fig"),
     ...xrdTables(s, o.folder, files),
     critical: criticalRows(s),

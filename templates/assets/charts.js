@@ -54,7 +54,7 @@
    * A log axis for data between lo and hi (both > 0): the range widened on each side by
    * `pad` of its span in decades (at least 0.04 decade), so no point touches the frame.
    * Ticks at 1, 2 and 5 per decade when that gives at least three ticks with no gap wider
-   * than 60 % of the axis; otherwise every mantissa 1…9, then 1, 1.2, 1.5, 2, 2.5, 3…9 by the
+   * than 45 % of the axis; otherwise every mantissa 1…9, then 1, 1.2, 1.5, 2, 2.5, 3…9 by the
    * same test; when even the finest leaves fewer than three, the range is widened to the
    * neighbouring ticks of the finest set.
    */
@@ -64,7 +64,7 @@
     var min = Math.pow(10, a - p), max = Math.pow(10, b + p);
     for (var i = 0; i < LEVELS.length; i++) {
       var ticks = decadeTicks(min, max, LEVELS[i]);
-      if (ticks.length >= 3 && widestGap(min, max, ticks) <= 0.6) return { min: min, max: max, ticks: ticks };
+      if (ticks.length >= 3 && widestGap(min, max, ticks) <= 0.45) return { min: min, max: max, ticks: ticks };
     }
     var fine = LEVELS[LEVELS.length - 1];
     min = snap(min, fine, false);
@@ -257,7 +257,8 @@
     var canvas = document.querySelector('canvas[data-chart="' + spec.id + '"]');
     if (canvas) draw(spec, canvas);
   });
-  // Printing: let each chart fit the paper's width, then the screen again.
-  window.addEventListener("beforeprint", function () { Object.values(Chart.instances).forEach(function (c) { c.resize(); }); });
+  // Printing: each chart is redrawn at the size of half an A4 text width (print CSS sets two to a row), then for the screen again.
+  var PRINT_SIZE = [340, 230];
+  window.addEventListener("beforeprint", function () { Object.values(Chart.instances).forEach(function (c) { c.resize(PRINT_SIZE[0], PRINT_SIZE[1]); }); });
   window.addEventListener("afterprint", function () { Object.values(Chart.instances).forEach(function (c) { c.resize(); }); });
 })();

@@ -43,9 +43,13 @@ describe("logAxis (padding and fallbacks)", () => {
     expect(a.max).toBeGreaterThan(1e7);
     expect(a.ticks).toEqual([1e5, 2e5, 5e5, 1e6, 2e6, 5e6, 1e7]);
   });
-  it("a sheet-density range of a factor 5 keeps 1-2-5 ticks (widest gap 52 % ≤ 60 %)", () => {
-    // 1.06e11 … 5.1e11: span 0.682 decade, pad 6 % = 0.041 → 9.63e10 … 5.61e11; gap 2e11 → 5e11 is 0.398 of 0.764 decade.
-    expect(axes.logAxis(1.06e11, 5.1e11).ticks).toEqual([1e11, 2e11, 5e11]);
+  it("a density range of more than a decade keeps 1-2-5 ticks", () => {
+    // 3e10 … 8e11: span 1.426 decades, pad 0.086 → 2.46e10 … 9.75e11; widest gap 2e11 → 5e11, 0.398 of 1.597 decades (25 %).
+    expect(axes.logAxis(3e10, 8e11).ticks).toEqual([5e10, 1e11, 2e11, 5e11]);
+  });
+  it("a range of a factor 5 whose 1-2-5 ticks leave a gap over 45 % of the axis gets 1…9", () => {
+    // 1.06e11 … 5.1e11 padded (0.041 decade) to 9.63e10 … 5.61e11: 1-2-5 leaves 2e11 → 5e11, 0.398 of 0.764 decade (52 %).
+    expect(axes.logAxis(1.06e11, 5.1e11).ticks).toEqual([1e11, 2e11, 3e11, 4e11, 5e11]);
   });
   it("uses every mantissa 1…9 when 1-2-5 gives fewer than three ticks", () => {
     // 1.2e11 … 6e11 padded (0.042 decade) to ≈ 1.09e11 … 6.61e11: only 2e11 and 5e11 of 1-2-5 inside.
