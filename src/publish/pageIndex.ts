@@ -20,6 +20,8 @@ export interface PageIndexInput {
   /** Devices with per-sweep tables, and whether the transport analyses in depth exist. */
   deviceTables: boolean;
   transportDepth: boolean;
+  /** Ids of the lattice-image blocks (their profile and numbers are in the appendix). */
+  imageIds?: string[];
 }
 
 export function pageIndex(p: PageIndexInput): PageIndexEntry[] {
@@ -41,7 +43,8 @@ export function pageIndex(p: PageIndexInput): PageIndexEntry[] {
       children: [
         ...e(p.deviceTables, "appendix-sweeps", "Hall analysis per field sweep"),
         ...e(p.transportDepth, "transport-depth", "Transport in depth"),
-        ...e(p.structure, "appendix-structure", "Strain and interfaces: tables"),
+        ...e(p.structure, "appendix-structure", "Strain and interfaces: tables and depth profiles"),
+        ...(p.imageIds ?? []).map((id, k) => ({ id: `appendix-${id}`, label: `Lattice image ${k + 1}: profile and numbers` })),
         { id: "provenance", label: "Raw files and settings" },
         { id: "history", label: "History" },
       ],

@@ -16,10 +16,8 @@ import { stackSvg, type StackRow } from "./structureSvg.ts";
 import { rsmFigure } from "./rsmFigure.ts";
 
 export interface StructureSectionModel {
-  /** Every chart (for the page's JSON); `primary` in the section, `secondaryCharts` in the appendix. */
+  /** The depth-profile charts (drawn in the wafer page's appendix). */
   charts: ChartSpec[];
-  primary: ChartSpec[];
-  secondaryCharts: ChartSpec[];
   /** Inline SVG markup built with every text escaped. */
   stackSvg: string;
   maps: { file: string; reflection: string; svg?: string; note: string }[];
@@ -146,13 +144,9 @@ export function structureSection(o: WaferOutcome): StructureSectionModel | undef
   if (!s) return undefined;
   const fmt = (v: number | undefined, unit: string) => (v === undefined ? "—" : `${formatNumber(v, 4)}${unit === "1" ? "" : ` ${unit}`}`);
   const files: StructureSectionModel["files"] = [];
-  const charts = profileCharts(s);
-  const secondary = (c: ChartSpec) => c.id.endsWith("-contaminants");
   return {
     files,
-    charts,
-    primary: charts.filter((c) => !secondary(c)),
-    secondaryCharts: charts.filter(secondary),
+    charts: profileCharts(s),
     stackSvg: stackSvg(stackRows(o, s), "stack-fig"),
     ...xrdTables(s, o.folder, files),
     critical: criticalRows(s),

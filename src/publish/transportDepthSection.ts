@@ -2,8 +2,8 @@
  * Page model of the transport in depth (percolation, power law, Shubnikov–de
  * Haas) section of a wafer page: per device the charts (σ vs n with the
  * percolation fit, μ vs n log–log with the power law, the spectrum of the SdH
- * oscillation (the oscillation itself with its Lifshitz–Kosevich fit, per gate
- * voltage, is `primary`: traceViews.ts), the Dingle plot as a
+ * oscillation (first: the oscillation itself with its Lifshitz–Kosevich fit,
+ * one view per gate voltage, from traceViews.ts), the Dingle plot as a
  * diagnostic view with the fit's line, density vs gate with Hall and SdH
  * densities), a table of the fits, a table of per-point figures with standard
  * errors, notes (spin splitting) and the reasons for anything not determined.
@@ -53,8 +53,6 @@ export interface DepthDevice {
 export interface TransportDepthSectionModel {
   /** Every chart of the devices' blocks (the appendix draws them). */
   charts: ChartSpec[];
-  /** The oscillation view of each device (every fitted gate voltage, with the Lifshitz–Kosevich curve), drawn in the main transport section. */
-  primary: ChartSpec[];
   devices: DepthDevice[];
 }
 
@@ -190,7 +188,7 @@ function pointRows(x: DeviceDepth): DepthPointRow[] {
 }
 
 function deviceModel(d: DeviceAnalysis, x: DeviceDepth): DepthDevice {
-  const charts = [conductivityChart(d.id, x), mobilityChart(d, x), ...sdhCharts(d.id, x), densityChart(d, x)].filter((c): c is ChartSpec => c !== undefined);
+  const charts = [oscillationChart(d.id, x), conductivityChart(d.id, x), mobilityChart(d, x), ...sdhCharts(d.id, x), densityChart(d, x)].filter((c): c is ChartSpec => c !== undefined);
   const skipped = [
     ...x.gateSweeps.flatMap((s) => (s.percolation.ok ? [] : [`${s.file}: ${s.percolation.reason}`])),
     ...x.points.flatMap((p) => {
@@ -208,6 +206,5 @@ export function transportDepthSection(o: WaferOutcome): TransportDepthSectionMod
   const withDepth = (o.analysis?.devices ?? []).flatMap((d) => (d.depth ? [{ d, x: d.depth }] : []));
   if (withDepth.length === 0) return undefined;
   const devices = withDepth.map(({ d, x }) => deviceModel(d, x));
-  const primary = withDepth.flatMap(({ d, x }) => oscillationChart(d.id, x) ?? []);
-  return { charts: devices.flatMap((d) => d.charts), primary, devices };
+  return { charts: devices.flatMap((d) => d.charts), devices };
 }

@@ -85,7 +85,7 @@ export function waferCharts(o: WaferOutcome): ChartSpec[] {
 export function waferPageModel(o: WaferOutcome) {
   const r = o.record;
   const transportDepth = transportDepthSection(o);
-  const transportCharts = [...waferCharts(o), ...(transportDepth?.primary ?? [])];
+  const transportCharts = waferCharts(o);
   const structure = structureSection(o);
   const images = imagesSection(o);
   const uniformity = uniformitySection(o);
@@ -103,6 +103,7 @@ export function waferPageModel(o: WaferOutcome) {
       stack: (r?.stack ?? []).length > 0,
       deviceTables: devices.length > 0,
       transportDepth: transportDepth !== undefined,
+      imageIds: images?.images.map((b) => b.id),
     }),
     id: o.folder,
     run: r?.run,

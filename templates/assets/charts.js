@@ -259,6 +259,12 @@
   });
   // Printing: each chart is redrawn at the size of half an A4 text width (print CSS sets two to a row), then for the screen again.
   var PRINT_SIZE = [340, 230];
-  window.addEventListener("beforeprint", function () { Object.values(Chart.instances).forEach(function (c) { c.resize(PRINT_SIZE[0], PRINT_SIZE[1]); }); });
-  window.addEventListener("afterprint", function () { Object.values(Chart.instances).forEach(function (c) { c.resize(); }); });
+  // Legends and ticks a little smaller on paper, so the plot keeps its room in half a text width.
+  function fonts(c, size) {
+    c.options.plugins.legend.labels.font = { size: size };
+    c.options.plugins.legend.labels.padding = size === 12 ? 10 : 4;
+    Object.values(c.options.scales).forEach(function (s) { s.ticks.font = { size: size - 1 }; s.title.font = { size: size }; });
+  }
+  window.addEventListener("beforeprint", function () { Object.values(Chart.instances).forEach(function (c) { fonts(c, 10); c.update("none"); c.resize(PRINT_SIZE[0], PRINT_SIZE[1]); }); });
+  window.addEventListener("afterprint", function () { Object.values(Chart.instances).forEach(function (c) { fonts(c, 12); c.update("none"); c.resize(); }); });
 })();
