@@ -6,6 +6,7 @@
  */
 import { analyseWafer, type WaferAnalysis } from "../analyse/wafer.ts";
 import type { DeviceDepth } from "../analyse/transport/deviceDepth.ts";
+import { lttbIndices } from "../analyse/numeric/lttb.ts";
 import { loadWafer, type LoadContext } from "../read/wafer.ts";
 import { damagedEntryWarning, readEntry, slimAnalysis, writeEntry, type CacheEntry, type EntryForm } from "./cache.ts";
 import type { Problem } from "../validate/problem.ts";
@@ -66,21 +67,31 @@ export async function analyseFolder(folder: string, ctx: AnalyseContext, knownKe
   return { entry, cacheHit: false, form: "full", key, slim };
 }
 
-const NO_TRACE = { b: new Float64Array(0), rhoxx: new Float64Array(0), rxy: new Float64Array(0) };
 
 /**
  * Drops what publishing never reads, so the build holds (and the cache
- * stores) less per wafer: the full-resolution symmetrised traces of every
- * field sweep except each device's last one (the one charted; the page links
- * the raw files for the rest), and the SdH traces and spectra of all but the
- * charted point (slimDepth). Analysis results that were computed from the
- * traces are kept.
+ * stores) less per wafer: the symmetrised traces of every field sweep except
+ * each device's last one are cut to at most DISPLAY_TRACE_POINTS points (LTTB,
+ * the union of the points kept for ρxx and for Rxy: enough for the page's
+ * chart of every gate voltage; the page links the raw files for full
+ * resolution), and the SdH traces and spectra of all but the charted point
+ * go (slimDepth). Analysis results that were computed from the traces are kept.
  */
 export function keepForPublishing(analysis: WaferAnalysis): WaferAnalysis {
   return {
     ...analysis,
-    devices: analysis.devices.map((d) => ({ ...d, points: d.points.map((p, i) => (i === d.points.length - 1 ? p : { ...p, trace: NO_TRACE })), depth: d.depth && slimDepth(d.depth) })),
+    devices: analysis.devices.map((d) => ({ ...d, points: d.points.map((p, i) => (i === d.points.length - 1 ? p : { ...p, trace: displayTrace(p.trace) })), depth: d.depth && slimDepth(d.depth) })),
   };
+}
+
+/** Points per channel kept of a field sweep that is only charted (publish/charts.ts draws at most 300). */
+const DISPLAY_TRACE_POINTS = 300;
+
+function displayTrace(t: { b: Float64Array; rhoxx: Float64Array; rxy: Float64Array }) {
+  if (t.b.length <= DISPLAY_TRACE_POINTS) return t;
+  const keep = [...new Set([...lttbIndices(t.b, t.rhoxx, DISPLAY_TRACE_POINTS), ...lttbIndices(t.b, t.rxy, DISPLAY_TRACE_POINTS / 3)])].sort((a, b) => a - b);
+  const pick = (a: Float64Array) => Float64Array.from(keep, (i) => a[i]);
+  return { b: pick(t.b), rhoxx: pick(t.rhoxx), rxy: pick(t.rxy) };
 }
 
 const NO_SDH_TRACE = { inverseField: [], oscillation: [] };

@@ -13,12 +13,27 @@ export interface ChartSeries {
   points: [number, number][];
   /** Draw as a line (true) or as markers (false). */
   line: boolean;
-  /** Role picks the colour from the site palette: data, fit, reference, second; "flag" rings points flagged by a rule. */
-  role?: "data" | "fit" | "second" | "third" | "reference" | "flag";
+  /**
+   * Role picks colour, marker shape and dash from the site palette: data, second … fifth for series
+   * of equal rank (distinct shapes and colours), fit, reference, "muted" (hollow grey: points shown
+   * but not judged); "flag" rings points flagged by a rule.
+   */
+  role?: "data" | "fit" | "second" | "third" | "fourth" | "fifth" | "reference" | "muted" | "flag";
   /** Per point (same order as `points`): a link opened when the point is clicked (e.g. the wafer's page). */
   links?: string[];
   /** Per point: a tooltip line naming it (e.g. "TQ-2403 · run TQ24-A"). */
   tips?: string[];
+  /** "y2": drawn against the right-hand axis of a chart with `y2`. */
+  axis?: "y2";
+}
+
+/** One of several sets of series a chart switches between (e.g. one per gate voltage). */
+export interface ChartView {
+  /** The option's text in the page's list. */
+  label: string;
+  /** A sentence about this view, shown under the chart while it is selected. */
+  caption?: string;
+  series: ChartSeries[];
 }
 
 export interface ChartLimit {
@@ -34,12 +49,22 @@ export interface ChartSpec {
   /** `dates: true`: x values are days since 1970-01-01 (UTC), ticks and tooltips show YYYY-MM-DD. */
   x: { label: string; log?: boolean; dates?: boolean };
   y: { label: string; log?: boolean };
+  /** A second value axis on the right, for series with `axis: "y2"` (own unit). */
+  y2?: { label: string; log?: boolean };
+  /** Series drawn (empty when `views` is given). */
   series: ChartSeries[];
+  /** Views chosen with a <select> above the chart (the template writes it; `viewLabel` labels it); `view` is the one drawn first. */
+  views?: ChartView[];
+  view?: number;
+  viewLabel?: string;
   /** Target limits drawn as lines, pass region shaded. */
   limits?: ChartLimit[];
   /** A short text alternative for screen readers. */
   summary: string;
 }
+
+/** Roles for series of equal rank (devices, runs, reactors), in order: each its own colour and marker. */
+export const SERIES_ROLES = ["data", "second", "third", "fourth", "fifth"] as const;
 
 /** Points kept per trace on a page. */
 export const TRACE_POINTS = 300;

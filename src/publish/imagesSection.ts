@@ -30,6 +30,8 @@ export interface PagePicture {
   height: number;
   alt: string;
   caption: string;
+  /** Labels of the colour bar drawn under a strain map (left end, centre, right end, and what it measures). */
+  bar?: { low: string; mid: string; high: string; label: string };
 }
 
 export interface ImageBlock {
@@ -120,8 +122,9 @@ function block(r: ImageResult, i: number, wafer: string, files: SectionFile[], r
       const pct = `${formatNumber(lim * 100, 2)} %`;
       maps.push({
         src: `images/${id}-${key}.png`, href: `images/${id}-${key}-full.png`, width: small.width, height: small.height,
-        alt: `${label} map of ${m.file} relative to ${r.referenceSource}; colour bar below from −${pct} (blue, compression) to +${pct} (brown, tension)${interfaces ? "; black lines mark the two interfaces" : ""}`,
-        caption: `${label}. Colour bar: −${pct} … 0 … +${pct}${interfaces ? "; lines: interfaces" : ""}.`,
+        alt: `${label} map of ${m.file} relative to ${r.referenceSource}; colour bar below from −${pct} (blue, compression) to +${pct} (red, tension)${interfaces ? "; black lines mark the two interfaces" : ""}`,
+        caption: `${label}. Blue: compression, red: tension${interfaces ? "; black lines: interfaces" : ""}.`,
+        bar: { low: `−${pct}`, mid: "0", high: `+${pct}`, label: "strain (%)" },
       });
     }
     numbers.push(["Reference lattice", r.referenceSource]);

@@ -26,10 +26,10 @@ export interface SearchDoc {
   notes: string;
 }
 
-/** Options shared by the build and the browser (loadJS needs the same ones). */
+/** Options shared by the build and the browser (loadJS needs the same ones). Reasons and notes are stored for the result snippets. */
 export const SEARCH_OPTIONS = {
   fields: ["title", "run", "grade", "verdict", "reasons", "notes"],
-  storeFields: ["kind", "title", "href", "run", "verdict"],
+  storeFields: ["kind", "title", "href", "run", "verdict", "reasons", "notes"],
 };
 
 /** Markdown to plain words: drops markup characters, keeps the text. */

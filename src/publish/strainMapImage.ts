@@ -1,11 +1,10 @@
 /**
  * PNG pictures of strain maps and micrographs for the wafer pages.
  *
- * Strain maps use waferbook's own diverging scale, symmetric about zero:
- * compression (negative) runs from warm white through slate blue to deep
- * indigo, tension (positive) from warm white through ochre to burnt sienna;
- * stops at −1, −½, 0, +½, +1 of the colour limit, linear in between; values
- * beyond ±limit take the end colours, missing values mid grey. Below the map a
+ * Strain maps use the diverging scale of colourScales.ts (ColorBrewer RdBu
+ * reversed, from d3-scale-chromatic, as a 256-entry table), symmetric about
+ * zero: compression (negative) blue, zero white, tension (positive) red;
+ * values beyond ±limit take the end colours, missing values mid grey. Below the map a
  * colour bar strip runs from −limit (left) to +limit (right) with a dark tick
  * at zero; the limit is returned so the page can label the bar. Interfaces
  * are drawn as near-black lines of constant growth coordinate (geometry.ts).
@@ -19,27 +18,12 @@ import { PNG } from "pngjs";
 import { growthCoordinate, type GrowthAxis } from "../analyse/images/geometry.ts";
 import { encodeGreyPng, PAGE_PNG } from "./greyPng.ts";
 import { quantile } from "simple-statistics";
+import { divergingRgb, type RGB } from "./colourScales.ts";
 
-type RGB = [number, number, number];
-
-const STOPS: RGB[] = [
-  [33, 47, 112],
-  [98, 128, 186],
-  [246, 243, 236],
-  [214, 156, 74],
-  [136, 52, 26],
-];
-const MISSING: RGB = [128, 128, 128];
 const LINE: RGB = [20, 20, 20];
 
-/** Colour of t ∈ [−1, 1] on the diverging scale (clamped). */
-export function divergingColour(t: number): RGB {
-  if (!Number.isFinite(t)) return MISSING;
-  const u = (Math.max(-1, Math.min(1, t)) + 1) * 2;
-  const i = Math.min(3, Math.floor(u));
-  const f = u - i;
-  return [0, 1, 2].map((c) => Math.round(STOPS[i][c] + f * (STOPS[i + 1][c] - STOPS[i][c]))) as RGB;
-}
+/** Colour of t ∈ [−1, 1] on the diverging scale (clamped; non-finite → grey). */
+export const divergingColour = divergingRgb;
 
 /** Block-average by an integer factor so the long side is ≤ maxSide (NaN-aware). */
 export function downsample(map: ArrayLike<number>, width: number, height: number, maxSide?: number) {

@@ -12,10 +12,12 @@ import type { InterfaceFit } from "../analyse/structure/depthProfile.ts";
 import { radToDeg } from "../analyse/structure/bragg.ts";
 import { markerSeries, traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
 import { formatNumber, sig6OrNull } from "./format.ts";
-import { rsmSvg, stackSvg, type StackRow } from "./structureSvg.ts";
+import { stackSvg, type StackRow } from "./structureSvg.ts";
+import { rsmFigure } from "./rsmFigure.ts";
 import { valleySection, type ValleySectionModel } from "./valleySection.ts";
 
 export interface StructureSectionModel {
+  /** The depth-profile charts (drawn in the wafer page's appendix). */
   charts: ChartSpec[];
   /** Inline SVG markup built with every text escaped. */
   stackSvg: string;
@@ -30,6 +32,8 @@ export interface StructureSectionModel {
   findings: { severity: string; text: string }[];
   /** The "valley splitting (predicted)" part (valleySection.ts). */
   valley?: ValleySectionModel;
+  /** Pictures of the reciprocal-space maps (paths under wafers/<id>/); the build writes them. */
+  files: { path: string; bytes: Buffer }[];
 }
 
 const pm = (v: number, e: number | undefined, digits = 4) => (e !== undefined && e > 0 ? `${formatNumber(v, digits)} ± ${formatNumber(e, 2)}` : formatNumber(v, digits));
@@ -92,10 +96,15 @@ function profileRows(s: StructureAnalysis): StructureSectionModel["profiles"] {
   });
 }
 
-function xrdTables(s: StructureAnalysis): Pick<StructureSectionModel, "maps" | "peaks" | "buffer" | "bufferReason" | "strain"> {
+function xrdTables(s: StructureAnalysis, wafer: string, files: StructureSectionModel["files"]): Pick<StructureSectionModel, "maps" | "peaks" | "buffer" | "bufferReason" | "strain"> {
   const x = s.xrd;
   const geX = x?.buffer.ok ? x.buffer.geFraction : undefined;
-  const maps = (x?.files ?? []).map((f, i) => ({ file: f.file, reflection: f.peaks.ok ? f.peaks.reflection.join(" ") : "", svg: rsmSvg(f, geX, `rsm-${i}`), note: f.peaks.ok ? `offsets added: Δω ${formatNumber(radToDeg(f.peaks.offset.omega), 3)}°, Δ2θ ${formatNumber(radToDeg(f.peaks.offset.twoTheta), 3)}°${f.peaks.notes.length ? `; ${f.peaks.notes.join("; ")}` : ""}` : `not analysed: ${f.peaks.reason}` }));
+  const figure = (f: NonNullable<typeof x>["files"][number], i: number) => {
+    const fig = rsmFigure(f, geX, `rsm-${i}`, `structure/rsm-${i}.png`);
+    if (fig) files.push({ path: `wafers/${wafer}/structure/rsm-${i}.png`, bytes: fig.png });
+    return fig?.svg;
+  };
+  const maps = (x?.files ?? []).map((f, i) => ({ file: f.file, reflection: f.peaks.ok ? f.peaks.reflection.join(" ") : "", svg: figure(f, i), note: f.peaks.ok ? `offsets added: Δω ${formatNumber(radToDeg(f.peaks.offset.omega), 3)}°, Δ2θ ${formatNumber(radToDeg(f.peaks.offset.twoTheta), 3)}°${f.peaks.notes.length ? `; ${f.peaks.notes.join("; ")}` : ""}` : `not analysed: ${f.peaks.reason}` }));
   const peaks = (x?.files ?? []).flatMap((f) => { const pk = f.peaks; return pk.ok ? pk.peaks.map((p) => ({ file: f.file, reflection: pk.reflection.join(" "), layer: p.layer, omega: `${deg(p.omega)} ± ${formatNumber(radToDeg(p.omegaStdErr), 2)}`, twoTheta: `${deg(p.twoTheta)} ± ${formatNumber(radToDeg(p.twoThetaStdErr), 2)}`, qx: perNm(p.qx, p.qxStdErr), qz: perNm(p.qz, p.qzStdErr), method: p.method })) : []; });
   const b = x?.buffer;
   const buffer = b?.ok
@@ -137,10 +146,12 @@ export function structureSection(o: WaferOutcome): StructureSectionModel | undef
   const s = o.analysis?.structure;
   if (!s) return undefined;
   const fmt = (v: number | undefined, unit: string) => (v === undefined ? "—" : `${formatNumber(v, 4)}${unit === "1" ? "" : ` ${unit}`}`);
+  const files: StructureSectionModel["files"] = [];
   return {
+    files,
     charts: profileCharts(s),
     stackSvg: stackSvg(stackRows(o, s), "stack-fig"),
-    ...xrdTables(s),
+    ...xrdTables(s, o.folder, files),
     critical: criticalRows(s),
     design: s.design.map((d) => ({ quantity: d.quantity, design: fmt(d.design, d.unit), measured: d.measured === undefined ? "—" : d.measuredStdErr ? `${pm(d.measured, d.measuredStdErr)}${d.unit === "1" ? "" : ` ${d.unit}`}` : fmt(d.measured, d.unit), source: d.source })),
     profiles: profileRows(s),

@@ -1,8 +1,9 @@
 /**
  * Page model of the transport in depth (percolation, power law, Shubnikov–de
  * Haas) section of a wafer page: per device the charts (σ vs n with the
- * percolation fit, μ vs n log–log with the power law, the SdH oscillation in 1/B
- * with the fitted Lifshitz–Kosevich curve, its spectrum, the Dingle plot as a
+ * percolation fit, μ vs n log–log with the power law, the spectrum of the SdH
+ * oscillation (first: the oscillation itself with its Lifshitz–Kosevich fit,
+ * one view per gate voltage, from traceViews.ts), the Dingle plot as a
  * diagnostic view with the fit's line, density vs gate with Hall and SdH
  * densities), a table of the fits, a table of per-point figures with standard
  * errors, notes (spin splitting) and the reasons for anything not determined.
@@ -15,6 +16,7 @@ import { percolationConductivity } from "../analyse/transport/percolation.ts";
 import { POWER_LAW_REFERENCE_DENSITY } from "../analyse/transport/mobilityPowerLaw.ts";
 import { markerSeries, traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
 import { formatNumber } from "./format.ts";
+import { oscillationChart } from "./traceViews.ts";
 import { densityAtGate } from "../analyse/transport/densityCalibration.ts";
 
 export interface FitRow {
@@ -49,6 +51,7 @@ export interface DepthDevice {
 }
 
 export interface TransportDepthSectionModel {
+  /** Every chart of the devices' blocks (the appendix draws them). */
   charts: ChartSpec[];
   devices: DepthDevice[];
 }
@@ -105,16 +108,6 @@ function sdhCharts(id: string, x: DeviceDepth): ChartSpec[] {
   const s = best.sdh;
   const o = best.oscillation;
   const charts: ChartSpec[] = [];
-  if (o.ok) {
-    charts.push({
-      id: `depth-osc-${id}`,
-      title: `${id}: ρxx oscillation against 1/B at Vg = ${f(best.gate_V)} V, with the fit`,
-      x: { label: "Inverse field 1/B (T⁻¹)" },
-      y: { label: "ρxx − fitted background (Ω)" },
-      series: [traceSeries("data", o.curve.inverseField, o.curve.oscillation), traceSeries("Lifshitz–Kosevich fit", o.model.inverseField, o.model.oscillation, "fit")],
-      summary: `Fit of ${best.file} between ${f(o.fieldRange[0])} T and ${f(o.fieldRange[1])} T: ${f(o.periods)} periods, R² ${o.r2.toFixed(4)}, residual noise ${f(o.residualNoise)} Ω (${f(o.residualNoiseRelative * 100, 2)} % of ρxx)${o.spinSplitting ? `; ${o.spinSplitting.note}` : ""}`,
-    });
-  }
   charts.push({
     id: `depth-fft-${id}`,
     title: `${id}: spectrum of the oscillation at Vg = ${f(best.gate_V)} V`,
@@ -195,7 +188,7 @@ function pointRows(x: DeviceDepth): DepthPointRow[] {
 }
 
 function deviceModel(d: DeviceAnalysis, x: DeviceDepth): DepthDevice {
-  const charts = [conductivityChart(d.id, x), mobilityChart(d, x), ...sdhCharts(d.id, x), densityChart(d, x)].filter((c): c is ChartSpec => c !== undefined);
+  const charts = [oscillationChart(d.id, x), conductivityChart(d.id, x), mobilityChart(d, x), ...sdhCharts(d.id, x), densityChart(d, x)].filter((c): c is ChartSpec => c !== undefined);
   const skipped = [
     ...x.gateSweeps.flatMap((s) => (s.percolation.ok ? [] : [`${s.file}: ${s.percolation.reason}`])),
     ...x.points.flatMap((p) => {
@@ -210,7 +203,8 @@ function deviceModel(d: DeviceAnalysis, x: DeviceDepth): DepthDevice {
 }
 
 export function transportDepthSection(o: WaferOutcome): TransportDepthSectionModel | undefined {
-  const devices = (o.analysis?.devices ?? []).flatMap((d) => (d.depth ? [deviceModel(d, d.depth)] : []));
-  if (devices.length === 0) return undefined;
+  const withDepth = (o.analysis?.devices ?? []).flatMap((d) => (d.depth ? [{ d, x: d.depth }] : []));
+  if (withDepth.length === 0) return undefined;
+  const devices = withDepth.map(({ d, x }) => deviceModel(d, x));
   return { charts: devices.flatMap((d) => d.charts), devices };
 }

@@ -10,7 +10,7 @@ import { describeBaseline, orderByDate, trendGroups, type Trend, type TrendInput
 import { DEFAULT_MAX_PASSES, ROUGH_BASELINE_BELOW } from "../judge/phaseOne.ts";
 import type { Targets } from "../validate/targets.ts";
 import { DEFAULT_TREND_SETTINGS } from "../validate/trendSettings.ts";
-import { jsonForScript, markerSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
+import { jsonForScript, markerSeries, SERIES_ROLES, type ChartSeries, type ChartSpec } from "./charts.ts";
 import { formatNumber, formatValue, prettyUnit, sig6 } from "./format.ts";
 
 /** One wafer's values, as the site model knows them. */
@@ -26,7 +26,7 @@ export interface TrendWafer {
   values: Record<string, number | undefined>;
 }
 
-const ROLES = ["data", "second", "third", "fit"] as const;
+const ROLES = SERIES_ROLES;
 
 /** Days since 1970-01-01 (UTC) for an ISO date, the x value of a dated chart. */
 export function dayNumber(date: string): number {
@@ -65,7 +65,7 @@ function trendCharts(spec: MetricSpec, groups: Trend[], by: string, targets: Tar
   const overlay: ChartSeries[] = [
     ...(flagged.length ? [{ ...markerSeries("flagged by a rule", flagged.map((p) => [dayNumber(p.date), p.value])), role: "flag" as const, links: flagged.map((p) => href(p.id)), tips: flagged.map((p) => `${p.id}: ${p.why}`) }] : []),
     ...(dropped.length ? [{ ...markerSeries("dropped from the baseline (Phase I)", dropped.map((p) => [dayNumber(p.date), p.value]), "reference"), links: dropped.map((p) => href(p.id)), tips: dropped.map((p) => `${p.id}: ${p.note}`) }] : []),
-    ...(left.length ? [{ ...markerSeries("left out of the baseline and the rules", left.map((p) => [dayNumber(p.date), p.value]), "third"), links: left.map((p) => href(p.id)), tips: left.map((p) => `${p.id}: ${p.note}`) }] : []),
+    ...(left.length ? [{ ...markerSeries("left out of the baseline and the rules", left.map((p) => [dayNumber(p.date), p.value]), "muted"), links: left.map((p) => href(p.id)), tips: left.map((p) => `${p.id}: ${p.note}`) }] : []),
   ];
   // Separate limits are drawn over their own group's dates only (±5 days), one set over the whole chart.
   const span = (t: Trend): [number, number] => {

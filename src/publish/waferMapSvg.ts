@@ -6,11 +6,15 @@
  * orientation flat at the bottom (−y side), a chord 30 % of the diameter long (this program's own
  * simple marker of orientation, not a standard flat length). The SVG viewBox is in mm (y flipped).
  *
- * Colour: a sequential scale of three stops, pale sand → teal → deep indigo, linear in value
- * between the smallest and largest finite value (or a given domain); darker means larger. Each
- * marker carries its value as a text label (dark or light text chosen for contrast) and a
- * <title> for hover; the whole figure has role="img" with <title> and <desc>. All text escaped.
+ * Colour: viridis (perceptually uniform; colourScales.ts, from d3-scale-chromatic), linear in
+ * value between the smallest and largest finite value (or a given domain); brighter (yellow)
+ * means larger. Each marker carries its value as a text label below it (on a white halo, at
+ * least `labelPx` on screen at the rendered width) and a <title> for hover; a colour bar under
+ * the wafer shows the scale with its range and unit. The whole figure has role="img" with
+ * <title> and <desc>. All text escaped.
  */
+import { hex, sequentialRgb, gradientStops } from "./colourScales.ts";
+
 
 export interface WaferMapDevice {
   id: string;
@@ -39,13 +43,10 @@ export interface WaferMapOptions {
   idPrefix?: string;
   /** Rendered width in px (height follows the aspect ratio); default 360. */
   widthPx?: number;
+  /** Height of the label text on screen at `widthPx`, px; default 12 (≥ 11 px for reading). */
+  labelPx?: number;
 }
 
-const STOPS: readonly [number, number, number][] = [
-  [0xf6, 0xec, 0xc9], // pale sand
-  [0x3e, 0x9c, 0x96], // teal
-  [0x23, 0x24, 0x5e], // deep indigo
-];
 const MISSING_FILL = "#c8c8c8";
 
 /** Escapes text for SVG/XML element content and attribute values. */
@@ -60,23 +61,13 @@ export function escapeXml(text: string): string {
 
 /** Colour for t in [0, 1] (clamped) on the sequential scale, as "#rrggbb". */
 export function sequentialColour(t: number): string {
-  const u = Math.min(1, Math.max(0, Number.isFinite(t) ? t : 0.5)) * (STOPS.length - 1);
-  const i = Math.min(STOPS.length - 2, Math.floor(u));
-  const f = u - i;
-  const rgb = STOPS[i].map((c, k) => Math.round(c + (STOPS[i + 1][k] - c) * f));
-  return `#${rgb.map((c) => c.toString(16).padStart(2, "0")).join("")}`;
+  return hex(sequentialRgb(Number.isFinite(t) ? t : 0.5));
 }
 
 function defaultFormat(v: number): string {
   const a = Math.abs(v);
   if (a !== 0 && (a >= 1e5 || a < 1e-2)) return v.toExponential(2);
   return String(Number(v.toPrecision(3)));
-}
-
-function textColourFor(hex: string): string {
-  const [r, g, b] = [1, 3, 5].map((k) => parseInt(hex.slice(k, k + 2), 16) / 255);
-  const luminance = 0.2126 * r + 0.7152 * g + 0.0722 * b;
-  return luminance > 0.45 ? "#1a1a1a" : "#ffffff";
 }
 
 const n2 = (x: number): string => String(Math.round(x * 100) / 100);
@@ -107,11 +98,12 @@ export function waferMapSvg(devices: readonly WaferMapDevice[], options: WaferMa
   const toT = (v: number): number => (hi > lo ? (v - lo) / (hi - lo) : 0.5);
 
   const margin = d * 0.08;
-  const legendH = d * 0.16;
-  const vb = [-r - margin, -r - margin, d + 2 * margin, d + 2 * margin + legendH];
   const width = options.widthPx ?? 360;
+  // Text height in mm that renders at labelPx on screen (viewBox width d + 2·margin shown at `width` px).
+  const fontMm = ((options.labelPx ?? 12) * (d + 2 * margin)) / width;
+  const legendH = 2.4 * fontMm + fontMm * 1.2 + d * 0.03;
+  const vb = [-r - margin, -r - margin, d + 2 * margin, d + 2 * margin + legendH];
   const height = Math.round((width * vb[3]) / vb[2]);
-  const fontMm = Math.max(mr * 0.75, d * 0.022);
 
   const markers = placed.map((dev) => deviceMarker(dev, mr, fontMm, fmt, unit, toT));
   const omitted = devices.length - placed.length;
@@ -121,7 +113,7 @@ export function waferMapSvg(devices: readonly WaferMapDevice[], options: WaferMa
   const desc = [
     options.description ?? "",
     `${placed.length} device${placed.length === 1 ? "" : "s"} on a ${n2(d)} mm wafer, ${rangeText}.`,
-    "Darker fill means a larger value; the straight edge at the bottom marks the wafer orientation.",
+    "Brighter (yellower) fill means a larger value; the straight edge at the bottom marks the wafer orientation.",
     omitted > 0 ? `${omitted} device${omitted === 1 ? "" : "s"} without a valid position not shown.` : "",
   ]
     .filter((s) => s !== "")
@@ -152,12 +144,12 @@ function deviceMarker(
   const fill = has ? sequentialColour(toT(dev.value as number)) : MISSING_FILL;
   const label = has ? fmt(dev.value as number) : "–";
   const tip = `${dev.id}: ${has ? label + unit : "not measured"}`;
-  // Shrink long labels to fit the marker (≈0.58 em per character of a sans-serif font).
-  const size = Math.min(fontMm, (1.9 * mr) / (0.58 * Math.max(1, label.length)));
+  // The value sits below the marker on a white halo (paint-order: stroke first), at full label size.
+  const ty = y + mr + fontMm * 0.95;
   return (
     `<g class="device" data-device="${escapeXml(dev.id)}"><title>${escapeXml(tip)}</title>` +
     `<circle cx="${n2(x)}" cy="${n2(y)}" r="${n2(mr)}" fill="${fill}" stroke="#333333" stroke-width="${n2(mr * 0.08)}"/>` +
-    `<text x="${n2(x)}" y="${n2(y)}" font-size="${n2(size)}" text-anchor="middle" dominant-baseline="central" fill="${textColourFor(fill)}">${escapeXml(label)}</text></g>`
+    `<text x="${n2(x)}" y="${n2(ty)}" font-size="${n2(fontMm)}" text-anchor="middle" dominant-baseline="central" fill="#111111" stroke="#ffffff" stroke-width="${n2(fontMm * 0.25)}" paint-order="stroke" class="map-label">${escapeXml(label)}</text></g>`
   );
 }
 
@@ -174,17 +166,18 @@ function legend(
 ): string {
   if (!hasValues) return "";
   const gid = `${escapeXml(id)}-scale`;
-  const y = r + margin * 1.2;
-  const h = fontMm * 1.4;
-  const stops = [0, 0.25, 0.5, 0.75, 1]
-    .map((t) => `<stop offset="${t}" stop-color="${sequentialColour(t)}"/>`)
-    .join("");
+  const y = r + margin * 0.6;
+  const h = fontMm * 1.2;
+  const x0 = -r * 0.7;
+  const x1 = r * 0.7;
+  const ty = y + h + fontMm * 0.9;
+  const text = (x: number, anchor: string, t: string) => `<text x="${n2(x)}" y="${n2(ty)}" font-size="${n2(fontMm)}" text-anchor="${anchor}" dominant-baseline="central">${escapeXml(t)}</text>`;
   return (
-    `<g class="wafer-legend" aria-hidden="true"><defs><linearGradient id="${gid}">${stops}</linearGradient></defs>` +
-    `<rect x="${n2(-r * 0.6)}" y="${n2(y)}" width="${n2(r * 1.2)}" height="${n2(h)}" fill="url(#${gid})" stroke="#555555" stroke-width="${n2(r * 0.005)}"/>` +
-    `<text x="${n2(-r * 0.62)}" y="${n2(y + h / 2)}" font-size="${n2(fontMm)}" text-anchor="end" dominant-baseline="central">${escapeXml(fmt(lo))}</text>` +
-    `<text x="${n2(r * 0.62)}" y="${n2(y + h / 2)}" font-size="${n2(fontMm)}" text-anchor="start" dominant-baseline="central">${escapeXml(fmt(hi))}</text>` +
-    (unit ? `<text x="0" y="${n2(y + h + fontMm * 1.2)}" font-size="${n2(fontMm)}" text-anchor="middle" dominant-baseline="central">${escapeXml(unit.trim())}</text>` : "") +
+    `<g class="wafer-legend" aria-hidden="true"><defs><linearGradient id="${gid}">${gradientStops(sequentialRgb, 0, 1)}</linearGradient></defs>` +
+    `<rect x="${n2(x0)}" y="${n2(y)}" width="${n2(x1 - x0)}" height="${n2(h)}" fill="url(#${gid})" stroke="#555555" stroke-width="${n2(r * 0.005)}"/>` +
+    text(x0, "start", fmt(lo)) +
+    text(x1, "end", fmt(hi)) +
+    (unit ? text(0, "middle", unit.trim()) : "") +
     `</g>`
   );
 }

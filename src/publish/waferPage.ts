@@ -8,7 +8,9 @@ import type { WaferOutcome } from "../cli/pipeline.ts";
 import type { MetricJudgement, Verdict } from "../judge/verdict.ts";
 import { formatProblem } from "../validate/problem.ts";
 import { formatNumber, formatValue, prettyUnit } from "./format.ts";
-import { jsonForScript, markerSeries, traceSeries, type ChartSpec } from "./charts.ts";
+import { jsonForScript, markerSeries, SERIES_ROLES, type ChartSpec } from "./charts.ts";
+import { traceChart } from "./traceViews.ts";
+import { pageIndex } from "./pageIndex.ts";
 import { renderNotes } from "./markdown.ts";
 import { rawCopyHref } from "./rawCopies.ts";
 import { structureSection } from "./structureSection.ts";
@@ -57,7 +59,7 @@ export function waferCharts(o: WaferOutcome): ChartSpec[] {
   const devices = o.analysis?.devices ?? [];
   const withPoints = devices.filter((d) => d.points.length);
   if (withPoints.length === 0) return charts;
-  const roles = ["data", "second", "third", "fit"] as const;
+  const roles = SERIES_ROLES;
   charts.push({
     id: "density-vs-gate",
     title: "Hall density against gate voltage",
@@ -75,28 +77,37 @@ export function waferCharts(o: WaferOutcome): ChartSpec[] {
     summary: withPoints.map((d) => `${d.id}: peak ${formatNumber((d.summary?.peakMobility ?? 0) * 1e4)} cm²/V s`).join("; "),
   });
   for (const d of withPoints) {
-    const p = d.points[d.points.length - 1];
-    charts.push({
-      id: `traces-${d.id}`,
-      title: `${d.id}: ρxx and Rxy against field at Vg = ${formatNumber(p.gate_V)} V`,
-      x: { label: "Field |B| (T)" },
-      y: { label: "Resistance (kΩ)" },
-      series: [traceSeries("ρxx (symmetrised, Ω/□ ÷ 1000)", p.trace.b, p.trace.rhoxx.map((v) => v / 1000), "data"), traceSeries("Rxy (antisymmetrised)", p.trace.b, p.trace.rxy.map((v) => Math.abs(v) / 1000), "second")],
-      summary: `Symmetrised traces from ${p.file}, ${p.trace.b.length} field values up to ${formatNumber(p.trace.b[p.trace.b.length - 1])} T`,
-    });
+    const traces = traceChart(d);
+    if (traces) charts.push(traces);
   }
   return charts;
 }
 
 export function waferPageModel(o: WaferOutcome) {
   const r = o.record;
-  const transportCharts = waferCharts(o);
   const transportDepth = transportDepthSection(o);
+  const transportCharts = waferCharts(o);
   const structure = structureSection(o);
   const images = imagesSection(o);
   const uniformity = uniformitySection(o);
   const allCharts = [...transportCharts, ...(transportDepth?.charts ?? []), ...(structure?.charts ?? []), ...(structure?.valley?.charts ?? []), ...(images?.charts ?? [])];
+  const devices = o.analysis?.devices ?? [];
   return {
+    /** The "On this page" list (pageIndex.ts). */
+    toc: pageIndex({
+      decision: !!o.record?.decision,
+      problems: o.problems.length > 0,
+      transport: true,
+      uniformity: uniformity !== undefined,
+      structure: structure !== undefined,
+      images: images !== undefined,
+      stack: (r?.stack ?? []).length > 0,
+      valley: structure?.valley !== undefined,
+      growth: r?.growth !== undefined,
+      deviceTables: devices.length > 0,
+      transportDepth: transportDepth !== undefined,
+      imageIds: images?.images.map((b) => b.id),
+    }),
     id: o.folder,
     run: r?.run,
     grown: r?.grown,

@@ -25,6 +25,46 @@
     for (var i = 0; i < order.length; i++) if (fields[order[i]]) return SECTION[order[i]];
     return SECTION.title;
   }
+  // A short piece of the matched text (reasons or notes) around the first match, the matched
+  // words in <mark>. Built from text nodes only: the stored text is never parsed as HTML.
+  var SNIPPET_SIDE = 70;
+  function escapeRe(t) { return t.replace(/[.*+?^${}()|[\]\\]/g, "\\$&"); }
+  function snippet(hit) {
+    var terms = (hit.terms || []).filter(function (t) { return t.length > 0; });
+    if (!terms.length) return null;
+    var re = new RegExp("(^|[^\\p{L}\\p{N}])(" + terms.map(escapeRe).join("|") + ")(?![\\p{L}\\p{N}])", "giu");
+    var fields = ["notes", "reasons"];
+    for (var i = 0; i < fields.length; i++) {
+      var text = hit[fields[i]];
+      if (!text) continue;
+      re.lastIndex = 0;
+      var m = re.exec(text);
+      if (!m) continue;
+      var at = m.index + m[1].length;
+      var from = Math.max(0, at - SNIPPET_SIDE), to = Math.min(text.length, at + SNIPPET_SIDE);
+      if (from > 0) { var sp = text.indexOf(" ", from); if (sp > 0 && sp < at) from = sp + 1; }
+      if (to < text.length) { var sp2 = text.lastIndexOf(" ", to); if (sp2 > at) to = sp2; }
+      var piece = text.slice(from, to);
+      var p = document.createElement("p");
+      p.className = "snippet";
+      if (from > 0) p.appendChild(document.createTextNode("\u2026"));
+      var last = 0, mm;
+      re.lastIndex = 0;
+      while ((mm = re.exec(piece)) !== null) {
+        var start = mm.index + mm[1].length;
+        p.appendChild(document.createTextNode(piece.slice(last, start)));
+        var mark = document.createElement("mark");
+        mark.textContent = mm[2];
+        p.appendChild(mark);
+        last = start + mm[2].length;
+        if (mm[0].length === 0) re.lastIndex++;
+      }
+      p.appendChild(document.createTextNode(piece.slice(last)));
+      if (to < text.length) p.appendChild(document.createTextNode("\u2026"));
+      return p;
+    }
+    return null;
+  }
   function show(ms) {
     list.textContent = "";
     if (!q.trim()) return;
@@ -41,6 +81,8 @@
       info.className = "reason";
       info.textContent = " \u2014 " + where[1] + (hit.kind === "wafer" ? " \u00b7 run " + hit.run + " \u00b7 " + hit.verdict : "");
       li.appendChild(info);
+      var snip = snippet(hit);
+      if (snip) li.appendChild(snip);
       list.appendChild(li);
     });
   }

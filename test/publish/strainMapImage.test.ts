@@ -15,6 +15,11 @@ describe("renderStrainMap / renderMicrograph", () => {
     // Centre column value 0 → the scale's neutral colour.
     const i = 4 * (10 * W + W / 2);
     expect(Array.from(back.data.subarray(i, i + 3))).toEqual(divergingColour(0));
+    // The left edge is −0.01 = −limit: ColorBrewer RdBu's dark blue #053061; the right edge +0.0099 ≈ its dark red #67001f
+    // (Harrower & Brewer 2003, 11-class table; within 2 levels of the package's spline and 6 of the ±1 % step at the edge).
+    const px = (x: number) => Array.from(back.data.subarray(4 * (10 * W + x), 4 * (10 * W + x) + 3));
+    px(0).forEach((v, k) => expect(Math.abs(v - [0x05, 0x30, 0x61][k])).toBeLessThanOrEqual(2));
+    px(W - 1).forEach((v, k) => expect(Math.abs(v - [0x67, 0x00, 0x1f][k])).toBeLessThanOrEqual(6));
   });
   it("downsamples the page copy to the requested long side and draws interfaces", () => {
     const pic = renderStrainMap(map, W, H, { maxSide: 64, interfaces: { growthAxis: "up", tilt_deg: 0, positions_px: [0] } });

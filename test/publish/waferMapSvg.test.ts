@@ -58,6 +58,19 @@ describe("waferMapSvg", () => {
     expect(() => waferMapSvg([], { title: "t", diameterMm: 0 })).toThrow(RangeError);
   });
 
+  it("labels are at least 11 px at the rendered width, and the colour bar names range and unit", () => {
+    const vbWidth = Number(/viewBox="[^ ]+ [^ ]+ ([^ ]+) /.exec(svg)![1]);
+    const width = Number(/ width="([^"]+)"/.exec(svg)![1]);
+    const sizes = [...svg.matchAll(/<text[^>]*font-size="([^"]+)"/g)].map((m) => (Number(m[1]) * width) / vbWidth);
+    expect(sizes.length).toBeGreaterThan(4);
+    for (const px of sizes) expect(px).toBeGreaterThanOrEqual(11);
+    const legend = svg.slice(svg.indexOf('class="wafer-legend"'));
+    expect(legend).toContain(">1.00e+5</text>");
+    expect(legend).toContain(">2.00e+5</text>");
+    expect(legend).toContain(">cm²/(V·s)</text>");
+    expect(count(legend, "<stop ")).toBeGreaterThanOrEqual(9);
+  });
+
   it("copes with no devices at all", () => {
     const s = waferMapSvg([], { title: "empty" });
     expect(s).toContain("0 devices");
@@ -69,11 +82,11 @@ describe("helpers", () => {
   it("escapeXml handles all five special characters", () => {
     expect(escapeXml(`<a href="x">'&'</a>`)).toBe("&lt;a href=&quot;x&quot;&gt;&#39;&amp;&#39;&lt;/a&gt;");
   });
-  it("sequentialColour is monotonically darker and clamps", () => {
+  it("sequentialColour (viridis) is monotonically brighter and clamps", () => {
     const lum = (h: string) => [1, 3, 5].reduce((s, k) => s + parseInt(h.slice(k, k + 2), 16), 0);
     const ts = [0, 0.2, 0.4, 0.6, 0.8, 1];
     const ls = ts.map((t) => lum(sequentialColour(t)));
-    for (let i = 1; i < ls.length; i++) expect(ls[i]).toBeLessThan(ls[i - 1]);
+    for (let i = 1; i < ls.length; i++) expect(ls[i]).toBeGreaterThan(ls[i - 1]);
     expect(sequentialColour(-1)).toBe(sequentialColour(0));
     expect(sequentialColour(2)).toBe(sequentialColour(1));
     expect(sequentialColour(Number.NaN)).toMatch(/^#[0-9a-f]{6}$/);
