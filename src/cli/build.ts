@@ -17,7 +17,7 @@ import { pageCodeVersion, pageFingerprint, previousFingerprint } from "./pageReu
 import type { AnalysedFolder } from "./analyseFolder.ts";
 import { renderSite } from "./render.ts";
 import { writeSearch } from "../publish/searchIndex.ts";
-import type { Problem } from "../validate/problem.ts";
+import type { Problem } from "../model/problem.ts";
 import type { BuildOptions } from "./args.ts";
 import { loadDataHistory } from "../read/history.ts";
 import { decisionCommits } from "../read/decisionCommits.ts";

@@ -37,7 +37,7 @@ import pLimit from "p-limit";
 import { PACKAGE_ROOT, SRC_DIR } from "./paths.ts";
 import type { WaferAnalysis } from "../analyse/wafer.ts";
 import type { RawFileInfo } from "../read/wafer.ts";
-import type { Problem } from "../validate/problem.ts";
+import type { Problem } from "../model/problem.ts";
 import type { WaferRecord } from "../validate/wafer.ts";
 import { listFiles } from "../read/dataFiles.ts";
 import { sha256File, type FileHashes } from "./fileHashes.ts";

@@ -14,7 +14,7 @@ import path from "node:path";
 import pLimit from "p-limit";
 import { loadSiteInputs } from "../read/site.ts";
 import { loadWafer } from "../read/wafer.ts";
-import { formatProblem, type Problem } from "../validate/problem.ts";
+import { formatProblem, type Problem } from "../model/problem.ts";
 import type { CommandIO } from "./commands.ts";
 import { judgeOutcome, type PipelineContext } from "./pipeline.ts";
 

@@ -7,7 +7,7 @@ import type { WaferAnalysis } from "../analyse/wafer.ts";
 import { judgeWafer, type MetricValues, type WaferJudgement } from "../judge/verdict.ts";
 import type { LoadContext, LoadedWafer, RawFileInfo } from "../read/wafer.ts";
 import { findingChecks } from "../judge/findings.ts";
-import { capProblem, formatProblem, type Problem } from "../validate/problem.ts";
+import { capProblem, formatProblem, type Problem } from "../model/problem.ts";
 import type { WaferRecord } from "../validate/wafer.ts";
 import type { Targets } from "../validate/targets.ts";
 import { SETTING_SPECS } from "../validate/settings.ts";

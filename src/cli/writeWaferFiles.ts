@@ -18,7 +18,7 @@ import { PACKAGE_ROOT } from "./paths.ts";
 import { RAW_OBJECT_NAME, rawCopyPath } from "../publish/rawCopies.ts";
 import { resultsJson } from "../publish/resultsJson.ts";
 import { openDataFile, readOpenFile, type OpenDataFile } from "../read/dataFiles.ts";
-import { InputError } from "../validate/problem.ts";
+import { InputError } from "../model/problem.ts";
 
 export type CommitsOf = (folder: string) => { wafer: string | null; targets: string | null };
 

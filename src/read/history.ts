@@ -11,7 +11,7 @@
 import { commitsChangingFile, fileAtCommit, findRepo, listCommits, defaultGitRunner, type GitCommit, type GitRunner } from "./gitHistory.ts";
 import { readYaml } from "./frontMatter.ts";
 import { validateTargets, type Targets } from "../validate/targets.ts";
-import { formatProblem, InputError } from "../validate/problem.ts";
+import { formatProblem, InputError } from "../model/problem.ts";
 import type { DecisionCommit } from "./decisionCommits.ts";
 
 export interface TargetsVersion {

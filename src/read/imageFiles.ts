@@ -10,7 +10,7 @@
 import type { WaferFileReader } from "./waferFiles.ts";
 import type { ImageInputs, MicrographInput } from "../analyse/images/index.ts";
 import type { ImageSpec, WaferRecord } from "../validate/wafer.ts";
-import { InputError } from "../validate/problem.ts";
+import { InputError } from "../model/problem.ts";
 import { decodeMicrograph, MicrographFormatError } from "./micrograph.ts";
 
 /** Decodes one image entry; throws InputError located at the file and at `images[i].…` in wafer.md. */

@@ -5,7 +5,7 @@
  */
 import { promises as fs } from "node:fs";
 import path from "node:path";
-import { InputError, type Problem } from "../validate/problem.ts";
+import { InputError, type Problem } from "../model/problem.ts";
 import { applySettings, DEFAULT_SETTINGS, type AnalysisSettings } from "../validate/settings.ts";
 import { validateTargets, type Targets } from "../validate/targets.ts";
 import { WAFER_ID } from "../validate/waferSchema.ts";

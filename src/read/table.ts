@@ -12,7 +12,7 @@
  * physics: it returns located cells; src/validate gives them meaning and units.
  */
 import { parse } from "csv-parse/sync";
-import { InputError, ProblemList } from "../validate/problem.ts";
+import { InputError, ProblemList } from "../model/problem.ts";
 import { scanPlainBody, splitPlainBody } from "./plainTable.ts";
 import { cellCountProblem, decimalFix, numberText, tableDialect, type DecimalMark, type Separator } from "./tableDialect.ts";
 

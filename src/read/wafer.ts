@@ -8,7 +8,7 @@ import { fileInfo, type RawFileInfo } from "./fileInfo.ts";
 export { fileInfo, type RawFileInfo };
 import { promises as fs } from "node:fs";
 import path from "node:path";
-import { capProblem, InputError, type Problem } from "../validate/problem.ts";
+import { capProblem, InputError, type Problem } from "../model/problem.ts";
 import type { AnalysisSettings } from "../validate/settings.ts";
 import { validateSweep, type Sweep } from "../validate/sweep.ts";
 import { validateWafer, type WaferRecord } from "../validate/wafer.ts";

@@ -6,7 +6,7 @@
  * contaminants in cm⁻³. See docs/formats.md.
  */
 import { numericColumn, type RawTable } from "../read/table.ts";
-import { didYouMean, InputError, ProblemList } from "./problem.ts";
+import { didYouMean, InputError, ProblemList } from "../model/problem.ts";
 import { acceptedUnits, unitFactor } from "./units.ts";
 
 export interface DepthProfileFile {

@@ -11,7 +11,7 @@
  * - Outside 0.5 µm … 20 mm (from e-beam-defined bars to whole-chip
  *   structures; common practice) they are read, with a warning.
  */
-import { InputError, type Problem } from "./problem.ts";
+import { InputError, type Problem } from "../model/problem.ts";
 
 /** Hard bounds of a device dimension, µm. */
 export const DEVICE_UM_LIMITS = { min: 1e-3, max: 1e6 } as const;

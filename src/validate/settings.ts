@@ -4,7 +4,7 @@
  * (docs/formats.md); values with dimensions are typed with units and converted
  * here, once. Inside the analysis everything is SI.
  */
-import { didYouMean, InputError, ProblemList, show } from "./problem.ts";
+import { didYouMean, InputError, ProblemList, show } from "../model/problem.ts";
 import { parseQuantity } from "./units.ts";
 
 export interface AnalysisSettings {

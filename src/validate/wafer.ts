@@ -13,7 +13,7 @@ import { checkRelativePath } from "../read/dataFiles.ts";
 import { applySettings, type AnalysisSettings } from "./settings.ts";
 import { checkDeviceDimensions, checkFiniteNumbers } from "./recordNumbers.ts";
 import { siteNameProblem } from "./siteNames.ts";
-import { didYouMean, InputError, ProblemList, show } from "./problem.ts";
+import { didYouMean, InputError, ProblemList, show } from "../model/problem.ts";
 import { METRIC_BY_KEY } from "../analyse/metrics.ts";
 import { FINDING_KEYS, isFindingKey } from "./findingKeys.ts";
 import { FIELD_HINTS, WAFER_SCHEMA } from "./waferSchema.ts";

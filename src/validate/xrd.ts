@@ -10,7 +10,7 @@ import { numericColumn, type ColumnHeader, type RawTable } from "../read/table.t
 import { CU_KALPHA1, type Miller } from "../analyse/structure/bragg.ts";
 import type { MapPoint } from "../analyse/structure/rsmPeakFind.ts";
 import type { TableRow } from "../analyse/structure/rsmPeaks.ts";
-import { didYouMean, InputError, ProblemList } from "./problem.ts";
+import { didYouMean, InputError, ProblemList } from "../model/problem.ts";
 import { acceptedUnits, splitValueUnit, unitFactor, type Dimension } from "./units.ts";
 
 interface XrdCommon {

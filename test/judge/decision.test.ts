@@ -9,7 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { readFrontMatter } from "../../src/read/frontMatter.ts";
 import { validateWafer } from "../../src/validate/wafer.ts";
 import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
-import { formatProblem, InputError } from "../../src/validate/problem.ts";
+import { formatProblem, InputError } from "../../src/model/problem.ts";
 import { decisionModel } from "../../src/publish/decisionSection.ts";
 import { resultsCsv } from "../../src/publish/exports.ts";
 import { makeGitRunner } from "../../src/read/gitHistory.ts";

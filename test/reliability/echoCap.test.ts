@@ -11,7 +11,7 @@ import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { reportProblems } from "../../src/cli/report.ts";
 import { judgeOutcome } from "../../src/cli/pipeline.ts";
-import { capProblem, capText, ECHO_LIMIT, formatProblem, InputError } from "../../src/validate/problem.ts";
+import { capProblem, capText, ECHO_LIMIT, formatProblem, InputError } from "../../src/model/problem.ts";
 import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
 import { buildCase, HEALTHY_DIR } from "./corpus.ts";
 

@@ -16,7 +16,7 @@ import { readFrontMatter, readYaml } from "../../src/read/frontMatter.ts";
 import { scanPlainBody } from "../../src/read/plainTable.ts";
 import { numericColumn, readTable } from "../../src/read/table.ts";
 import { loadWafer } from "../../src/read/wafer.ts";
-import { formatProblem } from "../../src/validate/problem.ts";
+import { formatProblem } from "../../src/model/problem.ts";
 import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
 import { validateTargets } from "../../src/validate/targets.ts";
 import { parseQuantity } from "../../src/validate/units.ts";

@@ -17,7 +17,7 @@ import zlib from "node:zlib";
 import { afterAll, describe, expect, it } from "vitest";
 import { decodeMicrograph, MicrographFormatError } from "../../src/read/micrograph.ts";
 import { loadWafer } from "../../src/read/wafer.ts";
-import { formatProblem } from "../../src/validate/problem.ts";
+import { formatProblem } from "../../src/model/problem.ts";
 import { applySettings, DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
 import { problemMessage } from "../helpers/problems.ts";
 import { HEALTHY_DIR } from "./corpus.ts";

@@ -23,7 +23,7 @@ import { afterAll, describe, expect, it } from "vitest";
 import { readFrontMatter, readYaml } from "../../src/read/frontMatter.ts";
 import { loadSiteInputs } from "../../src/read/site.ts";
 import { loadYaml } from "../../src/read/yamlLoad.ts";
-import { formatProblem } from "../../src/validate/problem.ts";
+import { formatProblem } from "../../src/model/problem.ts";
 import { buildCase, HEALTHY_DIR, ROOT } from "./corpus.ts";
 import { problemMessage } from "../helpers/problems.ts";
 
