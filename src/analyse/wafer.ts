@@ -9,7 +9,7 @@ import type { DeviceSpec, Layer } from "../validate/wafer.ts";
 import { analyseStructure, type StructureAnalysis, type StructureInputs } from "./structure/index.ts";
 import { analyseImages, type ImageAnalysis, type ImageInputs } from "./images/index.ts";
 import { analyseDeviceDepth, type DeviceDepth } from "./transport/deviceDepth.ts";
-import { putMetric } from "./metrics.ts";
+import { putMetric } from "../model/metrics.ts";
 import { analyseFieldSweep, type TransportPoint } from "./transport/fieldSweep.ts";
 import { pointsCalibration, sortByGate, summariseDevice, type DeviceSummary } from "./transport/deviceSummary.ts";
 

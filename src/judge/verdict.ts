@@ -16,7 +16,7 @@
  * reasons in plain words. Verdicts support, and never replace, the lab's own
  * QA sign-off.
  */
-import { METRIC_BY_KEY, type MetricSpec } from "../analyse/metrics.ts";
+import { METRIC_BY_KEY, type MetricSpec } from "../model/metrics.ts";
 import type { Aggregate, Target, Targets } from "../validate/targets.ts";
 import type { Waiver } from "../validate/wafer.ts";
 import { formatValue } from "../publish/format.ts";

@@ -18,7 +18,7 @@
  *   checked and not raised, else the consequence in force), then per metric <key> [unit],
  *   <key>_stderr [unit], <key>_min [unit], <key>_max [unit], <key>_verdict.
  */
-import { METRICS } from "../analyse/metrics.ts";
+import { METRICS } from "../model/metrics.ts";
 import type { WaferOutcome } from "../cli/pipeline.ts";
 import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants.ts";
 import { sig6, sig6OrNull } from "./format.ts";

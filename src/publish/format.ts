@@ -2,7 +2,7 @@
  * Number and unit formatting for pages. Templates never compute: every number
  * shown was formatted here, with its unit.
  */
-import type { MetricSpec } from "../analyse/metrics.ts";
+import type { MetricSpec } from "../model/metrics.ts";
 
 const SUPERSCRIPT: Record<string, string> = { "-": "⁻", "0": "⁰", "1": "¹", "2": "²", "3": "³", "4": "⁴", "5": "⁵", "6": "⁶", "7": "⁷", "8": "⁸", "9": "⁹" };
 

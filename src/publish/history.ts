@@ -5,7 +5,7 @@
  */
 import { siteUrl } from "./siteUrl.ts";
 import { formatValue } from "./format.ts";
-import { METRIC_BY_KEY } from "../analyse/metrics.ts";
+import { METRIC_BY_KEY } from "../model/metrics.ts";
 import type { Target } from "../validate/targets.ts";
 import type { DataHistory } from "../read/history.ts";
 import type { GitCommit } from "../read/gitHistory.ts";

@@ -14,7 +14,7 @@
  * one; judged as `min` or `max`, the SE of the device that gives the value.
  */
 import type { WaferOutcome } from "../cli/pipeline.ts";
-import { toMetricUnit } from "../analyse/metrics.ts";
+import { toMetricUnit } from "../model/metrics.ts";
 
 type DeviceOf = NonNullable<WaferOutcome["analysis"]>["devices"][number];
 

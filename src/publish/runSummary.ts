@@ -4,7 +4,7 @@
  * previous run, ordered by the run's `started` date (run notes) or else its
  * first growth date.
  */
-import { METRICS } from "../analyse/metrics.ts";
+import { METRICS } from "../model/metrics.ts";
 import { uniformity } from "../judge/uniformity.ts";
 import { formatNumber, formatValue } from "./format.ts";
 

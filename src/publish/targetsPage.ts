@@ -3,7 +3,7 @@
  * required, aggregate) and each finding's consequence, the trend settings, and every registered metric with
  * its unit and description.
  */
-import { METRICS, METRIC_BY_KEY } from "../analyse/metrics.ts";
+import { METRICS, METRIC_BY_KEY } from "../model/metrics.ts";
 import type { Targets } from "../validate/targets.ts";
 import { DEFAULT_TREND_SETTINGS } from "../validate/trendSettings.ts";
 import { describeBaseline } from "../judge/trends.ts";

@@ -5,7 +5,7 @@
  * alternative. Numbers are formatted here; templates only place strings.
  */
 import { siteUrl } from "./siteUrl.ts";
-import { METRIC_BY_KEY, METRICS, type MetricSpec } from "../analyse/metrics.ts";
+import { METRIC_BY_KEY, METRICS, type MetricSpec } from "../model/metrics.ts";
 import { describeBaseline, orderByDate, trendGroups, type Trend, type TrendInput, type TrendPoint } from "../judge/trends.ts";
 import { DEFAULT_MAX_PASSES, ROUGH_BASELINE_BELOW } from "../judge/phaseOne.ts";
 import type { Targets } from "../validate/targets.ts";

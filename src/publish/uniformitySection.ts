@@ -6,8 +6,8 @@
  * Returns undefined when no device has a position.
  */
 import type { WaferOutcome } from "../cli/pipeline.ts";
-import { METRIC_BY_KEY } from "../analyse/metrics.ts";
-import { UNIFORMITY_SOURCES } from "../analyse/uniformityMetrics.ts";
+import { METRIC_BY_KEY } from "../model/metrics.ts";
+import { UNIFORMITY_SOURCES } from "../model/metrics/uniformity.ts";
 import { uniformity } from "../judge/uniformity.ts";
 import { formatNumber, formatValue, prettyUnit } from "./format.ts";
 import { waferMapSvg } from "./waferMapSvg.ts";

@@ -12,7 +12,7 @@
  * unknown metric is an error naming the grade and metric.
  */
 import { lineOfField } from "../read/frontMatter.ts";
-import { METRIC_BY_KEY } from "../analyse/metrics.ts";
+import { METRIC_BY_KEY } from "../model/metrics.ts";
 import { didYouMean, InputError, ProblemList, show } from "../model/problem.ts";
 import { CONSEQUENCES, FINDING_KEYS, isFindingKey, type Consequence, type FindingKey } from "./findingKeys.ts";
 import { parseQuantity } from "./units.ts";

@@ -15,7 +15,7 @@
  */
 import { didYouMean, InputError, show } from "../model/problem.ts";
 import { isRealDate } from "./dates.ts";
-import { METRIC_BY_KEY } from "../analyse/metrics.ts";
+import { METRIC_BY_KEY } from "../model/metrics.ts";
 
 export type TrendBaseline = { kind: "all" } | { kind: "first"; count: number } | { kind: "dates"; from: string; to: string };
 

@@ -14,7 +14,7 @@ import { applySettings, type AnalysisSettings } from "./settings.ts";
 import { checkDeviceDimensions, checkFiniteNumbers } from "./recordNumbers.ts";
 import { siteNameProblem } from "./siteNames.ts";
 import { didYouMean, InputError, ProblemList, show } from "../model/problem.ts";
-import { METRIC_BY_KEY } from "../analyse/metrics.ts";
+import { METRIC_BY_KEY } from "../model/metrics.ts";
 import { FINDING_KEYS, isFindingKey } from "./findingKeys.ts";
 import { FIELD_HINTS, WAFER_SCHEMA } from "./waferSchema.ts";
 import { unitInKey } from "./unitInKey.ts";

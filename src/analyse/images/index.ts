@@ -16,7 +16,7 @@
  */
 import type { Layer } from "../../validate/wafer.ts";
 import type { AnalysisSettings } from "../../validate/settings.ts";
-import { putMetric } from "../metrics.ts";
+import { putMetric } from "../../model/metrics.ts";
 import { expectedWellStrain, type ExpectedWellStrain } from "./expectedWellStrain.ts";
 import { geometricPhase, type GpaResult } from "./geometricPhase.ts";
 import { growthCoordinate, type GrowthAxis, type PixelRect } from "./geometry.ts";

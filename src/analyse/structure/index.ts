@@ -10,11 +10,11 @@ import type { Layer } from "../../validate/wafer.ts";
 import type { AnalysisSettings } from "../../validate/settings.ts";
 import type { XrdFile } from "../../validate/xrd.ts";
 import type { DepthProfileFile } from "../../validate/depthProfile.ts";
-import { putMetric } from "../metrics.ts";
+import { putMetric } from "../../model/metrics.ts";
 import { analyseDepthProfile, type DepthProfileResult } from "./depthProfile.ts";
 import { analyseXrd, type XrdAnalysis } from "./xrdAnalysis.ts";
 import { checkCriticalThickness, type CriticalThicknessCheck } from "./criticalThicknessCheck.ts";
-import { REGISTERED_CONTAMINANTS } from "./metrics.ts";
+import { REGISTERED_CONTAMINANTS } from "../../model/metrics/structure.ts";
 import { strainedSiOnRelaxedSiGe } from "../../physics/sige.ts";
 
 export interface StructureInputs {

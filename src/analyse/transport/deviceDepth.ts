@@ -24,7 +24,7 @@
  */
 import type { AnalysisSettings } from "../../validate/settings.ts";
 import type { Sweep } from "../../validate/sweep.ts";
-import { putMetric } from "../metrics.ts";
+import { putMetric } from "../../model/metrics.ts";
 import type { DensityCalibration } from "./densityCalibration.ts";
 import { derivedQuantities, type DerivedQuantities } from "./derivedQuantities.ts";
 import { pointsCalibration } from "./deviceSummary.ts";
