@@ -11,7 +11,7 @@ import { capProblem, formatProblem, type Problem } from "../model/problem.ts";
 import type { WaferRecord } from "../validate/wafer.ts";
 import type { Targets } from "../validate/targets.ts";
 import { SETTING_SPECS } from "../validate/settings.ts";
-import { sig6 } from "../publish/format.ts";
+import { sig6 } from "../model/format.ts";
 import { uniformityMetrics } from "../analyse/uniformityMetrics.ts";
 
 export interface Provenance {

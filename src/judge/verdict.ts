@@ -19,7 +19,7 @@
 import { METRIC_BY_KEY, type MetricSpec } from "../model/metrics.ts";
 import type { Aggregate, Target, Targets } from "../validate/targets.ts";
 import type { Waiver } from "../validate/wafer.ts";
-import { formatValue } from "../publish/format.ts";
+import { formatValue } from "../model/format.ts";
 import { FINDING_BY_KEY, type Consequence, type FindingCheck, type FindingSpec } from "./findings.ts";
 
 import { VERDICT_RANK, type Verdict } from "./states.ts";

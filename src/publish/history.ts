@@ -4,7 +4,7 @@
  * its verdicts under every version of targets.yaml since it was recorded.
  */
 import { siteUrl } from "./siteUrl.ts";
-import { formatValue } from "./format.ts";
+import { formatValue } from "../model/format.ts";
 import { METRIC_BY_KEY } from "../model/metrics.ts";
 import type { Target } from "../validate/targets.ts";
 import type { DataHistory } from "../read/history.ts";

@@ -13,7 +13,7 @@ import type { WaferOutcome } from "../cli/pipeline.ts";
 import type { ImageResult } from "../analyse/images/index.ts";
 import { renderMicrograph, renderStrainMap } from "./strainMapImage.ts";
 import { traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
-import { formatNumber } from "./format.ts";
+import { formatNumber } from "../model/format.ts";
 
 /** Long side of the page copies of micrographs and strain maps, pixels. */
 export const PAGE_IMAGE_SIDE = 256;

@@ -6,7 +6,7 @@
  */
 import { METRICS } from "../model/metrics.ts";
 import { uniformity } from "../judge/uniformity.ts";
-import { formatNumber, formatValue } from "./format.ts";
+import { formatNumber, formatValue } from "../model/format.ts";
 
 export interface RunInput {
   id: string;

@@ -9,7 +9,7 @@ import type { WaferOutcome } from "../cli/pipeline.ts";
 import type { RunNotes } from "../read/site.ts";
 import { formatProblem, type Problem } from "../model/problem.ts";
 import { METRIC_BY_KEY } from "../model/metrics.ts";
-import { formatValue } from "./format.ts";
+import { formatValue } from "../model/format.ts";
 import { renderNotes } from "./markdown.ts";
 import type { Verdict } from "../judge/verdict.ts";
 import { VERDICT_RANK } from "../judge/verdict.ts";

@@ -11,7 +11,7 @@ import type { StructureAnalysis } from "../analyse/structure/index.ts";
 import type { InterfaceFit } from "../analyse/structure/depthProfile.ts";
 import { radToDeg } from "../analyse/structure/bragg.ts";
 import { markerSeries, traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
-import { formatNumber, sig6OrNull } from "./format.ts";
+import { formatNumber, sig6OrNull } from "../model/format.ts";
 import { rsmSvg, stackSvg, type StackRow } from "./structureSvg.ts";
 
 export interface StructureSectionModel {

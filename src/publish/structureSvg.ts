@@ -10,7 +10,7 @@ import { A_SI, biaxialRatio, latticeDismukes, strainedPerpendicular } from "../p
 import { anglesToQ, layerPeakQ } from "../analyse/structure/reciprocalSpace.ts";
 import type { XrdFileResult } from "../analyse/structure/xrdAnalysis.ts";
 import { escapeXml } from "./waferMapSvg.ts";
-import { formatNumber } from "./format.ts";
+import { formatNumber } from "../model/format.ts";
 
 export interface StackRow {
   name: string;

@@ -9,7 +9,7 @@ import { DEFAULT_TREND_SETTINGS } from "../validate/trendSettings.ts";
 import { describeBaseline } from "../judge/trends.ts";
 import { DEFAULT_MAX_PASSES } from "../judge/phaseOne.ts";
 import { describeProduction } from "./trends.ts";
-import { formatValue, prettyUnit } from "./format.ts";
+import { formatValue, prettyUnit } from "../model/format.ts";
 import { FINDING_SPECS } from "../judge/findings.ts";
 
 export function targetsPageModel(targets: Targets | undefined) {

@@ -6,7 +6,7 @@
  */
 import type { DeviceAnalysis } from "../analyse/wafer.ts";
 import type { PointDepth } from "../analyse/transport/deviceDepth.ts";
-import { sig6OrNull } from "./format.ts";
+import { sig6OrNull } from "../model/format.ts";
 
 const CM2 = 1e-4; // m⁻² → cm⁻²
 

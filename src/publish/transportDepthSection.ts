@@ -14,7 +14,7 @@ import type { DeviceDepth } from "../analyse/transport/deviceDepth.ts";
 import { percolationConductivity } from "../analyse/transport/percolation.ts";
 import { POWER_LAW_REFERENCE_DENSITY } from "../analyse/transport/mobilityPowerLaw.ts";
 import { markerSeries, traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
-import { formatNumber } from "./format.ts";
+import { formatNumber } from "../model/format.ts";
 import { densityAtGate } from "../analyse/transport/densityCalibration.ts";
 
 export interface FitRow {

@@ -11,7 +11,7 @@ import { DEFAULT_MAX_PASSES, ROUGH_BASELINE_BELOW } from "../judge/phaseOne.ts";
 import type { Targets } from "../validate/targets.ts";
 import { DEFAULT_TREND_SETTINGS } from "../validate/trendSettings.ts";
 import { jsonForScript, markerSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
-import { formatNumber, formatValue, prettyUnit, sig6 } from "./format.ts";
+import { formatNumber, formatValue, prettyUnit, sig6 } from "../model/format.ts";
 
 /** One wafer's values, as the site model knows them. */
 export interface TrendWafer {

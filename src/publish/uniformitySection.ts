@@ -9,7 +9,7 @@ import type { WaferOutcome } from "../cli/pipeline.ts";
 import { METRIC_BY_KEY } from "../model/metrics.ts";
 import { UNIFORMITY_SOURCES } from "../model/metrics/uniformity.ts";
 import { uniformity } from "../judge/uniformity.ts";
-import { formatNumber, formatValue, prettyUnit } from "./format.ts";
+import { formatNumber, formatValue, prettyUnit } from "../model/format.ts";
 import { waferMapSvg } from "./waferMapSvg.ts";
 
 export interface UniformityMapModel {

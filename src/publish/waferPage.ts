@@ -7,7 +7,7 @@ import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants
 import type { WaferOutcome } from "../cli/pipeline.ts";
 import type { MetricJudgement, Verdict } from "../judge/verdict.ts";
 import { formatProblem } from "../model/problem.ts";
-import { formatNumber, formatValue, prettyUnit } from "./format.ts";
+import { formatNumber, formatValue, prettyUnit } from "../model/format.ts";
 import { jsonForScript, markerSeries, traceSeries, type ChartSpec } from "./charts.ts";
 import { renderNotes } from "./markdown.ts";
 import { rawCopyHref } from "./rawCopies.ts";

@@ -3,7 +3,7 @@
 // and derived units: confirmed); nothing here is computed by the code under test.
 import { describe, expect, it } from "vitest";
 import { METRICS } from "../../src/model/metrics.ts";
-import { formatValue, prettyUnit } from "../../src/publish/format.ts";
+import { formatValue, prettyUnit } from "../../src/model/format.ts";
 import type { MetricSpec } from "../../src/model/metrics.ts";
 import { SETTING_SPECS } from "../../src/validate/settings.ts";
 import { COLUMN_UNITS, parseQuantity, unitFactor, type Dimension } from "../../src/validate/units.ts";
