@@ -3,7 +3,7 @@
  * of a device metric over the wafer's devices, in percent.
  *
  * Definition: CV = 100 · s / |mean| with s the SAMPLE standard deviation
- * (n − 1) of the devices' values (src/judge/uniformity.ts; e.g. Montgomery,
+ * (n − 1) of the devices' values (src/analyse/uniformity.ts; e.g. Montgomery,
  * Introduction to Statistical Quality Control, for the coefficient of
  * variation). Computed from the device values in the metric's own unit (the
  * ratio is unit-free). Needs at least two devices with a value and a non-zero
@@ -11,7 +11,7 @@
  * wafer page's uniformity section). Pure: no I/O.
  */
 import { cvKey, UNIFORMITY_SOURCES } from "../model/metrics/uniformity.ts";
-import { uniformity } from "../judge/uniformity.ts";
+import { uniformity } from "./uniformity.ts";
 
 /**
  * Wafer-level `<metric>_cv` values (%) from the devices' metric values.

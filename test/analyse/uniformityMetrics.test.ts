@@ -1,4 +1,4 @@
-// <metric>_cv: CV = 100·s/|mean| with the sample standard deviation (n − 1) (src/judge/uniformity.ts definition;
+// <metric>_cv: CV = 100·s/|mean| with the sample standard deviation (n − 1) (src/analyse/uniformity.ts definition;
 // textbook coefficient of variation, from memory [M]). Expected values derived by hand below.
 import { describe, expect, it } from "vitest";
 import { uniformityMetrics } from "../../src/analyse/uniformityMetrics.ts";
