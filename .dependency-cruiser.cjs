@@ -27,7 +27,6 @@ const LAYERS = [
  * from the published form (issue 17, the synth half); then remove this list.
  */
 const KNOWN_SYNTH_UPWARD = [
-  ["src/synth/reciprocalSpaceMap.ts", "src/analyse/structure/bragg.ts"],
   ["src/synth/reciprocalSpaceMap.ts", "src/analyse/structure/reciprocalSpace.ts"],
   ["src/synth/micrograph.ts", "src/analyse/images/geometry.ts"],
   ["src/synth/micrograph.ts", "src/analyse/numeric/sigmoidFit.ts"],

@@ -6,7 +6,8 @@
 import type { AnalysisSettings } from "../validate/settings.ts";
 import type { Sweep } from "../validate/sweep.ts";
 import type { DeviceSpec, Layer } from "../validate/wafer.ts";
-import { analyseStructure, type StructureAnalysis, type StructureInputs } from "./structure/index.ts";
+import { analyseStructure, type StructureAnalysis } from "./structure/index.ts";
+import type { StructureInputs } from "../model/structureInputs.ts";
 import { analyseImages, type ImageAnalysis, type ImageInputs } from "./images/index.ts";
 import { analyseDeviceDepth, type DeviceDepth } from "./transport/deviceDepth.ts";
 import { putMetric } from "../model/metrics.ts";

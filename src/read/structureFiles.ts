@@ -6,10 +6,10 @@
  * this wafer; the other files are still read.
  */
 import type { WaferFileReader } from "./waferFiles.ts";
-import type { StructureInputs } from "../analyse/structure/index.ts";
+import type { StructureInputs, XrdFile, DepthProfileFile } from "../model/structureInputs.ts";
 import type { WaferRecord } from "../validate/wafer.ts";
-import { validateXrd, type XrdFile } from "../validate/xrd.ts";
-import { validateDepthProfile, type DepthProfileFile } from "../validate/depthProfile.ts";
+import { validateXrd } from "../validate/xrd.ts";
+import { validateDepthProfile } from "../validate/depthProfile.ts";
 import { readTable } from "./table.ts";
 
 export async function loadStructureInputs(record: WaferRecord, files: WaferFileReader): Promise<StructureInputs> {

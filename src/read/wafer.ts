@@ -17,7 +17,7 @@ import { checkRelativePath, decodeText, listFiles, matchGlob, MAX_IMAGE_FILE_BYT
 import { loadImageInputs } from "./imageFiles.ts";
 import { loadStructureInputs } from "./structureFiles.ts";
 import type { WaferFileReader } from "./waferFiles.ts";
-import type { StructureInputs } from "../analyse/structure/index.ts";
+import type { StructureInputs } from "../model/structureInputs.ts";
 import type { ImageInputs } from "../analyse/images/index.ts";
 import { readFrontMatter, lineOfField } from "./frontMatter.ts";
 import { readTable } from "./table.ts";

@@ -9,7 +9,8 @@
  * Poisson deviates of (background + peaks). Angles in rad, lengths in m.
  */
 import { A_SI, biaxialRatio, latticeDismukes, strainedPerpendicular } from "../physics/sige.ts";
-import { CU_KALPHA1, type Miller } from "../analyse/structure/bragg.ts";
+import { CU_KALPHA1 } from "../physics/constants.ts";
+import type { Miller } from "../model/structureInputs.ts";
 import { layerPeakQ, qToAngles, type AnglePoint } from "../analyse/structure/reciprocalSpace.ts";
 import { seededPoisson } from "./random.ts";
 

@@ -8,19 +8,13 @@
  */
 import type { Layer } from "../../validate/wafer.ts";
 import type { AnalysisSettings } from "../../validate/settings.ts";
-import type { XrdFile } from "../../validate/xrd.ts";
-import type { DepthProfileFile } from "../../validate/depthProfile.ts";
+import type { XrdFile, DepthProfileFile, StructureInputs } from "../../model/structureInputs.ts";
 import { putMetric } from "../../model/metrics.ts";
 import { analyseDepthProfile, type DepthProfileResult } from "./depthProfile.ts";
 import { analyseXrd, type XrdAnalysis } from "./xrdAnalysis.ts";
 import { checkCriticalThickness, type CriticalThicknessCheck } from "./criticalThicknessCheck.ts";
 import { REGISTERED_CONTAMINANTS } from "../../model/metrics/structure.ts";
 import { strainedSiOnRelaxedSiGe } from "../../physics/sige.ts";
-
-export interface StructureInputs {
-  xrd?: XrdFile[];
-  profiles?: DepthProfileFile[];
-}
 
 export interface ProfileAnalysis {
   data: DepthProfileFile;

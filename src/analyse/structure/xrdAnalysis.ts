@@ -7,9 +7,9 @@
  * Q in m⁻¹ including 2π).
  */
 import type { Layer } from "../../validate/wafer.ts";
-import type { XrdFile } from "../../validate/xrd.ts";
+import type { XrdFile, MapPoint } from "../../model/structureInputs.ts";
 import { bufferRelaxation, type BufferRelaxation, type MeasuredReflection } from "./bufferRelaxation.ts";
-import { reflectionOf, rsmPeaks, rsmPeaksFromTable, type MapPoint, type RsmPeaks } from "./rsmPeaks.ts";
+import { reflectionOf, rsmPeaks, rsmPeaksFromTable, type RsmPeaks } from "./rsmPeaks.ts";
 import { wellStrain, type WellStrain } from "./wellStrain.ts";
 
 export interface XrdFileResult {
