@@ -16,7 +16,8 @@
  * (micrograph) with greyPng.ts. Throws RangeError for mismatched sizes (programming error).
  */
 import { PNG } from "pngjs";
-import { growthCoordinate, type GrowthAxis } from "../analyse/images/geometry.ts";
+import { growthCoordinate } from "../analyse/images/geometry.ts";
+import type { GrowthAxis } from "../model/imageInputs.ts";
 import { encodeGreyPng } from "./greyPng.ts";
 
 type RGB = [number, number, number];

@@ -8,7 +8,7 @@
  * a located problem of the wafer and is left out; the other images still load.
  */
 import type { WaferFileReader } from "./waferFiles.ts";
-import type { ImageInputs, MicrographInput } from "../analyse/images/index.ts";
+import type { ImageInputs, MicrographInput } from "../model/imageInputs.ts";
 import type { ImageSpec, WaferRecord } from "../validate/wafer.ts";
 import { InputError } from "../model/problem.ts";
 import { decodeMicrograph, MicrographFormatError } from "./micrograph.ts";

@@ -18,7 +18,7 @@ import { loadImageInputs } from "./imageFiles.ts";
 import { loadStructureInputs } from "./structureFiles.ts";
 import type { WaferFileReader } from "./waferFiles.ts";
 import type { StructureInputs } from "../model/structureInputs.ts";
-import type { ImageInputs } from "../analyse/images/index.ts";
+import type { ImageInputs } from "../model/imageInputs.ts";
 import { readFrontMatter, lineOfField } from "./frontMatter.ts";
 import { readTable } from "./table.ts";
 

@@ -13,7 +13,8 @@
  * geometry.ts (tilted by `tilt_deg`), then a constant background and seeded
  * Gaussian noise are added. Lengths in metres, image in arbitrary units.
  */
-import { growthNormal, inPlaneDirection, type GrowthAxis } from "../analyse/images/geometry.ts";
+import { growthNormal, inPlaneDirection } from "../analyse/images/geometry.ts";
+import type { GrowthAxis } from "../model/imageInputs.ts";
 import { seededGaussian } from "./random.ts";
 import { LN9 } from "../analyse/numeric/sigmoidFit.ts";
 import { degToRad } from "../analyse/numeric/angle.ts";

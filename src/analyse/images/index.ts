@@ -19,31 +19,11 @@ import type { AnalysisSettings } from "../../validate/settings.ts";
 import { putMetric } from "../../model/metrics.ts";
 import { expectedWellStrain, type ExpectedWellStrain } from "./expectedWellStrain.ts";
 import { geometricPhase, type GpaResult } from "./geometricPhase.ts";
-import { growthCoordinate, type GrowthAxis, type PixelRect } from "./geometry.ts";
+import { growthCoordinate } from "./geometry.ts";
+import type { GrowthAxis, PixelRect, ImageInputs, MicrographInput } from "../../model/imageInputs.ts";
 import { wellCoherence, type WellCoherenceResult } from "./wellCoherence.ts";
 import { zContrastProfile, type ZContrastResult } from "./zContrastProfile.ts";
 import { degToRad } from "../numeric/angle.ts";
-
-/** One decoded micrograph with its wafer.md description. */
-export interface MicrographInput {
-  /** Path relative to the data folder. */
-  file: string;
-  /** Position in wafer.md's `images:` list. */
-  index: number;
-  kind: "haadf" | "hrtem";
-  pixelSize_m: number;
-  growthAxis: GrowthAxis;
-  /** Reference region in pixels [x0, y0, x1, y1), when wafer.md gives one. */
-  reference?: PixelRect;
-  width: number;
-  height: number;
-  /** Row-major intensities, 0…1. */
-  pixels: Float32Array;
-}
-
-export interface ImageInputs {
-  micrographs?: MicrographInput[];
-}
 
 export interface ImageResult {
   input: MicrographInput;
