@@ -26,8 +26,8 @@ import { analyseFieldSweep, type TransportPoint } from "../src/analyse/transport
 import { fitOscillations } from "../src/analyse/transport/oscillationFit.ts";
 import { shubnikovDeHaas } from "../src/analyse/transport/shubnikovDeHaas.ts";
 import type { AnalysisSettings } from "../src/validate/settings.ts";
-import { loadWafer, type LoadedWafer } from "../src/read/wafer.ts";
-import { loadSiteInputs } from "../src/read/site.ts";
+import { loadWafer, type LoadedWafer } from "../src/validate/load/wafer.ts";
+import { loadSiteInputs } from "../src/validate/load/site.ts";
 import { DEFAULT_SIZE, generateBenchData } from "./generate.ts";
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");

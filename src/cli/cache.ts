@@ -36,7 +36,7 @@ import v8 from "node:v8";
 import pLimit from "p-limit";
 import { PACKAGE_ROOT, SRC_DIR } from "./paths.ts";
 import type { WaferAnalysis } from "../analyse/wafer.ts";
-import type { RawFileInfo } from "../read/wafer.ts";
+import type { RawFileInfo } from "../validate/load/wafer.ts";
 import type { Problem } from "../model/problem.ts";
 import type { WaferRecord } from "../validate/wafer.ts";
 import { listFiles } from "../read/dataFiles.ts";
@@ -57,7 +57,7 @@ export interface CacheEntry {
 }
 
 const SRC = SRC_DIR;
-const CODE_FOLDERS = ["read", "validate", "analyse", "physics"];
+const CODE_FOLDERS = ["physics", "model", "read", "validate", "analyse"];
 /** Files outside those folders that decide what a cache entry holds. */
 const CODE_FILES = ["cli/analyseFolder.ts", "cli/cache.ts", "cli/lookUp.ts"];
 

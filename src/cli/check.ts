@@ -12,8 +12,8 @@
 import { parseArgs } from "node:util";
 import path from "node:path";
 import pLimit from "p-limit";
-import { loadSiteInputs } from "../read/site.ts";
-import { loadWafer } from "../read/wafer.ts";
+import { loadSiteInputs } from "../validate/load/site.ts";
+import { loadWafer } from "../validate/load/wafer.ts";
 import { formatProblem, type Problem } from "../model/problem.ts";
 import type { CommandIO } from "./commands.ts";
 import { judgeOutcome, type PipelineContext } from "./pipeline.ts";

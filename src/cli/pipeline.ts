@@ -5,7 +5,7 @@
  */
 import type { WaferAnalysis } from "../analyse/wafer.ts";
 import { judgeWafer, type MetricValues, type WaferJudgement } from "../judge/verdict.ts";
-import type { LoadContext, LoadedWafer, RawFileInfo } from "../read/wafer.ts";
+import type { LoadContext, LoadedWafer, RawFileInfo } from "../validate/load/wafer.ts";
 import { findingChecks } from "../judge/findings.ts";
 import { capProblem, formatProblem, type Problem } from "../model/problem.ts";
 import type { WaferRecord } from "../validate/wafer.ts";

@@ -2,7 +2,7 @@
 import { promises as fs } from "node:fs";
 import path from "node:path";
 import type { WaferOutcome } from "./pipeline.ts";
-import type { RunNotes } from "../read/site.ts";
+import type { RunNotes } from "../validate/load/site.ts";
 import { allResultsJson, pointsCsv, resultsCsv } from "../publish/exports.ts";
 import { sortOutcomes } from "../publish/siteModel.ts";
 

@@ -23,7 +23,7 @@ import type { WaferOutcome } from "../cli/pipeline.ts";
 import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants.ts";
 import { sig6, sig6OrNull } from "../model/format.ts";
 import { reactorOf } from "./siteModel.ts";
-import type { RunNotes } from "../read/site.ts";
+import type { RunNotes } from "../validate/load/site.ts";
 import { metricStdErrors } from "./metricStdErr.ts";
 import { decisionConflict } from "../judge/decision.ts";
 import { decisionJson } from "./decisionSection.ts";

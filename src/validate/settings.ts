@@ -6,6 +6,7 @@
  */
 import { didYouMean, InputError, ProblemList, show } from "../model/problem.ts";
 import { parseQuantity } from "./units.ts";
+import { DEFAULT_MAX_IMAGE_PIXELS } from "../read/micrograph.ts";
 
 export interface AnalysisSettings {
   /** Upper end of the low-field range for the Hall fit, T. */
@@ -63,8 +64,6 @@ export const SETTING_SPECS: Record<keyof AnalysisSettings, Spec> = {
   max_image_pixels: { kind: "number", min: 65_536, max: 1e9, doc: "largest micrograph accepted, width × height in pixels" },
 };
 
-/** Default of `max_image_pixels`: 4096 × 4096, the largest frame common STEM/TEM cameras record (measured: about 4 s and 250 MB to decode). */
-export const DEFAULT_MAX_IMAGE_PIXELS = 4096 * 4096;
 
 export const DEFAULT_SETTINGS: AnalysisSettings = {
   hall_max_field: 0.2,

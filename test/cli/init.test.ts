@@ -15,7 +15,7 @@ import type { CommandIO } from "../../src/cli/commands.ts";
 import { initCommand } from "../../src/cli/init.ts";
 import { judgeOutcome } from "../../src/cli/pipeline.ts";
 import { PACKAGE_ROOT } from "../../src/cli/paths.ts";
-import { loadSiteInputs } from "../../src/read/site.ts";
+import { loadSiteInputs } from "../../src/validate/load/site.ts";
 
 function capture(): CommandIO & { stdout: string[]; stderr: string[] } {
   const stdout: string[] = [];

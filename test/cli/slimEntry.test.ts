@@ -13,7 +13,7 @@ import { analyseFolder } from "../../src/cli/analyseFolder.ts";
 import { slimAnalysis } from "../../src/cli/cache.ts";
 import { judgeOutcome, type PipelineContext } from "../../src/cli/pipeline.ts";
 import { PACKAGE_ROOT } from "../../src/cli/paths.ts";
-import { loadSiteInputs } from "../../src/read/site.ts";
+import { loadSiteInputs } from "../../src/validate/load/site.ts";
 import { pointsCsv, resultsCsv } from "../../src/publish/exports.ts";
 import { resultsJson } from "../../src/publish/resultsJson.ts";
 import { buildSiteModel } from "../../src/publish/siteModel.ts";

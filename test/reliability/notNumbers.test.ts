@@ -15,7 +15,7 @@ import { afterAll, describe, expect, it } from "vitest";
 import { readFrontMatter, readYaml } from "../../src/read/frontMatter.ts";
 import { scanPlainBody } from "../../src/read/plainTable.ts";
 import { numericColumn, readTable } from "../../src/read/table.ts";
-import { loadWafer } from "../../src/read/wafer.ts";
+import { loadWafer } from "../../src/validate/load/wafer.ts";
 import { formatProblem } from "../../src/model/problem.ts";
 import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
 import { validateTargets } from "../../src/validate/targets.ts";

@@ -16,7 +16,7 @@ import path from "node:path";
 import zlib from "node:zlib";
 import { afterAll, describe, expect, it } from "vitest";
 import { decodeMicrograph, MicrographFormatError } from "../../src/read/micrograph.ts";
-import { loadWafer } from "../../src/read/wafer.ts";
+import { loadWafer } from "../../src/validate/load/wafer.ts";
 import { formatProblem } from "../../src/model/problem.ts";
 import { applySettings, DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
 import { problemMessage } from "../helpers/problems.ts";

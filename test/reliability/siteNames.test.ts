@@ -13,7 +13,7 @@ import path from "node:path";
 import { promisify } from "node:util";
 import { afterAll, describe, expect, it } from "vitest";
 import { formatProblem } from "../../src/model/problem.ts";
-import { loadSiteInputs } from "../../src/read/site.ts";
+import { loadSiteInputs } from "../../src/validate/load/site.ts";
 import { isSiteName, SITE_NAMES } from "../../src/validate/siteNames.ts";
 import { buildCase, HEALTHY_DIR } from "./corpus.ts";
 

@@ -1,7 +1,7 @@
 /**
  * Lattice-image analysis of one wafer: Z-contrast interface widths and
  * geometric phase analysis. Extension point: inputs from
- * src/read/imageFiles.ts, metrics in ./metrics.ts.
+ * src/validate/load/imageFiles.ts, metrics in src/model/metrics/images.ts.
  *
  * Per image: (1) the Z-contrast profile (zContrastProfile.ts) gives the tilt
  * of the interfaces and the well band; its 10–90 % widths are reported for

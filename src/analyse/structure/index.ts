@@ -3,7 +3,7 @@
  * relaxation, well strain), critical thickness of the well, depth profiles
  * (interface widths, well thickness, barrier Ge, contaminants), and the
  * comparison of measured with design (stack) values. Inputs from
- * src/read/structureFiles.ts, metrics in ./metrics.ts. Pure; SI inside, metric
+ * src/validate/load/structureFiles.ts, metrics in src/model/metrics/structure.ts. Pure; SI inside, metric
  * values in each metric's unit.
  */
 import type { Layer } from "../../validate/wafer.ts";
