@@ -8,7 +8,8 @@
  */
 import { promises as fs } from "node:fs";
 import path from "node:path";
-import { judgeOutcome, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
+import type { PipelineContext } from "./pipeline.ts";
+import { judgeOutcome, type WaferOutcome } from "../judge/outcome.ts";
 import { codeVersion, defaultCacheDir } from "./cache.ts";
 import { WaferJobs } from "./workerPool.ts";
 import { loadSiteInputs } from "../validate/load/site.ts";

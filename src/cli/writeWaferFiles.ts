@@ -10,7 +10,7 @@ import { createHash } from "node:crypto";
 import { constants as fsConstants, existsSync, promises as fs, readdirSync } from "node:fs";
 import path from "node:path";
 import pLimit from "p-limit";
-import type { WaferOutcome } from "./pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import type { FileHashes } from "./fileHashes.ts";
 import { BuildStoppedError } from "./outputFolder.ts";
 import { linkOrCopy, linkReusedPage } from "./pageReuse.ts";

@@ -3,7 +3,7 @@
  * conflict with the computed verdict (src/judge/decision.ts). The commit that recorded it comes
  * with the wafer's history (src/validate/load/decisionCommits.ts, decisionCommitModel in history.ts).
  */
-import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import { decisionConflict } from "../judge/decision.ts";
 
 /** What each state means, for the page. */

@@ -19,7 +19,7 @@
  *   <key>_stderr [unit], <key>_min [unit], <key>_max [unit], <key>_verdict.
  */
 import { METRICS } from "../model/metrics.ts";
-import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants.ts";
 import { sig6, sig6OrNull } from "../model/format.ts";
 import { reactorOf } from "./siteModel.ts";

@@ -9,7 +9,7 @@
  * undefined while the wafer has no images.
  */
 import { rawCopyHref } from "./rawCopies.ts";
-import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import type { ImageResult } from "../analyse/images/index.ts";
 import { renderMicrograph, renderStrainMap } from "./strainMapImage.ts";
 import { traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";

@@ -6,7 +6,7 @@
  * tables of peaks, buffer figures, strain, critical thickness and profiles.
  * Every number is formatted here. Returns undefined when there is nothing to show.
  */
-import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import type { StructureAnalysis } from "../analyse/structure/index.ts";
 import type { InterfaceFit } from "../analyse/structure/depthProfile.ts";
 import { radToDeg } from "../analyse/structure/bragg.ts";

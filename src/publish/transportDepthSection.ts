@@ -8,7 +8,7 @@
  * errors, notes (spin splitting) and the reasons for anything not determined.
  * Returns undefined while no device has a depth analysis.
  */
-import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import type { DeviceAnalysis } from "../analyse/wafer.ts";
 import type { DeviceDepth } from "../analyse/transport/deviceDepth.ts";
 import { percolationConductivity } from "../analyse/transport/percolation.ts";

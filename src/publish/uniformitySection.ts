@@ -5,7 +5,7 @@
  * range; src/analyse/uniformity.ts) and an accessible table of the devices.
  * Returns undefined when no device has a position.
  */
-import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import { METRIC_BY_KEY } from "../model/metrics.ts";
 import { UNIFORMITY_SOURCES } from "../model/metrics/uniformity.ts";
 import { uniformity } from "../analyse/uniformity.ts";

@@ -10,7 +10,7 @@ import os from "node:os";
 import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { reportProblems } from "../../src/cli/report.ts";
-import { judgeOutcome } from "../../src/cli/pipeline.ts";
+import { judgeOutcome } from "../../src/judge/outcome.ts";
 import { capProblem, capText, ECHO_LIMIT, formatProblem, InputError } from "../../src/model/problem.ts";
 import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
 import { buildCase, HEALTHY_DIR } from "./corpus.ts";
