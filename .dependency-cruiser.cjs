@@ -75,6 +75,13 @@ module.exports = {
   forbidden: [
     ...layerRules(),
     {
+      name: "pure-no-files",
+      comment: "physics, model and analyse are pure (DEVELOPERS.md, \"Analysis is pure\"): no file reading, no file system, processes or threads",
+      severity: "error",
+      from: { path: "^src/(physics|model|analyse)/" },
+      to: { path: ["^src/read/", "^(node:)?(fs|fs/promises|child_process|worker_threads|net|http|https)$"] },
+    },
+    {
       name: "no-cycle-between-folders",
       comment: "modules of two folders of src/ import each other in a circle",
       severity: "error",
