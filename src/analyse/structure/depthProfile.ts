@@ -21,6 +21,7 @@
  * Ge is a fraction (convert at.% before calling); contaminants in cm⁻³ as given.
  */
 import { fitSigmoidEdge, LN9, sigmoidAt, type SigmoidEdge } from "../numeric/sigmoidFit.ts";
+import { fields, under } from "../bulk.ts";
 
 export interface DepthProfileInput {
   /** Depth below the surface, nm. */
@@ -200,3 +201,9 @@ function contaminantPeaks(input: DepthProfileInput, zTop: number, zBot: number, 
     return { element, insidePeak: ins?.v, insideDepth: ins?.z, nearPeak: nr?.v, nearDepth: nr?.z };
   });
 }
+
+/** The fitted curves of both interfaces (src/analyse/bulk.ts). */
+export const DEPTH_PROFILE_BULK = [
+  ...under(["top", "curve"], fields<InterfaceFit["curve"]>("depth", "ge")),
+  ...under(["bottom", "curve"], fields<InterfaceFit["curve"]>("depth", "ge")),
+];

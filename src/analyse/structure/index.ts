@@ -10,11 +10,12 @@ import type { Layer } from "../../validate/wafer.ts";
 import type { AnalysisSettings } from "../../validate/settings.ts";
 import type { XrdFile, DepthProfileFile, StructureInputs } from "../../model/structureInputs.ts";
 import { putMetric } from "../../model/metrics.ts";
-import { analyseDepthProfile, type DepthProfileResult } from "./depthProfile.ts";
-import { analyseXrd, type XrdAnalysis } from "./xrdAnalysis.ts";
+import { analyseDepthProfile, DEPTH_PROFILE_BULK, type DepthProfileResult } from "./depthProfile.ts";
+import { analyseXrd, XRD_BULK, type XrdAnalysis } from "./xrdAnalysis.ts";
 import { checkCriticalThickness, type CriticalThicknessCheck } from "./criticalThicknessCheck.ts";
 import { REGISTERED_CONTAMINANTS } from "../../model/metrics/structure.ts";
 import { strainedSiOnRelaxedSiGe } from "../../physics/sige.ts";
+import { fields, under } from "../bulk.ts";
 
 export interface ProfileAnalysis {
   data: DepthProfileFile;
@@ -119,3 +120,10 @@ export function analyseStructure(inputs: StructureInputs, stack: Layer[], _setti
   for (const el of REGISTERED_CONTAMINANTS) put(`peak_${el}`, peaks[el] === undefined ? undefined : peaks[el] * 1e6);
   return { metrics, xrd, profiles, critical: crit, design: designRows(stack, xrd, prof, crit), findings: findings(xrd, profiles, crit), contaminantPeaks: peaks };
 }
+
+/** The structure section's bulk arrays (src/analyse/bulk.ts): profile columns, interface curves, XRD map points. */
+export const STRUCTURE_BULK = [
+  ...under(["profiles", "*", "data"], fields<DepthProfileFile>("depth", "ge")),
+  ...under(["profiles", "*", "result"], DEPTH_PROFILE_BULK),
+  ...under(["xrd"], XRD_BULK),
+];
