@@ -3,7 +3,7 @@
  * stderr, the index, the search index, the wafer page and results.json (60 MB
  * each). Every problem's message, found value and field now show at most 200
  * characters (expected and fix, the program's own words: 400), ending in "…"
- * (src/validate/problem.ts, capProblem), wherever the problem was made.
+ * (src/model/problem.ts, capProblem), wherever the problem was made.
  */
 import { promises as fs } from "node:fs";
 import os from "node:os";
