@@ -29,8 +29,8 @@ import { shubnikovDeHaas } from "../src/analyse/transport/shubnikovDeHaas.ts";
 import { analyseDepthProfile } from "../src/analyse/structure/depthProfile.ts";
 import { predictValleySplitting } from "../src/analyse/structure/valleySplitting.ts";
 import type { AnalysisSettings } from "../src/validate/settings.ts";
-import { loadWafer, type LoadedWafer } from "../src/read/wafer.ts";
-import { loadSiteInputs } from "../src/read/site.ts";
+import { loadWafer, type LoadedWafer } from "../src/validate/load/wafer.ts";
+import { loadSiteInputs } from "../src/validate/load/site.ts";
 import { DEFAULT_SIZE, generateBenchData } from "./generate.ts";
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");

@@ -13,7 +13,7 @@
  */
 import type { DemoWafer } from "../generate-demo.ts";
 import type { DemoWriter } from "./extras.ts";
-import type { Miller } from "../../src/analyse/structure/bragg.ts";
+import type { Miller } from "../../src/model/structureInputs.ts";
 import { synthReciprocalSpaceMap } from "../../src/synth/reciprocalSpaceMap.ts";
 import { synthDepthProfile } from "../../src/synth/depthProfile.ts";
 import { seededUniform } from "../../src/synth/random.ts";

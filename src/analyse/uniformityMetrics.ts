@@ -3,29 +3,15 @@
  * of a device metric over the wafer's devices, in percent.
  *
  * Definition: CV = 100 · s / |mean| with s the SAMPLE standard deviation
- * (n − 1) of the devices' values (src/judge/uniformity.ts; e.g. Montgomery,
+ * (n − 1) of the devices' values (src/analyse/uniformity.ts; e.g. Montgomery,
  * Introduction to Statistical Quality Control, for the coefficient of
  * variation). Computed from the device values in the metric's own unit (the
  * ratio is unit-free). Needs at least two devices with a value and a non-zero
  * mean; otherwise the metric is simply absent (the reason is shown in the
  * wafer page's uniformity section). Pure: no I/O.
  */
-import { metric, type MetricSpec } from "./metricSpec.ts";
-import { uniformity } from "../judge/uniformity.ts";
-
-/** Device metrics whose spread over the wafer is a metric of its own. */
-export const UNIFORMITY_SOURCES: { key: string; label: string }[] = [
-  { key: "peak_mobility", label: "peak mobility" },
-  { key: "density_at_peak_mobility", label: "density at peak mobility" },
-  { key: "turn_on_voltage", label: "turn-on voltage" },
-];
-
-/** `<metric>_cv` key for a device metric. */
-export const cvKey = (key: string): string => `${key}_cv`;
-
-export const UNIFORMITY_METRICS: MetricSpec[] = UNIFORMITY_SOURCES.map((s) =>
-  metric(cvKey(s.key), `Within-wafer CV of ${s.label}`, "%", 1, "uniformity", `coefficient of variation (100·s/|mean|, sample s) of ${s.label} over the wafer's devices`, 2),
-);
+import { cvKey, UNIFORMITY_SOURCES } from "../model/metrics/uniformity.ts";
+import { uniformity } from "./uniformity.ts";
 
 /**
  * Wafer-level `<metric>_cv` values (%) from the devices' metric values.

@@ -6,12 +6,15 @@
 import type { AnalysisSettings } from "../validate/settings.ts";
 import type { Sweep } from "../validate/sweep.ts";
 import type { DeviceSpec, Layer } from "../validate/wafer.ts";
-import { analyseStructure, type StructureAnalysis, type StructureInputs } from "./structure/index.ts";
-import { analyseImages, type ImageAnalysis, type ImageInputs } from "./images/index.ts";
-import { analyseDeviceDepth, type DeviceDepth } from "./transport/deviceDepth.ts";
-import { putMetric } from "./metrics.ts";
+import { analyseStructure, STRUCTURE_BULK, type StructureAnalysis } from "./structure/index.ts";
+import type { StructureInputs } from "../model/structureInputs.ts";
+import { analyseImages, type ImageAnalysis } from "./images/index.ts";
+import type { ImageInputs } from "../model/imageInputs.ts";
+import { analyseDeviceDepth, DEVICE_DEPTH_BULK, type DeviceDepth } from "./transport/deviceDepth.ts";
+import { putMetric } from "../model/metrics.ts";
 import { analyseFieldSweep, type TransportPoint } from "./transport/fieldSweep.ts";
 import { pointsCalibration, sortByGate, summariseDevice, type DeviceSummary } from "./transport/deviceSummary.ts";
+import { under } from "./bulk.ts";
 
 export interface DeviceInput {
   spec: DeviceSpec;
@@ -93,3 +96,6 @@ export function analyseWafer(inputs: WaferInputs, settings: AnalysisSettings): W
     images: analyseImages(inputs.images, inputs.stack, settings),
   };
 }
+
+/** Every plain bulk array of a wafer analysis (src/analyse/bulk.ts); the images' bulk data are typed arrays. */
+export const WAFER_BULK = [...under(["devices", "*", "depth"], DEVICE_DEPTH_BULK), ...under(["structure"], STRUCTURE_BULK)];

@@ -7,9 +7,9 @@
 import { analyseWafer, type WaferAnalysis } from "../analyse/wafer.ts";
 import type { DeviceDepth } from "../analyse/transport/deviceDepth.ts";
 import { lttbIndices } from "../analyse/numeric/lttb.ts";
-import { loadWafer, type LoadContext } from "../read/wafer.ts";
+import { loadWafer, type LoadContext } from "../validate/load/wafer.ts";
 import { damagedEntryWarning, readEntry, slimAnalysis, writeEntry, type CacheEntry, type EntryForm } from "./cache.ts";
-import type { Problem } from "../validate/problem.ts";
+import type { Problem } from "../model/problem.ts";
 import { lookUpFolder } from "./lookUp.ts";
 
 export interface AnalyseContext extends LoadContext {

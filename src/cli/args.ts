@@ -9,7 +9,7 @@
  * options are usage errors (exit code 2) with a "did you mean" hint.
  */
 import { parseArgs as nodeParseArgs } from "node:util";
-import { didYouMean } from "../validate/problem.ts";
+import { didYouMean } from "../model/problem.ts";
 import { parseShard, type Shard } from "./shard.ts";
 
 /** A usage mistake: printed as `waferbook: <message>` with exit code 2. */

@@ -37,9 +37,10 @@ import v8 from "node:v8";
 import pLimit from "p-limit";
 import { PACKAGE_ROOT } from "./paths.ts";
 import { codeDigests } from "./codeDigest.ts";
-import type { WaferAnalysis } from "../analyse/wafer.ts";
-import type { RawFileInfo } from "../read/wafer.ts";
-import type { Problem } from "../validate/problem.ts";
+import { WAFER_BULK, type WaferAnalysis } from "../analyse/wafer.ts";
+import { emptyBulk } from "../analyse/bulk.ts";
+import type { RawFileInfo } from "../validate/load/wafer.ts";
+import type { Problem } from "../model/problem.ts";
 import type { WaferRecord } from "../validate/wafer.ts";
 import { listFiles } from "../read/dataFiles.ts";
 import { sha256File, type FileHashes } from "./fileHashes.ts";
@@ -244,34 +245,28 @@ export async function writeAtomically(dest: string, bytes: Buffer): Promise<bool
 }
 
 /**
- * The analysis without its bulk arrays: every typed array (traces, image
- * pixels, strain maps) becomes an empty one of the same kind, the plain
- * number arrays that only charts read (BULK_ARRAYS: SdH traces and spectra,
- * gate-sweep columns other than the gate voltage, depth-profile columns, the
- * valley prediction's layer weights and E_v distribution)
- * become empty, and XRD map points are dropped. Every scalar figure, fit,
- * reason and per-point result is kept, so judging and every site-wide output
+ * The analysis without its bulk arrays: every typed array (traces, image pixels, strain maps)
+ * becomes an empty one of the same kind, and the plain arrays each analysis lists as bulk at its
+ * source (WAFER_BULK, src/analyse/bulk.ts: SdH traces and spectra, fit curves, gate-sweep columns
+ * other than the gate voltage, depth-profile columns, the valley prediction's layer weights and E_v
+ * distribution) become empty, XRD map points dropped. Every
+ * scalar figure, fit, reason and per-point result is kept, so judging and every site-wide output
  * give the same result from either form (test/cli/slimEntry.test.ts).
  */
 export function slimAnalysis(analysis: WaferAnalysis): WaferAnalysis {
-  return strip(analysis, "") as WaferAnalysis;
+  const slim = emptyTypedArrays(analysis) as WaferAnalysis;
+  emptyBulk(slim, WAFER_BULK);
+  return slim;
 }
 
-/** Names of plain number arrays read only by charts (results.json counts gate-sweep points from `gateVoltage`, which stays). */
-const BULK_ARRAYS = new Set(["inverseField", "oscillation", "frequency", "amplitude", "sheetResistance", "density", "conductivity", "depth", "ge", "weight", "energy"]);
-
-function strip(x: unknown, key: string): unknown {
+/** A copy of x in which every typed array is an empty one of the same kind. */
+function emptyTypedArrays(x: unknown): unknown {
   if (ArrayBuffer.isView(x)) return new (x.constructor as new (n: number) => ArrayBufferView)(0);
-  if (Array.isArray(x)) return BULK_ARRAYS.has(key) && typeof x[0] === "number" ? [] : x.map((v) => strip(v, ""));
+  if (Array.isArray(x)) return x.map(emptyTypedArrays);
   if (x === null || typeof x !== "object") return x;
   const out: Record<string, unknown> = {};
-  for (const [k, v] of Object.entries(x)) out[k] = k === "points" && isMapPoints(v) ? undefined : strip(v, k);
+  for (const [k, v] of Object.entries(x)) out[k] = emptyTypedArrays(v);
   return out;
-}
-
-/** XRD map points: an array of objects with omega, twoTheta and counts (the only "points" that are bulk data). */
-function isMapPoints(v: unknown): boolean {
-  return Array.isArray(v) && v.length > 0 && typeof v[0] === "object" && v[0] !== null && "twoTheta" in v[0] && "counts" in v[0];
 }
 
 /** The default cache folder: `.waferbook-cache/` beside the output folder. */

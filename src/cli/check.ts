@@ -12,11 +12,12 @@
 import { parseArgs } from "node:util";
 import path from "node:path";
 import pLimit from "p-limit";
-import { loadSiteInputs } from "../read/site.ts";
-import { loadWafer } from "../read/wafer.ts";
-import { formatProblem, type Problem } from "../validate/problem.ts";
+import { loadSiteInputs } from "../validate/load/site.ts";
+import { loadWafer } from "../validate/load/wafer.ts";
+import { formatProblem, type Problem } from "../model/problem.ts";
 import type { CommandIO } from "./commands.ts";
-import { judgeOutcome, type PipelineContext } from "./pipeline.ts";
+import type { PipelineContext } from "./pipeline.ts";
+import { judgeOutcome } from "../judge/outcome.ts";
 
 export const CHECK_HELP = `waferbook check — reads and validates a data folder without building anything
 

@@ -15,7 +15,7 @@ import { sha256File } from "./fileHashes.ts";
 import { BUNDLED, SRC_DIR } from "./paths.ts";
 
 /** Folders of src/ whose code decides what a cache entry holds. */
-const ANALYSIS_FOLDERS = ["read", "validate", "analyse", "physics"];
+const ANALYSIS_FOLDERS = ["physics", "model", "read", "validate", "analyse"];
 /** Files outside those folders that decide what a cache entry holds. */
 const ANALYSIS_FILES = ["cli/analyseFolder.ts", "cli/cache.ts", "cli/lookUp.ts"];
 

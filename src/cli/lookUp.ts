@@ -8,7 +8,7 @@ import { promises as fs } from "node:fs";
 import path from "node:path";
 import type { AnalyseContext, AnalysedFolder } from "./analyseFolder.ts";
 import { cacheKey, damagedEntryWarning, entryMismatch, entryPath, readEntry } from "./cache.ts";
-import type { Problem } from "../validate/problem.ts";
+import type { Problem } from "../model/problem.ts";
 import type { FileHashes } from "./fileHashes.ts";
 
 /** The names in the data folder's wafers/ folder, as the loader's duplicate-id check sees them: ctx.waferListing when given (read once per build by loadSiteInputs), else read now. */

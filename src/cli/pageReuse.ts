@@ -22,7 +22,7 @@
 import { createHash } from "node:crypto";
 import { constants as fsConstants, copyFileSync, linkSync, mkdirSync, promises as fs, readdirSync } from "node:fs";
 import path from "node:path";
-import type { WaferOutcome } from "./pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import { runtimeVersion } from "./cache.ts";
 import { codeDigests, hashFiles, sourceFiles } from "./codeDigest.ts";
 import { PACKAGE_ROOT } from "./paths.ts";

@@ -2,8 +2,8 @@
  * The one error reporter: one line per problem, `path:line: what (expected …,
  * found …) — fix`, then a summary. Stack traces only for internal errors.
  */
-import type { Problem } from "../validate/problem.ts";
-import { formatProblem } from "../validate/problem.ts";
+import type { Problem } from "../model/problem.ts";
+import { formatProblem } from "../model/problem.ts";
 import type { BuildResult } from "./build.ts";
 import type { Verdict } from "../judge/verdict.ts";
 

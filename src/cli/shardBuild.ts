@@ -24,7 +24,7 @@ import { pageCodeVersion } from "./pageReuse.ts";
 import { judgeOutcome, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
 import { shardFolders, type Shard } from "./shard.ts";
 import { WaferJobs } from "./workerPool.ts";
-import { loadSiteInputs } from "../read/site.ts";
+import { loadSiteInputs } from "../validate/load/site.ts";
 import type { Problem } from "../validate/problem.ts";
 
 export interface ShardResult extends BuildResult {

@@ -7,7 +7,8 @@
  */
 import { analyseFolder, loadInFull, type AnalyseContext, type AnalysedFolder } from "./analyseFolder.ts";
 import { slimAnalysis } from "./cache.ts";
-import { judgeOutcome, type PipelineContext } from "./pipeline.ts";
+import type { PipelineContext } from "./pipeline.ts";
+import { judgeOutcome } from "../judge/outcome.ts";
 import { drawWaferPage } from "./waferPages.ts";
 
 export interface JobContext extends AnalyseContext {

@@ -15,7 +15,7 @@
 import { promises as fs } from "node:fs";
 import path from "node:path";
 import v8 from "node:v8";
-import type { WaferOutcome } from "./pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import { waferPageModel } from "../publish/waferPage.ts";
 import { parkedPath } from "./render.ts";
 import { compareScript } from "../publish/compareData.ts";

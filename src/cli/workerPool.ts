@@ -23,7 +23,7 @@ import { FileHashes } from "./fileHashes.ts";
 import type { AnalysedFolder } from "./analyseFolder.ts";
 import { lookUpFolder, waferListing } from "./lookUp.ts";
 import type { JobContext, JobResult } from "./waferJob.ts";
-import type { Problem } from "../validate/problem.ts";
+import type { Problem } from "../model/problem.ts";
 
 /** The jobs themselves, loaded only when they run in this thread (the analysis and drawing code is otherwise loaded by the workers alone). */
 const jobsHere = () => import("./waferJob.ts");

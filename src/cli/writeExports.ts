@@ -1,8 +1,8 @@
 /** Writes the export files (results.csv, results.json, per-wafer points.csv) into the site being built. */
 import { promises as fs } from "node:fs";
 import path from "node:path";
-import type { WaferOutcome } from "./pipeline.ts";
-import type { RunNotes } from "../read/site.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
+import type { RunNotes } from "../validate/load/site.ts";
 import { allResultsJson, pointsCsv, resultsCsv } from "../publish/exports.ts";
 import { sortOutcomes } from "../publish/siteModel.ts";
 

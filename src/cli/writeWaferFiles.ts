@@ -10,7 +10,7 @@ import { createHash } from "node:crypto";
 import { constants as fsConstants, existsSync, promises as fs, readdirSync } from "node:fs";
 import path from "node:path";
 import pLimit from "p-limit";
-import type { WaferOutcome } from "./pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import type { FileHashes } from "./fileHashes.ts";
 import { BuildStoppedError } from "./outputFolder.ts";
 import { linkOrCopy, linkReusedPage } from "./pageReuse.ts";
@@ -18,7 +18,7 @@ import { packageFile } from "./paths.ts";
 import { RAW_OBJECT_NAME, rawCopyPath } from "../publish/rawCopies.ts";
 import { resultsJson } from "../publish/resultsJson.ts";
 import { openDataFile, readOpenFile, type OpenDataFile } from "../read/dataFiles.ts";
-import { InputError } from "../validate/problem.ts";
+import { InputError } from "../model/problem.ts";
 
 export type CommitsOf = (folder: string) => { wafer: string | null; targets: string | null };
 

@@ -16,10 +16,10 @@
  * reasons in plain words. Verdicts support, and never replace, the lab's own
  * QA sign-off.
  */
-import { METRIC_BY_KEY, type MetricSpec } from "../analyse/metrics.ts";
+import { METRIC_BY_KEY, type MetricSpec } from "../model/metrics.ts";
 import type { Aggregate, Target, Targets } from "../validate/targets.ts";
 import type { Waiver } from "../validate/wafer.ts";
-import { formatValue } from "../publish/format.ts";
+import { formatValue } from "../model/format.ts";
 import { FINDING_BY_KEY, type Consequence, type FindingCheck, type FindingSpec } from "./findings.ts";
 
 import { VERDICT_RANK, type Verdict } from "./states.ts";

@@ -7,12 +7,12 @@
  * (the newest targets commit at or before that date) and every later one. A
  * wafer not yet committed is judged under the newest committed version only.
  * A version that no longer parses is listed with its reason and no verdict.
- * Pure: the history is read elsewhere (src/read/history.ts).
+ * Pure: the history is read elsewhere (src/validate/load/history.ts).
  */
 import { judgeWafer, type MetricValues, type Verdict } from "./verdict.ts";
 import type { Waiver } from "../validate/wafer.ts";
 import type { FindingCheck } from "./findings.ts";
-import type { TargetsVersion } from "../read/history.ts";
+import type { TargetsVersion } from "../validate/load/history.ts";
 
 export interface VerdictAtVersion {
   hash: string;

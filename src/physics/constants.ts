@@ -24,3 +24,10 @@ export const VON_KLITZING = PLANCK / (ELEMENTARY_CHARGE * ELEMENTARY_CHARGE);
 /** Conversions used at the boundary between SI inside and lab units outside. */
 export const PER_M2_TO_PER_CM2 = 1e-4;
 export const M2_PER_VS_TO_CM2_PER_VS = 1e4;
+export const S_TO_PS = 1e12;
+export const M_TO_UM = 1e6;
+/** Capacitance per area: 1 F/m² = 100 µF/cm². */
+export const F_PER_M2_TO_UF_PER_CM2 = 100;
+
+/** Cu Kα1 wavelength, m: 1.54059292 Å (International Tables for Crystallography Vol. C, §4.2.2, Deslattes et al.). */
+export const CU_KALPHA1 = 1.54059292e-10;

@@ -5,7 +5,7 @@
  * are linked for full resolution.
  */
 import { lttb } from "../analyse/numeric/lttb.ts";
-import { sig6 } from "./format.ts";
+import { sig6 } from "../model/format.ts";
 
 export interface ChartSeries {
   label: string;

@@ -8,7 +8,7 @@
  * Made where the page is drawn (src/cli/waferPages.ts), from the full
  * analysis, so it depends only on the wafer's outcome like the page.
  */
-import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants.ts";
 import { formatNumber, formatValue, prettyUnit, sig6OrNull } from "./format.ts";
 import { round, traceSeries } from "./charts.ts";

@@ -1,9 +1,9 @@
 /**
  * The lab's decision on a wafer as the wafer page shows it: state, who, when, why, and the
  * conflict with the computed verdict (src/judge/decision.ts). The commit that recorded it comes
- * with the wafer's history (src/read/decisionCommits.ts, decisionCommitModel in history.ts).
+ * with the wafer's history (src/validate/load/decisionCommits.ts, decisionCommitModel in history.ts).
  */
-import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import { decisionConflict } from "../judge/decision.ts";
 
 /** What each state means, for the page. */

@@ -19,12 +19,12 @@
  *   <key>_stderr [unit], <key>_min [unit], <key>_max [unit], <key>_verdict, then, when any wafer records growth
  *   conditions, growth_recipe and one column per growth condition any wafer records (<key> [unit], src/validate/growth.ts growthVariables).
  */
-import { METRICS } from "../analyse/metrics.ts";
-import type { WaferOutcome } from "../cli/pipeline.ts";
+import { METRICS } from "../model/metrics.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants.ts";
-import { sig6, sig6OrNull } from "./format.ts";
+import { sig6, sig6OrNull } from "../model/format.ts";
 import { reactorOf } from "./siteModel.ts";
-import type { RunNotes } from "../read/site.ts";
+import type { RunNotes } from "../validate/load/site.ts";
 import { metricStdErrors } from "./metricStdErr.ts";
 import { decisionConflict } from "../judge/decision.ts";
 import { decisionJson } from "./decisionSection.ts";

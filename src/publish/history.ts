@@ -4,14 +4,14 @@
  * its verdicts under every version of targets.yaml since it was recorded.
  */
 import { siteUrl } from "./siteUrl.ts";
-import { formatValue } from "./format.ts";
-import { METRIC_BY_KEY } from "../analyse/metrics.ts";
+import { formatValue } from "../model/format.ts";
+import { METRIC_BY_KEY } from "../model/metrics.ts";
 import type { Target } from "../validate/targets.ts";
-import type { DataHistory } from "../read/history.ts";
+import type { DataHistory } from "../validate/load/history.ts";
 import type { GitCommit } from "../read/gitHistory.ts";
 import { verdictsOverTime, type WaferForHistory } from "../judge/verdictHistory.ts";
 import { targetsChange } from "../judge/targetsChange.ts";
-import type { DecisionCommit } from "../read/decisionCommits.ts";
+import type { DecisionCommit } from "../validate/load/decisionCommits.ts";
 
 /** "2025-03-04T10:20:30+01:00" → "2025-03-04 10:20". */
 export function shortDate(iso: string): string {

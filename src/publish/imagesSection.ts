@@ -9,11 +9,11 @@
  * undefined while the wafer has no images.
  */
 import { rawCopyHref } from "./rawCopies.ts";
-import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import type { ImageResult } from "../analyse/images/index.ts";
 import { renderMicrograph, renderStrainMap } from "./strainMapImage.ts";
 import { traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
-import { formatNumber } from "./format.ts";
+import { formatNumber } from "../model/format.ts";
 
 /** Long side of the page copies of micrographs and strain maps, pixels. */
 export const PAGE_IMAGE_SIDE = 256;

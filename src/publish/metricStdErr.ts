@@ -13,8 +13,8 @@
  * for independent devices; GUM, JCGM 100:2008 §5.1, from memory), and only when every device has
  * one; judged as `min` or `max`, the SE of the device that gives the value.
  */
-import type { WaferOutcome } from "../cli/pipeline.ts";
-import { toMetricUnit } from "../analyse/metrics.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
+import { toMetricUnit } from "../model/metrics.ts";
 
 type DeviceOf = NonNullable<WaferOutcome["analysis"]>["devices"][number];
 

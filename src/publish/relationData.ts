@@ -6,7 +6,7 @@
  * the page as a JSON block that assets/relation.js reads (works from disk).
  */
 import { METRICS } from "../analyse/metrics.ts";
-import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import { growthVariables } from "../validate/growth.ts";
 import { jsonForScript } from "./charts.ts";
 import { prettyUnit, sig6OrNull } from "./format.ts";

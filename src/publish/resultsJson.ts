@@ -5,9 +5,9 @@
  * (figures only), in the main thread, on every build.
  */
 import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants.ts";
-import type { WaferOutcome } from "../cli/pipeline.ts";
-import { formatProblem } from "../validate/problem.ts";
-import { sig6OrNull } from "./format.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
+import { formatProblem } from "../model/problem.ts";
+import { sig6OrNull } from "../model/format.ts";
 import { decisionJson } from "./decisionSection.ts";
 import { metricStdErrors } from "./metricStdErr.ts";
 import { structureResults } from "./structureSection.ts";

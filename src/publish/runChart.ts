@@ -4,7 +4,7 @@
  * wafer page's chart. Each point links to its wafer page and names its wafer
  * and device. Built from the slim outcomes (per-point figures are kept).
  */
-import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants.ts";
 import { jsonForScript, markerSeries, type ChartSpec } from "./charts.ts";
 import { siteUrl } from "./siteUrl.ts";

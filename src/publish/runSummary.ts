@@ -1,12 +1,12 @@
 /**
  * Run pages: each run's wafers aggregated per metric (mean, sample standard
- * deviation, min–max, n; src/judge/uniformity.ts) and compared with the
+ * deviation, min–max, n; src/analyse/uniformity.ts) and compared with the
  * previous run, ordered by the run's `started` date (run notes) or else its
  * first growth date.
  */
-import { METRICS } from "../analyse/metrics.ts";
-import { uniformity } from "../judge/uniformity.ts";
-import { formatNumber, formatValue } from "./format.ts";
+import { METRICS } from "../model/metrics.ts";
+import { uniformity } from "../analyse/uniformity.ts";
+import { formatNumber, formatValue } from "../model/format.ts";
 
 export interface RunInput {
   id: string;

@@ -11,8 +11,8 @@
 import { promises as fs } from "node:fs";
 import path from "node:path";
 import MiniSearch from "minisearch";
-import type { WaferOutcome } from "../cli/pipeline.ts";
-import type { RunNotes } from "../read/site.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
+import type { RunNotes } from "../validate/load/site.ts";
 
 export interface SearchDoc {
   id: string;

@@ -5,16 +5,15 @@
  * figures only, no bulk arrays).
  */
 import { siteUrl } from "./siteUrl.ts";
-import type { WaferOutcome } from "../cli/pipeline.ts";
-import type { RunNotes } from "../read/site.ts";
-import { formatProblem, type Problem } from "../validate/problem.ts";
-import { METRIC_BY_KEY } from "../analyse/metrics.ts";
-import { formatValue } from "./format.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
+import type { RunNotes } from "../validate/load/site.ts";
+import { formatProblem, type Problem } from "../model/problem.ts";
+import { METRIC_BY_KEY } from "../model/metrics.ts";
+import { formatValue } from "../model/format.ts";
 import { renderNotes } from "./markdown.ts";
-import type { Verdict } from "../judge/verdict.ts";
-import { VERDICT_RANK } from "../judge/verdict.ts";
+import { type Verdict, VERDICT_RANK } from "../judge/verdict.ts";
 import type { Targets } from "../validate/targets.ts";
-import type { DataHistory } from "../read/history.ts";
+import type { DataHistory } from "../validate/load/history.ts";
 import { trendsModel } from "./trends.ts";
 import { targetsPageModel } from "./targetsPage.ts";
 import { changesModel, waferHistoryModel } from "./history.ts";

@@ -15,7 +15,8 @@
  * (micrograph) with greyPng.ts. Throws RangeError for mismatched sizes (programming error).
  */
 import { PNG } from "pngjs";
-import { growthCoordinate, type GrowthAxis } from "../analyse/images/geometry.ts";
+import { growthCoordinate } from "../analyse/images/geometry.ts";
+import type { GrowthAxis } from "../model/imageInputs.ts";
 import { encodeGreyPng, PAGE_PNG } from "./greyPng.ts";
 import { quantile } from "simple-statistics";
 import { divergingRgb, type RGB } from "./colourScales.ts";

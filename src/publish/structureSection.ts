@@ -6,12 +6,12 @@
  * tables of peaks, buffer figures, strain, critical thickness and profiles.
  * Every number is formatted here. Returns undefined when there is nothing to show.
  */
-import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import type { StructureAnalysis } from "../analyse/structure/index.ts";
 import type { InterfaceFit } from "../analyse/structure/depthProfile.ts";
 import { radToDeg } from "../analyse/structure/bragg.ts";
 import { markerSeries, traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
-import { formatNumber, sig6OrNull } from "./format.ts";
+import { formatNumber, sig6OrNull } from "../model/format.ts";
 import { stackSvg, type StackRow } from "./structureSvg.ts";
 import { rsmFigure } from "./rsmFigure.ts";
 import { valleySection, type ValleySectionModel } from "./valleySection.ts";

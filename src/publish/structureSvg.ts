@@ -7,7 +7,7 @@
  * <title> and <desc>. (The reciprocal-space maps are in rsmFigure.ts.)
  */
 import { escapeXml } from "./waferMapSvg.ts";
-import { formatNumber } from "./format.ts";
+import { formatNumber } from "../model/format.ts";
 
 export interface StackRow {
   name: string;

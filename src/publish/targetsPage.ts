@@ -3,13 +3,13 @@
  * required, aggregate) and each finding's consequence, the trend settings, and every registered metric with
  * its unit and description.
  */
-import { METRICS, METRIC_BY_KEY } from "../analyse/metrics.ts";
+import { METRICS, METRIC_BY_KEY } from "../model/metrics.ts";
 import type { Targets } from "../validate/targets.ts";
 import { DEFAULT_TREND_SETTINGS } from "../validate/trendSettings.ts";
 import { describeBaseline } from "../judge/trends.ts";
 import { DEFAULT_MAX_PASSES } from "../judge/phaseOne.ts";
 import { describeProduction } from "./trends.ts";
-import { formatValue, prettyUnit } from "./format.ts";
+import { formatValue, prettyUnit } from "../model/format.ts";
 import { FINDING_SPECS } from "../judge/findings.ts";
 
 export function targetsPageModel(targets: Targets | undefined) {

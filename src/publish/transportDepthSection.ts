@@ -9,13 +9,13 @@
  * errors, notes (spin splitting) and the reasons for anything not determined.
  * Returns undefined while no device has a depth analysis.
  */
-import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import type { DeviceAnalysis } from "../analyse/wafer.ts";
 import type { DeviceDepth } from "../analyse/transport/deviceDepth.ts";
 import { percolationConductivity } from "../analyse/transport/percolation.ts";
 import { POWER_LAW_REFERENCE_DENSITY } from "../analyse/transport/mobilityPowerLaw.ts";
 import { markerSeries, traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
-import { formatNumber } from "./format.ts";
+import { formatNumber } from "../model/format.ts";
 import { oscillationChart } from "./traceViews.ts";
 import { densityAtGate } from "../analyse/transport/densityCalibration.ts";
 

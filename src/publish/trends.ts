@@ -5,13 +5,13 @@
  * alternative. Numbers are formatted here; templates only place strings.
  */
 import { siteUrl } from "./siteUrl.ts";
-import { METRIC_BY_KEY, METRICS, type MetricSpec } from "../analyse/metrics.ts";
+import { METRIC_BY_KEY, METRICS, type MetricSpec } from "../model/metrics.ts";
 import { describeBaseline, orderByDate, trendGroups, type Trend, type TrendInput, type TrendPoint } from "../judge/trends.ts";
 import { DEFAULT_MAX_PASSES, ROUGH_BASELINE_BELOW } from "../judge/phaseOne.ts";
 import type { Targets } from "../validate/targets.ts";
 import { DEFAULT_TREND_SETTINGS } from "../validate/trendSettings.ts";
 import { jsonForScript, markerSeries, SERIES_ROLES, type ChartSeries, type ChartSpec } from "./charts.ts";
-import { formatNumber, formatValue, prettyUnit, sig6 } from "./format.ts";
+import { formatNumber, formatValue, prettyUnit, sig6 } from "../model/format.ts";
 
 /** One wafer's values, as the site model knows them. */
 export interface TrendWafer {

@@ -2,14 +2,14 @@
  * Page model of the within-wafer uniformity section: for each device metric
  * with at least one positioned device (`at_mm`), a wafer map (inline SVG from
  * waferMapSvg), the uniformity figures (mean, sample standard deviation, CV,
- * range; src/judge/uniformity.ts) and an accessible table of the devices.
+ * range; src/analyse/uniformity.ts) and an accessible table of the devices.
  * Returns undefined when no device has a position.
  */
-import type { WaferOutcome } from "../cli/pipeline.ts";
-import { METRIC_BY_KEY } from "../analyse/metrics.ts";
-import { UNIFORMITY_SOURCES } from "../analyse/uniformityMetrics.ts";
-import { uniformity } from "../judge/uniformity.ts";
-import { formatNumber, formatValue, prettyUnit } from "./format.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
+import { METRIC_BY_KEY } from "../model/metrics.ts";
+import { UNIFORMITY_SOURCES } from "../model/metrics/uniformity.ts";
+import { uniformity } from "../analyse/uniformity.ts";
+import { formatNumber, formatValue, prettyUnit } from "../model/format.ts";
 import { waferMapSvg } from "./waferMapSvg.ts";
 
 export interface UniformityMapModel {

@@ -4,10 +4,10 @@
  */
 import { decisionModel } from "./decisionSection.ts";
 import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants.ts";
-import type { WaferOutcome } from "../cli/pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 import type { MetricJudgement, Verdict } from "../judge/verdict.ts";
-import { formatProblem } from "../validate/problem.ts";
-import { formatNumber, formatValue, prettyUnit } from "./format.ts";
+import { formatProblem } from "../model/problem.ts";
+import { formatNumber, formatValue, prettyUnit } from "../model/format.ts";
 import { jsonForScript, markerSeries, SERIES_ROLES, type ChartSpec } from "./charts.ts";
 import { traceChart } from "./traceViews.ts";
 import { pageIndex } from "./pageIndex.ts";

@@ -23,7 +23,7 @@ import { constants as fsConstants, promises as fs, type Stats } from "node:fs";
 import type { FileHandle } from "node:fs/promises";
 import path from "node:path";
 import picomatch from "picomatch";
-import { InputError } from "../validate/problem.ts";
+import { InputError } from "../model/problem.ts";
 
 /** Largest raw text file accepted, in bytes (documented in docs/formats.md). */
 export const MAX_TEXT_FILE_BYTES = 64 * 1024 * 1024;

@@ -4,7 +4,7 @@
  * become located problems with line and column in the file.
  */
 import matter from "gray-matter";
-import { InputError } from "../validate/problem.ts";
+import { InputError } from "../model/problem.ts";
 import { ALIAS_LIMIT_REASON, loadYaml, MAX_YAML_ALIASES, MAX_YAML_ALIAS_NODES } from "./yamlLoad.ts";
 import { fieldOffsets, offsetOfPath, type FieldOffsets } from "./yamlPositions.ts";
 

@@ -18,7 +18,7 @@
  * its preamble lines of at most MAX_MATCH_CHARS characters.
  */
 import path from "node:path";
-import { InputError, ProblemList, type Problem } from "../validate/problem.ts";
+import { InputError, ProblemList, type Problem } from "../model/problem.ts";
 import { readTable, type ColumnHeader, type MetaEntry, type RawTable } from "./table.ts";
 import { decimalFix, numberText, type DecimalMark, type Separator } from "./tableDialect.ts";
 

@@ -11,7 +11,7 @@
  */
 import { promises as fs } from "node:fs";
 import path from "node:path";
-import type { Problem } from "../validate/problem.ts";
+import type { Problem } from "../model/problem.ts";
 
 const INSIDE_FIX = "move the folder into the data folder (a link may point anywhere inside it, e.g. to raw/<wafer-id>), or mount the shared drive inside the data folder";
 

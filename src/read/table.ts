@@ -12,7 +12,7 @@
  * physics: it returns located cells; src/validate gives them meaning and units.
  */
 import { parse } from "csv-parse/sync";
-import { InputError, ProblemList } from "../validate/problem.ts";
+import { InputError, ProblemList } from "../model/problem.ts";
 import { scanPlainBody, splitPlainBody } from "./plainTable.ts";
 import { cellCountProblem, decimalFix, numberText, tableDialect, type DecimalMark, type Separator } from "./tableDialect.ts";
 
@@ -48,7 +48,7 @@ export interface RawTable {
    */
   numeric?: Float64Array[];
   /** Read by wafer.md's reading instructions (src/read/instrumentTable.ts): notes on the reading, e.g. a rule the file's own line overrode. */
-  readingNotes?: import("../validate/problem.ts").Problem[];
+  readingNotes?: import("../model/problem.ts").Problem[];
   /** Conditions a rule could not find in this file, with the reason ("file name `x.dat` does not match `gate.file_name` (…:17)"). */
   conditionMisses?: Map<string, string>;
   /** Header names the `columns` mapping leaves out (ignored). */

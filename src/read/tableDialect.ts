@@ -12,7 +12,7 @@
  * holds commas but no point. A decimal comma in a comma-separated file cannot
  * be told from a separator, and is refused with a message that says so.
  */
-import { InputError } from "../validate/problem.ts";
+import { InputError } from "../model/problem.ts";
 import type { MetaEntry } from "./table.ts";
 
 export type Separator = "," | "\t" | ";";

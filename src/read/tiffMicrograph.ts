@@ -23,7 +23,7 @@
  * differ by more than 1 % (the analysis assumes square pixels).
  */
 import UTIF from "utif2";
-import { DEFAULT_MAX_IMAGE_PIXELS } from "../validate/settings.ts";
+import { DEFAULT_MAX_IMAGE_PIXELS } from "./micrograph.ts";
 import { MicrographFormatError, type Micrograph } from "./micrograph.ts";
 
 const EXPECTED = "a greyscale TIFF (8-, 16- or 32-bit integer, or 32- or 64-bit float; uncompressed, LZW, Deflate or PackBits)";

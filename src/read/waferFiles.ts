@@ -3,7 +3,7 @@
  * wafer.md, read a matched file's bytes or text (with every safety check, and
  * recorded for provenance), and report a located problem.
  */
-import type { Problem } from "../validate/problem.ts";
+import type { Problem } from "../model/problem.ts";
 
 export interface WaferFileReader {
   /** Wafer id (= folder name). */

@@ -7,7 +7,7 @@
  *     reason: "meets the qubit targets; shipped to device team"
  * The shape (keys, types) is checked by the wafer schema; this adds the checks a schema cannot make.
  */
-import { InputError } from "./problem.ts";
+import { InputError } from "../model/problem.ts";
 import { isRealDate } from "./dates.ts";
 
 export const DECISION_STATES = ["released", "held", "rejected"] as const;

@@ -6,20 +6,9 @@
  * contaminants in cm⁻³. See docs/formats.md.
  */
 import { numericColumn, type RawTable } from "../read/table.ts";
-import { didYouMean, InputError, ProblemList } from "./problem.ts";
+import { didYouMean, InputError, ProblemList } from "../model/problem.ts";
 import { acceptedUnits, unitFactor } from "./units.ts";
-
-export interface DepthProfileFile {
-  file: string;
-  /** Technique as written in `# method:` ("unspecified" when absent). */
-  method: string;
-  /** nm, increasing. */
-  depth: number[];
-  /** Ge fraction, 1. */
-  ge: number[];
-  /** Element → cm⁻³. */
-  contaminants: Record<string, number[]>;
-}
+import type { DepthProfileFile } from "../model/structureInputs.ts";
 
 const ELEMENT = /^[A-Z][a-z]?$/;
 

@@ -15,7 +15,7 @@
  *   does: the sheet resistance is R·W/L, so a width 1000× too small makes the
  *   mobility 1000× too large (a length, 1000× too small).
  */
-import { InputError, type Problem } from "./problem.ts";
+import { InputError, type Problem } from "../model/problem.ts";
 
 /** Hard bounds of a device dimension, µm. */
 export const DEVICE_UM_LIMITS = { min: 1e-3, max: 1e6 } as const;

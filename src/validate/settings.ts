@@ -4,8 +4,9 @@
  * (docs/formats.md); values with dimensions are typed with units and converted
  * here, once. Inside the analysis everything is SI.
  */
-import { didYouMean, InputError, ProblemList, show } from "./problem.ts";
+import { didYouMean, InputError, ProblemList, show } from "../model/problem.ts";
 import { parseQuantity } from "./units.ts";
+import { DEFAULT_MAX_IMAGE_PIXELS } from "../read/micrograph.ts";
 
 export interface AnalysisSettings {
   /** Upper end of the low-field range for the Hall fit, T. */
@@ -75,8 +76,6 @@ export const SETTING_SPECS: Record<keyof AnalysisSettings, Spec> = {
   valley_splitting_threshold: { kind: "quantity", unit: "ueV", si: 1.602176634e-25, doc: "valley splitting a dot needs, for the predicted yield" },
 };
 
-/** Default of `max_image_pixels`: 4096 × 4096, the largest frame common STEM/TEM cameras record (measured: about 4 s and 250 MB to decode). */
-export const DEFAULT_MAX_IMAGE_PIXELS = 4096 * 4096;
 
 export const DEFAULT_SETTINGS: AnalysisSettings = {
   hall_max_field: 0.2,

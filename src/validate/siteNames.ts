@@ -9,7 +9,7 @@
  * it writes at its top level, in wafers/ and in runs/ (other than the ids) is
  * in this list, so the list follows what the site writes.
  */
-import type { Problem } from "./problem.ts";
+import type { Problem } from "../model/problem.ts";
 
 export const SITE_NAMES: readonly string[] = [
   "index.html",

@@ -5,7 +5,7 @@
  * current, the metadata each kind of sweep must carry.
  */
 import { numericColumn, type ColumnHeader, type RawTable } from "../read/table.ts";
-import { didYouMean, InputError, ProblemList, type Problem } from "./problem.ts";
+import { didYouMean, InputError, ProblemList, type Problem } from "../model/problem.ts";
 import { acceptedUnits, COLUMN_UNITS, splitValueUnit, unitFactor, type Dimension } from "./units.ts";
 import { suggestUnit } from "./unitSpelling.ts";
 

@@ -12,8 +12,8 @@
  * unknown metric is an error naming the grade and metric.
  */
 import { lineOfField } from "../read/frontMatter.ts";
-import { METRIC_BY_KEY } from "../analyse/metrics.ts";
-import { didYouMean, InputError, ProblemList, show } from "./problem.ts";
+import { METRIC_BY_KEY } from "../model/metrics.ts";
+import { didYouMean, InputError, ProblemList, show } from "../model/problem.ts";
 import { CONSEQUENCES, FINDING_KEYS, isFindingKey, type Consequence, type FindingKey } from "./findingKeys.ts";
 import { parseQuantity } from "./units.ts";
 import { readTrendSettings, type TrendSettings } from "./trendSettings.ts";

@@ -13,9 +13,9 @@
  * Omitted: the baseline is every eligible wafer, run length 8, production grades = the default
  * grade, 3 passes, one set of limits, nothing excluded.
  */
-import { didYouMean, InputError, show } from "./problem.ts";
+import { didYouMean, InputError, show } from "../model/problem.ts";
 import { isRealDate } from "./dates.ts";
-import { METRIC_BY_KEY } from "../analyse/metrics.ts";
+import { METRIC_BY_KEY } from "../model/metrics.ts";
 
 export type TrendBaseline = { kind: "all" } | { kind: "first"; count: number } | { kind: "dates"; from: string; to: string };
 

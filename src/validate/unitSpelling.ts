@@ -23,7 +23,7 @@
  * Letter case is otherwise kept: "mT" and "MT" are different units, and a
  * wrong case is reported with a suggestion (suggestUnit), never guessed.
  */
-import { didYouMean } from "./problem.ts";
+import { didYouMean } from "../model/problem.ts";
 
 const SUPERSCRIPT_DIGITS: Record<string, string> = { "⁰": "0", "¹": "1", "²": "2", "³": "3", "⁴": "4", "⁵": "5", "⁶": "6", "⁷": "7", "⁸": "8", "⁹": "9", "⁻": "-" };
 

@@ -39,19 +39,6 @@ export const COLUMN_UNITS: Record<Dimension, Record<string, number>> = {
   counts: { "": 1, "1": 1, counts: 1, cps: 1 },
 };
 
-export const BASE_UNIT: Record<Dimension, string> = {
-  field: "T",
-  resistance: "ohm",
-  voltage: "V",
-  current: "A",
-  temperature: "K",
-  angle: "deg",
-  length: "nm",
-  fraction: "1",
-  concentration: "cm^-3",
-  counts: "counts",
-};
-
 /** Each dimension's accepted units, keyed by their one spelling (unitSpelling.ts). */
 const BY_SPELLING = new Map<Dimension, Map<string, number>>();
 

@@ -7,20 +7,11 @@
  * Angles are returned in rad, the wavelength in m. See docs/formats.md.
  */
 import { numericColumn, type ColumnHeader, type RawTable } from "../read/table.ts";
-import { CU_KALPHA1, type Miller } from "../analyse/structure/bragg.ts";
-import type { MapPoint } from "../analyse/structure/rsmPeakFind.ts";
-import type { TableRow } from "../analyse/structure/rsmPeaks.ts";
-import { didYouMean, InputError, ProblemList } from "./problem.ts";
+import { CU_KALPHA1 } from "../physics/constants.ts";
+import type { Miller, MapPoint, TableRow, XrdCommon, XrdFile } from "../model/structureInputs.ts";
+import { didYouMean, InputError, ProblemList } from "../model/problem.ts";
 import { acceptedUnits, splitValueUnit, unitFactor, type Dimension } from "./units.ts";
 
-interface XrdCommon {
-  file: string;
-  reflection: Miller;
-  /** m */
-  wavelength: number;
-  wavelengthGiven: boolean;
-}
-export type XrdFile = (XrdCommon & { kind: "map"; points: MapPoint[]; grid: boolean }) | (XrdCommon & { kind: "peaks"; rows: TableRow[] });
 
 const DEG = Math.PI / 180;
 export const MAP_COLUMNS: Record<string, Dimension> = { omega: "angle", two_theta: "angle", counts: "counts" };

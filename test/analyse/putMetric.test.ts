@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { putMetric } from "../../src/analyse/metrics.ts";
+import { putMetric } from "../../src/model/metrics.ts";
 
 describe("putMetric", () => {
   it("stores the value in the metric's unit", () => {

@@ -1,8 +1,9 @@
-// <metric>_cv: CV = 100·s/|mean| with the sample standard deviation (n − 1) (src/judge/uniformity.ts definition;
+// <metric>_cv: CV = 100·s/|mean| with the sample standard deviation (n − 1) (src/analyse/uniformity.ts definition;
 // textbook coefficient of variation, from memory [M]). Expected values derived by hand below.
 import { describe, expect, it } from "vitest";
-import { uniformityMetrics, UNIFORMITY_METRICS } from "../../src/analyse/uniformityMetrics.ts";
-import { METRIC_BY_KEY } from "../../src/analyse/metrics.ts";
+import { uniformityMetrics } from "../../src/analyse/uniformityMetrics.ts";
+import { UNIFORMITY_METRICS } from "../../src/model/metrics/uniformity.ts";
+import { METRIC_BY_KEY } from "../../src/model/metrics.ts";
 import { validateTargets } from "../../src/validate/targets.ts";
 
 describe("uniformityMetrics", () => {

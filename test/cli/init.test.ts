@@ -13,9 +13,9 @@ import { checkCommand } from "../../src/cli/check.ts";
 import { analyseFolder } from "../../src/cli/analyseFolder.ts";
 import type { CommandIO } from "../../src/cli/commands.ts";
 import { initCommand } from "../../src/cli/init.ts";
-import { judgeOutcome } from "../../src/cli/pipeline.ts";
+import { judgeOutcome } from "../../src/judge/outcome.ts";
 import { PACKAGE_ROOT } from "../../src/cli/paths.ts";
-import { loadSiteInputs } from "../../src/read/site.ts";
+import { loadSiteInputs } from "../../src/validate/load/site.ts";
 
 function capture(): CommandIO & { stdout: string[]; stderr: string[] } {
   const stdout: string[] = [];
@@ -85,7 +85,7 @@ describe("waferbook init <folder>", () => {
     const site = await loadSiteInputs(dataDir);
     expect(site.problems).toEqual([]);
     const r = await analyseFolder("example-01", { dataDir, today: "2026-01-01", siteSettings: site.settings, cacheDir: null, code: "" });
-    const o = judgeOutcome(r.entry, r.entry.analysis, { dataDir, today: "2026-01-01", siteSettings: site.settings, targets: site.targets, siteOverrides: site.settingOverrides, version: "test", sitewideErrors: [] });
+    const o = judgeOutcome(r.entry, r.entry.analysis, { targets: site.targets, siteOverrides: site.settingOverrides, version: "test", sitewideErrors: [] });
     expect(o.problems).toEqual([]);
     // The example's gate model, written out: n = 5.5e11 cm⁻²/V · (Vg − 0.3 V) (src/cli/initExample.ts); the Hall density n = B/(e·Rxy)
     // recovers it to the noise (2e-4 relative) — common practice, 1 % tolerance.

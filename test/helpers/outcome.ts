@@ -4,7 +4,7 @@
  * made by the real verdict code under the given targets. Only the fields the exports read are filled.
  */
 import * as yaml from "js-yaml";
-import type { WaferOutcome } from "../../src/cli/pipeline.ts";
+import type { WaferOutcome } from "../../src/judge/outcome.ts";
 import { judgeWafer, type MetricValues } from "../../src/judge/verdict.ts";
 import { validateTargets, type Targets } from "../../src/validate/targets.ts";
 import type { Decision } from "../../src/validate/decision.ts";

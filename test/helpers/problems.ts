@@ -1,4 +1,4 @@
-import { formatProblem, InputError } from "../../src/validate/problem.ts";
+import { formatProblem, InputError } from "../../src/model/problem.ts";
 
 /** Runs fn, which must throw an InputError, and returns the formatted one-line message. */
 export function problemMessage(fn: () => unknown): string {

@@ -9,12 +9,12 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { readFrontMatter } from "../../src/read/frontMatter.ts";
 import { validateWafer } from "../../src/validate/wafer.ts";
 import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
-import { formatProblem, InputError } from "../../src/validate/problem.ts";
+import { formatProblem, InputError } from "../../src/model/problem.ts";
 import { decisionModel } from "../../src/publish/decisionSection.ts";
 import { resultsCsv } from "../../src/publish/exports.ts";
 import { makeGitRunner } from "../../src/read/gitHistory.ts";
-import { loadDataHistory } from "../../src/read/history.ts";
-import { decisionCommits, type DecisionCommit } from "../../src/read/decisionCommits.ts";
+import { loadDataHistory } from "../../src/validate/load/history.ts";
+import { decisionCommits, type DecisionCommit } from "../../src/validate/load/decisionCommits.ts";
 import { parse } from "csv-parse/sync";
 import { makeOutcome, targetsFrom } from "../helpers/outcome.ts";
 

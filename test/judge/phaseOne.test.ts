@@ -6,7 +6,7 @@ import { describe, expect, it } from "vitest";
 import { phaseOneLimits } from "../../src/judge/phaseOne.ts";
 import { trendChart, trendGroups, type TrendInput } from "../../src/judge/trends.ts";
 import { readTrendSettings, type TrendSettings } from "../../src/validate/trendSettings.ts";
-import { InputError } from "../../src/validate/problem.ts";
+import { InputError } from "../../src/model/problem.ts";
 
 const day = (i: number) => `2025-${String(1 + Math.floor(i / 28)).padStart(2, "0")}-${String(1 + (i % 28)).padStart(2, "0")}`;
 

@@ -4,7 +4,7 @@
 import { describe, expect, it } from "vitest";
 import { trendChart, type TrendInput } from "../../src/judge/trends.ts";
 import { readTrendSettings } from "../../src/validate/trendSettings.ts";
-import { InputError } from "../../src/validate/problem.ts";
+import { InputError } from "../../src/model/problem.ts";
 
 const day = (i: number) => `2025-01-${String(i + 1).padStart(2, "0")}`;
 const series = (vals: number[]): TrendInput[] => vals.map((v, i) => ({ id: `W${i}`, date: day(i), run: i < 4 ? "A" : "B", value: v }));

@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import * as yaml from "js-yaml";
 import { judgeWafer, worst } from "../../src/judge/verdict.ts";
 import { validateTargets } from "../../src/validate/targets.ts";
-import { formatProblem, InputError } from "../../src/validate/problem.ts";
+import { formatProblem, InputError } from "../../src/model/problem.ts";
 
 const text = `default_grade: qubit
 grades:

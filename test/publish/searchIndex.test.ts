@@ -1,6 +1,6 @@
 import MiniSearch, { type AsPlainObject } from "minisearch";
 import { describe, expect, it } from "vitest";
-import type { WaferOutcome } from "../../src/cli/pipeline.ts";
+import type { WaferOutcome } from "../../src/judge/outcome.ts";
 import { SEARCH_OPTIONS, searchDocuments, searchIndexJson } from "../../src/publish/searchIndex.ts";
 
 // A minimal outcome: only the fields the search index reads.

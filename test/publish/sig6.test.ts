@@ -5,7 +5,7 @@
 import { describe, expect, it } from "vitest";
 import { round } from "../../src/publish/charts.ts";
 import { csvField } from "../../src/publish/exports.ts";
-import { sig6, sig6OrNull } from "../../src/publish/format.ts";
+import { sig6, sig6OrNull } from "../../src/model/format.ts";
 
 describe("sig6", () => {
   it("rounds to six significant digits (values worked by hand)", () => {

@@ -7,7 +7,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { makeGitRunner } from "../../src/read/gitHistory.ts";
-import { loadDataHistory, type DataHistory } from "../../src/read/history.ts";
+import { loadDataHistory, type DataHistory } from "../../src/validate/load/history.ts";
 import { changesModel } from "../../src/publish/history.ts";
 
 const TMP = realpathSync(tmpdir());

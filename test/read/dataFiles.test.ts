@@ -8,7 +8,7 @@ import os from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { checkInside, decodeText } from "../../src/read/dataFiles.ts";
-import { formatProblem, InputError } from "../../src/validate/problem.ts";
+import { formatProblem, InputError } from "../../src/model/problem.ts";
 
 async function message(p: Promise<unknown>): Promise<string> {
   try {

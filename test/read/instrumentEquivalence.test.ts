@@ -12,8 +12,8 @@ import path from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
 import { PNG } from "pngjs";
 import { inflateSync } from "node:zlib";
-import { loadSiteInputs } from "../../src/read/site.ts";
-import { loadWafer, type LoadedWafer } from "../../src/read/wafer.ts";
+import { loadSiteInputs } from "../../src/validate/load/site.ts";
+import { loadWafer, type LoadedWafer } from "../../src/validate/load/wafer.ts";
 import { analyseWafer } from "../../src/analyse/wafer.ts";
 import { useTempDir } from "../helpers/tempDir.ts";
 

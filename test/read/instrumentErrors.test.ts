@@ -6,8 +6,8 @@
 import { promises as fs } from "node:fs";
 import path from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
-import { loadSiteInputs } from "../../src/read/site.ts";
-import { loadWafer } from "../../src/read/wafer.ts";
+import { loadSiteInputs } from "../../src/validate/load/site.ts";
+import { loadWafer } from "../../src/validate/load/wafer.ts";
 import type { Problem } from "../../src/validate/problem.ts";
 import { useTempDir } from "../helpers/tempDir.ts";
 

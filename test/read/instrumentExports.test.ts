@@ -4,7 +4,7 @@
 // Expected numbers are the written digits with a point (by hand); no published values involved.
 import { describe, expect, it } from "vitest";
 import { numericColumn, readTable } from "../../src/read/table.ts";
-import { formatProblem, InputError } from "../../src/validate/problem.ts";
+import { formatProblem, InputError } from "../../src/model/problem.ts";
 
 type Outcome = { error: string } | { rows: string[][]; rowLines: number[]; values: number[][] };
 

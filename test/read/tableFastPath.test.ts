@@ -10,7 +10,7 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { parsePlainNumber, scanPlainBody } from "../../src/read/plainTable.ts";
 import { numericColumn, readTable } from "../../src/read/table.ts";
-import { formatProblem, InputError } from "../../src/validate/problem.ts";
+import { formatProblem, InputError } from "../../src/model/problem.ts";
 
 type Outcome = { error: string } | { rows: string[][]; rowLines: number[]; values: Float64Array[] };
 

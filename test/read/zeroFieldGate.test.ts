@@ -9,7 +9,7 @@ import { validateSweep } from "../../src/validate/sweep.ts";
 import { analyseFolder } from "../../src/cli/analyseFolder.ts";
 import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
 import { formatSweep, hallSweepRows } from "../../src/synth/hallSweep.ts";
-import { InputError } from "../../src/validate/problem.ts";
+import { InputError } from "../../src/model/problem.ts";
 
 const message = (f: () => unknown) => {
   try {

@@ -16,7 +16,7 @@ import os from "node:os";
 import path from "node:path";
 import { promisify } from "node:util";
 import { afterAll, describe, expect, it } from "vitest";
-import { formatProblem } from "../../src/validate/problem.ts";
+import { formatProblem } from "../../src/model/problem.ts";
 import { buildCase, caseNames, expectedLines, prepareCase, ROOT } from "./corpus.ts";
 
 const names = await caseNames();

@@ -3,15 +3,15 @@
  * stderr, the index, the search index, the wafer page and results.json (60 MB
  * each). Every problem's message, found value and field now show at most 200
  * characters (expected and fix, the program's own words: 400), ending in "…"
- * (src/validate/problem.ts, capProblem), wherever the problem was made.
+ * (src/model/problem.ts, capProblem), wherever the problem was made.
  */
 import { promises as fs } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { reportProblems } from "../../src/cli/report.ts";
-import { judgeOutcome } from "../../src/cli/pipeline.ts";
-import { capProblem, capText, ECHO_LIMIT, formatProblem, InputError } from "../../src/validate/problem.ts";
+import { judgeOutcome } from "../../src/judge/outcome.ts";
+import { capProblem, capText, ECHO_LIMIT, formatProblem, InputError } from "../../src/model/problem.ts";
 import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
 import { buildCase, HEALTHY_DIR } from "./corpus.ts";
 

@@ -19,7 +19,7 @@ import fc from "fast-check";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { findRepo, listCommits, makeGitRunner, type GitRepo, type GitRunner } from "../../src/read/gitHistory.ts";
 import { GitLogParser, type GitCommit } from "../../src/read/gitLog.ts";
-import { loadDataHistory, MAX_COMMITS } from "../../src/read/history.ts";
+import { loadDataHistory, MAX_COMMITS } from "../../src/validate/load/history.ts";
 import { build } from "../../src/cli/build.ts";
 import { HEALTHY_DIR, io } from "./corpus.ts";
 

@@ -11,7 +11,7 @@ import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { WAFER_ID as ID } from "../../src/validate/waferSchema.ts";
 import { build } from "../../src/cli/build.ts";
-import { formatProblem } from "../../src/validate/problem.ts";
+import { formatProblem } from "../../src/model/problem.ts";
 import { HEALTHY_DIR, io } from "./corpus.ts";
 
 describe("the id pattern", () => {

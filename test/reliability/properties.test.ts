@@ -17,7 +17,7 @@ import { validateSweep, type Sweep } from "../../src/validate/sweep.ts";
 import { validateWafer } from "../../src/validate/wafer.ts";
 import { validateXrd } from "../../src/validate/xrd.ts";
 import { validateDepthProfile } from "../../src/validate/depthProfile.ts";
-import { InputError } from "../../src/validate/problem.ts";
+import { InputError } from "../../src/model/problem.ts";
 import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
 import { analyseFieldSweep, type TransportPoint } from "../../src/analyse/transport/fieldSweep.ts";
 import { analyseDeviceDepth } from "../../src/analyse/transport/deviceDepth.ts";

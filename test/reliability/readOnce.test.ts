@@ -17,7 +17,7 @@ import { describe, expect, it } from "vitest";
 import { readDataBytes } from "../../src/read/dataFiles.ts";
 import { placeRawCopy } from "../../src/cli/writeWaferFiles.ts";
 import { BuildStoppedError } from "../../src/cli/outputFolder.ts";
-import { InputError } from "../../src/validate/problem.ts";
+import { InputError } from "../../src/model/problem.ts";
 import { useTempDir } from "../helpers/tempDir.ts";
 
 const tmp = useTempDir("read-once");

@@ -12,8 +12,8 @@ import os from "node:os";
 import path from "node:path";
 import { promisify } from "node:util";
 import { afterAll, describe, expect, it } from "vitest";
-import { formatProblem } from "../../src/validate/problem.ts";
-import { loadSiteInputs } from "../../src/read/site.ts";
+import { formatProblem } from "../../src/model/problem.ts";
+import { loadSiteInputs } from "../../src/validate/load/site.ts";
 import { isSiteName, SITE_NAMES } from "../../src/validate/siteNames.ts";
 import { buildCase, HEALTHY_DIR } from "./corpus.ts";
 

@@ -21,9 +21,9 @@ import { promisify } from "node:util";
 import * as yaml from "js-yaml";
 import { afterAll, describe, expect, it } from "vitest";
 import { readFrontMatter, readYaml } from "../../src/read/frontMatter.ts";
-import { loadSiteInputs } from "../../src/read/site.ts";
+import { loadSiteInputs } from "../../src/validate/load/site.ts";
 import { loadYaml } from "../../src/read/yamlLoad.ts";
-import { formatProblem } from "../../src/validate/problem.ts";
+import { formatProblem } from "../../src/model/problem.ts";
 import { buildCase, HEALTHY_DIR, ROOT } from "./corpus.ts";
 import { problemMessage } from "../helpers/problems.ts";
 
@@ -123,8 +123,8 @@ describe("alias bombs in a build", () => {
   it("reading and validating a bomb record fits in a 200 MB heap", async () => {
     // A separate Node process with its heap capped at 200 MB: expanding the bomb anywhere would abort it.
     const script = [
-      'import { loadWafer } from "./src/read/wafer.ts";',
-      'import { loadSiteInputs } from "./src/read/site.ts";',
+      'import { loadWafer } from "./src/validate/load/wafer.ts";',
+      'import { loadSiteInputs } from "./src/validate/load/site.ts";',
       'import { DEFAULT_SETTINGS } from "./src/validate/settings.ts";',
       "const data = process.env.BOMB_DATA;",
       "const site = await loadSiteInputs(data);",

@@ -11,7 +11,7 @@ import { validateTargets } from "../../src/validate/targets.ts";
 import { validateWafer } from "../../src/validate/wafer.ts";
 import { validateSweep } from "../../src/validate/sweep.ts";
 import { applySettings, DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
-import { formatProblem, InputError, MAX_PROBLEMS_PER_FILE } from "../../src/validate/problem.ts";
+import { formatProblem, InputError, MAX_PROBLEMS_PER_FILE } from "../../src/model/problem.ts";
 
 function problems(fn: () => unknown): string[] {
   try {

@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { readTable } from "../../src/read/table.ts";
 import { validateXrd } from "../../src/validate/xrd.ts";
 import { validateDepthProfile } from "../../src/validate/depthProfile.ts";
-import { InputError, type Problem } from "../../src/validate/problem.ts";
+import { InputError, type Problem } from "../../src/model/problem.ts";
 
 const DEG = Math.PI / 180;
 

@@ -2,9 +2,9 @@
 // Expected factors are written out by hand from the unit definitions (SI brochure, 9th ed., prefixes
 // and derived units: confirmed); nothing here is computed by the code under test.
 import { describe, expect, it } from "vitest";
-import { METRICS } from "../../src/analyse/metrics.ts";
-import { formatValue, prettyUnit } from "../../src/publish/format.ts";
-import type { MetricSpec } from "../../src/analyse/metrics.ts";
+import { METRICS } from "../../src/model/metrics.ts";
+import { formatValue, prettyUnit } from "../../src/model/format.ts";
+import type { MetricSpec } from "../../src/model/metrics.ts";
 import { SETTING_SPECS } from "../../src/validate/settings.ts";
 import { COLUMN_UNITS, parseQuantity, unitFactor, type Dimension } from "../../src/validate/units.ts";
 import { suggestUnit } from "../../src/validate/unitSpelling.ts";

@@ -26,7 +26,8 @@
  * reason } when two usable spots cannot be found or the input is not usable.
  */
 import { fft2dInPlace, fft2dReal, padToPowerOfTwo, type ComplexImage } from "./fft2d.ts";
-import { growthNormal, inPlaneDirection, type GrowthAxis, type PixelRect, type Vec2 } from "./geometry.ts";
+import { growthNormal, inPlaneDirection, type Vec2 } from "./geometry.ts";
+import type { GrowthAxis, PixelRect } from "../../model/imageInputs.ts";
 import { findBraggPeaks } from "./latticeSpacing.ts";
 import { degToRad, radToDeg } from "../numeric/angle.ts";
 

@@ -13,9 +13,7 @@
  * direction from the image centre, positive toward the surface. Interfaces
  * are lines of constant s; the in-plane direction t is n rotated by +90°.
  */
-export type GrowthAxis = "up" | "down" | "left" | "right";
-
-export const GROWTH_AXES: readonly GrowthAxis[] = ["up", "down", "left", "right"];
+import type { GrowthAxis, PixelRect } from "../../model/imageInputs.ts";
 
 export interface Vec2 {
   x: number;
@@ -54,9 +52,6 @@ export function growthCoordinate(
   const n = growthNormal(axis, tilt_rad);
   return n.x * (x - (width - 1) / 2) + n.y * (y - (height - 1) / 2);
 }
-
-/** A rectangle in pixels, [x0, y0, x1, y1) with x1 > x0 and y1 > y0. */
-export type PixelRect = [number, number, number, number];
 
 /** Half the extent of the image along the growth normal, pixels (largest |s|). */
 export function growthHalfExtent(width: number, height: number, axis: GrowthAxis, tilt_rad = 0): number {

@@ -8,7 +8,8 @@
  * by a moving average over one lattice period, applied twice. Units: s in
  * pixels, intensity in the image's units.
  */
-import { growthHalfExtent, growthNormal, type GrowthAxis } from "./geometry.ts";
+import { growthHalfExtent, growthNormal } from "./geometry.ts";
+import type { GrowthAxis } from "../../model/imageInputs.ts";
 
 /** Mean intensity in 1-pixel bins of the growth coordinate s, tilted by tilt (rad); trims sparse end bins. */
 export function projectProfile(pixels: ArrayLike<number>, width: number, height: number, axis: GrowthAxis, tilt: number) {

@@ -1,7 +1,7 @@
 /**
  * Lattice-image analysis of one wafer: Z-contrast interface widths and
  * geometric phase analysis. Extension point: inputs from
- * src/read/imageFiles.ts, metrics in ./metrics.ts.
+ * src/validate/load/imageFiles.ts, metrics in src/model/metrics/images.ts.
  *
  * Per image: (1) the Z-contrast profile (zContrastProfile.ts) gives the tilt
  * of the interfaces and the well band; its 10–90 % widths are reported for
@@ -16,40 +16,14 @@
  */
 import type { Layer } from "../../validate/wafer.ts";
 import type { AnalysisSettings } from "../../validate/settings.ts";
-import { putMetric } from "../metrics.ts";
+import { putMetric } from "../../model/metrics.ts";
 import { expectedWellStrain, type ExpectedWellStrain } from "./expectedWellStrain.ts";
 import { geometricPhase, type GpaResult } from "./geometricPhase.ts";
-import { growthCoordinate, type GrowthAxis, type PixelRect } from "./geometry.ts";
+import { growthCoordinate } from "./geometry.ts";
+import type { GrowthAxis, PixelRect, ImageInputs, MicrographInput } from "../../model/imageInputs.ts";
 import { wellCoherence, type WellCoherenceResult } from "./wellCoherence.ts";
 import { zContrastProfile, type ZContrastResult } from "./zContrastProfile.ts";
 import { degToRad } from "../numeric/angle.ts";
-
-/** One decoded micrograph with its wafer.md description. */
-export interface MicrographInput {
-  /** Path relative to the data folder. */
-  file: string;
-  /** Position in wafer.md's `images:` list. */
-  index: number;
-  kind: "haadf" | "hrtem";
-  pixelSize_m: number;
-  /** Where the pixel size came from: wafer.md (`record`) or the TIFF's resolution tags (`file`). */
-  pixelSizeSource?: "record" | "file";
-  /** Why a TIFF's resolution tags were not used as its scale, when they exist. */
-  pixelSizeNote?: string;
-  /** File format and sample type, in words ("TIFF, 16-bit integer"). */
-  format?: string;
-  growthAxis: GrowthAxis;
-  /** Reference region in pixels [x0, y0, x1, y1), when wafer.md gives one. */
-  reference?: PixelRect;
-  width: number;
-  height: number;
-  /** Row-major intensities, 0…1. */
-  pixels: Float32Array;
-}
-
-export interface ImageInputs {
-  micrographs?: MicrographInput[];
-}
 
 export interface ImageResult {
   input: MicrographInput;

@@ -1,7 +1,8 @@
 /**
  * Tilt of the interfaces in a lattice image, from the structure tensor.
  */
-import { growthNormal, type GrowthAxis } from "./geometry.ts";
+import { growthNormal } from "./geometry.ts";
+import type { GrowthAxis } from "../../model/imageInputs.ts";
 import { radToDeg } from "../numeric/angle.ts";
 
 /** Separable Gaussian blur (σ in pixels, edges clamped). */

@@ -22,7 +22,8 @@
  */
 import { fitSigmoidEdge, LN9, sigmoidAt } from "../numeric/sigmoidFit.ts";
 import { cropToPowerOfTwo } from "./fft2d.ts";
-import { growthNormal, type GrowthAxis } from "./geometry.ts";
+import { growthNormal } from "./geometry.ts";
+import type { GrowthAxis } from "../../model/imageInputs.ts";
 import { projectProfile, smoothOverPeriod } from "./growthProfile.ts";
 import { interfaceTilt } from "./interfaceTilt.ts";
 import { latticeSpacing } from "./latticeSpacing.ts";

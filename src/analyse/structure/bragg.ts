@@ -5,10 +5,7 @@
  * d_hkl = a/√(h² + k² + l²) for a cubic lattice. Lengths in m, angles in rad.
  */
 
-/** Cu Kα1 wavelength, m: 1.54059292 Å (International Tables for Crystallography Vol. C, §4.2.2, Deslattes et al.). */
-export const CU_KALPHA1 = 1.54059292e-10;
-
-export type Miller = readonly [number, number, number];
+import type { Miller } from "../../model/structureInputs.ts";
 
 /** Plane spacing of a cubic lattice, d = a/√(h²+k²+l²), m. Throws RangeError for (000) or a non-positive a. */
 export function dSpacing(a: number, hkl: Miller): number {

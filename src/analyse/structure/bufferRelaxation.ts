@@ -17,7 +17,7 @@
  * uncertainties are not included. Lengths in m, Q in m⁻¹ (includes 2π).
  */
 import { biaxialRatio, geFractionDismukes, A_SI } from "../../physics/sige.ts";
-import type { Miller } from "./bragg.ts";
+import type { Miller } from "../../model/structureInputs.ts";
 import { aParallelFromQ, aPerpendicularFromQ } from "./reciprocalSpace.ts";
 
 export interface MeasuredReflection {

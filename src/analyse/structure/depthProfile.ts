@@ -22,6 +22,7 @@
  */
 import { fitSigmoidEdge, LN9, sigmoidAt, type SigmoidEdge } from "../numeric/sigmoidFit.ts";
 import { median, min, quantile } from "simple-statistics";
+import { fields, under } from "../bulk.ts";
 
 export interface DepthProfileInput {
   /** Depth below the surface, nm. */
@@ -199,3 +200,9 @@ function contaminantPeaks(input: DepthProfileInput, zTop: number, zBot: number, 
     return { element, insidePeak: ins?.v, insideDepth: ins?.z, nearPeak: nr?.v, nearDepth: nr?.z };
   });
 }
+
+/** The fitted curves of both interfaces (src/analyse/bulk.ts). */
+export const DEPTH_PROFILE_BULK = [
+  ...under(["top", "curve"], fields<InterfaceFit["curve"]>("depth", "ge")),
+  ...under(["bottom", "curve"], fields<InterfaceFit["curve"]>("depth", "ge")),
+];

@@ -3,26 +3,22 @@
  * relaxation, well strain), critical thickness of the well, depth profiles
  * (interface widths, well thickness, barrier Ge, contaminants), the
  * valley splitting predicted from the profile's fitted interfaces
- * (valleySplitting.ts), and the comparison of measured with design (stack) values. Inputs from
- * src/read/structureFiles.ts, metrics in ./metrics.ts. Pure; SI inside, metric
+ * (valleySplitting.ts), and the
+ * comparison of measured with design (stack) values. Inputs from
+ * src/validate/load/structureFiles.ts, metrics in src/model/metrics/structure.ts. Pure; SI inside, metric
  * values in each metric's unit.
  */
 import type { Layer } from "../../validate/wafer.ts";
 import type { AnalysisSettings } from "../../validate/settings.ts";
-import type { XrdFile } from "../../validate/xrd.ts";
-import type { DepthProfileFile } from "../../validate/depthProfile.ts";
-import { putMetric } from "../metrics.ts";
-import { analyseDepthProfile, type DepthProfileResult } from "./depthProfile.ts";
-import { analyseXrd, type XrdAnalysis } from "./xrdAnalysis.ts";
+import type { XrdFile, DepthProfileFile, StructureInputs } from "../../model/structureInputs.ts";
+import { putMetric } from "../../model/metrics.ts";
+import { analyseDepthProfile, DEPTH_PROFILE_BULK, type DepthProfileResult } from "./depthProfile.ts";
+import { analyseXrd, XRD_BULK, type XrdAnalysis } from "./xrdAnalysis.ts";
 import { checkCriticalThickness, type CriticalThicknessCheck } from "./criticalThicknessCheck.ts";
-import { REGISTERED_CONTAMINANTS } from "./metrics.ts";
+import { REGISTERED_CONTAMINANTS } from "../../model/metrics/structure.ts";
 import { strainedSiOnRelaxedSiGe } from "../../physics/sige.ts";
 import { predictValleySplitting, type ValleySplitting } from "./valleySplitting.ts";
-
-export interface StructureInputs {
-  xrd?: XrdFile[];
-  profiles?: DepthProfileFile[];
-}
+import { fields, under } from "../bulk.ts";
 
 export interface ProfileAnalysis {
   data: DepthProfileFile;
@@ -146,3 +142,13 @@ export function analyseStructure(inputs: StructureInputs, stack: Layer[], settin
   if (valley && !valley.result.ok) found.push({ severity: "note", text: `Valley splitting not predicted: ${valley.result.reason}` });
   return { metrics, xrd, profiles, critical: crit, design: designRows(stack, xrd, prof, crit), findings: found, contaminantPeaks: peaks, valley };
 }
+
+/** The structure section's bulk arrays (src/analyse/bulk.ts): profile columns, interface curves, XRD map points. */
+export const STRUCTURE_BULK = [
+  ...under(["profiles", "*", "data"], fields<DepthProfileFile>("depth", "ge")),
+  ...under(["profiles", "*", "result"], DEPTH_PROFILE_BULK),
+  ...under(["xrd"], XRD_BULK),
+  // The valley prediction's atomic-layer profile and its E_v distribution (valleySplitting.ts), drawn only.
+  ...under(["valley", "result", "layers"], [{ path: ["depth"] }, { path: ["ge"] }, { path: ["weight"] }]),
+  ...under(["valley", "result", "distribution"], [{ path: ["energy"] }, { path: ["density"] }]),
+];

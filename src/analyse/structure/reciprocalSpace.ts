@@ -13,7 +13,7 @@
  * A layer with in-plane constant a∥ and out-of-plane a⊥ has its hkl peak at
  * |Qx| = 2π√(h²+k²)/a∥, Qz = 2πl/a⊥.
  */
-import type { Miller } from "./bragg.ts";
+import type { Miller } from "../../model/structureInputs.ts";
 
 export interface QPoint {
   /** In-plane component, m⁻¹ (includes 2π). */

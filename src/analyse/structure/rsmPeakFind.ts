@@ -23,14 +23,7 @@
 import { nonlinearFit } from "../numeric/nonlinearFit.ts";
 import { sandwichCovariance } from "../numeric/sandwichCovariance.ts";
 import { median } from "simple-statistics";
-
-export interface MapPoint {
-  /** ω, rad. */
-  omega: number;
-  /** 2θ, rad. */
-  twoTheta: number;
-  counts: number;
-}
+import type { MapPoint } from "../../model/structureInputs.ts";
 
 export interface RawPeak {
   omega: number;

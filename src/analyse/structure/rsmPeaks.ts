@@ -20,13 +20,13 @@
  * exit (Qx < 0). Angles in rad, Q in m⁻¹ including 2π, λ and a in m.
  */
 import { A_SI } from "../../physics/sige.ts";
-import { CU_KALPHA1, type Miller } from "./bragg.ts";
+import { CU_KALPHA1 } from "../../physics/constants.ts";
+import type { MapPoint, Miller, TableRow } from "../../model/structureInputs.ts";
 import type { MeasuredReflection } from "./bufferRelaxation.ts";
 import { anglesToQ, layerPeakQ, qToAngles } from "./reciprocalSpace.ts";
-import { searchMapPeaks, type MapPoint, type PeakSearchOptions, type RawPeak } from "./rsmPeakFind.ts";
+import { searchMapPeaks, type PeakSearchOptions, type RawPeak } from "./rsmPeakFind.ts";
 import { median } from "simple-statistics";
 
-export type { MapPoint } from "./rsmPeakFind.ts";
 
 export interface RsmPeak {
   /** "substrate", "buffer", "well", a stack layer name (tables) or "unassigned". */
@@ -73,15 +73,6 @@ export type RsmPeaks =
       notes: string[];
     }
   | { ok: false; reason: string };
-
-export interface TableRow {
-  layer: string;
-  /** rad */
-  omega: number;
-  twoTheta: number;
-  omegaStdErr?: number;
-  twoThetaStdErr?: number;
-}
 
 interface Theory {
   wavelength: number;

@@ -7,10 +7,11 @@
  * Q in m⁻¹ including 2π).
  */
 import type { Layer } from "../../validate/wafer.ts";
-import type { XrdFile } from "../../validate/xrd.ts";
+import type { XrdFile, MapPoint } from "../../model/structureInputs.ts";
 import { bufferRelaxation, type BufferRelaxation, type MeasuredReflection } from "./bufferRelaxation.ts";
-import { reflectionOf, rsmPeaks, rsmPeaksFromTable, type MapPoint, type RsmPeaks } from "./rsmPeaks.ts";
+import { reflectionOf, rsmPeaks, rsmPeaksFromTable, type RsmPeaks } from "./rsmPeaks.ts";
 import { wellStrain, type WellStrain } from "./wellStrain.ts";
+import type { BulkPath } from "../bulk.ts";
 
 export interface XrdFileResult {
   file: string;
@@ -62,3 +63,6 @@ export function analyseXrd(files: readonly XrdFile[], stack: readonly Layer[]): 
   const strain = wellStrain({ wellAsymmetric: wellPeak, bufferAParallel: buffer.ok ? buffer.aParallel : undefined, bufferAParallelStdErr: buffer.ok ? buffer.aParallelStdErr : undefined });
   return { files: results, symmetricFile: sym?.file, asymmetricFile: asym?.file, buffer, strain };
 }
+
+/** Reciprocal-space map points, dropped from the slim form (src/analyse/bulk.ts). */
+export const XRD_BULK: BulkPath[] = [{ path: ["files", "*", "points"] satisfies [keyof XrdAnalysis, "*", keyof XrdFileResult], drop: true }];

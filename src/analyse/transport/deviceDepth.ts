@@ -24,20 +24,21 @@
  */
 import type { AnalysisSettings } from "../../validate/settings.ts";
 import type { Sweep } from "../../validate/sweep.ts";
-import { putMetric } from "../metrics.ts";
+import { putMetric } from "../../model/metrics.ts";
 import type { DensityCalibration } from "./densityCalibration.ts";
 import { derivedQuantities, type DerivedQuantities } from "./derivedQuantities.ts";
 import { pointsCalibration } from "./deviceSummary.ts";
-import { dinglePlot, dingleRatio, type DinglePlot } from "./dingle.ts";
+import { DINGLE_BULK, dinglePlot, dingleRatio, type DinglePlot } from "./dingle.ts";
 import type { DeviceGeometry, TransportPoint } from "./fieldSweep.ts";
-import { analyseGateSweeps, deviceHysteresis, devicePercolation, type GateSweepDepth } from "./gateSweepDepth.ts";
+import { analyseGateSweeps, GATE_SWEEP_BULK, deviceHysteresis, devicePercolation, type GateSweepDepth } from "./gateSweepDepth.ts";
 import type { GateHysteresis } from "./gateHysteresis.ts";
 import { mobilityPowerLaw, type MobilityPowerLaw } from "./mobilityPowerLaw.ts";
 import { skipped, type Skipped } from "./outcome.ts";
 import type { PercolationFit } from "./percolation.ts";
-import { fitOscillations, type OscillationFit } from "./oscillationFit.ts";
-import { hallSdhMismatch, shubnikovDeHaas, type HallSdhMismatch, type SdhResult } from "./shubnikovDeHaas.ts";
+import { fitOscillations, OSCILLATION_FIT_BULK, type OscillationFit } from "./oscillationFit.ts";
+import { hallSdhMismatch, SDH_BULK, shubnikovDeHaas, type HallSdhMismatch, type SdhResult } from "./shubnikovDeHaas.ts";
 import { median } from "simple-statistics";
+import { under } from "../bulk.ts";
 
 export interface PointDepth {
   file: string;
@@ -173,3 +174,11 @@ function lifetimeReason(points: PointDepth[]): string {
   const first = points.find((d) => !d.oscillation.ok);
   return first && !first.oscillation.ok ? `τ_q not determined at any point (e.g. ${first.file}: ${first.oscillation.reason})` : "τ_q not determined at any point";
 }
+
+/** A device's bulk arrays (src/analyse/bulk.ts): gate-sweep columns and each field sweep's SdH trace, spectrum, fit curves and Dingle points. */
+export const DEVICE_DEPTH_BULK = [
+  ...under(["gateSweeps", "*"], GATE_SWEEP_BULK),
+  ...under(["points", "*", "sdh"], SDH_BULK),
+  ...under(["points", "*", "oscillation"], OSCILLATION_FIT_BULK),
+  ...under(["points", "*", "dingle"], DINGLE_BULK),
+];

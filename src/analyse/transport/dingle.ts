@@ -20,6 +20,7 @@ import { linearLeastSquares } from "../numeric/linearLeastSquares.ts";
 import type { OscillationFit } from "./oscillationFit.ts";
 import { allFinite, skipped, type Skipped } from "./outcome.ts";
 import { thermalFactor } from "./thermalFactor.ts";
+import { fields } from "../bulk.ts";
 
 export interface DinglePlot {
   ok: true;
@@ -93,3 +94,6 @@ export function dingleRatio(transportLifetime: number, quantumLifetime: number):
   }
   return transportLifetime / quantumLifetime;
 }
+
+/** The plotted points of a Dingle plot (src/analyse/bulk.ts). */
+export const DINGLE_BULK = fields<DinglePlot>("inverseField", "amplitude");

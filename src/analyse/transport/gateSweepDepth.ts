@@ -21,6 +21,7 @@ import { percolationFit, sheetConductance, type PercolationFit } from "./percola
 import { skipped, type Skipped } from "./outcome.ts";
 import { vanDerPauwSheetResistance } from "./vanDerPauw.ts";
 import { hallBarSheetResistance } from "./sheetResistance.ts";
+import { fields } from "../bulk.ts";
 
 /** |B| below which a gate sweep counts as taken at zero field, T. */
 export const ZERO_FIELD_LIMIT = 1e-3;
@@ -109,3 +110,6 @@ export function deviceHysteresis(sweeps: GateSweepDepth[]): (GateHysteresis & { 
   const h = gateHysteresis({ gateVoltage: up.gateVoltage, resistance: up.sheetResistance }, { gateVoltage: down.gateVoltage, resistance: down.sheetResistance });
   return h.ok ? { ...h, up: up.file, down: down.file } : h;
 }
+
+/** The chart-only columns of a gate sweep (src/analyse/bulk.ts); gateVoltage stays: results.json counts the points by it. */
+export const GATE_SWEEP_BULK = fields<GateSweepDepth>("sheetResistance", "density", "conductivity");

@@ -41,6 +41,7 @@ import { seedOscillation } from "./oscillationStart.ts";
 import { cleanSweep, sdhDensity } from "./shubnikovDeHaas.ts";
 import { spinSplittingOnset } from "./spinSplitting.ts";
 import { dingleTemperature, thermalFactor } from "./thermalFactor.ts";
+import { fields, under } from "../bulk.ts";
 
 export interface OscillationFitOptions {
   minField?: number;
@@ -292,3 +293,9 @@ export function fitOscillations(
   if (!second.ok) return skipped(`${note}; below it: ${second.reason}`);
   return { ...second, spinSplitting: { onsetField: onset.field, harmonicRatio: onset.ratio, note } };
 }
+
+/** The plotted data and fitted curve of an oscillation fit (src/analyse/bulk.ts). */
+export const OSCILLATION_FIT_BULK = [
+  ...under(["curve"], fields<OscillationFit["curve"]>("inverseField", "oscillation")),
+  ...under(["model"], fields<OscillationFit["model"]>("inverseField", "oscillation")),
+];

@@ -29,6 +29,7 @@ import { Matrix, solve } from "ml-matrix";
 import { ELEMENTARY_CHARGE, PLANCK } from "../../physics/constants.ts";
 import { amplitudeSpectrum, dominantPeak, downsampleSpectrum, resampleInverseField, type Spectrum } from "./inverseFieldSpectrum.ts";
 import { allFinite, skipped, type Skipped } from "./outcome.ts";
+import { fields, under } from "../bulk.ts";
 
 export interface SdhOptions {
   /** Lower field limit, T (default: the lowest |B| > 0 in the sweep). */
@@ -251,3 +252,9 @@ export function hallSdhMismatch(nHall: number, nSdh: number, tolerancePercent = 
   const stdErrPercent = Number.isFinite(se) ? se : Number.POSITIVE_INFINITY;
   return { mismatchPercent: m, stdErrPercent, parallelConduction: Math.abs(m) > tolerancePercent && Math.abs(m) > 3 * stdErrPercent, tolerancePercent };
 }
+
+/** The 1/B trace and spectrum drawn on the wafer page (src/analyse/bulk.ts). */
+export const SDH_BULK = [
+  ...under(["spectrum"], fields<SdhResult["spectrum"]>("frequency", "amplitude")),
+  ...under(["trace"], fields<SdhResult["trace"]>("inverseField", "oscillation")),
+];

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { analyseImages, bandRectangle, type MicrographInput } from "../../../src/analyse/images/index.ts";
+import { analyseImages, bandRectangle } from "../../../src/analyse/images/index.ts";
+import type { MicrographInput } from "../../../src/model/imageInputs.ts";
 import { expectedWellStrain } from "../../../src/analyse/images/expectedWellStrain.ts";
 import { DEFAULT_SETTINGS } from "../../../src/validate/settings.ts";
 import type { Layer } from "../../../src/validate/wafer.ts";

@@ -2,10 +2,10 @@ import { describe, expect, it } from "vitest";
 import { analyseStructure } from "../../../src/analyse/structure/index.ts";
 import { synthReciprocalSpaceMap } from "../../../src/synth/reciprocalSpaceMap.ts";
 import { synthDepthProfile } from "../../../src/synth/depthProfile.ts";
-import { CU_KALPHA1, type Miller } from "../../../src/analyse/structure/bragg.ts";
+import { CU_KALPHA1 } from "../../../src/physics/constants.ts";
+import type { Miller, XrdFile } from "../../../src/model/structureInputs.ts";
 import type { Layer } from "../../../src/validate/wafer.ts";
 import { DEFAULT_SETTINGS } from "../../../src/validate/settings.ts";
-import type { XrdFile } from "../../../src/validate/xrd.ts";
 
 const DEG = Math.PI / 180;
 const settings = DEFAULT_SETTINGS;

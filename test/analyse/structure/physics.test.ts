@@ -3,7 +3,8 @@ import {
   A_SI, A_SI_CODATA_2018, biaxialRatio, elasticConstants, geFractionDismukes, latticeDismukes, latticeVegard,
   poissonRatio, strainedPerpendicular, strainedSiAtParallel, strainedSiOnRelaxedSiGe,
 } from "../../../src/physics/sige.ts";
-import { CU_KALPHA1, dSpacing, degToRad, planeTilt, radToDeg, twoThetaCubic, braggAngle } from "../../../src/analyse/structure/bragg.ts";
+import { dSpacing, degToRad, planeTilt, radToDeg, twoThetaCubic, braggAngle } from "../../../src/analyse/structure/bragg.ts";
+import { CU_KALPHA1 } from "../../../src/physics/constants.ts";
 import { anglesToQ, layerPeakQ, qToAngles } from "../../../src/analyse/structure/reciprocalSpace.ts";
 
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);

@@ -3,7 +3,8 @@ import { bufferRelaxation } from "../../../src/analyse/structure/bufferRelaxatio
 import { wellStrain } from "../../../src/analyse/structure/wellStrain.ts";
 import { reflectionOf, rsmPeaks, rsmPeaksFromTable } from "../../../src/analyse/structure/rsmPeaks.ts";
 import { layerPeakQ, qToAngles } from "../../../src/analyse/structure/reciprocalSpace.ts";
-import { CU_KALPHA1, degToRad } from "../../../src/analyse/structure/bragg.ts";
+import { degToRad } from "../../../src/analyse/structure/bragg.ts";
+import { CU_KALPHA1 } from "../../../src/physics/constants.ts";
 import { A_SI, biaxialRatio, latticeDismukes, strainedPerpendicular } from "../../../src/physics/sige.ts";
 import { synthReciprocalSpaceMap } from "../../../src/synth/reciprocalSpaceMap.ts";
 

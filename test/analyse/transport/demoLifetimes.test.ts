@@ -11,7 +11,7 @@ import { analysePointDepth } from "../../../src/analyse/transport/deviceDepth.ts
 import { analyseFieldSweep } from "../../../src/analyse/transport/fieldSweep.ts";
 import { PACKAGE_ROOT } from "../../../src/cli/paths.ts";
 import { readTable } from "../../../src/read/table.ts";
-import { loadSiteInputs } from "../../../src/read/site.ts";
+import { loadSiteInputs } from "../../../src/validate/load/site.ts";
 import { validateSweep } from "../../../src/validate/sweep.ts";
 import { WAFERS } from "../../../scripts/generate-demo.ts";
 import { quantumLifetime } from "../../../scripts/demo/transportDepth.ts";

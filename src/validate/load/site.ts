@@ -5,15 +5,15 @@
  */
 import { promises as fs } from "node:fs";
 import path from "node:path";
-import { InputError, type Problem } from "../validate/problem.ts";
-import { applySettings, DEFAULT_SETTINGS, type AnalysisSettings } from "../validate/settings.ts";
-import { validateTargets, type Targets } from "../validate/targets.ts";
-import { WAFER_ID } from "../validate/waferSchema.ts";
-import { siteNameProblem } from "../validate/siteNames.ts";
-import { decodeText, readDataBytes } from "./dataFiles.ts";
-import { lineOfField, readFrontMatter, readYaml } from "./frontMatter.ts";
-import { fileInfo, type RawFileInfo } from "./fileInfo.ts";
-import { linkedWaferFolder } from "./linkedFolder.ts";
+import { InputError, type Problem } from "../../model/problem.ts";
+import { applySettings, DEFAULT_SETTINGS, type AnalysisSettings } from "../settings.ts";
+import { validateTargets, type Targets } from "../targets.ts";
+import { WAFER_ID } from "../waferSchema.ts";
+import { siteNameProblem } from "../siteNames.ts";
+import { decodeText, readDataBytes } from "../../read/dataFiles.ts";
+import { lineOfField, readFrontMatter, readYaml } from "../../read/frontMatter.ts";
+import { fileInfo, type RawFileInfo } from "../../read/fileInfo.ts";
+import { linkedWaferFolder } from "../../read/linkedFolder.ts";
 
 export interface RunNotes {
   id: string;

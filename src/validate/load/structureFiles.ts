@@ -5,13 +5,13 @@
  * src/validate/depthProfile.ts). A broken file becomes a located problem of
  * this wafer; the other files are still read.
  */
-import type { WaferFileReader } from "./waferFiles.ts";
-import type { StructureInputs } from "../analyse/structure/index.ts";
-import type { WaferRecord } from "../validate/wafer.ts";
-import { validateXrd, type XrdFile } from "../validate/xrd.ts";
-import { validateDepthProfile, type DepthProfileFile } from "../validate/depthProfile.ts";
-import { readTable } from "./table.ts";
-import { readInstrumentTable } from "./instrumentTable.ts";
+import type { WaferFileReader } from "../../read/waferFiles.ts";
+import type { StructureInputs, XrdFile, DepthProfileFile } from "../../model/structureInputs.ts";
+import type { WaferRecord } from "../wafer.ts";
+import { validateXrd } from "../xrd.ts";
+import { validateDepthProfile } from "../depthProfile.ts";
+import { readTable } from "../../read/table.ts";
+import { readInstrumentTable } from "../../read/instrumentTable.ts";
 
 export async function loadStructureInputs(record: WaferRecord, files: WaferFileReader): Promise<StructureInputs> {
   const xrd: XrdFile[] = [];

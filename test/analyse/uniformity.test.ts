@@ -1,6 +1,6 @@
 // Within-wafer uniformity. Reference values derived by hand from the definitions (sample SD with n − 1) [D].
 import { describe, expect, it } from "vitest";
-import { uniformity } from "../../src/judge/uniformity.ts";
+import { uniformity } from "../../src/analyse/uniformity.ts";
 
 describe("uniformity", () => {
   it("matches the hand-computed figures for 2, 4, 4, 4, 5, 5, 7, 9", () => {

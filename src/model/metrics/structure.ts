@@ -1,5 +1,5 @@
 /**
- * Metrics of the structure analyses (registered in src/analyse/metrics.ts).
+ * Metrics of the structure analyses (registered in src/model/metrics.ts).
  * fromSI converts the SI value the analysis works in (1, m, m⁻³) to the unit.
  * Contaminant peaks appear as `peak_<element>`; keys are registered statically,
  * so only the elements in REGISTERED_CONTAMINANTS can be targeted. Every

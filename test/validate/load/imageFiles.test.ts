@@ -1,11 +1,11 @@
 import { describe, expect, it } from "vitest";
 import { PNG } from "pngjs";
-import { loadImageInputs } from "../../src/read/imageFiles.ts";
-import type { WaferFileReader } from "../../src/read/waferFiles.ts";
-import { InputError, type Problem } from "../../src/validate/problem.ts";
-import type { ImageSpec, WaferRecord } from "../../src/validate/wafer.ts";
-import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
-import { micrographPng } from "../../src/synth/micrographPng.ts";
+import { loadImageInputs } from "../../../src/validate/load/imageFiles.ts";
+import type { WaferFileReader } from "../../../src/read/waferFiles.ts";
+import { InputError, type Problem } from "../../../src/model/problem.ts";
+import type { ImageSpec, WaferRecord } from "../../../src/validate/wafer.ts";
+import { DEFAULT_SETTINGS } from "../../../src/validate/settings.ts";
+import { micrographPng } from "../../../src/synth/micrographPng.ts";
 
 /** A reader over in-memory files that records problems the way the real one does. */
 function fakeReader(files: Record<string, Buffer>) {

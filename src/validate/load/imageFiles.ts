@@ -7,12 +7,12 @@
  * `reference` rectangle checked against the image size. A bad entry becomes
  * a located problem of the wafer and is left out; the other images still load.
  */
-import type { WaferFileReader } from "./waferFiles.ts";
-import type { ImageInputs, MicrographInput } from "../analyse/images/index.ts";
-import type { ImageSpec, WaferRecord } from "../validate/wafer.ts";
-import { InputError } from "../validate/problem.ts";
-import { decodeMicrograph, MicrographFormatError, type Micrograph } from "./micrograph.ts";
-import { decodeTiffMicrograph, isTiff, type TiffPixelSize } from "./tiffMicrograph.ts";
+import type { WaferFileReader } from "../../read/waferFiles.ts";
+import type { ImageInputs, MicrographInput } from "../../model/imageInputs.ts";
+import type { ImageSpec, WaferRecord } from "../wafer.ts";
+import { InputError } from "../../model/problem.ts";
+import { decodeMicrograph, MicrographFormatError, type Micrograph } from "../../read/micrograph.ts";
+import { decodeTiffMicrograph, isTiff, type TiffPixelSize } from "../../read/tiffMicrograph.ts";
 
 /** Decodes one image entry; throws InputError located at the file and at `images[i].…` in wafer.md. */
 async function loadOne(spec: ImageSpec, i: number, files: WaferFileReader, maxPixels: number): Promise<MicrographInput> {

@@ -8,10 +8,10 @@
  * back empty with `failure` saying why, so that the changes page and the
  * build output can warn instead of silently showing nothing.
  */
-import { commitsChangingFile, fileAtCommit, findRepo, listCommits, defaultGitRunner, type GitCommit, type GitRunner } from "./gitHistory.ts";
-import { readYaml } from "./frontMatter.ts";
-import { validateTargets, type Targets } from "../validate/targets.ts";
-import { formatProblem, InputError } from "../validate/problem.ts";
+import { commitsChangingFile, fileAtCommit, findRepo, listCommits, defaultGitRunner, type GitCommit, type GitRunner } from "../../read/gitHistory.ts";
+import { readYaml } from "../../read/frontMatter.ts";
+import { validateTargets, type Targets } from "../targets.ts";
+import { formatProblem, InputError } from "../../model/problem.ts";
 import type { DecisionCommit } from "./decisionCommits.ts";
 
 export interface TargetsVersion {
@@ -34,7 +34,7 @@ export interface DataHistory {
   targetsVersions: TargetsVersion[];
   /** Why the history could not be read (then commits and targetsVersions are empty): shown as a warning. */
   failure?: string;
-  /** Wafer id → the commit that recorded its decision (src/read/decisionCommits.ts), filled by the build. */
+  /** Wafer id → the commit that recorded its decision (src/validate/load/decisionCommits.ts), filled by the build. */
   decisions?: Map<string, DecisionCommit>;
 }
 

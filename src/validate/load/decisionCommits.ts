@@ -10,10 +10,10 @@
  * page says so rather than calling it an error). Side-effecting reader; never throws — a git
  * failure becomes a note.
  */
-import { fileAtCommit, findRepo, defaultGitRunner, type GitRepo, type GitRunner } from "./gitHistory.ts";
-import { readFrontMatter } from "./frontMatter.ts";
+import { fileAtCommit, findRepo, defaultGitRunner, type GitRepo, type GitRunner } from "../../read/gitHistory.ts";
+import { readFrontMatter } from "../../read/frontMatter.ts";
 import type { DataHistory } from "./history.ts";
-import type { Decision } from "../validate/decision.ts";
+import type { Decision } from "../decision.ts";
 
 export interface DecisionCommit {
   /** Set when the recording commit was found. */

@@ -3,25 +3,25 @@
  * decoded and validated into typed sweeps. Problems stay with the wafer: a
  * broken file makes this wafer `error` without touching the others.
  */
-import { fileInfo, type RawFileInfo } from "./fileInfo.ts";
+import { fileInfo, type RawFileInfo } from "../../read/fileInfo.ts";
 
 export { fileInfo, type RawFileInfo };
 import { promises as fs } from "node:fs";
 import path from "node:path";
-import { capProblem, InputError, type Problem } from "../validate/problem.ts";
-import type { AnalysisSettings } from "../validate/settings.ts";
-import { validateSweep, type Sweep } from "../validate/sweep.ts";
-import { validateWafer, type WaferRecord } from "../validate/wafer.ts";
-import { deviceDimensionWarnings } from "../validate/recordNumbers.ts";
-import { checkRelativePath, decodeText, listFiles, matchGlob, MAX_IMAGE_FILE_BYTES, readDataBytes, relPath } from "./dataFiles.ts";
+import { capProblem, InputError, type Problem } from "../../model/problem.ts";
+import type { AnalysisSettings } from "../settings.ts";
+import { validateSweep, type Sweep } from "../sweep.ts";
+import { validateWafer, type WaferRecord } from "../wafer.ts";
+import { deviceDimensionWarnings } from "../recordNumbers.ts";
+import { checkRelativePath, decodeText, listFiles, matchGlob, MAX_IMAGE_FILE_BYTES, readDataBytes, relPath } from "../../read/dataFiles.ts";
 import { loadImageInputs } from "./imageFiles.ts";
 import { loadStructureInputs } from "./structureFiles.ts";
-import type { WaferFileReader } from "./waferFiles.ts";
-import type { StructureInputs } from "../analyse/structure/index.ts";
-import type { ImageInputs } from "../analyse/images/index.ts";
-import { readFrontMatter, lineOfField } from "./frontMatter.ts";
-import { readTable } from "./table.ts";
-import { readInstrumentTable } from "./instrumentTable.ts";
+import type { WaferFileReader } from "../../read/waferFiles.ts";
+import type { StructureInputs } from "../../model/structureInputs.ts";
+import type { ImageInputs } from "../../model/imageInputs.ts";
+import { readFrontMatter, lineOfField } from "../../read/frontMatter.ts";
+import { readTable } from "../../read/table.ts";
+import { readInstrumentTable } from "../../read/instrumentTable.ts";
 
 
 

@@ -1,4 +1,4 @@
-/** Metrics of the images analyses (registered in src/analyse/metrics.ts). */
+/** Metrics of the images analyses (registered in src/model/metrics.ts). */
 import { metric, type MetricSpec } from "../metricSpec.ts";
 
 export const IMAGE_METRICS: MetricSpec[] = [
