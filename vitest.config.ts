@@ -4,6 +4,8 @@ export default defineConfig({
     include: ["test/**/*.test.ts"],
     testTimeout: 60_000,
     hookTimeout: 180_000,
+    // One folder per run for the demo site that read-only tests share (test/helpers/demoSite.ts builds it on first use).
+    globalSetup: ["test/globalSetup.ts"],
     pool: "forks",
     // Two files at a time (vitest's default on 2 cores is one): most of the slow files wait on
     // child builds and the browser, so two overlap well; the suite is written to stay correct when busy.

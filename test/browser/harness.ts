@@ -1,17 +1,18 @@
 /**
- * Shared set-up for the browser tests: build the demo data once with the CLI
- * into a temporary folder, serve it on 127.0.0.1 (random port) and launch
- * Debian's Chromium through playwright-core. Fails fast, with a plain message,
- * when Chromium is missing (never downloads a browser).
+ * Shared set-up for the browser tests: the demo site built once per test run
+ * (test/helpers/demoSite.ts, shared with every other file that only reads it),
+ * served on 127.0.0.1 (random port), and Debian's Chromium launched through
+ * playwright-core. Fails fast, with a plain message, when Chromium is missing
+ * (never downloads a browser).
  */
-import { execFile } from "node:child_process";
 import { existsSync, promises as fs } from "node:fs";
 import http from "node:http";
-import os from "node:os";
 import path from "node:path";
-import { promisify } from "node:util";
 import type { AddressInfo } from "node:net";
 import { chromium, type Browser } from "playwright-core";
+import { demoSite } from "../helpers/demoSite.ts";
+
+export { DEMO_HOOK_TIMEOUT_MS } from "../helpers/demoSite.ts";
 
 export const ROOT = path.resolve(import.meta.dirname, "../..");
 export const OUTPUT = path.join(ROOT, "test", "output");
@@ -26,6 +27,7 @@ const TYPES: Record<string, string> = {
 };
 
 export interface Site {
+  /** The shared demo site: read it, never change it (other test files read it at the same time). */
   dir: string;
   origin: string;
   browser: Browser;
@@ -52,14 +54,16 @@ export async function serve(dir: string): Promise<{ origin: string; server: http
   return { origin: `http://127.0.0.1:${(server.address() as AddressInfo).port}`, server };
 }
 
-/** Builds the demo site with the CLI, serves it and launches Chromium. */
+/**
+ * The demo site (built once per run, see demoSite.ts), served, and Chromium
+ * launched. Call it from a beforeAll with DEMO_HOOK_TIMEOUT_MS: the first
+ * file to ask may wait for the build.
+ */
 export async function startSite(): Promise<Site> {
   if (!existsSync(CHROMIUM)) {
     throw new Error(`Browser tests need Chromium at ${CHROMIUM}, which is missing. Install Debian's package (apt-get install chromium; .ci/run does this) or point WAFERBOOK_CHROMIUM at a Chromium binary.`);
   }
-  const tmp = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-browser-"));
-  const dir = path.join(tmp, "site");
-  await promisify(execFile)(process.execPath, [path.join(ROOT, "bin", "waferbook.js"), "build", "--data", path.join(ROOT, "data"), "--out", dir], { cwd: ROOT, env: { ...process.env, CI: "true" }, timeout: 300_000 });
+  const dir = await demoSite();
   const { origin, server } = await serve(dir);
   let browser: Browser;
   try {
@@ -74,7 +78,6 @@ export async function startSite(): Promise<Site> {
     close: async () => {
       await browser.close();
       await new Promise((r) => server.close(r));
-      await fs.rm(tmp, { recursive: true, force: true });
     },
   };
 }

@@ -12,7 +12,7 @@ import { PNG } from "pngjs";
 import type { BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { fromDiskChecks } from "./fromDisk.ts";
-import { OUTPUT, ROOT, startSite, type Site } from "./harness.ts";
+import { DEMO_HOOK_TIMEOUT_MS, OUTPUT, ROOT, startSite, type Site } from "./harness.ts";
 
 interface PageReport {
   key: string;
@@ -132,7 +132,7 @@ beforeAll(async () => {
   site = await startSite();
   if (process.env.WB_TIMING) console.log(`startSite ${Date.now() - t0} ms`);
   await crawl();
-}, 400_000);
+}, DEMO_HOOK_TIMEOUT_MS + 300_000);
 
 afterAll(async () => {
   await site?.close();
