@@ -20,6 +20,9 @@ export const CHROMIUM = process.env.WAFERBOOK_CHROMIUM ?? "/usr/bin/chromium";
 /** Chromium flags for every browser test: no sandbox (containers), no GPU, and no traffic of the browser's own. */
 export const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"];
 
+/** Limit of one navigation or browser action (playwright's default is 30 s): generous, for a busy machine. */
+export const BROWSER_STEP_TIMEOUT_MS = 120_000;
+
 const TYPES: Record<string, string> = {
   ".html": "text/html; charset=utf-8", ".css": "text/css; charset=utf-8", ".js": "text/javascript; charset=utf-8",
   ".json": "application/json", ".png": "image/png", ".svg": "image/svg+xml", ".csv": "text/csv; charset=utf-8",
@@ -42,9 +45,16 @@ export async function serve(dir: string): Promise<{ origin: string; server: http
       let file = path.join(dir, decodeURIComponent(url.pathname));
       if (!file.startsWith(dir)) throw new Error("outside");
       if ((await fs.stat(file)).isDirectory()) file = path.join(file, "index.html");
+      const type = TYPES[path.extname(file)] ?? "application/octet-stream";
+      if (req.method === "HEAD") {
+        // The file's size is all a HEAD answer needs (stat throws for a missing file: 404 below).
+        res.writeHead(200, { "content-type": type, "content-length": (await fs.stat(file)).size });
+        res.end();
+        return;
+      }
       const body = await fs.readFile(file);
-      res.writeHead(200, { "content-type": TYPES[path.extname(file)] ?? "application/octet-stream", "content-length": body.length });
-      res.end(req.method === "HEAD" ? undefined : body);
+      res.writeHead(200, { "content-type": type, "content-length": body.length });
+      res.end(body);
     } catch {
       res.writeHead(404, { "content-type": "text/plain" });
       res.end("not found");
@@ -72,6 +82,15 @@ export async function startSite(): Promise<Site> {
     server.close();
     throw new Error(`Chromium at ${CHROMIUM} did not start within 30 s: ${(e as Error).message.split("\n")[0]}`);
   }
+  // Playwright's own limits (30 s a navigation or action) are missed when the machine is busy: every context
+  // made from this browser (newPage makes one too) gets generous ones instead.
+  const newContext = browser.newContext.bind(browser);
+  browser.newContext = async (options) => {
+    const ctx = await newContext(options);
+    ctx.setDefaultTimeout(BROWSER_STEP_TIMEOUT_MS);
+    ctx.setDefaultNavigationTimeout(BROWSER_STEP_TIMEOUT_MS);
+    return ctx;
+  };
   await fs.mkdir(OUTPUT, { recursive: true });
   return {
     dir, origin, browser,
