@@ -117,7 +117,7 @@ describe("exit codes and the previous site", () => {
     expect(r.code).toBe(1);
     expect(r.stderr).toMatch(/--strict: 1 input error \(listed above\)/);
     expect(r.stderr).toMatch(/^wafers\/TQ-2404\/transport\/HB1\/vg_0p80V\.csv:141: column 3 \(Rxy\): cell is not a finite number/m);
-  });
+  }, 600_000);
   it("bad usage exits 2 with a hint; --help explains every option", async () => {
     const r = await waferbook(["build", "--stirct"]);
     expect(r.code).toBe(2);
@@ -135,7 +135,7 @@ describe("exit codes and the previous site", () => {
     expect(r.code).toBe(1);
     expect(r.stderr).toMatch(/data folder not found/);
     expect(await fs.readFile(path.join(site, "index.html"), "utf8")).toBe(before);
-  });
+  }, 600_000);
 });
 
 describe("a wafer added by hand following docs/formats.md", () => {
@@ -150,5 +150,5 @@ describe("a wafer added by hand following docs/formats.md", () => {
     expect(res.metrics.turn_on_voltage.value).toBeCloseTo(0.4, 2);
     const index = await fs.readFile(path.join(site, "index.html"), "utf8");
     expect(index).toContain('href="wafers/HAND-1/index.html"');
-  });
+  }, 600_000);
 });

@@ -52,7 +52,7 @@ describe("site built with --base /qual/", () => {
     const r = await build(args.options, { log: () => {}, today: () => "2026-01-01", now: () => "2026-01-01T00:00:00Z" });
     expect(r.ok).toBe(true);
     expect(r.outcomes.map((o) => o.folder).sort()).toEqual(WAFERS);
-  });
+  }, 600_000);
   afterAll(() => rmSync(root, { recursive: true, force: true }));
 
   it("every href/src is under /qual/, relative, an in-page anchor or a data: URL", () => {

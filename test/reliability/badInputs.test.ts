@@ -194,5 +194,5 @@ describe("--strict on the command line", () => {
     expect(strict.stdout).toMatch(/\d wafers \(.*\); 1 input error, 0 warnings; [\d.]+ s/);
     expect(strict.stderr).toMatch(/--strict: 1 input error \(listed above\)/);
     expect(strict.stderr).not.toMatch(/\n\s+at /);
-  }, 180_000);
+  }, 600_000);
 });

@@ -74,7 +74,7 @@ describe("raw files are only read", () => {
     expect(d.dataBefore.size).toBeGreaterThan(20);
     expect(d.dataAfter).toEqual(d.dataBefore);
     expect(d.mtimesAfter).toEqual(d.mtimesBefore);
-  }, 240_000);
+  }, 600_000);
 
   it("the readers contain no call that could write, and open raw files with the read flag", async () => {
     for (const dir of ["src/read", "src/validate"]) {
@@ -110,7 +110,7 @@ describe("deterministic output", () => {
       const text = await fs.readFile(path.join(tmp, "det-site-a", f), "utf8");
       expect(text.includes(tmp), f).toBe(false);
     }
-  }, 240_000);
+  }, 600_000);
 });
 
 describe("the output lock", () => {
@@ -136,7 +136,7 @@ describe("the output lock", () => {
     const r = await build(opts(data, out), io);
     expect(r.ok).toBe(true);
     await expect(fs.stat(`${out}.lock`)).rejects.toThrow();
-  }, 120_000);
+  }, 600_000);
 
   it("two concurrent CLI builds into one folder never interleave: each finishes alone or is refused", async () => {
     const data = await demoCopy("conc", ["TQ-2401", "TQ-2402"]);
@@ -152,7 +152,7 @@ describe("the output lock", () => {
     expect([...h.keys()]).toEqual([...(await hashTree(reference)).keys()]);
     const page = (await fs.readFile(path.join(out, "wafers/TQ-2401/index.html"), "utf8")).replace(stamp, "");
     expect(page).toBe((await fs.readFile(path.join(reference, "wafers/TQ-2401/index.html"), "utf8")).replace(stamp, ""));
-  }, 180_000);
+  }, 600_000);
 });
 
 describe("a killed build loses nothing", () => {
@@ -189,7 +189,7 @@ describe("a killed build loses nothing", () => {
     const left = (await fs.readdir(tmp)).filter((n) => n.startsWith(".kill-site-building-"));
     expect(left).toEqual([]);
     expect(await fs.readFile(path.join(out, "wafers/TQ-2401/index.html"), "utf8")).toContain("An extra line of notes.");
-  }, 300_000);
+  }, 600_000);
 });
 
 describe("no NaN or Infinity is published", () => {
@@ -220,5 +220,5 @@ describe("no NaN or Infinity is published", () => {
       const text = await fs.readFile(path.join(out, f), "utf8");
       expect(text.match(/\bNaN\b|\bInfinity\b|\bundefined\b/)?.[0], f).toBeUndefined();
     }
-  }, 120_000);
+  }, 600_000);
 });
