@@ -33,7 +33,8 @@ beforeAll(async () => {
   first = demo;
 }, DEMO_HOOK_TIMEOUT_MS);
 afterAll(async () => {
-  await fs.rm(tmp, { recursive: true, force: true });
+  // Retries: a child build stopped by a time limit may still be removing its working folder.
+  await fs.rm(tmp, { recursive: true, force: true, maxRetries: 5, retryDelay: 500 });
 });
 
 /** A wafer added by hand following docs/formats.md, built once with --strict (the last describe checks its figures). */
