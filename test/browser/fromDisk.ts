@@ -56,7 +56,7 @@ export function fromDiskChecks(getSite: () => Site): void {
     expect(bad).toEqual([]);
   });
 
-  it("opens index.html from disk with its styles, follows the navigation, draws a chart and searches", { timeout: 180_000 }, async () => {
+  it("opens index.html from disk with its styles, follows the navigation, draws a chart and searches", { timeout: 300_000 }, async () => {
     const site = getSite();
     const ctx = await site.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await ctx.newPage();

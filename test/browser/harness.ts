@@ -1,23 +1,27 @@
 /**
- * Shared set-up for the browser tests: build the demo data once with the CLI
- * into a temporary folder, serve it on 127.0.0.1 (random port) and launch
- * Debian's Chromium through playwright-core. Fails fast, with a plain message,
- * when Chromium is missing (never downloads a browser).
+ * Shared set-up for the browser tests: the demo site built once per test run
+ * (test/helpers/demoSite.ts, shared with every other file that only reads it),
+ * served on 127.0.0.1 (random port), and Debian's Chromium launched through
+ * playwright-core. Fails fast, with a plain message, when Chromium is missing
+ * (never downloads a browser).
  */
-import { execFile } from "node:child_process";
 import { existsSync, promises as fs } from "node:fs";
 import http from "node:http";
-import os from "node:os";
 import path from "node:path";
-import { promisify } from "node:util";
 import type { AddressInfo } from "node:net";
 import { chromium, type Browser } from "playwright-core";
+import { demoSite } from "../helpers/demoSite.ts";
+
+export { DEMO_HOOK_TIMEOUT_MS } from "../helpers/demoSite.ts";
 
 export const ROOT = path.resolve(import.meta.dirname, "../..");
 export const OUTPUT = path.join(ROOT, "test", "output");
 export const CHROMIUM = process.env.WAFERBOOK_CHROMIUM ?? "/usr/bin/chromium";
 /** Chromium flags for every browser test: no sandbox (containers), no GPU, and no traffic of the browser's own. */
 export const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"];
+
+/** Limit of one navigation or browser action (playwright's default is 30 s): generous, for a busy machine. */
+export const BROWSER_STEP_TIMEOUT_MS = 120_000;
 
 const TYPES: Record<string, string> = {
   ".html": "text/html; charset=utf-8", ".css": "text/css; charset=utf-8", ".js": "text/javascript; charset=utf-8",
@@ -26,6 +30,7 @@ const TYPES: Record<string, string> = {
 };
 
 export interface Site {
+  /** The shared demo site: read it, never change it (other test files read it at the same time). */
   dir: string;
   origin: string;
   browser: Browser;
@@ -40,9 +45,16 @@ export async function serve(dir: string): Promise<{ origin: string; server: http
       let file = path.join(dir, decodeURIComponent(url.pathname));
       if (!file.startsWith(dir)) throw new Error("outside");
       if ((await fs.stat(file)).isDirectory()) file = path.join(file, "index.html");
+      const type = TYPES[path.extname(file)] ?? "application/octet-stream";
+      if (req.method === "HEAD") {
+        // The file's size is all a HEAD answer needs (stat throws for a missing file: 404 below).
+        res.writeHead(200, { "content-type": type, "content-length": (await fs.stat(file)).size });
+        res.end();
+        return;
+      }
       const body = await fs.readFile(file);
-      res.writeHead(200, { "content-type": TYPES[path.extname(file)] ?? "application/octet-stream", "content-length": body.length });
-      res.end(req.method === "HEAD" ? undefined : body);
+      res.writeHead(200, { "content-type": type, "content-length": body.length });
+      res.end(body);
     } catch {
       res.writeHead(404, { "content-type": "text/plain" });
       res.end("not found");
@@ -52,14 +64,16 @@ export async function serve(dir: string): Promise<{ origin: string; server: http
   return { origin: `http://127.0.0.1:${(server.address() as AddressInfo).port}`, server };
 }
 
-/** Builds the demo site with the CLI, serves it and launches Chromium. */
+/**
+ * The demo site (built once per run, see demoSite.ts), served, and Chromium
+ * launched. Call it from a beforeAll with DEMO_HOOK_TIMEOUT_MS: the first
+ * file to ask may wait for the build.
+ */
 export async function startSite(): Promise<Site> {
   if (!existsSync(CHROMIUM)) {
     throw new Error(`Browser tests need Chromium at ${CHROMIUM}, which is missing. Install Debian's package (apt-get install chromium; .ci/run does this) or point WAFERBOOK_CHROMIUM at a Chromium binary.`);
   }
-  const tmp = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-browser-"));
-  const dir = path.join(tmp, "site");
-  await promisify(execFile)(process.execPath, [path.join(ROOT, "bin", "waferbook.js"), "build", "--data", path.join(ROOT, "data"), "--out", dir], { cwd: ROOT, env: { ...process.env, CI: "true" }, timeout: 300_000 });
+  const dir = await demoSite();
   const { origin, server } = await serve(dir);
   let browser: Browser;
   try {
@@ -68,13 +82,21 @@ export async function startSite(): Promise<Site> {
     server.close();
     throw new Error(`Chromium at ${CHROMIUM} did not start within 30 s: ${(e as Error).message.split("\n")[0]}`);
   }
+  // Playwright's own limits (30 s a navigation or action) are missed when the machine is busy: every context
+  // made from this browser (newPage makes one too) gets generous ones instead.
+  const newContext = browser.newContext.bind(browser);
+  browser.newContext = async (options) => {
+    const ctx = await newContext(options);
+    ctx.setDefaultTimeout(BROWSER_STEP_TIMEOUT_MS);
+    ctx.setDefaultNavigationTimeout(BROWSER_STEP_TIMEOUT_MS);
+    return ctx;
+  };
   await fs.mkdir(OUTPUT, { recursive: true });
   return {
     dir, origin, browser,
     close: async () => {
       await browser.close();
       await new Promise((r) => server.close(r));
-      await fs.rm(tmp, { recursive: true, force: true });
     },
   };
 }

@@ -64,7 +64,7 @@ describe("hostile raw files on the site", () => {
     } finally {
       server.close();
     }
-  }, 60_000);
+  }, 180_000);
 
   it("the wafer page and every raw-file link on it run nothing, request nothing outside the site and log no error", async () => {
     const { origin, server } = await serve(out);
@@ -81,5 +81,5 @@ describe("hostile raw files on the site", () => {
     } finally {
       server.close();
     }
-  }, 120_000);
+  }, 240_000);
 });

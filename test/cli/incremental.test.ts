@@ -91,7 +91,7 @@ describe("incremental builds reuse unchanged wafer pages and match a fresh build
     expect(t.stats!.pagesReused).toBeLessThanOrEqual(1);
     await build(at(data, fresh, true), io);
     await expectSameSite(out, fresh);
-  }, 240_000);
+  }, 600_000);
 
   it("wafer pages rendered in batches (several Eleventy runs) equal pages rendered with the site-wide pages in one run", async () => {
     const data = await demoCopy("data-batches");
@@ -101,7 +101,7 @@ describe("incremental builds reuse unchanged wafer pages and match a fresh build
     // The CLI in a child process, so the batch size (read when the module loads) can be set: 6 wafers in batches of 2.
     await git(process.execPath, [path.join(PACKAGE_ROOT, "bin", "waferbook.js"), "build", "--data", data, "--out", batched, "--no-cache", "--quiet"], { env: { ...process.env, CI: "true", WAFERBOOK_PAGES_PER_RENDER: "2" } });
     await expectSameSite(batched, one);
-  }, 120_000);
+  }, 600_000);
 
   it("a page whose previous copy was edited by hand or has no fingerprint is drawn again", async () => {
     const data = await demoCopy("data-edit");
@@ -113,5 +113,5 @@ describe("incremental builds reuse unchanged wafer pages and match a fresh build
     const r = await build(at(data, out), io);
     expect(r.stats).toMatchObject({ pagesReused: WAFERS.length - 1 });
     expect(await fs.readFile(page, "utf8")).toBe(original);
-  }, 120_000);
+  }, 600_000);
 });

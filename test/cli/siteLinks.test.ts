@@ -1,11 +1,23 @@
-// Builds the demo data with --base /qual/ and checks every internal link; checks the export files' shape.
+// Builds demo data with --base /qual/ and checks every internal link; checks the export files' shape on the run's shared demo site.
 // No published values: the expectations are this program's own URL and file layout (docs/publishing.md).
-import { mkdtempSync, readdirSync, readFileSync, rmSync, statSync } from "node:fs";
+import { execFile } from "node:child_process";
+import { mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
+import { cp } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import path from "node:path";
+import { promisify } from "node:util";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { build, PACKAGE_ROOT } from "../../src/cli/build.ts";
 import { parseArgs } from "../../src/cli/args.ts";
+import { demoSite, DEMO_HOOK_TIMEOUT_MS } from "../helpers/demoSite.ts";
+
+const git = promisify(execFile);
+async function commitAll(data: string, message: string, init = false): Promise<void> {
+  const env = { ...process.env, GIT_AUTHOR_NAME: "Test Grower", GIT_AUTHOR_EMAIL: "grower@example.invalid", GIT_COMMITTER_NAME: "Test Grower", GIT_COMMITTER_EMAIL: "grower@example.invalid", GIT_AUTHOR_DATE: "2026-05-01T10:00:00Z", GIT_COMMITTER_DATE: "2026-05-01T10:00:00Z" };
+  if (init) await git("git", ["init", "-q", "-b", "main"], { cwd: data, env });
+  await git("git", ["add", "-A"], { cwd: data, env });
+  await git("git", ["commit", "-q", "-m", message], { cwd: data, env });
+}
 
 function walk(dir: string): string[] {
   return readdirSync(dir).flatMap((n) => {
@@ -14,17 +26,33 @@ function walk(dir: string): string[] {
   });
 }
 
+// Four demo wafers give every kind of page (images, structure, an input error, an incoherent well; as in incremental.test.ts),
+// and with them every run, trend, target and changes page links: a --base build of the whole demo would check the same links again.
+const WAFERS = ["TQ-2401", "TQ-2402", "TQ-2404", "TQ-2406"];
+
 describe("site built with --base /qual/", () => {
   let root = "";
   let out = "";
   beforeAll(async () => {
     root = mkdtempSync(path.join(tmpdir(), "wb-links-"));
     out = path.join(root, "site");
-    const args = parseArgs(["build", "--data", path.join(PACKAGE_ROOT, "data"), "--out", out, "--base", "qual", "--quiet"]);
+    const data = path.join(root, "data");
+    const sep = path.sep;
+    await cp(path.join(PACKAGE_ROOT, "data"), data, { recursive: true, filter: (src) => !src.includes(`${sep}wafers${sep}`) || WAFERS.some((w) => src.includes(`${sep}wafers${sep}${w}`)) });
+    // A history of its own, with a targets change, so the changes page and the wafers' histories have commits to link.
+    await commitAll(data, "Demo data", true);
+    const targets = path.join(data, "targets.yaml");
+    const text = readFileSync(targets, "utf8");
+    const tightened = text.replace(/min: "1\.0e5 cm\^2\/\(V s\)"/, 'min: "1.5e5 cm^2/(V s)"');
+    expect(tightened).not.toBe(text);
+    writeFileSync(targets, tightened);
+    await commitAll(data, "Tighter mobility target");
+    const args = parseArgs(["build", "--data", data, "--out", out, "--base", "qual", "--quiet"]);
     if (args.command !== "build") throw new Error("bad args");
     const r = await build(args.options, { log: () => {}, today: () => "2026-01-01", now: () => "2026-01-01T00:00:00Z" });
     expect(r.ok).toBe(true);
-  });
+    expect(r.outcomes.map((o) => o.folder).sort()).toEqual(WAFERS);
+  }, 600_000);
   afterAll(() => rmSync(root, { recursive: true, force: true }));
 
   it("every href/src is under /qual/, relative, an in-page anchor or a data: URL", () => {
@@ -60,6 +88,14 @@ describe("site built with --base /qual/", () => {
     }
     expect([...missing]).toEqual([]);
   });
+
+});
+
+describe("the demo site (the run's shared build): anchors and exports", () => {
+  let out = "";
+  beforeAll(async () => {
+    out = await demoSite();
+  }, DEMO_HOOK_TIMEOUT_MS);
 
   it("every section has an id (an anchor)", () => {
     for (const f of walk(out).filter((x) => x.endsWith(".html"))) {

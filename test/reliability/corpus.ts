@@ -32,6 +32,12 @@ export async function prepareCase(name: string, tmpRoot?: string): Promise<{ tmp
   await fs.rm(path.join(data, "expected.txt"), { force: true });
   await fs.cp(path.join(HEALTHY_DIR, "wafers", "OK-1"), path.join(data, "wafers", "OK-1"), { recursive: true });
   const outside = path.join(tmp, "outside.csv");
+  await completeCase(name, data, outside);
+  return { tmp, data, out: path.join(tmp, "site"), outside };
+}
+
+/** Adds to a copy of case `name` in `data` what git cannot carry; `outside` is where a symbolic link's target goes (outside the data folder). */
+export async function completeCase(name: string, data: string, outside: string): Promise<void> {
   if (name === "symlink-outside-data") {
     await fs.copyFile(path.join(HEALTHY_DIR, "wafers", "OK-1", "transport", "vg_0p50V.csv"), outside);
     await fs.symlink(outside, path.join(data, "wafers", "SYMLINK", "transport", "link.csv"));
@@ -42,7 +48,6 @@ export async function prepareCase(name: string, tmpRoot?: string): Promise<{ tmp
     await h.truncate(MAX_TEXT_FILE_BYTES + 1);
     await h.close();
   }
-  return { tmp, data, out: path.join(tmp, "site"), outside };
 }
 
 export async function expectedLines(name: string, outside: string): Promise<string[]> {
