@@ -18,7 +18,7 @@ import { isGenerationLink, SITE_MARKER } from "./siteLayout.ts";
 export class OutputRefusedError extends BuildStoppedError {}
 
 /** What the top level of a site written by waferbook before the marker file existed may hold. */
-const OLD_SITE_ENTRIES = new Set(["index.html", "wafers", "runs", "trends", "targets", "changes", "search", "raw", "assets", "results.csv", "results.json", "search-index.json"]);
+const OLD_SITE_ENTRIES = new Set(["index.html", "wafers", "runs", "trends", "targets", "changes", "search", "raw", "assets", "results.csv", "results.json", "search-index.json", "compare", "relation"]);
 
 /** The real path of `p`: links resolved; for a path that does not exist yet, its nearest existing ancestor's real path with the rest appended. */
 export async function resolveReal(p: string): Promise<string> {

@@ -107,7 +107,7 @@ describe("comparison page", () => {
   it("takes the wafers of a run from ?run=, as the run page links it", { timeout: 60_000 }, async () => {
     const page = await open(`${site.origin}/compare/?run=TQ25-B`);
     await page.waitForSelector("#metrics table");
-    expect(await page.locator("#overview thead th").allTextContents()).toEqual(["Wafer", "TQ-2504", "TQ-2505", "TQ-2506"]);
+    expect(await page.locator("#overview thead th").allTextContents()).toEqual(["Wafer", "TQ-2504", "TQ-2505", "TQ-2506", "TQ-2507"]);
     await page.close();
   });
 });
@@ -149,7 +149,7 @@ describe("from disk (file://)", () => {
     await page.close();
     const relation = pathToFileURL(path.join(site.dir, "relation", "index.html")).href;
     page = await open(`${relation}?y=peak_mobility&x=density_at_peak_mobility`);
-    expect(await page.textContent("#relation-status")).toMatch(/1[0-4] of 14 wafers plotted/);
+    expect(await page.textContent("#relation-status")).toMatch(/1[0-5] of 15 wafers plotted/);
     await page.close();
     const run = pathToFileURL(path.join(site.dir, "runs", "TQ24-A", "index.html")).href;
     page = await open(run);
