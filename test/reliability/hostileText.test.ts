@@ -101,7 +101,7 @@ describe("escaping in the built pages", () => {
       expect(html.startsWith("<!doctype html>"), p).toBe(true);
       expect(html, p).toContain(CSP);
       const scripts = html.match(/<script\b[^>]*>/gi) ?? [];
-      for (const s of scripts) expect(s, p).toMatch(/^<script (src="\/assets\/[a-z.-]+\.js" defer|type="application\/json" id="(chart|relation)-data")>$/);
+      for (const s of scripts) expect(s, p).toMatch(/^<script (src="\/assets\/[A-Za-z.-]+\.js" defer|type="application\/json" id="(chart|relation)-data")>$/);
       expect(html.match(/<script type="application\/json" id="(chart|relation)-data">/g)?.length ?? 0, p).toBeLessThanOrEqual(1);
       // Between the JSON block's tags there is no "<" at all (the relation page's data block, built by the same jsonForScript, too).
       const json = /<script type="application\/json" id="(?:chart|relation)-data">([\s\S]*?)<\/script>/.exec(html);
