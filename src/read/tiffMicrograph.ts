@@ -22,6 +22,7 @@
  * note saying why; so is a resolution with no unit, and one whose X and Y
  * differ by more than 1 % (the analysis assumes square pixels).
  */
+import { inflateSync } from "node:zlib";
 import UTIF from "utif2";
 import { DEFAULT_MAX_IMAGE_PIXELS } from "./micrograph.ts";
 import { MicrographFormatError, type Micrograph } from "./micrograph.ts";
@@ -91,10 +92,84 @@ export interface TiffMicrograph extends Micrograph {
  * Decodes a greyscale TIFF of at most `maxPixels` pixels into normalised
  * intensities. Throws MicrographFormatError for anything else.
  */
+/** The most image file directories read from one file (a microscope writes one, or a few thumbnails). */
+const MAX_DIRECTORIES = 64;
+
+/**
+ * Walks the chain of image file directories (TIFF 6.0 §2: each ends in the offset of the next, 0
+ * for the last) before utif2 does, which would follow a chain that loops back on itself for ever:
+ * every directory must lie inside the file, none may be visited twice, at most MAX_DIRECTORIES.
+ */
+function checkDirectoryChain(bytes: Uint8Array): void {
+  const dv = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  const le = bytes[0] === 0x49;
+  const damaged = (found: string) => new MicrographFormatError(EXPECTED, `a damaged TIFF (${found})`, "Re-export the image file.", "not a readable TIFF micrograph");
+  if (bytes.length < 8) throw damaged("shorter than its 8-byte header");
+  const seen = new Set<number>();
+  let at = dv.getUint32(4, le);
+  while (at !== 0) {
+    if (seen.has(at)) throw damaged(`its image directories loop back to offset ${at}`);
+    if (seen.size >= MAX_DIRECTORIES) throw damaged(`more than ${MAX_DIRECTORIES} image directories`);
+    if (at < 8 || at + 2 > bytes.length) throw damaged(`an image directory at offset ${at}, outside the file's ${bytes.length} bytes`);
+    seen.add(at);
+    const count = dv.getUint16(at, le);
+    const end = at + 2 + 12 * count;
+    if (end + 4 > bytes.length) throw damaged(`an image directory of ${count} entries running past the end of the file`);
+    at = dv.getUint32(end, le);
+  }
+}
+
+/**
+ * Deflate strips (compression 8 or 32946), inflated here rather than by utif2, which inflates a
+ * strip whole, however large: each strip may inflate to exactly its declared size and no more
+ * (zlib's maxOutputLength), so a small file cannot expand into gigabytes. The horizontal predictor
+ * (TIFF 6.0 §14) is undone per row for 8- and 16-bit samples. Returns the samples in the file's byte order.
+ */
+function inflateStrips(bytes: Uint8Array, ifd: Ifd, width: number, height: number, bps: number): Uint8Array {
+  const damaged = (found: string) => new MicrographFormatError(EXPECTED, `a damaged TIFF (${found})`, "Re-export the image file, uncompressed or with LZW or Deflate.", "not a readable TIFF micrograph");
+  if (tag(ifd, 322)) throw new MicrographFormatError(EXPECTED, "a tiled TIFF with Deflate compression", "Export the micrograph in strips (the usual layout), or uncompressed.", "not a readable TIFF micrograph");
+  const offsets = tag(ifd, 273) ?? [];
+  const counts = tag(ifd, 279) ?? [];
+  const rowsPerStrip = Math.min(first(ifd, 278, height), height);
+  const bytesPer = bps / 8;
+  const rowBytes = width * bytesPer;
+  const out = new Uint8Array(height * rowBytes);
+  const predictor = first(ifd, 317, 1);
+  if (predictor !== 1 && !(predictor === 2 && bps <= 16)) throw new MicrographFormatError(EXPECTED, `a TIFF with predictor ${predictor} on ${bps}-bit samples`, "Export without a predictor, or uncompressed.", "not a readable TIFF micrograph");
+  const le = bytes[0] === 0x49;
+  offsets.forEach((off, k) => {
+    const rows = Math.min(rowsPerStrip, height - k * rowsPerStrip);
+    if (rows <= 0) return;
+    const expected = rows * rowBytes;
+    let strip: Buffer;
+    try {
+      strip = inflateSync(bytes.subarray(off, off + counts[k]), { maxOutputLength: expected });
+    } catch (e) {
+      const tooBig = (e as { code?: string }).code === "ERR_BUFFER_TOO_LARGE" || e instanceof RangeError;
+      throw damaged(tooBig ? `strip ${k + 1} inflates to more than the ${expected} bytes its ${rows} rows hold (a decompression bomb or a damaged file)` : `strip ${k + 1} does not inflate: ${(e as Error).message}`);
+    }
+    if (strip.length !== expected) throw damaged(`strip ${k + 1} inflates to ${strip.length} bytes, not the ${expected} its ${rows} rows hold`);
+    if (predictor === 2) {
+      const dv = new DataView(strip.buffer, strip.byteOffset, strip.byteLength);
+      for (let r = 0; r < rows; r++) {
+        for (let x = 1; x < width; x++) {
+          const at = r * rowBytes + x * bytesPer;
+          if (bps === 8) strip[at] = (strip[at] + strip[at - 1]) & 0xff;
+          else dv.setUint16(at, (dv.getUint16(at, le) + dv.getUint16(at - 2, le)) & 0xffff, le);
+        }
+      }
+    }
+    out.set(strip, k * rowsPerStrip * rowBytes);
+  });
+  return out;
+}
+
 export function decodeTiffMicrograph(bytes: Uint8Array, maxPixels: number = DEFAULT_MAX_IMAGE_PIXELS): TiffMicrograph {
-  // utif2 reads strips through `data.buffer` at file offsets: give it a buffer of its own.
-  const buf = bytes.slice().buffer;
+  // utif2 reads strips through `data.buffer` at file offsets: give it a buffer of its own (a copy:
+  // Buffer#slice would be a view into Node's shared pool, at a non-zero offset).
+  const buf = new Uint8Array(bytes).buffer;
   let ifds: Ifd[];
+  checkDirectoryChain(bytes);
   try {
     ifds = UTIF.decode(buf);
   } catch (e) {
@@ -123,13 +198,13 @@ export function decodeTiffMicrograph(bytes: Uint8Array, maxPixels: number = DEFA
   const compression = first(ifd, 259, 1);
   if (photometric > 1 || spp !== 1) {
     const what = photometric === 2 ? "an RGB colour TIFF" : photometric === 3 ? "a palette (indexed-colour) TIFF" : `a TIFF with ${spp} samples per pixel (photometric ${photometric})`;
-    throw new MicrographFormatError(EXPECTED, what, FIX);
+    throw new MicrographFormatError(EXPECTED, what, FIX, "not a greyscale micrograph");
   }
   const intOk = format === 1 && (bps === 8 || bps === 16 || bps === 32);
   const floatOk = format === 3 && (bps === 32 || bps === 64);
   if (!intOk && !floatOk) {
     const kind = format === 2 ? "signed integer" : format === 3 ? "float" : "unsigned integer";
-    throw new MicrographFormatError(EXPECTED, `a ${bps}-bit ${kind} TIFF`, FIX);
+    throw new MicrographFormatError(EXPECTED, `a ${bps}-bit ${kind} TIFF`, FIX, "not a greyscale micrograph of a sample type read here");
   }
   if (![1, 5, 8, 32946, 32773].includes(compression)) {
     throw new MicrographFormatError(EXPECTED, `a TIFF with compression ${compression} (not a lossless compression read here)`, "Export the micrograph uncompressed, or with LZW or Deflate compression.");
@@ -140,24 +215,29 @@ export function decodeTiffMicrograph(bytes: Uint8Array, maxPixels: number = DEFA
   if (offsets.length === 0 || offsets.length !== counts.length || offsets.some((o, k) => !(o >= 8 && counts[k] > 0 && o + counts[k] <= bytes.length))) {
     throw new MicrographFormatError(EXPECTED, `a damaged or cut-short TIFF (its image data lie beyond the file's ${n(bytes.length)} bytes)`, "Copy the file again from the microscope computer, or re-export it.", "not a readable TIFF micrograph");
   }
-  const silenced = console.log;
-  try {
-    console.log = () => undefined; // utif2 prints a line per tiled image
-    UTIF.decodeImage(buf, ifd);
-  } catch (e) {
-    throw new MicrographFormatError(EXPECTED, `a damaged TIFF (${String((e as Error)?.message ?? e)})`, "Re-export the image file.", "not a readable TIFF micrograph");
-  } finally {
-    console.log = silenced;
+  const deflate = compression === 8 || compression === 32946;
+  let data: Uint8Array | undefined;
+  if (deflate) data = inflateStrips(bytes, ifd, width, height, bps);
+  else {
+    const silenced = console.log;
+    try {
+      console.log = () => undefined; // utif2 prints a line per tiled image
+      UTIF.decodeImage(buf, ifd);
+    } catch (e) {
+      throw new MicrographFormatError(EXPECTED, `a damaged TIFF (${String((e as Error)?.message ?? e)})`, "Re-export the image file.", "not a readable TIFF micrograph");
+    } finally {
+      console.log = silenced;
+    }
+    data = ifd.data;
   }
-  const data = ifd.data;
   const bytesPer = bps / 8;
   if (!data || data.length < width * height * bytesPer) {
     throw new MicrographFormatError(EXPECTED, `a damaged TIFF (${data ? data.length : 0} bytes of image data for ${n(width)} × ${n(height)} pixels of ${bps} bits)`, "Re-export the image file.", "not a readable TIFF micrograph");
   }
   const view = new DataView(data.buffer, data.byteOffset, data.byteLength);
-  // utif2 turns 16-bit samples little-endian; 32- and 64-bit ones stay in the file's byte order.
+  // utif2 turns 16-bit samples little-endian; 32- and 64-bit ones (and inflateStrips' output) stay in the file's byte order.
   const fileLE = bytes[0] === 0x49;
-  const le = bps === 16 ? true : fileLE;
+  const le = bps === 16 && !deflate ? true : fileLE;
   const count = width * height;
   const pixels = new Float32Array(count);
   const read = (i: number): number =>

@@ -115,3 +115,39 @@ describe("refusals, before any decompression where it matters", () => {
     expect(() => decodeMicrograph(bytes)).toThrow(/TIFF data/);
   });
 });
+
+describe("hostile TIFF structure (review findings)", () => {
+  /** The IFD entry (offset of its value field) of a tag, in a little-endian file written by writeTiff. */
+  const valueAt = (b: Buffer, tagNo: number) => {
+    const ifd = b.readUInt32LE(4);
+    for (let k = 0; k < b.readUInt16LE(ifd); k++) if (b.readUInt16LE(ifd + 2 + 12 * k) === tagNo) return ifd + 2 + 12 * k + 8;
+    throw new Error(`no tag ${tagNo}`);
+  };
+  it("an image-directory chain that loops back on itself is a located 'damaged' error, not a hang", () => {
+    const b = writeTiff({ width: W, height: H, samples: samples(255), bits: 8, format: "uint" });
+    const ifd = b.readUInt32LE(4);
+    b.writeUInt32LE(ifd, ifd + 2 + 12 * b.readUInt16LE(ifd)); // next directory = this one
+    expect(() => decodeTiffMicrograph(b)).toThrow(/loop back to offset/);
+  });
+  it("a Deflate strip that inflates beyond its rows (a decompression bomb) is refused without inflating it", async () => {
+    const { deflateSync } = await import("node:zlib");
+    const b = writeTiff({ width: 16, height: 16, samples: new Array(256).fill(1), bits: 8, format: "uint", compression: "deflate", rowsPerStrip: 16 });
+    const bomb = deflateSync(Buffer.alloc(64 * 1024 * 1024)); // 64 MiB of zeros, ~65 kB compressed
+    const file = Buffer.concat([b, bomb]);
+    file.writeUInt32LE(b.length, valueAt(file, 273));
+    file.writeUInt32LE(bomb.length, valueAt(file, 279));
+    const before = process.memoryUsage().rss;
+    expect(() => decodeTiffMicrograph(file)).toThrow(/inflates to more than the 256 bytes/);
+    expect(process.memoryUsage().rss - before).toBeLessThan(32 * 1024 * 1024);
+  });
+  it("a Deflate strip that inflates to too few bytes is refused (it would be read as zeros)", async () => {
+    const { deflateSync } = await import("node:zlib");
+    const b = writeTiff({ width: 16, height: 16, samples: new Array(256).fill(1), bits: 8, format: "uint", compression: "deflate", rowsPerStrip: 16 });
+    const short = deflateSync(Buffer.alloc(100, 7));
+    const file = Buffer.concat([b, short]);
+    file.writeUInt32LE(b.length, valueAt(file, 273));
+    file.writeUInt32LE(short.length, valueAt(file, 279));
+    expect(() => decodeTiffMicrograph(file)).toThrow(/inflates to 100 bytes, not the 256|damaged/);
+    try { decodeTiffMicrograph(file); } catch (e) { expect((e as Error).message).toMatch(/inflates to 100 bytes/); }
+  });
+});
