@@ -9,6 +9,8 @@ declare module "@11ty/eleventy-dev-server" {
     showVersion?: boolean;
     messageOnStart?: (info: { localhostUrl: string }) => string | false;
     logger?: { info: (...a: unknown[]) => void; log: (...a: unknown[]) => void; error: (...a: unknown[]) => void };
+    /** Run before the package's own handler, in order: (req, res, next). */
+    middleware?: ((req: import("node:http").IncomingMessage, res: import("node:http").ServerResponse, next: () => void) => void)[];
   }
   export default class EleventyDevServer {
     static getServer(name: string, dir: string, options?: DevServerOptions): EleventyDevServer;

@@ -31,6 +31,23 @@ export interface ServeHandle {
 }
 
 /** Builds, serves and starts watching; resolves once the server listens. */
+/** Middleware: 400 for a request path that does not decode, or decodes to a segment "..", a backslash or a NUL. */
+function refuseEscapingPaths(req: { url?: string }, res: { statusCode: number; setHeader(k: string, v: string): void; end(b?: string): void }, next: () => void): void {
+  let decoded: string;
+  try {
+    decoded = decodeURIComponent(new URL(req.url ?? "/", "http://localhost").pathname);
+  } catch {
+    decoded = "\0";
+  }
+  if (decoded.split("/").some((seg) => seg === ".." || seg.includes("\\") || seg.includes("\0"))) {
+    res.statusCode = 400;
+    res.setHeader("content-type", "text/plain; charset=utf-8");
+    res.end("bad request: the path leaves the site folder\n");
+    return;
+  }
+  next();
+}
+
 export async function startServe(options: ServeOptions, io: CommandIO): Promise<ServeHandle> {
   const dataDir = path.resolve(options.data);
   const outDir = path.resolve(options.out);
@@ -43,6 +60,9 @@ export async function startServe(options: ServeOptions, io: CommandIO): Promise<
     domDiff: false,
     portReassignmentRetryCount: 0,
     messageOnStart: () => false,
+    // A path that decodes to a parent folder (/..%2f..%2fetc) makes the package throw outside any handler, which ended
+    // the process: such requests (any page in the user's browser can send one) get a 400 here first.
+    middleware: [refuseEscapingPaths],
     logger: { info: () => {}, log: () => {}, error: (...a) => io.err(`waferbook serve: ${a.join(" ")}`) },
   });
   // The server only on localhost, and a port in use as a plain message (the package would retry without a host, or throw).

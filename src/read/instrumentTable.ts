@@ -244,7 +244,7 @@ export function readInstrumentTable(text: string, file: string, rules: ReadingRu
       const txt = numberText(cell, decimal);
       const v = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/.test(txt) ? Number(txt) : NaN;
       if (!Number.isFinite(v)) {
-        bad.add({ file, line: li + 1, field: `column ${m.at + 1} (${JSON.stringify(m.rule.header)} → ${m.rule.name})`, message: "cell is not a finite number", expected: "a number such as 1.25e-3", found: JSON.stringify(cell), fix: decimalFix(cell, decimal) ?? "correct the cell, or remove the row" });
+        bad.add({ file, line: li + 1, field: `column ${m.at + 1} (${JSON.stringify(m.rule.header)} → ${m.rule.name})`, message: "cell is not a finite number", expected: "a number such as 1.25e-3", found: JSON.stringify(cell), fix: decimalFix(cell, decimal) ? `the cell's decimal mark differs from the one the file is read with: set layout.decimal (${ruleRef(where)}) to ${decimal === "." ? "comma" : "point"}` : "correct the cell, or remove the row" });
       }
       numeric[k][r] = v;
     });

@@ -18,7 +18,7 @@ const INSIDE_FIX = "move the folder into the data folder (a link may point anywh
 /** Is `real` the folder `root` or inside it (both resolved)? */
 function within(root: string, real: string): boolean {
   const rel = path.relative(root, real);
-  return rel === "" || !(rel.startsWith("..") || path.isAbsolute(rel));
+  return rel === "" || !(rel === ".." || rel.startsWith(`..${path.sep}`) || path.isAbsolute(rel));
 }
 
 /**

@@ -93,7 +93,7 @@ export function compilePattern(src: string, at: RuleSite, list: ProblemList): Re
   } catch (e) {
     const msg = (e as Error).message;
     const slow = /linear time/.test(msg);
-    list.add({ ...base, message: slow ? "regular expression cannot be matched in linear time" : "regular expression is malformed", expected: slow ? "a pattern without backreferences (\\1, \\k<…>) or lookaround ((?=…), (?<=…))" : "a JavaScript regular expression", found: `${JSON.stringify(src)}: ${msg.replace(/^Invalid regular expression: /, "")}`, fix: slow ? "rewrite it with plain groups and character classes" : "check the brackets and escapes (in YAML double quotes a backslash is written \\\\)" });
+    list.add({ ...base, message: slow ? "regular expression cannot be matched in linear time" : "regular expression is malformed", expected: slow ? "a pattern without backreferences (\\1, \\k<…>), lookaround ((?=…), (?<=…)) or large nested repeats such as (?:[0-9]{0,1000}){0,1000}" : "a JavaScript regular expression", found: `${JSON.stringify(src)}: ${msg.replace(/^Invalid regular expression: /, "")}`, fix: slow ? "rewrite it with plain groups and character classes" : "check the brackets and escapes (in YAML double quotes a backslash is written \\\\)" });
     return undefined;
   }
   // Refused on every runtime, so a wafer.md that builds here builds everywhere (and the linear engine is a second guard).

@@ -15,7 +15,7 @@
   function link(href) { return root + href + (relative && (href === "" || href.slice(-1) === "/") ? "index.html" : ""); }
   var MAX = 6;
   var boxes = Array.prototype.slice.call(form.querySelectorAll("input[name=w]"));
-  var known = {};
+  var known = Object.create(null);
   boxes.forEach(function (b) { known[b.value] = b; });
   var sci = window.waferbookPlot ? window.waferbookPlot.sci : String;
 
@@ -116,8 +116,12 @@
     if (v == null || ref == null) return null;
     var d = v - ref;
     if (d === 0) return null;
-    var text = "\u0394 " + (d > 0 ? "+" : "\u2212") + sci(Math.abs(d)) + (unit ? " " + unit : "");
-    if (ref !== 0) text += " (" + (d > 0 ? "+" : "\u2212") + String(Number(Math.abs(100 * d / ref).toPrecision(2))) + " %)";
+    var pct = unit === "%";
+    // Percentage metrics differ in percentage points; a relative change is shown only where it means something:
+    // not for °C (an offset scale), percentages, or values of different sign or near zero.
+    var text = "\u0394 " + (d > 0 ? "+" : "\u2212") + sci(Math.abs(d)) + (pct ? " percentage points" : unit ? " " + unit : "");
+    var relative = !pct && !/°C|degC/.test(unit || "") && ref !== 0 && v * ref > 0 && Math.abs(ref) > 1e-9 * Math.abs(v);
+    if (relative) text += " (" + (d > 0 ? "+" : "\u2212") + String(Number(Math.abs(100 * d / ref).toPrecision(2))) + " %)";
     return el("div", text, "diff");
   }
   function chart(parent, id, title, spec, summary) {

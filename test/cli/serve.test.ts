@@ -69,6 +69,16 @@ describe("waferbook serve", () => {
     expect((await page("wafers/TQ-2401/")).text).not.toContain(MARKER);
   });
 
+  it("answers a path that climbs out of the site with 400 and keeps serving (hostile review: it ended the process)", async () => {
+    for (const evil of ["..%2f..%2f..%2fetc%2fpasswd", "wafers/..%2f..%2f..%2f..%2fetc%2fhosts", "%2e%2e/%2e%2e/etc/passwd"]) {
+      const r = await page(evil);
+      expect([400, 404]).toContain(r.status);
+      expect(r.text).not.toMatch(/root:/);
+    }
+    expect(child.exitCode).toBeNull();
+    expect((await page("")).status).toBe(200);
+  });
+
   it("rebuilds after a wafer.md changes and serves the new page", async () => {
     await fs.appendFile(path.join(tmp, "data", "wafers", "TQ-2401", "wafer.md"), `\n${MARKER}.\n`);
     await until("the rebuilt page", async () => ((await page("wafers/TQ-2401/")).text.includes(MARKER) ? true : undefined), 240);
