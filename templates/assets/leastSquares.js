@@ -5,7 +5,9 @@
 // Recipes, 3rd ed., §14.5 and §15.2). Deviations from the means are summed,
 // not raw sums of squares, so large offsets (temperatures in °C, densities
 // of 10¹¹) lose no digits. Returns null with fewer than 3 points or when x
-// (or y) does not vary.
+// (or y) does not vary. With 4 or more points it also gives the 95 % interval
+// of r from Fisher's z = atanh(r), standard error 1/√(n − 3) (R. A. Fisher,
+// Metron 1 (1921) 3–32; any statistics text, e.g. Press et al. §14.5).
 (function (root) {
   "use strict";
   function leastSquares(points) {
@@ -21,7 +23,14 @@
     }
     if (!(sxx > 0) || !(syy > 0)) return null;
     var slope = sxy / sxx;
-    return { n: n, slope: slope, intercept: my - slope * mx, r: sxy / Math.sqrt(sxx * syy) };
+    var r = Math.max(-1, Math.min(1, sxy / Math.sqrt(sxx * syy)));
+    var out = { n: n, slope: slope, intercept: my - slope * mx, r: r, rLow: null, rHigh: null };
+    if (n >= 4 && Math.abs(r) < 1) {
+      var z = 0.5 * Math.log((1 + r) / (1 - r)), half = 1.959964 / Math.sqrt(n - 3);
+      out.rLow = Math.tanh(z - half);
+      out.rHigh = Math.tanh(z + half);
+    }
+    return out;
   }
   root.waferbookLeastSquares = leastSquares;
 })(typeof window !== "undefined" ? window : globalThis);

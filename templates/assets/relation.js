@@ -65,7 +65,9 @@
     if (fit) {
       var xs = pts.map(function (w) { return w.values[xv.key]; });
       var x0 = Math.min.apply(null, xs), x1 = Math.max.apply(null, xs);
-      fitText = "Least squares: y = " + sci(fit.intercept) + (fit.slope < 0 ? " \u2212 " : " + ") + sci(Math.abs(fit.slope)) + "\u00b7x, r = " + fit.r.toFixed(3) + ", n = " + fit.n;
+      fitText = "Least squares: y = " + sci(fit.intercept) + (fit.slope < 0 ? " \u2212 " : " + ") + sci(Math.abs(fit.slope)) + "\u00b7x, r = " + fit.r.toFixed(3) + ", n = " + fit.n
+        + (fit.rLow !== null ? " (95 % interval of r: " + fit.rLow.toFixed(2) + " to " + fit.rHigh.toFixed(2) + ")" : "")
+        + (fit.n < 8 ? ". Few wafers: read this as a hint, not a finding." : ".");
       series.push({ label: "least squares (r = " + fit.r.toFixed(2) + ", n = " + fit.n + ")", style: 7, line: true, dash: [8, 4], points: [[x0, fit.intercept + fit.slope * x0], [x1, fit.intercept + fit.slope * x1]] });
     } else fitText = "No least-squares line: it needs at least 3 wafers whose values vary (" + pts.length + " plotted).";
     var title = axisLabel(yv) + " against " + axisLabel(xv);

@@ -8,7 +8,7 @@ import path from "node:path";
 import vm from "node:vm";
 import { describe, expect, it } from "vitest";
 
-type Fit = { n: number; slope: number; intercept: number; r: number } | null;
+type Fit = { n: number; slope: number; intercept: number; r: number; rLow: number | null; rHigh: number | null } | null;
 const context: { window: { waferbookLeastSquares?: (p: [number, number][]) => Fit } } = { window: {} };
 vm.runInNewContext(readFileSync(path.resolve(import.meta.dirname, "../../templates/assets/leastSquares.js"), "utf8"), context);
 const fit = context.window.waferbookLeastSquares!;
@@ -24,6 +24,9 @@ describe("least squares and r on the relation page", () => {
     expect(f.slope).toBeCloseTo(0.5, 3);
     expect(f.intercept).toBeCloseTo(3.0, 2);
     expect(f.r).toBeCloseTo(0.816, 3);
+    // Fisher-z 95 % interval, worked by hand: z = atanh(0.81642) = 1.14635, ±1.959964/√8 → tanh → 0.4244 … 0.9507.
+    expect(f.rLow).toBeCloseTo(0.4244, 3);
+    expect(f.rHigh).toBeCloseTo(0.9507, 3);
   });
 
   it("keeps its digits with large offsets (temperatures near 900 K, densities near 10¹¹)", () => {
