@@ -1,8 +1,11 @@
 /**
  * Covariance of least-squares estimates when each point's variance is known
  * but not equal: the "sandwich" form C = (JᵀJ)⁻¹·(Jᵀ·diag(σ²)·J)·(JᵀJ)⁻¹
- * (Huber, Proc. 5th Berkeley Symp. 1, 221 (1967); White, Econometrica 48, 817
- * (1980)), for an unweighted fit with Jacobian J (n × k) at the solution. Used
+ * for an unweighted fit with Jacobian J (n × k) at the solution. With σ² from
+ * a model (here the Poisson variance of the fitted counts) it is the
+ * model-based sandwich; Huber (Proc. 5th Berkeley Symp. 1, 221 (1967)) and
+ * White (Econometrica 48, 817 (1980)) put the squared residuals in its place,
+ * which also covers a wrong model — the caller scales for that (rsmPeakFind.ts). Used
  * for fits to counts, whose variance is the expected count (Poisson), where the
  * pooled s²·(JᵀJ)⁻¹ understates the scatter of a peak's centre: the centre is
  * set by the high-count points, the pooled variance by the many low-count ones.

@@ -15,7 +15,8 @@
  *    by Levenberg–Marquardt (nonlinearFit.ts). Uncertainty: for the Gaussian fit,
  *    the sandwich covariance with Poisson variances (sandwichCovariance.ts; the
  *    pooled Jacobian errors were about half the Monte Carlo scatter, test/analyse/
- *    standardErrors/xray.test.ts); for the centroid, Poisson counting noise
+ *    standardErrors/xray.test.ts), scaled up by √(χ²/(n − k)) where the peak fits
+ *    worse than counting noise allows; for the centroid, Poisson counting noise
  *    propagated to the weighted mean, σ²(x̄) = Σ(x_i − x̄)²·var(c_i)/W².
  *    If the fit fails or lands outside the window, the centroid is kept.
  * Angles in rad. Pure; throws only for programming errors.
@@ -275,9 +276,16 @@ function gaussianFit(win: number[], ctx: RefineCtx, c: { mu: number; mv: number;
     const f = model(fit.params);
     const jac = jacobian(fit.params);
     const rows = win.map((_, k) => Float64Array.from(jac(k)));
-    const cov = sandwichCovariance(rows, win.map((_, k) => Math.max(f(k), 1)));
-    const eu = Math.sqrt(cov[1][1]);
-    const ev = Math.sqrt(cov[2][2]);
+    const variance = win.map((_, k) => Math.max(f(k), 1));
+    const cov = sandwichCovariance(rows, variance);
+    // Poisson variances give the counting-statistics floor only. When the peak is not the Gaussian the fit
+    // assumes (analyser streaks, mosaic tails), the residuals exceed the counting noise: the errors are then
+    // scaled by √(Pearson χ²/(n − k)) when that exceeds 1 (common practice, e.g. Bevington & Robinson, Data
+    // Reduction and Error Analysis, 3rd ed., §8.1), so a poor fit cannot report a counting-limited centre.
+    const chi2 = win.reduce((acc, j, k) => acc + (ctx.counts[j] - f(k)) ** 2 / variance[k], 0);
+    const inflate = Math.sqrt(Math.max(1, chi2 / Math.max(1, win.length - 6)));
+    const eu = Math.sqrt(cov[1][1]) * inflate;
+    const ev = Math.sqrt(cov[2][2]) * inflate;
     const ok = [u0, v0, eu, ev].every(Number.isFinite) && Math.abs(u0 - c.mu) < 3 * sdu + 1 && Math.abs(v0 - c.mv) < 3 * sdv + 1;
     return ok ? { mu: u0, mv: v0, eu, ev } : undefined;
   } catch {
