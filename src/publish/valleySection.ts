@@ -24,7 +24,7 @@ export interface ValleySectionModel {
 
 /** The caution shown with every prediction (also in docs/formats.md). */
 export const VALLEY_CAUTION =
-  "This is a model estimate of a distribution, not a measurement. It assumes the measured profile represents the whole wafer, and it ignores atomic steps, miscut and strain variations. Its constants come from the literature. Confirm valley splittings on devices (for example by magnetospectroscopy or pulsed-gate spectroscopy) before any decision that matters.";
+  "This is a model estimate of a distribution, not a measurement. It assumes the measured profile represents the whole wafer, and it ignores atomic steps, miscut and strain variations. Its constants come from the literature. It is sensitive to choices the measurement does not fix: which atomic plane is depth zero (a shift of a0/8 can change the deterministic part by tens of percent), the vertical field (the field at the electrons is nearer e·n/2ε than e·n/ε in an undoped stack, which lowers the splittings), and the profile's depth resolution (a broadened SIMS edge lowers the deterministic part; an atom-probe and an image of the same wafer can differ several-fold). Read the figures as a ranking of wafers, not as values. Confirm valley splittings on devices (for example by magnetospectroscopy or pulsed-gate spectroscopy) before any decision that matters.";
 
 const J_PER_UEV = 1.602176634e-25;
 const J_PER_MEV = 1.602176634e-22;
@@ -80,6 +80,8 @@ export function valleySection(s: StructureAnalysis, measured?: { depth: readonly
       { label: "10th percentile of E_v", value: ueV(r.p10) },
       { label: "Deterministic part 2|Δ0| (interface shape)", value: ueV(r.deterministicSplitting) },
       { label: "Disorder σ (each component of δ)", value: ueV(r.sigma) },
+      // σ is on the scale of one component of Δ; the E_v that disorder alone would give is on the scale of 2|Δ0| above.
+      { label: "Disorder alone: mean E_v = √(2π)·σ", value: ueV(Math.sqrt(2 * Math.PI) * r.sigma) },
       { label: `Yield: dots with E_v ≥ ${formatNumber(threshold, 3)} µeV`, value: `${formatNumber(r.yieldFraction * 100, 3)} %` },
     ],
     settings: [

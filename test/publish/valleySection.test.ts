@@ -18,14 +18,19 @@ function section(spike: boolean) {
 }
 
 describe("valleySection page model", () => {
-  it("has the two charts (layers with |ψ|², E_v density with the threshold marked), five figures in µeV and %, the settings and the caution", () => {
+  it("has the two charts (layers with |ψ|², E_v density with the threshold marked), the five figures in µeV and % plus the disorder-only mean, the settings and the caution", () => {
     const v = section(false);
     expect(v.charts.map((c) => c.id)).toEqual(["valley-layers", "valley-distribution"]);
     expect(v.charts[1].limits).toEqual([{ axis: "x", min: 100, label: "threshold 100 µeV" }]);
     expect(v.charts[0].series.map((s) => s.label).join(" | ")).toMatch(/measured.*model.*\|ψ\|²/);
-    expect(v.figures).toHaveLength(5);
-    expect(v.figures.slice(0, 4).every((f) => f.value.endsWith(" µeV"))).toBe(true);
-    expect(v.figures[4].value).toMatch(/ %$/);
+    expect(v.figures).toHaveLength(6);
+    expect(v.figures.filter((f) => !f.label.startsWith("Yield")).every((f) => f.value.endsWith(" µeV"))).toBe(true);
+    expect(v.figures.find((f) => f.label.startsWith("Yield"))!.value).toMatch(/ %$/);
+    // Disorder alone: the Rayleigh mean √(2π)·σ (the Rayleigh distribution's mean, any statistics text), worked from the σ row.
+    const sigma = Number(v.figures.find((f) => f.label.startsWith("Disorder σ"))!.value.replace(" µeV", ""));
+    const alone = Number(v.figures.find((f) => f.label.startsWith("Disorder alone"))!.value.replace(" µeV", ""));
+    expect(alone / sigma).toBeCloseTo(2.5066, 2);
+    expect(v.caution).toMatch(/depth zero/);
     expect(v.settings.find((r) => r.label.startsWith("Vertical field"))!.value).toContain("5.00 MV/m (default");
     expect(v.caution).toMatch(/not a measurement/);
     expect(v.caution).toMatch(/magnetospectroscopy/);
