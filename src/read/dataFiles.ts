@@ -187,6 +187,13 @@ export function decodeText(file: DataFile): string {
     throw new InputError({ file: rel, message: "file is empty", expected: "text content", found: "0 bytes", fix: "commit the measurement data or remove the file" });
   }
   const nul = bytes.indexOf(0);
+  // UTF-16 text (Windows "Unicode" exports): a byte-order mark, or every other byte zero in the first line's ASCII.
+  const bom16 = bytes.length >= 2 && ((bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff));
+  const head = bytes.subarray(0, Math.min(bytes.length, 64));
+  const zeros = (parity: number) => head.filter((b, i) => i % 2 === parity && b === 0).length;
+  if (nul >= 0 && (bom16 || (head.length >= 8 && Math.max(zeros(0), zeros(1)) >= 0.9 * Math.floor(head.length / 2)))) {
+    throw new InputError({ file: rel, line: 1, message: "file is UTF-16 text", expected: "UTF-8 text", found: bom16 ? `a UTF-16 byte-order mark (${bytes[0] === 0xff ? "FF FE" : "FE FF"})` : "every other byte zero (UTF-16 without a byte-order mark)", fix: "save or export the file as UTF-8 (in a spreadsheet: CSV UTF-8); waferbook reads UTF-8 only" });
+  }
   if (nul >= 0) {
     throw new InputError({
       file: rel,
