@@ -12,7 +12,7 @@
     if (a >= 1e-3 && a < 1e4) return String(Number(v.toPrecision(3)));
     var e = Math.floor(Math.log10(a) + 1e-9), m = v / Math.pow(10, e);
     var exp = String(e).split("").map(function (c) { return SUP[c] || c; }).join("");
-    return (Math.abs(m - 1) < 1e-9 ? "" : Number(m.toPrecision(3)) + "\u00d7") + "10" + exp;
+    return (Math.abs(Math.abs(m) - 1) < 1e-9 ? (m < 0 ? "\u2212" : "") : Number(m.toPrecision(3)) + "\u00d7") + "10" + exp;
   }
   /** Round off floating-point noise of m × 10^k (so 2e11 prints as 2×10¹¹, not 1.9999…). */
   function clean(v) { return Number(v.toPrecision(12)); }

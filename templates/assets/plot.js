@@ -10,15 +10,8 @@
   var COLOURS = ["#2c5f66", "#b5632d", "#6a3c98", "#1d6b3a", "#a4262c", "#5b6770", "#8a6d00", "#1f4e96"];
   var SHAPES = ["circle", "rect", "triangle", "rectRot", "crossRot", "star", "cross", "rectRounded"];
   var DASHES = [[], [6, 3], [2, 2], [8, 3, 2, 3], [4, 4], [10, 2], [1, 3], [12, 4]];
-  var SUP = { "-": "\u207b", "0": "\u2070", "1": "\u00b9", "2": "\u00b2", "3": "\u00b3", "4": "\u2074", "5": "\u2075", "6": "\u2076", "7": "\u2077", "8": "\u2078", "9": "\u2079" };
-  function sci(v) {
-    if (v === 0) return "0";
-    var a = Math.abs(v);
-    if (a >= 1e-3 && a < 1e4) return String(Number(v.toPrecision(3)));
-    var e = Math.floor(Math.log10(a) + 1e-9), m = v / Math.pow(10, e);
-    var exp = String(e).split("").map(function (c) { return SUP[c] || c; }).join("");
-    return (Math.abs(Math.abs(m) - 1) < 1e-9 ? (m < 0 ? "\u2212" : "") : Number(m.toPrecision(3)) + "\u00d7") + "10" + exp;
-  }
+  // Number labels and the 1-2-5 log ticks are charts.js's (loaded first on these pages): one formatter for the site.
+  var sci = globalThis.waferbookAxes.sci;
   function logTick(v) {
     var m = v / Math.pow(10, Math.floor(Math.log10(v) + 1e-9));
     return [1, 2, 5].some(function (k) { return Math.abs(m - k) < 1e-6; }) ? sci(v) : "";

@@ -19,15 +19,13 @@
  * Cases a git checkout cannot carry (a symbolic link, a 64 MiB file) are
  * completed at run time (corpus.ts completeCase).
  */
-import { execFile } from "node:child_process";
 import { promises as fs } from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { promisify } from "node:util";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { formatProblem, type Problem } from "../../src/model/problem.ts";
 import type { BuildResult } from "../../src/cli/build.ts";
-import { BAD_DIR, buildCase, caseNames, completeCase, expectedLines, HEALTHY_DIR, prepareCase, ROOT } from "./corpus.ts";
+import { BAD_DIR, buildCase, caseNames, completeCase, expectedLines, HEALTHY_DIR, prepareCase, ROOT, runCli as cli } from "./corpus.ts";
 
 const names = await caseNames();
 const tmps: string[] = [];
@@ -166,16 +164,6 @@ describe("malformed-input corpus", () => {
   });
 });
 
-const run = promisify(execFile);
-async function cli(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  try {
-    const r = await run(process.execPath, [path.join(ROOT, "bin", "waferbook.js"), ...args], { env: { ...process.env, CI: "true" } });
-    return { code: 0, stdout: r.stdout, stderr: r.stderr };
-  } catch (e) {
-    const err = e as { code: number; stdout: string; stderr: string };
-    return { code: err.code, stdout: err.stdout, stderr: err.stderr };
-  }
-}
 
 describe("--strict on the command line", () => {
   it.each(["non-numeric-cell", "yaml-syntax-error", "symlink-outside-data"])("%s: exits 1 with the message and a summary, no stack trace", async (name) => {

@@ -4,9 +4,11 @@
  * cannot live in git (a symbolic link, a file above the size limit), and run
  * the real build into a temporary output folder.
  */
+import { execFile } from "node:child_process";
 import { promises as fs } from "node:fs";
 import os from "node:os";
 import path from "node:path";
+import { promisify } from "node:util";
 import { build, type BuildIO, type BuildResult } from "../../src/cli/build.ts";
 import { MAX_TEXT_FILE_BYTES } from "../../src/read/dataFiles.ts";
 
@@ -57,4 +59,15 @@ export async function expectedLines(name: string, outside: string): Promise<stri
 
 export async function buildCase(data: string, out: string): Promise<BuildResult> {
   return build({ data, out, strict: false, basePath: "/", quiet: true }, io);
+}
+
+/** Runs the waferbook command with `args` (CI=true); its exit code and output, also when it fails. */
+export async function runCli(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
+  try {
+    const r = await promisify(execFile)(process.execPath, [path.join(ROOT, "bin", "waferbook.js"), ...args], { env: { ...process.env, CI: "true" } });
+    return { code: 0, stdout: r.stdout, stderr: r.stderr };
+  } catch (e) {
+    const err = e as { code: number; stdout: string; stderr: string };
+    return { code: err.code, stdout: err.stdout, stderr: err.stderr };
+  }
 }

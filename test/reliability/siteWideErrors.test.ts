@@ -5,24 +5,12 @@
  * the broken file is listed, not only the first. Wafer-level errors keep
  * exit 0 (test/reliability/badInputs.test.ts, "--strict on the command line").
  */
-import { execFile } from "node:child_process";
 import { promises as fs } from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { promisify } from "node:util";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { buildCase, HEALTHY_DIR, ROOT } from "./corpus.ts";
+import { buildCase, HEALTHY_DIR, ROOT, runCli as cli } from "./corpus.ts";
 
-const run = promisify(execFile);
-async function cli(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  try {
-    const r = await run(process.execPath, [path.join(ROOT, "bin", "waferbook.js"), ...args], { env: { ...process.env, CI: "true" } });
-    return { code: 0, stdout: r.stdout, stderr: r.stderr };
-  } catch (e) {
-    const err = e as { code: number; stdout: string; stderr: string };
-    return { code: err.code, stdout: err.stdout, stderr: err.stderr };
-  }
-}
 
 let tmp: string;
 let data: string;

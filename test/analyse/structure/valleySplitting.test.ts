@@ -1,4 +1,5 @@
 import { describe, expect, it } from "vitest";
+import { seededUniform } from "../../../src/synth/random.ts";
 import type { InterfaceFit } from "../../../src/analyse/structure/depthProfile.ts";
 import { dotRadiusNm, valleyCoupling } from "../../../src/analyse/structure/valleyCoupling.ts";
 import { predictValleySplitting } from "../../../src/analyse/structure/valleySplitting.ts";
@@ -13,17 +14,8 @@ const K0 = (0.82 * 2 * Math.PI) / A0; // nm⁻¹, Losert et al. (2023) [M]
 const UEV = 1e-6 * E;
 const SETTINGS = { field: null, orbitalEnergy: 2e-3 * E, bandOffset: 0.5 * E, threshold: 100 * UEV };
 
-/** A tiny seeded generator (mulberry32, common practice), so the Monte Carlo is repeatable and shares no code with src. */
-function mulberry32(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** The generators' seeded uniform numbers (src/synth/random.ts: mulberry32), so the Monte Carlo is repeatable; nothing from src/analyse. */
+const mulberry32 = seededUniform;
 
 const logistic = (u: number) => 1 / (1 + Math.exp(-u));
 
