@@ -24,7 +24,7 @@ import path from "node:path";
 import v8 from "node:v8";
 import { seal, unseal, writeAtomically } from "./cache.ts";
 import { parkedPath } from "./render.ts";
-import type { WaferOutcome } from "./pipeline.ts";
+import type { WaferOutcome } from "../judge/outcome.ts";
 
 /** Bumped when the stored shape changes. */
 const DRAWN_FORMAT = "waferbook-drawn-page-1";

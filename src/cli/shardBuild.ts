@@ -21,11 +21,12 @@ import { codeVersion, defaultCacheDir } from "./cache.ts";
 import { drawnPageKey, hasDrawnPage, storeDrawnPage } from "./drawnPages.ts";
 import { checkCacheFolder } from "./outputGuard.ts";
 import { pageCodeVersion } from "./pageReuse.ts";
-import { judgeOutcome, type PipelineContext, type WaferOutcome } from "./pipeline.ts";
+import type { PipelineContext } from "./pipeline.ts";
 import { shardFolders, type Shard } from "./shard.ts";
 import { WaferJobs } from "./workerPool.ts";
 import { loadSiteInputs } from "../validate/load/site.ts";
-import type { Problem } from "../validate/problem.ts";
+import { judgeOutcome, type WaferOutcome } from "../judge/outcome.ts";
+import type { Problem } from "../model/problem.ts";
 
 export interface ShardResult extends BuildResult {
   shard: Shard & { wafers: number; of: number; cacheDir: string; pagesStored: number };

@@ -10,7 +10,7 @@
  */
 import type { WaferOutcome } from "../judge/outcome.ts";
 import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants.ts";
-import { formatNumber, formatValue, prettyUnit, sig6OrNull } from "./format.ts";
+import { formatNumber, formatValue, prettyUnit, sig6OrNull } from "../model/format.ts";
 import { round, traceSeries } from "./charts.ts";
 import { growthVariables } from "../validate/growth.ts";
 

@@ -5,7 +5,7 @@
  */
 import type { GrowthConditions } from "../validate/growth.ts";
 import { growthVariables } from "../validate/growth.ts";
-import { sig6OrNull } from "./format.ts";
+import { sig6OrNull } from "../model/format.ts";
 
 /** A recorded condition as growers write it: up to 4 significant digits, no padding zeros ("625", "4.5", "0.6"). */
 function asRecorded(v: number, digits = 4): string {

@@ -5,11 +5,11 @@
  * variables a chart axis may show. Built from the slim outcomes; embedded in
  * the page as a JSON block that assets/relation.js reads (works from disk).
  */
-import { METRICS } from "../analyse/metrics.ts";
+import { METRICS } from "../model/metrics.ts";
 import type { WaferOutcome } from "../judge/outcome.ts";
 import { growthVariables } from "../validate/growth.ts";
 import { jsonForScript } from "./charts.ts";
-import { prettyUnit, sig6OrNull } from "./format.ts";
+import { prettyUnit, sig6OrNull } from "../model/format.ts";
 
 export interface RelationVariable {
   key: string;

@@ -20,7 +20,7 @@ import { A_SI, biaxialRatio, latticeDismukes, strainedPerpendicular } from "../p
 import { anglesToQ, layerPeakQ } from "../analyse/structure/reciprocalSpace.ts";
 import type { XrdFileResult } from "../analyse/structure/xrdAnalysis.ts";
 import { escapeXml } from "./waferMapSvg.ts";
-import { formatNumber } from "./format.ts";
+import { formatNumber } from "../model/format.ts";
 import { gradientStops, sequentialRgb, SEQUENTIAL_LUT } from "./colourScales.ts";
 
 export interface RsmFigure {

@@ -18,7 +18,7 @@ import { lttb } from "../analyse/numeric/lttb.ts";
 import type { ChartSeries, ChartSpec } from "./charts.ts";
 
 const POINTS = { rhoxx: 220, rxy: 60, oscillation: 160, model: 100 };
-import { formatNumber } from "./format.ts";
+import { formatNumber } from "../model/format.ts";
 
 /** Four significant digits: plenty for a line on screen. */
 const r4 = (v: number) => (Number.isFinite(v) ? Number(v.toPrecision(4)) : 0);

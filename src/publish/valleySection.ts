@@ -9,7 +9,7 @@
 import type { StructureAnalysis } from "../analyse/structure/index.ts";
 import { VALLEY_GRID_NM } from "../analyse/structure/valleySplitting.ts";
 import { markerSeries, traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
-import { formatNumber } from "./format.ts";
+import { formatNumber } from "../model/format.ts";
 
 export interface ValleySectionModel {
   file: string;

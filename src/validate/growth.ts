@@ -8,7 +8,7 @@
  * names first. Every problem is located (file, line, field) and reported with
  * the others of the file.
  */
-import { didYouMean, InputError, ProblemList, show } from "./problem.ts";
+import { didYouMean, InputError, ProblemList, show } from "../model/problem.ts";
 import { parseQuantity } from "./units.ts";
 
 export interface GrowthLayer {

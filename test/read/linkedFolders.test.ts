@@ -10,7 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { checkData } from "../../src/cli/check.ts";
 import { starterFiles } from "../../src/cli/init.ts";
 import { cacheKey } from "../../src/cli/cache.ts";
-import { formatProblem, type Problem } from "../../src/validate/problem.ts";
+import { formatProblem, type Problem } from "../../src/model/problem.ts";
 
 let root = "";
 let data = "";

@@ -13,7 +13,7 @@ import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { loadSiteInputs } from "../../src/validate/load/site.ts";
 import { loadWafer } from "../../src/validate/load/wafer.ts";
-import type { Problem } from "../../src/validate/problem.ts";
+import type { Problem } from "../../src/model/problem.ts";
 import { useTempDir } from "../helpers/tempDir.ts";
 import { BAD_DIR, caseNames, TODAY } from "./corpus.ts";
 

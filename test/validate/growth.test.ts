@@ -6,7 +6,7 @@
  */
 import { describe, expect, it } from "vitest";
 import { readFrontMatter } from "../../src/read/frontMatter.ts";
-import { InputError } from "../../src/validate/problem.ts";
+import { InputError } from "../../src/model/problem.ts";
 import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
 import { validateWafer } from "../../src/validate/wafer.ts";
 import { growthVariables } from "../../src/validate/growth.ts";

@@ -4,7 +4,7 @@ import { describe, expect, it } from "vitest";
 import { applySettings, DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
 import { validateTargets } from "../../src/validate/targets.ts";
 import { readYaml } from "../../src/read/frontMatter.ts";
-import { InputError } from "../../src/validate/problem.ts";
+import { InputError } from "../../src/model/problem.ts";
 
 const EV = 1.602176634e-19;
 const where = { file: "analysis.yaml", field: "" };
