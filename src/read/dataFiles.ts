@@ -19,7 +19,7 @@
  * the data folder while a build runs is therefore either read as the file it
  * was, or refused; its outside bytes are never read.
  */
-import { constants as fsConstants, promises as fs, type Stats } from "node:fs";
+import { constants as fsConstants, promises as fs, type Dirent, type Stats } from "node:fs";
 import type { FileHandle } from "node:fs/promises";
 import path from "node:path";
 import picomatch from "picomatch";
@@ -255,27 +255,35 @@ function firstInvalidUtf8(bytes: Buffer): number {
 /**
  * Lists every file under a folder, recursively, as paths relative to it
  * (sorted). `label` names the folder in messages (relative to the data
- * folder). A chain of folders whose path exceeds the system's limit
- * (ENAMETOOLONG, e.g. 4096 bytes on Linux) is an InputError located at the
- * chain's first folder, not an internal error.
+ * folder). The walk is node's recursive readdir, the one directory walker
+ * the code uses (also src/cli/codeDigest.ts, cache.ts, pageReuse.ts and
+ * scripts/bundle.mjs). Its entries come from the folder listing (lstat-like),
+ * so a symbolic link is listed as a name and never descended into: whether
+ * it may be read is decided when it is opened (openDataFile: its resolved
+ * path must lie inside the data folder), and a linked wafer folder is
+ * decided before this walk (linkedFolder.ts, with the reason it is skipped).
+ * Everything that is not a folder is listed (links, FIFOs, sockets too), so
+ * a pattern that names one gets the reader's located refusal, not silence.
+ * A chain of folders whose path exceeds the system's limit (ENAMETOOLONG,
+ * e.g. 4096 bytes on Linux) is an InputError located at the chain's first
+ * folder, not an internal error.
  */
 export async function listFiles(dir: string, label = ""): Promise<string[]> {
-  const out: string[] = [];
-  async function walk(sub: string): Promise<void> {
-    const entries = await fs.readdir(path.join(dir, sub), { withFileTypes: true }).catch((err: NodeJS.ErrnoException) => {
-      if (err.code !== "ENAMETOOLONG") throw err;
-      const top = [label, sub.split("/")[0]].filter(Boolean).join("/");
-      const depth = sub.split("/").length;
-      throw new InputError({ file: top, message: "folder path is longer than the system allows", expected: "a path of at most a few thousand characters", found: `folders nested ${depth} deep, ${path.join(dir, sub).length} characters in all`, fix: "flatten the folders or shorten their names" });
-    });
-    for (const e of entries) {
-      const rel = sub ? `${sub}/${e.name}` : e.name;
-      if (e.isDirectory()) await walk(rel);
-      else out.push(rel);
-    }
+  let entries: Dirent[];
+  try {
+    entries = await fs.readdir(dir, { recursive: true, withFileTypes: true });
+  } catch (err) {
+    const e = err as NodeJS.ErrnoException;
+    if (e.code !== "ENAMETOOLONG" || e.path === undefined) throw err;
+    const sub = relPath(dir, e.path);
+    const top = [label, sub.split("/")[0]].filter(Boolean).join("/");
+    const depth = sub.split("/").length;
+    throw new InputError({ file: top, message: "folder path is longer than the system allows", expected: "a path of at most a few thousand characters", found: `folders nested ${depth} deep, ${e.path.length} characters in all`, fix: "flatten the folders or shorten their names" });
   }
-  await walk("");
-  return out.sort();
+  return entries
+    .filter((e) => !e.isDirectory())
+    .map((e) => relPath(dir, path.join(e.parentPath, e.name)))
+    .sort();
 }
 
 /**

@@ -7,7 +7,7 @@ import { promises as fs } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { checkInside, decodeText } from "../../src/read/dataFiles.ts";
+import { checkInside, decodeText, listFiles } from "../../src/read/dataFiles.ts";
 import { formatProblem, InputError } from "../../src/model/problem.ts";
 
 async function message(p: Promise<unknown>): Promise<string> {
@@ -46,6 +46,32 @@ describe("checkInside", () => {
     await fs.mkdir(data);
     await fs.writeFile(path.join(data, "a.csv"), "x");
     expect(await message(checkInside(data, path.join(data, "a.csv")))).toBe("accepted");
+  });
+});
+
+describe("listFiles (node's recursive readdir)", () => {
+  let tmp: string;
+  beforeAll(async () => {
+    tmp = await fs.mkdtemp(path.join(os.tmpdir(), "wb-list-"));
+    const w = path.join(tmp, "w");
+    await fs.mkdir(path.join(w, "transport", "HB1"), { recursive: true });
+    await fs.mkdir(path.join(w, "empty"));
+    await fs.mkdir(path.join(tmp, "elsewhere"));
+    await fs.writeFile(path.join(tmp, "elsewhere", "hidden.csv"), "x");
+    await fs.writeFile(path.join(w, "wafer.md"), "x");
+    await fs.writeFile(path.join(w, "transport", "HB1", "b.csv"), "x");
+    await fs.writeFile(path.join(w, "transport", "HB1", "a.csv"), "x");
+    await fs.symlink(path.join(tmp, "elsewhere"), path.join(w, "transport", "linked")); // a folder link: listed, never descended into
+    await fs.symlink(path.join(w, "wafer.md"), path.join(w, "copy.md"));
+  });
+  afterAll(async () => fs.rm(tmp, { recursive: true, force: true }));
+
+  it("lists every non-folder entry, relative with '/', sorted; links are names, not walked", async () => {
+    const expected = ["copy.md", "transport/HB1/a.csv", "transport/HB1/b.csv", "transport/linked", "wafer.md"];
+    expect(await listFiles(path.join(tmp, "w"))).toEqual(expected);
+    // the same through a link to the folder (a linked wafer folder)
+    await fs.symlink(path.join(tmp, "w"), path.join(tmp, "wl")).catch(() => undefined);
+    expect(await listFiles(path.join(tmp, "wl"))).toEqual(expected);
   });
 });
 
