@@ -5,7 +5,7 @@ const root = path.dirname(fileURLToPath(import.meta.url));
 
 /** Eleventy configuration: templates/ in, pages out; data arrives as the `wb` global from the build driver. */
 export default function (eleventyConfig) {
-  eleventyConfig.setNunjucksEnvironmentOptions({ autoescape: true, throwOnUndefined: false, trimBlocks: true, lstripBlocks: true });
+  eleventyConfig.setNunjucksEnvironmentOptions({ autoescape: true, throwOnUndefined: true, trimBlocks: true, lstripBlocks: true });
   eleventyConfig.addPassthroughCopy({ [path.join(root, "templates", "assets")]: "assets" });
   eleventyConfig.setQuietMode(true);
   // Installed as a package, templates/ lies under node_modules/, which Eleventy skips by default;

@@ -98,7 +98,7 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
     firstReason: o.judgement.reasons[0] ?? "",
     metrics: INDEX_METRICS.map((k) => {
       const m = o.judgement.metrics.find((x) => x.key === k);
-      return { key: k, text: m ? formatValue(m.value, m.spec) : "—", sort: m?.value ?? null, verdict: m?.verdict ?? "unmeasured" };
+      return { key: k, text: m ? formatValue(m.value, m.spec) : "—", sort: m?.value ?? "", verdict: m?.verdict ?? "unmeasured" };
     }),
   }));
   const runIds = [...new Set([...sorted.flatMap((o) => (o.record?.run ? [o.record.run] : [])), ...runs.keys()])].sort();
