@@ -11,6 +11,7 @@ import { build, BuildLockedError, BuildStoppedError } from "./build.ts";
 import { OutputRefusedError } from "./outputGuard.ts";
 import { cacheLine, reportInternalError, reportProblems, summary } from "./report.ts";
 import { buildStamp } from "./buildStamp.ts";
+import { countText } from "../model/format.ts";
 import { buildShard, type ShardResult } from "./shardBuild.ts";
 import type { CommandIO } from "./main.ts";
 
@@ -45,7 +46,7 @@ export async function runBuild(options: BuildOptions, io: CommandIO, { announce 
     }
     if ("shard" in result) {
       const sh = (result as ShardResult).shard;
-      io.out(`shard ${sh.index}/${sh.count}: ${sh.wafers} of ${sh.of} wafers, ${sh.pagesStored} drawn page${sh.pagesStored === 1 ? "" : "s"} stored; cache written to ${path.relative(process.cwd(), sh.cacheDir) || "."} (no site written: copy every shard's cache folder into one and run waferbook build on it)`);
+      io.out(`shard ${sh.index}/${sh.count}: ${sh.wafers} of ${countText(sh.of, "wafer")}, ${countText(sh.pagesStored, "drawn page")} stored; cache written to ${path.relative(process.cwd(), sh.cacheDir) || "."} (no site written: copy every shard's cache folder into one and run waferbook build on it)`);
     } else if (announce) io.out(siteWrittenMessage(path.relative(process.cwd(), result.outDir) || ".", options.basePath));
     const errors = result.problems.filter((p) => p.severity === "error").length;
     if (options.strict && errors > 0) {

@@ -15,6 +15,7 @@ import pLimit from "p-limit";
 import { loadSiteInputs } from "../validate/load/site.ts";
 import { loadWafer } from "../validate/load/wafer.ts";
 import { formatProblem, type Problem } from "../model/problem.ts";
+import { countText } from "../model/format.ts";
 import type { CommandIO } from "./commands.ts";
 import type { PipelineContext } from "./pipeline.ts";
 import { judgeOutcome } from "../judge/outcome.ts";
@@ -77,9 +78,8 @@ export async function checkData(dataDir: string, today: string): Promise<CheckRe
 export function checkSummary(r: CheckResult, seconds: number): string {
   const errors = r.problems.filter((p) => p.severity === "error").length;
   const warnings = r.problems.length - errors;
-  const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? "" : "s"}`;
-  const found = r.problems.length === 0 ? "no problems" : `${plural(errors, "input error")}, ${plural(warnings, "warning")}`;
-  return `checked ${plural(r.wafers, "wafer")} (${plural(r.files, "file")} read): ${found}; ${seconds.toFixed(1)} s`;
+  const found = r.problems.length === 0 ? "no problems" : `${countText(errors, "input error")}, ${countText(warnings, "warning")}`;
+  return `checked ${countText(r.wafers, "wafer")} (${countText(r.files, "file")} read): ${found}; ${seconds.toFixed(1)} s`;
 }
 
 /** The `check` command: argv after "check"; returns the exit code. */

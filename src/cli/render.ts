@@ -14,6 +14,7 @@ import path from "node:path";
 import v8 from "node:v8";
 import type { SiteMeta, waferPageExtras } from "../publish/siteModel.ts";
 import { siteRoot, siteUrl } from "../publish/siteUrl.ts";
+import { countText } from "../model/format.ts";
 import { PACKAGE_ROOT } from "./paths.ts";
 import type { PageModel } from "./waferPages.ts";
 
@@ -79,7 +80,8 @@ function pageUrl(self: FilterThis): string {
 /**
  * Runs Eleventy on templates/ (or one template of it) with `wb` as global data, into outDir; returns the number of files written.
  * Filters: `link` turns a path from the site root into the link a page writes (`{{ "runs/" | link }}`),
- * `siteRoot` gives the root for scripts that build links (`{{ page.url | siteRoot }}`; src/publish/siteUrl.ts).
+ * `siteRoot` gives the root for scripts that build links (`{{ page.url | siteRoot }}`; src/publish/siteUrl.ts),
+ * `count` writes a count with its noun in the right number (`{{ n | count("wafer") }}` → "1 wafer", "2 wafers"; countText in src/model/format.ts).
  */
 export async function renderTemplates(input: string, outDir: string, wb: unknown): Promise<number> {
   process.env.ELEVENTY_SKIP_ESM_RESOLVER ??= "1";
@@ -95,6 +97,7 @@ export async function renderTemplates(input: string, outDir: string, wb: unknown
         return siteUrl(target, pageUrl(this), basePath);
       });
       c.addFilter("siteRoot", (url: string) => siteRoot(url, basePath));
+      c.addFilter("count", (n: number, singular: string, plural?: string) => countText(n, singular, plural));
     },
   });
   elev.disableLogger();

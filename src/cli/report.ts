@@ -4,6 +4,7 @@
  */
 import type { Problem } from "../model/problem.ts";
 import { formatProblem } from "../model/problem.ts";
+import { countText } from "../model/format.ts";
 import type { BuildResult } from "./build.ts";
 import type { Verdict } from "../judge/verdict.ts";
 
@@ -20,13 +21,13 @@ export function summary(result: BuildResult, seconds: number): string {
   const verdicts = SUMMARY_ORDER.filter((v) => counts.has(v)).map((v) => `${counts.get(v)} ${v}`).join(", ");
   const errors = result.problems.filter((p) => p.severity === "error").length;
   const warnings = result.problems.filter((p) => p.severity === "warning").length;
-  return `${result.outcomes.length} wafers (${verdicts || "none"}); ${errors} input error${errors === 1 ? "" : "s"}, ${warnings} warning${warnings === 1 ? "" : "s"}; ${seconds.toFixed(1)} s`;
+  return `${countText(result.outcomes.length, "wafer")} (${verdicts || "none"}); ${countText(errors, "input error")}, ${countText(warnings, "warning")}; ${seconds.toFixed(1)} s`;
 }
 
 /** What the build took from the cache and what it did itself: "analysed 0 wafers (14 from the cache); drew 0 pages (14 from the cache, 0 reused)". */
 export function cacheLine(stats: NonNullable<BuildResult["stats"]>): string {
   const pages = stats.pagesFromCache !== undefined ? ` (${stats.pagesFromCache} from the cache, ${stats.pagesReused} reused from the previous site)` : "";
-  return `analysed ${stats.analysed} wafer${stats.analysed === 1 ? "" : "s"} (${stats.cacheHits} from the cache)${stats.drawn !== undefined ? `; drew ${stats.drawn} page${stats.drawn === 1 ? "" : "s"}${pages}` : ""}`;
+  return `analysed ${countText(stats.analysed, "wafer")} (${stats.cacheHits} from the cache)${stats.drawn !== undefined ? `; drew ${countText(stats.drawn, "page")}${pages}` : ""}`;
 }
 
 /** Prints an internal error (a bug): what to do, then the stack trace. The caller returns EXIT.internal. */

@@ -14,6 +14,7 @@
  * Points are taken in the order given, which must be time order (e.g. growth date).
  * A point exactly on an edge is NOT beyond it: zones count edges strictly exceeded.
  */
+import { countText } from "../model/format.ts";
 
 /** d₂ for subgroups of n = 2 (moving range of two consecutive points). */
 export const D2_MOVING_RANGE = 1.128;
@@ -147,7 +148,7 @@ function resolveBaseline(
   }
   const count = to - from + 1;
   if (count < 2) {
-    return { reason: `the baseline has ${Math.max(count, 0)} point(s); at least 2 are needed for a moving range` };
+    return { reason: `the baseline has ${countText(Math.max(count, 0), "point")}; at least 2 are needed for a moving range` };
   }
   return { from, to };
 }

@@ -33,6 +33,15 @@ export function sig6OrNull(v: number | undefined | null): number | null {
   return v == null || !Number.isFinite(v) ? null : sig6(v);
 }
 
+/**
+ * A count with its noun in the right number: countText(1, "wafer") → "1 wafer",
+ * countText(0, "wafer") → "0 wafers", countText(2, "match", "matches") → "2 matches".
+ * English plural: 1 takes the singular, every other count the plural.
+ */
+export function countText(n: number, singular: string, plural = `${singular}s`): string {
+  return `${n} ${n === 1 ? singular : plural}`;
+}
+
 /** Significant-digit formatting with engineering-friendly exponents: 1.23×10¹¹. */
 export function formatNumber(v: number, digits = 3): string {
   if (!Number.isFinite(v)) return "—";

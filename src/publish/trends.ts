@@ -11,7 +11,7 @@ import { DEFAULT_MAX_PASSES, ROUGH_BASELINE_BELOW } from "../judge/phaseOne.ts";
 import type { Targets } from "../validate/targets.ts";
 import { DEFAULT_TREND_SETTINGS } from "../validate/trendSettings.ts";
 import { jsonForScript, markerSeries, SERIES_ROLES, type ChartSeries, type ChartSpec } from "./charts.ts";
-import { formatNumber, formatValue, prettyUnit, sig6 } from "../model/format.ts";
+import { countText, formatNumber, formatValue, prettyUnit, sig6 } from "../model/format.ts";
 
 /** One wafer's values, as the site model knows them. */
 export interface TrendWafer {
@@ -76,7 +76,7 @@ function trendCharts(spec: MetricSpec, groups: Trend[], by: string, targets: Tar
   const target = targets?.grades[targets.defaultGrade]?.[spec.key];
   const limits = target ? [{ axis: "y" as const, min: target.min, max: target.max, label: `target (${targets!.defaultGrade})` }] : undefined;
   const limitText = groups.map((t) => `${by === "none" ? "" : `${groupName(by, t.group)}: `}${t.ok ? `centre line ${formatValue(t.limits.centreLine, spec)}, control limits ${formatValue(t.limits.lcl, spec)} to ${formatValue(t.limits.ucl, spec)}` : `no limits (${t.reason})`}`).join("; ");
-  const summary = `${all.length} wafers; ${limitText}; ${flagged.length} point(s) flagged${flagged.length ? `: ${flagged.map((p) => p.id).join(", ")}` : ""}${left.length ? `; ${left.length} left out` : ""}. The table below lists every point.`;
+  const summary = `${countText(all.length, "wafer")}; ${limitText}; ${countText(flagged.length, "point")} flagged${flagged.length ? `: ${flagged.map((p) => p.id).join(", ")}` : ""}${left.length ? `; ${left.length} left out` : ""}. The table below lists every point.`;
   const base = { x: { label: "Growth date", dates: true }, y: { label: `${spec.label}${unit ? ` (${unit})` : ""}` }, limits };
   const charts: ChartSpec[] = [{ id: `trend-${spec.key}-run`, title: `${spec.label} by growth date, grouped by run`, ...base, series: [...groupSeries(judged, (p) => p.run ?? "", "run", href), ...overlay, ...lines], summary }];
   if (all.some((p) => p.reactor)) {

@@ -111,7 +111,7 @@
       else th.removeAttribute("aria-sort");
       th.querySelector(".sort-mark").textContent = i === state.sort ? (state.dir === "asc" ? " \u25b4" : " \u25be") : "";
     });
-    count.textContent = shown + " of " + rows.length + " wafers shown";
+    count.textContent = shown + " of " + rows.length + (rows.length === 1 ? " wafer" : " wafers") + " shown";
     if (updateUrl) writeUrl();
   }
 

@@ -85,7 +85,7 @@
       tb.appendChild(tr);
     });
     var missing = shown.length - pts.length;
-    status.textContent = pts.length + " of " + data.wafers.length + " wafers plotted" + (missing ? "; " + missing + " pass the filters but lack one of the two values" : "") + ".";
+    status.textContent = pts.length + " of " + data.wafers.length + (data.wafers.length === 1 ? " wafer" : " wafers") + " plotted" + (missing ? "; " + missing + " pass the filters but lack one of the two values" : "") + ".";
     if (chart) chart.destroy();
     chart = pts.length ? window.waferbookPlot(canvas, { x: { label: axisLabel(xv) }, y: { label: axisLabel(yv) }, series: series }) : null;
   }

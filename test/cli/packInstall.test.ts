@@ -102,7 +102,7 @@ describe("waferbook packed, installed into an empty data repository and run with
   });
 
   it("builds the site: index, wafer pages, the libraries' browser files", async () => {
-    expect(build.stdout).toMatch(/^1 wafers \(/m);
+    expect(build.stdout).toMatch(/^1 wafer \(/m);
     const index = await fs.readFile(path.join(app, "site", "index.html"), "utf8");
     for (const w of WAFERS) {
       expect(index).toContain(`wafers/${w}/index.html`);
