@@ -1,9 +1,7 @@
 // The lab's decision on a wafer (wafer.md `decision:`, issue 15 §4): located validation errors, the
 // conflict with the computed verdict, and the commit that recorded it (temporary git repository).
 // No published values: the expectations follow from the rules in docs/formats.md §1 and the limits below.
-import { execFileSync } from "node:child_process";
-import { mkdirSync, mkdtempSync, realpathSync, rmSync, writeFileSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { mkdirSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { readFrontMatter } from "../../src/read/frontMatter.ts";
@@ -17,6 +15,7 @@ import { loadDataHistory } from "../../src/validate/load/history.ts";
 import { decisionCommits, type DecisionCommit } from "../../src/validate/load/decisionCommits.ts";
 import { parse } from "csv-parse/sync";
 import { makeOutcome, targetsFrom } from "../helpers/outcome.ts";
+import { GIT_ENV, hasGit, mobilityTargets, tempRepo } from "../helpers/targetsHistory.ts";
 
 const FILE = "wafers/W1/wafer.md";
 const record = (decision: string) => `---\nwafer: W1\nrun: R1\ngrown: 2025-01-10\n${decision}---\nNotes.\n`;
@@ -47,7 +46,7 @@ describe("decision: validation", () => {
 });
 
 describe("decision: conflict with the computed verdict", () => {
-  const targets = targetsFrom(`default_grade: qubit\ngrades:\n  qubit:\n    peak_mobility: { min: "1.0e5 cm^2/(V s)" }\n`);
+  const targets = targetsFrom(mobilityTargets("1.0e5"));
   const d = (state: "released" | "held" | "rejected") => ({ state, by: "C. Quill", date: "2025-02-01", reason: "r" });
   const failing = (state: "released" | "held" | "rejected") => makeOutcome({ id: "F", devices: { HB1: { peak_mobility: 0.8e5 } }, decision: d(state) }, targets);
   const passing = (state: "released" | "held" | "rejected") => makeOutcome({ id: "P", devices: { HB1: { peak_mobility: 1.2e5 } }, decision: d(state) }, targets);
@@ -71,41 +70,27 @@ describe("decision: conflict with the computed verdict", () => {
   });
 });
 
-const TMP = realpathSync(tmpdir());
-const ENV = { GIT_CONFIG_GLOBAL: "/dev/null", GIT_CONFIG_NOSYSTEM: "1", GIT_CEILING_DIRECTORIES: TMP };
-let hasGit = true;
-try {
-  execFileSync("git", ["--version"]);
-} catch {
-  hasGit = false;
-}
-
 describe.skipIf(!hasGit)("decision: the commit that recorded it", () => {
-  let root = "";
+  let repo: ReturnType<typeof tempRepo> | undefined;
   let data = "";
-  const git = (args: string[], env: Record<string, string> = {}) => execFileSync("git", args, { cwd: root, encoding: "utf8", env: { ...process.env, ...ENV, ...env } });
-  const commit = (msg: string, committer: string, date: string) => {
-    git(["add", "-A"]);
-    git(["-c", `user.name=${committer}`, "-c", "user.email=x@example.invalid", "commit", "-q", "-m", msg], { GIT_AUTHOR_DATE: date, GIT_COMMITTER_DATE: date });
-  };
   const find = async (decision: ReturnType<typeof validate>["decision"]): Promise<DecisionCommit | undefined> => {
-    const history = await loadDataHistory(data, makeGitRunner({ env: ENV }));
-    return (await decisionCommits(data, history, [{ id: "W1", file: FILE, decision }], makeGitRunner({ env: ENV }))).get("W1");
+    const history = await loadDataHistory(data, makeGitRunner({ env: GIT_ENV }));
+    return (await decisionCommits(data, history, [{ id: "W1", file: FILE, decision }], makeGitRunner({ env: GIT_ENV }))).get("W1");
   };
 
   beforeAll(() => {
-    root = mkdtempSync(join(TMP, "wb-dec-"));
-    data = join(root, "data");
+    repo = tempRepo("wb-dec-");
+    const { commit } = repo;
+    data = join(repo.root, "data");
     mkdirSync(join(data, "wafers", "W1"), { recursive: true });
-    git(["init", "-q"]);
     writeFileSync(join(data, FILE), record(""));
-    commit("record W1", "Ada Fictional", "2025-01-11T10:00:00+00:00");
+    commit("record W1", "2025-01-11T10:00:00+00:00", "Ada Fictional");
     writeFileSync(join(data, FILE), record(DECISION));
-    commit("W1: released", "Bo Technician", "2025-02-01T10:00:00+00:00");
+    commit("W1: released", "2025-02-01T10:00:00+00:00", "Bo Technician");
     writeFileSync(join(data, FILE), record(DECISION).replace("Notes.", "More notes."));
-    commit("W1: notes", "Ada Fictional", "2025-02-03T10:00:00+00:00");
+    commit("W1: notes", "2025-02-03T10:00:00+00:00", "Ada Fictional");
   });
-  afterAll(() => rmSync(root, { recursive: true, force: true }));
+  afterAll(() => repo?.remove());
 
   it("names the commit that recorded today's decision and its committer, and notes that it is not the decider", async () => {
     const c = await find(validate(record(DECISION)).decision);

@@ -1,41 +1,24 @@
 // Verdicts over time against a temporary git repository built here. No published values: the expectations
 // follow from the targets this test commits (limits derived by hand from the values below).
-import { execFileSync } from "node:child_process";
-import { mkdirSync, mkdtempSync, realpathSync, rmSync, writeFileSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { makeGitRunner } from "../../src/read/gitHistory.ts";
 import { loadDataHistory, type DataHistory } from "../../src/validate/load/history.ts";
 import { firstRecorded, verdictsOverTime } from "../../src/judge/verdictHistory.ts";
 import { changesModel, waferHistoryModel } from "../../src/publish/history.ts";
+import { GIT_ENV, GIT_TMP, hasGit, historyWafer, mobilityTargets as targets, tempRepo } from "../helpers/targetsHistory.ts";
 
-const TMP = realpathSync(tmpdir());
-const ENV = { GIT_CONFIG_GLOBAL: "/dev/null", GIT_CONFIG_NOSYSTEM: "1", GIT_CEILING_DIRECTORIES: TMP };
-let hasGit = true;
-try {
-  execFileSync("git", ["--version"]);
-} catch {
-  hasGit = false;
-}
-
-const targets = (min: string) => `default_grade: qubit\ngrades:\n  qubit:\n    peak_mobility: { min: "${min} cm^2/(V s)" }\n`;
 
 describe.skipIf(!hasGit)("verdicts over time (temporary repository)", () => {
-  let root = "";
+  let repo: ReturnType<typeof tempRepo> | undefined;
   let history: DataHistory | null = null;
-  const git = (args: string[], date?: string) =>
-    execFileSync("git", args, { cwd: root, encoding: "utf8", env: { ...process.env, ...ENV, ...(date ? { GIT_AUTHOR_DATE: date, GIT_COMMITTER_DATE: date } : {}) } });
-  const commit = (msg: string, date: string) => {
-    git(["add", "-A"]);
-    git(["-c", "user.name=Ada Fictional", "-c", "user.email=ada@example.invalid", "commit", "-q", "-m", msg], date);
-  };
 
   beforeAll(async () => {
-    root = mkdtempSync(join(TMP, "wb-vot-"));
-    const data = join(root, "data");
+    repo = tempRepo("wb-vot-");
+    const { commit } = repo;
+    const data = join(repo.root, "data");
     mkdirSync(join(data, "wafers", "W1"), { recursive: true });
-    git(["init", "-q"]);
     writeFileSync(join(data, "targets.yaml"), targets("0.5e5"));
     commit("first targets", "2024-01-01T10:00:00+00:00");
     writeFileSync(join(data, "targets.yaml"), targets("1.0e5"));
@@ -46,9 +29,9 @@ describe.skipIf(!hasGit)("verdicts over time (temporary repository)", () => {
     commit("targets: 2e5", "2024-04-01T10:00:00+00:00");
     writeFileSync(join(data, "targets.yaml"), "default_grade: qubit\ngrades:\n  qubit:\n    peak_mobilty: { min: \"1 cm^2/(V s)\" }\n");
     commit("targets: typo", "2024-05-01T10:00:00+00:00");
-    history = await loadDataHistory(data, makeGitRunner({ env: ENV }));
+    history = await loadDataHistory(data, makeGitRunner({ env: GIT_ENV }));
   });
-  afterAll(() => rmSync(root, { recursive: true, force: true }));
+  afterAll(() => repo?.remove());
 
   it("reads HEAD, the data commits and every targets version", () => {
     expect(history).not.toBeNull();
@@ -60,7 +43,7 @@ describe.skipIf(!hasGit)("verdicts over time (temporary repository)", () => {
 
   it("passes under the targets in force when recorded, fails under a later one, and shows a version that no longer parses", () => {
     // Peak mobility 1.5e5 cm²/(V s): ≥ 1e5 passes, ≥ 2e5 fails.
-    const w = { values: { peak_mobility: { perDevice: { HB1: 1.5e5 } } }, waivers: [], hasErrors: false };
+    const w = historyWafer({ peak_mobility: 1.5e5 });
     const rows = verdictsOverTime(w, history!.targetsVersions, firstRecorded(history!.commits, "W1"));
     expect(rows.map((r) => r.subject)).toEqual(["targets: 1e5", "targets: 2e5", "targets: typo"]);
     expect(rows.map((r) => r.verdict)).toEqual(["pass", "fail", null]);
@@ -70,7 +53,7 @@ describe.skipIf(!hasGit)("verdicts over time (temporary repository)", () => {
   });
 
   it("an uncommitted wafer is judged under the newest version only; an unknown grade is said plainly", () => {
-    const w = { values: { peak_mobility: { perDevice: { HB1: 1.5e5 } } }, waivers: [], hasErrors: false };
+    const w = historyWafer({ peak_mobility: 1.5e5 });
     expect(verdictsOverTime(w, history!.targetsVersions, undefined).map((r) => r.subject)).toEqual(["targets: typo"]);
     const rows = verdictsOverTime({ ...w, grade: "test" }, history!.targetsVersions, "2024-03-01T10:00:00+00:00");
     expect(rows[0].note).toContain("grade test was not defined");
@@ -87,8 +70,8 @@ describe.skipIf(!hasGit)("verdicts over time (temporary repository)", () => {
   });
 
   it("outside a repository there is no history, and no throw", async () => {
-    const outside = mkdtempSync(join(TMP, "wb-vot-none-"));
-    expect(await loadDataHistory(outside, makeGitRunner({ env: ENV }))).toBeNull();
+    const outside = mkdtempSync(join(GIT_TMP, "wb-vot-none-"));
+    expect(await loadDataHistory(outside, makeGitRunner({ env: GIT_ENV }))).toBeNull();
     rmSync(outside, { recursive: true, force: true });
     expect(changesModel(null, [], "/").available).toBe(false);
   });

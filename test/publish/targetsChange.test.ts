@@ -1,63 +1,41 @@
 // A commit to targets.yaml on the changes page (issue 15 §4): limit by limit (grade, metric, before →
 // after) and the wafers whose verdict that commit changed. Against a temporary git repository built
 // here; the expected verdicts follow by hand from the values and limits below (no published values).
-import { execFileSync } from "node:child_process";
-import { mkdirSync, mkdtempSync, realpathSync, rmSync, writeFileSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { mkdirSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { makeGitRunner } from "../../src/read/gitHistory.ts";
 import { loadDataHistory, type DataHistory } from "../../src/validate/load/history.ts";
 import { changesModel } from "../../src/publish/history.ts";
+import { GIT_ENV, hasGit, historyWafer, mobilityTargets, tempRepo } from "../helpers/targetsHistory.ts";
 
-const TMP = realpathSync(tmpdir());
-const ENV = { GIT_CONFIG_GLOBAL: "/dev/null", GIT_CONFIG_NOSYSTEM: "1", GIT_CEILING_DIRECTORIES: TMP };
-let hasGit = true;
-try {
-  execFileSync("git", ["--version"]);
-} catch {
-  hasGit = false;
-}
 
-const v1 = `default_grade: qubit
-grades:
-  qubit:
-    peak_mobility: { min: "1.0e5 cm^2/(V s)" }
-    turn_on_voltage: { between: ["0.1 V", "0.6 V"] }
-  test:
-    peak_mobility: { min: "3e4 cm^2/(V s)" }
-`;
+const v1 = mobilityTargets("1.0e5", { qubit: ['turn_on_voltage: { between: ["0.1 V", "0.6 V"] }'], grades: '  test:\n    peak_mobility: { min: "3e4 cm^2/(V s)" }\n' });
 // Raises the mobility minimum to 1.3e5 and adds a guard band; the test grade is untouched.
 const v2 = v1.replace('peak_mobility: { min: "1.0e5 cm^2/(V s)" }', 'peak_mobility: { min: "1.3e5 cm^2/(V s)", guard: "5 %" }');
 
-const wafer = (id: string, mobility: number, grade?: string) => ({ id, values: { peak_mobility: { perDevice: { HB1: mobility } }, turn_on_voltage: { perDevice: { HB1: 0.3 } } }, grade, waivers: [], hasErrors: false });
+const wafer = (id: string, mobility: number, grade?: string) => ({ id, ...historyWafer({ peak_mobility: mobility, turn_on_voltage: 0.3 }, { grade }) });
 // Under v1 (min 1.0e5) all pass. Under v2 (min 1.3e5, guard 5 % of 1.3e5 = 6500 → marginal below 1.365e5):
 // A 1.10e5 → fail, B 1.20e5 → fail, C 1.36e5 → marginal, D 1.50e5 → pass (unchanged), E (grade test, 1.1e5) unchanged.
 const WAFERS = [wafer("A", 1.1e5), wafer("B", 1.2e5), wafer("C", 1.36e5), wafer("D", 1.5e5), wafer("E", 1.1e5, "test")];
 
 describe.skipIf(!hasGit)("a targets commit on the changes page", () => {
-  let root = "";
+  let repo: ReturnType<typeof tempRepo> | undefined;
   let history: DataHistory | null = null;
-  const git = (args: string[], date?: string) =>
-    execFileSync("git", args, { cwd: root, encoding: "utf8", env: { ...process.env, ...ENV, ...(date ? { GIT_AUTHOR_DATE: date, GIT_COMMITTER_DATE: date } : {}) } });
-  const commit = (msg: string, date: string) => {
-    git(["add", "-A"]);
-    git(["-c", "user.name=Ada Fictional", "-c", "user.email=ada@example.invalid", "commit", "-q", "-m", msg], date);
-  };
 
   beforeAll(async () => {
-    root = mkdtempSync(join(TMP, "wb-tch-"));
-    const data = join(root, "data");
+    repo = tempRepo("wb-tch-");
+    const { commit } = repo;
+    const data = join(repo.root, "data");
     mkdirSync(join(data, "wafers", "A"), { recursive: true });
-    git(["init", "-q"]);
     writeFileSync(join(data, "targets.yaml"), v1);
     writeFileSync(join(data, "wafers", "A", "wafer.md"), "---\nwafer: A\n---\n");
     commit("first targets", "2024-01-01T10:00:00+00:00");
     writeFileSync(join(data, "targets.yaml"), v2);
     commit("raise the mobility minimum", "2024-02-01T10:00:00+00:00");
-    history = await loadDataHistory(data, makeGitRunner({ env: ENV }));
+    history = await loadDataHistory(data, makeGitRunner({ env: GIT_ENV }));
   });
-  afterAll(() => rmSync(root, { recursive: true, force: true }));
+  afterAll(() => repo?.remove());
 
   it("lists the changed limit and the wafers whose verdict the commit changed, old → new, with links", () => {
     const m = changesModel(history, WAFERS.map((w) => w.id), "/", WAFERS);
