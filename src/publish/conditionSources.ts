@@ -60,7 +60,7 @@ const base = (file: string) => file.split("/").at(-1) ?? file;
 
 function sweepList(files: string[], all: number): string {
   const count = `${files.length} sweep${files.length === 1 ? "" : "s"}`;
-  if (files.length === all) return all === 1 ? "its one sweep" : `all ${count}`;
+  if (files.length === all) return all === 1 ? "its one sweep" : all === 2 ? "both sweeps" : `all ${count}`;
   const named = files.slice(0, 4).map(base).join(", ");
   return `${count}: ${named}${files.length > 4 ? ` and ${files.length - 4} more` : ""}`;
 }
