@@ -9,11 +9,13 @@
 export type ConditionOrigin = "file-line" | "rule-file-name" | "rule-line" | "record-value" | "file-column";
 
 export interface ConditionSource {
-  /** The condition: gate, field, temperature or current. */
+  /** The condition: gate, field, temperature, current, or field_range (a field sweep's B column). */
   key: string;
   origin: ConditionOrigin;
   /** The value in SI units (V, T, K, A); for a current column, the mean over the rows. */
   value?: number;
+  /** For a range read from a column (field_range): the smallest and largest value, SI units. */
+  span?: [number, number];
   /** The file line the value was read from (file-line, rule-line). */
   line?: number;
   /** The rule as wafer.md writes it, such as `gate.file_name` (rule-file-name, rule-line, record-value). */

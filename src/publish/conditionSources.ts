@@ -22,8 +22,9 @@ export interface ConditionLine {
   missing: string;
 }
 
-type Key = "gate" | "field" | "temperature" | "current";
+type Key = "gate" | "field" | "temperature" | "current" | "field_range";
 const CONDITIONS: { key: Key; label: string; only?: "field" | "gate" }[] = [
+  { key: "field_range", label: "field range (field sweeps)", only: "field" },
   { key: "gate", label: "gate voltage (field sweeps)", only: "field" },
   { key: "field", label: "field (gate sweeps)", only: "gate" },
   { key: "temperature", label: "temperature" },
@@ -37,7 +38,7 @@ const CONDITIONS: { key: Key; label: string; only?: "field" | "gate" }[] = [
 export function conditionValue(key: Key, lo: number, hi = lo): string {
   const n = (x: number) => String(Number(x.toPrecision(4))).replace("-", "−");
   const a = Math.max(Math.abs(lo), Math.abs(hi));
-  const [unit, factor] = key === "gate" ? ["V", 1] : key === "field" ? ["T", 1] : key === "temperature" ? ["K", 1] : a < 1e-6 ? ["nA", 1e9] : a < 1e-3 ? ["µA", 1e6] : ["mA", 1e3];
+  const [unit, factor] = key === "gate" ? ["V", 1] : key === "field" || key === "field_range" ? ["T", 1] : key === "temperature" ? ["K", 1] : a < 1e-6 ? ["nA", 1e9] : a < 1e-3 ? ["µA", 1e6] : ["mA", 1e3];
   return lo === hi ? `${n(lo * factor)} ${unit}` : `${n(lo * factor)} … ${n(hi * factor)} ${unit}`;
 }
 
@@ -52,7 +53,7 @@ function sourceText(s: ConditionSource, lines: Set<number>): string {
     case "record-value":
       return "a fixed value in the wafer record";
     case "file-column":
-      return `the mean of the file's ${s.column ?? "I"} column`;
+      return s.span ? `the file's ${s.column} column` : `the mean of the file's ${s.column ?? "I"} column`;
   }
 }
 
@@ -81,6 +82,7 @@ export function deviceConditions(d: Pick<DeviceAnalysis, "conditions">): Conditi
         continue;
       }
       if (src.value !== undefined) values.push(src.value);
+      if (src.span) values.push(...src.span);
       const id = `${src.origin}|${src.rule ?? ""}|${src.ruleAt ?? ""}|${src.column ?? ""}`;
       const g = groups.get(id) ?? { first: src, files: [], lines: new Set<number>() };
       g.files.push(s.file);

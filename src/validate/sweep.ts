@@ -34,7 +34,7 @@ export interface Sweep {
   direction: "up" | "down";
   rows: number;
   warnings: Problem[];
-  /** Where each condition the sweep carries (gate, field, temperature, current) came from, in that order. */
+  /** Where each condition the sweep carries (gate, field, temperature, current) came from, in that order, then a field sweep's field range (its B column). */
   conditions?: ConditionSource[];
 }
 
@@ -191,6 +191,12 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
   const rb = toResistance("Rb");
   if (current_A === undefined && currentCol) current_A = currentCol.reduce((a, b) => a + b, 0) / currentCol.length;
   const conditions = conditionSources(t, { gate: gate_V, field: field_T, temperature: temperature_K, current: current_A }, !!currentCol);
+  if (kind === "field" && x!.length) {
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (const b of x!) [lo, hi] = [Math.min(lo, b), Math.max(hi, b)];
+    conditions.push({ key: "field_range", origin: "file-column", span: [lo, hi], column: "B" });
+  }
   return { file: t.file, kind, geometry, gate_V, field_T, temperature_K, current_A, x: x!, rxx, rxy, ra, rb, direction: direction!, rows: x!.length, warnings, conditions };
 }
 

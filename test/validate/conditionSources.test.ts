@@ -36,6 +36,7 @@ describe("condition sources of a sweep", () => {
       { key: "gate", origin: "rule-file-name", value: 0.35, rule: "gate.file_name", ruleAt: "wafers/W-1/wafer.md:25" },
       { key: "temperature", origin: "rule-line", value: 1.6, line: 2, rule: "temperature.line", ruleAt: "wafers/W-1/wafer.md:26" },
       { key: "current", origin: "record-value", value: expect.closeTo(1e-8, 20), rule: "current.value", ruleAt: "wafers/W-1/wafer.md:27" },
+      { key: "field_range", origin: "file-column", span: [expect.closeTo(-0.1, 12), expect.closeTo(0.1, 12)], column: "B" }, // ±100 mT
     ]);
   });
 
@@ -46,6 +47,7 @@ describe("condition sources of a sweep", () => {
       { key: "gate", origin: "file-line", value: 0.4, line: 1 },
       { key: "temperature", origin: "file-line", value: 0.3, line: 2 },
       { key: "current", origin: "file-column", value: 1e-8, column: "I" },
+      { key: "field_range", origin: "file-column", span: [-1, 1], column: "B" },
     ]);
   });
 
@@ -55,7 +57,8 @@ describe("condition sources of a sweep", () => {
     const c = validateSweep(readInstrumentTable(`logger\nno temperature here\n${body}`, "wafers/W-1/t/Vg=0.3V.dat", rules), "hall-bar");
     expect(a.warnings.map((w) => w.message)).toEqual(['the file\'s own "# temperature:" line and the rule `temperature.line` (wafers/W-1/wafer.md:26) disagree; the file\'s line is used']);
     const lines = deviceConditions({ conditions: [a, b, c].map((s) => ({ file: s.file, kind: s.kind, sources: s.conditions ?? [] })) });
-    expect(lines.map((l) => l.label)).toEqual(["gate voltage (field sweeps)", "temperature", "source current"]);
+    expect(lines.map((l) => l.label)).toEqual(["field range (field sweeps)", "gate voltage (field sweeps)", "temperature", "source current"]);
+    expect(lines.shift()).toMatchObject({ values: "−0.1 … 0.1 T", sources: [{ text: "the file's B column", sweeps: "all 3 sweeps" }] });
     expect(lines[0]).toMatchObject({ values: "0.1 … 0.3 V", sources: [{ text: "the file name, by reading rule", rule: "gate.file_name", ruleAt: "wafers/W-1/wafer.md:25", sweeps: "all 3 sweeps" }], missing: "" });
     expect(lines[1]).toMatchObject({
       values: "1.6 … 4.2 K",
