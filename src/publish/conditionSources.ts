@@ -70,7 +70,7 @@ function sweepList(files: string[], all: number): string {
 export function deviceConditions(d: Pick<DeviceAnalysis, "conditions">): ConditionLine[] {
   const lines: ConditionLine[] = [];
   for (const c of CONDITIONS) {
-    const sweeps = d.conditions.filter((s) => !c.only || s.kind === c.only);
+    const sweeps = (d.conditions ?? []).filter((s) => !c.only || s.kind === c.only);
     if (sweeps.length === 0) continue;
     const groups = new Map<string, { first: ConditionSource; files: string[]; lines: Set<number> }>();
     const missing: string[] = [];
