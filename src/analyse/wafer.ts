@@ -10,6 +10,7 @@ import { analyseStructure, STRUCTURE_BULK, type StructureAnalysis } from "./stru
 import type { StructureInputs } from "../model/structureInputs.ts";
 import { analyseImages, type ImageAnalysis } from "./images/index.ts";
 import type { ImageInputs } from "../model/imageInputs.ts";
+import type { ConditionSource } from "../model/conditionSource.ts";
 import { analyseDeviceDepth, DEVICE_DEPTH_BULK, type DeviceDepth } from "./transport/deviceDepth.ts";
 import { putMetric } from "../model/metrics.ts";
 import { analyseFieldSweep, type TransportPoint } from "./transport/fieldSweep.ts";
@@ -33,6 +34,8 @@ export interface DeviceAnalysis {
   points: TransportPoint[];
   gateSweeps: Sweep[];
   skipped: SkippedFile[];
+  /** Each sweep file's conditions and where they came from (carried from validation for the page), in file order. */
+  conditions: { file: string; kind: Sweep["kind"]; sources: ConditionSource[] }[];
   summary?: DeviceSummary;
   depth?: DeviceDepth;
   /** Metric key → value in the metric's unit. */
@@ -79,7 +82,8 @@ export function analyseDevice(input: DeviceInput, settings: AnalysisSettings): D
   }
   const depth = analyseDeviceDepth(sorted, gateSweeps, settings, input.spec, calibration);
   if (depth) Object.assign(metrics, depth.metrics);
-  return { id: input.spec.id, geometry: input.spec.geometry, at_mm: input.spec.at_mm, points: sorted, gateSweeps, skipped, summary, depth, metrics };
+  const conditions = input.sweeps.map((s) => ({ file: s.file, kind: s.kind, sources: s.conditions ?? [] }));
+  return { id: input.spec.id, geometry: input.spec.geometry, at_mm: input.spec.at_mm, points: sorted, gateSweeps, skipped, conditions, summary, depth, metrics };
 }
 
 /** The wafer's electron density at peak mobility, m⁻²: the mean over its devices (as the metric's default aggregate), or undefined. */

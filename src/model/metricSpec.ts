@@ -16,6 +16,12 @@ export interface MetricSpec {
    * fraction); absent when the quantity may take any sign. Set from src/model/metricBounds.ts.
    */
   bounds?: { min?: number; max?: number };
+  /**
+   * "log" when wafers are best compared on a logarithmic axis (the relation page): strictly
+   * positive quantities that span decades across wafers and are related by power laws. Set from
+   * src/model/metricScale.ts; absent means linear.
+   */
+  axis?: "log";
 }
 
 export const metric = (key: string, label: string, unit: string, fromSI: number, section: MetricSpec["section"], description: string, digits = 3): MetricSpec => ({ key, label, unit, fromSI, section, description, digits });

@@ -11,6 +11,7 @@ import { UNIFORMITY_METRICS } from "./metrics/uniformity.ts";
 
 import { metric, type MetricSpec } from "./metricSpec.ts";
 import { withNaturalBounds } from "./metricBounds.ts";
+import { withAxisScale } from "./metricScale.ts";
 export type { MetricSpec };
 
 const m = metric;
@@ -23,7 +24,7 @@ const HALL_METRICS: MetricSpec[] = [
   m("turn_on_voltage", "Turn-on voltage", "V", 1, "transport", "gate voltage where the fitted density extrapolates to zero"),
 ];
 
-export const METRICS: MetricSpec[] = [...HALL_METRICS, ...TRANSPORT_DEPTH_METRICS, ...STRUCTURE_METRICS, ...IMAGE_METRICS, ...UNIFORMITY_METRICS].map(withNaturalBounds);
+export const METRICS: MetricSpec[] = [...HALL_METRICS, ...TRANSPORT_DEPTH_METRICS, ...STRUCTURE_METRICS, ...IMAGE_METRICS, ...UNIFORMITY_METRICS].map(withNaturalBounds).map(withAxisScale);
 
 export const METRIC_BY_KEY: ReadonlyMap<string, MetricSpec> = new Map(METRICS.map((s) => [s.key, s]));
 

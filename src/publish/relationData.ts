@@ -16,6 +16,8 @@ export interface RelationVariable {
   label: string;
   unit: string;
   group: "metric" | "growth";
+  /** Plotted and fitted on a log axis (the metric registry's `axis`, src/model/metricScale.ts); growth conditions are linear. */
+  log: boolean;
 }
 
 /** `reactorOf`: the wafer's reactor, from its record or its run notes (siteModel.ts). */
@@ -24,7 +26,7 @@ export function relationModel(sorted: readonly WaferOutcome[], reactorOf: (o: Wa
   const seen = new Set<string>();
   for (const m of METRICS) {
     if (sorted.some((o) => o.judgement.metrics.some((j) => j.key === m.key && j.value !== undefined))) {
-      variables.push({ key: m.key, label: m.label, unit: prettyUnit(m.unit), group: "metric" });
+      variables.push({ key: m.key, label: m.label, unit: prettyUnit(m.unit), group: "metric", log: m.axis === "log" });
       seen.add(m.key);
     }
   }
@@ -32,7 +34,7 @@ export function relationModel(sorted: readonly WaferOutcome[], reactorOf: (o: Wa
     for (const v of growthVariables(o.record?.growth)) {
       if (seen.has(v.key)) continue;
       seen.add(v.key);
-      variables.push({ key: v.key, label: v.label, unit: v.unit, group: "growth" });
+      variables.push({ key: v.key, label: v.label, unit: v.unit, group: "growth", log: false });
     }
   }
   const wafers = sorted.map((o) => {

@@ -12,6 +12,7 @@ import type { InterfaceFit } from "../analyse/structure/depthProfile.ts";
 import { radToDeg } from "../analyse/structure/bragg.ts";
 import { markerSeries, traceSeries, type ChartSeries, type ChartSpec } from "./charts.ts";
 import { formatNumber, sig6OrNull } from "../model/format.ts";
+import { formatProblem } from "../model/problem.ts";
 import { stackSvg, type StackRow } from "./structureSvg.ts";
 import { rsmFigure } from "./rsmFigure.ts";
 import { valleySection, type ValleySectionModel } from "./valleySection.ts";
@@ -30,6 +31,13 @@ export interface StructureSectionModel {
   design: { quantity: string; design: string; measured: string; source: string }[];
   profiles: { file: string; method: string; rows: { label: string; value: string }[]; reason?: string }[];
   findings: { severity: string; text: string }[];
+  /**
+   * Reading notes of the X-ray and depth-profile files: what the reader assumed
+   * or changed while reading them by wafer.md's reading instructions (a rule the
+   * file's own line overrode, columns the mapping leaves out), as the wafer's
+   * warnings give them.
+   */
+  readingNotes: string[];
   /** The "valley splitting (predicted)" part (valleySection.ts). */
   valley?: ValleySectionModel;
   /** Pictures of the reciprocal-space maps (paths under wafers/<id>/); the build writes them. */
@@ -156,8 +164,15 @@ export function structureSection(o: WaferOutcome): StructureSectionModel | undef
     design: s.design.map((d) => ({ quantity: d.quantity, design: fmt(d.design, d.unit), measured: d.measured === undefined ? "—" : d.measuredStdErr ? `${pm(d.measured, d.measuredStdErr)}${d.unit === "1" ? "" : ` ${d.unit}`}` : fmt(d.measured, d.unit), source: d.source })),
     profiles: profileRows(s),
     findings: s.findings,
+    readingNotes: structureReadingNotes(o),
     valley: valleySection(s, s.profiles.find((p) => p.data.file === s.valley?.file)?.data),
   };
+}
+
+/** The wafer's warnings located in its X-ray or depth-profile files, or at the xrd/profiles entries of wafer.md. */
+export function structureReadingNotes(o: Pick<WaferOutcome, "problems" | "provenance">): string[] {
+  const files = new Set(o.provenance.files.filter((f) => f.role === "xrd" || f.role === "depth profile").map((f) => f.path));
+  return o.problems.filter((p) => p.severity === "warning" && (files.has(p.file) || /^(xrd|profiles)\./.test(p.field ?? ""))).map(formatProblem);
 }
 
 /** The structure block of results.json: figures not covered by registered metrics (all contaminant peaks, the flag). */

@@ -19,6 +19,7 @@ import { transportDepthSection } from "./transportDepthSection.ts";
 import { uniformitySection } from "./uniformitySection.ts";
 import { checkTable, verdictLegend } from "./judgedRows.ts";
 import { growthSection } from "./growthSection.ts";
+import { deviceConditions } from "./conditionSources.ts";
 
 export interface MetricRow {
   key: string;
@@ -137,6 +138,7 @@ export function waferPageModel(o: WaferOutcome) {
         symmetrised: p.symmetrised,
       })),
       skipped: d.skipped,
+      conditions: deviceConditions(d),
     })),
     growth: growthSection(r?.growth),
     stack: (r?.stack ?? []).map((l) => ({ ...l, material: l.material ?? "", ge: l.ge === undefined ? "" : formatNumber(l.ge, 3), thickness: l.thickness_nm === undefined ? "" : `${formatNumber(l.thickness_nm, 3)} nm` })),

@@ -134,7 +134,8 @@ function applyConditions(t: RawTable, rules: ReadingRules, preamble: { text: str
       }
       continue;
     }
-    t.meta.set(c.key, { value: text, line: line ?? t.headerLine, ...(line === undefined ? { rule: `${c.key}.${c.source} (${ruleRef(c.at)})` } : {}) } as MetaEntry);
+    const via = { source: c.source, rule: `${c.key}.${c.source}`, at: ruleRef(c.at) };
+    t.meta.set(c.key, { value: text, line: line ?? t.headerLine, ...(line === undefined ? { rule: `${c.key}.${c.source} (${ruleRef(c.at)})` } : {}), via } as MetaEntry);
   }
 }
 

@@ -21,6 +21,8 @@ export interface MetaEntry {
   line: number;
   /** The wafer.md rule that supplied the value when the file itself does not carry it ("gate.file_name (wafers/X/wafer.md:17)"). */
   rule?: string;
+  /** Set when a wafer.md reading rule supplied the value (src/read/instrumentTable.ts): which kind of rule, written as `<key>.<source>`, and where it is. */
+  via?: { source: "file_name" | "line" | "value"; rule: string; at: string };
 }
 
 export interface ColumnHeader {

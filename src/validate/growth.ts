@@ -105,6 +105,7 @@ export function readGrowth(raw: unknown, where: GrowthWhere): GrowthConditions |
     return Number(parsed.value.toPrecision(12));
   };
   const layers: GrowthLayer[] = [];
+  const layerIndex: number[] = [];
   const seen = new Set<string>();
   listOf(r.layers, "growth.layers", fail).forEach((item, i) => {
     const at = `growth.layers[${i}]`;
@@ -128,9 +129,11 @@ export function readGrowth(raw: unknown, where: GrowthWhere): GrowthConditions |
         }
       }
     }
+    layerIndex.push(i);
     layers.push({ layer: name, temperature_C: quantity(item.temperature, "temperature", `${at}.temperature`, false), rate_nm_per_min: quantity(item.rate, "rate", `${at}.rate`, false), pressure_Torr: quantity(item.pressure, "pressure", `${at}.pressure`, false), flows_sccm: flows });
   });
   const anneals: GrowthAnneal[] = [];
+  const annealIndex: number[] = [];
   listOf(r.anneals, "growth.anneals", fail).forEach((item, i) => {
     const at = `growth.anneals[${i}]`;
     if (!item) return fail(at, "an anneal must be a mapping", "name:, temperature: and time:", "something else", "write { name: post-growth, temperature: \"800 °C\", time: \"60 s\" }");
@@ -139,10 +142,71 @@ export function readGrowth(raw: unknown, where: GrowthWhere): GrowthConditions |
     if (!name) fail(`${at}.name`, "anneal has no name", "a short name, such as post-growth", show(item.name), "add name: …");
     const temperature = quantity(item.temperature, "temperature", `${at}.temperature`, true);
     const time = quantity(item.time, "time", `${at}.time`, true);
-    if (name && temperature !== undefined && time !== undefined) anneals.push({ name, temperature_C: temperature, time_s: time });
+    if (name && temperature !== undefined && time !== undefined) {
+      annealIndex.push(i);
+      anneals.push({ name, temperature_C: temperature, time_s: time });
+    }
   });
+  const conditions = { recipe, layers, anneals };
+  for (const c of columnKeyCollisions(conditions, layerIndex, annealIndex)) fail(c.field, c.message, c.expected, c.found, c.fix);
   list.done();
-  return { recipe, layers, anneals };
+  return conditions;
+}
+
+/** Where a column key comes from: the field that names it, and the name as the lab wrote it. */
+interface KeyOrigin {
+  /** The field whose name makes the key: growth.layers[i].layer, growth.layers[i].flows.<gas> or growth.anneals[i].name. */
+  field: string;
+  /** What it is, for the message: layer "upper barrier", gas "GeH4" of layer "well", anneal "post-growth". */
+  what: string;
+}
+
+/**
+ * Two different names that become the same column key (slug: lower case, other
+ * characters as "_"), such as layers "upper barrier" and "upper-barrier", gases
+ * "GeH4" and "geh4" of one layer, or a layer "x flow y" beside gas "y" of layer
+ * "x": one column would silently overwrite the other in results.csv, results.json
+ * and the relation page. Each colliding pair is reported once, at the later of
+ * the two naming fields, naming both originals.
+ */
+function columnKeyCollisions(g: GrowthConditions, layerIndex: readonly number[], annealIndex: readonly number[]) {
+  const origins = new Map<string, KeyOrigin>();
+  const reported = new Set<string>();
+  const out: { field: string; message: string; expected: string; found: string; fix: string }[] = [];
+  const claim = (key: string, origin: KeyOrigin) => {
+    const first = origins.get(key);
+    if (!first) return void origins.set(key, origin);
+    const pair = `${first.field}|${origin.field}`;
+    if (first.field === origin.field || reported.has(pair)) return;
+    reported.add(pair);
+    if (first.what === origin.what) {
+      // The same name twice: a layer's is reported above ("layer has two growth entries"); an anneal's here.
+      if (origin.field.endsWith(".name")) out.push({ field: origin.field, message: "anneal has two entries", expected: "one entry per anneal name", found: `${origin.what.slice(7)} also at ${first.field}`, fix: "give the second anneal its own name (such as post-growth-2), or merge the two" });
+      return;
+    }
+    out.push({
+      field: origin.field,
+      message: `${origin.what} and ${first.what} (${first.field}) give the same column key`,
+      expected: "names that stay different in lower case with other characters as \"_\" (column keys such as growth_<layer>_temperature)",
+      found: `both become ${key}`,
+      fix: "rename one of them so that the two differ by more than case, spaces or punctuation, or merge them if they are one",
+    });
+  };
+  g.layers.forEach((l, i) => {
+    const at = `growth.layers[${layerIndex[i]}]`;
+    const layer: KeyOrigin = { field: `${at}.layer`, what: `layer ${JSON.stringify(l.layer)}` };
+    const s = slug(l.layer);
+    if (l.temperature_C !== undefined) claim(`growth_${s}_temperature`, layer);
+    if (l.rate_nm_per_min !== undefined) claim(`growth_${s}_rate`, layer);
+    if (l.pressure_Torr !== undefined) claim(`growth_${s}_pressure`, layer);
+    for (const [gas] of l.flows_sccm) claim(`growth_${s}_flow_${slug(gas)}`, { field: `${at}.flows.${gas}`, what: `gas ${JSON.stringify(gas)} of layer ${JSON.stringify(l.layer)}` });
+  });
+  g.anneals.forEach((a, i) => {
+    const anneal: KeyOrigin = { field: `growth.anneals[${annealIndex[i]}].name`, what: `anneal ${JSON.stringify(a.name)}` };
+    claim(`anneal_${slug(a.name)}_temperature`, anneal);
+    claim(`anneal_${slug(a.name)}_time`, anneal);
+  });
+  return out;
 }
 
 function unitsOf(q: QuantityName): string {

@@ -8,6 +8,7 @@ import { numericColumn, type ColumnHeader, type RawTable } from "../read/table.t
 import { didYouMean, InputError, ProblemList, type Problem } from "../model/problem.ts";
 import { acceptedUnits, COLUMN_UNITS, splitValueUnit, unitFactor, type Dimension } from "./units.ts";
 import { suggestUnit } from "./unitSpelling.ts";
+import type { ConditionSource } from "../model/conditionSource.ts";
 
 export type Geometry = "hall-bar" | "van-der-pauw";
 
@@ -33,6 +34,8 @@ export interface Sweep {
   direction: "up" | "down";
   rows: number;
   warnings: Problem[];
+  /** Where each condition the sweep carries (gate, field, temperature, current) came from, in that order, then a field sweep's field range (its B column). */
+  conditions?: ConditionSource[];
 }
 
 export const SWEEP_COLUMNS: Record<string, { dim: Dimension; meaning: string }> = {
@@ -187,5 +190,32 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
   const ra = toResistance("Ra");
   const rb = toResistance("Rb");
   if (current_A === undefined && currentCol) current_A = currentCol.reduce((a, b) => a + b, 0) / currentCol.length;
-  return { file: t.file, kind, geometry, gate_V, field_T, temperature_K, current_A, x: x!, rxx, rxy, ra, rb, direction: direction!, rows: x!.length, warnings };
+  const conditions = conditionSources(t, { gate: gate_V, field: field_T, temperature: temperature_K, current: current_A }, !!currentCol);
+  if (kind === "field" && x!.length) {
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (const b of x!) [lo, hi] = [Math.min(lo, b), Math.max(hi, b)];
+    conditions.push({ key: "field_range", origin: "file-column", span: [lo, hi], column: "B" });
+  }
+  return { file: t.file, kind, geometry, gate_V, field_T, temperature_K, current_A, x: x!, rxx, rxy, ra, rb, direction: direction!, rows: x!.length, warnings, conditions };
+}
+
+/** Where each condition read came from: the file's own `# key:` line, a wafer.md reading rule, or (a current) the file's I column. */
+function conditionSources(t: RawTable, values: Record<keyof typeof META, number | undefined>, currentColumn: boolean): ConditionSource[] {
+  const out: ConditionSource[] = [];
+  for (const key of Object.keys(META) as (keyof typeof META)[]) {
+    const value = values[key];
+    if (value === undefined) continue;
+    const entry = t.meta.get(key);
+    if (!entry) {
+      if (key === "current" && currentColumn) out.push({ key, origin: "file-column", value, column: "I" });
+      continue;
+    }
+    const via = entry.via;
+    if (!via) out.push({ key, origin: "file-line", value, line: entry.line });
+    else if (via.source === "value") out.push({ key, origin: "record-value", value, rule: via.rule, ruleAt: via.at });
+    else if (via.source === "file_name") out.push({ key, origin: "rule-file-name", value, rule: via.rule, ruleAt: via.at });
+    else out.push({ key, origin: "rule-line", value, line: entry.line, rule: via.rule, ruleAt: via.at });
+  }
+  return out;
 }

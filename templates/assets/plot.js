@@ -2,7 +2,8 @@
 // Chart.js: one series per wafer, run or reactor, each told apart by a
 // marker shape, a line dash and its name in the legend (never colour alone);
 // optional text labels beside points; log axes labelled at 1, 2 and 5 per
-// decade; every axis padded so no point sits on the frame.
+// decade (finer over a narrow range: charts.js logAxis); every axis padded so
+// no point sits on the frame.
 // window.waferbookPlot(canvas, spec) → the Chart; spec: { x: {label, log}, y: {label, log},
 //   series: [{ label, points: [[x, y]], line, style, labels, links, dash }] }.
 (function () {
@@ -10,23 +11,23 @@
   var COLOURS = ["#2c5f66", "#b5632d", "#6a3c98", "#1d6b3a", "#a4262c", "#5b6770", "#8a6d00", "#1f4e96"];
   var SHAPES = ["circle", "rect", "triangle", "rectRot", "crossRot", "star", "cross", "rectRounded"];
   var DASHES = [[], [6, 3], [2, 2], [8, 3, 2, 3], [4, 4], [10, 2], [1, 3], [12, 4]];
-  // Number labels and the 1-2-5 log ticks are charts.js's (loaded first on these pages): one formatter for the site.
-  var sci = globalThis.waferbookAxes.sci;
-  function logTick(v) {
-    var m = v / Math.pow(10, Math.floor(Math.log10(v) + 1e-9));
-    return [1, 2, 5].some(function (k) { return Math.abs(m - k) < 1e-6; }) ? sci(v) : "";
+  // Number labels and log axes (padded range, ticks at 1, 2 and 5 per decade, finer when the
+  // range is narrower than that allows) are charts.js's, loaded first on these pages: one set for the site.
+  var sci = globalThis.waferbookAxes.sci, logAxis = globalThis.waferbookAxes.logAxis;
+  // A log axis over the positive values, or null when there are none.
+  function logBounds(values) {
+    var vs = values.filter(function (v) { return isFinite(v) && v > 0; });
+    return vs.length ? logAxis(Math.min.apply(null, vs), Math.max.apply(null, vs)) : null;
   }
-  // Axis bounds with a margin: 6 % of the span (linear) or of the decades spanned (log).
-  function bounds(values, log) {
-    var vs = values.filter(function (v) { return isFinite(v) && (!log || v > 0); });
-    if (!vs.length) return {};
-    var lo = Math.min.apply(null, vs), hi = Math.max.apply(null, vs);
-    if (log) {
-      var a = Math.log10(lo), b = Math.log10(hi), pad = Math.max((b - a) * 0.06, 0.05);
-      return { min: Math.pow(10, a - pad), max: Math.pow(10, b + pad) };
-    }
-    var span = hi - lo || Math.abs(hi) || 1;
-    return { min: lo - span * 0.06, max: hi + span * 0.06 };
+  function axis(opt, values) {
+    var out = { type: opt.log ? "logarithmic" : "linear", title: { display: true, text: opt.label }, ticks: { callback: sci } };
+    var a = opt.log ? logBounds(values) : null;
+    if (a) {
+      out.min = a.min; out.max = a.max;
+      out.ticks = { autoSkip: false, maxRotation: 0, callback: sci };
+      out.afterBuildTicks = function (s) { s.ticks = a.ticks.map(function (v) { return { value: v }; }); };
+    } else if (!opt.log) out.grace = "6%";
+    return out;
   }
   var pointText = {
     id: "pointText",
@@ -60,8 +61,6 @@
   window.waferbookPlot = function (canvas, spec) {
     var xs = [], ys = [];
     spec.series.forEach(function (s) { s.points.forEach(function (p) { xs.push(p[0]); ys.push(p[1]); }); });
-    // Log axes get explicit padded bounds (their end labels stay blank unless 1, 2 or 5 per decade); linear ones "grace", which adds no tick of its own.
-    var bx = spec.x.log ? bounds(xs, true) : {}, by = spec.y.log ? bounds(ys, true) : {};
     var datasets = spec.series.map(function (s) {
       var k = (s.style || 0) % COLOURS.length;
       return {
@@ -81,8 +80,8 @@
         animation: false, maintainAspectRatio: false, responsive: true,
         layout: { padding: { right: 28, top: 6 } },
         scales: {
-          x: { type: spec.x.log ? "logarithmic" : "linear", min: bx.min, max: bx.max, grace: spec.x.log ? undefined : "6%", title: { display: true, text: spec.x.label }, ticks: { callback: spec.x.log ? logTick : sci, autoSkip: !spec.x.log } },
-          y: { type: spec.y.log ? "logarithmic" : "linear", min: by.min, max: by.max, grace: spec.y.log ? undefined : "6%", title: { display: true, text: spec.y.label }, ticks: { callback: spec.y.log ? logTick : sci, autoSkip: !spec.y.log } }
+          x: axis(spec.x, xs),
+          y: axis(spec.y, ys)
         },
         plugins: {
           legend: { labels: { usePointStyle: true, font: { size: 12 } } },

@@ -73,6 +73,49 @@ describe("growth conditions", () => {
     }
   });
 
+  it("refuses two names that become one column key, naming both and where each is", () => {
+    // slug rule of docs/formats.md, section Growth conditions: lower case, other characters as "_".
+    const text = record(
+      [
+        '    - { layer: upper barrier, temperature: "650 °C", flows: { GeH4: "8 sccm", geh4: "9 sccm" } }',
+        '    - { layer: well, temperature: "625 °C" }',
+      ].join("\n"),
+      ['    - { name: post growth, temperature: "800 °C", time: "60 s" }', '    - { name: Post-Growth, temperature: "820 °C", time: "60 s" }'].join("\n"),
+    );
+    const stack = text.replace("  - { name: upper barrier, role: barrier }", "  - { name: upper barrier, role: barrier }\n  - { name: Upper-Barrier, role: barrier }");
+    const withCaseTwin = stack.replace('    - { layer: well, temperature: "625 °C" }', '    - { layer: Upper-Barrier, temperature: "655 °C" }');
+    expect(problems(withCaseTwin)).toEqual([
+      "wafers/W-1/wafer.md:12: growth.layers[0].flows.geh4: gas \"geh4\" of layer \"upper barrier\" and gas \"GeH4\" of layer \"upper barrier\" (growth.layers[0].flows.GeH4) give the same column key",
+      "wafers/W-1/wafer.md:13: growth.layers[1].layer: layer \"Upper-Barrier\" and layer \"upper barrier\" (growth.layers[0].layer) give the same column key",
+      "wafers/W-1/wafer.md:16: growth.anneals[1].name: anneal \"Post-Growth\" and anneal \"post growth\" (growth.anneals[0].name) give the same column key",
+    ]);
+    try {
+      load(withCaseTwin);
+    } catch (e) {
+      const p = (e as InputError).problems[1];
+      expect(p.found).toBe("both become growth_upper_barrier_temperature");
+      expect(p.fix).toMatch(/^rename one of them/);
+    }
+  });
+
+  it("refuses a layer name that collides with another layer's gas column, and an anneal named twice", () => {
+    const text = record(
+      ['    - { layer: well, flows: { "SiH4 temperature": "5 sccm" } }'].join("\n"),
+      ['    - { name: post, temperature: "800 °C", time: "60 s" }', '    - { name: post, temperature: "820 °C", time: "60 s" }'].join("\n"),
+    ).replace("  - { name: well, role: well }", "  - { name: well, role: well }\n  - { name: well flow sih4, role: cap }");
+    const both = text.replace('    - { layer: well, flows', '    - { layer: well flow sih4, temperature: "600 °C" }\n    - { layer: well, flows');
+    expect(problems(both)).toEqual([
+      "wafers/W-1/wafer.md:13: growth.layers[1].flows.SiH4 temperature: gas \"SiH4 temperature\" of layer \"well\" and layer \"well flow sih4\" (growth.layers[0].layer) give the same column key",
+      "wafers/W-1/wafer.md:16: growth.anneals[1].name: anneal has two entries",
+    ]);
+  });
+
+  it("lets names that differ only in case stand when they make no common column", () => {
+    // Only colliding columns are refused: a layer with a temperature and its case twin with a rate share no key.
+    const text = record(['    - { layer: well, temperature: "625 °C" }', '    - { layer: upper barrier, rate: "2 nm/min" }'].join("\n"));
+    expect(problems(text)).toEqual([]);
+  });
+
   it("refuses a growth block that is not a mapping, located at its line", () => {
     const text = "---\nwafer: W-1\nrun: R-1\ngrown: 2025-03-14\ngrowth: 625 C\n---\n";
     expect(problems(text)).toEqual(["wafers/W-1/wafer.md:5: growth: wrong type"]);
