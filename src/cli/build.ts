@@ -13,7 +13,7 @@ import type { PipelineContext } from "./pipeline.ts";
 import { judgeOutcome, type WaferOutcome } from "../judge/outcome.ts";
 import { codeVersion, damagedEntryWarning, defaultCacheDir } from "./cache.ts";
 import { drawnPageKey, restoreDrawnPage } from "./drawnPages.ts";
-import { WaferJobs } from "./workerPool.ts";
+import { prestartWorkers, WaferJobs, type Prestarted } from "./workerPool.ts";
 import { loadSiteInputs } from "../validate/load/site.ts";
 import { buildSiteModel, sortOutcomes, waferPageExtras, type SiteMeta } from "../publish/siteModel.ts";
 import { pageCodeVersion, pageFingerprint, previousFingerprint } from "./pageReuse.ts";
@@ -90,7 +90,10 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
   // Drawn pages' models wait here for rendering (waferPages.ts); a killed build's is removed by recoverInterrupted.
   const scratchDir = `${tmpDir}-pages`;
   const warnings: string[] = [];
+  let early: Prestarted | undefined;
   try {
+    // Workers load their code while this thread reads the site inputs (workerPool.ts).
+    early = await prestartWorkers(dataDir, cacheDir);
     warnings.push(...(await recoverInterrupted(outDir)));
     await fs.rm(tmpDir, { recursive: true, force: true });
     const version = await readVersion();
@@ -110,7 +113,7 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       t = now;
     };
     const code = cacheDir ? await codeVersion(version) : "";
-    const jobs = new WaferJobs({ dataDir, today: ctx.today, siteSettings: ctx.siteSettings, waferListing: site.waferListing, cacheDir, code, pipeline: ctx, outDir: tmpDir, scratchDir });
+    const jobs = new WaferJobs({ dataDir, today: ctx.today, siteSettings: ctx.siteSettings, waferListing: site.waferListing, cacheDir, code, pipeline: ctx, outDir: tmpDir, scratchDir }, early);
     // Unchanged wafer pages are reused from the previous output (src/cli/pageReuse.ts); --no-cache builds every page afresh.
     const reusePages = cacheDir !== null;
     let done = 0;
@@ -195,6 +198,8 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     lap("write");
     return { ok: true, outcomes, problems, outDir, pages: written, stats, warnings };
   } finally {
+    // Workers started early and never used (a site-wide error, every wafer from the cache).
+    await early?.close().catch(() => {});
     // Best effort: once the site is published, nothing here may turn the build into a failure.
     for (const dir of [tmpDir, scratchDir]) {
       await fs.rm(dir, { recursive: true, force: true }).catch((err: NodeJS.ErrnoException) => warnings.push(`could not remove ${dir} (${err.code ?? err.message}); the next build removes it`));

@@ -1,10 +1,16 @@
-/** Worker side of workerPool.ts: runs one wafer job per message (waferJob.ts) and replies with plain data. */
+/** Worker side of workerPool.ts: runs one wafer job per message (waferJob.ts) and replies with plain data; a `context` message sets the build's context. */
 import { parentPort, workerData } from "node:worker_threads";
 import { analyseJob, drawJob, type JobContext } from "./waferJob.ts";
 
-const ctx = workerData as JobContext;
-parentPort!.on("message", async (m: { id: number; kind: "analyse" | "draw"; folder: string; key?: string }) => {
+// Null for a worker started before the build's context was known (workerPool.ts prestartWorkers): it comes as the first message.
+let ctx = workerData as JobContext | null;
+parentPort!.on("message", async (m: { context: JobContext } | { id: number; kind: "analyse" | "draw"; folder: string; key?: string }) => {
+  if ("context" in m) {
+    ctx = m.context;
+    return;
+  }
   try {
+    if (!ctx) throw new Error("a job arrived before the build's context");
     const result = m.kind === "draw" ? await drawJob(m.folder, ctx, m.key) : await analyseJob(m.folder, ctx, m.key);
     parentPort!.postMessage({ id: m.id, ok: true, result });
   } catch (e) {

@@ -14,8 +14,15 @@
  * than MIN_WAFERS_FOR_WORKERS jobs, they run in this thread (starting a
  * worker costs a few tenths of a second of module loading).
  * WAFERBOOK_WORKERS=n overrides the size (0 = in this thread).
+ *
+ * A build may start workers before its context is known ({@link prestartWorkers}):
+ * their module loading (the analysis, validation and drawing code) then overlaps
+ * the main thread's reading of targets, settings and the code's cache key. Such a
+ * worker gets the context as its first message when the pool adopts it.
  */
+import { existsSync, promises as fs } from "node:fs";
 import os from "node:os";
+import path from "node:path";
 import { Worker } from "node:worker_threads";
 import pLimit from "p-limit";
 import { workerEntry } from "./paths.ts";
@@ -43,6 +50,8 @@ export function poolSize(jobs: number): number {
 }
 
 type Kind = "analyse" | "draw";
+
+const stoppedUnexpectedly = (code: number) => new Error(`an analysis worker stopped unexpectedly (exit code ${code})`);
 type Reply = { id: number; ok: true; result: JobResult } | { id: number; ok: false; error: string };
 
 /** A fixed set of workers fed from one queue. */
@@ -58,31 +67,38 @@ class Pool {
   constructor(
     size: number,
     private readonly ctx: JobContext,
+    adopted: Prestarted | undefined,
   ) {
+    for (const { worker, error } of adopted?.take() ?? []) {
+      worker.postMessage({ context: ctx });
+      this.add(worker);
+      if (error) this.fail(error);
+    }
     this.grow(size);
   }
 
   /** Adds workers up to `size` in all. */
   grow(size: number): void {
-    while (this.workers.length < size) {
-      const w = new Worker(workerEntry(), { workerData: this.ctx });
-      this.workers.push(w);
-      this.idle.push(w);
-      w.on("message", (m: Reply) => {
-        const job = this.waiting.get(m.id);
-        this.waiting.delete(m.id);
-        if (m.ok) job?.resolve(m.result);
-        else job?.reject(new Error(`${job.folder} failed in a worker:\n${m.error}`));
-        this.idle.push(w);
-        this.pump();
-      });
-      w.on("error", (e) => this.fail(e));
-      // A worker that stops on its own (a library calling process.exit) would leave its job waiting forever.
-      w.on("exit", (code) => {
-        if (!this.closing) this.fail(new Error(`an analysis worker stopped unexpectedly (exit code ${code})`));
-      });
-    }
+    while (this.workers.length < size) this.add(new Worker(workerEntry(), { workerData: this.ctx }));
     this.pump();
+  }
+
+  private add(w: Worker): void {
+    this.workers.push(w);
+    this.idle.push(w);
+    w.on("message", (m: Reply) => {
+      const job = this.waiting.get(m.id);
+      this.waiting.delete(m.id);
+      if (m.ok) job?.resolve(m.result);
+      else job?.reject(new Error(`${job.folder} failed in a worker:\n${m.error}`));
+      this.idle.push(w);
+      this.pump();
+    });
+    w.on("error", (e) => this.fail(e));
+    // A worker that stops on its own (a library calling process.exit) would leave its job waiting forever.
+    w.on("exit", (code) => {
+      if (!this.closing) this.fail(stoppedUnexpectedly(code));
+    });
   }
 
   get size(): number {
@@ -116,6 +132,52 @@ class Pool {
   }
 }
 
+/**
+ * Workers started before the build's context exists (see the module comment).
+ * Until a pool adopts them they only load their modules; `close` ends those
+ * never adopted. An error a worker reports meanwhile is kept and fails the
+ * pool that adopts it.
+ */
+export class Prestarted {
+  private waiting: { worker: Worker; error?: Error }[] = [];
+
+  constructor(count: number) {
+    for (let i = 0; i < count; i++) {
+      const entry: { worker: Worker; error?: Error } = { worker: new Worker(workerEntry(), { workerData: null }) };
+      entry.worker.on("error", (e) => (entry.error ??= e));
+      // Stopped before a pool took it (its exit event would not reach the pool): the pool fails with this.
+      entry.worker.on("exit", (code) => (entry.error ??= stoppedUnexpectedly(code)));
+      this.waiting.push(entry);
+    }
+  }
+
+  get count(): number {
+    return this.waiting.length;
+  }
+
+  /** Hands every waiting worker over (once). */
+  take(): { worker: Worker; error?: Error }[] {
+    return this.waiting.splice(0);
+  }
+
+  async close(): Promise<void> {
+    await Promise.all(this.take().map(({ worker }) => worker.terminate()));
+  }
+}
+
+/**
+ * Starts the workers a build will probably use, before its context is known:
+ * as many as the pool would have when every wafer will be analysed (no
+ * file-hash record in the cache folder, or no cache), else one (a warm build's
+ * first miss starts one); none when the pool would run in this thread (one
+ * core, WAFERBOOK_WORKERS=0, fewer than MIN_WAFERS_FOR_WORKERS wafer folders).
+ */
+export async function prestartWorkers(dataDir: string, cacheDir: string | null): Promise<Prestarted> {
+  const folders = await fs.readdir(path.join(dataDir, "wafers"), { withFileTypes: true }).then((l) => l.filter((e) => e.isDirectory() || e.isSymbolicLink()).length, () => 0);
+  const cold = cacheDir === null || !existsSync(path.join(cacheDir, "file-hashes.json"));
+  return new Prestarted(Math.min(poolSize(folders), cold ? MAX_WORKERS : 1));
+}
+
 /** The wafer jobs of one build, sharing one pool (started when first worth it, closed by `close`). */
 export class WaferJobs {
   private pool: Pool | undefined;
@@ -124,14 +186,19 @@ export class WaferJobs {
   /** Damaged cache entries discarded so far (cache.ts readEntry), as warnings for the build output. */
   readonly cacheWarnings: Problem[] = [];
 
-  constructor(private readonly ctx: JobContext) {}
+  /** `prestarted`: workers started before the context was known (prestartWorkers); the pool adopts them when it starts, and close() ends them if it never does. */
+  constructor(
+    private readonly ctx: JobContext,
+    private readonly prestarted?: Prestarted,
+  ) {}
 
   /** Starts (or grows) the pool for the jobs that may still come; undefined when they are better run in this thread. */
   private startPool(jobsAhead: number, atMost = MAX_WORKERS): Pool | undefined {
-    const size = Math.min(poolSize(jobsAhead), atMost);
+    // Workers already started are used, even where starting them now would not pay.
+    const size = Math.max(Math.min(poolSize(jobsAhead), atMost), jobsAhead > 0 ? (this.prestarted?.count ?? 0) : 0);
     if (size > 0) {
       if (this.pool) this.pool.grow(size);
-      else this.pool = new Pool(size, this.ctx);
+      else this.pool = new Pool(size, this.ctx, this.prestarted);
     }
     return this.pool;
   }
@@ -207,6 +274,7 @@ export class WaferJobs {
   }
 
   async close(): Promise<void> {
+    await this.prestarted?.close();
     await this.pool?.close();
     this.pool = undefined;
   }

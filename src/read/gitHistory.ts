@@ -17,9 +17,9 @@
 import { promises as fs } from "node:fs";
 import path from "node:path";
 import { dataPathOf, LOG_ARGS, parseGitLogStream, type GitCommit } from "./gitLog.ts";
-import { defaultGitRunner, GitError, streamOf, type GitRunner } from "./gitRunner.ts";
+import { defaultGitRunner, GitError, streamOf, type GitObjectReader, type GitRunner } from "./gitRunner.ts";
 
-export { defaultGitRunner, GitError, makeGitRunner, type GitRunner, type GitRunnerOptions } from "./gitRunner.ts";
+export { defaultGitRunner, GitError, makeGitRunner, type GitObjectReader, type GitRunner, type GitRunnerOptions } from "./gitRunner.ts";
 export { GitLogError, LOG_ARGS, LOG_FORMAT, parseGitLog, type GitCommit } from "./gitLog.ts";
 
 export interface GitRepo {
@@ -30,6 +30,24 @@ export interface GitRepo {
   /** Full hash of HEAD, or null in a repository without commits. */
   head: string | null;
   run: GitRunner;
+  /** One `git cat-file --batch` process for many reads, while {@link withObjectReader} runs (when the runner can open one). */
+  objects?: GitObjectReader;
+}
+
+/**
+ * Runs `work` with one object reader open on the repository (src/read/gitObjects.ts), so that
+ * {@link fileAtCommit} and {@link commitNames} ask a single git process instead of starting two
+ * per object; closes it afterwards. Without a runner that can open one, `work` runs as it is.
+ */
+export async function withObjectReader<T>(repo: GitRepo, work: () => Promise<T>): Promise<T> {
+  if (repo.objects || !repo.run.objects) return work();
+  repo.objects = repo.run.objects(repo.root);
+  try {
+    return await work();
+  } finally {
+    repo.objects.close();
+    repo.objects = undefined;
+  }
 }
 
 /**
@@ -127,12 +145,40 @@ export async function commitsChangingFile(repo: GitRepo, dataPath: string): Prom
  */
 export async function fileAtCommit(repo: GitRepo, hash: string, dataPath: string): Promise<string | null> {
   if (!/^[0-9a-f]{4,64}$/i.test(hash)) throw new RangeError(`fileAtCommit: not a commit hash: ${hash}`);
+  const name = `${hash}:${toRepoPath(repo, dataPath)}`;
+  if (repo.objects && !/[\n\r]/.test(name)) {
+    const found = await repo.objects.read(name);
+    if (found === null) return null;
+    if (found.type !== "blob") throw new GitError(["cat-file", "blob", name], 128, `fatal: ${name} is a ${found.type}, not a file`);
+    return found.content.toString("utf8");
+  }
   let blob: string;
   try {
-    blob = (await repo.run(["rev-parse", "--verify", "--quiet", `${hash}:${toRepoPath(repo, dataPath)}`], repo.root)).trim();
+    blob = (await repo.run(["rev-parse", "--verify", "--quiet", name], repo.root)).trim();
   } catch (err) {
     if (err instanceof GitError && err.exitCode === 1) return null;
     throw err;
   }
   return repo.run(["cat-file", "blob", blob], repo.root);
+}
+
+/**
+ * Committer's and author's names of a commit, read from the commit object through the open object
+ * reader (the `committer` and `author` header lines, as `%cn` and `%an` print them without a mailmap).
+ * Null when no reader is open, the commit is not found, or its text is in an encoding other than
+ * UTF-8 (then `git show -s --format=%cn%x00%an` converts it).
+ */
+export async function commitNames(repo: GitRepo, hash: string): Promise<{ committer: string; author: string } | null> {
+  if (!repo.objects || !/^[0-9a-f]{4,64}$/i.test(hash)) return null;
+  const found = await repo.objects.read(hash);
+  if (found === null || found.type !== "commit") return null;
+  const text = found.content.toString("utf8");
+  const headers = text.slice(0, text.indexOf("\n\n") < 0 ? text.length : text.indexOf("\n\n")).split("\n");
+  const field = (key: string) => headers.find((h) => h.startsWith(`${key} `))?.slice(key.length + 1);
+  const encoding = field("encoding");
+  if (encoding && !/^utf-?8$/i.test(encoding.trim())) return null;
+  const nameOf = (line: string | undefined) => (line === undefined ? undefined : line.slice(0, Math.max(0, line.lastIndexOf(" <"))));
+  const committer = nameOf(field("committer"));
+  const author = nameOf(field("author"));
+  return committer === undefined || author === undefined ? null : { committer, author };
 }

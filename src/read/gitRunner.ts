@@ -13,6 +13,11 @@
  * output), or one with a `stream` that yields synthesised bytes.
  */
 import { spawn } from "node:child_process";
+import { GitError, STDERR_KEEP } from "./gitError.ts";
+import { openObjectReader, type GitObjectReader } from "./gitObjects.ts";
+
+export { GitError } from "./gitError.ts";
+export type { GitObject, GitObjectReader } from "./gitObjects.ts";
 
 /** Runs git with `args` in `cwd`; resolves with stdout (UTF-8), rejects with a GitError when git fails or cannot be run. */
 export interface GitRunner {
@@ -21,6 +26,8 @@ export interface GitRunner {
   stream?: (args: readonly string[], cwd: string) => AsyncIterable<Buffer>;
   /** Environment the runner adds (read for GIT_CEILING_DIRECTORIES). */
   env?: Record<string, string>;
+  /** Opens one `git cat-file --batch` process in `cwd` for many object reads (src/read/gitObjects.ts); without it, each object costs its own git calls. */
+  objects?: (cwd: string) => GitObjectReader;
 }
 
 export interface GitRunnerOptions {
@@ -28,23 +35,6 @@ export interface GitRunnerOptions {
   gitPath?: string;
   /** Extra environment variables (merged over process.env). */
   env?: Record<string, string>;
-}
-
-/** Most characters of git's error output kept in a GitError. */
-const STDERR_KEEP = 2000;
-
-/** git failed (exit code ≠ 0), or could not be started (exitCode null, e.g. not installed). */
-export class GitError extends Error {
-  constructor(
-    readonly args: readonly string[],
-    readonly exitCode: number | null,
-    readonly stderr: string,
-    cause?: string,
-  ) {
-    const said = stderr.trim().split("\n").filter(Boolean).slice(0, 3).join(" / ");
-    super(exitCode === null ? `git could not be run (${cause ?? "unknown reason"})` : `git ${args[0] ?? ""} failed with exit code ${exitCode}${said ? `: ${said.slice(0, 300)}` : ""}`);
-    this.name = "GitError";
-  }
 }
 
 /** The default runner: spawn with no pager, no optional locks, the C locale, and no limit on the output's size. */
@@ -59,6 +49,7 @@ export function makeGitRunner(options: GitRunnerOptions = {}): GitRunner {
   };
   run.stream = stream;
   run.env = options.env;
+  run.objects = (cwd) => openObjectReader(gitPath, cwd, env);
   return run;
 }
 

@@ -65,6 +65,8 @@ function spacing(values: number[]): number {
 }
 
 type NeighbourQuery = (i: number, r: number, ordered?: boolean) => number[];
+/** True when `test` holds for every neighbour j of i within r (stops at the first that fails; no list is made). */
+type NeighbourTest = (i: number, r: number, test: (j: number) => boolean) => boolean;
 
 /**
  * Neighbour queries over normalised coordinates: every point j with
@@ -73,8 +75,10 @@ type NeighbourQuery = (i: number, r: number, ordered?: boolean) => number[];
  * touches. With `ordered` (default true) the list comes in a fixed order: by
  * cell of a `cell`-wide grid (column, then row), then by index, so that sums
  * over it (smoothing, centroids, the fit) do not depend on the fine grid.
+ * `everyNear` tests a condition over the same neighbours without listing them
+ * (the local-maximum test, run for every point above the threshold).
  */
-function neighbourIndex(u: number[], v: number[], cell: number): NeighbourQuery {
+function neighbourIndex(u: number[], v: number[], cell: number): { near: NeighbourQuery; everyNear: NeighbourTest } {
   const n = u.length;
   let uMin = Infinity, uMax = -Infinity, vMin = Infinity, vMax = -Infinity;
   for (let i = 0; i < n; i++) {
@@ -102,7 +106,22 @@ function neighbourIndex(u: number[], v: number[], cell: number): NeighbourQuery 
   const byOrder = Array.from({ length: n }, (_, i) => i).sort((i, j) => ca[i] - ca[j] || cb[i] - cb[j] || i - j);
   const rank = new Int32Array(n);
   byOrder.forEach((i, k) => (rank[i] = k));
-  return (i, r, ordered = true) => {
+  const everyNear: NeighbourTest = (i, r, test) => {
+    const reach = Math.ceil(r / f);
+    const cu = Math.floor((u[i] - uMin) / f);
+    const cv = Math.floor((v[i] - vMin) / f);
+    const ui = u[i], vi = v[i];
+    for (let a = Math.max(0, cu - reach); a <= Math.min(cols - 1, cu + reach); a++) {
+      const base = a * rows;
+      const end = start[base + Math.min(rows - 1, cv + reach) + 1];
+      for (let k = start[base + Math.max(0, cv - reach)]; k < end; k++) {
+        const j = items[k];
+        if ((u[j] - ui) ** 2 + (v[j] - vi) ** 2 <= r * r && !test(j)) return false;
+      }
+    }
+    return true;
+  };
+  const near: NeighbourQuery = (i, r, ordered = true) => {
     const out: number[] = [];
     const reach = Math.ceil(r / f);
     const cu = Math.floor((u[i] - uMin) / f);
@@ -127,6 +146,7 @@ function neighbourIndex(u: number[], v: number[], cell: number): NeighbourQuery 
     }
     return out;
   };
+  return { near, everyNear };
 }
 
 /** Finds and refines peaks in a map (see module comment). Points with non-finite values are dropped. */
@@ -144,7 +164,7 @@ export function searchMapPeaks(points: readonly MapPoint[], options: PeakSearchO
   const u = pRaw.map((x) => x / sp);
   const v = tRaw.map((x) => x / st);
   const radius = options.radius ?? 4;
-  const near = neighbourIndex(u, v, radius);
+  const { near, everyNear } = neighbourIndex(u, v, radius);
   const smooth = counts.map((_, i) => {
     const nb = near(i, 1.5);
     let sum = 0;
@@ -155,7 +175,7 @@ export function searchMapPeaks(points: readonly MapPoint[], options: PeakSearchO
   const maxima: number[] = [];
   smooth.forEach((s, i) => {
     if (s <= level) return;
-    const isMax = near(i, radius, false).every((j) => j === i || smooth[j] < s || (smooth[j] === s && j > i));
+    const isMax = everyNear(i, radius, (j) => j === i || smooth[j] < s || (smooth[j] === s && j > i));
     if (isMax) maxima.push(i);
   });
   maxima.sort((a, b) => smooth[b] - smooth[a]);

@@ -25,11 +25,12 @@
  * high-field end only, where the Hann window hides it.
  * Units: B in T, ρ in Ω, f in T, n in m⁻².
  */
-import { Matrix, solve } from "ml-matrix";
 import { ELEMENTARY_CHARGE, PLANCK } from "../../physics/constants.ts";
 import { amplitudeSpectrum, dominantPeak, downsampleSpectrum, resampleInverseField, type Spectrum } from "./inverseFieldSpectrum.ts";
 import { allFinite, skipped, type Skipped } from "./outcome.ts";
+import { Matrix, solve } from "ml-matrix";
 import { fields, under } from "../bulk.ts";
+import { householderLeastSquares } from "../numeric/householderLeastSquares.ts";
 
 export interface SdhOptions {
   /** Lower field limit, T (default: the lowest |B| > 0 in the sweep). */
@@ -82,11 +83,20 @@ function polynomialBackground(b: number[], rho: number[], order: number): number
   const half = (b[b.length - 1] - b[0]) / 2 || 1;
   const t = b.map((x) => (x - mid) / half);
   const k = order + 1;
-  const A = new Matrix(b.length, k);
-  t.forEach((x, i) => {
-    for (let j = 0; j < k; j++) A.set(i, j, x ** j);
-  });
-  const coef = solve(A, Matrix.columnVector(rho)).to1DArray();
+  const m = b.length;
+  // Column-major: column j holds t^j (Householder QR least squares, as ml-matrix's solve does it).
+  if (m <= k) {
+    // As many points as coefficients (or fewer): ml-matrix's square solver (LU), as before.
+    const sq = new Matrix(m, k);
+    t.forEach((x, i) => {
+      for (let j = 0; j < k; j++) sq.set(i, j, x ** j);
+    });
+    const c = solve(sq, Matrix.columnVector(rho)).to1DArray();
+    return t.map((x) => c.reduce((s, cj, j) => s + cj * x ** j, 0));
+  }
+  const A = new Float64Array(m * k);
+  for (let i = 0; i < m; i++) for (let j = 0; j < k; j++) A[j * m + i] = t[i] ** j;
+  const coef = householderLeastSquares(A, m, k, rho);
   return t.map((x) => coef.reduce((s, c, j) => s + c * x ** j, 0));
 }
 

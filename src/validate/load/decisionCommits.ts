@@ -2,15 +2,15 @@
  * Which commit recorded each wafer's decision (wafer.md `decision:`), and who committed it.
  *
  * For a wafer with a decision, the commits that changed its wafer.md are walked newest first and
- * the file read at each (`git show <hash>:<path>`); the recording commit is the oldest of the
+ * the file read at each (one `git cat-file --batch` process for all of them); the recording commit is the oldest of the
  * unbroken newest-first stretch whose `decision:` block equals today's (compared field by field
  * after parsing). When the newest commit does not hold today's decision, the decision is not
- * committed yet. The committer's and author's names come from `git show -s` of that commit. A
+ * committed yet. The committer's and author's names come from that commit object's header. A
  * decider's name that matches neither is noted (a technician may commit for the QA lead; the
  * page says so rather than calling it an error). Side-effecting reader; never throws — a git
  * failure becomes a note.
  */
-import { fileAtCommit, findRepo, defaultGitRunner, type GitRepo, type GitRunner } from "../../read/gitHistory.ts";
+import { commitNames, fileAtCommit, findRepo, withObjectReader, defaultGitRunner, type GitRepo, type GitRunner } from "../../read/gitHistory.ts";
 import { readFrontMatter } from "../../read/frontMatter.ts";
 import type { DataHistory } from "./history.ts";
 import type { Decision } from "../decision.ts";
@@ -66,8 +66,9 @@ export async function decisionCommit(repo: GitRepo, history: DataHistory, file: 
   let committer = "";
   let author = found.author;
   try {
-    const out = await repo.run(["show", "-s", "--no-color", "--format=%cn%x00%an", found.hash], repo.root);
-    [committer, author] = out.replace(/\n$/, "").split("\0");
+    const names = await commitNames(repo, found.hash);
+    if (names) ({ committer, author } = names);
+    else [committer, author] = (await repo.run(["show", "-s", "--no-color", "--format=%cn%x00%an", found.hash], repo.root)).replace(/\n$/, "").split("\0");
   } catch {
     committer = "";
   }
@@ -90,12 +91,14 @@ export async function decisionCommits(
   if (!history || withDecision.length === 0) return out;
   const repo = await findRepo(dataDir, run);
   if (!repo) return out;
-  for (const w of withDecision) {
-    try {
-      out.set(w.id, await decisionCommit(repo, history, w.file, w.decision!));
-    } catch (err) {
-      out.set(w.id, { note: `could not read the decision's history: ${(err as Error).message.split("\n")[0]}` });
+  await withObjectReader(repo, async () => {
+    for (const w of withDecision) {
+      try {
+        out.set(w.id, await decisionCommit(repo, history, w.file, w.decision!));
+      } catch (err) {
+        out.set(w.id, { note: `could not read the decision's history: ${(err as Error).message.split("\n")[0]}` });
+      }
     }
-  }
+  });
   return out;
 }

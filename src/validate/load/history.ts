@@ -8,7 +8,7 @@
  * back empty with `failure` saying why, so that the changes page and the
  * build output can warn instead of silently showing nothing.
  */
-import { commitsChangingFile, fileAtCommit, findRepo, listCommits, defaultGitRunner, type GitCommit, type GitRunner } from "../../read/gitHistory.ts";
+import { commitsChangingFile, fileAtCommit, findRepo, listCommits, withObjectReader, defaultGitRunner, type GitCommit, type GitRunner } from "../../read/gitHistory.ts";
 import { readYaml } from "../../read/frontMatter.ts";
 import { validateTargets, type Targets } from "../targets.ts";
 import { formatProblem, InputError } from "../../model/problem.ts";
@@ -61,10 +61,13 @@ export async function loadDataHistory(dataDir: string, run: GitRunner = defaultG
     head = repo.head;
     const commits = await listCommits(repo, { maxCount: MAX_COMMITS });
     const targetsVersions: TargetsVersion[] = [];
-    for (const c of await commitsChangingFile(repo, "targets.yaml")) {
-      const parsed = parseOldTargets(await fileAtCommit(repo, c.hash, "targets.yaml"));
-      targetsVersions.push({ hash: c.hash, shortHash: c.shortHash, date: c.committedAt, subject: c.subject, ...parsed });
-    }
+    const changes = await commitsChangingFile(repo, "targets.yaml");
+    await withObjectReader(repo, async () => {
+      for (const c of changes) {
+        const parsed = parseOldTargets(await fileAtCommit(repo, c.hash, "targets.yaml"));
+        targetsVersions.push({ hash: c.hash, shortHash: c.shortHash, date: c.committedAt, subject: c.subject, ...parsed });
+      }
+    });
     return { head: repo.head, commits, targetsVersions };
   } catch (err) {
     return { head, commits: [], targetsVersions: [], failure: (err instanceof Error ? err.message : String(err)).split(dataDir).join("<data folder>") };
