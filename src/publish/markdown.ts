@@ -1,9 +1,11 @@
 /**
  * Markdown notes → HTML with raw HTML disabled (markdown-it `html: false`), so
  * text typed into a record can never inject markup or script. Links are
- * limited to http(s), mailto and relative targets by markdown-it's own
- * validateLink (javascript:, vbscript:, file: and data: are refused, except
- * data: images).
+ * limited to relative targets, http(s), mailto and inline data: pictures by
+ * the allow-list of safeUrl.ts, in place of markdown-it's own validateLink (a
+ * deny-list of javascript:, vbscript:, file: and data:); a link with any
+ * other scheme stays plain text. The same allow-list checks drawn pages read
+ * back from the cache (src/publish/drawnPageCheck.ts).
  *
  * Images are never fetched: `![label](https://…/x.png)` renders as a link to
  * the picture, labelled with its alt text, so a page makes no request to
@@ -13,8 +15,10 @@
  * which needs no request, is shown as a picture.
  */
 import MarkdownIt from "markdown-it";
+import { isAllowedUrl } from "./safeUrl.ts";
 
 const md = new MarkdownIt({ html: false, linkify: false, typographer: false });
+md.validateLink = isAllowedUrl;
 
 const inlineImage = md.renderer.rules.image!;
 md.renderer.rules.image = (tokens, idx, options, env, self) => {

@@ -257,9 +257,12 @@ function firstInvalidUtf8(bytes: Buffer): number {
  * (sorted). `label` names the folder in messages (relative to the data
  * folder). A chain of folders whose path exceeds the system's limit
  * (ENAMETOOLONG, e.g. 4096 bytes on Linux) is an InputError located at the
- * chain's first folder, not an internal error.
+ * chain's first folder, not an internal error. A symbolic link is listed
+ * as a file (a link to a folder is not walked) unless `keepLink` (given the
+ * link's path relative to `dir`) says no (src/read/linkedFolder.ts
+ * linkInWaferFolder decides for a wafer's files).
  */
-export async function listFiles(dir: string, label = ""): Promise<string[]> {
+export async function listFiles(dir: string, label = "", keepLink?: (rel: string) => Promise<boolean>): Promise<string[]> {
   const out: string[] = [];
   async function walk(sub: string): Promise<void> {
     const entries = await fs.readdir(path.join(dir, sub), { withFileTypes: true }).catch((err: NodeJS.ErrnoException) => {
@@ -271,7 +274,7 @@ export async function listFiles(dir: string, label = ""): Promise<string[]> {
     for (const e of entries) {
       const rel = sub ? `${sub}/${e.name}` : e.name;
       if (e.isDirectory()) await walk(rel);
-      else out.push(rel);
+      else if (!keepLink || !e.isSymbolicLink() || (await keepLink(rel))) out.push(rel);
     }
   }
   await walk("");
