@@ -134,7 +134,13 @@ export async function restoreDrawnPage(
   if (page?.folder !== folder || !(page.model instanceof Uint8Array) || !Array.isArray(page.files) || page.files.some((f) => typeof f?.path !== "string" || !(f.bytes instanceof Uint8Array) || !f.path.startsWith(prefix) || f.path.split("/").some((p) => p === ".." || p === "" || p === "."))) {
     return discard("it does not hold this wafer's page", "damaged");
   }
-  const refused = checkDrawnPage(page, folder);
+  let refused: string | undefined;
+  try {
+    refused = checkDrawnPage(page, folder);
+  } catch (e) {
+    // A model nested deeper than the stack allows is not one waferbook drew.
+    refused = `a page model that cannot be checked (${(e as Error).message})`;
+  }
   if (refused) return discard(refused, "refused");
   for (const f of page.files) {
     const dest = path.join(outDir, ...f.path.split("/"));
