@@ -31,6 +31,20 @@ md.renderer.rules.image = (tokens, idx, options, env, self) => {
   return `<a class="note-image" href="${esc(src)}"${title ? ` title="${esc(title)}"` : ""}>${esc(`[picture: ${label}]`)}</a>`;
 };
 
+// Table alignment as a class, not markdown-it's style="text-align:…", which the pages' Content-Security-Policy
+// (style-src 'self') would refuse with a console error; site.css aligns .align-left/-center/-right.
+for (const rule of ["th_open", "td_open"] as const) {
+  md.renderer.rules[rule] = (tokens, idx, options, _env, self) => {
+    const token = tokens[idx];
+    const align = /^text-align:(left|right|center)$/.exec(String(token.attrGet("style") ?? ""))?.[1];
+    if (align) {
+      token.attrs = (token.attrs ?? []).filter(([name]) => name !== "style");
+      token.attrJoin("class", `align-${align}`);
+    }
+    return self.renderToken(tokens, idx, options);
+  };
+}
+
 export function renderNotes(text: string): string {
   return md.render(text ?? "");
 }

@@ -27,14 +27,12 @@ const VOID = new Set(["br", "hr", "img"]);
 /** Attributes, by the renderer that writes them (names compared in lower case). */
 const ATTRIBUTES = new Set([
   // Markdown
-  "href", "title", "src", "alt", "class", "start", "style",
+  "href", "title", "src", "alt", "class", "start",
   // SVG
   "xmlns", "viewbox", "width", "height", "x", "y", "x1", "x2", "y1", "y2", "cx", "cy", "r", "d", "fill", "stroke", "stroke-width", "stroke-dasharray", "opacity", "transform",
   "text-anchor", "font-size", "font-weight", "dominant-baseline", "paint-order", "preserveaspectratio", "role", "aria-hidden", "aria-labelledby", "aria-label", "id", "clip-path", "data-device", "offset", "stop-color",
 ]);
 const URL_ATTRIBUTES = new Set(["href", "src"]);
-/** markdown-it's table alignment is the only style attribute written. */
-const STYLE = /^text-align:(left|right|center)$/;
 
 const TAG = /<(\/?)([A-Za-z][A-Za-z0-9]*)((?:\s+[A-Za-z][A-Za-z0-9:-]*="[^"<]*")*)\s*(\/?)>/y;
 const ATTRIBUTE = /\s+([A-Za-z][A-Za-z0-9:-]*)="([^"<]*)"/g;
@@ -67,7 +65,6 @@ export function markupProblem(html: string): string | undefined {
       for (const a of attrs.matchAll(ATTRIBUTE)) {
         const attr = a[1].toLowerCase();
         if (!ATTRIBUTES.has(attr)) return `the attribute ${a[1]}="…" on <${rawName}> at character ${at}, which waferbook never writes${attr.startsWith("on") ? " (an event handler runs script)" : ""}`;
-        if (attr === "style" && !STYLE.test(a[2])) return `the style ${JSON.stringify(a[2])} on <${rawName}> at character ${at} (only markdown-it's text-align is written)`;
         if (URL_ATTRIBUTES.has(attr)) {
           const why = urlProblem(a[2]);
           if (why) return `${why}, on <${rawName}> at character ${at}`;

@@ -36,6 +36,9 @@ describe("what waferbook writes passes", () => {
     for (const n of NOTES) expect(markupProblem(renderNotes(n)), n).toBeUndefined();
     // Links outside the allow-list stay text: the renderer and the check agree (safeUrl.ts).
     expect(renderNotes("[x](javascript:alert(1)) [y](ftp://host/f)")).not.toMatch(/href/);
+    // Table alignment is a class (an inline style would be refused by the pages' Content-Security-Policy).
+    expect(renderNotes(NOTES[2])).toMatch(/<th class="align-left">left<\/th>\s*<th class="align-center">centre<\/th>\s*<th class="align-right">right<\/th>/);
+    expect(renderNotes(NOTES[2])).not.toMatch(/style=/);
   });
   it("chart JSON as jsonForScript writes it, even with hostile strings", () => {
     const json = jsonForScript([{ title: "</script><script>alert(1)</script>", note: "a & b > c \u2028" }]);
@@ -96,7 +99,7 @@ describe("each trick of a forged page is refused, saying what was found", () => 
     ['<meta http-equiv="refresh" content="0;url=https://evil.example">', /element <meta>/],
     ['<base href="https://evil.example/">', /element <base>/],
     ["<style>body{display:none}</style>", /element <style>/],
-    ['<p style="background:url(https://evil.example/)">x</p>', /style/],
+    ['<p style="background:url(https://evil.example/)">x</p>', /attribute style/],
     ["<!-- --><p>x</p>", /not a plain tag/],
     ["<svg><foreignObject><p>x</p></foreignObject></svg>", /element <foreignObject>/],
     ['<svg><use href="#x"/></svg>', /element <use>/],
