@@ -92,6 +92,6 @@ export async function linkInWaferFolder(dataDir: string, rel: string): Promise<P
   const st = await fs.stat(target).catch(() => null);
   if (!st?.isDirectory()) return null;
   const realData = await fs.realpath(dataDir);
-  if (!within(realData, target)) return skipped("it leads to a folder outside the data folder, and no file is read from outside it", `a link to ${JSON.stringify(target)}`, "copy the files into the wafer folder (a link may point anywhere inside the data folder only for a whole wafer folder, under wafers/)");
+  if (!within(realData, target)) return skipped("it leads to a folder outside the data folder, and no file is read from outside it", `a link to ${JSON.stringify(target)}`, "copy the files into the wafer folder; to keep a wafer's data elsewhere, make the whole wafer folder under wafers/ a link to a folder inside the data folder");
   return skipped("it leads to a folder, and links to folders inside a wafer folder are not followed (a wafer's files are those in its own folder)", `a link to ${JSON.stringify(path.relative(realData, target).split(path.sep).join("/") || ".")}`, "move or copy the files into the wafer folder, or link the files one by one");
 }
