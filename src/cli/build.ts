@@ -11,7 +11,7 @@ import path from "node:path";
 import pLimit from "p-limit";
 import type { PipelineContext } from "./pipeline.ts";
 import { judgeOutcome, type WaferOutcome } from "../judge/outcome.ts";
-import { codeVersion, damagedEntryWarning, defaultCacheDir } from "./cache.ts";
+import { codeVersion, damagedEntryWarning, defaultCacheDir, refusedPageWarning } from "./cache.ts";
 import { drawnPageKey, restoreDrawnPage } from "./drawnPages.ts";
 import { prestartWorkers, WaferJobs, type Prestarted } from "./workerPool.ts";
 import { loadSiteInputs } from "../validate/load/site.ts";
@@ -128,6 +128,8 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     const drawn = new Set<string>();
     const reused = new Set<string>();
     let meta: SiteMeta;
+    let sorted: WaferOutcome[] = [];
+    let pageExtras: ReturnType<typeof waferPageExtras> = new Map();
     let commitsOf: CommitsOf = () => ({ wafer: null, targets: null });
     let written = 0;
     let stats: NonNullable<BuildResult["stats"]>;
@@ -153,36 +155,78 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       }
       const history = await loadDataHistory(dataDir);
       if (history?.failure) buildProblems.push(historyWarning(history.failure));
-      if (history && !history.failure) history.decisions = await decisionCommits(dataDir, history, outcomes.map((o) => ({ id: o.folder, file: o.record?.file ?? "", decision: o.record?.decision })));
+      const findDecisions = async () => {
+        if (history && !history.failure) history.decisions = await decisionCommits(dataDir, history, outcomes.map((o) => ({ id: o.folder, file: o.record?.file ?? "", decision: o.record?.decision })));
+      };
+      await findDecisions();
       meta = { title: "waferbook", version, builtAt: io.now(), basePath: options.basePath, dataCommit: history?.head ?? null };
-      const sorted = sortOutcomes(outcomes);
-      const pageExtras = waferPageExtras(sorted, meta.basePath, history);
-      const targetsCommit = history?.targetsVersions[0]?.hash ?? null;
-      commitsOf = (folder) => ({ wafer: pageExtras.get(folder)?.history.commits[0]?.hash ?? null, targets: targetsCommit });
       const pageCode = await pageCodeVersion(version);
       const fingerprints = new Map<string, string>();
-      const toDraw: { folder: string; key?: string; outcome: WaferOutcome }[] = [];
-      for (const [i, o] of outcomes.entries()) {
-        // Everything in the wafer's output folder: the page's extras, and the commits its results.json names.
-        const fp = pageFingerprint(pageCode, meta.basePath, o, { extras: pageExtras.get(o.folder), commits: commitsOf(o.folder) });
-        fingerprints.set(o.folder, fp);
-        if (drawn.has(o.folder)) continue;
-        if (reusePages && (await previousFingerprint(path.join(outDir, "wafers", o.folder, "index.html"))) === fp) reused.add(o.folder);
-        else toDraw.push({ folder: o.folder, key: found[i].key, outcome: o });
+      /** Pages taken as drawn from the cache (drawnPages.ts). */
+      const restoredPages = new Set<string>();
+      let stillToDraw: { folder: string; key?: string; outcome: WaferOutcome }[] = [];
+      // Usually one round. A drawn page refused as not waferbook's own (drawnPages.ts restoreDrawnPage) means someone
+      // could write into the cache: that wafer is analysed again from its raw files, never from its entry, and since
+      // its outcome may differ from the entry's, what depends on every outcome (order, neighbours, fingerprints,
+      // pages reused) is worked out again in a second round, keeping the pages restored in the first.
+      let reanalysed = 0;
+      for (;;) {
+        sorted = sortOutcomes(outcomes);
+        pageExtras = waferPageExtras(sorted, meta.basePath, history);
+        const targetsCommit = history?.targetsVersions[0]?.hash ?? null;
+        commitsOf = (folder) => ({ wafer: pageExtras.get(folder)?.history.commits[0]?.hash ?? null, targets: targetsCommit });
+        reused.clear();
+        const toDraw: { folder: string; key?: string; outcome: WaferOutcome; i: number }[] = [];
+        for (const [i, o] of outcomes.entries()) {
+          // Everything in the wafer's output folder: the page's extras, and the commits its results.json names.
+          const fp = pageFingerprint(pageCode, meta.basePath, o, { extras: pageExtras.get(o.folder), commits: commitsOf(o.folder) });
+          fingerprints.set(o.folder, fp);
+          if (drawn.has(o.folder) || restoredPages.has(o.folder)) continue;
+          if (reusePages && (await previousFingerprint(path.join(outDir, "wafers", o.folder, "index.html"))) === fp) reused.add(o.folder);
+          else toDraw.push({ folder: o.folder, key: found[i].key, outcome: o, i });
+        }
+        // Pages drawn by a --shard build (or an earlier one) are taken from the cache as drawn (drawnPages.ts).
+        // A few at a time: each is a file read and a few writes.
+        const restoreLimit = pLimit(4);
+        const cachePages: Problem[][] = toDraw.map(() => []);
+        const restored = await Promise.all(
+          toDraw.map((it, k) =>
+            restoreLimit(async () =>
+              !cacheDir || !it.key
+                ? "absent"
+                : await restoreDrawnPage(
+                    cacheDir,
+                    drawnPageKey(pageCode, it.key, it.outcome),
+                    it.folder,
+                    tmpDir,
+                    scratchDir,
+                    (file, reason) => cachePages[k].push(damagedEntryWarning(it.folder, file, reason)),
+                    (file, found) => cachePages[k].push(refusedPageWarning(it.folder, file, found)),
+                  ),
+            ),
+          ),
+        );
+        // In folder order, whatever order the reads finished in.
+        jobs.cacheWarnings.push(...cachePages.flat());
+        toDraw.forEach((it, k) => restored[k] === "restored" && restoredPages.add(it.folder));
+        stillToDraw = toDraw.filter((_, k) => restored[k] === "absent" || restored[k] === "damaged");
+        const refused = toDraw.filter((_, k) => restored[k] === "refused");
+        // Each round moves the refused wafers to `drawn`, so the rounds end.
+        if (!refused.length) break;
+        reanalysed += refused.length;
+        await jobs.reanalyseAll(refused, (k, r) => {
+          const i = refused[k].i;
+          found[i] = r;
+          drawn.add(r.entry.folder);
+          outcomes[i] = judgeOutcome(r.entry, r.entry.analysis, ctx);
+        });
+        await findDecisions();
       }
-      // Pages drawn by a --shard build (or an earlier one) are taken from the cache as drawn (drawnPages.ts).
-      // A few at a time: each is a file read and a few writes.
-      const restoreLimit = pLimit(4);
-      const damagedPages: Problem[][] = toDraw.map(() => []);
-      const restored = await Promise.all(toDraw.map((it, k) => restoreLimit(async () => !!cacheDir && !!it.key && (await restoreDrawnPage(cacheDir, drawnPageKey(pageCode, it.key, it.outcome), it.folder, tmpDir, scratchDir, (file, reason) => damagedPages[k].push(damagedEntryWarning(it.folder, file, reason)))))));
-      // In folder order, whatever order the reads finished in.
-      jobs.cacheWarnings.push(...damagedPages.flat());
-      const pagesFromCache = restored.filter(Boolean).length;
-      const stillToDraw = toDraw.filter((_, k) => !restored[k]);
+      const pagesFromCache = restoredPages.size;
       await jobs.drawAll(stillToDraw);
       // The workers' heaps go before rendering, the main thread's busiest moment for memory.
       await jobs.close();
-      stats = { cacheHits: analysed.filter((a) => a.cacheHit).length, analysed: analysed.filter((a) => !a.cacheHit).length, pagesReused: reused.size, pagesFromCache, drawn: drawn.size + stillToDraw.length, filesHashed: jobs.fileHashes?.hashed ?? 0, phases };
+      stats = { cacheHits: analysed.filter((a) => a.cacheHit).length - reanalysed, analysed: analysed.filter((a) => !a.cacheHit).length + reanalysed, pagesReused: reused.size, pagesFromCache, drawn: drawn.size + stillToDraw.length, filesHashed: jobs.fileHashes?.hashed ?? 0, phases };
       const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history });
       lap("model");
       written = await renderSite(model, sorted.map((o) => o.folder).filter((f) => !reused.has(f)), tmpDir, scratchDir, meta, pageExtras, fingerprints);

@@ -181,6 +181,22 @@ export function damagedEntryWarning(folder: string, file: string, reason: string
 }
 
 /**
+ * The build-output warning for a drawn page refused as not waferbook's own
+ * (drawnPages.ts restoreDrawnPage): names the cache file and what it held.
+ */
+export function refusedPageWarning(folder: string, file: string, found: string): Problem {
+  return {
+    severity: "warning",
+    file: `wafers/${folder}/wafer.md`,
+    wafer: folder,
+    message: `the drawn page ${file} in the cache was refused and deleted: it holds what waferbook never draws, so it was written by someone who could write into the cache folder; the wafer was analysed again from its raw files, not taken from the cache, and its page drawn afresh`,
+    expected: "a drawn page as waferbook writes it (docs/scaling.md, Trust)",
+    found,
+    fix: "find which job or copy put that file into the cache; merge only cache folders written by your own pipeline's jobs, or build with --no-cache",
+  };
+}
+
+/**
  * Why an entry does not belong to the folder's files as they are now hashed,
  * or undefined when it does: every file the entry's analysis read (its
  * provenance SHA-256, taken from the bytes parsed) must have the digest the

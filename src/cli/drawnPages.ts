@@ -17,6 +17,9 @@
  * header, SHA-256 of the payload, payload; written by temporary file and
  * rename; checked on every read, and a damaged file is deleted and the page
  * drawn again. So cache folders of several machines merge by plain copying.
+ * The checksum detects damage, not authorship: a page that seals correctly
+ * is also checked against what waferbook draws before it is published
+ * (src/publish/drawnPageCheck.ts), and refused otherwise.
  */
 import { createHash } from "node:crypto";
 import { promises as fs } from "node:fs";
@@ -25,6 +28,7 @@ import v8 from "node:v8";
 import { seal, unseal, writeAtomically } from "./cache.ts";
 import { parkedPath } from "./render.ts";
 import type { WaferOutcome } from "../judge/outcome.ts";
+import { drawnFileProblem, pageModelProblem } from "../publish/drawnPageCheck.ts";
 
 /** Bumped when the stored shape changes. */
 const DRAWN_FORMAT = "waferbook-drawn-page-1";
@@ -81,38 +85,63 @@ export async function hasDrawnPage(cacheDir: string, key: string): Promise<boole
   );
 }
 
+/** What restoreDrawnPage found (see there). */
+export type Restored = "restored" | "absent" | "damaged" | "refused";
+
 /**
  * Puts the drawn page stored under `key` where drawWaferPage would have left
- * it (pictures into outDir, model into scratchDir); false when there is none.
- * A file that fails its checksum, or does not hold this wafer's page, is
- * deleted and reported to `onDamaged`, and false returned (the page is then
- * drawn from the analysis).
+ * it (pictures into outDir, model into scratchDir): "restored"; "absent" when
+ * there is none. A file that fails its checksum, or does not hold this
+ * wafer's page, is deleted and reported to `onDamaged` ("damaged": the page
+ * is then drawn from the analysis). A page that seals correctly but holds
+ * anything waferbook's drawing never writes (src/publish/drawnPageCheck.ts:
+ * markup, links, chart data and files checked against allow-lists) is
+ * deleted and reported to `onRefused` with what was found ("refused"):
+ * someone wrote it who could write into the cache, so the caller analyses
+ * the wafer again from its raw files rather than trust its cache entry.
+ * Nothing is written before the whole page has passed.
  */
-export async function restoreDrawnPage(cacheDir: string, key: string, folder: string, outDir: string, scratchDir: string, onDamaged: (file: string, reason: string) => void): Promise<boolean> {
+export async function restoreDrawnPage(
+  cacheDir: string,
+  key: string,
+  folder: string,
+  outDir: string,
+  scratchDir: string,
+  onDamaged: (file: string, reason: string) => void,
+  onRefused: (file: string, found: string) => void = onDamaged,
+): Promise<Restored> {
   const file = drawnPagePath(cacheDir, key);
   let bytes: Buffer;
   try {
     bytes = await fs.readFile(file);
   } catch {
-    return false;
+    return "absent";
   }
-  const damaged = async (reason: string) => {
-    onDamaged(file, reason);
+  const discard = async (reason: string, status: "damaged" | "refused") => {
+    (status === "damaged" ? onDamaged : onRefused)(file, reason);
     await fs.rm(file, { force: true }).catch(() => {});
-    return false;
+    return status;
   };
   const payload = unseal(bytes);
-  if (typeof payload === "string") return damaged(payload);
+  if (typeof payload === "string") return discard(payload, "damaged");
   let page: DrawnPage;
   try {
     page = v8.deserialize(payload) as DrawnPage;
   } catch {
-    return damaged("its contents do not read as a drawn page");
+    return discard("its contents do not read as a drawn page", "damaged");
   }
   const prefix = `wafers/${folder}/`;
-  if (page?.folder !== folder || !(page.model instanceof Uint8Array) || !Array.isArray(page.files) || page.files.some((f) => typeof f?.path !== "string" || !f.path.startsWith(prefix) || f.path.split("/").some((p) => p === ".." || p === "" || p === "."))) {
-    return damaged("it does not hold this wafer's page");
+  if (page?.folder !== folder || !(page.model instanceof Uint8Array) || !Array.isArray(page.files) || page.files.some((f) => typeof f?.path !== "string" || !(f.bytes instanceof Uint8Array) || !f.path.startsWith(prefix) || f.path.split("/").some((p) => p === ".." || p === "" || p === "."))) {
+    return discard("it does not hold this wafer's page", "damaged");
   }
+  let refused: string | undefined;
+  try {
+    refused = checkDrawnPage(page, folder);
+  } catch (e) {
+    // A model nested deeper than the stack allows is not one waferbook drew.
+    refused = `a page model that cannot be checked (${(e as Error).message})`;
+  }
+  if (refused) return discard(refused, "refused");
   for (const f of page.files) {
     const dest = path.join(outDir, ...f.path.split("/"));
     await fs.mkdir(path.dirname(dest), { recursive: true });
@@ -120,5 +149,21 @@ export async function restoreDrawnPage(cacheDir: string, key: string, folder: st
   }
   await fs.mkdir(scratchDir, { recursive: true });
   await fs.writeFile(parkedPath(scratchDir, folder), page.model);
-  return true;
+  return "restored";
+}
+
+/** What a drawn page holds that waferbook's drawing never writes (src/publish/drawnPageCheck.ts), or undefined. */
+function checkDrawnPage(page: DrawnPage, folder: string): string | undefined {
+  for (const f of page.files) {
+    const why = drawnFileProblem(f.path, f.bytes, folder);
+    if (why) return why;
+  }
+  if (!page.files.some((f) => f.path === `wafers/${folder}/compare.js`)) return `no wafers/${folder}/compare.js, which every drawn page has`;
+  let model: unknown;
+  try {
+    model = v8.deserialize(page.model);
+  } catch {
+    return "a page model that does not read back";
+  }
+  return pageModelProblem(model, folder);
 }

@@ -10,9 +10,17 @@
  * located problems and leaves the last good site served; input errors inside a
  * wafer are printed and shown on its page, as with `build`.
  *
+ * The data folder itself may go away (removed, renamed, a checkout of another
+ * branch in the folder above): serve then says so, on stderr and as the open
+ * pages' error notice, keeps serving the last site, and looks every
+ * PRESENCE_MS; when the folder is back (or was replaced by a new folder of
+ * the same name, which the old watcher would never report) it watches the
+ * new folder and rebuilds, with no restart.
+ *
  * The server listens on localhost only: it is a preview for the person editing
  * the records, not a way to publish (docs/publishing.md). Ctrl-C stops it.
  */
+import { promises as fs } from "node:fs";
 import path from "node:path";
 import type { BuildOptions, ServeOptions } from "./args.ts";
 import { EXIT } from "./args.ts";
@@ -21,6 +29,8 @@ import type { CommandIO } from "./main.ts";
 
 /** Quiet time after the last change before rebuilding, in milliseconds. */
 export const DEBOUNCE_MS = 300;
+/** How often serve looks whether the data folder is still (or again) there, in milliseconds. */
+export const PRESENCE_MS = 1000;
 const HOST = "localhost";
 
 export interface ServeHandle {
@@ -77,16 +87,30 @@ export async function startServe(options: ServeOptions, io: CommandIO): Promise<
   const url = server.getServerUrl(HOST, "/");
 
   const { watch } = await import("@11ty/chokidar-with-glob-support");
-  const watcher = watch(dataDir, { ignoreInitial: true, ignored: ["**/.git/**"], awaitWriteFinish: { stabilityThreshold: 150, pollInterval: 25 } });
+  const watchData = () => {
+    const w = watch(dataDir, { ignoreInitial: true, ignored: ["**/.git/**"], awaitWriteFinish: { stabilityThreshold: 150, pollInterval: 25 } });
+    w.on("all", (_event: string, file: string) => {
+      changed.add(path.relative(dataDir, file).split(path.sep).join("/") || ".");
+      clearTimeout(timer);
+      timer = setTimeout(() => void rebuild(), DEBOUNCE_MS);
+    });
+    // A watcher whose folder was just removed may report errors: the presence check speaks for that case.
+    w.on("error", (e: unknown) => void checkPresence().then((there) => there && io.err(`waferbook serve: watching ${shown(dataDir)}: ${(e as Error)?.message ?? String(e)}`)));
+    return w;
+  };
   let timer: NodeJS.Timeout | undefined;
   let running: Promise<void> | undefined;
   let again = false;
   let changed = new Set<string>();
+  /** The data folder's identity (device, inode) while it is there; null while it is gone. */
+  let present = await folderIdentity(dataDir);
   const rebuild = async (): Promise<void> => {
     if (running) {
       again = true;
       return;
     }
+    // A folder being removed sends a burst of deletions: no build against a missing folder (checkPresence says so once).
+    if (!(await checkPresence())) return;
     const files = [...changed].sort();
     changed = new Set();
     io.err(`waferbook serve: ${files.slice(0, 3).join(", ")}${files.length > 3 ? ` and ${files.length - 3} more` : ""} changed: building…`);
@@ -106,23 +130,62 @@ export async function startServe(options: ServeOptions, io: CommandIO): Promise<
       await rebuild();
     }
   };
-  watcher.on("all", (_event: string, file: string) => {
-    changed.add(path.relative(dataDir, file).split(path.sep).join("/") || ".");
-    clearTimeout(timer);
-    timer = setTimeout(() => void rebuild(), DEBOUNCE_MS);
-  });
+  let watcher = watchData();
+  let checking: Promise<boolean> | undefined;
+  /**
+   * Whether the data folder is there. When it has gone, says so (stderr and the
+   * open pages' error notice) and keeps serving the last site; when it is back —
+   * or was replaced by another folder of the same name, which the watcher,
+   * attached to the old folder, would never report — watches it afresh and rebuilds.
+   */
+  const checkPresence = (): Promise<boolean> =>
+    (checking ??= (async () => {
+      const now = await folderIdentity(dataDir);
+      if (now === null) {
+        if (present !== null) {
+          present = null;
+          const text = `the data folder ${shown(dataDir)} is gone (removed or renamed): the last site is still served; it is watched again and rebuilt as soon as the folder is back`;
+          io.err(`waferbook serve: ${text}.`);
+          server.sendError({ error: new Error(`waferbook: ${text}.`) });
+        }
+        return false;
+      }
+      if (now !== present) {
+        const back = present === null;
+        present = now;
+        await watcher.close();
+        watcher = watchData();
+        await new Promise<void>((resolve) => watcher.once("ready", () => resolve()));
+        io.err(`waferbook serve: the data folder ${shown(dataDir)} is ${back ? "back" : "a new folder (replaced)"}: watching it again.`);
+        changed.add(".");
+        clearTimeout(timer);
+        timer = setTimeout(() => void rebuild(), DEBOUNCE_MS);
+      }
+      return true;
+    })().finally(() => (checking = undefined)));
+  // The watcher cannot report its own folder coming back: a look every PRESENCE_MS does.
+  const presence = setInterval(() => void checkPresence(), PRESENCE_MS);
+  presence.unref();
   await new Promise<void>((resolve) => watcher.once("ready", () => resolve()));
   io.out(`waferbook serve: ${url} (the site in ${shown(outDir)}, rebuilt when ${shown(dataDir)} changes; Ctrl-C stops)`);
 
   return {
     url,
     async close() {
+      clearInterval(presence);
       clearTimeout(timer);
+      await checking;
       await watcher.close();
       await running;
       await server.close();
     },
   };
+}
+
+/** "device:inode" of a folder, or null when there is none (removed, renamed, or a file in its place). */
+async function folderIdentity(dir: string): Promise<string | null> {
+  const st = await fs.stat(dir).catch(() => null);
+  return st?.isDirectory() ? `${st.dev}:${st.ino}` : null;
 }
 
 /** A folder as the user would type it: relative below the working folder, else absolute. */

@@ -273,6 +273,25 @@ export class WaferJobs {
     for (const j of await Promise.all(jobs)) this.cacheWarnings.push(...(j.result.warnings ?? []));
   }
 
+  /**
+   * Analyses `items` again from their raw files, never from the cache (a
+   * cache entry of theirs is not trusted: build.ts, a refused drawn page),
+   * draws their pages and stores fresh entries; onDone(k, r) with the slim
+   * result of items[k], in that order.
+   */
+  async reanalyseAll(items: { folder: string; key?: string }[], onDone: (k: number, r: AnalysedFolder) => void): Promise<void> {
+    const pool = this.startPool(items.length);
+    const { analyseJob } = pool ? { analyseJob: undefined } : await jobsHere();
+    const jobs = items.map((it) => (pool ? pool.run("analyse", it.folder, it.key) : undefined));
+    for (const j of jobs) j?.catch(() => {});
+    for (const [k, it] of items.entries()) {
+      // With a key, analyseJob skips the cache look-up and reads the raw files (analyseFolder.ts).
+      const j = jobs[k] ? await jobs[k] : await analyseJob!(it.folder, this.ctx, it.key);
+      this.cacheWarnings.push(...(j.result.warnings ?? []));
+      onDone(k, j.result);
+    }
+  }
+
   async close(): Promise<void> {
     await this.prestarted?.close();
     await this.pool?.close();

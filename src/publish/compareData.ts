@@ -45,9 +45,15 @@ export function compareData(o: WaferOutcome) {
   };
 }
 
+/** What wafers/<id>/compare.js holds around the wafer's JSON (drawnPageCheck.ts reads it back against these). */
+export function compareScriptFrame(folder: string): { before: string; after: string } {
+  return { before: `(window.waferbookCompare = window.waferbookCompare || {})[${JSON.stringify(folder)}] = `, after: ";\n" };
+}
+
 /** The script text of wafers/<id>/compare.js. */
 export function compareScript(o: WaferOutcome): string {
   // JSON is a JavaScript expression; "<" is escaped so the text is inert even if it were ever inlined.
   const json = JSON.stringify(compareData(o)).replace(/</g, "\\u003c");
-  return `(window.waferbookCompare = window.waferbookCompare || {})[${JSON.stringify(o.folder)}] = ${json};\n`;
+  const { before, after } = compareScriptFrame(o.folder);
+  return `${before}${json}${after}`;
 }

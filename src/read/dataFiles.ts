@@ -251,7 +251,6 @@ function firstInvalidUtf8(bytes: Buffer): number {
   return 0;
 }
 
-
 /**
  * Lists every file under a folder, recursively, as paths relative to it
  * (sorted). `label` names the folder in messages (relative to the data
@@ -262,13 +261,16 @@ function firstInvalidUtf8(bytes: Buffer): number {
  * it may be read is decided when it is opened (openDataFile: its resolved
  * path must lie inside the data folder), and a linked wafer folder is
  * decided before this walk (linkedFolder.ts, with the reason it is skipped).
+ * A link is kept unless `keepLink` (given the link's path relative to `dir`)
+ * says no (src/read/linkedFolder.ts linkInWaferFolder decides for a wafer's
+ * files, and names each link it skips).
  * Everything that is not a folder is listed (links, FIFOs, sockets too), so
  * a pattern that names one gets the reader's located refusal, not silence.
  * A chain of folders whose path exceeds the system's limit (ENAMETOOLONG,
  * e.g. 4096 bytes on Linux) is an InputError located at the chain's first
  * folder, not an internal error.
  */
-export async function listFiles(dir: string, label = ""): Promise<string[]> {
+export async function listFiles(dir: string, label = "", keepLink?: (rel: string) => Promise<boolean>): Promise<string[]> {
   let entries: Dirent[];
   try {
     entries = await fs.readdir(dir, { recursive: true, withFileTypes: true });
@@ -280,10 +282,13 @@ export async function listFiles(dir: string, label = ""): Promise<string[]> {
     const depth = sub.split("/").length;
     throw new InputError({ file: top, message: "folder path is longer than the system allows", expected: "a path of at most a few thousand characters", found: `folders nested ${depth} deep, ${e.path.length} characters in all`, fix: "flatten the folders or shorten their names" });
   }
-  return entries
-    .filter((e) => !e.isDirectory())
-    .map((e) => relPath(dir, path.join(e.parentPath, e.name)))
-    .sort();
+  const out: string[] = [];
+  for (const e of entries) {
+    if (e.isDirectory()) continue;
+    const rel = relPath(dir, path.join(e.parentPath, e.name));
+    if (!keepLink || !e.isSymbolicLink() || (await keepLink(rel))) out.push(rel);
+  }
+  return out.sort();
 }
 
 /**

@@ -56,3 +56,42 @@ export async function linkedWaferFolder(dataDir: string, name: string): Promise<
   }
   return null;
 }
+
+/**
+ * Decides whether a symbolic link found inside a wafer folder (`rel`, from
+ * the data folder: wafers/<id>/…) is listed among the wafer's files: null when
+ * it is — a link to a file, which is then read with the usual checks
+ * (dataFiles.ts: refused with a located error if it leads outside the data
+ * folder) — else the warning naming the link, where it points and why it is
+ * skipped: a link to a folder (outside the data folder, refused like any path
+ * that leads out of it; inside it, not followed, since a wafer's files are
+ * the files in its own folder and the cache key hashes exactly those), a
+ * dangling link, a loop of links. Without this, a pattern over the linked
+ * folder only "matches no file".
+ */
+export async function linkInWaferFolder(dataDir: string, rel: string): Promise<Problem | null> {
+  const link = path.join(dataDir, ...rel.split("/"));
+  const text = await fs.readlink(link).catch(() => "?");
+  const skipped = (why: string, found: string, fix: string): Problem => ({
+    severity: "warning",
+    file: rel,
+    message: `symbolic link skipped: ${why}`,
+    expected: "a file, or a link to a file inside the data folder",
+    found,
+    fix,
+  });
+  let target: string;
+  try {
+    target = await fs.realpath(link);
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code;
+    if (code === "ELOOP") return skipped("it is a loop of links", `a link to ${JSON.stringify(text)} that leads back to itself`, "replace the link by the file it should name");
+    if (code === "ENOENT") return skipped("it is dangling (its target does not exist)", `a link to ${JSON.stringify(text)}`, "point the link at an existing file, or mount the drive it points to");
+    return skipped(`it cannot be followed (${code ?? String(err)})`, `a link to ${JSON.stringify(text)}`, "check the link and the permissions of its target");
+  }
+  const st = await fs.stat(target).catch(() => null);
+  if (!st?.isDirectory()) return null;
+  const realData = await fs.realpath(dataDir);
+  if (!within(realData, target)) return skipped("it leads to a folder outside the data folder, and no file is read from outside it", `a link to ${JSON.stringify(target)}`, "copy the files into the wafer folder; to keep a wafer's data elsewhere, make the whole wafer folder under wafers/ a link to a folder inside the data folder");
+  return skipped("it leads to a folder, and links to folders inside a wafer folder are not followed (a wafer's files are those in its own folder)", `a link to ${JSON.stringify(path.relative(realData, target).split(path.sep).join("/") || ".")}`, "move or copy the files into the wafer folder, or link the files one by one");
+}

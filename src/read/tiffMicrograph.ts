@@ -7,10 +7,11 @@
  * compressions (LZW = 5, Deflate = 8 or 32946, PackBits = 32773), stripped or
  * tiled, with or without the horizontal predictor.
  *
- * The file structure and the decompression are read by the maintained `utif2`
- * decoder (UTIF.decode for the directories, UTIF.decodeImage for the strips);
- * this module only checks what a micrograph must be, bounds the pixel count
- * before anything is decompressed, and turns the samples into intensities:
+ * The file structure (the directories) is read by the maintained `utif2`
+ * decoder (UTIF.decode); the strips or tiles are decompressed by tiffBlocks.ts,
+ * which checks each against the size it must have (and every LZW code). This
+ * module checks what a micrograph must be, bounds the pixel count before
+ * anything is decompressed, and turns the samples into intensities:
  *   integers: value / (2^bits − 1), as for PNG;
  *   floats:   value / max, when no value is negative (keeps intensity ratios);
  *             (value − min) / (max − min) otherwise, and `rescaled` says so.
@@ -22,9 +23,9 @@
  * note saying why; so is a resolution with no unit, and one whose X and Y
  * differ by more than 1 % (the analysis assumes square pixels).
  */
-import { inflateSync } from "node:zlib";
 import UTIF from "utif2";
 import { DEFAULT_MAX_IMAGE_PIXELS } from "./micrograph.ts";
+import { decodeBlocks } from "./tiffBlocks.ts";
 import { MicrographFormatError, type Micrograph } from "./micrograph.ts";
 
 const EXPECTED = "a greyscale TIFF (8-, 16- or 32-bit integer, or 32- or 64-bit float; uncompressed, LZW, Deflate or PackBits)";
@@ -119,51 +120,6 @@ function checkDirectoryChain(bytes: Uint8Array): void {
   }
 }
 
-/**
- * Deflate strips (compression 8 or 32946), inflated here rather than by utif2, which inflates a
- * strip whole, however large: each strip may inflate to exactly its declared size and no more
- * (zlib's maxOutputLength), so a small file cannot expand into gigabytes. The horizontal predictor
- * (TIFF 6.0 §14) is undone per row for 8- and 16-bit samples. Returns the samples in the file's byte order.
- */
-function inflateStrips(bytes: Uint8Array, ifd: Ifd, width: number, height: number, bps: number): Uint8Array {
-  const damaged = (found: string) => new MicrographFormatError(EXPECTED, `a damaged TIFF (${found})`, "Re-export the image file, uncompressed or with LZW or Deflate.", "not a readable TIFF micrograph");
-  if (tag(ifd, 322)) throw new MicrographFormatError(EXPECTED, "a tiled TIFF with Deflate compression", "Export the micrograph in strips (the usual layout), or uncompressed.", "not a readable TIFF micrograph");
-  const offsets = tag(ifd, 273) ?? [];
-  const counts = tag(ifd, 279) ?? [];
-  const rowsPerStrip = Math.min(first(ifd, 278, height), height);
-  const bytesPer = bps / 8;
-  const rowBytes = width * bytesPer;
-  const out = new Uint8Array(height * rowBytes);
-  const predictor = first(ifd, 317, 1);
-  if (predictor !== 1 && !(predictor === 2 && bps <= 16)) throw new MicrographFormatError(EXPECTED, `a TIFF with predictor ${predictor} on ${bps}-bit samples`, "Export without a predictor, or uncompressed.", "not a readable TIFF micrograph");
-  const le = bytes[0] === 0x49;
-  offsets.forEach((off, k) => {
-    const rows = Math.min(rowsPerStrip, height - k * rowsPerStrip);
-    if (rows <= 0) return;
-    const expected = rows * rowBytes;
-    let strip: Buffer;
-    try {
-      strip = inflateSync(bytes.subarray(off, off + counts[k]), { maxOutputLength: expected });
-    } catch (e) {
-      const tooBig = (e as { code?: string }).code === "ERR_BUFFER_TOO_LARGE" || e instanceof RangeError;
-      throw damaged(tooBig ? `strip ${k + 1} inflates to more than the ${expected} bytes its ${rows} rows hold (a decompression bomb or a damaged file)` : `strip ${k + 1} does not inflate: ${(e as Error).message}`);
-    }
-    if (strip.length !== expected) throw damaged(`strip ${k + 1} inflates to ${strip.length} bytes, not the ${expected} its ${rows} rows hold`);
-    if (predictor === 2) {
-      const dv = new DataView(strip.buffer, strip.byteOffset, strip.byteLength);
-      for (let r = 0; r < rows; r++) {
-        for (let x = 1; x < width; x++) {
-          const at = r * rowBytes + x * bytesPer;
-          if (bps === 8) strip[at] = (strip[at] + strip[at - 1]) & 0xff;
-          else dv.setUint16(at, (dv.getUint16(at, le) + dv.getUint16(at - 2, le)) & 0xffff, le);
-        }
-      }
-    }
-    out.set(strip, k * rowsPerStrip * rowBytes);
-  });
-  return out;
-}
-
 export function decodeTiffMicrograph(bytes: Uint8Array, maxPixels: number = DEFAULT_MAX_IMAGE_PIXELS): TiffMicrograph {
   // utif2 reads strips through `data.buffer` at file offsets: give it a buffer of its own (a copy:
   // Buffer#slice would be a view into Node's shared pool, at a non-zero offset).
@@ -215,29 +171,13 @@ export function decodeTiffMicrograph(bytes: Uint8Array, maxPixels: number = DEFA
   if (offsets.length === 0 || offsets.length !== counts.length || offsets.some((o, k) => !(o >= 8 && counts[k] > 0 && o + counts[k] <= bytes.length))) {
     throw new MicrographFormatError(EXPECTED, `a damaged or cut-short TIFF (its image data lie beyond the file's ${n(bytes.length)} bytes)`, "Copy the file again from the microscope computer, or re-export it.", "not a readable TIFF micrograph");
   }
-  const deflate = compression === 8 || compression === 32946;
-  let data: Uint8Array | undefined;
-  if (deflate) data = inflateStrips(bytes, ifd, width, height, bps);
-  else {
-    const silenced = console.log;
-    try {
-      console.log = () => undefined; // utif2 prints a line per tiled image
-      UTIF.decodeImage(buf, ifd);
-    } catch (e) {
-      throw new MicrographFormatError(EXPECTED, `a damaged TIFF (${String((e as Error)?.message ?? e)})`, "Re-export the image file.", "not a readable TIFF micrograph");
-    } finally {
-      console.log = silenced;
-    }
-    data = ifd.data;
-  }
-  const bytesPer = bps / 8;
-  if (!data || data.length < width * height * bytesPer) {
-    throw new MicrographFormatError(EXPECTED, `a damaged TIFF (${data ? data.length : 0} bytes of image data for ${n(width)} × ${n(height)} pixels of ${bps} bits)`, "Re-export the image file.", "not a readable TIFF micrograph");
-  }
+  // Every strip or tile is decompressed here with the size it must have (tiffBlocks.ts), never by utif2, which
+  // decodes a random LZW stream into garbage, or a short strip into zeros, without complaint.
+  const tile = tag(ifd, 322) ? { width: first(ifd, 322, 0), length: first(ifd, 323, 0) } : undefined;
+  const data = decodeBlocks(bytes, { width, height, bps, compression, predictor: first(ifd, 317, 1), littleEndian: bytes[0] === 0x49, rowsPerStrip: first(ifd, 278, height), tile, offsets, counts });
   const view = new DataView(data.buffer, data.byteOffset, data.byteLength);
-  // utif2 turns 16-bit samples little-endian; 32- and 64-bit ones (and inflateStrips' output) stay in the file's byte order.
-  const fileLE = bytes[0] === 0x49;
-  const le = bps === 16 && !deflate ? true : fileLE;
+  // decodeBlocks leaves the samples in the file's byte order.
+  const le = bytes[0] === 0x49;
   const count = width * height;
   const pixels = new Float32Array(count);
   const read = (i: number): number =>

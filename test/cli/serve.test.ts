@@ -2,7 +2,8 @@
  * `waferbook serve` as a user runs it: the command on a free port against a
  * copy of two demo wafers; the index is served with the reload script; an
  * edit to a wafer.md is rebuilt and served; a broken targets.yaml is reported
- * with its line while the last good site stays served; Ctrl-C (SIGINT) stops it with
+ * with its line while the last good site stays served; a data folder removed
+ * and put back is reported and watched again; Ctrl-C (SIGINT) stops it with
  * exit code 0.
  */
 import { spawn, type ChildProcess } from "node:child_process";
@@ -83,6 +84,24 @@ describe("waferbook serve", () => {
     await fs.appendFile(path.join(tmp, "data", "wafers", "TQ-2401", "wafer.md"), `\n${MARKER}.\n`);
     await until("the rebuilt page", async () => ((await page("wafers/TQ-2401/")).text.includes(MARKER) ? true : undefined), 240);
     expect(stderr).toMatch(/wafers\/TQ-2401\/wafer\.md changed: building/);
+  }, 300_000);
+
+  it("says when the data folder is gone, keeps serving, and watches it again when it is back (hostile review: it went silent until restarted)", async () => {
+    const data = path.join(tmp, "data");
+    const away = path.join(tmp, "data-away");
+    await fs.cp(data, away, { recursive: true });
+    await fs.rm(data, { recursive: true, force: true });
+    await until("the notice", async () => (/the data folder .* is gone/.test(stderr) ? true : undefined), 120);
+    expect(stderr).toMatch(/waferbook serve: the data folder \S*data is gone \(removed or renamed\): the last site is still served/);
+    expect(stderr).not.toMatch(/the build failed/);
+    expect((await page("wafers/TQ-2401/")).text).toContain(MARKER);
+    // Put back as a new folder (a copy: another inode, which the old watcher never sees).
+    await fs.cp(away, data, { recursive: true });
+    await until("the folder back", async () => (/the data folder \S*data is back: watching it again/.test(stderr) ? true : undefined), 120);
+    // Edits in the new folder are seen: the watcher is the new folder's.
+    await fs.appendFile(path.join(data, "wafers", "TQ-2402", "wafer.md"), `\n${MARKER} again.\n`);
+    await until("the page rebuilt from the new folder", async () => ((await page("wafers/TQ-2402/")).text.includes(`${MARKER} again`) ? true : undefined), 240);
+    expect(child.exitCode).toBeNull();
   }, 300_000);
 
   it("keeps serving the last good site when a rebuild fails, and says where the problem is", async () => {

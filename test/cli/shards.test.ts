@@ -25,6 +25,9 @@ import { runBuild } from "../../src/cli/buildCommand.ts";
 import { parseShard, partition } from "../../src/cli/shard.ts";
 import { drawnPagePath, restoreDrawnPage, storeDrawnPage } from "../../src/cli/drawnPages.ts";
 import { parkedPath } from "../../src/cli/render.ts";
+import { compareScriptFrame } from "../../src/publish/compareData.ts";
+import v8 from "node:v8";
+import { PNG } from "pngjs";
 
 const git = promisify(execFile);
 const WAFERS = ["TQ-2401", "TQ-2402", "TQ-2404", "TQ-2406", "TQ-2408", "TQ-2501"];
@@ -67,18 +70,23 @@ describe("drawn pages in the cache are checked on reading", () => {
     const root = path.join(tempDir(), "drawn");
     const [out, scratch, cache] = ["out", "scratch", "cache"].map((d) => path.join(root, d));
     await fs.mkdir(path.join(out, "wafers", "W-1", "images"), { recursive: true });
-    await fs.writeFile(path.join(out, "wafers", "W-1", "images", "map.png"), "picture bytes");
+    // A tiny real PNG and the comparison data as waferbook writes them (a drawn page holds nothing else: drawnPageCheck.ts).
+    const png = PNG.sync.write(Object.assign(new PNG({ width: 1, height: 1 }), { data: Buffer.from([10, 20, 30, 255]) }));
+    await fs.writeFile(path.join(out, "wafers", "W-1", "images", "map.png"), png);
+    const compare = `${compareScriptFrame("W-1").before}{"id":"W-1"}${compareScriptFrame("W-1").after}`;
+    await fs.writeFile(path.join(out, "wafers", "W-1", "compare.js"), compare);
     await fs.mkdir(scratch, { recursive: true });
-    await fs.writeFile(parkedPath(scratch, "W-1"), "model bytes");
+    const model = v8.serialize({ id: "W-1", notesHtml: "<p>model</p>" });
+    await fs.writeFile(parkedPath(scratch, "W-1"), model);
     const key = "ab".repeat(32);
     await storeDrawnPage(cache, key, "W-1", out, scratch);
     const back = path.join(root, "back");
-    expect(await restoreDrawnPage(cache, key, "W-1", back, path.join(back, "s"), () => {})).toBe(true);
-    expect(await fs.readFile(path.join(back, "wafers", "W-1", "images", "map.png"), "utf8")).toBe("picture bytes");
-    expect(await fs.readFile(parkedPath(path.join(back, "s"), "W-1"), "utf8")).toBe("model bytes");
+    expect(await restoreDrawnPage(cache, key, "W-1", back, path.join(back, "s"), () => {})).toBe("restored");
+    expect(await fs.readFile(path.join(back, "wafers", "W-1", "images", "map.png"))).toEqual(png);
+    expect(await fs.readFile(parkedPath(path.join(back, "s"), "W-1"))).toEqual(model);
     // Another wafer's key never restores into this one.
     const damaged: string[] = [];
-    expect(await restoreDrawnPage(cache, key, "W-2", back, path.join(back, "s"), (_f, r) => damaged.push(r))).toBe(false);
+    expect(await restoreDrawnPage(cache, key, "W-2", back, path.join(back, "s"), (_f, r) => damaged.push(r))).toBe("damaged");
     expect(damaged).toEqual(["it does not hold this wafer's page"]);
     // One flipped byte: checksum mismatch, file deleted.
     await storeDrawnPage(cache, key, "W-1", out, scratch);
@@ -86,7 +94,7 @@ describe("drawn pages in the cache are checked on reading", () => {
     const bytes = await fs.readFile(file);
     bytes[bytes.length - 3] ^= 1;
     await fs.writeFile(file, bytes);
-    expect(await restoreDrawnPage(cache, key, "W-1", back, path.join(back, "s"), (_f, r) => damaged.push(r))).toBe(false);
+    expect(await restoreDrawnPage(cache, key, "W-1", back, path.join(back, "s"), (_f, r) => damaged.push(r))).toBe("damaged");
     expect(damaged.at(-1)).toMatch(/checksum/);
     await expect(fs.access(file)).rejects.toThrow();
   });

@@ -8,7 +8,8 @@ import { describe, expect, it } from "vitest";
 import { decodeTiffMicrograph, isTiff } from "../../src/read/tiffMicrograph.ts";
 import { decodeMicrograph, MicrographFormatError } from "../../src/read/micrograph.ts";
 import { micrographPng } from "../../src/synth/micrographPng.ts";
-import { packBits, writeTiff } from "../../src/synth/tiffFile.ts";
+import { lzwEncode, packBits, writeTiff } from "../../src/synth/tiffFile.ts";
+import UTIF from "utif2";
 
 const W = 23;
 const H = 17;
@@ -19,7 +20,7 @@ function samples(max: number): number[] {
 
 describe("greyscale TIFF decoding", () => {
   for (const bits of [8, 16, 32] as const) {
-    for (const compression of ["none", "packbits", "deflate"] as const) {
+    for (const compression of ["none", "packbits", "deflate", "lzw"] as const) {
       for (const littleEndian of [true, false]) {
         it(`${bits}-bit unsigned, ${compression}, ${littleEndian ? "II" : "MM"}: every pixel is sample / (2^${bits} − 1)`, () => {
           const max = 2 ** bits - 1;
@@ -149,5 +150,102 @@ describe("hostile TIFF structure (review findings)", () => {
     file.writeUInt32LE(short.length, valueAt(file, 279));
     expect(() => decodeTiffMicrograph(file)).toThrow(/inflates to 100 bytes, not the 256|damaged/);
     try { decodeTiffMicrograph(file); } catch (e) { expect((e as Error).message).toMatch(/inflates to 100 bytes/); }
+  });
+});
+
+// LZW (TIFF 6.0 §13) and every block's size (src/read/tiffBlocks.ts). The encoder (src/synth/tiffFile.ts lzwEncode)
+// is checked against utif2's own LZW decoder, a maintained implementation sharing no code with either; the
+// hostile streams are written by hand, bit by bit, from §13.
+describe("LZW strips and tiles, and the size of every block", () => {
+  /** Codes of the given widths, most significant bit first (TIFF 6.0 §13). */
+  const codes = (list: [code: number, width: number][]) => {
+    let bits = "";
+    for (const [c, w] of list) bits += c.toString(2).padStart(w, "0");
+    bits = bits.padEnd(Math.ceil(bits.length / 8) * 8, "0");
+    return Buffer.from(Array.from({ length: bits.length / 8 }, (_, k) => parseInt(bits.slice(8 * k, 8 * k + 8), 2)));
+  };
+  /** A 16 × 16 8-bit TIFF of one strip whose data are `strip`, with the given compression tag. */
+  const withStrip = (strip: Uint8Array, compression: "lzw" | "packbits" | "none") => {
+    const b = writeTiff({ width: 16, height: 16, samples: new Array(256).fill(1), bits: 8, format: "uint", compression, rowsPerStrip: 16 });
+    const file = Buffer.concat([b, strip]);
+    const ifd = file.readUInt32LE(4);
+    for (let k = 0; k < file.readUInt16LE(ifd); k++) {
+      const at = ifd + 2 + 12 * k;
+      if (file.readUInt16LE(at) === 273) file.writeUInt32LE(b.length, at + 8);
+      if (file.readUInt16LE(at) === 279) file.writeUInt32LE(strip.length, at + 8);
+    }
+    return file;
+  };
+  /** A seeded byte generator (xorshift32, common practice). */
+  const bytesFrom = (seed: number, n: number) => {
+    let x = seed >>> 0 || 1;
+    return Buffer.from(Array.from({ length: n }, () => ((x ^= x << 13), (x ^= x >>> 17), (x ^= x << 5), x & 0xff)));
+  };
+
+  it("the synthetic encoder writes what utif2's decoder reads (width growth to 12 bits and table resets included)", () => {
+    const src = bytesFrom(7, 40_000).map((v, i) => (i % 3 ? v & 0x0f : v));
+    const enc = lzwEncode(src);
+    const out = new Uint8Array(src.length);
+    // utif2's internal LZW decoder (the one UTIF.decodeImage calls for compression 5, with its arguments).
+    (UTIF.decode as unknown as { _decodeLZW: (d: Uint8Array, off: number, len: number, tgt: Uint8Array, toff: number, bits: number) => void })._decodeLZW(enc, 0, enc.length, out, 0, 8);
+    expect(Buffer.from(out).equals(src)).toBe(true);
+  });
+  it("an LZW image of 200 × 150 pixels (12-bit codes, table resets), with and without the predictor, decodes to its samples", () => {
+    const w = 200;
+    const h = 150;
+    const s = Array.from({ length: w * h }, (_, i) => ((i % w) * 3 + Math.floor(i / w) * 5 + ((i * 2654435761) >>> 28)) % 256);
+    for (const predictor of [1, 2] as const) {
+      const m = decodeTiffMicrograph(writeTiff({ width: w, height: h, samples: s, bits: 8, format: "uint", compression: "lzw", predictor, rowsPerStrip: 64 }));
+      expect(Array.from(m.pixels, (p) => Math.round(p * 255))).toEqual(s);
+    }
+    const s16 = s.map((v) => v * 257);
+    const m16 = decodeTiffMicrograph(writeTiff({ width: w, height: h, samples: s16, bits: 16, format: "uint", compression: "lzw", predictor: 2, littleEndian: false }));
+    expect(Array.from(m16.pixels, (p) => Math.round(p * 65535))).toEqual(s16);
+  });
+  it("tiled images (edge tiles padded) decode to their samples, for every compression", () => {
+    for (const compression of ["none", "packbits", "deflate", "lzw"] as const) {
+      const s = samples(65535);
+      const m = decodeTiffMicrograph(writeTiff({ width: W, height: H, samples: s, bits: 16, format: "uint", compression, tile: 16 }));
+      for (let i = 0; i < s.length; i++) expect(m.pixels[i], `${compression} pixel ${i}`).toBeCloseTo(s[i] / 65535, 6);
+    }
+  });
+
+  const refuse = (file: Buffer, why: RegExp) => {
+    let err: unknown;
+    try {
+      decodeTiffMicrograph(file);
+    } catch (e) {
+      err = e;
+    }
+    expect(err).toBeInstanceOf(MicrographFormatError);
+    expect((err as Error).message).toMatch(/damaged TIFF/);
+    expect((err as Error).message).toMatch(why);
+  };
+  it("a strip of random bytes is refused, never decoded into garbage (many seeds, with and without a clear code first)", () => {
+    for (let seed = 1; seed <= 200; seed++) {
+      const random = bytesFrom(seed, 120);
+      refuse(withStrip(random, "lzw"), /strip 1: /);
+      // Even after a proper clear code and a literal, random codes are refused.
+      refuse(withStrip(Buffer.concat([codes([[256, 9], [65, 9]]), random]), "lzw"), /strip 1: /);
+    }
+  });
+  it("each broken stream says what was found and at which byte", () => {
+    refuse(withStrip(codes([[65, 9], [257, 9]]), "lzw"), /strip 1: the first code is 65, not the clear code 256 .* at byte 1 of its 3/);
+    refuse(withStrip(codes([[256, 9], [300, 9]]), "lzw"), /the code 300 follows a clear code, where only a literal byte may/);
+    refuse(withStrip(codes([[256, 9], [65, 9], [300, 9]]), "lzw"), /the code 300 is beyond the 258 entries of the table built so far/);
+    refuse(withStrip(codes([[256, 9], [65, 9], [66, 9], [257, 9]]), "lzw"), /the end code comes after 2 of the 256 bytes/);
+    refuse(withStrip(codes([[256, 9], [65, 9], [66, 9]]), "lzw"), /the stream ends without its end code after 2 of 256 bytes/);
+    // More than the strip holds (a bomb, or another image's data): stopped at the strip's size.
+    refuse(withStrip(lzwEncode(new Uint8Array(100_000)), "lzw"), /decode to more than the 256 bytes the block holds/);
+    // The old (pre-6.0) variant, least significant bit first: its first code does not read as the clear code.
+    const msb = lzwEncode(new Uint8Array(256).fill(9));
+    refuse(withStrip(msb.map((b) => parseInt(b.toString(2).padStart(8, "0").split("").reverse().join(""), 2)), "lzw"), /the first code is \d+, not the clear code/);
+    // The same strip in order decodes.
+    expect(decodeTiffMicrograph(withStrip(msb, "lzw")).pixels[0]).toBeCloseTo(9 / 255, 6);
+  });
+  it("uncompressed and PackBits strips of the wrong size are refused, not read as zeros", () => {
+    refuse(withStrip(new Uint8Array(200), "none"), /strip 1 holds 200 bytes, not the 256 its pixels need/);
+    refuse(withStrip(packBits(new Uint8Array(200).fill(3)), "packbits"), /strip 1 unpacks to 200 bytes, not the 256/);
+    refuse(withStrip(packBits(new Uint8Array(300).fill(3)), "packbits"), /strip 1: a PackBits repeat of \d+ bytes at byte \d+ runs past the 256 bytes the block holds/);
   });
 });

@@ -14,6 +14,7 @@ import { validateSweep, type Sweep } from "../sweep.ts";
 import { validateWafer, type WaferRecord } from "../wafer.ts";
 import { deviceDimensionWarnings } from "../recordNumbers.ts";
 import { checkRelativePath, decodeText, listFiles, matchGlob, MAX_IMAGE_FILE_BYTES, readDataBytes, relPath } from "../../read/dataFiles.ts";
+import { linkInWaferFolder } from "../../read/linkedFolder.ts";
 import { loadImageInputs } from "./imageFiles.ts";
 import { loadStructureInputs } from "./structureFiles.ts";
 import type { WaferFileReader } from "../../read/waferFiles.ts";
@@ -81,8 +82,20 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
     out.problems.push({ severity: "error", wafer: folder, file: recordRel, line: lineOfField(matterText, "wafer", 2), field: "wafer", message: "duplicate wafer id (ids must differ by more than letter case)", expected: "a unique id", found, fix: "rename one of the wafers" });
   }
   let all: string[];
+  const skippedLinks: string[] = [];
   try {
-    all = (await listFiles(waferDir, relPath(ctx.dataDir, waferDir))).filter((f) => f !== "wafer.md");
+    const label = relPath(ctx.dataDir, waferDir);
+    // A link to a folder, a dangling link or a loop is skipped with a warning naming it (linkedFolder.ts).
+    all = (
+      await listFiles(waferDir, label, async (rel) => {
+        const skipped = await linkInWaferFolder(ctx.dataDir, `${label}/${rel}`);
+        if (skipped) {
+          out.problems.push({ ...skipped, wafer: folder });
+          skippedLinks.push(rel);
+        }
+        return !skipped;
+      })
+    ).filter((f) => f !== "wafer.md");
   } catch (err) {
     out.problems.push(...toProblems(err, folder));
     return out;
@@ -99,7 +112,7 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
       continue;
     }
     if (matched.length === 0) {
-      out.problems.push({ severity: "error", wafer: folder, file: recordRel, line: lineOfField(matterText, field, 2), field, message: "file pattern matches no file", expected: "at least one sweep file", found: JSON.stringify(spec.files), fix: `check the pattern against the files in wafers/${folder}/` });
+      out.problems.push({ severity: "error", wafer: folder, file: recordRel, line: lineOfField(matterText, field, 2), field, message: "file pattern matches no file", expected: "at least one sweep file", found: JSON.stringify(spec.files), fix: `check the pattern against the files in wafers/${folder}/${linksNote(folder, skippedLinks)}` });
       continue;
     }
     let failed = 0;
@@ -128,7 +141,7 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
       out.problems.push({ severity: "error", wafer: folder, file: recordRel, line: lineOfField(matterText, field, 2), field, message: `no field sweeps for device ${spec.id}: Hall analysis needs B sweeps`, expected: "at least one field sweep (a B column, with # gate:) among the device's files", found: `gate sweeps only (${matched.join(", ")})`, fix: "add the device's field sweeps to the pattern, or check that the files are not gate sweeps exported by mistake" });
     }
   }
-  const reader = fileReader(ctx, waferDir, recordRel, matterText, all, out);
+  const reader = fileReader(ctx, waferDir, recordRel, matterText, all, out, skippedLinks);
   out.structure = await loadStructureInputs(record, reader);
   out.images = await loadImageInputs(record, reader);
   // Problems pushed as literals (file patterns, reports) may echo long input too.
@@ -136,7 +149,14 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
   return out;
 }
 
-function fileReader(ctx: LoadContext, waferDir: string, recordRel: string, matterText: string, all: string[], out: LoadedWafer): WaferFileReader {
+/** For "matches no file": the links in the folder that were skipped, which may be why. */
+function linksNote(folder: string, skipped: readonly string[]): string {
+  if (!skipped.length) return "";
+  const names = skipped.slice(0, 3).map((l) => `wafers/${folder}/${l}`).join(", ");
+  return ` (the symbolic link${skipped.length === 1 ? "" : "s"} ${names}${skipped.length > 3 ? ` and ${skipped.length - 3} more` : ""} ${skipped.length === 1 ? "was" : "were"} skipped: see ${skipped.length === 1 ? "its warning" : "their warnings"})`;
+}
+
+function fileReader(ctx: LoadContext, waferDir: string, recordRel: string, matterText: string, all: string[], out: LoadedWafer, skippedLinks: readonly string[]): WaferFileReader {
   const folder = out.folder;
   const lineOf = (field: string) => lineOfField(matterText, field, 2);
   const report = (p: Omit<Problem, "wafer">) => out.problems.push({ ...p, wafer: folder });
@@ -148,7 +168,7 @@ function fileReader(ctx: LoadContext, waferDir: string, recordRel: string, matte
     glob(pattern, field) {
       try {
         const matched = matchGlob(pattern, all, { file: recordRel, field });
-        if (matched.length === 0) report({ severity: "error", file: recordRel, line: lineOf(field), field, message: "file pattern matches no file", expected: "at least one file", found: JSON.stringify(pattern), fix: `check the pattern against the files in wafers/${folder}/` });
+        if (matched.length === 0) report({ severity: "error", file: recordRel, line: lineOf(field), field, message: "file pattern matches no file", expected: "at least one file", found: JSON.stringify(pattern), fix: `check the pattern against the files in wafers/${folder}/${linksNote(folder, skippedLinks)}` });
         return matched;
       } catch (err) {
         out.problems.push(...toProblems(err, folder));

@@ -1,0 +1,193 @@
+/**
+ * The allow-lists a drawn page read back from the cache must pass before it
+ * is published (src/publish/drawnPageCheck.ts, preparedMarkup.ts, safeUrl.ts):
+ * what waferbook's own renderers write passes (Markdown notes of every kind,
+ * and every SVG figure and notes block on the shared demo site); each trick a
+ * forged page could use to run script on the site's origin is refused with
+ * what was found; and every field the wafer templates place unescaped or use
+ * as a link is one the check covers (read from the templates themselves).
+ * The tricks are the usual ones of HTML injection (common practice: the
+ * HTML standard's parsing of character references and URLs; from memory).
+ */
+import { promises as fs } from "node:fs";
+import path from "node:path";
+import { describe, expect, it } from "vitest";
+import { PNG } from "pngjs";
+import { markupProblem, scriptJsonProblem } from "../../src/publish/preparedMarkup.ts";
+import { urlProblem } from "../../src/publish/safeUrl.ts";
+import { drawnFileProblem, JSON_FIELD, MARKUP_FIELD, pageModelProblem, URL_FIELD } from "../../src/publish/drawnPageCheck.ts";
+import { renderNotes } from "../../src/publish/markdown.ts";
+import { jsonForScript } from "../../src/publish/charts.ts";
+import { compareScriptFrame } from "../../src/publish/compareData.ts";
+import { demoSite, DEMO_HOOK_TIMEOUT_MS, ROOT } from "../helpers/demoSite.ts";
+
+const NOTES = [
+  "# Heading\n\nSome *emphasis*, **strong**, ~~struck~~, `code` and a [link](https://example.org/a?b=1&c=2 \"title\").",
+  "1. one\n2. two\n\n- a\n- b\n\n> quoted\n\n---\n\nline  \nbreak",
+  "| left | centre | right |\n|:--|:-:|--:|\n| 1 | 2 | 3 |",
+  "```js\nconst x = '<script>alert(1)</script>';\n```",
+  "[mail](mailto:lab@example.invalid) [relative](../runs/TQ24-A/) ![pic](https://example.org/x.png) ![inline](data:image/png;base64,iVBORw0KGgo=)",
+  "<script>alert(1)</script> <img src=x onerror=alert(1)> [js](javascript:alert(1)) [vb](vbscript:msgbox) [data](data:text/html,<b>x</b>) [file](file:///etc/passwd)",
+  "3. starts at three\n4. four",
+];
+
+describe("what waferbook writes passes", () => {
+  it("Markdown notes of every kind (the renderer escapes raw HTML and writes only allowed links)", () => {
+    for (const n of NOTES) expect(markupProblem(renderNotes(n)), n).toBeUndefined();
+    // Links outside the allow-list stay text: the renderer and the check agree (safeUrl.ts).
+    expect(renderNotes("[x](javascript:alert(1)) [y](ftp://host/f)")).not.toMatch(/href/);
+    // Table alignment is a class (an inline style would be refused by the pages' Content-Security-Policy).
+    expect(renderNotes(NOTES[2])).toMatch(/<th class="align-left">left<\/th>\s*<th class="align-center">centre<\/th>\s*<th class="align-right">right<\/th>/);
+    expect(renderNotes(NOTES[2])).not.toMatch(/style=/);
+  });
+  it("chart JSON as jsonForScript writes it, even with hostile strings", () => {
+    const json = jsonForScript([{ title: "</script><script>alert(1)</script>", note: "a & b > c \u2028" }]);
+    expect(scriptJsonProblem(json)).toEqual({ value: [{ title: "</script><script>alert(1)</script>", note: "a & b > c \u2028" }] });
+  });
+  it(
+    "every SVG figure and notes block of the demo site",
+    async () => {
+      const site = await demoSite();
+      let svgs = 0;
+      let notes = 0;
+      for (const id of await fs.readdir(path.join(site, "wafers"))) {
+        const html = await fs.readFile(path.join(site, "wafers", id, "index.html"), "utf8").catch(() => "");
+        // The figures of the page model start with xmlns (the templates' own icons do not, and are not drawn pages' content).
+        for (const m of html.matchAll(/<svg xmlns[\s\S]*?<\/svg>/g)) {
+          expect(markupProblem(m[0]), `${id}: ${m[0].slice(0, 80)}`).toBeUndefined();
+          svgs++;
+        }
+        const block = /<div class="notes">([\s\S]*?)<\/div><\/section>/.exec(html);
+        if (block) {
+          expect(markupProblem(block[1]), id).toBeUndefined();
+          notes++;
+        }
+      }
+      // The demo has wafer maps, layer stacks and reciprocal-space maps on several wafers.
+      expect(svgs).toBeGreaterThan(10);
+      expect(notes).toBeGreaterThan(10);
+    },
+    DEMO_HOOK_TIMEOUT_MS,
+  );
+  it("a tiny PNG, and the comparison data framed for its wafer", () => {
+    const png = PNG.sync.write(Object.assign(new PNG({ width: 1, height: 1 }), { data: Buffer.from([1, 2, 3, 255]) }));
+    expect(drawnFileProblem("wafers/W-1/images/image1-micrograph.png", png, "W-1")).toBeUndefined();
+    expect(drawnFileProblem("wafers/W-1/structure/rsm-0.png", png, "W-1")).toBeUndefined();
+    const { before, after } = compareScriptFrame("W-1");
+    expect(drawnFileProblem("wafers/W-1/compare.js", Buffer.from(`${before}{"id":"W-1","metrics":[]}${after}`), "W-1")).toBeUndefined();
+  });
+});
+
+describe("each trick of a forged page is refused, saying what was found", () => {
+  const markup: [string, RegExp][] = [
+    ["<script>alert(1)</script>", /element <script>/],
+    ["<p>x</p><SCRIPT SRC=\"evil.js\"></SCRIPT>", /element <SCRIPT>/],
+    ["<img src=x onerror=alert(1)>", /not a plain tag/],
+    ['<img src="x.png" onerror="alert(1)">', /attribute onerror.*event handler/],
+    ['<svg xmlns="http://www.w3.org/2000/svg" onload="alert(1)"></svg>', /attribute onload/],
+    ['<a href="javascript:alert(1)">x</a>', /scheme "javascript:"/],
+    ['<a href=" JaVaScRiPt:alert(1)">x</a>', /scheme "JaVaScRiPt:"/],
+    ['<a href="java&#9;script:alert(1)">x</a>', /scheme "javascript:"/],
+    ['<a href="&#106;avascript:alert(1)">x</a>', /scheme "javascript:"/],
+    ['<a href="&#x6A;avascript&#58alert(1)">x</a>', /scheme "javascript:"/],
+    ['<a href="javascript&colon;alert(1)">x</a>', /character reference &colon;/],
+    ['<a href="data:text/html,&lt;script&gt;">x</a>', /scheme "data:"/],
+    ['<svg><image href="vbscript:x"/></svg>', /scheme "vbscript:"/],
+    ['<iframe src="evil.html"></iframe>', /element <iframe>/],
+    ['<object data="x.swf"></object>', /element <object>/],
+    ['<embed src="x">', /element <embed>/],
+    ['<meta http-equiv="refresh" content="0;url=https://evil.example">', /element <meta>/],
+    ['<base href="https://evil.example/">', /element <base>/],
+    ["<style>body{display:none}</style>", /element <style>/],
+    ['<p style="background:url(https://evil.example/)">x</p>', /attribute style/],
+    ["<!-- --><p>x</p>", /not a plain tag/],
+    ["<svg><foreignObject><p>x</p></foreignObject></svg>", /element <foreignObject>/],
+    ['<svg><use href="#x"/></svg>', /element <use>/],
+    ['<svg><animate attributeName="href" to="javascript:alert(1)"/></svg>', /element <animate>/],
+    ["<p>never closed", /<p> is never closed/],
+    ["</div></section><p>x</p>", /element <div>/],
+    ["<p>x</strong>", /<\/strong> .* where <\/p> was expected/],
+    ["<p/>", /self-closing/],
+    ["<textarea>", /element <textarea>/],
+  ];
+  for (const [html, why] of markup) {
+    it(`markup ${JSON.stringify(html)}`, () => expect(markupProblem(html)).toMatch(why));
+  }
+
+  it("links in model fields: only relative paths, http(s), mailto and inline pictures", () => {
+    for (const ok of ["../../raw/ab.csv", "images/x.png", "/qual/wafers/X/", "https://example.org/", "mailto:a@b", "#notes", "?q=a:b", "a/b:c"]) expect(urlProblem(ok), ok).toBeUndefined();
+    for (const bad of ["javascript:alert(1)", "\u0001javascript:x", "vbscript:x", "file:///etc/passwd", "data:text/html,x", "ftp://h/f", "jav\nascript:x"]) expect(urlProblem(bad), bad).toMatch(/scheme/);
+  });
+
+  it("the page model: the id, every unescaped field, every link field", () => {
+    const good = { id: "W-1", notesHtml: "<p>x</p>", chartsJson: jsonForScript([{ links: ["../W-2/"] }]), files: [{ href: "../../raw/a.csv" }], structure: { stackSvg: "<svg></svg>", maps: [{ svg: "<svg></svg>" }] } };
+    expect(pageModelProblem(good, "W-1")).toBeUndefined();
+    const bad: [object, RegExp][] = [
+      [{ ...good, id: "../../index" }, /for "..\/..\/index", not for "W-1"/],
+      [{ ...good, notesHtml: '<p>x</p><script src="evil.js"></script>' }, /^notesHtml: the element <script>/],
+      [{ ...good, notesHtml: ["<script>"] }, /notesHtml is a object, not text/],
+      [{ ...good, chartsJson: '[]</script><script src="evil.js"></script>' }, /^chartsJson: the chart data hold a raw "<"/],
+      [{ ...good, chartsJson: jsonForScript([{ links: ["javascript:alert(1)"] }]) }, /^chartsJson\.0\.links\.0: .*javascript/],
+      [{ ...good, files: [{ href: "javascript:alert(1)" }] }, /^files\.0\.href: .*javascript/],
+      [{ ...good, images: { images: [{ micrograph: { src: "data:text/html,x" } }] } }, /micrograph\.src: .*data/],
+      [{ ...good, structure: { maps: [{ svg: '<svg onload="alert(1)"></svg>' }] } }, /^structure\.maps\.0\.svg: .*onload/],
+      [{ ...good, uniformity: { maps: [{ svg: '<svg><a href="javascript:x"><text>x</text></a></svg>' }] } }, /uniformity\.maps\.0\.svg: .*javascript/],
+    ];
+    for (const [model, why] of bad) expect(pageModelProblem(model, "W-1")).toMatch(why);
+    expect(pageModelProblem("a string", "W-1")).toMatch(/not an object/);
+  });
+
+  it("files: only compare.js as written for this wafer and well-formed PNG pictures", () => {
+    const png = PNG.sync.write(Object.assign(new PNG({ width: 1, height: 1 }), { data: Buffer.from([1, 2, 3, 255]) }));
+    const { before, after } = compareScriptFrame("W-1");
+    const bad: [string, Buffer, RegExp][] = [
+      ["wafers/W-1/evil.js", Buffer.from("alert(1)"), /never draws/],
+      ["wafers/W-1/index.html", Buffer.from("<script>alert(1)</script>"), /never draws/],
+      ["wafers/W-1/structure/x.svg", Buffer.from("<svg onload=alert(1)>"), /never draws/],
+      ["wafers/W-1/images/x.png", Buffer.from("<script>alert(1)</script>"), /not a PNG picture/],
+      ["wafers/W-1/images/x.png", Buffer.concat([png, Buffer.from("<script>alert(1)</script>")]), /bytes after the PNG's end/],
+      ["wafers/W-1/images/x.png", (() => { const b = Buffer.from(png); b[20] ^= 1; return b; })(), /fails its CRC/],
+      ["wafers/W-1/images/x.png", png.subarray(0, png.length - 12), /no end chunk/],
+      ["wafers/W-1/compare.js", Buffer.from(`${before}{"id":"W-1"};alert(1)${after}`), /more than one JSON value/],
+      ["wafers/W-1/compare.js", Buffer.from(`alert(1);${before}{"id":"W-1"}${after}`), /not the comparison data/],
+      ["wafers/W-1/compare.js", Buffer.from(`${before}{"id":"W-1","x":"</script>"}${after}`), /raw "<"/],
+      ["wafers/W-1/compare.js", Buffer.from(`${before}{"id":"W-2"}${after}`), /the data of "W-2"/],
+    ];
+    for (const [rel, bytes, why] of bad) expect(drawnFileProblem(rel, bytes, "W-1"), rel).toMatch(why);
+  });
+});
+
+describe("the check covers every field the wafer templates place unescaped or use as a link", () => {
+  it("reads templates/wafer.njk and its sections", async () => {
+    const dir = path.join(ROOT, "templates");
+    const files = ["wafer.njk", ...(await fs.readdir(path.join(dir, "_includes", "sections"))).map((f) => `_includes/sections/${f}`)];
+    const unescaped = new Set<string>();
+    const links = new Set<string>();
+    for (const f of files) {
+      const t = await fs.readFile(path.join(dir, f), "utf8");
+      for (const m of t.matchAll(/\{\{\s*([\w.[\]]+)\s*\|\s*safe\s*\}\}/g)) unescaped.add(m[1].split(".").at(-1)!);
+      for (const m of t.matchAll(/(?:href|src|action)="\{\{\s*([^}|]+?)\s*\}\}"/g)) links.add(m[1].split(".").at(-1)!);
+    }
+    expect(unescaped.size).toBeGreaterThan(2);
+    for (const key of unescaped) expect(MARKUP_FIELD(key) || JSON_FIELD(key), key).toBe(true);
+    for (const key of links) expect(URL_FIELD(key), key).toBe(true);
+  });
+});
+
+describe("every page of the demo site carries the Content-Security-Policy and needs nothing it forbids", () => {
+  it(
+    "the policy is the first element after the charset; scripts are files or JSON data; no handler, inline style or javascript: link",
+    async () => {
+      const site = await demoSite();
+      const pages = [...(await fs.readdir(site, { recursive: true }))].filter((f) => f.endsWith(".html"));
+      expect(pages.length).toBeGreaterThan(30);
+      for (const f of pages) {
+        const html = await fs.readFile(path.join(site, f), "utf8");
+        expect(html, f).toMatch(/^<!doctype html>\s*<html lang="en">\s*<head>\s*<meta charset="utf-8">\s*<meta http-equiv="Content-Security-Policy" content="default-src 'self'; script-src 'self'; style-src 'self'; [^"]*object-src 'none'; base-uri 'none'/);
+        for (const s of html.matchAll(/<script\b[^>]*>/g)) expect(s[0], f).toMatch(/^<script (src="[^"]+" defer|type="application\/json" id="[\w-]+")>$/);
+        expect(html, f).not.toMatch(/\son[a-z]+=|\sstyle="|javascript:/i);
+      }
+    },
+    DEMO_HOOK_TIMEOUT_MS,
+  );
+});
