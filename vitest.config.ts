@@ -2,6 +2,22 @@ import { defineConfig } from "vitest/config";
 
 /** Pure unit tests: no builds, no child processes, no global state; they share one module graph per worker. */
 const UNIT = ["test/analyse", "test/read", "test/validate", "test/judge", "test/publish", "test/physics", "test/model"];
+/**
+ * Files of test/reliability and test/cli that are unit tests too (they call readers, validators, analyses or
+ * one helper of src/cli on a temporary folder: no build, no child process, no environment variable, no memory
+ * measured), so they run without a module graph of their own. A file that starts building or spawning moves out.
+ */
+const UNIT_FILES = [
+  "test/reliability/properties.test.ts",
+  "test/reliability/csvInjection.test.ts",
+  "test/reliability/instrumentCorpus.test.ts",
+  "test/reliability/notNumbers.test.ts",
+  "test/reliability/pixelBomb.test.ts",
+  "test/cli/cacheKey.test.ts",
+  "test/cli/fileHashes.test.ts",
+  "test/cli/rawCopies.test.ts",
+  "test/cli/summary.test.ts",
+];
 
 export default defineConfig({
   test: {
@@ -17,7 +33,7 @@ export default defineConfig({
         extends: true,
         test: {
           name: "unit",
-          include: UNIT.map((d) => `${d}/**/*.test.ts`),
+          include: [...UNIT.map((d) => `${d}/**/*.test.ts`), ...UNIT_FILES],
           // Without a fresh module graph per file these ~80 files take a third of the CPU time; they
           // hold no state between files (builds and measured-memory tests live in the other project).
           isolate: false,
@@ -28,7 +44,7 @@ export default defineConfig({
         test: {
           name: "integration",
           include: ["test/**/*.test.ts"],
-          exclude: UNIT.map((d) => `${d}/**`),
+          exclude: [...UNIT.map((d) => `${d}/**`), ...UNIT_FILES],
           // One folder per run for the demo site that read-only tests share (test/helpers/demoSite.ts builds it on first use).
           globalSetup: ["test/globalSetup.ts"],
         },

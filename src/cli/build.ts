@@ -26,12 +26,13 @@ import { loadDataHistory } from "../validate/load/history.ts";
 import { decisionCommits } from "../validate/load/decisionCommits.ts";
 import { writeExports } from "./writeExports.ts";
 import { PACKAGE_ROOT, packageFile } from "./paths.ts";
+import { readVersion } from "./version.ts";
 import { acquireLock, BuildLockedError, BuildStoppedError } from "./outputFolder.ts";
 import { checkOutput, OutputRefusedError } from "./outputGuard.ts";
 import { publish, recoverInterrupted } from "./siteLayout.ts";
 import { writeExtras, type CommitsOf } from "./writeWaferFiles.ts";
 
-export { PACKAGE_ROOT, BuildLockedError, BuildStoppedError, OutputRefusedError };
+export { PACKAGE_ROOT, BuildLockedError, BuildStoppedError, OutputRefusedError, readVersion };
 
 export interface BuildIO {
   log: (line: string) => void;
@@ -64,10 +65,6 @@ export function siteWideErrors(problems: readonly Problem[]): Problem[] {
   return problems.filter((p) => p.severity === "error" && p.wafer === undefined && !p.file.startsWith("wafers/"));
 }
 
-export async function readVersion(): Promise<string> {
-  const pkg = JSON.parse(await fs.readFile(path.join(PACKAGE_ROOT, "package.json"), "utf8")) as { version: string };
-  return pkg.version;
-}
 
 /** The build-output warning for a history that could not be read (the changes page shows the same reason). */
 function historyWarning(reason: string): Problem {

@@ -15,7 +15,7 @@ export interface CommandIO {
 export const EXIT_INTERNAL = 70; // EXIT.internal in args.ts (sysexits EX_SOFTWARE)
 
 export async function runCommand(name: "check" | "init", argv: string[], io: Pick<CommandIO, "out" | "err">): Promise<number> {
-  const full: CommandIO = { ...io, today: () => new Date().toISOString().slice(0, 10), version: async () => (await import("./build.ts")).readVersion() };
+  const full: CommandIO = { ...io, today: () => new Date().toISOString().slice(0, 10), version: async () => (await import("./version.ts")).readVersion() };
   try {
     if (name === "check") return await (await import("./check.ts")).checkCommand(argv, full);
     return await (await import("./init.ts")).initCommand(argv, full);

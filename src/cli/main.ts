@@ -36,7 +36,7 @@ export async function main(argv: string[]): Promise<number> {
       return EXIT.ok;
     }
     if (parsed.command === "version") {
-      const { readVersion } = await import("./build.ts");
+      const { readVersion } = await import("./version.ts");
       io.out(await readVersion());
       return EXIT.ok;
     }
