@@ -1,7 +1,7 @@
 // Every unit spelling waferbook accepts in a typed quantity (targets.yaml, analysis settings, a key
 // naming its unit, the growth block), with the value it must give. Written before mathjs was
-// replaced by the closed unit table (src/model/unitTable.ts) and run against both: the list is
-// what "accepted" means. Expected values are written out by hand from the unit definitions
+// replaced by the closed unit table (src/physics/unitTable.ts, read by src/validate/unitGrammar.ts)
+// and run against both: the list is what "accepted" means. Expected values are written out by hand from the unit definitions
 // (SI brochure, 9th ed.: prefixes, derived units, °C = K − 273.15, L = 1e-3 m³, min = 60 s,
 // h = 3600 s, Å = 1e-10 m, e = 1.602176634e-19 C exact: confirmed; torr = 101325/760 Pa and
 // bar = 1e5 Pa: from memory; °F = (x − 32)·5/9 °C: from memory). Nothing is computed by the code
@@ -53,16 +53,15 @@ const SPELLINGS: [string, string, number][] = [
   ["2 torr", "torr", 2], ["2 mbar", "torr", 2 * 100 * 760 / 101325], ["2 Pa", "torr", 2 * 760 / 101325], ["2 kPa", "torr", 2e3 * 760 / 101325], ["2 bar", "Pa", 2e5],
 ];
 
-/** Torr and eV conversions where mathjs used rounded factors (torr = 133.322 Pa, eV = CODATA 2010): within 1e-5 before, exact now. */
-const EXACT_NOW = new Set(["2 mbar→torr", "2 Pa→torr", "2 kPa→torr", "2 eV→J", "2 J→eV"]);
+// The torr rows (mbar, Pa, kPa → torr) and eV ↔ J were within 1e-5 only under mathjs (its torr is 133.322 Pa,
+// its eV the CODATA 2010 value); the unit table uses the definitions, so every row now holds to 1e-12.
 
 describe("every accepted spelling gives its SI value", () => {
   it.each(SPELLINGS)("%s → %s = %d", (text, target, expected) => {
     const r = parseQuantity(text, target);
     expect(r, JSON.stringify(r)).toMatchObject({ ok: true });
     if (!r.ok) return;
-    const tolerance = EXACT_NOW.has(`${text}→${target}`) ? 1e-5 : 1e-12;
-    expect(Math.abs(r.value / expected - 1)).toBeLessThanOrEqual(tolerance);
+    expect(Math.abs(r.value / expected - 1)).toBeLessThanOrEqual(1e-12);
     // A no-break space between number and unit, as pasted from a document.
     const nbsp = parseQuantity(text.replace(" ", "\u00a0"), target);
     expect(nbsp.ok && nbsp.value).toBe(r.value);
@@ -103,5 +102,43 @@ describe("refused", () => {
     const r = parseQuantity(text, target);
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.found).toMatch(reason);
+  });
+});
+
+describe("what a refusal says", () => {
+  const found = (text: string, target: string) => {
+    const r = parseQuantity(text, target);
+    if (r.ok) throw new Error(`${text} was accepted`);
+    return r.found;
+  };
+  it("an unknown unit: what was found, a did-you-mean, the units of the quantity", () => {
+    expect(found("150 mt", "T")).toBe('"150 mt", which is not a known quantity ("mt" is not a unit waferbook knows; did you mean "mT"?; a magnetic field is written in T, mT)');
+    expect(found("1e4 furlongs", "cm^2/(V s)")).toBe('"1e4 furlongs", which is not a known quantity ("furlongs" is not a unit waferbook knows; a mobility is written in cm²/(V s), m²/(V s))');
+  });
+  it("a prefix the unit does not take is refused, not read as another unit: MT, mcm, kmin", () => {
+    expect(found("2 MT", "T")).toBe('"2 MT", which is not a known quantity (T takes the prefixes n, u, m, not M; did you mean "mT"?; a magnetic field is written in T, mT)');
+    expect(found("2 mcm", "m")).toMatch(/^"2 mcm", which is not a known quantity \("mcm" is not a unit waferbook knows/);
+    expect(found("2 kmin", "s")).toMatch(/min takes no prefix/);
+  });
+  it("a dimension mismatch names both kinds of quantity", () => {
+    expect(found("150 mV", "T")).toBe('"150 mV", which has a different dimension (a voltage, not a magnetic field; a magnetic field is written in T, mT)');
+    // cm²/V = m² / (m² kg s⁻³ A⁻¹) = kg⁻¹ s³ A (derived by hand).
+    expect(found("1e5 cm2/V", "cm^2/(V s)")).toMatch(/different dimension \(a quantity in kg\^-1 s\^3 A, not a mobility;/);
+    expect(found("20 sccm", "torr")).toMatch(/different dimension \(a gas flow, not a pressure; a pressure is written in Torr, mTorr, mbar, Pa, kPa, bar, atm\)/);
+  });
+  it("grammar: one slash, °C only on its own, no stray characters, a number first", () => {
+    expect(found("2 m/s/s", "m/s^2")).toMatch(/one "\/" at most/);
+    expect(found("2 °C/min", "K/min")).toMatch(/°C and °F are read only on their own/);
+    expect(found("2 V$", "V")).toMatch(/the character "\$" is not part of a unit/);
+    expect(found("V", "V")).toMatch(/a number first, then its unit/);
+    expect(found("5", "V")).toBe('"5", a number without its unit');
+  });
+  it("prefixes and powers the grammar reads: mTorr, hPa, (V s)^-1, m/s^2, 1/(V s)", () => {
+    // By hand: 1 mTorr = 1e-3 Torr; 1 hPa = 100 Pa; 1 m²·(V s)⁻¹ = 1 m²/(V s); 1 /(V s) = 1 V⁻¹ s⁻¹.
+    expect(parseQuantity("5 mTorr", "torr")).toEqual({ ok: true, value: 5e-3 });
+    expect(parseQuantity("5 hPa", "Pa")).toEqual({ ok: true, value: 500 });
+    expect(parseQuantity("5 m^2 (V s)^-1", "m^2/(V s)")).toEqual({ ok: true, value: 5 });
+    expect(parseQuantity("5 m/s^2", "m s^-2")).toEqual({ ok: true, value: 5 });
+    expect(parseQuantity("5 1/(V s)", "V^-1 s^-1")).toEqual({ ok: true, value: 5 });
   });
 });
