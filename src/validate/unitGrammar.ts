@@ -51,11 +51,11 @@ function tokens(text: string): Token[] | string {
     }
     if (m[5] !== undefined) return `the character ${JSON.stringify(m[5])} is not part of a unit`;
     const tok: Token = m[1] ? { kind: "name", text: m[1] } : m[2] !== undefined ? { kind: "power", value: Number(m[2]) } : { kind: "op", text: m[3] };
-    // A space between two factors multiplies them: "V s", "cm^2 V^-1".
+    // A space between two factors multiplies them ("V s", "cm^2 V^-1"), as does a factor right after a power or a bracket ("cm^2V^-1").
     const prev = out.at(-1);
     const endsFactor = prev && (prev.kind !== "op" || prev.text === ")");
     const startsFactor = tok.kind === "name" || (tok.kind === "op" && tok.text === "(");
-    if (space && endsFactor && startsFactor) out.push({ kind: "op", text: "*" });
+    if (endsFactor && startsFactor && (space || prev.kind !== "name")) out.push({ kind: "op", text: "*" });
     out.push(tok);
     space = false;
   }

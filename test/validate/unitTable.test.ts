@@ -140,5 +140,6 @@ describe("what a refusal says", () => {
     expect(parseQuantity("5 m^2 (V s)^-1", "m^2/(V s)")).toEqual({ ok: true, value: 5 });
     expect(parseQuantity("5 m/s^2", "m s^-2")).toEqual({ ok: true, value: 5 });
     expect(parseQuantity("5 1/(V s)", "V^-1 s^-1")).toEqual({ ok: true, value: 5 });
+    expect(parseQuantity("5 cm^2V^-1s^-1", "cm^2/(V s)")).toEqual({ ok: true, value: 5 });
   });
 });
