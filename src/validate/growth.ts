@@ -3,10 +3,10 @@
  * section 1, Growth conditions). Every quantity is typed with its unit and
  * converted here, once, to the unit the site shows: temperatures to °C, growth
  * rates to nm/min, gas flows to sccm (standard cm³/min), anneal times to s.
- * Units are read by mathjs through parseQuantity (units.ts); the spellings
- * growers write that mathjs does not know (°C, sccm, slm, Torr) are brought to its
- * names first. Every problem is located (file, line, field) and reported with
- * the others of the file.
+ * Units are read through parseQuantity (units.ts) from the closed unit table
+ * (src/physics/unitTable.ts), which holds the growers' spellings: °C, °F, K,
+ * sccm, slm, Torr, mTorr, mbar, Pa. Every problem is located (file, line,
+ * field) and reported with the others of the file.
  */
 import { didYouMean, InputError, ProblemList, show } from "../model/problem.ts";
 import { parseQuantity } from "./units.ts";
@@ -37,7 +37,7 @@ export interface GrowthConditions {
   anneals: GrowthAnneal[];
 }
 
-/** A quantity's target unit (mathjs name), the unit shown, and its plausible range in the shown unit. */
+/** A quantity's target unit (in the unit table), the unit shown, and its plausible range in the shown unit. */
 const QUANTITIES = {
   temperature: { target: "degC", shown: "°C", min: -50, max: 1500, what: "substrate temperature" },
   rate: { target: "nm/min", shown: "nm/min", min: 0, max: 1e5, what: "growth rate" },
@@ -46,16 +46,6 @@ const QUANTITIES = {
   time: { target: "s", shown: "s", min: 0, max: 1e6, what: "anneal time" },
 } as const;
 type QuantityName = keyof typeof QUANTITIES;
-
-/** Growers' spellings mathjs does not know, brought to its names: °C → degC, sccm → cm^3/min, slm → L/min, Torr → torr. */
-export function growthUnitText(text: string): string {
-  return text
-    .replace(/°\s*C\b/g, "degC")
-    .replace(/°\s*F\b/g, "degF")
-    .replace(/\bsccm\b/g, "cm^3/min")
-    .replace(/\bslpm\b|\bslm\b/g, "L/min")
-    .replace(/\bTorr\b/g, "torr");
-}
 
 const LAYER_KEYS = ["layer", "temperature", "rate", "pressure", "flows"];
 const ANNEAL_KEYS = ["name", "temperature", "time"];
@@ -93,9 +83,9 @@ export function readGrowth(raw: unknown, where: GrowthWhere): GrowthConditions |
       if (required) fail(field, `${spec.what} is missing`, `a value with a unit, such as "1 ${spec.shown}"`, "nothing", `add ${field.split(".").at(-1)}: "… ${spec.shown}"`);
       return undefined;
     }
-    const parsed = parseQuantity(typeof value === "string" ? growthUnitText(value) : value, spec.target);
+    const parsed = parseQuantity(value, spec.target);
     if (!parsed.ok) {
-      fail(field, `cannot read the ${spec.what}`, `a value with a unit convertible to ${spec.shown}, such as "${q === "temperature" ? "625 °C" : `1 ${spec.shown}`}"`, typeof value === "string" ? JSON.stringify(value) : parsed.found, `write the number with its unit, in quotes (units: ${unitsOf(q)})`);
+      fail(field, `cannot read the ${spec.what}`, `a value with a unit convertible to ${spec.shown}, such as "${q === "temperature" ? "625 °C" : `1 ${spec.shown}`}"`, parsed.found, `write the number with its unit, in quotes (units: ${unitsOf(q)})`);
       return undefined;
     }
     if (!(parsed.value >= spec.min && parsed.value <= spec.max) || (q !== "temperature" && q !== "flow" && parsed.value === 0)) {
@@ -210,7 +200,7 @@ function columnKeyCollisions(g: GrowthConditions, layerIndex: readonly number[],
 }
 
 function unitsOf(q: QuantityName): string {
-  return { temperature: "°C or K", rate: "nm/min, nm/s or um/h", pressure: "Torr, mbar or Pa", flow: "sccm or slm", time: "s, min or h" }[q];
+  return { temperature: "°C, K or °F", rate: "nm/min, nm/s, µm/h or Å/s", pressure: "Torr, mTorr, mbar or Pa", flow: "sccm, slm, cm³/min or L/min", time: "s, min or h" }[q];
 }
 
 type Fail = (field: string, message: string, expected: string, found: string, fix: string) => void;

@@ -8,7 +8,7 @@
  *       peak_mobility: { min: "1.0e5 cm^2/(V s)", guard: "5 %", required: true, aggregate: mean }
  *       turn_on_voltage: { between: ["0.1 V", "0.6 V"] }
  *       findings: { one_sign_field: note }   # consequence per finding (src/judge/findings.ts)
- * Every problem in the file is reported (up to MAX_PROBLEMS_PER_FILE). Values are parsed and converted with mathjs; a dimension mismatch or an
+ * Every problem in the file is reported (up to MAX_PROBLEMS_PER_FILE). Values are parsed and converted with the closed unit table (units.ts); a dimension mismatch or an
  * unknown metric is an error naming the grade and metric.
  */
 import { lineOfField } from "../read/frontMatter.ts";

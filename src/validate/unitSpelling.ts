@@ -1,6 +1,6 @@
 /**
- * Unit spellings as labs write them, brought to one form before mathjs (or the
- * closed column-unit lists) read them. The one place that knows that
+ * Unit spellings as labs write them, brought to one form before the unit
+ * grammar (unitGrammar.ts) or the closed column-unit lists read them. The one place that knows that
  * `cm²/(V·s)`, `cm2/Vs`, `cm^2/(V*s)` and `cm^2 V^-1 s^-1` are the same unit.
  *
  * A leading number is left alone, except that the form the site prints,
@@ -17,7 +17,7 @@
  *  - "Vs" → "(V s)"; after the last slash, units multiplied together are all in
  *    the denominator, as labs mean them: cm²/V·s → cm^2/(V s), cm^2/V*s → cm^2/(V*s)
  *    (the strict reading, cm²·s/V, would fail the dimension check anyway);
- *  - a unit starting "1/" → "/" (mathjs reads "5 /cm^2", not "5 1/cm^2");
+ *  - a unit starting "1/" → "/" (the grammar reads "5 /cm^2": an empty numerator);
  *  - "per square": "/sq", "/□", "/square" and a trailing " sq" are dropped
  *    (sheet resistance has the dimension of a resistance).
  * Letter case is otherwise kept: "mT" and "MT" are different units, and a
@@ -33,7 +33,7 @@ const LEADING_NUMBER = /^\s*[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?/;
 /** A number in the form the site prints, "1.23×10⁵" (also "1.23 x 10^5"): mantissa, then the exponent after a caret or in superscript. */
 const TIMES_TEN = /^(\s*[-+]?(?:\d+\.?\d*|\.\d+))\s*[×xX·*]\s*10(?:\^([-+\u2212]?\d+)|([⁻]?[⁰¹²³⁴⁵⁶⁷⁸⁹]+))/;
 
-/** Brings a unit (or "<number> <unit>") to the spelling mathjs and the column lists use. */
+/** Brings a unit (or "<number> <unit>") to the spelling the unit grammar and the column lists use. */
 export function normaliseUnitText(text: string): string {
   text = text.replace(TIMES_TEN, (_, mantissa: string, caret: string | undefined, sup: string | undefined) => `${mantissa}e${caret ?? [...sup!].map((c) => SUPERSCRIPT_DIGITS[c]).join("")}`.replace("\u2212", "-"));
   const number = LEADING_NUMBER.exec(text)?.[0] ?? "";

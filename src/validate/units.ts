@@ -4,24 +4,14 @@
  *
  * Column units come from a closed, documented list (docs/formats.md) so a typo
  * is caught rather than guessed. Quantities typed by people ("1.0e5 cm^2/(V s)",
- * "5e10 cm^-2", "0.6 V") are parsed and converted by mathjs; a dimension
- * mismatch is an error, never a silent assumption.
+ * "5e10 cm^-2", "0.6 V", "625 °C", "20 sccm") are read with the closed unit
+ * table of src/physics/unitTable.ts and its grammar (unitGrammar.ts): each
+ * side becomes base-dimension exponents and a factor, the dimensions must be
+ * equal, never a silent assumption.
  */
-import { createRequire } from "node:module";
 import { normaliseUnit, normaliseUnitText } from "./unitSpelling.ts";
-
-type MathUnit = typeof import("mathjs").unit;
-let unitFn: MathUnit | undefined;
-/**
- * mathjs's unit(), loaded on first use from the package's single-file build
- * (the same library and version as its ESM entry, which is ~1,000 modules and
- * cost seconds of start-up per build process and worker; the one-file build
- * loads in a fraction of that).
- */
-function mathUnit(text: string): import("mathjs").Unit {
-  unitFn ??= (createRequire(import.meta.url)("mathjs/lib/browser/math.js") as typeof import("mathjs")).unit;
-  return unitFn(text);
-}
+import { convertUnit, dimensionText, readUnit, sameDimension } from "./unitGrammar.ts";
+import { kindOf, suggestUnitName } from "./quantityKinds.ts";
 
 export type Dimension = "field" | "resistance" | "voltage" | "current" | "temperature" | "angle" | "length" | "fraction" | "concentration" | "counts";
 
@@ -69,7 +59,7 @@ export function splitValueUnit(text: string): { value: number; unit: string } | 
 export type QuantityResult = { ok: true; value: number } | { ok: false; expected: string; found: string };
 
 /**
- * Parses "<number> <unit>" and converts it to `target` (a mathjs unit string,
+ * Parses "<number> <unit>" and converts it to `target` (a unit of the table,
  * "%" or "1"). Plain numbers are accepted only for dimensionless targets.
  */
 export function parseQuantity(text: unknown, target: string): QuantityResult {
@@ -89,14 +79,30 @@ export function parseQuantity(text: unknown, target: string): QuantityResult {
     if (target === "%") return { ok: true, value: m[2] ? v : v * 100 };
     return { ok: true, value: m[2] ? v / 100 : v };
   }
-  try {
-    const u = mathUnit(normaliseUnitText(t));
-    const v = u.toNumber(normaliseUnitText(target));
-    if (!Number.isFinite(v)) return { ok: false, expected, found: Number.isNaN(v) ? JSON.stringify(t) : `${JSON.stringify(t)}, beyond the largest number (about 1.8e308)` };
-    return { ok: true, value: v };
-  } catch (err) {
-    const msg = (err as Error).message;
-    const dimension = /do not match|not match/i.test(msg);
-    return { ok: false, expected, found: dimension ? `${JSON.stringify(t)}, which has a different dimension` : `${JSON.stringify(t)}, which is not a known quantity` };
+  return quantityWithUnit(t, target, expected);
+}
+
+/** "<number> <unit>" → the number in `target` (a unit of the table's grammar). */
+function quantityWithUnit(t: string, target: string, expected: string): QuantityResult {
+  const to = readUnit(normaliseUnit(target));
+  if (!to.ok) throw new Error(`parseQuantity: the target unit ${JSON.stringify(target)} is not readable: ${to.reason}`);
+  const wanted = kindOf(to.unit);
+  const offer = wanted ? `${wanted.name} is written in ${wanted.units.join(", ")}` : `write it in ${target}`;
+  const m = /^([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)(?:\s+(.*))?$/.exec(normaliseUnitText(t));
+  if (!m) return { ok: false, expected, found: `${JSON.stringify(t)}, which is not a known quantity (a number first, then its unit)` };
+  const value = Number(m[1]);
+  if (!Number.isFinite(value)) return { ok: false, expected, found: `${JSON.stringify(t)}, beyond the largest number (about 1.8e308)` };
+  if (!m[2]) return { ok: false, expected, found: `${JSON.stringify(t)}, a number without its unit` };
+  const from = readUnit(m[2]);
+  if (!from.ok) {
+    const hint = from.name === undefined ? undefined : suggestUnitName(from.name, wanted);
+    return { ok: false, expected, found: `${JSON.stringify(t)}, which is not a known quantity (${from.reason}${hint ? `; did you mean "${hint}"?` : ""}; ${offer})` };
   }
+  if (!sameDimension(from.unit, to.unit)) {
+    const is = kindOf(from.unit)?.name ?? `a quantity in ${dimensionText(from.unit.dim)}`;
+    return { ok: false, expected, found: `${JSON.stringify(t)}, which has a different dimension (${is}, not ${wanted?.name ?? `one in ${dimensionText(to.unit.dim)}`}; ${offer})` };
+  }
+  const v = convertUnit(value, from.unit, to.unit);
+  if (!Number.isFinite(v)) return { ok: false, expected, found: `${JSON.stringify(t)}, beyond the largest number (about 1.8e308)` };
+  return { ok: true, value: v };
 }

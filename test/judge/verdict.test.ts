@@ -14,7 +14,7 @@ grades:
 const targets = validateTargets(yaml.load(text), "targets.yaml", text);
 
 describe("targets", () => {
-  it("converts limits into the metric's unit with mathjs", () => {
+  it("converts limits into the metric's unit", () => {
     const t = targets.grades.qubit;
     expect(t.peak_mobility.min).toBe(1e5);
     expect(t.peak_mobility.guard).toBeCloseTo(5e3, 9);
@@ -30,7 +30,7 @@ describe("targets", () => {
     throw new Error("expected an error");
   }
   it("rejects incompatible and unparseable units, and unknown metrics, naming the field", () => {
-    expect(message('grades:\n  q:\n    peak_mobility: { min: "1e5 V" }\n')).toBe('targets.yaml:3: grades.q.peak_mobility.min: cannot read the limit for Peak Hall mobility (expected a value with a unit convertible to cm^2/(V s), such as "1 cm^2/(V s)", found "1e5 V", which has a different dimension) — write the value with a unit convertible to cm^2/(V s)');
+    expect(message('grades:\n  q:\n    peak_mobility: { min: "1e5 V" }\n')).toBe('targets.yaml:3: grades.q.peak_mobility.min: cannot read the limit for Peak Hall mobility (expected a value with a unit convertible to cm^2/(V s), such as "1 cm^2/(V s)", found "1e5 V", which has a different dimension (a voltage, not a mobility; a mobility is written in cm²/(V s), m²/(V s))) — write the value with a unit convertible to cm^2/(V s)');
     expect(message('grades:\n  q:\n    turn_on_voltage: { max: "lots" }\n')).toMatch(/which is not a known quantity/);
     expect(message('grades:\n  q:\n    peak_mobilty: { min: "1e5 cm^2/(V s)" }\n')).toMatch(/unknown metric .* did you mean "peak_mobility"\?/);
   });

@@ -20,14 +20,14 @@ const SI: Record<string, [string, number]> = {
   T: ["T", 1],
   nm: ["m", 1e-9],
   ps: ["s", 1e-12],
-  // Energies of the valley-splitting prediction, compared within the electronvolt: mathjs's eV → J factor is the
-  // CODATA 2010 value 1.602176565e-19 (4e-8 from the exact SI 2019 e), so waferbook converts eV to J itself.
+  // Energies of the valley-splitting prediction, compared within the electronvolt (the settings convert eV to J
+  // with their own factor, the exact SI 2019 e; test/validate/unitTable.test.ts checks eV → J).
   eV: ["eV", 1],
   meV: ["eV", 1e-3],
   ueV: ["eV", 1e-6],
   "MV/m": ["V/m", 1e6],
 };
-/** Dimensionless units: not quantities for mathjs ("%" and "1" have their own path). */
+/** Dimensionless units: not quantities of the unit table ("%" and "1" have their own path). */
 const DIMENSIONLESS = new Set(["%", "1"]);
 
 const printed = [...new Set([...METRICS.map((m) => m.unit), ...Object.values(SETTING_SPECS).flatMap((s) => ("unit" in s ? [s.unit] : []))])];

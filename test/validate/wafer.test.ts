@@ -33,7 +33,7 @@ describe("wafer record", () => {
     ["front matter that is a list", "---\n- a\n- b\n---\n", 'wafers/W-1/wafer.md:2: front matter must be a mapping of fields (expected key: value lines, found a list of 2) — write one "key: value" per line between the two "---" lines, such as "wafer: <id>"; see docs/formats.md'],
     ["bad geometry", ok.replace("geometry: hall-bar", "geometry: hallbar"), 'wafers/W-1/wafer.md:7: devices[0].geometry: value is not one of the allowed choices (expected hall-bar | van-der-pauw, found "hallbar") — use hall-bar or van-der-pauw'],
     ["unknown setting", ok.replace("hall_max_field", "hall_max_feild"), 'wafers/W-1/wafer.md:12: analysis.hall_max_feild: unknown analysis setting'],
-    ["setting with the wrong dimension", ok.replace('"150 mT"', '"150 mV"'), 'wafers/W-1/wafer.md:12: analysis.hall_max_field: cannot read setting (upper end of the low-field range used for the Hall slope) (expected a value with a unit convertible to T, such as "1 T", found "150 mV", which has a different dimension) — see docs/formats.md, section Analysis settings'],
+    ["setting with the wrong dimension", ok.replace('"150 mT"', '"150 mV"'), 'wafers/W-1/wafer.md:12: analysis.hall_max_field: cannot read setting (upper end of the low-field range used for the Hall slope) (expected a value with a unit convertible to T, such as "1 T", found "150 mV", which has a different dimension (a voltage, not a magnetic field; a magnetic field is written in T, mT)) — see docs/formats.md, section Analysis settings'],
   ];
   for (const [name, text, expected] of cases) {
     it(name, () => {

@@ -1,0 +1,101 @@
+/**
+ * The closed table of units a person may type in a quantity (targets.yaml,
+ * analysis settings, a record's growth block): each unit's dimension in SI
+ * base units, its factor to the coherent SI unit, an offset for the two
+ * temperature scales that have one, and the prefixes it takes. Nothing
+ * outside this table is a unit, so a typo ("mcm", "MT" for a field) is
+ * refused and reported rather than read as something else.
+ *
+ * Definitions: SI brochure, 9th edition (2019): prefixes (Table 7), derived
+ * units (Table 4), units accepted for use with the SI (Table 8: min, h, L,
+ * eV, bar, Å); the electronvolt from the exact elementary charge
+ * (ELEMENTARY_CHARGE). Torr = 101325/760 Pa and atm = 101325 Pa by
+ * definition; °F = (x + 459.67)·5/9 K. A standard cubic centimetre per
+ * minute (sccm) is read as cm³/min and a standard litre per minute (slm)
+ * as L/min, the way mass-flow controllers are labelled.
+ *
+ * A factor is split into a mantissa and a power of ten (`decade`), and a
+ * prefix is a power of ten, so conversions between decimal multiples
+ * (mm → µm, slm → sccm) are exact powers of ten, not products of rounded
+ * decimals.
+ */
+import { ELEMENTARY_CHARGE } from "./constants.ts";
+
+/** The SI base units a dimension is counted in, in this order. */
+export const BASE_UNITS = ["m", "kg", "s", "A", "K"] as const;
+/** Exponents of the base units (m, kg, s, A, K). */
+export type Exponents = readonly [number, number, number, number, number];
+
+/** SI prefixes (as powers of ten) that some unit of the table takes; "u" is micro (µ and μ are brought to it first). */
+export const PREFIXES: Readonly<Record<string, number>> = { f: -15, p: -12, n: -9, u: -6, m: -3, c: -2, h: 2, k: 3, M: 6, G: 9 };
+
+export interface UnitDefinition {
+  /** Dimension as exponents of BASE_UNITS. */
+  dim: Exponents;
+  /** Factor to the coherent SI unit is mantissa × 10^decade. */
+  mantissa: number;
+  decade: number;
+  /** Temperature scales only: kelvin = (value + offset) × mantissa. */
+  offset?: number;
+  /** The prefixes the unit takes (keys of PREFIXES), "" for none. */
+  prefixes: string;
+}
+
+const LENGTH: Exponents = [1, 0, 0, 0, 0];
+const MASS: Exponents = [0, 1, 0, 0, 0];
+const TIME: Exponents = [0, 0, 1, 0, 0];
+const CURRENT: Exponents = [0, 0, 0, 1, 0];
+const TEMPERATURE: Exponents = [0, 0, 0, 0, 1];
+const VOLTAGE: Exponents = [2, 1, -3, -1, 0];
+const RESISTANCE: Exponents = [2, 1, -3, -2, 0];
+const CAPACITANCE: Exponents = [-2, -1, 4, 2, 0];
+const FLUX_DENSITY: Exponents = [0, 1, -2, -1, 0];
+const ENERGY: Exponents = [2, 1, -2, 0, 0];
+const PRESSURE: Exponents = [-1, 1, -2, 0, 0];
+const FREQUENCY: Exponents = [0, 0, -1, 0, 0];
+const VOLUME: Exponents = [3, 0, 0, 0, 0];
+const VOLUME_FLOW: Exponents = [3, 0, -1, 0, 0];
+
+const unit = (dim: Exponents, prefixes: string, mantissa = 1, decade = 0, offset?: number): UnitDefinition => ({ dim, mantissa, decade, prefixes, ...(offset === undefined ? {} : { offset }) });
+
+/**
+ * Every unit, by the spelling the unit text has after unitSpelling.ts
+ * (normaliseUnit): micro as "u", Ω as "ohm", Å as "angstrom".
+ */
+export const UNITS: Readonly<Record<string, UnitDefinition>> = {
+  m: unit(LENGTH, "pnumck"),
+  angstrom: unit(LENGTH, "", 1, -10),
+  g: unit(MASS, "umk", 1, -3),
+  s: unit(TIME, "fpnum"),
+  sec: unit(TIME, ""),
+  second: unit(TIME, ""),
+  seconds: unit(TIME, ""),
+  min: unit(TIME, "", 60),
+  minute: unit(TIME, "", 60),
+  minutes: unit(TIME, "", 60),
+  h: unit(TIME, "", 3600),
+  hr: unit(TIME, "", 3600),
+  hour: unit(TIME, "", 3600),
+  hours: unit(TIME, "", 3600),
+  A: unit(CURRENT, "pnumk"),
+  K: unit(TEMPERATURE, "um"),
+  degC: unit(TEMPERATURE, "", 1, 0, 273.15),
+  degF: unit(TEMPERATURE, "", 5 / 9, 0, 459.67),
+  V: unit(VOLTAGE, "numkM"),
+  ohm: unit(RESISTANCE, "umkMG"),
+  F: unit(CAPACITANCE, "fpnum"),
+  T: unit(FLUX_DENSITY, "num"),
+  eV: unit(ENERGY, "umkM", ELEMENTARY_CHARGE),
+  J: unit(ENERGY, "umk"),
+  Hz: unit(FREQUENCY, "kMG"),
+  Pa: unit(PRESSURE, "mhkM"),
+  bar: unit(PRESSURE, "m", 1, 5),
+  torr: unit(PRESSURE, "m", 101325 / 760),
+  Torr: unit(PRESSURE, "m", 101325 / 760),
+  atm: unit(PRESSURE, "", 101325),
+  L: unit(VOLUME, "um", 1, -3),
+  l: unit(VOLUME, "um", 1, -3),
+  sccm: unit(VOLUME_FLOW, "", 1 / 60, -6),
+  slm: unit(VOLUME_FLOW, "", 1 / 60, -3),
+  slpm: unit(VOLUME_FLOW, "", 1 / 60, -3),
+};
