@@ -11,7 +11,7 @@ import { promises as fs, readFileSync } from "node:fs";
 import path from "node:path";
 import type { BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { ROOT, startSite, type Site } from "./harness.ts";
+import { OUTPUT, ROOT, startSite, type Site } from "./harness.ts";
 
 /** The demo wafer with every section: transport in depth, uniformity, X-ray maps, depth profile, lattice images. */
 const WAFER = "TQ-2401";
@@ -238,7 +238,7 @@ describe("pages for reading and for paper (§4)", () => {
     expect(r.map((e) => e.id)).toEqual(expect.arrayContaining(["summary", "metrics", "transport", "uniformity", "structure", "images", "notes", "appendix", "provenance", "history"]));
   });
 
-  it("a wafer report prints on at most 4 A4 pages; the appendix is left out with a note saying so", async () => {
+  it("a wafer report prints on at most 4 A4 pages without navigation, with its provenance footer; the appendix is left out with a note saying so", async () => {
     // The wafer with every section and the demo wafer with the largest page (most tables and reasons).
     const sizes = await Promise.all((await fs.readdir(path.join(site.dir, "wafers"))).map(async (id) => ({ id, bytes: (await fs.stat(path.join(site.dir, "wafers", id, "index.html"))).size })));
     const largest = sizes.sort((a, b) => b.bytes - a.bytes).slice(0, 1).map((s) => s.id);
@@ -250,7 +250,15 @@ describe("pages for reading and for paper (§4)", () => {
       expect(await page.textContent(".print-note")).toMatch(/Left out of the printed report/);
       for (const sel of ["#appendix-sweeps", "#transport-depth", "#history", "nav.on-this-page"]) expect(await page.isVisible(sel), `${id}: ${sel} printed`).toBe(false);
       expect(await page.isVisible("#metrics")).toBe(true);
+      // A report, not a screen: no navigation or search; the footer and provenance print. A wafer page's footer
+      // names the waferbook version, not a build time (pages are reused unchanged: docs/scaling.md).
+      for (const sel of ["header.top", "nav.crumbs", "#site-search"]) expect(await page.isVisible(sel), `${id}: ${sel} printed`).toBe(false);
+      for (const sel of ["footer.foot", "#provenance", "#wafer-title"]) expect(await page.isVisible(sel), `${id}: ${sel} not printed`).toBe(true);
+      expect(await page.textContent("footer.foot")).toMatch(/Wafer page by waferbook \d+\.\d+\.\d+/);
       const pdf = await page.pdf({ format: "A4", printBackground: true });
+      expect(pdf.subarray(0, 5).toString("latin1")).toBe("%PDF-");
+      expect(pdf.length).toBeGreaterThan(20_000);
+      if (id === WAFER) await fs.writeFile(path.join(OUTPUT, "wafer.pdf"), pdf);
       const pages = (pdf.toString("latin1").match(/\/Type\s*\/Page(?![a-zA-Z])/g) ?? []).length;
       expect(pages, `${id} prints on ${pages} A4 pages`).toBeGreaterThanOrEqual(1);
       expect(pages, `${id} prints on ${pages} A4 pages`).toBeLessThanOrEqual(4);

@@ -3,7 +3,7 @@
  * a crawl of every page reachable from the index, accessibility (axe-core),
  * keyboard reach, verdict marks, the wafer table's sorting and filters, site
  * search, the site opened from disk (file://, fromDisk.ts), screenshots at
- * desktop and phone widths, and the print report.
+ * desktop and phone widths (the print report is in readable.test.ts).
  * One build, one server and one browser for the whole file.
  */
 import { promises as fs } from "node:fs";
@@ -406,11 +406,14 @@ describe("opened from disk (file://)", () => fromDiskChecks(() => site));
 
 describe("screenshots", () => {
   it("index and a wafer page at 1280 px and 390 px, without sideways scrolling", async () => {
-    for (const width of [1280, 390]) {
-      const ctx = await site.browser.newContext({ viewport: { width, height: width > 500 ? 900 : 844 } });
-      const page = await ctx.newPage();
-      for (const [name, url] of [["index", `${site.origin}/`], ["wafer", waferUrl]] as const) {
-        await page.goto(url, { waitUntil: "load" });
+    // One page per URL, narrowed after the wide shot (the layout and the charts follow the viewport, as on a turned phone).
+    const ctx = await site.browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await ctx.newPage();
+    for (const [name, url] of [["index", `${site.origin}/`], ["wafer", waferUrl]] as const) {
+      await page.setViewportSize({ width: 1280, height: 900 });
+      await page.goto(url, { waitUntil: "load" });
+      for (const width of [1280, 390]) {
+        if (width !== 1280) await page.setViewportSize({ width, height: 844 });
         await settle(page);
         const file = path.join(OUTPUT, `${name}-${width}.png`);
         await page.screenshot({ path: file });
@@ -418,31 +421,7 @@ describe("screenshots", () => {
         const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
         expect(overflow, `${name} at ${width} px scrolls sideways`).toBeLessThanOrEqual(1);
       }
-      await ctx.close();
     }
-  });
-});
-
-describe("print", () => {
-  it("prints a wafer page as a report: no navigation, provenance footer, a real PDF", async () => {
-    const ctx = await site.browser.newContext();
-    const page = await ctx.newPage();
-    await page.goto(waferUrl, { waitUntil: "load" });
-    await page.emulateMedia({ media: "print" });
-    expect(await page.isVisible("header.top")).toBe(false);
-    expect(await page.isVisible("nav.crumbs")).toBe(false);
-    expect(await page.isVisible("#site-search")).toBe(false);
-    expect(await page.isVisible("footer.foot")).toBe(true);
-    // A wafer page's footer names the waferbook version, not a build time (pages are reused unchanged: docs/scaling.md); its provenance prints.
-    expect(await page.textContent("footer.foot")).toMatch(/Wafer page by waferbook \d+\.\d+\.\d+/);
-    expect(await page.isVisible("#provenance")).toBe(true);
-    expect(await page.isVisible("#wafer-title")).toBe(true);
-    const pdf = await page.pdf({ format: "A4", printBackground: true });
-    expect(pdf.subarray(0, 5).toString("latin1")).toBe("%PDF-");
-    expect(pdf.length).toBeGreaterThan(20_000);
-    const pageCount = (pdf.toString("latin1").match(/\/Type\s*\/Page(?![a-zA-Z])/g) ?? []).length;
-    expect(pageCount).toBeGreaterThanOrEqual(1);
-    await fs.writeFile(path.join(OUTPUT, "wafer.pdf"), pdf);
     await ctx.close();
   });
 });
