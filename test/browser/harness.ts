@@ -17,8 +17,8 @@ export { DEMO_HOOK_TIMEOUT_MS } from "../helpers/demoSite.ts";
 export const ROOT = path.resolve(import.meta.dirname, "../..");
 export const OUTPUT = path.join(ROOT, "test", "output");
 export const CHROMIUM = process.env.WAFERBOOK_CHROMIUM ?? "/usr/bin/chromium";
-/** Chromium flags for every browser test: no sandbox (containers), no GPU, and no traffic of the browser's own. */
-export const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"];
+/** Chromium flags for every browser test: no sandbox (containers), no GPU, no traffic of the browser's own, and no host but 127.0.0.1 (a request leaving the site fails instead of reaching the network). */
+export const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync", "--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE 127.0.0.1"];
 
 /** Limit of one navigation or browser action (playwright's default is 30 s): generous, for a busy machine. */
 export const BROWSER_STEP_TIMEOUT_MS = 120_000;
@@ -76,7 +76,8 @@ export async function serve(dir: string): Promise<{ origin: string; server: http
         return;
       }
       const body = await fs.readFile(file);
-      res.writeHead(200, { "content-type": type, "content-length": body.length });
+      // Cacheable for a minute: the same stylesheet and scripts on every page are fetched and compiled once.
+      res.writeHead(200, { "content-type": type, "content-length": body.length, "cache-control": "max-age=60" });
       res.end(body);
     } catch {
       res.writeHead(404, { "content-type": "text/plain" });
