@@ -5,11 +5,11 @@
  * playwright-core. Fails fast, with a plain message, when Chromium is missing
  * (never downloads a browser).
  */
-import { existsSync, promises as fs } from "node:fs";
+import { existsSync, promises as fs, readFileSync } from "node:fs";
 import http from "node:http";
 import path from "node:path";
 import type { AddressInfo } from "node:net";
-import { chromium, type Browser } from "playwright-core";
+import { chromium, type Browser, type Page } from "playwright-core";
 import { demoSite } from "../helpers/demoSite.ts";
 
 export { DEMO_HOOK_TIMEOUT_MS } from "../helpers/demoSite.ts";
@@ -17,8 +17,8 @@ export { DEMO_HOOK_TIMEOUT_MS } from "../helpers/demoSite.ts";
 export const ROOT = path.resolve(import.meta.dirname, "../..");
 export const OUTPUT = path.join(ROOT, "test", "output");
 export const CHROMIUM = process.env.WAFERBOOK_CHROMIUM ?? "/usr/bin/chromium";
-/** Chromium flags for every browser test: no sandbox (containers), no GPU, and no traffic of the browser's own. */
-export const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"];
+/** Chromium flags for every browser test: no sandbox (containers), no GPU, no traffic of the browser's own, and no host but 127.0.0.1 (a request leaving the site fails instead of reaching the network). */
+export const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync", "--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE 127.0.0.1"];
 
 /** Limit of one navigation or browser action (playwright's default is 30 s): generous, for a busy machine. */
 export const BROWSER_STEP_TIMEOUT_MS = 120_000;
@@ -37,11 +37,34 @@ export interface Site {
   close: () => Promise<void>;
 }
 
+/** Where the test server serves axe-core (a path the site never uses). */
+export const AXE_PATH = "/__test__/axe.min.js";
+const AXE = readFileSync(path.join(ROOT, "node_modules", "axe-core", "axe.min.js"));
+
+/**
+ * Serious and critical axe-core violations of the page as it is now (served by serve(): axe comes from the
+ * same origin, so no CSP bypass is needed and a page already open for other checks is checked in place).
+ */
+export async function axeViolations(page: Page): Promise<string[]> {
+  await page.addScriptTag({ url: new URL(AXE_PATH, page.url()).href });
+  return page.evaluate(async () => {
+    const r = await (window as unknown as { axe: { run: (d: Document, o: object) => Promise<{ violations: { id: string; impact: string; help: string; nodes: { target: string[] }[] }[] }> } }).axe.run(document, { resultTypes: ["violations"] });
+    return r.violations.filter((v) => v.impact === "serious" || v.impact === "critical").map((v) => `${v.impact} ${v.id}: ${v.help} — ${v.nodes.slice(0, 3).map((n) => n.target.join(" ")).join("; ")}`);
+  });
+}
+
 /** A static file server for `dir` on 127.0.0.1 with a random port. Folders serve their index.html. */
 export async function serve(dir: string): Promise<{ origin: string; server: http.Server }> {
   const server = http.createServer(async (req, res) => {
     try {
       const url = new URL(req.url ?? "/", "http://127.0.0.1");
+      if (url.pathname === AXE_PATH) {
+        // axe-core from the site's own origin, so the page's Content-Security-Policy (script-src 'self') lets it run
+        // without a CSP-bypassing context; cacheable, so Chromium compiles it once, not on every page.
+        res.writeHead(200, { "content-type": TYPES[".js"], "cache-control": "max-age=3600", "content-length": AXE.length });
+        res.end(AXE);
+        return;
+      }
       let file = path.join(dir, decodeURIComponent(url.pathname));
       if (!file.startsWith(dir)) throw new Error("outside");
       if ((await fs.stat(file)).isDirectory()) file = path.join(file, "index.html");
@@ -53,7 +76,8 @@ export async function serve(dir: string): Promise<{ origin: string; server: http
         return;
       }
       const body = await fs.readFile(file);
-      res.writeHead(200, { "content-type": type, "content-length": body.length });
+      // Cacheable for a minute: the same stylesheet and scripts on every page are fetched and compiled once.
+      res.writeHead(200, { "content-type": type, "content-length": body.length, "cache-control": "max-age=60" });
       res.end(body);
     } catch {
       res.writeHead(404, { "content-type": "text/plain" });

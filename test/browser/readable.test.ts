@@ -11,7 +11,7 @@ import { promises as fs, readFileSync } from "node:fs";
 import path from "node:path";
 import type { BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { ROOT, startSite, type Site } from "./harness.ts";
+import { OUTPUT, ROOT, startSite, type Site } from "./harness.ts";
 
 /** The demo wafer with every section: transport in depth, uniformity, X-ray maps, depth profile, lattice images. */
 const WAFER = "TQ-2401";
@@ -31,6 +31,16 @@ async function open(url: string): Promise<Page> {
   return page;
 }
 const waferUrl = (id: string) => `${site.origin}/wafers/${id}/`;
+/**
+ * WAFER's page, opened once and shared by the tests that only read it (its largest page, so loading
+ * and drawing it once instead of six times is most of this file's time); a test that changes a chart's
+ * view changes nothing another test reads. The printed report opens its own page.
+ */
+let waferPage: Page | undefined;
+async function wafer(): Promise<Page> {
+  waferPage ??= await open(waferUrl(WAFER));
+  return waferPage;
+}
 
 beforeAll(async () => {
   site = await startSite();
@@ -43,7 +53,7 @@ afterAll(async () => {
 
 describe("charts (§3)", () => {
   it("log–log mobility chart: ticks at 1, 2, 5 per decade with readable labels, no point on the frame", async () => {
-    const page = await open(waferUrl(WAFER));
+    const page = await wafer();
     const r = await page.evaluate(() => {
       const chart = (window as unknown as { Chart: { getChart(c: Element): any } }).Chart.getChart(document.querySelector('canvas[data-chart="mobility-vs-density"]')!);
       const axis = (k: string) => ({ values: chart.scales[k].ticks.map((t: any) => t.value), labels: chart.scales[k].ticks.map((t: any) => String(t.label)) });
@@ -71,11 +81,10 @@ describe("charts (§3)", () => {
     }
     // Padding: every marker centre at least 4 px inside the plot area.
     expect(Math.min(...r.margins)).toBeGreaterThanOrEqual(4);
-    await page.close();
   });
 
   it("ρxx and Rxy on their own axes; every gate voltage selectable; the oscillation view with its fit", async () => {
-    const page = await open(waferUrl(WAFER));
+    const page = await wafer();
     const sweeps = await page.locator("#device-HB1 table.points tbody tr").count();
     const select = page.locator('select[data-chart-view="traces-HB1"]');
     expect(await select.locator("option").count()).toBe(sweeps);
@@ -110,11 +119,10 @@ describe("charts (§3)", () => {
     expect(osc.x).toMatch(/1\/B/);
     expect(Math.min(...osc.n)).toBeGreaterThan(20);
     expect(osc.views).toBeGreaterThanOrEqual(2);
-    await page.close();
   });
 
   it("reciprocal-space maps: a smooth picture, a colour bar, ticks in nm⁻¹, the full-strain and full-relaxation lines labelled", async () => {
-    const page = await open(waferUrl(WAFER));
+    const page = await wafer();
     const maps = await page.evaluate(async () =>
       Promise.all([...document.querySelectorAll<SVGSVGElement>("svg.rsm-svg")].map(async (svg) => {
         const href = svg.querySelector("image")!.getAttribute("href")!;
@@ -140,7 +148,6 @@ describe("charts (§3)", () => {
     }
     const asym = maps.find((m) => /2 2 4/.test(m.title ?? ""))!;
     expect(asym.texts).toEqual(expect.arrayContaining(["R = 0 (strained)", "R = 1 (relaxed)"]));
-    await page.close();
   });
 
   it("control-chart legends match what is drawn: dashed lines dashed, the target listed, markers big enough", async () => {
@@ -180,7 +187,7 @@ describe("charts (§3)", () => {
 
 describe("figures (§3)", () => {
   it("wafer-map labels are at least 11 px at 1280 px, and each map has a colour bar with range and unit", async () => {
-    const page = await open(waferUrl(WAFER));
+    const page = await wafer();
     const maps = await page.evaluate(() => [...document.querySelectorAll<SVGSVGElement>("svg.wafer-map")].map((svg) => {
       const scale = svg.getBoundingClientRect().width / svg.viewBox.baseVal.width;
       return {
@@ -195,11 +202,10 @@ describe("figures (§3)", () => {
       expect(m.bar).toBe(true);
       expect(m.legend.length).toBe(3); // low end, high end, unit
     }
-    await page.close();
   });
 
   it("every text of the layer stack, the maps and the wafer maps lies inside its figure (getBBox)", async () => {
-    const page = await open(waferUrl(WAFER));
+    const page = await wafer();
     const outside = await page.evaluate(() => {
       const bad: string[] = [];
       for (const svg of document.querySelectorAll<SVGSVGElement>("svg.stack-svg, svg.rsm-svg, svg.wafer-map")) {
@@ -221,35 +227,42 @@ describe("figures (§3)", () => {
     expect(outside).toEqual([]);
     // The measured values the figure used to clip are there in full.
     expect(await page.locator("svg.stack-svg text", { hasText: /^measured Ge \d\.\d+/ }).count()).toBeGreaterThanOrEqual(1);
-    await page.close();
   });
 });
 
 describe("pages for reading and for paper (§4)", () => {
   it("'On this page' lists the sections, and every entry leads to one", async () => {
-    const page = await open(waferUrl(WAFER));
+    const page = await wafer();
     const r = await page.evaluate(() => [...document.querySelectorAll<HTMLAnchorElement>("nav.on-this-page a")].map((a) => ({ id: a.hash.slice(1), ok: !!document.getElementById(a.hash.slice(1)) })));
     expect(r.filter((e) => !e.ok)).toEqual([]);
     expect(r.map((e) => e.id)).toEqual(expect.arrayContaining(["summary", "metrics", "transport", "uniformity", "structure", "images", "notes", "appendix", "provenance", "history"]));
-    await page.close();
   });
 
-  it("a wafer report prints on at most 4 A4 pages; the appendix is left out with a note saying so", async () => {
+  it("a wafer report prints on at most 4 A4 pages without navigation, with its provenance footer; the appendix is left out with a note saying so", async () => {
     // The wafer with every section and the demo wafer with the largest page (most tables and reasons).
     const sizes = await Promise.all((await fs.readdir(path.join(site.dir, "wafers"))).map(async (id) => ({ id, bytes: (await fs.stat(path.join(site.dir, "wafers", id, "index.html"))).size })));
     const largest = sizes.sort((a, b) => b.bytes - a.bytes).slice(0, 1).map((s) => s.id);
-    for (const id of new Set([WAFER, ...largest])) {
-      const page = await open(waferUrl(id));
+    // WAFER's shared page goes last to print: nothing reads it after this test.
+    for (const id of new Set([...largest.filter((l) => l !== WAFER), WAFER])) {
+      const page = id === WAFER ? await wafer() : await open(waferUrl(id));
       await page.emulateMedia({ media: "print" });
       expect(await page.isVisible(".print-note")).toBe(true);
       expect(await page.textContent(".print-note")).toMatch(/Left out of the printed report/);
       for (const sel of ["#appendix-sweeps", "#transport-depth", "#history", "nav.on-this-page"]) expect(await page.isVisible(sel), `${id}: ${sel} printed`).toBe(false);
       expect(await page.isVisible("#metrics")).toBe(true);
+      // A report, not a screen: no navigation or search; the footer and provenance print. A wafer page's footer
+      // names the waferbook version, not a build time (pages are reused unchanged: docs/scaling.md).
+      for (const sel of ["header.top", "nav.crumbs", "#site-search"]) expect(await page.isVisible(sel), `${id}: ${sel} printed`).toBe(false);
+      for (const sel of ["footer.foot", "#provenance", "#wafer-title"]) expect(await page.isVisible(sel), `${id}: ${sel} not printed`).toBe(true);
+      expect(await page.textContent("footer.foot")).toMatch(/Wafer page by waferbook \d+\.\d+\.\d+/);
       const pdf = await page.pdf({ format: "A4", printBackground: true });
+      expect(pdf.subarray(0, 5).toString("latin1")).toBe("%PDF-");
+      expect(pdf.length).toBeGreaterThan(20_000);
+      if (id === WAFER) await fs.writeFile(path.join(OUTPUT, "wafer.pdf"), pdf);
       const pages = (pdf.toString("latin1").match(/\/Type\s*\/Page(?![a-zA-Z])/g) ?? []).length;
       expect(pages, `${id} prints on ${pages} A4 pages`).toBeGreaterThanOrEqual(1);
       expect(pages, `${id} prints on ${pages} A4 pages`).toBeLessThanOrEqual(4);
-      await page.close();
+      if (id !== WAFER) await page.close();
     }
   });
 

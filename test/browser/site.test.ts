@@ -3,17 +3,17 @@
  * a crawl of every page reachable from the index, accessibility (axe-core),
  * keyboard reach, verdict marks, the wafer table's sorting and filters, site
  * search, the site opened from disk (file://, fromDisk.ts), screenshots at
- * desktop and phone widths, and the print report.
+ * desktop and phone widths (the print report is in readable.test.ts).
  * One build, one server and one browser for the whole file.
  */
-import { promises as fs, readFileSync } from "node:fs";
+import { promises as fs } from "node:fs";
 import path from "node:path";
 import pLimit from "p-limit";
 import { PNG } from "pngjs";
 import type { BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { fromDiskChecks } from "./fromDisk.ts";
-import { DEMO_HOOK_TIMEOUT_MS, OUTPUT, ROOT, startSite, type Site } from "./harness.ts";
+import { axeViolations, DEMO_HOOK_TIMEOUT_MS, OUTPUT, startSite, type Site } from "./harness.ts";
 
 interface PageReport {
   key: string;
@@ -30,7 +30,33 @@ const external: string[] = [];
 const anchors: { from: string; target: string; id: string }[] = [];
 const otherLinks = new Map<string, string>(); // url → page that links it
 let waferUrl = "";
-let runUrl = "";
+/** The text of waferUrl's notes, read when the crawl visits it (site search looks for one of its words). */
+let waferNotes = "";
+/**
+ * axe-core's serious and critical violations, by page key: one page of each kind (the templates: index, run,
+ * search with results, trends, a metric's trend, targets, changes, a wafer page with its folded groups open),
+ * checked on the crawl's own page once the crawl has read it, instead of loading it again.
+ */
+const axeByPage = new Map<string, string[]>();
+/** The wafer page whose verdict states are checked (issue 15): judged metrics, findings, an unmeasured image metric, recorded figures folded below. */
+const LEGEND_WAFER = "/wafers/TQ-2501/";
+let legend: LegendReport | undefined;
+const AXE_PAGES = new Set(["/", "/trends/", "/trends/peak_mobility/", "/targets/", "/changes/", LEGEND_WAFER]);
+
+interface LegendReport { judged: string[]; other: string[]; legend: { word: string; shape: string; meaning: string }[]; legendVisible: boolean }
+
+async function openAll(page: Page): Promise<void> {
+  await page.evaluate(() => document.querySelectorAll("details").forEach((d) => (d.open = true)));
+}
+
+/** The verdict words of a wafer page's tables and its legend (folded groups opened first). */
+async function legendReport(page: Page): Promise<LegendReport> {
+  return page.evaluate(() => {
+    const legend = [...document.querySelectorAll("#verdict-legend dt .verdict")].map((v) => ({ word: (v.textContent ?? "").trim(), shape: v.querySelector("svg")!.innerHTML.replace(/\s+/g, " "), meaning: (v.closest("div")!.querySelector("dd")!.textContent ?? "").trim() }));
+    // No named helpers inside evaluate: the test transform may wrap them in a helper the page does not have.
+    return { judged: [...document.querySelectorAll("#metrics > .table-wrap table .verdict")].map((v) => (v.textContent ?? "").trim()), other: [...document.querySelectorAll("#other-figures table .verdict")].map((v) => (v.textContent ?? "").trim()), legend, legendVisible: !!document.querySelector("#verdict-legend summary")?.textContent?.trim() };
+  });
+}
 
 /** Path and query of a URL: the crawl's page key (a folder and its index.html are one page: links name index.html so the site opens from disk). */
 const keyOf = (u: URL) => u.pathname.replace(/\/index\.html$/, "/") + u.search;
@@ -73,6 +99,7 @@ async function visit(page: Page, url: URL, queue: URL[]): Promise<void> {
     }),
   );
   pages.set(key, { key, ids: new Set(info.ids), canvases, verdicts: info.verdicts });
+  if (waferUrl && key === keyOf(new URL(waferUrl))) waferNotes = (await page.textContent("#notes .notes")) ?? "";
   for (const href of [...info.links, ...info.forms]) {
     const u = new URL(href);
     if (u.protocol === "mailto:" || u.protocol === "data:") continue;
@@ -85,17 +112,17 @@ async function visit(page: Page, url: URL, queue: URL[]): Promise<void> {
     if (isPage(u)) queue.push(u);
     else if (!otherLinks.has(u.href)) otherLinks.set(u.href, key);
     if (!waferUrl && /\/wafers\/[^/]+\/(index\.html)?$/.test(u.pathname)) waferUrl = u.href;
-    if (!runUrl && /\/runs\/[^/]+\/(index\.html)?$/.test(u.pathname)) runUrl = u.href;
   }
 }
 
 async function crawl(): Promise<void> {
   const ctx = await site.browser.newContext({ viewport: { width: 1280, height: 900 } });
-  await ctx.route("**/*", (route) => {
-    const u = new URL(route.request().url());
-    if (u.origin === site.origin) return route.continue();
-    external.push(`request outside the site: ${u.href}`);
-    return route.abort();
+  // Every request is watched, not intercepted (interception turns Chromium's cache off, so each of the 60 pages
+  // would fetch and compile Chart.js again); one leaving the site is recorded here and cannot reach any host
+  // (LAUNCH_ARGS resolve every name but 127.0.0.1 to nothing).
+  ctx.on("request", (r) => {
+    const u = new URL(r.url());
+    if (u.origin !== site.origin && u.protocol !== "data:") external.push(`request outside the site: ${u.href}`);
   });
   const page = await ctx.newPage();
   let current = "";
@@ -122,6 +149,20 @@ async function crawl(): Promise<void> {
     const t1 = Date.now();
     await quiet();
     if (process.env.WB_TIMING) console.log(`crawl ${current} visit ${t1 - t0} ms quiet ${Date.now() - t1} ms inFlight ${inFlight}`);
+    // Checked in place, after everything above was read: the page as the crawl saw it, plus axe.
+    const firstRun = /^\/runs\/[^/]+\/$/.test(current) && ![...axeByPage.keys()].some((k) => k.startsWith("/runs/"));
+    const firstSearch = current.startsWith("/search/?q=") && ![...axeByPage.keys()].some((k) => k.startsWith("/search/"));
+    if (current === LEGEND_WAFER) {
+      await openAll(page);
+      legend = await legendReport(page);
+    }
+    if (AXE_PAGES.has(current) || firstRun || firstSearch) {
+      if (firstSearch) await page.waitForSelector("#search-results li a");
+      const a0 = Date.now();
+      axeByPage.set(current, await axeViolations(page));
+      if (process.env.WB_TIMING) console.log(`axe ${current} ${Date.now() - a0} ms`);
+      await quiet();
+    }
     // The search page is reached through the header form; search for the first wafer so its result links are crawled too.
     if (current === "/search/" && waferUrl) queue.push(new URL(`/search/?q=${/\/wafers\/([^/]+)\//.exec(waferUrl)![1]}`, site.origin));
   }
@@ -193,76 +234,42 @@ describe("crawl of every page reachable from the index", () => {
   });
 });
 
-async function axeViolations(ctx: BrowserContext, url: string, prepare?: (page: Page) => Promise<void>): Promise<string[]> {
-  const page = await ctx.newPage();
-  await page.goto(url, { waitUntil: "load" });
-  await prepare?.(page);
-  await page.addScriptTag({ content: readFileSync(path.join(ROOT, "node_modules", "axe-core", "axe.min.js"), "utf8") });
-  const violations = await page.evaluate(async () => {
-    const r = await (window as unknown as { axe: { run: (d: Document, o: object) => Promise<{ violations: { id: string; impact: string; help: string; nodes: { target: string[] }[] }[] }> } }).axe.run(document, { resultTypes: ["violations"] });
-    return r.violations.filter((v) => v.impact === "serious" || v.impact === "critical").map((v) => `${v.impact} ${v.id}: ${v.help} — ${v.nodes.slice(0, 3).map((n) => n.target.join(" ")).join("; ")}`);
-  });
-  await page.close();
-  return violations;
+/** axe-core's findings on the page the crawl checked (it must have reached and checked it). */
+function axeOf(key: string | undefined): string[] {
+  expect(key, "the crawl reached a page of this kind").toBeDefined();
+  expect(axeByPage.has(key!), `the crawl checked ${key} with axe`).toBe(true);
+  return axeByPage.get(key!)!;
 }
 
 describe("accessibility (axe-core): no serious or critical violations", () => {
-  let ctx: BrowserContext;
-  beforeAll(async () => {
-    ctx = await site.browser.newContext({ bypassCSP: true, viewport: { width: 1280, height: 900 } });
-  });
-  afterAll(async () => ctx?.close());
-  it("on the index", async () => expect(await axeViolations(ctx, `${site.origin}/`)).toEqual([]));
+  it("on the index", () => expect(axeOf("/")).toEqual([]));
   // A wafer page: checked below with its folded groups and legend open (verdict states), which covers it closed too.
-  it("on a run page", async () => expect(await axeViolations(ctx, runUrl)).toEqual([]));
-  it("on the search page with results", async () => expect(await axeViolations(ctx, `${site.origin}/search/?q=pass`)).toEqual([]));
-  it("on /trends/", async () => {
-    expect(pages.has("/trends/"), "the crawl reached /trends/").toBe(true);
-    expect(await axeViolations(ctx, `${site.origin}/trends/`)).toEqual([]);
-  });
-  it("on a per-metric trend page, /targets/ and /changes/", async () => {
-    for (const u of ["/trends/peak_mobility/", "/targets/", "/changes/"]) expect(await axeViolations(ctx, `${site.origin}${u}`), u).toEqual([]);
+  it("on a run page", () => expect(axeOf([...axeByPage.keys()].find((k) => k.startsWith("/runs/")))).toEqual([]));
+  it("on the search page with results", () => expect(axeOf([...axeByPage.keys()].find((k) => k.startsWith("/search/?q=")))).toEqual([]));
+  it("on /trends/", () => expect(axeOf("/trends/")).toEqual([]));
+  it("on a per-metric trend page, /targets/ and /changes/", () => {
+    for (const u of ["/trends/peak_mobility/", "/targets/", "/changes/"]) expect(axeOf(u), u).toEqual([]);
   });
 });
 
 describe("verdict states (issue 15): a word, a shape of their own and a legend; judged rows first", () => {
-  // TQ-2501 (demo): judged metrics, finding rows, an unmeasured image metric and recorded figures folded below.
-  const url = () => `${site.origin}/wafers/TQ-2501/`;
-  const openAll = async (page: Page) => {
-    await page.evaluate(() => document.querySelectorAll("details").forEach((d) => (d.open = true)));
-  };
-  it("every state in the tables has a text label that the legend explains, each legend shape is distinct", async () => {
-    const page = await site.browser.newPage();
-    try {
-      await page.goto(url(), { waitUntil: "load" });
-      await openAll(page);
-      const r = await page.evaluate(() => {
-        const legend = [...document.querySelectorAll("#verdict-legend dt .verdict")].map((v) => ({ word: (v.textContent ?? "").trim(), shape: v.querySelector("svg")!.innerHTML.replace(/\s+/g, " "), meaning: (v.closest("div")!.querySelector("dd")!.textContent ?? "").trim() }));
-        // No named helpers inside evaluate: the test transform may wrap them in a helper the page does not have.
-        return { judged: [...document.querySelectorAll("#metrics > .table-wrap table .verdict")].map((v) => (v.textContent ?? "").trim()), other: [...document.querySelectorAll("#other-figures table .verdict")].map((v) => (v.textContent ?? "").trim()), legend, legendVisible: !!document.querySelector("#verdict-legend summary")?.textContent?.trim() };
-      });
-      expect(r.legendVisible).toBe(true);
-      const words = r.legend.map((l) => l.word);
-      for (const w of ["recorded", "unmeasured", "noted", "unjudged", "pass", "fail"]) expect(words).toContain(w);
-      expect(new Set(r.legend.map((l) => l.shape)).size).toBe(r.legend.length);
-      expect(r.legend.filter((l) => l.meaning.length < 10)).toEqual([]);
-      for (const w of [...r.judged, ...r.other]) expect(words).toContain(w);
-      // Judged first; the folded group holds only what was not judged.
-      expect(r.judged).not.toContain("recorded");
-      expect(r.other.length).toBeGreaterThan(0);
-      expect(r.other.filter((w) => w !== "recorded" && w !== "unmeasured")).toEqual([]);
-      expect(r.judged).toContain("unmeasured");
-    } finally {
-      await page.close();
-    }
+  it("every state in the tables has a text label that the legend explains, each legend shape is distinct", () => {
+    expect(legend, `the crawl reached ${LEGEND_WAFER}`).toBeDefined();
+    const r = legend!;
+    expect(r.legendVisible).toBe(true);
+    const words = r.legend.map((l) => l.word);
+    for (const w of ["recorded", "unmeasured", "noted", "unjudged", "pass", "fail"]) expect(words).toContain(w);
+    expect(new Set(r.legend.map((l) => l.shape)).size).toBe(r.legend.length);
+    expect(r.legend.filter((l) => l.meaning.length < 10)).toEqual([]);
+    for (const w of [...r.judged, ...r.other]) expect(words).toContain(w);
+    // Judged first; the folded group holds only what was not judged.
+    expect(r.judged).not.toContain("recorded");
+    expect(r.other.length).toBeGreaterThan(0);
+    expect(r.other.filter((w) => w !== "recorded" && w !== "unmeasured")).toEqual([]);
+    expect(r.judged).toContain("unmeasured");
   });
-  it("axe reports no serious or critical violations with the other figures and the legend unfolded", async () => {
-    const ctx = await site.browser.newContext({ bypassCSP: true, viewport: { width: 1280, height: 900 } });
-    try {
-      expect(await axeViolations(ctx, url(), openAll)).toEqual([]);
-    } finally {
-      await ctx.close();
-    }
+  it("axe reports no serious or critical violations with the other figures and the legend unfolded", () => {
+    expect(axeOf(LEGEND_WAFER)).toEqual([]);
   });
 });
 
@@ -378,10 +385,8 @@ describe("site search", () => {
     await page.waitForSelector("#search-results li a");
     const first = await page.getAttribute("#search-results li a", "href");
     expect(first).toBe(`../wafers/${id}/index.html#summary`);
-    // A long word from that wafer's notes leads to its #notes section.
-    await page.goto(waferUrl);
-    const notes = (await page.textContent("#notes .notes")) ?? "";
-    const word = (notes.match(/[A-Za-z]{8,}/g) ?? []).sort((a, b) => b.length - a.length)[0] ?? "";
+    // A long word from that wafer's notes (read by the crawl) leads to its #notes section.
+    const word = (waferNotes.match(/[A-Za-z]{8,}/g) ?? []).sort((a, b) => b.length - a.length)[0] ?? "";
     expect(word, "the wafer's notes hold a word of 8+ letters to search for").not.toBe("");
     {
       await page.goto(`${site.origin}/search/?q=${encodeURIComponent(word)}`, { waitUntil: "load" });
@@ -402,11 +407,14 @@ describe("opened from disk (file://)", () => fromDiskChecks(() => site));
 
 describe("screenshots", () => {
   it("index and a wafer page at 1280 px and 390 px, without sideways scrolling", async () => {
-    for (const width of [1280, 390]) {
-      const ctx = await site.browser.newContext({ viewport: { width, height: width > 500 ? 900 : 844 } });
-      const page = await ctx.newPage();
-      for (const [name, url] of [["index", `${site.origin}/`], ["wafer", waferUrl]] as const) {
-        await page.goto(url, { waitUntil: "load" });
+    // One page per URL, narrowed after the wide shot (the layout and the charts follow the viewport, as on a turned phone).
+    const ctx = await site.browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await ctx.newPage();
+    for (const [name, url] of [["index", `${site.origin}/`], ["wafer", waferUrl]] as const) {
+      await page.setViewportSize({ width: 1280, height: 900 });
+      await page.goto(url, { waitUntil: "load" });
+      for (const width of [1280, 390]) {
+        if (width !== 1280) await page.setViewportSize({ width, height: 844 });
         await settle(page);
         const file = path.join(OUTPUT, `${name}-${width}.png`);
         await page.screenshot({ path: file });
@@ -414,31 +422,7 @@ describe("screenshots", () => {
         const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
         expect(overflow, `${name} at ${width} px scrolls sideways`).toBeLessThanOrEqual(1);
       }
-      await ctx.close();
     }
-  });
-});
-
-describe("print", () => {
-  it("prints a wafer page as a report: no navigation, provenance footer, a real PDF", async () => {
-    const ctx = await site.browser.newContext();
-    const page = await ctx.newPage();
-    await page.goto(waferUrl, { waitUntil: "load" });
-    await page.emulateMedia({ media: "print" });
-    expect(await page.isVisible("header.top")).toBe(false);
-    expect(await page.isVisible("nav.crumbs")).toBe(false);
-    expect(await page.isVisible("#site-search")).toBe(false);
-    expect(await page.isVisible("footer.foot")).toBe(true);
-    // A wafer page's footer names the waferbook version, not a build time (pages are reused unchanged: docs/scaling.md); its provenance prints.
-    expect(await page.textContent("footer.foot")).toMatch(/Wafer page by waferbook \d+\.\d+\.\d+/);
-    expect(await page.isVisible("#provenance")).toBe(true);
-    expect(await page.isVisible("#wafer-title")).toBe(true);
-    const pdf = await page.pdf({ format: "A4", printBackground: true });
-    expect(pdf.subarray(0, 5).toString("latin1")).toBe("%PDF-");
-    expect(pdf.length).toBeGreaterThan(20_000);
-    const pageCount = (pdf.toString("latin1").match(/\/Type\s*\/Page(?![a-zA-Z])/g) ?? []).length;
-    expect(pageCount).toBeGreaterThanOrEqual(1);
-    await fs.writeFile(path.join(OUTPUT, "wafer.pdf"), pdf);
     await ctx.close();
   });
 });
