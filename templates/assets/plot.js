@@ -18,7 +18,7 @@
   }
   // Axis bounds with a margin: 6 % of the span (linear) or of the decades spanned (log).
   function bounds(values, log) {
-    var vs = values.filter(function (v) { return isFinite(v) && (!log || v > 0); });
+    var vs = values.filter(function (v) { return Number.isFinite(v) && (!log || v > 0); });
     if (!vs.length) return {};
     var lo = Math.min.apply(null, vs), hi = Math.max.apply(null, vs);
     if (log) {
@@ -87,14 +87,14 @@
         plugins: {
           legend: { labels: { usePointStyle: true, font: { size: 12 } } },
           tooltip: { callbacks: { label: function (c) {
-            var name = c.dataset.pointText && c.dataset.pointText[c.dataIndex];
+            var name = c.dataset.pointText?.[c.dataIndex];
             return (name ? name + " (" + c.dataset.label + ")" : c.dataset.label) + ": " + sci(c.parsed.x) + ", " + sci(c.parsed.y);
           } } }
         },
-        onClick: function (e, items, chart) {
+        onClick: function (_e, items, chart) {
           for (var i = 0; i < items.length; i++) {
             var ds = chart.data.datasets[items[i].datasetIndex];
-            if (ds.links && ds.links[items[i].index]) { window.location.href = ds.links[items[i].index]; return; }
+            if (ds.links?.[items[i].index]) { window.location.href = ds.links[items[i].index]; return; }
           }
         }
       },

@@ -11,7 +11,7 @@ import { describe, expect, it } from "vitest";
 type Fit = { n: number; slope: number; intercept: number; r: number; rLow: number | null; rHigh: number | null } | null;
 const context: { window: { waferbookLeastSquares?: (p: [number, number][]) => Fit } } = { window: {} };
 vm.runInNewContext(readFileSync(path.resolve(import.meta.dirname, "../../templates/assets/leastSquares.js"), "utf8"), context);
-const fit = context.window.waferbookLeastSquares!;
+const leastSquares = context.window.waferbookLeastSquares!;
 
 describe("least squares and r on the relation page", () => {
   it("reproduces Anscombe's data set I", () => {
@@ -19,7 +19,7 @@ describe("least squares and r on the relation page", () => {
     // data set I gives y = 3.00 + 0.500·x and r = 0.816, n = 11 (values as published; from memory).
     const x = [10, 8, 13, 9, 11, 14, 6, 4, 12, 7, 5];
     const y = [8.04, 6.95, 7.58, 8.81, 8.33, 9.96, 7.24, 4.26, 10.84, 4.82, 5.68];
-    const f = fit(x.map((v, i) => [v, y[i]]))!;
+    const f = leastSquares(x.map((v, i) => [v, y[i]]))!;
     expect(f.n).toBe(11);
     expect(f.slope).toBeCloseTo(0.5, 3);
     expect(f.intercept).toBeCloseTo(3.0, 2);
@@ -33,15 +33,15 @@ describe("least squares and r on the relation page", () => {
     // Derived: an exact line y = 1e11 + 2e8·(x − 900) gives slope 2e8 and r = 1 whatever the offset;
     // a perfectly anti-correlated set gives r = −1.
     const pts: [number, number][] = [898, 899, 900, 901, 902].map((t) => [t, 1e11 + 2e8 * (t - 900)]);
-    const f = fit(pts)!;
+    const f = leastSquares(pts)!;
     expect(f.slope / 2e8).toBeCloseTo(1, 9);
     expect(f.r).toBeCloseTo(1, 12);
-    expect(fit([[1, 3], [2, 2], [3, 1]])!.r).toBeCloseTo(-1, 12);
+    expect(leastSquares([[1, 3], [2, 2], [3, 1]])!.r).toBeCloseTo(-1, 12);
   });
 
   it("gives no line for fewer than 3 points or values that do not vary", () => {
-    expect(fit([[1, 2], [2, 3]])).toBeNull();
-    expect(fit([[1, 2], [1, 3], [1, 4]])).toBeNull();
-    expect(fit([[1, 2], [2, 2], [3, 2]])).toBeNull();
+    expect(leastSquares([[1, 2], [2, 3]])).toBeNull();
+    expect(leastSquares([[1, 2], [1, 3], [1, 4]])).toBeNull();
+    expect(leastSquares([[1, 2], [2, 2], [3, 2]])).toBeNull();
   });
 });
