@@ -28,7 +28,7 @@ const LAYERS = [
  */
 const KNOWN_SYNTH_UPWARD = [];
 
-const escape = (s) => s.replace(/[.*+?^${}()|[\]\\]/g, "\\$&");
+const escapeRegExp = (s) => s.replace(/[.*+?^${}()|[\]\\]/g, "\\$&");
 const folders = (names) => `^src/(${names.join("|")})/`;
 
 function layerRules() {
@@ -45,16 +45,16 @@ function layerRules() {
         name: `layer-${name}`,
         comment: `src/${name} may not import ${forbidden.map((f) => `src/${f}`).join(", ")} (one-way layers, DEVELOPERS.md)`,
         severity: "error",
-        from: { path: `^src/${name}/`, pathNot: exceptedFiles.map((f) => `^${escape(f)}$`) },
+        from: { path: `^src/${name}/`, pathNot: exceptedFiles.map((f) => `^${escapeRegExp(f)}$`) },
         to: { path: folders(forbidden) },
       });
       for (const file of exceptedFiles) {
-        const allowed = excepted.filter(([from]) => from === file).map(([, to]) => `^${escape(to)}$`);
+        const allowed = excepted.filter(([from]) => from === file).map(([, to]) => `^${escapeRegExp(to)}$`);
         rules.push({
           name: `layer-${name}-known-exception`,
           comment: `${file} may import only its listed known exceptions above src/${name} (KNOWN_SYNTH_UPWARD)`,
           severity: "error",
-          from: { path: `^${escape(file)}$` },
+          from: { path: `^${escapeRegExp(file)}$` },
           to: { path: folders(forbidden), pathNot: allowed },
         });
       }

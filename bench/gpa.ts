@@ -25,7 +25,7 @@ const img = syntheticMicrograph({
 });
 const tSynth = performance.now() - t0;
 const times: number[] = [];
-let last;
+let last: ReturnType<typeof geometricPhase> | undefined;
 for (let run = 0; run < 3; run++) {
   const t = performance.now();
   last = geometricPhase(img.pixels, size, size, { growthAxis: "up" });

@@ -41,7 +41,10 @@ function emptyAt(x: unknown, b: BulkPath, i: number): void {
   }
   const obj = x as Record<string, unknown>;
   if (!Object.hasOwn(obj, key)) return;
-  if (i < b.path.length - 1) return emptyAt(obj[key], b, i + 1);
+  if (i < b.path.length - 1) {
+    emptyAt(obj[key], b, i + 1);
+    return;
+  }
   const v = obj[key];
   if (!Array.isArray(v)) return;
   if (!b.drop) obj[key] = [];

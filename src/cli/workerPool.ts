@@ -209,13 +209,15 @@ export class WaferJobs {
    */
   async analyseAll(folders: string[], onDone: (i: number, r: AnalysedFolder, drawn: boolean) => void = () => {}): Promise<AnalysedFolder[]> {
     const results: AnalysedFolder[] = new Array(folders.length);
-    const hashes = (this.fileHashes = await FileHashes.open(this.ctx.cacheDir));
+    const hashes = await FileHashes.open(this.ctx.cacheDir);
+    this.fileHashes = hashes;
     // Misses not yet handed to the pool; what is left at the end is analysed in this thread.
     const pending: { i: number; key?: string }[] = [];
     const running: Promise<void>[] = [];
     const finish = (i: number, j: JobResult) => {
       this.cacheWarnings.push(...(j.result.warnings ?? []));
-      onDone(i, (results[i] = j.result), j.drawn);
+      results[i] = j.result;
+      onDone(i, j.result, j.drawn);
     };
     const toPool = (p: Pool, m: { i: number; key?: string }) => {
       const job = p.run("analyse", folders[m.i], m.key).then((j) => finish(m.i, j));
@@ -236,7 +238,8 @@ export class WaferJobs {
             looked++;
             if (damaged) this.cacheWarnings.push(damaged);
             if (hit) {
-              onDone(i, (results[i] = hit), false);
+              results[i] = hit;
+              onDone(i, hit, false);
               return;
             }
             pending.push({ i, key });

@@ -105,7 +105,7 @@ export async function placeRawCopy(rawAbs: string, dest: string, prevCopy: strin
  * Returns how many were carried.
  */
 export function carryOverRawObjects(prevRaw: string, newRaw: string): number {
-  let entries;
+  let entries: import("node:fs").Dirent[];
   try {
     entries = readdirSync(prevRaw, { withFileTypes: true });
   } catch {

@@ -32,17 +32,23 @@ export interface WaferOutcome {
   provenance: Provenance;
 }
 
+/** The entry for metric `k`, created empty on first use. */
+function slot(values: Record<string, MetricValues>, k: string): MetricValues {
+  values[k] ??= { perDevice: {} };
+  return values[k];
+}
+
 export function metricValues(analysis: WaferAnalysis): Record<string, MetricValues> {
   const values: Record<string, MetricValues> = {};
   for (const d of analysis.devices) {
     for (const [k, v] of Object.entries(d.metrics)) {
-      (values[k] ??= { perDevice: {} }).perDevice[d.id] = v;
+      slot(values, k).perDevice[d.id] = v;
     }
   }
   for (const section of [analysis.structure, analysis.images]) {
-    for (const [k, v] of Object.entries(section?.metrics ?? {})) (values[k] ??= { perDevice: {} }).wafer = v;
+    for (const [k, v] of Object.entries(section?.metrics ?? {})) slot(values, k).wafer = v;
   }
-  for (const [k, v] of Object.entries(uniformityMetrics(analysis.devices))) (values[k] ??= { perDevice: {} }).wafer = v;
+  for (const [k, v] of Object.entries(uniformityMetrics(analysis.devices))) slot(values, k).wafer = v;
   return values;
 }
 

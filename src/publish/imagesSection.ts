@@ -140,7 +140,7 @@ function block(r: ImageResult, i: number, wafer: string, files: SectionFile[], r
 /** The images section of a wafer page, or undefined while the wafer has no images. */
 export function imagesSection(o: WaferOutcome): ImagesSectionModel | undefined {
   const a = o.analysis?.images;
-  if (!a || !a.images.length) return undefined;
+  if (!a?.images.length) return undefined;
   const files: SectionFile[] = [];
   const copies = new Map(o.provenance.files.map((f) => [f.path, rawCopyHref(f)]));
   const images = a.images.map((r, i) => block(r, i, o.folder, files, (file) => copies.get(file) ?? ""));

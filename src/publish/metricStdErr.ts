@@ -43,12 +43,12 @@ function waferStdErr(o: WaferOutcome, key: string): number | undefined {
   const b = s?.xrd?.buffer.ok ? s.xrd.buffer : undefined;
   const strain = s?.xrd?.strain.ok ? s.xrd.strain : undefined;
   const prof = s?.profiles.find((p) => p.result.ok)?.result;
-  const r = prof && prof.ok ? prof : undefined;
+  const r = prof?.ok ? prof : undefined;
   const img = o.analysis?.images;
   const imgProfile = (k: string) => {
     const i = img?.metricSource[k];
     const p = i === undefined ? undefined : img!.images[i]?.profile;
-    return p && p.ok ? p : undefined;
+    return p?.ok ? p : undefined;
   };
   switch (key) {
     case "ge_fraction":

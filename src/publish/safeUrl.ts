@@ -33,6 +33,7 @@ export function urlProblem(url: string): string | undefined {
     });
   if (unknownEntity) return `the link ${JSON.stringify(url)} holds the character reference ${unknownEntity}, which waferbook never writes in a link`;
   // What a browser ignores when it reads a URL: ASCII tab and new lines anywhere, C0 controls and spaces at the ends.
+  // biome-ignore lint/suspicious/noControlCharactersInRegex: the control characters are what this strips
   const bare = decoded.replace(/[\t\n\r]/g, "").replace(/^[\u0000-\u0020]+/, "");
   if (DATA_IMAGE.test(bare)) return undefined;
   const scheme = /^([^/?#]*?):/.exec(bare)?.[1];

@@ -40,7 +40,10 @@ export function downsample(map: ArrayLike<number>, width: number, height: number
       for (let y = by * factor; y < Math.min(height, (by + 1) * factor); y++) {
         for (let x = bx * factor; x < Math.min(width, (bx + 1) * factor); x++) {
           const v = map[y * width + x];
-          if (Number.isFinite(v)) (s += v), n++;
+          if (Number.isFinite(v)) {
+            s += v;
+            n++;
+          }
         }
       }
       out[by * w + bx] = n ? s / n : Number.NaN;

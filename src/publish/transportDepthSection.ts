@@ -104,7 +104,7 @@ function mobilityChart(d: DeviceAnalysis, x: DeviceDepth): ChartSpec | undefined
 function sdhCharts(id: string, x: DeviceDepth): ChartSpec[] {
   // The charted point is the last with a spectrum, as the slim form keeps (cli/analyseFolder.ts).
   const best = x.points.filter((p) => p.sdh.ok).at(-1);
-  if (!best || !best.sdh.ok) return [];
+  if (!best?.sdh.ok) return [];
   const s = best.sdh;
   const o = best.oscillation;
   const charts: ChartSpec[] = [];

@@ -102,7 +102,7 @@ export function decodeMicrograph(bytes: Uint8Array, maxPixels: number = DEFAULT_
     throw new MicrographFormatError(EXPECTED, describeBytes(buf), FIX);
   }
   checkDeclaredSize(buf, maxPixels);
-  let png;
+  let png: ReturnType<typeof PNG.sync.read>;
   try {
     png = PNG.sync.read(buf, { skipRescale: true });
   } catch (e) {

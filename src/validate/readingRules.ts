@@ -18,7 +18,7 @@
  */
 import v8 from "node:v8";
 import type { ColumnRule, ConditionRule, ReadingRules, RuleSite } from "../read/instrumentTable.ts";
-import { didYouMean, ProblemList } from "../model/problem.ts";
+import { didYouMean, type ProblemList } from "../model/problem.ts";
 import { acceptedUnits, splitValueUnit, unitFactor, type Dimension } from "./units.ts";
 import { suggestUnit } from "./unitSpelling.ts";
 import { COLUMN_UNITS } from "./units.ts";

@@ -139,7 +139,7 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
   }
   const currentCol = values.get("I");
   if (currentCol) {
-    const zero = currentCol.findIndex((v) => v === 0);
+    const zero = currentCol.indexOf(0);
     if (zero >= 0) {
       list.add({ file: t.file, line: t.rowLines[zero], field: "column I", message: "current is zero", expected: "a non-zero source current", found: "0", fix: "remove rows taken with the source off" });
     }

@@ -152,7 +152,10 @@ function readTarget(metric: string, spec: unknown, where: { file: string; field:
     list.add({ ...where, message: "a limit needs exactly one of min, max or between", expected: "one of min, max, between", found: count === 0 ? "none" : "several", fix: "use between: [low, high] for two-sided limits" });
   }
   // The guard band is read relative to the limit, so only once the limit has been read.
-  const limitRead = count === 1 && list.attempt(() => (readLimit(s, t, q, where), true));
+  const limitRead = count === 1 && list.attempt(() => {
+    readLimit(s, t, q, where);
+    return true;
+  });
   if ("guard" in s && limitRead) list.attempt(() => readGuard(s, t, q, where));
   if ("required" in s) {
     if (typeof s.required !== "boolean") list.add({ ...where, field: `${where.field}.required`, message: "required must be true or false", expected: "true or false", found: show(s.required), fix: "write required: true or required: false, without quotes" });

@@ -44,6 +44,7 @@ function tokens(text: string): Token[] | string {
   const re = /([A-Za-z]+)|\^\s*([-+]?\d+)|([/*()])|(\s+)|(.)/gy;
   let space = false;
   let m: RegExpExecArray | null;
+  // biome-ignore lint/suspicious/noAssignInExpressions: the usual RegExp.exec loop
   while (re.lastIndex < text.length && (m = re.exec(text))) {
     if (m[4]) {
       space = true;

@@ -39,7 +39,10 @@ const BY_SPELLING = new Map<Dimension, Map<string, number>>();
  */
 export function unitFactor(dim: Dimension, unit: string): number | undefined {
   let table = BY_SPELLING.get(dim);
-  if (!table) BY_SPELLING.set(dim, (table = new Map(Object.entries(COLUMN_UNITS[dim]).map(([u, f]) => [normaliseUnit(u), f]))));
+  if (!table) {
+    table = new Map(Object.entries(COLUMN_UNITS[dim]).map(([u, f]) => [normaliseUnit(u), f]));
+    BY_SPELLING.set(dim, table);
+  }
   return table.get(normaliseUnit(unit));
 }
 

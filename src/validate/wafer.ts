@@ -104,8 +104,14 @@ function fieldPath(instancePath: string): string {
     .replace(/^\./, "");
 }
 
+/** The parts of a JSON Schema node that schemaAt walks. */
+interface SchemaNode {
+  items?: SchemaNode;
+  properties?: Record<string, SchemaNode>;
+}
+
 function schemaAt(path: string[]): { properties?: Record<string, unknown> } | undefined {
-  let s: any = WAFER_SCHEMA;
+  let s: SchemaNode | undefined = WAFER_SCHEMA as SchemaNode;
   for (const p of path) {
     if (!s) return undefined;
     s = /^\d+$/.test(p) ? s.items : s.properties?.[p];
@@ -116,7 +122,7 @@ function schemaAt(path: string[]): { properties?: Record<string, unknown> } | un
 function ajvToInputError(e: ErrorObject, doc: FrontMatterDoc, file: string, data: unknown): InputError {
   const segs = e.instancePath.split("/").filter(Boolean);
   const base = fieldPath(e.instancePath);
-  const valueAt = segs.reduce<any>((v, k) => (v == null ? v : v[k]), data);
+  const valueAt = segs.reduce<unknown>((v, k) => (v == null ? v : (v as Record<string, unknown>)[k]), data);
   const lineOf = (f: string) => lineOfField(doc.matterText, f, doc.firstLine);
   const last = segs[segs.length - 1] ?? "";
   switch (e.keyword) {
@@ -197,6 +203,7 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
   }
   const shapeOk = list.ok;
   const bad = (field: string) => [...badFields].some((b) => b === "" ? false : field === b || field.startsWith(`${b}.`) || field.startsWith(`${b}[`) || b.startsWith(`${field}.`) || b.startsWith(`${field}[`));
+  // biome-ignore lint/suspicious/noExplicitAny: the record before validation; each field is checked before use below
   const r = data as Record<string, any>;
   if (typeof r.wafer === "string" && !bad("wafer") && r.wafer !== ctx.folder) {
     list.add({ file, line: lineOf("wafer"), field: "wafer", message: "wafer id does not match its folder", expected: JSON.stringify(ctx.folder), found: JSON.stringify(r.wafer), fix: "make the id and the folder name the same (rename one of them)" });

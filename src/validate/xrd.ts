@@ -8,7 +8,7 @@
  */
 import { numericColumn, type ColumnHeader, type RawTable } from "../read/table.ts";
 import { CU_KALPHA1 } from "../physics/constants.ts";
-import type { Miller, MapPoint, TableRow, XrdCommon, XrdFile } from "../model/structureInputs.ts";
+import type { Miller, TableRow, XrdCommon, XrdFile } from "../model/structureInputs.ts";
 import { didYouMean, InputError, ProblemList } from "../model/problem.ts";
 import { acceptedUnits, splitValueUnit, unitFactor, type Dimension } from "./units.ts";
 

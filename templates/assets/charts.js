@@ -219,20 +219,20 @@
             onClick: function (e, item, legend) { if (item.datasetIndex != null) Chart.defaults.plugins.legend.onClick.call(this, e, item, legend); }
           },
           tooltip: { callbacks: { label: function (c) {
-            var tip = c.dataset.tips && c.dataset.tips[c.dataIndex];
+            var tip = c.dataset.tips?.[c.dataIndex];
             var y = c.dataset.yAxisID === "y2" ? spec.y2 : spec.y;
             var x = spec.x.dates ? day(c.parsed.x) : sci(c.parsed.x) + unitOf(spec.x.label);
             return (tip || c.dataset.label) + ": " + x + ", " + sci(c.parsed.y) + unitOf(y.label);
           } } }
         },
-        onClick: function (e, items, ch) {
+        onClick: function (_e, items, ch) {
           for (var i = 0; i < items.length; i++) {
             var ds = ch.data.datasets[items[i].datasetIndex];
-            if (ds.links && ds.links[items[i].index]) { window.location.href = ds.links[items[i].index]; return; }
+            if (ds.links?.[items[i].index]) { window.location.href = ds.links[items[i].index]; return; }
           }
         },
-        onHover: function (e, items, ch) {
-          var linked = items.some(function (it) { var ds = ch.data.datasets[it.datasetIndex]; return ds.links && ds.links[it.index]; });
+        onHover: function (_e, items, ch) {
+          var linked = items.some(function (it) { var ds = ch.data.datasets[it.datasetIndex]; return ds.links?.[it.index]; });
           ch.canvas.style.cursor = linked ? "pointer" : "";
         }
       },

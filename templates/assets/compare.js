@@ -27,7 +27,7 @@
   }
   function mark(v) {
     var t = document.getElementById("verdict-marks");
-    var found = t && t.content.querySelector(".v-" + v);
+    var found = t?.content.querySelector(".v-" + v);
     return found ? found.cloneNode(true) : el("span", v, "verdict");
   }
 
@@ -58,7 +58,7 @@
     if (asked.length) status.textContent = notes.concat(["Choose at least 2 wafers (" + ids.length + " found in the address)."]).join(" ");
     return;
   }
-  try { history.replaceState(null, "", location.pathname + "?w=" + ids.join(",") + location.hash); } catch (err) { /* from disk some browsers refuse; the address still works */ }
+  try { history.replaceState(null, "", location.pathname + "?w=" + ids.join(",") + location.hash); } catch (_err) { /* from disk some browsers refuse; the address still works */ }
   status.textContent = "Loading " + ids.join(", ") + "\u2026";
 
   window.waferbookCompare = window.waferbookCompare || {};
@@ -163,7 +163,7 @@
       row(tb, info[k].label + (info[k].unit ? " (" + info[k].unit + ")" : ""), ws.map(function (w, i) {
         var m = w.metrics.filter(function (x) { return x.key === k; })[0];
         if (!m) return "\u2014";
-        return [m.text + " ", mark(m.verdict), i ? diff(m.value, refM && refM.value, info[k].unit) : null];
+        return [m.text + " ", mark(m.verdict), i ? diff(m.value, refM?.value, info[k].unit) : null];
       }));
     });
 
@@ -173,11 +173,11 @@
       row(tb, "Recipe", ws.map(function (w) { return w.growth ? w.growth.recipe || "\u2014" : "\u2014"; }));
       var gk = [], gi = {};
       ws.forEach(function (w) { (w.growth ? w.growth.values : []).forEach(function (v) { if (!gi[v.key]) { gi[v.key] = v; gk.push(v.key); } }); });
-      var valueOf = function (w, k) { var v = w.growth && w.growth.values.filter(function (x) { return x.key === k; })[0]; return v ? v.value : null; };
+      var valueFor = function (w, k) { var v = w.growth?.values.filter(function (x) { return x.key === k; })[0]; return v ? v.value : null; };
       gk.forEach(function (k) {
         row(tb, gi[k].label + " (" + gi[k].unit + ")", ws.map(function (w, i) {
-          var v = valueOf(w, k);
-          return v == null ? "\u2014" : [sci(v), i ? diff(v, valueOf(ref, k), gi[k].unit) : null];
+          var v = valueFor(w, k);
+          return v == null ? "\u2014" : [sci(v), i ? diff(v, valueFor(ref, k), gi[k].unit) : null];
         }));
       });
     }

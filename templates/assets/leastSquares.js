@@ -18,7 +18,7 @@
 (function (root) {
   "use strict";
   function leastSquares(points, space) {
-    var logX = !!(space && space.logX), logY = !!(space && space.logY);
+    var logX = !!space?.logX, logY = !!space?.logY;
     var n = points.length;
     if (n < 3) return null;
     var xs = [], ys = [], i;

@@ -16,7 +16,7 @@
   var sci = globalThis.waferbookAxes.sci, logAxis = globalThis.waferbookAxes.logAxis;
   // A log axis over the positive values, or null when there are none.
   function logBounds(values) {
-    var vs = values.filter(function (v) { return isFinite(v) && v > 0; });
+    var vs = values.filter(function (v) { return Number.isFinite(v) && v > 0; });
     return vs.length ? logAxis(Math.min.apply(null, vs), Math.max.apply(null, vs)) : null;
   }
   function axis(opt, values) {
@@ -86,14 +86,14 @@
         plugins: {
           legend: { labels: { usePointStyle: true, font: { size: 12 } } },
           tooltip: { callbacks: { label: function (c) {
-            var name = c.dataset.pointText && c.dataset.pointText[c.dataIndex];
+            var name = c.dataset.pointText?.[c.dataIndex];
             return (name ? name + " (" + c.dataset.label + ")" : c.dataset.label) + ": " + sci(c.parsed.x) + ", " + sci(c.parsed.y);
           } } }
         },
-        onClick: function (e, items, chart) {
+        onClick: function (_e, items, chart) {
           for (var i = 0; i < items.length; i++) {
             var ds = chart.data.datasets[items[i].datasetIndex];
-            if (ds.links && ds.links[items[i].index]) { window.location.href = ds.links[items[i].index]; return; }
+            if (ds.links?.[items[i].index]) { window.location.href = ds.links[items[i].index]; return; }
           }
         }
       },

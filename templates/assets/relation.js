@@ -43,7 +43,7 @@
   function writeUrl() {
     var p = new URLSearchParams();
     fields.forEach(function (f) { var v = control(f).value; if (v) p.set(f, v); });
-    try { history.replaceState(null, "", location.pathname + "?" + p.toString() + location.hash); } catch (err) { /* some browsers refuse from disk */ }
+    try { history.replaceState(null, "", location.pathname + "?" + p.toString() + location.hash); } catch (_err) { /* some browsers refuse from disk */ }
   }
   function draw() {
     var xv = vars[control("x").value], yv = vars[control("y").value], by = control("by").value === "reactor" ? "reactor" : "run";

@@ -50,6 +50,7 @@
       if (from > 0) p.appendChild(document.createTextNode("\u2026"));
       var last = 0, mm;
       re.lastIndex = 0;
+      // biome-ignore lint/suspicious/noAssignInExpressions: the usual RegExp.exec loop
       while ((mm = re.exec(piece)) !== null) {
         var start = mm.index + mm[1].length;
         p.appendChild(document.createTextNode(piece.slice(last, start)));

@@ -70,7 +70,7 @@ async function settle(page: Page): Promise<void> {
 async function visit(page: Page, url: URL, queue: URL[]): Promise<void> {
   const key = keyOf(url);
   const res = await page.goto(url.href, { waitUntil: "load" });
-  if (!res || res.status() !== 200) failed.push(`${key}: HTTP ${res?.status()}`);
+  if (res?.status() !== 200) failed.push(`${key}: HTTP ${res?.status()}`);
   await settle(page);
   const info = await page.evaluate(() => ({
     ids: [...document.querySelectorAll("[id]")].map((e) => e.id),

@@ -87,8 +87,12 @@ describe("exit codes (main.ts)", () => {
     const { main } = await import("../../src/cli/main.ts");
     const write = { out: process.stdout.write, err: process.stderr.write };
     const captured: string[] = [];
-    process.stdout.write = ((s: string) => (captured.push(s), true)) as typeof process.stdout.write;
-    process.stderr.write = ((s: string) => (captured.push(s), true)) as typeof process.stderr.write;
+    const capture = (text: string) => {
+      captured.push(text);
+      return true;
+    };
+    process.stdout.write = capture as typeof process.stdout.write;
+    process.stderr.write = capture as typeof process.stderr.write;
     try {
       expect(await main(["build", "--help"])).toBe(0);
       expect(await main(["build", "--version"])).toBe(0);
@@ -110,7 +114,11 @@ describe("an internal error", () => {
     const { main } = await import("../../src/cli/main.ts");
     const write = process.stderr.write;
     const captured: string[] = [];
-    process.stderr.write = ((s: string) => (captured.push(s), true)) as typeof process.stderr.write;
+    const capture = (text: string) => {
+      captured.push(text);
+      return true;
+    };
+    process.stderr.write = capture as typeof process.stderr.write;
     try {
       expect(await main(["build", "--data", "x", "--quiet"])).toBe(70);
     } finally {

@@ -89,6 +89,7 @@ describe("waferbook init --shards N", () => {
     const at = (steps: Step[], pred: (s: Step) => boolean) => steps.findIndex(pred);
     const cmds = (steps: Step[]) => steps.filter((s) => s.run?.includes("npx waferbook")).map((s) => s.run!.trim());
     // K/N from the matrix: the shard number and the number of matrix jobs.
+    // biome-ignore lint/suspicious/noTemplateCurlyInString: the CI service's own expression syntax, not a JavaScript template
     expect(cmds(shard.steps).map((c) => c.replace("${{ matrix.shard }}/${{ strategy.job-total }}", "K/N"))).toEqual([documentedCommands()[0]]);
     const build = at(shard.steps, (s) => !!s.run?.includes("npx waferbook"));
     expect(at(shard.steps, (s) => !!s.uses?.startsWith("actions/checkout@"))).toBe(0);

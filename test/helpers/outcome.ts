@@ -28,7 +28,10 @@ export interface OutcomeSpec {
 
 export function makeOutcome(s: OutcomeSpec, targets: Targets): WaferOutcome {
   const values: Record<string, MetricValues> = {};
-  for (const [dev, ms] of Object.entries(s.devices)) for (const [k, v] of Object.entries(ms)) (values[k] ??= { perDevice: {} }).perDevice[dev] = v;
+  for (const [dev, ms] of Object.entries(s.devices)) for (const [k, v] of Object.entries(ms)) {
+      values[k] ??= { perDevice: {} };
+      values[k].perDevice[dev] = v;
+    }
   const grade = s.grade ?? targets.defaultGrade;
   const devices = Object.keys(s.devices).map((id) => {
     const e = s.gateFitErr?.[id];

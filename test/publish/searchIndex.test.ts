@@ -1,7 +1,7 @@
 import MiniSearch, { type AsPlainObject } from "minisearch";
 import { describe, expect, it } from "vitest";
 import type { WaferOutcome } from "../../src/judge/outcome.ts";
-import { SEARCH_OPTIONS, searchDocuments, searchIndexJson } from "../../src/publish/searchIndex.ts";
+import { type SEARCH_OPTIONS, searchDocuments, searchIndexJson } from "../../src/publish/searchIndex.ts";
 
 // A minimal outcome: only the fields the search index reads.
 const outcome = (folder: string, run: string, notes: string, verdict: string, reasons: string[]) =>

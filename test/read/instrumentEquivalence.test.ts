@@ -87,7 +87,7 @@ beforeAll(async () => {
       if (rel === "wafer.md") {
         // The same record without reading instructions: own-format files, and the scale written in.
         const md = bytes.toString("utf8")
-          .replace(/\n    columns:[^\n]*(\n      [^\n]*)+\n    layout:[^\n]*\n    conditions:(\n      [^\n]*)+/g, "")
+          .replace(/\n {4}columns:[^\n]*(\n {6}[^\n]*)+\n {4}layout:[^\n]*\n {4}conditions:(\n {6}[^\n]*)+/g, "")
           .replace(/\*\.dat"/g, '*.csv"')
           .replace(/\.tif\n[^\n]*\n/, ".png\n    pixel_nm: 0.05\n");
         return [rel, md];

@@ -179,7 +179,15 @@ describe("LZW strips and tiles, and the size of every block", () => {
   /** A seeded byte generator (xorshift32, common practice). */
   const bytesFrom = (seed: number, n: number) => {
     let x = seed >>> 0 || 1;
-    return Buffer.from(Array.from({ length: n }, () => ((x ^= x << 13), (x ^= x >>> 17), (x ^= x << 5), x & 0xff)));
+    return Buffer.from(
+      Array.from({ length: n }, () => {
+        // Marsaglia's xorshift32 (J. Stat. Softw. 8 (2003) 14), shifts 13, 17, 5
+        x ^= x << 13;
+        x ^= x >>> 17;
+        x ^= x << 5;
+        return x & 0xff;
+      }),
+    );
   };
 
   it("the synthetic encoder writes what utif2's decoder reads (width growth to 12 bits and table resets included)", () => {

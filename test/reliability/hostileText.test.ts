@@ -14,7 +14,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { build } from "../../src/cli/build.ts";
 import { jsonForScript } from "../../src/publish/charts.ts";
 import { renderNotes } from "../../src/publish/markdown.ts";
-import { HEALTHY_DIR, io, ROOT } from "./corpus.ts";
+import { HEALTHY_DIR, io, } from "./corpus.ts";
 
 const X = {
   script: "<script>window.__pwned=1;alert('script')</script>",

@@ -104,7 +104,7 @@ describe("the bad-input corpus read through wafer.md's reading instructions", as
     ].join("\n");
     const flow = `files: "transport/*.dat", columns: { ${conv.mapping.join(", ")} }, layout: { separator: tab, header_row: ${conv.origHeader + conv.headerShift} }, conditions: { gate: { file_name: "Vg=(?<value>[-0-9.]+)V", unit: V }, field: { file_name: "B=(?<value>[-0-9.]+)T", unit: T } } }`;
     // Block or flow style, as the case's wafer.md has it.
-    const newMd = /^    files: /m.test(md) ? md.replace(/^    files: .*$/m, rules) : md.replace(/files: "transport\/\*\.csv" \}/, flow);
+    const newMd = /^ {4}files: /m.test(md) ? md.replace(/^ {4}files: .*$/m, rules) : md.replace(/files: "transport\/\*\.csv" \}/, flow);
     expect(newMd).not.toBe(md);
     await fs.writeFile(path.join(wdir, "wafer.md"), newMd);
     const got = await problemsOf(data, c.folder);

@@ -38,7 +38,7 @@ const opts = (numRuns: number, seed: number) => {
 };
 
 /** Every number reachable from `value` is finite; returns the path of the first that is not. */
-export function firstNonFinite(value: unknown, where = "$", seen = new Set<unknown>()): string | undefined {
+function firstNonFinite(value: unknown, where = "$", seen = new Set<unknown>()): string | undefined {
   if (typeof value === "number") return Number.isFinite(value) ? undefined : `${where} = ${value}`;
   if (value === null || typeof value !== "object" || seen.has(value)) return undefined;
   seen.add(value);

@@ -9,7 +9,7 @@ import { promises as fs } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { buildCase, HEALTHY_DIR, ROOT, runCli as cli } from "./corpus.ts";
+import { buildCase, HEALTHY_DIR, runCli as cli } from "./corpus.ts";
 
 
 let tmp: string;

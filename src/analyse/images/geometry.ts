@@ -13,7 +13,7 @@
  * direction from the image centre, positive toward the surface. Interfaces
  * are lines of constant s; the in-plane direction t is n rotated by +90°.
  */
-import type { GrowthAxis, PixelRect } from "../../model/imageInputs.ts";
+import type { GrowthAxis, } from "../../model/imageInputs.ts";
 
 export interface Vec2 {
   x: number;

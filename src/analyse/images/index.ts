@@ -93,7 +93,10 @@ export function analyseMicrograph(m: MicrographInput, stack: Layer[]): ImageResu
     const th = profile.well.top_px - profile.well.bottom_px;
     const margin = Math.max(10, 0.15 * th);
     const r = bandRectangle(width, height, growthAxis, tilt, profile.well.bottom_px - margin - Math.max(th, 20), profile.well.bottom_px - margin, 16);
-    if (r) (reference = r), (referenceSource = `the lower barrier, pixels [${r.join(", ")}]`);
+    if (r) {
+      reference = r;
+      referenceSource = `the lower barrier, pixels [${r.join(", ")}]`;
+    }
   }
   if (!reference) referenceSource = "the whole image (no well band found to place a lower-barrier reference)";
   const gpa = geometricPhase(pixels, width, height, { growthAxis, frameTilt_deg: tilt, reference });

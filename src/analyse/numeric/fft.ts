@@ -21,6 +21,9 @@ const FFTS = new Map<number, FFT>();
  */
 export function fftOfSize(size: number): FFT {
   let f = FFTS.get(size);
-  if (!f) FFTS.set(size, (f = new FFT(size)));
+  if (!f) {
+    f = new FFT(size);
+    FFTS.set(size, f);
+  }
   return f;
 }

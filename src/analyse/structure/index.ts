@@ -10,7 +10,7 @@
  */
 import type { Layer } from "../../validate/wafer.ts";
 import type { AnalysisSettings } from "../../validate/settings.ts";
-import type { XrdFile, DepthProfileFile, StructureInputs } from "../../model/structureInputs.ts";
+import type { DepthProfileFile, StructureInputs } from "../../model/structureInputs.ts";
 import { putMetric } from "../../model/metrics.ts";
 import { analyseDepthProfile, DEPTH_PROFILE_BULK, type DepthProfileResult } from "./depthProfile.ts";
 import { analyseXrd, XRD_BULK, type XrdAnalysis } from "./xrdAnalysis.ts";
@@ -72,7 +72,7 @@ function contaminantPeaks(p: ProfileAnalysis | undefined): Record<string, number
   return out;
 }
 
-function designRows(stack: readonly Layer[], xrd: XrdAnalysis | undefined, prof: ProfileAnalysis | undefined, crit: CriticalThicknessCheck): DesignRow[] {
+function designRows(stack: readonly Layer[], xrd: XrdAnalysis | undefined, prof: ProfileAnalysis | undefined, _crit: CriticalThicknessCheck): DesignRow[] {
   const rows: DesignRow[] = [];
   const buffer = layerOf(stack, "buffer");
   const barrier = layerOf(stack, "barrier");

@@ -170,7 +170,7 @@ export function analyseDeviceDepth(
 function lifetimeReason(points: PointDepth[]): string {
   if (points.length === 0) return "no field sweeps";
   const fitted = points.find((d) => d.oscillation.ok && !d.oscillation.quantumLifetime.ok);
-  if (fitted && fitted.oscillation.ok && !fitted.oscillation.quantumLifetime.ok) return `τ_q not determined at any point (e.g. ${fitted.file}: ${fitted.oscillation.quantumLifetime.reason})`;
+  if (fitted?.oscillation.ok && !fitted.oscillation.quantumLifetime.ok) return `τ_q not determined at any point (e.g. ${fitted.file}: ${fitted.oscillation.quantumLifetime.reason})`;
   const first = points.find((d) => !d.oscillation.ok);
   return first && !first.oscillation.ok ? `τ_q not determined at any point (e.g. ${first.file}: ${first.oscillation.reason})` : "τ_q not determined at any point";
 }

@@ -96,7 +96,7 @@ export function analyseGateSweeps(
 export function devicePercolation(sweeps: GateSweepDepth[]): (PercolationFit & { file: string }) | Skipped {
   const ok = sweeps.filter((s) => s.percolation.ok);
   const pick = ok.find((s) => s.direction === "up") ?? ok[0];
-  if (pick && pick.percolation.ok) return { ...pick.percolation, file: pick.file };
+  if (pick?.percolation.ok) return { ...pick.percolation, file: pick.file };
   if (sweeps.length === 0) return skipped("no gate sweeps for this device");
   return skipped(sweeps.map((s) => `${s.file}: ${(s.percolation as Skipped).reason}`).join("; "));
 }

@@ -62,7 +62,10 @@ const BUFFERS = new Map<number, WorkBuffers>();
 /** Reused work buffers per transform size (allocating 2·m numbers per sweep was a large share of the cost). */
 function buffersOfSize(m: number): WorkBuffers {
   let b = BUFFERS.get(m);
-  if (!b) BUFFERS.set(m, (b = { input: new Float64Array(m), out: new Float64Array(2 * m), used: 0 }));
+  if (!b) {
+    b = { input: new Float64Array(m), out: new Float64Array(2 * m), used: 0 };
+    BUFFERS.set(m, b);
+  }
   return b;
 }
 
@@ -78,7 +81,8 @@ function hannWindow(n: number): { w: Float64Array; sum: number } {
       w[i] = n > 1 ? 0.5 - 0.5 * Math.cos((2 * Math.PI * i) / (n - 1)) : 1;
       sum += w[i];
     }
-    WINDOWS.set(n, (h = { w, sum }));
+    h = { w, sum };
+    WINDOWS.set(n, h);
   }
   return h;
 }

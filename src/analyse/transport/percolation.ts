@@ -77,7 +77,7 @@ export function percolationConductivity(density: number, np: number, prefactor: 
 function derivedMaxDensity(ns: number[], sig: number[], p: number, minPoints: number): number {
   const lo = ns[0];
   const hi = ns[ns.length - 1];
-  const half = ns.map((n, i) => i).filter((i) => ns[i] <= (lo + hi) / 2);
+  const half = ns.map((_n, i) => i).filter((i) => ns[i] <= (lo + hi) / 2);
   let nMax = (lo + hi) / 2;
   if (half.length >= 3 && new Set(half.map((i) => ns[i])).size >= 2) {
     const f = linearFit(
@@ -166,7 +166,7 @@ function fitWindow(
   // Stage 2, in the reported parameters y = a·(n − n_p)^p, started at the stage-1
   // optimum, so the Jacobian standard errors refer to A itself.
   const model = ([np, a, p]: number[]) => (n: number) => (n > np ? a * (n - np) ** p : 0);
-  let fit;
+  let fit: ReturnType<typeof nonlinearFit>;
   try {
     const first = nonlinearFit(scaled, ns, y, {
       initial: [np0, b0, p0],

@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { geometricPhase, gpaFrameTilt, type GpaMaps } from "../../../src/analyse/images/geometricPhase.ts";
 import { growthCoordinate } from "../../../src/analyse/images/geometry.ts";
 import { syntheticMicrograph, type SyntheticMicrographSpec } from "../../../src/synth/micrograph.ts";
-import { PX, testMicrograph } from "../../helpers/micrograph.ts";
+import { testMicrograph } from "../../helpers/micrograph.ts";
 
 // Expected out-of-plane strain of a coherent Si well against a relaxed Si0.7Ge0.3
 // reference: derived from Dismukes' law a(x) = 0.5431 + 0.01992x + 0.002733x² nm

@@ -167,6 +167,7 @@ describe("rsmPeaks on scattered points", () => {
   it("a jittered (non-grid) 224 + 004 pair still gives x within 0.005 and R within 0.02 ([D] from the synthetic truth)", () => {
     const jitter = (pts: { omega: number; twoTheta: number; counts: number }[], seed: number) => {
       let s = seed;
+      // biome-ignore lint/suspicious/noAssignInExpressions: a seeded linear congruential generator, written in its usual form
       const u = () => ((s = (s * 1103515245 + 12345) % 2147483648) / 2147483648) - 0.5;
       return pts.map((p) => ({ ...p, omega: p.omega + degToRad(0.008) * u(), twoTheta: p.twoTheta + degToRad(0.008) * u() }));
     };

@@ -28,7 +28,7 @@ describe("demo quantum lifetimes", () => {
       const folder = path.join(dataDir, "wafers", w.id, "transport", "HB1");
       for (const name of (await fs.readdir(folder)).filter((n) => n.startsWith("vg_")).sort()) {
         const file = `wafers/${w.id}/transport/HB1/${name}`;
-        let sweep;
+        let sweep: ReturnType<typeof validateSweep>;
         try {
           sweep = validateSweep(readTable(await fs.readFile(path.join(dataDir, file), "utf8"), file), "hall-bar");
         } catch {

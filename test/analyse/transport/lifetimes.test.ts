@@ -6,7 +6,6 @@ import { lkSweep, type LkParams } from "../../helpers/lifshitzKosevich.ts";
 import { derivedQuantities, fermiEnergy, fermiWavevector } from "../../../src/analyse/transport/derivedQuantities.ts";
 import { ELEMENTARY_CHARGE } from "../../../src/physics/constants.ts";
 
-const rel = (a: number, b: number) => Math.abs(a / b - 1);
 
 describe("Lifshitz–Kosevich thermal factor", () => {
   it("X = 2.79170 and X/sinh X = 0.343648 at m* = 0.19, T = 1 K, B = 1 T (REFERENCES §7, derived, CODATA 2018)", () => {
