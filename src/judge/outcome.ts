@@ -42,6 +42,7 @@ export function metricValues(analysis: WaferAnalysis): Record<string, MetricValu
   for (const section of [analysis.structure, analysis.images]) {
     for (const [k, v] of Object.entries(section?.metrics ?? {})) (values[k] ??= { perDevice: {} }).wafer = v;
   }
+  for (const [k, why] of Object.entries(analysis.structure?.notJudged ?? {})) if (values[k]) values[k].notJudged = why;
   for (const [k, v] of Object.entries(uniformityMetrics(analysis.devices))) (values[k] ??= { perDevice: {} }).wafer = v;
   return values;
 }
