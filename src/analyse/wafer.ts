@@ -96,7 +96,7 @@ export function analyseWafer(inputs: WaferInputs, settings: AnalysisSettings): W
   const devices = inputs.devices.map((d) => analyseDevice(d, settings));
   return {
     devices,
-    structure: analyseStructure(inputs.structure, inputs.stack, settings, { electronDensity: waferDensity(devices) }),
+    structure: analyseStructure(inputs.structure, inputs.stack, settings, { electronDensity: waferDensity(devices), parallelConduction: devices.some((d) => (d.depth?.parallelConduction.length ?? 0) > 0) }),
     images: analyseImages(inputs.images, inputs.stack, settings),
   };
 }

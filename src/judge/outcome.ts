@@ -48,6 +48,7 @@ export function metricValues(analysis: WaferAnalysis): Record<string, MetricValu
   for (const section of [analysis.structure, analysis.images]) {
     for (const [k, v] of Object.entries(section?.metrics ?? {})) slot(values, k).wafer = v;
   }
+  for (const [k, why] of Object.entries(analysis.structure?.notJudged ?? {})) if (values[k]) values[k].notJudged = why;
   for (const [k, v] of Object.entries(uniformityMetrics(analysis.devices))) slot(values, k).wafer = v;
   return values;
 }

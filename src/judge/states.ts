@@ -6,7 +6,10 @@
  * A metric or finding check is *judged* when its grade sets a limit or a
  * consequence for it: pass, marginal, fail, waived, incomplete. The other
  * states say why it was not judged:
- *   recorded   — measured, but the grade sets no limit for it;
+ *   recorded   — measured, but the grade sets no limit for it, or the analysis
+ *                found that a premise of the figure does not hold (the reason
+ *                says which: e.g. a valley prediction from a profile that
+ *                departs from its model);
  *   unmeasured — no value (not measured, or the analysis could not compute it)
  *                and the grade does not require one;
  *   noted      — an open finding whose consequence for this grade is a note.
@@ -32,7 +35,7 @@ export interface VerdictState {
 
 export const VERDICT_STATES: readonly VerdictState[] = [
   { key: "unmeasured", word: "unmeasured", meaning: "no value: not measured, or the analysis could not compute it; the grade does not require it", rank: 0, judged: false },
-  { key: "recorded", word: "recorded", meaning: "measured, but the grade sets no limit for it", rank: 0, judged: false },
+  { key: "recorded", word: "recorded", meaning: "measured, but not judged: the grade sets no limit for it, or a premise of the analysis does not hold (the reason says which)", rank: 0, judged: false },
   { key: "unjudged", word: "unjudged", meaning: "wafer: nothing its grade sets a limit for could be judged", rank: 0, judged: false },
   { key: "noted", word: "noted", meaning: "an open finding that the grade (or a waiver) lets stand as a note", rank: 0, judged: false },
   { key: "pass", word: "pass", meaning: "within every limit", rank: 1, judged: true },

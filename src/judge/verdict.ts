@@ -35,6 +35,8 @@ export interface MetricValues {
   perDevice: Record<string, number>;
   /** A wafer-level value (structure figures measured once per wafer). */
   wafer?: number;
+  /** Set when the analysis found a premise of this metric does not hold: shown, not judged, with this reason. */
+  notJudged?: string;
 }
 
 export interface MetricJudgement {
@@ -100,6 +102,11 @@ function judgeMetric(key: string, values: MetricValues | undefined, t: Target | 
   if (!t) {
     j.reason = value === undefined ? "no value and no target" : "no target for this grade";
     return finishWaiver(j, waiver);
+  }
+  if (value !== undefined && values?.notJudged) {
+    // Measured, but the analysis says its premises fail: shown as recorded with the reason, never judged.
+    j.reason = `not judged: ${values.notJudged}`;
+    return j;
   }
   if (value === undefined) {
     j.verdict = t.required ? "incomplete" : "unmeasured";

@@ -7,6 +7,8 @@
  *   ge_fraction, buffer_relaxation        X-ray peak positions propagated (bufferRelaxation.ts)
  *   well_strain                           well-peak or buffer a∥ error propagated (wellStrain.ts)
  *   well_thickness, interface_width_*     depth-profile sigmoid fits; image widths from the Z-contrast fit
+ *   interface_inplane_mismatch, interface_outofplane_strain  GPA noise propagated (wellCoherence.ts)
+ *   valley_splitting_*                    the profile fit's errors propagated (valleyUncertainty.ts)
  * Metrics without a fit error (peak values, medians, mismatches, CVs, the critical thickness) have none.
  *
  * A device metric judged as the mean of n devices gets SE = √(Σ SEᵢ²)/n (first-order propagation
@@ -67,6 +69,24 @@ function waferStdErr(o: WaferOutcome, key: string): number | undefined {
       return imgProfile(key)?.top.width10to90StdErr_m;
     case "interface_width_bottom_image":
       return imgProfile(key)?.bottom.width10to90StdErr_m;
+    case "interface_inplane_mismatch":
+    case "interface_outofplane_strain": {
+      const i = img?.metricSource[key];
+      const c = i === undefined ? undefined : img!.images[i]?.coherence;
+      if (!c?.ok) return undefined;
+      return (key === "interface_inplane_mismatch" ? c.inPlaneMismatch_pct : c.outOfPlaneStrain_pct).uncertainty / 100;
+    }
+  }
+  const v = s?.valley?.result.ok ? s.valley.result : undefined;
+  if (v) {
+    const byKey: Record<string, number> = {
+      valley_splitting_mean: v.stdErr.mean,
+      valley_splitting_p10: v.stdErr.p10,
+      valley_splitting_deterministic: v.stdErr.deterministicSplitting,
+      valley_splitting_disorder: v.stdErr.sigma,
+      valley_splitting_yield: v.stdErr.yieldFraction,
+    };
+    if (key in byKey) return byKey[key];
   }
   return undefined;
 }

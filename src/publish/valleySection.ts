@@ -30,6 +30,8 @@ const J_PER_UEV = 1.602176634e-25;
 const J_PER_MEV = 1.602176634e-22;
 const J_PER_EV = 1.602176634e-19;
 const ueV = (j: number, digits = 3) => `${formatNumber(j / J_PER_UEV, digits)} µeV`;
+/** "v ± u µeV" with u the standard uncertainty from the profile fit (valleyUncertainty.ts), or the value alone when u is 0 or not finite. */
+const ueVpm = (j: number, u: number) => (Number.isFinite(u) && u > 0 ? `${formatNumber(j / J_PER_UEV, 3)} ± ${formatNumber(u / J_PER_UEV, 2)} µeV` : ueV(j));
 
 export function valleySection(s: StructureAnalysis, measured?: { depth: readonly number[]; ge: readonly number[] }): ValleySectionModel | undefined {
   const v = s.valley;
@@ -76,18 +78,19 @@ export function valleySection(s: StructureAnalysis, measured?: { depth: readonly
     file: v.file,
     charts: [profileChart, distChart],
     figures: [
-      { label: "Mean E_v", value: ueV(r.mean) },
-      { label: "10th percentile of E_v", value: ueV(r.p10) },
-      { label: "Deterministic part 2|Δ0| (interface shape)", value: ueV(r.deterministicSplitting) },
-      { label: "Disorder σ (each component of δ)", value: ueV(r.sigma) },
+      { label: "Mean E_v", value: ueVpm(r.mean, r.stdErr.mean) },
+      { label: "10th percentile of E_v", value: ueVpm(r.p10, r.stdErr.p10) },
+      { label: "Deterministic part 2|Δ0| (interface shape)", value: ueVpm(r.deterministicSplitting, r.stdErr.deterministicSplitting) },
+      { label: "Disorder σ (each component of δ)", value: ueVpm(r.sigma, r.stdErr.sigma) },
       // σ is on the scale of one component of Δ; the E_v that disorder alone would give is on the scale of 2|Δ0| above.
       { label: "Disorder alone: mean E_v = √(2π)·σ", value: ueV(Math.sqrt(2 * Math.PI) * r.sigma) },
-      { label: `Yield: dots with E_v ≥ ${formatNumber(threshold, 3)} µeV`, value: `${formatNumber(r.yieldFraction * 100, 3)} %` },
+      { label: `Yield: dots with E_v ≥ ${formatNumber(threshold, 3)} µeV`, value: Number.isFinite(r.stdErr.yieldFraction) && r.stdErr.yieldFraction > 0 ? `${formatNumber(r.yieldFraction * 100, 3)} ± ${formatNumber(r.stdErr.yieldFraction * 100, 2)} %` : `${formatNumber(r.yieldFraction * 100, 3)} %` },
     ],
     settings: [
       { label: "Vertical field F", value: `${formatNumber(r.field / 1e6, 3)} MV/m (${fieldFrom})` },
       { label: "Dot orbital energy E_orb (dot radius a_dot)", value: `${formatNumber(r.settings.orbitalEnergy / J_PER_MEV, 3)} meV (${formatNumber(r.dotRadius, 4)} nm)` },
       { label: "Band offset per unit Ge b", value: `${formatNumber(r.settings.bandOffset / J_PER_EV, 3)} eV (${formatNumber((r.settings.bandOffset * r.xTop) / J_PER_MEV, 3)} meV at the top barrier)` },
+      { label: "Uncertainties (±)", value: "one standard uncertainty from the profile fit's errors on the interface centres and widths only (the model's constants, the field and the caution's choices are not in it)" },
       { label: "Threshold of the yield", value: `${formatNumber(threshold, 3)} µeV` },
       { label: "Ge fraction: top barrier, well, bottom barrier", value: `${formatNumber(r.xTop, 3)}, ${formatNumber(r.xWell, 2)}, ${formatNumber(r.xBottom, 3)}` },
       { label: "Grid", value: `${formatNumber(VALLEY_GRID_NM, 2)} nm steps, hard walls 10 nm beyond the interface centres; layers every a0/4 = 0.135775 nm` },

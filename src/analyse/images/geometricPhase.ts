@@ -22,13 +22,16 @@
  * shear in the interface frame of geometry.ts (growth axis tilted by
  * frameTilt_deg). Strains are fractions (0.01 = 1 %), relative to the
  * reference region. Maps cover the input image; the image is padded with its
- * mean to a power-of-two size for the transforms. Returns { ok: false,
+ * mean to a power-of-two size for the transforms. For the uncertainty of
+ * region means, the maps carry the pixel-noise level (imageNoise.ts) and a
+ * per-spot phase-noise field (strainMeanUncertainty.ts). Returns { ok: false,
  * reason } when two usable spots cannot be found or the input is not usable.
  */
 import { fft2dInPlace, fft2dReal, padToPowerOfTwo, type ComplexImage } from "./fft2d.ts";
 import { growthNormal, inPlaneDirection, type Vec2 } from "./geometry.ts";
 import type { GrowthAxis, PixelRect } from "../../model/imageInputs.ts";
 import { findBraggPeaks } from "./latticeSpacing.ts";
+import { whiteNoiseVariance } from "./imageNoise.ts";
 import { degToRad, radToDeg } from "../numeric/angle.ts";
 
 export interface GpaOptions {
@@ -69,6 +72,13 @@ export interface GpaMaps {
   shear: Float32Array;
   /** min over the two spots of |H_g| / mean |H_g| in the reference: low values mark unreliable pixels. */
   amplitude: Float32Array;
+  /** Standard deviation of the white pixel noise, from the periodogram (imageNoise.ts), image units. */
+  pixelNoise: number;
+  /**
+   * Per spot, q = (σ_H/√2)·H/|H|² (real and imaginary maps): the phase noise has
+   * Cov(δP(r), δP(r')) = ρ(r − r')·Re(q̄(r)·q(r')) (strainMeanUncertainty.ts).
+   */
+  phaseNoise: { re: Float32Array; im: Float32Array }[];
 }
 
 export type GpaResult = GpaMaps | { ok: false; reason: string };
@@ -102,8 +112,8 @@ export function gpaFrameTilt(g1: Vec2, g2: Vec2, axis: GrowthAxis): number {
   return Math.abs(deg) <= 10 ? deg : 0;
 }
 
-/** Demodulated complex field H_g for the spot nearest bin g (Gaussian mask σ, cycles/pixel). */
-function braggField(spectrum: ComplexImage, g: Vec2, sigma: number): { field: ComplexImage; carrier: Vec2 } {
+/** Demodulated complex field H_g for the spot nearest bin g (Gaussian mask σ, cycles/pixel), and Σ m² of the mask. */
+function braggField(spectrum: ComplexImage, g: Vec2, sigma: number): { field: ComplexImage; carrier: Vec2; maskPower: number } {
   const { width: w, height: h } = spectrum;
   const kx0 = Math.round(g.x * w);
   const ky0 = Math.round(g.y * h);
@@ -113,18 +123,37 @@ function braggField(spectrum: ComplexImage, g: Vec2, sigma: number): { field: Co
   const sy = sigma * h;
   const rx = Math.min(Math.floor(w / 2) - 1, Math.ceil(4 * sx));
   const ry = Math.min(Math.floor(h / 2) - 1, Math.ceil(4 * sy));
+  let maskPower = 0;
   for (let dy = -ry; dy <= ry; dy++) {
     const src = (((ky0 + dy) % h) + h) % h;
     const dst = ((dy % h) + h) % h;
     for (let dx = -rx; dx <= rx; dx++) {
       const m = Math.exp(-0.5 * ((dx / sx) ** 2 + (dy / sy) ** 2));
+      maskPower += m * m;
       const s = src * w + ((((kx0 + dx) % w) + w) % w);
       const d = dst * w + (((dx % w) + w) % w);
       re[d] = spectrum.re[s] * m;
       im[d] = spectrum.im[s] * m;
     }
   }
-  return { field: fft2dInPlace({ width: w, height: h, re, im }, true), carrier: { x: kx0 / w, y: ky0 / h } };
+  return { field: fft2dInPlace({ width: w, height: h, re, im }, true), carrier: { x: kx0 / w, y: ky0 / h }, maskPower };
+}
+
+/** q = (σ_H/√2)·H/|H|² over the first width×height pixels, σ_H² = σ²·Σm²/N_pad (strainMeanUncertainty.ts). */
+function phaseNoiseField(f: ComplexImage, maskPower: number, variance: number, width: number, height: number) {
+  const scale = Math.sqrt((variance * maskPower) / (f.width * f.height) / 2);
+  const re = new Float32Array(width * height);
+  const im = new Float32Array(width * height);
+  for (let y = 0; y < height; y++) {
+    for (let x = 0; x < width; x++) {
+      const i = y * f.width + x;
+      const a2 = f.re[i] ** 2 + f.im[i] ** 2;
+      if (!(a2 > 0)) continue;
+      re[y * width + x] = (scale * f.re[i]) / a2;
+      im[y * width + x] = (scale * f.im[i]) / a2;
+    }
+  }
+  return { re, im };
 }
 
 /** Local g maps (cycles/pixel) and amplitude over the first width×height pixels of the padded field. */
@@ -182,8 +211,11 @@ export function geometricPhase(
     return { ok: false, reason: `reference region [${reference.join(", ")}] is empty or outside the ${width}×${height} image` };
   }
   const spectrum = fft2dReal(padded.pixels, padded.width, padded.height);
+  const noiseVariance = whiteNoiseVariance(spectrum, width * height);
+  const phaseNoise: { re: Float32Array; im: Float32Array }[] = [];
   const fields = spots.map((g) => {
-    const { field, carrier } = braggField(spectrum, g, sigma);
+    const { field, carrier, maskPower } = braggField(spectrum, g, sigma);
+    phaseNoise.push(phaseNoiseField(field, maskPower, noiseVariance, width, height));
     return localG(field, carrier, width, height);
   });
   const ref = fields.map((f) => ({ x: regionMean(f.gx, width, reference), y: regionMean(f.gy, width, reference), a: regionMean(f.amp, width, reference) }));
@@ -204,6 +236,8 @@ export function geometricPhase(
     growthAxis: axis,
     frameTilt_deg,
     ...maps,
+    pixelNoise: Math.sqrt(noiseVariance),
+    phaseNoise,
   };
 }
 

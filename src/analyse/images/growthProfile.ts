@@ -7,6 +7,12 @@
  * along the interface direction). The atomic-plane modulation is then removed
  * by a moving average over one lattice period, applied twice. Units: s in
  * pixels, intensity in the image's units.
+ *
+ * Noise: for independent pixel noise of variance σ², bin k's mean has variance
+ * σ²·Σw²/(Σw)² and neighbouring bins, which share pixels through the linear
+ * weights, covariance σ²·Σw_k·w_{k+1}/(Σw_k·Σw_{k+1}) (derived); projectProfile
+ * returns both per unit σ², and smoothingMatrix the linear operator of
+ * smoothOverPeriod, so a fit to the smoothed profile can carry the correlation.
  */
 import { growthHalfExtent, growthNormal } from "./geometry.ts";
 import type { GrowthAxis } from "../../model/imageInputs.ts";
@@ -19,6 +25,8 @@ export function projectProfile(pixels: ArrayLike<number>, width: number, height:
   const bins = 2 * Math.ceil(half) + 2;
   const sum = new Float64Array(bins);
   const wt = new Float64Array(bins);
+  const sq = new Float64Array(bins);
+  const cross = new Float64Array(bins);
   const cx = (width - 1) / 2;
   const cy = (height - 1) / 2;
   for (let y = 0; y < height; y++) {
@@ -31,19 +39,38 @@ export function projectProfile(pixels: ArrayLike<number>, width: number, height:
       wt[k] += 1 - f;
       sum[k + 1] += f * v;
       wt[k + 1] += f;
+      sq[k] += (1 - f) ** 2;
+      sq[k + 1] += f * f;
+      cross[k] += (1 - f) * f;
     }
   }
   let maxW = 0;
   for (const w of wt) maxW = Math.max(maxW, w);
   const s: number[] = [];
   const value: number[] = [];
+  /** Variance of each bin and covariance with the next kept bin, per unit pixel variance. */
+  const variance: number[] = [];
+  const covarianceNext: number[] = [];
   for (let k = 0; k < bins; k++) {
     if (wt[k] >= 0.5 * maxW) {
       s.push(s0 + k);
       value.push(sum[k] / wt[k]);
+      variance.push(sq[k] / wt[k] ** 2);
+      covarianceNext.push(k + 1 < bins && wt[k + 1] >= 0.5 * maxW ? cross[k] / (wt[k] * wt[k + 1]) : 0);
     }
   }
-  return { s, value };
+  return { s, value, variance, covarianceNext };
+}
+
+/** The matrix S (n × n) with smoothOverPeriod(v) = S·v for any v of length n (its columns are the responses to unit vectors). */
+export function smoothingMatrix(n: number, period: number | null): number[][] {
+  const S = Array.from({ length: n }, () => new Array<number>(n).fill(0));
+  for (let j = 0; j < n; j++) {
+    const e = new Array<number>(n).fill(0);
+    e[j] = 1;
+    smoothOverPeriod(e, period).forEach((w, i) => (S[i][j] = w));
+  }
+  return S;
 }
 
 /**

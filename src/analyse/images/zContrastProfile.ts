@@ -15,16 +15,27 @@
  * averages add 2·p²/12 to the edge's variance (π²τ²/3 for a logistic); this
  * is removed: τ² ← τ_fit² − p²/(2π²).
  *
+ * Uncertainty: pixel noise is taken as independent with one variance σ²; the
+ * projected, twice-smoothed profile then has correlated points with a known
+ * covariance σ²·S·V·Sᵀ (growthProfile.ts), and the standard error of τ_fit is the
+ * least-squares sandwich covariance under that correlation, with σ² estimated
+ * from the residuals over tr((I − H)·S·V·Sᵀ) (correlatedNoiseCovariance.ts). It
+ * is propagated to the deconvolved τ and the 10–90 % width at first order (GUM,
+ * JCGM 100:2008 §5.1). Not included: the scatter of the tilt and the period
+ * estimates, and noise correlated between pixels (scan noise), which would
+ * need its own covariance.
+ *
  * Units: s and z in the growth coordinate of geometry.ts (from the image
  * centre, + toward the surface); widths and positions in metres, tilt in
  * degrees. Returns { ok: false, reason } when there is no clear well or a fit
  * fails.
  */
-import { fitSigmoidEdge, LN9, sigmoidAt } from "../numeric/sigmoidFit.ts";
+import { fitSigmoidEdge, LN9, sigmoidAt, sigmoidJacobian } from "../numeric/sigmoidFit.ts";
+import { correlatedNoiseCovariance } from "../numeric/correlatedNoiseCovariance.ts";
 import { cropToPowerOfTwo } from "./fft2d.ts";
 import { growthNormal } from "./geometry.ts";
 import type { GrowthAxis } from "../../model/imageInputs.ts";
-import { projectProfile, smoothOverPeriod } from "./growthProfile.ts";
+import { projectProfile, smoothingMatrix, smoothOverPeriod } from "./growthProfile.ts";
 import { interfaceTilt } from "./interfaceTilt.ts";
 import { latticeSpacing } from "./latticeSpacing.ts";
 import { degToRad } from "../numeric/angle.ts";
@@ -103,7 +114,29 @@ function darkBand(p: number[]): { iB: number; iT: number } | { reason: string } 
   return { iB, iT };
 }
 
-function fitEdge(s: number[], p: number[], from: number, to: number, options: ZContrastOptions, period: number | null): InterfaceEdgeFit | string {
+/** Noise model of the smoothed profile: its covariance per unit pixel variance is S·V_raw·Sᵀ (growthProfile.ts). */
+interface ProfileNoise {
+  /** Rows of S·V_raw (full profile indices). */
+  sv: number[][];
+  /** Smoothing matrix S (full profile indices). */
+  smooth: number[][];
+  /** Index in the full profile of the first trimmed point. */
+  offset: number;
+}
+
+/** Noise covariance (per unit pixel variance) of the smoothed points from..to (trimmed indices). */
+function windowCovariance(noise: ProfileNoise, from: number, to: number): number[][] {
+  const rows = Array.from({ length: to - from + 1 }, (_, i) => i + from + noise.offset);
+  return rows.map((a) => rows.map((b) => {
+    const x = noise.sv[a];
+    const y = noise.smooth[b];
+    let c = 0;
+    for (let m = 0; m < x.length; m++) c += x[m] * y[m];
+    return c;
+  }));
+}
+
+function fitEdge(s: number[], p: number[], from: number, to: number, options: ZContrastOptions, period: number | null, noise: ProfileNoise): InterfaceEdgeFit | string {
   const z = s.slice(from, to + 1);
   const v = p.slice(from, to + 1);
   if (z.length < 8) return "too few profile points around an interface";
@@ -115,17 +148,30 @@ function fitEdge(s: number[], p: number[], from: number, to: number, options: ZC
   }
   const inside = fit.centre > z[0] && fit.centre < z[z.length - 1];
   if (!inside || !Number.isFinite(fit.tau) || !Number.isFinite(fit.width10to90StdErr)) return "interface fit did not converge inside its window";
+  // Standard error of τ_fit: the smoothed points are correlated (two moving averages over a
+  // period, neighbouring bins sharing pixels), so the pooled s²(JᵀJ)⁻¹ of the fit is replaced by
+  // the sandwich covariance with that correlation and its residual scale (correlatedNoiseCovariance.ts).
+  const free = options.backgroundSlope ? [0, 1, 2, 3, 4] : [0, 1, 2, 3];
+  let tauFitStdErr: number;
+  try {
+    const rows = z.map((zz) => { const d = sigmoidJacobian(fit, zz); return free.map((k) => d[k]); });
+    const c = correlatedNoiseCovariance(rows, windowCovariance(noise, from, to), v.map((vv, i) => vv - sigmoidAt(fit, z[i])));
+    tauFitStdErr = Math.sqrt(Math.max(0, c.covariance[3][3]));
+  } catch {
+    return "interface fit is degenerate (singular normal matrix)";
+  }
   const px = options.pixelSize_m;
   const boxVar = period ? period ** 2 / (2 * Math.PI ** 2) : 0;
-  const tau = Math.sqrt(Math.max(fit.tau ** 2 - boxVar, (0.25 * fit.tau) ** 2));
-  const ratio = tau / fit.tau;
-  // Smoothed profile points are correlated over ~2p/3 samples: widen the fit's error accordingly.
-  const correlation = period ? Math.sqrt(1.5 * period) : 1;
+  const floor = fit.tau ** 2 - boxVar < (0.25 * fit.tau) ** 2;
+  const tau = floor ? 0.25 * fit.tau : Math.sqrt(fit.tau ** 2 - boxVar);
+  // First-order propagation (GUM, JCGM 100:2008, eq. 10) through τ = √(τ_fit² − p²/(2π²)):
+  // dτ/dτ_fit = τ_fit/τ (≥ 1: removing the smoothing enlarges the relative error); on the floor τ = τ_fit/4.
+  const dTau = floor ? 0.25 : fit.tau / tau;
   return {
     centre_px: fit.centre,
     centre_m: fit.centre * px,
     width10to90_m: 2 * LN9 * tau * px,
-    width10to90StdErr_m: fit.width10to90StdErr * ratio * correlation * px,
+    width10to90StdErr_m: 2 * LN9 * dTau * tauFitStdErr * px,
     tau_m: tau * px,
     r2: fit.r2,
     curve: {
@@ -153,6 +199,9 @@ export function zContrastProfile(pixels: ArrayLike<number>, width: number, heigh
   const full = projectProfile(pixels, width, height, axis, degToRad(tilt));
   // Drop the end bins, where the moving average runs out of samples.
   const trim = period ? Math.ceil(period) + 2 : 1;
+  const smooth = smoothingMatrix(full.value.length, period);
+  const sv = smooth.map((row) => row.map((_, m) => (row[m - 1] ?? 0) * (full.covarianceNext[m - 1] ?? 0) + row[m] * full.variance[m] + (row[m + 1] ?? 0) * full.covarianceNext[m]));
+  const noise: ProfileNoise = { sv, smooth, offset: trim };
   const smoothed = smoothOverPeriod(full.value, period).slice(trim, -trim);
   const prof = { s: full.s.slice(trim, -trim), value: full.value.slice(trim, -trim) };
   if (smoothed.length < 16) return { ok: false, reason: "profile is too short after smoothing" };
@@ -161,8 +210,8 @@ export function zContrastProfile(pixels: ArrayLike<number>, width: number, heigh
   const { iB, iT } = band;
   const mid = Math.round((iB + iT) / 2);
   const reach = iT - iB;
-  const bottom = fitEdge(prof.s, smoothed, Math.max(0, iB - reach), mid, options, period);
-  const top = fitEdge(prof.s, smoothed, mid, Math.min(smoothed.length - 1, iT + reach), options, period);
+  const bottom = fitEdge(prof.s, smoothed, Math.max(0, iB - reach), mid, options, period, noise);
+  const top = fitEdge(prof.s, smoothed, mid, Math.min(smoothed.length - 1, iT + reach), options, period, noise);
   if (typeof bottom === "string") return { ok: false, reason: `lower interface: ${bottom}` };
   if (typeof top === "string") return { ok: false, reason: `upper interface: ${top}` };
   const px = options.pixelSize_m;

@@ -120,3 +120,14 @@ function widthGuess(z: number[], v: number[], lo: number, hi: number): number {
 export function sigmoidAt(edge: Pick<SigmoidEdge, "base" | "step" | "centre" | "tau" | "slope" | "zReference">, z: number): number {
   return edge.base + edge.step / (1 + Math.exp(-(z - edge.centre) / edge.tau)) + edge.slope * (z - edge.zReference);
 }
+
+/**
+ * Partial derivatives of the model at z with respect to (base, step, centre, τ, slope), analytic:
+ * with σ = 1/(1 + e^(−(z − centre)/τ)), ∂/∂base = 1, ∂/∂step = σ, ∂/∂centre = −step·σ(1 − σ)/τ,
+ * ∂/∂τ = −step·σ(1 − σ)·(z − centre)/τ², ∂/∂slope = z − zReference (derived).
+ */
+export function sigmoidJacobian(edge: Pick<SigmoidEdge, "step" | "centre" | "tau" | "zReference">, z: number): number[] {
+  const sg = 1 / (1 + Math.exp(-(z - edge.centre) / edge.tau));
+  const d = edge.step * sg * (1 - sg);
+  return [1, sg, -d / edge.tau, (-d * (z - edge.centre)) / edge.tau ** 2, z - edge.zReference];
+}

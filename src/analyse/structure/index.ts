@@ -52,12 +52,36 @@ export interface StructureAnalysis {
   contaminantPeaks: Record<string, number>;
   /** Valley splitting predicted from the analysed profile (absent when no profile was analysed). */
   valley?: { file: string; result: ValleySplitting };
+  /** Metrics shown but not to be judged, with the reason (a premise of their analysis does not hold); see valleyPremises. */
+  notJudged: Record<string, string>;
 }
 
 /** What the structure analysis takes from other sections of the wafer. */
 export interface StructureContext {
   /** The wafer's electron density at peak mobility (mean over its devices), m⁻²; sets the field of the valley prediction. */
   electronDensity?: number;
+  /** True when a device of the wafer flags probable parallel conduction (Hall vs SdH density). */
+  parallelConduction?: boolean;
+}
+
+export const VALLEY_METRICS = ["valley_splitting_mean", "valley_splitting_p10", "valley_splitting_deterministic", "valley_splitting_disorder", "valley_splitting_yield"] as const;
+
+/**
+ * Why the valley figures must not be judged, or null: the measured profile departs from the
+ * two-interface model the prediction is made from (a spike or a graded well the prediction leaves
+ * out), or the field comes from a Hall density that parallel conduction makes no longer the well's.
+ */
+export function valleyPremises(v: ValleySplitting, context: StructureContext): string | null {
+  if (!v.ok) return null;
+  const reasons: string[] = [];
+  if (v.departure.ranges.length) {
+    const where = v.departure.ranges.map(([a, b]) => `${a.toFixed(1)}–${b.toFixed(1)} nm`).join(", ");
+    reasons.push(`the measured Ge profile departs from the two-interface model the prediction is made from (at ${where})`);
+  }
+  if (context.parallelConduction && v.fieldSource === "density") {
+    reasons.push("the field comes from the Hall density, and parallel conduction is flagged, so that density is not the well's");
+  }
+  return reasons.length ? reasons.join("; ") : null;
 }
 
 const layerOf = (stack: readonly Layer[], role: Layer["role"]) => stack.find((l) => l.role === role);
@@ -138,9 +162,12 @@ export function analyseStructure(inputs: StructureInputs, stack: Layer[], settin
     put("valley_splitting_disorder", v.sigma);
     put("valley_splitting_yield", v.yieldFraction);
   }
+  const notJudged: Record<string, string> = {};
+  const premise = valley ? valleyPremises(valley.result, context) : null;
+  if (premise) for (const key of VALLEY_METRICS) if (key in metrics) notJudged[key] = premise;
   const found = findings(xrd, profiles, crit);
   if (valley && !valley.result.ok) found.push({ severity: "note", text: `Valley splitting not predicted: ${valley.result.reason}` });
-  return { metrics, xrd, profiles, critical: crit, design: designRows(stack, xrd, prof, crit), findings: found, contaminantPeaks: peaks, valley };
+  return { metrics, xrd, profiles, critical: crit, design: designRows(stack, xrd, prof, crit), findings: found, contaminantPeaks: peaks, valley, notJudged };
 }
 
 /** The structure section's bulk arrays (src/analyse/bulk.ts): profile columns, interface curves, XRD map points. */

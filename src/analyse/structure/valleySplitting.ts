@@ -19,6 +19,8 @@
  *     Mean (Laguerre L_{1/2}), 10th percentile (root of the CDF) and the yield
  *     P(E_v ≥ threshold) = Q1(ν/σ, threshold/(2σ)) (Marcum Q), all exact, no
  *     Monte Carlo.
+ *  6. standard uncertainties of the five figures from the profile fit's
+ *     errors (valleyUncertainty.ts).
  * The field F is `valley_field` when set, else e·n/(ε0·11.7) with n the wafer's
  * density at peak mobility (mean over its devices) when it has transport
  * data, else 5 MV/m.
@@ -45,6 +47,7 @@ import { marcumQ1, ricianMean, ricianPdf, ricianQuantile } from "../numeric/rici
 import type { InterfaceFit } from "./depthProfile.ts";
 import { valleyCoupling } from "./valleyCoupling.ts";
 import { valleyEnvelope } from "./valleyEnvelope.ts";
+import { valleyUncertainty } from "./valleyUncertainty.ts";
 import { layerProfile, profileDeparture, type ProfileDeparture } from "./valleyProfile.ts";
 
 export interface ValleySettings {
@@ -104,10 +107,21 @@ export type ValleySplitting =
       yieldFraction: number;
       /** Density of E_v for plotting: energy J, probability density per J. */
       distribution: { energy: number[]; density: number[] };
+      /** Standard uncertainties of the five figures from the profile fit's errors (valleyUncertainty.ts), same units; NaN where a shifted input gave no prediction. */
+      stdErr: ValleyFigures;
     }
   | { ok: false; reason: string };
 
 const DISTRIBUTION_POINTS = 121;
+
+/** The five figures of a prediction (J, J, J, J, fraction). */
+export interface ValleyFigures {
+  mean: number;
+  p10: number;
+  deterministicSplitting: number;
+  sigma: number;
+  yieldFraction: number;
+}
 
 function fieldFor(settings: ValleySettings, density: number | undefined) {
   if (settings.field !== null) return { field: settings.field, fieldSource: "setting" as const };
@@ -117,16 +131,41 @@ function fieldFor(settings: ValleySettings, density: number | undefined) {
   return { field: DEFAULT_VALLEY_FIELD, fieldSource: "default" as const };
 }
 
-/** Predicts the valley-splitting distribution (see module comment). Never throws for data. */
-export function predictValleySplitting(input: ValleyInput, settings: ValleySettings): ValleySplitting {
+/** The layer model, envelope and couplings of one prediction, or the reason there is none. */
+function couplings(input: ValleyInput, settings: ValleySettings) {
   const latticeNm = VALLEY_LATTICE_CONSTANT * 1e9;
   const profile = layerProfile(input.depth, input.ge, input.top, input.bottom, latticeNm);
-  if (!profile) return { ok: false, reason: "no measured point in the middle half of the well, so its Ge fraction x_w is unknown" };
+  if (!profile) return { ok: false as const, reason: "no measured point in the middle half of the well, so its Ge fraction x_w is unknown" };
   const f = fieldFor(settings, input.electronDensity);
   const env = valleyEnvelope({ ge: profile.at, topCentre: input.top.centre, bottomCentre: input.bottom.centre, layerDepth: profile.depth, bandOffset: settings.bandOffset, field: f.field, stepNm: VALLEY_GRID_NM });
-  if (!env.weight.every(Number.isFinite)) return { ok: false, reason: "the envelope vanished on every atomic layer" };
+  if (!env.weight.every(Number.isFinite)) return { ok: false as const, reason: "the envelope vanished on every atomic layer" };
   const c = valleyCoupling(profile.depth, profile.ge, env.weight, settings.bandOffset, settings.orbitalEnergy, latticeNm);
-  if (!(c.sigma > 0)) return { ok: false, reason: "no Ge within the envelope, so the alloy-disorder spread is zero and the Rician model does not apply" };
+  if (!(c.sigma > 0)) return { ok: false as const, reason: "no Ge within the envelope, so the alloy-disorder spread is zero and the Rician model does not apply" };
+  return { ok: true as const, profile, f, env, c };
+}
+
+/** The five figures from |Δ0| = ν and σ (Rician, numeric/rician.ts). */
+function figures(nu: number, sigma: number, threshold: number): ValleyFigures {
+  return {
+    mean: 2 * ricianMean(nu, sigma),
+    p10: 2 * ricianQuantile(0.1, nu, sigma),
+    deterministicSplitting: 2 * nu,
+    sigma,
+    yieldFraction: marcumQ1(nu / sigma, threshold / 2 / sigma),
+  };
+}
+
+/** The five figures alone, for the uncertainty (valleyUncertainty.ts); undefined when there is no prediction. */
+export function valleyFigures(input: ValleyInput, settings: ValleySettings): ValleyFigures | undefined {
+  const k = couplings(input, settings);
+  return k.ok ? figures(k.c.magnitude, k.c.sigma, settings.threshold) : undefined;
+}
+
+/** Predicts the valley-splitting distribution (see module comment). Never throws for data. */
+export function predictValleySplitting(input: ValleyInput, settings: ValleySettings): ValleySplitting {
+  const k = couplings(input, settings);
+  if (!k.ok) return k;
+  const { profile, f, env, c } = k;
   const nu = c.magnitude;
   const sigma = c.sigma;
   // Plotted range: the bulk of the distribution, and the threshold with some room beyond it.
@@ -144,11 +183,8 @@ export function predictValleySplitting(input: ValleyInput, settings: ValleySetti
     dotRadius: c.dotRadius,
     groundEnergy: env.energy,
     deterministic: { re: c.re, im: c.im },
-    deterministicSplitting: 2 * nu,
-    sigma,
-    mean: 2 * ricianMean(nu, sigma),
-    p10: 2 * ricianQuantile(0.1, nu, sigma),
-    yieldFraction: marcumQ1(nu / sigma, settings.threshold / 2 / sigma),
+    ...figures(nu, sigma, settings.threshold),
+    stdErr: valleyUncertainty(input, settings),
     // E_v = 2R: f_E(E) = f_R(E/2)/2.
     distribution: { energy, density: energy.map((e) => ricianPdf(e / 2, nu, sigma) / 2) },
   };
