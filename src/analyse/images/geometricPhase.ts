@@ -181,7 +181,12 @@ function localG(f: ComplexImage, carrier: Vec2, width: number, height: number) {
 function regionMean(map: Float64Array, width: number, r: PixelRect): number {
   let s = 0;
   let n = 0;
-  for (let y = r[1]; y < r[3]; y++) for (let x = r[0]; x < r[2]; x++) (s += map[y * width + x]), n++;
+  for (let y = r[1]; y < r[3]; y++) {
+    for (let x = r[0]; x < r[2]; x++) {
+      s += map[y * width + x];
+      n++;
+    }
+  }
   return s / n;
 }
 

@@ -84,7 +84,12 @@ export function strainMeanUncertainty(maps: GpaMaps, e: Vec2, regions: WeightedR
     // Inside a region the stencils cancel; drop their rounding residue so the blur runs over the edges only.
     let cMax = 0;
     for (let i = 0; i < c.length; i++) cMax = Math.max(cMax, Math.abs(c[i]));
-    for (let i = 0; i < c.length; i++) if (Math.abs(c[i]) > 1e-9 * cMax) (cRe[i] = c[i] * q.re[i]), (cIm[i] = c[i] * q.im[i]);
+    for (let i = 0; i < c.length; i++) {
+      if (Math.abs(c[i]) > 1e-9 * cMax) {
+        cRe[i] = c[i] * q.re[i];
+        cIm[i] = c[i] * q.im[i];
+      }
+    }
     const bRe = blur(cRe, width, height, maps.resolution_px);
     const bIm = blur(cIm, width, height, maps.resolution_px);
     for (let i = 0; i < c.length; i++) variance += cRe[i] * bRe[i] + cIm[i] * bIm[i];

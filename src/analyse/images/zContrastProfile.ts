@@ -140,7 +140,7 @@ function fitEdge(s: number[], p: number[], from: number, to: number, options: ZC
   const z = s.slice(from, to + 1);
   const v = p.slice(from, to + 1);
   if (z.length < 8) return "too few profile points around an interface";
-  let fit;
+  let fit: ReturnType<typeof fitSigmoidEdge>;
   try {
     fit = fitSigmoidEdge(z, v, { slope: options.backgroundSlope ?? false });
   } catch (e) {

@@ -23,7 +23,10 @@ function bandMean(m: GpaMaps, map: Float32Array, lo: number, hi: number, tilt_de
   for (let y = 30; y < m.height - 30; y++) {
     for (let x = 30; x < m.width - 30; x++) {
       const v = growthCoordinate(x, y, m.width, m.height, m.growthAxis, (tilt_deg * Math.PI) / 180);
-      if (v > lo && v < hi) (s += map[y * m.width + x]), n++;
+      if (v > lo && v < hi) {
+        s += map[y * m.width + x];
+        n++;
+      }
     }
   }
   return s / n;
@@ -103,7 +106,11 @@ describe("geometricPhase", () => {
 
   it("returns reasons for noise, NaN and tiny images", () => {
     let s = 11;
-    const noise = Float32Array.from({ length: 64 * 64 }, () => ((s = (s * 16807) % 2147483647) / 2147483647));
+    // Park and Miller's minimal standard generator (Commun. ACM 31 (1988) 1192)
+    const noise = Float32Array.from({ length: 64 * 64 }, () => {
+      s = (s * 16807) % 2147483647;
+      return s / 2147483647;
+    });
     expect(geometricPhase(noise, 64, 64)).toMatchObject({ ok: false });
     expect(geometricPhase(new Float32Array(64 * 64).fill(Number.NaN), 64, 64)).toMatchObject({ ok: false });
     expect(geometricPhase(new Float32Array(16 * 16), 16, 16)).toMatchObject({ ok: false });

@@ -123,7 +123,11 @@ describe("latticeSpacing", () => {
   });
   it("returns a reason for pure noise, NaN pixels and non-power-of-two sizes", () => {
     let s = 1;
-    const noise = Float32Array.from({ length: 64 * 64 }, () => ((s = (s * 16807) % 2147483647) / 2147483647));
+    // Park and Miller's minimal standard generator (Commun. ACM 31 (1988) 1192)
+    const noise = Float32Array.from({ length: 64 * 64 }, () => {
+      s = (s * 16807) % 2147483647;
+      return s / 2147483647;
+    });
     expect(latticeSpacing(noise, 64, 64)).toMatchObject({ ok: false });
     const nan = new Float32Array(64 * 64).fill(Number.NaN);
     expect(latticeSpacing(nan, 64, 64)).toMatchObject({ ok: false, reason: expect.stringMatching(/non-finite/) });
