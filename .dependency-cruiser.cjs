@@ -10,16 +10,7 @@
  */
 
 /** Layers from the bottom up; a layer may import only the layers before it (and itself). */
-const LAYERS = [
-  ["physics"],
-  ["model"],
-  ["read"],
-  ["validate"],
-  ["analyse", "synth"],
-  ["judge"],
-  ["publish"],
-  ["cli"],
-];
+const LAYERS = [["physics"], ["model"], ["read"], ["validate"], ["analyse", "synth"], ["judge"], ["publish"], ["cli"]];
 
 /**
  * Known upward imports of src/synth, allowed for now and listed exactly (importing file → imported
@@ -69,7 +60,7 @@ module.exports = {
     ...layerRules(),
     {
       name: "pure-no-files",
-      comment: "physics, model and analyse are pure (DEVELOPERS.md, \"Analysis is pure\"): no file reading, no file system, processes or threads",
+      comment: 'physics, model and analyse are pure (DEVELOPERS.md, "Analysis is pure"): no file reading, no file system, processes or threads',
       severity: "error",
       from: { path: "^src/(physics|model|analyse)/" },
       to: { path: ["^src/read/", "^(node:)?(fs|fs/promises|child_process|worker_threads|net|http|https)$"] },

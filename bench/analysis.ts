@@ -87,7 +87,15 @@ function oscillationStep(loaded: LoadedWafer[], repeats: number): { median: numb
       const t = performance.now();
       const window = { minField: s.sdh_min_field, maxField: s.sdh_max_field, degeneracy: s.degeneracy, backgroundOrder: s.sdh_background_order };
       const sdh = shubnikovDeHaas(p.trace.b, p.trace.rhoxx, window);
-      const fit = sdh.ok ? fitOscillations(p.trace.b, p.trace.rhoxx, p.temperature_K, sdh.frequency, { ...window, massRatio: s.effective_mass, minR2: s.sdh_min_r2, maxLifetimeError: s.sdh_max_lifetime_error / 100, amplitudeFactor: s.sdh_amplitude_factor }) : undefined;
+      const fit = sdh.ok
+        ? fitOscillations(p.trace.b, p.trace.rhoxx, p.temperature_K, sdh.frequency, {
+            ...window,
+            massRatio: s.effective_mass,
+            minR2: s.sdh_min_r2,
+            maxLifetimeError: s.sdh_max_lifetime_error / 100,
+            amplitudeFactor: s.sdh_amplitude_factor,
+          })
+        : undefined;
       times.push(performance.now() - t);
       cpu.push(process.cpuUsage(c).user / 1000);
       if (k === 0 && fit?.ok) fitted++;
@@ -95,7 +103,13 @@ function oscillationStep(loaded: LoadedWafer[], repeats: number): { median: numb
   }
   times.sort((a, b) => a - b);
   cpu.sort((a, b) => a - b);
-  return { median: times[Math.floor(times.length / 2)] ?? 0, p90: times[Math.floor(times.length * 0.9)] ?? 0, cpuMedian: cpu[Math.floor(cpu.length / 2)] ?? 0, sweeps: jobs.length, fitted };
+  return {
+    median: times[Math.floor(times.length / 2)] ?? 0,
+    p90: times[Math.floor(times.length * 0.9)] ?? 0,
+    cpuMedian: cpu[Math.floor(cpu.length / 2)] ?? 0,
+    sweeps: jobs.length,
+    fitted,
+  };
 }
 
 /** Median and largest ms per wafer of the valley-splitting prediction alone (predictValleySplitting), over every wafer with an analysed profile, `repeats` times. */
@@ -113,7 +127,12 @@ function valleyStep(loaded: LoadedWafer[], repeats: number): { median: number; m
     for (const { input, settings: s } of jobs) {
       const c = process.cpuUsage();
       const t = performance.now();
-      predictValleySplitting(input, { field: s.valley_field, orbitalEnergy: s.valley_dot_orbital_energy, bandOffset: s.valley_band_offset_per_ge, threshold: s.valley_splitting_threshold });
+      predictValleySplitting(input, {
+        field: s.valley_field,
+        orbitalEnergy: s.valley_dot_orbital_energy,
+        bandOffset: s.valley_band_offset_per_ge,
+        threshold: s.valley_splitting_threshold,
+      });
       times.push(performance.now() - t);
       cpu.push(process.cpuUsage(c).user / 1000);
     }
@@ -125,14 +144,22 @@ function valleyStep(loaded: LoadedWafer[], repeats: number): { median: number; m
 
 /** Every number at 12 significant digits, typed arrays as lists, indented (so two dumps can be diffed). */
 function canonicalJson(value: unknown): string {
-  return JSON.stringify(value, (_k, v) => {
-    if (ArrayBuffer.isView(v)) return Array.from(v as Float64Array, (x) => Number(x.toPrecision(12)));
-    if (typeof v === "number") return Number.isFinite(v) ? Number(v.toPrecision(12)) : String(v);
-    return v;
-  }, 1);
+  return JSON.stringify(
+    value,
+    (_k, v) => {
+      if (ArrayBuffer.isView(v)) return Array.from(v as Float64Array, (x) => Number(x.toPrecision(12)));
+      if (typeof v === "number") return Number.isFinite(v) ? Number(v.toPrecision(12)) : String(v);
+      return v;
+    },
+    1,
+  );
 }
 
-interface ProfileNode { id: number; callFrame: { functionName: string; url: string; lineNumber: number; columnNumber: number }; children?: number[] }
+interface ProfileNode {
+  id: number;
+  callFrame: { functionName: string; url: string; lineNumber: number; columnNumber: number };
+  children?: number[];
+}
 
 function topSelfTime(profile: { nodes: ProfileNode[]; samples: number[]; timeDeltas: number[] }, n: number): string[] {
   const byId = new Map(profile.nodes.map((p) => [p.id, p]));
@@ -155,7 +182,10 @@ function topSelfTime(profile: { nodes: ProfileNode[]; samples: number[]; timeDel
 async function main() {
   const o = parse(process.argv.slice(2));
   const dataDir = path.join(o.dir, "data");
-  const have = await fs.readdir(path.join(dataDir, "wafers")).then((l) => l.length, () => 0);
+  const have = await fs.readdir(path.join(dataDir, "wafers")).then(
+    (l) => l.length,
+    () => 0,
+  );
   if (have !== o.wafers) {
     console.log(`generating ${o.wafers} bench wafers in ${dataDir} ...`);
     await generateBenchData(dataDir, { ...DEFAULT_SIZE, wafers: o.wafers }, path.join(ROOT, "data"));
@@ -179,11 +209,17 @@ async function main() {
   }
   times.sort((a, b) => a - b);
   const med = times[Math.floor(times.length / 2)];
-  console.log(`analyse: median ${(med / ok.length).toFixed(1)} ms/wafer over ${o.repeats} repeats (min ${(times[0] / ok.length).toFixed(1)}, max ${(times.at(-1)! / ok.length).toFixed(1)}), ${(mb / (med / 1000)).toFixed(1)} MB/s of sweep data`);
+  console.log(
+    `analyse: median ${(med / ok.length).toFixed(1)} ms/wafer over ${o.repeats} repeats (min ${(times[0] / ok.length).toFixed(1)}, max ${(times.at(-1)! / ok.length).toFixed(1)}), ${(mb / (med / 1000)).toFixed(1)} MB/s of sweep data`,
+  );
   const osc = oscillationStep(ok, o.repeats);
-  console.log(`oscillation step (spectrum + Lifshitz–Kosevich fit): median ${osc.median.toFixed(2)} ms/sweep, 90th percentile ${osc.p90.toFixed(2)} ms (CPU time: median ${osc.cpuMedian.toFixed(2)} ms), over ${osc.sweeps} field sweeps (${osc.fitted} fitted)`);
+  console.log(
+    `oscillation step (spectrum + Lifshitz–Kosevich fit): median ${osc.median.toFixed(2)} ms/sweep, 90th percentile ${osc.p90.toFixed(2)} ms (CPU time: median ${osc.cpuMedian.toFixed(2)} ms), over ${osc.sweeps} field sweeps (${osc.fitted} fitted)`,
+  );
   const valley = valleyStep(ok, o.repeats);
-  console.log(`valley-splitting prediction (layers + Schrödinger + Rician): median ${valley.median.toFixed(2)} ms/wafer, max ${valley.max.toFixed(2)} ms (CPU time: median ${valley.cpuMedian.toFixed(2)} ms; budget < 20 ms on one core), over ${valley.wafers} wafers with an analysed profile`);
+  console.log(
+    `valley-splitting prediction (layers + Schrödinger + Rician): median ${valley.median.toFixed(2)} ms/wafer, max ${valley.max.toFixed(2)} ms (CPU time: median ${valley.cpuMedian.toFixed(2)} ms; budget < 20 ms on one core), over ${valley.wafers} wafers with an analysed profile`,
+  );
   const json = canonicalJson(result);
   console.log(`results digest ${createHash("sha256").update(json).digest("hex").slice(0, 16)}`);
   if (o.dump) await fs.writeFile(o.dump, json);

@@ -59,7 +59,11 @@ export async function writeBenchWafer(dataDir: string, i: number, size: BenchSiz
     await fs.mkdir(path.dirname(abs), { recursive: true });
     await fs.writeFile(abs, text);
   };
-  const devices = Array.from({ length: size.devices }, (_, k) => ({ id: `HB${k + 1}`, geometry: "hall-bar" as const, at: [-30 + 15 * (k % 5), -20 + 10 * Math.floor(k / 5)] as [number, number] }));
+  const devices = Array.from({ length: size.devices }, (_, k) => ({
+    id: `HB${k + 1}`,
+    geometry: "hall-bar" as const,
+    at: [-30 + 15 * (k % 5), -20 + 10 * Math.floor(k / 5)] as [number, number],
+  }));
   let seed = 10000 * (i + 1);
   for (const [di, d] of devices.entries()) {
     const spread = 1 + 0.04 * (rand() - 0.5);
@@ -67,11 +71,24 @@ export async function writeBenchWafer(dataDir: string, i: number, size: BenchSiz
       const vg = w.turnOn + 0.2 + (0.9 * s) / Math.max(1, size.sweeps - 1);
       const nCm2 = w.gateSlope * (vg - w.turnOn);
       const mu = mobilityAt(nCm2, w) * spread;
-      const rows = hallSweepRows({ density: nCm2 * 1e4, mobility: mu * 1e-4, geometry: d.geometry, length_um: 100, width_um: 20, maxField: 2, points: size.points, misalignment: 0.01 + 0.02 * rand(), noise: 2e-4, seed: seed++, oscillation: oscillationHook(w, nCm2 * 1e4) });
+      const rows = hallSweepRows({
+        density: nCm2 * 1e4,
+        mobility: mu * 1e-4,
+        geometry: d.geometry,
+        length_um: 100,
+        width_um: 20,
+        maxField: 2,
+        points: size.points,
+        misalignment: 0.01 + 0.02 * rand(),
+        noise: 2e-4,
+        seed: seed++,
+        oscillation: oscillationHook(w, nCm2 * 1e4),
+      });
       const text = formatSweep({ gate: `${vg.toFixed(3)} V`, temperature: "1.6 K", current: "10 nA", device: d.id }, rows);
       await write(`wafers/${w.id}/transport/${d.id}/vg_${String(s).padStart(2, "0")}.csv`, text);
     }
-    for (const [name, text] of Object.entries(demoGateSweeps(w, d.id, spread, 70000 + seed + di))) await write(`wafers/${w.id}/transport/${d.id}/${name}`, text);
+    for (const [name, text] of Object.entries(demoGateSweeps(w, d.id, spread, 70000 + seed + di)))
+      await write(`wafers/${w.id}/transport/${d.id}/${name}`, text);
   }
   const extra = [await structureDemo(w, { write, seed: seed++ })];
   if (size.images) {

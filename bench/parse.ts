@@ -38,7 +38,10 @@ async function main(): Promise<void> {
   const dir = option("--dir", "/tmp/perf-parse-bench");
   const repeats = Number(option("--repeats", "7"));
   const dataDir = path.join(dir, "data");
-  const exists = await fs.stat(path.join(dataDir, "wafers")).then(() => true, () => false);
+  const exists = await fs.stat(path.join(dataDir, "wafers")).then(
+    () => true,
+    () => false,
+  );
   if (!exists) await generateBenchData(dataDir, { ...DEFAULT_SIZE, wafers }, path.join(ROOT, "data"));
   const rels = (await listFiles(dataDir)).filter((r) => r.includes("/transport/") && r.endsWith(".csv"));
   const texts = await Promise.all(rels.map((r) => fs.readFile(path.join(dataDir, r), "utf8")));

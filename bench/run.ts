@@ -72,21 +72,44 @@ async function sizeOf(dir: string, filter: (rel: string) => boolean = () => true
  * names its stats files (builds run at the same time need different tags);
  * `env` is added to the child's environment.
  */
-export async function runBuild(dataDir: string, outDir: string, extraArgs: string[] = [], { tag = "", env = {} }: { tag?: string; env?: Record<string, string> } = {}): Promise<BuildRun> {
+export async function runBuild(
+  dataDir: string,
+  outDir: string,
+  extraArgs: string[] = [],
+  { tag = "", env = {} }: { tag?: string; env?: Record<string, string> } = {},
+): Promise<BuildRun> {
   const statsFile = path.join(path.dirname(outDir), `stats-${process.pid}${tag}.json`);
   const rssFile = path.join(path.dirname(outDir), `rss-${process.pid}${tag}.txt`);
   await fs.rm(statsFile, { force: true });
   // BENCH_WAFERBOOK_BIN: another checkout's bin/waferbook.js, to measure a "before".
   const bin = process.env.BENCH_WAFERBOOK_BIN ?? path.join(ROOT, "bin", "waferbook.js");
   const args = [bin, "build", "--data", dataDir, "--out", outDir, "--quiet", ...extraArgs];
-  const timeBin = await fs.access("/usr/bin/time").then(() => true, () => false);
+  const timeBin = await fs.access("/usr/bin/time").then(
+    () => true,
+    () => false,
+  );
   const t = performance.now();
   const [cmd, argv] = timeBin ? ["/usr/bin/time", ["-f", "%M", "-o", rssFile, process.execPath, ...args]] : [process.execPath, args];
   await promisify(execFile)(cmd, argv, { env: { ...process.env, ...env, WAFERBOOK_STATS: statsFile }, maxBuffer: 64 * 1024 * 1024 });
   const wall = (performance.now() - t) / 1000;
-  const s = JSON.parse(await fs.readFile(statsFile, "utf8").catch(() => "{}")) as { cacheHits?: number; analysed?: number; pagesReused?: number; phases?: Record<string, number>; maxRSS_kB?: number; cpu_ms?: number };
-  const rss = timeBin ? Number((await fs.readFile(rssFile, "utf8")).trim().split("\n").at(-1)) : s.maxRSS_kB ?? 0;
-  return { wall_s: round(wall, 2), maxRSS_MB: round(rss / 1024, 0), cpu_s: round((s.cpu_ms ?? 0) / 1000, 2), cacheHits: s.cacheHits ?? 0, analysed: s.analysed ?? -1, pagesReused: s.pagesReused ?? 0, phases_ms: s.phases ?? {} };
+  const s = JSON.parse(await fs.readFile(statsFile, "utf8").catch(() => "{}")) as {
+    cacheHits?: number;
+    analysed?: number;
+    pagesReused?: number;
+    phases?: Record<string, number>;
+    maxRSS_kB?: number;
+    cpu_ms?: number;
+  };
+  const rss = timeBin ? Number((await fs.readFile(rssFile, "utf8")).trim().split("\n").at(-1)) : (s.maxRSS_kB ?? 0);
+  return {
+    wall_s: round(wall, 2),
+    maxRSS_MB: round(rss / 1024, 0),
+    cpu_s: round((s.cpu_ms ?? 0) / 1000, 2),
+    cacheHits: s.cacheHits ?? 0,
+    analysed: s.analysed ?? -1,
+    pagesReused: s.pagesReused ?? 0,
+    phases_ms: s.phases ?? {},
+  };
 }
 
 /** Page weight of every wafer page: index.html plus the PNGs beside it, kB. */
@@ -107,7 +130,9 @@ const round = (x: number, d: number) => Number(x.toFixed(d));
 export async function bench(size: BenchSize, dir: string, log: (s: string) => void = console.log): Promise<BenchResult> {
   const dataDir = path.join(dir, "data");
   const outDir = path.join(dir, "site");
-  log(`generating ${size.wafers} wafers × ${size.devices} devices × ${size.sweeps} sweeps × ${size.points} points${size.images ? " + images" : ""} into ${dir}`);
+  log(
+    `generating ${size.wafers} wafers × ${size.devices} devices × ${size.sweeps} sweeps × ${size.points} points${size.images ? " + images" : ""} into ${dir}`,
+  );
   await generateBenchData(dataDir, size, path.join(ROOT, "data"));
   await fs.rm(path.join(dir, ".waferbook-cache"), { recursive: true, force: true });
   const raw = await sizeOf(dataDir);
@@ -139,12 +164,21 @@ export async function bench(size: BenchSize, dir: string, log: (s: string) => vo
 }
 
 export function table(r: BenchResult): string {
-  const run = (b: BuildRun) => `${b.wall_s} s (re-analysed ${b.analysed}, cached ${b.cacheHits}, pages reused ${b.pagesReused}; ${Object.entries(b.phases_ms).map(([k, v]) => `${k} ${(v / 1000).toFixed(1)}`).join(", ")} s)`;
+  const run = (b: BuildRun) =>
+    `${b.wall_s} s (re-analysed ${b.analysed}, cached ${b.cacheHits}, pages reused ${b.pagesReused}; ${Object.entries(b.phases_ms)
+      .map(([k, v]) => `${k} ${(v / 1000).toFixed(1)}`)
+      .join(", ")} s)`;
   const rows: [string, string][] = [
-    ["size", `${r.size.wafers} wafers × ${r.size.devices} devices × ${r.size.sweeps} sweeps × ${r.size.points} points${r.size.images ? " + images" : ""}; ${r.cores} cores`],
+    [
+      "size",
+      `${r.size.wafers} wafers × ${r.size.devices} devices × ${r.size.sweeps} sweeps × ${r.size.points} points${r.size.images ? " + images" : ""}; ${r.cores} cores`,
+    ],
     ["raw data", `${r.raw_MB} MB (sweeps ${r.sweep_MB} MB)`],
     ["cold build", run(r.cold)],
-    ["throughput", `${r.throughput_MBps} MB/s raw (${round(r.throughput_MBps / r.cores, 2)} MB/s per core on ${r.cores} cores; ${r.cpu_throughput_MBps} MB per CPU-second, ${r.cold.cpu_s} s CPU), ${r.sweep_throughput_MBps} MB/s sweeps (goal ≥ 50)`],
+    [
+      "throughput",
+      `${r.throughput_MBps} MB/s raw (${round(r.throughput_MBps / r.cores, 2)} MB/s per core on ${r.cores} cores; ${r.cpu_throughput_MBps} MB per CPU-second, ${r.cold.cpu_s} s CPU), ${r.sweep_throughput_MBps} MB/s sweeps (goal ≥ 50)`,
+    ],
     ["warm, one wafer changed", `${run(r.warmOneWafer)} = ${Math.round((100 * r.warmOneWafer.wall_s) / r.cold.wall_s)} % of cold (goal ≤ 10 %)`],
     ["warm, targets changed", `${run(r.warmTargets)} (goal: re-analysed 0)`],
     ["peak RSS", `cold ${r.cold.maxRSS_MB} MB, warm ${r.warmOneWafer.maxRSS_MB} MB (goal ≤ 1024)`],
@@ -183,7 +217,9 @@ function parse(argv: string[]): { size: BenchSize; keep: boolean; dir?: string; 
 async function benchSharded(size: BenchSize, dir: string, shards: number) {
   const { benchShards, shardTable } = await import("./shards.ts");
   const dataDir = path.join(dir, "data");
-  console.log(`generating ${size.wafers} wafers × ${size.devices} devices × ${size.sweeps} sweeps × ${size.points} points${size.images ? " + images" : ""} into ${dir}`);
+  console.log(
+    `generating ${size.wafers} wafers × ${size.devices} devices × ${size.sweeps} sweeps × ${size.points} points${size.images ? " + images" : ""} into ${dir}`,
+  );
   await generateBenchData(dataDir, size, path.join(ROOT, "data"));
   const r = { size, ...(await benchShards(runBuild, dataDir, dir, shards, round((await sizeOf(dataDir)) / (1024 * 1024), 1))) };
   console.log(shardTable(r));

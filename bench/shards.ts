@@ -33,7 +33,14 @@ export interface ShardBench {
 const round = (x: number, d: number) => Number(x.toFixed(d));
 
 /** Runs the single build, the N shards and the assembly on dataDir (already generated) under dir; `runBuild` is run.ts's (passed in: run.ts loads this module). */
-export async function benchShards(runBuild: typeof RunBuild, dataDir: string, dir: string, shards: number, raw_MB: number, log: (s: string) => void = console.log): Promise<ShardBench> {
+export async function benchShards(
+  runBuild: typeof RunBuild,
+  dataDir: string,
+  dir: string,
+  shards: number,
+  raw_MB: number,
+  log: (s: string) => void = console.log,
+): Promise<ShardBench> {
   const cores = os.availableParallelism();
   const workersPerShard = Math.floor(cores / shards);
   log("single-process cold build …");
@@ -43,7 +50,10 @@ export async function benchShards(runBuild: typeof RunBuild, dataDir: string, di
   log(`${shards} shard processes at once (${workersPerShard} worker thread${workersPerShard === 1 ? "" : "s"} each) …`);
   const shardRuns = await Promise.all(
     Array.from({ length: shards }, async (_, k) => {
-      const run = await runBuild(dataDir, path.join(dir, `unused-${k + 1}`), ["--cache", cache, "--shard", `${k + 1}/${shards}`], { tag: `-shard${k + 1}`, env: { WAFERBOOK_WORKERS: String(workersPerShard) } });
+      const run = await runBuild(dataDir, path.join(dir, `unused-${k + 1}`), ["--cache", cache, "--shard", `${k + 1}/${shards}`], {
+        tag: `-shard${k + 1}`,
+        env: { WAFERBOOK_WORKERS: String(workersPerShard) },
+      });
       return { ...run, shard: `${k + 1}/${shards}` };
     }),
   );
@@ -54,12 +64,24 @@ export async function benchShards(runBuild: typeof RunBuild, dataDir: string, di
 }
 
 export function shardTable(r: ShardBench): string {
-  const phases = (b: BuildRun) => Object.entries(b.phases_ms).map(([k, v]) => `${k} ${(v / 1000).toFixed(1)}`).join(", ");
+  const phases = (b: BuildRun) =>
+    Object.entries(b.phases_ms)
+      .map(([k, v]) => `${k} ${(v / 1000).toFixed(1)}`)
+      .join(", ");
   const rows: [string, string][] = [
     ["machine", `${r.cores} cores; ${r.shards} shards, ${r.workersPerShard} worker thread(s) each`],
-    ["single process", `${r.single.wall_s} s (CPU ${r.single.cpu_s} s), ${round(r.raw_MB / r.single.wall_s, 2)} MB/s (${round(r.raw_MB / r.single.wall_s / r.cores, 2)} MB/s per core), peak RSS ${r.single.maxRSS_MB} MB (${phases(r.single)} s)`],
-    ...r.shardRuns.map((s): [string, string] => [`shard ${s.shard}`, `${s.wall_s} s (CPU ${s.cpu_s} s), analysed ${s.analysed}, peak RSS ${s.maxRSS_MB} MB (${phases(s)} s)`]),
-    ["assembly", `${r.assembly.wall_s} s (CPU ${r.assembly.cpu_s} s), analysed ${r.assembly.analysed}, from the cache ${r.assembly.cacheHits}, peak RSS ${r.assembly.maxRSS_MB} MB (${phases(r.assembly)} s)`],
+    [
+      "single process",
+      `${r.single.wall_s} s (CPU ${r.single.cpu_s} s), ${round(r.raw_MB / r.single.wall_s, 2)} MB/s (${round(r.raw_MB / r.single.wall_s / r.cores, 2)} MB/s per core), peak RSS ${r.single.maxRSS_MB} MB (${phases(r.single)} s)`,
+    ],
+    ...r.shardRuns.map((s): [string, string] => [
+      `shard ${s.shard}`,
+      `${s.wall_s} s (CPU ${s.cpu_s} s), analysed ${s.analysed}, peak RSS ${s.maxRSS_MB} MB (${phases(s)} s)`,
+    ]),
+    [
+      "assembly",
+      `${r.assembly.wall_s} s (CPU ${r.assembly.cpu_s} s), analysed ${r.assembly.analysed}, from the cache ${r.assembly.cacheHits}, peak RSS ${r.assembly.maxRSS_MB} MB (${phases(r.assembly)} s)`,
+    ],
     ["sharded total", `${r.sharded_s} s (slowest shard + assembly), ${round(r.raw_MB / r.sharded_s, 2)} MB/s`],
     ["speed-up", `${r.speedUp}× over one process`],
   ];

@@ -42,7 +42,9 @@ let main;
 if (!existsSync(path.join(ROOT, "src", "cli", "main.ts"))) {
   // An installed package: dist/ is all there is.
   if (!existsSync(path.join(DIST, "main.js"))) {
-    process.stderr.write(`waferbook: ${DIST} is missing: this copy of waferbook was installed without being compiled (npm runs "prepare" for that); reinstall it with npm.\n`);
+    process.stderr.write(
+      `waferbook: ${DIST} is missing: this copy of waferbook was installed without being compiled (npm runs "prepare" for that); reinstall it with npm.\n`,
+    );
     process.exit(70);
   }
   ({ main } = await import(pathToFileURL(path.join(DIST, "main.js")).href));

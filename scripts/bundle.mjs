@@ -15,7 +15,11 @@ import { promises as fs } from "node:fs";
 import path from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
 
-const exists = (p) => fs.access(p).then(() => true, () => false);
+const exists = (p) =>
+  fs.access(p).then(
+    () => true,
+    () => false,
+  );
 
 /** Every source file under dir (node's recursive readdir), absolute paths. */
 async function sources(dir) {
@@ -25,8 +29,14 @@ async function sources(dir) {
 
 /** SHA-256 (hex, 20 digits) of the sources under root/src, this script and the Node.js version: names the compiled copy. */
 export async function sourceHash(root) {
-  const h = createHash("sha256").update(`bundle-2\0${process.version}\0`).update(await fs.readFile(fileURLToPath(import.meta.url)));
-  for (const f of (await sources(path.join(root, "src"))).sort()) h.update(path.relative(root, f)).update("\0").update(await fs.readFile(f)).update("\0");
+  const h = createHash("sha256")
+    .update(`bundle-2\0${process.version}\0`)
+    .update(await fs.readFile(fileURLToPath(import.meta.url)));
+  for (const f of (await sources(path.join(root, "src"))).sort())
+    h.update(path.relative(root, f))
+      .update("\0")
+      .update(await fs.readFile(f))
+      .update("\0");
   return h.digest("hex").slice(0, 20);
 }
 
@@ -41,7 +51,11 @@ export async function bundle(root, outdir, { replace = false } = {}) {
   const tmp = `${outdir}.tmp-${process.pid}`;
   await fs.rm(tmp, { recursive: true, force: true });
   await build({
-    entryPoints: { main: path.join(root, "src/cli/main.ts"), worker: path.join(root, "src/cli/worker.ts"), codeDigest: path.join(root, "src/cli/codeDigest.ts") },
+    entryPoints: {
+      main: path.join(root, "src/cli/main.ts"),
+      worker: path.join(root, "src/cli/worker.ts"),
+      codeDigest: path.join(root, "src/cli/codeDigest.ts"),
+    },
     outdir: tmp,
     bundle: true,
     splitting: true,

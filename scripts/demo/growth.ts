@@ -24,10 +24,50 @@ interface RunRecipe {
 }
 
 const RECIPES: Record<string, RunRecipe> = {
-  "TQ24-A": { recipe: "HRN-QW650-r1", wellC: 650, barrierC: 650, wellRate625: 1.2, barrierRate: 9.0, pressureTorr: 20, silane: 20, germane: 4.5, capAnneal: false },
-  "TQ24-B": { recipe: "HRN-QW625-r2", wellC: 625, barrierC: 650, wellRate625: 1.2, barrierRate: 9.0, pressureTorr: 20, silane: 20, germane: 4.5, capAnneal: true },
-  "TQ25-A": { recipe: "KTE-QW625-r1", wellC: 625, barrierC: 640, wellRate625: 1.4, barrierRate: 10.5, pressureTorr: 15, silane: 18, germane: 4.2, capAnneal: true },
-  "TQ25-B": { recipe: "KTE-QW625-r2-8nm", wellC: 625, barrierC: 640, wellRate625: 1.4, barrierRate: 10.5, pressureTorr: 15, silane: 18, germane: 4.2, capAnneal: true },
+  "TQ24-A": {
+    recipe: "HRN-QW650-r1",
+    wellC: 650,
+    barrierC: 650,
+    wellRate625: 1.2,
+    barrierRate: 9.0,
+    pressureTorr: 20,
+    silane: 20,
+    germane: 4.5,
+    capAnneal: false,
+  },
+  "TQ24-B": {
+    recipe: "HRN-QW625-r2",
+    wellC: 625,
+    barrierC: 650,
+    wellRate625: 1.2,
+    barrierRate: 9.0,
+    pressureTorr: 20,
+    silane: 20,
+    germane: 4.5,
+    capAnneal: true,
+  },
+  "TQ25-A": {
+    recipe: "KTE-QW625-r1",
+    wellC: 625,
+    barrierC: 640,
+    wellRate625: 1.4,
+    barrierRate: 10.5,
+    pressureTorr: 15,
+    silane: 18,
+    germane: 4.2,
+    capAnneal: true,
+  },
+  "TQ25-B": {
+    recipe: "KTE-QW625-r2-8nm",
+    wellC: 625,
+    barrierC: 640,
+    wellRate625: 1.4,
+    barrierRate: 10.5,
+    pressureTorr: 15,
+    silane: 18,
+    germane: 4.2,
+    capAnneal: true,
+  },
 };
 
 /** Degrees above the recipe's well temperature: the drifting thermocouple of the broad-interface wafers, and a little with the mobility shortfall. */
@@ -42,7 +82,7 @@ function fixed(v: number, digits: number): string {
 /** The growth: block of a demo wafer's front matter. */
 export function growthBlock(w: DemoWafer): string {
   const r = RECIPES[w.run];
-  const shortfall = Math.max(0, Math.round((1.3e5 - w.peakMobility) / 1e4 * 2));
+  const shortfall = Math.max(0, Math.round(((1.3e5 - w.peakMobility) / 1e4) * 2));
   const wellC = r.wellC + (DRIFT_C[w.id] ?? shortfall);
   const arrhenius = Math.exp((-2.0 / BOLTZMANN_EV_PER_K) * (1 / (wellC + 273.15) - 1 / (625 + 273.15)));
   const wellRate = r.wellRate625 * arrhenius;

@@ -30,7 +30,11 @@ interface Event {
   author: [string, string];
   message: string;
   /** Copies files from data/ (paths relative to it); `read` reads a file of data/ and `write` puts changed text into the repository. */
-  apply: (io: { copy: (rel: string) => Promise<void>; write: (rel: string, text: string) => Promise<void>; read: (rel: string) => Promise<string> }) => Promise<void>;
+  apply: (io: {
+    copy: (rel: string) => Promise<void>;
+    write: (rel: string, text: string) => Promise<void>;
+    read: (rel: string) => Promise<string>;
+  }) => Promise<void>;
 }
 
 const STAFF = {
@@ -59,7 +63,9 @@ async function frontMatterField(file: string, key: string): Promise<string> {
 export async function events(dataDir: string): Promise<Event[]> {
   const list: Event[] = [];
   list.push({
-    date: "2024-08-26T10:15:00+02:00", author: [...STAFF.qa], message: "Qualification targets for the SiGe qubit programme (qubit and test grades)",
+    date: "2024-08-26T10:15:00+02:00",
+    author: [...STAFF.qa],
+    message: "Qualification targets for the SiGe qubit programme (qubit and test grades)",
     apply: async (io) => {
       const t = await io.read("targets.yaml");
       if (!t.includes(MOBILITY_NOW)) throw new Error(`targets.yaml no longer holds ${MOBILITY_NOW}: update scripts/demo/history.ts`);
@@ -69,14 +75,21 @@ export async function events(dataDir: string): Promise<Event[]> {
   });
   for (const name of (await fs.readdir(path.join(dataDir, "runs"))).sort()) {
     const started = await frontMatterField(path.join(dataDir, "runs", name), "started");
-    list.push({ date: `${started}T08:40:00+01:00`, author: [...STAFF.growth], message: `Run ${name.replace(/\.md$/, "")}: growth notes and recipe`, apply: (io) => io.copy(`runs/${name}`) });
+    list.push({
+      date: `${started}T08:40:00+01:00`,
+      author: [...STAFF.growth],
+      message: `Run ${name.replace(/\.md$/, "")}: growth notes and recipe`,
+      apply: (io) => io.copy(`runs/${name}`),
+    });
   }
   for (const id of (await fs.readdir(path.join(dataDir, "wafers"))).sort()) {
     const grown = await frontMatterField(path.join(dataDir, "wafers", id, "wafer.md"), "grown");
     const who = id === "TQ-2506" ? STAFF.student : STAFF.meas;
     const waived = id === "TQ-2408";
     list.push({
-      date: `${plusDays(grown, 6)}T16:05:00+01:00`, author: [...who], message: `${id}: Hall bars at 1.6 K, X-ray maps, depth profile and micrographs`,
+      date: `${plusDays(grown, 6)}T16:05:00+01:00`,
+      author: [...who],
+      message: `${id}: Hall bars at 1.6 K, X-ray maps, depth profile and micrographs`,
       apply: async (io) => {
         await io.copy(`wafers/${id}`);
         if (waived) {
@@ -87,9 +100,20 @@ export async function events(dataDir: string): Promise<Event[]> {
         }
       },
     });
-    if (waived) list.push({ date: "2024-12-03T11:30:00+01:00", author: [...STAFF.qa], message: `${id}: waive the turn-on voltage (device team confirms the gate stack up to 0.8 V)`, apply: (io) => io.copy(`wafers/${id}/wafer.md`) });
+    if (waived)
+      list.push({
+        date: "2024-12-03T11:30:00+01:00",
+        author: [...STAFF.qa],
+        message: `${id}: waive the turn-on voltage (device team confirms the gate stack up to 0.8 V)`,
+        apply: (io) => io.copy(`wafers/${id}/wafer.md`),
+      });
   }
-  list.push({ date: "2025-03-03T09:00:00+01:00", author: [...STAFF.qa], message: "Raise the qubit mobility minimum to 1.0e5 cm²/(V s) after the device review", apply: (io) => io.copy("targets.yaml") });
+  list.push({
+    date: "2025-03-03T09:00:00+01:00",
+    author: [...STAFF.qa],
+    message: "Raise the qubit mobility minimum to 1.0e5 cm²/(V s) after the device review",
+    apply: (io) => io.copy("targets.yaml"),
+  });
   return list.sort((a, b) => Date.parse(a.date) - Date.parse(b.date));
 }
 
@@ -115,7 +139,14 @@ export async function writeDemoHistory(dataDir: string, repo: string): Promise<n
   for (const e of list) {
     await e.apply(io);
     git(repo, ["add", "-A"]);
-    git(repo, ["commit", "-q", "-m", e.message], { GIT_AUTHOR_NAME: e.author[0], GIT_AUTHOR_EMAIL: e.author[1], GIT_AUTHOR_DATE: e.date, GIT_COMMITTER_NAME: e.author[0], GIT_COMMITTER_EMAIL: e.author[1], GIT_COMMITTER_DATE: e.date });
+    git(repo, ["commit", "-q", "-m", e.message], {
+      GIT_AUTHOR_NAME: e.author[0],
+      GIT_AUTHOR_EMAIL: e.author[1],
+      GIT_AUTHOR_DATE: e.date,
+      GIT_COMMITTER_NAME: e.author[0],
+      GIT_COMMITTER_EMAIL: e.author[1],
+      GIT_COMMITTER_DATE: e.date,
+    });
   }
   // The last commit holds data/ exactly.
   const diff = execFileSync("diff", ["-rq", "--exclude=.git", dataDir, repo], { encoding: "utf8" });

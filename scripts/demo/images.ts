@@ -71,9 +71,18 @@ export async function imagesDemo(w: DemoWafer, io: DemoWriter): Promise<string> 
   const file = `images/${w.id}-haadf-01.${d.tiff ? "tif" : "png"}`;
   if (d.tiff) {
     const levels = Array.from(img.pixels, (v) => Math.round(Math.min(1, Math.max(0, v)) * 65535));
-    await io.write(`wafers/${w.id}/${file}`, writeTiff({ width, height, samples: levels, bits: 16, format: "uint", compression: "deflate", pixelNm: PX_NM, rowsPerStrip: 32 }));
+    await io.write(
+      `wafers/${w.id}/${file}`,
+      writeTiff({ width, height, samples: levels, bits: 16, format: "uint", compression: "deflate", pixelNm: PX_NM, rowsPerStrip: 32 }),
+    );
   } else await io.write(`wafers/${w.id}/${file}`, micrographPng(img.pixels, width, height, d.bitDepth));
-  const lines = ["images:", `  - file: ${file}`, ...(d.tiff ? ["    # pixel size: read from the TIFF's resolution tags"] : [`    pixel_nm: ${PX_NM}`]), "    kind: haadf", `    growth_axis: ${d.axis}`];
+  const lines = [
+    "images:",
+    `  - file: ${file}`,
+    ...(d.tiff ? ["    # pixel size: read from the TIFF's resolution tags"] : [`    pixel_nm: ${PX_NM}`]),
+    "    kind: haadf",
+    `    growth_axis: ${d.axis}`,
+  ];
   if (d.reference) lines.push(`    reference: [${d.reference.join(", ")}]`);
   return lines.join("\n");
 }

@@ -31,8 +31,25 @@ export function wellThicknessNm(w: DemoWafer): number {
 }
 
 function mapFile(reflection: Miller, x: number, r: number, seed: number): string {
-  const m = synthReciprocalSpaceMap({ reflection, geFraction: x, relaxation: r, step: 0.02 * DEG, margin: 0.16 * DEG, sigmaRocking: 0.02 * DEG, sigmaRadial: 0.016 * DEG, heights: { substrate: 1e5, buffer: 8000, well: 400 }, background: 4, offset: { omega: 0.012 * DEG, twoTheta: -0.006 * DEG }, seed });
-  const lines = [`# reflection: ${reflection.join(" ")}`, "# wavelength: 0.154059292 nm", "# instrument: Tarnwick four-circle diffractometer, triple-axis analyser", "omega [deg],two_theta [deg],counts"];
+  const m = synthReciprocalSpaceMap({
+    reflection,
+    geFraction: x,
+    relaxation: r,
+    step: 0.02 * DEG,
+    margin: 0.16 * DEG,
+    sigmaRocking: 0.02 * DEG,
+    sigmaRadial: 0.016 * DEG,
+    heights: { substrate: 1e5, buffer: 8000, well: 400 },
+    background: 4,
+    offset: { omega: 0.012 * DEG, twoTheta: -0.006 * DEG },
+    seed,
+  });
+  const lines = [
+    `# reflection: ${reflection.join(" ")}`,
+    "# wavelength: 0.154059292 nm",
+    "# instrument: Tarnwick four-circle diffractometer, triple-axis analyser",
+    "omega [deg],two_theta [deg],counts",
+  ];
   for (const p of m.points) lines.push(`${(p.omega / DEG).toFixed(4)},${(p.twoTheta / DEG).toFixed(4)},${p.counts}`);
   return lines.join("\n") + "\n";
 }
@@ -52,12 +69,19 @@ function profileFile(w: DemoWafer, wellNm: number, seed: number, rand: () => num
     step: sharp ? 0.05 : 0.2,
     noise: 0.004,
     slope: -2e-5,
-    contaminants: { O: { depth: 46, peak: (broad ? 2.5e18 : 3e17) * (0.7 + 0.6 * rand()), width: 0.8, floor: 2e16 }, C: { depth: 46 + wellNm, peak: 1.5e17 * (0.7 + 0.6 * rand()), width: 1, floor: 1e16 } },
+    contaminants: {
+      O: { depth: 46, peak: (broad ? 2.5e18 : 3e17) * (0.7 + 0.6 * rand()), width: 0.8, floor: 2e16 },
+      C: { depth: 46 + wellNm, peak: 1.5e17 * (0.7 + 0.6 * rand()), width: 1, floor: 1e16 },
+    },
     seed,
   });
-  const head = sharp ? ["# method: APT", "# instrument: local-electrode atom probe, laser pulsed, 1-D concentration profile across the well (fictional)"] : ["# method: SIMS", "# instrument: magnetic-sector SIMS, O2+ primary beam (fictional)"];
+  const head = sharp
+    ? ["# method: APT", "# instrument: local-electrode atom probe, laser pulsed, 1-D concentration profile across the well (fictional)"]
+    : ["# method: SIMS", "# instrument: magnetic-sector SIMS, O2+ primary beam (fictional)"];
   const lines = [...head, "depth [nm],Ge [at.%],O [cm^-3],C [cm^-3]"];
-  p.depth.forEach((z, i) => lines.push(`${z.toFixed(sharp ? 2 : 1)},${(p.ge[i] * 100).toFixed(3)},${p.contaminants.O[i].toPrecision(3)},${p.contaminants.C[i].toPrecision(3)}`));
+  p.depth.forEach((z, i) =>
+    lines.push(`${z.toFixed(sharp ? 2 : 1)},${(p.ge[i] * 100).toFixed(3)},${p.contaminants.O[i].toPrecision(3)},${p.contaminants.C[i].toPrecision(3)}`),
+  );
   return lines.join("\n") + "\n";
 }
 

@@ -69,14 +69,20 @@ export function demoGateSweeps(w: DemoWafer, device: string, spread: number, see
   });
   const sigmaPar = w.parallel ? w.parallel.density * 1e4 * ELEMENTARY_CHARGE * w.parallel.mobility * 1e-4 : 0;
   const out: Record<string, string> = {};
-  for (const [name, t] of [["gate_up.csv", up], ["gate_down.csv", down]] as const) {
+  for (const [name, t] of [
+    ["gate_up.csv", up],
+    ["gate_down.csv", down],
+  ] as const) {
     const rows = t.gateVoltage.map((v, i) => {
       const r = t.resistance[i];
       const sigma = (r > 0 && r < 1e9 ? 1 / r : 0) + sigmaPar;
       const rho = sigma > 0 && (sigmaPar > 0 || (r > 0 && r < 1e9)) ? 1 / sigma : r;
       return [Number(v.toFixed(4)), Number((rho * 5).toPrecision(7)), Number((0.5 * g()).toPrecision(4))];
     });
-    out[name] = formatSweep({ field: "0 T", temperature: `${TEMPERATURE} K`, current: "10 nA", device }, { header: ["Vg [V]", "Rxx [ohm]", "Rxy [ohm]"], rows });
+    out[name] = formatSweep(
+      { field: "0 T", temperature: `${TEMPERATURE} K`, current: "10 nA", device },
+      { header: ["Vg [V]", "Rxx [ohm]", "Rxy [ohm]"], rows },
+    );
   }
   return out;
 }

@@ -83,7 +83,18 @@ export function analyseDevice(input: DeviceInput, settings: AnalysisSettings): D
   const depth = analyseDeviceDepth(sorted, gateSweeps, settings, input.spec, calibration);
   if (depth) Object.assign(metrics, depth.metrics);
   const conditions = input.sweeps.map((s) => ({ file: s.file, kind: s.kind, sources: s.conditions ?? [] }));
-  return { id: input.spec.id, geometry: input.spec.geometry, at_mm: input.spec.at_mm, points: sorted, gateSweeps, skipped, conditions, summary, depth, metrics };
+  return {
+    id: input.spec.id,
+    geometry: input.spec.geometry,
+    at_mm: input.spec.at_mm,
+    points: sorted,
+    gateSweeps,
+    skipped,
+    conditions,
+    summary,
+    depth,
+    metrics,
+  };
 }
 
 /** The wafer's electron density at peak mobility, m⁻²: the mean over its devices (as the metric's default aggregate), or undefined. */
@@ -96,7 +107,10 @@ export function analyseWafer(inputs: WaferInputs, settings: AnalysisSettings): W
   const devices = inputs.devices.map((d) => analyseDevice(d, settings));
   return {
     devices,
-    structure: analyseStructure(inputs.structure, inputs.stack, settings, { electronDensity: waferDensity(devices), parallelConduction: devices.some((d) => (d.depth?.parallelConduction.length ?? 0) > 0) }),
+    structure: analyseStructure(inputs.structure, inputs.stack, settings, {
+      electronDensity: waferDensity(devices),
+      parallelConduction: devices.some((d) => (d.depth?.parallelConduction.length ?? 0) > 0),
+    }),
     images: analyseImages(inputs.images, inputs.stack, settings),
   };
 }

@@ -39,7 +39,8 @@ export interface AnalysedFolder {
  */
 export async function loadInFull(folder: string, key: string | undefined, ctx: AnalyseContext): Promise<AnalysedFolder> {
   const warnings: Problem[] = [];
-  const entry = ctx.cacheDir && key ? await readEntry(ctx.cacheDir, key, "full", (file, reason) => warnings.push(damagedEntryWarning(folder, file, reason))) : undefined;
+  const entry =
+    ctx.cacheDir && key ? await readEntry(ctx.cacheDir, key, "full", (file, reason) => warnings.push(damagedEntryWarning(folder, file, reason))) : undefined;
   if (entry && entry.folder === folder) return { entry, cacheHit: true, form: "full", key };
   const fresh = await analyseFolder(folder, ctx, key);
   return warnings.length ? { ...fresh, warnings } : fresh;
@@ -60,13 +61,18 @@ export async function analyseFolder(folder: string, ctx: AnalyseContext, knownKe
     const inputs = loaded.record.devices.map((spec) => ({ spec, sweeps: loaded.devices.find((d) => d.id === spec.id)?.sweeps ?? [] }));
     analysis = analyseWafer({ devices: inputs, structure: loaded.structure, images: loaded.images, stack: loaded.record.stack }, loaded.record.settings);
   }
-  const entry: CacheEntry = { folder, record: loaded.record, files: loaded.files, problems: loaded.problems, analysis: analysis && keepForPublishing(analysis) };
+  const entry: CacheEntry = {
+    folder,
+    record: loaded.record,
+    files: loaded.files,
+    problems: loaded.problems,
+    analysis: analysis && keepForPublishing(analysis),
+  };
   // Only wafers whose record validated are cached: a broken wafer.md is cheap to re-read, and its problems may depend on today's date.
   const slim = entry.analysis && slimAnalysis(entry.analysis);
   if (ctx.cacheDir && key && loaded.record) await writeEntry(ctx.cacheDir, key, entry, slim);
   return { entry, cacheHit: false, form: "full", key, slim };
 }
-
 
 /**
  * Drops what publishing never reads, so the build holds (and the cache
@@ -80,7 +86,11 @@ export async function analyseFolder(folder: string, ctx: AnalyseContext, knownKe
 export function keepForPublishing(analysis: WaferAnalysis): WaferAnalysis {
   return {
     ...analysis,
-    devices: analysis.devices.map((d) => ({ ...d, points: d.points.map((p, i) => (i === d.points.length - 1 ? p : { ...p, trace: displayTrace(p.trace) })), depth: d.depth && slimDepth(d.depth) })),
+    devices: analysis.devices.map((d) => ({
+      ...d,
+      points: d.points.map((p, i) => (i === d.points.length - 1 ? p : { ...p, trace: displayTrace(p.trace) })),
+      depth: d.depth && slimDepth(d.depth),
+    })),
   };
 }
 
@@ -107,5 +117,8 @@ function slimDepth(depth: DeviceDepth): DeviceDepth {
   depth.points.forEach((p, i) => {
     if (p.sdh.ok) charted = i;
   });
-  return { ...depth, points: depth.points.map((p, i) => (i === charted || !p.sdh.ok ? p : { ...p, sdh: { ...p.sdh, trace: NO_SDH_TRACE, spectrum: NO_SPECTRUM } })) };
+  return {
+    ...depth,
+    points: depth.points.map((p, i) => (i === charted || !p.sdh.ok ? p : { ...p, sdh: { ...p.sdh, trace: NO_SDH_TRACE, spectrum: NO_SPECTRUM } })),
+  };
 }

@@ -38,7 +38,11 @@ const define = <T>(spec: CommandSpec<T>): CommandSpec<T> => spec;
 
 /** Options several commands share; a command lists the ones it takes. */
 export const COMMON_OPTIONS = {
-  data: { type: "string", arg: "DIR", help: "the data folder: wafers/<id>/wafer.md, targets.yaml, optional\nanalysis.yaml and runs/<run>.md (default: ./data)" },
+  data: {
+    type: "string",
+    arg: "DIR",
+    help: "the data folder: wafers/<id>/wafer.md, targets.yaml, optional\nanalysis.yaml and runs/<run>.md (default: ./data)",
+  },
   quiet: { type: "boolean", help: "print only problems and the summary" },
 } satisfies Record<string, OptionSpec>;
 
@@ -68,13 +72,32 @@ const build = define<BuildOptions>({
   usage: "[--data DIR] [--out DIR] [--strict] [--base PATH] [--quiet]\n      [--cache DIR | --no-cache] [--shard K/N]",
   options: {
     data: COMMON_OPTIONS.data,
-    out: { type: "string", arg: "DIR", help: "where the site is written (default: ./site): a link to the\ncurrent build's folder beside it, switched only when the build\nsucceeds; a failed build leaves the previous site as it was.\nWafer pages whose content has not changed are carried over\nfrom the previous site (docs/publishing.md)." },
+    out: {
+      type: "string",
+      arg: "DIR",
+      help: "where the site is written (default: ./site): a link to the\ncurrent build's folder beside it, switched only when the build\nsucceeds; a failed build leaves the previous site as it was.\nWafer pages whose content has not changed are carried over\nfrom the previous site (docs/publishing.md).",
+    },
     strict: { type: "boolean", help: "exit with code 1 when any input error was found (for CI)" },
-    base: { type: "string", arg: "PATH", help: "absolute links under PATH for a web server, e.g. /qual/ or /\n(default: relative links, which work opened from disk and\non a server under any path)" },
+    base: {
+      type: "string",
+      arg: "PATH",
+      help: "absolute links under PATH for a web server, e.g. /qual/ or /\n(default: relative links, which work opened from disk and\non a server under any path)",
+    },
     quiet: COMMON_OPTIONS.quiet,
-    cache: { type: "string", arg: "DIR", help: "where analysis results are kept between builds, keyed by the\nwafer's files, settings and the analysis code (default:\n.waferbook-cache/ beside the --out folder)" },
-    "no-cache": { type: "boolean", help: "analyse every wafer from its raw files and draw every page\nafresh, ignoring the cache and the pages of the previous site" },
-    shard: { type: "string", arg: "K/N", help: "analyse and draw only the wafers of shard K of N (1 ≤ K ≤ N)\ninto the cache folder, and write no site (--out is not\ntouched); copy the N cache folders into one and build\nwithout --shard to render the whole site (docs/scaling.md)" },
+    cache: {
+      type: "string",
+      arg: "DIR",
+      help: "where analysis results are kept between builds, keyed by the\nwafer's files, settings and the analysis code (default:\n.waferbook-cache/ beside the --out folder)",
+    },
+    "no-cache": {
+      type: "boolean",
+      help: "analyse every wafer from its raw files and draw every page\nafresh, ignoring the cache and the pages of the previous site",
+    },
+    shard: {
+      type: "string",
+      arg: "K/N",
+      help: "analyse and draw only the wafers of shard K of N (1 ≤ K ≤ N)\ninto the cache folder, and write no site (--out is not\ntouched); copy the N cache folders into one and build\nwithout --shard to render the whole site (docs/scaling.md)",
+    },
   },
   normalise(v, _positionals, order) {
     const out = (v.out as string | undefined) ?? "site";
@@ -85,7 +108,10 @@ const build = define<BuildOptions>({
     if (v.shard !== undefined) {
       const parsed = parseShard(v.shard as string);
       if ("error" in parsed) throw new UsageError(parsed.error);
-      if (lastCache === "no-cache") throw new UsageError("--shard writes its results into the cache folder, so it cannot run with --no-cache; drop --no-cache (and give --cache DIR to choose the folder)");
+      if (lastCache === "no-cache")
+        throw new UsageError(
+          "--shard writes its results into the cache folder, so it cannot run with --no-cache; drop --no-cache (and give --cache DIR to choose the folder)",
+        );
       shard = parsed;
     }
     return {
@@ -121,7 +147,8 @@ const serve = define<ServeOptions>({
     const out = (v.out as string | undefined) ?? "site";
     if (!out.trim() || out === "/") throw new UsageError("--out must name a folder");
     const port = v.port === undefined ? 8080 : Number(v.port);
-    if (!/^\d+$/.test(String(v.port ?? "8080")) || port > 65535) throw new UsageError(`--port must be a whole number from 0 to 65535, found ${JSON.stringify(v.port)}`);
+    if (!/^\d+$/.test(String(v.port ?? "8080")) || port > 65535)
+      throw new UsageError(`--port must be a whole number from 0 to 65535, found ${JSON.stringify(v.port)}`);
     return { data: (v.data as string | undefined) ?? "data", out, port, quiet: v.quiet === true };
   },
 });
@@ -240,7 +267,10 @@ export function parseArgs(argv: string[]): ParsedArgs {
     if (t.kind !== "option") continue;
     const o = spec.options[t.name];
     if (!o) {
-      const hint = didYouMean(t.rawName, Object.keys(options).map((n) => `--${n}`));
+      const hint = didYouMean(
+        t.rawName,
+        Object.keys(options).map((n) => `--${n}`),
+      );
       return usageError(`unknown option ${JSON.stringify(t.rawName)}${hint ? ` — did you mean "${hint}"?` : ""}`, helpCommand);
     }
     if (o.type === "string") {
@@ -253,7 +283,8 @@ export function parseArgs(argv: string[]): ParsedArgs {
     }
     order.push(t.name);
   }
-  if (positionals.length > (spec.maxPositionals ?? 0)) return usageError(`unexpected argument ${JSON.stringify(positionals[spec.maxPositionals ?? 0])}`, helpCommand);
+  if (positionals.length > (spec.maxPositionals ?? 0))
+    return usageError(`unexpected argument ${JSON.stringify(positionals[spec.maxPositionals ?? 0])}`, helpCommand);
   try {
     return { command: name, options: spec.normalise(values, positionals, order) } as CommandRun;
   } catch (err) {

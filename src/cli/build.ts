@@ -53,7 +53,15 @@ export interface BuildResult {
   /** Wafers taken from the analysis cache / analysed from raw files; wafer pages reused unchanged from the previous output; pages taken as drawn from the cache (drawnPages.ts); raw files read to compute cache keys (the others' hashes came from the file-hash record); wall time of each phase, ms. */
   /** Things the user should know that did not stop the build (e.g. an old site generation that could not be removed). */
   warnings?: string[];
-  stats?: { cacheHits: number; analysed: number; pagesReused: number; pagesFromCache?: number; drawn?: number; filesHashed: number; phases: Record<string, number> };
+  stats?: {
+    cacheHits: number;
+    analysed: number;
+    pagesReused: number;
+    pagesFromCache?: number;
+    drawn?: number;
+    filesHashed: number;
+    phases: Record<string, number>;
+  };
 }
 
 /**
@@ -64,7 +72,6 @@ export interface BuildResult {
 export function siteWideErrors(problems: readonly Problem[]): Problem[] {
   return problems.filter((p) => p.severity === "error" && p.wafer === undefined && !p.file.startsWith("wafers/"));
 }
-
 
 /** The build-output warning for a history that could not be read (the changes page shows the same reason). */
 function historyWarning(reason: string): Problem {
@@ -99,9 +106,24 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     // the build stops before anything is written, so the previous site stays as it was (exit 1, --strict or not).
     const sitewide = siteWideErrors(site.problems);
     if (sitewide.length) {
-      return { ok: false, outcomes: [], problems: [...site.problems], outDir, pages: 0, reason: `${sitewide.length} site-wide input error${sitewide.length === 1 ? "" : "s"} (listed above)` };
+      return {
+        ok: false,
+        outcomes: [],
+        problems: [...site.problems],
+        outDir,
+        pages: 0,
+        reason: `${sitewide.length} site-wide input error${sitewide.length === 1 ? "" : "s"} (listed above)`,
+      };
     }
-    const ctx: PipelineContext = { dataDir, today: io.today(), siteSettings: site.settings, targets: site.targets, siteOverrides: site.settingOverrides, version, sitewideErrors: [] };
+    const ctx: PipelineContext = {
+      dataDir,
+      today: io.today(),
+      siteSettings: site.settings,
+      targets: site.targets,
+      siteOverrides: site.settingOverrides,
+      version,
+      sitewideErrors: [],
+    };
     const phases: Record<string, number> = {};
     let t = performance.now();
     const lap = (name: string) => {
@@ -110,7 +132,10 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       t = now;
     };
     const code = cacheDir ? await codeVersion(version) : "";
-    const jobs = new WaferJobs({ dataDir, today: ctx.today, siteSettings: ctx.siteSettings, waferListing: site.waferListing, cacheDir, code, pipeline: ctx, outDir: tmpDir, scratchDir }, early);
+    const jobs = new WaferJobs(
+      { dataDir, today: ctx.today, siteSettings: ctx.siteSettings, waferListing: site.waferListing, cacheDir, code, pipeline: ctx, outDir: tmpDir, scratchDir },
+      early,
+    );
     // Unchanged wafer pages are reused from the previous output (src/cli/pageReuse.ts); --no-cache builds every page afresh.
     const reusePages = cacheDir !== null;
     let done = 0;
@@ -153,7 +178,12 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       const history = await loadDataHistory(dataDir);
       if (history?.failure) buildProblems.push(historyWarning(history.failure));
       const findDecisions = async () => {
-        if (history && !history.failure) history.decisions = await decisionCommits(dataDir, history, outcomes.map((o) => ({ id: o.folder, file: o.record?.file ?? "", decision: o.record?.decision })));
+        if (history && !history.failure)
+          history.decisions = await decisionCommits(
+            dataDir,
+            history,
+            outcomes.map((o) => ({ id: o.folder, file: o.record?.file ?? "", decision: o.record?.decision })),
+          );
       };
       await findDecisions();
       meta = { title: "waferbook", version, builtAt: io.now(), basePath: options.basePath, dataCommit: history?.head ?? null };
@@ -223,10 +253,26 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       await jobs.drawAll(stillToDraw);
       // The workers' heaps go before rendering, the main thread's busiest moment for memory.
       await jobs.close();
-      stats = { cacheHits: analysed.filter((a) => a.cacheHit).length - reanalysed, analysed: analysed.filter((a) => !a.cacheHit).length + reanalysed, pagesReused: reused.size, pagesFromCache, drawn: drawn.size + stillToDraw.length, filesHashed: jobs.fileHashes?.hashed ?? 0, phases };
+      stats = {
+        cacheHits: analysed.filter((a) => a.cacheHit).length - reanalysed,
+        analysed: analysed.filter((a) => !a.cacheHit).length + reanalysed,
+        pagesReused: reused.size,
+        pagesFromCache,
+        drawn: drawn.size + stillToDraw.length,
+        filesHashed: jobs.fileHashes?.hashed ?? 0,
+        phases,
+      };
       const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history });
       lap("model");
-      written = await renderSite(model, sorted.map((o) => o.folder).filter((f) => !reused.has(f)), tmpDir, scratchDir, meta, pageExtras, fingerprints);
+      written = await renderSite(
+        model,
+        sorted.map((o) => o.folder).filter((f) => !reused.has(f)),
+        tmpDir,
+        scratchDir,
+        meta,
+        pageExtras,
+        fingerprints,
+      );
       lap("render");
     } finally {
       await jobs.close();
@@ -243,9 +289,12 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
     await early?.close().catch(() => {});
     // Best effort: once the site is published, nothing here may turn the build into a failure.
     for (const dir of [tmpDir, scratchDir]) {
-      await fs.rm(dir, { recursive: true, force: true }).catch((err: NodeJS.ErrnoException) => warnings.push(`could not remove ${dir} (${err.code ?? err.message}); the next build removes it`));
+      await fs
+        .rm(dir, { recursive: true, force: true })
+        .catch((err: NodeJS.ErrnoException) => warnings.push(`could not remove ${dir} (${err.code ?? err.message}); the next build removes it`));
     }
-    await release().catch((err: NodeJS.ErrnoException) => warnings.push(`could not remove the lock ${outDir}.lock (${err.code ?? err.message}); delete it by hand`));
+    await release().catch((err: NodeJS.ErrnoException) =>
+      warnings.push(`could not remove the lock ${outDir}.lock (${err.code ?? err.message}); delete it by hand`),
+    );
   }
 }
-

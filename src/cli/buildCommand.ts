@@ -35,7 +35,16 @@ export async function runBuild(options: BuildOptions, io: CommandIO, { announce 
     const result = shard ? await buildShard({ ...options, quiet, shard }, buildIO) : await build({ ...options, quiet }, buildIO);
     if (!quiet) process.stderr.write("\r\x1b[2K");
     // For the benchmark (bench/run.ts): phase times, cache use, this process's CPU time (all threads) and peak memory.
-    if (process.env.WAFERBOOK_STATS) await writeFile(process.env.WAFERBOOK_STATS, JSON.stringify({ ...result.stats, wall_ms: Date.now() - started, cpu_ms: Math.round((process.resourceUsage().userCPUTime + process.resourceUsage().systemCPUTime) / 1000), maxRSS_kB: process.resourceUsage().maxRSS }) + "\n");
+    if (process.env.WAFERBOOK_STATS)
+      await writeFile(
+        process.env.WAFERBOOK_STATS,
+        JSON.stringify({
+          ...result.stats,
+          wall_ms: Date.now() - started,
+          cpu_ms: Math.round((process.resourceUsage().userCPUTime + process.resourceUsage().systemCPUTime) / 1000),
+          maxRSS_kB: process.resourceUsage().maxRSS,
+        }) + "\n",
+      );
     reportProblems(result.problems, io.err);
     for (const w of result.warnings ?? []) io.err(`waferbook: warning: ${w}`);
     io.out(summary(result, (Date.now() - started) / 1000));
@@ -46,7 +55,9 @@ export async function runBuild(options: BuildOptions, io: CommandIO, { announce 
     }
     if ("shard" in result) {
       const sh = (result as ShardResult).shard;
-      io.out(`shard ${sh.index}/${sh.count}: ${sh.wafers} of ${countText(sh.of, "wafer")}, ${countText(sh.pagesStored, "drawn page")} stored; cache written to ${path.relative(process.cwd(), sh.cacheDir) || "."} (no site written: copy every shard's cache folder into one and run waferbook build on it)`);
+      io.out(
+        `shard ${sh.index}/${sh.count}: ${sh.wafers} of ${countText(sh.of, "wafer")}, ${countText(sh.pagesStored, "drawn page")} stored; cache written to ${path.relative(process.cwd(), sh.cacheDir) || "."} (no site written: copy every shard's cache folder into one and run waferbook build on it)`,
+      );
     } else if (announce) io.out(siteWrittenMessage(path.relative(process.cwd(), result.outDir) || ".", options.basePath));
     const errors = result.problems.filter((p) => p.severity === "error").length;
     if (options.strict && errors > 0) {

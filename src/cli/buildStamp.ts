@@ -17,7 +17,9 @@ export function buildStamp(env: { SOURCE_DATE_EPOCH?: string }, clock: () => Dat
   const iso = (d: Date) => d.toISOString().replace(/\.\d+Z$/, "Z");
   if (raw === undefined || raw === "") return { stamp: () => iso(clock()) };
   if (!/^\d{1,12}$/.test(raw) || Number(raw) > LAST_SECOND) {
-    return { error: `SOURCE_DATE_EPOCH must be a whole number of seconds since 1970-01-01T00:00:00Z (at most ${LAST_SECOND}), found ${JSON.stringify(raw.length > 40 ? `${raw.slice(0, 40)}…` : raw)}; unset it to show the build's own time` };
+    return {
+      error: `SOURCE_DATE_EPOCH must be a whole number of seconds since 1970-01-01T00:00:00Z (at most ${LAST_SECOND}), found ${JSON.stringify(raw.length > 40 ? `${raw.slice(0, 40)}…` : raw)}; unset it to show the build's own time`,
+    };
   }
   const fixed = iso(new Date(Number(raw) * 1000));
   return { stamp: () => fixed };

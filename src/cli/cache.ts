@@ -85,13 +85,19 @@ export function runtimeVersion(): string {
   return `node ${process.versions.node}, zlib ${process.versions.zlib}, lock ${lock}`;
 }
 
-
 /**
  * The cache key of one wafer folder (hex SHA-256); hashes its files (several
  * at a time, or takes unchanged files' hashes from `hashes`) without parsing
  * them. `digestsOut` receives each file's digest (path relative to the folder).
  */
-export async function cacheKey(waferDir: string, code: string, siteSettings: unknown, hashes?: FileHashes, twins: string[] = [], digestsOut?: Map<string, string>): Promise<string> {
+export async function cacheKey(
+  waferDir: string,
+  code: string,
+  siteSettings: unknown,
+  hashes?: FileHashes,
+  twins: string[] = [],
+  digestsOut?: Map<string, string>,
+): Promise<string> {
   const files = await listFiles(waferDir).catch(() => [] as string[]);
   const limit = pLimit(8);
   const digests = await Promise.all(files.map((rel) => limit(() => fileDigest(path.join(waferDir, rel), hashes))));
@@ -143,7 +149,12 @@ export type EntryForm = "full" | "slim";
  * payload does not deserialise to an entry, is deleted and reported to
  * `onDamaged` (its path and what is wrong), then read as a miss.
  */
-export async function readEntry(cacheDir: string, key: string, form: EntryForm = "full", onDamaged?: (file: string, reason: string) => void): Promise<CacheEntry | undefined> {
+export async function readEntry(
+  cacheDir: string,
+  key: string,
+  form: EntryForm = "full",
+  onDamaged?: (file: string, reason: string) => void,
+): Promise<CacheEntry | undefined> {
   const file = entryPath(cacheDir, key, form);
   let bytes: Buffer;
   try {
@@ -226,9 +237,11 @@ export function seal(payload: Buffer): Buffer {
 /** The payload of a cache file written by `seal`, or what is wrong with it (a string) when the header or checksum does not match. */
 export function unseal(bytes: Buffer): Buffer | string {
   const head = ENTRY_MAGIC.length + CHECKSUM_BYTES;
-  if (bytes.length < head || !bytes.subarray(0, ENTRY_MAGIC.length).equals(ENTRY_MAGIC)) return `not a waferbook cache entry of this version (${bytes.length} bytes, unexpected header)`;
+  if (bytes.length < head || !bytes.subarray(0, ENTRY_MAGIC.length).equals(ENTRY_MAGIC))
+    return `not a waferbook cache entry of this version (${bytes.length} bytes, unexpected header)`;
   const payload = bytes.subarray(head);
-  if (!createHash("sha256").update(payload).digest().equals(bytes.subarray(ENTRY_MAGIC.length, head))) return "its SHA-256 checksum does not match its contents";
+  if (!createHash("sha256").update(payload).digest().equals(bytes.subarray(ENTRY_MAGIC.length, head)))
+    return "its SHA-256 checksum does not match its contents";
   return payload;
 }
 

@@ -56,7 +56,16 @@ export interface CheckResult {
  */
 export async function checkData(dataDir: string, today: string): Promise<CheckResult> {
   const site = await loadSiteInputs(dataDir);
-  const ctx: PipelineContext = { dataDir, today, siteSettings: site.settings, waferListing: site.waferListing, targets: site.targets, siteOverrides: site.settingOverrides, version: "", sitewideErrors: [] };
+  const ctx: PipelineContext = {
+    dataDir,
+    today,
+    siteSettings: site.settings,
+    waferListing: site.waferListing,
+    targets: site.targets,
+    siteOverrides: site.settingOverrides,
+    version: "",
+    sitewideErrors: [],
+  };
   // A few folders at a time: reading overlaps parsing; results keep folder order.
   const limit = pLimit(4);
   const perWafer = await Promise.all(
@@ -86,7 +95,12 @@ export function checkSummary(r: CheckResult, seconds: number): string {
 export async function checkCommand(argv: string[], io: CommandIO): Promise<number> {
   let values: { data?: string; help?: boolean; version?: boolean };
   try {
-    ({ values } = parseArgs({ args: argv, options: { data: { type: "string" }, help: { type: "boolean", short: "h" }, version: { type: "boolean" } }, strict: true, allowPositionals: false }));
+    ({ values } = parseArgs({
+      args: argv,
+      options: { data: { type: "string" }, help: { type: "boolean", short: "h" }, version: { type: "boolean" } },
+      strict: true,
+      allowPositionals: false,
+    }));
   } catch (e) {
     io.err(`waferbook check: ${(e as Error).message}`);
     io.err("Run `waferbook check --help` for the options.");

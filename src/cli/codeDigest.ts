@@ -36,13 +36,20 @@ export async function sourceFiles(dir: string, keep: (name: string) => boolean =
 export async function hashFiles(salt: string, root: string, files: string[]): Promise<string> {
   const h = createHash("sha256").update(`${salt}\0`);
   const rel = files.map((f) => [path.relative(root, f).split(path.sep).join("/"), f] as const).sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
-  for (const [name, f] of rel) h.update(name).update("\0").update(await sha256File(f)).update("\0");
+  for (const [name, f] of rel)
+    h.update(name)
+      .update("\0")
+      .update(await sha256File(f))
+      .update("\0");
   return h.digest("hex");
 }
 
 /** The digests of the sources under srcDir (what scripts/bundle.mjs writes into code-version.json). */
 export async function sourceDigests(srcDir: string): Promise<CodeDigests> {
-  const analysisFiles = [...(await Promise.all(ANALYSIS_FOLDERS.map((f) => sourceFiles(path.join(srcDir, f))))).flat(), ...ANALYSIS_FILES.map((f) => path.join(srcDir, f))];
+  const analysisFiles = [
+    ...(await Promise.all(ANALYSIS_FOLDERS.map((f) => sourceFiles(path.join(srcDir, f))))).flat(),
+    ...ANALYSIS_FILES.map((f) => path.join(srcDir, f)),
+  ];
   return { analysis: await hashFiles("analysis", srcDir, analysisFiles), drawing: await hashFiles("drawing", srcDir, await sourceFiles(srcDir)) };
 }
 
@@ -50,8 +57,6 @@ let digests: Promise<CodeDigests> | undefined;
 
 /** The digests of the code that is running: code-version.json beside the compiled code, or src/ hashed now. */
 export function codeDigests(): Promise<CodeDigests> {
-  digests ??= BUNDLED
-    ? fs.readFile(new URL("./code-version.json", import.meta.url), "utf8").then((s) => JSON.parse(s) as CodeDigests)
-    : sourceDigests(SRC_DIR);
+  digests ??= BUNDLED ? fs.readFile(new URL("./code-version.json", import.meta.url), "utf8").then((s) => JSON.parse(s) as CodeDigests) : sourceDigests(SRC_DIR);
   return digests;
 }

@@ -43,7 +43,10 @@ interface DrawnPage {
 
 /** The key of a drawn page (hex SHA-256); see the module comment. */
 export function drawnPageKey(pageCode: string, cacheKey: string, outcome: WaferOutcome): string {
-  return createHash("sha256").update(`${DRAWN_FORMAT}\0${pageCode}\0${cacheKey}\0`).update(JSON.stringify({ ...outcome, analysis: undefined })).digest("hex");
+  return createHash("sha256")
+    .update(`${DRAWN_FORMAT}\0${pageCode}\0${cacheKey}\0`)
+    .update(JSON.stringify({ ...outcome, analysis: undefined }))
+    .digest("hex");
 }
 
 export function drawnPagePath(cacheDir: string, key: string): string {
@@ -131,7 +134,18 @@ export async function restoreDrawnPage(
     return discard("its contents do not read as a drawn page", "damaged");
   }
   const prefix = `wafers/${folder}/`;
-  if (page?.folder !== folder || !(page.model instanceof Uint8Array) || !Array.isArray(page.files) || page.files.some((f) => typeof f?.path !== "string" || !(f.bytes instanceof Uint8Array) || !f.path.startsWith(prefix) || f.path.split("/").some((p) => p === ".." || p === "" || p === "."))) {
+  if (
+    page?.folder !== folder ||
+    !(page.model instanceof Uint8Array) ||
+    !Array.isArray(page.files) ||
+    page.files.some(
+      (f) =>
+        typeof f?.path !== "string" ||
+        !(f.bytes instanceof Uint8Array) ||
+        !f.path.startsWith(prefix) ||
+        f.path.split("/").some((p) => p === ".." || p === "" || p === "."),
+    )
+  ) {
     return discard("it does not hold this wafer's page", "damaged");
   }
   let refused: string | undefined;

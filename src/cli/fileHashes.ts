@@ -84,7 +84,15 @@ export class FileHashes {
    */
   trusted(abs: string, st: Stats): string | undefined {
     const row = this.file ? this.rows.get(abs) : undefined;
-    return row && row[0] === st.size && row[1] === st.mtimeMs && row[2] === st.ctimeMs && row[3] === st.ino && row[4] === st.dev && Math.max(st.mtimeMs, st.ctimeMs) < row[5] - RACY_MS ? row[6] : undefined;
+    return row &&
+      row[0] === st.size &&
+      row[1] === st.mtimeMs &&
+      row[2] === st.ctimeMs &&
+      row[3] === st.ino &&
+      row[4] === st.dev &&
+      Math.max(st.mtimeMs, st.ctimeMs) < row[5] - RACY_MS
+      ? row[6]
+      : undefined;
   }
 
   /** SHA-256 (hex) of a regular file, from the record when the file is unchanged, else read and hashed. */

@@ -109,7 +109,12 @@ async function refusal(dir: string): Promise<string | null> {
 export async function initCommand(argv: string[], io: CommandIO): Promise<number> {
   let parsed: { values: { help?: boolean; version?: boolean; shards?: string }; positionals: string[] };
   try {
-    parsed = parseArgs({ args: argv, options: { help: { type: "boolean", short: "h" }, version: { type: "boolean" }, shards: { type: "string" } }, strict: true, allowPositionals: true });
+    parsed = parseArgs({
+      args: argv,
+      options: { help: { type: "boolean", short: "h" }, version: { type: "boolean" }, shards: { type: "string" } },
+      strict: true,
+      allowPositionals: true,
+    });
   } catch (e) {
     io.err(`waferbook init: ${(e as Error).message}`);
     io.err("Run `waferbook init --help` for the usage.");
@@ -124,7 +129,9 @@ export async function initCommand(argv: string[], io: CommandIO): Promise<number
     return 0;
   }
   if (parsed.positionals.length !== 1) {
-    io.err(`waferbook init: ${parsed.positionals.length === 0 ? "name the folder to create, e.g. waferbook init qual-data" : `one folder only, found ${parsed.positionals.length}: ${parsed.positionals.join(" ")}`}`);
+    io.err(
+      `waferbook init: ${parsed.positionals.length === 0 ? "name the folder to create, e.g. waferbook init qual-data" : `one folder only, found ${parsed.positionals.length}: ${parsed.positionals.join(" ")}`}`,
+    );
     io.err("Run `waferbook init --help` for the usage.");
     return 2;
   }
@@ -152,7 +159,9 @@ export async function initCommand(argv: string[], io: CommandIO): Promise<number
     await fs.mkdir(path.dirname(abs), { recursive: true });
     await fs.writeFile(abs, text, { flag: "wx" });
   }
-  io.out(`Created a waferbook data repository in ${shown}/ (${files.size} files): data/ with targets, settings and an example wafer, .gitignore, and CI files for GitHub Actions and GitLab CI/CD${shards ? `, each running ${shards} shard jobs and one job that builds the site` : ""}.`);
+  io.out(
+    `Created a waferbook data repository in ${shown}/ (${files.size} files): data/ with targets, settings and an example wafer, .gitignore, and CI files for GitHub Actions and GitLab CI/CD${shards ? `, each running ${shards} shard jobs and one job that builds the site` : ""}.`,
+  );
   io.out("");
   io.out("Next steps:");
   for (const s of nextSteps(shown)) io.out(`  ${s}`);

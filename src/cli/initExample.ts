@@ -55,9 +55,23 @@ export function exampleWaferFiles(): Map<string, string> {
   files.set(`wafers/${EXAMPLE_WAFER}/wafer.md`, WAFER_MD);
   for (const [i, vg] of GATES.entries()) {
     const { density, mobility } = exampleTransport(vg);
-    const rows = hallSweepRows({ density: density * 1e4, mobility: mobility * 1e-4, geometry: "hall-bar", length_um: 100, width_um: 20, maxField: 1, points: 41, misalignment: 0.01, noise: 2e-4, seed: 101 + i });
+    const rows = hallSweepRows({
+      density: density * 1e4,
+      mobility: mobility * 1e-4,
+      geometry: "hall-bar",
+      length_um: 100,
+      width_um: 20,
+      maxField: 1,
+      points: 41,
+      misalignment: 0.01,
+      noise: 2e-4,
+      seed: 101 + i,
+    });
     const name = `vg_${vg.toFixed(2).replace(".", "p")}V.csv`;
-    files.set(`wafers/${EXAMPLE_WAFER}/transport/HB1/${name}`, formatSweep({ gate: `${vg.toFixed(2)} V`, temperature: "1.6 K", current: "10 nA", device: "HB1" }, rows));
+    files.set(
+      `wafers/${EXAMPLE_WAFER}/transport/HB1/${name}`,
+      formatSweep({ gate: `${vg.toFixed(2)} V`, temperature: "1.6 K", current: "10 nA", device: "HB1" }, rows),
+    );
   }
   return files;
 }

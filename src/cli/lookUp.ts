@@ -22,7 +22,12 @@ export async function waferListing(ctx: Pick<AnalyseContext, "dataDir" | "waferL
  * letter-case twins that are part of the key. `damaged`: the warning when the
  * entry failed its checksum and was discarded (then there is no hit).
  */
-export async function lookUpFolder(folder: string, ctx: AnalyseContext, hashes?: FileHashes, listing?: readonly string[]): Promise<{ key?: string; hit?: AnalysedFolder; damaged?: Problem }> {
+export async function lookUpFolder(
+  folder: string,
+  ctx: AnalyseContext,
+  hashes?: FileHashes,
+  listing?: readonly string[],
+): Promise<{ key?: string; hit?: AnalysedFolder; damaged?: Problem }> {
   if (!ctx.cacheDir) return {};
   const twins = (listing ?? (await waferListing(ctx))).filter((n) => n !== folder && n.toLowerCase() === folder.toLowerCase()).sort();
   const digests = new Map<string, string>();

@@ -18,7 +18,22 @@ import { isGenerationLink, SITE_MARKER } from "./siteLayout.ts";
 export class OutputRefusedError extends BuildStoppedError {}
 
 /** What the top level of a site written by waferbook before the marker file existed may hold. */
-const OLD_SITE_ENTRIES = new Set(["index.html", "wafers", "runs", "trends", "targets", "changes", "search", "raw", "assets", "results.csv", "results.json", "search-index.json", "compare", "relation"]);
+const OLD_SITE_ENTRIES = new Set([
+  "index.html",
+  "wafers",
+  "runs",
+  "trends",
+  "targets",
+  "changes",
+  "search",
+  "raw",
+  "assets",
+  "results.csv",
+  "results.json",
+  "search-index.json",
+  "compare",
+  "relation",
+]);
 
 /** The real path of `p`: links resolved; for a path that does not exist yet, its nearest existing ancestor's real path with the rest appended. */
 export async function resolveReal(p: string): Promise<string> {
@@ -45,7 +60,13 @@ export function within(inner: string, outer: string): boolean {
 /** The git work tree holding `dir` (the nearest ancestor-or-self with a .git entry), or null. */
 async function workTreeOf(dir: string): Promise<string | null> {
   for (let d = dir; ; d = path.dirname(d)) {
-    if (await fs.lstat(path.join(d, ".git")).then(() => true, () => false)) return d;
+    if (
+      await fs.lstat(path.join(d, ".git")).then(
+        () => true,
+        () => false,
+      )
+    )
+      return d;
     if (path.dirname(d) === d) return null;
   }
 }
@@ -75,17 +96,29 @@ export async function checkOutput(given: { data: string; out: string; cache: str
   const outReal = await resolveReal(outAbs);
   const tree = await workTreeOf(data);
   for (const o of new Set([outAt, outReal])) {
-    if (tree && tree !== data && within(tree, o)) throw new OutputRefusedError(`refusing --out ${shown(given.out, o)}: it ${o === tree ? "is" : "holds"} the git work tree ${tree} that holds the data folder ${data}; ${CHOOSE}`);
-    if (tree && within(o, path.join(tree, ".git"))) throw new OutputRefusedError(`refusing --out ${shown(given.out, o)}: it lies inside ${path.join(tree, ".git")}, the git folder of the data folder ${data}; ${CHOOSE}`);
+    if (tree && tree !== data && within(tree, o))
+      throw new OutputRefusedError(
+        `refusing --out ${shown(given.out, o)}: it ${o === tree ? "is" : "holds"} the git work tree ${tree} that holds the data folder ${data}; ${CHOOSE}`,
+      );
+    if (tree && within(o, path.join(tree, ".git")))
+      throw new OutputRefusedError(
+        `refusing --out ${shown(given.out, o)}: it lies inside ${path.join(tree, ".git")}, the git folder of the data folder ${data}; ${CHOOSE}`,
+      );
     const r = relation(o, data);
     if (r) throw new OutputRefusedError(`refusing --out ${shown(given.out, o)}: it ${r} the data folder ${data}; ${CHOOSE}`);
   }
   if (given.cache !== null) await checkCacheFolder(given.data, given.cache, given.cache);
   // The names a build works under beside --out (its lock, generations, building folders, links) are
   // removed or renamed by the build: the data or the cache must never be one of them, or inside one.
-  for (const [what, given2, real] of [["data folder", given.data, data], ...(given.cache !== null ? [["--cache", given.cache, await resolveReal(given.cache)]] : [])] as [string, string, string][]) {
+  for (const [what, given2, real] of [
+    ["data folder", given.data, data],
+    ...(given.cache !== null ? [["--cache", given.cache, await resolveReal(given.cache)]] : []),
+  ] as [string, string, string][]) {
     const name = workingNameHolding(outAt, real);
-    if (name) throw new OutputRefusedError(`refusing --out ${outAt}: the ${what} ${shown(given2, real)} is ${name === real ? "" : "inside "}${name}, a name the build uses for its own working files beside the output (lock, generations, building folders); rename the ${what} or choose another --out`);
+    if (name)
+      throw new OutputRefusedError(
+        `refusing --out ${outAt}: the ${what} ${shown(given2, real)} is ${name === real ? "" : "inside "}${name}, a name the build uses for its own working files beside the output (lock, generations, building folders); rename the ${what} or choose another --out`,
+      );
   }
   await checkOwnLock(outAbs);
   await checkOwnOutput(outAbs);
@@ -97,7 +130,10 @@ export async function checkCacheFolder(dataDir: string, cacheDir: string, shownA
   const data = await resolveReal(dataDir);
   const cache = await resolveReal(cacheDir);
   const r = relation(cache, data);
-  if (r) throw new OutputRefusedError(`refusing --cache ${shown(shownAs, cache)}: it ${r} the data folder ${data}; the data folder is only ever read — choose a cache folder outside it (or --no-cache)`);
+  if (r)
+    throw new OutputRefusedError(
+      `refusing --cache ${shown(shownAs, cache)}: it ${r} the data folder ${data}; the data folder is only ever read — choose a cache folder outside it (or --no-cache)`,
+    );
 }
 
 /**
@@ -119,7 +155,10 @@ async function checkOwnLock(out: string): Promise<void> {
   const st = await fs.lstat(lock).catch(() => null);
   if (!st) return;
   const text = st.isFile() && st.size < 1024 ? (await fs.readFile(lock, "utf8").catch(() => "")).trim() : "";
-  if (!/^\d+(@\S*)?$/.test(text)) throw new OutputRefusedError(`refusing --out ${out}: ${lock} exists and is not a lock a build wrote (expected a small file holding "pid@host"); move it away, or choose another --out`);
+  if (!/^\d+(@\S*)?$/.test(text))
+    throw new OutputRefusedError(
+      `refusing --out ${out}: ${lock} exists and is not a lock a build wrote (expected a small file holding "pid@host"); move it away, or choose another --out`,
+    );
 }
 
 /** The output folder, when it exists, must be one waferbook wrote. */
@@ -129,13 +168,21 @@ async function checkOwnOutput(out: string): Promise<void> {
   if (st.isSymbolicLink()) {
     const target = await fs.readlink(out);
     if (isGenerationLink(out, target)) return;
-    throw new OutputRefusedError(`refusing --out ${out}: it is a symbolic link to ${JSON.stringify(target)} that waferbook did not make; give the folder itself as --out, or remove the link`);
+    throw new OutputRefusedError(
+      `refusing --out ${out}: it is a symbolic link to ${JSON.stringify(target)} that waferbook did not make; give the folder itself as --out, or remove the link`,
+    );
   }
   if (!st.isDirectory()) throw new OutputRefusedError(`refusing --out ${out}: it is a file, not a folder; remove it or choose another --out`);
   const entries = await fs.readdir(out);
   if (entries.length === 0 || entries.includes(SITE_MARKER) || (await isOldSite(out, entries))) return;
-  const some = entries.sort().slice(0, 3).map((e) => JSON.stringify(e.length > 40 ? `${e.slice(0, 40)}…` : e)).join(", ");
-  throw new OutputRefusedError(`refusing --out ${out}: it is a folder that waferbook did not write (it holds ${some}${entries.length > 3 ? ", …" : ""} and no ${SITE_MARKER} marker); remove it or choose another --out`);
+  const some = entries
+    .sort()
+    .slice(0, 3)
+    .map((e) => JSON.stringify(e.length > 40 ? `${e.slice(0, 40)}…` : e))
+    .join(", ");
+  throw new OutputRefusedError(
+    `refusing --out ${out}: it is a folder that waferbook did not write (it holds ${some}${entries.length > 3 ? ", …" : ""} and no ${SITE_MARKER} marker); remove it or choose another --out`,
+  );
 }
 
 /** A site written before the marker existed: only a site's own top-level names, and an index page waferbook built. */
@@ -148,9 +195,22 @@ async function isOldSite(out: string, entries: string[]): Promise<boolean> {
 /** The output's nearest existing ancestor must be a folder this process may write in. */
 async function checkWritableParent(out: string): Promise<void> {
   let d = path.dirname(out);
-  while (!(await fs.lstat(d).then(() => true, () => false)) && path.dirname(d) !== d) d = path.dirname(d);
+  while (
+    !(await fs.lstat(d).then(
+      () => true,
+      () => false,
+    )) &&
+    path.dirname(d) !== d
+  )
+    d = path.dirname(d);
   const st = await fs.stat(d).catch(() => null);
   if (st && !st.isDirectory()) throw new OutputRefusedError(`refusing --out ${out}: ${d} is a file, not a folder; choose another --out`);
-  const ok = await fs.access(d, fsConstants.W_OK | fsConstants.X_OK).then(() => true, () => false);
-  if (!ok) throw new OutputRefusedError(`refusing --out ${out}: ${d} is not writable, so the site (and its lock and temporary folder beside it) cannot be written there; choose another --out or fix the folder's permissions`);
+  const ok = await fs.access(d, fsConstants.W_OK | fsConstants.X_OK).then(
+    () => true,
+    () => false,
+  );
+  if (!ok)
+    throw new OutputRefusedError(
+      `refusing --out ${out}: ${d} is not writable, so the site (and its lock and temporary folder beside it) cannot be written there; choose another --out or fix the folder's permissions`,
+    );
 }

@@ -33,7 +33,12 @@ type PageExtras = ReturnType<typeof waferPageExtras> extends Map<string, infer E
 export const PAGES_PER_RENDER = Number(process.env.WAFERBOOK_PAGES_PER_RENDER) > 0 ? Number(process.env.WAFERBOOK_PAGES_PER_RENDER) : 40;
 
 /** The wafer pages of `folders` as the templates read them: each drawn model with what the page shows beside it. */
-export async function waferPageBatch(folders: readonly string[], scratchDir: string, extras: ReadonlyMap<string, PageExtras>, fingerprints: ReadonlyMap<string, string>) {
+export async function waferPageBatch(
+  folders: readonly string[],
+  scratchDir: string,
+  extras: ReadonlyMap<string, PageExtras>,
+  fingerprints: ReadonlyMap<string, string>,
+) {
   const batch = [];
   for (const folder of folders) {
     const model = v8.deserialize(await fs.readFile(parkedPath(scratchDir, folder))) as PageModel;
@@ -46,7 +51,14 @@ export async function waferPageBatch(folders: readonly string[], scratchDir: str
  * Renders the drawn pages of `folders` (in that order), PAGES_PER_RENDER per
  * Eleventy run; returns the number of pages written.
  */
-export async function renderWaferPages(folders: readonly string[], outDir: string, scratchDir: string, meta: SiteMeta, extras: ReadonlyMap<string, PageExtras>, fingerprints: ReadonlyMap<string, string>): Promise<number> {
+export async function renderWaferPages(
+  folders: readonly string[],
+  outDir: string,
+  scratchDir: string,
+  meta: SiteMeta,
+  extras: ReadonlyMap<string, PageExtras>,
+  fingerprints: ReadonlyMap<string, string>,
+): Promise<number> {
   let written = 0;
   for (let k = 0; k < folders.length; k += PAGES_PER_RENDER) {
     const wafers = await waferPageBatch(folders.slice(k, k + PAGES_PER_RENDER), scratchDir, extras, fingerprints);
@@ -61,9 +73,18 @@ export async function renderWaferPages(folders: readonly string[], outDir: strin
  * pages in one Eleventy run; more are rendered in batches of PAGES_PER_RENDER.
  * Returns the pages written.
  */
-export async function renderSite(model: object, folders: readonly string[], outDir: string, scratchDir: string, meta: SiteMeta, extras: ReadonlyMap<string, PageExtras>, fingerprints: ReadonlyMap<string, string>): Promise<number> {
+export async function renderSite(
+  model: object,
+  folders: readonly string[],
+  outDir: string,
+  scratchDir: string,
+  meta: SiteMeta,
+  extras: ReadonlyMap<string, PageExtras>,
+  fingerprints: ReadonlyMap<string, string>,
+): Promise<number> {
   const templates = path.join(PACKAGE_ROOT, "templates");
-  if (folders.length <= PAGES_PER_RENDER) return renderTemplates(templates, outDir, { ...model, wafers: await waferPageBatch(folders, scratchDir, extras, fingerprints) });
+  if (folders.length <= PAGES_PER_RENDER)
+    return renderTemplates(templates, outDir, { ...model, wafers: await waferPageBatch(folders, scratchDir, extras, fingerprints) });
   const written = await renderTemplates(templates, outDir, { ...model, wafers: [] });
   return written + (await renderWaferPages(folders, outDir, scratchDir, meta, extras, fingerprints));
 }
@@ -103,7 +124,9 @@ export async function renderTemplates(input: string, outDir: string, wb: unknown
   elev.disableLogger();
   const result = (await elev.write()) as unknown;
   // The result lists the passthrough copies and the templates written; count the pages.
-  const pages = Array.isArray(result) ? (result as unknown[]).flat(3).filter((x) => typeof x === "object" && x !== null && "outputPath" in x && "content" in x).length : 0;
+  const pages = Array.isArray(result)
+    ? (result as unknown[]).flat(3).filter((x) => typeof x === "object" && x !== null && "outputPath" in x && "content" in x).length
+    : 0;
   // Every call has pages to write; none means Eleventy skipped the templates (it ignores node_modules/ unless told: .eleventy.js).
   if (pages === 0) throw new Error(`Eleventy wrote no page from ${input}`);
   return pages;

@@ -18,7 +18,9 @@ export function reportProblems(problems: Problem[], log: (s: string) => void): v
 export function summary(result: BuildResult, seconds: number): string {
   const counts = new Map<string, number>();
   for (const o of result.outcomes) counts.set(o.judgement.verdict, (counts.get(o.judgement.verdict) ?? 0) + 1);
-  const verdicts = SUMMARY_ORDER.filter((v) => counts.has(v)).map((v) => `${counts.get(v)} ${v}`).join(", ");
+  const verdicts = SUMMARY_ORDER.filter((v) => counts.has(v))
+    .map((v) => `${counts.get(v)} ${v}`)
+    .join(", ");
   const errors = result.problems.filter((p) => p.severity === "error").length;
   const warnings = result.problems.filter((p) => p.severity === "warning").length;
   return `${countText(result.outcomes.length, "wafer")} (${verdicts || "none"}); ${countText(errors, "input error")}, ${countText(warnings, "warning")}; ${seconds.toFixed(1)} s`;

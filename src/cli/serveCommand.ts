@@ -42,7 +42,11 @@ export interface ServeHandle {
 
 /** Builds, serves and starts watching; resolves once the server listens. */
 /** Middleware: 400 for a request path that does not decode, or decodes to a segment "..", a backslash or a NUL. */
-function refuseEscapingPaths(req: { url?: string }, res: { statusCode: number; setHeader(k: string, v: string): void; end(b?: string): void }, next: () => void): void {
+function refuseEscapingPaths(
+  req: { url?: string },
+  res: { statusCode: number; setHeader(k: string, v: string): void; end(b?: string): void },
+  next: () => void,
+): void {
   let decoded: string;
   try {
     decoded = decodeURIComponent(new URL(req.url ?? "/", "http://localhost").pathname);
@@ -63,7 +67,8 @@ export async function startServe(options: ServeOptions, io: CommandIO): Promise<
   const outDir = path.resolve(options.out);
   const buildOptions: BuildOptions = { data: options.data, out: options.out, strict: false, basePath: "", quiet: options.quiet };
   const buildOnce = () => runBuild(buildOptions, io, { announce: false });
-  if ((await buildOnce()) !== EXIT.ok) io.err("waferbook serve: the first build failed; fix the problems above and save: the site is built again on every change.");
+  if ((await buildOnce()) !== EXIT.ok)
+    io.err("waferbook serve: the first build failed; fix the problems above and save: the site is built again on every change.");
 
   const { default: DevServer } = await import("@11ty/eleventy-dev-server");
   const server = DevServer.getServer("waferbook", outDir, {
@@ -95,7 +100,11 @@ export async function startServe(options: ServeOptions, io: CommandIO): Promise<
       timer = setTimeout(() => void rebuild(), DEBOUNCE_MS);
     });
     // A watcher whose folder was just removed may report errors: the presence check speaks for that case.
-    w.on("error", (e: unknown) => void checkPresence().then((there) => there && io.err(`waferbook serve: watching ${shown(dataDir)}: ${(e as Error)?.message ?? String(e)}`)));
+    w.on(
+      "error",
+      (e: unknown) =>
+        void checkPresence().then((there) => there && io.err(`waferbook serve: watching ${shown(dataDir)}: ${(e as Error)?.message ?? String(e)}`)),
+    );
     return w;
   };
   let timer: NodeJS.Timeout | undefined;

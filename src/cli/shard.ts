@@ -50,7 +50,9 @@ const idHash = (id: string) => createHash("sha256").update(id).digest("hex");
  * (id, bytes) pairs, never on the order they are given in.
  */
 export function partition(wafers: readonly { id: string; bytes: number }[], count: number): Map<string, number> {
-  const order = wafers.map((w) => ({ ...w, h: idHash(w.id) })).sort((a, b) => b.bytes - a.bytes || (a.h < b.h ? -1 : a.h > b.h ? 1 : 0) || (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
+  const order = wafers
+    .map((w) => ({ ...w, h: idHash(w.id) }))
+    .sort((a, b) => b.bytes - a.bytes || (a.h < b.h ? -1 : a.h > b.h ? 1 : 0) || (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
   const load = new Array<number>(count).fill(0);
   const out = new Map<string, number>();
   for (const w of order) {

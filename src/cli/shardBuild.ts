@@ -42,11 +42,27 @@ export async function buildShard(options: BuildOptions & { shard: Shard }, io: B
   const shardInfo = { ...options.shard, wafers: 0, of: site.waferFolders.length, cacheDir, pagesStored: 0 };
   const sitewide = siteWideErrors(site.problems);
   if (sitewide.length) {
-    return { ok: false, outcomes: [], problems: [...site.problems], outDir, pages: 0, reason: `${sitewide.length} site-wide input error${sitewide.length === 1 ? "" : "s"} (listed above)`, shard: shardInfo };
+    return {
+      ok: false,
+      outcomes: [],
+      problems: [...site.problems],
+      outDir,
+      pages: 0,
+      reason: `${sitewide.length} site-wide input error${sitewide.length === 1 ? "" : "s"} (listed above)`,
+      shard: shardInfo,
+    };
   }
   const folders = await shardFolders(dataDir, site.waferFolders, options.shard);
   shardInfo.wafers = folders.length;
-  const ctx: PipelineContext = { dataDir, today: io.today(), siteSettings: site.settings, targets: site.targets, siteOverrides: site.settingOverrides, version, sitewideErrors: [] };
+  const ctx: PipelineContext = {
+    dataDir,
+    today: io.today(),
+    siteSettings: site.settings,
+    targets: site.targets,
+    siteOverrides: site.settingOverrides,
+    version,
+    sitewideErrors: [],
+  };
   // The jobs draw pictures and park models here; they are copied into the cache, then the folder goes.
   const work = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-shard-"));
   const pagesDir = path.join(work, "out");
@@ -59,7 +75,17 @@ export async function buildShard(options: BuildOptions & { shard: Shard }, io: B
     t = now;
   };
   const [code, pageCode] = await Promise.all([codeVersion(version), pageCodeVersion(version)]);
-  const jobs = new WaferJobs({ dataDir, today: ctx.today, siteSettings: ctx.siteSettings, waferListing: site.waferListing, cacheDir, code, pipeline: ctx, outDir: pagesDir, scratchDir });
+  const jobs = new WaferJobs({
+    dataDir,
+    today: ctx.today,
+    siteSettings: ctx.siteSettings,
+    waferListing: site.waferListing,
+    cacheDir,
+    code,
+    pipeline: ctx,
+    outDir: pagesDir,
+    scratchDir,
+  });
   const outcomes: WaferOutcome[] = new Array(folders.length);
   const keys: (string | undefined)[] = new Array(folders.length);
   const drawn = new Set<number>();
@@ -74,7 +100,8 @@ export async function buildShard(options: BuildOptions & { shard: Shard }, io: B
       } catch (err) {
         failure ??= err;
       }
-      if (!options.quiet) io.log(`shard ${options.shard.index}/${options.shard.count}: analysed ${++done}/${folders.length} ${r.entry.folder}${r.cacheHit ? " (cached)" : ""}`);
+      if (!options.quiet)
+        io.log(`shard ${options.shard.index}/${options.shard.count}: analysed ${++done}/${folders.length} ${r.entry.folder}${r.cacheHit ? " (cached)" : ""}`);
     });
     if (failure !== undefined) throw failure;
     lap("analyse");
@@ -96,7 +123,14 @@ export async function buildShard(options: BuildOptions & { shard: Shard }, io: B
     }
     lap("store");
     const problems: Problem[] = [...site.problems, ...jobs.cacheWarnings, ...outcomes.flatMap((o) => o.problems)];
-    const stats = { cacheHits: analysed.filter((a) => a.cacheHit).length, analysed: analysed.filter((a) => !a.cacheHit).length, pagesReused: 0, drawn: drawn.size, filesHashed: jobs.fileHashes?.hashed ?? 0, phases };
+    const stats = {
+      cacheHits: analysed.filter((a) => a.cacheHit).length,
+      analysed: analysed.filter((a) => !a.cacheHit).length,
+      pagesReused: 0,
+      drawn: drawn.size,
+      filesHashed: jobs.fileHashes?.hashed ?? 0,
+      phases,
+    };
     return { ok: true, outcomes, problems, outDir, pages: 0, stats, shard: shardInfo };
   } finally {
     await jobs.close();

@@ -52,7 +52,10 @@ async function readLayout(outDir: string): Promise<Layout> {
   const re = genPattern(base);
   // Only folders that carry the marker are generations (a folder of the user's with a look-alike name is never touched).
   const named = (await fs.readdir(parent)).map((n) => re.exec(n)).filter((m) => m !== null);
-  const gens = named.filter((m) => isMarkedFolder(path.join(parent, m[0]))).map((m) => Number(m[1])).sort((a, b) => a - b);
+  const gens = named
+    .filter((m) => isMarkedFolder(path.join(parent, m[0])))
+    .map((m) => Number(m[1]))
+    .sort((a, b) => a - b);
   // New generations are numbered past every look-alike name too, so a publish never lands on one.
   const highest = Math.max(0, ...named.map((m) => Number(m[1])));
   const st = await fs.lstat(outDir).catch(() => null);
@@ -119,7 +122,11 @@ export async function recoverInterrupted(outDir: string): Promise<string[]> {
   const links = names.filter((n) => n.startsWith(`.${layout.base}-link-`));
   await removeAll(layout.parent, [...left.filter((n) => n !== old || layout.kind !== "missing"), ...links], warnings);
   // Generations never published (newer than the link's); older ones are pruned after the next publish.
-  await removeAll(layout.parent, layout.gens.filter((g) => layout.current !== null && g > layout.current).map((g) => genName(layout.base, g)), warnings);
+  await removeAll(
+    layout.parent,
+    layout.gens.filter((g) => layout.current !== null && g > layout.current).map((g) => genName(layout.base, g)),
+    warnings,
+  );
   return warnings;
 }
 
@@ -164,8 +171,15 @@ async function migrate(layout: Layout, outDir: string): Promise<Layout> {
   try {
     await pointAt(layout, n);
   } catch (err) {
-    const back = await fs.rename(gen, outDir).then(() => true, () => false);
-    const e = new BuildStoppedError(back ? `could not publish the site at ${outDir} (${describe(err)})` : `could not publish the site at ${outDir} (${describe(err)}); the previous site is now at ${gen}: rename it back to ${outDir}`);
+    const back = await fs.rename(gen, outDir).then(
+      () => true,
+      () => false,
+    );
+    const e = new BuildStoppedError(
+      back
+        ? `could not publish the site at ${outDir} (${describe(err)})`
+        : `could not publish the site at ${outDir} (${describe(err)}); the previous site is now at ${gen}: rename it back to ${outDir}`,
+    );
     e.previousKept = back;
     throw e;
   }

@@ -173,7 +173,10 @@ export class Prestarted {
  * core, WAFERBOOK_WORKERS=0, fewer than MIN_WAFERS_FOR_WORKERS wafer folders).
  */
 export async function prestartWorkers(dataDir: string, cacheDir: string | null): Promise<Prestarted> {
-  const folders = await fs.readdir(path.join(dataDir, "wafers"), { withFileTypes: true }).then((l) => l.filter((e) => e.isDirectory() || e.isSymbolicLink()).length, () => 0);
+  const folders = await fs.readdir(path.join(dataDir, "wafers"), { withFileTypes: true }).then(
+    (l) => l.filter((e) => e.isDirectory() || e.isSymbolicLink()).length,
+    () => 0,
+  );
   const cold = cacheDir === null || !existsSync(path.join(cacheDir, "file-hashes.json"));
   return new Prestarted(Math.min(poolSize(folders), cold ? MAX_WORKERS : 1));
 }

@@ -7,7 +7,13 @@ import { allResultsJson, pointsCsv, resultsCsv } from "../publish/exports.ts";
 import { sortOutcomes } from "../publish/siteModel.ts";
 
 /** `reused`: wafers whose folder was linked from the previous output (their points.csv is already there and must not be written through the link). */
-export async function writeExports(outcomes: readonly WaferOutcome[], outDir: string, meta: { version: string; builtAt: string; dataCommit?: string | null }, runs: ReadonlyMap<string, RunNotes>, reused: ReadonlySet<string> = new Set()): Promise<void> {
+export async function writeExports(
+  outcomes: readonly WaferOutcome[],
+  outDir: string,
+  meta: { version: string; builtAt: string; dataCommit?: string | null },
+  runs: ReadonlyMap<string, RunNotes>,
+  reused: ReadonlySet<string> = new Set(),
+): Promise<void> {
   const sorted = sortOutcomes(outcomes);
   await fs.writeFile(path.join(outDir, "results.csv"), resultsCsv(sorted, runs));
   await fs.writeFile(path.join(outDir, "results.json"), JSON.stringify(allResultsJson(sorted, meta, runs), null, 1) + "\n");

@@ -29,7 +29,15 @@ export type CommitsOf = (folder: string) => { wafer: string | null; targets: str
  * a time: this is file copies, links and small writes, mostly waiting on the
  * disk.
  */
-export async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmpDir: string, commitsOf: CommitsOf, outDir: string, reused: ReadonlySet<string>, hashes: FileHashes | undefined): Promise<void> {
+export async function writeExtras(
+  outcomes: WaferOutcome[],
+  dataDir: string,
+  tmpDir: string,
+  commitsOf: CommitsOf,
+  outDir: string,
+  reused: ReadonlySet<string>,
+  hashes: FileHashes | undefined,
+): Promise<void> {
   await fs.mkdir(path.join(tmpDir, "raw"), { recursive: true });
   const placed = new Set<string>();
   const limit = pLimit(8);
@@ -71,9 +79,20 @@ export async function writeExtras(outcomes: WaferOutcome[], dataDir: string, tmp
  * and written. A file that changed during the build stops the build (the
  * previous site stays).
  */
-export async function placeRawCopy(rawAbs: string, dest: string, prevCopy: string, sha256: string, rel: string, hashes: FileHashes | undefined, dataDir = path.dirname(rawAbs)): Promise<void> {
+export async function placeRawCopy(
+  rawAbs: string,
+  dest: string,
+  prevCopy: string,
+  sha256: string,
+  rel: string,
+  hashes: FileHashes | undefined,
+  dataDir = path.dirname(rawAbs),
+): Promise<void> {
   if (linkOrCopy(prevCopy, dest, { copy: false })) return;
-  const changed = () => new BuildStoppedError(`${rel} changed while the site was being built (its bytes no longer match the SHA-256 that was analysed); build again once it is complete`);
+  const changed = () =>
+    new BuildStoppedError(
+      `${rel} changed while the site was being built (its bytes no longer match the SHA-256 that was analysed); build again once it is complete`,
+    );
   let file: OpenDataFile;
   try {
     file = await openDataFile(dataDir, rawAbs);

@@ -83,10 +83,7 @@ export interface ControlChartFailure {
  * series or with fewer than 2 points, or σ̂ = 0 (baseline values all equal: no spread to judge by;
  * `centreLine` is still given). Never throws for data reasons.
  */
-export function controlChart(
-  series: readonly ChartInput[],
-  baseline?: BaselineWindow,
-): ControlChart | ControlChartFailure {
+export function controlChart(series: readonly ChartInput[], baseline?: BaselineWindow): ControlChart | ControlChartFailure {
   if (series.length === 0) return { ok: false, reason: "no points to chart" };
   const bad = series.filter((p) => !Number.isFinite(p.value)).map((p) => p.id);
   if (bad.length > 0) {
@@ -126,10 +123,7 @@ export function controlChart(
   return { ok: true, limits, points };
 }
 
-function resolveBaseline(
-  n: number,
-  baseline: BaselineWindow | undefined,
-): { from: number; to: number } | { reason: string } {
+function resolveBaseline(n: number, baseline: BaselineWindow | undefined): { from: number; to: number } | { reason: string } {
   let from = 0;
   let to = n - 1;
   if (baseline && "first" in baseline) {
@@ -168,11 +162,7 @@ export function classifyPoint(p: ChartInput, index: number, l: ControlLimits, in
  * (ISO 8601, compared as calendar dates/timestamps) lies within [fromDate, toDate] inclusive.
  * Points without a parseable date are ignored. Returns `{ reason }` when no point falls inside.
  */
-export function baselineFromDates(
-  series: readonly ChartInput[],
-  fromDate: string,
-  toDate: string,
-): { from: number; to: number } | { reason: string } {
+export function baselineFromDates(series: readonly ChartInput[], fromDate: string, toDate: string): { from: number; to: number } | { reason: string } {
   const lo = Date.parse(fromDate);
   const hi = Date.parse(toDate);
   if (Number.isNaN(lo) || Number.isNaN(hi)) return { reason: `baseline dates are not valid ISO dates: ${fromDate}, ${toDate}` };

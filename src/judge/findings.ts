@@ -32,12 +32,49 @@ export interface FindingSpec {
 }
 
 export const FINDING_SPECS: readonly FindingSpec[] = [
-  { key: "incoherent_well", label: "Incoherent well", description: "the well's in-plane lattice does not run on from the reference across its interfaces (geometric phase analysis of the micrographs)", defaultConsequence: "fail", clear: "the well is coherent" },
-  { key: "beyond_critical_thickness", label: "Beyond critical thickness", description: "the well is thicker than its Matthews–Blakeslee critical thickness", defaultConsequence: "fail", clear: "the well is within its critical thickness" },
-  { key: "parallel_conduction", label: "Parallel conduction", description: "the Hall density differs from the Shubnikov–de Haas density of the well by more than sdh_mismatch_tolerance", defaultConsequence: "fail", clear: "Hall and SdH densities agree" },
-  { key: "one_sign_field", label: "One-sign field sweep", description: "a field sweep has one field sign only, so Rxx and Rxy are not (anti)symmetrised", defaultConsequence: "marginal", clear: "every field sweep has both field signs" },
-  { key: "fit_undetermined", label: "Rejected or undetermined fit", description: "a fit that had its data (Hall slope, gate calibration, percolation, power law, quantum lifetime, depth-profile edges, X-ray, micrograph profile or strain maps) was rejected or left undetermined", defaultConsequence: "marginal", clear: "every fit with data was accepted" },
-  { key: "coarse_profile", label: "Profile too coarse", description: `the depth profile has fewer than ${MIN_POINTS_ACROSS_INTERFACE} depth steps across an interface's 10–90 % width`, defaultConsequence: "marginal", clear: "the profile resolves both interfaces" },
+  {
+    key: "incoherent_well",
+    label: "Incoherent well",
+    description: "the well's in-plane lattice does not run on from the reference across its interfaces (geometric phase analysis of the micrographs)",
+    defaultConsequence: "fail",
+    clear: "the well is coherent",
+  },
+  {
+    key: "beyond_critical_thickness",
+    label: "Beyond critical thickness",
+    description: "the well is thicker than its Matthews–Blakeslee critical thickness",
+    defaultConsequence: "fail",
+    clear: "the well is within its critical thickness",
+  },
+  {
+    key: "parallel_conduction",
+    label: "Parallel conduction",
+    description: "the Hall density differs from the Shubnikov–de Haas density of the well by more than sdh_mismatch_tolerance",
+    defaultConsequence: "fail",
+    clear: "Hall and SdH densities agree",
+  },
+  {
+    key: "one_sign_field",
+    label: "One-sign field sweep",
+    description: "a field sweep has one field sign only, so Rxx and Rxy are not (anti)symmetrised",
+    defaultConsequence: "marginal",
+    clear: "every field sweep has both field signs",
+  },
+  {
+    key: "fit_undetermined",
+    label: "Rejected or undetermined fit",
+    description:
+      "a fit that had its data (Hall slope, gate calibration, percolation, power law, quantum lifetime, depth-profile edges, X-ray, micrograph profile or strain maps) was rejected or left undetermined",
+    defaultConsequence: "marginal",
+    clear: "every fit with data was accepted",
+  },
+  {
+    key: "coarse_profile",
+    label: "Profile too coarse",
+    description: `the depth profile has fewer than ${MIN_POINTS_ACROSS_INTERFACE} depth steps across an interface's 10–90 % width`,
+    defaultConsequence: "marginal",
+    clear: "the profile resolves both interfaces",
+  },
 ];
 
 export const FINDING_BY_KEY: ReadonlyMap<string, FindingSpec> = new Map(FINDING_SPECS.map((f) => [f.key, f]));
@@ -68,27 +105,53 @@ export function findingChecks(a: WaferAnalysis | undefined): FindingCheck[] {
   const depth = a.devices.filter((d) => d.depth);
   const sampled = (a.structure?.profiles ?? []).flatMap((p) => (p.result.ok ? [{ file: p.data.file, r: p.result }] : []));
   return [
-    check("incoherent_well", coherence.length > 0, coherence.flatMap(({ file, c }) => (c.coherent ? [] : c.findings.map((f) => `${base(file)}: ${f}`))), "no micrograph gave strain maps of the well"),
+    check(
+      "incoherent_well",
+      coherence.length > 0,
+      coherence.flatMap(({ file, c }) => (c.coherent ? [] : c.findings.map((f) => `${base(file)}: ${f}`))),
+      "no micrograph gave strain maps of the well",
+    ),
     check("beyond_critical_thickness", !!crit?.ok, crit?.ok && crit.beyond ? [crit.statement] : [], crit && !crit.ok ? crit.reason : "no structure data"),
     check(
       "parallel_conduction",
       depth.some((d) => d.depth!.points.some((p) => p.mismatch)),
-      depth.flatMap((d) => (d.depth!.parallelConduction.length ? [`device ${d.id}: Hall and SdH densities differ beyond tolerance at ${d.depth!.parallelConduction.map(base).join(", ")}`] : [])),
+      depth.flatMap((d) =>
+        d.depth!.parallelConduction.length
+          ? [`device ${d.id}: Hall and SdH densities differ beyond tolerance at ${d.depth!.parallelConduction.map(base).join(", ")}`]
+          : [],
+      ),
       "no field sweep gave a Shubnikov–de Haas density to compare",
     ),
-    check("one_sign_field", points.length > 0, oneSign(points.filter(({ p }) => !p.symmetrised).map(({ d, p }) => ({ id: d.id, file: p.file }))), "no analysed field sweep"),
+    check(
+      "one_sign_field",
+      points.length > 0,
+      oneSign(points.filter(({ p }) => !p.symmetrised).map(({ d, p }) => ({ id: d.id, file: p.file }))),
+      "no analysed field sweep",
+    ),
     check("fit_undetermined", true, undeterminedFits(a), ""),
-    check("coarse_profile", sampled.length > 0, sampled.flatMap(({ file, r }) => {
-      const s = profileSampling(r.depthStep, [r.top.width10to90, r.bottom.width10to90]);
-      return s.coarse ? [`${base(file)}: ${s.pointsAcross.toFixed(1)} depth steps of ${s.step.toPrecision(2)} nm across the narrower interface; at least ${MIN_POINTS_ACROSS_INTERFACE} are needed, so the widths are upper bounds`] : [];
-    }), "no depth profile was analysed"),
+    check(
+      "coarse_profile",
+      sampled.length > 0,
+      sampled.flatMap(({ file, r }) => {
+        const s = profileSampling(r.depthStep, [r.top.width10to90, r.bottom.width10to90]);
+        return s.coarse
+          ? [
+              `${base(file)}: ${s.pointsAcross.toFixed(1)} depth steps of ${s.step.toPrecision(2)} nm across the narrower interface; at least ${MIN_POINTS_ACROSS_INTERFACE} are needed, so the widths are upper bounds`,
+            ]
+          : [];
+      }),
+      "no depth profile was analysed",
+    ),
   ];
 }
 
 function oneSign(list: { id: string; file: string }[]): string[] {
   const byDevice = new Map<string, string[]>();
   for (const x of list) byDevice.set(x.id, [...(byDevice.get(x.id) ?? []), base(x.file)]);
-  return [...byDevice].map(([id, files]) => `device ${id}: ${files.length} field sweep${files.length === 1 ? "" : "s"} with one field sign (${files.join(", ")}), not (anti)symmetrised`);
+  return [...byDevice].map(
+    ([id, files]) =>
+      `device ${id}: ${files.length} field sweep${files.length === 1 ? "" : "s"} with one field sign (${files.join(", ")}), not (anti)symmetrised`,
+  );
 }
 
 /**
@@ -112,7 +175,8 @@ function undeterminedFits(a: WaferAnalysis): string[] {
     // Dingle fit) is undetermined when no point gave one although some had oscillations and a temperature
     // (without a temperature the thermal factor is unknown: missing data, not an undetermined fit).
     const withTemperature = new Set(d.points.filter((p) => p.temperature_K !== undefined).map((p) => p.file));
-    if (x.points.some((p) => p.sdh.ok && withTemperature.has(p.file)) && !x.quantumLifetime.ok) out.push(`device ${d.id}: quantum lifetime not determined: ${x.quantumLifetime.reason}`);
+    if (x.points.some((p) => p.sdh.ok && withTemperature.has(p.file)) && !x.quantumLifetime.ok)
+      out.push(`device ${d.id}: quantum lifetime not determined: ${x.quantumLifetime.reason}`);
   }
   const s = a.structure;
   for (const p of s?.profiles ?? []) if (!p.result.ok) out.push(`${base(p.data.file)}: depth profile not fitted: ${p.result.reason}`);

@@ -62,7 +62,11 @@ export interface OutcomeContext {
   sitewideErrors: Problem[];
 }
 
-export function judgeOutcome(loaded: Pick<LoadedWafer, "folder" | "record" | "problems" | "files">, analysis: WaferAnalysis | undefined, ctx: OutcomeContext): WaferOutcome {
+export function judgeOutcome(
+  loaded: Pick<LoadedWafer, "folder" | "record" | "problems" | "files">,
+  analysis: WaferAnalysis | undefined,
+  ctx: OutcomeContext,
+): WaferOutcome {
   const problems = [...loaded.problems];
   const record = loaded.record;
   const values = analysis ? metricValues(analysis) : {};
@@ -72,7 +76,15 @@ export function judgeOutcome(loaded: Pick<LoadedWafer, "folder" | "record" | "pr
   const capped = problems.map(capProblem);
   const errors = [...capped.filter((p) => p.severity === "error"), ...ctx.sitewideErrors];
   const targets = ctx.targets ?? { defaultGrade: grade, grades: {}, findings: {}, file: "targets.yaml" };
-  const judgement = judgeWafer(values, grade, targets, record?.waivers ?? [], errors.length > 0, errors.map((p) => `input error: ${formatProblem(p)}`), findingChecks(analysis));
+  const judgement = judgeWafer(
+    values,
+    grade,
+    targets,
+    record?.waivers ?? [],
+    errors.length > 0,
+    errors.map((p) => `input error: ${formatProblem(p)}`),
+    findingChecks(analysis),
+  );
   return {
     folder: loaded.folder,
     record,
@@ -83,4 +95,3 @@ export function judgeOutcome(loaded: Pick<LoadedWafer, "folder" | "record" | "pr
     provenance: { files: loaded.files, settings: settingsProvenance(record, ctx.siteOverrides), waferbookVersion: ctx.version },
   };
 }
-

@@ -34,13 +34,31 @@ export interface VerdictState {
 }
 
 export const VERDICT_STATES: readonly VerdictState[] = [
-  { key: "unmeasured", word: "unmeasured", meaning: "no value: not measured, or the analysis could not compute it; the grade does not require it", rank: 0, judged: false },
-  { key: "recorded", word: "recorded", meaning: "measured, but not judged: the grade sets no limit for it, or a premise of the analysis does not hold (the reason says which)", rank: 0, judged: false },
+  {
+    key: "unmeasured",
+    word: "unmeasured",
+    meaning: "no value: not measured, or the analysis could not compute it; the grade does not require it",
+    rank: 0,
+    judged: false,
+  },
+  {
+    key: "recorded",
+    word: "recorded",
+    meaning: "measured, but not judged: the grade sets no limit for it, or a premise of the analysis does not hold (the reason says which)",
+    rank: 0,
+    judged: false,
+  },
   { key: "unjudged", word: "unjudged", meaning: "wafer: nothing its grade sets a limit for could be judged", rank: 0, judged: false },
   { key: "noted", word: "noted", meaning: "an open finding that the grade (or a waiver) lets stand as a note", rank: 0, judged: false },
   { key: "pass", word: "pass", meaning: "within every limit", rank: 1, judged: true },
   { key: "waived", word: "waived", meaning: "not passing, but a recorded waiver covers it", rank: 2, judged: true },
-  { key: "marginal", word: "marginal", meaning: "passes, but within the guard band of a limit, or a finding the grade counts as marginal", rank: 3, judged: true },
+  {
+    key: "marginal",
+    word: "marginal",
+    meaning: "passes, but within the guard band of a limit, or a finding the grade counts as marginal",
+    rank: 3,
+    judged: true,
+  },
   { key: "incomplete", word: "incomplete", meaning: "the grade requires a value that is missing", rank: 4, judged: true },
   { key: "fail", word: "fail", meaning: "outside a limit, or a finding the grade counts as a failure", rank: 5, judged: true },
   { key: "error", word: "error", meaning: "an input file is broken; see Input problems", rank: 6, judged: true },

@@ -58,7 +58,13 @@ export function targetsChange(
   wafers: readonly (WaferForHistory & { id: string })[],
 ): TargetsChange {
   if (!after.targets) return { limits: [], other: [], flips: [], note: after.error ?? "targets.yaml does not parse at this commit" };
-  if (before && !before.targets) return { limits: diffLimits(undefined, after.targets), other: [], flips: [], note: `the previous version did not parse (${before.error ?? "unknown reason"}), so verdicts cannot be compared` };
+  if (before && !before.targets)
+    return {
+      limits: diffLimits(undefined, after.targets),
+      other: [],
+      flips: [],
+      note: `the previous version did not parse (${before.error ?? "unknown reason"}), so verdicts cannot be compared`,
+    };
   const old = before?.targets;
   const other: string[] = [];
   if (old && old.defaultGrade !== after.targets.defaultGrade) other.push(`default grade ${old.defaultGrade} → ${after.targets.defaultGrade}`);

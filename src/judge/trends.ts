@@ -67,7 +67,15 @@ interface TrendCommon {
 }
 
 export type Trend =
-  | (TrendCommon & { ok: true; limits: ControlLimits; clipped?: { lcl?: number; ucl?: number }; passes: number; stoppedAtLimit: boolean; runLength: number; flagged: number })
+  | (TrendCommon & {
+      ok: true;
+      limits: ControlLimits;
+      clipped?: { lcl?: number; ucl?: number };
+      passes: number;
+      stoppedAtLimit: boolean;
+      runLength: number;
+      flagged: number;
+    })
   | (TrendCommon & { ok: false; reason: string });
 
 export interface TrendContext {
@@ -114,11 +122,19 @@ export function trendChart(inputs: readonly TrendInput[], settings: TrendSetting
   const eligible = ordered.filter((_, i) => notes[i] === "");
   const window = baselineWindow(eligible, settings);
   const plain = (reason: string, dropped: DroppedPoint[] = []): Trend => ({
-    ok: false, reason, baselineText, group, dropped,
+    ok: false,
+    reason,
+    baselineText,
+    group,
+    dropped,
     points: ordered.map((p, i) => ({ ...p, z: null, inBaseline: false, role: notes[i] ? "left-out" : "monitored", note: notes[i], rules: [], why: "" })),
   });
   if ("reason" in window) return plain(window.reason);
-  const phase = phaseOneLimits(window.points.map((p) => ({ id: p.id, value: p.value, date: p.date })), settings.maxPasses ?? DEFAULT_MAX_PASSES, ctx.bounds);
+  const phase = phaseOneLimits(
+    window.points.map((p) => ({ id: p.id, value: p.value, date: p.date })),
+    settings.maxPasses ?? DEFAULT_MAX_PASSES,
+    ctx.bounds,
+  );
   if (!phase.ok) return plain(phase.reason, phase.dropped);
   const kept = new Set(phase.kept);
   const droppedIds = new Map(phase.dropped.map((d) => [d.id, d]));
@@ -129,15 +145,32 @@ export function trendChart(inputs: readonly TrendInput[], settings: TrendSetting
   const rulesById = new Map(flags.points.map((f) => [f.id, f.rules]));
   const points: TrendPoint[] = ordered.map((p, i) => {
     const left = notes[i] !== "";
-    const rules = left ? [] : rulesById.get(p.id) ?? [];
+    const rules = left ? [] : (rulesById.get(p.id) ?? []);
     const d = droppedIds.get(p.id);
     const role: PointRole = left ? "left-out" : kept.has(p.id) ? "baseline" : d ? "dropped" : "monitored";
     const note = left ? notes[i] : d ? `dropped from the baseline in pass ${d.pass}: beyond the trial ${d.side === "above" ? "upper" : "lower"} limit` : "";
-    return { ...p, z: (p.value - limits.centreLine) / limits.sigma, inBaseline: role === "baseline", role, note, rules, why: rules.map((r) => `rule ${r}: ${describeRule(r, flags.runLength)}`).join("; ") };
+    return {
+      ...p,
+      z: (p.value - limits.centreLine) / limits.sigma,
+      inBaseline: role === "baseline",
+      role,
+      note,
+      rules,
+      why: rules.map((r) => `rule ${r}: ${describeRule(r, flags.runLength)}`).join("; "),
+    };
   });
   return {
-    ok: true, points, limits, clipped: phase.clipped, passes: phase.passes, stoppedAtLimit: phase.stoppedAtLimit, dropped: phase.dropped,
-    runLength: flags.runLength, flagged: points.filter((p) => p.rules.length).length, baselineText, group,
+    ok: true,
+    points,
+    limits,
+    clipped: phase.clipped,
+    passes: phase.passes,
+    stoppedAtLimit: phase.stoppedAtLimit,
+    dropped: phase.dropped,
+    runLength: flags.runLength,
+    flagged: points.filter((p) => p.rules.length).length,
+    baselineText,
+    group,
   };
 }
 
@@ -165,5 +198,11 @@ export function trendGroups(inputs: readonly TrendInput[], settings: TrendSettin
   if (by === "none") return [trendChart(inputs, settings, { ...ctx, group: "" })];
   const keyOf = (p: TrendInput) => (by === "reactor" ? p.reactor : p.run) ?? "";
   const names = [...new Set(inputs.map(keyOf))].sort();
-  return names.map((g) => trendChart(inputs.filter((p) => keyOf(p) === g), settings, { ...ctx, group: g }));
+  return names.map((g) =>
+    trendChart(
+      inputs.filter((p) => keyOf(p) === g),
+      settings,
+      { ...ctx, group: g },
+    ),
+  );
 }

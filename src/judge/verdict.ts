@@ -87,8 +87,16 @@ export function judgeValue(value: number, t: Target): { verdict: "pass" | "margi
   if (t.min !== undefined && value < t.min) return { verdict: "fail", reason: `${spec.label} ${fmt(value)} is below the minimum ${fmt(t.min)}` };
   if (t.max !== undefined && value > t.max) return { verdict: "fail", reason: `${spec.label} ${fmt(value)} is above the maximum ${fmt(t.max)}` };
   if (t.guard) {
-    if (t.min !== undefined && value < t.min + t.guard) return { verdict: "marginal", reason: `${spec.label} ${fmt(value)} passes but lies within the guard band (${t.guardText}) above the minimum ${fmt(t.min)}` };
-    if (t.max !== undefined && value > t.max - t.guard) return { verdict: "marginal", reason: `${spec.label} ${fmt(value)} passes but lies within the guard band (${t.guardText}) below the maximum ${fmt(t.max)}` };
+    if (t.min !== undefined && value < t.min + t.guard)
+      return {
+        verdict: "marginal",
+        reason: `${spec.label} ${fmt(value)} passes but lies within the guard band (${t.guardText}) above the minimum ${fmt(t.min)}`,
+      };
+    if (t.max !== undefined && value > t.max - t.guard)
+      return {
+        verdict: "marginal",
+        reason: `${spec.label} ${fmt(value)} passes but lies within the guard band (${t.guardText}) below the maximum ${fmt(t.max)}`,
+      };
   }
   return { verdict: "pass" };
 }
@@ -175,9 +183,22 @@ export function judgeWafer(
   const limits = targets.grades[grade] ?? {};
   const keys = new Set([...Object.keys(values), ...Object.keys(limits)]);
   const ordered = [...METRIC_BY_KEY.keys()].filter((k) => keys.has(k));
-  const metrics = ordered.map((k) => judgeMetric(k, values[k], limits[k], waivers.find((w) => w.metric === k)));
+  const metrics = ordered.map((k) =>
+    judgeMetric(
+      k,
+      values[k],
+      limits[k],
+      waivers.find((w) => w.metric === k),
+    ),
+  );
   const consequences = targets.findings?.[grade] ?? {};
-  const findings = checks.map((c) => judgeFinding(c, consequences[c.key], waivers.find((w) => w.finding === c.key)));
+  const findings = checks.map((c) =>
+    judgeFinding(
+      c,
+      consequences[c.key],
+      waivers.find((w) => w.finding === c.key),
+    ),
+  );
   const judged: { verdict: Verdict; reason?: string }[] = [...metrics.filter((m) => m.target), ...findings];
   let verdict = worst(judged.map((m) => m.verdict));
   // Reasons worst first, so the first line of a summary says why the verdict is what it is; notes last.

@@ -83,14 +83,7 @@ export function westernElectric(chart: ControlChart, options: WesternElectricOpt
 }
 
 /** Windows of m consecutive points with ≥ k beyond `minBand` on one side flag those points with `rule`. */
-function markKOfM(
-  pts: readonly ChartPoint[],
-  sets: Set<WesternElectricRule>[],
-  k: number,
-  m: number,
-  minBand: number,
-  rule: WesternElectricRule,
-): void {
+function markKOfM(pts: readonly ChartPoint[], sets: Set<WesternElectricRule>[], k: number, m: number, minBand: number, rule: WesternElectricRule): void {
   for (let end = m - 1; end < pts.length; end++) {
     for (const side of ["above", "below"] as const) {
       const hits: number[] = [];

@@ -52,7 +52,10 @@ export function formatNumber(v: number, digits = 3): string {
     return s.includes("e") ? Number(s).toString() : s;
   }
   const [mant, exp] = v.toExponential(digits - 1).split("e");
-  const e = String(Number(exp)).split("").map((c) => SUPERSCRIPT[c] ?? c).join("");
+  const e = String(Number(exp))
+    .split("")
+    .map((c) => SUPERSCRIPT[c] ?? c)
+    .join("");
   return `${mant}×10${e}`;
 }
 

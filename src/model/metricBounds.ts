@@ -8,17 +8,33 @@ import type { MetricSpec } from "./metricSpec.ts";
 
 const NON_NEGATIVE = [
   // magnitudes, densities, concentrations, times and lengths
-  "peak_mobility", "density_at_peak_mobility", "percolation_density", "gate_capacitance", "quantum_lifetime",
-  "critical_thickness", "well_thickness", "interface_width_top", "interface_width_bottom",
-  "interface_width_top_image", "interface_width_bottom_image", "peak_O", "peak_C",
+  "peak_mobility",
+  "density_at_peak_mobility",
+  "percolation_density",
+  "gate_capacitance",
+  "quantum_lifetime",
+  "critical_thickness",
+  "well_thickness",
+  "interface_width_top",
+  "interface_width_bottom",
+  "interface_width_top_image",
+  "interface_width_bottom_image",
+  "peak_O",
+  "peak_C",
   // absolute values by definition (see each metric's description)
-  "hall_sdh_mismatch", "gate_hysteresis",
+  "hall_sdh_mismatch",
+  "gate_hysteresis",
   // coefficients of variation, 100·s/|mean|
-  "peak_mobility_cv", "density_at_peak_mobility_cv", "turn_on_voltage_cv",
+  "peak_mobility_cv",
+  "density_at_peak_mobility_cv",
+  "turn_on_voltage_cv",
   // relaxation R (0 % pseudomorphic)
   "buffer_relaxation",
   // predicted valley splittings and disorder spread (magnitudes)
-  "valley_splitting_mean", "valley_splitting_p10", "valley_splitting_deterministic", "valley_splitting_disorder",
+  "valley_splitting_mean",
+  "valley_splitting_p10",
+  "valley_splitting_deterministic",
+  "valley_splitting_disorder",
 ];
 
 /** Shares in %: 0 … 100. */

@@ -24,5 +24,12 @@ export interface MetricSpec {
   axis?: "log";
 }
 
-export const metric = (key: string, label: string, unit: string, fromSI: number, section: MetricSpec["section"], description: string, digits = 3): MetricSpec => ({ key, label, unit, fromSI, section, description, digits });
-
+export const metric = (
+  key: string,
+  label: string,
+  unit: string,
+  fromSI: number,
+  section: MetricSpec["section"],
+  description: string,
+  digits = 3,
+): MetricSpec => ({ key, label, unit, fromSI, section, description, digits });

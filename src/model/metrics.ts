@@ -24,7 +24,9 @@ const HALL_METRICS: MetricSpec[] = [
   m("turn_on_voltage", "Turn-on voltage", "V", 1, "transport", "gate voltage where the fitted density extrapolates to zero"),
 ];
 
-export const METRICS: MetricSpec[] = [...HALL_METRICS, ...TRANSPORT_DEPTH_METRICS, ...STRUCTURE_METRICS, ...IMAGE_METRICS, ...UNIFORMITY_METRICS].map(withNaturalBounds).map(withAxisScale);
+export const METRICS: MetricSpec[] = [...HALL_METRICS, ...TRANSPORT_DEPTH_METRICS, ...STRUCTURE_METRICS, ...IMAGE_METRICS, ...UNIFORMITY_METRICS]
+  .map(withNaturalBounds)
+  .map(withAxisScale);
 
 export const METRIC_BY_KEY: ReadonlyMap<string, MetricSpec> = new Map(METRICS.map((s) => [s.key, s]));
 

@@ -50,7 +50,8 @@ export function capText(text: string, limit: number = ECHO_LIMIT): string {
  */
 export function capProblem<P extends Problem>(p: P): P {
   const long = (t: string | undefined, limit: number) => t !== undefined && t.length > limit;
-  if (!long(p.message, ECHO_LIMIT) && !long(p.found, ECHO_LIMIT) && !long(p.field, ECHO_LIMIT) && !long(p.expected, HINT_LIMIT) && !long(p.fix, HINT_LIMIT)) return p;
+  if (!long(p.message, ECHO_LIMIT) && !long(p.found, ECHO_LIMIT) && !long(p.field, ECHO_LIMIT) && !long(p.expected, HINT_LIMIT) && !long(p.fix, HINT_LIMIT))
+    return p;
   const out: P = { ...p, message: capText(p.message, ECHO_LIMIT) };
   if (p.found !== undefined) out.found = capText(p.found, ECHO_LIMIT);
   if (p.field !== undefined) out.field = capText(p.field, ECHO_LIMIT);
@@ -94,7 +95,10 @@ export class ProblemList {
   /** The first `cap` problems; the rest are only counted. */
   readonly problems: Problem[] = [];
   private dropped = 0;
-  constructor(readonly file: string, readonly cap = MAX_PROBLEMS_PER_FILE) {}
+  constructor(
+    readonly file: string,
+    readonly cap = MAX_PROBLEMS_PER_FILE,
+  ) {}
 
   add(p: Omit<Problem, "severity"> & { severity?: Severity }): void {
     if (this.problems.length < this.cap) this.problems.push({ severity: "error", ...p });
@@ -129,7 +133,12 @@ export class ProblemList {
     const [first, ...more] = this.problems;
     if (this.dropped > 0) {
       const n = this.dropped;
-      more.push({ severity: "error", file: this.file, message: `${n} more problem${n === 1 ? "" : "s"} in this file not listed (only the first ${this.cap} are shown)`, fix: "correct the problems above and build again to see the rest" });
+      more.push({
+        severity: "error",
+        file: this.file,
+        message: `${n} more problem${n === 1 ? "" : "s"} in this file not listed (only the first ${this.cap} are shown)`,
+        fix: "correct the problems above and build again to see the rest",
+      });
     }
     throw new InputError(first, more, this.dropped);
   }

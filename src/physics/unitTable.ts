@@ -56,7 +56,13 @@ const FREQUENCY: Exponents = [0, 0, -1, 0, 0];
 const VOLUME: Exponents = [3, 0, 0, 0, 0];
 const VOLUME_FLOW: Exponents = [3, 0, -1, 0, 0];
 
-const unit = (dim: Exponents, prefixes: string, mantissa = 1, decade = 0, offset?: number): UnitDefinition => ({ dim, mantissa, decade, prefixes, ...(offset === undefined ? {} : { offset }) });
+const unit = (dim: Exponents, prefixes: string, mantissa = 1, decade = 0, offset?: number): UnitDefinition => ({
+  dim,
+  mantissa,
+  decade,
+  prefixes,
+  ...(offset === undefined ? {} : { offset }),
+});
 
 /**
  * Every unit, by the spelling the unit text has after unitSpelling.ts

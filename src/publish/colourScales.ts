@@ -79,5 +79,8 @@ export function textOn(c: RGB): string {
 
 /** SVG <stop> elements sampling a scale at n + 1 evenly spaced offsets (a colour bar's gradient). */
 export function gradientStops(colour: (t: number) => RGB, from: number, to: number, n = 16): string {
-  return Array.from({ length: n + 1 }, (_, k) => `<stop offset="${(k / n).toFixed(4).replace(/\.?0+$/, "") || "0"}" stop-color="${hex(colour(from + ((to - from) * k) / n))}"/>`).join("");
+  return Array.from(
+    { length: n + 1 },
+    (_, k) => `<stop offset="${(k / n).toFixed(4).replace(/\.?0+$/, "") || "0"}" stop-color="${hex(colour(from + ((to - from) * k) / n))}"/>`,
+  ).join("");
 }

@@ -29,19 +29,46 @@ export function compareData(o: WaferOutcome) {
     verdict: o.judgement.verdict,
     metrics: o.judgement.metrics
       .filter((m) => m.value !== undefined || m.target !== undefined)
-      .map((m) => ({ key: m.key, label: m.spec.label, unit: prettyUnit(m.spec.unit), digits: m.spec.digits, value: sig6OrNull(m.value), text: formatValue(m.value, m.spec), verdict: m.verdict })),
-    hall: devices.filter((d) => d.points.length).map((d) => ({ device: d.id, points: d.points.map((p) => [round(p.density * PER_M2_TO_PER_CM2), round(p.mobility * M2_PER_VS_TO_CM2_PER_VS)]) })),
-    calibrations: devices.filter((d) => d.points.length).map((d) => {
-      const f = d.summary?.gateFit;
-      return {
-        device: d.id,
-        points: d.points.map((p) => [round(p.gate_V), round((p.density * PER_M2_TO_PER_CM2) / 1e11)]),
-        fit: f ? { slope: round((f.slope * PER_M2_TO_PER_CM2) / 1e11), turnOn: round(f.turnOn), text: `dn/dVg ${formatNumber(f.slope * PER_M2_TO_PER_CM2, 3)} cm⁻²/V, turn-on ${formatNumber(f.turnOn, 3)} V` } : null,
-      };
-    }),
-    profiles: (o.analysis?.structure?.profiles ?? []).map((p) => ({ file: p.data.file, method: p.data.method, points: traceSeries("", p.data.depth, p.data.ge, "data", PROFILE_POINTS).points })),
+      .map((m) => ({
+        key: m.key,
+        label: m.spec.label,
+        unit: prettyUnit(m.spec.unit),
+        digits: m.spec.digits,
+        value: sig6OrNull(m.value),
+        text: formatValue(m.value, m.spec),
+        verdict: m.verdict,
+      })),
+    hall: devices
+      .filter((d) => d.points.length)
+      .map((d) => ({ device: d.id, points: d.points.map((p) => [round(p.density * PER_M2_TO_PER_CM2), round(p.mobility * M2_PER_VS_TO_CM2_PER_VS)]) })),
+    calibrations: devices
+      .filter((d) => d.points.length)
+      .map((d) => {
+        const f = d.summary?.gateFit;
+        return {
+          device: d.id,
+          points: d.points.map((p) => [round(p.gate_V), round((p.density * PER_M2_TO_PER_CM2) / 1e11)]),
+          fit: f
+            ? {
+                slope: round((f.slope * PER_M2_TO_PER_CM2) / 1e11),
+                turnOn: round(f.turnOn),
+                text: `dn/dVg ${formatNumber(f.slope * PER_M2_TO_PER_CM2, 3)} cm⁻²/V, turn-on ${formatNumber(f.turnOn, 3)} V`,
+              }
+            : null,
+        };
+      }),
+    profiles: (o.analysis?.structure?.profiles ?? []).map((p) => ({
+      file: p.data.file,
+      method: p.data.method,
+      points: traceSeries("", p.data.depth, p.data.ge, "data", PROFILE_POINTS).points,
+    })),
     stack: (r?.stack ?? []).map((l) => ({ name: l.name, role: l.role, material: l.material ?? "", ge: l.ge ?? null, thickness_nm: l.thickness_nm ?? null })),
-    growth: r?.growth ? { recipe: r.growth.recipe ?? "", values: growthVariables(r.growth).map((v) => ({ key: v.key, label: v.label, unit: v.unit, value: sig6OrNull(v.value) })) } : null,
+    growth: r?.growth
+      ? {
+          recipe: r.growth.recipe ?? "",
+          values: growthVariables(r.growth).map((v) => ({ key: v.key, label: v.label, unit: v.unit, value: sig6OrNull(v.value) })),
+        }
+      : null,
   };
 }
 

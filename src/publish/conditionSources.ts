@@ -38,7 +38,18 @@ const CONDITIONS: { key: Key; label: string; only?: "field" | "gate" }[] = [
 export function conditionValue(key: Key, lo: number, hi = lo): string {
   const n = (x: number) => String(Number(x.toPrecision(4))).replace("-", "−");
   const a = Math.max(Math.abs(lo), Math.abs(hi));
-  const [unit, factor] = key === "gate" ? ["V", 1] : key === "field" || key === "field_range" ? ["T", 1] : key === "temperature" ? ["K", 1] : a < 1e-6 ? ["nA", 1e9] : a < 1e-3 ? ["µA", 1e6] : ["mA", 1e3];
+  const [unit, factor] =
+    key === "gate"
+      ? ["V", 1]
+      : key === "field" || key === "field_range"
+        ? ["T", 1]
+        : key === "temperature"
+          ? ["K", 1]
+          : a < 1e-6
+            ? ["nA", 1e9]
+            : a < 1e-3
+              ? ["µA", 1e6]
+              : ["mA", 1e3];
   return lo === hi ? `${n(lo * factor)} ${unit}` : `${n(lo * factor)} … ${n(hi * factor)} ${unit}`;
 }
 
@@ -95,7 +106,12 @@ export function deviceConditions(d: Pick<DeviceAnalysis, "conditions">): Conditi
     lines.push({
       label: c.label,
       values: values.length === 0 ? "" : conditionValue(c.key, lo, hi),
-      sources: [...groups.values()].map((g) => ({ text: sourceText(g.first, g.lines), rule: g.first.rule, ruleAt: g.first.ruleAt, sweeps: sweepList(g.files, sweeps.length) })),
+      sources: [...groups.values()].map((g) => ({
+        text: sourceText(g.first, g.lines),
+        rule: g.first.rule,
+        ruleAt: g.first.ruleAt,
+        sweeps: sweepList(g.files, sweeps.length),
+      })),
       missing: missing.length ? sweepList(missing, sweeps.length) : "",
     });
   }

@@ -16,7 +16,14 @@ export const DECISION_TEXT: Record<string, string> = {
 export function decisionModel(o: WaferOutcome) {
   const d = o.record?.decision;
   if (!d) return null;
-  return { state: d.state, text: DECISION_TEXT[d.state] ?? d.state, by: d.by, date: d.date, reason: d.reason, conflict: decisionConflict(d, o.judgement) ?? "" };
+  return {
+    state: d.state,
+    text: DECISION_TEXT[d.state] ?? d.state,
+    by: d.by,
+    date: d.date,
+    reason: d.reason,
+    conflict: decisionConflict(d, o.judgement) ?? "",
+  };
 }
 
 /** The lab's decision in results.json, with its conflict with the computed verdict (null when none recorded). */

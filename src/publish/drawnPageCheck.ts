@@ -49,7 +49,11 @@ function walk(value: unknown, where: string, seen: Set<object>): string | undefi
   if (typeof value !== "object" || value === null || ArrayBuffer.isView(value)) return undefined;
   if (seen.has(value)) return undefined;
   seen.add(value);
-  const entries: [string, unknown][] = Array.isArray(value) ? value.map((v, i) => [String(i), v]) : value instanceof Map ? [...value].map(([k, v]) => [String(k), v]) : Object.entries(value);
+  const entries: [string, unknown][] = Array.isArray(value)
+    ? value.map((v, i) => [String(i), v])
+    : value instanceof Map
+      ? [...value].map(([k, v]) => [String(k), v])
+      : Object.entries(value);
   for (const [key, v] of entries) {
     const at = where ? `${where}.${key}` : key;
     const problem = Array.isArray(value) ? walk(v, at, seen) : field(key, v, at, seen);
@@ -59,7 +63,8 @@ function walk(value: unknown, where: string, seen: Set<object>): string | undefi
 }
 
 function field(key: string, v: unknown, at: string, seen: Set<object>): string | undefined {
-  const text = (check: (s: string) => string | undefined) => (v === undefined || v === null ? undefined : typeof v !== "string" ? `${at} is a ${typeof v}, not text` : check(v));
+  const text = (check: (s: string) => string | undefined) =>
+    v === undefined || v === null ? undefined : typeof v !== "string" ? `${at} is a ${typeof v}, not text` : check(v);
   if (MARKUP_FIELD(key)) return text((s) => inField(at, markupProblem(s)));
   if (URL_FIELD(key)) return text((s) => inField(at, urlProblem(s)));
   if (key === "links") {
@@ -94,7 +99,8 @@ export function drawnFileProblem(rel: string, bytes: Uint8Array, folder: string)
 
 function compareFileProblem(text: string, folder: string): string | undefined {
   const { before, after } = compareScriptFrame(folder);
-  if (!text.startsWith(before) || !text.endsWith(after) || text.length < before.length + after.length) return `wafers/${folder}/compare.js is not the comparison data waferbook writes for this wafer: it starts ${JSON.stringify(text.slice(0, 80))}`;
+  if (!text.startsWith(before) || !text.endsWith(after) || text.length < before.length + after.length)
+    return `wafers/${folder}/compare.js is not the comparison data waferbook writes for this wafer: it starts ${JSON.stringify(text.slice(0, 80))}`;
   const json = text.slice(before.length, text.length - after.length);
   if (json.includes("<")) return `wafers/${folder}/compare.js holds a raw "<" at character ${before.length + json.indexOf("<")}`;
   let data: unknown;
@@ -103,12 +109,14 @@ function compareFileProblem(text: string, folder: string): string | undefined {
   } catch (e) {
     return `wafers/${folder}/compare.js holds more than one JSON value (${(e as Error).message}): whatever follows the data would run as script`;
   }
-  if ((data as { id?: unknown } | null)?.id !== folder) return `wafers/${folder}/compare.js holds the data of ${JSON.stringify((data as { id?: unknown } | null)?.id)}`;
+  if ((data as { id?: unknown } | null)?.id !== folder)
+    return `wafers/${folder}/compare.js holds the data of ${JSON.stringify((data as { id?: unknown } | null)?.id)}`;
   return undefined;
 }
 
 function pngProblem(b: Buffer, rel: string): string | undefined {
-  if (b.length < 8 || !b.subarray(0, 8).equals(PNG_SIGNATURE)) return `${rel} is not a PNG picture: it starts ${JSON.stringify(b.subarray(0, 16).toString("latin1"))}`;
+  if (b.length < 8 || !b.subarray(0, 8).equals(PNG_SIGNATURE))
+    return `${rel} is not a PNG picture: it starts ${JSON.stringify(b.subarray(0, 16).toString("latin1"))}`;
   let at = 8;
   let first = true;
   while (at + 12 <= b.length) {

@@ -87,19 +87,45 @@ export function resultsCsv(outcomes: readonly WaferOutcome[], runs: ReadonlyMap<
   const growth = growthColumns(outcomes.map((o) => o.record?.growth));
   // Growth columns only when some wafer records growth conditions: a lab without them keeps its columns.
   const anyGrowth = outcomes.some((o) => o.record?.growth);
-  const header = ["wafer", "run", "grown", "reactor", "grade", "verdict", ...DECISION_COLUMNS, ...FINDING_COLUMNS, ...metrics.flatMap(metricColumns), ...(anyGrowth ? ["growth_recipe", ...growth.map((g) => `${g.key} [${g.unit}]`)] : [])];
+  const header = [
+    "wafer",
+    "run",
+    "grown",
+    "reactor",
+    "grade",
+    "verdict",
+    ...DECISION_COLUMNS,
+    ...FINDING_COLUMNS,
+    ...metrics.flatMap(metricColumns),
+    ...(anyGrowth ? ["growth_recipe", ...growth.map((g) => `${g.key} [${g.unit}]`)] : []),
+  ];
   const rows = outcomes.map((o) => {
     const se = metricStdErrors(o);
     const gv = growthValues(o.record?.growth);
-    return [o.folder, o.record?.run ?? "", o.record?.grown ?? "", reactorOf(o, runs), o.judgement.grade, o.judgement.verdict, ...decisionCells(o), ...findingCells(o), ...metrics.flatMap((m) => {
-      const x = exportedMetric(o, m.key, se);
-      return [x.value, x.stderr, x.min, x.max, x.verdict];
-    }), ...(anyGrowth ? [o.record?.growth?.recipe ?? "", ...growth.map((g) => gv[g.key] ?? null)] : [])];
+    return [
+      o.folder,
+      o.record?.run ?? "",
+      o.record?.grown ?? "",
+      reactorOf(o, runs),
+      o.judgement.grade,
+      o.judgement.verdict,
+      ...decisionCells(o),
+      ...findingCells(o),
+      ...metrics.flatMap((m) => {
+        const x = exportedMetric(o, m.key, se);
+        return [x.value, x.stderr, x.min, x.max, x.verdict];
+      }),
+      ...(anyGrowth ? [o.record?.growth?.recipe ?? "", ...growth.map((g) => gv[g.key] ?? null)] : []),
+    ];
   });
   return toCsv([header, ...rows]);
 }
 
-export function allResultsJson(outcomes: readonly WaferOutcome[], meta: { version: string; builtAt: string; dataCommit?: string | null }, runs: ReadonlyMap<string, RunNotes> = new Map()) {
+export function allResultsJson(
+  outcomes: readonly WaferOutcome[],
+  meta: { version: string; builtAt: string; dataCommit?: string | null },
+  runs: ReadonlyMap<string, RunNotes> = new Map(),
+) {
   const metrics = exportedMetrics(outcomes);
   return {
     waferbookVersion: meta.version,
@@ -127,7 +153,18 @@ export function allResultsJson(outcomes: readonly WaferOutcome[], meta: { versio
 export function growthJson(o: WaferOutcome) {
   const g = o.record?.growth;
   if (!g) return null;
-  return { recipe: g.recipe ?? null, layers: g.layers.map((l) => ({ layer: l.layer, temperature_C: sig6OrNull(l.temperature_C), rate_nm_per_min: sig6OrNull(l.rate_nm_per_min), pressure_Torr: sig6OrNull(l.pressure_Torr), flows_sccm: Object.fromEntries(l.flows_sccm.map(([k, v]) => [k, sig6OrNull(v)])) })), anneals: g.anneals.map((a) => ({ name: a.name, temperature_C: sig6OrNull(a.temperature_C), time_s: sig6OrNull(a.time_s) })), values: growthValues(g) };
+  return {
+    recipe: g.recipe ?? null,
+    layers: g.layers.map((l) => ({
+      layer: l.layer,
+      temperature_C: sig6OrNull(l.temperature_C),
+      rate_nm_per_min: sig6OrNull(l.rate_nm_per_min),
+      pressure_Torr: sig6OrNull(l.pressure_Torr),
+      flows_sccm: Object.fromEntries(l.flows_sccm.map(([k, v]) => [k, sig6OrNull(v)])),
+    })),
+    anneals: g.anneals.map((a) => ({ name: a.name, temperature_C: sig6OrNull(a.temperature_C), time_s: sig6OrNull(a.time_s) })),
+    values: growthValues(g),
+  };
 }
 
 /** The per-metric maps of a wafer in results.json, keyed like the CSV columns: metrics, stderr, limits, verdicts. */
@@ -143,7 +180,29 @@ function metricMaps(o: WaferOutcome, metrics: readonly { key: string }[]) {
 }
 
 export function pointsCsv(o: WaferOutcome): string {
-  const header = ["device", "file", "gate [V]", "density [cm^-2]", "mobility [cm^2/(V s)]", "sheet_resistance [ohm/sq]", "hall_fit_r2", "hall_fit_poor", "symmetrised"];
-  const rows = (o.analysis?.devices ?? []).flatMap((d) => d.points.map((p) => [d.id, p.file, p.gate_V, p.density * PER_M2_TO_PER_CM2, p.mobility * M2_PER_VS_TO_CM2_PER_VS, p.sheetResistance, p.hall.r2, String(p.hall.poor), String(p.symmetrised)]));
+  const header = [
+    "device",
+    "file",
+    "gate [V]",
+    "density [cm^-2]",
+    "mobility [cm^2/(V s)]",
+    "sheet_resistance [ohm/sq]",
+    "hall_fit_r2",
+    "hall_fit_poor",
+    "symmetrised",
+  ];
+  const rows = (o.analysis?.devices ?? []).flatMap((d) =>
+    d.points.map((p) => [
+      d.id,
+      p.file,
+      p.gate_V,
+      p.density * PER_M2_TO_PER_CM2,
+      p.mobility * M2_PER_VS_TO_CM2_PER_VS,
+      p.sheetResistance,
+      p.hall.r2,
+      String(p.hall.poor),
+      String(p.symmetrised),
+    ]),
+  );
   return toCsv([header, ...rows]);
 }

@@ -36,7 +36,13 @@ export function growthSection(g: GrowthConditions | undefined): GrowthSectionMod
   if (!g) return undefined;
   return {
     recipe: g.recipe ?? "",
-    layers: g.layers.map((l) => ({ layer: l.layer, temperature: withUnit(l.temperature_C, "°C"), rate: withUnit(l.rate_nm_per_min, "nm/min"), pressure: withUnit(l.pressure_Torr, "Torr"), flows: flowText(l.flows_sccm) })),
+    layers: g.layers.map((l) => ({
+      layer: l.layer,
+      temperature: withUnit(l.temperature_C, "°C"),
+      rate: withUnit(l.rate_nm_per_min, "nm/min"),
+      pressure: withUnit(l.pressure_Torr, "Torr"),
+      flows: flowText(l.flows_sccm),
+    })),
     anneals: g.anneals.map((a) => ({ name: a.name, temperature: withUnit(a.temperature_C, "°C"), time: timeText(a.time_s) })),
   };
 }

@@ -34,7 +34,9 @@ export function describeLimit(t: Target | undefined): string {
   const spec = METRIC_BY_KEY.get(t.metric);
   const f = (v: number) => (spec ? formatValue(v, spec) : String(v));
   const range = t.min !== undefined && t.max !== undefined ? `${f(t.min)} … ${f(t.max)}` : t.min !== undefined ? `≥ ${f(t.min)}` : `≤ ${f(t.max!)}`;
-  return [range, t.guardText ? `guard ${t.guardText}` : "", t.required ? "required" : "", t.aggregate !== "mean" ? `${t.aggregate} over devices` : ""].filter(Boolean).join(", ");
+  return [range, t.guardText ? `guard ${t.guardText}` : "", t.required ? "required" : "", t.aggregate !== "mean" ? `${t.aggregate} over devices` : ""]
+    .filter(Boolean)
+    .join(", ");
 }
 
 /** Limit-by-limit change and verdict flips of a commit that changed targets.yaml (null for other commits). */
@@ -55,7 +57,8 @@ function targetsRow(c: GitCommit, history: DataHistory, wafers: readonly (WaferF
 /** Decisions a commit recorded (from DataHistory.decisions), for the changes page. */
 function decisionsIn(c: GitCommit, history: DataHistory | null, known: Set<string>, basePath: string) {
   const out: { id: string; href: string }[] = [];
-  for (const [id, d] of history?.decisions ?? []) if (d.hash === c.hash) out.push({ id, href: known.has(id) ? siteUrl(`wafers/${id}/`, "/changes/", basePath) : "" });
+  for (const [id, d] of history?.decisions ?? [])
+    if (d.hash === c.hash) out.push({ id, href: known.has(id) ? siteUrl(`wafers/${id}/`, "/changes/", basePath) : "" });
   return out.sort((a, b) => a.id.localeCompare(b.id));
 }
 
@@ -76,14 +79,23 @@ function commitRow(c: GitCommit, known: Set<string>, basePath: string) {
  * The /changes/ page. `wafers`: today's figures of every wafer, re-judged under the targets before
  * and after each targets commit to list the wafers whose verdict that commit changed.
  */
-export function changesModel(history: DataHistory | null, waferIds: readonly string[], basePath: string, wafers: readonly (WaferForHistory & { id: string })[] = []) {
+export function changesModel(
+  history: DataHistory | null,
+  waferIds: readonly string[],
+  basePath: string,
+  wafers: readonly (WaferForHistory & { id: string })[] = [],
+) {
   const known = new Set(waferIds);
   return {
     available: history !== null && !history.failure,
     /** Why the history could not be read (shown as a warning), or "". */
     warning: history?.failure ?? "",
     head: history?.head ?? null,
-    commits: (history?.commits ?? []).map((c) => ({ ...commitRow(c, known, basePath), targets: history ? targetsRow(c, history, wafers, known, basePath) : null, decisions: decisionsIn(c, history, known, basePath) })),
+    commits: (history?.commits ?? []).map((c) => ({
+      ...commitRow(c, known, basePath),
+      targets: history ? targetsRow(c, history, wafers, known, basePath) : null,
+      decisions: decisionsIn(c, history, known, basePath),
+    })),
   };
 }
 
@@ -97,7 +109,14 @@ export function waferHistoryModel(history: DataHistory | null, waferId: string, 
     available: true,
     warning: "",
     recorded: recorded ? shortDate(recorded) : "",
-    commits: mine.map((c) => ({ shortHash: c.shortHash, hash: c.hash, date: shortDate(c.date), author: c.author, subject: c.subject, files: c.dataFiles.filter((f) => f.startsWith(prefix)).map((f) => f.slice(prefix.length)) })),
+    commits: mine.map((c) => ({
+      shortHash: c.shortHash,
+      hash: c.hash,
+      date: shortDate(c.date),
+      author: c.author,
+      subject: c.subject,
+      files: c.dataFiles.filter((f) => f.startsWith(prefix)).map((f) => f.slice(prefix.length)),
+    })),
     verdicts: verdictsOverTime(w, history.targetsVersions, recorded).map((v) => ({ ...v, date: shortDate(v.date), reasons: v.reasons, note: v.note ?? "" })),
     decision: decisionCommitModel(history.decisions?.get(waferId)),
   };
@@ -106,5 +125,13 @@ export function waferHistoryModel(history: DataHistory | null, waferId: string, 
 /** The commit that recorded a wafer's decision, as the wafer page shows it (null without a decision or history). */
 export function decisionCommitModel(c: DecisionCommit | undefined) {
   if (!c) return null;
-  return { hash: c.hash ?? "", shortHash: c.shortHash ?? "", date: c.committedAt ? shortDate(c.committedAt) : "", committer: c.committer ?? "", author: c.author ?? "", subject: c.subject ?? "", note: c.note ?? "" };
+  return {
+    hash: c.hash ?? "",
+    shortHash: c.shortHash ?? "",
+    date: c.committedAt ? shortDate(c.committedAt) : "",
+    committer: c.committer ?? "",
+    author: c.author ?? "",
+    subject: c.subject ?? "",
+    note: c.note ?? "",
+  };
 }

@@ -66,8 +66,19 @@ function profileChart(r: ImageResult, id: string): ChartSpec | null {
     traceSeries("Mean intensity along the interfaces", z, p.raw, "data"),
     traceSeries("Smoothed over one lattice period", z, p.smoothed, "second"),
   ];
-  for (const [name, e] of [["lower", p.bottom], ["upper", p.top]] as const) {
-    series.push(traceSeries(`Logistic fit, ${name} interface`, e.curve.z_m.map((v) => v * 1e9), e.curve.value, "fit", 120));
+  for (const [name, e] of [
+    ["lower", p.bottom],
+    ["upper", p.top],
+  ] as const) {
+    series.push(
+      traceSeries(
+        `Logistic fit, ${name} interface`,
+        e.curve.z_m.map((v) => v * 1e9),
+        e.curve.value,
+        "fit",
+        120,
+      ),
+    );
   }
   return {
     id: `${id}-profile`,
@@ -86,7 +97,10 @@ function block(r: ImageResult, i: number, wafer: string, files: SectionFile[], r
   const micro = renderMicrograph(m.pixels, m.width, m.height, PAGE_IMAGE_SIDE);
   add(`${id}-micrograph.png`, micro.png);
   const micrograph: PagePicture = {
-    src: `images/${id}-micrograph.png`, href: rawHref(m.file), width: micro.width, height: micro.height,
+    src: `images/${id}-micrograph.png`,
+    href: rawHref(m.file),
+    width: micro.width,
+    height: micro.height,
     alt: `${m.kind.toUpperCase()} cross-section micrograph ${m.file}, ${m.width} × ${m.height} pixels of ${formatNumber(m.pixelSize_m * 1e9, 3)} nm, growth direction ${m.growthAxis}`,
     caption: `Micrograph (shown at 1/${micro.factor} scale; the link opens the original file).`,
   };
@@ -107,21 +121,28 @@ function block(r: ImageResult, i: number, wafer: string, files: SectionFile[], r
     numbers.push(["In-plane mismatch, well vs reference", pm(c.inPlaneMismatch_pct.value, c.inPlaneMismatch_pct.uncertainty)]);
     numbers.push(["Out-of-plane strain, well vs reference", pm(c.outOfPlaneStrain_pct.value, c.outOfPlaneStrain_pct.uncertainty)]);
   } else skipped.push(`Coherence: ${c.reason}.`);
-  if (r.expected.ok) numbers.push([`Expected for a coherent well (Ge ${r.expected.wellGe} on relaxed Ge ${r.expected.barrierGe})`, `${r.expected.outOfPlane_pct.toFixed(3)} %`]);
+  if (r.expected.ok)
+    numbers.push([`Expected for a coherent well (Ge ${r.expected.wellGe} on relaxed Ge ${r.expected.barrierGe})`, `${r.expected.outOfPlane_pct.toFixed(3)} %`]);
   else skipped.push(`Expected strain: ${r.expected.reason}.`);
   const g = r.gpa;
   if (g.ok) {
     numbers.push(["GPA resolution (mask)", nm(g.resolution_px * m.pixelSize_m, 2)]);
     const lim = Math.max(0.005, ...(c.ok ? [c.inPlaneMismatch_pct.value, c.outOfPlaneStrain_pct.value].map((v) => (1.5 * Math.abs(v)) / 100) : []));
     const interfaces = p.ok ? { growthAxis: m.growthAxis, tilt_deg: p.tilt_deg, positions_px: [p.well.bottom_px, p.well.top_px] } : undefined;
-    for (const [key, map, label] of [["inplane", g.inPlane, "In-plane strain ε∥ (along the interfaces)"], ["outofplane", g.outOfPlane, "Out-of-plane strain ε⊥ (along growth)"]] as const) {
+    for (const [key, map, label] of [
+      ["inplane", g.inPlane, "In-plane strain ε∥ (along the interfaces)"],
+      ["outofplane", g.outOfPlane, "Out-of-plane strain ε⊥ (along growth)"],
+    ] as const) {
       const small = renderStrainMap(map, m.width, m.height, { limit: lim, maxSide: PAGE_IMAGE_SIDE, interfaces });
       const full = renderStrainMap(map, m.width, m.height, { limit: lim, interfaces });
       add(`${id}-${key}.png`, small.png);
       add(`${id}-${key}-full.png`, full.png);
       const pct = `${formatNumber(lim * 100, 2)} %`;
       maps.push({
-        src: `images/${id}-${key}.png`, href: `images/${id}-${key}-full.png`, width: small.width, height: small.height,
+        src: `images/${id}-${key}.png`,
+        href: `images/${id}-${key}-full.png`,
+        width: small.width,
+        height: small.height,
         alt: `${label} map of ${m.file} relative to ${r.referenceSource}; colour bar below from −${pct} (blue, compression) to +${pct} (red, tension)${interfaces ? "; black lines mark the two interfaces" : ""}`,
         caption: `${label}. Blue: compression, red: tension${interfaces ? "; black lines: interfaces" : ""}.`,
         bar: { low: `−${pct}`, mid: "0", high: `+${pct}`, label: "strain (%)" },
@@ -133,7 +154,12 @@ function block(r: ImageResult, i: number, wafer: string, files: SectionFile[], r
     id,
     title: `${m.file}`,
     facts: `${m.kind.toUpperCase()}, ${m.format ? `${m.format}, ` : ""}${m.width} × ${m.height} pixels, ${formatNumber(m.pixelSize_m * 1e9, 3)} nm per pixel ${m.pixelSizeSource === "file" ? "(from the file's resolution tags)" : "(from wafer.md)"}${m.pixelSizeNote ? ` — ${m.pixelSizeNote}, so not used` : ""}, growth direction ${m.growthAxis}`,
-    micrograph, chart: profileChart(r, id), maps, numbers, findings: r.findings, skipped,
+    micrograph,
+    chart: profileChart(r, id),
+    maps,
+    numbers,
+    findings: r.findings,
+    skipped,
   };
 }
 

@@ -30,7 +30,7 @@ function deviceStdErr(d: DeviceOf, key: string): number | undefined {
     case "turn_on_voltage":
       return fit?.turnOnStdErr;
     case "gate_capacitance":
-      return depth?.calibration.ok ? depth.calibration.capacitanceStdErr ?? undefined : undefined;
+      return depth?.calibration.ok ? (depth.calibration.capacitanceStdErr ?? undefined) : undefined;
     case "percolation_density":
       return depth?.percolation.ok ? depth.percolation.densityStdErr : undefined;
     case "mobility_exponent":

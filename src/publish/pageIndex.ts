@@ -36,7 +36,15 @@ export function pageIndex(p: PageIndexInput): PageIndexEntry[] {
     { id: "metrics", label: "Metrics against targets" },
     ...e(p.transport, "transport", "Magnetotransport"),
     ...e(p.uniformity, "uniformity", "Within-wafer uniformity"),
-    ...(p.structure ? [{ id: "structure", label: "Strain and interfaces", ...(p.valley ? { children: [{ id: "structure-valley", label: "Valley splitting (predicted)" }] } : {}) }] : []),
+    ...(p.structure
+      ? [
+          {
+            id: "structure",
+            label: "Strain and interfaces",
+            ...(p.valley ? { children: [{ id: "structure-valley", label: "Valley splitting (predicted)" }] } : {}),
+          },
+        ]
+      : []),
     ...e(p.images, "images", "Lattice images"),
     ...e(p.stack, "stack", "Layer stack (design)"),
     ...e(!!p.growth, "growth", "Growth conditions"),

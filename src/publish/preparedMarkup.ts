@@ -17,7 +17,34 @@
 import { urlProblem } from "./safeUrl.ts";
 
 /** Elements the Markdown renderer writes (markdown-it's CommonMark set with tables; no raw HTML). */
-const MARKDOWN = ["p", "h1", "h2", "h3", "h4", "h5", "h6", "em", "strong", "s", "code", "pre", "blockquote", "ul", "ol", "li", "a", "img", "hr", "br", "table", "thead", "tbody", "tr", "th", "td"];
+const MARKDOWN = [
+  "p",
+  "h1",
+  "h2",
+  "h3",
+  "h4",
+  "h5",
+  "h6",
+  "em",
+  "strong",
+  "s",
+  "code",
+  "pre",
+  "blockquote",
+  "ul",
+  "ol",
+  "li",
+  "a",
+  "img",
+  "hr",
+  "br",
+  "table",
+  "thead",
+  "tbody",
+  "tr",
+  "th",
+  "td",
+];
 /** Elements the SVG figures use. */
 const SVG = ["svg", "g", "defs", "title", "desc", "rect", "line", "path", "circle", "text", "image", "lineargradient", "stop", "clippath"];
 const ELEMENTS = new Set([...MARKDOWN, ...SVG]);
@@ -27,10 +54,48 @@ const VOID = new Set(["br", "hr", "img"]);
 /** Attributes, by the renderer that writes them (names compared in lower case). */
 const ATTRIBUTES = new Set([
   // Markdown
-  "href", "title", "src", "alt", "class", "start",
+  "href",
+  "title",
+  "src",
+  "alt",
+  "class",
+  "start",
   // SVG
-  "xmlns", "viewbox", "width", "height", "x", "y", "x1", "x2", "y1", "y2", "cx", "cy", "r", "d", "fill", "stroke", "stroke-width", "stroke-dasharray", "opacity", "transform",
-  "text-anchor", "font-size", "font-weight", "dominant-baseline", "paint-order", "preserveaspectratio", "role", "aria-hidden", "aria-labelledby", "aria-label", "id", "clip-path", "data-device", "offset", "stop-color",
+  "xmlns",
+  "viewbox",
+  "width",
+  "height",
+  "x",
+  "y",
+  "x1",
+  "x2",
+  "y1",
+  "y2",
+  "cx",
+  "cy",
+  "r",
+  "d",
+  "fill",
+  "stroke",
+  "stroke-width",
+  "stroke-dasharray",
+  "opacity",
+  "transform",
+  "text-anchor",
+  "font-size",
+  "font-weight",
+  "dominant-baseline",
+  "paint-order",
+  "preserveaspectratio",
+  "role",
+  "aria-hidden",
+  "aria-labelledby",
+  "aria-label",
+  "id",
+  "clip-path",
+  "data-device",
+  "offset",
+  "stop-color",
 ]);
 const URL_ATTRIBUTES = new Set(["href", "src"]);
 
@@ -64,7 +129,8 @@ export function markupProblem(html: string): string | undefined {
     } else {
       for (const a of attrs.matchAll(ATTRIBUTE)) {
         const attr = a[1].toLowerCase();
-        if (!ATTRIBUTES.has(attr)) return `the attribute ${a[1]}="…" on <${rawName}> at character ${at}, which waferbook never writes${attr.startsWith("on") ? " (an event handler runs script)" : ""}`;
+        if (!ATTRIBUTES.has(attr))
+          return `the attribute ${a[1]}="…" on <${rawName}> at character ${at}, which waferbook never writes${attr.startsWith("on") ? " (an event handler runs script)" : ""}`;
         if (URL_ATTRIBUTES.has(attr)) {
           const why = urlProblem(a[2]);
           if (why) return `${why}, on <${rawName}> at character ${at}`;
@@ -87,7 +153,10 @@ export function markupProblem(html: string): string | undefined {
  */
 export function scriptJsonProblem(json: string): { problem: string } | { value: unknown } {
   const bad = /[<>&\u2028\u2029]/.exec(json);
-  if (bad) return { problem: `the chart data hold a raw ${JSON.stringify(bad[0])} at character ${bad.index} (waferbook writes it as a \\u escape): ${near(json, Math.max(0, bad.index - 20))}` };
+  if (bad)
+    return {
+      problem: `the chart data hold a raw ${JSON.stringify(bad[0])} at character ${bad.index} (waferbook writes it as a \\u escape): ${near(json, Math.max(0, bad.index - 20))}`,
+    };
   try {
     return { value: JSON.parse(json) as unknown };
   } catch (e) {

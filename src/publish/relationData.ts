@@ -41,7 +41,15 @@ export function relationModel(sorted: readonly WaferOutcome[], reactorOf: (o: Wa
     const values: Record<string, number | null> = {};
     for (const j of o.judgement.metrics) if (j.value !== undefined) values[j.key] = sig6OrNull(j.value);
     for (const v of growthVariables(o.record?.growth)) values[v.key] = sig6OrNull(v.value);
-    return { id: o.folder, run: o.record?.run ?? "", reactor: reactorOf(o), grade: o.judgement.grade, grown: o.record?.grown ?? "", verdict: o.judgement.verdict, values };
+    return {
+      id: o.folder,
+      run: o.record?.run ?? "",
+      reactor: reactorOf(o),
+      grade: o.judgement.grade,
+      grown: o.record?.grown ?? "",
+      verdict: o.judgement.verdict,
+      values,
+    };
   });
   const choices = (f: (w: (typeof wafers)[number]) => string) => [...new Set(wafers.map(f).filter(Boolean))].sort();
   return {

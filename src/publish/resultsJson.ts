@@ -24,7 +24,24 @@ export function resultsJson(o: WaferOutcome, commits: { wafer: string | null; ta
   const metrics: Record<string, unknown> = {};
   const se = metricStdErrors(o);
   for (const m of o.judgement.metrics) {
-    metrics[m.key] = { value: sig6OrNull(m.value), stderr: sig6OrNull(se[m.key]), unit: m.spec.unit, verdict: m.verdict, target: m.target ? { min: sig6OrNull(m.target.min), max: sig6OrNull(m.target.max), text: m.target.text, guard: m.target.guardText ?? null, required: m.target.required, aggregate: m.target.aggregate } : null, reason: m.reason ?? null, waiver: m.waiver ?? null };
+    metrics[m.key] = {
+      value: sig6OrNull(m.value),
+      stderr: sig6OrNull(se[m.key]),
+      unit: m.spec.unit,
+      verdict: m.verdict,
+      target: m.target
+        ? {
+            min: sig6OrNull(m.target.min),
+            max: sig6OrNull(m.target.max),
+            text: m.target.text,
+            guard: m.target.guardText ?? null,
+            required: m.target.required,
+            aggregate: m.target.aggregate,
+          }
+        : null,
+      reason: m.reason ?? null,
+      waiver: m.waiver ?? null,
+    };
   }
   return {
     wafer: o.folder,
@@ -36,7 +53,20 @@ export function resultsJson(o: WaferOutcome, commits: { wafer: string | null; ta
     decision: decisionJson(o),
     growth: growthJson(o),
     metrics,
-    findings: Object.fromEntries(o.judgement.findings.map((f) => [f.key, { verdict: f.verdict, consequence: f.consequence, consequence_from: f.fromGrade ? "grade" : "default", checked: f.check.checked, raised: f.check.raised, reason: f.reason ?? null, waiver: f.waiver ?? null }])),
+    findings: Object.fromEntries(
+      o.judgement.findings.map((f) => [
+        f.key,
+        {
+          verdict: f.verdict,
+          consequence: f.consequence,
+          consequence_from: f.fromGrade ? "grade" : "default",
+          checked: f.check.checked,
+          raised: f.check.raised,
+          reason: f.reason ?? null,
+          waiver: f.waiver ?? null,
+        },
+      ]),
+    ),
     devices: (o.analysis?.devices ?? []).map((d) => ({
       id: d.id,
       geometry: d.geometry,
@@ -64,5 +94,14 @@ export function resultsJson(o: WaferOutcome, commits: { wafer: string | null; ta
 }
 
 function problemJson(p: WaferOutcome["problems"][number]) {
-  return { file: p.file, line: p.line ?? null, field: p.field ?? null, message: p.message, expected: p.expected ?? null, found: p.found ?? null, fix: p.fix ?? null, text: formatProblem(p) };
+  return {
+    file: p.file,
+    line: p.line ?? null,
+    field: p.field ?? null,
+    message: p.message,
+    expected: p.expected ?? null,
+    found: p.found ?? null,
+    fix: p.fix ?? null,
+    text: formatProblem(p),
+  };
 }

@@ -56,16 +56,24 @@ function blur(a: Float64Array, sigma: number): void {
   const norm = g.reduce((a, b) => a + b, 0);
   const k = g.map((v) => v / norm);
   const tmp = new Float64Array(a.length);
-  for (let j = 0; j < GZ; j++) for (let i = 0; i < GX; i++) {
-    let s = 0;
-    for (let d = -r; d <= r; d++) { const x = i + d; if (x >= 0 && x < GX) s += k[d + r] * a[j * GX + x]; }
-    tmp[j * GX + i] = s;
-  }
-  for (let j = 0; j < GZ; j++) for (let i = 0; i < GX; i++) {
-    let s = 0;
-    for (let d = -r; d <= r; d++) { const z = j + d; if (z >= 0 && z < GZ) s += k[d + r] * tmp[z * GX + i]; }
-    a[j * GX + i] = s;
-  }
+  for (let j = 0; j < GZ; j++)
+    for (let i = 0; i < GX; i++) {
+      let s = 0;
+      for (let d = -r; d <= r; d++) {
+        const x = i + d;
+        if (x >= 0 && x < GX) s += k[d + r] * a[j * GX + x];
+      }
+      tmp[j * GX + i] = s;
+    }
+  for (let j = 0; j < GZ; j++)
+    for (let i = 0; i < GX; i++) {
+      let s = 0;
+      for (let d = -r; d <= r; d++) {
+        const z = j + d;
+        if (z >= 0 && z < GZ) s += k[d + r] * tmp[z * GX + i];
+      }
+      a[j * GX + i] = s;
+    }
 }
 
 /** The map figure (see module comment); undefined for peak tables or failed maps. `href` is the PNG's address from the page. */
@@ -116,7 +124,10 @@ export function rsmFigure(f: XrdFileResult, geFraction: number | undefined, id: 
   for (let c = 0; c < weight.length; c++) {
     const w = weight[c];
     const o = 4 * c;
-    if (w < 0.25 * inside) { png.data[o + 3] = 0; continue; }
+    if (w < 0.25 * inside) {
+      png.data[o + 3] = 0;
+      continue;
+    }
     const li = Math.round(Math.min(1, Math.max(0, sum[c] / w)) * 255);
     png.data[o] = SEQUENTIAL_LUT[3 * li];
     png.data[o + 1] = SEQUENTIAL_LUT[3 * li + 1];
@@ -144,15 +155,28 @@ export function rsmFigure(f: XrdFileResult, geFraction: number | undefined, id: 
     const inPlot = (qx: number) => qx >= x0 && qx <= x1;
     if (inPlot(s.qx)) labels.push(`<text x="${n1(px(s.qx) + 4)}" y="${n1(PAD.t + 12)}" ${halo}>R = 0 (strained)</text>`);
     const zl = z0 + 0.12 * (z1 - z0);
-    if (inPlot(zl / slope)) labels.push(`<text x="${n1(px(zl / slope) + (sx > 0 ? -4 : 4))}" y="${n1(pz(zl))}" text-anchor="${sx > 0 ? "end" : "start"}" ${halo}>R = 1 (relaxed)</text>`);
+    if (inPlot(zl / slope))
+      labels.push(
+        `<text x="${n1(px(zl / slope) + (sx > 0 ? -4 : 4))}" y="${n1(pz(zl))}" text-anchor="${sx > 0 ? "end" : "start"}" ${halo}>R = 1 (relaxed)</text>`,
+      );
     if (geFraction !== undefined) {
       const aR = latticeDismukes(geFraction);
       const relaxed = layerPeakQ(aR, aR, hkl);
       const pseudo = layerPeakQ(A_SI, strainedPerpendicular(aR, A_SI, biaxialRatio(geFraction)), hkl);
-      lines.push(seg({ qx: sx * pseudo.qx, qz: pseudo.qz }, { qx: sx * relaxed.qx, qz: relaxed.qz }, "", `Relaxation line of Si${formatNumber(1 - geFraction, 3)}Ge${formatNumber(geFraction, 3)} (from R = 0 to R = 1)`));
+      lines.push(
+        seg(
+          { qx: sx * pseudo.qx, qz: pseudo.qz },
+          { qx: sx * relaxed.qx, qz: relaxed.qz },
+          "",
+          `Relaxation line of Si${formatNumber(1 - geFraction, 3)}Ge${formatNumber(geFraction, 3)} (from R = 0 to R = 1)`,
+        ),
+      );
     }
   }
-  const marks = pk.peaks.map((p) => `<g><circle cx="${n1(px(p.qx))}" cy="${n1(pz(p.qz))}" r="6" fill="none" stroke="#fff" stroke-width="3"/><circle cx="${n1(px(p.qx))}" cy="${n1(pz(p.qz))}" r="6" fill="none" stroke="#d62728" stroke-width="1.6"/><text x="${n1(px(p.qx) + 9)}" y="${n1(pz(p.qz) - 7)}" ${halo}>${escapeXml(p.layer)}</text></g>`);
+  const marks = pk.peaks.map(
+    (p) =>
+      `<g><circle cx="${n1(px(p.qx))}" cy="${n1(pz(p.qz))}" r="6" fill="none" stroke="#fff" stroke-width="3"/><circle cx="${n1(px(p.qx))}" cy="${n1(pz(p.qz))}" r="6" fill="none" stroke="#d62728" stroke-width="1.6"/><text x="${n1(px(p.qx) + 9)}" y="${n1(pz(p.qz) - 7)}" ${halo}>${escapeXml(p.layer)}</text></g>`,
+  );
 
   const nm = (v: number) => v * 1e-9;
   // Tick labels as short as the step allows ("45.8", "0", "−0.5"), with a true minus sign.
@@ -161,8 +185,14 @@ export function rsmFigure(f: XrdFileResult, geFraction: number | undefined, id: 
   const zt = linearTicks(nm(z0), nm(z1), 6);
   const axes = [
     `<rect x="${PAD.l}" y="${PAD.t}" width="${PW}" height="${PH}" fill="none" stroke="#444"/>`,
-    ...xt.map((v) => { const x = n1(px(v * 1e9)); return `<line x1="${x}" y1="${PAD.t + PH}" x2="${x}" y2="${PAD.t + PH + 5}" stroke="#444"/><text x="${x}" y="${PAD.t + PH + 17}" font-size="11" text-anchor="middle">${tickText(v)}</text>`; }),
-    ...zt.map((v) => { const y = n1(pz(v * 1e9)); return `<line x1="${PAD.l - 5}" y1="${y}" x2="${PAD.l}" y2="${y}" stroke="#444"/><text x="${PAD.l - 7}" y="${n1(pz(v * 1e9) + 4)}" font-size="11" text-anchor="end">${tickText(v)}</text>`; }),
+    ...xt.map((v) => {
+      const x = n1(px(v * 1e9));
+      return `<line x1="${x}" y1="${PAD.t + PH}" x2="${x}" y2="${PAD.t + PH + 5}" stroke="#444"/><text x="${x}" y="${PAD.t + PH + 17}" font-size="11" text-anchor="middle">${tickText(v)}</text>`;
+    }),
+    ...zt.map((v) => {
+      const y = n1(pz(v * 1e9));
+      return `<line x1="${PAD.l - 5}" y1="${y}" x2="${PAD.l}" y2="${y}" stroke="#444"/><text x="${PAD.l - 7}" y="${n1(pz(v * 1e9) + 4)}" font-size="11" text-anchor="end">${tickText(v)}</text>`;
+    }),
     `<text x="${PAD.l + PW / 2}" y="${H - 8}" font-size="12" text-anchor="middle">Qx (nm⁻¹)</text>`,
     `<text transform="translate(14 ${PAD.t + PH / 2}) rotate(-90)" font-size="12" text-anchor="middle">Qz (nm⁻¹)</text>`,
   ];
@@ -175,7 +205,10 @@ export function rsmFigure(f: XrdFileResult, geFraction: number | undefined, id: 
   const bar = [
     `<defs><linearGradient id="${id}-bar" x1="0" y1="1" x2="0" y2="0">${gradientStops(sequentialRgb, 0, 1, 16)}</linearGradient></defs>`,
     `<rect x="${bx}" y="${PAD.t}" width="${bw}" height="${PH}" fill="url(#${id}-bar)" stroke="#444"/>`,
-    ...decades.map((c) => `<line x1="${bx + bw}" y1="${n1(by(c))}" x2="${bx + bw + 4}" y2="${n1(by(c))}" stroke="#444"/><text x="${bx + bw + 6}" y="${n1(by(c) + 4)}" font-size="11">${escapeXml(formatNumber(c, 1))}</text>`),
+    ...decades.map(
+      (c) =>
+        `<line x1="${bx + bw}" y1="${n1(by(c))}" x2="${bx + bw + 4}" y2="${n1(by(c))}" stroke="#444"/><text x="${bx + bw + 6}" y="${n1(by(c) + 4)}" font-size="11">${escapeXml(formatNumber(c, 1))}</text>`,
+    ),
     `<text transform="translate(${W - 6} ${PAD.t + PH / 2}) rotate(-90)" font-size="12" text-anchor="middle">counts (log scale)</text>`,
   ];
   const title = `Reciprocal-space map ${hkl.join(" ")} (${f.file})`;

@@ -14,9 +14,15 @@ const ROLES = ["data", "second", "third", "fit", "reference"] as const;
 export function runChart(runId: string, wafers: readonly WaferOutcome[], basePath: string): { chart: ChartSpec; json: string } | undefined {
   const page = `/runs/${runId}/`;
   const series = wafers.flatMap((o, i) => {
-    const pts = (o.analysis?.devices ?? []).flatMap((d) => d.points.map((p) => ({ d: d.id, xy: [p.density * PER_M2_TO_PER_CM2, p.mobility * M2_PER_VS_TO_CM2_PER_VS] as [number, number] })));
+    const pts = (o.analysis?.devices ?? []).flatMap((d) =>
+      d.points.map((p) => ({ d: d.id, xy: [p.density * PER_M2_TO_PER_CM2, p.mobility * M2_PER_VS_TO_CM2_PER_VS] as [number, number] })),
+    );
     if (!pts.length) return [];
-    const s = markerSeries(o.folder, pts.map((p) => p.xy), ROLES[i % ROLES.length]);
+    const s = markerSeries(
+      o.folder,
+      pts.map((p) => p.xy),
+      ROLES[i % ROLES.length],
+    );
     s.links = pts.map(() => siteUrl(`wafers/${o.folder}/`, page, basePath));
     s.tips = pts.map((p) => `${o.folder} ${p.d}`);
     return [s];
@@ -28,7 +34,9 @@ export function runChart(runId: string, wafers: readonly WaferOutcome[], basePat
     x: { label: "Sheet density n (cm⁻²)", log: true },
     y: { label: "Hall mobility μ (cm²/V s)", log: true },
     series,
-    summary: series.map((s) => `${s.label}: ${s.points.length} points, highest mobility ${Math.round(Math.max(...s.points.map((p) => p[1])))} cm²/V s`).join("; "),
+    summary: series
+      .map((s) => `${s.label}: ${s.points.length} points, highest mobility ${Math.round(Math.max(...s.points.map((p) => p[1])))} cm²/V s`)
+      .join("; "),
   };
   return { chart, json: jsonForScript([chart]) };
 }

@@ -17,7 +17,10 @@ export interface RunInput {
 
 /** Sort key of a run: its start date, else its first growth date, else "~" (last). */
 export function runDate(r: RunInput): string {
-  const grown = r.wafers.map((w) => w.grown).filter(Boolean).sort()[0];
+  const grown = r.wafers
+    .map((w) => w.grown)
+    .filter(Boolean)
+    .sort()[0];
   return r.started ?? grown ?? "~";
 }
 
@@ -53,7 +56,10 @@ function rowsFor(r: RunInput, prev: RunInput | undefined) {
       sd: u.standardDeviation === null ? "—" : formatValue(u.standardDeviation, spec),
       range: u.n > 1 ? `${formatNumber(u.min, spec.digits)} … ${formatValue(u.max, spec)}` : "—",
       previousMean: p.ok ? formatValue(p.mean, spec) : "—",
-      change: change === undefined ? "—" : `${change >= 0 ? "+" : "−"}${formatValue(Math.abs(change), spec)}${pct === undefined ? "" : ` (${pct >= 0 ? "+" : "−"}${formatNumber(Math.abs(pct), 2)} %)`}`,
+      change:
+        change === undefined
+          ? "—"
+          : `${change >= 0 ? "+" : "−"}${formatValue(Math.abs(change), spec)}${pct === undefined ? "" : ` (${pct >= 0 ? "+" : "−"}${formatNumber(Math.abs(pct), 2)} %)`}`,
     });
   }
   return rows;

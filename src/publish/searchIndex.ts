@@ -34,7 +34,11 @@ export const SEARCH_OPTIONS = {
 
 /** Markdown to plain words: drops markup characters, keeps the text. */
 function plain(md: string): string {
-  return md.replace(/```[\s\S]*?```/g, " ").replace(/[#*_`>|[\]()]/g, " ").replace(/\s+/g, " ").trim();
+  return md
+    .replace(/```[\s\S]*?```/g, " ")
+    .replace(/[#*_`>|[\]()]/g, " ")
+    .replace(/\s+/g, " ")
+    .trim();
 }
 
 /** The documents of the index, wafers first (in folder order), then runs. */
@@ -52,7 +56,14 @@ export function searchDocuments(outcomes: WaferOutcome[], runs: Map<string, RunN
   }));
   const runIds = [...new Set([...runs.keys(), ...wafers.map((w) => w.run).filter(Boolean)])].sort();
   const runDocs: SearchDoc[] = runIds.map((id) => ({
-    id: `run:${id}`, kind: "run", title: id, href: `runs/${id}/`, run: id, grade: "", verdict: "", reasons: "",
+    id: `run:${id}`,
+    kind: "run",
+    title: id,
+    href: `runs/${id}/`,
+    run: id,
+    grade: "",
+    verdict: "",
+    reasons: "",
     notes: plain(runs.get(id)?.notes ?? ""),
   }));
   return [...wafers, ...runDocs];

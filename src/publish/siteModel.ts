@@ -53,7 +53,11 @@ export function waferPageExtras(sorted: readonly WaferOutcome[], basePath: strin
         {
           ...neighbours.get(o.folder),
           history: waferHistoryModel(history, o.folder, historyInput(o)),
-          crumbs: [{ label: "Wafers", href: siteUrl("", page, basePath) }, ...(run ? [{ label: `Run ${run}`, href: siteUrl(`runs/${run}/`, page, basePath) }] : []), { label: o.folder }],
+          crumbs: [
+            { label: "Wafers", href: siteUrl("", page, basePath) },
+            ...(run ? [{ label: `Run ${run}`, href: siteUrl(`runs/${run}/`, page, basePath) }] : []),
+            { label: o.folder },
+          ],
         },
       ];
     }),
@@ -62,7 +66,13 @@ export function waferPageExtras(sorted: readonly WaferOutcome[], basePath: strin
 
 /** A wafer as the history re-judges it: today's figures, its grade, waivers and whether it has input errors. */
 function historyInput(o: WaferOutcome) {
-  return { values: o.values, grade: o.record?.grade, waivers: o.record?.waivers ?? [], hasErrors: o.judgement.verdict === "error", findings: o.judgement.findings.map((f) => f.check) };
+  return {
+    values: o.values,
+    grade: o.record?.grade,
+    waivers: o.record?.waivers ?? [],
+    hasErrors: o.judgement.verdict === "error",
+    findings: o.judgement.findings.map((f) => f.check),
+  };
 }
 
 /** Metrics shown as columns of the index table. */
@@ -103,7 +113,13 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
   }));
   const runIds = [...new Set([...sorted.flatMap((o) => (o.record?.run ? [o.record.run] : [])), ...runs.keys()])].sort();
   const judged = (o: WaferOutcome) => Object.fromEntries(o.judgement.metrics.map((m) => [m.key, m.value]));
-  const comparisons = runComparisons(runIds.map((id) => ({ id, started: runs.get(id)?.meta.started, wafers: sorted.filter((o) => o.record?.run === id).map((o) => ({ grown: o.record?.grown ?? "", values: judged(o) })) })));
+  const comparisons = runComparisons(
+    runIds.map((id) => ({
+      id,
+      started: runs.get(id)?.meta.started,
+      wafers: sorted.filter((o) => o.record?.run === id).map((o) => ({ grown: o.record?.grown ?? "", values: judged(o) })),
+    })),
+  );
   const runPages = runIds.map((id) => {
     const notes = runs.get(id);
     const members = index.filter((w) => w.run === id);
@@ -115,15 +131,28 @@ export function buildSiteModel(outcomes: WaferOutcome[], runs: Map<string, RunNo
       notesHtml: renderNotes(notes?.notes ?? ""),
       wafers: members,
       verdictCounts: countVerdicts(members.map((m) => m.verdict)),
-      mobilityChart: runChart(id, sorted.filter((o) => o.record?.run === id), meta.basePath),
+      mobilityChart: runChart(
+        id,
+        sorted.filter((o) => o.record?.run === id),
+        meta.basePath,
+      ),
     };
   });
   const failing = index.filter((w) => w.verdict === "fail" || w.verdict === "error" || w.verdict === "incomplete");
   return {
     meta,
-    trends: trendsModel(index.map((w, i) => ({ id: w.id, grown: w.grown, run: w.run, reactor: w.reactor, grade: w.grade, verdict: w.verdict, values: judged(sorted[i]) })), extras.targets, meta.basePath),
+    trends: trendsModel(
+      index.map((w, i) => ({ id: w.id, grown: w.grown, run: w.run, reactor: w.reactor, grade: w.grade, verdict: w.verdict, values: judged(sorted[i]) })),
+      extras.targets,
+      meta.basePath,
+    ),
     targets: targetsPageModel(extras.targets),
-    changes: changesModel(history, sorted.map((o) => o.folder), meta.basePath, sorted.map((o) => ({ id: o.folder, ...historyInput(o) }))),
+    changes: changesModel(
+      history,
+      sorted.map((o) => o.folder),
+      meta.basePath,
+      sorted.map((o) => ({ id: o.folder, ...historyInput(o) })),
+    ),
     index,
     relation: relationModel(sorted, (o) => reactorOf(o, runs)),
     runs: runPages,

@@ -121,7 +121,14 @@ export function renderStrainMap(map: ArrayLike<number>, width: number, height: n
       put(x, y, x === zeroX ? LINE : divergingColour(t));
     }
   }
-  return { png: PNG.sync.write(png, PAGE_PNG), width: png.width, height: png.height, factor: f, limit, colourBar: [small.height + gap, small.height + gap + bar] };
+  return {
+    png: PNG.sync.write(png, PAGE_PNG),
+    width: png.width,
+    height: png.height,
+    factor: f,
+    limit,
+    colourBar: [small.height + gap, small.height + gap + bar],
+  };
 }
 
 /** Greyscale 8-bit PNG of a micrograph, stretched between its 0.5 % and 99.5 % levels. */

@@ -44,7 +44,8 @@ export interface StructureSectionModel {
   files: { path: string; bytes: Buffer }[];
 }
 
-const pm = (v: number, e: number | undefined, digits = 4) => (e !== undefined && e > 0 ? `${formatNumber(v, digits)} ± ${formatNumber(e, 2)}` : formatNumber(v, digits));
+const pm = (v: number, e: number | undefined, digits = 4) =>
+  e !== undefined && e > 0 ? `${formatNumber(v, digits)} ± ${formatNumber(e, 2)}` : formatNumber(v, digits);
 const deg = (r: number) => formatNumber(radToDeg(r), 6);
 const perNm = (q: number, e: number) => pm(q * 1e-9, e * 1e-9, 6);
 
@@ -58,7 +59,9 @@ function stackRows(o: WaferOutcome, s: StructureAnalysis): StackRow[] {
     let measured: string | undefined;
     if (l.role === "well") measured = [m("Well thickness", " nm"), m("Well in-plane strain", " % strain")].filter(Boolean).join(", ") || undefined;
     if (l.role === "barrier") measured = m("Barrier Ge fraction", "") && `Ge ${m("Barrier Ge fraction", "")}`;
-    if (l.role === "buffer") measured = [m("Buffer Ge fraction", "") && `Ge ${m("Buffer Ge fraction", "")}`, m("Buffer relaxation", " % relaxed")].filter(Boolean).join(", ") || undefined;
+    if (l.role === "buffer")
+      measured =
+        [m("Buffer Ge fraction", "") && `Ge ${m("Buffer Ge fraction", "")}`, m("Buffer relaxation", " % relaxed")].filter(Boolean).join(", ") || undefined;
     return { name: l.name, role: l.role, ge: l.ge, thickness_nm: l.thickness_nm, measured };
   });
 }
@@ -70,18 +73,43 @@ function profileCharts(s: StructureAnalysis): ChartSpec[] {
     const series: ChartSeries[] = [traceSeries("Ge fraction (measured)", p.data.depth, p.data.ge, "data", 400)];
     let summary = `${p.data.method} profile ${p.data.file}, ${p.data.depth.length} depths`;
     if (r.ok) {
-      for (const [f, top] of [[r.top, true], [r.bottom, false]] as const) {
+      for (const [f, top] of [
+        [r.top, true],
+        [r.bottom, false],
+      ] as const) {
         series.push(traceSeries(`${top ? "Top" : "Bottom"} interface fit (τ ${formatNumber(f.tau, 3)} nm)`, f.curve.depth, f.curve.ge, "fit"));
       }
       const marks: [number, number][] = [...r.top.marks, ...r.bottom.marks];
       series.push(markerSeries("10 % and 90 % points", marks, "reference"));
       summary += `; top interface at ${formatNumber(r.top.centre, 4)} nm, 10–90 % width ${formatNumber(r.top.width10to90, 3)} nm; bottom at ${formatNumber(r.bottom.centre, 4)} nm, width ${formatNumber(r.bottom.width10to90, 3)} nm; well ${formatNumber(r.wellThickness, 3)} nm thick`;
     }
-    charts.push({ id: `profile-${k}`, title: `Ge depth profile (${p.data.method}, ${p.data.file}) with interface fits`, x: { label: "Depth (nm)" }, y: { label: "Ge fraction" }, series, summary });
+    charts.push({
+      id: `profile-${k}`,
+      title: `Ge depth profile (${p.data.method}, ${p.data.file}) with interface fits`,
+      x: { label: "Depth (nm)" },
+      y: { label: "Ge fraction" },
+      series,
+      summary,
+    });
     const els = Object.keys(p.data.contaminants);
     if (els.length) {
       const roles = ["data", "second", "third"] as const;
-      charts.push({ id: `profile-${k}-contaminants`, title: `Contaminants (${p.data.file})`, x: { label: "Depth (nm)" }, y: { label: "Concentration (cm⁻³)", log: true }, series: els.map((e, i) => traceSeries(e, p.data.depth, p.data.contaminants[e].map((v) => Math.max(v, 1)), roles[i % 3], 300)), summary: els.map((e) => `${e} peak ${formatNumber(s.contaminantPeaks[e] ?? NaN, 3)} cm⁻³ in or near the well`).join("; ") });
+      charts.push({
+        id: `profile-${k}-contaminants`,
+        title: `Contaminants (${p.data.file})`,
+        x: { label: "Depth (nm)" },
+        y: { label: "Concentration (cm⁻³)", log: true },
+        series: els.map((e, i) =>
+          traceSeries(
+            e,
+            p.data.depth,
+            p.data.contaminants[e].map((v) => Math.max(v, 1)),
+            roles[i % 3],
+            300,
+          ),
+        ),
+        summary: els.map((e) => `${e} peak ${formatNumber(s.contaminantPeaks[e] ?? NaN, 3)} cm⁻³ in or near the well`).join("; "),
+      });
     }
   });
   return charts;
@@ -91,20 +119,28 @@ function profileRows(s: StructureAnalysis): StructureSectionModel["profiles"] {
   return s.profiles.map((p) => {
     const r = p.result;
     if (!r.ok) return { file: p.data.file, method: p.data.method, rows: [], reason: r.reason };
-    const edge = (f: InterfaceFit) => `centre ${pm(f.centre, f.centreStdErr)} nm, 10–90 % ${pm(f.width10to90, f.width10to90StdErr, 3)} nm, 4τ ${formatNumber(f.width4tau, 3)} nm, barrier Ge ${formatNumber(f.barrierGe, 3)}, R² ${f.r2.toFixed(4)}`;
+    const edge = (f: InterfaceFit) =>
+      `centre ${pm(f.centre, f.centreStdErr)} nm, 10–90 % ${pm(f.width10to90, f.width10to90StdErr, 3)} nm, 4τ ${formatNumber(f.width4tau, 3)} nm, barrier Ge ${formatNumber(f.barrierGe, 3)}, R² ${f.r2.toFixed(4)}`;
     const rows = [
       { label: "Top interface (nearer the surface)", value: edge(r.top) },
       { label: "Bottom interface", value: edge(r.bottom) },
       { label: "Well thickness (between mid-points)", value: `${pm(r.wellThickness, r.wellThicknessStdErr, 4)} nm` },
       { label: "Barrier Ge fraction", value: formatNumber(r.barrierGeFraction, 4) },
       { label: "Minimum Ge in the well", value: formatNumber(r.wellGeMin, 3) },
-      ...r.contaminants.map((c) => ({ label: `${c.element} peak`, value: `inside ${c.insidePeak !== undefined ? `${formatNumber(c.insidePeak, 3)} cm⁻³ at ${formatNumber(c.insideDepth ?? NaN, 4)} nm` : "—"}; within ${formatNumber(r.nearDistance, 3)} nm ${c.nearPeak !== undefined ? `${formatNumber(c.nearPeak, 3)} cm⁻³ at ${formatNumber(c.nearDepth ?? NaN, 4)} nm` : "—"}` })),
+      ...r.contaminants.map((c) => ({
+        label: `${c.element} peak`,
+        value: `inside ${c.insidePeak !== undefined ? `${formatNumber(c.insidePeak, 3)} cm⁻³ at ${formatNumber(c.insideDepth ?? NaN, 4)} nm` : "—"}; within ${formatNumber(r.nearDistance, 3)} nm ${c.nearPeak !== undefined ? `${formatNumber(c.nearPeak, 3)} cm⁻³ at ${formatNumber(c.nearDepth ?? NaN, 4)} nm` : "—"}`,
+      })),
     ];
     return { file: p.data.file, method: p.data.method, rows };
   });
 }
 
-function xrdTables(s: StructureAnalysis, wafer: string, files: StructureSectionModel["files"]): Pick<StructureSectionModel, "maps" | "peaks" | "buffer" | "bufferReason" | "strain"> {
+function xrdTables(
+  s: StructureAnalysis,
+  wafer: string,
+  files: StructureSectionModel["files"],
+): Pick<StructureSectionModel, "maps" | "peaks" | "buffer" | "bufferReason" | "strain"> {
   const x = s.xrd;
   const geX = x?.buffer.ok ? x.buffer.geFraction : undefined;
   const figure = (f: NonNullable<typeof x>["files"][number], i: number) => {
@@ -112,8 +148,29 @@ function xrdTables(s: StructureAnalysis, wafer: string, files: StructureSectionM
     if (fig) files.push({ path: `wafers/${wafer}/structure/rsm-${i}.png`, bytes: fig.png });
     return fig?.svg;
   };
-  const maps = (x?.files ?? []).map((f, i) => ({ file: f.file, reflection: f.peaks.ok ? f.peaks.reflection.join(" ") : "", svg: figure(f, i), note: f.peaks.ok ? `offsets added: Δω ${formatNumber(radToDeg(f.peaks.offset.omega), 3)}°, Δ2θ ${formatNumber(radToDeg(f.peaks.offset.twoTheta), 3)}°${f.peaks.notes.length ? `; ${f.peaks.notes.join("; ")}` : ""}` : `not analysed: ${f.peaks.reason}` }));
-  const peaks = (x?.files ?? []).flatMap((f) => { const pk = f.peaks; return pk.ok ? pk.peaks.map((p) => ({ file: f.file, reflection: pk.reflection.join(" "), layer: p.layer, omega: `${deg(p.omega)} ± ${formatNumber(radToDeg(p.omegaStdErr), 2)}`, twoTheta: `${deg(p.twoTheta)} ± ${formatNumber(radToDeg(p.twoThetaStdErr), 2)}`, qx: perNm(p.qx, p.qxStdErr), qz: perNm(p.qz, p.qzStdErr), method: p.method })) : []; });
+  const maps = (x?.files ?? []).map((f, i) => ({
+    file: f.file,
+    reflection: f.peaks.ok ? f.peaks.reflection.join(" ") : "",
+    svg: figure(f, i),
+    note: f.peaks.ok
+      ? `offsets added: Δω ${formatNumber(radToDeg(f.peaks.offset.omega), 3)}°, Δ2θ ${formatNumber(radToDeg(f.peaks.offset.twoTheta), 3)}°${f.peaks.notes.length ? `; ${f.peaks.notes.join("; ")}` : ""}`
+      : `not analysed: ${f.peaks.reason}`,
+  }));
+  const peaks = (x?.files ?? []).flatMap((f) => {
+    const pk = f.peaks;
+    return pk.ok
+      ? pk.peaks.map((p) => ({
+          file: f.file,
+          reflection: pk.reflection.join(" "),
+          layer: p.layer,
+          omega: `${deg(p.omega)} ± ${formatNumber(radToDeg(p.omegaStdErr), 2)}`,
+          twoTheta: `${deg(p.twoTheta)} ± ${formatNumber(radToDeg(p.twoThetaStdErr), 2)}`,
+          qx: perNm(p.qx, p.qxStdErr),
+          qz: perNm(p.qz, p.qzStdErr),
+          method: p.method,
+        }))
+      : [];
+  });
   const b = x?.buffer;
   const buffer = b?.ok
     ? [
@@ -131,8 +188,18 @@ function xrdTables(s: StructureAnalysis, wafer: string, files: StructureSectionM
     ? [
         { label: "In-plane strain ε∥", value: `${pm(st.epsParallel * 100, st.epsParallelStdErr * 100)} %` },
         { label: "Out-of-plane strain ε⊥ (elastic, −D·ε∥)", value: `${pm(st.epsPerpendicular * 100, st.epsPerpendicularStdErr * 100)} %` },
-        { label: "Source", value: st.source === "well-peak" ? "the well's own asymmetric peak" : "no well peak: well assumed pseudomorphic on the buffer (a∥ of the buffer)" },
-        ...(st.aPerpendicularMeasured !== undefined ? [{ label: "a⊥ measured / expected", value: `${formatNumber(st.aPerpendicularMeasured * 1e9, 6)} / ${formatNumber(st.aPerpendicularExpected * 1e9, 6)} nm` }] : []),
+        {
+          label: "Source",
+          value: st.source === "well-peak" ? "the well's own asymmetric peak" : "no well peak: well assumed pseudomorphic on the buffer (a∥ of the buffer)",
+        },
+        ...(st.aPerpendicularMeasured !== undefined
+          ? [
+              {
+                label: "a⊥ measured / expected",
+                value: `${formatNumber(st.aPerpendicularMeasured * 1e9, 6)} / ${formatNumber(st.aPerpendicularExpected * 1e9, 6)} nm`,
+              },
+            ]
+          : []),
       ]
     : [];
   return { maps, peaks, buffer, bufferReason: b && !b.ok ? b.reason : undefined, strain };
@@ -142,7 +209,10 @@ function criticalRows(s: StructureAnalysis): StructureSectionModel["critical"] {
   const c = s.critical;
   if (!c.ok) return [{ label: "Not checked", value: c.reason }];
   return [
-    { label: "Strain used", value: `${pm(c.strain * 100, c.strainStdErr * 100)} % (${c.strainSource === "design" ? "design: Si on a fully relaxed buffer" : c.strainSource === "well-peak" ? "from the well peak" : "pseudomorphic on the buffer"})` },
+    {
+      label: "Strain used",
+      value: `${pm(c.strain * 100, c.strainStdErr * 100)} % (${c.strainSource === "design" ? "design: Si on a fully relaxed buffer" : c.strainSource === "well-peak" ? "from the well peak" : "pseudomorphic on the buffer"})`,
+    },
     { label: "Matthews–Blakeslee h_c (single layer, 60° dislocations)", value: `${pm(c.matthewsBlakeslee * 1e9, c.matthewsBlakesleeStdErr * 1e9, 3)} nm` },
     { label: "People–Bean h_c", value: c.peopleBean !== undefined ? `${formatNumber(c.peopleBean * 1e9, 3)} nm` : "—" },
     { label: `Well thickness (${c.thicknessSource === "stack" ? "design" : "depth profile"})`, value: `${formatNumber(c.thickness * 1e9, 3)} nm` },
@@ -161,7 +231,17 @@ export function structureSection(o: WaferOutcome): StructureSectionModel | undef
     stackSvg: stackSvg(stackRows(o, s), "stack-fig"),
     ...xrdTables(s, o.folder, files),
     critical: criticalRows(s),
-    design: s.design.map((d) => ({ quantity: d.quantity, design: fmt(d.design, d.unit), measured: d.measured === undefined ? "—" : d.measuredStdErr ? `${pm(d.measured, d.measuredStdErr)}${d.unit === "1" ? "" : ` ${d.unit}`}` : fmt(d.measured, d.unit), source: d.source })),
+    design: s.design.map((d) => ({
+      quantity: d.quantity,
+      design: fmt(d.design, d.unit),
+      measured:
+        d.measured === undefined
+          ? "—"
+          : d.measuredStdErr
+            ? `${pm(d.measured, d.measuredStdErr)}${d.unit === "1" ? "" : ` ${d.unit}`}`
+            : fmt(d.measured, d.unit),
+      source: d.source,
+    })),
     profiles: profileRows(s),
     findings: s.findings,
     readingNotes: structureReadingNotes(o),

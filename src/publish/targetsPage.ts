@@ -41,7 +41,21 @@ export function targetsPageModel(targets: Targets | undefined) {
     file: targets?.file ?? "targets.yaml",
     defaultGrade: targets?.defaultGrade ?? "",
     grades,
-    trends: { baseline: describeBaseline(trends), runLength: trends.runLength, production: describeProduction(targets), maxPasses: trends.maxPasses ?? DEFAULT_MAX_PASSES, limitsBy: trends.limitsBy ?? "none", exclusions: (trends.exclude ?? []).length },
-    metrics: METRICS.map((m) => ({ key: m.key, label: m.label, unit: prettyUnit(m.unit) || "—", rawUnit: m.unit, section: m.section, description: m.description })),
+    trends: {
+      baseline: describeBaseline(trends),
+      runLength: trends.runLength,
+      production: describeProduction(targets),
+      maxPasses: trends.maxPasses ?? DEFAULT_MAX_PASSES,
+      limitsBy: trends.limitsBy ?? "none",
+      exclusions: (trends.exclude ?? []).length,
+    },
+    metrics: METRICS.map((m) => ({
+      key: m.key,
+      label: m.label,
+      unit: prettyUnit(m.unit) || "—",
+      rawUnit: m.unit,
+      section: m.section,
+      description: m.description,
+    })),
   };
 }

@@ -39,7 +39,14 @@ export function traceChart(d: DeviceAnalysis): ChartSpec | undefined {
     caption: `Symmetrised traces from ${p.file}, ${p.trace.b.length} field values shown up to ${formatNumber(p.trace.b[p.trace.b.length - 1])} T`,
     series: [
       line("ρxx (symmetrised), left axis", p.trace.b, p.trace.rhoxx, POINTS.rhoxx, "data"),
-      line("|Rxy| (antisymmetrised), right axis", p.trace.b, Array.from(p.trace.rxy, (v) => Math.abs(v) / 1000), POINTS.rxy, "second", "y2"),
+      line(
+        "|Rxy| (antisymmetrised), right axis",
+        p.trace.b,
+        Array.from(p.trace.rxy, (v) => Math.abs(v) / 1000),
+        POINTS.rxy,
+        "second",
+        "y2",
+      ),
     ],
   }));
   const last = views.length - 1;

@@ -65,13 +65,20 @@ function conductivityChart(id: string, x: DeviceDepth): ChartSpec | undefined {
   const pc = x.percolation;
   const sweep = pc.ok ? x.gateSweeps.find((s) => s.file === pc.file) : x.gateSweeps.find((s) => s.density.length);
   if (!sweep || sweep.density.length === 0) return undefined;
-  const pts: [number, number][] = sweep.density.flatMap((n, i) => (sweep.conductivity[i] > 0 && n > 0 ? [[n * N11, sweep.conductivity[i] * 1e3] as [number, number]] : []));
+  const pts: [number, number][] = sweep.density.flatMap((n, i) =>
+    sweep.conductivity[i] > 0 && n > 0 ? [[n * N11, sweep.conductivity[i] * 1e3] as [number, number]] : [],
+  );
   const series: ChartSeries[] = [markerSeries(`${sweep.file} (${sweep.direction})`, pts)];
   if (pc.ok) {
     const lo = pc.density;
     const hi = pc.window.maxDensity;
     const grid = Array.from({ length: 60 }, (_, k) => lo + ((hi - lo) * k) / 59);
-    series.push({ label: `fit σ = A(n − n_p)^${f(pc.exponent, 3)}`, points: grid.map((n) => [n * N11, percolationConductivity(n, pc.density, pc.prefactor, pc.exponent) * 1e3]), line: true, role: "fit" });
+    series.push({
+      label: `fit σ = A(n − n_p)^${f(pc.exponent, 3)}`,
+      points: grid.map((n) => [n * N11, percolationConductivity(n, pc.density, pc.prefactor, pc.exponent) * 1e3]),
+      line: true,
+      role: "fit",
+    });
   }
   return {
     id: `depth-sigma-${id}`,
@@ -79,16 +86,25 @@ function conductivityChart(id: string, x: DeviceDepth): ChartSpec | undefined {
     x: { label: "Density n from the Hall calibration (10¹¹ cm⁻²)" },
     y: { label: "Sheet conductance σ (mS)" },
     series,
-    summary: pc.ok ? `Percolation fit on ${pc.file}: n_p = ${f(pc.density * 1e-4)} cm⁻², p = ${f(pc.exponent)}, R² ${pc.r2.toFixed(4)}, ${pc.points} points up to ${f(pc.window.maxDensity * 1e-4)} cm⁻²` : `No percolation fit: ${pc.reason}`,
+    summary: pc.ok
+      ? `Percolation fit on ${pc.file}: n_p = ${f(pc.density * 1e-4)} cm⁻², p = ${f(pc.exponent)}, R² ${pc.r2.toFixed(4)}, ${pc.points} points up to ${f(pc.window.maxDensity * 1e-4)} cm⁻²`
+      : `No percolation fit: ${pc.reason}`,
   };
 }
 
 function mobilityChart(d: DeviceAnalysis, x: DeviceDepth): ChartSpec | undefined {
   if (d.points.length === 0) return undefined;
-  const series: ChartSeries[] = [markerSeries("Hall points", d.points.map((p) => [p.density * 1e-4, p.mobility * 1e4]))];
+  const series: ChartSeries[] = [
+    markerSeries(
+      "Hall points",
+      d.points.map((p) => [p.density * 1e-4, p.mobility * 1e4]),
+    ),
+  ];
   const pl = x.powerLaw;
   if (pl.ok) {
-    const line = [pl.window.minDensity, pl.window.maxDensity].map((n) => [n * 1e-4, pl.mobilityAtReference * 1e4 * (n / POWER_LAW_REFERENCE_DENSITY) ** pl.exponent] as [number, number]);
+    const line = [pl.window.minDensity, pl.window.maxDensity].map(
+      (n) => [n * 1e-4, pl.mobilityAtReference * 1e4 * (n / POWER_LAW_REFERENCE_DENSITY) ** pl.exponent] as [number, number],
+    );
     series.push({ label: `fit μ ∝ n^${f(pl.exponent, 3)}`, points: line, line: true, role: "fit" });
   }
   return {
@@ -97,7 +113,9 @@ function mobilityChart(d: DeviceAnalysis, x: DeviceDepth): ChartSpec | undefined
     x: { label: "Hall density n (cm⁻²)", log: true },
     y: { label: "Hall mobility μ (cm²/V s)", log: true },
     series,
-    summary: pl.ok ? `Power law μ ∝ n^α with α = ${pm(pl.exponent, pl.exponentStdErr)} over ${pl.points} points (${pl.window.rule})` : `No power-law fit: ${pl.reason}`,
+    summary: pl.ok
+      ? `Power law μ ∝ n^α with α = ${pm(pl.exponent, pl.exponentStdErr)} over ${pl.points} points (${pl.window.rule})`
+      : `No power-law fit: ${pl.reason}`,
   };
 }
 
@@ -124,7 +142,13 @@ function sdhCharts(id: string, x: DeviceDepth): ChartSpec[] {
       title: `${id}: Dingle plot at Vg = ${f(best.gate_V)} V (diagnostic)`,
       x: { label: "Inverse field 1/B (T⁻¹)" },
       y: { label: "ln[Δρ/(4ρ_bg·X/sinh X)]" },
-      series: [markerSeries("one-period amplitudes", d.inverseField.map((v, i) => [v, d.ordinate[i]])), { label: "fitted line ln A − β/B", points: u.map((v) => [v, d.line.intercept + d.line.slope * v]), line: true, role: "fit" }],
+      series: [
+        markerSeries(
+          "one-period amplitudes",
+          d.inverseField.map((v, i) => [v, d.ordinate[i]]),
+        ),
+        { label: "fitted line ln A − β/B", points: u.map((v) => [v, d.line.intercept + d.line.slope * v]), line: true, role: "fit" },
+      ],
       summary: `Per-period amplitudes of the same data against the fit's line (β = ${f(-d.line.slope)} T, A = ${f(o.amplitudeFactor.value)}); ${o.quantumLifetime.ok ? `τ_q = ${pm(o.quantumLifetime.value * 1e12, o.quantumLifetime.stdErr * 1e12)} ps` : `τ_q not determined: ${o.quantumLifetime.reason}`}`,
     });
   }
@@ -133,7 +157,12 @@ function sdhCharts(id: string, x: DeviceDepth): ChartSpec[] {
 
 function densityChart(d: DeviceAnalysis, x: DeviceDepth): ChartSpec | undefined {
   if (d.points.length === 0) return undefined;
-  const series: ChartSeries[] = [markerSeries("Hall density", d.points.map((p) => [p.gate_V, p.density * N11]))];
+  const series: ChartSeries[] = [
+    markerSeries(
+      "Hall density",
+      d.points.map((p) => [p.gate_V, p.density * N11]),
+    ),
+  ];
   const sdh = x.points.flatMap((p) => (p.sdh.ok ? [[p.gate_V, p.sdh.density * N11] as [number, number]] : []));
   if (sdh.length) series.push(markerSeries("SdH density", sdh, "second"));
   const c = x.calibration;
@@ -158,12 +187,54 @@ function fitRows(x: DeviceDepth): FitRow[] {
   const h = x.hysteresis;
   const q = x.quantumLifetime;
   return [
-    c.ok ? { name: "Gate calibration n(Vg)", result: `C = ${pm(c.capacitance * 100, c.capacitanceStdErr === null ? null : c.capacitanceStdErr * 100)} µF/cm², V_on = ${pm(c.turnOnVoltage, c.turnOnVoltageStdErr)} V`, window: "all Hall points", quality: `R² ${c.r2.toFixed(4)}, ${c.points} points` } : { name: "Gate calibration n(Vg)", result: skip(c.reason), window: "", quality: "" },
-    pc.ok ? { name: "Percolation σ = A(n − n_p)^p", result: `n_p = ${pm(pc.density * 1e-4, pc.densityStdErr * 1e-4)} cm⁻², p = ${pc.exponentFixed ? `${f(pc.exponent)} (fixed)` : pm(pc.exponent, pc.exponentStdErr)}, A = ${pm(pc.prefactor, pc.prefactorStdErr)} S·m^2p`, window: `${f(pc.window.minDensity * 1e-4)}–${f(pc.window.maxDensity * 1e-4)} cm⁻² (${pc.window.rule})`, quality: `R² ${pc.r2.toFixed(4)}, ${pc.points} points, ${pc.excludedInsulating} insulating left out` } : { name: "Percolation σ = A(n − n_p)^p", result: skip(pc.reason), window: "", quality: "" },
-    pl.ok ? { name: "Mobility power law μ ∝ n^α", result: `α = ${pm(pl.exponent, pl.exponentStdErr)}`, window: `${f(pl.window.minDensity * 1e-4)}–${f(pl.window.maxDensity * 1e-4)} cm⁻² (${pl.window.rule})`, quality: `R² ${pl.r2.toFixed(4)}, ${pl.points} points` } : { name: "Mobility power law μ ∝ n^α", result: skip(pl.reason), window: "", quality: "" },
-    h.ok ? { name: "Gate hysteresis (down − up)", result: `mean ${f(h.meanShift * 1e3)} mV, largest ${f(h.maxShift * 1e3)} mV`, window: "conducting range, R ≤ h/e²", quality: `${h.points} equal-resistance points` } : { name: "Gate hysteresis (down − up)", result: skip(h.reason), window: "", quality: "" },
-    q.ok ? { name: "Quantum lifetime (Lifshitz–Kosevich fit)", result: `τ_q = ${f(q.value * 1e12)} ps (median)`, window: "SdH field window", quality: `${q.points} of ${x.points.length} points determined` } : { name: "Quantum lifetime (Lifshitz–Kosevich fit)", result: `not determined: ${q.reason}`, window: "", quality: "" },
-    x.scatteringTimeRatio.ok ? { name: "Scattering-time ratio τ_t/τ_q", result: `${f(x.scatteringTimeRatio.value)} (median)`, window: "points with both lifetimes", quality: `${x.scatteringTimeRatio.points} points` } : { name: "Scattering-time ratio τ_t/τ_q", result: `not determined: ${x.scatteringTimeRatio.reason}`, window: "", quality: "" },
+    c.ok
+      ? {
+          name: "Gate calibration n(Vg)",
+          result: `C = ${pm(c.capacitance * 100, c.capacitanceStdErr === null ? null : c.capacitanceStdErr * 100)} µF/cm², V_on = ${pm(c.turnOnVoltage, c.turnOnVoltageStdErr)} V`,
+          window: "all Hall points",
+          quality: `R² ${c.r2.toFixed(4)}, ${c.points} points`,
+        }
+      : { name: "Gate calibration n(Vg)", result: skip(c.reason), window: "", quality: "" },
+    pc.ok
+      ? {
+          name: "Percolation σ = A(n − n_p)^p",
+          result: `n_p = ${pm(pc.density * 1e-4, pc.densityStdErr * 1e-4)} cm⁻², p = ${pc.exponentFixed ? `${f(pc.exponent)} (fixed)` : pm(pc.exponent, pc.exponentStdErr)}, A = ${pm(pc.prefactor, pc.prefactorStdErr)} S·m^2p`,
+          window: `${f(pc.window.minDensity * 1e-4)}–${f(pc.window.maxDensity * 1e-4)} cm⁻² (${pc.window.rule})`,
+          quality: `R² ${pc.r2.toFixed(4)}, ${pc.points} points, ${pc.excludedInsulating} insulating left out`,
+        }
+      : { name: "Percolation σ = A(n − n_p)^p", result: skip(pc.reason), window: "", quality: "" },
+    pl.ok
+      ? {
+          name: "Mobility power law μ ∝ n^α",
+          result: `α = ${pm(pl.exponent, pl.exponentStdErr)}`,
+          window: `${f(pl.window.minDensity * 1e-4)}–${f(pl.window.maxDensity * 1e-4)} cm⁻² (${pl.window.rule})`,
+          quality: `R² ${pl.r2.toFixed(4)}, ${pl.points} points`,
+        }
+      : { name: "Mobility power law μ ∝ n^α", result: skip(pl.reason), window: "", quality: "" },
+    h.ok
+      ? {
+          name: "Gate hysteresis (down − up)",
+          result: `mean ${f(h.meanShift * 1e3)} mV, largest ${f(h.maxShift * 1e3)} mV`,
+          window: "conducting range, R ≤ h/e²",
+          quality: `${h.points} equal-resistance points`,
+        }
+      : { name: "Gate hysteresis (down − up)", result: skip(h.reason), window: "", quality: "" },
+    q.ok
+      ? {
+          name: "Quantum lifetime (Lifshitz–Kosevich fit)",
+          result: `τ_q = ${f(q.value * 1e12)} ps (median)`,
+          window: "SdH field window",
+          quality: `${q.points} of ${x.points.length} points determined`,
+        }
+      : { name: "Quantum lifetime (Lifshitz–Kosevich fit)", result: `not determined: ${q.reason}`, window: "", quality: "" },
+    x.scatteringTimeRatio.ok
+      ? {
+          name: "Scattering-time ratio τ_t/τ_q",
+          result: `${f(x.scatteringTimeRatio.value)} (median)`,
+          window: "points with both lifetimes",
+          quality: `${x.scatteringTimeRatio.points} points`,
+        }
+      : { name: "Scattering-time ratio τ_t/τ_q", result: `not determined: ${x.scatteringTimeRatio.reason}`, window: "", quality: "" },
   ];
 }
 
@@ -188,7 +259,9 @@ function pointRows(x: DeviceDepth): DepthPointRow[] {
 }
 
 function deviceModel(d: DeviceAnalysis, x: DeviceDepth): DepthDevice {
-  const charts = [oscillationChart(d.id, x), conductivityChart(d.id, x), mobilityChart(d, x), ...sdhCharts(d.id, x), densityChart(d, x)].filter((c): c is ChartSpec => c !== undefined);
+  const charts = [oscillationChart(d.id, x), conductivityChart(d.id, x), mobilityChart(d, x), ...sdhCharts(d.id, x), densityChart(d, x)].filter(
+    (c): c is ChartSpec => c !== undefined,
+  );
   const skipped = [
     ...x.gateSweeps.flatMap((s) => (s.percolation.ok ? [] : [`${s.file}: ${s.percolation.reason}`])),
     ...x.points.flatMap((p) => {
@@ -198,7 +271,9 @@ function deviceModel(d: DeviceAnalysis, x: DeviceDepth): DepthDevice {
     }),
   ];
   const notes = x.points.flatMap((p) => (p.oscillation.ok && p.oscillation.spinSplitting ? [`${p.file}: ${p.oscillation.spinSplitting.note}`] : []));
-  const flagged = x.parallelConduction.length ? `Probable parallel conduction: the Hall density differs from the SdH density of the well by more than the tolerance and three standard errors at ${x.parallelConduction.join(", ")}.` : "";
+  const flagged = x.parallelConduction.length
+    ? `Probable parallel conduction: the Hall density differs from the SdH density of the well by more than the tolerance and three standard errors at ${x.parallelConduction.join(", ")}.`
+    : "";
   return { id: d.id, charts, fits: fitRows(x), points: pointRows(x), skipped, notes, flagged };
 }
 

@@ -37,7 +37,11 @@ function groupSeries(points: TrendPoint[], keyOf: (p: TrendPoint) => string, nam
   const groups = [...new Set(points.map(keyOf))].sort();
   return groups.map((g, i) => {
     const mine = points.filter((p) => keyOf(p) === g);
-    const s = markerSeries(`${name} ${g || "(not recorded)"}`, mine.map((p) => [dayNumber(p.date), p.value]), ROLES[i % ROLES.length]);
+    const s = markerSeries(
+      `${name} ${g || "(not recorded)"}`,
+      mine.map((p) => [dayNumber(p.date), p.value]),
+      ROLES[i % ROLES.length],
+    );
     s.links = mine.map((p) => href(p.id));
     s.tips = mine.map((p) => `${p.id} · run ${p.run || "—"}${p.reactor ? ` · reactor ${p.reactor}` : ""}${p.rules.length ? ` · flagged: ${p.why}` : ""}`);
     return s;
@@ -46,8 +50,20 @@ function groupSeries(points: TrendPoint[], keyOf: (p: TrendPoint) => string, nam
 
 function limitLines(t: Trend & { ok: true }, x0: number, x1: number, suffix: string): ChartSeries[] {
   const l = t.limits;
-  const line = (label: string, y: number, role: ChartSeries["role"]): ChartSeries => ({ label: label + suffix, points: [[x0, y], [x1, y]].map(([a, b]) => [a, sig6(b)]) as [number, number][], line: true, role });
-  return [line("centre line", l.centreLine, "reference"), line(t.clipped?.ucl !== undefined ? "UCL (clipped at the natural bound)" : "UCL (+3σ)", l.ucl, "fit"), line(t.clipped?.lcl !== undefined ? "LCL (clipped at the natural bound)" : "LCL (−3σ)", l.lcl, "fit")];
+  const line = (label: string, y: number, role: ChartSeries["role"]): ChartSeries => ({
+    label: label + suffix,
+    points: [
+      [x0, y],
+      [x1, y],
+    ].map(([a, b]) => [a, sig6(b)]) as [number, number][],
+    line: true,
+    role,
+  });
+  return [
+    line("centre line", l.centreLine, "reference"),
+    line(t.clipped?.ucl !== undefined ? "UCL (clipped at the natural bound)" : "UCL (+3σ)", l.ucl, "fit"),
+    line(t.clipped?.lcl !== undefined ? "LCL (clipped at the natural bound)" : "LCL (−3σ)", l.lcl, "fit"),
+  ];
 }
 
 const groupName = (by: string, g: string) => (by === "none" ? "" : `${by} ${g || "(not recorded)"}`);
@@ -63,9 +79,45 @@ function trendCharts(spec: MetricSpec, groups: Trend[], by: string, targets: Tar
   const left = all.filter((p) => p.role === "left-out");
   const dropped = all.filter((p) => p.role === "dropped");
   const overlay: ChartSeries[] = [
-    ...(flagged.length ? [{ ...markerSeries("flagged by a rule", flagged.map((p) => [dayNumber(p.date), p.value])), role: "flag" as const, links: flagged.map((p) => href(p.id)), tips: flagged.map((p) => `${p.id}: ${p.why}`) }] : []),
-    ...(dropped.length ? [{ ...markerSeries("dropped from the baseline (Phase I)", dropped.map((p) => [dayNumber(p.date), p.value]), "reference"), links: dropped.map((p) => href(p.id)), tips: dropped.map((p) => `${p.id}: ${p.note}`) }] : []),
-    ...(left.length ? [{ ...markerSeries("left out of the baseline and the rules", left.map((p) => [dayNumber(p.date), p.value]), "muted"), links: left.map((p) => href(p.id)), tips: left.map((p) => `${p.id}: ${p.note}`) }] : []),
+    ...(flagged.length
+      ? [
+          {
+            ...markerSeries(
+              "flagged by a rule",
+              flagged.map((p) => [dayNumber(p.date), p.value]),
+            ),
+            role: "flag" as const,
+            links: flagged.map((p) => href(p.id)),
+            tips: flagged.map((p) => `${p.id}: ${p.why}`),
+          },
+        ]
+      : []),
+    ...(dropped.length
+      ? [
+          {
+            ...markerSeries(
+              "dropped from the baseline (Phase I)",
+              dropped.map((p) => [dayNumber(p.date), p.value]),
+              "reference",
+            ),
+            links: dropped.map((p) => href(p.id)),
+            tips: dropped.map((p) => `${p.id}: ${p.note}`),
+          },
+        ]
+      : []),
+    ...(left.length
+      ? [
+          {
+            ...markerSeries(
+              "left out of the baseline and the rules",
+              left.map((p) => [dayNumber(p.date), p.value]),
+              "muted",
+            ),
+            links: left.map((p) => href(p.id)),
+            tips: left.map((p) => `${p.id}: ${p.note}`),
+          },
+        ]
+      : []),
   ];
   // Separate limits are drawn over their own group's dates only (±5 days), one set over the whole chart.
   const span = (t: Trend): [number, number] => {
@@ -75,12 +127,31 @@ function trendCharts(spec: MetricSpec, groups: Trend[], by: string, targets: Tar
   const lines = groups.flatMap((t) => (t.ok ? limitLines(t, ...span(t), by === "none" ? "" : ` (${groupName(by, t.group)})`) : []));
   const target = targets?.grades[targets.defaultGrade]?.[spec.key];
   const limits = target ? [{ axis: "y" as const, min: target.min, max: target.max, label: `target (${targets!.defaultGrade})` }] : undefined;
-  const limitText = groups.map((t) => `${by === "none" ? "" : `${groupName(by, t.group)}: `}${t.ok ? `centre line ${formatValue(t.limits.centreLine, spec)}, control limits ${formatValue(t.limits.lcl, spec)} to ${formatValue(t.limits.ucl, spec)}` : `no limits (${t.reason})`}`).join("; ");
+  const limitText = groups
+    .map(
+      (t) =>
+        `${by === "none" ? "" : `${groupName(by, t.group)}: `}${t.ok ? `centre line ${formatValue(t.limits.centreLine, spec)}, control limits ${formatValue(t.limits.lcl, spec)} to ${formatValue(t.limits.ucl, spec)}` : `no limits (${t.reason})`}`,
+    )
+    .join("; ");
   const summary = `${countText(all.length, "wafer")}; ${limitText}; ${countText(flagged.length, "point")} flagged${flagged.length ? `: ${flagged.map((p) => p.id).join(", ")}` : ""}${left.length ? `; ${left.length} left out` : ""}. The table below lists every point.`;
   const base = { x: { label: "Growth date", dates: true }, y: { label: `${spec.label}${unit ? ` (${unit})` : ""}` }, limits };
-  const charts: ChartSpec[] = [{ id: `trend-${spec.key}-run`, title: `${spec.label} by growth date, grouped by run`, ...base, series: [...groupSeries(judged, (p) => p.run ?? "", "run", href), ...overlay, ...lines], summary }];
+  const charts: ChartSpec[] = [
+    {
+      id: `trend-${spec.key}-run`,
+      title: `${spec.label} by growth date, grouped by run`,
+      ...base,
+      series: [...groupSeries(judged, (p) => p.run ?? "", "run", href), ...overlay, ...lines],
+      summary,
+    },
+  ];
   if (all.some((p) => p.reactor)) {
-    charts.push({ id: `trend-${spec.key}-reactor`, title: `${spec.label} by growth date, grouped by reactor`, ...base, series: [...groupSeries(judged, (p) => p.reactor ?? "", "reactor", href), ...overlay, ...lines], summary });
+    charts.push({
+      id: `trend-${spec.key}-reactor`,
+      title: `${spec.label} by growth date, grouped by reactor`,
+      ...base,
+      series: [...groupSeries(judged, (p) => p.reactor ?? "", "reactor", href), ...overlay, ...lines],
+      summary,
+    });
   }
   return charts;
 }
@@ -100,20 +171,36 @@ export function describeProduction(targets: Targets | undefined): string {
 
 function groupModel(t: Trend, spec: MetricSpec, by: string, href: (id: string) => string) {
   const fmt = (v: number) => formatValue(v, spec);
-  const bound = (which: "lcl" | "ucl") => (t.ok && t.clipped?.[which] !== undefined ? ` — clipped at the natural bound; the formula gives ${fmt(t.clipped[which]!)}` : "");
+  const bound = (which: "lcl" | "ucl") =>
+    t.ok && t.clipped?.[which] !== undefined ? ` — clipped at the natural bound; the formula gives ${fmt(t.clipped[which]!)}` : "";
   return {
     name: groupName(by, t.group) || "all wafers",
     ok: t.ok,
     reason: t.ok ? "" : t.reason,
-    limits: t.ok ? [
-      { label: "Centre line (baseline mean)", value: fmt(t.limits.centreLine) },
-      { label: "σ̂ = MR̄/1.128", value: fmt(t.limits.sigma) },
-      { label: "Upper control limit (+3σ̂)", value: fmt(t.limits.ucl) + bound("ucl") },
-      { label: "Lower control limit (−3σ̂)", value: fmt(t.limits.lcl) + bound("lcl") },
-      { label: "Baseline points kept", value: String(t.limits.baseline.count) + (t.limits.baseline.count < ROUGH_BASELINE_BELOW ? ` (fewer than ${ROUGH_BASELINE_BELOW}: rough limits)` : "") },
-      { label: "Phase I revisions", value: t.passes === 0 ? "none needed" : `${t.passes}${t.stoppedAtLimit ? " (stopped at max_passes with points still beyond the limits)" : ""}` },
-    ] : [],
-    dropped: t.dropped.map((d) => ({ id: d.id, href: href(d.id), value: fmt(d.value), pass: d.pass, side: d.side === "above" ? "above the upper" : "below the lower" })),
+    limits: t.ok
+      ? [
+          { label: "Centre line (baseline mean)", value: fmt(t.limits.centreLine) },
+          { label: "σ̂ = MR̄/1.128", value: fmt(t.limits.sigma) },
+          { label: "Upper control limit (+3σ̂)", value: fmt(t.limits.ucl) + bound("ucl") },
+          { label: "Lower control limit (−3σ̂)", value: fmt(t.limits.lcl) + bound("lcl") },
+          {
+            label: "Baseline points kept",
+            value:
+              String(t.limits.baseline.count) + (t.limits.baseline.count < ROUGH_BASELINE_BELOW ? ` (fewer than ${ROUGH_BASELINE_BELOW}: rough limits)` : ""),
+          },
+          {
+            label: "Phase I revisions",
+            value: t.passes === 0 ? "none needed" : `${t.passes}${t.stoppedAtLimit ? " (stopped at max_passes with points still beyond the limits)" : ""}`,
+          },
+        ]
+      : [],
+    dropped: t.dropped.map((d) => ({
+      id: d.id,
+      href: href(d.id),
+      value: fmt(d.value),
+      pass: d.pass,
+      side: d.side === "above" ? "above the upper" : "below the lower",
+    })),
   };
 }
 
@@ -125,7 +212,9 @@ export function trendsModel(wafers: readonly TrendWafer[], targets: Targets | un
   const pages = [];
   for (const spec of METRICS) {
     const href = (id: string) => siteUrl(`wafers/${id}/`, `/trends/${spec.key}/`, basePath);
-    const inputs: TrendInput[] = wafers.filter((w) => w.values[spec.key] !== undefined && w.grown).map((w) => ({ id: w.id, date: w.grown, run: w.run, reactor: w.reactor, value: w.values[spec.key]!, grade: w.grade, error: w.verdict === "error" }));
+    const inputs: TrendInput[] = wafers
+      .filter((w) => w.values[spec.key] !== undefined && w.grown)
+      .map((w) => ({ id: w.id, date: w.grown, run: w.run, reactor: w.reactor, value: w.values[spec.key]!, grade: w.grade, error: w.verdict === "error" }));
     if (inputs.length === 0) continue;
     const groups = trendGroups(inputs, settings, { metric: spec.key, productionGrades: production, bounds: spec.bounds, group: "" });
     const points = orderByDate(groups.flatMap((t) => t.points));
@@ -140,7 +229,10 @@ export function trendsModel(wafers: readonly TrendWafer[], targets: Targets | un
       unit: prettyUnit(spec.unit) || "(no unit)",
       description: spec.description,
       ok: groups.some((t) => t.ok),
-      reason: groups.filter((t) => !t.ok).map((t) => `${by === "none" ? "" : `${groupName(by, t.group)}: `}${t.ok ? "" : t.reason}`).join("; "),
+      reason: groups
+        .filter((t) => !t.ok)
+        .map((t) => `${by === "none" ? "" : `${groupName(by, t.group)}: `}${t.ok ? "" : t.reason}`)
+        .join("; "),
       baseline: describeBaseline(settings),
       runLength: settings.runLength,
       groups: groups.map((t) => groupModel(t, spec, by, href)),
@@ -171,7 +263,12 @@ export function trendsModel(wafers: readonly TrendWafer[], targets: Targets | un
       })),
     });
   }
-  const exclusions = (settings.exclude ?? []).map((e) => ({ wafer: e.wafer, href: wafers.some((w) => w.id === e.wafer) ? siteUrl(`wafers/${e.wafer}/`, "/trends/", basePath) : "", metric: e.metric ? METRIC_BY_KEY.get(e.metric)?.label ?? e.metric : "every metric", reason: e.reason }));
+  const exclusions = (settings.exclude ?? []).map((e) => ({
+    wafer: e.wafer,
+    href: wafers.some((w) => w.id === e.wafer) ? siteUrl(`wafers/${e.wafer}/`, "/trends/", basePath) : "",
+    metric: e.metric ? (METRIC_BY_KEY.get(e.metric)?.label ?? e.metric) : "every metric",
+    reason: e.reason,
+  }));
   return {
     pages,
     baseline: describeBaseline(settings),

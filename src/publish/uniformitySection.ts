@@ -41,13 +41,16 @@ export function uniformitySection(o: WaferOutcome): UniformitySectionModel | und
     // Figures over every device, as for the judged <metric>_cv (uniformityMetrics); the map shows the positioned ones.
     const values = (o.analysis?.devices ?? []).map((d) => d.metrics[key]).filter((v): v is number => v !== undefined && Number.isFinite(v));
     const u = uniformity(values);
-    const svg = waferMapSvg(devices.map((d) => ({ id: d.id, atMm: d.at_mm!, value: d.metrics[key] ?? null })), {
-      title: `${spec.label} across wafer ${o.folder}`,
-      unit,
-      diameterMm: MAP_DIAMETER_MM,
-      format: (v) => formatNumber(v, spec.digits),
-      idPrefix: `map-${key}`,
-    });
+    const svg = waferMapSvg(
+      devices.map((d) => ({ id: d.id, atMm: d.at_mm!, value: d.metrics[key] ?? null })),
+      {
+        title: `${spec.label} across wafer ${o.folder}`,
+        unit,
+        diameterMm: MAP_DIAMETER_MM,
+        format: (v) => formatNumber(v, spec.digits),
+        idPrefix: `map-${key}`,
+      },
+    );
     const figures = u.ok
       ? [
           { label: "Devices", value: String(u.n) },

@@ -44,13 +44,29 @@ export function valleySection(s: StructureAnalysis, measured?: { depth: readonly
   const series: ChartSeries[] = [];
   if (measured) {
     const keep = measured.depth.map((_, i) => i).filter((i) => measured.depth[i] >= lo && measured.depth[i] <= hi);
-    series.push(traceSeries("Ge fraction (measured)", keep.map((i) => measured.depth[i]), keep.map((i) => measured.ge[i]), "data", 300));
+    series.push(
+      traceSeries(
+        "Ge fraction (measured)",
+        keep.map((i) => measured.depth[i]),
+        keep.map((i) => measured.ge[i]),
+        "data",
+        300,
+      ),
+    );
   }
   series.push(traceSeries("Ge fraction on the atomic layers (model)", depth, ge, "third", 400));
   const wMax = Math.max(...weight);
   const xMax = Math.max(...ge);
   const scale = wMax > 0 ? xMax / wMax : 1;
-  series.push(traceSeries(`|ψ|² per layer (scaled: peak ${formatNumber(wMax, 3)} drawn at ${formatNumber(xMax, 3)})`, depth, weight.map((w) => w * scale), "second", 400));
+  series.push(
+    traceSeries(
+      `|ψ|² per layer (scaled: peak ${formatNumber(wMax, 3)} drawn at ${formatNumber(xMax, 3)})`,
+      depth,
+      weight.map((w) => w * scale),
+      "second",
+      400,
+    ),
+  );
   const profileChart: ChartSpec = {
     id: "valley-layers",
     title: `Ge fraction on the (001) atomic layers with the envelope |ψ|² (${v.file})`,
@@ -62,7 +78,17 @@ export function valleySection(s: StructureAnalysis, measured?: { depth: readonly
   const e = r.distribution.energy.map((x) => x / J_PER_UEV);
   const dens = r.distribution.density.map((p) => p * J_PER_UEV);
   const peak = Math.max(...dens);
-  const marker = (label: string, at: number, role: ChartSeries["role"]): ChartSeries => ({ ...markerSeries(label, [[at / J_PER_UEV, 0], [at / J_PER_UEV, peak]], role), line: true });
+  const marker = (label: string, at: number, role: ChartSeries["role"]): ChartSeries => ({
+    ...markerSeries(
+      label,
+      [
+        [at / J_PER_UEV, 0],
+        [at / J_PER_UEV, peak],
+      ],
+      role,
+    ),
+    line: true,
+  });
   const threshold = r.settings.threshold / J_PER_UEV;
   const distChart: ChartSpec = {
     id: "valley-distribution",
@@ -73,7 +99,12 @@ export function valleySection(s: StructureAnalysis, measured?: { depth: readonly
     limits: [{ axis: "x", min: threshold, label: `threshold ${formatNumber(threshold, 3)} µeV` }],
     summary: `Rician distribution of E_v: mean ${ueV(r.mean)}, 10th percentile ${ueV(r.p10)}, deterministic part ${ueV(r.deterministicSplitting)}, disorder σ ${ueV(r.sigma)}; ${formatNumber(r.yieldFraction * 100, 3)} % of dots reach the threshold of ${formatNumber(threshold, 3)} µeV (shaded)`,
   };
-  const fieldFrom = r.fieldSource === "setting" ? "setting valley_field" : r.fieldSource === "density" ? `e·n/(ε0·11.7), n = ${formatNumber((r.electronDensity ?? NaN) * 1e-4, 3)} cm⁻² (density at peak mobility, mean over devices)` : "default: no transport data";
+  const fieldFrom =
+    r.fieldSource === "setting"
+      ? "setting valley_field"
+      : r.fieldSource === "density"
+        ? `e·n/(ε0·11.7), n = ${formatNumber((r.electronDensity ?? NaN) * 1e-4, 3)} cm⁻² (density at peak mobility, mean over devices)`
+        : "default: no transport data";
   return {
     file: v.file,
     charts: [profileChart, distChart],
@@ -84,15 +115,34 @@ export function valleySection(s: StructureAnalysis, measured?: { depth: readonly
       { label: "Disorder σ (each component of δ)", value: ueVpm(r.sigma, r.stdErr.sigma) },
       // σ is on the scale of one component of Δ; the E_v that disorder alone would give is on the scale of 2|Δ0| above.
       { label: "Disorder alone: mean E_v = √(2π)·σ", value: ueV(Math.sqrt(2 * Math.PI) * r.sigma) },
-      { label: `Yield: dots with E_v ≥ ${formatNumber(threshold, 3)} µeV`, value: Number.isFinite(r.stdErr.yieldFraction) && r.stdErr.yieldFraction > 0 ? `${formatNumber(r.yieldFraction * 100, 3)} ± ${formatNumber(r.stdErr.yieldFraction * 100, 2)} %` : `${formatNumber(r.yieldFraction * 100, 3)} %` },
+      {
+        label: `Yield: dots with E_v ≥ ${formatNumber(threshold, 3)} µeV`,
+        value:
+          Number.isFinite(r.stdErr.yieldFraction) && r.stdErr.yieldFraction > 0
+            ? `${formatNumber(r.yieldFraction * 100, 3)} ± ${formatNumber(r.stdErr.yieldFraction * 100, 2)} %`
+            : `${formatNumber(r.yieldFraction * 100, 3)} %`,
+      },
     ],
     settings: [
       { label: "Vertical field F", value: `${formatNumber(r.field / 1e6, 3)} MV/m (${fieldFrom})` },
-      { label: "Dot orbital energy E_orb (dot radius a_dot)", value: `${formatNumber(r.settings.orbitalEnergy / J_PER_MEV, 3)} meV (${formatNumber(r.dotRadius, 4)} nm)` },
-      { label: "Band offset per unit Ge b", value: `${formatNumber(r.settings.bandOffset / J_PER_EV, 3)} eV (${formatNumber((r.settings.bandOffset * r.xTop) / J_PER_MEV, 3)} meV at the top barrier)` },
-      { label: "Uncertainties (±)", value: "one standard uncertainty from the profile fit's errors on the interface centres and widths only (the model's constants, the field and the caution's choices are not in it)" },
+      {
+        label: "Dot orbital energy E_orb (dot radius a_dot)",
+        value: `${formatNumber(r.settings.orbitalEnergy / J_PER_MEV, 3)} meV (${formatNumber(r.dotRadius, 4)} nm)`,
+      },
+      {
+        label: "Band offset per unit Ge b",
+        value: `${formatNumber(r.settings.bandOffset / J_PER_EV, 3)} eV (${formatNumber((r.settings.bandOffset * r.xTop) / J_PER_MEV, 3)} meV at the top barrier)`,
+      },
+      {
+        label: "Uncertainties (±)",
+        value:
+          "one standard uncertainty from the profile fit's errors on the interface centres and widths only (the model's constants, the field and the caution's choices are not in it)",
+      },
       { label: "Threshold of the yield", value: `${formatNumber(threshold, 3)} µeV` },
-      { label: "Ge fraction: top barrier, well, bottom barrier", value: `${formatNumber(r.xTop, 3)}, ${formatNumber(r.xWell, 2)}, ${formatNumber(r.xBottom, 3)}` },
+      {
+        label: "Ge fraction: top barrier, well, bottom barrier",
+        value: `${formatNumber(r.xTop, 3)}, ${formatNumber(r.xWell, 2)}, ${formatNumber(r.xBottom, 3)}`,
+      },
       { label: "Grid", value: `${formatNumber(VALLEY_GRID_NM, 2)} nm steps, hard walls 10 nm beyond the interface centres; layers every a0/4 = 0.135775 nm` },
     ],
     departure: r.departure.ranges.length

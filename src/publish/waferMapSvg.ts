@@ -15,7 +15,6 @@
  */
 import { hex, sequentialRgb, gradientStops } from "./colourScales.ts";
 
-
 export interface WaferMapDevice {
   id: string;
   /** Position on the wafer in mm, [x, y], origin at the centre, y towards the top (away from the flat). */
@@ -51,12 +50,7 @@ const MISSING_FILL = "#c8c8c8";
 
 /** Escapes text for SVG/XML element content and attribute values. */
 export function escapeXml(text: string): string {
-  return text
-    .replace(/&/g, "&amp;")
-    .replace(/</g, "&lt;")
-    .replace(/>/g, "&gt;")
-    .replace(/"/g, "&quot;")
-    .replace(/'/g, "&#39;");
+  return text.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;").replace(/"/g, "&quot;").replace(/'/g, "&#39;");
 }
 
 /** Colour for t in [0, 1] (clamped) on the sequential scale, as "#rrggbb". */
@@ -107,9 +101,7 @@ export function waferMapSvg(devices: readonly WaferMapDevice[], options: WaferMa
 
   const markers = placed.map((dev) => deviceMarker(dev, mr, fontMm, fmt, unit, toT));
   const omitted = devices.length - placed.length;
-  const rangeText = finite.length
-    ? `values from ${fmt(Math.min(...finite))} to ${fmt(Math.max(...finite))}${unit}`
-    : "no measured values";
+  const rangeText = finite.length ? `values from ${fmt(Math.min(...finite))} to ${fmt(Math.max(...finite))}${unit}` : "no measured values";
   const desc = [
     options.description ?? "",
     `${placed.length} device${placed.length === 1 ? "" : "s"} on a ${n2(d)} mm wafer, ${rangeText}.`,
@@ -130,14 +122,7 @@ export function waferMapSvg(devices: readonly WaferMapDevice[], options: WaferMa
   ].join("\n");
 }
 
-function deviceMarker(
-  dev: WaferMapDevice,
-  mr: number,
-  fontMm: number,
-  fmt: (v: number) => string,
-  unit: string,
-  toT: (v: number) => number,
-): string {
+function deviceMarker(dev: WaferMapDevice, mr: number, fontMm: number, fmt: (v: number) => string, unit: string, toT: (v: number) => number): string {
   const x = dev.atMm[0];
   const y = -dev.atMm[1];
   const has = dev.value !== null && Number.isFinite(dev.value);
@@ -171,7 +156,8 @@ function legend(
   const x0 = -r * 0.7;
   const x1 = r * 0.7;
   const ty = y + h + fontMm * 0.9;
-  const text = (x: number, anchor: string, t: string) => `<text x="${n2(x)}" y="${n2(ty)}" font-size="${n2(fontMm)}" text-anchor="${anchor}" dominant-baseline="central">${escapeXml(t)}</text>`;
+  const text = (x: number, anchor: string, t: string) =>
+    `<text x="${n2(x)}" y="${n2(ty)}" font-size="${n2(fontMm)}" text-anchor="${anchor}" dominant-baseline="central">${escapeXml(t)}</text>`;
   return (
     `<g class="wafer-legend" aria-hidden="true"><defs><linearGradient id="${gid}">${gradientStops(sequentialRgb, 0, 1)}</linearGradient></defs>` +
     `<rect x="${n2(x0)}" y="${n2(y)}" width="${n2(x1 - x0)}" height="${n2(h)}" fill="url(#${gid})" stroke="#555555" stroke-width="${n2(r * 0.005)}"/>` +

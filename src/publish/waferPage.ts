@@ -51,7 +51,11 @@ export function targetText(m: MetricJudgement): string {
   const t = m.target!;
   const f = (v: number) => formatValue(v, m.spec);
   const limit = t.min !== undefined && t.max !== undefined ? `${f(t.min)} … ${f(t.max)}` : t.min !== undefined ? `≥ ${f(t.min)}` : `≤ ${f(t.max!)}`;
-  const notes = [t.aggregate !== "mean" ? (t.aggregate === "every-device" ? "every device" : `${t.aggregate} over devices`) : "", t.required ? "required" : "", t.guardText ? `guard ${t.guardText}` : ""].filter(Boolean);
+  const notes = [
+    t.aggregate !== "mean" ? (t.aggregate === "every-device" ? "every device" : `${t.aggregate} over devices`) : "",
+    t.required ? "required" : "",
+    t.guardText ? `guard ${t.guardText}` : "",
+  ].filter(Boolean);
   return notes.length ? `${limit} (${notes.join(", ")})` : limit;
 }
 
@@ -66,15 +70,32 @@ export function waferCharts(o: WaferOutcome): ChartSpec[] {
     title: "Hall density against gate voltage",
     x: { label: "Gate voltage Vg (V)" },
     y: { label: "Sheet density n (10¹¹ cm⁻²)" },
-    series: withPoints.map((d, i) => markerSeries(d.id, d.points.map((p) => [p.gate_V, p.density * PER_M2_TO_PER_CM2 / 1e11]), roles[i % roles.length])),
-    summary: withPoints.map((d) => `${d.id}: ${d.points.length} gate voltages, density ${formatNumber(d.points[0].density * 1e-4 / 1e11)}–${formatNumber(d.points[d.points.length - 1].density * 1e-4 / 1e11)} ×10¹¹ cm⁻²`).join("; "),
+    series: withPoints.map((d, i) =>
+      markerSeries(
+        d.id,
+        d.points.map((p) => [p.gate_V, (p.density * PER_M2_TO_PER_CM2) / 1e11]),
+        roles[i % roles.length],
+      ),
+    ),
+    summary: withPoints
+      .map(
+        (d) =>
+          `${d.id}: ${d.points.length} gate voltages, density ${formatNumber((d.points[0].density * 1e-4) / 1e11)}–${formatNumber((d.points[d.points.length - 1].density * 1e-4) / 1e11)} ×10¹¹ cm⁻²`,
+      )
+      .join("; "),
   });
   charts.push({
     id: "mobility-vs-density",
     title: "Hall mobility against density",
     x: { label: "Sheet density n (cm⁻²)", log: true },
     y: { label: "Hall mobility μ (cm²/V s)", log: true },
-    series: withPoints.map((d, i) => markerSeries(d.id, d.points.map((p) => [p.density * PER_M2_TO_PER_CM2, p.mobility * M2_PER_VS_TO_CM2_PER_VS]), roles[i % roles.length])),
+    series: withPoints.map((d, i) =>
+      markerSeries(
+        d.id,
+        d.points.map((p) => [p.density * PER_M2_TO_PER_CM2, p.mobility * M2_PER_VS_TO_CM2_PER_VS]),
+        roles[i % roles.length],
+      ),
+    ),
     summary: withPoints.map((d) => `${d.id}: peak ${formatNumber((d.summary?.peakMobility ?? 0) * 1e4)} cm²/V s`).join("; "),
   });
   for (const d of withPoints) {
@@ -91,7 +112,13 @@ export function waferPageModel(o: WaferOutcome) {
   const structure = structureSection(o);
   const images = imagesSection(o);
   const uniformity = uniformitySection(o);
-  const allCharts = [...transportCharts, ...(transportDepth?.charts ?? []), ...(structure?.charts ?? []), ...(structure?.valley?.charts ?? []), ...(images?.charts ?? [])];
+  const allCharts = [
+    ...transportCharts,
+    ...(transportDepth?.charts ?? []),
+    ...(structure?.charts ?? []),
+    ...(structure?.valley?.charts ?? []),
+    ...(images?.charts ?? []),
+  ];
   const devices = o.analysis?.devices ?? [];
   return {
     /** The "On this page" list (pageIndex.ts). */
@@ -126,7 +153,9 @@ export function waferPageModel(o: WaferOutcome) {
       id: d.id,
       geometry: d.geometry,
       position: d.at_mm ? `(${d.at_mm[0]}, ${d.at_mm[1]}) mm` : "",
-      gateFit: d.summary?.gateFit ? `dn/dVg = ${formatNumber(d.summary.gateFit.slope * 1e-4)} cm⁻²/V, turn-on ${formatNumber(d.summary.gateFit.turnOn)} ± ${formatNumber(d.summary.gateFit.turnOnStdErr, 2)} V (R² ${d.summary.gateFit.r2.toFixed(4)}, ${d.summary.gateFit.points} points)` : d.summary?.gateFitSkipped ?? "",
+      gateFit: d.summary?.gateFit
+        ? `dn/dVg = ${formatNumber(d.summary.gateFit.slope * 1e-4)} cm⁻²/V, turn-on ${formatNumber(d.summary.gateFit.turnOn)} ± ${formatNumber(d.summary.gateFit.turnOnStdErr, 2)} V (R² ${d.summary.gateFit.r2.toFixed(4)}, ${d.summary.gateFit.points} points)`
+        : (d.summary?.gateFitSkipped ?? ""),
       points: d.points.map((p) => ({
         file: p.file,
         gate: formatNumber(p.gate_V, 4),
@@ -141,10 +170,20 @@ export function waferPageModel(o: WaferOutcome) {
       conditions: deviceConditions(d),
     })),
     growth: growthSection(r?.growth),
-    stack: (r?.stack ?? []).map((l) => ({ ...l, material: l.material ?? "", ge: l.ge === undefined ? "" : formatNumber(l.ge, 3), thickness: l.thickness_nm === undefined ? "" : `${formatNumber(l.thickness_nm, 3)} nm` })),
+    stack: (r?.stack ?? []).map((l) => ({
+      ...l,
+      material: l.material ?? "",
+      ge: l.ge === undefined ? "" : formatNumber(l.ge, 3),
+      thickness: l.thickness_nm === undefined ? "" : `${formatNumber(l.thickness_nm, 3)} nm`,
+    })),
     notesHtml: renderNotes(r?.notes ?? ""),
     problems: o.problems.map((p) => ({ severity: p.severity, text: formatProblem(p) })),
-    files: o.provenance.files.map((f) => ({ ...f, size: f.bytes < 1024 ? `${f.bytes} B` : `${(f.bytes / 1024).toFixed(1)} KiB`, href: rawCopyHref(f), name: f.path.split("/").at(-1) ?? f.path })),
+    files: o.provenance.files.map((f) => ({
+      ...f,
+      size: f.bytes < 1024 ? `${f.bytes} B` : `${(f.bytes / 1024).toFixed(1)} KiB`,
+      href: rawCopyHref(f),
+      name: f.path.split("/").at(-1) ?? f.path,
+    })),
     settings: o.provenance.settings,
     transportCharts,
     transportDepth,

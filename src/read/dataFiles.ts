@@ -120,8 +120,21 @@ export async function openDataFile(dataDir: string, abs: string): Promise<OpenDa
     const code = (err as NodeJS.ErrnoException).code;
     if (code === "ELOOP" || code === "EMLINK") throw changedError(rel);
     if (code === "ENOENT") throw new InputError({ file: rel, message: "file not found", fix: "check the file name and that it is committed" });
-    if (code === "ENXIO") throw new InputError({ file: rel, message: "not a regular file", expected: "a file", found: "a socket or device", fix: "make the pattern or path that names it match files only" });
-    throw new InputError({ file: rel, message: "file cannot be opened", expected: "a readable file", found: code ?? String(err), fix: "check the file's permissions" });
+    if (code === "ENXIO")
+      throw new InputError({
+        file: rel,
+        message: "not a regular file",
+        expected: "a file",
+        found: "a socket or device",
+        fix: "make the pattern or path that names it match files only",
+      });
+    throw new InputError({
+      file: rel,
+      message: "file cannot be opened",
+      expected: "a readable file",
+      found: code ?? String(err),
+      fix: "check the file's permissions",
+    });
   }
   try {
     const stat = await handle.stat();
@@ -161,7 +174,13 @@ export async function readDataBytes(dataDir: string, abs: string, maxBytes = MAX
   const { rel, handle, stat } = await openDataFile(dataDir, abs);
   try {
     if (!stat.isFile()) {
-      throw new InputError({ file: rel, message: "not a regular file", expected: "a file", found: "a folder or device", fix: "make the pattern or path that names it match files only" });
+      throw new InputError({
+        file: rel,
+        message: "not a regular file",
+        expected: "a file",
+        found: "a folder or device",
+        fix: "make the pattern or path that names it match files only",
+      });
     }
     if (stat.size > maxBytes) {
       throw new InputError({
@@ -184,7 +203,13 @@ const utf8 = new TextDecoder("utf-8", { fatal: true });
 export function decodeText(file: DataFile): string {
   const { bytes, rel } = file;
   if (bytes.length === 0) {
-    throw new InputError({ file: rel, message: "file is empty", expected: "text content", found: "0 bytes", fix: "commit the measurement data or remove the file" });
+    throw new InputError({
+      file: rel,
+      message: "file is empty",
+      expected: "text content",
+      found: "0 bytes",
+      fix: "commit the measurement data or remove the file",
+    });
   }
   const nul = bytes.indexOf(0);
   // UTF-16 text (Windows "Unicode" exports): a byte-order mark, or every other byte zero in the first line's ASCII.
@@ -192,7 +217,14 @@ export function decodeText(file: DataFile): string {
   const head = bytes.subarray(0, Math.min(bytes.length, 64));
   const zeros = (parity: number) => head.filter((b, i) => i % 2 === parity && b === 0).length;
   if (nul >= 0 && (bom16 || (head.length >= 8 && Math.max(zeros(0), zeros(1)) >= 0.9 * Math.floor(head.length / 2)))) {
-    throw new InputError({ file: rel, line: 1, message: "file is UTF-16 text", expected: "UTF-8 text", found: bom16 ? `a UTF-16 byte-order mark (${bytes[0] === 0xff ? "FF FE" : "FE FF"})` : "every other byte zero (UTF-16 without a byte-order mark)", fix: "save or export the file as UTF-8 (in a spreadsheet: CSV UTF-8); waferbook reads UTF-8 only" });
+    throw new InputError({
+      file: rel,
+      line: 1,
+      message: "file is UTF-16 text",
+      expected: "UTF-8 text",
+      found: bom16 ? `a UTF-16 byte-order mark (${bytes[0] === 0xff ? "FF FE" : "FE FF"})` : "every other byte zero (UTF-16 without a byte-order mark)",
+      fix: "save or export the file as UTF-8 (in a spreadsheet: CSV UTF-8); waferbook reads UTF-8 only",
+    });
   }
   if (nul >= 0) {
     throw new InputError({
@@ -280,7 +312,13 @@ export async function listFiles(dir: string, label = "", keepLink?: (rel: string
     const sub = relPath(dir, e.path);
     const top = [label, sub.split("/")[0]].filter(Boolean).join("/");
     const depth = sub.split("/").length;
-    throw new InputError({ file: top, message: "folder path is longer than the system allows", expected: "a path of at most a few thousand characters", found: `folders nested ${depth} deep, ${e.path.length} characters in all`, fix: "flatten the folders or shorten their names" });
+    throw new InputError({
+      file: top,
+      message: "folder path is longer than the system allows",
+      expected: "a path of at most a few thousand characters",
+      found: `folders nested ${depth} deep, ${e.path.length} characters in all`,
+      fix: "flatten the folders or shorten their names",
+    });
   }
   const out: string[] = [];
   for (const e of entries) {
@@ -297,10 +335,22 @@ export async function listFiles(dir: string, label = "", keepLink?: (rel: string
  */
 export function checkRelativePath(rel: string, where: { file: string; field: string; line?: number }): void {
   if (path.isAbsolute(rel) || /^[A-Za-z]:[\\/]/.test(rel) || rel.startsWith("\\")) {
-    throw new InputError({ ...where, message: "file path must be relative to the wafer folder", expected: "a path such as \"images/haadf-01.png\"", found: JSON.stringify(rel), fix: "remove the leading slash or drive" });
+    throw new InputError({
+      ...where,
+      message: "file path must be relative to the wafer folder",
+      expected: 'a path such as "images/haadf-01.png"',
+      found: JSON.stringify(rel),
+      fix: "remove the leading slash or drive",
+    });
   }
   if (rel.split(/[\\/]/).includes("..")) {
-    throw new InputError({ ...where, message: "refused: file path leads outside the wafer folder", expected: "a path inside the wafer folder", found: JSON.stringify(rel), fix: "move the file into the wafer folder and drop the \"..\"" });
+    throw new InputError({
+      ...where,
+      message: "refused: file path leads outside the wafer folder",
+      expected: "a path inside the wafer folder",
+      found: JSON.stringify(rel),
+      fix: 'move the file into the wafer folder and drop the ".."',
+    });
   }
 }
 
@@ -311,10 +361,22 @@ export function checkRelativePath(rel: string, where: { file: string; field: str
  */
 export function matchGlob(pattern: string, files: readonly string[], where: { file: string; field: string }): string[] {
   if (path.isAbsolute(pattern) || /^[A-Za-z]:[\\/]/.test(pattern)) {
-    throw new InputError({ ...where, message: "file pattern must be relative to the wafer folder", expected: "a pattern such as \"transport/*.csv\"", found: JSON.stringify(pattern), fix: "remove the leading slash or drive" });
+    throw new InputError({
+      ...where,
+      message: "file pattern must be relative to the wafer folder",
+      expected: 'a pattern such as "transport/*.csv"',
+      found: JSON.stringify(pattern),
+      fix: "remove the leading slash or drive",
+    });
   }
   if (pattern.split(/[\\/]/).includes("..")) {
-    throw new InputError({ ...where, message: "refused: file pattern leads outside the wafer folder", expected: "a pattern inside the wafer folder", found: JSON.stringify(pattern), fix: "move the files into the wafer folder and drop the \"..\"" });
+    throw new InputError({
+      ...where,
+      message: "refused: file pattern leads outside the wafer folder",
+      expected: "a pattern inside the wafer folder",
+      found: JSON.stringify(pattern),
+      fix: 'move the files into the wafer folder and drop the ".."',
+    });
   }
   const isMatch = picomatch(pattern, { dot: false });
   return files.filter((f) => isMatch(f));

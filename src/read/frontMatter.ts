@@ -19,11 +19,25 @@ export interface FrontMatterDoc {
 
 export function readFrontMatter(text: string, file: string): FrontMatterDoc {
   if (!/^---\r?\n/.test(text)) {
-    throw new InputError({ file, line: 1, message: "no front matter", expected: "the file to start with a line \"---\", the YAML fields, and another \"---\"", found: JSON.stringify(text.split(/\r?\n/)[0].slice(0, 30)), fix: "add the front matter block; see docs/formats.md" });
+    throw new InputError({
+      file,
+      line: 1,
+      message: "no front matter",
+      expected: 'the file to start with a line "---", the YAML fields, and another "---"',
+      found: JSON.stringify(text.split(/\r?\n/)[0].slice(0, 30)),
+      fix: "add the front matter block; see docs/formats.md",
+    });
   }
   const closing = /\r?\n---[ \t]*(\r?\n|$)/.exec(text.slice(3));
   if (!closing) {
-    throw new InputError({ file, line: 1, message: "front matter is not closed", expected: "a second line \"---\" after the YAML fields", found: "the end of the file", fix: "add the closing \"---\" line" });
+    throw new InputError({
+      file,
+      line: 1,
+      message: "front matter is not closed",
+      expected: 'a second line "---" after the YAML fields',
+      found: "the end of the file",
+      fix: 'add the closing "---" line',
+    });
   }
   let parsed: matter.GrayMatterFile<string>;
   try {
@@ -33,10 +47,26 @@ export function readFrontMatter(text: string, file: string): FrontMatterDoc {
     if (e.mark) {
       // The front-matter text starts right after the opening "---", so YAML's line 0 is file line 1.
       const line = e.mark.line + 1;
-      throw new InputError({ file, line, column: e.mark.column + 1, message: `YAML syntax error: ${e.reason ?? "cannot parse"}`, expected: "valid YAML (spaces for indentation, \"key: value\")", found: lineText(text, line), fix: /tab/i.test(e.reason ?? "") ? "indent with spaces, not tabs" : "check the indentation and quoting on that line", ...aliasLimit(e.reason) });
+      throw new InputError({
+        file,
+        line,
+        column: e.mark.column + 1,
+        message: `YAML syntax error: ${e.reason ?? "cannot parse"}`,
+        expected: 'valid YAML (spaces for indentation, "key: value")',
+        found: lineText(text, line),
+        fix: /tab/i.test(e.reason ?? "") ? "indent with spaces, not tabs" : "check the indentation and quoting on that line",
+        ...aliasLimit(e.reason),
+      });
     }
     // No position from the parser: locate at the opening "---" of the block it could not read.
-    throw new InputError({ file, line: 1, message: `cannot read front matter: ${e.message.split("\n")[0]}`, expected: "YAML \"key: value\" lines between the two \"---\" lines", found: "text the YAML reader refused", fix: "check the indentation and quoting of the front matter; see docs/formats.md" });
+    throw new InputError({
+      file,
+      line: 1,
+      message: `cannot read front matter: ${e.message.split("\n")[0]}`,
+      expected: 'YAML "key: value" lines between the two "---" lines',
+      found: "text the YAML reader refused",
+      fix: "check the indentation and quoting of the front matter; see docs/formats.md",
+    });
   }
   return { data: parsed.data, body: parsed.content, firstLine: 2, matterText: parsed.matter };
 }
@@ -49,7 +79,16 @@ export function readYaml(text: string, file: string): unknown {
     const e = err as { mark?: { line: number; column: number }; reason?: string; message: string };
     // Without a position from the parser, point at the top of the file.
     const line = e.mark ? e.mark.line + 1 : 1;
-    throw new InputError({ file, line, column: e.mark ? e.mark.column + 1 : undefined, message: `YAML syntax error: ${e.reason ?? e.message}`, expected: "valid YAML", found: e.mark ? lineText(text, line) : "text YAML cannot read", fix: e.mark ? "check the indentation and quoting on that line" : "check the indentation and quoting in the file", ...aliasLimit(e.reason) });
+    throw new InputError({
+      file,
+      line,
+      column: e.mark ? e.mark.column + 1 : undefined,
+      message: `YAML syntax error: ${e.reason ?? e.message}`,
+      expected: "valid YAML",
+      found: e.mark ? lineText(text, line) : "text YAML cannot read",
+      fix: e.mark ? "check the indentation and quoting on that line" : "check the indentation and quoting in the file",
+      ...aliasLimit(e.reason),
+    });
   }
 }
 
@@ -57,7 +96,11 @@ export function readYaml(text: string, file: string): unknown {
 function aliasLimit(reason: string | undefined): { message: string; expected: string; fix: string } | Record<string, never> {
   if (!reason || !(reason.startsWith(ALIAS_LIMIT_REASON) || reason.includes("maxAliases"))) return {};
   const limits = `at most ${MAX_YAML_ALIASES} aliases, repeating at most ${MAX_YAML_ALIAS_NODES.toLocaleString("en-US")} nodes in all`;
-  return { message: `YAML alias limit: ${reason}`, expected: limits, fix: "write the values out instead of repeating them through aliases (docs/formats.md, Limits)" };
+  return {
+    message: `YAML alias limit: ${reason}`,
+    expected: limits,
+    fix: "write the values out instead of repeating them through aliases (docs/formats.md, Limits)",
+  };
 }
 
 /** The text of a 1-based line, shortened and quoted, for "found" in a YAML syntax message. */

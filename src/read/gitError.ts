@@ -12,7 +12,11 @@ export class GitError extends Error {
     cause?: string,
   ) {
     const said = stderr.trim().split("\n").filter(Boolean).slice(0, 3).join(" / ");
-    super(exitCode === null ? `git could not be run (${cause ?? "unknown reason"})` : `git ${args[0] ?? ""} failed with exit code ${exitCode}${said ? `: ${said.slice(0, 300)}` : ""}`);
+    super(
+      exitCode === null
+        ? `git could not be run (${cause ?? "unknown reason"})`
+        : `git ${args[0] ?? ""} failed with exit code ${exitCode}${said ? `: ${said.slice(0, 300)}` : ""}`,
+    );
     this.name = "GitError";
   }
 }

@@ -77,10 +77,19 @@ export async function findRepo(folder: string, run: GitRunner = defaultGitRunner
 
 /** The first `.git` entry in `folder` or a folder above it, stopping at GIT_CEILING_DIRECTORIES (as git does); null if none. */
 async function dotGitAbove(folder: string, run: GitRunner): Promise<string | null> {
-  const ceilings = (run.env?.GIT_CEILING_DIRECTORIES ?? process.env.GIT_CEILING_DIRECTORIES ?? "").split(path.delimiter).filter(Boolean).map((c) => path.resolve(c));
+  const ceilings = (run.env?.GIT_CEILING_DIRECTORIES ?? process.env.GIT_CEILING_DIRECTORIES ?? "")
+    .split(path.delimiter)
+    .filter(Boolean)
+    .map((c) => path.resolve(c));
   for (let dir = path.resolve(folder); ; dir = path.dirname(dir)) {
     const candidate = path.join(dir, ".git");
-    if (await fs.lstat(candidate).then(() => true, () => false)) return candidate;
+    if (
+      await fs.lstat(candidate).then(
+        () => true,
+        () => false,
+      )
+    )
+      return candidate;
     if (ceilings.includes(path.dirname(dir)) || path.dirname(dir) === dir) return null;
   }
 }

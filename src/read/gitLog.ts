@@ -44,7 +44,17 @@ export interface GitCommit {
 
 export const LOG_FORMAT = "%H%x00%h%x00%aI%x00%cI%x00%an%x00%s";
 /** The arguments of `git log` that produce what {@link GitLogParser} reads (options that user configuration could otherwise change are pinned). */
-export const LOG_ARGS = ["log", "-z", "--name-status", "--no-renames", "--diff-merges=first-parent", `--format=${LOG_FORMAT}`, "--no-color", "--no-show-signature", "--encoding=UTF-8"];
+export const LOG_ARGS = [
+  "log",
+  "-z",
+  "--name-status",
+  "--no-renames",
+  "--diff-merges=first-parent",
+  `--format=${LOG_FORMAT}`,
+  "--no-color",
+  "--no-show-signature",
+  "--encoding=UTF-8",
+];
 
 /** The log did not have the expected shape at `offset` (bytes from the start). */
 export class GitLogError extends Error {
@@ -113,7 +123,8 @@ export class GitLogParser {
   end(): void {
     const rest = this.pending.reduce((n, b) => n + b.length, 0);
     if (rest > 0) throw new GitLogError(this.tokenStart, `the output ends inside a field (${rest} bytes without a terminating NUL)`);
-    if (this.state === "header" && this.header.length > 0) throw new GitLogError(this.offset, `the output ends inside a commit header (${this.header.length} of 6 fields)`);
+    if (this.state === "header" && this.header.length > 0)
+      throw new GitLogError(this.offset, `the output ends inside a commit header (${this.header.length} of 6 fields)`);
     if (this.state === "path") throw new GitLogError(this.offset, "the output ends before a changed file's path");
     this.flush();
   }
@@ -141,7 +152,10 @@ export class GitLogParser {
         }
         const status = this.state === "first" && t.startsWith("\n") ? t.slice(1) : t;
         if ((this.state === "first") !== t.startsWith("\n") || !STATUS.test(status)) {
-          throw new GitLogError(this.tokenStart, `expected a commit hash or a file status${this.state === "first" ? " after a newline" : ""}, found ${brief(t)}`);
+          throw new GitLogError(
+            this.tokenStart,
+            `expected a commit hash or a file status${this.state === "first" ? " after a newline" : ""}, found ${brief(t)}`,
+          );
         }
         this.pathsLeft = status[0] === "R" || status[0] === "C" ? 2 : 1;
         this.state = "path";
@@ -152,7 +166,15 @@ export class GitLogParser {
 
   private startCommit(): void {
     const [hash, shortHash, date, committedAt, author, subject] = this.header;
-    const bad = !HASH.test(hash) ? ["commit hash", hash] : !SHORT.test(shortHash) || !hash.startsWith(shortHash) ? ["short hash", shortHash] : !ISO.test(date) ? ["author date", date] : !ISO.test(committedAt) ? ["commit date", committedAt] : null;
+    const bad = !HASH.test(hash)
+      ? ["commit hash", hash]
+      : !SHORT.test(shortHash) || !hash.startsWith(shortHash)
+        ? ["short hash", shortHash]
+        : !ISO.test(date)
+          ? ["author date", date]
+          : !ISO.test(committedAt)
+            ? ["commit date", committedAt]
+            : null;
     if (bad) throw new GitLogError(this.tokenStart, `expected a ${bad[0]}, found ${brief(bad[1])}`);
     this.current = { hash, shortHash, date, committedAt, author, subject, files: [], dataFiles: [] };
     this.header = [];

@@ -97,7 +97,8 @@ export function openObjectReader(gitPath: string, cwd: string, env: NodeJS.Proce
 
   return {
     read(name) {
-      if (/[\n\r]/.test(name)) return Promise.reject(new RangeError(`git cat-file --batch cannot be asked for a name with a line break: ${JSON.stringify(name)}`));
+      if (/[\n\r]/.test(name))
+        return Promise.reject(new RangeError(`git cat-file --batch cannot be asked for a name with a line break: ${JSON.stringify(name)}`));
       if (failure) return Promise.reject(failure);
       if (closed) return Promise.reject(new GitError(ARGS, null, "", "the object reader was closed"));
       return new Promise((resolve, reject) => {

@@ -86,7 +86,11 @@ function unquote(cell: string): string {
 }
 
 function splitCells(line: string, sep: Separator | "ws", header = false): string[] {
-  if (sep === "ws") return line.trim().split(header ? /\t|\s{2,}/ : /\s+/).map(unquote);
+  if (sep === "ws")
+    return line
+      .trim()
+      .split(header ? /\t|\s{2,}/ : /\s+/)
+      .map(unquote);
   return line.split(sep).map(unquote);
 }
 
@@ -130,12 +134,26 @@ function applyConditions(t: RawTable, rules: ReadingRules, preamble: { text: str
     const own = t.meta.get(c.key);
     if (own) {
       if (own.value.replace(/\s+/g, " ") !== text) {
-        notes.push({ severity: "warning", file: t.file, line: own.line, field: `# ${c.key}`, message: `the file's own "# ${c.key}:" line and the rule \`${c.key}.${c.source}\` (${ruleRef(c.at)}) disagree; the file's line is used`, expected: "one value", found: `${JSON.stringify(own.value)} in the file, ${JSON.stringify(text)} by the rule`, fix: "correct the file's export or the rule in wafer.md" });
+        notes.push({
+          severity: "warning",
+          file: t.file,
+          line: own.line,
+          field: `# ${c.key}`,
+          message: `the file's own "# ${c.key}:" line and the rule \`${c.key}.${c.source}\` (${ruleRef(c.at)}) disagree; the file's line is used`,
+          expected: "one value",
+          found: `${JSON.stringify(own.value)} in the file, ${JSON.stringify(text)} by the rule`,
+          fix: "correct the file's export or the rule in wafer.md",
+        });
       }
       continue;
     }
     const via = { source: c.source, rule: `${c.key}.${c.source}`, at: ruleRef(c.at) };
-    t.meta.set(c.key, { value: text, line: line ?? t.headerLine, ...(line === undefined ? { rule: `${c.key}.${c.source} (${ruleRef(c.at)})` } : {}), via } as MetaEntry);
+    t.meta.set(c.key, {
+      value: text,
+      line: line ?? t.headerLine,
+      ...(line === undefined ? { rule: `${c.key}.${c.source} (${ruleRef(c.at)})` } : {}),
+      via,
+    } as MetaEntry);
   }
 }
 
@@ -173,7 +191,15 @@ export function readInstrumentTable(text: string, file: string, rules: ReadingRu
   let headerIndex: number;
   if (rules.headerRow !== undefined) {
     if (rules.headerRow > lines.length || (rules.headerRow === lines.length && lines[lines.length - 1] === "")) {
-      throw new InputError({ file, line: lines.length, field: "layout.header_row", message: `the column names should be on line ${rules.headerRow} (layout.header_row, ${ruleRef(where)}), past the end of the file`, expected: `a file of more than ${rules.headerRow} lines`, found: `${lines.length - (lines[lines.length - 1] === "" ? 1 : 0)} lines`, fix: "check header_row against the file, or whether the export was cut short" });
+      throw new InputError({
+        file,
+        line: lines.length,
+        field: "layout.header_row",
+        message: `the column names should be on line ${rules.headerRow} (layout.header_row, ${ruleRef(where)}), past the end of the file`,
+        expected: `a file of more than ${rules.headerRow} lines`,
+        found: `${lines.length - (lines[lines.length - 1] === "" ? 1 : 0)} lines`,
+        fix: "check header_row against the file, or whether the export was cut short",
+      });
     }
     headerIndex = rules.headerRow - 1;
   } else {
@@ -185,7 +211,14 @@ export function readInstrumentTable(text: string, file: string, rules: ReadingRu
       return columns.filter((c) => cells.includes(c.header)).length >= want;
     });
     if (headerIndex < 0) {
-      throw new InputError({ file, field: columns[0].at.field, message: `no line holds the column names of \`columns\` (${ruleRef(columns[0].at)})`, expected: `a header line with ${want === 2 ? "at least two of " : ""}${columns.map((c) => JSON.stringify(c.header)).join(", ")}`, found: `none in the first ${Math.min(lines.length, MAX_PREAMBLE_LINES)} lines`, fix: "copy the names exactly as the file writes them, or give layout.header_row" });
+      throw new InputError({
+        file,
+        field: columns[0].at.field,
+        message: `no line holds the column names of \`columns\` (${ruleRef(columns[0].at)})`,
+        expected: `a header line with ${want === 2 ? "at least two of " : ""}${columns.map((c) => JSON.stringify(c.header)).join(", ")}`,
+        found: `none in the first ${Math.min(lines.length, MAX_PREAMBLE_LINES)} lines`,
+        fix: "copy the names exactly as the file writes them, or give layout.header_row",
+      });
     }
   }
   const headerLine = headerIndex + 1;
@@ -201,13 +234,42 @@ export function readInstrumentTable(text: string, file: string, rules: ReadingRu
     if (at < 0) {
       const loose = (c: string) => c.toLowerCase().replace(/\s+/g, "");
       const near = cells.find((c) => loose(c) === loose(rule.header));
-      if (near !== undefined) problems.add({ file, line: headerLine, field: rule.at.field, message: `column ${JSON.stringify(rule.header)} named in ${rule.at.field} (${ruleRef(rule.at)}) is not in the header, but ${JSON.stringify(near)} is`, expected: JSON.stringify(rule.header), found: JSON.stringify(near), fix: "write the name exactly as the file does (letter case and spaces count)" });
+      if (near !== undefined)
+        problems.add({
+          file,
+          line: headerLine,
+          field: rule.at.field,
+          message: `column ${JSON.stringify(rule.header)} named in ${rule.at.field} (${ruleRef(rule.at)}) is not in the header, but ${JSON.stringify(near)} is`,
+          expected: JSON.stringify(rule.header),
+          found: JSON.stringify(near),
+          fix: "write the name exactly as the file does (letter case and spaces count)",
+        });
     } else if (cells.indexOf(rule.header, at + 1) >= 0) {
-      problems.add({ file, line: headerLine, field: rule.at.field, message: `column ${JSON.stringify(rule.header)} appears twice in the header`, expected: "each mapped name once", found: `columns ${at + 1} and ${cells.indexOf(rule.header, at + 1) + 1}`, fix: "rename one of them in the export" });
+      problems.add({
+        file,
+        line: headerLine,
+        field: rule.at.field,
+        message: `column ${JSON.stringify(rule.header)} appears twice in the header`,
+        expected: "each mapped name once",
+        found: `columns ${at + 1} and ${cells.indexOf(rule.header, at + 1) + 1}`,
+        fix: "rename one of them in the export",
+      });
     } else mapped.push({ rule, at });
   }
   if (mapped.length === 0 && problems.ok) {
-    problems.add({ file, line: headerLine, field: columns[0].at.field, message: `none of the column names of \`columns\` (${ruleRef(columns[0].at)}) is on line ${headerLine}`, expected: columns.map((c) => JSON.stringify(c.header)).join(", "), found: cells.slice(0, 12).map((c) => JSON.stringify(c)).join(", ") + (cells.length > 12 ? ", …" : ""), fix: "check layout.header_row and layout.separator against the file" });
+    problems.add({
+      file,
+      line: headerLine,
+      field: columns[0].at.field,
+      message: `none of the column names of \`columns\` (${ruleRef(columns[0].at)}) is on line ${headerLine}`,
+      expected: columns.map((c) => JSON.stringify(c.header)).join(", "),
+      found:
+        cells
+          .slice(0, 12)
+          .map((c) => JSON.stringify(c))
+          .join(", ") + (cells.length > 12 ? ", …" : ""),
+      fix: "check layout.header_row and layout.separator against the file",
+    });
   }
   problems.done();
   const ignored = cells.filter((c, i) => c !== "" && !mapped.some((m) => m.at === i));
@@ -218,12 +280,36 @@ export function readInstrumentTable(text: string, file: string, rules: ReadingRu
     if (s !== "" && !s.startsWith("#")) bodyIndex.push(i);
   }
   if (bodyIndex.length === 0) {
-    throw new InputError({ file, line: headerLine, message: "no data rows after the header", expected: "at least one row of numbers", found: "the header only", fix: "check that the export is complete, or layout.header_row" });
+    throw new InputError({
+      file,
+      line: headerLine,
+      message: "no data rows after the header",
+      expected: "at least one row of numbers",
+      found: "the header only",
+      fix: "check that the export is complete, or layout.header_row",
+    });
   }
-  const sample = bodyIndex.slice(0, 50).map((i) => lines[i]).join("\n");
-  const decimal: DecimalMark = rules.decimal ? (rules.decimal === "comma" ? "," : ".") : sep !== "," && sample.includes(",") && !/\d\.\d|\.\d/.test(sample) ? "," : ".";
+  const sample = bodyIndex
+    .slice(0, 50)
+    .map((i) => lines[i])
+    .join("\n");
+  const decimal: DecimalMark = rules.decimal
+    ? rules.decimal === "comma"
+      ? ","
+      : "."
+    : sep !== "," && sample.includes(",") && !/\d\.\d|\.\d/.test(sample)
+      ? ","
+      : ".";
   if (decimal === "," && sep === ",") {
-    throw new InputError({ file, line: headerLine, field: "layout", message: `a decimal comma with commas between cells cannot be read (layout, ${ruleRef(where)})`, expected: "semicolons, tabs or spaces between cells when numbers use a decimal comma", found: "comma separator and decimal comma", fix: "set layout.separator to the file's real separator" });
+    throw new InputError({
+      file,
+      line: headerLine,
+      field: "layout",
+      message: `a decimal comma with commas between cells cannot be read (layout, ${ruleRef(where)})`,
+      expected: "semicolons, tabs or spaces between cells when numbers use a decimal comma",
+      found: "comma separator and decimal comma",
+      fix: "set layout.separator to the file's real separator",
+    });
   }
   const rowLines = bodyIndex.map((i) => i + 1);
   // A text column (peak-table layer names) leaves the numbers to numericColumn, which reads them from the cell text.
@@ -235,20 +321,41 @@ export function readInstrumentTable(text: string, file: string, rules: ReadingRu
   bodyIndex.forEach((li, r) => {
     const parts = splitCells(lines[li], sep);
     if (parts.length < need) {
-      bad.add({ file, line: li + 1, message: "row has the wrong number of cells", expected: `at least ${need} cells (the mapped columns reach column ${need})`, found: `${parts.length}`, fix: parts.length === 1 && sep !== "ws" ? `check layout.separator (${ruleRef(where)}): the row holds no ${sep === "\t" ? "tab" : JSON.stringify(sep)}` : "fill or remove the incomplete row" });
+      bad.add({
+        file,
+        line: li + 1,
+        message: "row has the wrong number of cells",
+        expected: `at least ${need} cells (the mapped columns reach column ${need})`,
+        found: `${parts.length}`,
+        fix:
+          parts.length === 1 && sep !== "ws"
+            ? `check layout.separator (${ruleRef(where)}): the row holds no ${sep === "\t" ? "tab" : JSON.stringify(sep)}`
+            : "fill or remove the incomplete row",
+      });
       rows[r] = mapped.map(() => "");
       return;
     }
     rows[r] = mapped.map((m) => parts[m.at]);
-    if (allNumeric) mapped.forEach((m, k) => {
-      const cell = parts[m.at];
-      const txt = numberText(cell, decimal);
-      const v = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/.test(txt) ? Number(txt) : NaN;
-      if (!Number.isFinite(v)) {
-        bad.add({ file, line: li + 1, field: `column ${m.at + 1} (${JSON.stringify(m.rule.header)} → ${m.rule.name})`, message: "cell is not a finite number", expected: "a number such as 1.25e-3", found: JSON.stringify(cell), fix: decimalFix(cell, decimal) ? `the cell's decimal mark differs from the one the file is read with: set layout.decimal (${ruleRef(where)}) to ${decimal === "." ? "comma" : "point"}` : "correct the cell, or remove the row" });
-      }
-      numeric[k][r] = v;
-    });
+    if (allNumeric)
+      mapped.forEach((m, k) => {
+        const cell = parts[m.at];
+        const txt = numberText(cell, decimal);
+        const v = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/.test(txt) ? Number(txt) : NaN;
+        if (!Number.isFinite(v)) {
+          bad.add({
+            file,
+            line: li + 1,
+            field: `column ${m.at + 1} (${JSON.stringify(m.rule.header)} → ${m.rule.name})`,
+            message: "cell is not a finite number",
+            expected: "a number such as 1.25e-3",
+            found: JSON.stringify(cell),
+            fix: decimalFix(cell, decimal)
+              ? `the cell's decimal mark differs from the one the file is read with: set layout.decimal (${ruleRef(where)}) to ${decimal === "." ? "comma" : "point"}`
+              : "correct the cell, or remove the row",
+          });
+        }
+        numeric[k][r] = v;
+      });
   });
   bad.done();
   const cols: ColumnHeader[] = mapped.map((m, k) => ({ name: m.rule.name, unit: m.rule.unit, index: k }));
@@ -261,11 +368,28 @@ export function readInstrumentTable(text: string, file: string, rules: ReadingRu
     if (!m) continue;
     const key = m[1].toLowerCase();
     if (meta.has(key)) {
-      throw new InputError({ file, line: i + 1, message: `metadata "${key}" is given twice`, expected: "each key once", found: `a second "${key}" (first on line ${meta.get(key)!.line})`, fix: "keep one of the two lines" });
+      throw new InputError({
+        file,
+        line: i + 1,
+        message: `metadata "${key}" is given twice`,
+        expected: "each key once",
+        found: `a second "${key}" (first on line ${meta.get(key)!.line})`,
+        fix: "keep one of the two lines",
+      });
     }
     meta.set(key, { value: m[2].trim(), line: i + 1 });
   }
-  const t: RawTable = { file, meta, columns: cols, headerLine, delimiter: sep === "ws" ? "\t" : sep, decimal, rows, rowLines, ...(allNumeric ? { numeric } : {}) };
+  const t: RawTable = {
+    file,
+    meta,
+    columns: cols,
+    headerLine,
+    delimiter: sep === "ws" ? "\t" : sep,
+    decimal,
+    rows,
+    rowLines,
+    ...(allNumeric ? { numeric } : {}),
+  };
   applyConditions(t, rules, preamble, notes, misses);
   return Object.assign(t, { readingNotes: notes, conditionMisses: misses, ignoredColumns: ignored });
 }

@@ -13,7 +13,8 @@ import { promises as fs } from "node:fs";
 import path from "node:path";
 import type { Problem } from "../model/problem.ts";
 
-const INSIDE_FIX = "move the folder into the data folder (a link may point anywhere inside it, e.g. to raw/<wafer-id>), or mount the shared drive inside the data folder";
+const INSIDE_FIX =
+  "move the folder into the data folder (a link may point anywhere inside it, e.g. to raw/<wafer-id>), or mount the shared drive inside the data folder";
 
 /** Is `real` the folder `root` or inside it (both resolved)? */
 function within(root: string, real: string): boolean {
@@ -42,17 +43,32 @@ export async function linkedWaferFolder(dataDir: string, name: string): Promise<
     target = await fs.realpath(link);
   } catch (err) {
     const code = (err as NodeJS.ErrnoException).code;
-    if (code === "ELOOP") return skipped("it is a loop of links", `a link to ${JSON.stringify(text)} that leads back to itself`, "point the link at the wafer's folder itself");
-    if (code === "ENOENT") return skipped("it is dangling (its target does not exist)", `a link to ${JSON.stringify(text)}`, "point the link at an existing folder, or mount the drive it points to");
+    if (code === "ELOOP")
+      return skipped("it is a loop of links", `a link to ${JSON.stringify(text)} that leads back to itself`, "point the link at the wafer's folder itself");
+    if (code === "ENOENT")
+      return skipped(
+        "it is dangling (its target does not exist)",
+        `a link to ${JSON.stringify(text)}`,
+        "point the link at an existing folder, or mount the drive it points to",
+      );
     return skipped(`it cannot be followed (${code ?? String(err)})`, `a link to ${JSON.stringify(text)}`, "check the link and the permissions of its target");
   }
   const realData = await fs.realpath(dataDir);
   if (!within(realData, target)) return skipped("it leads outside the data folder", `a link to ${JSON.stringify(target)}`, INSIDE_FIX);
   const st = await fs.stat(target);
-  if (!st.isDirectory()) return skipped("it leads to a file, not a folder", `a link to ${JSON.stringify(path.relative(realData, target).split(path.sep).join("/"))}`, "link the wafer's folder, not a file in it");
+  if (!st.isDirectory())
+    return skipped(
+      "it leads to a file, not a folder",
+      `a link to ${JSON.stringify(path.relative(realData, target).split(path.sep).join("/"))}`,
+      "link the wafer's folder, not a file in it",
+    );
   // A folder that holds the link (the data folder, wafers/ itself) would make the wafer contain itself.
   if (within(target, path.join(await fs.realpath(path.join(dataDir, "wafers")), name))) {
-    return skipped("it is a loop (it leads to a folder that holds the link)", `a link to ${JSON.stringify(path.relative(realData, target).split(path.sep).join("/") || ".")}`, "point the link at the wafer's own folder");
+    return skipped(
+      "it is a loop (it leads to a folder that holds the link)",
+      `a link to ${JSON.stringify(path.relative(realData, target).split(path.sep).join("/") || ".")}`,
+      "point the link at the wafer's own folder",
+    );
   }
   return null;
 }
@@ -85,13 +101,28 @@ export async function linkInWaferFolder(dataDir: string, rel: string): Promise<P
     target = await fs.realpath(link);
   } catch (err) {
     const code = (err as NodeJS.ErrnoException).code;
-    if (code === "ELOOP") return skipped("it is a loop of links", `a link to ${JSON.stringify(text)} that leads back to itself`, "replace the link by the file it should name");
-    if (code === "ENOENT") return skipped("it is dangling (its target does not exist)", `a link to ${JSON.stringify(text)}`, "point the link at an existing file, or mount the drive it points to");
+    if (code === "ELOOP")
+      return skipped("it is a loop of links", `a link to ${JSON.stringify(text)} that leads back to itself`, "replace the link by the file it should name");
+    if (code === "ENOENT")
+      return skipped(
+        "it is dangling (its target does not exist)",
+        `a link to ${JSON.stringify(text)}`,
+        "point the link at an existing file, or mount the drive it points to",
+      );
     return skipped(`it cannot be followed (${code ?? String(err)})`, `a link to ${JSON.stringify(text)}`, "check the link and the permissions of its target");
   }
   const st = await fs.stat(target).catch(() => null);
   if (!st?.isDirectory()) return null;
   const realData = await fs.realpath(dataDir);
-  if (!within(realData, target)) return skipped("it leads to a folder outside the data folder, and no file is read from outside it", `a link to ${JSON.stringify(target)}`, "copy the files into the wafer folder; to keep a wafer's data elsewhere, make the whole wafer folder under wafers/ a link to a folder inside the data folder");
-  return skipped("it leads to a folder, and links to folders inside a wafer folder are not followed (a wafer's files are those in its own folder)", `a link to ${JSON.stringify(path.relative(realData, target).split(path.sep).join("/") || ".")}`, "move or copy the files into the wafer folder, or link the files one by one");
+  if (!within(realData, target))
+    return skipped(
+      "it leads to a folder outside the data folder, and no file is read from outside it",
+      `a link to ${JSON.stringify(target)}`,
+      "copy the files into the wafer folder; to keep a wafer's data elsewhere, make the whole wafer folder under wafers/ a link to a folder inside the data folder",
+    );
+  return skipped(
+    "it leads to a folder, and links to folders inside a wafer folder are not followed (a wafer's files are those in its own folder)",
+    `a link to ${JSON.stringify(path.relative(realData, target).split(path.sep).join("/") || ".")}`,
+    "move or copy the files into the wafer folder, or link the files one by one",
+  );
 }

@@ -40,7 +40,6 @@ export class MicrographFormatError extends Error {
   }
 }
 
-
 export interface Micrograph {
   width: number;
   height: number;
@@ -122,11 +121,7 @@ export function decodeMicrograph(bytes: Uint8Array, maxPixels: number = DEFAULT_
     if (colour && (data[4 * i + 1] !== r || data[4 * i + 2] !== r)) {
       const x = i % width;
       const y = Math.floor(i / width);
-      throw new MicrographFormatError(
-        EXPECTED,
-        `a colour image (pixel (${x}, ${y}) has red, green, blue = ${r}, ${data[4 * i + 1]}, ${data[4 * i + 2]})`,
-        FIX,
-      );
+      throw new MicrographFormatError(EXPECTED, `a colour image (pixel (${x}, ${y}) has red, green, blue = ${r}, ${data[4 * i + 1]}, ${data[4 * i + 2]})`, FIX);
     }
     pixels[i] = r / max;
   }

@@ -82,7 +82,14 @@ export function readTable(text: string, file: string): RawTable {
       if (m) {
         const key = m[1].toLowerCase();
         if (meta.has(key)) {
-          throw new InputError({ file, line, message: `metadata "${key}" is given twice`, expected: "each key once", found: `a second "${key}" (first on line ${meta.get(key)!.line})`, fix: "keep one of the two lines" });
+          throw new InputError({
+            file,
+            line,
+            message: `metadata "${key}" is given twice`,
+            expected: "each key once",
+            found: `a second "${key}" (first on line ${meta.get(key)!.line})`,
+            fix: "keep one of the two lines",
+          });
         }
         meta.set(key, { value: m[2].trim(), line });
       }
@@ -93,7 +100,14 @@ export function readTable(text: string, file: string): RawTable {
   }
   if (headerText === undefined) {
     // Located at the last metadata line: the header belongs right after it.
-    throw new InputError({ file, line: lastContent, message: "no header row", expected: "a header such as \"B [T],Rxx [ohm],Rxy [ohm]\" after the # metadata lines", found: "only metadata or blank lines", fix: "add the column header and the data rows" });
+    throw new InputError({
+      file,
+      line: lastContent,
+      message: "no header row",
+      expected: 'a header such as "B [T],Rxx [ohm],Rxy [ohm]" after the # metadata lines',
+      found: "only metadata or blank lines",
+      fix: "add the column header and the data rows",
+    });
   }
   const headerLine = line;
   const bodyStart = Math.min(pos, text.length);
@@ -105,7 +119,14 @@ export function readTable(text: string, file: string): RawTable {
     const c = cell.trim();
     const m = HEADER_CELL.exec(c);
     if (!m) {
-      headerProblems.add({ file, line: headerLine, message: `cannot read column header ${JSON.stringify(c)}`, expected: "a name with its unit in brackets, such as \"Rxx [ohm]\"", found: JSON.stringify(c), fix: "write each column as name [unit]" });
+      headerProblems.add({
+        file,
+        line: headerLine,
+        message: `cannot read column header ${JSON.stringify(c)}`,
+        expected: 'a name with its unit in brackets, such as "Rxx [ohm]"',
+        found: JSON.stringify(c),
+        fix: "write each column as name [unit]",
+      });
       return;
     }
     columns.push({ name: m[1], unit: (m[2] ?? "").trim(), index });
@@ -113,7 +134,14 @@ export function readTable(text: string, file: string): RawTable {
   const seen = new Map<string, number>();
   for (const c of columns) {
     if (seen.has(c.name)) {
-      headerProblems.add({ file, line: headerLine, message: `column "${c.name}" appears twice`, expected: "each column once", found: `columns ${seen.get(c.name)! + 1} and ${c.index + 1}`, fix: "rename or remove one of them" });
+      headerProblems.add({
+        file,
+        line: headerLine,
+        message: `column "${c.name}" appears twice`,
+        expected: "each column once",
+        found: `columns ${seen.get(c.name)! + 1} and ${c.index + 1}`,
+        fix: "rename or remove one of them",
+      });
     }
     seen.set(c.name, c.index);
   }
@@ -138,7 +166,14 @@ export function readTable(text: string, file: string): RawTable {
     }) as unknown as { record: string[]; info: { lines: number } }[];
   } catch (err) {
     const e = err as { message: string; lines?: number };
-    throw new InputError({ file, line: e.lines !== undefined ? headerLine + e.lines : headerLine, message: "cannot split rows", expected: "comma- or tab-separated values", found: e.message.split("\n")[0], fix: "check quoting and separators" });
+    throw new InputError({
+      file,
+      line: e.lines !== undefined ? headerLine + e.lines : headerLine,
+      message: "cannot split rows",
+      expected: "comma- or tab-separated values",
+      found: e.message.split("\n")[0],
+      fix: "check quoting and separators",
+    });
   }
   const rows: string[][] = [];
   const rowLines: number[] = [];
@@ -146,7 +181,14 @@ export function readTable(text: string, file: string): RawTable {
     const rowLine = headerLine + r.info.lines;
     if (r.record.length !== columns.length) {
       const dialect = cellCountProblem(r.record, columns.length, delimiter);
-      throw new InputError({ file, line: rowLine, message: dialect?.message ?? "row has the wrong number of cells", expected: `${columns.length} cells as in the header`, found: `${r.record.length}`, fix: dialect?.fix ?? "fill or remove the incomplete row" });
+      throw new InputError({
+        file,
+        line: rowLine,
+        message: dialect?.message ?? "row has the wrong number of cells",
+        expected: `${columns.length} cells as in the header`,
+        found: `${r.record.length}`,
+        fix: dialect?.fix ?? "fill or remove the incomplete row",
+      });
     }
     rows.push(r.record);
     rowLines.push(rowLine);
@@ -156,7 +198,14 @@ export function readTable(text: string, file: string): RawTable {
 }
 
 function noRows(file: string, headerLine: number): InputError {
-  return new InputError({ file, line: headerLine, message: "no data rows after the header", expected: "at least one row of numbers", found: "the header only", fix: "add the measured rows or remove the file" });
+  return new InputError({
+    file,
+    line: headerLine,
+    message: "no data rows after the header",
+    expected: "at least one row of numbers",
+    found: "the header only",
+    fix: "add the measured rows or remove the file",
+  });
 }
 
 /**
@@ -210,7 +259,9 @@ export function numericColumn(table: RawTable, col: ColumnHeader, factor = 1, of
         message: "cell is not a finite number",
         expected: "a number such as 1.25e-3",
         found: JSON.stringify(cell),
-        fix: decimalFix(cell, table.decimal) ?? (/nan|inf/i.test(cell) ? "remove the row, or leave out points the instrument could not measure" : "correct the cell"),
+        fix:
+          decimalFix(cell, table.decimal) ??
+          (/nan|inf/i.test(cell) ? "remove the row, or leave out points the instrument could not measure" : "correct the cell"),
       });
     }
     out[i] = v * factor + offset;

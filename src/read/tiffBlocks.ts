@@ -33,7 +33,13 @@ export interface BlockLayout {
 }
 
 const EXPECTED = "a greyscale TIFF (8-, 16- or 32-bit integer, or 32- or 64-bit float; uncompressed, LZW, Deflate or PackBits)";
-const damaged = (found: string) => new MicrographFormatError(EXPECTED, `a damaged TIFF (${found})`, "Re-export the image file, uncompressed or with LZW or Deflate.", "not a readable TIFF micrograph");
+const damaged = (found: string) =>
+  new MicrographFormatError(
+    EXPECTED,
+    `a damaged TIFF (${found})`,
+    "Re-export the image file, uncompressed or with LZW or Deflate.",
+    "not a readable TIFF micrograph",
+  );
 
 /**
  * LZW as TIFF 6.0 §13 writes it: codes most significant bit first, 9 bits
@@ -67,7 +73,8 @@ export function lzwDecode(src: Uint8Array, expected: number, where: string): Uin
   let previous = -1;
   let bitPos = 0;
   const totalBits = src.length * 8;
-  const fail = (what: string) => damaged(`${where}: ${what} at byte ${Math.floor(bitPos / 8)} of its ${src.length}; LZW data as TIFF 6.0 §13 writes them never do`);
+  const fail = (what: string) =>
+    damaged(`${where}: ${what} at byte ${Math.floor(bitPos / 8)} of its ${src.length}; LZW data as TIFF 6.0 §13 writes them never do`);
   const emit = (code: number, at: number) => {
     // Writes the string of `code` at out[at…]; the caller has checked it fits.
     for (let c = code, k = at + length[code] - 1; c !== -1; c = prefix[c], k--) out[k] = suffix[c];
@@ -143,7 +150,8 @@ function unpackBits(src: Uint8Array, expected: number, where: string): Uint8Arra
       if (o === expected) break;
       throw damaged(`${where}: a PackBits run of ${run} bytes at byte ${i} runs past the block's data`);
     }
-    if (o + run > expected) throw damaged(`${where}: a PackBits ${n >= 0 ? "run" : "repeat"} of ${run} bytes at byte ${i} runs past the ${expected} bytes the block holds`);
+    if (o + run > expected)
+      throw damaged(`${where}: a PackBits ${n >= 0 ? "run" : "repeat"} of ${run} bytes at byte ${i} runs past the ${expected} bytes the block holds`);
     if (n >= 0) out.set(src.subarray(i + 1, i + 1 + run), o);
     else out.fill(src[i + 1], o, o + run);
     o += run;
@@ -165,7 +173,11 @@ function decodeBlock(src: Uint8Array, expected: number, compression: number, whe
     block = inflateSync(src, { maxOutputLength: expected });
   } catch (e) {
     const tooBig = (e as { code?: string }).code === "ERR_BUFFER_TOO_LARGE" || e instanceof RangeError;
-    throw damaged(tooBig ? `${where} inflates to more than the ${expected} bytes it holds (a decompression bomb or a damaged file)` : `${where} does not inflate: ${(e as Error).message}`);
+    throw damaged(
+      tooBig
+        ? `${where} inflates to more than the ${expected} bytes it holds (a decompression bomb or a damaged file)`
+        : `${where} does not inflate: ${(e as Error).message}`,
+    );
   }
   if (block.length !== expected) throw damaged(`${where} inflates to ${block.length} bytes, not the ${expected} it holds`);
   return block;
@@ -188,7 +200,13 @@ function undoPredictor(block: Uint8Array, rowPixels: number, bps: number, le: bo
 /** The image's samples (width × height, row-major, the file's byte order), from its strips or tiles. */
 export function decodeBlocks(bytes: Uint8Array, l: BlockLayout): Uint8Array {
   const bytesPer = l.bps / 8;
-  if (l.predictor !== 1 && !(l.predictor === 2 && l.bps <= 16)) throw new MicrographFormatError(EXPECTED, `a TIFF with predictor ${l.predictor} on ${l.bps}-bit samples`, "Export without a predictor, or uncompressed.", "not a readable TIFF micrograph");
+  if (l.predictor !== 1 && !(l.predictor === 2 && l.bps <= 16))
+    throw new MicrographFormatError(
+      EXPECTED,
+      `a TIFF with predictor ${l.predictor} on ${l.bps}-bit samples`,
+      "Export without a predictor, or uncompressed.",
+      "not a readable TIFF micrograph",
+    );
   const rowBytes = l.width * bytesPer;
   const out = new Uint8Array(l.height * rowBytes);
   const block = (k: number, expected: number, where: string) => {
@@ -208,7 +226,8 @@ export function decodeBlocks(bytes: Uint8Array, l: BlockLayout): Uint8Array {
         const t = block(k, tw * th * bytesPer, `tile ${k + 1}`);
         if (l.predictor === 2) undoPredictor(t, tw, l.bps, l.littleEndian);
         const cols = Math.min(tw, l.width - tx * tw);
-        for (let r = 0; r < th && ty * th + r < l.height; r++) out.set(t.subarray(r * tw * bytesPer, (r * tw + cols) * bytesPer), (ty * th + r) * rowBytes + tx * tw * bytesPer);
+        for (let r = 0; r < th && ty * th + r < l.height; r++)
+          out.set(t.subarray(r * tw * bytesPer, (r * tw + cols) * bytesPer), (ty * th + r) * rowBytes + tx * tw * bytesPer);
       }
     }
     return out;

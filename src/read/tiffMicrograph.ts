@@ -35,7 +35,9 @@ const FIX = "Export the micrograph as a single greyscale TIFF or PNG.";
 const PLAUSIBLE_NM: [number, number] = [0.001, 100];
 
 export function isTiff(b: Uint8Array): boolean {
-  return b.length >= 4 && ((b[0] === 0x49 && b[1] === 0x49 && b[2] === 0x2a && b[3] === 0x00) || (b[0] === 0x4d && b[1] === 0x4d && b[2] === 0x00 && b[3] === 0x2a));
+  return (
+    b.length >= 4 && ((b[0] === 0x49 && b[1] === 0x49 && b[2] === 0x2a && b[3] === 0x00) || (b[0] === 0x4d && b[1] === 0x4d && b[2] === 0x00 && b[3] === 0x2a))
+  );
 }
 
 type Ifd = UTIF.IFD;
@@ -80,7 +82,9 @@ export function tiffPixelSize(ifd: Ifd): TiffPixelSize {
     return { note: `the file's X and Y resolutions differ (${xr} and ${yr} per ${unitName}); square pixels are assumed` };
   }
   if (nm < PLAUSIBLE_NM[0] || nm > PLAUSIBLE_NM[1]) {
-    return { note: `the file's resolution (${+xr.toPrecision(6)} pixels per ${unitName}, ${+nm.toPrecision(4)} nm per pixel) is not a micrograph scale, likely a display default` };
+    return {
+      note: `the file's resolution (${+xr.toPrecision(6)} pixels per ${unitName}, ${+nm.toPrecision(4)} nm per pixel) is not a micrograph scale, likely a display default`,
+    };
   }
   return { nm };
 }
@@ -104,7 +108,8 @@ const MAX_DIRECTORIES = 64;
 function checkDirectoryChain(bytes: Uint8Array): void {
   const dv = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   const le = bytes[0] === 0x49;
-  const damaged = (found: string) => new MicrographFormatError(EXPECTED, `a damaged TIFF (${found})`, "Re-export the image file.", "not a readable TIFF micrograph");
+  const damaged = (found: string) =>
+    new MicrographFormatError(EXPECTED, `a damaged TIFF (${found})`, "Re-export the image file.", "not a readable TIFF micrograph");
   if (bytes.length < 8) throw damaged("shorter than its 8-byte header");
   const seen = new Set<number>();
   let at = dv.getUint32(4, le);
@@ -129,7 +134,12 @@ export function decodeTiffMicrograph(bytes: Uint8Array, maxPixels: number = DEFA
   try {
     ifds = UTIF.decode(buf);
   } catch (e) {
-    throw new MicrographFormatError(EXPECTED, `a damaged TIFF (${String((e as Error)?.message ?? e)})`, "Re-export the image file.", "not a readable TIFF micrograph");
+    throw new MicrographFormatError(
+      EXPECTED,
+      `a damaged TIFF (${String((e as Error)?.message ?? e)})`,
+      "Re-export the image file.",
+      "not a readable TIFF micrograph",
+    );
   }
   const images = ifds.filter((d) => tag(d, 256) && tag(d, 257));
   if (images.length === 0) throw new MicrographFormatError(EXPECTED, "a TIFF without an image", FIX, "not a readable TIFF micrograph");
@@ -137,7 +147,8 @@ export function decodeTiffMicrograph(bytes: Uint8Array, maxPixels: number = DEFA
   const width = first(ifd, 256, 0);
   const height = first(ifd, 257, 0);
   const n = (v: number) => v.toLocaleString("en-US");
-  if (!(width > 0 && height > 0)) throw new MicrographFormatError(EXPECTED, `a TIFF of ${width} × ${height} pixels`, "Re-export the image file.", "not a readable TIFF micrograph");
+  if (!(width > 0 && height > 0))
+    throw new MicrographFormatError(EXPECTED, `a TIFF of ${width} × ${height} pixels`, "Re-export the image file.", "not a readable TIFF micrograph");
   if (width * height > maxPixels) {
     throw new MicrographFormatError(
       `at most ${n(maxPixels)} pixels (the max_image_pixels setting)`,
@@ -153,7 +164,12 @@ export function decodeTiffMicrograph(bytes: Uint8Array, maxPixels: number = DEFA
   const format = first(ifd, 339, 1);
   const compression = first(ifd, 259, 1);
   if (photometric > 1 || spp !== 1) {
-    const what = photometric === 2 ? "an RGB colour TIFF" : photometric === 3 ? "a palette (indexed-colour) TIFF" : `a TIFF with ${spp} samples per pixel (photometric ${photometric})`;
+    const what =
+      photometric === 2
+        ? "an RGB colour TIFF"
+        : photometric === 3
+          ? "a palette (indexed-colour) TIFF"
+          : `a TIFF with ${spp} samples per pixel (photometric ${photometric})`;
     throw new MicrographFormatError(EXPECTED, what, FIX, "not a greyscale micrograph");
   }
   const intOk = format === 1 && (bps === 8 || bps === 16 || bps === 32);
@@ -163,25 +179,53 @@ export function decodeTiffMicrograph(bytes: Uint8Array, maxPixels: number = DEFA
     throw new MicrographFormatError(EXPECTED, `a ${bps}-bit ${kind} TIFF`, FIX, "not a greyscale micrograph of a sample type read here");
   }
   if (![1, 5, 8, 32946, 32773].includes(compression)) {
-    throw new MicrographFormatError(EXPECTED, `a TIFF with compression ${compression} (not a lossless compression read here)`, "Export the micrograph uncompressed, or with LZW or Deflate compression.");
+    throw new MicrographFormatError(
+      EXPECTED,
+      `a TIFF with compression ${compression} (not a lossless compression read here)`,
+      "Export the micrograph uncompressed, or with LZW or Deflate compression.",
+    );
   }
   // utif2 reads past the end of a cut-short file as zeros: every strip or tile must lie inside the file.
   const offsets = tag(ifd, 273) ?? tag(ifd, 324) ?? [];
   const counts = tag(ifd, 279) ?? tag(ifd, 325) ?? [];
   if (offsets.length === 0 || offsets.length !== counts.length || offsets.some((o, k) => !(o >= 8 && counts[k] > 0 && o + counts[k] <= bytes.length))) {
-    throw new MicrographFormatError(EXPECTED, `a damaged or cut-short TIFF (its image data lie beyond the file's ${n(bytes.length)} bytes)`, "Copy the file again from the microscope computer, or re-export it.", "not a readable TIFF micrograph");
+    throw new MicrographFormatError(
+      EXPECTED,
+      `a damaged or cut-short TIFF (its image data lie beyond the file's ${n(bytes.length)} bytes)`,
+      "Copy the file again from the microscope computer, or re-export it.",
+      "not a readable TIFF micrograph",
+    );
   }
   // Every strip or tile is decompressed here with the size it must have (tiffBlocks.ts), never by utif2, which
   // decodes a random LZW stream into garbage, or a short strip into zeros, without complaint.
   const tile = tag(ifd, 322) ? { width: first(ifd, 322, 0), length: first(ifd, 323, 0) } : undefined;
-  const data = decodeBlocks(bytes, { width, height, bps, compression, predictor: first(ifd, 317, 1), littleEndian: bytes[0] === 0x49, rowsPerStrip: first(ifd, 278, height), tile, offsets, counts });
+  const data = decodeBlocks(bytes, {
+    width,
+    height,
+    bps,
+    compression,
+    predictor: first(ifd, 317, 1),
+    littleEndian: bytes[0] === 0x49,
+    rowsPerStrip: first(ifd, 278, height),
+    tile,
+    offsets,
+    counts,
+  });
   const view = new DataView(data.buffer, data.byteOffset, data.byteLength);
   // decodeBlocks leaves the samples in the file's byte order.
   const le = bytes[0] === 0x49;
   const count = width * height;
   const pixels = new Float32Array(count);
   const read = (i: number): number =>
-    bps === 8 ? view.getUint8(i) : bps === 16 ? view.getUint16(2 * i, le) : bps === 32 ? (format === 3 ? view.getFloat32(4 * i, le) : view.getUint32(4 * i, le)) : view.getFloat64(8 * i, le);
+    bps === 8
+      ? view.getUint8(i)
+      : bps === 16
+        ? view.getUint16(2 * i, le)
+        : bps === 32
+          ? format === 3
+            ? view.getFloat32(4 * i, le)
+            : view.getUint32(4 * i, le)
+          : view.getFloat64(8 * i, le);
   let rescaled = false;
   if (format === 1) {
     const max = 2 ** bps - 1;
@@ -193,13 +237,24 @@ export function decodeTiffMicrograph(bytes: Uint8Array, maxPixels: number = DEFA
     for (let i = 0; i < count; i++) {
       const v = read(i);
       if (!Number.isFinite(v)) {
-        throw new MicrographFormatError("finite intensities in every pixel", `${v} at pixel (${i % width}, ${Math.floor(i / width)})`, "Replace the missing pixels (for example by the local mean) before export.", "micrograph has non-finite pixels");
+        throw new MicrographFormatError(
+          "finite intensities in every pixel",
+          `${v} at pixel (${i % width}, ${Math.floor(i / width)})`,
+          "Replace the missing pixels (for example by the local mean) before export.",
+          "micrograph has non-finite pixels",
+        );
       }
       values[i] = v;
       if (v < lo) lo = v;
       if (v > hi) hi = v;
     }
-    if (!(hi > lo)) throw new MicrographFormatError(EXPECTED, `a float TIFF whose every pixel is ${lo}`, "Check the export: the image holds no contrast.", "micrograph has no contrast");
+    if (!(hi > lo))
+      throw new MicrographFormatError(
+        EXPECTED,
+        `a float TIFF whose every pixel is ${lo}`,
+        "Check the export: the image holds no contrast.",
+        "micrograph has no contrast",
+      );
     rescaled = lo < 0;
     for (let i = 0; i < count; i++) pixels[i] = rescaled ? (values[i] - lo) / (hi - lo) : values[i] / hi;
   }

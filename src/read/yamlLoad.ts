@@ -71,7 +71,11 @@ function checkAliasExpansion(events: readonly Event[], source: string): void {
         const size = anchors.get(source.slice(e.anchorStart, e.anchorEnd)) ?? 1;
         repeated += size;
         if (repeated > MAX_YAML_ALIAS_NODES) {
-          YAMLException.throwAt(source, Math.max(0, e.anchorStart - 1), `${ALIAS_LIMIT_REASON} (more than ${MAX_YAML_ALIAS_NODES.toLocaleString("en-US")} after expanding the aliases up to here)`);
+          YAMLException.throwAt(
+            source,
+            Math.max(0, e.anchorStart - 1),
+            `${ALIAS_LIMIT_REASON} (more than ${MAX_YAML_ALIAS_NODES.toLocaleString("en-US")} after expanding the aliases up to here)`,
+          );
         }
         add(size);
         break;

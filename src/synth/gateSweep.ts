@@ -69,11 +69,13 @@ export function gateSweeps(p: GateSweepParams): { up: GateSweepTrace; down: Gate
     up.resistance.push(a.r);
     up.density.push(a.n);
   });
-  vs.slice().reverse().forEach((v, k) => {
-    const a = resistanceAt(v - shift, p, k);
-    down.gateVoltage.push(v);
-    down.resistance.push(a.r);
-    down.density.push(a.n);
-  });
+  vs.slice()
+    .reverse()
+    .forEach((v, k) => {
+      const a = resistanceAt(v - shift, p, k);
+      down.gateVoltage.push(v);
+      down.resistance.push(a.r);
+      down.density.push(a.n);
+    });
   return { up, down };
 }

@@ -93,7 +93,6 @@ export interface SyntheticMicrograph {
   truth: MicrographTruth;
 }
 
-
 const logistic = (t: number) => 1 / (1 + Math.exp(-t));
 
 /** Out-of-plane plane positions (pixels along the growth normal) and their brightness. */

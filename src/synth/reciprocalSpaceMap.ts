@@ -85,7 +85,7 @@ export function synthReciprocalSpaceMap(o: SynthMapOptions): SynthMap {
   const aPerp = perpendicularLattice(aR, aPar, biaxialD(o.geFraction));
   const wellPerp = perpendicularLattice(A_SI, aPar, biaxialD(0));
   const at = (ap: number, az: number) => peakAngles(ap, az, o.reflection, lambda);
-  const truth = { substrate: at(A_SI, A_SI), buffer: at(aPar, aPerp), ...(o.well ?? true ? { well: at(aPar, wellPerp) } : {}) };
+  const truth = { substrate: at(A_SI, A_SI), buffer: at(aPar, aPerp), ...((o.well ?? true) ? { well: at(aPar, wellPerp) } : {}) };
   const sr = o.sigmaRocking ?? 0.012 * DEG;
   const st = o.sigmaRadial ?? 0.01 * DEG;
   const peaks = [

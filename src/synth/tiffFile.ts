@@ -154,7 +154,8 @@ export function writeTiff(o: TiffOptions): Buffer {
       for (let tx = 0; tx < o.width; tx += t) {
         const raw = new Uint8Array(t * t * bytesPer);
         const dv = new DataView(raw.buffer);
-        for (let y = 0; y < t && ty + y < o.height; y++) for (let x = 0; x < t && tx + x < o.width; x++) sample(dv, (y * t + x) * bytesPer, o.samples[(ty + y) * o.width + tx + x]);
+        for (let y = 0; y < t && ty + y < o.height; y++)
+          for (let x = 0; x < t && tx + x < o.width; x++) sample(dv, (y * t + x) * bytesPer, o.samples[(ty + y) * o.width + tx + x]);
         strips.push(compress(raw, t));
       }
     }

@@ -35,15 +35,48 @@ export const DECISION_SCHEMA = {
 } as const;
 
 /** Checks the dates of a schema-valid decision; throws a located InputError. */
-export function readDecision(raw: unknown, at: { file: string; grown: string; today: string; lineOf: (field: string) => number | undefined }): Decision | undefined {
+export function readDecision(
+  raw: unknown,
+  at: { file: string; grown: string; today: string; lineOf: (field: string) => number | undefined },
+): Decision | undefined {
   if (raw === undefined || raw === null) return undefined;
   const d = raw as Decision;
   const where = { file: at.file, field: "decision.date", line: at.lineOf("decision.date") };
-  if (!isRealDate(d.date)) throw new InputError({ ...where, message: "not a calendar date", expected: "a real date YYYY-MM-DD", found: JSON.stringify(d.date), fix: "correct the month or day" });
-  if (d.date > at.today) throw new InputError({ ...where, message: "decision date is in the future", expected: `a date on or before ${at.today}`, found: d.date, fix: "write the date the decision was taken" });
-  if (d.date < at.grown) throw new InputError({ ...where, message: "decision date is before the wafer was grown", expected: `a date on or after ${at.grown}`, found: d.date, fix: "correct the decision date (or the growth date)" });
+  if (!isRealDate(d.date))
+    throw new InputError({
+      ...where,
+      message: "not a calendar date",
+      expected: "a real date YYYY-MM-DD",
+      found: JSON.stringify(d.date),
+      fix: "correct the month or day",
+    });
+  if (d.date > at.today)
+    throw new InputError({
+      ...where,
+      message: "decision date is in the future",
+      expected: `a date on or before ${at.today}`,
+      found: d.date,
+      fix: "write the date the decision was taken",
+    });
+  if (d.date < at.grown)
+    throw new InputError({
+      ...where,
+      message: "decision date is before the wafer was grown",
+      expected: `a date on or after ${at.grown}`,
+      found: d.date,
+      fix: "correct the decision date (or the growth date)",
+    });
   for (const k of ["by", "reason"] as const) {
-    if (d[k].trim() === "") throw new InputError({ file: at.file, field: `decision.${k}`, line: at.lineOf(`decision.${k}`), message: `decision.${k} is blank`, expected: k === "by" ? "the name of who decided" : "why, in a sentence", found: JSON.stringify(d[k]), fix: `write decision.${k}` });
+    if (d[k].trim() === "")
+      throw new InputError({
+        file: at.file,
+        field: `decision.${k}`,
+        line: at.lineOf(`decision.${k}`),
+        message: `decision.${k} is blank`,
+        expected: k === "by" ? "the name of who decided" : "why, in a sentence",
+        found: JSON.stringify(d[k]),
+        fix: `write decision.${k}`,
+      });
   }
   return { state: d.state, by: d.by.trim(), date: d.date, reason: d.reason.trim() };
 }

@@ -8,7 +8,14 @@
 export type Consequence = "fail" | "marginal" | "note";
 export const CONSEQUENCES: readonly Consequence[] = ["fail", "marginal", "note"];
 
-export const FINDING_KEYS = ["incoherent_well", "beyond_critical_thickness", "parallel_conduction", "one_sign_field", "fit_undetermined", "coarse_profile"] as const;
+export const FINDING_KEYS = [
+  "incoherent_well",
+  "beyond_critical_thickness",
+  "parallel_conduction",
+  "one_sign_field",
+  "fit_undetermined",
+  "coarse_profile",
+] as const;
 export type FindingKey = (typeof FINDING_KEYS)[number];
 
 /** True for a finding name of FINDING_KEYS. */

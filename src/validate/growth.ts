@@ -66,30 +66,58 @@ export function readGrowth(raw: unknown, where: GrowthWhere): GrowthConditions |
   if (raw === undefined || raw === null) return undefined;
   const { file, lineOf } = where;
   const list = new ProblemList(file);
-  const fail = (field: string, message: string, expected: string, found: string, fix: string) => list.add({ file, line: lineOf(field), field, message, expected, found, fix });
+  const fail = (field: string, message: string, expected: string, found: string, fix: string) =>
+    list.add({ file, line: lineOf(field), field, message, expected, found, fix });
   if (typeof raw !== "object" || Array.isArray(raw)) {
-    throw new InputError({ file, line: lineOf("growth"), field: "growth", message: "growth conditions must be a mapping", expected: "recipe:, layers: and anneals: indented under growth:", found: show(raw), fix: "see docs/formats.md, section Growth conditions" });
+    throw new InputError({
+      file,
+      line: lineOf("growth"),
+      field: "growth",
+      message: "growth conditions must be a mapping",
+      expected: "recipe:, layers: and anneals: indented under growth:",
+      found: show(raw),
+      fix: "see docs/formats.md, section Growth conditions",
+    });
   }
   const r = raw as Record<string, unknown>;
   unknownKeys(r, TOP_KEYS, "growth", fail);
   let recipe: string | undefined;
   if (r.recipe !== undefined) {
     if (typeof r.recipe === "string" && r.recipe.trim()) recipe = r.recipe.trim();
-    else fail("growth.recipe", "recipe name is not text", "the reactor's recipe name, such as \"QW-625-v2\"", show(r.recipe), "write the recipe name in quotes");
+    else fail("growth.recipe", "recipe name is not text", 'the reactor\'s recipe name, such as "QW-625-v2"', show(r.recipe), "write the recipe name in quotes");
   }
   const quantity = (value: unknown, q: QuantityName, field: string, required: boolean): number | undefined => {
     const spec = QUANTITIES[q];
     if (value === undefined) {
-      if (required) fail(field, `${spec.what} is missing`, `a value with a unit, such as "1 ${spec.shown}"`, "nothing", `add ${field.split(".").at(-1)}: "… ${spec.shown}"`);
+      if (required)
+        fail(
+          field,
+          `${spec.what} is missing`,
+          `a value with a unit, such as "1 ${spec.shown}"`,
+          "nothing",
+          `add ${field.split(".").at(-1)}: "… ${spec.shown}"`,
+        );
       return undefined;
     }
     const parsed = parseQuantity(value, spec.target);
     if (!parsed.ok) {
-      fail(field, `cannot read the ${spec.what}`, `a value with a unit convertible to ${spec.shown}, such as "${q === "temperature" ? "625 °C" : `1 ${spec.shown}`}"`, parsed.found, `write the number with its unit, in quotes (units: ${unitsOf(q)})`);
+      fail(
+        field,
+        `cannot read the ${spec.what}`,
+        `a value with a unit convertible to ${spec.shown}, such as "${q === "temperature" ? "625 °C" : `1 ${spec.shown}`}"`,
+        parsed.found,
+        `write the number with its unit, in quotes (units: ${unitsOf(q)})`,
+      );
       return undefined;
     }
     if (!(parsed.value >= spec.min && parsed.value <= spec.max) || (q !== "temperature" && q !== "flow" && parsed.value === 0)) {
-      fail(field, `${spec.what} is out of range`, `${q === "temperature" || q === "flow" ? "from" : "above"} ${spec.min} up to ${spec.max} ${spec.shown}`, `${show(value)} (${Number(parsed.value.toPrecision(6))} ${spec.shown})`, "check the number and its unit");
+      fail(
+        field,
+        `${spec.what} is out of range`,
+        `${q === "temperature" || q === "flow" ? "from" : "above"} ${spec.min} up to ${spec.max} ${spec.shown}`,
+        `${show(value)} (${Number(parsed.value.toPrecision(6))} ${spec.shown})`,
+        "check the number and its unit",
+      );
       return undefined;
     }
     return Number(parsed.value.toPrecision(12));
@@ -99,19 +127,40 @@ export function readGrowth(raw: unknown, where: GrowthWhere): GrowthConditions |
   const seen = new Set<string>();
   listOf(r.layers, "growth.layers", fail).forEach((item, i) => {
     const at = `growth.layers[${i}]`;
-    if (!item) return fail(at, "a growth layer must be a mapping", "layer:, temperature:, rate:, pressure: and flows:", "something else", "write { layer: well, temperature: \"625 °C\", … }");
+    if (!item)
+      return fail(
+        at,
+        "a growth layer must be a mapping",
+        "layer:, temperature:, rate:, pressure: and flows:",
+        "something else",
+        'write { layer: well, temperature: "625 °C", … }',
+      );
     unknownKeys(item, LAYER_KEYS, at, fail);
     const name = item.layer;
-    if (typeof name !== "string" || !name.trim()) return fail(`${at}.layer`, "growth layer does not name its layer", "the name of a layer of stack:", show(name), "add layer: <name of a stack layer>");
+    if (typeof name !== "string" || !name.trim())
+      return fail(`${at}.layer`, "growth layer does not name its layer", "the name of a layer of stack:", show(name), "add layer: <name of a stack layer>");
     if (where.stackNames.length && !where.stackNames.includes(name)) {
       const hint = didYouMean(name, [...where.stackNames]);
-      fail(`${at}.layer`, "growth layer names no layer of the stack", `one of ${where.stackNames.join(", ")}`, JSON.stringify(name), hint ? `did you mean "${hint}"?` : "use a name from stack:");
+      fail(
+        `${at}.layer`,
+        "growth layer names no layer of the stack",
+        `one of ${where.stackNames.join(", ")}`,
+        JSON.stringify(name),
+        hint ? `did you mean "${hint}"?` : "use a name from stack:",
+      );
     }
     if (seen.has(name)) fail(`${at}.layer`, "layer has two growth entries", "one entry per layer", JSON.stringify(name), "merge the two entries");
     seen.add(name);
     const flows: [string, number][] = [];
     if (item.flows !== undefined) {
-      if (!item.flows || typeof item.flows !== "object" || Array.isArray(item.flows)) fail(`${at}.flows`, "flows must be a mapping of gas to flow", "{ SiH4: \"20 sccm\", GeH4: \"8 sccm\" }", show(item.flows), "write one gas: flow pair per gas");
+      if (!item.flows || typeof item.flows !== "object" || Array.isArray(item.flows))
+        fail(
+          `${at}.flows`,
+          "flows must be a mapping of gas to flow",
+          '{ SiH4: "20 sccm", GeH4: "8 sccm" }',
+          show(item.flows),
+          "write one gas: flow pair per gas",
+        );
       else {
         for (const [gas, v] of Object.entries(item.flows as Record<string, unknown>)) {
           const f = quantity(v, "flow", `${at}.flows.${gas}`, true);
@@ -120,13 +169,26 @@ export function readGrowth(raw: unknown, where: GrowthWhere): GrowthConditions |
       }
     }
     layerIndex.push(i);
-    layers.push({ layer: name, temperature_C: quantity(item.temperature, "temperature", `${at}.temperature`, false), rate_nm_per_min: quantity(item.rate, "rate", `${at}.rate`, false), pressure_Torr: quantity(item.pressure, "pressure", `${at}.pressure`, false), flows_sccm: flows });
+    layers.push({
+      layer: name,
+      temperature_C: quantity(item.temperature, "temperature", `${at}.temperature`, false),
+      rate_nm_per_min: quantity(item.rate, "rate", `${at}.rate`, false),
+      pressure_Torr: quantity(item.pressure, "pressure", `${at}.pressure`, false),
+      flows_sccm: flows,
+    });
   });
   const anneals: GrowthAnneal[] = [];
   const annealIndex: number[] = [];
   listOf(r.anneals, "growth.anneals", fail).forEach((item, i) => {
     const at = `growth.anneals[${i}]`;
-    if (!item) return fail(at, "an anneal must be a mapping", "name:, temperature: and time:", "something else", "write { name: post-growth, temperature: \"800 °C\", time: \"60 s\" }");
+    if (!item)
+      return fail(
+        at,
+        "an anneal must be a mapping",
+        "name:, temperature: and time:",
+        "something else",
+        'write { name: post-growth, temperature: "800 °C", time: "60 s" }',
+      );
     unknownKeys(item, ANNEAL_KEYS, at, fail);
     const name = typeof item.name === "string" && item.name.trim() ? item.name.trim() : undefined;
     if (!name) fail(`${at}.name`, "anneal has no name", "a short name, such as post-growth", show(item.name), "add name: …");
@@ -171,13 +233,20 @@ function columnKeyCollisions(g: GrowthConditions, layerIndex: readonly number[],
     reported.add(pair);
     if (first.what === origin.what) {
       // The same name twice: a layer's is reported above ("layer has two growth entries"); an anneal's here.
-      if (origin.field.endsWith(".name")) out.push({ field: origin.field, message: "anneal has two entries", expected: "one entry per anneal name", found: `${origin.what.slice(7)} also at ${first.field}`, fix: "give the second anneal its own name (such as post-growth-2), or merge the two" });
+      if (origin.field.endsWith(".name"))
+        out.push({
+          field: origin.field,
+          message: "anneal has two entries",
+          expected: "one entry per anneal name",
+          found: `${origin.what.slice(7)} also at ${first.field}`,
+          fix: "give the second anneal its own name (such as post-growth-2), or merge the two",
+        });
       return;
     }
     out.push({
       field: origin.field,
       message: `${origin.what} and ${first.what} (${first.field}) give the same column key`,
-      expected: "names that stay different in lower case with other characters as \"_\" (column keys such as growth_<layer>_temperature)",
+      expected: 'names that stay different in lower case with other characters as "_" (column keys such as growth_<layer>_temperature)',
       found: `both become ${key}`,
       fix: "rename one of them so that the two differ by more than case, spaces or punctuation, or merge them if they are one",
     });
@@ -189,7 +258,8 @@ function columnKeyCollisions(g: GrowthConditions, layerIndex: readonly number[],
     if (l.temperature_C !== undefined) claim(`growth_${s}_temperature`, layer);
     if (l.rate_nm_per_min !== undefined) claim(`growth_${s}_rate`, layer);
     if (l.pressure_Torr !== undefined) claim(`growth_${s}_pressure`, layer);
-    for (const [gas] of l.flows_sccm) claim(`growth_${s}_flow_${slug(gas)}`, { field: `${at}.flows.${gas}`, what: `gas ${JSON.stringify(gas)} of layer ${JSON.stringify(l.layer)}` });
+    for (const [gas] of l.flows_sccm)
+      claim(`growth_${s}_flow_${slug(gas)}`, { field: `${at}.flows.${gas}`, what: `gas ${JSON.stringify(gas)} of layer ${JSON.stringify(l.layer)}` });
   });
   g.anneals.forEach((a, i) => {
     const anneal: KeyOrigin = { field: `growth.anneals[${annealIndex[i]}].name`, what: `anneal ${JSON.stringify(a.name)}` };
@@ -200,7 +270,13 @@ function columnKeyCollisions(g: GrowthConditions, layerIndex: readonly number[],
 }
 
 function unitsOf(q: QuantityName): string {
-  return { temperature: "°C, K or °F", rate: "nm/min, nm/s, µm/h or Å/s", pressure: "Torr, mTorr, mbar or Pa", flow: "sccm, slm, cm³/min or L/min", time: "s, min or h" }[q];
+  return {
+    temperature: "°C, K or °F",
+    rate: "nm/min, nm/s, µm/h or Å/s",
+    pressure: "Torr, mTorr, mbar or Pa",
+    flow: "sccm, slm, cm³/min or L/min",
+    time: "s, min or h",
+  }[q];
 }
 
 type Fail = (field: string, message: string, expected: string, found: string, fix: string) => void;
@@ -209,7 +285,13 @@ function unknownKeys(obj: Record<string, unknown>, known: readonly string[], at:
   for (const k of Object.keys(obj)) {
     if (known.includes(k)) continue;
     const hint = didYouMean(k, [...known]);
-    fail(`${at}.${k}`, "unknown key", `one of ${known.join(", ")}`, JSON.stringify(k), hint ? `did you mean "${hint}"?` : "remove it, or see docs/formats.md, section Growth conditions");
+    fail(
+      `${at}.${k}`,
+      "unknown key",
+      `one of ${known.join(", ")}`,
+      JSON.stringify(k),
+      hint ? `did you mean "${hint}"?` : "remove it, or see docs/formats.md, section Growth conditions",
+    );
   }
 }
 
@@ -217,7 +299,7 @@ function unknownKeys(obj: Record<string, unknown>, known: readonly string[], at:
 function listOf(v: unknown, field: string, fail: Fail): (Record<string, unknown> | null)[] {
   if (v === undefined || v === null) return [];
   if (!Array.isArray(v)) {
-    fail(field, "wrong type", "a list", show(v), "write one \"- …\" item per line");
+    fail(field, "wrong type", "a list", show(v), 'write one "- …" item per line');
     return [];
   }
   return v.map((x) => (x && typeof x === "object" && !Array.isArray(x) ? (x as Record<string, unknown>) : null));
@@ -235,7 +317,12 @@ export interface GrowthVariable {
 
 /** Lower-case letters, digits and underscores: "upper barrier" → "upper_barrier". */
 export function slug(text: string): string {
-  return text.toLowerCase().replace(/[^a-z0-9]+/g, "_").replace(/^_|_$/g, "") || "x";
+  return (
+    text
+      .toLowerCase()
+      .replace(/[^a-z0-9]+/g, "_")
+      .replace(/^_|_$/g, "") || "x"
+  );
 }
 
 /** The numeric conditions of a wafer, flattened in a fixed order (layers as written, then anneals). */
@@ -244,7 +331,8 @@ export function growthVariables(g: GrowthConditions | undefined): GrowthVariable
   const out: GrowthVariable[] = [];
   for (const l of g.layers) {
     const s = slug(l.layer);
-    if (l.temperature_C !== undefined) out.push({ key: `growth_${s}_temperature`, label: `${l.layer}: growth temperature`, unit: "°C", value: l.temperature_C });
+    if (l.temperature_C !== undefined)
+      out.push({ key: `growth_${s}_temperature`, label: `${l.layer}: growth temperature`, unit: "°C", value: l.temperature_C });
     if (l.rate_nm_per_min !== undefined) out.push({ key: `growth_${s}_rate`, label: `${l.layer}: growth rate`, unit: "nm/min", value: l.rate_nm_per_min });
     if (l.pressure_Torr !== undefined) out.push({ key: `growth_${s}_pressure`, label: `${l.layer}: pressure`, unit: "Torr", value: l.pressure_Torr });
     for (const [gas, f] of l.flows_sccm) out.push({ key: `growth_${s}_flow_${slug(gas)}`, label: `${l.layer}: ${gas} flow`, unit: "sccm", value: f });

@@ -80,11 +80,23 @@ function nestedQuantifier(src: string): boolean {
 export function compilePattern(src: string, at: RuleSite, list: ProblemList): RegExp | undefined {
   const base = { file: at.file, line: at.line, field: at.field };
   if (src.length > MAX_PATTERN_CHARS) {
-    list.add({ ...base, message: "regular expression is too long", expected: `at most ${MAX_PATTERN_CHARS} characters`, found: `${src.length} characters`, fix: "match only the part of the name or line that holds the value" });
+    list.add({
+      ...base,
+      message: "regular expression is too long",
+      expected: `at most ${MAX_PATTERN_CHARS} characters`,
+      found: `${src.length} characters`,
+      fix: "match only the part of the name or line that holds the value",
+    });
     return undefined;
   }
   if (!src.includes("(?<value>")) {
-    list.add({ ...base, message: "regular expression has no value group", expected: "a named group (?<value>…) around the number, such as \"Vg=(?<value>[-0-9.]+)V\"", found: JSON.stringify(src), fix: "put (?<value> … ) around the part that is the value" });
+    list.add({
+      ...base,
+      message: "regular expression has no value group",
+      expected: 'a named group (?<value>…) around the number, such as "Vg=(?<value>[-0-9.]+)V"',
+      found: JSON.stringify(src),
+      fix: "put (?<value> … ) around the part that is the value",
+    });
     return undefined;
   }
   let re: RegExp;
@@ -93,12 +105,26 @@ export function compilePattern(src: string, at: RuleSite, list: ProblemList): Re
   } catch (e) {
     const msg = (e as Error).message;
     const slow = /linear time/.test(msg);
-    list.add({ ...base, message: slow ? "regular expression cannot be matched in linear time" : "regular expression is malformed", expected: slow ? "a pattern without backreferences (\\1, \\k<…>), lookaround ((?=…), (?<=…)) or large nested repeats such as (?:[0-9]{0,1000}){0,1000}" : "a JavaScript regular expression", found: `${JSON.stringify(src)}: ${msg.replace(/^Invalid regular expression: /, "")}`, fix: slow ? "rewrite it with plain groups and character classes" : "check the brackets and escapes (in YAML double quotes a backslash is written \\\\)" });
+    list.add({
+      ...base,
+      message: slow ? "regular expression cannot be matched in linear time" : "regular expression is malformed",
+      expected: slow
+        ? "a pattern without backreferences (\\1, \\k<…>), lookaround ((?=…), (?<=…)) or large nested repeats such as (?:[0-9]{0,1000}){0,1000}"
+        : "a JavaScript regular expression",
+      found: `${JSON.stringify(src)}: ${msg.replace(/^Invalid regular expression: /, "")}`,
+      fix: slow ? "rewrite it with plain groups and character classes" : "check the brackets and escapes (in YAML double quotes a backslash is written \\\\)",
+    });
     return undefined;
   }
   // Refused on every runtime, so a wafer.md that builds here builds everywhere (and the linear engine is a second guard).
   if (nestedQuantifier(src)) {
-    list.add({ ...base, message: "regular expression could take exponential time (a repeated group holds a repeat or an alternative)", expected: "no nested repeats such as (a+)+ or (x|y)*", found: JSON.stringify(src), fix: "use one character class instead, e.g. [-0-9.,]+" });
+    list.add({
+      ...base,
+      message: "regular expression could take exponential time (a repeated group holds a repeat or an alternative)",
+      expected: "no nested repeats such as (a+)+ or (x|y)*",
+      found: JSON.stringify(src),
+      fix: "use one character class instead, e.g. [-0-9.,]+",
+    });
     return undefined;
   }
   return re;
@@ -113,8 +139,19 @@ function site(file: string, field: string, lineOf: (f: string) => number | undef
  * `devices[2]` or `xrd`), or undefined when it gives none. Problems go to
  * `list`, each at its wafer.md line.
  */
-export function compileReadingRules(entry: Record<string, unknown>, prefix: string, ctx: ReadingContext, file: string, lineOf: (f: string) => number | undefined, list: ProblemList): ReadingRules | undefined {
-  const { columns, layout, conditions } = entry as { columns?: Record<string, unknown>; layout?: Record<string, unknown>; conditions?: Record<string, Record<string, unknown>> };
+export function compileReadingRules(
+  entry: Record<string, unknown>,
+  prefix: string,
+  ctx: ReadingContext,
+  file: string,
+  lineOf: (f: string) => number | undefined,
+  list: ProblemList,
+): ReadingRules | undefined {
+  const { columns, layout, conditions } = entry as {
+    columns?: Record<string, unknown>;
+    layout?: Record<string, unknown>;
+    conditions?: Record<string, Record<string, unknown>>;
+  };
   if (columns === undefined && layout === undefined && conditions === undefined) return undefined;
   const rules: ReadingRules = { conditions: [] };
   if (columns && typeof columns === "object") {
@@ -126,7 +163,13 @@ export function compileReadingRules(entry: Record<string, unknown>, prefix: stri
       at.line = lineOf(field) ?? lineOf(`${prefix}.columns`);
       const m = typeof target === "string" ? /^\s*([A-Za-z_][A-Za-z0-9_.]*)\s*(?:\[([^\]]*)\])?\s*$/.exec(target) : null;
       if (!m) {
-        list.add({ ...at, message: "cannot read the column mapping", expected: `a quantity and its unit, such as "Rxx [kohm]" (${ctx.what} quantities: ${ctx.quantityNames.join(", ")})`, found: JSON.stringify(target), fix: "write the quantity name and its unit in square brackets" });
+        list.add({
+          ...at,
+          message: "cannot read the column mapping",
+          expected: `a quantity and its unit, such as "Rxx [kohm]" (${ctx.what} quantities: ${ctx.quantityNames.join(", ")})`,
+          found: JSON.stringify(target),
+          fix: "write the quantity name and its unit in square brackets",
+        });
         continue;
       }
       const [, name, unitRaw] = m;
@@ -134,16 +177,36 @@ export function compileReadingRules(entry: Record<string, unknown>, prefix: stri
       const dim = ctx.quantity(name);
       if (dim === undefined) {
         const hint = didYouMean(name, ctx.quantityNames);
-        list.add({ ...at, message: `column ${JSON.stringify(header)} is mapped to an unknown quantity`, expected: `one of ${ctx.quantityNames.join(", ")}`, found: JSON.stringify(name), fix: hint ? `did you mean "${hint}"?` : "map it to a quantity the analysis reads, or leave the column out (unmapped columns are ignored)" });
+        list.add({
+          ...at,
+          message: `column ${JSON.stringify(header)} is mapped to an unknown quantity`,
+          expected: `one of ${ctx.quantityNames.join(", ")}`,
+          found: JSON.stringify(name),
+          fix: hint ? `did you mean "${hint}"?` : "map it to a quantity the analysis reads, or leave the column out (unmapped columns are ignored)",
+        });
         continue;
       }
       if (dim !== "text" && unitFactor(dim, unit) === undefined) {
         const hint = suggestUnit(unit, Object.keys(COLUMN_UNITS[dim]));
-        list.add({ ...at, message: `unit of ${name} is not accepted`, expected: acceptedUnits(dim), found: unit === "" ? "no unit" : JSON.stringify(unit), fix: hint ? `did you mean "${hint}"? Write "${name} [${hint}]"` : `write "${name} [${acceptedUnits(dim).split(", ")[0]}]" with the unit the file uses` });
+        list.add({
+          ...at,
+          message: `unit of ${name} is not accepted`,
+          expected: acceptedUnits(dim),
+          found: unit === "" ? "no unit" : JSON.stringify(unit),
+          fix: hint
+            ? `did you mean "${hint}"? Write "${name} [${hint}]"`
+            : `write "${name} [${acceptedUnits(dim).split(", ")[0]}]" with the unit the file uses`,
+        });
         continue;
       }
       if (targets.has(name)) {
-        list.add({ ...at, message: `two columns are mapped to ${name}`, expected: "each quantity from one column", found: `${JSON.stringify(targets.get(name))} and ${JSON.stringify(header)}`, fix: "map only one of them" });
+        list.add({
+          ...at,
+          message: `two columns are mapped to ${name}`,
+          expected: "each quantity from one column",
+          found: `${JSON.stringify(targets.get(name))} and ${JSON.stringify(header)}`,
+          fix: "map only one of them",
+        });
         continue;
       }
       targets.set(name, header);
@@ -157,7 +220,13 @@ export function compileReadingRules(entry: Record<string, unknown>, prefix: stri
     rules.decimal = layout.decimal as ReadingRules["decimal"];
     rules.headerRow = layout.header_row as number | undefined;
     if (rules.separator === "comma" && rules.decimal === "comma") {
-      list.add({ ...rules.layoutAt, message: "a decimal comma with commas between cells cannot be read", expected: "separator semicolon, tab or whitespace with decimal: comma", found: "separator: comma, decimal: comma", fix: "set the separator the file really uses" });
+      list.add({
+        ...rules.layoutAt,
+        message: "a decimal comma with commas between cells cannot be read",
+        expected: "separator semicolon, tab or whitespace with decimal: comma",
+        found: "separator: comma, decimal: comma",
+        fix: "set the separator the file really uses",
+      });
     }
   }
   if (conditions && typeof conditions === "object") {
@@ -167,13 +236,25 @@ export function compileReadingRules(entry: Record<string, unknown>, prefix: stri
       const dim = ctx.conditions[key];
       if (dim === undefined) {
         const hint = didYouMean(key, Object.keys(ctx.conditions));
-        list.add({ ...at, message: `unknown condition for a ${ctx.what}`, expected: Object.keys(ctx.conditions).join(", "), found: JSON.stringify(key), fix: hint ? `did you mean "${hint}"?` : "remove it, or give it as a column" });
+        list.add({
+          ...at,
+          message: `unknown condition for a ${ctx.what}`,
+          expected: Object.keys(ctx.conditions).join(", "),
+          found: JSON.stringify(key),
+          fix: hint ? `did you mean "${hint}"?` : "remove it, or give it as a column",
+        });
         continue;
       }
       if (!spec || typeof spec !== "object") continue; // the schema has reported it
       const sources = (["file_name", "line", "value"] as const).filter((s) => spec[s] !== undefined);
       if (sources.length !== 1) {
-        list.add({ ...at, message: `condition ${key} needs exactly one source`, expected: "one of file_name: (a pattern), line: (a pattern) or value:", found: sources.length ? sources.join(" and ") : "none", fix: "keep one of them" });
+        list.add({
+          ...at,
+          message: `condition ${key} needs exactly one source`,
+          expected: "one of file_name: (a pattern), line: (a pattern) or value:",
+          found: sources.length ? sources.join(" and ") : "none",
+          fix: "keep one of them",
+        });
         continue;
       }
       const source = sources[0];
@@ -181,7 +262,13 @@ export function compileReadingRules(entry: Record<string, unknown>, prefix: stri
       const unitAt = site(file, `${field}.unit`, lineOf);
       if (unit !== undefined && dim !== "text" && unitFactor(dim, unit) === undefined) {
         const hint = suggestUnit(unit, Object.keys(COLUMN_UNITS[dim]));
-        list.add({ ...unitAt, message: `unit of the ${key} condition is not accepted`, expected: acceptedUnits(dim), found: JSON.stringify(unit), fix: hint ? `did you mean "${hint}"?` : `write one of ${acceptedUnits(dim)}` });
+        list.add({
+          ...unitAt,
+          message: `unit of the ${key} condition is not accepted`,
+          expected: acceptedUnits(dim),
+          found: JSON.stringify(unit),
+          fix: hint ? `did you mean "${hint}"?` : `write one of ${acceptedUnits(dim)}`,
+        });
         continue;
       }
       const rule: ConditionRule = { key, source, unit, at: site(file, `${field}.${source}`, lineOf) };
@@ -190,7 +277,13 @@ export function compileReadingRules(entry: Record<string, unknown>, prefix: stri
         if (dim !== "text") {
           const vu = splitValueUnit(text);
           if (!vu || unitFactor(dim, vu.unit) === undefined) {
-            list.add({ ...rule.at, message: `cannot read the ${key} condition's value`, expected: `a number and one of ${acceptedUnits(dim)}, such as ${JSON.stringify(key === "current" ? "10 nA" : key === "temperature" ? "1.6 K" : key === "gate" ? "0.3 V" : "0 T")}`, found: JSON.stringify(text), fix: "give the number with its unit" });
+            list.add({
+              ...rule.at,
+              message: `cannot read the ${key} condition's value`,
+              expected: `a number and one of ${acceptedUnits(dim)}, such as ${JSON.stringify(key === "current" ? "10 nA" : key === "temperature" ? "1.6 K" : key === "gate" ? "0.3 V" : "0 T")}`,
+              found: JSON.stringify(text),
+              fix: "give the number with its unit",
+            });
             continue;
           }
         }

@@ -32,7 +32,15 @@ interface Dimensions {
 export function checkFiniteNumbers(data: Record<string, unknown>, file: string, lineOf: LineOf): void {
   const visit = (value: unknown, field: string): void => {
     if (typeof value === "number" && !Number.isFinite(value)) {
-      throw new InputError({ file, line: lineOf(field), field, message: "not a finite number", expected: "a finite number", found: String(value), fix: "write the measured value; .inf, .nan and numbers beyond about 1.8e308 are not values" });
+      throw new InputError({
+        file,
+        line: lineOf(field),
+        field,
+        message: "not a finite number",
+        expected: "a finite number",
+        found: String(value),
+        fix: "write the measured value; .inf, .nan and numbers beyond about 1.8e308 are not values",
+      });
     }
     if (Array.isArray(value)) value.forEach((v, i) => visit(v, `${field}[${i}]`));
     else if (value !== null && typeof value === "object") for (const [k, v] of Object.entries(value)) visit(v, field ? `${field}.${k}` : k);
@@ -47,7 +55,15 @@ export function checkDeviceDimensions(devices: readonly Dimensions[], file: stri
       const v = d[key];
       if (v === undefined || (v >= DEVICE_UM_LIMITS.min && v <= DEVICE_UM_LIMITS.max)) continue;
       const field = `devices[${i}].${key}`;
-      throw new InputError({ file, line: lineOf(field), field, message: "device dimension out of range", expected: `micrometres between ${DEVICE_UM_LIMITS.min} (1 nm) and ${DEVICE_UM_LIMITS.max.toExponential()} (1 m)`, found: String(v), fix: "give the dimension in micrometres, e.g. length_um: 100" });
+      throw new InputError({
+        file,
+        line: lineOf(field),
+        field,
+        message: "device dimension out of range",
+        expected: `micrometres between ${DEVICE_UM_LIMITS.min} (1 nm) and ${DEVICE_UM_LIMITS.max.toExponential()} (1 m)`,
+        found: String(v),
+        fix: "give the dimension in micrometres, e.g. length_um: 100",
+      });
     }
   });
 }
@@ -57,12 +73,19 @@ const round6 = (x: number) => Number(x.toPrecision(6));
 
 /** What to write when `v` (read as µm) looks like millimetres or nanometres, and what the slip does to the figures. */
 function dimensionFix(key: "length_um" | "width_um", v: number): { found: string; fix: string } {
-  const effect = (factor: string) => `${key === "width_um" ? "the width" : "the length"} enters the sheet resistance as ${key === "width_um" ? "W" : "1/L"} (R·W/L), so the mobility comes out ${factor}`;
+  const effect = (factor: string) =>
+    `${key === "width_um" ? "the width" : "the length"} enters the sheet resistance as ${key === "width_um" ? "W" : "1/L"} (R·W/L), so the mobility comes out ${factor}`;
   if (v < DEVICE_UM_PLAUSIBLE.min && plausible(v * 1000)) {
-    return { found: `${v} (in millimetres that would be ${round6(v * 1000)} µm)`, fix: `if it was typed in millimetres, write ${key}: ${round6(v * 1000)}; as written, ${effect(key === "width_um" ? "1000× too large" : "1000× too small")}` };
+    return {
+      found: `${v} (in millimetres that would be ${round6(v * 1000)} µm)`,
+      fix: `if it was typed in millimetres, write ${key}: ${round6(v * 1000)}; as written, ${effect(key === "width_um" ? "1000× too large" : "1000× too small")}`,
+    };
   }
   if (v > DEVICE_UM_PLAUSIBLE.max && plausible(v / 1000)) {
-    return { found: `${v} (in nanometres that would be ${round6(v / 1000)} µm)`, fix: `if it was typed in nanometres, write ${key}: ${round6(v / 1000)}; as written, ${effect(key === "width_um" ? "1000× too small" : "1000× too large")}` };
+    return {
+      found: `${v} (in nanometres that would be ${round6(v / 1000)} µm)`,
+      fix: `if it was typed in nanometres, write ${key}: ${round6(v / 1000)}; as written, ${effect(key === "width_um" ? "1000× too small" : "1000× too large")}`,
+    };
   }
   return { found: String(v), fix: "check that the value is in micrometres" };
 }
@@ -75,7 +98,15 @@ export function deviceDimensionWarnings(devices: readonly Dimensions[], file: st
       const v = d[key];
       if (v === undefined || plausible(v)) continue;
       const field = `devices[${i}].${key}`;
-      out.push({ severity: "warning", file, line: lineOf(field), field, message: "unusual device dimension", expected: `micrometres between ${DEVICE_UM_PLAUSIBLE.min} and ${DEVICE_UM_PLAUSIBLE.max} (1 µm to 10 mm, the usual range of Hall bars)`, ...dimensionFix(key, v) });
+      out.push({
+        severity: "warning",
+        file,
+        line: lineOf(field),
+        field,
+        message: "unusual device dimension",
+        expected: `micrometres between ${DEVICE_UM_PLAUSIBLE.min} and ${DEVICE_UM_PLAUSIBLE.max} (1 µm to 10 mm, the usual range of Hall bars)`,
+        ...dimensionFix(key, v),
+      });
     }
   });
   return out;

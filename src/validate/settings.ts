@@ -71,11 +71,20 @@ export const SETTING_SPECS: Record<keyof AnalysisSettings, Spec> = {
   sdh_amplitude_factor: { kind: "number", min: 0.01, max: 2, doc: "amplitude factor A of the SdH fit, or free", orFree: true },
   max_image_pixels: { kind: "number", min: 65_536, max: 1e9, doc: "largest micrograph accepted, width × height in pixels" },
   valley_field: { kind: "quantity", unit: "MV/m", si: 1e6, doc: "vertical electric field of the valley-splitting prediction", nullable: true },
-  valley_dot_orbital_energy: { kind: "quantity", unit: "meV", si: 1.602176634e-22, doc: "orbital energy of the quantum dot in the valley-splitting prediction" },
-  valley_band_offset_per_ge: { kind: "quantity", unit: "eV", si: 1.602176634e-19, doc: "conduction-band offset per unit Ge fraction in the valley-splitting prediction" },
+  valley_dot_orbital_energy: {
+    kind: "quantity",
+    unit: "meV",
+    si: 1.602176634e-22,
+    doc: "orbital energy of the quantum dot in the valley-splitting prediction",
+  },
+  valley_band_offset_per_ge: {
+    kind: "quantity",
+    unit: "eV",
+    si: 1.602176634e-19,
+    doc: "conduction-band offset per unit Ge fraction in the valley-splitting prediction",
+  },
   valley_splitting_threshold: { kind: "quantity", unit: "ueV", si: 1.602176634e-25, doc: "valley splitting a dot needs, for the predicted yield" },
 };
-
 
 export const DEFAULT_SETTINGS: AnalysisSettings = {
   hall_max_field: 0.2,
@@ -108,7 +117,15 @@ export function applySettings(
   if (raw === undefined || raw === null) return base;
   if (typeof raw !== "object" || Array.isArray(raw)) {
     const under = where.field ? ` indented under ${where.field}:` : "";
-    throw new InputError({ file: where.file, line: where.line, field: where.field, message: "analysis settings must be a mapping", expected: "key: value pairs", found: show(raw), fix: `write one "setting: value" per line${under}, such as hall_max_field: "0.2 T"; see docs/formats.md, section Analysis settings` });
+    throw new InputError({
+      file: where.file,
+      line: where.line,
+      field: where.field,
+      message: "analysis settings must be a mapping",
+      expected: "key: value pairs",
+      found: show(raw),
+      fix: `write one "setting: value" per line${under}, such as hall_max_field: "0.2 T"; see docs/formats.md, section Analysis settings`,
+    });
   }
   const out: AnalysisSettings = { ...base };
   const known = Object.keys(SETTING_SPECS);
@@ -119,12 +136,28 @@ export function applySettings(
     const line = where.lineOf?.(key);
     if (!(key in SETTING_SPECS)) {
       const hint = didYouMean(key, known);
-      list.add({ file: where.file, line, field, message: "unknown analysis setting", expected: `one of ${known.join(", ")}`, found: JSON.stringify(key), fix: hint ? `did you mean "${hint}"?` : "remove it or check docs/formats.md" });
+      list.add({
+        file: where.file,
+        line,
+        field,
+        message: "unknown analysis setting",
+        expected: `one of ${known.join(", ")}`,
+        found: JSON.stringify(key),
+        fix: hint ? `did you mean "${hint}"?` : "remove it or check docs/formats.md",
+      });
       continue;
     }
     const spec = SETTING_SPECS[key as keyof AnalysisSettings];
     const fail = (expected: string, found: string): never => {
-      throw new InputError({ file: where.file, line, field, message: `cannot read setting (${spec.doc})`, expected, found, fix: "see docs/formats.md, section Analysis settings" });
+      throw new InputError({
+        file: where.file,
+        line,
+        field,
+        message: `cannot read setting (${spec.doc})`,
+        expected,
+        found,
+        fix: "see docs/formats.md, section Analysis settings",
+      });
     };
     list.attempt(() => {
       (out as unknown as Record<string, unknown>)[key] = readSetting(spec, value, fail);
@@ -144,7 +177,7 @@ function readSetting(spec: Spec, value: unknown, fail: (e: string, f: string) =>
   }
   if (spec.kind === "number") {
     if (spec.orFree && value === "free") return "free";
-    if (typeof value !== "number" || !Number.isFinite(value)) return fail(spec.orFree ? "a number or \"free\"" : "a number", show(value));
+    if (typeof value !== "number" || !Number.isFinite(value)) return fail(spec.orFree ? 'a number or "free"' : "a number", show(value));
     if (value < spec.min || value > spec.max) return fail(`a number between ${spec.min} and ${spec.max}`, String(value));
     return value;
   }

@@ -36,7 +36,20 @@ export function isSiteName(id: string): boolean {
 }
 
 /** The located problem of a wafer or run id that collides with a site name, or undefined when it does not. */
-export function siteNameProblem(id: string, what: "wafer" | "run", where: { file: string; line?: number; field?: string; rename: string }): Problem | undefined {
+export function siteNameProblem(
+  id: string,
+  what: "wafer" | "run",
+  where: { file: string; line?: number; field?: string; rename: string },
+): Problem | undefined {
   if (!isSiteName(id)) return undefined;
-  return { severity: "error", file: where.file, line: where.line, field: where.field, message: `${what} id is a name the site uses for its own pages and files`, expected: `an id other than ${SITE_NAMES.join(", ")} (in any letter case)`, found: JSON.stringify(id), fix: `rename the ${where.rename}` };
+  return {
+    severity: "error",
+    file: where.file,
+    line: where.line,
+    field: where.field,
+    message: `${what} id is a name the site uses for its own pages and files`,
+    expected: `an id other than ${SITE_NAMES.join(", ")} (in any letter case)`,
+    found: JSON.stringify(id),
+    fix: `rename the ${where.rename}`,
+  };
 }

@@ -60,7 +60,15 @@ function metaValue(t: RawTable, key: string): number | undefined {
   const vu = splitValueUnit(t.decimal === "," ? entry.value.replace(/^(\s*[-+]?\d*),(\d)/, "$1.$2") : entry.value);
   const factor = vu ? unitFactor(dim, vu.unit) : undefined;
   if (!vu || factor === undefined) {
-    throw new InputError({ file: t.file, line: entry.line, field: entry.rule ?? `# ${key}`, message: `cannot read the ${key} ${entry.rule ? `condition given by ${entry.rule}` : "metadata"}`, expected: `a number and one of ${acceptedUnits(dim)}`, found: JSON.stringify(entry.value), fix: `write for example "# ${key}: ${dim === "voltage" ? "0.35 V" : dim === "field" ? "0 T" : dim === "temperature" ? "1.6 K" : "10 nA"}"` });
+    throw new InputError({
+      file: t.file,
+      line: entry.line,
+      field: entry.rule ?? `# ${key}`,
+      message: `cannot read the ${key} ${entry.rule ? `condition given by ${entry.rule}` : "metadata"}`,
+      expected: `a number and one of ${acceptedUnits(dim)}`,
+      found: JSON.stringify(entry.value),
+      fix: `write for example "# ${key}: ${dim === "voltage" ? "0.35 V" : dim === "field" ? "0 T" : dim === "temperature" ? "1.6 K" : "10 nA"}"`,
+    });
   }
   return vu.value * factor;
 }
@@ -73,7 +81,15 @@ function readColumn(t: RawTable, c: ColumnHeader): Float64Array {
   const spec = SWEEP_COLUMNS[c.name];
   const factor = unitFactor(spec.dim, c.unit);
   if (factor === undefined) {
-    throw new InputError({ file: t.file, line: t.headerLine, field: `column ${c.name}`, message: `unit of the ${spec.meaning} is not accepted`, expected: acceptedUnits(spec.dim), found: c.unit === "" ? "no unit" : JSON.stringify(c.unit), fix: `write the header as "${c.name} [${suggestUnit(c.unit, Object.keys(COLUMN_UNITS[spec.dim])) ?? acceptedUnits(spec.dim).split(", ")[0]}]"` });
+    throw new InputError({
+      file: t.file,
+      line: t.headerLine,
+      field: `column ${c.name}`,
+      message: `unit of the ${spec.meaning} is not accepted`,
+      expected: acceptedUnits(spec.dim),
+      found: c.unit === "" ? "no unit" : JSON.stringify(c.unit),
+      fix: `write the header as "${c.name} [${suggestUnit(c.unit, Object.keys(COLUMN_UNITS[spec.dim])) ?? acceptedUnits(spec.dim).split(", ")[0]}]"`,
+    });
   }
   return numericColumn(t, c, factor);
 }
@@ -84,10 +100,26 @@ function checkAxis(t: RawTable, x: Float64Array, name: string): "up" | "down" {
   const up = x[1] > x[0];
   for (let i = 1; i < x.length; i++) {
     if (x[i] === x[i - 1]) {
-      throw new InputError({ file: t.file, line: t.rowLines[i], field: `column ${name}`, message: `${name} value repeats`, expected: `${name} changing from row to row`, found: `${x[i]} twice in a row`, fix: "average or remove the repeated reading" });
+      throw new InputError({
+        file: t.file,
+        line: t.rowLines[i],
+        field: `column ${name}`,
+        message: `${name} value repeats`,
+        expected: `${name} changing from row to row`,
+        found: `${x[i]} twice in a row`,
+        fix: "average or remove the repeated reading",
+      });
     }
     if (x[i] > x[i - 1] !== up) {
-      throw new InputError({ file: t.file, line: t.rowLines[i], field: `column ${name}`, message: `${name} is not sorted`, expected: `${name} ${up ? "increasing" : "decreasing"} throughout, as in the first rows`, found: `${x[i - 1]} then ${x[i]}`, fix: "split up and down sweeps into separate files" });
+      throw new InputError({
+        file: t.file,
+        line: t.rowLines[i],
+        field: `column ${name}`,
+        message: `${name} is not sorted`,
+        expected: `${name} ${up ? "increasing" : "decreasing"} throughout, as in the first rows`,
+        found: `${x[i - 1]} then ${x[i]}`,
+        fix: "split up and down sweeps into separate files",
+      });
     }
   }
   return up ? "up" : "down";
@@ -104,16 +136,38 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
   for (const c of t.columns) {
     if (!(c.name in SWEEP_COLUMNS)) {
       const hint = didYouMean(c.name, Object.keys(SWEEP_COLUMNS));
-      list.add({ file: t.file, line: t.headerLine, field: `column ${c.index + 1}`, message: "unknown column", expected: Object.keys(SWEEP_COLUMNS).join(", "), found: JSON.stringify(c.name), fix: hint ? `did you mean "${hint}"?` : "rename or remove the column" });
+      list.add({
+        file: t.file,
+        line: t.headerLine,
+        field: `column ${c.index + 1}`,
+        message: "unknown column",
+        expected: Object.keys(SWEEP_COLUMNS).join(", "),
+        found: JSON.stringify(c.name),
+        fix: hint ? `did you mean "${hint}"?` : "rename or remove the column",
+      });
     }
   }
   const hasB = column(t, "B");
   const hasVg = column(t, "Vg");
   if (hasB && hasVg) {
-    list.add({ file: t.file, line: t.headerLine, message: "both B and Vg columns", expected: "one sweep axis: B (field sweep) or Vg (gate sweep)", found: "both", fix: "keep the swept quantity as a column and give the fixed one as # metadata" });
+    list.add({
+      file: t.file,
+      line: t.headerLine,
+      message: "both B and Vg columns",
+      expected: "one sweep axis: B (field sweep) or Vg (gate sweep)",
+      found: "both",
+      fix: "keep the swept quantity as a column and give the fixed one as # metadata",
+    });
   }
   if (!hasB && !hasVg) {
-    list.add({ file: t.file, line: t.headerLine, message: "no sweep axis", expected: "a B column (field sweep) or a Vg column (gate sweep)", found: t.columns.map((c) => c.name).join(", "), fix: "add the swept quantity as the first column" });
+    list.add({
+      file: t.file,
+      line: t.headerLine,
+      message: "no sweep axis",
+      expected: "a B column (field sweep) or a Vg column (gate sweep)",
+      found: t.columns.map((c) => c.name).join(", "),
+      fix: "add the swept quantity as the first column",
+    });
   }
   // Each known column is read on its own: a bad unit or cell in one does not hide another's.
   const values = new Map<string, Float64Array>();
@@ -132,24 +186,66 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
   const x = axis ? values.get(axis.name) : undefined;
   const direction = x && axis ? list.attempt(() => checkAxis(t, x, axis.name)) : undefined;
   if (axis && kind === "field" && gate_V === undefined && !t.meta.has("gate")) {
-    list.add({ file: t.file, line: t.headerLine, field: "# gate", message: t.conditionMisses?.has("gate") ? `field sweep without its gate voltage: ${t.conditionMisses.get("gate")}` : "field sweep without its gate voltage", expected: "a line \"# gate: <value> V\" before the header", found: "none", fix: "add the gate voltage the sweep was taken at" });
+    list.add({
+      file: t.file,
+      line: t.headerLine,
+      field: "# gate",
+      message: t.conditionMisses?.has("gate")
+        ? `field sweep without its gate voltage: ${t.conditionMisses.get("gate")}`
+        : "field sweep without its gate voltage",
+      expected: 'a line "# gate: <value> V" before the header',
+      found: "none",
+      fix: "add the gate voltage the sweep was taken at",
+    });
   }
   if (axis && kind === "gate" && field_T === undefined && !t.meta.has("field")) {
-    list.add({ file: t.file, line: t.headerLine, field: "# field", message: t.conditionMisses?.has("field") ? `gate sweep without its field: ${t.conditionMisses.get("field")}` : "gate sweep without its field", expected: "a line \"# field: <value> T\" before the header", found: "none", fix: "add the field the sweep was taken at (0 T for zero field)" });
+    list.add({
+      file: t.file,
+      line: t.headerLine,
+      field: "# field",
+      message: t.conditionMisses?.has("field") ? `gate sweep without its field: ${t.conditionMisses.get("field")}` : "gate sweep without its field",
+      expected: 'a line "# field: <value> T" before the header',
+      found: "none",
+      fix: "add the field the sweep was taken at (0 T for zero field)",
+    });
   }
   const currentCol = values.get("I");
   if (currentCol) {
     const zero = currentCol.indexOf(0);
     if (zero >= 0) {
-      list.add({ file: t.file, line: t.rowLines[zero], field: "column I", message: "current is zero", expected: "a non-zero source current", found: "0", fix: "remove rows taken with the source off" });
+      list.add({
+        file: t.file,
+        line: t.rowLines[zero],
+        field: "column I",
+        message: "current is zero",
+        expected: "a non-zero source current",
+        found: "0",
+        fix: "remove rows taken with the source off",
+      });
     }
   }
   if (current_A === 0) {
-    list.add({ file: t.file, line: t.meta.get("current")?.line, field: "# current", message: "current is zero", expected: "a non-zero source current", found: "0", fix: "give the current the sample was driven with" });
+    list.add({
+      file: t.file,
+      line: t.meta.get("current")?.line,
+      field: "# current",
+      message: "current is zero",
+      expected: "a non-zero source current",
+      found: "0",
+      fix: "give the current the sample was driven with",
+    });
   }
   const voltagesNeedCurrent = ["Vxx", "Vxy"].filter((n) => column(t, n));
   if (voltagesNeedCurrent.length && !column(t, "I") && !t.meta.has("current")) {
-    list.add({ file: t.file, line: t.headerLine, field: voltagesNeedCurrent.length > 1 ? `columns ${voltagesNeedCurrent.join(" and ")}` : `column ${voltagesNeedCurrent[0]}`, message: "voltage given without the current", expected: "an I column or a line \"# current: 10 nA\"", found: "neither", fix: "add the source current so voltages can be turned into resistances" });
+    list.add({
+      file: t.file,
+      line: t.headerLine,
+      field: voltagesNeedCurrent.length > 1 ? `columns ${voltagesNeedCurrent.join(" and ")}` : `column ${voltagesNeedCurrent[0]}`,
+      message: "voltage given without the current",
+      expected: 'an I column or a line "# current: 10 nA"',
+      found: "neither",
+      fix: "add the source current so voltages can be turned into resistances",
+    });
   }
   const has = (n: string) => !!column(t, n);
   // The Hall resistance is needed only where the Hall effect is used: field sweeps. A gate sweep
@@ -159,8 +255,16 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
   // A misspelt column is already reported as unknown (with its likely name): not again as missing.
   const unknownNames = t.columns.some((c) => !(c.name in SWEEP_COLUMNS));
   if (!columnsOk && !unknownNames) {
-    const need = geometry === "hall-bar" ? (hall ? "Rxx and Rxy (or Vxx and Vxy with a current)" : "Rxx (or Vxx with a current)") : hall ? "Ra, Rb and Rxy" : "Ra and Rb";
-    list.add({ file: t.file, line: t.headerLine, message: `missing a column a ${geometry}${hall ? "" : " gate sweep"} needs`, expected: need, found: t.columns.map((c) => c.name).join(", "), fix: "add the missing column, or check the device geometry in wafer.md" });
+    const need =
+      geometry === "hall-bar" ? (hall ? "Rxx and Rxy (or Vxx and Vxy with a current)" : "Rxx (or Vxx with a current)") : hall ? "Ra, Rb and Rxy" : "Ra and Rb";
+    list.add({
+      file: t.file,
+      line: t.headerLine,
+      message: `missing a column a ${geometry}${hall ? "" : " gate sweep"} needs`,
+      expected: need,
+      found: t.columns.map((c) => c.name).join(", "),
+      fix: "add the missing column, or check the device geometry in wafer.md",
+    });
   }
   if (kind === "field" && x) {
     let pos = 0;
@@ -170,9 +274,25 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
       // Located at the last data row, not the header: "found N rows" sends the
       // reader to where the data stop, which is where a cut-short export shows.
       const lastRow = t.rowLines[t.rowLines.length - 1] ?? t.headerLine;
-      list.add({ file: t.file, line: lastRow, field: "column B", message: "too few field values", expected: "at least two non-zero fields", found: `${x.length} rows`, fix: "check that the export is complete, or sweep the field through at least two non-zero values" });
+      list.add({
+        file: t.file,
+        line: lastRow,
+        field: "column B",
+        message: "too few field values",
+        expected: "at least two non-zero fields",
+        found: `${x.length} rows`,
+        fix: "check that the export is complete, or sweep the field through at least two non-zero values",
+      });
     } else if (pos === 0 || neg === 0) {
-      warnings.push({ severity: "warning", file: t.file, field: "column B", message: "field has one sign only, so Rxx and Rxy cannot be (anti)symmetrised and contact misalignment is not removed", expected: "fields of both signs", found: pos === 0 ? "negative fields only" : "positive fields only", fix: "sweep through zero to the opposite field" });
+      warnings.push({
+        severity: "warning",
+        file: t.file,
+        field: "column B",
+        message: "field has one sign only, so Rxx and Rxy cannot be (anti)symmetrised and contact misalignment is not removed",
+        expected: "fields of both signs",
+        found: pos === 0 ? "negative fields only" : "positive fields only",
+        fix: "sweep through zero to the opposite field",
+      });
     }
   }
   list.done();
@@ -197,7 +317,24 @@ export function validateSweep(t: RawTable, geometry: Geometry): Sweep {
     for (const b of x!) [lo, hi] = [Math.min(lo, b), Math.max(hi, b)];
     conditions.push({ key: "field_range", origin: "file-column", span: [lo, hi], column: "B" });
   }
-  return { file: t.file, kind, geometry, gate_V, field_T, temperature_K, current_A, x: x!, rxx, rxy, ra, rb, direction: direction!, rows: x!.length, warnings, conditions };
+  return {
+    file: t.file,
+    kind,
+    geometry,
+    gate_V,
+    field_T,
+    temperature_K,
+    current_A,
+    x: x!,
+    rxx,
+    rxy,
+    ra,
+    rb,
+    direction: direction!,
+    rows: x!.length,
+    warnings,
+    conditions,
+  };
 }
 
 /** Where each condition read came from: the file's own `# key:` line, a wafer.md reading rule, or (a current) the file's I column. */

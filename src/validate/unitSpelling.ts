@@ -25,7 +25,19 @@
  */
 import { didYouMean } from "../model/problem.ts";
 
-const SUPERSCRIPT_DIGITS: Record<string, string> = { "⁰": "0", "¹": "1", "²": "2", "³": "3", "⁴": "4", "⁵": "5", "⁶": "6", "⁷": "7", "⁸": "8", "⁹": "9", "⁻": "-" };
+const SUPERSCRIPT_DIGITS: Record<string, string> = {
+  "⁰": "0",
+  "¹": "1",
+  "²": "2",
+  "³": "3",
+  "⁴": "4",
+  "⁵": "5",
+  "⁶": "6",
+  "⁷": "7",
+  "⁸": "8",
+  "⁹": "9",
+  "⁻": "-",
+};
 
 /** The number a quantity starts with (kept as written, so "1e5" is never read as a unit). */
 const LEADING_NUMBER = /^\s*[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?/;
@@ -35,7 +47,9 @@ const TIMES_TEN = /^(\s*[-+]?(?:\d+\.?\d*|\.\d+))\s*[×xX·*]\s*10(?:\^([-+\u221
 
 /** Brings a unit (or "<number> <unit>") to the spelling the unit grammar and the column lists use. */
 export function normaliseUnitText(text: string): string {
-  text = text.replace(TIMES_TEN, (_, mantissa: string, caret: string | undefined, sup: string | undefined) => `${mantissa}e${caret ?? [...sup!].map((c) => SUPERSCRIPT_DIGITS[c]).join("")}`.replace("\u2212", "-"));
+  text = text.replace(TIMES_TEN, (_, mantissa: string, caret: string | undefined, sup: string | undefined) =>
+    `${mantissa}e${caret ?? [...sup!].map((c) => SUPERSCRIPT_DIGITS[c]).join("")}`.replace("\u2212", "-"),
+  );
   const number = LEADING_NUMBER.exec(text)?.[0] ?? "";
   const unit = normaliseUnit(text.slice(number.length));
   return number ? `${number.trim()} ${unit}`.trim() : unit;
@@ -60,7 +74,10 @@ export function normaliseUnit(text: string): string {
   u = u.replace(/(?<![A-Za-z^])([A-Za-z]+)(-?\d+)(?![\d.])/g, (_, name: string, power: string) => `${name}^${power} `);
   u = u.replace(/(?<![A-Za-z])Vs(?![A-Za-z])/g, "(V s)");
   u = u.replace(/^1\s*\//, "/");
-  u = u.replace(/\s+/g, " ").replace(/\s*([/*^])\s*/g, "$1").trim();
+  u = u
+    .replace(/\s+/g, " ")
+    .replace(/\s*([/*^])\s*/g, "$1")
+    .trim();
   // After the last slash, units multiplied together are all in the denominator: cm²/V·s = cm²/(V·s).
   return u.replace(/\/([^/()]*[ *][^/()]*)$/, "/($1)");
 }

@@ -18,12 +18,12 @@ export type Dimension = "field" | "resistance" | "voltage" | "current" | "temper
 /** Factor to the SI (or base) unit of each dimension. */
 export const COLUMN_UNITS: Record<Dimension, Record<string, number>> = {
   field: { T: 1, mT: 1e-3 },
-  resistance: { ohm: 1, Ohm: 1, "Ω": 1, kohm: 1e3, kOhm: 1e3, "kΩ": 1e3, Mohm: 1e6, MOhm: 1e6, "MΩ": 1e6 },
-  voltage: { V: 1, mV: 1e-3, uV: 1e-6, "µV": 1e-6, "μV": 1e-6 },
-  current: { A: 1, mA: 1e-3, uA: 1e-6, "µA": 1e-6, "μA": 1e-6, nA: 1e-9 },
+  resistance: { ohm: 1, Ohm: 1, Ω: 1, kohm: 1e3, kOhm: 1e3, kΩ: 1e3, Mohm: 1e6, MOhm: 1e6, MΩ: 1e6 },
+  voltage: { V: 1, mV: 1e-3, uV: 1e-6, µV: 1e-6, μV: 1e-6 },
+  current: { A: 1, mA: 1e-3, uA: 1e-6, µA: 1e-6, μA: 1e-6, nA: 1e-9 },
   temperature: { K: 1, mK: 1e-3 },
   angle: { deg: 1 },
-  length: { nm: 1, "Å": 0.1, A: 0.1, um: 1e3, "µm": 1e3 },
+  length: { nm: 1, Å: 0.1, A: 0.1, um: 1e3, µm: 1e3 },
   fraction: { "1": 1, "at.%": 0.01, "%": 0.01 },
   concentration: { "cm^-3": 1, "cm-3": 1, "/cm^3": 1 },
   counts: { "": 1, "1": 1, counts: 1, cps: 1 },
@@ -47,7 +47,9 @@ export function unitFactor(dim: Dimension, unit: string): number | undefined {
 }
 
 export function acceptedUnits(dim: Dimension): string {
-  return Object.keys(COLUMN_UNITS[dim]).filter((u) => u !== "").join(", ");
+  return Object.keys(COLUMN_UNITS[dim])
+    .filter((u) => u !== "")
+    .join(", ");
 }
 
 /** "0.35 V" → { value: 0.35, unit: "V" }; returns undefined when the text is not number + unit. */
@@ -76,7 +78,7 @@ export function parseQuantity(text: unknown, target: string): QuantityResult {
   const t = text.trim();
   if (target === "1" || target === "%") {
     const m = /^([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(%?)$/.exec(t);
-    if (!m) return { ok: false, expected: target === "%" ? "a percentage such as \"5 %\"" : "a plain number", found: JSON.stringify(t) };
+    if (!m) return { ok: false, expected: target === "%" ? 'a percentage such as "5 %"' : "a plain number", found: JSON.stringify(t) };
     const v = Number(m[1]);
     if (!Number.isFinite(v)) return { ok: false, expected, found: `${JSON.stringify(t)}, beyond the largest number (about 1.8e308)` };
     if (target === "%") return { ok: true, value: m[2] ? v : v * 100 };
@@ -99,11 +101,19 @@ function quantityWithUnit(t: string, target: string, expected: string): Quantity
   const from = readUnit(m[2]);
   if (!from.ok) {
     const hint = from.name === undefined ? undefined : suggestUnitName(from.name, wanted);
-    return { ok: false, expected, found: `${JSON.stringify(t)}, which is not a known quantity (${from.reason}${hint ? `; did you mean "${hint}"?` : ""}; ${offer})` };
+    return {
+      ok: false,
+      expected,
+      found: `${JSON.stringify(t)}, which is not a known quantity (${from.reason}${hint ? `; did you mean "${hint}"?` : ""}; ${offer})`,
+    };
   }
   if (!sameDimension(from.unit, to.unit)) {
     const is = kindOf(from.unit)?.name ?? `a quantity in ${dimensionText(from.unit.dim)}`;
-    return { ok: false, expected, found: `${JSON.stringify(t)}, which has a different dimension (${is}, not ${wanted?.name ?? `one in ${dimensionText(to.unit.dim)}`}; ${offer})` };
+    return {
+      ok: false,
+      expected,
+      found: `${JSON.stringify(t)}, which has a different dimension (${is}, not ${wanted?.name ?? `one in ${dimensionText(to.unit.dim)}`}; ${offer})`,
+    };
   }
   const v = convertUnit(value, from.unit, to.unit);
   if (!Number.isFinite(v)) return { ok: false, expected, found: `${JSON.stringify(t)}, beyond the largest number (about 1.8e308)` };

@@ -131,7 +131,15 @@ function ajvToInputError(e: ErrorObject, doc: FrontMatterDoc, file: string, data
       const known = Object.keys(schemaAt(segs)?.properties ?? {});
       const hint = didYouMean(key, known);
       const field = base ? `${base}.${key}` : key;
-      return new InputError({ file, line: lineOf(field), field, message: "unknown key", expected: `one of ${known.join(", ")}`, found: JSON.stringify(key), fix: hint ? `did you mean "${hint}"?` : "remove it, or see docs/formats.md for the keys a record may have" });
+      return new InputError({
+        file,
+        line: lineOf(field),
+        field,
+        message: "unknown key",
+        expected: `one of ${known.join(", ")}`,
+        found: JSON.stringify(key),
+        fix: hint ? `did you mean "${hint}"?` : "remove it, or see docs/formats.md for the keys a record may have",
+      });
     }
     case "required": {
       const key = (e.params as { missingProperty: string }).missingProperty;
@@ -142,24 +150,63 @@ function ajvToInputError(e: ErrorObject, doc: FrontMatterDoc, file: string, data
       const opening = doc.firstLine - 1;
       const line = base ? (lineOf(base) ?? opening) : opening;
       const fix = base ? `add "${key}: …" to ${base}` : `add a line "${key}: …" between the two "---" lines`;
-      return new InputError({ file, line, field, message: "required field is missing", expected: FIELD_HINTS[key] ?? `a value for "${key}"`, found: "nothing", fix });
+      return new InputError({
+        file,
+        line,
+        field,
+        message: "required field is missing",
+        expected: FIELD_HINTS[key] ?? `a value for "${key}"`,
+        found: "nothing",
+        fix,
+      });
     }
     case "enum":
-      return new InputError({ file, line: lineOf(base), field: base, message: "value is not one of the allowed choices", expected: (e.params as { allowedValues: unknown[] }).allowedValues.join(" | "), found: show(valueAt), fix: FIELD_HINTS[last] ? `use ${FIELD_HINTS[last]}` : "use one of the listed values" });
+      return new InputError({
+        file,
+        line: lineOf(base),
+        field: base,
+        message: "value is not one of the allowed choices",
+        expected: (e.params as { allowedValues: unknown[] }).allowedValues.join(" | "),
+        found: show(valueAt),
+        fix: FIELD_HINTS[last] ? `use ${FIELD_HINTS[last]}` : "use one of the listed values",
+      });
     case "pattern": {
       const isDate = /grown|date/.test(last);
-      return new InputError({ file, line: lineOf(base), field: base, message: isDate ? "not a date" : "not a valid id", expected: isDate ? "a date written YYYY-MM-DD" : "letters, digits, \".\", \"-\" or \"_\" (up to 64, starting with a letter or digit, no \"..\")", found: show(valueAt), fix: isDate ? "write the date as 2025-03-14" : "rename it using only the allowed characters" });
+      return new InputError({
+        file,
+        line: lineOf(base),
+        field: base,
+        message: isDate ? "not a date" : "not a valid id",
+        expected: isDate ? "a date written YYYY-MM-DD" : 'letters, digits, ".", "-" or "_" (up to 64, starting with a letter or digit, no "..")',
+        found: show(valueAt),
+        fix: isDate ? "write the date as 2025-03-14" : "rename it using only the allowed characters",
+      });
     }
     case "type": {
       const slip = (e.params as { type: string }).type === "number" ? unitInKey(last, valueAt) : undefined;
       if (slip) return new InputError({ file, line: lineOf(base), field: base, ...slip, found: show(valueAt) });
-      return new InputError({ file, line: lineOf(base), field: base, message: "wrong type", expected: `${(e.params as { type: string }).type === "array" ? "a list" : (e.params as { type: string }).type === "object" ? "a mapping" : `a ${(e.params as { type: string }).type}`}`, found: show(valueAt), fix: "see docs/formats.md for this field" });
+      return new InputError({
+        file,
+        line: lineOf(base),
+        field: base,
+        message: "wrong type",
+        expected: `${(e.params as { type: string }).type === "array" ? "a list" : (e.params as { type: string }).type === "object" ? "a mapping" : `a ${(e.params as { type: string }).type}`}`,
+        found: show(valueAt),
+        fix: "see docs/formats.md for this field",
+      });
     }
     default:
-      return new InputError({ file, line: lineOf(base), field: base, message: `value is out of range (${e.message})`, expected: e.message ?? "a valid value", found: show(valueAt), fix: "see docs/formats.md for this field" });
+      return new InputError({
+        file,
+        line: lineOf(base),
+        field: base,
+        message: `value is out of range (${e.message})`,
+        expected: e.message ?? "a valid value",
+        found: show(valueAt),
+        fix: "see docs/formats.md for this field",
+      });
   }
 }
-
 
 export interface WaferContext {
   /** Folder name the record lives in. */
@@ -181,7 +228,14 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
   const { file } = ctx;
   const lineOf = (f: string) => lineOfField(doc.matterText, f, doc.firstLine);
   if (typeof data !== "object" || Array.isArray(data)) {
-    throw new InputError({ file, line: doc.firstLine, message: "front matter must be a mapping of fields", expected: "key: value lines", found: show(data), fix: "write one \"key: value\" per line between the two \"---\" lines, such as \"wafer: <id>\"; see docs/formats.md" });
+    throw new InputError({
+      file,
+      line: doc.firstLine,
+      message: "front matter must be a mapping of fields",
+      expected: "key: value lines",
+      found: show(data),
+      fix: 'write one "key: value" per line between the two "---" lines, such as "wafer: <id>"; see docs/formats.md',
+    });
   }
   const list = new ProblemList(file);
   /** Fields whose value failed the schema: semantic checks skip them. */
@@ -202,13 +256,27 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
     }
   }
   const shapeOk = list.ok;
-  const bad = (field: string) => [...badFields].some((b) => b === "" ? false : field === b || field.startsWith(`${b}.`) || field.startsWith(`${b}[`) || b.startsWith(`${field}.`) || b.startsWith(`${field}[`));
+  const bad = (field: string) =>
+    [...badFields].some((b) =>
+      b === "" ? false : field === b || field.startsWith(`${b}.`) || field.startsWith(`${b}[`) || b.startsWith(`${field}.`) || b.startsWith(`${field}[`),
+    );
   // biome-ignore lint/suspicious/noExplicitAny: the record before validation; each field is checked before use below
   const r = data as Record<string, any>;
   if (typeof r.wafer === "string" && !bad("wafer") && r.wafer !== ctx.folder) {
-    list.add({ file, line: lineOf("wafer"), field: "wafer", message: "wafer id does not match its folder", expected: JSON.stringify(ctx.folder), found: JSON.stringify(r.wafer), fix: "make the id and the folder name the same (rename one of them)" });
+    list.add({
+      file,
+      line: lineOf("wafer"),
+      field: "wafer",
+      message: "wafer id does not match its folder",
+      expected: JSON.stringify(ctx.folder),
+      found: JSON.stringify(r.wafer),
+      fix: "make the id and the folder name the same (rename one of them)",
+    });
   }
-  const reservedRun = typeof r.run !== "string" ? undefined : siteNameProblem(r.run, "run", { file, line: lineOf("run"), field: "run", rename: "run (and its runs/<id>.md file)" });
+  const reservedRun =
+    typeof r.run !== "string"
+      ? undefined
+      : siteNameProblem(r.run, "run", { file, line: lineOf("run"), field: "run", rename: "run (and its runs/<id>.md file)" });
   if (reservedRun && !bad("run")) list.add(reservedRun);
   list.attempt(() => checkFiniteNumbers(r, file, lineOf));
   const waivers = (Array.isArray(r.waivers) ? r.waivers : []) as Record<string, unknown>[];
@@ -216,9 +284,25 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
   for (const [key, value] of dates) {
     if (typeof value !== "string" || bad(key)) continue;
     if (!isRealDate(value)) {
-      list.add({ file, line: lineOf(key), field: key, message: "not a calendar date", expected: "a real date YYYY-MM-DD", found: JSON.stringify(value), fix: "correct the month or day" });
+      list.add({
+        file,
+        line: lineOf(key),
+        field: key,
+        message: "not a calendar date",
+        expected: "a real date YYYY-MM-DD",
+        found: JSON.stringify(value),
+        fix: "correct the month or day",
+      });
     } else if (value > ctx.today) {
-      list.add({ file, line: lineOf(key), field: key, message: "date is in the future", expected: `a date on or before ${ctx.today}`, found: value, fix: "correct the year or month" });
+      list.add({
+        file,
+        line: lineOf(key),
+        field: key,
+        message: "date is in the future",
+        expected: `a date on or before ${ctx.today}`,
+        found: value,
+        fix: "correct the year or month",
+      });
     }
   }
   waivers.forEach((w, i) => {
@@ -226,7 +310,15 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
     const field = `waivers[${i}]`;
     const named = ["metric", "finding"].filter((k) => k in w);
     if (named.length !== 1) {
-      list.add({ file, line: lineOf(field), field, message: "a waiver names exactly one metric or one finding", expected: "metric: <metric key> or finding: <finding key>", found: named.length ? "both" : "neither", fix: "keep one of metric: or finding:" });
+      list.add({
+        file,
+        line: lineOf(field),
+        field,
+        message: "a waiver names exactly one metric or one finding",
+        expected: "metric: <metric key> or finding: <finding key>",
+        found: named.length ? "both" : "neither",
+        fix: "keep one of metric: or finding:",
+      });
       return;
     }
     const [k] = named;
@@ -235,17 +327,42 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
     const known = k === "metric" ? [...METRIC_BY_KEY.keys()] : [...FINDING_KEYS];
     if (!(k === "metric" ? METRIC_BY_KEY.has(value) : isFindingKey(value))) {
       const hint = didYouMean(value, known);
-      list.add({ file, line: lineOf(`${field}.${k}`), field: `${field}.${k}`, message: `waiver names an unknown ${k}`, expected: `a ${k} key from docs/formats.md`, found: JSON.stringify(value), fix: hint ? `did you mean "${hint}"?` : `correct the ${k} key or remove the waiver` });
+      list.add({
+        file,
+        line: lineOf(`${field}.${k}`),
+        field: `${field}.${k}`,
+        message: `waiver names an unknown ${k}`,
+        expected: `a ${k} key from docs/formats.md`,
+        found: JSON.stringify(value),
+        fix: hint ? `did you mean "${hint}"?` : `correct the ${k} key or remove the waiver`,
+      });
     }
   });
   const devices = (Array.isArray(r.devices) ? r.devices : []) as DeviceSpec[];
   const ids = new Set<string>();
   devices.forEach((d, i) => {
     if (!d || typeof d !== "object" || bad(`devices[${i}]`)) return;
-    if (ids.has(d.id)) list.add({ file, line: lineOf(`devices[${i}].id`), field: `devices[${i}].id`, message: "device id is used twice", expected: "a unique id per device", found: JSON.stringify(d.id), fix: "rename one of the devices" });
+    if (ids.has(d.id))
+      list.add({
+        file,
+        line: lineOf(`devices[${i}].id`),
+        field: `devices[${i}].id`,
+        message: "device id is used twice",
+        expected: "a unique id per device",
+        found: JSON.stringify(d.id),
+        fix: "rename one of the devices",
+      });
     ids.add(d.id);
     if (d.geometry === "hall-bar" && (d.length_um === undefined || d.width_um === undefined)) {
-      list.add({ file, line: lineOf(`devices[${i}]`), field: `devices[${i}]`, message: "a Hall bar needs its dimensions", expected: "length_um (voltage-probe spacing) and width_um (bar width)", found: `length_um ${show(d.length_um)}, width_um ${show(d.width_um)}`, fix: "add both, in micrometres" });
+      list.add({
+        file,
+        line: lineOf(`devices[${i}]`),
+        field: `devices[${i}]`,
+        message: "a Hall bar needs its dimensions",
+        expected: "length_um (voltage-probe spacing) and width_um (bar width)",
+        found: `length_um ${show(d.length_um)}, width_um ${show(d.width_um)}`,
+        fix: "add both, in micrometres",
+      });
     }
   });
   // Reading instructions for files as the instruments write them: compiled once, each problem at its wafer.md line.
@@ -257,12 +374,23 @@ export function validateWafer(doc: FrontMatterDoc, ctx: WaferContext): WaferReco
   devices.forEach((d, i) => attach(d, `devices[${i}]`, deviceReading(SWEEP_COLUMNS)));
   attach(r.xrd, "xrd", xrdReading({ ...MAP_COLUMNS, ...PEAK_COLUMNS }));
   attach(r.profiles, "profiles", PROFILE_READING);
-  list.attempt(() => checkDeviceDimensions(devices.filter((d, i) => d && typeof d === "object" && !bad(`devices[${i}]`)), file, lineOf));
+  list.attempt(() =>
+    checkDeviceDimensions(
+      devices.filter((d, i) => d && typeof d === "object" && !bad(`devices[${i}]`)),
+      file,
+      lineOf,
+    ),
+  );
   const images = (Array.isArray(r.images) ? r.images : []) as ImageSpec[];
   images.forEach((im, i) => {
-    if (im && typeof im.file === "string" && !bad(`images[${i}].file`)) list.attempt(() => checkRelativePath(im.file, { file, field: `images[${i}].file`, line: lineOf(`images[${i}].file`) }));
+    if (im && typeof im.file === "string" && !bad(`images[${i}].file`))
+      list.attempt(() => checkRelativePath(im.file, { file, field: `images[${i}].file`, line: lineOf(`images[${i}].file`) }));
   });
-  const settings = bad("analysis") ? ctx.siteSettings : list.attempt(() => applySettings(ctx.siteSettings, r.analysis, { file, field: "analysis", line: lineOf("analysis"), lineOf: (k) => lineOf(`analysis.${k}`) }));
+  const settings = bad("analysis")
+    ? ctx.siteSettings
+    : list.attempt(() =>
+        applySettings(ctx.siteSettings, r.analysis, { file, field: "analysis", line: lineOf("analysis"), lineOf: (k) => lineOf(`analysis.${k}`) }),
+      );
   const stackNames = (Array.isArray(r.stack) ? r.stack : []).map((l: { name?: unknown }) => l?.name).filter((n: unknown): n is string => typeof n === "string");
   const growth = bad("growth") ? undefined : list.attempt(() => readGrowth(r.growth, { file, lineOf, stackNames }));
   const decision = bad("decision") ? undefined : list.attempt(() => readDecision(r.decision, { file, grown: r.grown, today: ctx.today, lineOf }));

@@ -4,18 +4,26 @@
 // published as globalThis.waferbookAxes so the unit tests can check them.
 (function () {
   "use strict";
-  var SUP = { "-": "\u207b", "0": "\u2070", "1": "\u00b9", "2": "\u00b2", "3": "\u00b3", "4": "\u2074", "5": "\u2075", "6": "\u2076", "7": "\u2077", "8": "\u2078", "9": "\u2079" };
+  var SUP = { "-": "\u207b", 0: "\u2070", 1: "\u00b9", 2: "\u00b2", 3: "\u00b3", 4: "\u2074", 5: "\u2075", 6: "\u2076", 7: "\u2077", 8: "\u2078", 9: "\u2079" };
   /** A number as a short label: plain between 10⁻³ and 10⁴, else m×10ᵉ with superscript digits. */
   function sci(v) {
     if (v === 0) return "0";
     var a = Math.abs(v);
     if (a >= 1e-3 && a < 1e4) return String(Number(v.toPrecision(3)));
-    var e = Math.floor(Math.log10(a) + 1e-9), m = v / Math.pow(10, e);
-    var exp = String(e).split("").map(function (c) { return SUP[c] || c; }).join("");
+    var e = Math.floor(Math.log10(a) + 1e-9),
+      m = v / Math.pow(10, e);
+    var exp = String(e)
+      .split("")
+      .map(function (c) {
+        return SUP[c] || c;
+      })
+      .join("");
     return (Math.abs(Math.abs(m) - 1) < 1e-9 ? (m < 0 ? "\u2212" : "") : Number(m.toPrecision(3)) + "\u00d7") + "10" + exp;
   }
   /** Round off floating-point noise of m × 10^k (so 2e11 prints as 2×10¹¹, not 1.9999…). */
-  function clean(v) { return Number(v.toPrecision(12)); }
+  function clean(v) {
+    return Number(v.toPrecision(12));
+  }
   /** Values m × 10^k (m from `mantissas`) inside [min, max], ascending. */
   function decadeTicks(min, max, mantissas) {
     var out = [];
@@ -29,19 +37,28 @@
     return out;
   }
   /** Ticks at 1, 2 and 5 per decade inside [min, max]. */
-  function logTicks(min, max) { return decadeTicks(min, max, [1, 2, 5]); }
+  function logTicks(min, max) {
+    return decadeTicks(min, max, [1, 2, 5]);
+  }
   /** Mantissa sets from coarse to fine: 1-2-5 first, finer only for ranges too narrow for it. */
-  var LEVELS = [[1, 2, 5], [1, 2, 3, 4, 5, 6, 7, 8, 9], [1, 1.2, 1.5, 2, 2.5, 3, 4, 5, 6, 7, 8, 9]];
+  var LEVELS = [
+    [1, 2, 5],
+    [1, 2, 3, 4, 5, 6, 7, 8, 9],
+    [1, 1.2, 1.5, 2, 2.5, 3, 4, 5, 6, 7, 8, 9],
+  ];
   /** Largest gap between neighbouring ticks (and the axis ends) as a fraction of the axis, in decades. */
   function widestGap(min, max, ticks) {
-    var edges = [min].concat(ticks, [max]).map(function (v) { return Math.log10(v); });
+    var edges = [min].concat(ticks, [max]).map(function (v) {
+      return Math.log10(v);
+    });
     var g = 0;
     for (var i = 1; i < edges.length; i++) g = Math.max(g, edges[i] - edges[i - 1]);
     return g / (edges[edges.length - 1] - edges[0]);
   }
   /** Largest m × 10^k ≤ v (or smallest ≥ v when `up`), m from `mantissas`. */
   function snap(v, mantissas, up) {
-    var k = Math.floor(Math.log10(v) + 1e-9), best = up ? Infinity : 0;
+    var k = Math.floor(Math.log10(v) + 1e-9),
+      best = up ? Infinity : 0;
     [k - 1, k, k + 1].forEach(function (e) {
       mantissas.forEach(function (m) {
         var c = clean(m * Math.pow(10, e));
@@ -59,9 +76,11 @@
    * neighbouring ticks of the finest set.
    */
   function logAxis(lo, hi, pad) {
-    var a = Math.log10(lo), b = Math.log10(hi);
+    var a = Math.log10(lo),
+      b = Math.log10(hi);
     var p = Math.max((b - a) * (pad == null ? 0.06 : pad), 0.04);
-    var min = Math.pow(10, a - p), max = Math.pow(10, b + p);
+    var min = Math.pow(10, a - p),
+      max = Math.pow(10, b + p);
     for (var i = 0; i < LEVELS.length; i++) {
       var ticks = decadeTicks(min, max, LEVELS[i]);
       if (ticks.length >= 3 && widestGap(min, max, ticks) <= 0.45) return { min: min, max: max, ticks: ticks };
@@ -79,26 +98,59 @@
   if (!el || typeof Chart === "undefined") return;
   var specs = JSON.parse(el.textContent || "[]");
   // Series of equal rank (data, second … fifth) differ in colour and in marker shape or dash, never colour alone.
-  var palette = { data: "#2c5f66", second: "#b5632d", third: "#6a3c98", fourth: "#1f5a8a", fifth: "#8a5d00", fit: "#1d262b", reference: "#5d6368", muted: "#5d6368", flag: "#a4262c" };
+  var palette = {
+    data: "#2c5f66",
+    second: "#b5632d",
+    third: "#6a3c98",
+    fourth: "#1f5a8a",
+    fifth: "#8a5d00",
+    fit: "#1d262b",
+    reference: "#5d6368",
+    muted: "#5d6368",
+    flag: "#a4262c",
+  };
   var dashes = { data: [], second: [6, 3], third: [2, 2], fourth: [10, 3, 2, 3], fifth: [1, 3], fit: [8, 4], reference: [3, 3], muted: [2, 4], flag: [] };
-  var shapes = { data: "circle", second: "rect", third: "triangle", fourth: "rectRot", fifth: "star", fit: "crossRot", reference: "rectRot", muted: "circle", flag: "circle" };
+  var shapes = {
+    data: "circle",
+    second: "rect",
+    third: "triangle",
+    fourth: "rectRot",
+    fifth: "star",
+    fit: "crossRot",
+    reference: "rectRot",
+    muted: "circle",
+    flag: "circle",
+  };
   var HOLLOW = { muted: true, flag: true, fifth: true };
   var TARGET = { line: "#2d7047", fill: "rgba(45,112,71,0.12)", dash: [5, 4] };
-  function unitOf(label) { var m = /\(([^)]*)\)\s*$/.exec(label); return m ? " " + m[1] : ""; }
-  function day(v) { return new Date(Math.round(v) * 86400000).toISOString().slice(0, 10); }
+  function unitOf(label) {
+    var m = /\(([^)]*)\)\s*$/.exec(label);
+    return m ? " " + m[1] : "";
+  }
+  function day(v) {
+    return new Date(Math.round(v) * 86400000).toISOString().slice(0, 10);
+  }
 
   function dataset(s) {
     var role = s.role || "data";
     var ds = {
-      label: s.label, yAxisID: s.axis === "y2" ? "y2" : "y",
-      data: s.points.map(function (p) { return { x: p[0], y: p[1] }; }),
+      label: s.label,
+      yAxisID: s.axis === "y2" ? "y2" : "y",
+      data: s.points.map(function (p) {
+        return { x: p[0], y: p[1] };
+      }),
       showLine: s.line,
-      borderColor: palette[role], backgroundColor: palette[role],
-      borderDash: s.line ? dashes[role] : [], pointStyle: shapes[role],
+      borderColor: palette[role],
+      backgroundColor: palette[role],
+      borderDash: s.line ? dashes[role] : [],
+      pointStyle: shapes[role],
       // Markers at least 4.5 px in radius; open shapes (cross, star, rings) drawn with a 2 px stroke.
-      pointRadius: s.line ? 0 : role === "flag" ? 7.5 : role === "fifth" || role === "fit" ? 5.5 : 4.5, pointHoverRadius: s.line ? 3 : 7,
-      borderWidth: s.line ? 1.8 : HOLLOW[role] || role === "fit" ? 2 : 1, parsing: false,
-      links: s.links, tips: s.tips
+      pointRadius: s.line ? 0 : role === "flag" ? 7.5 : role === "fifth" || role === "fit" ? 5.5 : 4.5,
+      pointHoverRadius: s.line ? 3 : 7,
+      borderWidth: s.line ? 1.8 : HOLLOW[role] || role === "fit" ? 2 : 1,
+      parsing: false,
+      links: s.links,
+      tips: s.tips,
     };
     if (!s.line && HOLLOW[role]) ds.backgroundColor = "rgba(0,0,0,0)";
     if (role === "flag") ds.order = -1;
@@ -106,39 +158,74 @@
   }
 
   // Legend swatches drawn like the series: a line sample in its dash pattern, a marker in its shape and size.
-  var SW = 36, SH = 16;
+  var SW = 36,
+    SH = 16;
   function swatch(draw) {
     var c = document.createElement("canvas");
-    c.width = SW; c.height = SH;
+    c.width = SW;
+    c.height = SH;
     draw(c.getContext("2d"));
     return c;
   }
   function seriesSwatch(ds) {
     return swatch(function (ctx) {
-      ctx.strokeStyle = ds.borderColor; ctx.fillStyle = ds.backgroundColor;
+      ctx.strokeStyle = ds.borderColor;
+      ctx.fillStyle = ds.backgroundColor;
       if (ds.showLine) {
-        ctx.lineWidth = 2.2; ctx.setLineDash(ds.borderDash || []);
-        ctx.beginPath(); ctx.moveTo(1, SH / 2); ctx.lineTo(SW - 1, SH / 2); ctx.stroke();
+        ctx.lineWidth = 2.2;
+        ctx.setLineDash(ds.borderDash || []);
+        ctx.beginPath();
+        ctx.moveTo(1, SH / 2);
+        ctx.lineTo(SW - 1, SH / 2);
+        ctx.stroke();
       } else {
         ctx.lineWidth = ds.borderWidth;
-        Chart.helpers.drawPoint(ctx, { pointStyle: ds.pointStyle, radius: Math.max(4.5, Math.min(ds.pointRadius, 6.5)), rotation: 0, borderWidth: ds.borderWidth }, SW / 2, SH / 2);
+        Chart.helpers.drawPoint(
+          ctx,
+          { pointStyle: ds.pointStyle, radius: Math.max(4.5, Math.min(ds.pointRadius, 6.5)), rotation: 0, borderWidth: ds.borderWidth },
+          SW / 2,
+          SH / 2,
+        );
       }
     });
   }
   var targetSwatch = function () {
     return swatch(function (ctx) {
-      ctx.fillStyle = TARGET.fill; ctx.fillRect(1, 2, SW - 2, SH - 4);
-      ctx.strokeStyle = TARGET.line; ctx.lineWidth = 1.6; ctx.setLineDash(TARGET.dash);
-      ctx.beginPath(); ctx.moveTo(1, 2.5); ctx.lineTo(SW - 1, 2.5); ctx.moveTo(1, SH - 2.5); ctx.lineTo(SW - 1, SH - 2.5); ctx.stroke();
+      ctx.fillStyle = TARGET.fill;
+      ctx.fillRect(1, 2, SW - 2, SH - 4);
+      ctx.strokeStyle = TARGET.line;
+      ctx.lineWidth = 1.6;
+      ctx.setLineDash(TARGET.dash);
+      ctx.beginPath();
+      ctx.moveTo(1, 2.5);
+      ctx.lineTo(SW - 1, 2.5);
+      ctx.moveTo(1, SH - 2.5);
+      ctx.lineTo(SW - 1, SH - 2.5);
+      ctx.stroke();
     });
   };
   function legendLabels(spec) {
     return function (chart) {
       var items = chart.data.datasets.map(function (ds, i) {
-        return { text: ds.label, pointStyle: seriesSwatch(ds), hidden: !chart.isDatasetVisible(i), datasetIndex: i, lineWidth: 0, strokeStyle: "rgba(0,0,0,0)", fillStyle: "rgba(0,0,0,0)" };
+        return {
+          text: ds.label,
+          pointStyle: seriesSwatch(ds),
+          hidden: !chart.isDatasetVisible(i),
+          datasetIndex: i,
+          lineWidth: 0,
+          strokeStyle: "rgba(0,0,0,0)",
+          fillStyle: "rgba(0,0,0,0)",
+        };
       });
       (spec.limits || []).forEach(function (l) {
-        items.push({ text: l.label + " (shaded: within the target)", pointStyle: targetSwatch(), hidden: false, lineWidth: 0, strokeStyle: "rgba(0,0,0,0)", fillStyle: "rgba(0,0,0,0)" });
+        items.push({
+          text: l.label + " (shaded: within the target)",
+          pointStyle: targetSwatch(),
+          hidden: false,
+          lineWidth: 0,
+          strokeStyle: "rgba(0,0,0,0)",
+          fillStyle: "rgba(0,0,0,0)",
+        });
       });
       return items;
     };
@@ -146,29 +233,55 @@
 
   /** Positive values of one axis over every series (and view) of a spec. */
   function extent(spec, axis) {
-    var lo = Infinity, hi = -Infinity;
-    var sets = spec.views ? spec.views.reduce(function (a, v) { return a.concat(v.series); }, []) : spec.series;
+    var lo = Infinity,
+      hi = -Infinity;
+    var sets = spec.views
+      ? spec.views.reduce(function (a, v) {
+          return a.concat(v.series);
+        }, [])
+      : spec.series;
     sets.forEach(function (s) {
       var mine = axis === "x" || (axis === "y2") === (s.axis === "y2");
       if (!mine) return;
-      s.points.forEach(function (p) { var v = axis === "x" ? p[0] : p[1]; if (v > 0 && v < lo) lo = v; if (v > 0 && v > hi) hi = v; });
+      s.points.forEach(function (p) {
+        var v = axis === "x" ? p[0] : p[1];
+        if (v > 0 && v < lo) lo = v;
+        if (v > 0 && v > hi) hi = v;
+      });
     });
     return lo <= hi ? [lo, hi] : null;
   }
   function scale(spec, axis, opt) {
-    var markersOnly = !(spec.views ? spec.views[0].series : spec.series).some(function (s) { return s.line; });
+    var markersOnly = !(spec.views ? spec.views[0].series : spec.series).some(function (s) {
+      return s.line;
+    });
     var out = {
-      type: opt.log ? "logarithmic" : "linear", title: { display: true, text: opt.label },
-      ticks: { callback: opt.dates ? function (v) { return day(v); } : sci }
+      type: opt.log ? "logarithmic" : "linear",
+      title: { display: true, text: opt.label },
+      ticks: {
+        callback: opt.dates
+          ? function (v) {
+              return day(v);
+            }
+          : sci,
+      },
     };
-    if (axis === "y2") { out.position = "right"; out.grid = { drawOnChartArea: false }; }
+    if (axis === "y2") {
+      out.position = "right";
+      out.grid = { drawOnChartArea: false };
+    }
     if (opt.log) {
       var e = extent(spec, axis);
       if (e) {
         var a = logAxis(e[0], e[1]);
-        out.min = a.min; out.max = a.max;
+        out.min = a.min;
+        out.max = a.max;
         out.ticks = { autoSkip: false, maxRotation: 0, callback: sci };
-        out.afterBuildTicks = function (s) { s.ticks = a.ticks.map(function (v) { return { value: v }; }); };
+        out.afterBuildTicks = function (s) {
+          s.ticks = a.ticks.map(function (v) {
+            return { value: v };
+          });
+        };
       }
     } else if (markersOnly && !opt.dates) {
       out.grace = "4%";
@@ -180,25 +293,45 @@
     return {
       id: "targetLimits",
       beforeDatasetsDraw: function (chart) {
-        var ctx = chart.ctx, area = chart.chartArea;
+        var ctx = chart.ctx,
+          area = chart.chartArea;
         limitSets.forEach(function (l) {
           var s = chart.scales[l.axis];
           var lo = l.min != null ? s.getPixelForValue(l.min) : null;
           var hi = l.max != null ? s.getPixelForValue(l.max) : null;
           ctx.save();
-          ctx.fillStyle = TARGET.fill; ctx.strokeStyle = TARGET.line; ctx.lineWidth = 1.6; ctx.setLineDash(TARGET.dash);
+          ctx.fillStyle = TARGET.fill;
+          ctx.strokeStyle = TARGET.line;
+          ctx.lineWidth = 1.6;
+          ctx.setLineDash(TARGET.dash);
           if (l.axis === "y") {
-            var top = hi != null ? hi : area.top, bottom = lo != null ? lo : area.bottom;
+            var top = hi != null ? hi : area.top,
+              bottom = lo != null ? lo : area.bottom;
             ctx.fillRect(area.left, Math.max(area.top, top), area.right - area.left, Math.min(area.bottom, bottom) - Math.max(area.top, top));
-            [lo, hi].forEach(function (p) { if (p != null && p >= area.top && p <= area.bottom) { ctx.beginPath(); ctx.moveTo(area.left, p); ctx.lineTo(area.right, p); ctx.stroke(); } });
+            [lo, hi].forEach(function (p) {
+              if (p != null && p >= area.top && p <= area.bottom) {
+                ctx.beginPath();
+                ctx.moveTo(area.left, p);
+                ctx.lineTo(area.right, p);
+                ctx.stroke();
+              }
+            });
           } else {
-            var left = lo != null ? lo : area.left, right = hi != null ? hi : area.right;
+            var left = lo != null ? lo : area.left,
+              right = hi != null ? hi : area.right;
             ctx.fillRect(Math.max(area.left, left), area.top, Math.min(area.right, right) - Math.max(area.left, left), area.bottom - area.top);
-            [lo, hi].forEach(function (p) { if (p != null && p >= area.left && p <= area.right) { ctx.beginPath(); ctx.moveTo(p, area.top); ctx.lineTo(p, area.bottom); ctx.stroke(); } });
+            [lo, hi].forEach(function (p) {
+              if (p != null && p >= area.left && p <= area.right) {
+                ctx.beginPath();
+                ctx.moveTo(p, area.top);
+                ctx.lineTo(p, area.bottom);
+                ctx.stroke();
+              }
+            });
           }
           ctx.restore();
         });
-      }
+      },
     };
   }
 
@@ -210,33 +343,47 @@
       type: "scatter",
       data: { datasets: first.map(dataset) },
       options: {
-        animation: false, maintainAspectRatio: false, responsive: true,
+        animation: false,
+        maintainAspectRatio: false,
+        responsive: true,
         scales: scales,
         plugins: {
           legend: {
             labels: { usePointStyle: true, pointStyleWidth: SW, generateLabels: legendLabels(spec) },
             // The target band's entry names what is drawn but has no series to hide.
-            onClick: function (e, item, legend) { if (item.datasetIndex != null) Chart.defaults.plugins.legend.onClick.call(this, e, item, legend); }
+            onClick: function (e, item, legend) {
+              if (item.datasetIndex != null) Chart.defaults.plugins.legend.onClick.call(this, e, item, legend);
+            },
           },
-          tooltip: { callbacks: { label: function (c) {
-            var tip = c.dataset.tips?.[c.dataIndex];
-            var y = c.dataset.yAxisID === "y2" ? spec.y2 : spec.y;
-            var x = spec.x.dates ? day(c.parsed.x) : sci(c.parsed.x) + unitOf(spec.x.label);
-            return (tip || c.dataset.label) + ": " + x + ", " + sci(c.parsed.y) + unitOf(y.label);
-          } } }
+          tooltip: {
+            callbacks: {
+              label: function (c) {
+                var tip = c.dataset.tips?.[c.dataIndex];
+                var y = c.dataset.yAxisID === "y2" ? spec.y2 : spec.y;
+                var x = spec.x.dates ? day(c.parsed.x) : sci(c.parsed.x) + unitOf(spec.x.label);
+                return (tip || c.dataset.label) + ": " + x + ", " + sci(c.parsed.y) + unitOf(y.label);
+              },
+            },
+          },
         },
         onClick: function (_e, items, ch) {
           for (var i = 0; i < items.length; i++) {
             var ds = ch.data.datasets[items[i].datasetIndex];
-            if (ds.links?.[items[i].index]) { window.location.href = ds.links[items[i].index]; return; }
+            if (ds.links?.[items[i].index]) {
+              window.location.href = ds.links[items[i].index];
+              return;
+            }
           }
         },
         onHover: function (_e, items, ch) {
-          var linked = items.some(function (it) { var ds = ch.data.datasets[it.datasetIndex]; return ds.links?.[it.index]; });
+          var linked = items.some(function (it) {
+            var ds = ch.data.datasets[it.datasetIndex];
+            return ds.links?.[it.index];
+          });
           ch.canvas.style.cursor = linked ? "pointer" : "";
-        }
+        },
       },
-      plugins: [limitPlugin(spec.limits || [])]
+      plugins: [limitPlugin(spec.limits || [])],
     });
     // A chart with views (e.g. one per gate voltage) is switched by its <select>, written by the page template.
     var select = document.querySelector('select[data-chart-view="' + spec.id + '"]');
@@ -263,8 +410,23 @@
   function fonts(c, size) {
     c.options.plugins.legend.labels.font = { size: size };
     c.options.plugins.legend.labels.padding = size === 12 ? 10 : 4;
-    Object.values(c.options.scales).forEach(function (s) { s.ticks.font = { size: size - 1 }; s.title.font = { size: size }; });
+    Object.values(c.options.scales).forEach(function (s) {
+      s.ticks.font = { size: size - 1 };
+      s.title.font = { size: size };
+    });
   }
-  window.addEventListener("beforeprint", function () { Object.values(Chart.instances).forEach(function (c) { fonts(c, 10); c.update("none"); c.resize(PRINT_SIZE[0], PRINT_SIZE[1]); }); });
-  window.addEventListener("afterprint", function () { Object.values(Chart.instances).forEach(function (c) { fonts(c, 12); c.update("none"); c.resize(); }); });
+  window.addEventListener("beforeprint", function () {
+    Object.values(Chart.instances).forEach(function (c) {
+      fonts(c, 10);
+      c.update("none");
+      c.resize(PRINT_SIZE[0], PRINT_SIZE[1]);
+    });
+  });
+  window.addEventListener("afterprint", function () {
+    Object.values(Chart.instances).forEach(function (c) {
+      fonts(c, 12);
+      c.update("none");
+      c.resize();
+    });
+  });
 })();

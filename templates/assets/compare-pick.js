@@ -14,10 +14,14 @@
   function update() {
     var n = chosen.length;
     button.disabled = n < 2 || n > MAX;
-    said.textContent = n === 0 ? "Tick 2 to " + MAX + " wafers in the table to compare them side by side." : n + " chosen (" + chosen.join(", ") + ")" + (n < 2 ? ": tick at least one more." : n > MAX ? ": at most " + MAX + " can be compared." : ".");
+    said.textContent =
+      n === 0
+        ? "Tick 2 to " + MAX + " wafers in the table to compare them side by side."
+        : n + " chosen (" + chosen.join(", ") + ")" + (n < 2 ? ": tick at least one more." : n > MAX ? ": at most " + MAX + " can be compared." : ".");
   }
   Array.prototype.forEach.call(table.tBodies[0].rows, function (r) {
-    var cell = r.cells[0], a = cell?.querySelector("a");
+    var cell = r.cells[0],
+      a = cell?.querySelector("a");
     if (!a) return;
     var id = a.textContent.trim();
     var box = document.createElement("input");

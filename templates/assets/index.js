@@ -11,19 +11,30 @@
   var rows = Array.prototype.slice.call(tbody.rows);
   var heads = Array.prototype.slice.call(table.tHead.rows[0].cells);
   var selects = Array.prototype.slice.call(form.querySelectorAll("select[data-col]"));
-  var from = document.getElementById("f-from"), to = document.getElementById("f-to"), text = document.getElementById("f-text");
+  var from = document.getElementById("f-from"),
+    to = document.getElementById("f-to"),
+    text = document.getElementById("f-text");
   var state = { sort: -1, dir: "asc" };
-  rows.forEach(function (r, i) { r.setAttribute("data-order", String(i)); });
+  rows.forEach(function (r, i) {
+    r.setAttribute("data-order", String(i));
+  });
 
   // Filter choices from the rows themselves.
   selects.forEach(function (sel) {
-    var col = sel.getAttribute("data-col"), seen = {};
-    rows.forEach(function (r) { var v = r.getAttribute("data-" + col); if (v) seen[v] = true; });
-    Object.keys(seen).sort().forEach(function (v) {
-      var o = document.createElement("option");
-      o.value = v; o.textContent = v;
-      sel.appendChild(o);
+    var col = sel.getAttribute("data-col"),
+      seen = {};
+    rows.forEach(function (r) {
+      var v = r.getAttribute("data-" + col);
+      if (v) seen[v] = true;
     });
+    Object.keys(seen)
+      .sort()
+      .forEach(function (v) {
+        var o = document.createElement("option");
+        o.value = v;
+        o.textContent = v;
+        sel.appendChild(o);
+      });
   });
 
   // Sort buttons in the column headers.
@@ -53,7 +64,8 @@
     return c.textContent.trim().toLowerCase();
   }
   function compare(a, b) {
-    var ka = cellKey(a, state.sort), kb = cellKey(b, state.sort);
+    var ka = cellKey(a, state.sort),
+      kb = cellKey(b, state.sort);
     if (ka === null || ka === "" || ka === "—") return kb === null || kb === "" || kb === "—" ? 0 : 1;
     if (kb === null || kb === "" || kb === "—") return -1;
     var d = typeof ka === "number" && typeof kb === "number" ? ka - kb : String(ka).localeCompare(String(kb), undefined, { numeric: true });
@@ -74,11 +86,16 @@
 
   function writeUrl() {
     var p = new URLSearchParams();
-    selects.forEach(function (s) { if (s.value) p.set(s.name, s.value); });
+    selects.forEach(function (s) {
+      if (s.value) p.set(s.name, s.value);
+    });
     if (from.value) p.set("from", from.value);
     if (to.value) p.set("to", to.value);
     if (text.value.trim()) p.set("text", text.value.trim());
-    if (state.sort >= 0) { p.set("sort", String(state.sort)); p.set("dir", state.dir); }
+    if (state.sort >= 0) {
+      p.set("sort", String(state.sort));
+      p.set("dir", state.dir);
+    }
     var qs = p.toString();
     history.replaceState(null, "", location.pathname + (qs ? "?" + qs : "") + location.hash);
   }
@@ -87,18 +104,30 @@
     var p = new URLSearchParams(location.search);
     selects.forEach(function (s) {
       var v = p.get(s.name);
-      if (v && Array.prototype.some.call(s.options, function (o) { return o.value === v; })) s.value = v;
+      if (
+        v &&
+        Array.prototype.some.call(s.options, function (o) {
+          return o.value === v;
+        })
+      )
+        s.value = v;
     });
     from.value = p.get("from") || "";
     to.value = p.get("to") || "";
     text.value = p.get("text") || "";
     var s = Number(p.get("sort"));
-    if (p.has("sort") && s >= 0 && s < heads.length) { state.sort = s; state.dir = p.get("dir") === "desc" ? "desc" : "asc"; }
+    if (p.has("sort") && s >= 0 && s < heads.length) {
+      state.sort = s;
+      state.dir = p.get("dir") === "desc" ? "desc" : "asc";
+    }
   }
 
   function apply(updateUrl) {
     var ordered = rows.slice();
-    if (state.sort >= 0) ordered.sort(function (a, b) { return compare(a, b) || Number(a.getAttribute("data-order")) - Number(b.getAttribute("data-order")); });
+    if (state.sort >= 0)
+      ordered.sort(function (a, b) {
+        return compare(a, b) || Number(a.getAttribute("data-order")) - Number(b.getAttribute("data-order"));
+      });
     var shown = 0;
     ordered.forEach(function (r) {
       var ok = visible(r);
@@ -115,10 +144,21 @@
     if (updateUrl) writeUrl();
   }
 
-  form.addEventListener("input", function () { apply(true); });
-  form.addEventListener("change", function () { apply(true); });
-  form.addEventListener("submit", function (e) { e.preventDefault(); });
-  form.addEventListener("reset", function () { setTimeout(function () { state.sort = -1; apply(true); }, 0); });
+  form.addEventListener("input", function () {
+    apply(true);
+  });
+  form.addEventListener("change", function () {
+    apply(true);
+  });
+  form.addEventListener("submit", function (e) {
+    e.preventDefault();
+  });
+  form.addEventListener("reset", function () {
+    setTimeout(function () {
+      state.sort = -1;
+      apply(true);
+    }, 0);
+  });
   readUrl();
   form.hidden = false;
   apply(false);

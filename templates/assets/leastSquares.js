@@ -18,30 +18,45 @@
 (function (root) {
   "use strict";
   function leastSquares(points, space) {
-    var logX = !!space?.logX, logY = !!space?.logY;
+    var logX = !!space?.logX,
+      logY = !!space?.logY;
     var n = points.length;
     if (n < 3) return null;
-    var xs = [], ys = [], i;
+    var xs = [],
+      ys = [],
+      i;
     for (i = 0; i < n; i++) {
-      var x = points[i][0], y = points[i][1];
+      var x = points[i][0],
+        y = points[i][1];
       if ((logX && !(x > 0)) || (logY && !(y > 0))) return null;
       xs.push(logX ? Math.log10(x) : x);
       ys.push(logY ? Math.log10(y) : y);
     }
-    var mx = 0, my = 0;
-    for (i = 0; i < n; i++) { mx += xs[i]; my += ys[i]; }
-    mx /= n; my /= n;
-    var sxx = 0, syy = 0, sxy = 0;
+    var mx = 0,
+      my = 0;
     for (i = 0; i < n; i++) {
-      var dx = xs[i] - mx, dy = ys[i] - my;
-      sxx += dx * dx; syy += dy * dy; sxy += dx * dy;
+      mx += xs[i];
+      my += ys[i];
+    }
+    mx /= n;
+    my /= n;
+    var sxx = 0,
+      syy = 0,
+      sxy = 0;
+    for (i = 0; i < n; i++) {
+      var dx = xs[i] - mx,
+        dy = ys[i] - my;
+      sxx += dx * dx;
+      syy += dy * dy;
+      sxy += dx * dy;
     }
     if (!(sxx > 0) || !(syy > 0)) return null;
     var slope = sxy / sxx;
     var r = Math.max(-1, Math.min(1, sxy / Math.sqrt(sxx * syy)));
     var out = { n: n, slope: slope, intercept: my - slope * mx, r: r, rLow: null, rHigh: null, logX: logX, logY: logY };
     if (n >= 4 && Math.abs(r) < 1) {
-      var z = 0.5 * Math.log((1 + r) / (1 - r)), half = 1.959964 / Math.sqrt(n - 3);
+      var z = 0.5 * Math.log((1 + r) / (1 - r)),
+        half = 1.959964 / Math.sqrt(n - 3);
       out.rLow = Math.tanh(z - half);
       out.rHigh = Math.tanh(z + half);
     }

@@ -10,16 +10,29 @@
   // URL opened from disk shows a file listing), or the base path such as "/qual/" (tidy folder URLs).
   var root = form.getAttribute("data-root") || "";
   var relative = root.charAt(0) !== "/";
-  function link(href) { return root + href + (relative && (href === "" || href.slice(-1) === "/") ? "index.html" : ""); }
+  function link(href) {
+    return root + href + (relative && (href === "" || href.slice(-1) === "/") ? "index.html" : "");
+  }
   var input = document.getElementById("search-q");
   var status = document.getElementById("search-status");
   var list = document.getElementById("search-results");
   var q = new URLSearchParams(location.search).get("q") || "";
   input.value = q;
-  var SECTION = { notes: ["notes", "Notes"], reasons: ["summary", "Why"], verdict: ["summary", "Verdict"], grade: ["summary", "Grade"], run: ["summary", "Run"], title: ["summary", "Summary"] };
+  var SECTION = {
+    notes: ["notes", "Notes"],
+    reasons: ["summary", "Why"],
+    verdict: ["summary", "Verdict"],
+    grade: ["summary", "Grade"],
+    run: ["summary", "Run"],
+    title: ["summary", "Summary"],
+  };
   function anchorFor(hit) {
     var fields = {};
-    Object.keys(hit.match).forEach(function (t) { hit.match[t].forEach(function (f) { fields[f] = true; }); });
+    Object.keys(hit.match).forEach(function (t) {
+      hit.match[t].forEach(function (f) {
+        fields[f] = true;
+      });
+    });
     if (hit.kind === "run") return fields.notes ? ["notes", "Notes"] : ["wafers", "Wafers"];
     var order = ["title", "run", "verdict", "grade", "reasons", "notes"];
     for (var i = 0; i < order.length; i++) if (fields[order[i]]) return SECTION[order[i]];
@@ -28,9 +41,13 @@
   // A short piece of the matched text (reasons or notes) around the first match, the matched
   // words in <mark>. Built from text nodes only: the stored text is never parsed as HTML.
   var SNIPPET_SIDE = 70;
-  function escapeRe(t) { return t.replace(/[.*+?^${}()|[\]\\]/g, "\\$&"); }
+  function escapeRe(t) {
+    return t.replace(/[.*+?^${}()|[\]\\]/g, "\\$&");
+  }
   function snippet(hit) {
-    var terms = (hit.terms || []).filter(function (t) { return t.length > 0; });
+    var terms = (hit.terms || []).filter(function (t) {
+      return t.length > 0;
+    });
     if (!terms.length) return null;
     var re = new RegExp("(^|[^\\p{L}\\p{N}])(" + terms.map(escapeRe).join("|") + ")(?![\\p{L}\\p{N}])", "giu");
     var fields = ["notes", "reasons"];
@@ -41,14 +58,22 @@
       var m = re.exec(text);
       if (!m) continue;
       var at = m.index + m[1].length;
-      var from = Math.max(0, at - SNIPPET_SIDE), to = Math.min(text.length, at + SNIPPET_SIDE);
-      if (from > 0) { var sp = text.indexOf(" ", from); if (sp > 0 && sp < at) from = sp + 1; }
-      if (to < text.length) { var sp2 = text.lastIndexOf(" ", to); if (sp2 > at) to = sp2; }
+      var from = Math.max(0, at - SNIPPET_SIDE),
+        to = Math.min(text.length, at + SNIPPET_SIDE);
+      if (from > 0) {
+        var sp = text.indexOf(" ", from);
+        if (sp > 0 && sp < at) from = sp + 1;
+      }
+      if (to < text.length) {
+        var sp2 = text.lastIndexOf(" ", to);
+        if (sp2 > at) to = sp2;
+      }
       var piece = text.slice(from, to);
       var p = document.createElement("p");
       p.className = "snippet";
       if (from > 0) p.appendChild(document.createTextNode("\u2026"));
-      var last = 0, mm;
+      var last = 0,
+        mm;
       re.lastIndex = 0;
       // biome-ignore lint/suspicious/noAssignInExpressions: the usual RegExp.exec loop
       while ((mm = re.exec(piece)) !== null) {

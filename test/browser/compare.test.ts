@@ -26,7 +26,9 @@ afterAll(async () => {
 
 async function open(url: string): Promise<Page> {
   const page = await ctx.newPage();
-  page.on("console", (m) => { if (m.type() === "error") errors.push(`${page.url()}: ${m.text()}`); });
+  page.on("console", (m) => {
+    if (m.type() === "error") errors.push(`${page.url()}: ${m.text()}`);
+  });
   page.on("pageerror", (e) => errors.push(`${page.url()}: ${e.message}`));
   await page.goto(url, { waitUntil: "load" });
   await page.evaluate(() => new Promise<void>((r) => requestAnimationFrame(() => requestAnimationFrame(() => r()))));
@@ -64,7 +66,10 @@ describe("comparison page", () => {
     for (const n of drawn) expect(n).toBeGreaterThan(300);
     expect(page.url()).toMatch(/\?w=TQ-2401,TQ-2403,TQ-2505$/);
     // The screenshot for docs/screenshots: the last metric rows, then the charts the wafers share.
-    await page.evaluate(() => { document.getElementById("hall")!.scrollIntoView(); window.scrollBy(0, -160); });
+    await page.evaluate(() => {
+      document.getElementById("hall")!.scrollIntoView();
+      window.scrollBy(0, -160);
+    });
     await page.screenshot({ path: path.join(OUTPUT, "compare-1280.png") });
     // axe on this same page, drawn (served from the site's origin, so the page's CSP allows it).
     expect(await axeViolations(page)).toEqual([]);
@@ -108,7 +113,9 @@ describe("relation page", () => {
     expect(rows.some((r) => r.includes("TQ-2406"))).toBe(false); // test grade, filtered out
     expect(await page.textContent("#relation-fit")).toMatch(/r = -?\d\.\d{3}, n = \d+/);
     const legend = await page.evaluate(() => {
-      const chart = (window as unknown as { Chart: { getChart: (c: Element) => { data: { datasets: { label: string; pointText?: string[] }[] } } } }).Chart.getChart(document.getElementById("relation-canvas")!);
+      const chart = (
+        window as unknown as { Chart: { getChart: (c: Element) => { data: { datasets: { label: string; pointText?: string[] }[] } } } }
+      ).Chart.getChart(document.getElementById("relation-canvas")!);
       return chart.data.datasets.map((d) => ({ label: d.label, labels: d.pointText ?? [] }));
     });
     expect(legend.map((d) => d.label.replace(/ \(.*/, ""))).toEqual(["reactor Heron", "reactor Kite", "least squares"]);

@@ -61,12 +61,17 @@ export function fromDiskChecks(getSite: () => Site): void {
     const ctx = await site.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await ctx.newPage();
     const errors: string[] = [];
-    page.on("console", (m) => { if (m.type() === "error") errors.push(`${page.url()}: ${m.text()}`); });
+    page.on("console", (m) => {
+      if (m.type() === "error") errors.push(`${page.url()}: ${m.text()}`);
+    });
     page.on("pageerror", (e) => errors.push(`${page.url()}: ${e.message}`));
     const home = pathToFileURL(path.join(site.dir, "index.html")).href;
     await page.goto(home, { waitUntil: "load" });
     // site.css gives the header a flex layout and a coloured band; unstyled, it is a block on a transparent background.
-    const header = await page.evaluate(() => { const s = getComputedStyle(document.querySelector("header.top")!); return { display: s.display, background: s.backgroundColor }; });
+    const header = await page.evaluate(() => {
+      const s = getComputedStyle(document.querySelector("header.top")!);
+      return { display: s.display, background: s.backgroundColor };
+    });
     expect(header.display).toBe("flex");
     expect(header.background).not.toBe("rgba(0, 0, 0, 0)");
     // The wafer table's script runs from disk too, and keeps its sort in the address.

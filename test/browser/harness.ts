@@ -18,15 +18,30 @@ export const ROOT = path.resolve(import.meta.dirname, "../..");
 export const OUTPUT = path.join(ROOT, "test", "output");
 export const CHROMIUM = process.env.WAFERBOOK_CHROMIUM ?? "/usr/bin/chromium";
 /** Chromium flags for every browser test: no sandbox (containers), no GPU, no traffic of the browser's own, and no host but 127.0.0.1 (a request leaving the site fails instead of reaching the network). */
-export const LAUNCH_ARGS = ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync", "--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE 127.0.0.1"];
+export const LAUNCH_ARGS = [
+  "--no-sandbox",
+  "--disable-gpu",
+  "--disable-quic",
+  "--no-first-run",
+  "--disable-background-networking",
+  "--disable-component-update",
+  "--disable-sync",
+  "--host-resolver-rules=MAP * ~NOTFOUND, EXCLUDE 127.0.0.1",
+];
 
 /** Limit of one navigation or browser action (playwright's default is 30 s): generous, for a busy machine. */
 export const BROWSER_STEP_TIMEOUT_MS = 120_000;
 
 const TYPES: Record<string, string> = {
-  ".html": "text/html; charset=utf-8", ".css": "text/css; charset=utf-8", ".js": "text/javascript; charset=utf-8",
-  ".json": "application/json", ".png": "image/png", ".svg": "image/svg+xml", ".csv": "text/csv; charset=utf-8",
-  ".txt": "text/plain; charset=utf-8", ".md": "text/markdown; charset=utf-8",
+  ".html": "text/html; charset=utf-8",
+  ".css": "text/css; charset=utf-8",
+  ".js": "text/javascript; charset=utf-8",
+  ".json": "application/json",
+  ".png": "image/png",
+  ".svg": "image/svg+xml",
+  ".csv": "text/csv; charset=utf-8",
+  ".txt": "text/plain; charset=utf-8",
+  ".md": "text/markdown; charset=utf-8",
 };
 
 export interface Site {
@@ -48,8 +63,20 @@ const AXE = readFileSync(path.join(ROOT, "node_modules", "axe-core", "axe.min.js
 export async function axeViolations(page: Page): Promise<string[]> {
   await page.addScriptTag({ url: new URL(AXE_PATH, page.url()).href });
   return page.evaluate(async () => {
-    const r = await (window as unknown as { axe: { run: (d: Document, o: object) => Promise<{ violations: { id: string; impact: string; help: string; nodes: { target: string[] }[] }[] }> } }).axe.run(document, { resultTypes: ["violations"] });
-    return r.violations.filter((v) => v.impact === "serious" || v.impact === "critical").map((v) => `${v.impact} ${v.id}: ${v.help} — ${v.nodes.slice(0, 3).map((n) => n.target.join(" ")).join("; ")}`);
+    const r = await (
+      window as unknown as {
+        axe: { run: (d: Document, o: object) => Promise<{ violations: { id: string; impact: string; help: string; nodes: { target: string[] }[] }[] }> };
+      }
+    ).axe.run(document, { resultTypes: ["violations"] });
+    return r.violations
+      .filter((v) => v.impact === "serious" || v.impact === "critical")
+      .map(
+        (v) =>
+          `${v.impact} ${v.id}: ${v.help} — ${v.nodes
+            .slice(0, 3)
+            .map((n) => n.target.join(" "))
+            .join("; ")}`,
+      );
   });
 }
 
@@ -95,7 +122,9 @@ export async function serve(dir: string): Promise<{ origin: string; server: http
  */
 export async function startSite(): Promise<Site> {
   if (!existsSync(CHROMIUM)) {
-    throw new Error(`Browser tests need Chromium at ${CHROMIUM}, which is missing. Install Debian's package (apt-get install chromium; .ci/run does this) or point WAFERBOOK_CHROMIUM at a Chromium binary.`);
+    throw new Error(
+      `Browser tests need Chromium at ${CHROMIUM}, which is missing. Install Debian's package (apt-get install chromium; .ci/run does this) or point WAFERBOOK_CHROMIUM at a Chromium binary.`,
+    );
   }
   const dir = await demoSite();
   const { origin, server } = await serve(dir);
@@ -117,7 +146,9 @@ export async function startSite(): Promise<Site> {
   };
   await fs.mkdir(OUTPUT, { recursive: true });
   return {
-    dir, origin, browser,
+    dir,
+    origin,
+    browser,
     close: async () => {
       await browser.close();
       await new Promise((r) => server.close(r));

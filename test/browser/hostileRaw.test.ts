@@ -41,7 +41,9 @@ async function visit(origin: string, urls: string[]): Promise<{ ran: string[]; e
     if (r.url().includes("/__ran__")) ran.push(r.url());
     else if (!r.url().startsWith(origin) && !r.url().startsWith("data:")) outside.push(r.url());
   });
-  page.on("console", (m) => { if (m.type() === "error") errors.push(m.text()); });
+  page.on("console", (m) => {
+    if (m.type() === "error") errors.push(m.text());
+  });
   page.on("pageerror", (e) => errors.push(String(e)));
   for (const url of urls) {
     // A download ("Download is starting") is the expected end for an opaque copy.

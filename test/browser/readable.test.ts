@@ -23,7 +23,9 @@ const problems: string[] = [];
 
 async function open(url: string): Promise<Page> {
   const page = await ctx.newPage();
-  page.on("console", (m) => { if (m.type() === "error") problems.push(`${url}: ${m.text()}`); });
+  page.on("console", (m) => {
+    if (m.type() === "error") problems.push(`${url}: ${m.text()}`);
+  });
   page.on("pageerror", (e) => problems.push(`${url}: ${e.message}`));
   await page.addInitScript(() => document.addEventListener("securitypolicyviolation", (e) => console.error(`CSP: ${e.violatedDirective} ${e.blockedURI}`)));
   await page.goto(url, { waitUntil: "load" });
@@ -55,15 +57,18 @@ describe("charts (§3)", () => {
   it("log–log mobility chart: ticks at 1, 2, 5 per decade with readable labels, no point on the frame", async () => {
     const page = await wafer();
     const r = await page.evaluate(() => {
-      const chart = (window as unknown as { Chart: { getChart(c: Element): any } }).Chart.getChart(document.querySelector('canvas[data-chart="mobility-vs-density"]')!);
+      const chart = (window as unknown as { Chart: { getChart(c: Element): any } }).Chart.getChart(
+        document.querySelector('canvas[data-chart="mobility-vs-density"]')!,
+      );
       const axis = (k: string) => ({ values: chart.scales[k].ticks.map((t: any) => t.value), labels: chart.scales[k].ticks.map((t: any) => String(t.label)) });
       const a = chart.chartArea;
       const margins: number[] = [];
-      for (const ds of chart.data.datasets) for (const p of ds.data) {
-        const x = chart.scales.x.getPixelForValue(p.x);
-        const y = chart.scales.y.getPixelForValue(p.y);
-        margins.push(x - a.left, a.right - x, y - a.top, a.bottom - y);
-      }
+      for (const ds of chart.data.datasets)
+        for (const p of ds.data) {
+          const x = chart.scales.x.getPixelForValue(p.x);
+          const y = chart.scales.y.getPixelForValue(p.y);
+          margins.push(x - a.left, a.right - x, y - a.top, a.bottom - y);
+        }
       return { x: axis("x"), y: axis("y"), margins, types: [chart.scales.x.type, chart.scales.y.type] };
     });
     expect(r.types).toEqual(["logarithmic", "logarithmic"]);
@@ -89,19 +94,22 @@ describe("charts (§3)", () => {
     const select = page.locator('select[data-chart-view="traces-HB1"]');
     expect(await select.locator("option").count()).toBe(sweeps);
     expect(await page.locator(`label[for="${await select.getAttribute("id")}"]`).textContent()).toMatch(/Gate voltage/);
-    const read = () => page.evaluate(() => {
-      const chart = (window as unknown as { Chart: { getChart(c: Element): any } }).Chart.getChart(document.querySelector('canvas[data-chart="traces-HB1"]')!);
-      const rho = chart.data.datasets.find((d: any) => d.yAxisID === "y");
-      const rxy = chart.data.datasets.find((d: any) => d.yAxisID === "y2");
-      const ys = rho.data.map((p: any) => p.y);
-      return {
-        titles: [chart.scales.y.options.title.text, chart.scales.y2.options.title.text],
-        rhoSpan: (Math.max(...ys) - Math.min(...ys)) / (chart.scales.y.max - chart.scales.y.min),
-        first: ys.slice(0, 5).join(","),
-        rxyLast: rxy.data.at(-1).y,
-        caption: document.querySelector('[data-chart-view-caption="traces-HB1"]')!.textContent,
-      };
-    });
+    const read = () =>
+      page.evaluate(() => {
+        const chart = (window as unknown as { Chart: { getChart(c: Element): any } }).Chart.getChart(
+          document.querySelector('canvas[data-chart="traces-HB1"]')!,
+        );
+        const rho = chart.data.datasets.find((d: any) => d.yAxisID === "y");
+        const rxy = chart.data.datasets.find((d: any) => d.yAxisID === "y2");
+        const ys = rho.data.map((p: any) => p.y);
+        return {
+          titles: [chart.scales.y.options.title.text, chart.scales.y2.options.title.text],
+          rhoSpan: (Math.max(...ys) - Math.min(...ys)) / (chart.scales.y.max - chart.scales.y.min),
+          first: ys.slice(0, 5).join(","),
+          rxyLast: rxy.data.at(-1).y,
+          caption: document.querySelector('[data-chart-view-caption="traces-HB1"]')!.textContent,
+        };
+      });
     const before = await read();
     expect(before.titles).toEqual(["ρxx (Ω/□)", "|Rxy| (kΩ)"]);
     // ρxx fills its own axis (not a flat line on a shared one): it spans at least a third of it.
@@ -112,8 +120,15 @@ describe("charts (§3)", () => {
     expect(after.first).not.toBe(before.first);
     expect(after.caption).not.toBe(before.caption);
     const osc = await page.evaluate(() => {
-      const chart = (window as unknown as { Chart: { getChart(c: Element): any } }).Chart.getChart(document.querySelector('canvas[data-chart="depth-osc-HB1"]')!);
-      return { labels: chart.data.datasets.map((d: any) => d.label), x: chart.scales.x.options.title.text, n: chart.data.datasets.map((d: any) => d.data.length), views: document.querySelectorAll('select[data-chart-view="depth-osc-HB1"] option').length };
+      const chart = (window as unknown as { Chart: { getChart(c: Element): any } }).Chart.getChart(
+        document.querySelector('canvas[data-chart="depth-osc-HB1"]')!,
+      );
+      return {
+        labels: chart.data.datasets.map((d: any) => d.label),
+        x: chart.scales.x.options.title.text,
+        n: chart.data.datasets.map((d: any) => d.data.length),
+        views: document.querySelectorAll('select[data-chart-view="depth-osc-HB1"] option').length,
+      };
     });
     expect(osc.labels).toEqual(["ρxx − fitted background (data)", "Lifshitz–Kosevich fit"]);
     expect(osc.x).toMatch(/1\/B/);
@@ -124,20 +139,22 @@ describe("charts (§3)", () => {
   it("reciprocal-space maps: a smooth picture, a colour bar, ticks in nm⁻¹, the full-strain and full-relaxation lines labelled", async () => {
     const page = await wafer();
     const maps = await page.evaluate(async () =>
-      Promise.all([...document.querySelectorAll<SVGSVGElement>("svg.rsm-svg")].map(async (svg) => {
-        const href = svg.querySelector("image")!.getAttribute("href")!;
-        const img = new Image();
-        img.src = new URL(href, location.href).href;
-        await img.decode();
-        const texts = [...svg.querySelectorAll("text")].map((t) => (t.textContent ?? "").trim());
-        return {
-          size: [img.naturalWidth, img.naturalHeight],
-          ticks: texts.filter((t) => /^−?\d+(\.\d+)?$/.test(t)).length,
-          texts,
-          stops: svg.querySelectorAll("linearGradient stop").length,
-          title: svg.querySelector("title")!.textContent,
-        };
-      })),
+      Promise.all(
+        [...document.querySelectorAll<SVGSVGElement>("svg.rsm-svg")].map(async (svg) => {
+          const href = svg.querySelector("image")!.getAttribute("href")!;
+          const img = new Image();
+          img.src = new URL(href, location.href).href;
+          await img.decode();
+          const texts = [...svg.querySelectorAll("text")].map((t) => (t.textContent ?? "").trim());
+          return {
+            size: [img.naturalWidth, img.naturalHeight],
+            ticks: texts.filter((t) => /^−?\d+(\.\d+)?$/.test(t)).length,
+            texts,
+            stops: svg.querySelectorAll("linearGradient stop").length,
+            title: svg.querySelector("title")!.textContent,
+          };
+        }),
+      ),
     );
     expect(maps.length).toBe(2);
     for (const m of maps) {
@@ -164,8 +181,25 @@ describe("charts (§3)", () => {
         let ink = 0;
         for (let i = 3; i < d.length; i += 4) if (d[i] > 100) ink++;
         // Runs of paint along the middle row (dashes) and along the row 2–3 px from the top (the target band's edge).
-        const runs = (y: number) => { let n = 0, on = false; for (let x = 0; x < c.width; x++) { const a = d[4 * (y * c.width + x) + 3] > 100; if (a && !on) n++; on = a; } return n; };
-        return { text: it.text, line: ds ? !!ds.showLine : null, dashed: ds ? (ds.borderDash ?? []).length > 0 : null, radius: ds?.pointRadius ?? null, ink, mid: runs(Math.floor(c.height / 2)), edge: runs(2) };
+        const runs = (y: number) => {
+          let n = 0,
+            on = false;
+          for (let x = 0; x < c.width; x++) {
+            const a = d[4 * (y * c.width + x) + 3] > 100;
+            if (a && !on) n++;
+            on = a;
+          }
+          return n;
+        };
+        return {
+          text: it.text,
+          line: ds ? !!ds.showLine : null,
+          dashed: ds ? (ds.borderDash ?? []).length > 0 : null,
+          radius: ds?.pointRadius ?? null,
+          ink,
+          mid: runs(Math.floor(c.height / 2)),
+          edge: runs(2),
+        };
       });
     });
     const target = items.find((i: any) => /^target/.test(i.text));
@@ -188,14 +222,16 @@ describe("charts (§3)", () => {
 describe("figures (§3)", () => {
   it("wafer-map labels are at least 11 px at 1280 px, and each map has a colour bar with range and unit", async () => {
     const page = await wafer();
-    const maps = await page.evaluate(() => [...document.querySelectorAll<SVGSVGElement>("svg.wafer-map")].map((svg) => {
-      const scale = svg.getBoundingClientRect().width / svg.viewBox.baseVal.width;
-      return {
-        sizes: [...svg.querySelectorAll("text")].map((t) => Number(t.getAttribute("font-size")) * scale),
-        bar: !!svg.querySelector('.wafer-legend rect[fill^="url("]'),
-        legend: [...svg.querySelectorAll(".wafer-legend text")].map((t) => t.textContent),
-      };
-    }));
+    const maps = await page.evaluate(() =>
+      [...document.querySelectorAll<SVGSVGElement>("svg.wafer-map")].map((svg) => {
+        const scale = svg.getBoundingClientRect().width / svg.viewBox.baseVal.width;
+        return {
+          sizes: [...svg.querySelectorAll("text")].map((t) => Number(t.getAttribute("font-size")) * scale),
+          bar: !!svg.querySelector('.wafer-legend rect[fill^="url("]'),
+          legend: [...svg.querySelectorAll(".wafer-legend text")].map((t) => t.textContent),
+        };
+      }),
+    );
     expect(maps.length).toBeGreaterThanOrEqual(2);
     for (const m of maps) {
       expect(Math.min(...m.sizes)).toBeGreaterThanOrEqual(11);
@@ -215,11 +251,13 @@ describe("figures (§3)", () => {
           if (t.hasAttribute("transform")) {
             // Rotated axis titles: their box on screen against the figure's.
             const r = t.getBoundingClientRect();
-            if (r.left < frame.left - 0.5 || r.right > frame.right + 0.5 || r.top < frame.top - 0.5 || r.bottom > frame.bottom + 0.5) bad.push(`${svg.getAttribute("class")}: "${t.textContent}"`);
+            if (r.left < frame.left - 0.5 || r.right > frame.right + 0.5 || r.top < frame.top - 0.5 || r.bottom > frame.bottom + 0.5)
+              bad.push(`${svg.getAttribute("class")}: "${t.textContent}"`);
             continue;
           }
           const b = t.getBBox();
-          if (b.x < vb.x - 0.5 || b.y < vb.y - 0.5 || b.x + b.width > vb.x + vb.width + 0.5 || b.y + b.height > vb.y + vb.height + 0.5) bad.push(`${svg.getAttribute("class")}: "${t.textContent}" at ${b.x.toFixed(1)}…${(b.x + b.width).toFixed(1)} of ${vb.width}`);
+          if (b.x < vb.x - 0.5 || b.y < vb.y - 0.5 || b.x + b.width > vb.x + vb.width + 0.5 || b.y + b.height > vb.y + vb.height + 0.5)
+            bad.push(`${svg.getAttribute("class")}: "${t.textContent}" at ${b.x.toFixed(1)}…${(b.x + b.width).toFixed(1)} of ${vb.width}`);
         }
       }
       return bad;
@@ -233,22 +271,38 @@ describe("figures (§3)", () => {
 describe("pages for reading and for paper (§4)", () => {
   it("'On this page' lists the sections, and every entry leads to one", async () => {
     const page = await wafer();
-    const r = await page.evaluate(() => [...document.querySelectorAll<HTMLAnchorElement>("nav.on-this-page a")].map((a) => ({ id: a.hash.slice(1), ok: !!document.getElementById(a.hash.slice(1)) })));
+    const r = await page.evaluate(() =>
+      [...document.querySelectorAll<HTMLAnchorElement>("nav.on-this-page a")].map((a) => ({
+        id: a.hash.slice(1),
+        ok: !!document.getElementById(a.hash.slice(1)),
+      })),
+    );
     expect(r.filter((e) => !e.ok)).toEqual([]);
-    expect(r.map((e) => e.id)).toEqual(expect.arrayContaining(["summary", "metrics", "transport", "uniformity", "structure", "images", "notes", "appendix", "provenance", "history"]));
+    expect(r.map((e) => e.id)).toEqual(
+      expect.arrayContaining(["summary", "metrics", "transport", "uniformity", "structure", "images", "notes", "appendix", "provenance", "history"]),
+    );
   });
 
   it("a wafer report prints on at most 4 A4 pages without navigation, with its provenance footer; the appendix is left out with a note saying so", async () => {
     // The wafer with every section and the demo wafer with the largest page (most tables and reasons).
-    const sizes = await Promise.all((await fs.readdir(path.join(site.dir, "wafers"))).map(async (id) => ({ id, bytes: (await fs.stat(path.join(site.dir, "wafers", id, "index.html"))).size })));
-    const largest = sizes.sort((a, b) => b.bytes - a.bytes).slice(0, 1).map((s) => s.id);
+    const sizes = await Promise.all(
+      (await fs.readdir(path.join(site.dir, "wafers"))).map(async (id) => ({
+        id,
+        bytes: (await fs.stat(path.join(site.dir, "wafers", id, "index.html"))).size,
+      })),
+    );
+    const largest = sizes
+      .sort((a, b) => b.bytes - a.bytes)
+      .slice(0, 1)
+      .map((s) => s.id);
     // WAFER's shared page goes last to print: nothing reads it after this test.
     for (const id of new Set([...largest.filter((l) => l !== WAFER), WAFER])) {
       const page = id === WAFER ? await wafer() : await open(waferUrl(id));
       await page.emulateMedia({ media: "print" });
       expect(await page.isVisible(".print-note")).toBe(true);
       expect(await page.textContent(".print-note")).toMatch(/Left out of the printed report/);
-      for (const sel of ["#appendix-sweeps", "#transport-depth", "#history", "nav.on-this-page"]) expect(await page.isVisible(sel), `${id}: ${sel} printed`).toBe(false);
+      for (const sel of ["#appendix-sweeps", "#transport-depth", "#history", "nav.on-this-page"])
+        expect(await page.isVisible(sel), `${id}: ${sel} printed`).toBe(false);
       expect(await page.isVisible("#metrics")).toBe(true);
       // A report, not a screen: no navigation or search; the footer and provenance print. A wafer page's footer
       // names the waferbook version, not a build time (pages are reused unchanged: docs/scaling.md).
@@ -268,11 +322,13 @@ describe("pages for reading and for paper (§4)", () => {
 
   it("search results show a snippet around the match with the matched words marked, built from text nodes", async () => {
     const page = await open(`${site.origin}/search/?q=buffer`);
-    const r = await page.evaluate(() => [...document.querySelectorAll("#search-results .snippet")].map((p) => ({
-      marks: [...p.querySelectorAll("mark")].map((m) => (m.textContent ?? "").toLowerCase()),
-      elements: [...p.children].map((c) => c.tagName),
-      length: (p.textContent ?? "").length,
-    })));
+    const r = await page.evaluate(() =>
+      [...document.querySelectorAll("#search-results .snippet")].map((p) => ({
+        marks: [...p.querySelectorAll("mark")].map((m) => (m.textContent ?? "").toLowerCase()),
+        elements: [...p.children].map((c) => c.tagName),
+        length: (p.textContent ?? "").length,
+      })),
+    );
     expect(r.length).toBeGreaterThanOrEqual(1);
     for (const s of r) {
       expect(s.marks.length).toBeGreaterThanOrEqual(1);

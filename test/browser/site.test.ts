@@ -43,7 +43,12 @@ const LEGEND_WAFER = "/wafers/TQ-2501/";
 let legend: LegendReport | undefined;
 const AXE_PAGES = new Set(["/", "/trends/", "/trends/peak_mobility/", "/targets/", "/changes/", LEGEND_WAFER]);
 
-interface LegendReport { judged: string[]; other: string[]; legend: { word: string; shape: string; meaning: string }[]; legendVisible: boolean }
+interface LegendReport {
+  judged: string[];
+  other: string[];
+  legend: { word: string; shape: string; meaning: string }[];
+  legendVisible: boolean;
+}
 
 async function openAll(page: Page): Promise<void> {
   await page.evaluate(() => document.querySelectorAll("details").forEach((d) => (d.open = true)));
@@ -52,16 +57,24 @@ async function openAll(page: Page): Promise<void> {
 /** The verdict words of a wafer page's tables and its legend (folded groups opened first). */
 async function legendReport(page: Page): Promise<LegendReport> {
   return page.evaluate(() => {
-    const legend = [...document.querySelectorAll("#verdict-legend dt .verdict")].map((v) => ({ word: (v.textContent ?? "").trim(), shape: v.querySelector("svg")!.innerHTML.replace(/\s+/g, " "), meaning: (v.closest("div")!.querySelector("dd")!.textContent ?? "").trim() }));
+    const legend = [...document.querySelectorAll("#verdict-legend dt .verdict")].map((v) => ({
+      word: (v.textContent ?? "").trim(),
+      shape: v.querySelector("svg")!.innerHTML.replace(/\s+/g, " "),
+      meaning: (v.closest("div")!.querySelector("dd")!.textContent ?? "").trim(),
+    }));
     // No named helpers inside evaluate: the test transform may wrap them in a helper the page does not have.
-    return { judged: [...document.querySelectorAll("#metrics > .table-wrap table .verdict")].map((v) => (v.textContent ?? "").trim()), other: [...document.querySelectorAll("#other-figures table .verdict")].map((v) => (v.textContent ?? "").trim()), legend, legendVisible: !!document.querySelector("#verdict-legend summary")?.textContent?.trim() };
+    return {
+      judged: [...document.querySelectorAll("#metrics > .table-wrap table .verdict")].map((v) => (v.textContent ?? "").trim()),
+      other: [...document.querySelectorAll("#other-figures table .verdict")].map((v) => (v.textContent ?? "").trim()),
+      legend,
+      legendVisible: !!document.querySelector("#verdict-legend summary")?.textContent?.trim(),
+    };
   });
 }
 
 /** Path and query of a URL: the crawl's page key (a folder and its index.html are one page: links name index.html so the site opens from disk). */
 const keyOf = (u: URL) => u.pathname.replace(/\/index\.html$/, "/") + u.search;
 const isPage = (u: URL) => u.pathname.endsWith("/") || u.pathname.endsWith(".html");
-
 
 async function settle(page: Page): Promise<void> {
   await page.evaluate(() => new Promise<void>((r) => requestAnimationFrame(() => requestAnimationFrame(() => r()))));
@@ -76,7 +89,10 @@ async function visit(page: Page, url: URL, queue: URL[]): Promise<void> {
     ids: [...document.querySelectorAll("[id]")].map((e) => e.id),
     links: [...document.querySelectorAll<HTMLAnchorElement>("a[href]")].map((a) => a.href),
     forms: [...document.querySelectorAll<HTMLFormElement>("form[action]")].map((f) => f.action),
-    verdicts: [...document.querySelectorAll(".verdict")].map((v) => ({ text: (v.textContent ?? "").trim(), shapes: v.querySelectorAll("svg circle, svg path, svg rect, svg polygon, svg ellipse").length })),
+    verdicts: [...document.querySelectorAll(".verdict")].map((v) => ({
+      text: (v.textContent ?? "").trim(),
+      shapes: v.querySelectorAll("svg circle, svg path, svg rect, svg polygon, svg ellipse").length,
+    })),
   }));
   // Ink is read from each canvas's own pixels (getImageData, composited over the white page as a
   // screenshot would show them): the same count as a screenshot of the element, without one per chart.
@@ -84,7 +100,9 @@ async function visit(page: Page, url: URL, queue: URL[]): Promise<void> {
     [...document.querySelectorAll("canvas")].map((el) => {
       const label = el.getAttribute("data-chart") ?? el.getAttribute("aria-label") ?? "canvas";
       // A text alternative: role="img" with a label, or a sibling table/summary inside the figure.
-      const alt = (el.getAttribute("role") === "img" && (el.getAttribute("aria-label") ?? "").trim().length > 10) || !!el.closest("figure")?.querySelector("table, .sr-only");
+      const alt =
+        (el.getAttribute("role") === "img" && (el.getAttribute("aria-label") ?? "").trim().length > 10) ||
+        !!el.closest("figure")?.querySelector("table, .sr-only");
       let ink = 0;
       const g = el.width > 0 && el.height > 0 ? el.getContext("2d") : null;
       if (g) {
@@ -135,10 +153,16 @@ async function crawl(): Promise<void> {
   const quiet = async () => {
     for (let i = 0; i < 100 && inFlight > 0; i++) await page.waitForTimeout(50);
   };
-  page.on("console", (m) => { if (m.type() === "error") consoleErrors.push(`${current}: ${m.text()}`); });
+  page.on("console", (m) => {
+    if (m.type() === "error") consoleErrors.push(`${current}: ${m.text()}`);
+  });
   page.on("pageerror", (e) => consoleErrors.push(`${current}: ${e.message}`));
-  page.on("requestfailed", (r) => { if (r.url().startsWith(site.origin)) failed.push(`${current}: ${r.url()} (${r.failure()?.errorText})`); });
-  page.on("response", (r) => { if (r.status() >= 400) failed.push(`${current}: ${r.url()} HTTP ${r.status()}`); });
+  page.on("requestfailed", (r) => {
+    if (r.url().startsWith(site.origin)) failed.push(`${current}: ${r.url()} (${r.failure()?.errorText})`);
+  });
+  page.on("response", (r) => {
+    if (r.status() >= 400) failed.push(`${current}: ${r.url()} HTTP ${r.status()}`);
+  });
   const queue: URL[] = [new URL("/", site.origin)];
   while (queue.length) {
     const u = queue.shift()!;
@@ -213,10 +237,14 @@ describe("crawl of every page reachable from the index", () => {
     const bad: string[] = [];
     // A few requests at a time (the server answers HEAD from the file's size alone).
     const limit = pLimit(6);
-    await Promise.all([...otherLinks].map(([url, from]) => limit(async () => {
-      const r = await fetch(url, { method: "HEAD" });
-      if (r.status !== 200) bad.push(`${from} → ${url}: ${r.status}`);
-    })));
+    await Promise.all(
+      [...otherLinks].map(([url, from]) =>
+        limit(async () => {
+          const r = await fetch(url, { method: "HEAD" });
+          if (r.status !== 200) bad.push(`${from} → ${url}: ${r.status}`);
+        }),
+      ),
+    );
     expect(otherLinks.size).toBeGreaterThan(0);
     expect(bad.sort()).toEqual([]);
   });
@@ -277,7 +305,9 @@ describe("verdict states (issue 15): a word, a shape of their own and a legend; 
 async function unreachedByTab(page: Page): Promise<string[]> {
   const total = await page.evaluate(() => {
     const sel = "a[href], button, input:not([type=hidden]), select, textarea, summary, [tabindex]:not([tabindex='-1'])";
-    const els = [...document.querySelectorAll<HTMLElement>(sel)].filter((e) => !(e as HTMLButtonElement).disabled && e.getClientRects().length > 0 && getComputedStyle(e).visibility !== "hidden");
+    const els = [...document.querySelectorAll<HTMLElement>(sel)].filter(
+      (e) => !(e as HTMLButtonElement).disabled && e.getClientRects().length > 0 && getComputedStyle(e).visibility !== "hidden",
+    );
     els.forEach((e, i) => e.setAttribute("data-kb", String(i)));
     (document.activeElement as HTMLElement | null)?.blur();
     return els.length;
@@ -358,7 +388,11 @@ describe("wafer table", () => {
     await page.fill("#f-text", first);
     expect(await visibleIds()).toContain(first);
     // Exactly the rows whose text holds the term (case-blind) stay visible; the term must leave some rows out, or a filter that does nothing would pass.
-    const holding = await page.$$eval("#wafer-table tbody tr", (rs, t) => rs.filter((r) => (r.textContent ?? "").toLowerCase().includes(t)).map((r) => r.querySelector("th a")?.textContent ?? ""), first.toLowerCase());
+    const holding = await page.$$eval(
+      "#wafer-table tbody tr",
+      (rs, t) => rs.filter((r) => (r.textContent ?? "").toLowerCase().includes(t)).map((r) => r.querySelector("th a")?.textContent ?? ""),
+      first.toLowerCase(),
+    );
     expect(holding.length).toBeGreaterThan(0);
     expect(holding.length).toBeLessThan(grown.length);
     expect(await visibleIds()).toEqual(holding);
@@ -410,7 +444,10 @@ describe("screenshots", () => {
     // One page per URL, narrowed after the wide shot (the layout and the charts follow the viewport, as on a turned phone).
     const ctx = await site.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await ctx.newPage();
-    for (const [name, url] of [["index", `${site.origin}/`], ["wafer", waferUrl]] as const) {
+    for (const [name, url] of [
+      ["index", `${site.origin}/`],
+      ["wafer", waferUrl],
+    ] as const) {
       await page.setViewportSize({ width: 1280, height: 900 });
       await page.goto(url, { waitUntil: "load" });
       for (const width of [1280, 390]) {

@@ -19,7 +19,14 @@ describe("waferbook build options", () => {
     expect(build()).toEqual({ data: "data", out: "site", strict: false, basePath: "", quiet: false, cache: undefined });
   });
   it("every option, separate and inline values", () => {
-    expect(build("--data", "d", "--out=o", "--strict", "--base", "qual", "--quiet", "--cache", "c")).toEqual({ data: "d", out: "o", strict: true, basePath: "/qual/", quiet: true, cache: "c" });
+    expect(build("--data", "d", "--out=o", "--strict", "--base", "qual", "--quiet", "--cache", "c")).toEqual({
+      data: "d",
+      out: "o",
+      strict: true,
+      basePath: "/qual/",
+      quiet: true,
+      cache: "c",
+    });
   });
   it("--cache and --no-cache: the later one wins", () => {
     expect(build("--cache", "c", "--no-cache").cache).toBeNull();
@@ -110,7 +117,13 @@ describe("an internal error", () => {
   it("in a build exits 70 with the stack trace, and says the previous site is untouched", async () => {
     vi.resetModules();
     class Stopped extends Error {}
-    vi.doMock("../../src/cli/build.ts", () => ({ build: async () => { throw new TypeError("a bug for the test"); }, BuildStoppedError: Stopped, BuildLockedError: class extends Stopped {} }));
+    vi.doMock("../../src/cli/build.ts", () => ({
+      build: async () => {
+        throw new TypeError("a bug for the test");
+      },
+      BuildStoppedError: Stopped,
+      BuildLockedError: class extends Stopped {},
+    }));
     const { main } = await import("../../src/cli/main.ts");
     const write = process.stderr.write;
     const captured: string[] = [];

@@ -44,10 +44,24 @@ function handSite() {
     const data = path.join(tmp, "hand");
     await fs.mkdir(path.join(data, "wafers", "HAND-1", "sweeps"), { recursive: true });
     await fs.writeFile(path.join(data, "targets.yaml"), 'default_grade: qubit\ngrades:\n  qubit:\n    peak_mobility: { min: "1.0e5 cm^2/(V s)" }\n');
-    await fs.writeFile(path.join(data, "wafers", "HAND-1", "wafer.md"), `---\nwafer: HAND-1\nrun: R1\ngrown: 2025-01-15\ndevices:\n  - id: D1\n    geometry: hall-bar\n    length_um: 80\n    width_um: 20\n    files: "sweeps/*.csv"\n---\nHand-made record.\n`);
+    await fs.writeFile(
+      path.join(data, "wafers", "HAND-1", "wafer.md"),
+      `---\nwafer: HAND-1\nrun: R1\ngrown: 2025-01-15\ndevices:\n  - id: D1\n    geometry: hall-bar\n    length_um: 80\n    width_um: 20\n    files: "sweeps/*.csv"\n---\nHand-made record.\n`,
+    );
     // Known truth: n = (1, 2, 3)e11 cm⁻², μ = (0.8, 1.5, 1.2)e5 cm²/Vs at Vg = 0.6, 0.8, 1.0 V.
     for (const [i, [vg, n, mu]] of HAND_TRUTH.entries()) {
-      const rows = hallSweepRows({ density: n, mobility: mu, geometry: "hall-bar", length_um: 80, width_um: 20, maxField: 0.5, points: 201, misalignment: 0.02, noise: 1e-4, seed: 100 + i });
+      const rows = hallSweepRows({
+        density: n,
+        mobility: mu,
+        geometry: "hall-bar",
+        length_um: 80,
+        width_um: 20,
+        maxField: 0.5,
+        points: 201,
+        misalignment: 0.02,
+        noise: 1e-4,
+        seed: 100 + i,
+      });
       await fs.writeFile(path.join(data, "wafers", "HAND-1", "sweeps", `g${i}.csv`), formatSweep({ gate: `${vg} V` }, rows, "\t"));
     }
     const site = path.join(tmp, "hand-site");
@@ -55,7 +69,11 @@ function handSite() {
   })();
   return hand;
 }
-const HAND_TRUTH = [[0.6, 1e15, 8], [0.8, 2e15, 15], [1.0, 3e15, 12]];
+const HAND_TRUTH = [
+  [0.6, 1e15, 8],
+  [0.8, 2e15, 15],
+  [1.0, 3e15, 12],
+];
 
 describe("waferbook build on the demo data", () => {
   it("exits 0, prints one line per problem and a summary", () => {
@@ -83,7 +101,9 @@ describe("waferbook build on the demo data", () => {
       }
       for (const d of results.devices) {
         for (const p of d.points) {
-          expect(Object.keys(p)).toEqual(expect.arrayContaining(["gate_V", "density_per_cm2", "mobility_cm2_per_Vs", "sheet_resistance_ohm_per_sq", "hall_fit_r2"]));
+          expect(Object.keys(p)).toEqual(
+            expect.arrayContaining(["gate_V", "density_per_cm2", "mobility_cm2_per_Vs", "sheet_resistance_ohm_per_sq", "hall_fit_r2"]),
+          );
         }
       }
     }
@@ -113,7 +133,10 @@ describe("exit codes and the previous site", () => {
   it("--strict exits 1 when input errors were found", async () => {
     // The demo's broken wafer (TQ-2404) beside a healthy one: the same input error as in the full demo, at a fraction of the build.
     const data = path.join(tmp, "strict-data");
-    await fs.cp(path.join(root, "data"), data, { recursive: true, filter: (src) => !src.includes(`${path.sep}wafers${path.sep}`) || ["TQ-2401", "TQ-2404"].some((w) => src.includes(`${path.sep}wafers${path.sep}${w}`)) });
+    await fs.cp(path.join(root, "data"), data, {
+      recursive: true,
+      filter: (src) => !src.includes(`${path.sep}wafers${path.sep}`) || ["TQ-2401", "TQ-2404"].some((w) => src.includes(`${path.sep}wafers${path.sep}${w}`)),
+    });
     const r = await waferbook(["build", "--data", data, "--out", path.join(tmp, "strict"), "--strict"]);
     expect(r.code).toBe(1);
     expect(r.stderr).toMatch(/--strict: 1 input error \(listed above\)/);

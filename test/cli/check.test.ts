@@ -21,11 +21,13 @@ function capture(): CommandIO & { stdout: string[]; stderr: string[] } {
 
 /** Every file and folder under dir with its size and modification time: any write shows. */
 function snapshot(dir: string): string[] {
-  return readdirSync(dir, { recursive: true, withFileTypes: true }).map((e) => {
-    const p = path.join(e.parentPath, e.name);
-    const st = statSync(p);
-    return `${path.relative(dir, p)} ${st.size} ${st.mtimeMs}`;
-  }).sort();
+  return readdirSync(dir, { recursive: true, withFileTypes: true })
+    .map((e) => {
+      const p = path.join(e.parentPath, e.name);
+      const st = statSync(p);
+      return `${path.relative(dir, p)} ${st.size} ${st.mtimeMs}`;
+    })
+    .sort();
 }
 
 let root = "";
@@ -73,7 +75,9 @@ describe("waferbook check", () => {
     expect(await checkCommand(["--data", dir], io)).toBe(1);
     const lines = io.stdout.slice(0, -1);
     const fileOf = (l: string) => l.slice(0, l.search(/[:]/));
-    expect(new Set(lines.map(fileOf))).toEqual(new Set(["targets.yaml", "analysis.yaml", "runs/bad..name.md", "wafers/example-01/transport/HB1/vg_0p90V.csv", "wafers/example-02/wafer.md"]));
+    expect(new Set(lines.map(fileOf))).toEqual(
+      new Set(["targets.yaml", "analysis.yaml", "runs/bad..name.md", "wafers/example-01/transport/HB1/vg_0p90V.csv", "wafers/example-02/wafer.md"]),
+    );
     expect(lines.find((l) => l.startsWith("targets.yaml"))).toMatch(/kg/);
     expect(lines.find((l) => l.startsWith("analysis.yaml"))).toMatch(/hall_max_feild.*hall_max_field/);
     expect(lines.find((l) => l.startsWith("wafers/example-01/"))).toMatch(/^wafers\/example-01\/transport\/HB1\/vg_0p90V\.csv:21:.*OVLD/); // lines[20] is line 21
@@ -88,7 +92,12 @@ describe("waferbook check", () => {
       f.set("wafers/example-01/wafer.md", f.get("wafers/example-01/wafer.md")!.replace("# grade: test ", "grade: qbit   "));
     });
     const waiver = await fixture((f) => {
-      f.set("wafers/example-01/wafer.md", f.get("wafers/example-01/wafer.md")!.replace("\n---\n\nAn example", "\nwaivers:\n  - { metric: peak_mobilty, reason: \"r\", approved_by: \"A. B.\", date: 2025-01-20 }\n---\n\nAn example"));
+      f.set(
+        "wafers/example-01/wafer.md",
+        f
+          .get("wafers/example-01/wafer.md")!
+          .replace("\n---\n\nAn example", '\nwaivers:\n  - { metric: peak_mobilty, reason: "r", approved_by: "A. B.", date: 2025-01-20 }\n---\n\nAn example'),
+      );
     });
     const at = async (dir: string) => (await checkData(dir, "2026-01-01")).problems.map((p) => `${p.file} ${p.field} ${p.severity}`);
     expect(await at(grade)).toEqual(["wafers/example-01/wafer.md grade error"]);
@@ -99,7 +108,14 @@ describe("waferbook check", () => {
     const dir = await fixture((f) => {
       const sweep = "wafers/example-01/transport/HB1/vg_0p50V.csv";
       // Keep the header lines and the rows with B ≥ 0 only: one field sign.
-      f.set(sweep, f.get(sweep)!.split("\n").filter((l) => !l.startsWith("-")).join("\n"));
+      f.set(
+        sweep,
+        f
+          .get(sweep)!
+          .split("\n")
+          .filter((l) => !l.startsWith("-"))
+          .join("\n"),
+      );
     });
     const io = capture();
     expect(await checkCommand(["--data", dir], io)).toBe(0);
@@ -136,11 +152,16 @@ describe("waferbook check", () => {
     cpSync(path.join(PACKAGE_ROOT, "data"), data, { recursive: true });
     const before = snapshot(data);
     const started = performance.now();
-    const r = await promisify(execFile)(process.execPath, [path.join(PACKAGE_ROOT, "bin", "waferbook.js"), "check", "--data", data], { cwd, timeout: 120_000 }).then(
+    const r = await promisify(execFile)(process.execPath, [path.join(PACKAGE_ROOT, "bin", "waferbook.js"), "check", "--data", data], {
+      cwd,
+      timeout: 120_000,
+    }).then(
       (x) => ({ code: 0, ...x }),
       (e: { code: number; stdout: string; stderr: string }) => e,
     );
-    console.log(`check on the demo: ${((performance.now() - started) / 1000).toFixed(1)} s wall (process start included); ${r.stdout.trim().split("\n").at(-1)}`);
+    console.log(
+      `check on the demo: ${((performance.now() - started) / 1000).toFixed(1)} s wall (process start included); ${r.stdout.trim().split("\n").at(-1)}`,
+    );
     expect(r.code).toBe(1);
     expect(r.stderr).toBe("");
     const lines = r.stdout.trim().split("\n");

@@ -25,7 +25,10 @@ const WAFER = "OK-1";
 async function cli(args: string[]): Promise<{ code: number; out: string[]; err: string[] }> {
   const out: string[] = [];
   const err: string[] = [];
-  const code = await runBuild({ data: "", out: "", strict: false, basePath: "", quiet: true, ...(parseArgs(["build", ...args]) as { options: object }).options }, { out: (s) => out.push(s), err: (s) => err.push(s) });
+  const code = await runBuild(
+    { data: "", out: "", strict: false, basePath: "", quiet: true, ...(parseArgs(["build", ...args]) as { options: object }).options },
+    { out: (s) => out.push(s), err: (s) => err.push(s) },
+  );
   return { code, out, err };
 }
 
@@ -75,7 +78,11 @@ const TRICKS: { name: string; forge: (p: Page) => void; found: RegExp }[] = [
     },
     found: /wafers\/OK-1\/evil\.js, which waferbook never draws/,
   },
-  { name: "an event handler in the notes", forge: inModel((m) => (m.notesHtml = `<p onmouseover="alert(1)">x</p>`)), found: /notesHtml: the attribute onmouseover/ },
+  {
+    name: "an event handler in the notes",
+    forge: inModel((m) => (m.notesHtml = `<p onmouseover="alert(1)">x</p>`)),
+    found: /notesHtml: the attribute onmouseover/,
+  },
   {
     name: "a javascript: link among the raw files",
     forge: inModel((m) => ((m.files as { href: string }[])[0].href = "javascript:alert(1)")),
@@ -91,7 +98,11 @@ const TRICKS: { name: string; forge: (p: Page) => void; found: RegExp }[] = [
   },
   {
     name: "an HTML page beside the wafer page",
-    forge: (p) => p.files.push({ path: `wafers/${WAFER}/images/a.png`, bytes: Buffer.from('<!doctype html><meta http-equiv="refresh" content="0"><script>alert(1)</script>') }),
+    forge: (p) =>
+      p.files.push({
+        path: `wafers/${WAFER}/images/a.png`,
+        bytes: Buffer.from('<!doctype html><meta http-equiv="refresh" content="0"><script>alert(1)</script>'),
+      }),
     found: /images\/a\.png is not a PNG picture/,
   },
 ];

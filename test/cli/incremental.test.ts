@@ -24,7 +24,10 @@ const tempDir = useTempDir("incr");
 async function demoCopy(name: string): Promise<string> {
   const data = path.join(tempDir(), name);
   const sep = path.sep;
-  await fs.cp(path.join(PACKAGE_ROOT, "data"), data, { recursive: true, filter: (src) => !src.includes(`${sep}wafers${sep}`) || WAFERS.some((w) => src.includes(`${sep}wafers${sep}${w}`)) });
+  await fs.cp(path.join(PACKAGE_ROOT, "data"), data, {
+    recursive: true,
+    filter: (src) => !src.includes(`${sep}wafers${sep}`) || WAFERS.some((w) => src.includes(`${sep}wafers${sep}${w}`)),
+  });
   return data;
 }
 
@@ -32,7 +35,13 @@ async function tree(dir: string, sub = "", out = new Map<string, string>()): Pro
   for (const e of (await fs.readdir(path.join(dir, sub), { withFileTypes: true })).sort((a, b) => (a.name < b.name ? -1 : 1))) {
     const rel = sub ? `${sub}/${e.name}` : e.name;
     if (e.isDirectory()) await tree(dir, rel, out);
-    else out.set(rel, createHash("sha256").update((await fs.readFile(path.join(dir, rel), "utf8")).replace(/<p>Built [0-9TZ:-]+ by/g, "<p>Built STAMP by")).digest("hex"));
+    else
+      out.set(
+        rel,
+        createHash("sha256")
+          .update((await fs.readFile(path.join(dir, rel), "utf8")).replace(/<p>Built [0-9TZ:-]+ by/g, "<p>Built STAMP by"))
+          .digest("hex"),
+      );
   }
   return out;
 }
@@ -45,10 +54,25 @@ async function expectSameSite(incremental: string, fresh: string): Promise<void>
   expect(differing).toEqual([]);
 }
 
-const at = (data: string, out: string, fresh = false) => ({ data, out, strict: false, basePath: "", quiet: true, cache: fresh ? null : path.join(tempDir(), `${path.basename(out)}-cache`) });
+const at = (data: string, out: string, fresh = false) => ({
+  data,
+  out,
+  strict: false,
+  basePath: "",
+  quiet: true,
+  cache: fresh ? null : path.join(tempDir(), `${path.basename(out)}-cache`),
+});
 
 async function commitAll(data: string, message: string): Promise<void> {
-  const env = { ...process.env, GIT_AUTHOR_NAME: "Test Grower", GIT_AUTHOR_EMAIL: "grower@example.invalid", GIT_COMMITTER_NAME: "Test Grower", GIT_COMMITTER_EMAIL: "grower@example.invalid", GIT_AUTHOR_DATE: "2026-05-01T10:00:00Z", GIT_COMMITTER_DATE: "2026-05-01T10:00:00Z" };
+  const env = {
+    ...process.env,
+    GIT_AUTHOR_NAME: "Test Grower",
+    GIT_AUTHOR_EMAIL: "grower@example.invalid",
+    GIT_COMMITTER_NAME: "Test Grower",
+    GIT_COMMITTER_EMAIL: "grower@example.invalid",
+    GIT_AUTHOR_DATE: "2026-05-01T10:00:00Z",
+    GIT_COMMITTER_DATE: "2026-05-01T10:00:00Z",
+  };
   await git("git", ["add", "-A"], { cwd: data, env });
   await git("git", ["commit", "-q", "-m", message], { cwd: data, env });
 }
@@ -105,8 +129,14 @@ describe("incremental builds reuse unchanged wafer pages and match a fresh build
     // The CLI in a child process, so the batch size (read when the module loads) can be set: 3 wafers in batches of 2
     // (two runs, the last one short). It takes the analyses from the first build's cache (what is compared here is
     // rendering) and, writing into a new folder, draws every page again.
-    const r = await git(process.execPath, [path.join(PACKAGE_ROOT, "bin", "waferbook.js"), "build", "--data", data, "--out", batched, "--cache", cache, "--quiet"], { env: { ...process.env, CI: "true", WAFERBOOK_PAGES_PER_RENDER: "2" } });
-    expect(r.stdout).toContain(`analysed 0 wafers (${WAFERS.length} from the cache); drew ${WAFERS.length} pages (0 from the cache, 0 reused from the previous site)`);
+    const r = await git(
+      process.execPath,
+      [path.join(PACKAGE_ROOT, "bin", "waferbook.js"), "build", "--data", data, "--out", batched, "--cache", cache, "--quiet"],
+      { env: { ...process.env, CI: "true", WAFERBOOK_PAGES_PER_RENDER: "2" } },
+    );
+    expect(r.stdout).toContain(
+      `analysed 0 wafers (${WAFERS.length} from the cache); drew ${WAFERS.length} pages (0 from the cache, 0 reused from the previous site)`,
+    );
     await expectSameSite(batched, one);
   }, 600_000);
 

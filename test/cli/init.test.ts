@@ -68,7 +68,9 @@ describe("waferbook init <folder>", () => {
 
   it("explains its settings: targets.yaml and analysis.yaml are commented", () => {
     for (const f of ["data/targets.yaml", "data/analysis.yaml"]) {
-      const comments = readFileSync(path.join(repo, f), "utf8").split("\n").filter((l) => /^\s*#/.test(l));
+      const comments = readFileSync(path.join(repo, f), "utf8")
+        .split("\n")
+        .filter((l) => /^\s*#/.test(l));
       expect(comments.length, f).toBeGreaterThan(5);
     }
   });
@@ -157,7 +159,10 @@ function documentedCommands(): string[] {
   const doc = readFileSync(path.join(PACKAGE_ROOT, "docs", "publishing.md"), "utf8");
   const block = /<!-- ci-commands -->\s*```sh\n([\s\S]*?)```/.exec(doc);
   if (!block) throw new Error("docs/publishing.md has no <!-- ci-commands --> block");
-  return block[1].split("\n").map((l) => l.trim()).filter((l) => l.startsWith("npx waferbook"));
+  return block[1]
+    .split("\n")
+    .map((l) => l.trim())
+    .filter((l) => l.startsWith("npx waferbook"));
 }
 
 describe("CI files (parsed with js-yaml)", () => {
@@ -167,7 +172,10 @@ describe("CI files (parsed with js-yaml)", () => {
 
   it("GitHub Actions: full history, the cache kept, the documented commands in order, the site uploaded", () => {
     type Step = { uses?: string; run?: string; with?: Record<string, unknown> };
-    const wf = load(readFileSync(path.join(repo, ".github/workflows/waferbook.yml"), "utf8")) as { on: unknown; jobs: Record<string, { "runs-on": string; steps: Step[] }> };
+    const wf = load(readFileSync(path.join(repo, ".github/workflows/waferbook.yml"), "utf8")) as {
+      on: unknown;
+      jobs: Record<string, { "runs-on": string; steps: Step[] }>;
+    };
     expect(wf.on).toBeTruthy();
     const jobs = Object.values(wf.jobs);
     expect(jobs).toHaveLength(1);
@@ -191,7 +199,10 @@ describe("CI files (parsed with js-yaml)", () => {
   });
 
   it("GitLab CI/CD: full history, the cache kept, the documented commands in order, the site uploaded", () => {
-    const ci = load(readFileSync(path.join(repo, ".gitlab-ci.yml"), "utf8")) as Record<string, { image?: string; variables?: Record<string, string>; cache?: { paths: string[] }; script?: string[]; artifacts?: { paths: string[] } }>;
+    const ci = load(readFileSync(path.join(repo, ".gitlab-ci.yml"), "utf8")) as Record<
+      string,
+      { image?: string; variables?: Record<string, string>; cache?: { paths: string[] }; script?: string[]; artifacts?: { paths: string[] } }
+    >;
     const jobs = Object.values(ci).filter((j) => j && typeof j === "object" && Array.isArray(j.script));
     expect(jobs).toHaveLength(1);
     const job = jobs[0];

@@ -35,7 +35,10 @@ function documentedCommands(): string[] {
   const doc = readFileSync(path.join(PACKAGE_ROOT, "docs", "scaling.md"), "utf8");
   const block = /<!-- ci-commands-sharded -->\s*```sh\n([\s\S]*?)```/.exec(doc);
   if (!block) throw new Error("docs/scaling.md has no <!-- ci-commands-sharded --> block");
-  return block[1].split("\n").map((l) => l.trim()).filter((l) => l.startsWith("npx waferbook"));
+  return block[1]
+    .split("\n")
+    .map((l) => l.trim())
+    .filter((l) => l.startsWith("npx waferbook"));
 }
 
 /**
@@ -131,7 +134,15 @@ describe("waferbook init --shards N", () => {
   });
 
   it("GitLab CI/CD: `parallel: N` shard jobs running the shard command, then one job merging their entries and building", () => {
-    type Job = { stage?: string; parallel?: number; needs?: string[]; variables?: Record<string, string>; cache?: { paths: string[]; policy?: string }; script?: string[]; artifacts?: { paths: string[] } };
+    type Job = {
+      stage?: string;
+      parallel?: number;
+      needs?: string[];
+      variables?: Record<string, string>;
+      cache?: { paths: string[]; policy?: string };
+      script?: string[];
+      artifacts?: { paths: string[] };
+    };
     const ci = load(readFileSync(path.join(repo, ".gitlab-ci.yml"), "utf8")) as Record<string, Job> & { stages: string[] };
     const jobs = Object.entries(ci).filter(([, j]) => j && typeof j === "object" && Array.isArray((j as Job).script)) as [string, Job][];
     expect(jobs).toHaveLength(2);

@@ -45,7 +45,14 @@ async function timed<T>(name: string, f: () => Promise<T>): Promise<T> {
 /** A copy of what `npm pack` reads (package.json's files, the sources prepare compiles), node_modules linked for esbuild. */
 async function stagePackage(dir: string): Promise<void> {
   const pkg = JSON.parse(await fs.readFile(path.join(ROOT, "package.json"), "utf8")) as { files: string[] };
-  const copied = [...pkg.files.filter((f) => !f.startsWith("dist") && !f.includes("*")).map((f) => f.replace(/\/$/, "")), "src", "scripts/bundle.mjs", "docs", "package.json", "README.md"];
+  const copied = [
+    ...pkg.files.filter((f) => !f.startsWith("dist") && !f.includes("*")).map((f) => f.replace(/\/$/, "")),
+    "src",
+    "scripts/bundle.mjs",
+    "docs",
+    "package.json",
+    "README.md",
+  ];
   for (const f of copied) await fs.cp(path.join(ROOT, f), path.join(dir, f), { recursive: true });
   await fs.symlink(path.join(ROOT, "node_modules"), path.join(dir, "node_modules"), "dir");
 }
@@ -54,10 +61,23 @@ async function stagePackage(dir: string): Promise<void> {
 async function labLockfile(tarball: string): Promise<object> {
   const lock = JSON.parse(await fs.readFile(path.join(ROOT, "package-lock.json"), "utf8")) as { packages: Record<string, Record<string, unknown>> };
   const ours = lock.packages[""];
-  const integrity = "sha512-" + createHash("sha512").update(await fs.readFile(tarball)).digest("base64");
+  const integrity =
+    "sha512-" +
+    createHash("sha512")
+      .update(await fs.readFile(tarball))
+      .digest("base64");
   const packages: Record<string, object> = {
     "": { name: "lab-data", devDependencies: { waferbook: `file:${tarball}` } },
-    "node_modules/waferbook": { version: ours.version, resolved: `file:${tarball}`, integrity, dev: true, license: ours.license, dependencies: ours.dependencies, bin: ours.bin, engines: ours.engines },
+    "node_modules/waferbook": {
+      version: ours.version,
+      resolved: `file:${tarball}`,
+      integrity,
+      dev: true,
+      license: ours.license,
+      dependencies: ours.dependencies,
+      bin: ours.bin,
+      engines: ours.engines,
+    },
   };
   for (const [where, entry] of Object.entries(lock.packages)) if (where && !entry.dev) packages[where] = { ...entry, dev: true };
   return { name: "lab-data", lockfileVersion: 3, requires: true, packages };
@@ -73,19 +93,30 @@ beforeAll(async () => {
   const packed = await timed("pack", () => run(NPM, ["pack", "--json", "--pack-destination", tmp], { cwd: stage, maxBuffer: 1 << 24 }));
   const tarball = path.join(tmp, (JSON.parse(packed.stdout) as { filename: string }[])[0].filename);
 
-  await fs.writeFile(path.join(app, "package.json"), JSON.stringify({ name: "lab-data", private: true, devDependencies: { waferbook: `file:${tarball}` } }, null, 2));
+  await fs.writeFile(
+    path.join(app, "package.json"),
+    JSON.stringify({ name: "lab-data", private: true, devDependencies: { waferbook: `file:${tarball}` } }, null, 2),
+  );
   await fs.writeFile(path.join(app, "package-lock.json"), JSON.stringify(await labLockfile(tarball), null, 2));
   const npmCi = (mode: string) => run(NPM, ["ci", mode, "--no-audit", "--no-fund"], { cwd: app, maxBuffer: 1 << 24 });
-  await timed("install", () => npmCi("--offline").catch((e: { stderr?: string }) => (/ENOTCACHED/.test(e.stderr ?? "") ? npmCi("--prefer-offline") : Promise.reject(e))));
+  await timed("install", () =>
+    npmCi("--offline").catch((e: { stderr?: string }) => (/ENOTCACHED/.test(e.stderr ?? "") ? npmCi("--prefer-offline") : Promise.reject(e))),
+  );
 
   const data = path.join(app, "data");
   for (const f of ["targets.yaml", "analysis.yaml", "runs"]) await fs.cp(path.join(ROOT, "data", f), path.join(data, f), { recursive: true });
   for (const w of WAFERS) await fs.cp(path.join(ROOT, "data", "wafers", w), path.join(data, "wafers", w), { recursive: true });
-  build = await timed("build", () => run("npx", ["--no-install", "waferbook", "build", "--quiet"], { cwd: app, env: { ...process.env, CI: "true" }, maxBuffer: 1 << 24 }));
+  build = await timed("build", () =>
+    run("npx", ["--no-install", "waferbook", "build", "--quiet"], { cwd: app, env: { ...process.env, CI: "true" }, maxBuffer: 1 << 24 }),
+  );
 }, 300_000);
 
 afterAll(async () => {
-  process.stderr.write(`packInstall: ${Object.entries(seconds).map(([k, s]) => `${k} ${s.toFixed(1)} s`).join(", ")}\n`);
+  process.stderr.write(
+    `packInstall: ${Object.entries(seconds)
+      .map(([k, s]) => `${k} ${s.toFixed(1)} s`)
+      .join(", ")}\n`,
+  );
   if (tmp) await fs.rm(tmp, { recursive: true, force: true });
 });
 
@@ -109,7 +140,8 @@ describe("waferbook packed, installed into an empty data repository and run with
       expect(await fs.readFile(path.join(app, "site", "wafers", w, "index.html"), "utf8")).toContain(w);
     }
     // Copied from Chart.js and MiniSearch, found through the module resolver.
-    for (const asset of ["chart.umd.min.js", "minisearch.js", "site.css"]) expect((await fs.stat(path.join(app, "site", "assets", asset))).size).toBeGreaterThan(1000);
+    for (const asset of ["chart.umd.min.js", "minisearch.js", "site.css"])
+      expect((await fs.stat(path.join(app, "site", "assets", asset))).size).toBeGreaterThan(1000);
   });
 
   it("answers --version from the installed package", async () => {

@@ -39,9 +39,18 @@ describe("raw-file copies", () => {
     await placeRawCopy(raw, path.join(tempDir(), "b.csv"), path.join(tempDir(), "none.csv"), good, "wafers/W/sweep.csv", await FileHashes.open(null));
     expect(await fs.readFile(path.join(tempDir(), "b.csv"), "utf8")).toBe("B [T],Rxx [ohm]\n0,1\n");
     // The file changed since it was analysed.
-    const err = await placeRawCopy(raw, path.join(tempDir(), "c.csv"), path.join(tempDir(), "none.csv"), sha("something else"), "wafers/W/sweep.csv", undefined).catch((e) => e);
+    const err = await placeRawCopy(
+      raw,
+      path.join(tempDir(), "c.csv"),
+      path.join(tempDir(), "none.csv"),
+      sha("something else"),
+      "wafers/W/sweep.csv",
+      undefined,
+    ).catch((e) => e);
     expect(err).toBeInstanceOf(BuildStoppedError);
-    expect(err.message).toBe("wafers/W/sweep.csv changed while the site was being built (its bytes no longer match the SHA-256 that was analysed); build again once it is complete");
+    expect(err.message).toBe(
+      "wafers/W/sweep.csv changed while the site was being built (its bytes no longer match the SHA-256 that was analysed); build again once it is complete",
+    );
     await expect(fs.stat(path.join(tempDir(), "c.csv"))).rejects.toThrow();
   });
 });

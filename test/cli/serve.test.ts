@@ -49,7 +49,9 @@ beforeAll(async () => {
   const data = path.join(tmp, "data");
   for (const f of ["targets.yaml", "analysis.yaml", "runs"]) await fs.cp(path.join(ROOT, "data", f), path.join(data, f), { recursive: true });
   for (const w of WAFERS) await fs.cp(path.join(ROOT, "data", "wafers", w), path.join(data, "wafers", w), { recursive: true });
-  child = spawn(process.execPath, [path.join(ROOT, "bin", "waferbook.js"), "serve", "--data", data, "--out", path.join(tmp, "site"), "--port", "0"], { env: { ...process.env, CI: "true" } });
+  child = spawn(process.execPath, [path.join(ROOT, "bin", "waferbook.js"), "serve", "--data", data, "--out", path.join(tmp, "site"), "--port", "0"], {
+    env: { ...process.env, CI: "true" },
+  });
   let stdout = "";
   child.stdout!.on("data", (b: Buffer) => (stdout += b.toString()));
   child.stderr!.on("data", (b: Buffer) => (stderr += b.toString()));

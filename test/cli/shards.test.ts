@@ -37,10 +37,14 @@ describe("--shard K/N: the argument", () => {
   it("accepts K/N with 1 ≤ K ≤ N and refuses the rest with what was expected (exit 2)", () => {
     expect(parseShard("2/3")).toEqual({ index: 2, count: 3 });
     expect(parseShard("1/1")).toEqual({ index: 1, count: 1 });
-    for (const bad of ["0/3", "4/3", "3", "a/b", "-1/3", "1/0", "2/3/4", ""]) expect(parseShard(bad)).toHaveProperty("error", expect.stringMatching(/--shard K\/N .*1 ≤ K ≤ N.*found/));
+    for (const bad of ["0/3", "4/3", "3", "a/b", "-1/3", "1/0", "2/3/4", ""])
+      expect(parseShard(bad)).toHaveProperty("error", expect.stringMatching(/--shard K\/N .*1 ≤ K ≤ N.*found/));
     const r = parseArgs(["build", "--shard", "4/3"]);
     expect(r).toMatchObject({ command: "usage-error", message: expect.stringMatching(/shard 4 of 3/) });
-    expect(parseArgs(["build", "--shard", "1/2", "--no-cache"])).toMatchObject({ command: "usage-error", message: expect.stringMatching(/cannot run with --no-cache/) });
+    expect(parseArgs(["build", "--shard", "1/2", "--no-cache"])).toMatchObject({
+      command: "usage-error",
+      message: expect.stringMatching(/cannot run with --no-cache/),
+    });
     expect(parseArgs(["build", "--shard", "2/2"])).toMatchObject({ command: "build", options: { shard: { index: 2, count: 2 } } });
   });
 });
@@ -48,7 +52,10 @@ describe("--shard K/N: the argument", () => {
 describe("the partition", () => {
   it("longest first, each to the lightest shard (lowest number on a tie): a hand-worked case", () => {
     // LPT by hand: 10→1, 9→2, 8→3, 7→3 (8 lightest), 6→2 (9), 5→1 (10): loads 15, 15, 15.
-    const p = partition(["a", "b", "c", "d", "e", "f"].map((id, i) => ({ id, bytes: 10 - i })), 3);
+    const p = partition(
+      ["a", "b", "c", "d", "e", "f"].map((id, i) => ({ id, bytes: 10 - i })),
+      3,
+    );
     expect(Object.fromEntries(p)).toEqual({ a: 1, b: 2, c: 3, d: 3, e: 2, f: 1 });
   });
   it("equal sizes go in the order of the SHA-256 of the id, whatever order they are given in", () => {
@@ -56,11 +63,31 @@ describe("the partition", () => {
     const byHash = [...ids].sort((a, b) => (createHash("sha256").update(a).digest("hex") < createHash("sha256").update(b).digest("hex") ? -1 : 1));
     // Five equal wafers over two shards, by hand: shards 1, 2, 1, 2, 1 in hash order.
     const expected = Object.fromEntries(byHash.map((id, i) => [id, (i % 2) + 1]));
-    expect(Object.fromEntries(partition(ids.map((id) => ({ id, bytes: 7 })), 2))).toEqual(expected);
-    expect(Object.fromEntries(partition([...ids].reverse().map((id) => ({ id, bytes: 7 })), 2))).toEqual(expected);
+    expect(
+      Object.fromEntries(
+        partition(
+          ids.map((id) => ({ id, bytes: 7 })),
+          2,
+        ),
+      ),
+    ).toEqual(expected);
+    expect(
+      Object.fromEntries(
+        partition(
+          [...ids].reverse().map((id) => ({ id, bytes: 7 })),
+          2,
+        ),
+      ),
+    ).toEqual(expected);
   });
   it("every wafer in exactly one shard; more shards than wafers leaves some empty", () => {
-    const p = partition([{ id: "x", bytes: 3 }, { id: "y", bytes: 1 }], 4);
+    const p = partition(
+      [
+        { id: "x", bytes: 3 },
+        { id: "y", bytes: 1 },
+      ],
+      4,
+    );
     expect([...p.values()].sort()).toEqual([1, 2]);
   });
 });
@@ -113,7 +140,10 @@ describe("three shards, merged by copying, assemble the single-machine site byte
   async function cli(args: string[]): Promise<{ code: number; out: string[]; err: string[] }> {
     const out: string[] = [];
     const err: string[] = [];
-    const code = await runBuild({ data: "", out: "", strict: false, basePath: "", quiet: true, ...(parseArgs(["build", ...args]) as { options: object }).options }, { out: (s) => out.push(s), err: (s) => err.push(s) });
+    const code = await runBuild(
+      { data: "", out: "", strict: false, basePath: "", quiet: true, ...(parseArgs(["build", ...args]) as { options: object }).options },
+      { out: (s) => out.push(s), err: (s) => err.push(s) },
+    );
     return { code, out, err };
   }
 
@@ -130,8 +160,19 @@ describe("three shards, merged by copying, assemble the single-machine site byte
     const root = tempDir();
     const data = path.join(root, "data");
     const sep = path.sep;
-    await fs.cp(path.join(PACKAGE_ROOT, "data"), data, { recursive: true, filter: (src) => !src.includes(`${sep}wafers${sep}`) || WAFERS.some((w) => src.includes(`${sep}wafers${sep}${w}`)) });
-    const env = { ...process.env, GIT_AUTHOR_NAME: "Test Grower", GIT_AUTHOR_EMAIL: "grower@example.invalid", GIT_COMMITTER_NAME: "Test Grower", GIT_COMMITTER_EMAIL: "grower@example.invalid", GIT_AUTHOR_DATE: "2026-05-01T10:00:00Z", GIT_COMMITTER_DATE: "2026-05-01T10:00:00Z" };
+    await fs.cp(path.join(PACKAGE_ROOT, "data"), data, {
+      recursive: true,
+      filter: (src) => !src.includes(`${sep}wafers${sep}`) || WAFERS.some((w) => src.includes(`${sep}wafers${sep}${w}`)),
+    });
+    const env = {
+      ...process.env,
+      GIT_AUTHOR_NAME: "Test Grower",
+      GIT_AUTHOR_EMAIL: "grower@example.invalid",
+      GIT_COMMITTER_NAME: "Test Grower",
+      GIT_COMMITTER_EMAIL: "grower@example.invalid",
+      GIT_AUTHOR_DATE: "2026-05-01T10:00:00Z",
+      GIT_COMMITTER_DATE: "2026-05-01T10:00:00Z",
+    };
     await git("git", ["init", "-q", "-b", "main"], { cwd: data, env });
     await git("git", ["add", "-A"], { cwd: data, env });
     await git("git", ["commit", "-q", "-m", "Demo data"], { cwd: data, env });
@@ -156,11 +197,15 @@ describe("three shards, merged by copying, assemble the single-machine site byte
 
     const assembled = await cli(["--data", data, "--out", path.join(root, "assembled"), "--cache", merged]);
     expect(assembled.code, assembled.err.join("\n")).toBe(0);
-    expect(assembled.out).toContain(`analysed 0 wafers (${WAFERS.length} from the cache); drew 0 pages (${WAFERS.length} from the cache, 0 reused from the previous site)`);
+    expect(assembled.out).toContain(
+      `analysed 0 wafers (${WAFERS.length} from the cache); drew 0 pages (${WAFERS.length} from the cache, 0 reused from the previous site)`,
+    );
 
     const single = await cli(["--data", data, "--out", path.join(root, "single"), "--no-cache"]);
     expect(single.code, single.err.join("\n")).toBe(0);
-    expect(single.out).toContain(`analysed ${WAFERS.length} wafers (0 from the cache); drew ${WAFERS.length} pages (0 from the cache, 0 reused from the previous site)`);
+    expect(single.out).toContain(
+      `analysed ${WAFERS.length} wafers (0 from the cache); drew ${WAFERS.length} pages (0 from the cache, 0 reused from the previous site)`,
+    );
     // The same problems, in the same order, from either way of building.
     expect(assembled.err).toEqual(single.err);
 

@@ -13,7 +13,15 @@ import { demoSite, DEMO_HOOK_TIMEOUT_MS } from "../helpers/demoSite.ts";
 
 const git = promisify(execFile);
 async function commitAll(data: string, message: string, init = false): Promise<void> {
-  const env = { ...process.env, GIT_AUTHOR_NAME: "Test Grower", GIT_AUTHOR_EMAIL: "grower@example.invalid", GIT_COMMITTER_NAME: "Test Grower", GIT_COMMITTER_EMAIL: "grower@example.invalid", GIT_AUTHOR_DATE: "2026-05-01T10:00:00Z", GIT_COMMITTER_DATE: "2026-05-01T10:00:00Z" };
+  const env = {
+    ...process.env,
+    GIT_AUTHOR_NAME: "Test Grower",
+    GIT_AUTHOR_EMAIL: "grower@example.invalid",
+    GIT_COMMITTER_NAME: "Test Grower",
+    GIT_COMMITTER_EMAIL: "grower@example.invalid",
+    GIT_AUTHOR_DATE: "2026-05-01T10:00:00Z",
+    GIT_COMMITTER_DATE: "2026-05-01T10:00:00Z",
+  };
   if (init) await git("git", ["init", "-q", "-b", "main"], { cwd: data, env });
   await git("git", ["add", "-A"], { cwd: data, env });
   await git("git", ["commit", "-q", "-m", message], { cwd: data, env });
@@ -38,7 +46,10 @@ describe("site built with --base /qual/", () => {
     out = path.join(root, "site");
     const data = path.join(root, "data");
     const sep = path.sep;
-    await cp(path.join(PACKAGE_ROOT, "data"), data, { recursive: true, filter: (src) => !src.includes(`${sep}wafers${sep}`) || WAFERS.some((w) => src.includes(`${sep}wafers${sep}${w}`)) });
+    await cp(path.join(PACKAGE_ROOT, "data"), data, {
+      recursive: true,
+      filter: (src) => !src.includes(`${sep}wafers${sep}`) || WAFERS.some((w) => src.includes(`${sep}wafers${sep}${w}`)),
+    });
     // A history of its own, with a targets change, so the changes page and the wafers' histories have commits to link.
     await commitAll(data, "Demo data", true);
     const targets = path.join(data, "targets.yaml");
@@ -88,7 +99,6 @@ describe("site built with --base /qual/", () => {
     }
     expect([...missing]).toEqual([]);
   });
-
 });
 
 describe("the demo site (the run's shared build): anchors and exports", () => {

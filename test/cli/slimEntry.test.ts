@@ -26,7 +26,15 @@ describe("slim analysis", () => {
   it("gives the same judgement and site-wide outputs as the full analysis, at a fraction of the size", async () => {
     const dataDir = path.join(PACKAGE_ROOT, "data");
     const site = await loadSiteInputs(dataDir);
-    const ctx: PipelineContext = { dataDir, today: "2026-06-01", siteSettings: site.settings, targets: site.targets, siteOverrides: site.settingOverrides, version: "test", sitewideErrors: [] };
+    const ctx: PipelineContext = {
+      dataDir,
+      today: "2026-06-01",
+      siteSettings: site.settings,
+      targets: site.targets,
+      siteOverrides: site.settingOverrides,
+      version: "test",
+      sitewideErrors: [],
+    };
     const full = [];
     const slim = [];
     for (const folder of WAFERS) {
@@ -41,12 +49,16 @@ describe("slim analysis", () => {
     for (let i = 0; i < WAFERS.length; i++) {
       expect(slim[i].judgement, WAFERS[i]).toEqual(full[i].judgement);
       expect(slim[i].values, WAFERS[i]).toEqual(full[i].values);
-      expect(JSON.stringify(resultsJson(slim[i], { wafer: "abc", targets: "def" })), WAFERS[i]).toBe(JSON.stringify(resultsJson(full[i], { wafer: "abc", targets: "def" })));
+      expect(JSON.stringify(resultsJson(slim[i], { wafer: "abc", targets: "def" })), WAFERS[i]).toBe(
+        JSON.stringify(resultsJson(full[i], { wafer: "abc", targets: "def" })),
+      );
       expect(pointsCsv(slim[i]), WAFERS[i]).toBe(pointsCsv(full[i]));
     }
     expect(resultsCsv(slim, site.runs)).toBe(resultsCsv(full, site.runs));
     expect(searchDocuments(slim, site.runs)).toEqual(searchDocuments(full, site.runs));
     const meta = { title: "t", version: "test", builtAt: "then", basePath: "/" };
-    expect(JSON.stringify(buildSiteModel(slim, site.runs, [], meta, { targets: site.targets }))).toBe(JSON.stringify(buildSiteModel(full, site.runs, [], meta, { targets: site.targets })));
+    expect(JSON.stringify(buildSiteModel(slim, site.runs, [], meta, { targets: site.targets }))).toBe(
+      JSON.stringify(buildSiteModel(full, site.runs, [], meta, { targets: site.targets })),
+    );
   }, 120_000);
 });

@@ -18,13 +18,18 @@ import { waferPageExtras } from "../../src/publish/siteModel.ts";
 import { makeOutcome, targetsFrom } from "../helpers/outcome.ts";
 import { useTempDir } from "../helpers/tempDir.ts";
 
-const TARGETS = targetsFrom("default_grade: test\ngrades:\n  test:\n    peak_mobility: { min: \"1e4 cm^2/(V s)\" }\n");
+const TARGETS = targetsFrom('default_grade: test\ngrades:\n  test:\n    peak_mobility: { min: "1e4 cm^2/(V s)" }\n');
 const META = { title: "Strict", version: "test", builtAt: "2025-06-01T12:00:00Z", basePath: "", dataCommit: null };
 
 /** A wafer whose wafer.md failed validation: no record, no analysis, one input error. */
 function unreadWafer() {
   const o = makeOutcome({ id: "NOREC", devices: {}, error: true }, TARGETS);
-  return { ...o, record: undefined, analysis: undefined, problems: [{ severity: "error" as const, wafer: "NOREC", file: "wafers/NOREC/wafer.md", message: "front matter is not closed" }] } as unknown as typeof o;
+  return {
+    ...o,
+    record: undefined,
+    analysis: undefined,
+    problems: [{ severity: "error" as const, wafer: "NOREC", file: "wafers/NOREC/wafer.md", message: "front matter is not closed" }],
+  } as unknown as typeof o;
 }
 
 async function renderWafer(page: Record<string, unknown>, out: string): Promise<string> {
@@ -36,9 +41,17 @@ const tmp = useTempDir("strict");
 
 describe("strict Nunjucks", () => {
   it(".eleventy.js keeps autoescape on and throws on an undefined output", async () => {
-    const { default: eleventyConfig } = (await import(pathToFileURL(path.join(PACKAGE_ROOT, ".eleventy.js")).href)) as { default: (config: unknown) => unknown };
+    const { default: eleventyConfig } = (await import(pathToFileURL(path.join(PACKAGE_ROOT, ".eleventy.js")).href)) as {
+      default: (config: unknown) => unknown;
+    };
     let options: Record<string, unknown> = {};
-    const stub = { setNunjucksEnvironmentOptions: (o: Record<string, unknown>) => (options = o), addPassthroughCopy: () => {}, setQuietMode: () => {}, ignores: new Set<string>(), setUseGitIgnore: () => {} };
+    const stub = {
+      setNunjucksEnvironmentOptions: (o: Record<string, unknown>) => (options = o),
+      addPassthroughCopy: () => {},
+      setQuietMode: () => {},
+      ignores: new Set<string>(),
+      setUseGitIgnore: () => {},
+    };
     eleventyConfig(stub);
     expect(options).toMatchObject({ autoescape: true, throwOnUndefined: true });
   });
@@ -53,9 +66,13 @@ describe("strict Nunjucks", () => {
     expect(html).not.toMatch(/undefined|null</);
     // The negative control: the same page without its grade (printed unguarded) is a render error, not an empty cell.
     const { grade: _grade, ...withoutGrade } = page;
-    const err = await renderWafer(withoutGrade, path.join(out, "bad")).then(() => null, (e: unknown) => e);
+    const err = await renderWafer(withoutGrade, path.join(out, "bad")).then(
+      () => null,
+      (e: unknown) => e,
+    );
     const chain: string[] = [];
-    for (let e = err as { message?: string; cause?: unknown; originalError?: unknown } | undefined; e; e = (e.originalError ?? e.cause) as typeof e) chain.push(String(e.message));
+    for (let e = err as { message?: string; cause?: unknown; originalError?: unknown } | undefined; e; e = (e.originalError ?? e.cause) as typeof e)
+      chain.push(String(e.message));
     expect(chain.join(" | ")).toMatch(/attempted to output null or undefined value/);
   });
 });

@@ -5,7 +5,11 @@ import { cacheLine, summary } from "../../src/cli/report.ts";
 import { countText } from "../../src/model/format.ts";
 import type { BuildResult } from "../../src/cli/build.ts";
 
-const result = (verdicts: string[]) => ({ outcomes: verdicts.map((v) => ({ judgement: { verdict: v } })), problems: [{ severity: "error" }, { severity: "warning" }, { severity: "warning" }] }) as unknown as BuildResult;
+const result = (verdicts: string[]) =>
+  ({
+    outcomes: verdicts.map((v) => ({ judgement: { verdict: v } })),
+    problems: [{ severity: "error" }, { severity: "warning" }, { severity: "warning" }],
+  }) as unknown as BuildResult;
 
 describe("build summary", () => {
   it("lists verdicts best first, the same for any wafer order", () => {
@@ -18,10 +22,12 @@ describe("build summary", () => {
     expect(summary(result(["fail", "pass"]), 0)).toMatch(/^2 wafers \(1 pass, 1 fail\);/);
     expect(summary(result([]), 0)).toMatch(/^0 wafers \(none\);/);
   });
-  it("puts each count's noun in the right number (a one-wafer build said \"1 wafers\")", () => {
+  it('puts each count\'s noun in the right number (a one-wafer build said "1 wafers")', () => {
     const one = { outcomes: [{ judgement: { verdict: "pass" } }], problems: [{ severity: "warning" }] } as unknown as BuildResult;
     expect(summary(one, 0.5)).toBe("1 wafer (1 pass); 0 input errors, 1 warning; 0.5 s");
-    expect(cacheLine({ analysed: 1, cacheHits: 0, drawn: 1, pagesFromCache: 0, pagesReused: 0 } as Parameters<typeof cacheLine>[0])).toBe("analysed 1 wafer (0 from the cache); drew 1 page (0 from the cache, 0 reused from the previous site)");
+    expect(cacheLine({ analysed: 1, cacheHits: 0, drawn: 1, pagesFromCache: 0, pagesReused: 0 } as Parameters<typeof cacheLine>[0])).toBe(
+      "analysed 1 wafer (0 from the cache); drew 1 page (0 from the cache, 0 reused from the previous site)",
+    );
   });
 });
 

@@ -59,7 +59,9 @@ export function demoBuild(): Promise<DemoBuild> {
 export async function demoSite(): Promise<string> {
   const b = await demoBuild();
   if (b.code !== 0) {
-    throw new Error(`the shared demo build (waferbook build --data data --out ${b.dir}) exited ${b.code} after ${b.seconds} s; its stderr ends:\n${b.stderr.slice(-2000)}`);
+    throw new Error(
+      `the shared demo build (waferbook build --data data --out ${b.dir}) exited ${b.code} after ${b.seconds} s; its stderr ends:\n${b.stderr.slice(-2000)}`,
+    );
   }
   return b.dir;
 }
@@ -101,7 +103,10 @@ async function waitFor(result: string): Promise<DemoBuild> {
       if ("failed" in outcome) throw new Error(outcome.failed);
       return outcome;
     }
-    if (Date.now() > deadline) throw new Error(`waited ${DEMO_BUILD_TIMEOUT_MS / 1000 + 60} s for the shared demo build (another test file builds it into ${path.dirname(result)}); it never finished`);
+    if (Date.now() > deadline)
+      throw new Error(
+        `waited ${DEMO_BUILD_TIMEOUT_MS / 1000 + 60} s for the shared demo build (another test file builds it into ${path.dirname(result)}); it never finished`,
+      );
     await new Promise((r) => setTimeout(r, 250));
   }
 }
@@ -118,7 +123,9 @@ function runBuild(root: string): Promise<DemoBuild> {
       (err, stdout, stderr) => {
         const e = err as (Error & { code?: number | string; killed?: boolean; signal?: string }) | null;
         if (e && typeof e.code !== "number") {
-          const why = e.killed ? `did not finish within ${DEMO_BUILD_TIMEOUT_MS / 1000} s and was stopped` : `could not run (${e.code ?? e.signal ?? e.message})`;
+          const why = e.killed
+            ? `did not finish within ${DEMO_BUILD_TIMEOUT_MS / 1000} s and was stopped`
+            : `could not run (${e.code ?? e.signal ?? e.message})`;
           reject(new Error(`the shared demo build (waferbook build --data data --out ${dir}) ${why}; its stderr ends:\n${String(stderr).slice(-2000)}`));
           return;
         }

@@ -28,18 +28,42 @@ export interface OutcomeSpec {
 
 export function makeOutcome(s: OutcomeSpec, targets: Targets): WaferOutcome {
   const values: Record<string, MetricValues> = {};
-  for (const [dev, ms] of Object.entries(s.devices)) for (const [k, v] of Object.entries(ms)) {
+  for (const [dev, ms] of Object.entries(s.devices))
+    for (const [k, v] of Object.entries(ms)) {
       values[k] ??= { perDevice: {} };
       values[k].perDevice[dev] = v;
     }
   const grade = s.grade ?? targets.defaultGrade;
   const devices = Object.keys(s.devices).map((id) => {
     const e = s.gateFitErr?.[id];
-    return { id, geometry: "hall-bar", points: [], gateSweeps: [], skipped: [], metrics: s.devices[id], summary: e ? { gateFit: { slope: 0, slopeStdErr: e.slope, turnOn: 0, turnOnStdErr: e.turnOn, r2: 1, points: 5 } } : undefined };
+    return {
+      id,
+      geometry: "hall-bar",
+      points: [],
+      gateSweeps: [],
+      skipped: [],
+      metrics: s.devices[id],
+      summary: e ? { gateFit: { slope: 0, slopeStdErr: e.slope, turnOn: 0, turnOnStdErr: e.turnOn, r2: 1, points: 5 } } : undefined,
+    };
   });
   return {
     folder: s.id,
-    record: { wafer: s.id, run: "R1", grown: s.grown ?? "2025-01-01", grade: s.grade, reactor: s.reactor, stack: [], devices: [], images: [], waivers: [], decision: s.decision, settings: {}, settingOverrides: {}, notes: "", file: `wafers/${s.id}/wafer.md` },
+    record: {
+      wafer: s.id,
+      run: "R1",
+      grown: s.grown ?? "2025-01-01",
+      grade: s.grade,
+      reactor: s.reactor,
+      stack: [],
+      devices: [],
+      images: [],
+      waivers: [],
+      decision: s.decision,
+      settings: {},
+      settingOverrides: {},
+      notes: "",
+      file: `wafers/${s.id}/wafer.md`,
+    },
     analysis: { devices },
     values,
     judgement: judgeWafer(values, grade, targets, [], s.error ?? false, s.error ? ["broken file"] : []),

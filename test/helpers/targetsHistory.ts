@@ -50,7 +50,8 @@ export const hasGit = (() => {
  */
 export function tempRepo(prefix: string) {
   const root = mkdtempSync(join(GIT_TMP, prefix));
-  const git = (args: string[], env: Record<string, string> = {}) => execFileSync("git", args, { cwd: root, encoding: "utf8", env: { ...process.env, ...GIT_ENV, ...env } });
+  const git = (args: string[], env: Record<string, string> = {}) =>
+    execFileSync("git", args, { cwd: root, encoding: "utf8", env: { ...process.env, ...GIT_ENV, ...env } });
   const commit = (msg: string, date: string, committer = "Ada Fictional") => {
     git(["add", "-A"]);
     const email = `${committer.split(" ")[0].toLowerCase()}@example.invalid`;

@@ -20,7 +20,8 @@ import { GIT_ENV, hasGit, mobilityTargets, tempRepo } from "../helpers/targetsHi
 const FILE = "wafers/W1/wafer.md";
 const record = (decision: string) => `---\nwafer: W1\nrun: R1\ngrown: 2025-01-10\n${decision}---\nNotes.\n`;
 const DECISION = `decision:\n  state: released\n  by: "C. Quill"\n  date: 2025-02-01\n  reason: "meets the qubit targets"\n`;
-const validate = (text: string) => validateWafer(readFrontMatter(text, FILE), { folder: "W1", file: FILE, today: "2025-06-01", siteSettings: DEFAULT_SETTINGS });
+const validate = (text: string) =>
+  validateWafer(readFrontMatter(text, FILE), { folder: "W1", file: FILE, today: "2025-06-01", siteSettings: DEFAULT_SETTINGS });
 function problem(text: string): string {
   try {
     validate(text);
@@ -39,7 +40,9 @@ describe("decision: validation", () => {
   it("refuses a bad state, a future date, a date before growth and a missing reason, each located", () => {
     expect(problem(record(DECISION.replace("released", "accepted")))).toMatch(/^wafers\/W1\/wafer\.md:6: decision\.state: .*released \| held \| rejected/);
     expect(problem(record(DECISION.replace("2025-02-01", "2026-02-01")))).toMatch(/^wafers\/W1\/wafer\.md:8: decision\.date: decision date is in the future/);
-    expect(problem(record(DECISION.replace("2025-02-01", "2025-01-02")))).toMatch(/^wafers\/W1\/wafer\.md:8: decision\.date: decision date is before the wafer was grown/);
+    expect(problem(record(DECISION.replace("2025-02-01", "2025-01-02")))).toMatch(
+      /^wafers\/W1\/wafer\.md:8: decision\.date: decision date is before the wafer was grown/,
+    );
     expect(problem(record(DECISION.replace('  reason: "meets the qubit targets"\n', "")))).toMatch(/decision\.reason: required field is missing/);
     expect(problem(record(DECISION + "  sign: x\n"))).toMatch(/decision\.sign: unknown key/);
   });
@@ -48,8 +51,10 @@ describe("decision: validation", () => {
 describe("decision: conflict with the computed verdict", () => {
   const targets = targetsFrom(mobilityTargets("1.0e5"));
   const d = (state: "released" | "held" | "rejected") => ({ state, by: "C. Quill", date: "2025-02-01", reason: "r" });
-  const failing = (state: "released" | "held" | "rejected") => makeOutcome({ id: "F", devices: { HB1: { peak_mobility: 0.8e5 } }, decision: d(state) }, targets);
-  const passing = (state: "released" | "held" | "rejected") => makeOutcome({ id: "P", devices: { HB1: { peak_mobility: 1.2e5 } }, decision: d(state) }, targets);
+  const failing = (state: "released" | "held" | "rejected") =>
+    makeOutcome({ id: "F", devices: { HB1: { peak_mobility: 0.8e5 } }, decision: d(state) }, targets);
+  const passing = (state: "released" | "held" | "rejected") =>
+    makeOutcome({ id: "P", devices: { HB1: { peak_mobility: 1.2e5 } }, decision: d(state) }, targets);
 
   it("a released wafer that fails a target without a waiver is flagged, with the failing reason", () => {
     const m = decisionModel(failing("released"))!;

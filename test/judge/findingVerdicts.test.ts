@@ -27,7 +27,9 @@ const values = { peak_mobility: { perDevice: { HB1: 1.5e5 } } };
 
 /** Every finding checked and clear, except those given with where they were raised. */
 function checks(raised: Partial<Record<FindingKey, string[]>> = {}, unchecked: FindingKey[] = []): FindingCheck[] {
-  return FINDING_KEYS.map((key) => (unchecked.includes(key) ? { key, checked: false, raised: [], why: "no data" } : { key, checked: true, raised: raised[key] ?? [] }));
+  return FINDING_KEYS.map((key) =>
+    unchecked.includes(key) ? { key, checked: false, raised: [], why: "no data" } : { key, checked: true, raised: raised[key] ?? [] },
+  );
 }
 const judge = (grade: string, c: FindingCheck[], waivers: Waiver[] = []) => judgeWafer(values, grade, targets, waivers, false, [], c);
 
@@ -61,7 +63,12 @@ describe("findings as judged checks", () => {
   });
 
   it("a waiver naming the finding waives it, with who, when and why; a waiver naming another finding does not", () => {
-    const waiver: Waiver = { finding: "incoherent_well", reason: "strain relaxed by design for this test stack", approved_by: "R. Adeyemi", date: "2025-01-10" };
+    const waiver: Waiver = {
+      finding: "incoherent_well",
+      reason: "strain relaxed by design for this test stack",
+      approved_by: "R. Adeyemi",
+      date: "2025-01-10",
+    };
     const j = judge("qubit", checks({ incoherent_well: ["not coherent"] }), [waiver]);
     expect(j.verdict).toBe("waived");
     expect(j.reasons[0]).toBe("waived by R. Adeyemi on 2025-01-10: strain relaxed by design for this test stack (was fail: Incoherent well: not coherent)");
@@ -75,8 +82,20 @@ describe("findings as judged checks", () => {
   });
 
   it("TQ-2406's case: the grade has no limit on the in-plane mismatch, yet the incoherent well still fails the wafer", () => {
-    const only = validateTargets(readYaml('grades:\n  test:\n    peak_mobility: { min: "3e4 cm^2/(V s)" }\n', "targets.yaml"), "targets.yaml", 'grades:\n  test:\n    peak_mobility: { min: "3e4 cm^2/(V s)" }\n');
-    const j = judgeWafer({ ...values, interface_inplane_mismatch: { perDevice: {}, wafer: -1.134 } }, "test", only, [], false, [], checks({ incoherent_well: ["in-plane mismatch -1.134 % exceeds ±0.25 %"] }));
+    const only = validateTargets(
+      readYaml('grades:\n  test:\n    peak_mobility: { min: "3e4 cm^2/(V s)" }\n', "targets.yaml"),
+      "targets.yaml",
+      'grades:\n  test:\n    peak_mobility: { min: "3e4 cm^2/(V s)" }\n',
+    );
+    const j = judgeWafer(
+      { ...values, interface_inplane_mismatch: { perDevice: {}, wafer: -1.134 } },
+      "test",
+      only,
+      [],
+      false,
+      [],
+      checks({ incoherent_well: ["in-plane mismatch -1.134 % exceeds ±0.25 %"] }),
+    );
     expect(j.metrics.find((m) => m.key === "interface_inplane_mismatch")!.verdict).toBe("recorded");
     expect(j.verdict).toBe("fail");
   });

@@ -15,7 +15,13 @@ const UEV = 1; // metric values are in the metric's unit (µeV)
 describe("a metric whose analysis premises fail is shown, not judged", () => {
   it("a p10 below its minimum with a failed premise is recorded with the reason, and the wafer is not failed by it", () => {
     const why = "the measured Ge profile departs from the two-interface model the prediction is made from (at 47.4–48.6 nm)";
-    const j = judgeWafer({ valley_splitting_p10: { perDevice: {}, wafer: 5 * UEV, notJudged: why }, valley_splitting_mean: { perDevice: {}, wafer: 50 * UEV } }, "qubit", targets, [], false);
+    const j = judgeWafer(
+      { valley_splitting_p10: { perDevice: {}, wafer: 5 * UEV, notJudged: why }, valley_splitting_mean: { perDevice: {}, wafer: 50 * UEV } },
+      "qubit",
+      targets,
+      [],
+      false,
+    );
     const p10 = j.metrics.find((m) => m.key === "valley_splitting_p10")!;
     expect(p10.verdict).toBe("recorded");
     expect(p10.value).toBe(5);

@@ -62,7 +62,13 @@ describe("hold-out: 15 in-control wafers plus one outlier", () => {
 describe("who forms the baseline", () => {
   it("error wafers, non-production grades and the lab's exclusions stay out, are plotted and not judged", () => {
     const inputs = withOutlier(15, 1.4).map((p, i) => (i === 3 ? { ...p, error: true, value: 9 } : i === 5 ? { ...p, grade: "test", value: 0.2 } : p));
-    const settings: TrendSettings = { ...ALL, exclude: [{ wafer: "W07", metric: "interface_width_top", reason: "SIMS crater off-centre" }, { wafer: "W08", metric: "peak_O", reason: "other metric only" }] };
+    const settings: TrendSettings = {
+      ...ALL,
+      exclude: [
+        { wafer: "W07", metric: "interface_width_top", reason: "SIMS crater off-centre" },
+        { wafer: "W08", metric: "peak_O", reason: "other metric only" },
+      ],
+    };
     const t = trendChart(inputs, settings, { metric: "interface_width_top", productionGrades: new Set(["qubit"]) });
     expect(t.ok).toBe(true);
     if (!t.ok) return;
@@ -100,21 +106,32 @@ describe("revisions and bounds", () => {
     expect(one.ok && one.dropped.map((d) => d.id)).toEqual(["P5"]);
     expect(one.ok && one.stoppedAtLimit).toBe(true);
     const two = phaseOneLimits(series, 3);
-    expect(two.ok && two.dropped.map((d) => [d.id, d.pass])).toEqual([["P5", 1], ["P13", 2]]);
+    expect(two.ok && two.dropped.map((d) => [d.id, d.pass])).toEqual([
+      ["P5", 1],
+      ["P13", 2],
+    ]);
     expect(two.ok && two.stoppedAtLimit).toBe(false);
     expect(two.ok && two.limits.centreLine).toBeCloseTo(handLimits(alt).mean, 12);
   });
 
   it("clips a negative lower limit at zero for a quantity that cannot be negative, keeping the formula's value", () => {
     // 0.2, 1.8, 0.2, 1.8: mean 1.0, MR̄ 1.6, σ̂ = 1.6/1.128 = 1.41844; LCL = 1 − 4.25532 = −3.25532 (hand).
-    const r = phaseOneLimits([0.2, 1.8, 0.2, 1.8].map((v, i) => ({ id: `Q${i}`, value: v })), 3, { min: 0 });
+    const r = phaseOneLimits(
+      [0.2, 1.8, 0.2, 1.8].map((v, i) => ({ id: `Q${i}`, value: v })),
+      3,
+      { min: 0 },
+    );
     expect(r.ok).toBe(true);
     if (!r.ok) return;
     expect(r.limits.lcl).toBe(0);
     expect(r.clipped?.lcl).toBeCloseTo(1 - (3 * 1.6) / 1.128, 10);
     expect(r.limits.ucl).toBeCloseTo(1 + (3 * 1.6) / 1.128, 10);
     expect(r.clipped?.ucl).toBeUndefined();
-    const fraction = phaseOneLimits([0.5, 0.9, 0.5, 0.9].map((v, i) => ({ id: `F${i}`, value: v })), 3, { min: 0, max: 1 });
+    const fraction = phaseOneLimits(
+      [0.5, 0.9, 0.5, 0.9].map((v, i) => ({ id: `F${i}`, value: v })),
+      3,
+      { min: 0, max: 1 },
+    );
     expect(fraction.ok && fraction.limits.ucl).toBe(1);
   });
 });
@@ -138,8 +155,18 @@ describe("limits per reactor", () => {
 describe("trend settings: the Phase I keys", () => {
   const read = (raw: unknown) => readTrendSettings(raw, "targets.yaml", () => 7, ["qubit", "test"]);
   it("reads production grades, passes, grouping and exclusions", () => {
-    expect(read({ production_grades: ["qubit"], max_passes: 2, limits_by: "reactor", exclude: [{ wafer: "TQ-2403", metric: "interface_width_top", reason: "crater" }] })).toMatchObject({
-      productionGrades: { kind: "list", grades: ["qubit"] }, maxPasses: 2, limitsBy: "reactor", exclude: [{ wafer: "TQ-2403", metric: "interface_width_top", reason: "crater" }],
+    expect(
+      read({
+        production_grades: ["qubit"],
+        max_passes: 2,
+        limits_by: "reactor",
+        exclude: [{ wafer: "TQ-2403", metric: "interface_width_top", reason: "crater" }],
+      }),
+    ).toMatchObject({
+      productionGrades: { kind: "list", grades: ["qubit"] },
+      maxPasses: 2,
+      limitsBy: "reactor",
+      exclude: [{ wafer: "TQ-2403", metric: "interface_width_top", reason: "crater" }],
     });
     expect(read({ production_grades: "all" }).productionGrades).toEqual({ kind: "all" });
   });

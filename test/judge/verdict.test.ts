@@ -30,7 +30,9 @@ describe("targets", () => {
     throw new Error("expected an error");
   }
   it("rejects incompatible and unparseable units, and unknown metrics, naming the field", () => {
-    expect(message('grades:\n  q:\n    peak_mobility: { min: "1e5 V" }\n')).toBe('targets.yaml:3: grades.q.peak_mobility.min: cannot read the limit for Peak Hall mobility (expected a value with a unit convertible to cm^2/(V s), such as "1 cm^2/(V s)", found "1e5 V", which has a different dimension (a voltage, not a mobility; a mobility is written in cm²/(V s), m²/(V s))) — write the value with a unit convertible to cm^2/(V s)');
+    expect(message('grades:\n  q:\n    peak_mobility: { min: "1e5 V" }\n')).toBe(
+      'targets.yaml:3: grades.q.peak_mobility.min: cannot read the limit for Peak Hall mobility (expected a value with a unit convertible to cm^2/(V s), such as "1 cm^2/(V s)", found "1e5 V", which has a different dimension (a voltage, not a mobility; a mobility is written in cm²/(V s), m²/(V s))) — write the value with a unit convertible to cm^2/(V s)',
+    );
     expect(message('grades:\n  q:\n    turn_on_voltage: { max: "lots" }\n')).toMatch(/which is not a known quantity/);
     expect(message('grades:\n  q:\n    peak_mobilty: { min: "1e5 cm^2/(V s)" }\n')).toMatch(/unknown metric .* did you mean "peak_mobility"\?/);
   });
@@ -67,7 +69,9 @@ describe("verdicts", () => {
     expect(j.reasons[0]).toMatch(/required but was not measured/);
   });
   it("a waiver turns a failing metric into waived, with its reason", () => {
-    const j = judge({ peak_mobility: { a: 1.2e5 }, turn_on_voltage: { a: 0.7 } }, [{ metric: "turn_on_voltage", reason: "accepted by device team", approved_by: "Q. Lead", date: "2025-01-01" }] as never);
+    const j = judge({ peak_mobility: { a: 1.2e5 }, turn_on_voltage: { a: 0.7 } }, [
+      { metric: "turn_on_voltage", reason: "accepted by device team", approved_by: "Q. Lead", date: "2025-01-01" },
+    ] as never);
     expect(j.verdict).toBe("waived");
     expect(j.reasons[0]).toMatch(/waived by Q. Lead on 2025-01-01: accepted by device team/);
   });

@@ -9,7 +9,6 @@ import { firstRecorded, verdictsOverTime } from "../../src/judge/verdictHistory.
 import { changesModel, waferHistoryModel } from "../../src/publish/history.ts";
 import { GIT_ENV, GIT_TMP, hasGit, historyWafer, mobilityTargets as targets, tempRepo } from "../helpers/targetsHistory.ts";
 
-
 describe.skipIf(!hasGit)("verdicts over time (temporary repository)", () => {
   let repo: ReturnType<typeof tempRepo> | undefined;
   let history: DataHistory | null = null;
@@ -27,7 +26,7 @@ describe.skipIf(!hasGit)("verdicts over time (temporary repository)", () => {
     commit("record W1", "2024-03-01T10:00:00+00:00");
     writeFileSync(join(data, "targets.yaml"), targets("2.0e5"));
     commit("targets: 2e5", "2024-04-01T10:00:00+00:00");
-    writeFileSync(join(data, "targets.yaml"), "default_grade: qubit\ngrades:\n  qubit:\n    peak_mobilty: { min: \"1 cm^2/(V s)\" }\n");
+    writeFileSync(join(data, "targets.yaml"), 'default_grade: qubit\ngrades:\n  qubit:\n    peak_mobilty: { min: "1 cm^2/(V s)" }\n');
     commit("targets: typo", "2024-05-01T10:00:00+00:00");
     history = await loadDataHistory(data, makeGitRunner({ env: GIT_ENV }));
   });

@@ -51,6 +51,8 @@ describe("verdict states", () => {
     for (const s of VERDICT_STATES) expect(s.word.length * s.meaning.length).toBeGreaterThan(0);
     const rank = Object.fromEntries(VERDICT_STATES.map((s) => [s.key, s.rank]));
     for (const k of ["recorded", "unmeasured", "unjudged", "noted"]) expect(rank[k]).toBeLessThan(rank.pass);
-    expect(rank.error > rank.fail && rank.fail > rank.incomplete && rank.incomplete > rank.marginal && rank.marginal > rank.waived && rank.waived > rank.pass).toBe(true);
+    expect(
+      rank.error > rank.fail && rank.fail > rank.incomplete && rank.incomplete > rank.marginal && rank.marginal > rank.waived && rank.waived > rank.pass,
+    ).toBe(true);
   });
 });

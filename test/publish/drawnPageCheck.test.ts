@@ -22,7 +22,7 @@ import { compareScriptFrame } from "../../src/publish/compareData.ts";
 import { demoSite, DEMO_HOOK_TIMEOUT_MS, ROOT } from "../helpers/demoSite.ts";
 
 const NOTES = [
-  "# Heading\n\nSome *emphasis*, **strong**, ~~struck~~, `code` and a [link](https://example.org/a?b=1&c=2 \"title\").",
+  '# Heading\n\nSome *emphasis*, **strong**, ~~struck~~, `code` and a [link](https://example.org/a?b=1&c=2 "title").',
   "1. one\n2. two\n\n- a\n- b\n\n> quoted\n\n---\n\nline  \nbreak",
   "| left | centre | right |\n|:--|:-:|--:|\n| 1 | 2 | 3 |",
   "```js\nconst x = '<script>alert(1)</script>';\n```",
@@ -81,7 +81,7 @@ describe("what waferbook writes passes", () => {
 describe("each trick of a forged page is refused, saying what was found", () => {
   const markup: [string, RegExp][] = [
     ["<script>alert(1)</script>", /element <script>/],
-    ["<p>x</p><SCRIPT SRC=\"evil.js\"></SCRIPT>", /element <SCRIPT>/],
+    ['<p>x</p><SCRIPT SRC="evil.js"></SCRIPT>', /element <SCRIPT>/],
     ["<img src=x onerror=alert(1)>", /not a plain tag/],
     ['<img src="x.png" onerror="alert(1)">', /attribute onerror.*event handler/],
     ['<svg xmlns="http://www.w3.org/2000/svg" onload="alert(1)"></svg>', /attribute onload/],
@@ -115,12 +115,20 @@ describe("each trick of a forged page is refused, saying what was found", () => 
   }
 
   it("links in model fields: only relative paths, http(s), mailto and inline pictures", () => {
-    for (const ok of ["../../raw/ab.csv", "images/x.png", "/qual/wafers/X/", "https://example.org/", "mailto:a@b", "#notes", "?q=a:b", "a/b:c"]) expect(urlProblem(ok), ok).toBeUndefined();
-    for (const bad of ["javascript:alert(1)", "\u0001javascript:x", "vbscript:x", "file:///etc/passwd", "data:text/html,x", "ftp://h/f", "jav\nascript:x"]) expect(urlProblem(bad), bad).toMatch(/scheme/);
+    for (const ok of ["../../raw/ab.csv", "images/x.png", "/qual/wafers/X/", "https://example.org/", "mailto:a@b", "#notes", "?q=a:b", "a/b:c"])
+      expect(urlProblem(ok), ok).toBeUndefined();
+    for (const bad of ["javascript:alert(1)", "\u0001javascript:x", "vbscript:x", "file:///etc/passwd", "data:text/html,x", "ftp://h/f", "jav\nascript:x"])
+      expect(urlProblem(bad), bad).toMatch(/scheme/);
   });
 
   it("the page model: the id, every unescaped field, every link field", () => {
-    const good = { id: "W-1", notesHtml: "<p>x</p>", chartsJson: jsonForScript([{ links: ["../W-2/"] }]), files: [{ href: "../../raw/a.csv" }], structure: { stackSvg: "<svg></svg>", maps: [{ svg: "<svg></svg>" }] } };
+    const good = {
+      id: "W-1",
+      notesHtml: "<p>x</p>",
+      chartsJson: jsonForScript([{ links: ["../W-2/"] }]),
+      files: [{ href: "../../raw/a.csv" }],
+      structure: { stackSvg: "<svg></svg>", maps: [{ svg: "<svg></svg>" }] },
+    };
     expect(pageModelProblem(good, "W-1")).toBeUndefined();
     const bad: [object, RegExp][] = [
       [{ ...good, id: "../../index" }, /for "..\/..\/index", not for "W-1"/],
@@ -146,7 +154,15 @@ describe("each trick of a forged page is refused, saying what was found", () => 
       ["wafers/W-1/structure/x.svg", Buffer.from("<svg onload=alert(1)>"), /never draws/],
       ["wafers/W-1/images/x.png", Buffer.from("<script>alert(1)</script>"), /not a PNG picture/],
       ["wafers/W-1/images/x.png", Buffer.concat([png, Buffer.from("<script>alert(1)</script>")]), /bytes after the PNG's end/],
-      ["wafers/W-1/images/x.png", (() => { const b = Buffer.from(png); b[20] ^= 1; return b; })(), /fails its CRC/],
+      [
+        "wafers/W-1/images/x.png",
+        (() => {
+          const b = Buffer.from(png);
+          b[20] ^= 1;
+          return b;
+        })(),
+        /fails its CRC/,
+      ],
       ["wafers/W-1/images/x.png", png.subarray(0, png.length - 12), /no end chunk/],
       ["wafers/W-1/compare.js", Buffer.from(`${before}{"id":"W-1"};alert(1)${after}`), /more than one JSON value/],
       ["wafers/W-1/compare.js", Buffer.from(`alert(1);${before}{"id":"W-1"}${after}`), /not the comparison data/],
@@ -183,7 +199,9 @@ describe("every page of the demo site carries the Content-Security-Policy and ne
       expect(pages.length).toBeGreaterThan(30);
       for (const f of pages) {
         const html = await fs.readFile(path.join(site, f), "utf8");
-        expect(html, f).toMatch(/^<!doctype html>\s*<html lang="en">\s*<head>\s*<meta charset="utf-8">\s*<meta http-equiv="Content-Security-Policy" content="default-src 'self'; script-src 'self'; style-src 'self'; [^"]*object-src 'none'; base-uri 'none'/);
+        expect(html, f).toMatch(
+          /^<!doctype html>\s*<html lang="en">\s*<head>\s*<meta charset="utf-8">\s*<meta http-equiv="Content-Security-Policy" content="default-src 'self'; script-src 'self'; style-src 'self'; [^"]*object-src 'none'; base-uri 'none'/,
+        );
         for (const s of html.matchAll(/<script\b[^>]*>/g)) expect(s[0], f).toMatch(/^<script (src="[^"]+" defer|type="application\/json" id="[\w-]+")>$/);
         expect(html, f).not.toMatch(/\son[a-z]+=|\sstyle="|javascript:/i);
       }

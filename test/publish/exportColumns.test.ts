@@ -17,11 +17,17 @@ grades:
 // Two devices. turn_on_voltage judged as the max → 0.4 V from HB2, whose SE is 0.02 V.
 // gate_density_slope judged as the mean → SE = √(SE₁² + SE₂²)/2 (independent devices, GUM §5.1 [M]):
 // SE₁ = 1e14 m⁻²/V = 1e10 cm⁻²/V, SE₂ = 2e14 m⁻²/V = 2e10 cm⁻²/V → √5e20/2 = 1.118034e10 cm⁻²/V.
-const a = makeOutcome({
-  id: "W1",
-  devices: { HB1: { peak_mobility: 1.2e5, turn_on_voltage: 0.3, gate_density_slope: 5e11 }, HB2: { peak_mobility: 0.8e5, turn_on_voltage: 0.4, gate_density_slope: 6e11 } },
-  gateFitErr: { HB1: { slope: 1e14, turnOn: 0.01 }, HB2: { slope: 2e14, turnOn: 0.02 } },
-}, targets);
+const a = makeOutcome(
+  {
+    id: "W1",
+    devices: {
+      HB1: { peak_mobility: 1.2e5, turn_on_voltage: 0.3, gate_density_slope: 5e11 },
+      HB2: { peak_mobility: 0.8e5, turn_on_voltage: 0.4, gate_density_slope: 6e11 },
+    },
+    gateFitErr: { HB1: { slope: 1e14, turnOn: 0.01 }, HB2: { slope: 2e14, turnOn: 0.02 } },
+  },
+  targets,
+);
 const b = makeOutcome({ id: "W2", devices: { HB1: { peak_mobility: 1.5e5, turn_on_voltage: 0.2 } } }, targets);
 
 describe("results.csv columns", () => {
@@ -30,13 +36,38 @@ describe("results.csv columns", () => {
   const col = (row: string[], name: string) => row[header.indexOf(name)];
 
   it("names five columns per metric, consistently, after the wafer, decision and finding columns", () => {
-    expect(header.slice(0, 11)).toEqual(["wafer", "run", "grown", "reactor", "grade", "verdict", "decision", "decision_by", "decision_date", "decision_reason", "decision_conflict"]);
+    expect(header.slice(0, 11)).toEqual([
+      "wafer",
+      "run",
+      "grown",
+      "reactor",
+      "grade",
+      "verdict",
+      "decision",
+      "decision_by",
+      "decision_date",
+      "decision_reason",
+      "decision_conflict",
+    ]);
     // One column per finding (issue 15 §2), named finding_<key>, holding the finding's verdict.
     const findings = header.filter((h) => h.startsWith("finding_"));
-    expect(findings).toEqual(["finding_incoherent_well", "finding_beyond_critical_thickness", "finding_parallel_conduction", "finding_one_sign_field", "finding_fit_undetermined", "finding_coarse_profile"]);
+    expect(findings).toEqual([
+      "finding_incoherent_well",
+      "finding_beyond_critical_thickness",
+      "finding_parallel_conduction",
+      "finding_one_sign_field",
+      "finding_fit_undetermined",
+      "finding_coarse_profile",
+    ]);
     const rest = header.filter((h) => !h.startsWith("finding_"));
     const i = rest.indexOf("peak_mobility [cm^2/(V s)]");
-    expect(rest.slice(i, i + 5)).toEqual(["peak_mobility [cm^2/(V s)]", "peak_mobility_stderr [cm^2/(V s)]", "peak_mobility_min [cm^2/(V s)]", "peak_mobility_max [cm^2/(V s)]", "peak_mobility_verdict"]);
+    expect(rest.slice(i, i + 5)).toEqual([
+      "peak_mobility [cm^2/(V s)]",
+      "peak_mobility_stderr [cm^2/(V s)]",
+      "peak_mobility_min [cm^2/(V s)]",
+      "peak_mobility_max [cm^2/(V s)]",
+      "peak_mobility_verdict",
+    ]);
     for (const h of rest.slice(11)) expect(h).toMatch(/^[a-z0-9_]+(_stderr|_min|_max)? \[[^\]]*\]$|^[a-z0-9_]+_verdict$/);
     expect(rest.length).toBe(11 + 5 * 3);
   });

@@ -38,7 +38,11 @@ describe("page PNGs: one filter, same pixels", () => {
   });
 
   it("strain maps (RGBA) are written with Paeth on every row", () => {
-    const pic = renderStrainMap(smooth.map((v) => (v - 127) * 1e-5), w, h);
+    const pic = renderStrainMap(
+      smooth.map((v) => (v - 127) * 1e-5),
+      w,
+      h,
+    );
     expect(rowFilters(pic.png, pic.width, pic.height, 4)).toEqual(new Array(pic.height).fill(4));
   });
 

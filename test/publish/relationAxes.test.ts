@@ -23,9 +23,20 @@ describe("relation page axes", () => {
     const o = {
       folder: "W-1",
       record: { run: "R", grown: "2025-01-01", growth: { layers: [{ layer: "well", temperature_C: 625, flows_sccm: [] }], anneals: [] } },
-      judgement: { grade: "qubit", verdict: "pass", metrics: [{ key: "peak_mobility", value: 2e5 }, { key: "well_thickness", value: 9 }] },
+      judgement: {
+        grade: "qubit",
+        verdict: "pass",
+        metrics: [
+          { key: "peak_mobility", value: 2e5 },
+          { key: "well_thickness", value: 9 },
+        ],
+      },
     } as unknown as WaferOutcome;
     const vars = relationModel([o], () => "").variables.map((v) => [v.key, v.log]);
-    expect(vars).toEqual([["peak_mobility", true], ["well_thickness", false], ["growth_well_temperature", false]]);
+    expect(vars).toEqual([
+      ["peak_mobility", true],
+      ["well_thickness", false],
+      ["growth_well_temperature", false],
+    ]);
   });
 });

@@ -21,15 +21,38 @@ describe("rsmFigure", () => {
   const deg = Math.PI / 180;
   const theta = 34.564 * deg;
   const points = [];
-  for (let i = 0; i < 40; i++) for (let j = 0; j < 40; j++) {
-    const dw = (i - 19.5) * 0.015 * deg;
-    const dt = (j - 19.5) * 0.03 * deg;
-    points.push({ omega: theta + dw, twoTheta: 2 * theta + dt, counts: 5 + 1e4 * Math.exp(-((dw / (0.05 * deg)) ** 2) - (dt / (0.1 * deg)) ** 2) });
-  }
+  for (let i = 0; i < 40; i++)
+    for (let j = 0; j < 40; j++) {
+      const dw = (i - 19.5) * 0.015 * deg;
+      const dt = (j - 19.5) * 0.03 * deg;
+      points.push({ omega: theta + dw, twoTheta: 2 * theta + dt, counts: 5 + 1e4 * Math.exp(-((dw / (0.05 * deg)) ** 2) - (dt / (0.1 * deg)) ** 2) });
+    }
   const f = {
-    file: "xrd/<map>.csv", kind: "map",
-    peaks: { ok: true, reflection: [0, 0, 4], wavelength: 0.15406e-9, background: 5, noise: 2, offset: { omega: 0, twoTheta: 0 }, offsetCorrected: true, notes: [],
-      peaks: [{ layer: "substrate", omega: theta, twoTheta: 2 * theta, omegaStdErr: 0, twoThetaStdErr: 0, qx: 0, qz: (4 * Math.PI * Math.sin(theta)) / 0.15406e-9, qxStdErr: 0, qzStdErr: 0 }] },
+    file: "xrd/<map>.csv",
+    kind: "map",
+    peaks: {
+      ok: true,
+      reflection: [0, 0, 4],
+      wavelength: 0.15406e-9,
+      background: 5,
+      noise: 2,
+      offset: { omega: 0, twoTheta: 0 },
+      offsetCorrected: true,
+      notes: [],
+      peaks: [
+        {
+          layer: "substrate",
+          omega: theta,
+          twoTheta: 2 * theta,
+          omegaStdErr: 0,
+          twoThetaStdErr: 0,
+          qx: 0,
+          qz: (4 * Math.PI * Math.sin(theta)) / 0.15406e-9,
+          qxStdErr: 0,
+          qzStdErr: 0,
+        },
+      ],
+    },
     points,
   } as unknown as XrdFileResult;
   const fig = rsmFigure(f, undefined, "m", "structure/rsm-0.png")!;
@@ -40,14 +63,15 @@ describe("rsmFigure", () => {
     expect(png.height).toBeGreaterThan(100);
     let opaque = 0;
     let brightest = { sum: -1, x: 0, y: 0 };
-    for (let y = 0; y < png.height; y++) for (let x = 0; x < png.width; x++) {
-      const o = 4 * (y * png.width + x);
-      if (png.data[o + 3] === 255) {
-        opaque++;
-        const s = png.data[o] + png.data[o + 1] + png.data[o + 2];
-        if (s > brightest.sum) brightest = { sum: s, x, y };
+    for (let y = 0; y < png.height; y++)
+      for (let x = 0; x < png.width; x++) {
+        const o = 4 * (y * png.width + x);
+        if (png.data[o + 3] === 255) {
+          opaque++;
+          const s = png.data[o] + png.data[o + 1] + png.data[o + 2];
+          if (s > brightest.sum) brightest = { sum: s, x, y };
+        }
       }
-    }
     expect(opaque).toBeGreaterThan(0.2 * png.width * png.height);
     // The peak sits at the middle of the scanned range: within a tenth of the picture of its centre.
     expect(Math.abs(brightest.x / png.width - 0.5)).toBeLessThan(0.1);

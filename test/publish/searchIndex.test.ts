@@ -9,7 +9,10 @@ const outcome = (folder: string, run: string, notes: string, verdict: string, re
 
 describe("site search index", () => {
   const docs = searchDocuments(
-    [outcome("ZX-0101", "ZX01-A", "Haze seen near the **flat**; `probe` card swapped.", "fail", ["Peak Hall mobility below the minimum"]), outcome("ZX-0102", "ZX01-A", "", "pass", [])],
+    [
+      outcome("ZX-0101", "ZX01-A", "Haze seen near the **flat**; `probe` card swapped.", "fail", ["Peak Hall mobility below the minimum"]),
+      outcome("ZX-0102", "ZX01-A", "", "pass", []),
+    ],
     new Map([["ZX01-A", { id: "ZX01-A", file: "runs/ZX01-A.md", meta: {}, notes: "Susceptor recoated before this run." }]]),
   );
 

@@ -27,7 +27,8 @@ describe("relative links (no base path)", () => {
       ["/trends/peak_mobility/", "wafers/TQ-2401/", "/wafers/TQ-2401/index.html"],
       ["/", "changes/", "/changes/index.html"],
       ["/changes/", "", "/index.html"],
-    ]) expect(new URL(siteUrl(target, page, ""), `file:///home/lab/site${page}`).pathname).toBe(`/home/lab/site${file}`);
+    ])
+      expect(new URL(siteUrl(target, page, ""), `file:///home/lab/site${page}`).pathname).toBe(`/home/lab/site${file}`);
   });
 
   it("gives scripts the root as seen from the page", () => {

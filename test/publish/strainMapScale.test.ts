@@ -20,7 +20,7 @@ const W = 121; // W − 1 divisible by 6, so ±limit/2 fall on whole columns
 const H = 40;
 const LIMIT = 0.01;
 // Each column holds one value from −1.5·limit to +1.5·limit; row 0 is NaN.
-const value = (x: number) => (3 * x / (W - 1) - 1.5) * LIMIT;
+const value = (x: number) => ((3 * x) / (W - 1) - 1.5) * LIMIT;
 const map = Float32Array.from({ length: W * H }, (_, i) => (i < W ? Number.NaN : value(i % W)));
 const pic = renderStrainMap(map, W, H, { limit: LIMIT });
 const png = PNG.sync.read(pic.png);

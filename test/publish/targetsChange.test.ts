@@ -9,8 +9,10 @@ import { loadDataHistory, type DataHistory } from "../../src/validate/load/histo
 import { changesModel } from "../../src/publish/history.ts";
 import { GIT_ENV, hasGit, historyWafer, mobilityTargets, tempRepo } from "../helpers/targetsHistory.ts";
 
-
-const v1 = mobilityTargets("1.0e5", { qubit: ['turn_on_voltage: { between: ["0.1 V", "0.6 V"] }'], grades: '  test:\n    peak_mobility: { min: "3e4 cm^2/(V s)" }\n' });
+const v1 = mobilityTargets("1.0e5", {
+  qubit: ['turn_on_voltage: { between: ["0.1 V", "0.6 V"] }'],
+  grades: '  test:\n    peak_mobility: { min: "3e4 cm^2/(V s)" }\n',
+});
 // Raises the mobility minimum to 1.3e5 and adds a guard band; the test grade is untouched.
 const v2 = v1.replace('peak_mobility: { min: "1.0e5 cm^2/(V s)" }', 'peak_mobility: { min: "1.3e5 cm^2/(V s)", guard: "5 %" }');
 
@@ -38,11 +40,18 @@ describe.skipIf(!hasGit)("a targets commit on the changes page", () => {
   afterAll(() => repo?.remove());
 
   it("lists the changed limit and the wafers whose verdict the commit changed, old → new, with links", () => {
-    const m = changesModel(history, WAFERS.map((w) => w.id), "/", WAFERS);
+    const m = changesModel(
+      history,
+      WAFERS.map((w) => w.id),
+      "/",
+      WAFERS,
+    );
     const row = m.commits.find((c) => c.subject === "raise the mobility minimum")!;
     expect(row.targetsChanged).toBe(true);
     expect(row.targets).not.toBeNull();
-    expect(row.targets!.limits).toEqual([{ grade: "qubit", metric: "peak_mobility", before: "≥ 1.00×10⁵ cm²/(V s)", after: "≥ 1.30×10⁵ cm²/(V s), guard 5 %" }]);
+    expect(row.targets!.limits).toEqual([
+      { grade: "qubit", metric: "peak_mobility", before: "≥ 1.00×10⁵ cm²/(V s)", after: "≥ 1.30×10⁵ cm²/(V s), guard 5 %" },
+    ]);
     expect(row.targets!.flips.map((f) => [f.id, f.before, f.after, f.href])).toEqual([
       ["A", "pass", "fail", "/wafers/A/"],
       ["B", "pass", "fail", "/wafers/B/"],
@@ -55,7 +64,11 @@ describe.skipIf(!hasGit)("a targets commit on the changes page", () => {
     const m = changesModel(history, [], "/", WAFERS);
     const row = m.commits.find((c) => c.subject === "first targets")!;
     expect(row.targets!.first).toBe(true);
-    expect(row.targets!.limits.map((l) => [l.grade, l.metric, l.before])).toEqual([["qubit", "peak_mobility", "none"], ["qubit", "turn_on_voltage", "none"], ["test", "peak_mobility", "none"]]);
+    expect(row.targets!.limits.map((l) => [l.grade, l.metric, l.before])).toEqual([
+      ["qubit", "peak_mobility", "none"],
+      ["qubit", "turn_on_voltage", "none"],
+      ["test", "peak_mobility", "none"],
+    ]);
     expect(row.targets!.flips).toEqual([]);
   });
 });

@@ -6,13 +6,28 @@ import { predictValleySplitting } from "../../src/analyse/structure/valleySplitt
 import { valleySection } from "../../src/publish/valleySection.ts";
 
 const E = 1.602176634e-19;
-const edge = (centre: number, tau: number): InterfaceFit => ({ centre, centreStdErr: 0, tau, width10to90: 4.39 * tau, width10to90StdErr: 0, width4tau: 4 * tau, barrierGe: 0.3, r2: 1, points: 50, curve: { depth: [], ge: [] }, marks: [] });
+const edge = (centre: number, tau: number): InterfaceFit => ({
+  centre,
+  centreStdErr: 0,
+  tau,
+  width10to90: 4.39 * tau,
+  width10to90StdErr: 0,
+  width4tau: 4 * tau,
+  barrierGe: 0.3,
+  r2: 1,
+  points: 50,
+  curve: { depth: [], ge: [] },
+  marks: [],
+});
 const L = (u: number) => 1 / (1 + Math.exp(-u));
 
 function section(spike: boolean) {
   const depth = Array.from({ length: 800 }, (_, i) => i * 0.1);
   const ge = depth.map((d) => 0.3 - 0.3 * L((d - 40) / 0.08) + 0.3 * L((d - 50) / 0.3) + (spike ? 0.05 * Math.exp(-(((d - 45) / 0.3) ** 2)) : 0));
-  const result = predictValleySplitting({ depth, ge, top: edge(40, 0.08), bottom: edge(50, 0.3) }, { field: null, orbitalEnergy: 2e-3 * E, bandOffset: 0.5 * E, threshold: 100e-6 * E });
+  const result = predictValleySplitting(
+    { depth, ge, top: edge(40, 0.08), bottom: edge(50, 0.3) },
+    { field: null, orbitalEnergy: 2e-3 * E, bandOffset: 0.5 * E, threshold: 100e-6 * E },
+  );
   const s = { valley: { file: "profiles/apt.csv", result } } as unknown as StructureAnalysis;
   return valleySection(s, { depth, ge })!;
 }

@@ -4,13 +4,12 @@ import { escapeXml, sequentialColour, waferMapSvg, type WaferMapDevice } from ".
 
 const devices: WaferMapDevice[] = [
   { id: "D1", atMm: [0, 0], value: 1.0e5 },
-  { id: "D2 <edge> & \"side\"", atMm: [30, 10], value: 2.0e5 },
+  { id: 'D2 <edge> & "side"', atMm: [30, 10], value: 2.0e5 },
   { id: "D3", atMm: [-25, -20], value: 1.5e5 },
   { id: "D4", atMm: [10, 35], value: null },
 ];
 
-const count = (s: string, needle: string | RegExp): number =>
-  (s.match(new RegExp(needle, "g")) ?? []).length;
+const count = (s: string, needle: string | RegExp): number => (s.match(new RegExp(needle, "g")) ?? []).length;
 
 describe("waferMapSvg", () => {
   const svg = waferMapSvg(devices, { title: "Mobility <W-1> & co", unit: "cm²/(V·s)", idPrefix: "m1" });
@@ -48,10 +47,16 @@ describe("waferMapSvg", () => {
   });
 
   it("scales the outline with the diameter and leaves out devices without a position", () => {
-    const s = waferMapSvg([{ id: "x", atMm: [Number.NaN, 0], value: 1 }, { id: "y", atMm: [1, 1], value: 2 }], {
-      title: "t",
-      diameterMm: 150,
-    });
+    const s = waferMapSvg(
+      [
+        { id: "x", atMm: [Number.NaN, 0], value: 1 },
+        { id: "y", atMm: [1, 1], value: 2 },
+      ],
+      {
+        title: "t",
+        diameterMm: 150,
+      },
+    );
     expect(count(s, "<circle ")).toBe(1);
     expect(s).toContain("on a 150 mm wafer");
     expect(s).toContain("1 device without a valid position not shown.");

@@ -36,8 +36,12 @@ describe("checkInside", () => {
     const data = path.join(tmp, "linked");
     for (let k = 0; k < 2; k++) {
       expect(await message(checkInside(data, path.join(data, "w", "a.csv")))).toBe("accepted");
-      expect(await message(checkInside(data, path.join(data, "w", "out.csv")))).toMatch(/^w\/out\.csv: refused: this path leads outside the data folder \(expected a file inside the data folder, found a symbolic link or path to ".*secret\.csv"\)/);
-      expect(await message(checkInside(data, path.join(data, "w", "none.csv")))).toBe("w/none.csv: file not found — check the file name and that it is committed");
+      expect(await message(checkInside(data, path.join(data, "w", "out.csv")))).toMatch(
+        /^w\/out\.csv: refused: this path leads outside the data folder \(expected a file inside the data folder, found a symbolic link or path to ".*secret\.csv"\)/,
+      );
+      expect(await message(checkInside(data, path.join(data, "w", "none.csv")))).toBe(
+        "w/none.csv: file not found — check the file name and that it is committed",
+      );
     }
   });
   it("does not remember a data folder that could not be resolved", async () => {
@@ -88,7 +92,7 @@ describe("decodeText on ill-formed UTF-8", () => {
     return "accepted";
   };
   const fix = " — re-save the file as UTF-8 (for example from a Latin-1 export)";
-  it("points at an overlong form (C0 AF, an overlong \"/\")", () => {
+  it('points at an overlong form (C0 AF, an overlong "/")', () => {
     expect(decode([0xc0, 0xaf])).toBe(`w/s.csv:3: bytes are not valid UTF-8 (expected UTF-8 text, found byte 0xc0 at offset 18)${fix}`);
   });
   it("points at an overlong three-byte form (E0 80 AF)", () => {
@@ -104,6 +108,8 @@ describe("decodeText on ill-formed UTF-8", () => {
   it("passes the well-formed edges of each range (U+0080, U+0800, U+D7FF, U+E000, U+10000, U+10FFFF) and points at what follows", () => {
     const good = [0xc2, 0x80, 0xe0, 0xa0, 0x80, 0xed, 0x9f, 0xbf, 0xee, 0x80, 0x80, 0xf0, 0x90, 0x80, 0x80, 0xf4, 0x8f, 0xbf, 0xbf];
     expect(decode(good)).toBe("accepted");
-    expect(decode([...good, 0xc1, 0xbf])).toBe(`w/s.csv:3: bytes are not valid UTF-8 (expected UTF-8 text, found byte 0xc1 at offset ${18 + good.length})${fix}`);
+    expect(decode([...good, 0xc1, 0xbf])).toBe(
+      `w/s.csv:3: bytes are not valid UTF-8 (expected UTF-8 text, found byte 0xc1 at offset ${18 + good.length})${fix}`,
+    );
   });
 });

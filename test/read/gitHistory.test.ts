@@ -147,9 +147,7 @@ describe("parseGitLog and path helpers", () => {
     const rec = (h: string, subject: string, files: string[]) =>
       `${h}\0${h.slice(0, 7)}\0${"2024-01-02T03:04:05+01:00"}\0${"2024-01-02T03:04:05+01:00"}\0Zoë Example\0${subject}\0` +
       (files.length ? "\n" + files.map((f) => "M\0" + f + "\0").join("") : "");
-    const out =
-      rec("a".repeat(40), "Merge: nothing", []) +
-      rec("b".repeat(40), "Add wafer <W-2> & data", ["d/wafers/W 2.md", "d/ü\nodd.csv", "\nother/x"]);
+    const out = rec("a".repeat(40), "Merge: nothing", []) + rec("b".repeat(40), "Add wafer <W-2> & data", ["d/wafers/W 2.md", "d/ü\nodd.csv", "\nother/x"]);
     const commits = parseGitLog(out, "d/");
     expect(commits).toHaveLength(2);
     expect(commits[0]).toMatchObject({ subject: "Merge: nothing", files: [], dataFiles: [] });

@@ -34,7 +34,12 @@ describe.skipIf(!hasGit)("git objects through one cat-file --batch process", () 
     mkdirSync(join(data, "wafers", "W 1"), { recursive: true });
     git(root, ["init", "-q"]);
     git(root, ["config", "commit.gpgsign", "false"]);
-    const who = (name: string) => ({ GIT_AUTHOR_NAME: name, GIT_AUTHOR_EMAIL: "a@example.invalid", GIT_COMMITTER_NAME: "Émile Committer", GIT_COMMITTER_EMAIL: "c@example.invalid" });
+    const who = (name: string) => ({
+      GIT_AUTHOR_NAME: name,
+      GIT_AUTHOR_EMAIL: "a@example.invalid",
+      GIT_COMMITTER_NAME: "Émile Committer",
+      GIT_COMMITTER_EMAIL: "c@example.invalid",
+    });
     writeFileSync(join(data, "targets.yaml"), "grades: {}\n");
     git(root, ["add", "-A"]);
     git(root, ["commit", "-q", "-m", "first"], who("Ada Author"));
@@ -48,12 +53,20 @@ describe.skipIf(!hasGit)("git objects through one cat-file --batch process", () 
   afterAll(() => rmSync(root, { recursive: true, force: true }));
 
   it("reads the same contents as the one-process-per-object route, in any order, and null for an absent file", async () => {
-    const plain = [await fileAtCommit(repo, hashes[0], "wafers/W 1/wafer.md"), await fileAtCommit(repo, hashes[1], "wafers/W 1/wafer.md"), await fileAtCommit(repo, hashes[1], "targets.yaml")];
+    const plain = [
+      await fileAtCommit(repo, hashes[0], "wafers/W 1/wafer.md"),
+      await fileAtCommit(repo, hashes[1], "wafers/W 1/wafer.md"),
+      await fileAtCommit(repo, hashes[1], "targets.yaml"),
+    ];
     expect(plain).toEqual(["---\nid: W 1\n---\nmissing\n\n", null, "grades: {}\n"]);
     const batched = await withObjectReader(repo, async () => {
       expect(repo.objects).toBeDefined();
       // Asked all at once: the answers come back in the order asked.
-      return Promise.all([fileAtCommit(repo, hashes[0], "wafers/W 1/wafer.md"), fileAtCommit(repo, hashes[1], "wafers/W 1/wafer.md"), fileAtCommit(repo, hashes[1], "targets.yaml")]);
+      return Promise.all([
+        fileAtCommit(repo, hashes[0], "wafers/W 1/wafer.md"),
+        fileAtCommit(repo, hashes[1], "wafers/W 1/wafer.md"),
+        fileAtCommit(repo, hashes[1], "targets.yaml"),
+      ]);
     });
     expect(batched).toEqual(plain);
     expect(repo.objects).toBeUndefined();

@@ -32,7 +32,10 @@ function toOwnFormat(name: string, text: string): string {
   const header = lines[8].split("\t");
   const own: Record<string, string> = { "Field (mT)": "B [mT]", "Gate (V)": "Vg [V]", "R_xx (kOhm)": "Rxx [kohm]", "R_xy (kOhm)": "Rxy [kohm]" };
   const keep = header.map((h, i) => (own[h] ? i : -1)).filter((i) => i >= 0);
-  const rows = lines.slice(9).filter((l) => l !== "").map((l) => keep.map((i) => l.split("\t")[i].replace(",", ".")).join(","));
+  const rows = lines
+    .slice(9)
+    .filter((l) => l !== "")
+    .map((l) => keep.map((i) => l.split("\t")[i].replace(",", ".")).join(","));
   return [...meta, keep.map((i) => own[header[i]]).join(","), ...rows, ""].join("\n");
 }
 
@@ -47,7 +50,10 @@ function tiffToPng(bytes: Buffer): Buffer {
     const [tag, type, count] = [u16(at), u16(at + 2), u32(at + 4)];
     const size = type === 3 ? 2 : 4;
     const base = count * size > 4 ? u32(at + 8) : at + 8;
-    tags.set(tag, Array.from({ length: type === 5 ? 2 * count : count }, (_, i) => (size === 2 ? u16(base + 2 * i) : u32(base + 4 * i))));
+    tags.set(
+      tag,
+      Array.from({ length: type === 5 ? 2 * count : count }, (_, i) => (size === 2 ? u16(base + 2 * i) : u32(base + 4 * i))),
+    );
   }
   const [w, h] = [tags.get(256)![0], tags.get(257)![0]];
   const raw = Buffer.concat(tags.get(273)!.map((off, i) => inflateSync(bytes.subarray(off, off + tags.get(279)![i]))));
@@ -75,7 +81,10 @@ async function copyTree(from: string, to: string, map: (rel: string, bytes: Buff
 beforeAll(async () => {
   const dir = tmp();
   const src = path.join(ROOT, "data", "wafers", ID);
-  for (const [kind, data] of [["instrument", "a"], ["own", "b"]] as const) {
+  for (const [kind, data] of [
+    ["instrument", "a"],
+    ["own", "b"],
+  ] as const) {
     const d = path.join(dir, data);
     await fs.mkdir(path.join(d, "wafers"), { recursive: true });
     for (const f of ["targets.yaml", "analysis.yaml"]) await fs.copyFile(path.join(ROOT, "data", f), path.join(d, f));
@@ -86,7 +95,8 @@ beforeAll(async () => {
       if (rel.endsWith(".tif")) return [rel.replace(/\.tif$/, ".png"), tiffToPng(bytes)];
       if (rel === "wafer.md") {
         // The same record without reading instructions: own-format files, and the scale written in.
-        const md = bytes.toString("utf8")
+        const md = bytes
+          .toString("utf8")
           .replace(/\n {4}columns:[^\n]*(\n {6}[^\n]*)+\n {4}layout:[^\n]*\n {4}conditions:(\n {6}[^\n]*)+/g, "")
           .replace(/\*\.dat"/g, '*.csv"')
           .replace(/\.tif\n[^\n]*\n/, ".png\n    pixel_nm: 0.05\n");
@@ -120,14 +130,36 @@ describe(`${ID}: instrument files give the figures of the same data in waferbook
   it("every sweep, metric and figure agrees to 1e-9 relative", () => {
     const pairs: [string, number, number][] = [];
     // Images: the decoded pixels and scale are compared (identical inputs give identical image figures, and the image analysis is slow).
-    const run = (w: LoadedWafer) => analyseWafer({ devices: w.record!.devices.map((spec) => ({ spec, sweeps: w.devices.find((d) => d.id === spec.id)!.sweeps })), structure: w.structure, images: {}, stack: w.record!.stack }, w.record!.settings);
+    const run = (w: LoadedWafer) =>
+      analyseWafer(
+        {
+          devices: w.record!.devices.map((spec) => ({ spec, sweeps: w.devices.find((d) => d.id === spec.id)!.sweeps })),
+          structure: w.structure,
+          images: {},
+          stack: w.record!.stack,
+        },
+        w.record!.settings,
+      );
     const image = (w: LoadedWafer) => w.images.micrographs!.map((m) => ({ pixels: m.pixels, scale: m.pixelSize_m, w: m.width, h: m.height }));
     numbers(image(loaded.instrument!), image(loaded.own!), "images", pairs);
-    numbers(loaded.instrument!.devices.map((d) => d.sweeps.map((s) => ({ x: s.x, rxx: s.rxx, rxy: s.rxy, gate: s.gate_V, field: s.field_T, t: s.temperature_K, i: s.current_A }))), loaded.own!.devices.map((d) => d.sweeps.map((s) => ({ x: s.x, rxx: s.rxx, rxy: s.rxy, gate: s.gate_V, field: s.field_T, t: s.temperature_K, i: s.current_A }))), "sweeps", pairs);
+    numbers(
+      loaded.instrument!.devices.map((d) =>
+        d.sweeps.map((s) => ({ x: s.x, rxx: s.rxx, rxy: s.rxy, gate: s.gate_V, field: s.field_T, t: s.temperature_K, i: s.current_A })),
+      ),
+      loaded.own!.devices.map((d) =>
+        d.sweeps.map((s) => ({ x: s.x, rxx: s.rxx, rxy: s.rxy, gate: s.gate_V, field: s.field_T, t: s.temperature_K, i: s.current_A })),
+      ),
+      "sweeps",
+      pairs,
+    );
     numbers(run(loaded.instrument!), run(loaded.own!), "analysis", pairs);
     expect(pairs.length).toBeGreaterThan(10_000);
     // The file line a condition was read from is provenance, not a figure: it differs between the two forms by design.
-    const worst = pairs.filter(([p, a, b]) => !/\.conditions\.(\d+\.sources\.)?\d+\.line$/.test(p) && !(a === b || (Number.isNaN(a) && Number.isNaN(b)) || Math.abs(a - b) <= 1e-9 * Math.max(Math.abs(a), Math.abs(b))));
+    const worst = pairs.filter(
+      ([p, a, b]) =>
+        !/\.conditions\.(\d+\.sources\.)?\d+\.line$/.test(p) &&
+        !(a === b || (Number.isNaN(a) && Number.isNaN(b)) || Math.abs(a - b) <= 1e-9 * Math.max(Math.abs(a), Math.abs(b))),
+    );
     expect(worst.slice(0, 5)).toEqual([]);
     const metrics = pairs.filter(([p]) => /\.metrics\./.test(p));
     expect(metrics.length).toBeGreaterThan(10);

@@ -26,8 +26,25 @@ type Rules = typeof RULES;
 /** wafer.md of a one-device wafer with the given rules; returns the text and the line of each rule. */
 function record(r: Rules): string {
   return [
-    "---", "wafer: TW-1", "run: R1", "grown: 2025-05-01", "devices:", "  - id: HB1", "    geometry: hall-bar", "    length_um: 100", "    width_um: 20", '    files: "HB1/*.dat"',
-    "    columns:", ...r.columns.map((c) => `      ${c}`), `    layout: ${r.layout}`, "    conditions:", `      gate: ${r.gate}`, `      temperature: ${r.temperature}`, "      current: { value: 10 nA }", "---", "",
+    "---",
+    "wafer: TW-1",
+    "run: R1",
+    "grown: 2025-05-01",
+    "devices:",
+    "  - id: HB1",
+    "    geometry: hall-bar",
+    "    length_um: 100",
+    "    width_um: 20",
+    '    files: "HB1/*.dat"',
+    "    columns:",
+    ...r.columns.map((c) => `      ${c}`),
+    `    layout: ${r.layout}`,
+    "    conditions:",
+    `      gate: ${r.gate}`,
+    `      temperature: ${r.temperature}`,
+    "      current: { value: 10 nA }",
+    "---",
+    "",
   ].join("\n");
 }
 const lineOf = (md: string, text: string) => md.split("\n").findIndex((l) => l.includes(text)) + 1;
@@ -38,7 +55,7 @@ async function load(name: string, r: Partial<Rules>): Promise<{ problems: Proble
   await fs.mkdir(path.join(w, "HB1"), { recursive: true });
   await fs.mkdir(path.join(data, "runs"), { recursive: true });
   await fs.writeFile(path.join(data, "runs", "R1.md"), "---\nreactor: Kite\n---\n");
-  await fs.writeFile(path.join(data, "targets.yaml"), "default_grade: g\ngrades:\n  g:\n    peak_mobility: { min: \"1e4 cm^2/(V s)\" }\n");
+  await fs.writeFile(path.join(data, "targets.yaml"), 'default_grade: g\ngrades:\n  g:\n    peak_mobility: { min: "1e4 cm^2/(V s)" }\n');
   for (const f of (await fs.readdir(SRC)).filter((f) => /Vg=0,(80|95)V/.test(f))) await fs.copyFile(path.join(SRC, f), path.join(w, "HB1", f));
   const md = record({ ...RULES, ...r });
   await fs.writeFile(path.join(w, "wafer.md"), md);
@@ -79,7 +96,9 @@ describe("reading instructions: located errors", () => {
   it("a file-name pattern that matches nothing names the file, the rule and its line", async () => {
     const { problems, md } = await load("nomatch", { gate: '{ file_name: "Vgate=(?<value>[-0-9,]+)V", unit: V }' });
     const p = problems.find((q) => /does not match/.test(q.message))!;
-    expect(p.message).toMatch(new RegExp(`file name \`HB1_Vg=0,(80|95)V_\\d{4}\\.dat\` does not match \`gate\\.file_name\` \\(wafers/TW-1/wafer\\.md:${lineOf(md, "      gate:")}\\)`));
+    expect(p.message).toMatch(
+      new RegExp(`file name \`HB1_Vg=0,(80|95)V_\\d{4}\\.dat\` does not match \`gate\\.file_name\` \\(wafers/TW-1/wafer\\.md:${lineOf(md, "      gate:")}\\)`),
+    );
   });
   it("a malformed pattern is a located error when the record is read, before any file", async () => {
     const { problems, md } = await load("malformed", { gate: '{ file_name: "Vg=(?<value>[-0-9,]+V", unit: V }' });

@@ -27,11 +27,47 @@ const values = (text: string) => {
 
 describe("accepted exports", () => {
   const cases: [string, string, number[][]][] = [
-    ["semicolons, decimal points (from the header)", "# gate: 0.5 V\nB [T];Rxx [ohm];Rxy [ohm]\n-1.5;612.3;-6241.5\n1.5;612.25;6241.5\n", [[-1.5, 1.5], [612.3, 612.25], [-6241.5, 6241.5]]],
-    ["semicolons, decimal commas (detected)", "B [T];Rxx [ohm]\n-1,5;612,3\n1,5;6,1225E2\n", [[-1.5, 1.5], [612.3, 612.25]]],
-    ["tabs, decimal commas (detected)", "B [T]\tRxx [ohm]\n-1,5\t612,3\n,5\t612,\n", [[-1.5, 0.5], [612.3, 612]]],
-    ["declared: # separator: ; and # decimal: ,", "# separator: ;\n# decimal: ,\nB [T];Rxx [ohm]\n-1;612\n1;613\n", [[-1, 1], [612, 613]]],
-    ["declared in words", "# Separator: semicolon\n# Decimal: comma\nB [T];Rxx [ohm]\n-1,25;612\n1;613\n", [[-1.25, 1], [612, 613]]],
+    [
+      "semicolons, decimal points (from the header)",
+      "# gate: 0.5 V\nB [T];Rxx [ohm];Rxy [ohm]\n-1.5;612.3;-6241.5\n1.5;612.25;6241.5\n",
+      [
+        [-1.5, 1.5],
+        [612.3, 612.25],
+        [-6241.5, 6241.5],
+      ],
+    ],
+    [
+      "semicolons, decimal commas (detected)",
+      "B [T];Rxx [ohm]\n-1,5;612,3\n1,5;6,1225E2\n",
+      [
+        [-1.5, 1.5],
+        [612.3, 612.25],
+      ],
+    ],
+    [
+      "tabs, decimal commas (detected)",
+      "B [T]\tRxx [ohm]\n-1,5\t612,3\n,5\t612,\n",
+      [
+        [-1.5, 0.5],
+        [612.3, 612],
+      ],
+    ],
+    [
+      "declared: # separator: ; and # decimal: ,",
+      "# separator: ;\n# decimal: ,\nB [T];Rxx [ohm]\n-1;612\n1;613\n",
+      [
+        [-1, 1],
+        [612, 613],
+      ],
+    ],
+    [
+      "declared in words",
+      "# Separator: semicolon\n# Decimal: comma\nB [T];Rxx [ohm]\n-1,25;612\n1;613\n",
+      [
+        [-1.25, 1],
+        [612, 613],
+      ],
+    ],
     ["declared tab with decimal points", "# separator: tab\n# decimal: point\nB [T]\tRxx [ohm]\n-1.25\t612\n", [[-1.25], [612]]],
     ["quoted semicolon cells (csv-parse path)", 'B [T];Rxx [ohm]\n"-1,5";"612,3"\n', [[-1.5], [612.3]]],
   ];
@@ -60,26 +96,40 @@ describe("messages that name the separator or decimal problem", () => {
     return o.error;
   };
   it("decimal commas in a comma-separated file", () => {
-    expect(error("B [T],Rxx [ohm]\n-1,5,612,3\n")).toBe('t.csv:2: row has more cells than the header: numbers with a decimal comma in a comma-separated file cannot be told from separators (expected 2 cells as in the header, found 4) — export with semicolons (then "# separator: ;") or tabs between cells, or with decimal points');
+    expect(error("B [T],Rxx [ohm]\n-1,5,612,3\n")).toBe(
+      't.csv:2: row has more cells than the header: numbers with a decimal comma in a comma-separated file cannot be told from separators (expected 2 cells as in the header, found 4) — export with semicolons (then "# separator: ;") or tabs between cells, or with decimal points',
+    );
   });
   it("rows separated by semicolons under a comma header", () => {
-    expect(error("B [T],Rxx [ohm],Rxy [ohm]\n-1;2;3\n")).toBe('t.csv:2: row is separated by semicolons but the header by commas (expected 3 cells as in the header, found 1) — use one separator throughout (declare it with "# separator: ;" before the header)');
+    expect(error("B [T],Rxx [ohm],Rxy [ohm]\n-1;2;3\n")).toBe(
+      't.csv:2: row is separated by semicolons but the header by commas (expected 3 cells as in the header, found 1) — use one separator throughout (declare it with "# separator: ;" before the header)',
+    );
   });
   it("a decimal comma among decimal points", () => {
-    expect(error("B [T];Rxx [ohm]\n-1.5;612.3\n1,5;612.3\n")).toBe('t.csv:3: column 1 (B): cell is not a finite number (expected a number such as 1.25e-3, found "1,5") — the cell has a decimal comma but the file uses decimal points elsewhere: write every number the same way, or declare "# decimal: ," (with semicolons or tabs between cells)');
+    expect(error("B [T];Rxx [ohm]\n-1.5;612.3\n1,5;612.3\n")).toBe(
+      't.csv:3: column 1 (B): cell is not a finite number (expected a number such as 1.25e-3, found "1,5") — the cell has a decimal comma but the file uses decimal points elsewhere: write every number the same way, or declare "# decimal: ," (with semicolons or tabs between cells)',
+    );
   });
   it("a decimal point in a file declared with decimal commas", () => {
-    expect(error("# decimal: ,\nB [T];Rxx [ohm]\n-1,5;612,3\n1.5;612,3\n")).toMatch(/t\.csv:4: column 1 \(B\): cell is not a finite number .*found "1\.5"\) — the cell has a decimal point but the file uses decimal commas/);
+    expect(error("# decimal: ,\nB [T];Rxx [ohm]\n-1,5;612,3\n1.5;612,3\n")).toMatch(
+      /t\.csv:4: column 1 \(B\): cell is not a finite number .*found "1\.5"\) — the cell has a decimal point but the file uses decimal commas/,
+    );
   });
   it("a decimal comma declared with comma separators", () => {
-    expect(error("# decimal: ,\nB [T],Rxx [ohm]\n1,2\n")).toBe('t.csv:1: # decimal: a decimal comma with commas between cells cannot be read (expected semicolons or tabs between cells when numbers use a decimal comma, found comma separator and decimal comma) — export with semicolons (then "# separator: ;") or tabs between cells, or with decimal points');
+    expect(error("# decimal: ,\nB [T],Rxx [ohm]\n1,2\n")).toBe(
+      't.csv:1: # decimal: a decimal comma with commas between cells cannot be read (expected semicolons or tabs between cells when numbers use a decimal comma, found comma separator and decimal comma) — export with semicolons (then "# separator: ;") or tabs between cells, or with decimal points',
+    );
   });
   it("an unknown declaration", () => {
-    expect(error("# separator: pipe\nB [T]|Rxx [ohm]\n1|2\n")).toMatch(/^t\.csv:1: # separator: cannot read the separator declaration \(expected ",", "comma", ";", "semicolon", "tab", "\\\\t", found "pipe"\)/);
+    expect(error("# separator: pipe\nB [T]|Rxx [ohm]\n1|2\n")).toMatch(
+      /^t\.csv:1: # separator: cannot read the separator declaration \(expected ",", "comma", ";", "semicolon", "tab", "\\\\t", found "pipe"\)/,
+    );
     expect(error("# decimal: ;\nB [T];Rxx [ohm]\n1;2\n")).toMatch(/^t\.csv:1: # decimal: cannot read the decimal declaration/);
   });
   it("a header with both semicolons and commas", () => {
-    expect(error("B [T];Rxx [ohm],Rxy [ohm]\n1;2;3\n")).toMatch(/^t\.csv:1: the header holds both semicolons and commas, so the separator is unclear .* — use one separator throughout, or declare it before the header, e\.g\. "# separator: ;"$/);
+    expect(error("B [T];Rxx [ohm],Rxy [ohm]\n1;2;3\n")).toMatch(
+      /^t\.csv:1: the header holds both semicolons and commas, so the separator is unclear .* — use one separator throughout, or declare it before the header, e\.g\. "# separator: ;"$/,
+    );
   });
 });
 

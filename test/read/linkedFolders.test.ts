@@ -101,7 +101,10 @@ describe("symbolic links inside a wafer folder", () => {
     mkdirSync(path.join(d, "wafers", "example-02"));
     mkdirSync(path.join(d, "store"));
     cpSync(path.join(innerRoot, "drive", "transport"), path.join(d, "store", "transport"), { recursive: true });
-    writeFileSync(path.join(d, "wafers", "example-02", "wafer.md"), readFileSync(path.join(w, "wafer.md"), "utf8").replace(/^wafer: example-01 /m, "wafer: example-02 "));
+    writeFileSync(
+      path.join(d, "wafers", "example-02", "wafer.md"),
+      readFileSync(path.join(w, "wafer.md"), "utf8").replace(/^wafer: example-01 /m, "wafer: example-02 "),
+    );
     symlinkSync("../../store/transport", path.join(d, "wafers", "example-02", "transport"));
     symlinkSync("nowhere.csv", path.join(d, "wafers", "example-02", "gone.csv"));
     symlinkSync("loop-b", path.join(d, "wafers", "example-02", "loop-a"));
@@ -122,8 +125,13 @@ describe("symbolic links inside a wafer folder", () => {
   });
 
   it("a link to a folder inside the data folder, a dangling link and a loop: each named with its reason", () => {
-    expect(inner.problems.filter((p) => p.message.includes("does not match")), "the second wafer reads").toEqual([]);
-    expect(formatProblem(at("wafers/example-02/transport")!)).toMatch(/symbolic link skipped: it leads to a folder, and links to folders inside a wafer folder are not followed.*found a link to "store\/transport"/);
+    expect(
+      inner.problems.filter((p) => p.message.includes("does not match")),
+      "the second wafer reads",
+    ).toEqual([]);
+    expect(formatProblem(at("wafers/example-02/transport")!)).toMatch(
+      /symbolic link skipped: it leads to a folder, and links to folders inside a wafer folder are not followed.*found a link to "store\/transport"/,
+    );
     expect(formatProblem(at("wafers/example-02/gone.csv")!)).toMatch(/symbolic link skipped: it is dangling.*"nowhere\.csv"/);
     expect(formatProblem(at("wafers/example-02/loop-a")!)).toMatch(/symbolic link skipped: it is a loop of links/);
     for (const p of inner.problems.filter((q) => q.message.startsWith("symbolic link skipped"))) expect(p.severity).toBe("warning");

@@ -12,7 +12,8 @@ function greyLevels(width: number, height: number, value: (x: number, y: number)
 }
 
 const greyPng8 = (width: number, height: number, value: (x: number, y: number) => number) => encodeGreyPng(greyLevels(width, height, value), width, height, 8);
-const greyPng16 = (width: number, height: number, value: (x: number, y: number) => number) => encodeGreyPng(greyLevels(width, height, value), width, height, 16);
+const greyPng16 = (width: number, height: number, value: (x: number, y: number) => number) =>
+  encodeGreyPng(greyLevels(width, height, value), width, height, 16);
 
 function catchFormat(f: () => unknown): MicrographFormatError {
   try {

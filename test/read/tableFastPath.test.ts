@@ -63,7 +63,11 @@ const PLAIN: [string, string][] = [
   ["empty CRLF lines", "# gate: 0.5 V\r\nB [T],Rxx [ohm],Rxy [ohm]\r\n\r\n-1,1,2\r\n\r\n1,1,2\r\n\r\n"],
   ["tab delimiter", "# gate: 0.5 V\nB [T]\tRxx [ohm]\tRxy [ohm]\n-1\t1\t2\n0\t1.5\t0\n1\t1\t-2\n"],
   ["signs, bare points, exponents, zeros", H + "-.5,+1.,1E5\n-0,0.000,-0e9\n+.25e-3,007.50,1e+2\n5.e1,-5E-1,0.1e1\n"],
-  ["long and extreme numbers (Number() fallback)", H + "0.30000000000000004,12345678901234567890,1e23\n4.9e-324,2.2250738585072014e-308,1.7976931348623157e308\n9007199254740993,-1e-30,123456789012345.6789\n"],
+  [
+    "long and extreme numbers (Number() fallback)",
+    H +
+      "0.30000000000000004,12345678901234567890,1e23\n4.9e-324,2.2250738585072014e-308,1.7976931348623157e308\n9007199254740993,-1e-30,123456789012345.6789\n",
+  ],
   ["many fraction digits", H + "0.000000000000000000000000000001,1.00000000000000000000001,100000000000000000000000e-2\n"],
   ["one column", "# gate: 0.5 V\nB [T]\n1\n2\n"],
 ];
@@ -113,10 +117,18 @@ describe("plain numeric fast path of readTable", () => {
     for (const text of [H, H + "\n\n", (H + "\n\n").replace(/\n/g, "\r\n")]) expectSame(outcome(text), outcome(viaCsvParse(text)));
   });
   it("keeps the exact messages of the csv-parse path", () => {
-    expect(outcome(H + "-1,1,2\n0,1\n")).toEqual({ error: "t.csv:4: row has the wrong number of cells (expected 3 cells as in the header, found 2) — fill or remove the incomplete row" });
-    expect(outcome(H + "-1,1,2\n0,OVLD,2\n")).toEqual({ error: 't.csv:4: column 2 (Rxx): cell is not a finite number (expected a number such as 1.25e-3, found "OVLD") — correct the cell' });
-    expect(outcome(H + "-1,1,2\n0,1e999,2\n")).toEqual({ error: 't.csv:4: column 2 (Rxx): cell is not a finite number (expected a number such as 1.25e-3, found "1e999") — correct the cell' });
-    expect(outcome(H + "\n")).toEqual({ error: "t.csv:2: no data rows after the header (expected at least one row of numbers, found the header only) — add the measured rows or remove the file" });
+    expect(outcome(H + "-1,1,2\n0,1\n")).toEqual({
+      error: "t.csv:4: row has the wrong number of cells (expected 3 cells as in the header, found 2) — fill or remove the incomplete row",
+    });
+    expect(outcome(H + "-1,1,2\n0,OVLD,2\n")).toEqual({
+      error: 't.csv:4: column 2 (Rxx): cell is not a finite number (expected a number such as 1.25e-3, found "OVLD") — correct the cell',
+    });
+    expect(outcome(H + "-1,1,2\n0,1e999,2\n")).toEqual({
+      error: 't.csv:4: column 2 (Rxx): cell is not a finite number (expected a number such as 1.25e-3, found "1e999") — correct the cell',
+    });
+    expect(outcome(H + "\n")).toEqual({
+      error: "t.csv:2: no data rows after the header (expected at least one row of numbers, found the header only) — add the measured rows or remove the file",
+    });
   });
   it("numbers rows by file line across empty lines (LF and CRLF)", () => {
     expect(readTable(H + "\n-1,1,2\n\n0,1,2\n", "t.csv").rowLines).toEqual([4, 6]);
@@ -124,7 +136,10 @@ describe("plain numeric fast path of readTable", () => {
   });
   it("gives cell text on demand and a fresh array per numericColumn call", () => {
     const t = readTable(H + "-1.50,1e3,2\n0,1,2\n", "t.csv");
-    expect(t.rows).toEqual([["-1.50", "1e3", "2"], ["0", "1", "2"]]);
+    expect(t.rows).toEqual([
+      ["-1.50", "1e3", "2"],
+      ["0", "1", "2"],
+    ]);
     const a = numericColumn(t, t.columns[1], 1e-3);
     a[0] = 99;
     expect(Array.from(numericColumn(t, t.columns[1], 1e-3))).toEqual([1, 0.001]);
@@ -145,7 +160,32 @@ describe("parsePlainNumber is bit-identical to Number()", () => {
     expect(Object.is(v, Number(s)), `${s}: ${v} vs ${Number(s)}`).toBe(true);
   };
   it("on hand-picked hard cases (halfway points, subnormals, the 2^53 edge, 17+ digits)", () => {
-    for (const s of ["9007199254740992", "9007199254740993", "9007199254740991.5", "2.2250738585072011e-308", "2.2250738585072012e-308", "5e-324", "2.4703282292062327e-324", "1.7976931348623157e308", "0.1", "0.2", "0.3", "123456789012345678e-30", "1e22", "1e23", "1e-22", "1e-23", "8.98846567431158e307", "-0", "-0.0e-400", "0e400", ".5", "5.", "+1"]) same(s);
+    for (const s of [
+      "9007199254740992",
+      "9007199254740993",
+      "9007199254740991.5",
+      "2.2250738585072011e-308",
+      "2.2250738585072012e-308",
+      "5e-324",
+      "2.4703282292062327e-324",
+      "1.7976931348623157e308",
+      "0.1",
+      "0.2",
+      "0.3",
+      "123456789012345678e-30",
+      "1e22",
+      "1e23",
+      "1e-22",
+      "1e-23",
+      "8.98846567431158e307",
+      "-0",
+      "-0.0e-400",
+      "0e400",
+      ".5",
+      "5.",
+      "+1",
+    ])
+      same(s);
   });
   it("on random doubles printed by toString, toExponential and toFixed", () => {
     fc.assert(
@@ -159,7 +199,12 @@ describe("parsePlainNumber is bit-identical to Number()", () => {
   });
   it("on random digit strings", () => {
     const digits = (n: number) => fc.string({ unit: fc.constantFrom(..."0123456789"), maxLength: n });
-    const text = fc.tuple(fc.constantFrom("", "+", "-"), digits(24), fc.option(digits(24)), fc.option(fc.tuple(fc.constantFrom("e", "E"), fc.constantFrom("", "+", "-"), digits(4))));
+    const text = fc.tuple(
+      fc.constantFrom("", "+", "-"),
+      digits(24),
+      fc.option(digits(24)),
+      fc.option(fc.tuple(fc.constantFrom("e", "E"), fc.constantFrom("", "+", "-"), digits(4))),
+    );
     fc.assert(
       fc.property(text, ([sign, int, frac, exp]) => {
         const s = sign + int + (frac === null ? "" : "." + frac) + (exp === null ? "" : exp.join(""));
@@ -172,6 +217,7 @@ describe("parsePlainNumber is bit-identical to Number()", () => {
     );
   });
   it("refuses what is not one plain number", () => {
-    for (const s of ["", " 1", "1 ", "NaN", "Infinity", "0x10", "1e", ".", "-", "1..2", "1,2", "1\n", "1e999", "1_000"]) expect(parsePlainNumber(s), s).toBeUndefined();
+    for (const s of ["", " 1", "1 ", "NaN", "Infinity", "0x10", "1e", ".", "-", "1..2", "1,2", "1\n", "1e999", "1_000"])
+      expect(parsePlainNumber(s), s).toBeUndefined();
   });
 });

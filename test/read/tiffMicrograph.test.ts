@@ -53,7 +53,14 @@ describe("greyscale TIFF decoding", () => {
   it("a 16-bit TIFF and a 16-bit PNG of the same samples decode to the same intensities", () => {
     const s = samples(65535);
     const t = decodeTiffMicrograph(writeTiff({ width: W, height: H, samples: s, bits: 16, format: "uint", compression: "deflate" }));
-    const p = decodeMicrograph(micrographPng(s.map((v) => v / 65535), W, H, 16));
+    const p = decodeMicrograph(
+      micrographPng(
+        s.map((v) => v / 65535),
+        W,
+        H,
+        16,
+      ),
+    );
     expect(Array.from(t.pixels)).toEqual(Array.from(p.pixels));
   });
   it("WhiteIsZero images are inverted", () => {
@@ -67,7 +74,13 @@ describe("greyscale TIFF decoding", () => {
     const out: number[] = [];
     for (let i = 0; i < enc.length; ) {
       const n = enc[i] > 127 ? enc[i] - 256 : enc[i];
-      if (n >= 0) { out.push(...enc.subarray(i + 1, i + 2 + n)); i += n + 2; } else { for (let k = 0; k < 1 - n; k++) out.push(enc[i + 1]); i += 2; }
+      if (n >= 0) {
+        out.push(...enc.subarray(i + 1, i + 2 + n));
+        i += n + 2;
+      } else {
+        for (let k = 0; k < 1 - n; k++) out.push(enc[i + 1]);
+        i += 2;
+      }
     }
     expect(out).toEqual(Array.from(src));
   });
@@ -79,7 +92,9 @@ describe("pixel size from the resolution tags", () => {
     expect(m.pixelSize.nm).toBeCloseTo(0.0325, 6);
   });
   it("reads pixels per inch (ResolutionUnit 2): 2.54e7 nm per inch", () => {
-    const m = decodeTiffMicrograph(writeTiff({ width: W, height: H, samples: samples(255), bits: 8, format: "uint", resolution: { perUnit: 2.54e7 / 0.05, unit: 2 } }));
+    const m = decodeTiffMicrograph(
+      writeTiff({ width: W, height: H, samples: samples(255), bits: 8, format: "uint", resolution: { perUnit: 2.54e7 / 0.05, unit: 2 } }),
+    );
     expect(m.pixelSize.nm).toBeCloseTo(0.05, 6);
   });
   it("ignores 72 per inch (a display default) and a unitless resolution, with the reason", () => {
@@ -104,7 +119,11 @@ describe("refusals, before any decompression where it matters", () => {
   };
   it("refuses a declared pixel count above max_image_pixels from the header alone", () => {
     // 100 × 100 declared, limit 5000: refused though the strips are tiny.
-    refuse(writeTiff({ width: 100, height: 100, samples: new Array(10000).fill(0), bits: 8, format: "uint", compression: "deflate" }), /too large: 100 × 100 = 10,000/, 5000);
+    refuse(
+      writeTiff({ width: 100, height: 100, samples: new Array(10000).fill(0), bits: 8, format: "uint", compression: "deflate" }),
+      /too large: 100 × 100 = 10,000/,
+      5000,
+    );
   });
   it("refuses colour, and damaged data", () => {
     refuse(writeTiff({ width: W, height: H, samples: samples(255), bits: 8, format: "uint", photometric: 2 }), /RGB colour TIFF/);
@@ -149,7 +168,11 @@ describe("hostile TIFF structure (review findings)", () => {
     file.writeUInt32LE(b.length, valueAt(file, 273));
     file.writeUInt32LE(short.length, valueAt(file, 279));
     expect(() => decodeTiffMicrograph(file)).toThrow(/inflates to 100 bytes, not the 256|damaged/);
-    try { decodeTiffMicrograph(file); } catch (e) { expect((e as Error).message).toMatch(/inflates to 100 bytes/); }
+    try {
+      decodeTiffMicrograph(file);
+    } catch (e) {
+      expect((e as Error).message).toMatch(/inflates to 100 bytes/);
+    }
   });
 });
 
@@ -195,7 +218,14 @@ describe("LZW strips and tiles, and the size of every block", () => {
     const enc = lzwEncode(src);
     const out = new Uint8Array(src.length);
     // utif2's internal LZW decoder (the one UTIF.decodeImage calls for compression 5, with its arguments).
-    (UTIF.decode as unknown as { _decodeLZW: (d: Uint8Array, off: number, len: number, tgt: Uint8Array, toff: number, bits: number) => void })._decodeLZW(enc, 0, enc.length, out, 0, 8);
+    (UTIF.decode as unknown as { _decodeLZW: (d: Uint8Array, off: number, len: number, tgt: Uint8Array, toff: number, bits: number) => void })._decodeLZW(
+      enc,
+      0,
+      enc.length,
+      out,
+      0,
+      8,
+    );
     expect(Buffer.from(out).equals(src)).toBe(true);
   });
   it("an LZW image of 200 × 150 pixels (12-bit codes, table resets), with and without the predictor, decodes to its samples", () => {
@@ -207,7 +237,9 @@ describe("LZW strips and tiles, and the size of every block", () => {
       expect(Array.from(m.pixels, (p) => Math.round(p * 255))).toEqual(s);
     }
     const s16 = s.map((v) => v * 257);
-    const m16 = decodeTiffMicrograph(writeTiff({ width: w, height: h, samples: s16, bits: 16, format: "uint", compression: "lzw", predictor: 2, littleEndian: false }));
+    const m16 = decodeTiffMicrograph(
+      writeTiff({ width: w, height: h, samples: s16, bits: 16, format: "uint", compression: "lzw", predictor: 2, littleEndian: false }),
+    );
     expect(Array.from(m16.pixels, (p) => Math.round(p * 65535))).toEqual(s16);
   });
   it("tiled images (edge tiles padded) decode to their samples, for every compression", () => {
@@ -234,26 +266,96 @@ describe("LZW strips and tiles, and the size of every block", () => {
       const random = bytesFrom(seed, 120);
       refuse(withStrip(random, "lzw"), /strip 1: /);
       // Even after a proper clear code and a literal, random codes are refused.
-      refuse(withStrip(Buffer.concat([codes([[256, 9], [65, 9]]), random]), "lzw"), /strip 1: /);
+      refuse(
+        withStrip(
+          Buffer.concat([
+            codes([
+              [256, 9],
+              [65, 9],
+            ]),
+            random,
+          ]),
+          "lzw",
+        ),
+        /strip 1: /,
+      );
     }
   });
   it("each broken stream says what was found and at which byte", () => {
-    refuse(withStrip(codes([[65, 9], [257, 9]]), "lzw"), /strip 1: the first code is 65, not the clear code 256 .* at byte 1 of its 3/);
-    refuse(withStrip(codes([[256, 9], [300, 9]]), "lzw"), /the code 300 follows a clear code, where only a literal byte may/);
-    refuse(withStrip(codes([[256, 9], [65, 9], [300, 9]]), "lzw"), /the code 300 is beyond the 258 entries of the table built so far/);
-    refuse(withStrip(codes([[256, 9], [65, 9], [66, 9], [257, 9]]), "lzw"), /the end code comes after 2 of the 256 bytes/);
-    refuse(withStrip(codes([[256, 9], [65, 9], [66, 9]]), "lzw"), /the stream ends without its end code after 2 of 256 bytes/);
+    refuse(
+      withStrip(
+        codes([
+          [65, 9],
+          [257, 9],
+        ]),
+        "lzw",
+      ),
+      /strip 1: the first code is 65, not the clear code 256 .* at byte 1 of its 3/,
+    );
+    refuse(
+      withStrip(
+        codes([
+          [256, 9],
+          [300, 9],
+        ]),
+        "lzw",
+      ),
+      /the code 300 follows a clear code, where only a literal byte may/,
+    );
+    refuse(
+      withStrip(
+        codes([
+          [256, 9],
+          [65, 9],
+          [300, 9],
+        ]),
+        "lzw",
+      ),
+      /the code 300 is beyond the 258 entries of the table built so far/,
+    );
+    refuse(
+      withStrip(
+        codes([
+          [256, 9],
+          [65, 9],
+          [66, 9],
+          [257, 9],
+        ]),
+        "lzw",
+      ),
+      /the end code comes after 2 of the 256 bytes/,
+    );
+    refuse(
+      withStrip(
+        codes([
+          [256, 9],
+          [65, 9],
+          [66, 9],
+        ]),
+        "lzw",
+      ),
+      /the stream ends without its end code after 2 of 256 bytes/,
+    );
     // More than the strip holds (a bomb, or another image's data): stopped at the strip's size.
     refuse(withStrip(lzwEncode(new Uint8Array(100_000)), "lzw"), /decode to more than the 256 bytes the block holds/);
     // The old (pre-6.0) variant, least significant bit first: its first code does not read as the clear code.
     const msb = lzwEncode(new Uint8Array(256).fill(9));
-    refuse(withStrip(msb.map((b) => parseInt(b.toString(2).padStart(8, "0").split("").reverse().join(""), 2)), "lzw"), /the first code is \d+, not the clear code/);
+    refuse(
+      withStrip(
+        msb.map((b) => parseInt(b.toString(2).padStart(8, "0").split("").reverse().join(""), 2)),
+        "lzw",
+      ),
+      /the first code is \d+, not the clear code/,
+    );
     // The same strip in order decodes.
     expect(decodeTiffMicrograph(withStrip(msb, "lzw")).pixels[0]).toBeCloseTo(9 / 255, 6);
   });
   it("uncompressed and PackBits strips of the wrong size are refused, not read as zeros", () => {
     refuse(withStrip(new Uint8Array(200), "none"), /strip 1 holds 200 bytes, not the 256 its pixels need/);
     refuse(withStrip(packBits(new Uint8Array(200).fill(3)), "packbits"), /strip 1 unpacks to 200 bytes, not the 256/);
-    refuse(withStrip(packBits(new Uint8Array(300).fill(3)), "packbits"), /strip 1: a PackBits repeat of \d+ bytes at byte \d+ runs past the 256 bytes the block holds/);
+    refuse(
+      withStrip(packBits(new Uint8Array(300).fill(3)), "packbits"),
+      /strip 1: a PackBits repeat of \d+ bytes at byte \d+ runs past the 256 bytes the block holds/,
+    );
   });
 });

@@ -25,6 +25,8 @@ describe("UTF-16 text files", () => {
     expect(decode(be).message).toBe("file is UTF-16 text");
   });
   it("a binary file with a stray NUL is still 'looks binary'", () => {
-    expect(decode(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52, 1, 2, 3, 4])).message).toBe("file looks binary");
+    expect(decode(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52, 1, 2, 3, 4])).message).toBe(
+      "file looks binary",
+    );
   });
 });

@@ -39,7 +39,7 @@ describe("lineOfField: exact lines from js-yaml's event positions", () => {
     expect(lineOfField(TEXT, "runs", 1)).toBeUndefined();
     expect(lineOfField("a: [", "a", 1)).toBeUndefined();
   });
-  it("front-matter text that starts with the newline after \"---\" keeps the file's numbering", () => {
+  it('front-matter text that starts with the newline after "---" keeps the file\'s numbering', () => {
     // gray-matter's matter text: "\nwafer: …" with the block starting on file line 2.
     expect(lineOfField("\nwafer: X\nrun: R1\n", "run", 2)).toBe(3);
     expect(lineOfField("\r\nwafer: X\r\nrun: R1\r\n", "run", 2)).toBe(3);

@@ -39,11 +39,15 @@ describe("validateSweep: which columns a sweep needs", () => {
     expect(s.rxy).toBeUndefined();
   });
   it("a gate sweep still needs its longitudinal resistance", () => {
-    expect(message(() => validateSweep(readTable("# field: 0 T\nVg [V],Rxy [ohm]\n0.5,1\n0.6,2\n", "g.csv"), "hall-bar"))).toBe("g.csv:2: missing a column a hall-bar gate sweep needs (expected Rxx (or Vxx with a current), found Vg, Rxy) — add the missing column, or check the device geometry in wafer.md");
+    expect(message(() => validateSweep(readTable("# field: 0 T\nVg [V],Rxy [ohm]\n0.5,1\n0.6,2\n", "g.csv"), "hall-bar"))).toBe(
+      "g.csv:2: missing a column a hall-bar gate sweep needs (expected Rxx (or Vxx with a current), found Vg, Rxy) — add the missing column, or check the device geometry in wafer.md",
+    );
     expect(message(() => validateSweep(readTable("# field: 0 T\nVg [V],Ra [ohm]\n0.5,1\n0.6,2\n", "g.csv"), "van-der-pauw"))).toMatch(/expected Ra and Rb,/);
   });
   it("a field sweep without Rxy is still refused: the Hall analysis needs it", () => {
-    expect(message(() => validateSweep(readTable("# gate: 0.5 V\nB [T],Rxx [ohm]\n-1,2\n1,2\n", "f.csv"), "hall-bar"))).toMatch(/missing a column a hall-bar needs \(expected Rxx and Rxy/);
+    expect(message(() => validateSweep(readTable("# gate: 0.5 V\nB [T],Rxx [ohm]\n-1,2\n1,2\n", "f.csv"), "hall-bar"))).toMatch(
+      /missing a column a hall-bar needs \(expected Rxx and Rxy/,
+    );
   });
 });
 
@@ -56,11 +60,24 @@ describe("a wafer whose gate sweeps have no Rxy column", () => {
     tmps.push(data);
     const dir = path.join(data, "wafers", "ZF-1");
     await fs.mkdir(path.join(dir, "t"), { recursive: true });
-    await fs.writeFile(path.join(dir, "wafer.md"), "---\nwafer: ZF-1\nrun: R1\ngrown: 2025-01-15\ndevices:\n  - id: D1\n    geometry: hall-bar\n    length_um: 80\n    width_um: 20\n    files: \"t/*.csv\"\n---\n");
+    await fs.writeFile(
+      path.join(dir, "wafer.md"),
+      '---\nwafer: ZF-1\nrun: R1\ngrown: 2025-01-15\ndevices:\n  - id: D1\n    geometry: hall-bar\n    length_um: 80\n    width_um: 20\n    files: "t/*.csv"\n---\n',
+    );
     // Parallel-plate gate: n = (C/e)(Vg − V_on), dn/dVg = 5.6e15 m⁻²/V, V_on = 0.3 V (REFERENCES §9 model; values invented).
     const density = (vg: number) => 5.6e15 * (vg - 0.3);
     for (const [i, vg] of [0.6, 0.9, 1.2].entries()) {
-      const rows = hallSweepRows({ density: density(vg), mobility: 10, geometry: "hall-bar", length_um: 80, width_um: 20, maxField: 0.5, points: 101, noise: 1e-5, seed: 7 + i });
+      const rows = hallSweepRows({
+        density: density(vg),
+        mobility: 10,
+        geometry: "hall-bar",
+        length_um: 80,
+        width_um: 20,
+        maxField: 0.5,
+        points: 101,
+        noise: 1e-5,
+        seed: 7 + i,
+      });
       await fs.writeFile(path.join(dir, "t", `field${i}.csv`), formatSweep({ gate: `${vg} V` }, rows));
     }
     // Percolation law σ = A(n − n_p)^p, p = 1.31 (REFERENCES §8), n_p = 4.5e14 m⁻²; insulating (open circuit) below n_p.
@@ -72,7 +89,10 @@ describe("a wafer whose gate sweeps have no Rxy column", () => {
     await fs.writeFile(path.join(dir, "t", "gate_up.csv"), "# field: 0 T\nVg [V],Rxx [ohm]\n" + vgs.map((v) => `${v},${rxx(v)}`).join("\n") + "\n");
     // Recorded as a voltage with the current, 10 nA: V_xx[µV] = R_xx·1e-8·1e6.
     const down = [...vgs].reverse();
-    await fs.writeFile(path.join(dir, "t", "gate_down.csv"), "# field: 0 T\n# current: 10 nA\nVg [V],Vxx [uV]\n" + down.map((v) => `${v},${rxx(v - 0.03) * 1e-2}`).join("\n") + "\n");
+    await fs.writeFile(
+      path.join(dir, "t", "gate_down.csv"),
+      "# field: 0 T\n# current: 10 nA\nVg [V],Vxx [uV]\n" + down.map((v) => `${v},${rxx(v - 0.03) * 1e-2}`).join("\n") + "\n",
+    );
 
     const r = await analyseFolder("ZF-1", { dataDir: data, today: "2026-01-01", siteSettings: DEFAULT_SETTINGS, cacheDir: null, code: "" });
     expect(r.entry.problems.filter((p) => p.severity === "error")).toEqual([]);

@@ -164,23 +164,26 @@ describe("malformed-input corpus", () => {
   });
 });
 
-
 describe("--strict on the command line", () => {
-  it.each(["non-numeric-cell", "yaml-syntax-error", "symlink-outside-data"])("%s: exits 1 with the message and a summary, no stack trace", async (name) => {
-    const tmp = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-strict-"));
-    tmps.push(tmp);
-    const c = await prepareCase(name, tmp);
-    const expected = await expectedLines(name, c.outside);
-    // Without --strict the same input error exits 0 (checked for one case: the exit code does not depend on which error it is; build.test.ts checks it on the demo too).
-    if (name === "non-numeric-cell") {
-      const loose = await cli(["build", "--data", c.data, "--out", c.out]);
-      expect(loose.code).toBe(0);
-    }
-    const strict = await cli(["build", "--data", c.data, "--out", c.out, "--strict"]);
-    expect(strict.code).toBe(1);
-    for (const line of expected) expect(strict.stderr).toContain(line);
-    expect(strict.stdout).toMatch(/\d wafers \(.*\); 1 input error, 0 warnings; [\d.]+ s/);
-    expect(strict.stderr).toMatch(/--strict: 1 input error \(listed above\)/);
-    expect(strict.stderr).not.toMatch(/\n\s+at /);
-  }, 600_000);
+  it.each(["non-numeric-cell", "yaml-syntax-error", "symlink-outside-data"])(
+    "%s: exits 1 with the message and a summary, no stack trace",
+    async (name) => {
+      const tmp = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-strict-"));
+      tmps.push(tmp);
+      const c = await prepareCase(name, tmp);
+      const expected = await expectedLines(name, c.outside);
+      // Without --strict the same input error exits 0 (checked for one case: the exit code does not depend on which error it is; build.test.ts checks it on the demo too).
+      if (name === "non-numeric-cell") {
+        const loose = await cli(["build", "--data", c.data, "--out", c.out]);
+        expect(loose.code).toBe(0);
+      }
+      const strict = await cli(["build", "--data", c.data, "--out", c.out, "--strict"]);
+      expect(strict.code).toBe(1);
+      for (const line of expected) expect(strict.stderr).toContain(line);
+      expect(strict.stdout).toMatch(/\d wafers \(.*\); 1 input error, 0 warnings; [\d.]+ s/);
+      expect(strict.stderr).toMatch(/--strict: 1 input error \(listed above\)/);
+      expect(strict.stderr).not.toMatch(/\n\s+at /);
+    },
+    600_000,
+  );
 });

@@ -58,7 +58,8 @@ describe("a damaged cache entry", () => {
     const opts = { data, out, strict: false, basePath: "/", quiet: true, cache };
     const first = await build(opts, io);
     expect(first.problems.filter((p) => /cache entry/.test(p.message))).toEqual([]);
-    const results = async () => JSON.parse(await fs.readFile(path.join(out, "wafers", "OK-1", "results.json"), "utf8")) as { metrics: Record<string, { value: number | null }> };
+    const results = async () =>
+      JSON.parse(await fs.readFile(path.join(out, "wafers", "OK-1", "results.json"), "utf8")) as { metrics: Record<string, { value: number | null }> };
     const published = (await results()).metrics.peak_mobility.value;
     expect(typeof published).toBe("number");
 
@@ -93,7 +94,9 @@ describe("a damaged cache entry", () => {
     const cache = path.join(tmp(), "stale-cache");
     await fs.cp(HEALTHY_DIR, data, { recursive: true });
     const opts = { data, out, strict: false, basePath: "/", quiet: true, cache };
-    const mobility = async () => (JSON.parse(await fs.readFile(path.join(out, "wafers", "OK-1", "results.json"), "utf8")) as { metrics: Record<string, { value: number }> }).metrics.peak_mobility.value;
+    const mobility = async () =>
+      (JSON.parse(await fs.readFile(path.join(out, "wafers", "OK-1", "results.json"), "utf8")) as { metrics: Record<string, { value: number }> }).metrics
+        .peak_mobility.value;
     await build(opts, io);
     const before = await mobility();
     const entriesA = await entryFiles(cache);
@@ -108,7 +111,9 @@ describe("a damaged cache entry", () => {
     // What a build racing an edit could have stored: the entries made from the old bytes, under the new bytes' key.
     for (const b of entriesB) await fs.copyFile(entriesA.find((a) => a.endsWith(".slim.v8") === b.endsWith(".slim.v8"))!, b);
     const third = await build(opts, io);
-    expect(third.problems.find((p) => /cache entry/.test(p.message))?.message).toMatch(/records wafers\/OK-1\/wafer\.md with other bytes than the file holds now/);
+    expect(third.problems.find((p) => /cache entry/.test(p.message))?.message).toMatch(
+      /records wafers\/OK-1\/wafer\.md with other bytes than the file holds now/,
+    );
     expect(await mobility()).toBe(after);
   }, 90_000);
 

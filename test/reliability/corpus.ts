@@ -24,7 +24,10 @@ export const OUTSIDE = "<OUTSIDE>";
 export const io: BuildIO = { log: () => {}, today: () => TODAY, now: () => STAMP };
 
 export async function caseNames(): Promise<string[]> {
-  return (await fs.readdir(BAD_DIR, { withFileTypes: true })).filter((e) => e.isDirectory()).map((e) => e.name).sort();
+  return (await fs.readdir(BAD_DIR, { withFileTypes: true }))
+    .filter((e) => e.isDirectory())
+    .map((e) => e.name)
+    .sort();
 }
 
 export async function prepareCase(name: string, tmpRoot?: string): Promise<{ tmp: string; data: string; out: string; outside: string }> {
@@ -54,7 +57,10 @@ export async function completeCase(name: string, data: string, outside: string):
 
 export async function expectedLines(name: string, outside: string): Promise<string[]> {
   const text = await fs.readFile(path.join(BAD_DIR, name, "expected.txt"), "utf8");
-  return text.split("\n").filter((l) => l.trim() !== "").map((l) => l.replaceAll(OUTSIDE, JSON.stringify(outside).slice(1, -1)));
+  return text
+    .split("\n")
+    .filter((l) => l.trim() !== "")
+    .map((l) => l.replaceAll(OUTSIDE, JSON.stringify(outside).slice(1, -1)));
 }
 
 export async function buildCase(data: string, out: string): Promise<BuildResult> {

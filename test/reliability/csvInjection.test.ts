@@ -8,7 +8,7 @@ import { makeOutcome, targetsFrom } from "../helpers/outcome.ts";
 
 describe("CSV injection", () => {
   it("neutralises each formula lead character, keeps plain text and numbers as they are", () => {
-    expect(csvField("=HYPERLINK(\"http://x\",\"y\")")).toBe(`"'=HYPERLINK(""http://x"",""y"")"`);
+    expect(csvField('=HYPERLINK("http://x","y")')).toBe(`"'=HYPERLINK(""http://x"",""y"")"`);
     expect(csvField("@SUM(A1:A9)")).toBe(`"'@SUM(A1:A9)"`);
     expect(csvField("+1+cmd|' /C calc'!A0")).toBe(`"'+1+cmd|' /C calc'!A0"`);
     expect(csvField("-2+3")).toBe(`"'-2+3"`);
@@ -33,7 +33,7 @@ grades:
   "@SUM(1+1)":
     turn_on_voltage: { max: "1 V" }
 `);
-    const w = makeOutcome({ id: "W1", grade: "@SUM(1+1)", reactor: "=HYPERLINK(\"http://evil\",\"x\")", devices: { HB1: { turn_on_voltage: -1.5 } } }, targets);
+    const w = makeOutcome({ id: "W1", grade: "@SUM(1+1)", reactor: '=HYPERLINK("http://evil","x")', devices: { HB1: { turn_on_voltage: -1.5 } } }, targets);
     const text = resultsCsv([w]);
     const rows: string[][] = parse(text);
     const col = (name: string) => rows[1][rows[0].indexOf(name)];

@@ -47,7 +47,15 @@ describe("capText and capProblem", () => {
   it("judgeOutcome caps what it adds itself (an unknown 1 MB grade)", () => {
     const grade = "g".repeat(1_000_000);
     const record = { file: "wafers/W/wafer.md", grade, waivers: [], settings: DEFAULT_SETTINGS, settingOverrides: {} } as never;
-    const o = judgeOutcome({ folder: "W", record, problems: [], files: [] }, undefined, { targets: { defaultGrade: "a", grades: { a: {} }, file: "targets.yaml" }, sitewideErrors: [], siteOverrides: {}, version: "0", dataDir: "", today: "2025-06-01", siteSettings: {} } as never);
+    const o = judgeOutcome({ folder: "W", record, problems: [], files: [] }, undefined, {
+      targets: { defaultGrade: "a", grades: { a: {} }, file: "targets.yaml" },
+      sitewideErrors: [],
+      siteOverrides: {},
+      version: "0",
+      dataDir: "",
+      today: "2025-06-01",
+      siteSettings: {},
+    } as never);
     expect(o.problems).toHaveLength(1);
     expect(formatProblem(o.problems[0]).length).toBeLessThan(1000);
     expect(o.judgement.reasons.join("").length).toBeLessThan(1000);

@@ -35,7 +35,11 @@ afterAll(() => {
 });
 
 function git(cwd: string, args: string[], env: Record<string, string> = {}): string {
-  return execFileSync("git", args, { cwd, env: { ...process.env, ...ENV, GIT_AUTHOR_EMAIL: "a@example.invalid", GIT_COMMITTER_NAME: "C", GIT_COMMITTER_EMAIL: "c@example.invalid", ...env }, encoding: "utf8" });
+  return execFileSync("git", args, {
+    cwd,
+    env: { ...process.env, ...ENV, GIT_AUTHOR_EMAIL: "a@example.invalid", GIT_COMMITTER_NAME: "C", GIT_COMMITTER_EMAIL: "c@example.invalid", ...env },
+    encoding: "utf8",
+  });
 }
 
 /** A repository with the data folder "d/" inside it; returns its root. */
@@ -101,7 +105,21 @@ describe("real commits whose message, author and path hold separators and fake f
 
 /** NUL-free text mixing arbitrary Unicode with the characters and strings a naive parser would split on. */
 function text(): fc.Arbitrary<string> {
-  const special = fc.constantFrom("\x1e", "\x1f", "\n", "\n\n", "\r", " ", FAKE_HASH, "M", "\nM", "R100", "C075", "2024-01-01T00:00:00+00:00", "Invented QA Lead");
+  const special = fc.constantFrom(
+    "\x1e",
+    "\x1f",
+    "\n",
+    "\n\n",
+    "\r",
+    " ",
+    FAKE_HASH,
+    "M",
+    "\nM",
+    "R100",
+    "C075",
+    "2024-01-01T00:00:00+00:00",
+    "Invented QA Lead",
+  );
   return fc.array(fc.oneof(fc.string({ unit: "binary", maxLength: 8 }), special), { maxLength: 6 }).map((parts) => parts.join("").replace(/\0/g, ""));
 }
 
@@ -117,7 +135,14 @@ interface Synth {
 
 const hex = (n: number) => fc.string({ unit: fc.constantFrom(..."0123456789abcdef"), minLength: n, maxLength: n });
 const iso = fc
-  .record({ y: fc.integer({ min: 1970, max: 2099 }), mo: fc.integer({ min: 1, max: 12 }), d: fc.integer({ min: 1, max: 28 }), h: fc.integer({ min: 0, max: 23 }), mi: fc.integer({ min: 0, max: 59 }), oh: fc.integer({ min: -12, max: 14 }) })
+  .record({
+    y: fc.integer({ min: 1970, max: 2099 }),
+    mo: fc.integer({ min: 1, max: 12 }),
+    d: fc.integer({ min: 1, max: 28 }),
+    h: fc.integer({ min: 0, max: 23 }),
+    mi: fc.integer({ min: 0, max: 59 }),
+    oh: fc.integer({ min: -12, max: 14 }),
+  })
   .map(({ y, mo, d, h, mi, oh }) => {
     const p = (n: number) => String(Math.abs(n)).padStart(2, "0");
     return `${y}-${p(mo)}-${p(d)}T${p(h)}:${p(mi)}:${p(mi)}${oh < 0 ? "-" : "+"}${p(oh)}:00`;
@@ -127,7 +152,15 @@ const entry = fc.oneof(
   fc.record({ status: fc.constantFrom("A", "M", "D", "T"), paths: fc.tuple(filePath) }),
   fc.record({ status: fc.constantFrom("R100", "C075", "R050"), paths: fc.tuple(filePath, filePath) }),
 );
-const commit: fc.Arbitrary<Synth> = fc.record({ hash: fc.oneof(hex(40), hex(64)), short: fc.integer({ min: 4, max: 12 }), date: iso, committed: iso, author: text(), subject: text(), entries: fc.array(entry, { maxLength: 5 }) });
+const commit: fc.Arbitrary<Synth> = fc.record({
+  hash: fc.oneof(hex(40), hex(64)),
+  short: fc.integer({ min: 4, max: 12 }),
+  date: iso,
+  committed: iso,
+  author: text(),
+  subject: text(),
+  entries: fc.array(entry, { maxLength: 5 }),
+});
 
 /** The bytes git writes for these commits (git-log(1): -z ends every field and path with NUL; a newline comes before a commit's file list). */
 function serialise(commits: Synth[]): Buffer {
@@ -154,30 +187,46 @@ function parseInChunks(bytes: Buffer, cuts: number[], prefix: string): GitCommit
 
 describe("the parser on synthesised byte streams", () => {
   it("property: every commit comes back exactly, however the bytes are cut into chunks", () => {
-    const prop = fc.property(fc.array(commit, { maxLength: 6 }), fc.array(fc.double({ min: 0, max: 1, noNaN: true }), { maxLength: 8 }), fc.constantFrom("", "d/", "lab data/"), (commits, cuts, prefix) => {
-      const got = parseInChunks(serialise(commits), cuts, prefix);
-      const files = (c: Synth) => c.entries.flatMap((e) => e.paths);
-      expect(got).toEqual(
-        commits.map((c) => ({
-          hash: c.hash,
-          shortHash: c.hash.slice(0, c.short),
-          date: c.date,
-          committedAt: c.committed,
-          author: c.author,
-          subject: c.subject,
-          files: files(c),
-          // Data-folder paths: those under the prefix, with it removed (the whole list when the data folder is the repository).
-          dataFiles: files(c).filter((f) => f.startsWith(prefix)).map((f) => f.slice(prefix.length)),
-        })),
-      );
-    });
+    const prop = fc.property(
+      fc.array(commit, { maxLength: 6 }),
+      fc.array(fc.double({ min: 0, max: 1, noNaN: true }), { maxLength: 8 }),
+      fc.constantFrom("", "d/", "lab data/"),
+      (commits, cuts, prefix) => {
+        const got = parseInChunks(serialise(commits), cuts, prefix);
+        const files = (c: Synth) => c.entries.flatMap((e) => e.paths);
+        expect(got).toEqual(
+          commits.map((c) => ({
+            hash: c.hash,
+            shortHash: c.hash.slice(0, c.short),
+            date: c.date,
+            committedAt: c.committed,
+            author: c.author,
+            subject: c.subject,
+            files: files(c),
+            // Data-folder paths: those under the prefix, with it removed (the whole list when the data folder is the repository).
+            dataFiles: files(c)
+              .filter((f) => f.startsWith(prefix))
+              .map((f) => f.slice(prefix.length)),
+          })),
+        );
+      },
+    );
     fc.assert(prop, { numRuns: 400, seed: 1302 });
   });
 
   it("refuses, rather than guesses, a stream that is cut short or has a field where a status should be", () => {
-    const one: Synth = { hash: "a".repeat(40), short: 7, date: "2024-01-01T00:00:00+00:00", committed: "2024-01-01T00:00:00+00:00", author: "A", subject: "s", entries: [{ status: "M", paths: ["x"] }] };
+    const one: Synth = {
+      hash: "a".repeat(40),
+      short: 7,
+      date: "2024-01-01T00:00:00+00:00",
+      committed: "2024-01-01T00:00:00+00:00",
+      author: "A",
+      subject: "s",
+      entries: [{ status: "M", paths: ["x"] }],
+    };
     const bytes = serialise([one]);
-    for (const cut of [3, 41, bytes.length - 1, bytes.length - 2]) expect(() => parseInChunks(bytes.subarray(0, cut), [], "")).toThrow(/could not be read at byte/);
+    for (const cut of [3, 41, bytes.length - 1, bytes.length - 2])
+      expect(() => parseInChunks(bytes.subarray(0, cut), [], "")).toThrow(/could not be read at byte/);
     expect(() => parseInChunks(Buffer.concat([bytes, Buffer.from("Invented QA Lead\0")]), [], "")).toThrow(/expected a commit hash or a file status/);
     expect(() => parseInChunks(Buffer.from(`${"a".repeat(40)}\0abc\0` + "2024\0".repeat(2) + "A\0s\0"), [], "")).toThrow(/short hash/);
   });

@@ -14,7 +14,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { build } from "../../src/cli/build.ts";
 import { jsonForScript } from "../../src/publish/charts.ts";
 import { renderNotes } from "../../src/publish/markdown.ts";
-import { HEALTHY_DIR, io, } from "./corpus.ts";
+import { HEALTHY_DIR, io } from "./corpus.ts";
 
 const X = {
   script: "<script>window.__pwned=1;alert('script')</script>",
@@ -44,7 +44,9 @@ beforeAll(async () => {
   await fs.writeFile(path.join(w, "transport", HOSTILE_FILE), sweep.replace("0.50 V", "0.80 V"));
   await fs.writeFile(path.join(w, "transport", "broken.csv"), `# gate: 0.5 V\nB [T],${"Rxx<script>"} [ohm]\n1,2\n`);
   await fs.writeFile(path.join(w, "xrd", "p.csv"), `# reflection: 0 0 4\nlayer,omega [deg],two_theta [deg]\n${JSON.stringify(X.close)},34.5,69.1\n`);
-  await fs.writeFile(path.join(w, "wafer.md"), `---
+  await fs.writeFile(
+    path.join(w, "wafer.md"),
+    `---
 wafer: EVIL-1.a_b
 run: R1
 grown: 2024-05-02
@@ -67,8 +69,12 @@ ${X.img}
 ${X.link} and [ok](https://example.invalid/) and <a href="javascript:alert('raw')">raw</a>
 
 ${X.quote} ${X.close} ${X.amp}
-`);
-  await fs.writeFile(path.join(data, "runs", "R1.md"), `---\nreactor: ${yamlString(X.script)}\nstarted: ${yamlString(X.img)}\nnote: ${yamlString(X.quote)}\n---\n\n${ALL}\n`);
+`,
+  );
+  await fs.writeFile(
+    path.join(data, "runs", "R1.md"),
+    `---\nreactor: ${yamlString(X.script)}\nstarted: ${yamlString(X.img)}\nnote: ${yamlString(X.quote)}\n---\n\n${ALL}\n`,
+  );
   out = path.join(tmp, "site");
   const r = await build({ data, out, strict: false, basePath: "/", quiet: true }, io);
   expect(r.ok).toBe(true);
@@ -164,10 +170,17 @@ describe("in headless Chromium", () => {
       const dialogs: string[] = [];
       const errors: string[] = [];
       const outside: string[] = [];
-      page.on("dialog", (d) => { dialogs.push(d.message()); void d.dismiss(); });
-      page.on("console", (m) => { if (m.type() === "error") errors.push(m.text()); });
+      page.on("dialog", (d) => {
+        dialogs.push(d.message());
+        void d.dismiss();
+      });
+      page.on("console", (m) => {
+        if (m.type() === "error") errors.push(m.text());
+      });
       page.on("pageerror", (e) => errors.push(String(e)));
-      page.on("request", (r) => { if (!r.url().startsWith(origin) && !r.url().startsWith("data:")) outside.push(r.url()); });
+      page.on("request", (r) => {
+        if (!r.url().startsWith(origin) && !r.url().startsWith("data:")) outside.push(r.url());
+      });
       for (const p of ["wafers/EVIL-1.a_b/", "runs/R1/", "", "wafers/OK-1/", "targets/"]) {
         await page.goto(`${origin}/${p}`, { waitUntil: "load" });
         await page.waitForTimeout(300);

@@ -50,10 +50,12 @@ describe("raw copies", () => {
 
 describe("Markdown notes", () => {
   it("an outside picture becomes a link labelled with its alt text; nothing on the page would fetch it", async () => {
-    expect(renderNotes("See ![supplier logo](https://pictures.invalid/logo.png \"their logo\").")).toBe(
+    expect(renderNotes('See ![supplier logo](https://pictures.invalid/logo.png "their logo").')).toBe(
       '<p>See <a class="note-image" href="https://pictures.invalid/logo.png" title="their logo">[picture: supplier logo]</a>.</p>\n',
     );
-    expect(renderNotes("![](//pictures.invalid/x.png)")).toBe('<p><a class="note-image" href="//pictures.invalid/x.png">[picture: //pictures.invalid/x.png]</a></p>\n');
+    expect(renderNotes("![](//pictures.invalid/x.png)")).toBe(
+      '<p><a class="note-image" href="//pictures.invalid/x.png">[picture: //pictures.invalid/x.png]</a></p>\n',
+    );
     expect(renderNotes("![a](images/a.png)")).toBe('<p><a class="note-image" href="images/a.png">[picture: a]</a></p>\n');
     // An inline data: picture needs no request, and the pages' policy allows it (img-src 'self' data:).
     expect(renderNotes("![dot](data:image/png;base64,iVBORw0KGgo=)")).toBe('<p><img src="data:image/png;base64,iVBORw0KGgo=" alt="dot"></p>\n');

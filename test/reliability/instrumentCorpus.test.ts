@@ -54,7 +54,13 @@ function convert(file: string, text: string): Converted | undefined {
   const preamble = ["Logger export", "Operator\tnobody", ...kept];
   const header = cells.map((c) => c.replace(HEADER, "$1 ($2)")).join("\t");
   const body = lines.slice(h + 1).map((l) => l.split(",").join("\t"));
-  return { name, text: [...preamble, header, ...body].join("\n"), headerShift: preamble.length - h, origHeader: h + 1, mapping: cells.map((c) => `"${c.replace(HEADER, "$1 ($2)")}": "${c}"`) };
+  return {
+    name,
+    text: [...preamble, header, ...body].join("\n"),
+    headerShift: preamble.length - h,
+    origHeader: h + 1,
+    mapping: cells.map((c) => `"${c.replace(HEADER, "$1 ($2)")}": "${c}"`),
+  };
 }
 
 async function problemsOf(data: string, folder: string): Promise<Problem[]> {
@@ -74,7 +80,10 @@ describe("the bad-input corpus read through wafer.md's reading instructions", as
     const files = await fs.readdir(dir).catch(() => []);
     const expected = await fs.readFile(path.join(BAD_DIR, n, "expected.txt"), "utf8");
     // Cases whose every problem is inside the one sweep file (not wafer.md, not a unit: an export's units are wafer.md's).
-    const inSweep = expected.trim().split("\n").every((l) => l.startsWith(`wafers/${wafers[0]}/transport/${files[0]}:`) && !/unit/.test(l));
+    const inSweep = expected
+      .trim()
+      .split("\n")
+      .every((l) => l.startsWith(`wafers/${wafers[0]}/transport/${files[0]}:`) && !/unit/.test(l));
     if (files.length === 1 && files[0].endsWith(".csv") && inSweep) cases.push({ name: n, folder: wafers[0], sweep: files[0] });
   }
 
@@ -96,7 +105,8 @@ describe("the bad-input corpus read through wafer.md's reading instructions", as
     const md = await fs.readFile(path.join(wdir, "wafer.md"), "utf8");
     const rules = [
       '    files: "transport/*.dat"',
-      "    columns:", ...conv.mapping.map((m) => `      ${m}`),
+      "    columns:",
+      ...conv.mapping.map((m) => `      ${m}`),
       `    layout: { separator: tab, header_row: ${conv.origHeader + conv.headerShift} }`,
       "    conditions:",
       '      gate: { file_name: "Vg=(?<value>[-0-9.]+)V", unit: V }',

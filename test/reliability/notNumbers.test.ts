@@ -26,23 +26,32 @@ import { HEALTHY_DIR } from "./corpus.ts";
 
 const FILE = "wafers/W-1/wafer.md";
 const record = (device: string, extra = "") => `---\nwafer: W-1\nrun: R1\ngrown: 2024-05-02\ndevices:\n  - ${device}\n${extra}---\n`;
-const validate = (text: string) => validateWafer(readFrontMatter(text, FILE), { folder: "W-1", file: FILE, today: "2025-06-01", siteSettings: DEFAULT_SETTINGS });
+const validate = (text: string) =>
+  validateWafer(readFrontMatter(text, FILE), { folder: "W-1", file: FILE, today: "2025-06-01", siteSettings: DEFAULT_SETTINGS });
 
 describe("device geometry", () => {
   it("refuses .inf and .nan as not finite, located at the field", () => {
-    expect(problemMessage(() => validate(record("id: HB1\n    geometry: hall-bar\n    length_um: .inf\n    width_um: 20\n    files: \"*.csv\"")))).toBe(
+    expect(problemMessage(() => validate(record('id: HB1\n    geometry: hall-bar\n    length_um: .inf\n    width_um: 20\n    files: "*.csv"')))).toBe(
       "wafers/W-1/wafer.md:8: devices[0].length_um: not a finite number (expected a finite number, found Infinity) — write the measured value; .inf, .nan and numbers beyond about 1.8e308 are not values",
     );
-    expect(problemMessage(() => validate(record("{ id: HB1, geometry: van-der-pauw, at_mm: [.nan, 0], files: \"*.csv\" }")))).toMatch(/^wafers\/W-1\/wafer\.md:6: devices\[0\]\.at_mm\[0\]: not a finite number \(expected a finite number, found NaN\)/);
-    expect(problemMessage(() => validate(record("{ id: HB1, geometry: van-der-pauw, files: \"*.csv\" }", "stack:\n  - { name: w, role: well, thickness_nm: .inf }\n")))).toMatch(/stack\[0\]\.thickness_nm: not a finite number/);
+    expect(problemMessage(() => validate(record('{ id: HB1, geometry: van-der-pauw, at_mm: [.nan, 0], files: "*.csv" }')))).toMatch(
+      /^wafers\/W-1\/wafer\.md:6: devices\[0\]\.at_mm\[0\]: not a finite number \(expected a finite number, found NaN\)/,
+    );
+    expect(
+      problemMessage(() =>
+        validate(record('{ id: HB1, geometry: van-der-pauw, files: "*.csv" }', "stack:\n  - { name: w, role: well, thickness_nm: .inf }\n")),
+      ),
+    ).toMatch(/stack\[0\]\.thickness_nm: not a finite number/);
   });
 
   it("refuses 1e-300 µm and 1e300 µm (W/L would be infinite), outside 1 nm … 1 m", () => {
-    expect(problemMessage(() => validate(record("{ id: HB1, geometry: hall-bar, length_um: 1e-300, width_um: 1e300, files: \"*.csv\" }")))).toBe(
+    expect(problemMessage(() => validate(record('{ id: HB1, geometry: hall-bar, length_um: 1e-300, width_um: 1e300, files: "*.csv" }')))).toBe(
       "wafers/W-1/wafer.md:6: devices[0].length_um: device dimension out of range (expected micrometres between 0.001 (1 nm) and 1e+6 (1 m), found 1e-300) — give the dimension in micrometres, e.g. length_um: 100",
     );
-    expect(problemMessage(() => validate(record("{ id: HB1, geometry: hall-bar, length_um: 100, width_um: 1e300, files: \"*.csv\" }")))).toMatch(/devices\[0\]\.width_um: device dimension out of range .* found 1e\+300\)/);
-    expect(() => validate(record("{ id: HB1, geometry: hall-bar, length_um: 0.001, width_um: 1000000, files: \"*.csv\" }"))).not.toThrow();
+    expect(problemMessage(() => validate(record('{ id: HB1, geometry: hall-bar, length_um: 100, width_um: 1e300, files: "*.csv" }')))).toMatch(
+      /devices\[0\]\.width_um: device dimension out of range .* found 1e\+300\)/,
+    );
+    expect(() => validate(record('{ id: HB1, geometry: hall-bar, length_um: 0.001, width_um: 1000000, files: "*.csv" }'))).not.toThrow();
   });
 
   it("warns outside 1 µm … 10 mm, and reads the wafer", async () => {
@@ -97,7 +106,11 @@ describe("table cells in hexadecimal, binary or octal", () => {
     expect(tableOutcome(text + "# end\n")).toBe(expected);
   });
   it("decimal cells are still read (2000 written four ways)", () => {
-    expect(tableOutcome(`${H}2000,2e3,2000.0\n.2e4,+2000,02000\n`)).toEqual([[2000, 2000], [2000, 2000], [2000, 2000]]);
+    expect(tableOutcome(`${H}2000,2e3,2000.0\n.2e4,+2000,02000\n`)).toEqual([
+      [2000, 2000],
+      [2000, 2000],
+      [2000, 2000],
+    ]);
   });
 });
 
@@ -110,10 +123,16 @@ describe("lone carriage returns as line ends", () => {
     expect(b.meta.get("gate")).toEqual(a.meta.get("gate"));
     expect(b.rowLines).toEqual([3, 5, 6]);
     expect(tableOutcome(cr)).toEqual(tableOutcome(lf));
-    expect(tableOutcome(cr)).toEqual([[-1, 0, 1], [612.3, 610, 612.25], [-6241.5, 0, 6241.5]]);
+    expect(tableOutcome(cr)).toEqual([
+      [-1, 0, 1],
+      [612.3, 610, 612.25],
+      [-6241.5, 0, 6241.5],
+    ]);
   });
   it("errors in a CR-only file are located on the right line", () => {
-    expect(tableOutcome(`${H}-1,1,2\n0,OVLD,2\n`.replace(/\n/g, "\r"))).toBe('t.csv:4: column 2 (Rxx): cell is not a finite number (expected a number such as 1.25e-3, found "OVLD") — correct the cell');
+    expect(tableOutcome(`${H}-1,1,2\n0,OVLD,2\n`.replace(/\n/g, "\r"))).toBe(
+      't.csv:4: column 2 (Rxx): cell is not a finite number (expected a number such as 1.25e-3, found "OVLD") — correct the cell',
+    );
   });
 });
 
@@ -126,11 +145,21 @@ describe("target limits beyond the range of numbers", () => {
     );
   });
   it("-1e309 for a plain-number metric, and -1e309 with a unit, are refused", () => {
-    expect(message(targets('    mobility_exponent: { min: "-1e309" }'))).toMatch(/mobility_exponent\.min: cannot read the limit .* found "-1e309", beyond the largest number \(about 1\.8e308\)\)/);
-    expect(message(targets('    peak_mobility: { min: "-1e309 cm^2/(V s)" }'))).toMatch(/peak_mobility\.min: cannot read the limit .* found "-1e309 cm\^2\/\(V s\)", beyond the largest number/);
+    expect(message(targets('    mobility_exponent: { min: "-1e309" }'))).toMatch(
+      /mobility_exponent\.min: cannot read the limit .* found "-1e309", beyond the largest number \(about 1\.8e308\)\)/,
+    );
+    expect(message(targets('    peak_mobility: { min: "-1e309 cm^2/(V s)" }'))).toMatch(
+      /peak_mobility\.min: cannot read the limit .* found "-1e309 cm\^2\/\(V s\)", beyond the largest number/,
+    );
   });
   it("parseQuantity never returns an infinite value", () => {
-    for (const [text, unit] of [["1e309 %", "%"], ["-1e309", "%"], ["1e309", "1"], ["-1e309 %", "1"], ["1e309 T", "T"]]) {
+    for (const [text, unit] of [
+      ["1e309 %", "%"],
+      ["-1e309", "%"],
+      ["1e309", "1"],
+      ["-1e309 %", "1"],
+      ["1e309 T", "T"],
+    ]) {
       const r = parseQuantity(text, unit);
       expect(r.ok, `${text} → ${unit}`).toBe(false);
     }

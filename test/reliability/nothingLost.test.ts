@@ -32,7 +32,13 @@ async function hashTree(dir: string): Promise<Map<string, string>> {
     for (const e of (await fs.readdir(path.join(dir, sub), { withFileTypes: true })).sort((a, b) => (a.name < b.name ? -1 : 1))) {
       const rel = sub ? `${sub}/${e.name}` : e.name;
       if (e.isDirectory()) await walk(rel);
-      else out.set(rel, createHash("sha256").update(await fs.readFile(path.join(dir, rel))).digest("hex"));
+      else
+        out.set(
+          rel,
+          createHash("sha256")
+            .update(await fs.readFile(path.join(dir, rel)))
+            .digest("hex"),
+        );
     }
   }
   await walk("");
@@ -42,7 +48,10 @@ async function hashTree(dir: string): Promise<Map<string, string>> {
 /** The demo data without its git history: copied, so the test never depends on the checkout. */
 async function demoCopy(name: string, wafers?: string[]): Promise<string> {
   const data = path.join(tmp, name);
-  await fs.cp(path.join(ROOT, "data"), data, { recursive: true, filter: (src) => !wafers || !src.includes(`${path.sep}wafers${path.sep}`) || wafers.some((w) => src.includes(`${path.sep}wafers${path.sep}${w}`)) });
+  await fs.cp(path.join(ROOT, "data"), data, {
+    recursive: true,
+    filter: (src) => !wafers || !src.includes(`${path.sep}wafers${path.sep}`) || wafers.some((w) => src.includes(`${path.sep}wafers${path.sep}${w}`)),
+  });
   return data;
 }
 
@@ -148,7 +157,11 @@ describe("the output lock", () => {
     // One wafer: the two processes start together and meet at the lock after start-up, whatever the data.
     const data = await demoCopy("conc", ["TQ-2401"]);
     const out = path.join(tmp, "conc-site");
-    const go = () => run(process.execPath, [BIN, "build", "--data", data, "--out", out], { env: { ...process.env, CI: "true" } }).then((r) => ({ code: 0, ...r }), (e) => e);
+    const go = () =>
+      run(process.execPath, [BIN, "build", "--data", data, "--out", out], { env: { ...process.env, CI: "true" } }).then(
+        (r) => ({ code: 0, ...r }),
+        (e) => e,
+      );
     const results = await Promise.all([go(), go()]);
     expect(results.some((r) => r.code === 0)).toBe(true);
     for (const r of results) if (r.code !== 0) expect(r.stderr).toMatch(/another build \(process \d+\) is writing/);
@@ -208,17 +221,32 @@ describe("no NaN or Infinity is published", () => {
     const files = (await fs.readdir(dir)).sort();
     // Valid but hostile values: huge and tiny resistances, a zero Rxx column, a sign flip.
     const edits: ((cells: string[], i: number) => void)[] = [
-      (c) => { c[1] = String(Number(c[1]) * 1e250); },
-      (c) => { c[2] = String(Number(c[2]) * 1e-300); },
-      (c) => { c[1] = "0"; },
-      (c) => { c[2] = String(-Number(c[2])); },
-      (c, i) => { if (i % 2) c[1] = "1e300"; },
+      (c) => {
+        c[1] = String(Number(c[1]) * 1e250);
+      },
+      (c) => {
+        c[2] = String(Number(c[2]) * 1e-300);
+      },
+      (c) => {
+        c[1] = "0";
+      },
+      (c) => {
+        c[2] = String(-Number(c[2]));
+      },
+      (c, i) => {
+        if (i % 2) c[1] = "1e300";
+      },
     ];
     for (const [k, f] of files.entries()) {
       const lines = (await fs.readFile(path.join(dir, f), "utf8")).split("\n");
       let row = 0;
       const edit = edits[k % edits.length];
-      const next = lines.map((l) => { if (!/^-?\d/.test(l)) return l; const c = l.split(","); edit(c, row++); return c.join(","); });
+      const next = lines.map((l) => {
+        if (!/^-?\d/.test(l)) return l;
+        const c = l.split(",");
+        edit(c, row++);
+        return c.join(",");
+      });
       await fs.writeFile(path.join(dir, f), next.join("\n"));
     }
     const out = path.join(tmp, "nan-site");

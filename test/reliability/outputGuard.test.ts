@@ -37,7 +37,10 @@ const opts = (out: string, cache?: string | null) => ({ data, out, strict: false
 /** Builds, expects a refusal, and checks that not one entry under the test folder changed. */
 async function refused(out: string, cache?: string | null): Promise<string> {
   const before = await snapshot(root);
-  const err = await build(opts(out, cache), io).then(() => undefined, (e) => e);
+  const err = await build(opts(out, cache), io).then(
+    () => undefined,
+    (e) => e,
+  );
   expect(err, `--out ${out}`).toBeInstanceOf(OutputRefusedError);
   expect(await snapshot(root), `nothing written for --out ${out}`).toEqual(before);
   return (err as Error).message;
@@ -45,15 +48,21 @@ async function refused(out: string, cache?: string | null): Promise<string> {
 
 describe("an --out or --cache that reaches the data folder is refused before anything is written", () => {
   it("the data folder itself, a folder inside it, below a file in it, and a folder holding it", async () => {
-    expect(await refused(data)).toBe(`refusing --out ${data}: it is the data folder ${data}; the data folder is only ever read; choose an output folder outside it`);
+    expect(await refused(data)).toBe(
+      `refusing --out ${data}: it is the data folder ${data}; the data folder is only ever read; choose an output folder outside it`,
+    );
     expect(await refused(path.join(data, "site"))).toContain(`it lies inside the data folder ${data}`);
     expect(await refused(path.join(data, "wafers", "OK-1", "wafer.md", "site"))).toContain(`it lies inside the data folder ${data}`);
-    expect(await refused(root)).toBe(`refusing --out ${root}: it holds the data folder ${data}; the data folder is only ever read; choose an output folder outside it`);
+    expect(await refused(root)).toBe(
+      `refusing --out ${root}: it holds the data folder ${data}; the data folder is only ever read; choose an output folder outside it`,
+    );
   }, 60_000);
 
   it("through a symbolic link, also for an output path that does not exist yet", async () => {
     expect(await refused(path.join(root, "to-data"))).toContain(`(resolved: ${data}): it is the data folder ${data}`);
-    expect(await refused(path.join(root, "to-data", "new", "site"))).toContain(`(resolved: ${path.join(data, "new", "site")}): it lies inside the data folder ${data}`);
+    expect(await refused(path.join(root, "to-data", "new", "site"))).toContain(
+      `(resolved: ${path.join(data, "new", "site")}): it lies inside the data folder ${data}`,
+    );
   }, 60_000);
 
   it("a cache folder in the data folder, or the data folder as cache", async () => {
@@ -65,10 +74,18 @@ describe("an --out or --cache that reaches the data folder is refused before any
 
 describe("only a folder waferbook wrote is ever replaced", () => {
   it("refuses a non-empty folder without the marker, a link to one, a file, and a path below a file", async () => {
-    expect(await refused(path.join(root, "notes"))).toBe(`refusing --out ${path.join(root, "notes")}: it is a folder that waferbook did not write (it holds "plan.txt" and no .waferbook-site marker); remove it or choose another --out`);
-    expect(await refused(path.join(root, "to-notes"))).toContain(`it is a symbolic link to ${JSON.stringify(path.join(root, "notes"))} that waferbook did not make`);
-    expect(await refused(path.join(root, "file.txt"))).toBe(`refusing --out ${path.join(root, "file.txt")}: it is a file, not a folder; remove it or choose another --out`);
-    expect(await refused(path.join(root, "file.txt", "site"))).toBe(`refusing --out ${path.join(root, "file.txt", "site")}: ${path.join(root, "file.txt")} is a file, not a folder; choose another --out`);
+    expect(await refused(path.join(root, "notes"))).toBe(
+      `refusing --out ${path.join(root, "notes")}: it is a folder that waferbook did not write (it holds "plan.txt" and no .waferbook-site marker); remove it or choose another --out`,
+    );
+    expect(await refused(path.join(root, "to-notes"))).toContain(
+      `it is a symbolic link to ${JSON.stringify(path.join(root, "notes"))} that waferbook did not make`,
+    );
+    expect(await refused(path.join(root, "file.txt"))).toBe(
+      `refusing --out ${path.join(root, "file.txt")}: it is a file, not a folder; remove it or choose another --out`,
+    );
+    expect(await refused(path.join(root, "file.txt", "site"))).toBe(
+      `refusing --out ${path.join(root, "file.txt", "site")}: ${path.join(root, "file.txt")} is a file, not a folder; choose another --out`,
+    );
   }, 60_000);
 });
 
@@ -104,9 +121,13 @@ describe("the command line", () => {
     const asRoot = process.getuid?.() === 0;
     if (asRoot) await fs.chmod(root, 0o755);
     const before = await snapshot(root);
-    const r = await cli(["build", "--data", data, "--out", path.join(locked, "site"), "--no-cache"], { prefix: asRoot ? ["setpriv", "--reuid=65534", "--regid=65534", "--clear-groups"] : [] });
+    const r = await cli(["build", "--data", data, "--out", path.join(locked, "site"), "--no-cache"], {
+      prefix: asRoot ? ["setpriv", "--reuid=65534", "--regid=65534", "--clear-groups"] : [],
+    });
     expect(r.code, r.stderr).toBe(2);
-    expect(r.stderr).toBe(`waferbook: refusing --out ${path.join(locked, "site")}: ${locked} is not writable, so the site (and its lock and temporary folder beside it) cannot be written there; choose another --out or fix the folder's permissions\n`);
+    expect(r.stderr).toBe(
+      `waferbook: refusing --out ${path.join(locked, "site")}: ${locked} is not writable, so the site (and its lock and temporary folder beside it) cannot be written there; choose another --out or fix the folder's permissions\n`,
+    );
     expect(await snapshot(root)).toEqual(before);
     await fs.chmod(locked, 0o755);
   }, 120_000);

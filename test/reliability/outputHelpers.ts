@@ -29,7 +29,13 @@ export async function snapshot(dir: string): Promise<Map<string, string>> {
       else if (e.isDirectory()) {
         out.set(r, "dir");
         await walk(r);
-      } else out.set(r, createHash("sha256").update(await fs.readFile(abs)).digest("hex"));
+      } else
+        out.set(
+          r,
+          createHash("sha256")
+            .update(await fs.readFile(abs))
+            .digest("hex"),
+        );
     }
   }
   await walk("");
@@ -42,7 +48,11 @@ export async function siteFiles(site: string): Promise<Map<string, string>> {
   return new Map([...all].filter(([, v]) => v !== "dir"));
 }
 
-export interface CliResult { code: number; stdout: string; stderr: string }
+export interface CliResult {
+  code: number;
+  stdout: string;
+  stderr: string;
+}
 
 /** Runs `waferbook <args>` (optionally through a prefix such as setpriv) and returns its exit code and output. */
 export async function cli(args: string[], opts: { cwd?: string; env?: Record<string, string>; prefix?: string[] } = {}): Promise<CliResult> {
@@ -76,7 +86,9 @@ export async function hostileData(dir: string): Promise<string> {
   await fs.writeFile(path.join(w, "transport", "evil.html"), HOSTILE.html);
   await fs.writeFile(path.join(w, "transport", "evil.svg"), HOSTILE.svg);
   await fs.writeFile(path.join(w, "transport", "evil.xhtml"), HOSTILE.xml);
-  await fs.writeFile(path.join(w, "wafer.md"), `---
+  await fs.writeFile(
+    path.join(w, "wafer.md"),
+    `---
 wafer: EVIL-1
 run: R1
 grown: 2024-05-03
@@ -87,6 +99,7 @@ images:
 ---
 
 Logo of the supplier: ![supplier logo](https://pictures.invalid/logo.png "their logo")
-`);
+`,
+  );
   return dir;
 }

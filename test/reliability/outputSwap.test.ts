@@ -108,7 +108,10 @@ describe("an old generation that cannot be removed", () => {
     const prefix = asRoot ? ["setpriv", "--reuid=65534", "--regid=65534", "--clear-groups"] : [];
     const warning = (gen: string) => `waferbook: warning: could not remove ${path.join(pub, gen)} (EACCES); the site is not affected — remove it by hand\n`;
     // The second build also cannot remove the first build's generation when another user wrote it (as root here).
-    for (const [expected, left] of [[".site-gen-2", [".site-gen-0"]], [".site-gen-3", asRoot ? [".site-gen-0", ".site-gen-1"] : [".site-gen-0"]]] as const) {
+    for (const [expected, left] of [
+      [".site-gen-2", [".site-gen-0"]],
+      [".site-gen-3", asRoot ? [".site-gen-0", ".site-gen-1"] : [".site-gen-0"]],
+    ] as const) {
       const r = await cli(["build", "--data", data, "--out", path.join(pub, "site"), "--no-cache"], { prefix });
       expect(r.code, r.stderr).toBe(0);
       expect(r.stderr).toBe(left.map(warning).join(""));

@@ -46,7 +46,12 @@ async function blackPng(width: number, height: number): Promise<Buffer> {
   for (let y = 0; y < height; y += rows) deflate.write(block.subarray(0, (width + 1) * Math.min(rows, height - y)));
   deflate.end();
   await done;
-  return Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), chunk("IHDR", ihdr), chunk("IDAT", Buffer.concat(parts)), chunk("IEND", Buffer.alloc(0))]);
+  return Buffer.concat([
+    Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]),
+    chunk("IHDR", ihdr),
+    chunk("IDAT", Buffer.concat(parts)),
+    chunk("IEND", Buffer.alloc(0)),
+  ]);
 }
 
 const tmps: string[] = [];
@@ -64,7 +69,9 @@ async function waferWithImage(id: string, file: string, bytes: Buffer, analysis 
   await fs.rename(path.join(data, "wafers", "OK-1"), dir);
   await fs.mkdir(path.join(dir, "images"));
   await fs.writeFile(path.join(dir, "images", file), bytes);
-  const record = (await fs.readFile(path.join(dir, "wafer.md"), "utf8")).replace("wafer: OK-1", `wafer: ${id}`).replace("\n---\n\nNotes.", `\nimages:\n  - { file: images/${file}, pixel_nm: 0.05, kind: haadf, growth_axis: up }\n${analysis}---\n\nNotes.`);
+  const record = (await fs.readFile(path.join(dir, "wafer.md"), "utf8"))
+    .replace("wafer: OK-1", `wafer: ${id}`)
+    .replace("\n---\n\nNotes.", `\nimages:\n  - { file: images/${file}, pixel_nm: 0.05, kind: haadf, growth_axis: up }\n${analysis}---\n\nNotes.`);
   await fs.writeFile(path.join(dir, "wafer.md"), record);
   return data;
 }
@@ -97,7 +104,9 @@ describe("a PNG that declares more pixels than max_image_pixels", () => {
     expect(decodeMicrograph(small).width).toBe(300);
     const data = await waferWithImage("SMALL-PNG", "small.png", small, "analysis:\n  max_image_pixels: 65536\n");
     const w = await loadWafer("SMALL-PNG", { dataDir: data, today: "2025-06-01", siteSettings: DEFAULT_SETTINGS });
-    expect(w.problems.map((p) => [p.file, p.field, p.message, p.found])).toEqual([["wafers/SMALL-PNG/images/small.png", "images[0].file", "micrograph too large", "300 × 300 = 90,000 pixels declared in the PNG header"]]);
+    expect(w.problems.map((p) => [p.file, p.field, p.message, p.found])).toEqual([
+      ["wafers/SMALL-PNG/images/small.png", "images[0].file", "micrograph too large", "300 × 300 = 90,000 pixels declared in the PNG header"],
+    ]);
   }, 20_000);
 
   it("max_image_pixels is read like every setting, with its range", () => {

@@ -76,7 +76,7 @@ const VDP = { geometry: "van-der-pauw" as const };
 /** A cell value: ordinary, extreme, zero, or not a number at all. */
 const cell = fc.oneof(
   fc.double({ noNaN: false, noDefaultInfinity: false }).map(String),
-  fc.constantFrom("0", "-0", "1e308", "-1e308", "5e-324", "NaN", "Inf", "-Infinity", "", "OVLD", "1,5", "\"", "0x10", " 7 "),
+  fc.constantFrom("0", "-0", "1e308", "-1e308", "5e-324", "NaN", "Inf", "-Infinity", "", "OVLD", "1,5", '"', "0x10", " 7 "),
   fc.integer({ min: -3, max: 3 }).map(String),
 );
 
@@ -101,10 +101,20 @@ function mutate(text: string, ms: fc.Arbitrary<unknown> extends never ? never : 
         lines[i] = cells.join(",");
         break;
       }
-      case "drop": lines.splice(i, 1); break;
-      case "dup": lines.splice(i, 0, lines[i]); break;
-      case "junk": lines.splice(i, 0, m.text); break;
-      case "swap": { const j = m.other % lines.length; [lines[i], lines[j]] = [lines[j], lines[i]]; break; }
+      case "drop":
+        lines.splice(i, 1);
+        break;
+      case "dup":
+        lines.splice(i, 0, lines[i]);
+        break;
+      case "junk":
+        lines.splice(i, 0, m.text);
+        break;
+      case "swap": {
+        const j = m.other % lines.length;
+        [lines[i], lines[j]] = [lines[j], lines[i]];
+        break;
+      }
       case "scale":
         for (let r = 0; r < lines.length; r++) {
           if (!/^[-\d.]/.test(lines[r])) continue;
@@ -147,7 +157,18 @@ describe("sweep parser and field-sweep analysis", () => {
 
   it("random small tables never crash the parser", () => {
     const line = fc.oneof(
-      fc.constantFrom("# gate: 0.5 V", "# field: 0 T", "# current: 10 nA", "# current: 0 A", "#", "B [T],Rxx [ohm],Rxy [ohm]", "Vg [V],Rxx [ohm],Rxy [ohm]", "B [T],Ra [ohm],Rb [ohm],Rxy [ohm]", "B [mT]\tVxx [uV]\tVxy [uV]\tI [nA]", ""),
+      fc.constantFrom(
+        "# gate: 0.5 V",
+        "# field: 0 T",
+        "# current: 10 nA",
+        "# current: 0 A",
+        "#",
+        "B [T],Rxx [ohm],Rxy [ohm]",
+        "Vg [V],Rxx [ohm],Rxy [ohm]",
+        "B [T],Ra [ohm],Rb [ohm],Rxy [ohm]",
+        "B [mT]\tVxx [uV]\tVxy [uV]\tI [nA]",
+        "",
+      ),
       fc.array(cell, { minLength: 1, maxLength: 5 }).map((c) => c.join(",")),
       fc.string({ maxLength: 40 }),
     );
@@ -180,7 +201,12 @@ describe("device depth analysis", () => {
           const g = onlyInputErrors(() => validateSweep(readTable(mutate(GATE_SWEEP, ms), "g.csv"), "hall-bar"));
           if (g && g.kind === "gate") gates.push(g);
         }
-        const depth = analyseDeviceDepth(points.sort((a, b) => a.gate_V - b.gate_V), gates, DEFAULT_SETTINGS, HB);
+        const depth = analyseDeviceDepth(
+          points.sort((a, b) => a.gate_V - b.gate_V),
+          gates,
+          DEFAULT_SETTINGS,
+          HB,
+        );
         expect(firstNonFinite(depth)).toBeUndefined();
         expect(firstNonFinite(summariseDevice(points))).toBeUndefined();
       }),
@@ -195,11 +221,38 @@ describe("record loader", () => {
     const text = fc.oneof(
       fc.array(mutation, { minLength: 1, maxLength: 5 }).map((ms) => mutate(record.replace(/, /g, ","), ms)),
       fc.string({ maxLength: 200 }).map((s) => `---\n${s}\n---\n`),
-      fc.array(fc.constantFrom("wafer: TQ-2401", "run: R1", "grown: 2024-01-01", "grown: 2999-01-01", "devices:", "  - id: A", "    geometry: hall-bar", "    files: \"*.csv\"", "stack: []", "images: [{}]", "analysis: { hall_max_field: 1 }", "key: [", "\t- x", "notes: \"<script>\""), { maxLength: 12 }).map((ls) => `---\n${ls.join("\n")}\n---\nbody`),
+      fc
+        .array(
+          fc.constantFrom(
+            "wafer: TQ-2401",
+            "run: R1",
+            "grown: 2024-01-01",
+            "grown: 2999-01-01",
+            "devices:",
+            "  - id: A",
+            "    geometry: hall-bar",
+            '    files: "*.csv"',
+            "stack: []",
+            "images: [{}]",
+            "analysis: { hall_max_field: 1 }",
+            "key: [",
+            "\t- x",
+            'notes: "<script>"',
+          ),
+          { maxLength: 12 },
+        )
+        .map((ls) => `---\n${ls.join("\n")}\n---\nbody`),
     );
     fc.assert(
       fc.property(text, (t) => {
-        const r = onlyInputErrors(() => validateWafer(readFrontMatter(t, "wafers/TQ-2401/wafer.md"), { folder: "TQ-2401", file: "wafers/TQ-2401/wafer.md", today: "2025-06-01", siteSettings: DEFAULT_SETTINGS }));
+        const r = onlyInputErrors(() =>
+          validateWafer(readFrontMatter(t, "wafers/TQ-2401/wafer.md"), {
+            folder: "TQ-2401",
+            file: "wafers/TQ-2401/wafer.md",
+            today: "2025-06-01",
+            siteSettings: DEFAULT_SETTINGS,
+          }),
+        );
         if (r) {
           expect(r.wafer).toBe("TQ-2401");
           expect(firstNonFinite(r.settings)).toBeUndefined();
@@ -211,20 +264,31 @@ describe("record loader", () => {
 });
 
 describe("structure analysis", () => {
-  const stack = validateWafer(readFrontMatter(demo("TQ-2401/wafer.md"), "w"), { folder: "TQ-2401", file: "w", today: "2025-06-01", siteSettings: DEFAULT_SETTINGS }).stack;
+  const stack = validateWafer(readFrontMatter(demo("TQ-2401/wafer.md"), "w"), {
+    folder: "TQ-2401",
+    file: "w",
+    today: "2025-06-01",
+    siteSettings: DEFAULT_SETTINGS,
+  }).stack;
   const names = stack.map((l) => l.name);
   const xrd = ["TQ-2401/xrd/rsm_224.csv", "TQ-2401/xrd/rsm_004.csv"].map(demo);
   const profile = demo("TQ-2401/profiles/sims.csv");
   it("mutated XRD maps and depth profiles: finite results or reasons", () => {
     fc.assert(
-      fc.property(fc.array(mutation, { maxLength: 5 }), fc.array(mutation, { maxLength: 5 }), fc.array(mutation, { maxLength: 5 }), fc.boolean(), (m1, m2, m3, withStack) => {
-        const x1 = onlyInputErrors(() => validateXrd(readTable(mutate(xrd[0], m1), "x1.csv"), names));
-        const x2 = onlyInputErrors(() => validateXrd(readTable(mutate(xrd[1], m2), "x2.csv"), names));
-        const p = onlyInputErrors(() => validateDepthProfile(readTable(mutate(profile, m3), "p.csv")));
-        const inputs = { xrd: [x1, x2].filter((x) => x !== undefined), profiles: p ? [p] : [] };
-        const result = analyseStructure(inputs, withStack ? stack : [], DEFAULT_SETTINGS);
-        expect(firstNonFinite(result)).toBeUndefined();
-      }),
+      fc.property(
+        fc.array(mutation, { maxLength: 5 }),
+        fc.array(mutation, { maxLength: 5 }),
+        fc.array(mutation, { maxLength: 5 }),
+        fc.boolean(),
+        (m1, m2, m3, withStack) => {
+          const x1 = onlyInputErrors(() => validateXrd(readTable(mutate(xrd[0], m1), "x1.csv"), names));
+          const x2 = onlyInputErrors(() => validateXrd(readTable(mutate(xrd[1], m2), "x2.csv"), names));
+          const p = onlyInputErrors(() => validateDepthProfile(readTable(mutate(profile, m3), "p.csv")));
+          const inputs = { xrd: [x1, x2].filter((x) => x !== undefined), profiles: p ? [p] : [] };
+          const result = analyseStructure(inputs, withStack ? stack : [], DEFAULT_SETTINGS);
+          expect(firstNonFinite(result)).toBeUndefined();
+        },
+      ),
       opts(30, 65),
     );
   }, 180_000);

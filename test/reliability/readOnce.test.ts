@@ -87,7 +87,9 @@ describe("a file swapped for an outside link while it is read", () => {
     await fs.rm(sweep);
     await fs.symlink(outside, sweep);
     const dest = path.join(tmp(), "copy-dest.csv");
-    const err = await placeRawCopy(sweep, dest, path.join(tmp(), "no-previous.csv"), sha(INSIDE), "wafers/W-1/sweep.csv", undefined, data).catch((e: unknown) => e);
+    const err = await placeRawCopy(sweep, dest, path.join(tmp(), "no-previous.csv"), sha(INSIDE), "wafers/W-1/sweep.csv", undefined, data).catch(
+      (e: unknown) => e,
+    );
     expect(err).toBeInstanceOf(BuildStoppedError);
     expect((err as Error).message).toMatch(/^wafers\/W-1\/sweep\.csv changed while the site was being built/);
     await expect(fs.access(dest)).rejects.toThrow();
@@ -106,6 +108,8 @@ describe("a file swapped for an outside link while it is read", () => {
     execFileSync("mkfifo", [fifo]);
     const err = await readDataBytes(data, fifo).catch((e: unknown) => e);
     expect(err).toBeInstanceOf(InputError);
-    expect((err as InputError).message).toBe("wafers/W-1/pipe.csv: not a regular file (expected a file, found a folder or device) — make the pattern or path that names it match files only");
+    expect((err as InputError).message).toBe(
+      "wafers/W-1/pipe.csv: not a regular file (expected a file, found a folder or device) — make the pattern or path that names it match files only",
+    );
   });
 });

@@ -19,12 +19,16 @@ const clock = () => new Date("2026-03-04T05:06:07.890Z");
 
 describe("buildStamp", () => {
   it("uses SOURCE_DATE_EPOCH when set, the clock otherwise, and refuses malformed values", () => {
-    const stamp = (v?: string) => { const s = buildStamp({ SOURCE_DATE_EPOCH: v }, clock); return "error" in s ? s.error : s.stamp(); };
+    const stamp = (v?: string) => {
+      const s = buildStamp({ SOURCE_DATE_EPOCH: v }, clock);
+      return "error" in s ? s.error : s.stamp();
+    };
     expect(stamp(undefined)).toBe("2026-03-04T05:06:07Z");
     expect(stamp("")).toBe("2026-03-04T05:06:07Z");
     expect(stamp("1700000000")).toBe("2023-11-14T22:13:20Z");
     expect(stamp("0")).toBe("1970-01-01T00:00:00Z");
-    for (const bad of ["1.5", "-1", "abc", "1e9", " 17", "253402300800"]) expect(stamp(bad), bad).toMatch(/^SOURCE_DATE_EPOCH must be a whole number of seconds since 1970-01-01T00:00:00Z/);
+    for (const bad of ["1.5", "-1", "abc", "1e9", " 17", "253402300800"])
+      expect(stamp(bad), bad).toMatch(/^SOURCE_DATE_EPOCH must be a whole number of seconds since 1970-01-01T00:00:00Z/);
   });
 });
 
@@ -44,7 +48,9 @@ describe("two builds with SOURCE_DATE_EPOCH set", () => {
     expect(await fs.readFile(path.join(tempDir(), "site-a", "index.html"), "utf8")).toContain("<p>Built 2023-11-14T22:13:20Z by waferbook");
     const bad = await cli(["build", "--data", a, "--out", path.join(tempDir(), "site-c")], { env: { SOURCE_DATE_EPOCH: "yesterday" } });
     expect(bad.code).toBe(2);
-    expect(bad.stderr).toBe('waferbook: SOURCE_DATE_EPOCH must be a whole number of seconds since 1970-01-01T00:00:00Z (at most 253402300799), found "yesterday"; unset it to show the build\'s own time\n');
+    expect(bad.stderr).toBe(
+      'waferbook: SOURCE_DATE_EPOCH must be a whole number of seconds since 1970-01-01T00:00:00Z (at most 253402300799), found "yesterday"; unset it to show the build\'s own time\n',
+    );
     await expect(fs.stat(path.join(tempDir(), "site-c"))).rejects.toThrow();
   }, 120_000);
 });

@@ -32,7 +32,10 @@ async function copyWafer(data: string, id: string, edit: (text: string) => strin
 }
 
 describe("the reserved names", () => {
-  it.each(["index.html", "INDEX.HTML", "Assets", "raw", "runs", "wafers", "trends", "search-index.json", "Results.Json", "results.csv"])("%s is a site name", (id) => expect(isSiteName(id)).toBe(true));
+  it.each(["index.html", "INDEX.HTML", "Assets", "raw", "runs", "wafers", "trends", "search-index.json", "Results.Json", "results.csv"])(
+    "%s is a site name",
+    (id) => expect(isSiteName(id)).toBe(true),
+  );
   it.each(["TQ-2401", "R1", "index", "html", "raws", "asset"])("%s is not", (id) => expect(isSiteName(id)).toBe(false));
 });
 
@@ -50,16 +53,30 @@ describe("ids that collide with the site, and a folder chain beyond the path lim
     await fs.writeFile(path.join(data, "runs", "R1.md"), "---\nreactor: R-2\n---\n\nA run.\n");
     // 21 folders of 200 characters: more than Linux's 4096-byte PATH_MAX. Made with relative steps (cd), as only those can reach it.
     const segment = "d".repeat(200);
-    await run("bash", ["-c", `cd "$1" && for i in $(seq 1 21); do mkdir "$2" && cd "$2" || exit 1; done; echo 1 > deep.csv`, "_", path.join(data, "wafers", "DEEP"), segment]);
+    await run("bash", [
+      "-c",
+      `cd "$1" && for i in $(seq 1 21); do mkdir "$2" && cd "$2" || exit 1; done; echo 1 > deep.csv`,
+      "_",
+      path.join(data, "wafers", "DEEP"),
+      segment,
+    ]);
 
     const r = await buildCase(data, out);
     expect(r.ok).toBe(true);
     const reserved = `(expected an id other than ${SITE_NAMES.join(", ")} (in any letter case), found`;
     const lines = r.problems.map(formatProblem);
     expect(lines).toHaveLength(3);
-    expect(lines[0]).toBe(`wafers/Assets: wafer id is a name the site uses for its own pages and files ${reserved} "Assets") — rename the folder (and the wafer: field)`);
-    expect(lines[1]).toMatch(new RegExp(`^wafers/DEEP/${segment}: folder path is longer than the system allows \\(expected a path of at most a few thousand characters, found folders nested \\d+ deep, \\d+ characters in all\\) — flatten the folders or shorten their names$`));
-    expect(lines[2]).toBe(`wafers/IDX/wafer.md:3: run: run id is a name the site uses for its own pages and files ${reserved} "index.html") — rename the run (and its runs/<id>.md file)`);
+    expect(lines[0]).toBe(
+      `wafers/Assets: wafer id is a name the site uses for its own pages and files ${reserved} "Assets") — rename the folder (and the wafer: field)`,
+    );
+    expect(lines[1]).toMatch(
+      new RegExp(
+        `^wafers/DEEP/${segment}: folder path is longer than the system allows \\(expected a path of at most a few thousand characters, found folders nested \\d+ deep, \\d+ characters in all\\) — flatten the folders or shorten their names$`,
+      ),
+    );
+    expect(lines[2]).toBe(
+      `wafers/IDX/wafer.md:3: run: run id is a name the site uses for its own pages and files ${reserved} "index.html") — rename the run (and its runs/<id>.md file)`,
+    );
     const verdicts = Object.fromEntries(r.outcomes.map((o) => [o.folder, o.judgement.verdict]));
     expect(verdicts).toEqual({ DEEP: "error", IDX: "error", "OK-1": "pass" });
     expect((await fs.stat(path.join(out, "runs", "index.html"))).isFile()).toBe(true);
@@ -76,6 +93,8 @@ describe("ids that collide with the site, and a folder chain beyond the path lim
     // A run note is a site-wide input: a reserved run id is a located error from the site loader, which stops the build.
     await fs.writeFile(path.join(data, "runs", "Search.md"), "---\nreactor: R-2\n---\n");
     const site = await loadSiteInputs(data);
-    expect(site.problems.map(formatProblem).filter((l) => l.startsWith("runs/"))).toEqual([`runs/Search.md: run id is a name the site uses for its own pages and files ${reserved} "Search") — rename the file`]);
+    expect(site.problems.map(formatProblem).filter((l) => l.startsWith("runs/"))).toEqual([
+      `runs/Search.md: run id is a name the site uses for its own pages and files ${reserved} "Search") — rename the file`,
+    ]);
   }, 60_000);
 });

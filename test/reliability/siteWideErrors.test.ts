@@ -11,7 +11,6 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { buildCase, HEALTHY_DIR, runCli as cli } from "./corpus.ts";
 
-
 let tmp: string;
 let data: string;
 let out: string;
@@ -39,12 +38,19 @@ describe("site-wide input errors fail the build and keep the previous site", () 
   it("targets.yaml with a misspelt metric and a bad aggregate: exit 1 without --strict, both problems listed, site kept", async () => {
     const targets = path.join(data, "targets.yaml");
     const good = await fs.readFile(targets, "utf8");
-    await fs.writeFile(targets, 'default_grade: test\ngrades:\n  test:\n    peak_mobilty: { min: "1e4 cm^2/(V s)" }\n    turn_on_voltage: { max: "1 V", aggregate: maximum }\n');
+    await fs.writeFile(
+      targets,
+      'default_grade: test\ngrades:\n  test:\n    peak_mobilty: { min: "1e4 cm^2/(V s)" }\n    turn_on_voltage: { max: "1 V", aggregate: maximum }\n',
+    );
     try {
       const r = await cli(["build", "--data", data, "--out", out]);
       expect(r.code).toBe(1);
-      expect(r.stderr).toContain('targets.yaml:4: grades.test.peak_mobilty: unknown metric (expected a metric key listed in docs/formats.md, found "peak_mobilty") — did you mean "peak_mobility"?');
-      expect(r.stderr).toContain('targets.yaml:5: grades.test.turn_on_voltage.aggregate: unknown aggregate (expected mean | min | max | every-device, found "maximum")');
+      expect(r.stderr).toContain(
+        'targets.yaml:4: grades.test.peak_mobilty: unknown metric (expected a metric key listed in docs/formats.md, found "peak_mobilty") — did you mean "peak_mobility"?',
+      );
+      expect(r.stderr).toContain(
+        'targets.yaml:5: grades.test.turn_on_voltage.aggregate: unknown aggregate (expected mean | min | max | every-device, found "maximum")',
+      );
       expect(r.stderr).toMatch(/2 site-wide input errors \(listed above\): nothing could be built; the previous site was left as it was/);
       expect(r.stderr).not.toMatch(/\n\s+at /);
       await expectSiteKept();

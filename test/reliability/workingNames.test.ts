@@ -21,7 +21,10 @@ const opts = (data: string, out: string) => ({ data, out, strict: false, basePat
 
 async function refusedUnchanged(root: string, data: string, out: string): Promise<string> {
   const before = await snapshot(root);
-  const err = await build(opts(data, out), io).then(() => undefined, (e) => e);
+  const err = await build(opts(data, out), io).then(
+    () => undefined,
+    (e) => e,
+  );
   expect(err, `--data ${data} --out ${out}`).toBeInstanceOf(OutputRefusedError);
   expect(await snapshot(root)).toEqual(before);
   return (err as Error).message;
@@ -31,7 +34,9 @@ describe("the build's working names beside --out", () => {
   it("a data folder named like a generation, a building folder or the lock is refused, and nothing is touched", async () => {
     const root = tempDir();
     const gen = await healthyData(path.join(root, ".emp-gen-1"));
-    expect(await refusedUnchanged(root, gen, path.join(root, "emp"))).toMatch(/the data folder .*\.emp-gen-1 is \.?.*\.emp-gen-1, a name the build uses for its own working files/);
+    expect(await refusedUnchanged(root, gen, path.join(root, "emp"))).toMatch(
+      /the data folder .*\.emp-gen-1 is \.?.*\.emp-gen-1, a name the build uses for its own working files/,
+    );
     const building = await healthyData(path.join(root, ".site-building-1"));
     await refusedUnchanged(root, building, path.join(root, "site"));
     const lock = await healthyData(path.join(root, "site.lock"));

@@ -32,12 +32,17 @@ const NAMES = "abcdefghi";
 /** The nine bomb lines, each indented by `indent`. */
 function laughs(indent: string): string {
   const lines = [`${indent}a: &a [${Array(9).fill('"lol"').join(",")}]`];
-  for (let i = 1; i < 9; i++) lines.push(`${indent}${NAMES[i]}: &${NAMES[i]} [${Array(9).fill(`*${NAMES[i - 1]}`).join(",")}]`);
+  for (let i = 1; i < 9; i++)
+    lines.push(
+      `${indent}${NAMES[i]}: &${NAMES[i]} [${Array(9)
+        .fill(`*${NAMES[i - 1]}`)
+        .join(",")}]`,
+    );
   return lines.join("\n");
 }
 
-const okRecord = (id: string, extra: string) => `---\nwafer: ${id}\n${extra}\nrun: R1\ngrown: 2024-05-02\ndevices:\n  - { id: HB1, geometry: hall-bar, length_um: 100, width_um: 20, files: "transport/*.csv" }\n---\n\nNotes.\n`;
-
+const okRecord = (id: string, extra: string) =>
+  `---\nwafer: ${id}\n${extra}\nrun: R1\ngrown: 2024-05-02\ndevices:\n  - { id: HB1, geometry: hall-bar, length_um: 100, width_um: 20, files: "transport/*.csv" }\n---\n\nNotes.\n`;
 
 const tmps: string[] = [];
 afterAll(async () => {
@@ -72,7 +77,9 @@ describe("the YAML loader's alias budget", () => {
     const list = `big: &b [${Array(999).fill("x").join(",")}]\n`;
     const at = list + `r: [${Array(100).fill("*b").join(",")}]\n`;
     expect(() => loadYaml(at)).not.toThrow();
-    expect(problemMessage(() => readYaml(at + "one: &s y\nmore: *s\n", "targets.yaml"))).toMatch(/^targets\.yaml:4:7: YAML alias limit: too many nodes repeated/);
+    expect(problemMessage(() => readYaml(at + "one: &s y\nmore: *s\n", "targets.yaml"))).toMatch(
+      /^targets\.yaml:4:7: YAML alias limit: too many nodes repeated/,
+    );
   });
 
   it("refuses more than 1000 aliases however small", () => {
@@ -82,14 +89,19 @@ describe("the YAML loader's alias budget", () => {
   });
 
   it("locates a bomb in front matter on the file's own line", () => {
-    expect(problemMessage(() => readFrontMatter(okRecord("W-1", `lol:\n${laughs("  ")}`), "wafers/W-1/wafer.md"))).toMatch(/^wafers\/W-1\/wafer\.md:9:10: YAML alias limit: /);
+    expect(problemMessage(() => readFrontMatter(okRecord("W-1", `lol:\n${laughs("  ")}`), "wafers/W-1/wafer.md"))).toMatch(
+      /^wafers\/W-1\/wafer\.md:9:10: YAML alias limit: /,
+    );
   });
 });
 
 describe("alias bombs in a build", () => {
   it("in wafer.md (unknown key, field value) and a run note: located errors; a wafer's bomb leaves the other wafers building, a run note's stops the build (a site-wide error, issue 15)", async () => {
     const { data, out } = await tempData();
-    for (const [id, extra] of [["BOMB-KEY", `lol:\n${laughs("  ")}`], ["BOMB-VALUE", `title:\n${laughs("  ")}`]]) {
+    for (const [id, extra] of [
+      ["BOMB-KEY", `lol:\n${laughs("  ")}`],
+      ["BOMB-VALUE", `title:\n${laughs("  ")}`],
+    ]) {
       await fs.cp(path.join(data, "wafers", "OK-1"), path.join(data, "wafers", id), { recursive: true });
       await fs.writeFile(path.join(data, "wafers", id, "wafer.md"), okRecord(id, extra));
     }
@@ -97,7 +109,10 @@ describe("alias bombs in a build", () => {
     expect(r.ok).toBe(true);
     const lines = r.problems.map(formatProblem);
     expect(lines).toHaveLength(2);
-    expect(lines.sort()).toEqual([expect.stringMatching(/^wafers\/BOMB-KEY\/wafer\.md:9:10: YAML alias limit: /), expect.stringMatching(/^wafers\/BOMB-VALUE\/wafer\.md:9:10: YAML alias limit: /)]);
+    expect(lines.sort()).toEqual([
+      expect.stringMatching(/^wafers\/BOMB-KEY\/wafer\.md:9:10: YAML alias limit: /),
+      expect.stringMatching(/^wafers\/BOMB-VALUE\/wafer\.md:9:10: YAML alias limit: /),
+    ]);
     const verdicts = Object.fromEntries(r.outcomes.map((o) => [o.folder, o.judgement.verdict]));
     expect(verdicts).toEqual({ "BOMB-KEY": "error", "BOMB-VALUE": "error", "OK-1": "pass" });
     // The whole file's peak memory (vitest itself included) stays far below the 4 GB the bomb used to take.
@@ -116,7 +131,10 @@ describe("alias bombs in a build", () => {
     await fs.writeFile(path.join(data, "targets.yaml"), `default_grade: test\nlol:\n${laughs("  ")}\ngrades:\n  test: {}\n`);
     await fs.writeFile(path.join(data, "analysis.yaml"), `hall_min_r2: 0.99\nlol:\n${laughs("  ")}\n`);
     const site = await loadSiteInputs(data);
-    expect(site.problems.map(formatProblem)).toEqual([expect.stringMatching(/^targets\.yaml:8:10: YAML alias limit: /), expect.stringMatching(/^analysis\.yaml:8:10: YAML alias limit: /)]);
+    expect(site.problems.map(formatProblem)).toEqual([
+      expect.stringMatching(/^targets\.yaml:8:10: YAML alias limit: /),
+      expect.stringMatching(/^analysis\.yaml:8:10: YAML alias limit: /),
+    ]);
     expect(site.waferFolders).toEqual(["OK-1"]);
   }, 20_000);
 
@@ -136,7 +154,11 @@ describe("alias bombs in a build", () => {
     await fs.writeFile(path.join(data, "wafers", "BOMB-VALUE", "wafer.md"), okRecord("BOMB-VALUE", `title:\n${laughs("  ")}`));
     await fs.mkdir(path.join(data, "runs"));
     await fs.writeFile(path.join(data, "runs", "R1.md"), `---\nrecipe:\n${laughs("  ")}\n---\n`);
-    const { stdout } = await promisify(execFile)(process.execPath, ["--max-old-space-size=200", "--import", "tsx", "--input-type=module", "-e", script], { cwd: ROOT, env: { ...process.env, BOMB_DATA: data }, timeout: 18_000 });
+    const { stdout } = await promisify(execFile)(process.execPath, ["--max-old-space-size=200", "--import", "tsx", "--input-type=module", "-e", script], {
+      cwd: ROOT,
+      env: { ...process.env, BOMB_DATA: data },
+      timeout: 18_000,
+    });
     expect(JSON.parse(stdout)).toEqual({ site: 1, wafer: 1 });
   }, 20_000);
 });

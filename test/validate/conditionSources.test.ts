@@ -55,11 +55,17 @@ describe("condition sources of a sweep", () => {
     const a = validateSweep(readInstrumentTable(`# temperature: 4.2 K\nT (K)\t1.6\n${body}`, "wafers/W-1/t/Vg=0.1V.dat", rules), "hall-bar");
     const b = validateSweep(readInstrumentTable(`logger\nT (K)\t1.6\n${body}`, "wafers/W-1/t/Vg=0.2V.dat", rules), "hall-bar");
     const c = validateSweep(readInstrumentTable(`logger\nno temperature here\n${body}`, "wafers/W-1/t/Vg=0.3V.dat", rules), "hall-bar");
-    expect(a.warnings.map((w) => w.message)).toEqual(['the file\'s own "# temperature:" line and the rule `temperature.line` (wafers/W-1/wafer.md:26) disagree; the file\'s line is used']);
+    expect(a.warnings.map((w) => w.message)).toEqual([
+      "the file's own \"# temperature:\" line and the rule `temperature.line` (wafers/W-1/wafer.md:26) disagree; the file's line is used",
+    ]);
     const lines = deviceConditions({ conditions: [a, b, c].map((s) => ({ file: s.file, kind: s.kind, sources: s.conditions ?? [] })) });
     expect(lines.map((l) => l.label)).toEqual(["field range (field sweeps)", "gate voltage (field sweeps)", "temperature", "source current"]);
     expect(lines.shift()).toMatchObject({ values: "−0.1 … 0.1 T", sources: [{ text: "the file's B column", sweeps: "all 3 sweeps" }] });
-    expect(lines[0]).toMatchObject({ values: "0.1 … 0.3 V", sources: [{ text: "the file name, by reading rule", rule: "gate.file_name", ruleAt: "wafers/W-1/wafer.md:25", sweeps: "all 3 sweeps" }], missing: "" });
+    expect(lines[0]).toMatchObject({
+      values: "0.1 … 0.3 V",
+      sources: [{ text: "the file name, by reading rule", rule: "gate.file_name", ruleAt: "wafers/W-1/wafer.md:25", sweeps: "all 3 sweeps" }],
+      missing: "",
+    });
     expect(lines[1]).toMatchObject({
       values: "1.6 … 4.2 K",
       sources: [
@@ -68,6 +74,9 @@ describe("condition sources of a sweep", () => {
       ],
       missing: "1 sweep: Vg=0.3V.dat",
     });
-    expect(lines[2]).toMatchObject({ values: "10 nA", sources: [{ text: "a fixed value in the wafer record", rule: "current.value", sweeps: "all 3 sweeps" }] });
+    expect(lines[2]).toMatchObject({
+      values: "10 nA",
+      sources: [{ text: "a fixed value in the wafer record", rule: "current.value", sweeps: "all 3 sweeps" }],
+    });
   });
 });

@@ -45,7 +45,9 @@ describe("every problem of a file", () => {
       'targets.yaml:4: grades.q.findings.coarse_profle: unknown finding (expected incoherent_well, beyond_critical_thickness, parallel_conduction, one_sign_field, fit_undetermined, coarse_profile, found "coarse_profle") — did you mean "coarse_profile"?',
       'targets.yaml:5: grades.q.findings.one_sign_field: unknown consequence (expected fail | marginal | note, found "ignore") — write one_sign_field: fail, one_sign_field: marginal or one_sign_field: note',
     ]);
-    expect(targets("grades:\n  q:\n    findings: note\n")).toEqual(["targets.yaml:3: grades.q.findings: findings must map finding names to consequences (expected finding: fail | marginal | note, found \"note\") — write one finding per line under findings:, such as incoherent_well: note"]);
+    expect(targets("grades:\n  q:\n    findings: note\n")).toEqual([
+      'targets.yaml:3: grades.q.findings: findings must map finding names to consequences (expected finding: fail | marginal | note, found "note") — write one finding per line under findings:, such as incoherent_well: note',
+    ]);
     const t = "grades:\n  q:\n    findings: { one_sign_field: note, fit_undetermined: fail }\n";
     expect(validateTargets(readYaml(t, "targets.yaml"), "targets.yaml", t).findings).toEqual({ q: { one_sign_field: "note", fit_undetermined: "fail" } });
   });
@@ -74,11 +76,15 @@ describe("every problem of a file", () => {
     const w = (body: string) => `${base}  - { ${body}, reason: "ok", approved_by: "A. B.", date: 2024-06-01 }\n---\n`;
     expect(validateWafer(readFrontMatter(w("finding: incoherent_well"), ctx.file), ctx).waivers[0].finding).toBe("incoherent_well");
     expect(wafer(w("finding: incoherent_wel"))[0]).toMatch(/waivers\[0\]\.finding: waiver names an unknown finding .* did you mean "incoherent_well"\?/);
-    expect(wafer(w("metric: peak_mobility, finding: incoherent_well"))[0]).toMatch(/waivers\[0\]: a waiver names exactly one metric or one finding .*found both/);
+    expect(wafer(w("metric: peak_mobility, finding: incoherent_well"))[0]).toMatch(
+      /waivers\[0\]: a waiver names exactly one metric or one finding .*found both/,
+    );
   });
 
   it("analysis settings: every bad setting is reported", () => {
-    const got = problems(() => applySettings(DEFAULT_SETTINGS, { hall_max_feld: "0.2 T", hall_min_r2: 2, degeneracy: "four" }, { file: "analysis.yaml", field: "" }));
+    const got = problems(() =>
+      applySettings(DEFAULT_SETTINGS, { hall_max_feld: "0.2 T", hall_min_r2: 2, degeneracy: "four" }, { file: "analysis.yaml", field: "" }),
+    );
     expect(got.map((l) => l.split(": ")[1])).toEqual(["hall_max_feld", "hall_min_r2", "degeneracy"]);
   });
 
@@ -96,6 +102,8 @@ describe("every problem of a file", () => {
     const rows = Array.from({ length: 80 }, (_, i) => `${i / 100 - 0.4},1,bad`).join("\n");
     const got = problems(() => validateSweep(readTable(`# gate: 0.5 V\nB [T],Rxx [ohm],Rxy [ohm]\n${rows}\n`, "s.csv"), "hall-bar"));
     expect(got).toHaveLength(MAX_PROBLEMS_PER_FILE + 1);
-    expect(got[MAX_PROBLEMS_PER_FILE]).toBe(`s.csv: ${80 - MAX_PROBLEMS_PER_FILE} more problems in this file not listed (only the first ${MAX_PROBLEMS_PER_FILE} are shown) — correct the problems above and build again to see the rest`);
+    expect(got[MAX_PROBLEMS_PER_FILE]).toBe(
+      `s.csv: ${80 - MAX_PROBLEMS_PER_FILE} more problems in this file not listed (only the first ${MAX_PROBLEMS_PER_FILE} are shown) — correct the problems above and build again to see the rest`,
+    );
   });
 });

@@ -12,8 +12,10 @@ import { validateWafer } from "../../src/validate/wafer.ts";
 import { problemMessage } from "../helpers/problems.ts";
 
 const FILE = "wafers/W-1/wafer.md";
-const lines = (length: number | string, width: number | string) => `---\nwafer: W-1\nrun: R1\ngrown: 2024-05-02\ndevices:\n  - id: HB1\n    geometry: hall-bar\n    length_um: ${length}\n    width_um: ${width}\n    files: "*.csv"\n---\n`;
-const warnings = (length: number, width: number) => deviceDimensionWarnings([{ length_um: length, width_um: width }], FILE, (f) => (f.endsWith("length_um") ? 8 : 9)).map(formatProblem);
+const lines = (length: number | string, width: number | string) =>
+  `---\nwafer: W-1\nrun: R1\ngrown: 2024-05-02\ndevices:\n  - id: HB1\n    geometry: hall-bar\n    length_um: ${length}\n    width_um: ${width}\n    files: "*.csv"\n---\n`;
+const warnings = (length: number, width: number) =>
+  deviceDimensionWarnings([{ length_um: length, width_um: width }], FILE, (f) => (f.endsWith("length_um") ? 8 : 9)).map(formatProblem);
 
 describe("implausible Hall-bar geometry", () => {
   it("width_um: 0.05 (millimetres typed): warns at its line, says 50 µm and that the mobility would be 1000× too large", () => {
@@ -43,7 +45,14 @@ describe("implausible Hall-bar geometry", () => {
   });
 
   it("the record is still read, and width_um: 50 um says the unit goes in the key", () => {
-    expect(validateWafer(readFrontMatter(lines(100, 0.05), FILE), { folder: "W-1", file: FILE, today: "2025-06-01", siteSettings: DEFAULT_SETTINGS }).devices[0].width_um).toBe(0.05);
-    expect(problemMessage(() => validateWafer(readFrontMatter(lines(100, "50 um"), FILE), { folder: "W-1", file: FILE, today: "2025-06-01", siteSettings: DEFAULT_SETTINGS }))).toMatch(/:9: devices\[0\]\.width_um: the unit goes in the key, not the value/);
+    expect(
+      validateWafer(readFrontMatter(lines(100, 0.05), FILE), { folder: "W-1", file: FILE, today: "2025-06-01", siteSettings: DEFAULT_SETTINGS }).devices[0]
+        .width_um,
+    ).toBe(0.05);
+    expect(
+      problemMessage(() =>
+        validateWafer(readFrontMatter(lines(100, "50 um"), FILE), { folder: "W-1", file: FILE, today: "2025-06-01", siteSettings: DEFAULT_SETTINGS }),
+      ),
+    ).toMatch(/:9: devices\[0\]\.width_um: the unit goes in the key, not the value/);
   });
 });

@@ -36,10 +36,21 @@ describe("growth conditions", () => {
     expect(g.layers[0].temperature_C).toBe(625);
     expect(g.layers[0].rate_nm_per_min).toBeCloseTo(1.8, 10); // 0.03 nm/s × 60
     expect(g.layers[0].pressure_Torr).toBeCloseTo(20, 10);
-    expect(g.layers[0].flows_sccm).toEqual([["SiH4", 20], ["H2", 20000]]); // 20 slm = 20 000 sccm
+    expect(g.layers[0].flows_sccm).toEqual([
+      ["SiH4", 20],
+      ["H2", 20000],
+    ]); // 20 slm = 20 000 sccm
     expect(g.anneals[0].temperature_C).toBeCloseTo(800, 9); // 1073.15 K − 273.15
     expect(g.anneals[0].time_s).toBe(120);
-    expect(growthVariables(g).map((v) => v.key)).toEqual(["growth_well_temperature", "growth_well_rate", "growth_well_pressure", "growth_well_flow_sih4", "growth_well_flow_h2", "anneal_post_temperature", "anneal_post_time"]);
+    expect(growthVariables(g).map((v) => v.key)).toEqual([
+      "growth_well_temperature",
+      "growth_well_rate",
+      "growth_well_pressure",
+      "growth_well_flow_sih4",
+      "growth_well_flow_h2",
+      "anneal_post_temperature",
+      "anneal_post_time",
+    ]);
   });
 
   it("locates every bad quantity, unknown layer and unknown key at its line", () => {
@@ -64,7 +75,7 @@ describe("growth conditions", () => {
 
   it("suggests the stack layer meant and says a bare number lacks its unit", () => {
     try {
-      load(record('    - { layer: uper barrier, temperature: 650 }'));
+      load(record("    - { layer: uper barrier, temperature: 650 }"));
       expect.unreachable();
     } catch (e) {
       const [layer, temp] = (e as InputError).problems;
@@ -76,18 +87,20 @@ describe("growth conditions", () => {
   it("refuses two names that become one column key, naming both and where each is", () => {
     // slug rule of docs/formats.md, section Growth conditions: lower case, other characters as "_".
     const text = record(
-      [
-        '    - { layer: upper barrier, temperature: "650 °C", flows: { GeH4: "8 sccm", geh4: "9 sccm" } }',
-        '    - { layer: well, temperature: "625 °C" }',
-      ].join("\n"),
+      ['    - { layer: upper barrier, temperature: "650 °C", flows: { GeH4: "8 sccm", geh4: "9 sccm" } }', '    - { layer: well, temperature: "625 °C" }'].join(
+        "\n",
+      ),
       ['    - { name: post growth, temperature: "800 °C", time: "60 s" }', '    - { name: Post-Growth, temperature: "820 °C", time: "60 s" }'].join("\n"),
     );
-    const stack = text.replace("  - { name: upper barrier, role: barrier }", "  - { name: upper barrier, role: barrier }\n  - { name: Upper-Barrier, role: barrier }");
+    const stack = text.replace(
+      "  - { name: upper barrier, role: barrier }",
+      "  - { name: upper barrier, role: barrier }\n  - { name: Upper-Barrier, role: barrier }",
+    );
     const withCaseTwin = stack.replace('    - { layer: well, temperature: "625 °C" }', '    - { layer: Upper-Barrier, temperature: "655 °C" }');
     expect(problems(withCaseTwin)).toEqual([
-      "wafers/W-1/wafer.md:12: growth.layers[0].flows.geh4: gas \"geh4\" of layer \"upper barrier\" and gas \"GeH4\" of layer \"upper barrier\" (growth.layers[0].flows.GeH4) give the same column key",
-      "wafers/W-1/wafer.md:13: growth.layers[1].layer: layer \"Upper-Barrier\" and layer \"upper barrier\" (growth.layers[0].layer) give the same column key",
-      "wafers/W-1/wafer.md:16: growth.anneals[1].name: anneal \"Post-Growth\" and anneal \"post growth\" (growth.anneals[0].name) give the same column key",
+      'wafers/W-1/wafer.md:12: growth.layers[0].flows.geh4: gas "geh4" of layer "upper barrier" and gas "GeH4" of layer "upper barrier" (growth.layers[0].flows.GeH4) give the same column key',
+      'wafers/W-1/wafer.md:13: growth.layers[1].layer: layer "Upper-Barrier" and layer "upper barrier" (growth.layers[0].layer) give the same column key',
+      'wafers/W-1/wafer.md:16: growth.anneals[1].name: anneal "Post-Growth" and anneal "post growth" (growth.anneals[0].name) give the same column key',
     ]);
     try {
       load(withCaseTwin);
@@ -103,9 +116,9 @@ describe("growth conditions", () => {
       ['    - { layer: well, flows: { "SiH4 temperature": "5 sccm" } }'].join("\n"),
       ['    - { name: post, temperature: "800 °C", time: "60 s" }', '    - { name: post, temperature: "820 °C", time: "60 s" }'].join("\n"),
     ).replace("  - { name: well, role: well }", "  - { name: well, role: well }\n  - { name: well flow sih4, role: cap }");
-    const both = text.replace('    - { layer: well, flows', '    - { layer: well flow sih4, temperature: "600 °C" }\n    - { layer: well, flows');
+    const both = text.replace("    - { layer: well, flows", '    - { layer: well flow sih4, temperature: "600 °C" }\n    - { layer: well, flows');
     expect(problems(both)).toEqual([
-      "wafers/W-1/wafer.md:13: growth.layers[1].flows.SiH4 temperature: gas \"SiH4 temperature\" of layer \"well\" and layer \"well flow sih4\" (growth.layers[0].layer) give the same column key",
+      'wafers/W-1/wafer.md:13: growth.layers[1].flows.SiH4 temperature: gas "SiH4 temperature" of layer "well" and layer "well flow sih4" (growth.layers[0].layer) give the same column key',
       "wafers/W-1/wafer.md:16: growth.anneals[1].name: anneal has two entries",
     ]);
   });

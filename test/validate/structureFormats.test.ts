@@ -41,7 +41,16 @@ describe("X-ray diffraction files", () => {
     expect(f.wavelength).toBeCloseTo(1.5406e-10, 18);
   });
   it("reads a peak table with stack layer names and errors", () => {
-    const f = xrd(["# reflection: 2 2 4", "layer,omega [deg],two_theta [deg],omega_err [deg]", "substrate,8.9,88.03,0.001", "lower barrier,8.5,86.4,0.002", "Well,9.1,88.6,0.004"].join("\n"), ["lower barrier"]);
+    const f = xrd(
+      [
+        "# reflection: 2 2 4",
+        "layer,omega [deg],two_theta [deg],omega_err [deg]",
+        "substrate,8.9,88.03,0.001",
+        "lower barrier,8.5,86.4,0.002",
+        "Well,9.1,88.6,0.004",
+      ].join("\n"),
+      ["lower barrier"],
+    );
     expect(f.kind).toBe("peaks");
     if (f.kind !== "peaks") return;
     expect(f.rows.map((r) => r.layer)).toEqual(["substrate", "lower barrier", "well"]);
@@ -90,7 +99,9 @@ describe("X-ray diffraction files", () => {
     expect(p.field).toMatch(/counts/);
   });
   it("rejects an unknown layer in a peak table, suggesting the stack name", () => {
-    const p = problem(() => xrd(["# reflection: 2 2 4", "layer,omega [deg],two_theta [deg]", "substrate,8.9,88.03", "lower barier,8.5,86.4"].join("\n"), ["lower barrier"]));
+    const p = problem(() =>
+      xrd(["# reflection: 2 2 4", "layer,omega [deg],two_theta [deg]", "substrate,8.9,88.03", "lower barier,8.5,86.4"].join("\n"), ["lower barrier"]),
+    );
     expect(p.line).toBe(4);
     expect(p.fix).toMatch(/lower barrier/);
   });
@@ -114,7 +125,12 @@ describe("depth profiles", () => {
     expect(p.contaminants.O[0]).toBe(1e17);
   });
   it("reads Ge as a fraction [1] and depth in Å", () => {
-    const p = prof(profText("depth [Å],Ge [1]", Array.from({ length: 25 }, (_, i) => `${i * 5},0.3`)));
+    const p = prof(
+      profText(
+        "depth [Å],Ge [1]",
+        Array.from({ length: 25 }, (_, i) => `${i * 5},0.3`),
+      ),
+    );
     expect(p.depth[1]).toBeCloseTo(0.5, 12);
     expect(p.ge[0]).toBeCloseTo(0.3, 12);
   });
@@ -138,7 +154,16 @@ describe("depth profiles", () => {
     expect(p.line).toBe(10);
   });
   it("rejects a profile without Ge, and one too short", () => {
-    expect(problem(() => prof(profText("depth [nm],O [cm^-3]", Array.from({ length: 25 }, (_, i) => `${i},1e17`)))).message).toMatch(/missing the Ge column/);
+    expect(
+      problem(() =>
+        prof(
+          profText(
+            "depth [nm],O [cm^-3]",
+            Array.from({ length: 25 }, (_, i) => `${i},1e17`),
+          ),
+        ),
+      ).message,
+    ).toMatch(/missing the Ge column/);
     expect(problem(() => prof(profText(undefined, ["0,30,1e17", "1,30,1e17"]))).message).toMatch(/too few rows/);
   });
 });

@@ -57,16 +57,46 @@ describe("every unit the site prints, fed back in", () => {
 describe("spellings a lab uses", () => {
   it.each([
     // Mobility, cm²/(V s) = 1e-4 m²/(V s)
-    ["cm^2/Vs", "m^2/(V s)", 1e-4], ["cm2/Vs", "m^2/(V s)", 1e-4], ["cm²/(V·s)", "m^2/(V s)", 1e-4], ["cm^2/(V*s)", "m^2/(V s)", 1e-4],
-    ["cm²/(V s)", "m^2/(V s)", 1e-4], ["cm²/V·s", "m^2/(V s)", 1e-4], ["cm2/V.s", "m^2/(V s)", 1e-4], ["cm^2 V^-1 s^-1", "m^2/(V s)", 1e-4],
-    ["cm2V-1s-1", "m^2/(V s)", 1e-4], ["cm² V⁻¹ s⁻¹", "m^2/(V s)", 1e-4], ["m^2/Vs", "m^2/(V s)", 1],
+    ["cm^2/Vs", "m^2/(V s)", 1e-4],
+    ["cm2/Vs", "m^2/(V s)", 1e-4],
+    ["cm²/(V·s)", "m^2/(V s)", 1e-4],
+    ["cm^2/(V*s)", "m^2/(V s)", 1e-4],
+    ["cm²/(V s)", "m^2/(V s)", 1e-4],
+    ["cm²/V·s", "m^2/(V s)", 1e-4],
+    ["cm2/V.s", "m^2/(V s)", 1e-4],
+    ["cm^2 V^-1 s^-1", "m^2/(V s)", 1e-4],
+    ["cm2V-1s-1", "m^2/(V s)", 1e-4],
+    ["cm² V⁻¹ s⁻¹", "m^2/(V s)", 1e-4],
+    ["m^2/Vs", "m^2/(V s)", 1],
     // Density, cm⁻² = 1e4 m⁻²
-    ["1/cm^2", "m^-2", 1e4], ["cm-2", "m^-2", 1e4], ["cm⁻²", "m^-2", 1e4], ["/cm2", "m^-2", 1e4], ["cm\u22122", "m^-2", 1e4], ["cm−2/V", "m^-2/V", 1e4],
+    ["1/cm^2", "m^-2", 1e4],
+    ["cm-2", "m^-2", 1e4],
+    ["cm⁻²", "m^-2", 1e4],
+    ["/cm2", "m^-2", 1e4],
+    ["cm\u22122", "m^-2", 1e4],
+    ["cm−2/V", "m^-2/V", 1e4],
     // Resistance, Ω
-    ["Ohm", "ohm", 1], ["ohm", "ohm", 1], ["Ω", "ohm", 1], ["\u2126", "ohm", 1], ["ohms", "ohm", 1], ["kOhm", "ohm", 1e3], ["kΩ", "ohm", 1e3], ["MΩ", "ohm", 1e6], ["mΩ", "ohm", 1e-3],
-    ["Ω/sq", "ohm", 1], ["Ω/□", "ohm", 1], ["ohm/sq", "ohm", 1], ["Ohm/□", "ohm", 1], ["ohm per square", "ohm", 1],
+    ["Ohm", "ohm", 1],
+    ["ohm", "ohm", 1],
+    ["Ω", "ohm", 1],
+    ["\u2126", "ohm", 1],
+    ["ohms", "ohm", 1],
+    ["kOhm", "ohm", 1e3],
+    ["kΩ", "ohm", 1e3],
+    ["MΩ", "ohm", 1e6],
+    ["mΩ", "ohm", 1e-3],
+    ["Ω/sq", "ohm", 1],
+    ["Ω/□", "ohm", 1],
+    ["ohm/sq", "ohm", 1],
+    ["Ohm/□", "ohm", 1],
+    ["ohm per square", "ohm", 1],
     // Micro: u, µ (U+00B5), μ (U+03BC)
-    ["uF/cm^2", "F/m^2", 1e-2], ["\u00b5F/cm²", "F/m^2", 1e-2], ["\u03bcF/cm²", "F/m^2", 1e-2], ["\u00b5m", "m", 1e-6], ["\u03bcm", "m", 1e-6], ["um", "m", 1e-6],
+    ["uF/cm^2", "F/m^2", 1e-2],
+    ["\u00b5F/cm²", "F/m^2", 1e-2],
+    ["\u03bcF/cm²", "F/m^2", 1e-2],
+    ["\u00b5m", "m", 1e-6],
+    ["\u03bcm", "m", 1e-6],
+    ["um", "m", 1e-6],
     // Ångström, 1e-10 m
     ["Å", "m", 1e-10],
   ] as const)("2 %s = 2 × %s × %d", (spelling, siUnit, factor) => {
@@ -89,11 +119,22 @@ describe("spellings a lab uses", () => {
 
 describe("column and metadata units (closed lists)", () => {
   it.each([
-    ["resistance", "Ohm", 1], ["resistance", "OHM", 1], ["resistance", "kΩ", 1e3], ["resistance", "kohms", 1e3], ["resistance", "Ω/sq", 1],
-    ["voltage", "\u00b5V", 1e-6], ["voltage", "\u03bcV", 1e-6], ["voltage", "uV", 1e-6],
-    ["current", "\u03bcA", 1e-6], ["current", "nA", 1e-9],
-    ["concentration", "cm⁻³", 1], ["concentration", "1/cm^3", 1], ["concentration", "cm-3", 1],
-    ["length", "µm", 1e3], ["length", "μm", 1e3], ["length", "Å", 0.1],
+    ["resistance", "Ohm", 1],
+    ["resistance", "OHM", 1],
+    ["resistance", "kΩ", 1e3],
+    ["resistance", "kohms", 1e3],
+    ["resistance", "Ω/sq", 1],
+    ["voltage", "\u00b5V", 1e-6],
+    ["voltage", "\u03bcV", 1e-6],
+    ["voltage", "uV", 1e-6],
+    ["current", "\u03bcA", 1e-6],
+    ["current", "nA", 1e-9],
+    ["concentration", "cm⁻³", 1],
+    ["concentration", "1/cm^3", 1],
+    ["concentration", "cm-3", 1],
+    ["length", "µm", 1e3],
+    ["length", "μm", 1e3],
+    ["length", "Å", 0.1],
   ] as const)("%s [%s] → factor %d to the base unit", (dim, unit, factor) => {
     expect(unitFactor(dim as Dimension, unit)).toBe(factor);
   });

@@ -34,5 +34,13 @@ export function expectedWellStrain(stack: Layer[]): ExpectedWellStrain {
   const aw = latticeDismukes(well.ge);
   const ab = latticeDismukes(below.ge);
   const aPerp = strainedPerpendicular(aw, ab, biaxialRatio(well.ge));
-  return { ok: true, wellGe: well.ge, barrierGe: below.ge, barrierName: below.name, outOfPlane_pct: (aPerp / ab - 1) * 100, aPerpendicular_m: aPerp, aReference_m: ab };
+  return {
+    ok: true,
+    wellGe: well.ge,
+    barrierGe: below.ge,
+    barrierName: below.name,
+    outOfPlane_pct: (aPerp / ab - 1) * 100,
+    aPerpendicular_m: aPerp,
+    aReference_m: ab,
+  };
 }

@@ -127,12 +127,7 @@ export interface RealFftOptions {
 }
 
 /** Forward 2-D FFT of a real image. */
-export function fft2dReal(
-  pixels: ArrayLike<number>,
-  width: number,
-  height: number,
-  options: RealFftOptions = {},
-): ComplexImage {
+export function fft2dReal(pixels: ArrayLike<number>, width: number, height: number, options: RealFftOptions = {}): ComplexImage {
   const n = width * height;
   if (pixels.length !== n) throw new RangeError("fft2dReal: pixel count does not match width×height");
   let mean = 0;
@@ -154,10 +149,7 @@ export function fft2dReal(
 
 /** Inverse 2-D FFT (returns a new complex image; the input is not changed). */
 export function ifft2d(spectrum: ComplexImage): ComplexImage {
-  return fft2dInPlace(
-    { width: spectrum.width, height: spectrum.height, re: spectrum.re.slice(), im: spectrum.im.slice() },
-    true,
-  );
+  return fft2dInPlace({ width: spectrum.width, height: spectrum.height, re: spectrum.re.slice(), im: spectrum.im.slice() }, true);
 }
 
 /** Power spectrum |F|² (same layout as the transform, DC at index 0). */

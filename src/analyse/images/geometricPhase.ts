@@ -162,8 +162,7 @@ function localG(f: ComplexImage, carrier: Vec2, width: number, height: number) {
   const gx = new Float64Array(width * height);
   const gy = new Float64Array(width * height);
   const amp = new Float64Array(width * height);
-  const arg2 = (a: number, b: number) =>
-    Math.atan2(im[a] * re[b] - re[a] * im[b], re[a] * re[b] + im[a] * im[b]) / (4 * Math.PI);
+  const arg2 = (a: number, b: number) => Math.atan2(im[a] * re[b] - re[a] * im[b], re[a] * re[b] + im[a] * im[b]) / (4 * Math.PI);
   for (let y = 0; y < height; y++) {
     const up = ((y - 1 + H) % H) * W;
     const down = ((y + 1) % H) * W;
@@ -191,12 +190,7 @@ function regionMean(map: Float64Array, width: number, r: PixelRect): number {
 }
 
 /** GPA strain and rotation maps of a lattice image; see the module comment. */
-export function geometricPhase(
-  pixels: ArrayLike<number>,
-  width: number,
-  height: number,
-  options: GpaOptions = {},
-): GpaResult {
+export function geometricPhase(pixels: ArrayLike<number>, width: number, height: number, options: GpaOptions = {}): GpaResult {
   if (width < 32 || height < 32) return { ok: false, reason: `image ${width}×${height} is too small for GPA (need 32×32)` };
   if (pixels.length !== width * height) throw new RangeError("geometricPhase: pixel count does not match width×height");
   for (let i = 0; i < pixels.length; i++) if (!Number.isFinite(pixels[i])) return { ok: false, reason: "image contains non-finite pixel values" };
@@ -225,7 +219,8 @@ export function geometricPhase(
   });
   const ref = fields.map((f) => ({ x: regionMean(f.gx, width, reference), y: regionMean(f.gy, width, reference), a: regionMean(f.amp, width, reference) }));
   const det = ref[0].x * ref[1].y - ref[0].y * ref[1].x;
-  if (Math.abs(det) < 1e-12 || !(ref[0].a > 0 && ref[1].a > 0)) return { ok: false, reason: "the two lattice spots are collinear or absent in the reference region" };
+  if (Math.abs(det) < 1e-12 || !(ref[0].a > 0 && ref[1].a > 0))
+    return { ok: false, reason: "the two lattice spots are collinear or absent in the reference region" };
   const axis = options.growthAxis ?? "up";
   const frameTilt_deg = options.frameTilt_deg ?? gpaFrameTilt(ref[0], ref[1], axis);
   const maps = strainMaps(fields, ref, width, height, axis, degToRad(frameTilt_deg));
@@ -252,15 +247,24 @@ type Field = { gx: Float64Array; gy: Float64Array; amp: Float64Array };
 function strainMaps(fields: Field[], ref: { x: number; y: number; a: number }[], width: number, height: number, axis: GrowthAxis, tilt: number) {
   const n = width * height;
   const out = {
-    exx: new Float32Array(n), eyy: new Float32Array(n), exy: new Float32Array(n), rotation: new Float32Array(n),
-    inPlane: new Float32Array(n), outOfPlane: new Float32Array(n), shear: new Float32Array(n), amplitude: new Float32Array(n),
+    exx: new Float32Array(n),
+    eyy: new Float32Array(n),
+    exy: new Float32Array(n),
+    rotation: new Float32Array(n),
+    inPlane: new Float32Array(n),
+    outOfPlane: new Float32Array(n),
+    shear: new Float32Array(n),
+    amplitude: new Float32Array(n),
   };
   const nv = growthNormal(axis, tilt);
   const tv = inPlaneDirection(axis, tilt);
   const [f1, f2] = fields;
   const [r1, r2] = ref;
   for (let i = 0; i < n; i++) {
-    const a = f1.gx[i], b = f1.gy[i], c = f2.gx[i], d = f2.gy[i];
+    const a = f1.gx[i],
+      b = f1.gy[i],
+      c = f2.gx[i],
+      d = f2.gy[i];
     const det = a * d - b * c;
     if (!(Math.abs(det) > 0) || !Number.isFinite(det)) continue; // no lattice signal: strain 0, amplitude 0
     // F = G_local⁻¹ · G_ref, with G_local⁻¹ = [[d, −b], [−c, a]] / det.
@@ -269,11 +273,15 @@ function strainMaps(fields: Field[], ref: { x: number; y: number; a: number }[],
     const F10 = (-c * r1.x + a * r2.x) / det;
     const F11 = (-c * r1.y + a * r2.y) / det;
     const w = Math.atan2(F10 - F01, F00 + F11);
-    const cw = Math.cos(w), sw = Math.sin(w);
+    const cw = Math.cos(w),
+      sw = Math.sin(w);
     const exx = cw * F00 + sw * F10 - 1;
     const eyy = -sw * F01 + cw * F11 - 1;
     const exy = cw * F01 + sw * F11;
-    out.exx[i] = exx; out.eyy[i] = eyy; out.exy[i] = exy; out.rotation[i] = w;
+    out.exx[i] = exx;
+    out.eyy[i] = eyy;
+    out.exy[i] = exy;
+    out.rotation[i] = w;
     out.inPlane[i] = tv.x * tv.x * exx + 2 * tv.x * tv.y * exy + tv.y * tv.y * eyy;
     out.outOfPlane[i] = nv.x * nv.x * exx + 2 * nv.x * nv.y * exy + nv.y * nv.y * eyy;
     out.shear[i] = tv.x * nv.x * exx + (tv.x * nv.y + tv.y * nv.x) * exy + tv.y * nv.y * eyy;

@@ -13,7 +13,7 @@
  * direction from the image centre, positive toward the surface. Interfaces
  * are lines of constant s; the in-plane direction t is n rotated by +90°.
  */
-import type { GrowthAxis, } from "../../model/imageInputs.ts";
+import type { GrowthAxis } from "../../model/imageInputs.ts";
 
 export interface Vec2 {
   x: number;
@@ -41,14 +41,7 @@ export function inPlaneDirection(axis: GrowthAxis, tilt_rad = 0): Vec2 {
 }
 
 /** Growth coordinate s (pixels) of pixel (x, y); see the module comment. */
-export function growthCoordinate(
-  x: number,
-  y: number,
-  width: number,
-  height: number,
-  axis: GrowthAxis,
-  tilt_rad = 0,
-): number {
+export function growthCoordinate(x: number, y: number, width: number, height: number, axis: GrowthAxis, tilt_rad = 0): number {
   const n = growthNormal(axis, tilt_rad);
   return n.x * (x - (width - 1) / 2) + n.y * (y - (height - 1) / 2);
 }

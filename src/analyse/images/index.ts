@@ -67,7 +67,12 @@ export function bandRectangle(width: number, height: number, axis: GrowthAxis, t
 /** Growth-coordinate band [min, max] covered by a pixel rectangle. */
 function rectangleBand(m: MicrographInput, r: PixelRect, tilt_deg: number) {
   const t = degToRad(tilt_deg);
-  const s = [[r[0], r[1]], [r[2] - 1, r[1]], [r[0], r[3] - 1], [r[2] - 1, r[3] - 1]].map(([x, y]) => growthCoordinate(x, y, m.width, m.height, m.growthAxis, t));
+  const s = [
+    [r[0], r[1]],
+    [r[2] - 1, r[1]],
+    [r[0], r[3] - 1],
+    [r[2] - 1, r[3] - 1],
+  ].map(([x, y]) => growthCoordinate(x, y, m.width, m.height, m.growthAxis, t));
   return { bottom_px: Math.min(...s), top_px: Math.max(...s) };
 }
 
@@ -83,9 +88,12 @@ function tiltFinding(p: ZContrastResult): string | null {
 export function analyseMicrograph(m: MicrographInput, stack: Layer[]): ImageResult {
   const { width, height, pixels, growthAxis } = m;
   const profile = zContrastProfile(pixels, width, height, { pixelSize_m: m.pixelSize_m, growthAxis });
-  const widthsSkipped = m.kind === "hrtem"
-    ? "interface widths are measured on HAADF images only: HRTEM contrast follows focus and specimen thickness, not atomic number"
-    : profile.ok ? null : profile.reason;
+  const widthsSkipped =
+    m.kind === "hrtem"
+      ? "interface widths are measured on HAADF images only: HRTEM contrast follows focus and specimen thickness, not atomic number"
+      : profile.ok
+        ? null
+        : profile.reason;
   const tilt = profile.ok ? profile.tilt_deg : 0;
   let reference = m.reference;
   let referenceSource = reference ? `the region [${reference.join(", ")}] given in wafer.md` : "";

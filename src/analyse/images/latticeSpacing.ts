@@ -40,12 +40,7 @@ export interface PeakSearchOptions {
  * Local maxima of the power spectrum in the half-plane ky > 0 (or ky = 0, kx > 0),
  * strongest first, at bin precision. Sizes must be powers of two.
  */
-export function findBraggPeaks(
-  pixels: ArrayLike<number>,
-  width: number,
-  height: number,
-  options: PeakSearchOptions = {},
-): BraggPeak[] {
+export function findBraggPeaks(pixels: ArrayLike<number>, width: number, height: number, options: PeakSearchOptions = {}): BraggPeak[] {
   const spectrum = fft2dReal(pixels, width, height, { window: true });
   const power = powerSpectrum(spectrum);
   const fMax = 1 / (options.minPeriod_px ?? 2.5);
@@ -129,8 +124,7 @@ export function refinePeakFrequency(pixels: ArrayLike<number>, width: number, he
   for (const stepBins of [0.3, 0.1, 0.03, 0.01, 0.01]) {
     for (const axis of ["x", "y"] as const) {
       const h = stepBins / (axis === "x" ? width : height);
-      const at = (d: number) =>
-        Math.log(dtftPower(data, width, height, g.x + (axis === "x" ? d : 0), g.y + (axis === "y" ? d : 0)) + 1e-300);
+      const at = (d: number) => Math.log(dtftPower(data, width, height, g.x + (axis === "x" ? d : 0), g.y + (axis === "y" ? d : 0)) + 1e-300);
       const l = at(-h);
       const c = at(0);
       const r = at(h);
@@ -169,12 +163,7 @@ export type LatticeSpacingResult =
  * `direction`). The image must have power-of-two sides (crop first with
  * cropToPowerOfTwo).
  */
-export function latticeSpacing(
-  pixels: ArrayLike<number>,
-  width: number,
-  height: number,
-  options: LatticeSpacingOptions = {},
-): LatticeSpacingResult {
+export function latticeSpacing(pixels: ArrayLike<number>, width: number, height: number, options: LatticeSpacingOptions = {}): LatticeSpacingResult {
   if (!isPowerOfTwo(width) || !isPowerOfTwo(height)) {
     return { ok: false, reason: `image ${width}×${height} is not a power of two on both sides; crop it first` };
   }

@@ -62,7 +62,10 @@ function blur(src: Float64Array, width: number, height: number, r: number): Floa
  */
 export function strainMeanUncertainty(maps: GpaMaps, e: Vec2, regions: WeightedRegion[]): number {
   const { width, height } = maps;
-  const G = [[maps.g1.x, maps.g1.y], [maps.g2.x, maps.g2.y]];
+  const G = [
+    [maps.g1.x, maps.g1.y],
+    [maps.g2.x, maps.g2.y],
+  ];
   const det = G[0][0] * G[1][1] - G[0][1] * G[1][0];
   // eᵀG⁻¹, with G⁻¹ = [[G11, −G01], [−G10, G00]]/det.
   const alpha = [(e.x * G[1][1] - e.y * G[1][0]) / det, (-e.x * G[0][1] + e.y * G[0][0]) / det];

@@ -83,7 +83,8 @@ function regionStats(maps: GpaMaps, lo: number, hi: number, tilt: number, minAmp
   const { width, height } = maps;
   const border = Math.ceil(3 * maps.resolution_px);
   let n = 0;
-  let si = 0, so = 0;
+  let si = 0,
+    so = 0;
   const pixels: number[] = [];
   for (let y = border; y < height - border; y++) {
     for (let x = border; x < width - border; x++) {
@@ -93,7 +94,8 @@ function regionStats(maps: GpaMaps, lo: number, hi: number, tilt: number, minAmp
       const a = maps.inPlane[i];
       const b = maps.outOfPlane[i];
       n++;
-      si += a; so += b;
+      si += a;
+      so += b;
       pixels.push(i);
     }
   }

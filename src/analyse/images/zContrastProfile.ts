@@ -127,16 +127,26 @@ interface ProfileNoise {
 /** Noise covariance (per unit pixel variance) of the smoothed points from..to (trimmed indices). */
 function windowCovariance(noise: ProfileNoise, from: number, to: number): number[][] {
   const rows = Array.from({ length: to - from + 1 }, (_, i) => i + from + noise.offset);
-  return rows.map((a) => rows.map((b) => {
-    const x = noise.sv[a];
-    const y = noise.smooth[b];
-    let c = 0;
-    for (let m = 0; m < x.length; m++) c += x[m] * y[m];
-    return c;
-  }));
+  return rows.map((a) =>
+    rows.map((b) => {
+      const x = noise.sv[a];
+      const y = noise.smooth[b];
+      let c = 0;
+      for (let m = 0; m < x.length; m++) c += x[m] * y[m];
+      return c;
+    }),
+  );
 }
 
-function fitEdge(s: number[], p: number[], from: number, to: number, options: ZContrastOptions, period: number | null, noise: ProfileNoise): InterfaceEdgeFit | string {
+function fitEdge(
+  s: number[],
+  p: number[],
+  from: number,
+  to: number,
+  options: ZContrastOptions,
+  period: number | null,
+  noise: ProfileNoise,
+): InterfaceEdgeFit | string {
   const z = s.slice(from, to + 1);
   const v = p.slice(from, to + 1);
   if (z.length < 8) return "too few profile points around an interface";
@@ -154,8 +164,15 @@ function fitEdge(s: number[], p: number[], from: number, to: number, options: ZC
   const free = options.backgroundSlope ? [0, 1, 2, 3, 4] : [0, 1, 2, 3];
   let tauFitStdErr: number;
   try {
-    const rows = z.map((zz) => { const d = sigmoidJacobian(fit, zz); return free.map((k) => d[k]); });
-    const c = correlatedNoiseCovariance(rows, windowCovariance(noise, from, to), v.map((vv, i) => vv - sigmoidAt(fit, z[i])));
+    const rows = z.map((zz) => {
+      const d = sigmoidJacobian(fit, zz);
+      return free.map((k) => d[k]);
+    });
+    const c = correlatedNoiseCovariance(
+      rows,
+      windowCovariance(noise, from, to),
+      v.map((vv, i) => vv - sigmoidAt(fit, z[i])),
+    );
     tauFitStdErr = Math.sqrt(Math.max(0, c.covariance[3][3]));
   } catch {
     return "interface fit is degenerate (singular normal matrix)";
@@ -200,7 +217,9 @@ export function zContrastProfile(pixels: ArrayLike<number>, width: number, heigh
   // Drop the end bins, where the moving average runs out of samples.
   const trim = period ? Math.ceil(period) + 2 : 1;
   const smooth = smoothingMatrix(full.value.length, period);
-  const sv = smooth.map((row) => row.map((_, m) => (row[m - 1] ?? 0) * (full.covarianceNext[m - 1] ?? 0) + row[m] * full.variance[m] + (row[m + 1] ?? 0) * full.covarianceNext[m]));
+  const sv = smooth.map((row) =>
+    row.map((_, m) => (row[m - 1] ?? 0) * (full.covarianceNext[m - 1] ?? 0) + row[m] * full.variance[m] + (row[m + 1] ?? 0) * full.covarianceNext[m]),
+  );
   const noise: ProfileNoise = { sv, smooth, offset: trim };
   const smoothed = smoothOverPeriod(full.value, period).slice(trim, -trim);
   const prof = { s: full.s.slice(trim, -trim), value: full.value.slice(trim, -trim) };

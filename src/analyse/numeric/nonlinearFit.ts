@@ -104,12 +104,7 @@ function scaledJacobian(jacobian: ModelJacobian, toFull: (u: number[]) => number
   };
 }
 
-export function nonlinearFit(
-  model: Model,
-  x: ArrayLike<number>,
-  y: ArrayLike<number>,
-  options: NonlinearFitOptions,
-): NonlinearFit {
+export function nonlinearFit(model: Model, x: ArrayLike<number>, y: ArrayLike<number>, options: NonlinearFitOptions): NonlinearFit {
   const k = options.initial.length;
   const fixed = new Set(options.fixed ?? []);
   const free = [...Array(k).keys()].filter((i) => !fixed.has(i));

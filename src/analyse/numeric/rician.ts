@@ -24,7 +24,8 @@
 import { besselI0Scaled, besselI1Scaled } from "./besselScaled.ts";
 
 function check(nu: number, sigma: number): void {
-  if (!(nu >= 0) || !Number.isFinite(nu) || !(sigma > 0) || !Number.isFinite(sigma)) throw new RangeError(`rician: need ν ≥ 0 and σ > 0, got ν = ${nu}, σ = ${sigma}`);
+  if (!(nu >= 0) || !Number.isFinite(nu) || !(sigma > 0) || !Number.isFinite(sigma))
+    throw new RangeError(`rician: need ν ≥ 0 and σ > 0, got ν = ${nu}, σ = ${sigma}`);
 }
 
 /** The Marcum integrand t·exp(−(t − a)²/2)·e^(−at)I0(at), written so nothing overflows. */

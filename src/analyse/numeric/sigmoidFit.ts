@@ -41,11 +41,7 @@ export interface SigmoidFitOptions {
   slope?: boolean;
 }
 
-export function fitSigmoidEdge(
-  z: ArrayLike<number>,
-  value: ArrayLike<number>,
-  options: SigmoidFitOptions = {},
-): SigmoidEdge {
+export function fitSigmoidEdge(z: ArrayLike<number>, value: ArrayLike<number>, options: SigmoidFitOptions = {}): SigmoidEdge {
   const n = z.length;
   if (n < 6) throw new RangeError(`fitSigmoidEdge: need at least 6 points, got ${n}`);
   const zs = Array.from(z);
@@ -68,8 +64,10 @@ export function fitSigmoidEdge(
   }
   const stepGuess = hi - lo || 1e-6;
   const useSlope = options.slope ?? true;
-  const model = ([x0, dx, z0, tau, s]: number[]) => (zz: number) =>
-    x0 + dx / (1 + Math.exp(-(zz - z0) / tau)) + s * (zz - zMean);
+  const model =
+    ([x0, dx, z0, tau, s]: number[]) =>
+    (zz: number) =>
+      x0 + dx / (1 + Math.exp(-(zz - z0) / tau)) + s * (zz - zMean);
   const run = (tau0: number) =>
     nonlinearFit(model, zs, vs, {
       initial: [lo, stepGuess, centre, tau0, 0],
@@ -111,7 +109,10 @@ function widthGuess(z: number[], v: number[], lo: number, hi: number): number {
     for (let i = 1; i < z.length; i++) if ((v[i - 1] - level) * (v[i] - level) <= 0) return z[i];
     return NaN;
   };
-  const steps = z.slice(1).map((zz, i) => zz - z[i]).sort((a, b) => a - b);
+  const steps = z
+    .slice(1)
+    .map((zz, i) => zz - z[i])
+    .sort((a, b) => a - b);
   const w = Math.abs(cross(0.9) - cross(0.1));
   return Math.max(Number.isFinite(w) ? w : 0, steps[steps.length >> 1] ?? 0, 1e-12);
 }

@@ -48,7 +48,8 @@ export function sturmCount(d: ArrayLike<number>, e: ArrayLike<number>, lambda: n
 export function tridiagonalGroundState(diagonal: ArrayLike<number>, offDiagonal: ArrayLike<number>, tolerance = 0): GroundState {
   const n = diagonal.length;
   if (n < 1) throw new RangeError("tridiagonalGroundState: empty matrix");
-  if (offDiagonal.length !== n - 1) throw new RangeError(`tridiagonalGroundState: ${n} diagonal entries need ${n - 1} off-diagonal ones, got ${offDiagonal.length}`);
+  if (offDiagonal.length !== n - 1)
+    throw new RangeError(`tridiagonalGroundState: ${n} diagonal entries need ${n - 1} off-diagonal ones, got ${offDiagonal.length}`);
   let lo = Infinity;
   let hi = -Infinity;
   for (let i = 0; i < n; i++) {

@@ -15,7 +15,7 @@
  */
 
 export type CriticalThickness =
-  | { ok: true; /** m */ thickness: number; iterations: number; model: "matthews-blakeslee" | "people-bean" }
+  | { ok: true /** m */; thickness: number; iterations: number; model: "matthews-blakeslee" | "people-bean" }
   | { ok: false; reason: string };
 
 /** People & Bean's Burgers vector, m (≈ 4 Å, People & Bean 1985). */
@@ -66,7 +66,7 @@ export function matthewsBlakeslee(strain: number, a: number, nu: number): Critic
 export function peopleBean(strain: number, a: number, nu: number, b = PEOPLE_BEAN_BURGERS): CriticalThickness {
   const bad = checkInputs(strain, a, nu) ?? (b > 0 && Number.isFinite(b) ? undefined : "the Burgers vector must be positive");
   if (bad) return { ok: false, reason: bad };
-  const A = ((1 - nu) / (1 + nu)) * (1 / (16 * Math.PI * Math.SQRT2)) * ((b * b) / a) / (strain * strain);
+  const A = (((1 - nu) / (1 + nu)) * (1 / (16 * Math.PI * Math.SQRT2)) * ((b * b) / a)) / (strain * strain);
   const r = fixedPoint(A, b, 0);
   return typeof r === "string" ? { ok: false, reason: r } : { ok: true, thickness: r.h, iterations: r.it, model: "people-bean" };
 }

@@ -46,7 +46,10 @@ function mbOf(strain: number): number | undefined {
   return r.ok ? r.thickness : undefined;
 }
 
-function strainToUse(stack: readonly Layer[], strain: WellStrain | undefined): { e: number; se: number; source: "well-peak" | "pseudomorphic-on-buffer" | "design" } | string {
+function strainToUse(
+  stack: readonly Layer[],
+  strain: WellStrain | undefined,
+): { e: number; se: number; source: "well-peak" | "pseudomorphic-on-buffer" | "design" } | string {
   if (strain?.ok) return { e: strain.epsParallel, se: strain.epsParallelStdErr, source: strain.source };
   const x = stack.find((l) => l.role === "buffer")?.ge ?? stack.find((l) => l.role === "barrier")?.ge;
   if (x === undefined) return `no well strain from X-ray${strain && !strain.ok ? ` (${strain.reason})` : ""} and no buffer or barrier Ge fraction in the stack`;
@@ -64,7 +67,8 @@ export function checkCriticalThickness(stack: readonly Layer[], strain: WellStra
   const pb = peopleBean(s.e, A_SI, NU_SI);
   const design = stack.find((l) => l.role === "well")?.thickness_nm;
   const thickness = design !== undefined ? design * 1e-9 : profileThickness;
-  if (thickness === undefined || !(thickness > 0)) return { ok: false, reason: "the well thickness is neither in the stack (thickness_nm) nor measured on a depth profile" };
+  if (thickness === undefined || !(thickness > 0))
+    return { ok: false, reason: "the well thickness is neither in the stack (thickness_nm) nor measured on a depth profile" };
   const hi = s.se > 0 ? mbOf(Math.abs(s.e) - s.se) : undefined;
   const lo = s.se > 0 ? mbOf(Math.abs(s.e) + s.se) : undefined;
   const mbErr = hi !== undefined && lo !== undefined ? Math.abs(hi - lo) / 2 : 0;

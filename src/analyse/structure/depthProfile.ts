@@ -157,7 +157,10 @@ function fitEdge(z: number[], g: number[], from: number, to: number, which: "top
   const zs = sel.map((i) => z[i]);
   let fit: SigmoidEdge;
   try {
-    fit = fitSigmoidEdge(zs, sel.map((i) => g[i]));
+    fit = fitSigmoidEdge(
+      zs,
+      sel.map((i) => g[i]),
+    );
   } catch (e) {
     return `the ${which} interface fit failed: ${(e as Error).message}`;
   }

@@ -64,7 +64,13 @@ export interface StructureContext {
   parallelConduction?: boolean;
 }
 
-export const VALLEY_METRICS = ["valley_splitting_mean", "valley_splitting_p10", "valley_splitting_deterministic", "valley_splitting_disorder", "valley_splitting_yield"] as const;
+export const VALLEY_METRICS = [
+  "valley_splitting_mean",
+  "valley_splitting_p10",
+  "valley_splitting_deterministic",
+  "valley_splitting_disorder",
+  "valley_splitting_yield",
+] as const;
 
 /**
  * Why the valley figures must not be judged, or null: the measured profile departs from the
@@ -102,13 +108,46 @@ function designRows(stack: readonly Layer[], xrd: XrdAnalysis | undefined, prof:
   const barrier = layerOf(stack, "barrier");
   const well = layerOf(stack, "well");
   const b = xrd?.buffer.ok ? xrd.buffer : undefined;
-  rows.push({ quantity: "Buffer Ge fraction", unit: "1", design: buffer?.ge, measured: b?.geFraction, measuredStdErr: b?.geFractionStdErr, source: "X-ray 004 + 224" });
-  rows.push({ quantity: "Buffer relaxation", unit: "%", measured: b && b.relaxation * 100, measuredStdErr: b && b.relaxationStdErr * 100, source: "X-ray 224" });
+  rows.push({
+    quantity: "Buffer Ge fraction",
+    unit: "1",
+    design: buffer?.ge,
+    measured: b?.geFraction,
+    measuredStdErr: b?.geFractionStdErr,
+    source: "X-ray 004 + 224",
+  });
+  rows.push({
+    quantity: "Buffer relaxation",
+    unit: "%",
+    measured: b && b.relaxation * 100,
+    measuredStdErr: b && b.relaxationStdErr * 100,
+    source: "X-ray 224",
+  });
   const s = xrd?.strain.ok ? xrd.strain : undefined;
-  rows.push({ quantity: "Well in-plane strain", unit: "%", design: buffer?.ge !== undefined ? strainedSiOnRelaxedSiGe(buffer.ge).epsParallel * 100 : undefined, measured: s && s.epsParallel * 100, measuredStdErr: s && s.epsParallelStdErr * 100, source: s ? (s.source === "well-peak" ? "well peak" : "buffer a∥, well assumed pseudomorphic") : "—" });
+  rows.push({
+    quantity: "Well in-plane strain",
+    unit: "%",
+    design: buffer?.ge !== undefined ? strainedSiOnRelaxedSiGe(buffer.ge).epsParallel * 100 : undefined,
+    measured: s && s.epsParallel * 100,
+    measuredStdErr: s && s.epsParallelStdErr * 100,
+    source: s ? (s.source === "well-peak" ? "well peak" : "buffer a∥, well assumed pseudomorphic") : "—",
+  });
   const r = prof?.result.ok ? prof.result : undefined;
-  rows.push({ quantity: "Well thickness", unit: "nm", design: well?.thickness_nm, measured: r?.wellThickness, measuredStdErr: r?.wellThicknessStdErr, source: prof ? `${prof.data.method} profile` : "—" });
-  rows.push({ quantity: "Barrier Ge fraction", unit: "1", design: barrier?.ge, measured: r?.barrierGeFraction, source: prof ? `${prof.data.method} profile` : "—" });
+  rows.push({
+    quantity: "Well thickness",
+    unit: "nm",
+    design: well?.thickness_nm,
+    measured: r?.wellThickness,
+    measuredStdErr: r?.wellThicknessStdErr,
+    source: prof ? `${prof.data.method} profile` : "—",
+  });
+  rows.push({
+    quantity: "Barrier Ge fraction",
+    unit: "1",
+    design: barrier?.ge,
+    measured: r?.barrierGeFraction,
+    source: prof ? `${prof.data.method} profile` : "—",
+  });
   rows.push({ quantity: "Minimum Ge in the well", unit: "1", design: well?.ge, measured: r?.wellGeMin, source: prof ? `${prof.data.method} profile` : "—" });
   return rows;
 }
@@ -119,13 +158,25 @@ function findings(xrd: XrdAnalysis | undefined, profiles: ProfileAnalysis[], cri
   else if (crit.ok) out.push({ severity: "note", text: crit.statement });
   else out.push({ severity: "note", text: `Critical thickness not checked: ${crit.reason}` });
   if (xrd && !xrd.buffer.ok) out.push({ severity: "note", text: `Buffer figures not computed: ${xrd.buffer.reason}` });
-  if (xrd?.strain.ok) out.push({ severity: "note", text: xrd.strain.source === "well-peak" ? "Well strain measured from the well's own asymmetric peak." : "No well peak found in the asymmetric map: the well is assumed pseudomorphic on the buffer (its in-plane lattice constant is the buffer's)." });
+  if (xrd?.strain.ok)
+    out.push({
+      severity: "note",
+      text:
+        xrd.strain.source === "well-peak"
+          ? "Well strain measured from the well's own asymmetric peak."
+          : "No well peak found in the asymmetric map: the well is assumed pseudomorphic on the buffer (its in-plane lattice constant is the buffer's).",
+    });
   for (const p of profiles) if (!p.result.ok) out.push({ severity: "note", text: `${p.data.file}: depth profile not analysed: ${p.result.reason}` });
   return out;
 }
 
 /** Runs the structure analyses of one wafer (see module comment); undefined when the wafer has no XRD or profile files. Never throws for data. */
-export function analyseStructure(inputs: StructureInputs, stack: Layer[], settings: AnalysisSettings, context: StructureContext = {}): StructureAnalysis | undefined {
+export function analyseStructure(
+  inputs: StructureInputs,
+  stack: Layer[],
+  settings: AnalysisSettings,
+  context: StructureContext = {},
+): StructureAnalysis | undefined {
   const xrdFiles = inputs.xrd ?? [];
   const profFiles = inputs.profiles ?? [];
   if (xrdFiles.length === 0 && profFiles.length === 0) return undefined;
@@ -153,7 +204,21 @@ export function analyseStructure(inputs: StructureInputs, stack: Layer[], settin
   }
   const peaks = contaminantPeaks(prof);
   for (const el of REGISTERED_CONTAMINANTS) put(`peak_${el}`, peaks[el] === undefined ? undefined : peaks[el] * 1e6);
-  const valley = r && prof ? { file: prof.data.file, result: predictValleySplitting({ depth: prof.data.depth, ge: prof.data.ge, top: r.top, bottom: r.bottom, electronDensity: context.electronDensity }, { field: settings.valley_field, orbitalEnergy: settings.valley_dot_orbital_energy, bandOffset: settings.valley_band_offset_per_ge, threshold: settings.valley_splitting_threshold }) } : undefined;
+  const valley =
+    r && prof
+      ? {
+          file: prof.data.file,
+          result: predictValleySplitting(
+            { depth: prof.data.depth, ge: prof.data.ge, top: r.top, bottom: r.bottom, electronDensity: context.electronDensity },
+            {
+              field: settings.valley_field,
+              orbitalEnergy: settings.valley_dot_orbital_energy,
+              bandOffset: settings.valley_band_offset_per_ge,
+              threshold: settings.valley_splitting_threshold,
+            },
+          ),
+        }
+      : undefined;
   if (valley?.result.ok) {
     const v = valley.result;
     put("valley_splitting_mean", v.mean);

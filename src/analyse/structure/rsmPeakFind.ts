@@ -53,7 +53,6 @@ export interface PeakSearch {
   peaks: RawPeak[];
 }
 
-
 function spacing(values: number[]): number {
   const uniq = [...new Set(values.map((v) => Math.round(v * 1e9)))].sort((a, b) => a - b);
   const range = (uniq[uniq.length - 1] - uniq[0]) * 1e-9;
@@ -80,10 +79,15 @@ type NeighbourTest = (i: number, r: number, test: (j: number) => boolean) => boo
  */
 function neighbourIndex(u: number[], v: number[], cell: number): { near: NeighbourQuery; everyNear: NeighbourTest } {
   const n = u.length;
-  let uMin = Infinity, uMax = -Infinity, vMin = Infinity, vMax = -Infinity;
+  let uMin = Infinity,
+    uMax = -Infinity,
+    vMin = Infinity,
+    vMax = -Infinity;
   for (let i = 0; i < n; i++) {
-    uMin = Math.min(uMin, u[i]); uMax = Math.max(uMax, u[i]);
-    vMin = Math.min(vMin, v[i]); vMax = Math.max(vMax, v[i]);
+    uMin = Math.min(uMin, u[i]);
+    uMax = Math.max(uMax, u[i]);
+    vMin = Math.min(vMin, v[i]);
+    vMax = Math.max(vMax, v[i]);
   }
   // Fine cells of width f (≥ 1 spacing), widened until the grid has at most ~4 cells per point.
   let f = 1;
@@ -110,7 +114,8 @@ function neighbourIndex(u: number[], v: number[], cell: number): { near: Neighbo
     const reach = Math.ceil(r / f);
     const cu = Math.floor((u[i] - uMin) / f);
     const cv = Math.floor((v[i] - vMin) / f);
-    const ui = u[i], vi = v[i];
+    const ui = u[i],
+      vi = v[i];
     for (let a = Math.max(0, cu - reach); a <= Math.min(cols - 1, cu + reach); a++) {
       const base = a * rows;
       const end = start[base + Math.min(rows - 1, cv + reach) + 1];
@@ -126,7 +131,8 @@ function neighbourIndex(u: number[], v: number[], cell: number): { near: Neighbo
     const reach = Math.ceil(r / f);
     const cu = Math.floor((u[i] - uMin) / f);
     const cv = Math.floor((v[i] - vMin) / f);
-    const ui = u[i], vi = v[i];
+    const ui = u[i],
+      vi = v[i];
     for (let a = Math.max(0, cu - reach); a <= Math.min(cols - 1, cu + reach); a++) {
       const base = a * rows;
       const end = start[base + Math.min(rows - 1, cv + reach) + 1];
@@ -140,7 +146,10 @@ function neighbourIndex(u: number[], v: number[], cell: number): { near: Neighbo
       for (let x = 1; x < out.length; x++) {
         const j = out[x];
         let y = x - 1;
-        while (y >= 0 && rank[out[y]] > rank[j]) { out[y + 1] = out[y]; y--; }
+        while (y >= 0 && rank[out[y]] > rank[j]) {
+          out[y + 1] = out[y];
+          y--;
+        }
         out[y + 1] = j;
       }
     }
@@ -196,19 +205,29 @@ interface RefineCtx {
 }
 
 function centroid(idx: number[], ctx: RefineCtx) {
-  let w = 0, mu = 0, mv = 0;
+  let w = 0,
+    mu = 0,
+    mv = 0;
   for (const j of idx) {
     const c = Math.max(0, ctx.counts[j] - ctx.background);
-    w += c; mu += c * ctx.u[j]; mv += c * ctx.v[j];
+    w += c;
+    mu += c * ctx.u[j];
+    mv += c * ctx.v[j];
   }
   if (!(w > 0)) return undefined;
-  mu /= w; mv /= w;
-  let su = 0, sv = 0, eu = 0, ev = 0;
+  mu /= w;
+  mv /= w;
+  let su = 0,
+    sv = 0,
+    eu = 0,
+    ev = 0;
   for (const j of idx) {
     const c = Math.max(0, ctx.counts[j] - ctx.background);
     const variance = Math.max(ctx.counts[j], 1);
-    su += c * (ctx.u[j] - mu) ** 2; sv += c * (ctx.v[j] - mv) ** 2;
-    eu += (ctx.u[j] - mu) ** 2 * variance; ev += (ctx.v[j] - mv) ** 2 * variance;
+    su += c * (ctx.u[j] - mu) ** 2;
+    sv += c * (ctx.v[j] - mv) ** 2;
+    eu += (ctx.u[j] - mu) ** 2 * variance;
+    ev += (ctx.v[j] - mv) ** 2 * variance;
   }
   return { mu, mv, sdu: Math.sqrt(su / w), sdv: Math.sqrt(sv / w), eu: Math.sqrt(eu) / w, ev: Math.sqrt(ev) / w };
 }
@@ -254,7 +273,7 @@ function gaussianFit(win: number[], ctx: RefineCtx, c: { mu: number; mv: number;
       const du = 2 * su * su;
       const dv = 2 * sv * sv;
       e = new Float64Array(win.length);
-      for (let k = 0; k < win.length; k++) e[k] = Math.exp(-((wu[k] - u0) ** 2) / du - ((wv[k] - v0) ** 2) / dv);
+      for (let k = 0; k < win.length; k++) e[k] = Math.exp(-((wu[k] - u0) ** 2) / du - (wv[k] - v0) ** 2 / dv);
       shapes.set(key, e);
     }
     return e;
@@ -283,13 +302,18 @@ function gaussianFit(win: number[], ctx: RefineCtx, c: { mu: number; mv: number;
   const sdu = Math.max(c.sdu, 0.5);
   const sdv = Math.max(c.sdv, 0.5);
   try {
-    const fit = nonlinearFit(model, win.map((_, k) => k), win.map((j) => ctx.counts[j]), {
-      initial: [Math.max(height, 1), c.mu, c.mv, sdu, sdv, ctx.background],
-      scale: [Math.max(height, 1), 1, 1, sdu, sdv, Math.max(ctx.background, 1)],
-      min: [0, c.mu - 3 * sdu - 1, c.mv - 3 * sdv - 1, 0.1, 0.1, -Infinity],
-      max: [Infinity, c.mu + 3 * sdu + 1, c.mv + 3 * sdv + 1, 50, 50, Infinity],
-      jacobian,
-    });
+    const fit = nonlinearFit(
+      model,
+      win.map((_, k) => k),
+      win.map((j) => ctx.counts[j]),
+      {
+        initial: [Math.max(height, 1), c.mu, c.mv, sdu, sdv, ctx.background],
+        scale: [Math.max(height, 1), 1, 1, sdu, sdv, Math.max(ctx.background, 1)],
+        min: [0, c.mu - 3 * sdu - 1, c.mv - 3 * sdv - 1, 0.1, 0.1, -Infinity],
+        max: [Infinity, c.mu + 3 * sdu + 1, c.mv + 3 * sdv + 1, 50, 50, Infinity],
+        jacobian,
+      },
+    );
     const [, u0, v0] = fit.params;
     // Counts are Poisson: the centre's errors come from the sandwich covariance with
     // var(c_k) = max(fitted count, 1), not the pooled s²(JᵀJ)⁻¹ of the unweighted fit.

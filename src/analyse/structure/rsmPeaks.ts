@@ -27,7 +27,6 @@ import { anglesToQ, layerPeakQ, qToAngles } from "./reciprocalSpace.ts";
 import { searchMapPeaks, type PeakSearchOptions, type RawPeak } from "./rsmPeakFind.ts";
 import { median } from "simple-statistics";
 
-
 export interface RsmPeak {
   /** "substrate", "buffer", "well", a stack layer name (tables) or "unassigned". */
   layer: string;
@@ -89,7 +88,14 @@ function substrateTheory(opts: RsmOptions, exitGeometry: boolean): Theory {
   return { wavelength, omega: ang.omega, twoTheta: ang.twoTheta, q: Math.hypot(q.qx, q.qz) };
 }
 
-function toPeak(layer: string, raw: RawPeak | (TableRow & { height?: number }), off: { omega: number; twoTheta: number }, extra: { o: number; t: number }, wavelength: number, method: RsmPeak["method"]): RsmPeak {
+function toPeak(
+  layer: string,
+  raw: RawPeak | (TableRow & { height?: number }),
+  off: { omega: number; twoTheta: number },
+  extra: { o: number; t: number },
+  wavelength: number,
+  method: RsmPeak["method"],
+): RsmPeak {
   const omega = raw.omega + off.omega;
   const twoTheta = raw.twoTheta + off.twoTheta;
   const so = Math.hypot(raw.omegaStdErr ?? 0, extra.o);
@@ -141,7 +147,6 @@ export function rsmPeaks(points: readonly MapPoint[], opts: RsmOptions): RsmPeak
 
 const order = (l: string) => ["substrate", "buffer", "well"].indexOf(l) >>> 0;
 
-
 function assignLayers(sub: RsmPeak, rest: RsmPeak[], asymmetric: boolean): void {
   const eps = 1e-3;
   const inPlaneOk = (p: RsmPeak) => !asymmetric || Math.abs(p.qx) <= Math.abs(sub.qx) * (1 + eps);
@@ -172,7 +177,17 @@ export function rsmPeaksFromTable(rows: readonly TableRow[], opts: RsmOptions): 
   } else notes.push(sub ? "offset correction switched off" : "no substrate row: angles used without offset correction");
   if (good.some((r) => r.omegaStdErr === undefined || r.twoThetaStdErr === undefined)) notes.push("some rows give no angular uncertainty; taken as 0");
   const peaks = good.map((r) => toPeak(r.layer.toLowerCase(), r, off, r === sub ? { o: 0, t: 0 } : extra, th.wavelength, "table"));
-  return { ok: true, reflection: opts.reflection, wavelength: th.wavelength, background: 0, noise: 0, offset: off, offsetCorrected: !!sub && (opts.correctOffset ?? true), peaks, notes };
+  return {
+    ok: true,
+    reflection: opts.reflection,
+    wavelength: th.wavelength,
+    background: 0,
+    noise: 0,
+    offset: off,
+    offsetCorrected: !!sub && (opts.correctOffset ?? true),
+    peaks,
+    notes,
+  };
 }
 
 /** The peak of `layer` as a MeasuredReflection for bufferRelaxation/wellStrain, or undefined. */

@@ -38,8 +38,16 @@ export function dotRadiusNm(orbitalEnergy: number, transverseMass = SI_TRANSVERS
   return (HBAR / Math.sqrt(transverseMass * orbitalEnergy)) * 1e9;
 }
 
-export function valleyCoupling(depthNm: readonly number[], ge: readonly number[], weight: readonly number[], bandOffset: number, orbitalEnergy: number, latticeNm: number): ValleyCoupling {
-  if (depthNm.length !== ge.length || ge.length !== weight.length) throw new RangeError(`valleyCoupling: ${depthNm.length} depths, ${ge.length} Ge fractions and ${weight.length} weights`);
+export function valleyCoupling(
+  depthNm: readonly number[],
+  ge: readonly number[],
+  weight: readonly number[],
+  bandOffset: number,
+  orbitalEnergy: number,
+  latticeNm: number,
+): ValleyCoupling {
+  if (depthNm.length !== ge.length || ge.length !== weight.length)
+    throw new RangeError(`valleyCoupling: ${depthNm.length} depths, ${ge.length} Ge fractions and ${weight.length} weights`);
   const k0 = (VALLEY_K0_FRACTION * 2 * Math.PI) / latticeNm;
   const aDot = dotRadiusNm(orbitalEnergy);
   let re = 0;

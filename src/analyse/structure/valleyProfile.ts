@@ -67,7 +67,13 @@ const median = (v: number[]) => {
 };
 
 /** The layer profile (see module comment); undefined when the well's middle half holds no measured point. */
-export function layerProfile(depth: readonly number[], ge: readonly number[], top: InterfaceFit, bottom: InterfaceFit, latticeNm: number): LayerProfile | undefined {
+export function layerProfile(
+  depth: readonly number[],
+  ge: readonly number[],
+  top: InterfaceFit,
+  bottom: InterfaceFit,
+  latticeNm: number,
+): LayerProfile | undefined {
   const quarter = (bottom.centre - top.centre) / 4;
   const middle: number[] = [];
   depth.forEach((d, i) => {
@@ -92,7 +98,10 @@ export function layerProfile(depth: readonly number[], ge: readonly number[], to
 
 /** Where the measured profile departs from the layer model by more than its noise (see module comment). */
 export function profileDeparture(depth: readonly number[], ge: readonly number[], model: LayerProfile): ProfileDeparture {
-  const idx = depth.map((_, i) => i).filter((i) => Number.isFinite(depth[i]) && Number.isFinite(ge[i])).sort((a, b) => depth[a] - depth[b]);
+  const idx = depth
+    .map((_, i) => i)
+    .filter((i) => Number.isFinite(depth[i]) && Number.isFinite(ge[i]))
+    .sort((a, b) => depth[a] - depth[b]);
   const diffs = idx.slice(1).map((i, k) => Math.abs(ge[i] - ge[idx[k]]));
   const noise = (1.4826 * median(diffs)) / Math.SQRT2;
   const lo = model.depth[0];

@@ -126,7 +126,11 @@ export interface ValleyFigures {
 function fieldFor(settings: ValleySettings, density: number | undefined) {
   if (settings.field !== null) return { field: settings.field, fieldSource: "setting" as const };
   if (density !== undefined && density > 0 && Number.isFinite(density)) {
-    return { field: (ELEMENTARY_CHARGE * density) / (VACUUM_PERMITTIVITY * SI_RELATIVE_PERMITTIVITY), fieldSource: "density" as const, electronDensity: density };
+    return {
+      field: (ELEMENTARY_CHARGE * density) / (VACUUM_PERMITTIVITY * SI_RELATIVE_PERMITTIVITY),
+      fieldSource: "density" as const,
+      electronDensity: density,
+    };
   }
   return { field: DEFAULT_VALLEY_FIELD, fieldSource: "default" as const };
 }
@@ -137,10 +141,19 @@ function couplings(input: ValleyInput, settings: ValleySettings) {
   const profile = layerProfile(input.depth, input.ge, input.top, input.bottom, latticeNm);
   if (!profile) return { ok: false as const, reason: "no measured point in the middle half of the well, so its Ge fraction x_w is unknown" };
   const f = fieldFor(settings, input.electronDensity);
-  const env = valleyEnvelope({ ge: profile.at, topCentre: input.top.centre, bottomCentre: input.bottom.centre, layerDepth: profile.depth, bandOffset: settings.bandOffset, field: f.field, stepNm: VALLEY_GRID_NM });
+  const env = valleyEnvelope({
+    ge: profile.at,
+    topCentre: input.top.centre,
+    bottomCentre: input.bottom.centre,
+    layerDepth: profile.depth,
+    bandOffset: settings.bandOffset,
+    field: f.field,
+    stepNm: VALLEY_GRID_NM,
+  });
   if (!env.weight.every(Number.isFinite)) return { ok: false as const, reason: "the envelope vanished on every atomic layer" };
   const c = valleyCoupling(profile.depth, profile.ge, env.weight, settings.bandOffset, settings.orbitalEnergy, latticeNm);
-  if (!(c.sigma > 0)) return { ok: false as const, reason: "no Ge within the envelope, so the alloy-disorder spread is zero and the Rician model does not apply" };
+  if (!(c.sigma > 0))
+    return { ok: false as const, reason: "no Ge within the envelope, so the alloy-disorder spread is zero and the Rician model does not apply" };
   return { ok: true as const, profile, f, env, c };
 }
 

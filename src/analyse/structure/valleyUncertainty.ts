@@ -33,7 +33,8 @@ export function valleyUncertainty(input: ValleyInput, settings: ValleySettings):
   for (const side of ["top", "bottom"] as const) {
     const fit: InterfaceFit = input[side];
     const uTau = fit.width10to90StdErr / (2 * LN9);
-    if (fit.centreStdErr > 0 && Number.isFinite(fit.centreStdErr)) shifts.push((k) => ({ ...input, [side]: { ...fit, centre: fit.centre + k * fit.centreStdErr } }));
+    if (fit.centreStdErr > 0 && Number.isFinite(fit.centreStdErr))
+      shifts.push((k) => ({ ...input, [side]: { ...fit, centre: fit.centre + k * fit.centreStdErr } }));
     if (uTau > 0 && Number.isFinite(uTau)) shifts.push((k) => ({ ...input, [side]: { ...fit, tau: Math.max(fit.tau + k * uTau, 1e-3 * fit.tau) } }));
   }
   const sum: ValleyFigures = { mean: 0, p10: 0, deterministicSplitting: 0, sigma: 0, yieldFraction: 0 };
@@ -49,5 +50,11 @@ export function valleyUncertainty(input: ValleyInput, settings: ValleySettings):
       sum[key] += (2 / 3) * (y0[key] - mean) ** 2 + ((up[key] - mean) ** 2 + (down[key] - mean) ** 2) / 6;
     }
   }
-  return { mean: Math.sqrt(sum.mean), p10: Math.sqrt(sum.p10), deterministicSplitting: Math.sqrt(sum.deterministicSplitting), sigma: Math.sqrt(sum.sigma), yieldFraction: Math.sqrt(sum.yieldFraction) };
+  return {
+    mean: Math.sqrt(sum.mean),
+    p10: Math.sqrt(sum.p10),
+    deterministicSplitting: Math.sqrt(sum.deterministicSplitting),
+    sigma: Math.sqrt(sum.sigma),
+    yieldFraction: Math.sqrt(sum.yieldFraction),
+  };
 }

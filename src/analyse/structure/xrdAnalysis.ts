@@ -41,7 +41,14 @@ function tableLayer(name: string, stack: readonly Layer[]): string {
 function peaksOf(f: XrdFile, stack: readonly Layer[]): XrdFileResult {
   const opts = { reflection: f.reflection, wavelength: f.wavelength };
   if (f.kind === "map") return { file: f.file, kind: f.kind, peaks: rsmPeaks(f.points, opts), points: f.points };
-  return { file: f.file, kind: f.kind, peaks: rsmPeaksFromTable(f.rows.map((r) => ({ ...r, layer: tableLayer(r.layer, stack) })), opts) };
+  return {
+    file: f.file,
+    kind: f.kind,
+    peaks: rsmPeaksFromTable(
+      f.rows.map((r) => ({ ...r, layer: tableLayer(r.layer, stack) })),
+      opts,
+    ),
+  };
 }
 
 const isSymmetric = (f: XrdFileResult) => f.peaks.ok && f.peaks.reflection[0] === 0 && f.peaks.reflection[1] === 0;
@@ -60,7 +67,11 @@ export function analyseXrd(files: readonly XrdFile[], stack: readonly Layer[]): 
     buffer = bufferRelaxation({ asymmetric: reflectionOf(asym.peaks, "buffer")!, symmetric: sym ? reflectionOf(sym.peaks, "buffer") : undefined });
   }
   const wellPeak: MeasuredReflection | undefined = asym ? reflectionOf(asym.peaks, "well") : undefined;
-  const strain = wellStrain({ wellAsymmetric: wellPeak, bufferAParallel: buffer.ok ? buffer.aParallel : undefined, bufferAParallelStdErr: buffer.ok ? buffer.aParallelStdErr : undefined });
+  const strain = wellStrain({
+    wellAsymmetric: wellPeak,
+    bufferAParallel: buffer.ok ? buffer.aParallel : undefined,
+    bufferAParallelStdErr: buffer.ok ? buffer.aParallelStdErr : undefined,
+  });
   return { files: results, symmetricFile: sym?.file, asymmetricFile: asym?.file, buffer, strain };
 }
 

@@ -39,10 +39,7 @@ export interface DensityCalibration {
  * with fewer than two distinct gate voltages or when n does not change with Vg.
  * Throws RangeError when the arrays differ in length.
  */
-export function densityCalibration(
-  gateVoltage: ArrayLike<number>,
-  density: ArrayLike<number>,
-): DensityCalibration | Skipped {
+export function densityCalibration(gateVoltage: ArrayLike<number>, density: ArrayLike<number>): DensityCalibration | Skipped {
   if (gateVoltage.length !== density.length) {
     throw new RangeError(`densityCalibration: ${gateVoltage.length} gate voltages, ${density.length} densities`);
   }
@@ -75,7 +72,8 @@ export function densityCalibration(
   }
   if (!Number.isFinite(turnOn)) return skipped("turn-on voltage is not finite");
   // Densities spanning hundreds of decades overflow the sums of the fit: refuse rather than publish NaN.
-  if (![a, b, fit.r2, capErr ?? 0, vErr ?? 0].every(Number.isFinite)) return skipped("the density-against-gate fit is not finite (densities out of any physical range)");
+  if (![a, b, fit.r2, capErr ?? 0, vErr ?? 0].every(Number.isFinite))
+    return skipped("the density-against-gate fit is not finite (densities out of any physical range)");
   return {
     ok: true,
     slope: a,

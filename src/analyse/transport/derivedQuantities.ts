@@ -69,11 +69,7 @@ export interface DerivedOptions {
  * All derived figures for one point: density in m⁻², mobility in m²/(V s).
  * Returns { ok: false, reason } when density or mobility is missing, non-finite or ≤ 0.
  */
-export function derivedQuantities(
-  density: number,
-  mobility: number,
-  options: DerivedOptions = {},
-): DerivedQuantities | Skipped {
+export function derivedQuantities(density: number, mobility: number, options: DerivedOptions = {}): DerivedQuantities | Skipped {
   const m = options.massRatio ?? 0.19;
   const g = options.degeneracy ?? 4;
   if (!(density > 0) || !Number.isFinite(density)) return skipped("no positive, finite density at this point");

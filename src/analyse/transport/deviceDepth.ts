@@ -85,20 +85,34 @@ export function pointLifetime(d: PointDepth): number | undefined {
 
 /** SdH spectrum and fit, mismatch, derived figures and Dingle plot of one transport point. */
 export function analysePointDepth(p: TransportPoint, settings: AnalysisSettings): PointDepth {
-  const window = { minField: settings.sdh_min_field, maxField: settings.sdh_max_field, degeneracy: settings.degeneracy, backgroundOrder: settings.sdh_background_order };
+  const window = {
+    minField: settings.sdh_min_field,
+    maxField: settings.sdh_max_field,
+    degeneracy: settings.degeneracy,
+    backgroundOrder: settings.sdh_background_order,
+  };
   const sdh = shubnikovDeHaas(p.trace.b, p.trace.rhoxx, window);
   const derived = derivedQuantities(p.density, p.mobility, { massRatio: settings.effective_mass, degeneracy: settings.degeneracy });
   const hallDensityStdErr = p.hall.slope !== 0 ? (p.density * p.hall.slopeStdErr) / Math.abs(p.hall.slope) : Number.POSITIVE_INFINITY;
   const oscillation = sdh.ok
     ? fitOscillations(p.trace.b, p.trace.rhoxx, p.temperature_K, sdh.frequency, {
-      ...window,
-      massRatio: settings.effective_mass,
-      minR2: settings.sdh_min_r2,
-      maxLifetimeError: settings.sdh_max_lifetime_error / 100,
-      amplitudeFactor: settings.sdh_amplitude_factor,
-    })
+        ...window,
+        massRatio: settings.effective_mass,
+        minR2: settings.sdh_min_r2,
+        maxLifetimeError: settings.sdh_max_lifetime_error / 100,
+        amplitudeFactor: settings.sdh_amplitude_factor,
+      })
     : skipped(`no oscillation to fit: ${sdh.reason}`);
-  const out: PointDepth = { file: p.file, gate_V: p.gate_V, hallDensity: p.density, hallDensityStdErr, sdh, oscillation, derived, dingle: skipped("no oscillation fit") };
+  const out: PointDepth = {
+    file: p.file,
+    gate_V: p.gate_V,
+    hallDensity: p.density,
+    hallDensityStdErr,
+    sdh,
+    oscillation,
+    derived,
+    dingle: skipped("no oscillation fit"),
+  };
   if (!oscillation.ok) return out;
   if (p.density > 0 && Number.isFinite(p.density)) {
     out.mismatch = hallSdhMismatch(p.density, oscillation.density.value, settings.sdh_mismatch_tolerance, hallDensityStdErr, oscillation.density.stdErr);
@@ -106,7 +120,12 @@ export function analysePointDepth(p: TransportPoint, settings: AnalysisSettings)
   out.dingle = dinglePlot(oscillation);
   if (out.mismatch?.parallelConduction && oscillation.quantumLifetime.ok) {
     // A parallel channel shunts and reshapes the well's oscillation in ρxx: its amplitude no longer gives τ_q.
-    out.oscillation = { ...oscillation, quantumLifetime: skipped(`probable parallel conduction (Hall density ${out.mismatch.mismatchPercent.toFixed(1)} % from the SdH density): a second channel reshapes the oscillation of ρxx, so its amplitude does not give the well's τ_q`) };
+    out.oscillation = {
+      ...oscillation,
+      quantumLifetime: skipped(
+        `probable parallel conduction (Hall density ${out.mismatch.mismatchPercent.toFixed(1)} % from the SdH density): a second channel reshapes the oscillation of ρxx, so its amplitude does not give the well's τ_q`,
+      ),
+    };
   }
   const tau = pointLifetime(out);
   if (tau !== undefined && derived.ok) out.scatteringTimeRatio = dingleRatio(derived.transportLifetime, tau);
@@ -133,14 +152,20 @@ export function analyseDeviceDepth(
   const sweeps = analyseGateSweeps(gateSweeps, device, calibration, settings);
   const percolation = devicePercolation(sweeps);
   const hysteresis = deviceHysteresis(sweeps);
-  const powerLaw = mobilityPowerLaw(points.map((p) => p.density), points.map((p) => p.mobility), {
-    densityRange: settings.exponent_density_range ?? undefined,
-  });
+  const powerLaw = mobilityPowerLaw(
+    points.map((p) => p.density),
+    points.map((p) => p.mobility),
+    {
+      densityRange: settings.exponent_density_range ?? undefined,
+    },
+  );
   const depthPoints = points.map((p) => analysePointDepth(p, settings));
   const taus = depthPoints.flatMap((d) => pointLifetime(d) ?? []);
   const quantumLifetime = taus.length ? { ok: true as const, value: median(taus), points: taus.length } : skipped(lifetimeReason(depthPoints));
   const ratios = depthPoints.flatMap((d) => d.scatteringTimeRatio ?? []);
-  const scatteringTimeRatio = ratios.length ? { ok: true as const, value: median(ratios), points: ratios.length } : skipped(quantumLifetime.ok ? "no point with both τ_t and τ_q" : quantumLifetime.reason);
+  const scatteringTimeRatio = ratios.length
+    ? { ok: true as const, value: median(ratios), points: ratios.length }
+    : skipped(quantumLifetime.ok ? "no point with both τ_t and τ_q" : quantumLifetime.reason);
   const mismatches = depthPoints.flatMap((d) => (d.mismatch ? [d.mismatch.mismatchPercent] : []));
   const largest = mismatches.length ? mismatches.reduce((m, v) => (Math.abs(v) > Math.abs(m) ? v : m), 0) : undefined;
   const metrics: Record<string, number> = {};
@@ -170,9 +195,12 @@ export function analyseDeviceDepth(
 function lifetimeReason(points: PointDepth[]): string {
   if (points.length === 0) return "no field sweeps";
   const fitted = points.find((d) => d.oscillation.ok && !d.oscillation.quantumLifetime.ok);
-  if (fitted?.oscillation.ok && !fitted.oscillation.quantumLifetime.ok) return `τ_q not determined at any point (e.g. ${fitted.file}: ${fitted.oscillation.quantumLifetime.reason})`;
+  if (fitted?.oscillation.ok && !fitted.oscillation.quantumLifetime.ok)
+    return `τ_q not determined at any point (e.g. ${fitted.file}: ${fitted.oscillation.quantumLifetime.reason})`;
   const first = points.find((d) => !d.oscillation.ok);
-  return first && !first.oscillation.ok ? `τ_q not determined at any point (e.g. ${first.file}: ${first.oscillation.reason})` : "τ_q not determined at any point";
+  return first && !first.oscillation.ok
+    ? `τ_q not determined at any point (e.g. ${first.file}: ${first.oscillation.reason})`
+    : "τ_q not determined at any point";
 }
 
 /** A device's bulk arrays (src/analyse/bulk.ts): gate-sweep columns and each field sweep's SdH trace, spectrum, fit curves and Dingle points. */

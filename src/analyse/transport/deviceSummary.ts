@@ -45,7 +45,10 @@ export function sortByGate(points: TransportPoint[]): TransportPoint[] {
  * analyseDeviceDepth; never throws (the two arrays always match).
  */
 export function pointsCalibration(points: TransportPoint[]): DensityCalibration | Skipped {
-  return densityCalibration(points.map((p) => p.gate_V), points.map((p) => p.density));
+  return densityCalibration(
+    points.map((p) => p.gate_V),
+    points.map((p) => p.density),
+  );
 }
 
 /**

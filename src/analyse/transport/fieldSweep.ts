@@ -57,7 +57,10 @@ export function analyseFieldSweep(sweep: Sweep, device: DeviceGeometry, settings
     const b = symmetriseBranches(branches, sweep.rb!, "even");
     const ra0 = zeroFieldValue(a.b, a.y);
     const rb0 = zeroFieldValue(b.b, b.y);
-    if (!(ra0 > 0 && rb0 > 0)) return fail(`van der Pauw resistances at zero field must be positive (found R_A = ${ra0.toPrecision(4)} Ω, R_B = ${rb0.toPrecision(4)} Ω): check the contact configuration`);
+    if (!(ra0 > 0 && rb0 > 0))
+      return fail(
+        `van der Pauw resistances at zero field must be positive (found R_A = ${ra0.toPrecision(4)} Ω, R_B = ${rb0.toPrecision(4)} Ω): check the contact configuration`,
+      );
     sheetResistance = vanDerPauwSheetResistance(ra0, rb0);
     // Field dependence of ρ: scale the mean of R_A and R_B by the zero-field van der Pauw factor.
     const factor = sheetResistance / ((ra0 + rb0) / 2);

@@ -107,7 +107,10 @@ export function deviceHysteresis(sweeps: GateSweepDepth[]): (GateHysteresis & { 
   const up = zero.find((s) => s.direction === "up");
   const down = zero.find((s) => s.direction === "down");
   if (!up || !down) return skipped("needs a zero-field gate sweep in each direction (up and down)");
-  const h = gateHysteresis({ gateVoltage: up.gateVoltage, resistance: up.sheetResistance }, { gateVoltage: down.gateVoltage, resistance: down.sheetResistance });
+  const h = gateHysteresis(
+    { gateVoltage: up.gateVoltage, resistance: up.sheetResistance },
+    { gateVoltage: down.gateVoltage, resistance: down.sheetResistance },
+  );
   return h.ok ? { ...h, up: up.file, down: down.file } : h;
 }
 

@@ -35,7 +35,10 @@ export function hallSlope(b: ArrayLike<number>, rxy: ArrayLike<number>, maxField
   }
   const nonZero = xs.filter((x) => x !== 0).length;
   if (nonZero < 3) {
-    return { ok: false, reason: `only ${nonZero} field values with 0 < |B| ≤ ${maxField} T; the Hall fit needs at least 3 (raise hall_max_field or measure more low-field points)` };
+    return {
+      ok: false,
+      reason: `only ${nonZero} field values with 0 < |B| ≤ ${maxField} T; the Hall fit needs at least 3 (raise hall_max_field or measure more low-field points)`,
+    };
   }
   const f = linearFit(xs, ys);
   if (f.slope === 0) return { ok: false, reason: "Hall resistance does not change with field" };

@@ -42,11 +42,7 @@ export interface MobilityPowerLaw {
  * little density (max/min < 1.2) or, by default, when the mobility peaks at the
  * lowest density (no rising branch). Throws RangeError when the arrays differ in length.
  */
-export function mobilityPowerLaw(
-  density: ArrayLike<number>,
-  mobility: ArrayLike<number>,
-  options: MobilityPowerLawOptions = {},
-): MobilityPowerLaw | Skipped {
+export function mobilityPowerLaw(density: ArrayLike<number>, mobility: ArrayLike<number>, options: MobilityPowerLawOptions = {}): MobilityPowerLaw | Skipped {
   if (density.length !== mobility.length) {
     throw new RangeError(`mobilityPowerLaw: ${density.length} densities, ${mobility.length} mobilities`);
   }

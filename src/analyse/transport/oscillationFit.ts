@@ -35,7 +35,17 @@
 import { denseLevenbergMarquardt } from "../numeric/denseLevenbergMarquardt.ts";
 import { allFinite, skipped, type Skipped } from "./outcome.ts";
 import {
-  amplitudeIndex, background, dingleFieldIndex, frequencyIndex, harmonicIndex, lifetimeOfDingleField, modelGradient, modelValue, parameterCount, phaseIndex, type ModelLayout,
+  amplitudeIndex,
+  background,
+  dingleFieldIndex,
+  frequencyIndex,
+  harmonicIndex,
+  lifetimeOfDingleField,
+  modelGradient,
+  modelValue,
+  parameterCount,
+  phaseIndex,
+  type ModelLayout,
 } from "./oscillationModel.ts";
 import { seedOscillation } from "./oscillationStart.ts";
 import { cleanSweep, sdhDensity } from "./shubnikovDeHaas.ts";
@@ -170,7 +180,12 @@ function halve(L: ModelLayout, rho: Float64Array): [ModelLayout, Float64Array] {
 }
 
 /** The fit of one prepared window; Skipped for a failed or rejected fit. */
-function fitWindow(P: Prepared, f0: number, o: Required<Omit<OscillationFitOptions, "minField" | "maxField">>, temperature: number | undefined): OscillationFit | Skipped {
+function fitWindow(
+  P: Prepared,
+  f0: number,
+  o: Required<Omit<OscillationFitOptions, "minField" | "maxField">>,
+  temperature: number | undefined,
+): OscillationFit | Skipped {
   const { L, rho } = P;
   const n = rho.length;
   const k = L.order;
@@ -183,11 +198,12 @@ function fitWindow(P: Prepared, f0: number, o: Required<Omit<OscillationFitOptio
   if (fixedA) seed[amplitudeIndex(k)] = o.amplitudeFactor as number;
   const min = seed.map((_, i) => (i === dingleFieldIndex(k) ? 0 : i === frequencyIndex(k) ? f0 - 1 / span : -Infinity));
   const max = seed.map((_, i) => (i === frequencyIndex(k) ? f0 + 1 / span : Infinity));
-  const fit = denseLevenbergMarquardt(
-    { n, y: rho, value: (p, i) => modelValue(p, L, i), gradient: (p, i, out) => modelGradient(p, L, i, out) },
-    seed,
-    { min, max, fixed: fixedA ? [amplitudeIndex(k)] : [], maxIterations: 30 },
-  );
+  const fit = denseLevenbergMarquardt({ n, y: rho, value: (p, i) => modelValue(p, L, i), gradient: (p, i, out) => modelGradient(p, L, i, out) }, seed, {
+    min,
+    max,
+    fixed: fixedA ? [amplitudeIndex(k)] : [],
+    maxIterations: 30,
+  });
   if (!fit) return skipped("the oscillation fit failed (singular Jacobian)");
   const p = fit.params.slice();
   const se = fit.stdErr;
@@ -217,9 +233,14 @@ function fitWindow(P: Prepared, f0: number, o: Required<Omit<OscillationFitOptio
   const beta = p[dingleFieldIndex(k)];
   const periods = freq * span;
   if (!allFinite(freq, beta, r2, noise, se[frequencyIndex(k)], se[dingleFieldIndex(k)])) return skipped("the oscillation fit gave non-finite values");
-  if (Math.abs(freq - f0) >= 0.999 / span) return skipped(`the fitted frequency ran to the edge of its search range (${(f0 - 1 / span).toPrecision(3)}–${(f0 + 1 / span).toPrecision(3)} T around the spectral peak): no consistent oscillation`);
-  if (periods < o.minPeriods) return skipped(`only ${periods.toFixed(1)} oscillation periods between ${L.field[0]} T and ${L.field[n - 1]} T; need ${o.minPeriods}`);
-  if (r2 < o.minR2) return skipped(`the oscillation fit explains too little of the signal (R² ${r2.toFixed(3)} < ${o.minR2}): no clear Lifshitz–Kosevich oscillation`);
+  if (Math.abs(freq - f0) >= 0.999 / span)
+    return skipped(
+      `the fitted frequency ran to the edge of its search range (${(f0 - 1 / span).toPrecision(3)}–${(f0 + 1 / span).toPrecision(3)} T around the spectral peak): no consistent oscillation`,
+    );
+  if (periods < o.minPeriods)
+    return skipped(`only ${periods.toFixed(1)} oscillation periods between ${L.field[0]} T and ${L.field[n - 1]} T; need ${o.minPeriods}`);
+  if (r2 < o.minR2)
+    return skipped(`the oscillation fit explains too little of the signal (R² ${r2.toFixed(3)} < ${o.minR2}): no clear Lifshitz–Kosevich oscillation`);
   const g = o.degeneracy;
   const betaSe = se[dingleFieldIndex(k)];
   let lifetime: LifetimeEstimate | Skipped;
@@ -228,9 +249,12 @@ function fitWindow(P: Prepared, f0: number, o: Required<Omit<OscillationFitOptio
   else {
     const tau = lifetimeOfDingleField(beta, o.massRatio);
     const rel = betaSe / beta;
-    lifetime = rel > o.maxLifetimeError
-      ? skipped(`τ_q = ${(tau * 1e12).toPrecision(3)} ps is too uncertain: relative standard error ${(100 * rel).toFixed(0)} % above the ${(100 * o.maxLifetimeError).toFixed(0)} % limit`)
-      : { ok: true, value: tau, stdErr: tau * rel, dingleTemperature: dingleTemperature(tau) };
+    lifetime =
+      rel > o.maxLifetimeError
+        ? skipped(
+            `τ_q = ${(tau * 1e12).toPrecision(3)} ps is too uncertain: relative standard error ${(100 * rel).toFixed(0)} % above the ${(100 * o.maxLifetimeError).toFixed(0)} % limit`,
+          )
+        : { ok: true, value: tau, stdErr: tau * rel, dingleTemperature: dingleTemperature(tau) };
   }
   return {
     ok: true,

@@ -73,7 +73,7 @@ function gridMinimum(xs: number[], g: (x: number) => number): number {
   const [y0, y1, y2] = [v[k - 1], v[k], v[k + 1]];
   const den = (x1 - x0) * (y1 - y2) - (x1 - x2) * (y1 - y0);
   if (den === 0) return x1;
-  const x = x1 - 0.5 * ((x1 - x0) ** 2 * (y1 - y2) - (x1 - x2) ** 2 * (y1 - y0)) / den;
+  const x = x1 - (0.5 * ((x1 - x0) ** 2 * (y1 - y2) - (x1 - x2) ** 2 * (y1 - y0))) / den;
   return x > x0 && x < x2 && g(x) < y1 ? x : x1;
 }
 
@@ -121,12 +121,22 @@ export function dingleEstimate(w: { L: ModelLayout; rho: Float64Array; scale: Fl
     }
   }
   if (us.length < 2) return null;
-  let sw = 0, su = 0, sy = 0;
-  us.forEach((u, i) => { sw += ws[i]; su += ws[i] * u; sy += ws[i] * ys[i]; });
+  let sw = 0,
+    su = 0,
+    sy = 0;
+  us.forEach((u, i) => {
+    sw += ws[i];
+    su += ws[i] * u;
+    sy += ws[i] * ys[i];
+  });
   const um = su / sw;
   const ym = sy / sw;
-  let num = 0, den = 0;
-  us.forEach((u, i) => { num += ws[i] * (u - um) * (ys[i] - ym); den += ws[i] * (u - um) ** 2; });
+  let num = 0,
+    den = 0;
+  us.forEach((u, i) => {
+    num += ws[i] * (u - um) * (ys[i] - ym);
+    den += ws[i] * (u - um) ** 2;
+  });
   const beta = den > 0 ? -num / den : Number.NaN;
   return beta > 0 && Number.isFinite(beta) ? beta : null;
 }
@@ -157,18 +167,25 @@ export function seedOscillation(L: ModelLayout, rho: Float64Array, f0: number, s
     resid[i] = rho[i] - v;
   }
   const width = 1 / span;
-  let f = gridMinimum(Array.from({ length: 7 }, (_, q) => f0 + (q - 3) * 0.16 * width), (x) => cost(w, 0, x));
+  let f = gridMinimum(
+    Array.from({ length: 7 }, (_, q) => f0 + (q - 3) * 0.16 * width),
+    (x) => cost(w, 0, x),
+  );
   const d = dingleEstimate({ L, rho: resid, scale }, f);
-  const betaGrid = d
-    ? Array.from({ length: 7 }, (_, q) => d * 2 ** ((q - 3) / 2))
-    : [0, ...Array.from({ length: 12 }, (_, q) => 0.05 * 10 ** (q / 4))];
+  const betaGrid = d ? Array.from({ length: 7 }, (_, q) => d * 2 ** ((q - 3) / 2)) : [0, ...Array.from({ length: 12 }, (_, q) => 0.05 * 10 ** (q / 4))];
   let beta = gridMinimum(betaGrid, (x) => cost(w, x, f));
-  f = gridMinimum(Array.from({ length: 5 }, (_, q) => f + (q - 2) * 0.06 * width), (x) => cost(w, beta, x));
+  f = gridMinimum(
+    Array.from({ length: 5 }, (_, q) => f + (q - 2) * 0.06 * width),
+    (x) => cost(w, beta, x),
+  );
   const first = project(w, beta, f);
   if (!first) return null;
   setScale(first.coef);
   const lo = Math.max(beta / 1.5, 1e-3);
-  beta = gridMinimum(Array.from({ length: 5 }, (_, q) => lo * 1.5 ** (q / 2)), (x) => cost(w, x, f));
+  beta = gridMinimum(
+    Array.from({ length: 5 }, (_, q) => lo * 1.5 ** (q / 2)),
+    (x) => cost(w, x, f),
+  );
   const sol = project(w, beta, f);
   if (!sol) return null;
   const c = Array.from(sol.coef.subarray(0, L.order + 1));

@@ -96,11 +96,7 @@ function derivedMaxDensity(ns: number[], sig: number[], p: number, minPoints: nu
  * in S (1/ρ_xx). Returns { ok: false, reason } for too few conducting points, no
  * insulating side or a failed fit. Throws RangeError when the arrays differ in length.
  */
-export function percolationFit(
-  density: ArrayLike<number>,
-  conductivity: ArrayLike<number>,
-  options: PercolationOptions = {},
-): PercolationFit | Skipped {
+export function percolationFit(density: ArrayLike<number>, conductivity: ArrayLike<number>, options: PercolationOptions = {}): PercolationFit | Skipped {
   if (density.length !== conductivity.length) {
     throw new RangeError(`percolationFit: ${density.length} densities, ${conductivity.length} conductivities`);
   }
@@ -157,15 +153,24 @@ function fitWindow(
   const hi = ns[ns.length - 1];
   const y = ss.map((s) => s / sMax);
   // Initial guess from the linearised law y^(1/p) = A^(1/p)·(n − n_p).
-  const lin = linearFit(ns, y.map((v) => v ** (1 / p0)));
+  const lin = linearFit(
+    ns,
+    y.map((v) => v ** (1 / p0)),
+  );
   let np0 = lin.slope > 0 ? -lin.intercept / lin.slope : lo - 0.1 * (hi - lo);
   if (!(np0 < lo)) np0 = lo - 0.05 * (hi - lo);
   // Stage 1, well-conditioned: y = B·((n − n_p)/n_hi)^p with B = O(1).
   const b0 = ((hi - np0) / hi) ** -p0;
-  const scaled = ([np, b, p]: number[]) => (n: number) => (n > np ? b * ((n - np) / hi) ** p : 0);
+  const scaled =
+    ([np, b, p]: number[]) =>
+    (n: number) =>
+      n > np ? b * ((n - np) / hi) ** p : 0;
   // Stage 2, in the reported parameters y = a·(n − n_p)^p, started at the stage-1
   // optimum, so the Jacobian standard errors refer to A itself.
-  const model = ([np, a, p]: number[]) => (n: number) => (n > np ? a * (n - np) ** p : 0);
+  const model =
+    ([np, a, p]: number[]) =>
+    (n: number) =>
+      n > np ? a * (n - np) ** p : 0;
   let fit: ReturnType<typeof nonlinearFit>;
   try {
     const first = nonlinearFit(scaled, ns, y, {

@@ -140,11 +140,7 @@ export function cleanSweep(field: ArrayLike<number>, rho: ArrayLike<number>, lo:
  * rhoXX in Ω. Returns { ok: false, reason } for too few points, too few periods
  * or no clear peak. Throws RangeError when the arrays differ in length.
  */
-export function shubnikovDeHaas(
-  field: ArrayLike<number>,
-  rhoXX: ArrayLike<number>,
-  options: SdhOptions = {},
-): SdhResult | Skipped {
+export function shubnikovDeHaas(field: ArrayLike<number>, rhoXX: ArrayLike<number>, options: SdhOptions = {}): SdhResult | Skipped {
   if (field.length !== rhoXX.length) throw new RangeError(`shubnikovDeHaas: ${field.length} fields, ${rhoXX.length} values`);
   const { b, r } = cleanSweep(field, rhoXX, options.minField ?? 0, options.maxField ?? Number.POSITIVE_INFINITY);
   const first = spectrumOfWindow(b, r, options);
@@ -164,7 +160,11 @@ export function shubnikovDeHaas(
  */
 function visibleFrom(b: number[], r: number[], order: number): number {
   const bg = polynomialBackground(b, r, order);
-  const trace = resampleInverseField(b, r.map((v, i) => v - bg[i]), 256);
+  const trace = resampleInverseField(
+    b,
+    r.map((v, i) => v - bg[i]),
+    256,
+  );
   const v = trace.value;
   const w = Math.floor(v.length / 3);
   const rms: number[] = [];
@@ -216,7 +216,9 @@ function spectrumOfWindow(b: number[], r: number[], options: SdhOptions): SdhRes
   for (let i = 1; i < spec.amplitude.length && i * spec.binWidth < lowLimit; i++) low = Math.max(low, spec.amplitude[i]);
   const maxLow = options.maxLowFrequencyRatio ?? 10;
   if (low > maxLow * peak.amplitude) {
-    return skipped(`the spectrum is dominated by a slow swing (${(low / peak.amplitude).toFixed(0)}× the candidate peak at ${peak.frequency.toFixed(2)} T): the oscillation is too slow for fewer than ${minPeriods} periods to fit in this field window`);
+    return skipped(
+      `the spectrum is dominated by a slow swing (${(low / peak.amplitude).toFixed(0)}× the candidate peak at ${peak.frequency.toFixed(2)} T): the oscillation is too slow for fewer than ${minPeriods} periods to fit in this field window`,
+    );
   }
   const density = sdhDensity(peak.frequency, options.degeneracy ?? 4);
   if (!allFinite(peak.frequency, density)) return skipped("SdH frequency is not finite");

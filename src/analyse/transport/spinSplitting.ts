@@ -24,7 +24,13 @@ export const SPLIT_RATIO = 0.25;
 export function spinSplittingOnset(
   L: ModelLayout,
   rho: Float64Array,
-  fit: { frequency: { value: number }; phase: { value: number }; amplitudeFactor: { value: number }; dingleField: { value: number }; background: { coefficients: number[] } },
+  fit: {
+    frequency: { value: number };
+    phase: { value: number };
+    amplitudeFactor: { value: number };
+    dingleField: { value: number };
+    background: { coefficients: number[] };
+  },
 ): { field: number; ratio: number } | null {
   const n = rho.length;
   const f = fit.frequency.value;

@@ -16,5 +16,13 @@ export const UNIFORMITY_SOURCES: { key: string; label: string }[] = [
 export const cvKey = (key: string): string => `${key}_cv`;
 
 export const UNIFORMITY_METRICS: MetricSpec[] = UNIFORMITY_SOURCES.map((s) =>
-  metric(cvKey(s.key), `Within-wafer CV of ${s.label}`, "%", 1, "uniformity", `coefficient of variation (100·s/|mean|, sample s) of ${s.label} over the wafer's devices`, 2),
+  metric(
+    cvKey(s.key),
+    `Within-wafer CV of ${s.label}`,
+    "%",
+    1,
+    "uniformity",
+    `coefficient of variation (100·s/|mean|, sample s) of ${s.label} over the wafer's devices`,
+    2,
+  ),
 );

@@ -31,7 +31,11 @@ export interface DecisionCommit {
 /** Most wafer.md versions read per wafer while looking for the recording commit. */
 export const MAX_VERSIONS_READ = 50;
 
-const norm = (s: string) => s.toLowerCase().replace(/[^\p{L}\p{N}]+/gu, " ").trim();
+const norm = (s: string) =>
+  s
+    .toLowerCase()
+    .replace(/[^\p{L}\p{N}]+/gu, " ")
+    .trim();
 
 /** True when the names plausibly name the same person (one contains the other, ignoring case and punctuation). */
 export function sameName(a: string, b: string): boolean {
@@ -72,7 +76,14 @@ export async function decisionCommit(repo: GitRepo, history: DataHistory, file: 
   } catch {
     committer = "";
   }
-  const out: DecisionCommit = { hash: found.hash, shortHash: found.shortHash, committedAt: found.committedAt, committer: committer || undefined, author, subject: found.subject };
+  const out: DecisionCommit = {
+    hash: found.hash,
+    shortHash: found.shortHash,
+    committedAt: found.committedAt,
+    committer: committer || undefined,
+    author,
+    subject: found.subject,
+  };
   if (committer && !sameName(decision.by, committer) && !sameName(decision.by, author)) {
     out.note = `the decision names ${decision.by}, but the commit that recorded it was committed by ${committer}${author !== committer ? ` (author ${author})` : ""}`;
   }

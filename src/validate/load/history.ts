@@ -8,7 +8,16 @@
  * back empty with `failure` saying why, so that the changes page and the
  * build output can warn instead of silently showing nothing.
  */
-import { commitsChangingFile, fileAtCommit, findRepo, listCommits, withObjectReader, defaultGitRunner, type GitCommit, type GitRunner } from "../../read/gitHistory.ts";
+import {
+  commitsChangingFile,
+  fileAtCommit,
+  findRepo,
+  listCommits,
+  withObjectReader,
+  defaultGitRunner,
+  type GitCommit,
+  type GitRunner,
+} from "../../read/gitHistory.ts";
 import { readYaml } from "../../read/frontMatter.ts";
 import { validateTargets, type Targets } from "../targets.ts";
 import { formatProblem, InputError } from "../../model/problem.ts";

@@ -20,7 +20,15 @@ async function loadOne(spec: ImageSpec, i: number, files: WaferFileReader, maxPi
   const { rel, bytes } = await files.readBytes(spec.file, "image").catch((e: unknown) => {
     // A missing file is the record's mistake: point at the line of wafer.md that names it.
     if (e instanceof InputError && e.problem.message === "file not found") {
-      throw new InputError({ file: files.recordFile, line: files.lineOf(field), field, message: "image file not found", expected: "a file in the wafer folder", found: JSON.stringify(spec.file), fix: "check the file name and that the image is committed" });
+      throw new InputError({
+        file: files.recordFile,
+        line: files.lineOf(field),
+        field,
+        message: "image file not found",
+        expected: "a file in the wafer folder",
+        found: JSON.stringify(spec.file),
+        fix: "check the file name and that the image is committed",
+      });
     }
     throw e;
   });
@@ -34,19 +42,50 @@ async function loadOne(spec: ImageSpec, i: number, files: WaferFileReader, maxPi
     } else img = decodeMicrograph(bytes, maxPixels);
   } catch (e) {
     if (!(e instanceof MicrographFormatError)) throw e;
-    throw new InputError({ file: rel, field, message: e.what, expected: e.expected, found: e.found, fix: `${e.fix} (listed in ${files.recordFile} line ${files.lineOf(field) ?? "?"})` });
+    throw new InputError({
+      file: rel,
+      field,
+      message: e.what,
+      expected: e.expected,
+      found: e.found,
+      fix: `${e.fix} (listed in ${files.recordFile} line ${files.lineOf(field) ?? "?"})`,
+    });
   }
   if (spec.reference) {
     const [x0, y0, x1, y1] = spec.reference;
     const rf = `images[${i}].reference`;
     if (!(x1 > x0 && y1 > y0)) {
-      throw new InputError({ file: files.recordFile, line: files.lineOf(rf), field: rf, message: "reference rectangle is empty or reversed", expected: "[x0, y0, x1, y1] with x1 > x0 and y1 > y0 (pixels)", found: `[${spec.reference.join(", ")}]`, fix: "give the left, top, right and bottom edges in that order" });
+      throw new InputError({
+        file: files.recordFile,
+        line: files.lineOf(rf),
+        field: rf,
+        message: "reference rectangle is empty or reversed",
+        expected: "[x0, y0, x1, y1] with x1 > x0 and y1 > y0 (pixels)",
+        found: `[${spec.reference.join(", ")}]`,
+        fix: "give the left, top, right and bottom edges in that order",
+      });
     }
     if (x1 > img.width || y1 > img.height) {
-      throw new InputError({ file: files.recordFile, line: files.lineOf(rf), field: rf, message: "reference rectangle lies outside the image", expected: `a rectangle inside the ${img.width}×${img.height} image (x1 ≤ ${img.width}, y1 ≤ ${img.height})`, found: `[${spec.reference.join(", ")}]`, fix: "measure the reference region on this image, in pixels from its top-left corner" });
+      throw new InputError({
+        file: files.recordFile,
+        line: files.lineOf(rf),
+        field: rf,
+        message: "reference rectangle lies outside the image",
+        expected: `a rectangle inside the ${img.width}×${img.height} image (x1 ≤ ${img.width}, y1 ≤ ${img.height})`,
+        found: `[${spec.reference.join(", ")}]`,
+        fix: "measure the reference region on this image, in pixels from its top-left corner",
+      });
     }
     if (x1 - x0 < 16 || y1 - y0 < 16) {
-      throw new InputError({ file: files.recordFile, line: files.lineOf(rf), field: rf, message: "reference rectangle is too small", expected: "at least 16 × 16 pixels", found: `${x1 - x0} × ${y1 - y0} pixels`, fix: "enlarge the reference region" });
+      throw new InputError({
+        file: files.recordFile,
+        line: files.lineOf(rf),
+        field: rf,
+        message: "reference rectangle is too small",
+        expected: "at least 16 × 16 pixels",
+        found: `${x1 - x0} × ${y1 - y0} pixels`,
+        fix: "enlarge the reference region",
+      });
     }
   }
   const pixelField = `images[${i}].pixel_nm`;

@@ -36,7 +36,10 @@ export interface SiteInputs {
 }
 
 async function exists(p: string): Promise<boolean> {
-  return fs.stat(p).then(() => true, () => false);
+  return fs.stat(p).then(
+    () => true,
+    () => false,
+  );
 }
 
 export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
@@ -50,13 +53,26 @@ export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
     }
   };
   if (!(await exists(dataDir))) {
-    out.problems.push({ severity: "error", file: dataDir, message: "data folder not found", expected: "a folder with wafers/ and targets.yaml", found: "nothing at that path", fix: "pass --data DIR pointing at your data folder" });
+    out.problems.push({
+      severity: "error",
+      file: dataDir,
+      message: "data folder not found",
+      expected: "a folder with wafers/ and targets.yaml",
+      found: "nothing at that path",
+      fix: "pass --data DIR pointing at your data folder",
+    });
     return out;
   }
   await catchInto(async () => {
     const abs = path.join(dataDir, "targets.yaml");
     if (!(await exists(abs))) {
-      throw new InputError({ file: "targets.yaml", message: "targets file is missing", expected: "data/targets.yaml with default_grade and grades", found: "no file", fix: "create it; see docs/formats.md, section Targets" });
+      throw new InputError({
+        file: "targets.yaml",
+        message: "targets file is missing",
+        expected: "data/targets.yaml with default_grade and grades",
+        found: "no file",
+        fix: "create it; see docs/formats.md, section Targets",
+      });
     }
     const f = await readDataBytes(dataDir, abs);
     out.files.push(fileInfo(f.rel, f.bytes, "targets"));
@@ -80,20 +96,35 @@ export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
       await catchInto(async () => {
         const id = name.slice(0, -3);
         const f = await readDataBytes(dataDir, path.join(runsDir, name));
-        if (!WAFER_ID.test(id)) throw new InputError({ file: f.rel, message: "run file name is not a valid id", expected: "letters, digits, \".\", \"-\", \"_\"", found: JSON.stringify(id), fix: "rename the file" });
+        if (!WAFER_ID.test(id))
+          throw new InputError({
+            file: f.rel,
+            message: "run file name is not a valid id",
+            expected: 'letters, digits, ".", "-", "_"',
+            found: JSON.stringify(id),
+            fix: "rename the file",
+          });
         const reserved = siteNameProblem(id, "run", { file: f.rel, rename: "file" });
         if (reserved) throw new InputError(reserved);
         out.files.push(fileInfo(f.rel, f.bytes, "run"));
         const doc = readFrontMatter(decodeText(f), f.rel);
         const meta: Record<string, string> = {};
-        for (const [k, v] of Object.entries((doc.data ?? {}) as Record<string, unknown>)) meta[k] = v instanceof Date ? v.toISOString().slice(0, 10) : String(v);
+        for (const [k, v] of Object.entries((doc.data ?? {}) as Record<string, unknown>))
+          meta[k] = v instanceof Date ? v.toISOString().slice(0, 10) : String(v);
         out.runs.set(id, { id, file: f.rel, meta, notes: doc.body });
       });
     }
   }
   const wafersDir = path.join(dataDir, "wafers");
   if (!(await exists(wafersDir))) {
-    out.problems.push({ severity: "error", file: "wafers", message: "no wafers folder", expected: "data/wafers/<wafer-id>/wafer.md", found: "nothing", fix: "add a wafer; see docs/formats.md" });
+    out.problems.push({
+      severity: "error",
+      file: "wafers",
+      message: "no wafers folder",
+      expected: "data/wafers/<wafer-id>/wafer.md",
+      found: "nothing",
+      fix: "add a wafer; see docs/formats.md",
+    });
     return out;
   }
   // Ids differing only by letter case are both kept and both marked `error` by loadWafer, so neither wafer silently disappears.
@@ -109,7 +140,14 @@ export async function loadSiteInputs(dataDir: string): Promise<SiteInputs> {
       }
     } else if (!e.isDirectory()) continue;
     if (!WAFER_ID.test(e.name)) {
-      out.problems.push({ severity: "error", file: `wafers/${e.name}`, message: "wafer folder name is not a valid id", expected: "letters, digits, \".\", \"-\", \"_\" (no \"..\")", found: JSON.stringify(e.name), fix: "rename the folder" });
+      out.problems.push({
+        severity: "error",
+        file: `wafers/${e.name}`,
+        message: "wafer folder name is not a valid id",
+        expected: 'letters, digits, ".", "-", "_" (no "..")',
+        found: JSON.stringify(e.name),
+        fix: "rename the folder",
+      });
       continue;
     }
     const reserved = siteNameProblem(e.name, "wafer", { file: `wafers/${e.name}`, rename: "folder (and the wafer: field)" });

@@ -63,5 +63,17 @@ function reportIgnored(ignored: Set<string>, entry: "xrd" | "profiles", files: W
   if (ignored.size === 0) return;
   const names = [...ignored];
   const field = `${entry}.columns`;
-  files.report({ severity: "warning", file: files.recordFile, line: files.lineOf(field), field, message: `columns not named in the mapping are ignored: ${names.slice(0, 8).map((n) => JSON.stringify(n)).join(", ")}${names.length > 8 ? ` and ${names.length - 8} more` : ""}`, expected: "every column the analysis should read mapped in columns:", found: `${names.length} unmapped`, fix: "map a column to a quantity if the analysis should use it; otherwise nothing to do" });
+  files.report({
+    severity: "warning",
+    file: files.recordFile,
+    line: files.lineOf(field),
+    field,
+    message: `columns not named in the mapping are ignored: ${names
+      .slice(0, 8)
+      .map((n) => JSON.stringify(n))
+      .join(", ")}${names.length > 8 ? ` and ${names.length - 8} more` : ""}`,
+    expected: "every column the analysis should read mapped in columns:",
+    found: `${names.length} unmapped`,
+    fix: "map a column to a quantity if the analysis should use it; otherwise nothing to do",
+  });
 }

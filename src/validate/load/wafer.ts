@@ -24,8 +24,6 @@ import { readFrontMatter, lineOfField } from "../../read/frontMatter.ts";
 import { readTable } from "../../read/table.ts";
 import { readInstrumentTable } from "../../read/instrumentTable.ts";
 
-
-
 export interface LoadedDevice {
   id: string;
   sweeps: Sweep[];
@@ -55,7 +53,6 @@ function toProblems(err: unknown, wafer: string): Problem[] {
   throw err;
 }
 
-
 export async function loadWafer(folder: string, ctx: LoadContext): Promise<LoadedWafer> {
   const waferDir = path.join(ctx.dataDir, "wafers", folder);
   const recordAbs = path.join(waferDir, "wafer.md");
@@ -70,7 +67,8 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
     matterText = doc.matterText;
     record = validateWafer(doc, { folder, file: f.rel, today: ctx.today, siteSettings: ctx.siteSettings });
     out.record = record;
-    for (const w of deviceDimensionWarnings(record.devices, f.rel, (field) => lineOfField(doc.matterText, field, doc.firstLine))) out.problems.push({ ...w, wafer: folder });
+    for (const w of deviceDimensionWarnings(record.devices, f.rel, (field) => lineOfField(doc.matterText, field, doc.firstLine)))
+      out.problems.push({ ...w, wafer: folder });
   } catch (err) {
     out.problems.push(...toProblems(err, folder));
     return out;
@@ -78,8 +76,21 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
   const listing = ctx.waferListing ?? (await fs.readdir(path.join(ctx.dataDir, "wafers")));
   const twins = listing.filter((n) => n !== folder && n.toLowerCase() === folder.toLowerCase());
   if (twins.length) {
-    const found = [folder, ...twins].sort().map((n) => JSON.stringify(n)).join(" and ");
-    out.problems.push({ severity: "error", wafer: folder, file: recordRel, line: lineOfField(matterText, "wafer", 2), field: "wafer", message: "duplicate wafer id (ids must differ by more than letter case)", expected: "a unique id", found, fix: "rename one of the wafers" });
+    const found = [folder, ...twins]
+      .sort()
+      .map((n) => JSON.stringify(n))
+      .join(" and ");
+    out.problems.push({
+      severity: "error",
+      wafer: folder,
+      file: recordRel,
+      line: lineOfField(matterText, "wafer", 2),
+      field: "wafer",
+      message: "duplicate wafer id (ids must differ by more than letter case)",
+      expected: "a unique id",
+      found,
+      fix: "rename one of the wafers",
+    });
   }
   let all: string[];
   const skippedLinks: string[] = [];
@@ -112,7 +123,17 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
       continue;
     }
     if (matched.length === 0) {
-      out.problems.push({ severity: "error", wafer: folder, file: recordRel, line: lineOfField(matterText, field, 2), field, message: "file pattern matches no file", expected: "at least one sweep file", found: JSON.stringify(spec.files), fix: `check the pattern against the files in wafers/${folder}/${linksNote(folder, skippedLinks)}` });
+      out.problems.push({
+        severity: "error",
+        wafer: folder,
+        file: recordRel,
+        line: lineOfField(matterText, field, 2),
+        field,
+        message: "file pattern matches no file",
+        expected: "at least one sweep file",
+        found: JSON.stringify(spec.files),
+        fix: `check the pattern against the files in wafers/${folder}/${linksNote(folder, skippedLinks)}`,
+      });
       continue;
     }
     let failed = 0;
@@ -135,10 +156,33 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
     if (ignored.size) {
       // One note per device, not per file: the columns the mapping leaves out are not read.
       const names = [...ignored];
-      out.problems.push({ severity: "warning", wafer: folder, file: recordRel, line: lineOfField(matterText, `devices[${i}].columns`, 2), field: `devices[${i}].columns`, message: `columns not named in the mapping are ignored: ${names.slice(0, 8).map((n) => JSON.stringify(n)).join(", ")}${names.length > 8 ? ` and ${names.length - 8} more` : ""}`, expected: "every column the analysis should read mapped in columns:", found: `${names.length} unmapped`, fix: "map a column to a quantity if the analysis should use it; otherwise nothing to do" });
+      out.problems.push({
+        severity: "warning",
+        wafer: folder,
+        file: recordRel,
+        line: lineOfField(matterText, `devices[${i}].columns`, 2),
+        field: `devices[${i}].columns`,
+        message: `columns not named in the mapping are ignored: ${names
+          .slice(0, 8)
+          .map((n) => JSON.stringify(n))
+          .join(", ")}${names.length > 8 ? ` and ${names.length - 8} more` : ""}`,
+        expected: "every column the analysis should read mapped in columns:",
+        found: `${names.length} unmapped`,
+        fix: "map a column to a quantity if the analysis should use it; otherwise nothing to do",
+      });
     }
     if (failed === 0 && !device.sweeps.some((sw) => sw.kind === "field")) {
-      out.problems.push({ severity: "error", wafer: folder, file: recordRel, line: lineOfField(matterText, field, 2), field, message: `no field sweeps for device ${spec.id}: Hall analysis needs B sweeps`, expected: "at least one field sweep (a B column, with # gate:) among the device's files", found: `gate sweeps only (${matched.join(", ")})`, fix: "add the device's field sweeps to the pattern, or check that the files are not gate sweeps exported by mistake" });
+      out.problems.push({
+        severity: "error",
+        wafer: folder,
+        file: recordRel,
+        line: lineOfField(matterText, field, 2),
+        field,
+        message: `no field sweeps for device ${spec.id}: Hall analysis needs B sweeps`,
+        expected: "at least one field sweep (a B column, with # gate:) among the device's files",
+        found: `gate sweeps only (${matched.join(", ")})`,
+        fix: "add the device's field sweeps to the pattern, or check that the files are not gate sweeps exported by mistake",
+      });
     }
   }
   const reader = fileReader(ctx, waferDir, recordRel, matterText, all, out, skippedLinks);
@@ -152,11 +196,22 @@ export async function loadWafer(folder: string, ctx: LoadContext): Promise<Loade
 /** For "matches no file": the links in the folder that were skipped, which may be why. */
 function linksNote(folder: string, skipped: readonly string[]): string {
   if (!skipped.length) return "";
-  const names = skipped.slice(0, 3).map((l) => `wafers/${folder}/${l}`).join(", ");
+  const names = skipped
+    .slice(0, 3)
+    .map((l) => `wafers/${folder}/${l}`)
+    .join(", ");
   return ` (the symbolic link${skipped.length === 1 ? "" : "s"} ${names}${skipped.length > 3 ? ` and ${skipped.length - 3} more` : ""} ${skipped.length === 1 ? "was" : "were"} skipped: see ${skipped.length === 1 ? "its warning" : "their warnings"})`;
 }
 
-function fileReader(ctx: LoadContext, waferDir: string, recordRel: string, matterText: string, all: string[], out: LoadedWafer, skippedLinks: readonly string[]): WaferFileReader {
+function fileReader(
+  ctx: LoadContext,
+  waferDir: string,
+  recordRel: string,
+  matterText: string,
+  all: string[],
+  out: LoadedWafer,
+  skippedLinks: readonly string[],
+): WaferFileReader {
   const folder = out.folder;
   const lineOf = (field: string) => lineOfField(matterText, field, 2);
   const report = (p: Omit<Problem, "wafer">) => out.problems.push({ ...p, wafer: folder });
@@ -168,7 +223,17 @@ function fileReader(ctx: LoadContext, waferDir: string, recordRel: string, matte
     glob(pattern, field) {
       try {
         const matched = matchGlob(pattern, all, { file: recordRel, field });
-        if (matched.length === 0) report({ severity: "error", file: recordRel, line: lineOf(field), field, message: "file pattern matches no file", expected: "at least one file", found: JSON.stringify(pattern), fix: `check the pattern against the files in wafers/${folder}/${linksNote(folder, skippedLinks)}` });
+        if (matched.length === 0)
+          report({
+            severity: "error",
+            file: recordRel,
+            line: lineOf(field),
+            field,
+            message: "file pattern matches no file",
+            expected: "at least one file",
+            found: JSON.stringify(pattern),
+            fix: `check the pattern against the files in wafers/${folder}/${linksNote(folder, skippedLinks)}`,
+          });
         return matched;
       } catch (err) {
         out.problems.push(...toProblems(err, folder));

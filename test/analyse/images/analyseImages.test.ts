@@ -19,12 +19,32 @@ const A_PERP = 0.538305;
 
 function micrograph(extra: Partial<SyntheticMicrographSpec> = {}): MicrographInput {
   const spec: SyntheticMicrographSpec = {
-    width: 384, height: 512, pixelSize_m: PX,
-    inPlaneSpacing_m: (A_B / Math.SQRT2) * 1e-9, barrierSpacing_m: (A_B / 2) * 1e-9, wellSpacing_m: (A_PERP / 2) * 1e-9,
-    wellThickness_m: 10e-9, wellCentre_m: 2e-9, interfaceTau_m: 0.25e-9, centred: true, noise: 0.05, tilt_deg: 1.2, seed: 11, ...extra,
+    width: 384,
+    height: 512,
+    pixelSize_m: PX,
+    inPlaneSpacing_m: (A_B / Math.SQRT2) * 1e-9,
+    barrierSpacing_m: (A_B / 2) * 1e-9,
+    wellSpacing_m: (A_PERP / 2) * 1e-9,
+    wellThickness_m: 10e-9,
+    wellCentre_m: 2e-9,
+    interfaceTau_m: 0.25e-9,
+    centred: true,
+    noise: 0.05,
+    tilt_deg: 1.2,
+    seed: 11,
+    ...extra,
   };
   const img = syntheticMicrograph(spec);
-  return { file: "wafers/W/images/a.png", index: 0, kind: "haadf", pixelSize_m: PX, growthAxis: spec.growthAxis ?? "up", width: spec.width, height: spec.height, pixels: img.pixels };
+  return {
+    file: "wafers/W/images/a.png",
+    index: 0,
+    kind: "haadf",
+    pixelSize_m: PX,
+    growthAxis: spec.growthAxis ?? "up",
+    width: spec.width,
+    height: spec.height,
+    pixels: img.pixels,
+  };
 }
 
 describe("expectedWellStrain", () => {
@@ -33,7 +53,7 @@ describe("expectedWellStrain", () => {
     if (!e.ok) throw new Error(e.reason);
     expect(e.outOfPlane_pct).toBeCloseTo(-2.006, 3); // REFERENCES §4 [D]
     // REFERENCES §4 [D] quotes 0.538305 nm (rounded); the computed value is 0.5383041 nm.
-    expect(Math.abs(e.aPerpendicular_m * 1e9 / 0.538305 - 1)).toBeLessThan(5e-6);
+    expect(Math.abs((e.aPerpendicular_m * 1e9) / 0.538305 - 1)).toBeLessThan(5e-6);
   });
   it("says why when the stack has no well or no barrier Ge", () => {
     expect(expectedWellStrain([])).toMatchObject({ ok: false, reason: expect.stringMatching(/no well/) });
@@ -62,7 +82,11 @@ describe("analyseImages on a synthetic HAADF micrograph", () => {
   });
 
   it("flags a relaxed (incoherent) well", () => {
-    const a = analyseImages({ micrographs: [micrograph({ wellInPlaneSpacing_m: (0.5431 / Math.SQRT2) * 1e-9, wellSpacing_m: (0.5431 / 2) * 1e-9 })] }, STACK, DEFAULT_SETTINGS)!;
+    const a = analyseImages(
+      { micrographs: [micrograph({ wellInPlaneSpacing_m: (0.5431 / Math.SQRT2) * 1e-9, wellSpacing_m: (0.5431 / 2) * 1e-9 })] },
+      STACK,
+      DEFAULT_SETTINGS,
+    )!;
     const c = a.images[0].coherence;
     if (!c.ok) throw new Error(c.reason);
     expect(c.coherent).toBe(false);

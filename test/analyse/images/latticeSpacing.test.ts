@@ -34,14 +34,14 @@ describe("fft2d", () => {
   it("transforms a single cosine into two spots of height A·W·H/2 at ±k, nothing else", () => {
     const [W, H, u0, v0, A, phi] = [16, 8, 3, 2, 1.7, 0.4];
     const pix = new Float64Array(W * H);
-    for (let y = 0; y < H; y++) for (let x = 0; x < W; x++) pix[y * W + x] = A * Math.cos(2 * Math.PI * (u0 * x / W + v0 * y / H) + phi);
+    for (let y = 0; y < H; y++) for (let x = 0; x < W; x++) pix[y * W + x] = A * Math.cos(2 * Math.PI * ((u0 * x) / W + (v0 * y) / H) + phi);
     const f = fft2dReal(pix, W, H, { subtractMean: false });
     // cos θ = (e^{iθ} + e^{−iθ})/2 → F(u0,v0) = (A·W·H/2)·e^{iφ}, F(−u0,−v0) its conjugate.
     const at = (u: number, v: number) => ((v + H) % H) * W + ((u + W) % W);
-    expect(f.re[at(u0, v0)]).toBeCloseTo((A * W * H / 2) * Math.cos(phi), 9);
-    expect(f.im[at(u0, v0)]).toBeCloseTo((A * W * H / 2) * Math.sin(phi), 9);
-    expect(f.re[at(-u0, -v0)]).toBeCloseTo((A * W * H / 2) * Math.cos(phi), 9);
-    expect(f.im[at(-u0, -v0)]).toBeCloseTo(-(A * W * H / 2) * Math.sin(phi), 9);
+    expect(f.re[at(u0, v0)]).toBeCloseTo(((A * W * H) / 2) * Math.cos(phi), 9);
+    expect(f.im[at(u0, v0)]).toBeCloseTo(((A * W * H) / 2) * Math.sin(phi), 9);
+    expect(f.re[at(-u0, -v0)]).toBeCloseTo(((A * W * H) / 2) * Math.cos(phi), 9);
+    expect(f.im[at(-u0, -v0)]).toBeCloseTo(-((A * W * H) / 2) * Math.sin(phi), 9);
     for (let i = 0; i < W * H; i++) if (i !== at(u0, v0) && i !== at(-u0, -v0)) expect(Math.hypot(f.re[i], f.im[i])).toBeLessThan(1e-9);
   });
   it("transforms a separable product r^x·δ(y − y0) into G(u)·exp(−2πi v·y0/H)", () => {

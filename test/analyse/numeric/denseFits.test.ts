@@ -21,7 +21,10 @@ const misra = {
 };
 
 describe("denseLevenbergMarquardt", () => {
-  for (const start of [[500, 1e-4], [250, 5e-4]]) {
+  for (const start of [
+    [500, 1e-4],
+    [250, 5e-4],
+  ]) {
     it(`Misra1a from start (${start.join(", ")}): certified b1, b2 and standard errors (NIST StRD, REFERENCES §15)`, () => {
       const fit = denseLevenbergMarquardt(misra, start, { maxIterations: 200 });
       expect(fit).not.toBeNull();
@@ -45,7 +48,10 @@ describe("linearLeastSquares", () => {
   it("recovers an exact quadratic (derived: y = 1 + 2x + 3x²) and a zero residual", () => {
     const x = Array.from({ length: 9 }, (_, i) => i - 4);
     const cols = [0, 1, 2].map((j) => Float64Array.from(x, (v) => v ** j));
-    const s = linearLeastSquares(cols, x.map((v) => 1 + 2 * v + 3 * v * v))!;
+    const s = linearLeastSquares(
+      cols,
+      x.map((v) => 1 + 2 * v + 3 * v * v),
+    )!;
     expect(Array.from(s.coef).map((c) => Number(c.toFixed(10)))).toEqual([1, 2, 3]);
     expect(s.ssRes).toBeLessThan(1e-18);
   });

@@ -3,7 +3,6 @@ import { linearFit } from "../../../src/analyse/numeric/linearFit.ts";
 import { fitSigmoidEdge, LN9 } from "../../../src/analyse/numeric/sigmoidFit.ts";
 import { gaussian } from "../../helpers/random.ts";
 
-
 describe("linearFit", () => {
   it("recovers an exact line", () => {
     const f = linearFit([0, 1, 2], [1, 3, 5]);

@@ -43,7 +43,10 @@ describe("linearFit on NIST StRD Norris (certified, REFERENCES §15)", () => {
 
 describe("nonlinearFit on NIST StRD Misra1a (certified, REFERENCES §15)", () => {
   const { x, y } = readStrd("Misra1a.txt");
-  const model = ([b1, b2]: number[]) => (t: number) => b1 * (1 - Math.exp(-b2 * t));
+  const model =
+    ([b1, b2]: number[]) =>
+    (t: number) =>
+      b1 * (1 - Math.exp(-b2 * t));
   for (const [label, initial] of [
     ["start 1", [500, 1e-4]],
     ["start 2", [250, 5e-4]],

@@ -11,7 +11,10 @@ describe("gate calibration standard errors against a Monte Carlo spread (400 dra
     const vg = [0.6, 0.7, 0.8, 0.9, 1.0, 1.1, 1.2, 1.3, 1.4];
     const g = gaussian(17);
     const fits = Array.from({ length: 400 }, () => {
-      const r = densityCalibration(vg, vg.map((v) => ((c * (v - vOn)) / e) * (1 + 0.01 * g())));
+      const r = densityCalibration(
+        vg,
+        vg.map((v) => ((c * (v - vOn)) / e) * (1 + 0.01 * g())),
+      );
       if (!r.ok || r.turnOnVoltageStdErr === null || r.capacitanceStdErr === null) throw new Error("no fit");
       return r;
     });

@@ -13,7 +13,19 @@ const logistic = (u: number) => 1 / (1 + Math.exp(-u));
 
 /** An interface fit as the depth-profile analysis reports it (only the fields the model reads matter). */
 function edge(centre: number, tau: number, uCentre: number, uTau: number): InterfaceFit {
-  return { centre, centreStdErr: uCentre, tau, width10to90: 2 * LN9 * tau, width10to90StdErr: 2 * LN9 * uTau, width4tau: 4 * tau, barrierGe: 0.3, r2: 1, points: 100, curve: { depth: [], ge: [] }, marks: [] };
+  return {
+    centre,
+    centreStdErr: uCentre,
+    tau,
+    width10to90: 2 * LN9 * tau,
+    width10to90StdErr: 2 * LN9 * uTau,
+    width4tau: 4 * tau,
+    barrierGe: 0.3,
+    r2: 1,
+    points: 100,
+    curve: { depth: [], ge: [] },
+    marks: [],
+  };
 }
 
 /** A Si well (x = 0) between Si0.7Ge0.3 barriers, 10 nm, sampled every 0.1 nm (written out from the two-interface logistic model). */
@@ -43,7 +55,10 @@ describe("valley splitting uncertainty against a Monte Carlo over the profile fi
     if (!r.ok) return;
     const g = gaussian(7);
     const draws = Array.from({ length: 150 }, () => {
-      const q = predictValleySplitting({ depth, ge, top: edge(40 + uc * g(), tauTop + ut * g(), 0, 0), bottom: edge(50 + uc * g(), 0.5 + ut * g(), 0, 0) }, SETTINGS);
+      const q = predictValleySplitting(
+        { depth, ge, top: edge(40 + uc * g(), tauTop + ut * g(), 0, 0), bottom: edge(50 + uc * g(), 0.5 + ut * g(), 0, 0) },
+        SETTINGS,
+      );
       if (!q.ok) throw new Error(q.reason);
       return q;
     });

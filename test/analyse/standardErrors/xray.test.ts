@@ -42,7 +42,18 @@ describe("X-ray standard errors against a Monte Carlo spread", () => {
   it("rsmPeaks: the buffer peak's σ(Qx), σ(Qz) match the spread over 30 Poisson maps within 35 %", () => {
     const DEG = Math.PI / 180;
     const peaks = Array.from({ length: 30 }, (_, i) => {
-      const m = synthReciprocalSpaceMap({ reflection: [2, 2, 4], geFraction: 0.3, relaxation: 0.8, well: false, background: 8, step: 0.02 * DEG, sigmaRocking: 0.024 * DEG, sigmaRadial: 0.02 * DEG, margin: 0.2 * DEG, seed: 500 + i });
+      const m = synthReciprocalSpaceMap({
+        reflection: [2, 2, 4],
+        geFraction: 0.3,
+        relaxation: 0.8,
+        well: false,
+        background: 8,
+        step: 0.02 * DEG,
+        sigmaRocking: 0.024 * DEG,
+        sigmaRadial: 0.02 * DEG,
+        margin: 0.2 * DEG,
+        seed: 500 + i,
+      });
       const r = rsmPeaks(m.points, { reflection: [2, 2, 4] });
       if (!r.ok) throw new Error(r.reason);
       const b = r.peaks.find((p) => p.layer === "buffer");

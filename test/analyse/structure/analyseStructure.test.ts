@@ -19,12 +19,35 @@ const stack = (wellNm: number): Layer[] => [
 ];
 
 function map(reflection: Miller, x: number, r: number, seed: number): XrdFile {
-  const m = synthReciprocalSpaceMap({ reflection, geFraction: x, relaxation: r, step: 0.02 * DEG, margin: 0.16 * DEG, sigmaRocking: 0.02 * DEG, sigmaRadial: 0.016 * DEG, background: 5, offset: { omega: 0.012 * DEG, twoTheta: -0.006 * DEG }, seed });
+  const m = synthReciprocalSpaceMap({
+    reflection,
+    geFraction: x,
+    relaxation: r,
+    step: 0.02 * DEG,
+    margin: 0.16 * DEG,
+    sigmaRocking: 0.02 * DEG,
+    sigmaRadial: 0.016 * DEG,
+    background: 5,
+    offset: { omega: 0.012 * DEG, twoTheta: -0.006 * DEG },
+    seed,
+  });
   return { file: `m${reflection.join("")}.csv`, kind: "map", reflection, wavelength: CU_KALPHA1, wavelengthGiven: false, points: m.points, grid: true };
 }
 
 function profile(wellNm: number, tauTop: number) {
-  const p = synthDepthProfile({ capThickness: 1, barrierThickness: 45, wellThickness: wellNm, tauTop, tauBottom: 0.35, depthMax: 46 + wellNm + 34, step: 0.2, noise: 0.003, slope: -2e-5, contaminants: { O: { depth: 46, peak: 5e17, width: 0.8, floor: 2e16 }, N: { depth: 60, peak: 1e17, width: 1, floor: 1e15 } }, seed: 5 });
+  const p = synthDepthProfile({
+    capThickness: 1,
+    barrierThickness: 45,
+    wellThickness: wellNm,
+    tauTop,
+    tauBottom: 0.35,
+    depthMax: 46 + wellNm + 34,
+    step: 0.2,
+    noise: 0.003,
+    slope: -2e-5,
+    contaminants: { O: { depth: 46, peak: 5e17, width: 0.8, floor: 2e16 }, N: { depth: 60, peak: 1e17, width: 1, floor: 1e15 } },
+    seed: 5,
+  });
   return { file: "p.csv", method: "SIMS", depth: p.depth, ge: p.ge, contaminants: p.contaminants };
 }
 
@@ -73,7 +96,15 @@ describe("analyseStructure on synthetic inputs", () => {
     expect(analyseStructure({}, stack(8), settings)).toBeUndefined();
   });
   it("explains a map without a buffer peak instead of throwing", () => {
-    const flat: XrdFile = { file: "flat.csv", kind: "map", reflection: [2, 2, 4], wavelength: CU_KALPHA1, wavelengthGiven: false, points: Array.from({ length: 100 }, (_, i) => ({ omega: (40 + (i % 10) * 0.01) * DEG, twoTheta: (88 + Math.floor(i / 10) * 0.01) * DEG, counts: 5 })), grid: true };
+    const flat: XrdFile = {
+      file: "flat.csv",
+      kind: "map",
+      reflection: [2, 2, 4],
+      wavelength: CU_KALPHA1,
+      wavelengthGiven: false,
+      points: Array.from({ length: 100 }, (_, i) => ({ omega: (40 + (i % 10) * 0.01) * DEG, twoTheta: (88 + Math.floor(i / 10) * 0.01) * DEG, counts: 5 })),
+      grid: true,
+    };
     const t = analyseStructure({ xrd: [flat] }, stack(10), settings)!;
     expect(t.xrd?.buffer.ok).toBe(false);
     expect(t.findings.some((f) => /Buffer figures not computed/.test(f.text))).toBe(true);

@@ -23,11 +23,13 @@ describe("Matthews–Blakeslee, 8π single-layer form, 60° dislocations (REFERE
     expect(h).toBeLessThan(10);
   });
   it("the result satisfies its own implicit equation", () => {
-    const eps = 0.01, a = A_SI, nu = poissonRatio(0);
+    const eps = 0.01,
+      a = A_SI,
+      nu = poissonRatio(0);
     const r = matthewsBlakeslee(eps, a, nu);
     if (!r.ok) throw new Error(r.reason);
     const b = a / Math.SQRT2;
-    const rhs = (b * (1 - nu / 4)) / (8 * Math.PI * eps * (1 + nu) * 0.5) * (Math.log(r.thickness / b) + 1);
+    const rhs = ((b * (1 - nu / 4)) / (8 * Math.PI * eps * (1 + nu) * 0.5)) * (Math.log(r.thickness / b) + 1);
     expect(Math.abs(rhs - r.thickness) / r.thickness).toBeLessThan(1e-10);
   });
   it("no misfit, NaN input and huge strain give reasons, not numbers", () => {

@@ -1,7 +1,16 @@
 import { describe, expect, it } from "vitest";
 import {
-  A_SI, A_SI_CODATA_2018, biaxialRatio, elasticConstants, geFractionDismukes, latticeDismukes, latticeVegard,
-  poissonRatio, strainedPerpendicular, strainedSiAtParallel, strainedSiOnRelaxedSiGe,
+  A_SI,
+  A_SI_CODATA_2018,
+  biaxialRatio,
+  elasticConstants,
+  geFractionDismukes,
+  latticeDismukes,
+  latticeVegard,
+  poissonRatio,
+  strainedPerpendicular,
+  strainedSiAtParallel,
+  strainedSiOnRelaxedSiGe,
 } from "../../../src/physics/sige.ts";
 import { dSpacing, degToRad, planeTilt, radToDeg, twoThetaCubic, braggAngle } from "../../../src/analyse/structure/bragg.ts";
 import { CU_KALPHA1 } from "../../../src/physics/constants.ts";
@@ -70,7 +79,7 @@ describe("strained Si on relaxed Si0.7Ge0.3 (REFERENCES §4, [D] with Dismukes)"
     expect(Number.isNaN(strainedSiAtParallel(Number.NaN).epsParallel)).toBe(true);
   });
   it("Vegard would give +1.254 % instead (the law must be pinned)", () => {
-    expect(100 * (latticeVegard(0.3) - A_SI) / A_SI).toBeCloseTo(1.254, 3);
+    expect((100 * (latticeVegard(0.3) - A_SI)) / A_SI).toBeCloseTo(1.254, 3);
   });
 });
 
@@ -114,7 +123,8 @@ describe("reciprocal space, Q including 2π (REFERENCES §4)", () => {
     expect(radToDeg(s.twoTheta)).toBeCloseTo(68.103, 3);
   });
   it("angles → Q → angles round-trips; grazing incidence gives Qx > 0, grazing exit Qx < 0", () => {
-    const w = degToRad(10), t = degToRad(88);
+    const w = degToRad(10),
+      t = degToRad(88);
     const q = anglesToQ(w, t, CU_KALPHA1);
     expect(q.qx).toBeGreaterThan(0);
     const back = qToAngles(q.qx, q.qz, CU_KALPHA1);

@@ -7,7 +7,17 @@ import { synthDepthProfile } from "../../../src/synth/depthProfile.ts";
 // Truth: the synthetic profile's τ (REFERENCES §10: 10–90 % = 2·ln 9·τ, derived).
 describe("sigmoid fit of a sharp, finely sampled interface", () => {
   it.each([0.07, 0.085, 0.1])("recovers τ = %s nm within 10 %", (tau) => {
-    const p = synthDepthProfile({ capThickness: 1, barrierThickness: 45, wellThickness: 10, tauTop: tau, tauBottom: 0.35, depthMax: 90, step: 0.05, noise: 0.004, seed: 11 });
+    const p = synthDepthProfile({
+      capThickness: 1,
+      barrierThickness: 45,
+      wellThickness: 10,
+      tauTop: tau,
+      tauBottom: 0.35,
+      depthMax: 90,
+      step: 0.05,
+      noise: 0.004,
+      seed: 11,
+    });
     const r = analyseDepthProfile(p);
     if (!r.ok) throw new Error(r.reason);
     expect(Math.abs(r.top.tau / tau - 1)).toBeLessThan(0.1);

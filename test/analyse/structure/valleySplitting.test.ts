@@ -21,7 +21,19 @@ const logistic = (u: number) => 1 / (1 + Math.exp(-u));
 
 /** An interface fit as the depth-profile analysis would report it (only the fields the model reads matter). */
 function edge(centre: number, tau: number, barrierGe: number): InterfaceFit {
-  return { centre, centreStdErr: 0, tau, width10to90: 2 * Math.log(9) * tau, width10to90StdErr: 0, width4tau: 4 * tau, barrierGe, r2: 1, points: 100, curve: { depth: [], ge: [] }, marks: [] };
+  return {
+    centre,
+    centreStdErr: 0,
+    tau,
+    width10to90: 2 * Math.log(9) * tau,
+    width10to90StdErr: 0,
+    width4tau: 4 * tau,
+    barrierGe,
+    r2: 1,
+    points: 100,
+    curve: { depth: [], ge: [] },
+    marks: [],
+  };
 }
 
 /** A measured profile sampled every 0.1 nm from the two-interface model (written out, issue 19 step 1). */
@@ -59,7 +71,24 @@ describe("alloy disorder: Monte Carlo on real (001) diamond layers, no shared co
 
     // Atom sites of each (001) layer of the diamond lattice: an fcc square net (spacing a0/√2), 2/a0² per area,
     // shifted by (a0/4)(1, 1) per layer step around the 4-layer cycle: offsets (0,0), (¼,¼), (½,0)… in units of a0.
-    const offsets: [number, number][][] = [[[0, 0], [0.5, 0.5]], [[0.25, 0.25], [0.75, 0.75]], [[0, 0.5], [0.5, 0]], [[0.25, 0.75], [0.75, 0.25]]];
+    const offsets: [number, number][][] = [
+      [
+        [0, 0],
+        [0.5, 0.5],
+      ],
+      [
+        [0.25, 0.25],
+        [0.75, 0.75],
+      ],
+      [
+        [0, 0.5],
+        [0.5, 0],
+      ],
+      [
+        [0.25, 0.75],
+        [0.75, 0.25],
+      ],
+    ];
     const reach = 3.6 * aDot; // |φ|² < e^(−13) beyond
     const cells = Math.ceil(reach / A0) + 1;
     const siteWeights = layers.map((l) => {
@@ -72,7 +101,7 @@ describe("alloy disorder: Monte Carlo on real (001) diamond layers, no shared co
             const r2 = px * px + py * py;
             if (r2 > reach * reach) continue;
             // |φ|² = exp(−r²/a²)/(π a²), times the area per atom a0²/2.
-            out.push((Math.exp(-r2 / (aDot * aDot)) / (Math.PI * aDot * aDot)) * (A0 * A0) / 2);
+            out.push(((Math.exp(-r2 / (aDot * aDot)) / (Math.PI * aDot * aDot)) * (A0 * A0)) / 2);
           }
         }
       }
@@ -121,7 +150,10 @@ describe("valley splitting from a two-interface profile (Losert et al. 2023 tren
   const run = (widthTop: number, xw = 0, extra: Partial<typeof SETTINGS> = {}, density?: number) => {
     const tau = widthTop / (2 * Math.log(9));
     const p = profile(40, 50, tau, 0.3, 0.3, xw);
-    const r = predictValleySplitting({ depth: p.depth, ge: p.ge, top: p.top, bottom: p.bottom, electronDensity: density }, { ...SETTINGS, ...extra, field: extra.field ?? 5e6 });
+    const r = predictValleySplitting(
+      { depth: p.depth, ge: p.ge, top: p.top, bottom: p.bottom, electronDensity: density },
+      { ...SETTINGS, ...extra, field: extra.field ?? 5e6 },
+    );
     if (!r.ok) throw new Error(r.reason);
     return r;
   };

@@ -27,7 +27,8 @@ describe("bufferRelaxation: worked map back to x and R (REFERENCES §4, [D])", (
   it("from the §4 rounded angles (224: 2θ = 86.738°, ω = 7.997°; 004: 2θ = 68.103°) to 3 decimals", () => {
     const toQ = (w: number, t: number) => {
       const k = (2 * Math.PI) / CU_KALPHA1;
-      const ww = degToRad(w), tt = degToRad(t);
+      const ww = degToRad(w),
+        tt = degToRad(t);
       return { qx: k * (Math.cos(ww) - Math.cos(tt - ww)), qz: k * (Math.sin(ww) + Math.sin(tt - ww)) };
     };
     const a = { hkl: [2, 2, 4] as const, ...toQ(7.997, 86.738), qxStdErr: 0, qzStdErr: 0 };
@@ -79,7 +80,14 @@ describe("wellStrain (REFERENCES §4, [D] with Dismukes)", () => {
 describe("rsmPeaks on synthetic maps (target: x within 0.005, R within 2 points; [D] from the synthetic truth)", () => {
   const off224 = { omega: degToRad(0.05), twoTheta: degToRad(-0.02) };
   const m224 = synthReciprocalSpaceMap({ reflection: [2, 2, 4], geFraction: 0.3, relaxation: 0.8, offset: off224, background: 8, seed: 11 });
-  const m004 = synthReciprocalSpaceMap({ reflection: [0, 0, 4], geFraction: 0.3, relaxation: 0.8, offset: { omega: degToRad(0.03), twoTheta: degToRad(-0.02) }, background: 8, seed: 12 });
+  const m004 = synthReciprocalSpaceMap({
+    reflection: [0, 0, 4],
+    geFraction: 0.3,
+    relaxation: 0.8,
+    offset: { omega: degToRad(0.03), twoTheta: degToRad(-0.02) },
+    background: 8,
+    seed: 12,
+  });
   const r224 = rsmPeaks(m224.points, { reflection: [2, 2, 4] });
   const r004 = rsmPeaks(m004.points, { reflection: [0, 0, 4] });
 
@@ -116,7 +124,11 @@ describe("rsmPeaks on synthetic maps (target: x within 0.005, R within 2 points;
   });
   it("empty, tiny, flat and substrate-less maps give reasons", () => {
     expect(rsmPeaks([], { reflection: [2, 2, 4] })).toMatchObject({ ok: false, reason: expect.stringMatching(/usable points/) });
-    const flat = Array.from({ length: 400 }, (_, i) => ({ omega: degToRad(8 + (i % 20) * 0.01), twoTheta: degToRad(87 + Math.floor(i / 20) * 0.01), counts: 5 }));
+    const flat = Array.from({ length: 400 }, (_, i) => ({
+      omega: degToRad(8 + (i % 20) * 0.01),
+      twoTheta: degToRad(87 + Math.floor(i / 20) * 0.01),
+      counts: 5,
+    }));
     expect(rsmPeaks(flat, { reflection: [2, 2, 4] })).toMatchObject({ ok: false, reason: expect.stringMatching(/background/) });
     const nan = flat.map((p) => ({ ...p, counts: Number.NaN }));
     expect(rsmPeaks(nan, { reflection: [2, 2, 4] }).ok).toBe(false);
@@ -168,7 +180,7 @@ describe("rsmPeaks on scattered points", () => {
     const jitter = (pts: { omega: number; twoTheta: number; counts: number }[], seed: number) => {
       let s = seed;
       // biome-ignore lint/suspicious/noAssignInExpressions: a seeded linear congruential generator, written in its usual form
-      const u = () => ((s = (s * 1103515245 + 12345) % 2147483648) / 2147483648) - 0.5;
+      const u = () => (s = (s * 1103515245 + 12345) % 2147483648) / 2147483648 - 0.5;
       return pts.map((p) => ({ ...p, omega: p.omega + degToRad(0.008) * u(), twoTheta: p.twoTheta + degToRad(0.008) * u() }));
     };
     // Jitter moves points but keeps the counts of the grid position, a positional error of ≤ 0.004°.

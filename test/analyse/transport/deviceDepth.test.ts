@@ -37,9 +37,21 @@ function fieldPoints(parallel?: { density: number; mobility: number }): Transpor
     const mu = mobility(n);
     const osc = { quantumLifetime: TAU_Q, temperature: 1.6 };
     const rows = hallSweepRows({
-      density: n, mobility: mu, ...device, maxField: 2, points: 801, noise: 2e-4, misalignment: 0.02, seed: 10 + k,
+      density: n,
+      mobility: mu,
+      ...device,
+      maxField: 2,
+      points: 801,
+      noise: 2e-4,
+      misalignment: 0.02,
+      seed: 10 + k,
       oscillation: parallel ? undefined : (b) => oscillatingResistivity(b, { rho0: 1, density: n, ...osc }),
-      override: parallel ? (B) => { const r = twoCarrierResistivity(B, { well: { density: n, mobility: mu }, parallel, oscillations: osc }); return { rhoxx: r.rhoXX, rxy: -r.rhoXY }; } : undefined,
+      override: parallel
+        ? (B) => {
+            const r = twoCarrierResistivity(B, { well: { density: n, mobility: mu }, parallel, oscillations: osc });
+            return { rhoxx: r.rhoXX, rxy: -r.rhoXY };
+          }
+        : undefined,
     });
     const text = formatSweep({ gate: `${vg} V`, temperature: "1.6 K", current: "10 nA" }, rows);
     const r = analyseFieldSweep(validateSweep(readTable(text, `vg${k}.csv`), "hall-bar"), device, settings);
@@ -50,8 +62,23 @@ function fieldPoints(parallel?: { density: number; mobility: number }): Transpor
 
 function gateFiles(shift: number, field = "0 T") {
   const g = gaussian(5);
-  const { up, down } = gateSweeps({ capacitance: C, turnOnVoltage: V_ON, percolationDensity: NP, prefactor: 6.2e-3 / (3e15 - NP) ** 1.31, vgStart: 0.2, vgEnd: 1.4, steps: 161, hysteresisShift: shift, noise: { relative: 0.003, normal: g } });
-  return ([["up.csv", up], ["down.csv", down]] as const).map(([name, t]) => {
+  const { up, down } = gateSweeps({
+    capacitance: C,
+    turnOnVoltage: V_ON,
+    percolationDensity: NP,
+    prefactor: 6.2e-3 / (3e15 - NP) ** 1.31,
+    vgStart: 0.2,
+    vgEnd: 1.4,
+    steps: 161,
+    hysteresisShift: shift,
+    noise: { relative: 0.003, normal: g },
+  });
+  return (
+    [
+      ["up.csv", up],
+      ["down.csv", down],
+    ] as const
+  ).map(([name, t]) => {
     const rows = t.gateVoltage.map((v, i) => [Number(v.toFixed(4)), t.resistance[i] * 5, 0.3 * g()]);
     return validateSweep(readTable(formatSweep({ field }, { header: ["Vg [V]", "Rxx [ohm]", "Rxy [ohm]"], rows }), name), "hall-bar");
   });
@@ -77,7 +104,9 @@ describe("analyseDeviceDepth on a synthetic one-carrier device", () => {
     // Least-squares fit of the LK form (REFERENCES §7, §14) to the generator's τ_q = 1.2 ps at 2e-4 noise: within 2 %
     expect(rel(depth.metrics.quantum_lifetime, 1.2)).toBeLessThan(0.02);
     // τ_t/τ_q with τ_t = μm*/e (REFERENCES §9) and the generator's τ_q: median over the points with a determined τ_q
-    const ratios = depth.points.flatMap((p, i) => (p.scatteringTimeRatio !== undefined ? [(points[i].mobility * 0.19 * ELECTRON_MASS) / ELEMENTARY_CHARGE / TAU_Q] : [])).sort((a, b) => a - b);
+    const ratios = depth.points
+      .flatMap((p, i) => (p.scatteringTimeRatio !== undefined ? [(points[i].mobility * 0.19 * ELECTRON_MASS) / ELEMENTARY_CHARGE / TAU_Q] : []))
+      .sort((a, b) => a - b);
     expect(ratios.length).toBeGreaterThanOrEqual(3);
     const mid = ratios.length % 2 ? ratios[(ratios.length - 1) / 2] : (ratios[ratios.length / 2 - 1] + ratios[ratios.length / 2]) / 2;
     expect(rel(depth.metrics.scattering_time_ratio, mid)).toBeLessThan(0.02);

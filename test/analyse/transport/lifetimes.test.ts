@@ -6,7 +6,6 @@ import { lkSweep, type LkParams } from "../../helpers/lifshitzKosevich.ts";
 import { derivedQuantities, fermiEnergy, fermiWavevector } from "../../../src/analyse/transport/derivedQuantities.ts";
 import { ELEMENTARY_CHARGE } from "../../../src/physics/constants.ts";
 
-
 describe("Lifshitz–Kosevich thermal factor", () => {
   it("X = 2.79170 and X/sinh X = 0.343648 at m* = 0.19, T = 1 K, B = 1 T (REFERENCES §7, derived, CODATA 2018)", () => {
     expect(thermalArgument(1, 1, 0.19)).toBeCloseTo(2.7917, 4);

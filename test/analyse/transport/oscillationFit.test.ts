@@ -48,7 +48,7 @@ function drawCase(uniform: () => number, seed: number): Case | null {
     harmonic: true,
   };
   const f = lkFrequency(p.density);
-  const amp = (b: number) => 4 * lkThermal(p.temperature, b, mass) * lkDingle(p.tauQ, b, mass) * Math.cos(Math.PI * p.g * mass / 2);
+  const amp = (b: number) => 4 * lkThermal(p.temperature, b, mass) * lkDingle(p.tauQ, b, mass) * Math.cos((Math.PI * p.g * mass) / 2);
   const target = U(0.05, 0.5);
   let lo = 0.3;
   let hi = 12;
@@ -71,7 +71,19 @@ function drawCase(uniform: () => number, seed: number): Case | null {
 
 function sweepOf(c: Case): Sweep {
   const s = lkSweep(c.p, c.maxField, POINTS, c.mixing, c.noise, c.seed);
-  return { file: `case${c.seed}.csv`, kind: "field", geometry: "hall-bar", x: s.B, rxx: s.rxx, rxy: s.rxy, direction: "up", rows: POINTS, warnings: [], temperature_K: c.p.temperature, gate_V: 0 };
+  return {
+    file: `case${c.seed}.csv`,
+    kind: "field",
+    geometry: "hall-bar",
+    x: s.B,
+    rxx: s.rxx,
+    rxy: s.rxy,
+    direction: "up",
+    rows: POINTS,
+    warnings: [],
+    temperature_K: c.p.temperature,
+    gate_V: 0,
+  };
 }
 
 function analyse(c: Case, over: Partial<AnalysisSettings> = {}): { point: TransportPoint; depth: PointDepth } {
@@ -99,7 +111,8 @@ describe("oscillation fit on 200 random noisy sweeps (independent Lifshitz–Kos
       const o = depth.oscillation;
       const tq = o.ok && o.quantumLifetime.ok ? o.quantumLifetime.value : undefined;
       // n = g·e·f/h (REFERENCES §7) with the generator's own f = h·n/(4e).
-      if (o.ok && rel(o.density.value, c.p.density) > 0.005) wrong.push(`case ${c.seed}: n_SdH off by ${(100 * rel(o.density.value, c.p.density)).toFixed(2)} %`);
+      if (o.ok && rel(o.density.value, c.p.density) > 0.005)
+        wrong.push(`case ${c.seed}: n_SdH off by ${(100 * rel(o.density.value, c.p.density)).toFixed(2)} %`);
       if (tq !== undefined && rel(tq, c.p.tauQ) > 0.3) wrong.push(`case ${c.seed}: τ_q off by ${(100 * rel(tq, c.p.tauQ)).toFixed(0)} %`);
       if (o.ok && tq !== undefined && rel(tq, c.p.tauQ) <= 0.1 && rel(o.density.value, c.p.density) <= 0.005) right++;
     }
@@ -125,7 +138,9 @@ describe("oscillation fit on 200 random noisy sweeps (independent Lifshitz–Kos
   });
 
   it("flags no parallel conduction on any one-carrier case (Hall and SdH densities agree within their errors)", () => {
-    const flagged = results.filter((r) => r.depth.mismatch?.parallelConduction).map((r) => `case ${r.c.seed}: ${r.depth.mismatch!.mismatchPercent.toFixed(2)} ± ${r.depth.mismatch!.stdErrPercent.toFixed(2)} %`);
+    const flagged = results
+      .filter((r) => r.depth.mismatch?.parallelConduction)
+      .map((r) => `case ${r.c.seed}: ${r.depth.mismatch!.mismatchPercent.toFixed(2)} ± ${r.depth.mismatch!.stdErrPercent.toFixed(2)} %`);
     expect(flagged).toEqual([]);
   });
 });

@@ -75,7 +75,7 @@ describe("percolationFit", () => {
     if (!r.ok) return;
     expect(r.excludedInsulating).toBe(insulating);
     expect(rel(r.density, np)).toBeLessThan(0.01);
-    expect(c * 0.6 / ELEMENTARY_CHARGE).toBeGreaterThan(2e15); // sweep reaches past the window
+    expect((c * 0.6) / ELEMENTARY_CHARGE).toBeGreaterThan(2e15); // sweep reaches past the window
   });
   it("skips with a reason when the sweep never approaches the insulating side", () => {
     const a = 1e-3 / 2.5e15 ** 1.31;

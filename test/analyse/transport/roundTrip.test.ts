@@ -20,7 +20,19 @@ describe("transport round trip", () => {
   ];
   for (const [i, c] of cases.entries()) {
     it(`recovers n = ${c.n * 1e-4} cm⁻², μ = ${c.mu * 1e4} cm²/Vs (${c.geometry}, misalignment ${c.mis}) within 0.5 %`, () => {
-      const rows = hallSweepRows({ density: c.n, mobility: c.mu, geometry: c.geometry, length_um: 100, width_um: 20, maxField: 1, points: 401, misalignment: c.mis, noise: 3e-4, seed: 11 + i, vdpRatio: 1.7 });
+      const rows = hallSweepRows({
+        density: c.n,
+        mobility: c.mu,
+        geometry: c.geometry,
+        length_um: 100,
+        width_um: 20,
+        maxField: 1,
+        points: 401,
+        misalignment: c.mis,
+        noise: 3e-4,
+        seed: 11 + i,
+        vdpRatio: 1.7,
+      });
       const text = formatSweep({ gate: "0.8 V", temperature: "1.6 K", current: "10 nA" }, rows);
       const sweep = validateSweep(readTable(text, "t.csv"), c.geometry);
       const r = analyseFieldSweep(sweep, { geometry: c.geometry, length_um: 100, width_um: 20 }, DEFAULT_SETTINGS);
@@ -36,7 +48,18 @@ describe("transport round trip", () => {
   it("symmetrisation removes the misalignment that biases the raw ρxx at finite field", () => {
     // 5 % of Rxy mixed into Rxx: at 1 T the raw reading is far from ρ·L/W, the symmetrised trace is not.
     const c = { n: 1e15, mu: 10 };
-    const rows = hallSweepRows({ density: c.n, mobility: c.mu, geometry: "hall-bar", length_um: 100, width_um: 20, maxField: 1, points: 401, misalignment: 0.05, noise: 0, seed: 1 });
+    const rows = hallSweepRows({
+      density: c.n,
+      mobility: c.mu,
+      geometry: "hall-bar",
+      length_um: 100,
+      width_um: 20,
+      maxField: 1,
+      points: 401,
+      misalignment: 0.05,
+      noise: 0,
+      seed: 1,
+    });
     const sweep = validateSweep(readTable(formatSweep({ gate: "0.8 V" }, rows), "t.csv"), "hall-bar");
     const r = analyseFieldSweep(sweep, { geometry: "hall-bar", length_um: 100, width_um: 20 }, DEFAULT_SETTINGS);
     if (!r.ok) throw new Error(r.reason);

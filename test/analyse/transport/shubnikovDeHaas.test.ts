@@ -48,10 +48,18 @@ describe("shubnikovDeHaas", () => {
   it("skips a featureless (noise-only) sweep and too-short or NaN input", () => {
     const g = gaussian(5);
     const b = fieldGrid(0.3, 2, 600);
-    const r = shubnikovDeHaas(b, b.map(() => 600 + g()));
+    const r = shubnikovDeHaas(
+      b,
+      b.map(() => 600 + g()),
+    );
     expect(r.ok).toBe(false);
     expect(shubnikovDeHaas([], []).ok).toBe(false);
-    expect(shubnikovDeHaas(b, b.map(() => NaN)).ok).toBe(false);
+    expect(
+      shubnikovDeHaas(
+        b,
+        b.map(() => NaN),
+      ).ok,
+    ).toBe(false);
     expect(() => shubnikovDeHaas([1], [])).toThrow(RangeError);
   });
 });
@@ -62,7 +70,10 @@ describe("parallel conduction (Hall vs SdH density)", () => {
   const fields = fieldGrid(0, 3, 1501);
   function hallFromLowField(sweep: { field: number[]; rhoXY: number[] }) {
     const idx = sweep.field.map((_, i) => i).filter((i) => sweep.field[i] <= 0.05);
-    const f = linearFit(idx.map((i) => sweep.field[i]), idx.map((i) => sweep.rhoXY[i]));
+    const f = linearFit(
+      idx.map((i) => sweep.field[i]),
+      idx.map((i) => sweep.rhoXY[i]),
+    );
     return 1 / (ELEMENTARY_CHARGE * f.slope); // REFERENCES §6: n = 1/(e·dR_xy/dB)
   }
   it("flags a two-carrier sweep (well + parallel channel) as parallel conduction (> 5 %)", () => {

@@ -14,14 +14,24 @@ function fakeReader(files: Record<string, Buffer>) {
     wafer: "W1",
     recordFile: "wafers/W1/wafer.md",
     glob: () => [],
-    readText: async () => { throw new Error("not used"); },
+    readText: async () => {
+      throw new Error("not used");
+    },
     async readBytes(rel) {
       if (!(rel in files)) throw new InputError({ file: `wafers/W1/${rel}`, message: "file not found" });
       return { rel: `wafers/W1/${rel}`, bytes: files[rel] };
     },
     report: (p) => problems.push(p),
     async guard(fn) {
-      try { return await fn(); } catch (e) { if (e instanceof InputError) { problems.push(e.problem); return undefined; } throw e; }
+      try {
+        return await fn();
+      } catch (e) {
+        if (e instanceof InputError) {
+          problems.push(e.problem);
+          return undefined;
+        }
+        throw e;
+      }
     },
     lineOf: (field) => (field.startsWith("images[0]") ? 12 : field.startsWith("images[1]") ? 17 : undefined),
   };
@@ -30,7 +40,12 @@ function fakeReader(files: Record<string, Buffer>) {
 
 const record = (images: ImageSpec[]) => ({ images, settings: DEFAULT_SETTINGS }) as unknown as WaferRecord;
 const spec = (file: string, extra: Partial<ImageSpec> = {}): ImageSpec => ({ file, pixel_nm: 0.05, kind: "haadf", growth_axis: "up", ...extra });
-const grey = micrographPng(Float32Array.from({ length: 64 * 48 }, (_, i) => (i % 7) / 7), 64, 48, 8);
+const grey = micrographPng(
+  Float32Array.from({ length: 64 * 48 }, (_, i) => (i % 7) / 7),
+  64,
+  48,
+  8,
+);
 
 describe("loadImageInputs", () => {
   it("decodes a greyscale PNG into a micrograph input in SI units", async () => {
@@ -71,7 +86,12 @@ describe("loadImageInputs", () => {
     const { reader, problems } = fakeReader({ "images/a.png": grey });
     await loadImageInputs(record([spec("images/a.png"), spec("images/a.png", { reference: [10, 10, 80, 40] })]), reader);
     expect(problems).toHaveLength(1);
-    expect(problems[0]).toMatchObject({ file: "wafers/W1/wafer.md", line: 17, field: "images[1].reference", message: "reference rectangle lies outside the image" });
+    expect(problems[0]).toMatchObject({
+      file: "wafers/W1/wafer.md",
+      line: 17,
+      field: "images[1].reference",
+      message: "reference rectangle lies outside the image",
+    });
     expect(problems[0].expected).toMatch(/64×48/);
   });
 

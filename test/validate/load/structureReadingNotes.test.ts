@@ -22,10 +22,20 @@ function fakeReader(files: Record<string, string>) {
     async readText(rel) {
       return { rel: `wafers/W1/${rel}`, text: files[rel] };
     },
-    readBytes: async () => { throw new Error("not used"); },
+    readBytes: async () => {
+      throw new Error("not used");
+    },
     report: (p) => problems.push(p),
     async guard(fn) {
-      try { return await fn(); } catch (e) { if (e instanceof InputError) { problems.push(...e.problems); return undefined; } throw e; }
+      try {
+        return await fn();
+      } catch (e) {
+        if (e instanceof InputError) {
+          problems.push(...e.problems);
+          return undefined;
+        }
+        throw e;
+      }
     },
     lineOf: (field) => (field.startsWith("profiles") ? 30 : undefined),
   };
@@ -52,10 +62,19 @@ describe("reading notes of structure files", () => {
     const inputs = await loadStructureInputs(record, reader);
     expect(inputs.profiles!.map((p) => p.method)).toEqual(["atom probe"]); // the file's own line wins
     expect(problems.map((p) => [p.severity, p.file, p.line, p.field, p.message])).toEqual([
-      ["warning", "wafers/W1/profiles/apt.csv", 1, "# method", "the file's own \"# method:\" line and the rule `method.value` (wafers/W1/wafer.md:31) disagree; the file's line is used"],
+      [
+        "warning",
+        "wafers/W1/profiles/apt.csv",
+        1,
+        "# method",
+        "the file's own \"# method:\" line and the rule `method.value` (wafers/W1/wafer.md:31) disagree; the file's line is used",
+      ],
       ["warning", "wafers/W1/wafer.md", 30, "profiles.columns", 'columns not named in the mapping are ignored: "Time (s)"'],
     ]);
-    const notes = structureReadingNotes({ problems: problems.map((p) => ({ ...p, wafer: "W1" })), provenance: { files: [{ path: "wafers/W1/profiles/apt.csv", bytes: 1, sha256: "", role: "depth profile" }], settings: [], waferbookVersion: "" } });
+    const notes = structureReadingNotes({
+      problems: problems.map((p) => ({ ...p, wafer: "W1" })),
+      provenance: { files: [{ path: "wafers/W1/profiles/apt.csv", bytes: 1, sha256: "", role: "depth profile" }], settings: [], waferbookVersion: "" },
+    });
     expect(notes).toHaveLength(2);
     expect(notes[0]).toMatch(/^wafers\/W1\/profiles\/apt\.csv:1: warning: # method: the file's own/);
     expect(notes[1]).toMatch(/^wafers\/W1\/wafer\.md:30: warning: profiles\.columns: columns not named/);
