@@ -10,14 +10,14 @@
  * The run's folder comes from test/globalSetup.ts (`inject("demoSiteRoot")`);
  * the first caller claims it by creating `building/` (mkdir is atomic) and
  * writes `result.json` when the build is over. Without the global setup (a
- * different config), each process builds its own copy.
+ * file of the unit project) demoSite() refuses, rather than build a copy of
+ * its own.
  *
  * A test that CHANGES a site must build its own: this one is read by several
  * files at the same time.
  */
 import { execFile } from "node:child_process";
 import { promises as fs } from "node:fs";
-import os from "node:os";
 import path from "node:path";
 import { inject } from "vitest";
 
@@ -73,7 +73,12 @@ async function shared(): Promise<DemoBuild> {
   } catch {
     root = undefined;
   }
-  if (!root) return runBuild(await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-demo-site-")));
+  if (!root) {
+    // A file of the unit project (vitest.config.ts) has no run folder: it would pay a whole demo build of its own.
+    throw new Error(
+      "this test reads the shared demo site, so it belongs to the integration project (vitest.config.ts: test/cli, test/reliability, test/browser), whose global setup gives the run its one demo build; move the test there",
+    );
+  }
   const result = path.join(root, "result.json");
   try {
     await fs.mkdir(path.join(root, "building"));

@@ -1,8 +1,8 @@
 /**
  * The allow-lists a drawn page read back from the cache must pass before it
  * is published (src/publish/drawnPageCheck.ts, preparedMarkup.ts, safeUrl.ts):
- * what waferbook's own renderers write passes (Markdown notes of every kind,
- * and every SVG figure and notes block on the shared demo site); each trick a
+ * what waferbook's own renderers write passes (Markdown notes of every kind;
+ * the demo site's figures and notes: test/cli/demoSiteMarkup.test.ts); each trick a
  * forged page could use to run script on the site's origin is refused with
  * what was found; and every field the wafer templates place unescaped or use
  * as a link is one the check covers (read from the templates themselves).
@@ -19,7 +19,7 @@ import { drawnFileProblem, JSON_FIELD, MARKUP_FIELD, pageModelProblem, URL_FIELD
 import { renderNotes } from "../../src/publish/markdown.ts";
 import { jsonForScript } from "../../src/publish/charts.ts";
 import { compareScriptFrame } from "../../src/publish/compareData.ts";
-import { demoSite, DEMO_HOOK_TIMEOUT_MS, ROOT } from "../helpers/demoSite.ts";
+import { ROOT } from "../helpers/demoSite.ts";
 
 const NOTES = [
   '# Heading\n\nSome *emphasis*, **strong**, ~~struck~~, `code` and a [link](https://example.org/a?b=1&c=2 "title").',
@@ -44,31 +44,6 @@ describe("what waferbook writes passes", () => {
     const json = jsonForScript([{ title: "</script><script>alert(1)</script>", note: "a & b > c \u2028" }]);
     expect(scriptJsonProblem(json)).toEqual({ value: [{ title: "</script><script>alert(1)</script>", note: "a & b > c \u2028" }] });
   });
-  it(
-    "every SVG figure and notes block of the demo site",
-    async () => {
-      const site = await demoSite();
-      let svgs = 0;
-      let notes = 0;
-      for (const id of await fs.readdir(path.join(site, "wafers"))) {
-        const html = await fs.readFile(path.join(site, "wafers", id, "index.html"), "utf8").catch(() => "");
-        // The figures of the page model start with xmlns (the templates' own icons do not, and are not drawn pages' content).
-        for (const m of html.matchAll(/<svg xmlns[\s\S]*?<\/svg>/g)) {
-          expect(markupProblem(m[0]), `${id}: ${m[0].slice(0, 80)}`).toBeUndefined();
-          svgs++;
-        }
-        const block = /<div class="notes">([\s\S]*?)<\/div><\/section>/.exec(html);
-        if (block) {
-          expect(markupProblem(block[1]), id).toBeUndefined();
-          notes++;
-        }
-      }
-      // The demo has wafer maps, layer stacks and reciprocal-space maps on several wafers.
-      expect(svgs).toBeGreaterThan(10);
-      expect(notes).toBeGreaterThan(10);
-    },
-    DEMO_HOOK_TIMEOUT_MS,
-  );
   it("a tiny PNG, and the comparison data framed for its wafer", () => {
     const png = PNG.sync.write(Object.assign(new PNG({ width: 1, height: 1 }), { data: Buffer.from([1, 2, 3, 255]) }));
     expect(drawnFileProblem("wafers/W-1/images/image1-micrograph.png", png, "W-1")).toBeUndefined();
@@ -188,24 +163,4 @@ describe("the check covers every field the wafer templates place unescaped or us
     for (const key of unescaped) expect(MARKUP_FIELD(key) || JSON_FIELD(key), key).toBe(true);
     for (const key of links) expect(URL_FIELD(key), key).toBe(true);
   });
-});
-
-describe("every page of the demo site carries the Content-Security-Policy and needs nothing it forbids", () => {
-  it(
-    "the policy is the first element after the charset; scripts are files or JSON data; no handler, inline style or javascript: link",
-    async () => {
-      const site = await demoSite();
-      const pages = [...(await fs.readdir(site, { recursive: true }))].filter((f) => f.endsWith(".html"));
-      expect(pages.length).toBeGreaterThan(30);
-      for (const f of pages) {
-        const html = await fs.readFile(path.join(site, f), "utf8");
-        expect(html, f).toMatch(
-          /^<!doctype html>\s*<html lang="en">\s*<head>\s*<meta charset="utf-8">\s*<meta http-equiv="Content-Security-Policy" content="default-src 'self'; script-src 'self'; style-src 'self'; [^"]*object-src 'none'; base-uri 'none'/,
-        );
-        for (const s of html.matchAll(/<script\b[^>]*>/g)) expect(s[0], f).toMatch(/^<script (src="[^"]+" defer|type="application\/json" id="[\w-]+")>$/);
-        expect(html, f).not.toMatch(/\son[a-z]+=|\sstyle="|javascript:/i);
-      }
-    },
-    DEMO_HOOK_TIMEOUT_MS,
-  );
 });
