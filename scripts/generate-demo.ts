@@ -322,10 +322,12 @@ grades:
     interface_width_top: { max: "3 nm" }
     interface_width_bottom: { max: "3 nm" }
     peak_O: { max: "1e18 cm^-3" }
-    # Predicted from the Ge profile (a model estimate, not a measurement): 90 % of dots need E_v ≥ 18 µeV,
-    # the level analysis.yaml sets as valley_splitting_threshold (the yield). 18 µeV ≈ ln 10·k_B·T at an
-    # electron temperature of 90 mK (excited valley ≤ 10 % populated), and the Zeeman energy at 0.155 T.
-    valley_splitting_p10: { min: "18 µeV" }
+    # Predicted from the Ge profile (a model estimate, not a measurement): an illustrative floor, not a
+    # device requirement — 90 % of dots above about k_B·T at 0.1 K (8.6 µeV), the same level analysis.yaml
+    # sets as valley_splitting_threshold (the yield). Qubits usually want E_v well above the Zeeman energy
+    # at their operating field (tens of µeV and more; from memory). The prediction depends on how the
+    # profile was measured (atom probe vs SIMS): compare wafers measured the same way.
+    valley_splitting_p10: { min: "8 µeV" }
     hall_sdh_mismatch: { max: "5 %", aggregate: max }
   test:
     peak_mobility: { min: "3e4 cm^2/(V s)" }
@@ -345,9 +347,9 @@ hall_max_field: "0.2 T"
 # Shubnikov–de Haas window: at 1.6 K the oscillations of these wells are
 # thermally damped below about 0.6 T.
 sdh_min_field: "0.6 T"
-# The valley splitting a dot needs here: the same 18 µeV as the valley_splitting_p10
-# target in targets.yaml (measured Si/SiGe splittings run from tens to a few hundred µeV).
-valley_splitting_threshold: "18 µeV"
+# The valley splitting counted as enough for the yield: the same 8 µeV as the valley_splitting_p10
+# target in targets.yaml (measured Si/SiGe splittings run from tens to a few hundred µeV; from memory).
+valley_splitting_threshold: "8 µeV"
 `,
   );
   for (const [id, r] of Object.entries(RUNS)) {
