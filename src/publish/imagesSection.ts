@@ -172,6 +172,11 @@ export function imagesSection(o: WaferOutcome): ImagesSectionModel | undefined {
   const images = a.images.map((r, i) => block(r, i, o.folder, files, (file) => copies.get(file) ?? ""));
   const charts = images.map((b) => b.chart).filter((c): c is ChartSpec => c !== null);
   const sources = [...new Set(Object.values(a.metricSource))].map((i) => a.images[i].input.file);
-  const metricNote = sources.length ? `The wafer's image metrics come from ${sources.join(" and ")}.` : "No image gave a metric.";
+  // What the ± leave out (QA review): the propagation covers pixel noise only (zContrastProfile, strainMeanUncertainty).
+  const scope =
+    " Each ± is one standard uncertainty from the image's pixel noise only: scan distortion and drift, relaxation of the thinned" +
+    " lamella, the choice of reference region and the probe's own width are not in it (scan artefacts alone are often of order" +
+    " 0.1 % in strain; common practice).";
+  const metricNote = sources.length ? `The wafer's image metrics come from ${sources.join(" and ")}.${scope}` : "No image gave a metric.";
   return { charts, images, files, metricNote };
 }
