@@ -105,3 +105,19 @@ export const UNITS: Readonly<Record<string, UnitDefinition>> = {
   slm: unit(VOLUME_FLOW, "", 1 / 60, -3),
   slpm: unit(VOLUME_FLOW, "", 1 / 60, -3),
 };
+
+/**
+ * Limits on a unit as typed (common practice: a unit that a person writes is a
+ * few characters long). Texts beyond them are refused with a located message
+ * before any pattern reads them, so no input can make the reading slow or deep.
+ */
+export const UNIT_LIMITS = {
+  /** Characters of a unit text (a column header's "[…]", the unit of a quantity). */
+  length: 200,
+  /** Characters of the number a quantity starts with. */
+  numberLength: 60,
+  /** Brackets inside one another: "((m s))" is depth 2. */
+  bracketDepth: 8,
+  /** Largest integer power, in absolute value ("m^12"). */
+  power: 12,
+} as const;

@@ -32,7 +32,7 @@ import { FINDING_KEYS } from "../judge/findings.ts";
 import { growthColumns, growthValues } from "./growthSection.ts";
 
 /** A plain decimal number written as text (e.g. "-1.5", "+2e-3"): a spreadsheet reads it as a number, never as a formula. */
-const PLAIN_NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+const PLAIN_NUMBER = /^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/;
 
 /** True when a spreadsheet would treat the text cell as a formula (OWASP "CSV Injection": leading =, +, -, @, tab, CR). */
 export function isFormulaLike(s: string): boolean {

@@ -340,7 +340,7 @@ export function readInstrumentTable(text: string, file: string, rules: ReadingRu
       mapped.forEach((m, k) => {
         const cell = parts[m.at];
         const txt = numberText(cell, decimal);
-        const v = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/.test(txt) ? Number(txt) : NaN;
+        const v = /^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/.test(txt) ? Number(txt) : NaN;
         if (!Number.isFinite(v)) {
           bad.add({
             file,

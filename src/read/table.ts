@@ -13,6 +13,7 @@
  */
 import { parse } from "csv-parse/sync";
 import { InputError, ProblemList } from "../model/problem.ts";
+import { UNIT_LIMITS } from "../physics/unitTable.ts";
 import { scanPlainBody, splitPlainBody } from "./plainTable.ts";
 import { cellCountProblem, decimalFix, numberText, tableDialect, type DecimalMark, type Separator } from "./tableDialect.ts";
 
@@ -129,7 +130,19 @@ export function readTable(text: string, file: string): RawTable {
       });
       return;
     }
-    columns.push({ name: m[1], unit: (m[2] ?? "").trim(), index });
+    const unit = (m[2] ?? "").trim();
+    if (unit.length > UNIT_LIMITS.length) {
+      headerProblems.add({
+        file,
+        line: headerLine,
+        message: `the unit of column ${m[1]} is too long to be a unit`,
+        expected: `a unit of at most ${UNIT_LIMITS.length} characters, such as "${m[1]} [T]"`,
+        found: `${JSON.stringify(unit.slice(0, 40))}… (${unit.length} characters)`,
+        fix: "write the unit alone inside the brackets; a ']' may be missing",
+      });
+      return;
+    }
+    columns.push({ name: m[1], unit, index });
   });
   const seen = new Map<string, number>();
   for (const c of columns) {
@@ -222,7 +235,7 @@ function plainTable(t: Omit<RawTable, "rows">, text: string, bodyStart: number):
 }
 
 /** A cell's number syntax: decimal only, the same as the fast path's (src/read/plainTable.ts). */
-const DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+const DECIMAL = /^[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?$/;
 /** Hexadecimal, binary and octal literals, which Number() would read (0x7D0 → 2000). */
 const NON_DECIMAL = /^[+-]?0[xXbBoO]/;
 

@@ -315,11 +315,21 @@ export interface GrowthVariable {
   value: number;
 }
 
-/** Lower-case letters, digits and underscores: "upper barrier" → "upper_barrier". */
+/**
+ * Lower-case letters, digits and underscores: "upper barrier" → "upper_barrier".
+ * Accented letters lose their accents (Unicode canonical decomposition, NFD, then
+ * the combining marks dropped: "é" → "e", "Ü" → "u"); any other character beyond
+ * ASCII that is a letter or a digit is kept as its code point, after lower case ("Ω" → "u3c9",
+ * "层" → "u5c42"), so a non-Latin name gives a key of its own, readable in a
+ * collision message, rather than "x".
+ */
 export function slug(text: string): string {
   return (
     text
+      .normalize("NFD")
+      .replace(/\p{M}+/gu, "")
       .toLowerCase()
+      .replace(/\P{ASCII}/gu, (c) => (/[\p{L}\p{N}]/u.test(c) ? `_u${c.codePointAt(0)!.toString(16)}_` : "_"))
       .replace(/[^a-z0-9]+/g, "_")
       .replace(/^_|_$/g, "") || "x"
   );

@@ -17,8 +17,13 @@
  * does not take ("MT", "mcm", "kmin") is refused. °C and °F (degC, degF)
  * carry an offset and are read only on their own: "°C/min" is refused
  * (a rate of temperature is written in K/min).
+ *
+ * Limits (UNIT_LIMITS, checked before reading, each refusal says which): at most
+ * 200 characters, brackets at most 8 deep, powers integers within ±12, each base
+ * dimension's exponent within ±12, and a factor to SI that is a normal, finite,
+ * non-zero double (so "mm^100/km^100" is never read as 0).
  */
-import { BASE_UNITS, PREFIXES, UNITS, type UnitDefinition } from "../physics/unitTable.ts";
+import { BASE_UNITS, PREFIXES, UNIT_LIMITS, UNITS, type UnitDefinition } from "../physics/unitTable.ts";
 
 export interface ParsedUnit {
   /** Exponents of BASE_UNITS (m, kg, s, A, K). */
@@ -37,12 +42,13 @@ function temperatureNames(text: string): string {
   return text.replace(/°\s*C(?![A-Za-z])|\u2103/g, "degC").replace(/°\s*F(?![A-Za-z])|\u2109/g, "degF");
 }
 
-type Token = { kind: "name"; text: string } | { kind: "power"; value: number } | { kind: "op"; text: string };
+type Token = { kind: "name"; text: string } | { kind: "power"; value: number; text: string } | { kind: "op"; text: string };
 
 function tokens(text: string): Token[] | string {
   const out: Token[] = [];
   const re = /([A-Za-z]+)|\^\s*([-+]?\d+)|([/*()])|(\s+)|(.)/gy;
   let space = false;
+  let depth = 0;
   let m: RegExpExecArray | null;
   // biome-ignore lint/suspicious/noAssignInExpressions: the usual RegExp.exec loop
   while (re.lastIndex < text.length && (m = re.exec(text))) {
@@ -51,7 +57,16 @@ function tokens(text: string): Token[] | string {
       continue;
     }
     if (m[5] !== undefined) return `the character ${JSON.stringify(m[5])} is not part of a unit`;
-    const tok: Token = m[1] ? { kind: "name", text: m[1] } : m[2] !== undefined ? { kind: "power", value: Number(m[2]) } : { kind: "op", text: m[3] };
+    if (m[3] === "(" && ++depth > UNIT_LIMITS.bracketDepth) return `brackets more than ${UNIT_LIMITS.bracketDepth} deep inside one another`;
+    if (m[3] === ")") depth--;
+    if (m[2] !== undefined && !(Math.abs(Number(m[2])) <= UNIT_LIMITS.power)) {
+      return `the power ^${m[2]} is beyond ±${UNIT_LIMITS.power} (powers are whole numbers from -${UNIT_LIMITS.power} to ${UNIT_LIMITS.power})`;
+    }
+    const tok: Token = m[1]
+      ? { kind: "name", text: m[1] }
+      : m[2] !== undefined
+        ? { kind: "power", value: Number(m[2]), text: m[2] }
+        : { kind: "op", text: m[3] };
     // A space between two factors multiplies them ("V s", "cm^2 V^-1"), as does a factor right after a power or a bracket ("cm^2V^-1").
     const prev = out.at(-1);
     const endsFactor = prev && (prev.kind !== "op" || prev.text === ")");
@@ -149,6 +164,17 @@ export function readUnit(text: string): UnitRead {
 const CACHE = new Map<string, UnitRead>();
 
 function readUncached(text: string): UnitRead {
+  if (text.length > UNIT_LIMITS.length)
+    return { ok: false, reason: `the unit has ${text.length} characters, more than the ${UNIT_LIMITS.length} a unit may have` };
+  try {
+    return readWithinLimits(text);
+  } catch (err) {
+    // A refusal, never a crash: whatever goes wrong in reading one unit stays with that unit.
+    return { ok: false, reason: `the unit could not be read (${err instanceof Error ? err.message : String(err)})` };
+  }
+}
+
+function readWithinLimits(text: string): UnitRead {
   const toks = tokens(temperatureNames(text).trim());
   if (typeof toks === "string") return { ok: false, reason: toks };
   if (toks.length === 0) return { ok: false, reason: "there is no unit" };
@@ -176,10 +202,22 @@ function readUncached(text: string): UnitRead {
     acc.mantissa *= def.mantissa ** p;
     acc.decade += (def.decade + prefix) * p;
   }
+  const big = acc.dim.findIndex((e) => !(Math.abs(e) <= UNIT_LIMITS.power));
+  if (big >= 0) return { ok: false, reason: `the power of ${BASE_UNITS[big]} comes to ${acc.dim[big]}, beyond ±${UNIT_LIMITS.power}` };
+  const toSI = timesTen(acc.mantissa, acc.decade);
+  if (!Number.isFinite(toSI) || Math.abs(toSI) < MIN_NORMAL) {
+    return {
+      ok: false,
+      reason: `its factor to SI units (${acc.mantissa}e${acc.decade}) is beyond the range of numbers waferbook computes with (about 1e-308 to 1e308)`,
+    };
+  }
   const unit: ParsedUnit = { dim: acc.dim, mantissa: acc.mantissa, decade: acc.decade };
   if (offsetTerms.length) unit.offset = offsetTerms[0].def.offset;
   return { ok: true, unit };
 }
+
+/** The smallest normal double, 2^-1022 (IEEE 754): a factor below it has lost its precision. */
+const MIN_NORMAL = 2 ** -1022;
 
 export function sameDimension(a: ParsedUnit, b: ParsedUnit): boolean {
   return a.dim.every((e, k) => e === b.dim[k]);

@@ -23,6 +23,7 @@
  * Letter case is otherwise kept: "mT" and "MT" are different units, and a
  * wrong case is reported with a suggestion (suggestUnit), never guessed.
  */
+import { UNIT_LIMITS } from "../physics/unitTable.ts";
 import { didYouMean } from "../model/problem.ts";
 
 const SUPERSCRIPT_DIGITS: Record<string, string> = {
@@ -40,13 +41,15 @@ const SUPERSCRIPT_DIGITS: Record<string, string> = {
 };
 
 /** The number a quantity starts with (kept as written, so "1e5" is never read as a unit). */
-const LEADING_NUMBER = /^\s*[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?/;
+const LEADING_NUMBER = /^\s*[-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?/;
 
 /** A number in the form the site prints, "1.23×10⁵" (also "1.23 x 10^5"): mantissa, then the exponent after a caret or in superscript. */
-const TIMES_TEN = /^(\s*[-+]?(?:\d+\.?\d*|\.\d+))\s*[×xX·*]\s*10(?:\^([-+\u2212]?\d+)|([⁻]?[⁰¹²³⁴⁵⁶⁷⁸⁹]+))/;
+const TIMES_TEN = /^(\s*[-+]?(?:\d+(?:\.\d*)?|\.\d+))\s*[×xX·*]\s*10(?:\^([-+\u2212]?\d+)|([⁻]?[⁰¹²³⁴⁵⁶⁷⁸⁹]+))/;
 
 /** Brings a unit (or "<number> <unit>") to the spelling the unit grammar and the column lists use. */
 export function normaliseUnitText(text: string): string {
+  // Beyond the limits no pattern runs: the caller refuses the text (unitTextTooLong) with its location.
+  if (unitTextTooLong(text)) return text;
   text = text.replace(TIMES_TEN, (_, mantissa: string, caret: string | undefined, sup: string | undefined) =>
     `${mantissa}e${caret ?? [...sup!].map((c) => SUPERSCRIPT_DIGITS[c]).join("")}`.replace("\u2212", "-"),
   );
@@ -57,8 +60,10 @@ export function normaliseUnitText(text: string): string {
 
 /** Brings a unit alone (a column header's "[…]", a metadata unit) to its one spelling. */
 export function normaliseUnit(text: string): string {
+  if (text.length > UNIT_LIMITS.length) return text;
+  // Each run of white space becomes one space first, so no pattern below meets a long run (they stay linear).
   let u = text
-    .replace(/[\u00a0\u2009\u202f]/g, " ")
+    .replace(/\s+/g, " ")
     .replace(/\u2212/g, "-")
     .replace(/[Ω\u2126]/g, "ohm")
     .replace(/[µμ]/g, "u")
@@ -69,7 +74,7 @@ export function normaliseUnit(text: string): string {
     .trim();
   u = u.replace(/(?<![A-Za-z])([A-Za-z]?)ohms?(?![A-Za-z])/gi, (_, prefix: string) => `${prefix}ohm`);
   // Per square: Ω/sq, Ω/□, ohm per square.
-  u = u.replace(/\s*(?:\/\s*(?:sq|□|square)|\s+(?:sq|□)|\s+per\s+square)$/i, "");
+  u = u.replace(/ ?(?:\/ ?(?:sq|□|square)| (?:sq|□)| per square)$/i, "");
   // cm2, cm-2, V-1 (a power written without the caret), each followed by a space so "cm2V-1s-1" splits.
   u = u.replace(/(?<![A-Za-z^])([A-Za-z]+)(-?\d+)(?![\d.])/g, (_, name: string, power: string) => `${name}^${power} `);
   u = u.replace(/(?<![A-Za-z])Vs(?![A-Za-z])/g, "(V s)");
@@ -80,6 +85,28 @@ export function normaliseUnit(text: string): string {
     .trim();
   // After the last slash, units multiplied together are all in the denominator: cm²/V·s = cm²/(V·s).
   return u.replace(/\/([^/()]*[ *][^/()]*)$/, "/($1)");
+}
+
+/**
+ * Why a unit text (or "<number> <unit>") is too long to read, or undefined when it is not:
+ * longer than UNIT_LIMITS.length characters, or a number of more than UNIT_LIMITS.numberLength.
+ * Checked without any pattern, so it is quick on any input.
+ */
+export function unitTextTooLong(text: string): string | undefined {
+  if (text.length > UNIT_LIMITS.length) return `${text.length} characters, more than the ${UNIT_LIMITS.length} a unit may have`;
+  let digits = 0;
+  let longest = 0;
+  for (const c of text) {
+    digits = (c >= "0" && c <= "9") || c === "." ? digits + 1 : 0;
+    longest = Math.max(longest, digits);
+  }
+  if (longest > UNIT_LIMITS.numberLength) return `a number of ${longest} digits, more than the ${UNIT_LIMITS.numberLength} a number may have`;
+  return undefined;
+}
+
+/** A long text shown in a message: its start and its length. */
+export function shortText(text: string): string {
+  return text.length <= 60 ? JSON.stringify(text) : `${JSON.stringify(text.slice(0, 40))}… (${text.length} characters)`;
 }
 
 /**

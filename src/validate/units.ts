@@ -9,7 +9,7 @@
  * side becomes base-dimension exponents and a factor, the dimensions must be
  * equal, never a silent assumption.
  */
-import { normaliseUnit, normaliseUnitText } from "./unitSpelling.ts";
+import { normaliseUnit, normaliseUnitText, shortText, unitTextTooLong } from "./unitSpelling.ts";
 import { convertUnit, dimensionText, readUnit, sameDimension } from "./unitGrammar.ts";
 import { kindOf, suggestUnitName } from "./quantityKinds.ts";
 
@@ -54,11 +54,12 @@ export function acceptedUnits(dim: Dimension): string {
 
 /** "0.35 V" → { value: 0.35, unit: "V" }; returns undefined when the text is not number + unit. */
 export function splitValueUnit(text: string): { value: number; unit: string } | undefined {
-  const m = /^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*?)\s*$/.exec(text);
+  if (unitTextTooLong(text)) return undefined;
+  const m = /^([-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)([\s\S]*)$/.exec(text.trim());
   if (!m) return undefined;
   const value = Number(m[1]);
   if (!Number.isFinite(value)) return undefined;
-  return { value, unit: m[2] };
+  return { value, unit: m[2].trim() };
 }
 
 export type QuantityResult = { ok: true; value: number } | { ok: false; expected: string; found: string };
@@ -75,9 +76,11 @@ export function parseQuantity(text: unknown, target: string): QuantityResult {
     return { ok: false, expected, found: `the bare number ${text} (no unit)` };
   }
   if (typeof text !== "string") return { ok: false, expected, found: typeof text };
+  const long = unitTextTooLong(text);
+  if (long) return { ok: false, expected, found: `${shortText(text)}, too long to be a quantity (${long})` };
   const t = text.trim();
   if (target === "1" || target === "%") {
-    const m = /^([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(%?)$/.exec(t);
+    const m = /^([-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(%?)$/.exec(t);
     if (!m) return { ok: false, expected: target === "%" ? 'a percentage such as "5 %"' : "a plain number", found: JSON.stringify(t) };
     const v = Number(m[1]);
     if (!Number.isFinite(v)) return { ok: false, expected, found: `${JSON.stringify(t)}, beyond the largest number (about 1.8e308)` };
@@ -93,7 +96,7 @@ function quantityWithUnit(t: string, target: string, expected: string): Quantity
   if (!to.ok) throw new Error(`parseQuantity: the target unit ${JSON.stringify(target)} is not readable: ${to.reason}`);
   const wanted = kindOf(to.unit);
   const offer = wanted ? `${wanted.name} is written in ${wanted.units.join(", ")}` : `write it in ${target}`;
-  const m = /^([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)(?:\s+(.*))?$/.exec(normaliseUnitText(t));
+  const m = /^([-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)(?:\s+(.*))?$/.exec(normaliseUnitText(t));
   if (!m) return { ok: false, expected, found: `${JSON.stringify(t)}, which is not a known quantity (a number first, then its unit)` };
   const value = Number(m[1]);
   if (!Number.isFinite(value)) return { ok: false, expected, found: `${JSON.stringify(t)}, beyond the largest number (about 1.8e308)` };
@@ -116,6 +119,7 @@ function quantityWithUnit(t: string, target: string, expected: string): Quantity
     };
   }
   const v = convertUnit(value, from.unit, to.unit);
+  if (v === 0 && value !== 0) return { ok: false, expected, found: `${JSON.stringify(t)}, which in ${target} is below the smallest number (about 1e-308)` };
   if (!Number.isFinite(v)) return { ok: false, expected, found: `${JSON.stringify(t)}, beyond the largest number (about 1.8e308)` };
   return { ok: true, value: v };
 }

@@ -9,7 +9,7 @@ import { readFrontMatter } from "../../src/read/frontMatter.ts";
 import { InputError } from "../../src/model/problem.ts";
 import { DEFAULT_SETTINGS } from "../../src/validate/settings.ts";
 import { validateWafer } from "../../src/validate/wafer.ts";
-import { growthVariables } from "../../src/validate/growth.ts";
+import { growthVariables, slug } from "../../src/validate/growth.ts";
 
 const ctx = { folder: "W-1", file: "wafers/W-1/wafer.md", today: "2026-12-01", siteSettings: DEFAULT_SETTINGS };
 const load = (text: string) => validateWafer(readFrontMatter(text, ctx.file), ctx);
@@ -132,5 +132,19 @@ describe("growth conditions", () => {
   it("refuses a growth block that is not a mapping, located at its line", () => {
     const text = "---\nwafer: W-1\nrun: R-1\ngrown: 2025-03-14\ngrowth: 625 C\n---\n";
     expect(problems(text)).toEqual(["wafers/W-1/wafer.md:5: growth: wrong type"]);
+  });
+});
+
+describe("column key names (slug)", () => {
+  // Expected keys written by hand: accents dropped after canonical decomposition (Unicode NFD), other
+  // non-ASCII letters and digits as their lower-case code point in hex (U+03C9 ω, U+5C42 层: Unicode charts).
+  it("keeps non-ASCII names readable and apart from a layer named x", () => {
+    expect(slug("é")).toBe("e");
+    expect(slug("Über-Schicht")).toBe("uber_schicht");
+    expect(slug("Ω layer")).toBe("u3c9_layer");
+    expect(slug("层1")).toBe("u5c42_1");
+    expect(slug("层")).not.toBe(slug("x"));
+    expect(slug("upper barrier")).toBe("upper_barrier");
+    expect(slug("---")).toBe("x");
   });
 });
