@@ -110,9 +110,12 @@ function near(text: string, at: number): string {
 
 /**
  * Why `html` is not markup waferbook's renderers write, naming what was found
- * and where (character offset); undefined when it is.
+ * and where (character offset); undefined when it is. `ids: false` for the
+ * notes: markdown-it writes no id (nor name), and one there could take the
+ * name of an element the page's scripts look up (the chart data).
  */
-export function markupProblem(html: string): string | undefined {
+export function markupProblem(html: string, options: { ids?: boolean } = {}): string | undefined {
+  const ids = options.ids ?? true;
   const open: string[] = [];
   let at = html.indexOf("<");
   while (at !== -1) {
@@ -129,7 +132,7 @@ export function markupProblem(html: string): string | undefined {
     } else {
       for (const a of attrs.matchAll(ATTRIBUTE)) {
         const attr = a[1].toLowerCase();
-        if (!ATTRIBUTES.has(attr))
+        if (!ATTRIBUTES.has(attr) || (attr === "id" && !ids))
           return `the attribute ${a[1]}="…" on <${rawName}> at character ${at}, which waferbook never writes${attr.startsWith("on") ? " (an event handler runs script)" : ""}`;
         if (URL_ATTRIBUTES.has(attr)) {
           const why = urlProblem(a[2]);

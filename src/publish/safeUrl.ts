@@ -18,8 +18,8 @@ const ALLOWED = new Set(["http", "https", "mailto"]);
 const DATA_IMAGE = /^data:image\/(gif|png|jpeg|webp);/i;
 const NAMED: Record<string, string> = { amp: "&", lt: "<", gt: ">", quot: '"', apos: "'" };
 
-/** Why `url` (as written in an attribute, character references and all) is not a link waferbook writes; undefined when it is. */
-export function urlProblem(url: string): string | undefined {
+/** `url` as a browser reads it (character references decoded, tabs, new lines and leading controls dropped), and the first named reference it does not know. */
+function asRead(url: string): { bare: string; unknownEntity?: string } {
   let unknownEntity: string | undefined;
   const decoded = url
     .replace(/&#(x[0-9a-f]+|[0-9]+);?/gi, (_, n: string) => {
@@ -31,15 +31,36 @@ export function urlProblem(url: string): string | undefined {
       unknownEntity ??= whole;
       return whole;
     });
-  if (unknownEntity) return `the link ${JSON.stringify(url)} holds the character reference ${unknownEntity}, which waferbook never writes in a link`;
   // What a browser ignores when it reads a URL: ASCII tab and new lines anywhere, C0 controls and spaces at the ends.
   // biome-ignore lint/suspicious/noControlCharactersInRegex: the control characters are what this strips
-  const bare = decoded.replace(/[\t\n\r]/g, "").replace(/^[\u0000-\u0020]+/, "");
+  return { bare: decoded.replace(/[\t\n\r]/g, "").replace(/^[\u0000-\u0020]+/, ""), unknownEntity };
+}
+
+/** Why `url` (as written in an attribute, character references and all) is not a link waferbook writes; undefined when it is. */
+export function urlProblem(url: string): string | undefined {
+  const { bare, unknownEntity } = asRead(url);
+  if (unknownEntity) return `the link ${JSON.stringify(url)} holds the character reference ${unknownEntity}, which waferbook never writes in a link`;
   if (DATA_IMAGE.test(bare)) return undefined;
   const scheme = /^([^/?#]*?):/.exec(bare)?.[1];
   if (scheme === undefined) return undefined;
   if (/^[a-z][a-z0-9+.-]*$/i.test(scheme) && ALLOWED.has(scheme.toLowerCase())) return undefined;
   return `the link ${JSON.stringify(url)} uses the scheme "${scheme}:" (allowed: none, ${[...ALLOWED].map((s) => `${s}:`).join(", ")} and data:image/…)`;
+}
+
+/**
+ * Why `url` is not a link within the site, as waferbook's drawing writes in
+ * the page model's link fields and chart links (raw copies, pictures, other
+ * wafers' pages): urlProblem, and then no scheme at all and no "//" (or
+ * "\\", which browsers read alike) at its start, which would lead to
+ * another host. Undefined when it is.
+ */
+export function relativeLinkProblem(url: string): string | undefined {
+  const why = urlProblem(url);
+  if (why) return why;
+  const { bare } = asRead(url);
+  if (/^([^/?#]*?):/.test(bare) || /^[/\\]{2}/.test(bare))
+    return `the link ${JSON.stringify(url)} leads off the site (waferbook draws only relative links there)`;
+  return undefined;
 }
 
 /** Whether waferbook writes `url` as a link (for markdown-it's validateLink). */

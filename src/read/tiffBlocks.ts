@@ -10,7 +10,14 @@
  *     stream, inflated to at most the block's size (zlib's maxOutputLength),
  *     so a small file cannot expand into gigabytes.
  * Each block must decode to exactly rows × row bytes (a tile: its full tile
- * size, edge tiles included). The horizontal predictor (TIFF 6.0 §14) is
+ * size, edge tiles included). That size is bounded before anything is
+ * decompressed: a strip's rows never exceed the image's height (RowsPerStrip
+ * beyond it is legal and read as the height), and a tile is refused when a
+ * side exceeds the image's padded to the next multiple of 16 (tiles are
+ * multiples of 16, TIFF 6.0 §15), allowing up to 256 for small images (the
+ * tile size writers commonly use; common practice), or when its area exceeds
+ * the image-size limit (max_image_pixels): otherwise a small image with one
+ * huge tile of zeros would inflate to gigabytes within "its tile's size". The horizontal predictor (TIFF 6.0 §14) is
  * undone per row for 8- and 16-bit samples. Returns the samples in the
  * file's byte order.
  */
@@ -30,6 +37,8 @@ export interface BlockLayout {
   tile?: { width: number; length: number };
   offsets: number[];
   counts: number[];
+  /** The largest image accepted, in pixels (the max_image_pixels setting): no tile may be larger. */
+  maxPixels?: number;
 }
 
 const EXPECTED = "a greyscale TIFF (8-, 16- or 32-bit integer, or 32- or 64-bit float; uncompressed, LZW, Deflate or PackBits)";
@@ -217,6 +226,13 @@ export function decodeBlocks(bytes: Uint8Array, l: BlockLayout): Uint8Array {
   if (l.tile) {
     const { width: tw, length: th } = l.tile;
     if (!(tw > 0 && th > 0)) throw damaged(`tiles of ${tw} × ${th} pixels`);
+    const side = (n: number) => Math.max(Math.ceil(n / 16) * 16, 256);
+    if (tw > side(l.width) || th > side(l.height) || (l.maxPixels !== undefined && tw * th > l.maxPixels))
+      throw damaged(
+        `tiles of ${tw} × ${th} pixels for an image of ${l.width} × ${l.height}: a tile is at most the image padded to a multiple of 16 (or 256)${
+          l.maxPixels === undefined ? "" : ` and ${l.maxPixels} pixels (max_image_pixels)`
+        }; refused before decompressing, as a decompression bomb or a damaged file`,
+      );
     const across = Math.ceil(l.width / tw);
     const down = Math.ceil(l.height / th);
     if (l.offsets.length < across * down) throw damaged(`${l.offsets.length} tiles for an image ${across} × ${down} tiles large`);

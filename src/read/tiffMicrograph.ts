@@ -210,6 +210,7 @@ export function decodeTiffMicrograph(bytes: Uint8Array, maxPixels: number = DEFA
     tile,
     offsets,
     counts,
+    maxPixels,
   });
   const view = new DataView(data.buffer, data.byteOffset, data.byteLength);
   // decodeBlocks leaves the samples in the file's byte order.

@@ -1,4 +1,4 @@
-// Draws every chart on a page from the JSON block #chart-data with Chart.js.
+// Draws every chart on a page from the JSON block script#chart-data with Chart.js.
 // Plain script, no framework; data come pre-computed and pre-rounded.
 // The axis helpers (log ticks at 1, 2 and 5 per decade, padded ranges) are
 // published as globalThis.waferbookAxes so the unit tests can check them.
@@ -94,7 +94,8 @@
   if (typeof globalThis !== "undefined") globalThis.waferbookAxes = api;
   if (typeof document === "undefined") return;
 
-  var el = document.getElementById("chart-data");
+  // Found as a script element, not by id alone, so an element of the notes or figures given the same id cannot stand in for it.
+  var el = document.querySelector('script[type="application/json"]#chart-data');
   if (!el || typeof Chart === "undefined") return;
   var specs = JSON.parse(el.textContent || "[]");
   // Series of equal rank (data, second … fifth) differ in colour and in marker shape or dash, never colour alone.

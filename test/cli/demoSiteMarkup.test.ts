@@ -29,7 +29,8 @@ describe("what waferbook drew on the demo site passes the drawn-page check", () 
         }
         const block = /<div class="notes">([\s\S]*?)<\/div><\/section>/.exec(html);
         if (block) {
-          expect(markupProblem(block[1]), id).toBeUndefined();
+          // Notes carry no id (drawnPageCheck.ts checks them so: an id could take the chart data's name).
+          expect(markupProblem(block[1], { ids: false }), id).toBeUndefined();
           notes++;
         }
       }

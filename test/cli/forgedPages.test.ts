@@ -89,6 +89,25 @@ const TRICKS: { name: string; forge: (p: Page) => void; found: RegExp }[] = [
     found: /files\.0\.href: the link "javascript:alert\(1\)" uses the scheme "javascript:"/,
   },
   {
+    name: "markup in a Set, which Nunjucks iterates like a list",
+    forge: inModel(
+      (m) =>
+        (m.uniformity = {
+          maps: new Set([{ key: "u", label: "U", svg: '<meta http-equiv="refresh" content="0;url=https://evil.example/">', figures: [], note: "", rows: [] }]),
+        }),
+    ),
+    found: /uniformity\.maps is a Set, which waferbook's drawing never writes/,
+  },
+  {
+    name: "fields the templates print left out (the render would fail the whole build)",
+    forge: inModel((m) => {
+      delete m.toc;
+      delete m.metrics;
+      delete m.verdict;
+    }),
+    found: /the page model has no field toc/,
+  },
+  {
     name: "script appended to the comparison data",
     forge: (p) => {
       const f = p.files.find((x) => x.path.endsWith("/compare.js"))!;

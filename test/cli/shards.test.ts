@@ -12,6 +12,8 @@
  * from the code; the rest is this program's own documented interface
  * (README "Command line", docs/scaling.md).
  */
+import { waferPageModel } from "../../src/publish/waferPage.ts";
+import { makeOutcome, targetsFrom } from "../helpers/outcome.ts";
 import { execFile } from "node:child_process";
 import { createHash } from "node:crypto";
 import { promises as fs } from "node:fs";
@@ -103,7 +105,10 @@ describe("drawn pages in the cache are checked on reading", () => {
     const compare = `${compareScriptFrame("W-1").before}{"id":"W-1"}${compareScriptFrame("W-1").after}`;
     await fs.writeFile(path.join(out, "wafers", "W-1", "compare.js"), compare);
     await fs.mkdir(scratch, { recursive: true });
-    const model = v8.serialize({ id: "W-1", notesHtml: "<p>model</p>" });
+    // A whole page model as the drawing writes it (a model without its printed fields is refused: drawnPageCheck.ts).
+    const targets = targetsFrom('default_grade: test\ngrades:\n  test:\n    peak_mobility: { min: "1e4 cm^2/(V s)" }\n');
+    const drawn = waferPageModel(makeOutcome({ id: "W-1", devices: { d1: { peak_mobility: 2e4 } } } as never, targets));
+    const model = v8.serialize({ ...drawn, notesHtml: "<p>model</p>" });
     await fs.writeFile(parkedPath(scratch, "W-1"), model);
     const key = "ab".repeat(32);
     await storeDrawnPage(cache, key, "W-1", out, scratch);

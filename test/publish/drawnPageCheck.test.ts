@@ -11,15 +11,24 @@
  */
 import { promises as fs } from "node:fs";
 import path from "node:path";
+import v8 from "node:v8";
 import { describe, expect, it } from "vitest";
 import { PNG } from "pngjs";
 import { markupProblem, scriptJsonProblem } from "../../src/publish/preparedMarkup.ts";
-import { urlProblem } from "../../src/publish/safeUrl.ts";
-import { drawnFileProblem, JSON_FIELD, MARKUP_FIELD, pageModelProblem, URL_FIELD } from "../../src/publish/drawnPageCheck.ts";
+import { relativeLinkProblem, urlProblem } from "../../src/publish/safeUrl.ts";
+import { drawnFileProblem, JSON_FIELD, kindOf, MARKUP_FIELD, PAGE_MODEL_FIELDS, pageModelProblem, URL_FIELD } from "../../src/publish/drawnPageCheck.ts";
+import { waferPageModel } from "../../src/publish/waferPage.ts";
+import { makeOutcome, targetsFrom } from "../helpers/outcome.ts";
 import { renderNotes } from "../../src/publish/markdown.ts";
 import { jsonForScript } from "../../src/publish/charts.ts";
 import { compareScriptFrame } from "../../src/publish/compareData.ts";
 import { ROOT } from "../helpers/demoSite.ts";
+
+/** A page model as waferPageModel draws it, for a small hand-made wafer (no structure, images or uniformity sections). */
+function drawnModel(id = "W-1"): Record<string, unknown> {
+  const targets = targetsFrom('default_grade: test\ngrades:\n  test:\n    peak_mobility: { min: "1e4 cm^2/(V s)" }\n');
+  return waferPageModel(makeOutcome({ id, devices: { d1: { peak_mobility: 2e4 } } } as never, targets));
+}
 
 const NOTES = [
   '# Heading\n\nSome *emphasis*, **strong**, ~~struck~~, `code` and a [link](https://example.org/a?b=1&c=2 "title").',
@@ -98,6 +107,7 @@ describe("each trick of a forged page is refused, saying what was found", () => 
 
   it("the page model: the id, every unescaped field, every link field", () => {
     const good = {
+      ...drawnModel(),
       id: "W-1",
       notesHtml: "<p>x</p>",
       chartsJson: jsonForScript([{ links: ["../W-2/"] }]),
@@ -118,6 +128,80 @@ describe("each trick of a forged page is refused, saying what was found", () => 
     ];
     for (const [model, why] of bad) expect(pageModelProblem(model, "W-1")).toMatch(why);
     expect(pageModelProblem("a string", "W-1")).toMatch(/not an object/);
+  });
+
+  it("the page model holds only plain objects, lists and primitives: a Set, Map, Date… is refused wherever it is", () => {
+    const good = drawnModel();
+    const svg = '<svg><script>alert(1)</script></svg><meta http-equiv="refresh" content="0;url=https://evil.example/">';
+    class Section {
+      svg = "<svg></svg>";
+    }
+    const bad: [Record<string, unknown>, RegExp][] = [
+      // The forger's case: a Set that Nunjucks iterates, holding markup a check of objects alone never reads.
+      [{ ...good, uniformity: { maps: new Set([{ key: "u", svg }]) } }, /^uniformity\.maps is a Set, which waferbook's drawing never writes/],
+      [{ ...good, uniformity: { maps: new Map([["0", { svg }]]) } }, /^uniformity\.maps is a Map/],
+      [{ ...good, metrics: [{ name: new Date(0) }] }, /^metrics\.0\.name is a Date/],
+      [{ ...good, metrics: [{ name: /x/ }] }, /^metrics\.0\.name is a RegExp/],
+      [{ ...good, grade: Object("test") }, /^grade is a String/],
+      [{ ...good, stack: [new Uint8Array(4)] }, /^stack\.0 is a Uint8Array/],
+      [{ ...good, structure: new Section() }, /^structure is an Object/],
+      [{ ...good, charts: [Object.assign(Object.create([]), { 0: "x" })] }, /^charts\.0 is a/],
+    ];
+    for (const [model, why] of bad) expect(pageModelProblem(model, "W-1")).toMatch(why);
+    // After a round trip through v8 (how the cache holds the model), as the build reads it.
+    const forged = v8.deserialize(v8.serialize({ ...good, uniformity: { maps: new Set([{ svg }]) } })) as unknown;
+    expect(pageModelProblem(forged, "W-1")).toMatch(/^uniformity\.maps is a Set/);
+    // A model with a null prototype is still a plain object.
+    expect(pageModelProblem(Object.assign(Object.create(null), good), "W-1")).toBeUndefined();
+  });
+
+  it("the page model has every field the drawing writes, of its kind (the templates throw on an undefined output)", () => {
+    const fresh = drawnModel();
+    expect(Object.keys(fresh).sort()).toEqual(Object.keys(PAGE_MODEL_FIELDS).sort());
+    for (const [key, kinds] of Object.entries(PAGE_MODEL_FIELDS)) {
+      const kind = kindOf(fresh[key]);
+      expect(kinds.replace(/\?$/, "").split("|").includes(kind) || (kind === "undefined" && kinds.endsWith("?")), `${key}: ${kind} vs ${kinds}`).toBe(true);
+    }
+    expect(pageModelProblem(v8.deserialize(v8.serialize(fresh)), "W-1")).toBeUndefined();
+    const { toc: _t, metrics: _m, verdict: _v, ...dropped } = fresh;
+    expect(pageModelProblem(dropped, "W-1")).toMatch(/^the page model has no field toc, which every drawn page has/);
+    const { verdict: _v2, ...noVerdict } = fresh;
+    expect(pageModelProblem(noVerdict, "W-1")).toMatch(/no field verdict/);
+    expect(pageModelProblem({ ...fresh, metrics: "not a list" }, "W-1")).toMatch(/field metrics is a text, not list/);
+    expect(pageModelProblem({ ...fresh, toc: 5 }, "W-1")).toMatch(/field toc is a number, not list/);
+    expect(pageModelProblem({ ...fresh, decision: undefined }, "W-1")).toMatch(/no field decision/);
+    expect(pageModelProblem({ ...fresh, structure: "x" }, "W-1")).toMatch(/field structure is a text, not object \(or undefined\)/);
+    // Optional sections may be absent, as a wafer without them is drawn.
+    const { structure: _s, ...noStructure } = fresh;
+    expect(pageModelProblem(noStructure, "W-1")).toBeUndefined();
+  });
+
+  it("notes carry no id (it could take the chart data's name); links in the model and the charts stay on the site", () => {
+    const good = drawnModel();
+    for (const n of NOTES) expect(renderNotes(n)).not.toMatch(/\s(id|name)=/);
+    // The hijack: a paragraph named like the chart data, placed before it.
+    expect(pageModelProblem({ ...good, notesHtml: '<p id="chart-data">[{&quot;links&quot;:[]}]</p>' }, "W-1")).toMatch(/^notesHtml: the attribute id=/);
+    expect(markupProblem('<p ID="x">y</p>', { ids: false })).toMatch(/attribute ID=/);
+    // Figures keep their ids (titles, clip paths and gradients refer to them).
+    expect(pageModelProblem({ ...good, uniformity: { maps: [{ svg: '<svg><title id="m-t">x</title></svg>' }] } }, "W-1")).toBeUndefined();
+    // Notes may still link off the site, as Markdown writes them; the drawing's own links may not.
+    expect(pageModelProblem({ ...good, notesHtml: '<p><a href="https://example.org/">x</a></p>' }, "W-1")).toBeUndefined();
+    const off: [Record<string, unknown>, RegExp][] = [
+      [{ ...good, chartsJson: jsonForScript([{ links: ["https://evil.example/"] }]) }, /^chartsJson\.0\.links\.0: .*leads off the site/],
+      [{ ...good, charts: [{ series: [{ links: ["//evil.example/"] }] }] }, /^charts\.0\.series\.0\.links\.0: .*leads off the site/],
+      [{ ...good, files: [{ href: "https://evil.example/a.csv" }] }, /^files\.0\.href: .*leads off the site/],
+      [{ ...good, files: [{ href: "/\\evil.example/a.csv" }] }, /leads off the site/],
+      [{ ...good, images: { images: [{ micrograph: { src: "mailto:a@b" } }] } }, /micrograph\.src: .*leads off the site/],
+    ];
+    for (const [model, why] of off) expect(pageModelProblem(model, "W-1")).toMatch(why);
+    for (const ok of ["../../raw/ab.csv", "images/x.png", "/qual/wafers/X/", "#notes", "?q=a:b", "a/b:c", "../W-2/"])
+      expect(relativeLinkProblem(ok), ok).toBeUndefined();
+  });
+
+  it("the chart script finds its data as the script element, not by id alone", async () => {
+    const js = await fs.readFile(path.join(ROOT, "templates", "assets", "charts.js"), "utf8");
+    expect(js).toContain("document.querySelector('script[type=\"application/json\"]#chart-data')");
+    expect(js).not.toMatch(/getElementById\(\s*["']chart-data/);
   });
 
   it("files: only compare.js as written for this wafer and well-formed PNG pictures", () => {

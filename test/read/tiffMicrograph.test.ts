@@ -160,6 +160,29 @@ describe("hostile TIFF structure (review findings)", () => {
     expect(() => decodeTiffMicrograph(file)).toThrow(/inflates to more than the 256 bytes/);
     expect(process.memoryUsage().rss - before).toBeLessThan(32 * 1024 * 1024);
   });
+  it("a tile larger than its image (a decompression bomb within 'its tile's size') is refused before decompressing", async () => {
+    const { deflateSync } = await import("node:zlib");
+    // 64 × 64 pixels in 16 × 16 tiles, then the tile size set to 2048 × 2048 and the first tile pointed at 4 MiB of deflated zeros.
+    const b = writeTiff({ width: 64, height: 64, samples: new Array(64 * 64).fill(1), bits: 8, format: "uint", compression: "deflate", tile: 16 });
+    const zeros = deflateSync(Buffer.alloc(2048 * 2048));
+    const file = Buffer.concat([b, zeros]);
+    file.writeUInt32LE(2048, valueAt(file, 322));
+    file.writeUInt32LE(2048, valueAt(file, 323));
+    const offsets = file.readUInt32LE(valueAt(file, 324));
+    const counts = file.readUInt32LE(valueAt(file, 325));
+    file.writeUInt32LE(b.length, offsets);
+    file.writeUInt32LE(zeros.length, counts);
+    expect(() => decodeTiffMicrograph(file)).toThrow(MicrographFormatError);
+    expect(() => decodeTiffMicrograph(file)).toThrow(/tiles of 2048 × 2048 pixels for an image of 64 × 64: .*refused before decompressing/);
+    // A tile within the padded sides but larger than max_image_pixels: 4096 × 16 pixels in tiles of 4096 × 256, limit 65 536 pixels.
+    const wide = writeTiff({ width: 4096, height: 16, samples: new Array(4096 * 16).fill(1), bits: 8, format: "uint", compression: "deflate", tile: 16 });
+    wide.writeUInt32LE(4096, valueAt(wide, 322));
+    wide.writeUInt32LE(256, valueAt(wide, 323));
+    expect(() => decodeTiffMicrograph(wide, 65_536)).toThrow(/tiles of 4096 × 256 pixels .* 65536 pixels \(max_image_pixels\)/);
+    // The control: a small image in one 256 × 256 tile, as writers commonly tile, is read.
+    const small = writeTiff({ width: 40, height: 24, samples: new Array(40 * 24).fill(9), bits: 8, format: "uint", compression: "deflate", tile: 256 });
+    expect(decodeTiffMicrograph(small).width).toBe(40);
+  });
   it("a Deflate strip that inflates to too few bytes is refused (it would be read as zeros)", async () => {
     const { deflateSync } = await import("node:zlib");
     const b = writeTiff({ width: 16, height: 16, samples: new Array(256).fill(1), bits: 8, format: "uint", compression: "deflate", rowsPerStrip: 16 });
