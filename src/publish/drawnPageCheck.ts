@@ -118,7 +118,8 @@ function plainProblem(value: object, where: string): string | undefined {
   const proto: unknown = Object.getPrototypeOf(value);
   if (Array.isArray(value) ? proto === Array.prototype : proto === Object.prototype || proto === null) return undefined;
   const kind = Object.prototype.toString.call(value).slice(8, -1);
-  return `${where || "the page model"} is ${/^[AEIOU]/.test(kind) ? "an" : "a"} ${kind}, which waferbook's drawing never writes (a page model holds plain objects, lists, text, numbers and true/false)`;
+  // "an Int8Array", "an Object" but "a Uint8Array" (said "you-int"): the constructor names that reach here start with A, E, I, O or U.
+  return `${where || "the page model"} is ${/^[AEIO]/.test(kind) ? "an" : "a"} ${kind}, which waferbook's drawing never writes (a page model holds plain objects, lists, text, numbers and true/false)`;
 }
 
 function walk(value: unknown, where: string, seen: Set<object>): string | undefined {
