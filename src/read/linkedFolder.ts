@@ -22,6 +22,30 @@ function within(root: string, real: string): boolean {
   return rel === "" || !(rel === ".." || rel.startsWith(`..${path.sep}`) || path.isAbsolute(rel));
 }
 
+/** How a skipped link is reported: the warning for `file`, with what a followable link would be. */
+type Skip = (why: string, found: string, fix: string) => Problem;
+
+function skipper(file: string, expected: string): Skip {
+  return (why, found, fix) => ({ severity: "warning", file, message: `symbolic link skipped: ${why}`, expected, found, fix });
+}
+
+/**
+ * Resolves the link at `link` (every link on the way: realpath). Its target,
+ * or the warning for a link that cannot be followed — a loop, dangling, or
+ * unreadable — each with its own fix (`fixes`, for what the link should name).
+ */
+async function followLink(link: string, skipped: Skip, fixes: { loop: string; dangling: string }): Promise<{ target: string } | Problem> {
+  const text = await fs.readlink(link).catch(() => "?");
+  try {
+    return { target: await fs.realpath(link) };
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code;
+    if (code === "ELOOP") return skipped("it is a loop of links", `a link to ${JSON.stringify(text)} that leads back to itself`, fixes.loop);
+    if (code === "ENOENT") return skipped("it is dangling (its target does not exist)", `a link to ${JSON.stringify(text)}`, fixes.dangling);
+    return skipped(`it cannot be followed (${code ?? String(err)})`, `a link to ${JSON.stringify(text)}`, "check the link and the permissions of its target");
+  }
+}
+
 /**
  * Decides whether the link `wafers/<name>` is followed as a wafer folder:
  * null when it is, else the warning that names it and why it was skipped.
@@ -29,30 +53,13 @@ function within(root: string, real: string): boolean {
 export async function linkedWaferFolder(dataDir: string, name: string): Promise<Problem | null> {
   const file = `wafers/${name}`;
   const link = path.join(dataDir, "wafers", name);
-  const text = await fs.readlink(link).catch(() => "?");
-  const skipped = (why: string, found: string, fix: string): Problem => ({
-    severity: "warning",
-    file,
-    message: `symbolic link skipped: ${why}`,
-    expected: "a folder, or a link to a folder inside the data folder",
-    found,
-    fix,
+  const skipped = skipper(file, "a folder, or a link to a folder inside the data folder");
+  const followed = await followLink(link, skipped, {
+    loop: "point the link at the wafer's folder itself",
+    dangling: "point the link at an existing folder, or mount the drive it points to",
   });
-  let target: string;
-  try {
-    target = await fs.realpath(link);
-  } catch (err) {
-    const code = (err as NodeJS.ErrnoException).code;
-    if (code === "ELOOP")
-      return skipped("it is a loop of links", `a link to ${JSON.stringify(text)} that leads back to itself`, "point the link at the wafer's folder itself");
-    if (code === "ENOENT")
-      return skipped(
-        "it is dangling (its target does not exist)",
-        `a link to ${JSON.stringify(text)}`,
-        "point the link at an existing folder, or mount the drive it points to",
-      );
-    return skipped(`it cannot be followed (${code ?? String(err)})`, `a link to ${JSON.stringify(text)}`, "check the link and the permissions of its target");
-  }
+  if (!("target" in followed)) return followed;
+  const { target } = followed;
   const realData = await fs.realpath(dataDir);
   if (!within(realData, target)) return skipped("it leads outside the data folder", `a link to ${JSON.stringify(target)}`, INSIDE_FIX);
   const st = await fs.stat(target);
@@ -87,30 +94,13 @@ export async function linkedWaferFolder(dataDir: string, name: string): Promise<
  */
 export async function linkInWaferFolder(dataDir: string, rel: string): Promise<Problem | null> {
   const link = path.join(dataDir, ...rel.split("/"));
-  const text = await fs.readlink(link).catch(() => "?");
-  const skipped = (why: string, found: string, fix: string): Problem => ({
-    severity: "warning",
-    file: rel,
-    message: `symbolic link skipped: ${why}`,
-    expected: "a file, or a link to a file inside the data folder",
-    found,
-    fix,
+  const skipped = skipper(rel, "a file, or a link to a file inside the data folder");
+  const followed = await followLink(link, skipped, {
+    loop: "replace the link by the file it should name",
+    dangling: "point the link at an existing file, or mount the drive it points to",
   });
-  let target: string;
-  try {
-    target = await fs.realpath(link);
-  } catch (err) {
-    const code = (err as NodeJS.ErrnoException).code;
-    if (code === "ELOOP")
-      return skipped("it is a loop of links", `a link to ${JSON.stringify(text)} that leads back to itself`, "replace the link by the file it should name");
-    if (code === "ENOENT")
-      return skipped(
-        "it is dangling (its target does not exist)",
-        `a link to ${JSON.stringify(text)}`,
-        "point the link at an existing file, or mount the drive it points to",
-      );
-    return skipped(`it cannot be followed (${code ?? String(err)})`, `a link to ${JSON.stringify(text)}`, "check the link and the permissions of its target");
-  }
+  if (!("target" in followed)) return followed;
+  const { target } = followed;
   const st = await fs.stat(target).catch(() => null);
   if (!st?.isDirectory()) return null;
   const realData = await fs.realpath(dataDir);
