@@ -15,35 +15,15 @@ import v8 from "node:v8";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { useTempDir } from "../helpers/tempDir.ts";
 import { PACKAGE_ROOT } from "../../src/cli/build.ts";
-import { parseArgs } from "../../src/cli/args.ts";
-import { runBuild } from "../../src/cli/buildCommand.ts";
+import { buildInProcess, siteFiles } from "../helpers/inProcessBuild.ts";
 import { seal, unseal } from "../../src/cli/cache.ts";
 
 const tempDir = useTempDir("forged");
 const WAFER = "OK-1";
 
-async function cli(args: string[]): Promise<{ code: number; out: string[]; err: string[] }> {
-  const out: string[] = [];
-  const err: string[] = [];
-  const code = await runBuild(
-    { data: "", out: "", strict: false, basePath: "", quiet: true, ...(parseArgs(["build", ...args]) as { options: object }).options },
-    { out: (s) => out.push(s), err: (s) => err.push(s) },
-  );
-  return { code, out, err };
-}
-
-async function files(dir: string, sub = "", acc = new Map<string, Buffer>()): Promise<Map<string, Buffer>> {
-  for (const e of await fs.readdir(path.join(dir, sub), { withFileTypes: true })) {
-    const rel = sub ? `${sub}/${e.name}` : e.name;
-    if (e.isDirectory()) await files(dir, rel, acc);
-    else acc.set(rel, await fs.readFile(path.join(dir, rel)));
-  }
-  return acc;
-}
-
 /** Cache files whose name ends in `suffix` (".page.v8", ".slim.v8", or ".v8" for the full entry alone). */
 async function cacheFiles(cache: string, suffix: string): Promise<string[]> {
-  const all = [...(await files(cache)).keys()].filter((f) => f.endsWith(suffix) && (suffix !== ".v8" || !/\.(page|slim)\.v8$/.test(f)));
+  const all = [...(await siteFiles(cache)).keys()].filter((f) => f.endsWith(suffix) && (suffix !== ".v8" || !/\.(page|slim)\.v8$/.test(f)));
   return all.map((f) => path.join(cache, f));
 }
 
@@ -136,9 +116,9 @@ describe("a forged drawn page in the cache", () => {
     root = tempDir();
     data = path.join(root, "data");
     await fs.cp(path.join(PACKAGE_ROOT, "test", "fixtures", "healthy"), data, { recursive: true });
-    const r = await cli(["--data", data, "--out", path.join(root, "clean"), "--no-cache"]);
+    const r = await buildInProcess(["--data", data, "--out", path.join(root, "clean"), "--no-cache"]);
     expect(r.code, r.err.join("\n")).toBe(0);
-    clean = await files(path.join(root, "clean"));
+    clean = await siteFiles(path.join(root, "clean"));
   }, 120_000);
   afterAll(() => {
     if (saved === undefined) delete process.env.SOURCE_DATE_EPOCH;
@@ -149,7 +129,7 @@ describe("a forged drawn page in the cache", () => {
     it(`${trick.name}: refused, named, and the site built from the raw files`, async () => {
       const cache = path.join(root, `cache-${k}`);
       const out = path.join(root, `site-${k}`);
-      const shard = () => cli(["--data", data, "--out", path.join(root, "never"), "--cache", cache, "--shard", "1/1"]);
+      const shard = () => buildInProcess(["--data", data, "--out", path.join(root, "never"), "--cache", cache, "--shard", "1/1"]);
       expect((await shard()).code).toBe(0);
       if (k === 0) {
         // The forger also rewrote the wafer's analysis entry (full and slim), then had a shard draw its page from it:
@@ -165,7 +145,7 @@ describe("a forged drawn page in the cache", () => {
       if (k === 0) expect(Buffer.from((v8.deserialize(unseal(await fs.readFile(page)) as Buffer) as Page).model).toString("latin1")).toContain("FORGED NOTE");
       await reseal<Page>(page, trick.forge);
 
-      const r = await cli(["--data", data, "--out", out, "--cache", cache]);
+      const r = await buildInProcess(["--data", data, "--out", out, "--cache", cache]);
       expect(r.code, r.err.join("\n")).toBe(0);
       const warning = r.err.find((l) => l.includes("was refused"));
       expect(warning, r.err.join("\n")).toBeDefined();
@@ -177,7 +157,7 @@ describe("a forged drawn page in the cache", () => {
       await expect(fs.access(page)).rejects.toThrow();
       for (const f of await cacheFiles(cache, ".v8")) expect((await fs.readFile(f)).includes("FORGED")).toBe(false);
 
-      const built = await files(out);
+      const built = await siteFiles(out);
       expect([...built.keys()].sort()).toEqual([...clean.keys()].sort());
       expect([...built].filter(([f, bytes]) => !bytes.equals(clean.get(f)!)).map(([f]) => f)).toEqual([]);
     }, 120_000);

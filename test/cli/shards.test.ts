@@ -23,7 +23,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { useTempDir } from "../helpers/tempDir.ts";
 import { PACKAGE_ROOT } from "../../src/cli/build.ts";
 import { parseArgs } from "../../src/cli/args.ts";
-import { runBuild } from "../../src/cli/buildCommand.ts";
+import { buildInProcess, siteFiles } from "../helpers/inProcessBuild.ts";
 import { parseShard, partition } from "../../src/cli/shard.ts";
 import { drawnPagePath, restoreDrawnPage, storeDrawnPage } from "../../src/cli/drawnPages.ts";
 import { parkedPath } from "../../src/cli/render.ts";
@@ -142,25 +142,6 @@ describe("three shards, merged by copying, assemble the single-machine site byte
     else process.env.SOURCE_DATE_EPOCH = saved;
   });
 
-  async function cli(args: string[]): Promise<{ code: number; out: string[]; err: string[] }> {
-    const out: string[] = [];
-    const err: string[] = [];
-    const code = await runBuild(
-      { data: "", out: "", strict: false, basePath: "", quiet: true, ...(parseArgs(["build", ...args]) as { options: object }).options },
-      { out: (s) => out.push(s), err: (s) => err.push(s) },
-    );
-    return { code, out, err };
-  }
-
-  async function files(dir: string, sub = "", acc = new Map<string, Buffer>()): Promise<Map<string, Buffer>> {
-    for (const e of await fs.readdir(path.join(dir, sub), { withFileTypes: true })) {
-      const rel = sub ? `${sub}/${e.name}` : e.name;
-      if (e.isDirectory()) await files(dir, rel, acc);
-      else acc.set(rel, await fs.readFile(path.join(dir, rel)));
-    }
-    return acc;
-  }
-
   it("shards write only their cache; the assembly analyses and draws nothing; every file's bytes match", async () => {
     const root = tempDir();
     const data = path.join(root, "data");
@@ -184,7 +165,7 @@ describe("three shards, merged by copying, assemble the single-machine site byte
 
     const shardWafers: number[] = [];
     for (const k of [1, 2, 3]) {
-      const r = await cli(["--data", data, "--out", path.join(root, `never-${k}`), "--cache", path.join(root, `cache-${k}`), "--shard", `${k}/3`]);
+      const r = await buildInProcess(["--data", data, "--out", path.join(root, `never-${k}`), "--cache", path.join(root, `cache-${k}`), "--shard", `${k}/3`]);
       expect(r.code, r.err.join("\n")).toBe(0);
       const line = r.out.find((l) => l.startsWith(`shard ${k}/3: `));
       expect(line).toMatch(/no site written/);
@@ -200,13 +181,13 @@ describe("three shards, merged by copying, assemble the single-machine site byte
     await fs.mkdir(merged);
     for (const k of [1, 2, 3]) await fs.cp(path.join(root, `cache-${k}`), merged, { recursive: true, force: true });
 
-    const assembled = await cli(["--data", data, "--out", path.join(root, "assembled"), "--cache", merged]);
+    const assembled = await buildInProcess(["--data", data, "--out", path.join(root, "assembled"), "--cache", merged]);
     expect(assembled.code, assembled.err.join("\n")).toBe(0);
     expect(assembled.out).toContain(
       `analysed 0 wafers (${WAFERS.length} from the cache); drew 0 pages (${WAFERS.length} from the cache, 0 reused from the previous site)`,
     );
 
-    const single = await cli(["--data", data, "--out", path.join(root, "single"), "--no-cache"]);
+    const single = await buildInProcess(["--data", data, "--out", path.join(root, "single"), "--no-cache"]);
     expect(single.code, single.err.join("\n")).toBe(0);
     expect(single.out).toContain(
       `analysed ${WAFERS.length} wafers (0 from the cache); drew ${WAFERS.length} pages (0 from the cache, 0 reused from the previous site)`,
@@ -214,8 +195,8 @@ describe("three shards, merged by copying, assemble the single-machine site byte
     // The same problems, in the same order, from either way of building.
     expect(assembled.err).toEqual(single.err);
 
-    const a = await files(path.join(root, "assembled"));
-    const b = await files(path.join(root, "single"));
+    const a = await siteFiles(path.join(root, "assembled"));
+    const b = await siteFiles(path.join(root, "single"));
     expect([...a.keys()].sort()).toEqual([...b.keys()].sort());
     expect([...a.keys()].some((f) => f.endsWith(".png"))).toBe(true);
     expect([...a].filter(([f, bytes]) => !bytes.equals(b.get(f)!)).map(([f]) => f)).toEqual([]);
