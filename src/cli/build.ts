@@ -9,7 +9,7 @@
 import { promises as fs } from "node:fs";
 import path from "node:path";
 import pLimit from "p-limit";
-import type { PipelineContext } from "./pipeline.ts";
+import { pipelineContext, sitewideReason } from "./pipeline.ts";
 import { judgeOutcome, type WaferOutcome } from "../judge/outcome.ts";
 import { codeVersion, damagedEntryWarning, defaultCacheDir, refusedPageWarning } from "./cache.ts";
 import { drawnPageKey, restoreDrawnPage } from "./drawnPages.ts";
@@ -112,18 +112,10 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
         problems: [...site.problems],
         outDir,
         pages: 0,
-        reason: `${sitewide.length} site-wide input error${sitewide.length === 1 ? "" : "s"} (listed above)`,
+        reason: sitewideReason(sitewide.length),
       };
     }
-    const ctx: PipelineContext = {
-      dataDir,
-      today: io.today(),
-      siteSettings: site.settings,
-      targets: site.targets,
-      siteOverrides: site.settingOverrides,
-      version,
-      sitewideErrors: [],
-    };
+    const ctx = pipelineContext(dataDir, site, io.today(), version);
     const phases: Record<string, number> = {};
     let t = performance.now();
     const lap = (name: string) => {

@@ -21,7 +21,7 @@ import { codeVersion, defaultCacheDir } from "./cache.ts";
 import { drawnPageKey, hasDrawnPage, storeDrawnPage } from "./drawnPages.ts";
 import { checkCacheFolder } from "./outputGuard.ts";
 import { pageCodeVersion } from "./pageReuse.ts";
-import type { PipelineContext } from "./pipeline.ts";
+import { pipelineContext, sitewideReason } from "./pipeline.ts";
 import { shardFolders, type Shard } from "./shard.ts";
 import { WaferJobs } from "./workerPool.ts";
 import { loadSiteInputs } from "../validate/load/site.ts";
@@ -48,21 +48,13 @@ export async function buildShard(options: BuildOptions & { shard: Shard }, io: B
       problems: [...site.problems],
       outDir,
       pages: 0,
-      reason: `${sitewide.length} site-wide input error${sitewide.length === 1 ? "" : "s"} (listed above)`,
+      reason: sitewideReason(sitewide.length),
       shard: shardInfo,
     };
   }
   const folders = await shardFolders(dataDir, site.waferFolders, options.shard);
   shardInfo.wafers = folders.length;
-  const ctx: PipelineContext = {
-    dataDir,
-    today: io.today(),
-    siteSettings: site.settings,
-    targets: site.targets,
-    siteOverrides: site.settingOverrides,
-    version,
-    sitewideErrors: [],
-  };
+  const ctx = pipelineContext(dataDir, site, io.today(), version);
   // The jobs draw pictures and park models here; they are copied into the cache, then the folder goes.
   const work = await fs.mkdtemp(path.join(os.tmpdir(), "waferbook-shard-"));
   const pagesDir = path.join(work, "out");
