@@ -11,6 +11,7 @@ import { promises as fs } from "node:fs";
 import path from "node:path";
 import { promisify } from "node:util";
 import { describe, expect, it } from "vitest";
+import { commitAll } from "../helpers/gitRepo.ts";
 import { useTempDir } from "../helpers/tempDir.ts";
 import { build, PACKAGE_ROOT, type BuildIO } from "../../src/cli/build.ts";
 
@@ -63,25 +64,10 @@ const at = (data: string, out: string, fresh = false) => ({
   cache: fresh ? null : path.join(tempDir(), `${path.basename(out)}-cache`),
 });
 
-async function commitAll(data: string, message: string): Promise<void> {
-  const env = {
-    ...process.env,
-    GIT_AUTHOR_NAME: "Test Grower",
-    GIT_AUTHOR_EMAIL: "grower@example.invalid",
-    GIT_COMMITTER_NAME: "Test Grower",
-    GIT_COMMITTER_EMAIL: "grower@example.invalid",
-    GIT_AUTHOR_DATE: "2026-05-01T10:00:00Z",
-    GIT_COMMITTER_DATE: "2026-05-01T10:00:00Z",
-  };
-  await git("git", ["add", "-A"], { cwd: data, env });
-  await git("git", ["commit", "-q", "-m", message], { cwd: data, env });
-}
-
 describe("incremental builds reuse unchanged wafer pages and match a fresh build", () => {
   it("unchanged, one wafer changed, targets changed, and a commit touching another wafer", async () => {
     const data = await demoCopy("data");
-    await git("git", ["init", "-q", "-b", "main"], { cwd: data });
-    await commitAll(data, "Demo data");
+    await commitAll(data, "Demo data", { init: true });
     const out = path.join(tempDir(), "site");
     const fresh = path.join(tempDir(), "fresh");
 

@@ -20,6 +20,7 @@ import { promises as fs } from "node:fs";
 import path from "node:path";
 import { promisify } from "node:util";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { commitAll } from "../helpers/gitRepo.ts";
 import { useTempDir } from "../helpers/tempDir.ts";
 import { PACKAGE_ROOT } from "../../src/cli/build.ts";
 import { parseArgs } from "../../src/cli/args.ts";
@@ -31,7 +32,7 @@ import { compareScriptFrame } from "../../src/publish/compareData.ts";
 import v8 from "node:v8";
 import { PNG } from "pngjs";
 
-const git = promisify(execFile);
+const _git = promisify(execFile);
 const WAFERS = ["TQ-2401", "TQ-2404", "TQ-2406", "TQ-2408", "TQ-2501"];
 const tempDir = useTempDir("shards");
 
@@ -150,18 +151,7 @@ describe("three shards, merged by copying, assemble the single-machine site byte
       recursive: true,
       filter: (src) => !src.includes(`${sep}wafers${sep}`) || WAFERS.some((w) => src.includes(`${sep}wafers${sep}${w}`)),
     });
-    const env = {
-      ...process.env,
-      GIT_AUTHOR_NAME: "Test Grower",
-      GIT_AUTHOR_EMAIL: "grower@example.invalid",
-      GIT_COMMITTER_NAME: "Test Grower",
-      GIT_COMMITTER_EMAIL: "grower@example.invalid",
-      GIT_AUTHOR_DATE: "2026-05-01T10:00:00Z",
-      GIT_COMMITTER_DATE: "2026-05-01T10:00:00Z",
-    };
-    await git("git", ["init", "-q", "-b", "main"], { cwd: data, env });
-    await git("git", ["add", "-A"], { cwd: data, env });
-    await git("git", ["commit", "-q", "-m", "Demo data"], { cwd: data, env });
+    await commitAll(data, "Demo data", { init: true });
 
     const shardWafers: number[] = [];
     for (const k of [1, 2, 3]) {

@@ -7,26 +7,12 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import { promisify } from "node:util";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { commitAll } from "../helpers/gitRepo.ts";
 import { build, PACKAGE_ROOT } from "../../src/cli/build.ts";
 import { parseArgs } from "../../src/cli/args.ts";
 import { demoSite, DEMO_HOOK_TIMEOUT_MS } from "../helpers/demoSite.ts";
 
-const git = promisify(execFile);
-async function commitAll(data: string, message: string, init = false): Promise<void> {
-  const env = {
-    ...process.env,
-    GIT_AUTHOR_NAME: "Test Grower",
-    GIT_AUTHOR_EMAIL: "grower@example.invalid",
-    GIT_COMMITTER_NAME: "Test Grower",
-    GIT_COMMITTER_EMAIL: "grower@example.invalid",
-    GIT_AUTHOR_DATE: "2026-05-01T10:00:00Z",
-    GIT_COMMITTER_DATE: "2026-05-01T10:00:00Z",
-  };
-  if (init) await git("git", ["init", "-q", "-b", "main"], { cwd: data, env });
-  await git("git", ["add", "-A"], { cwd: data, env });
-  await git("git", ["commit", "-q", "-m", message], { cwd: data, env });
-}
-
+const _git = promisify(execFile);
 function walk(dir: string): string[] {
   return readdirSync(dir).flatMap((n) => {
     const p = path.join(dir, n);
@@ -51,7 +37,7 @@ describe("site built with --base /qual/", () => {
       filter: (src) => !src.includes(`${sep}wafers${sep}`) || WAFERS.some((w) => src.includes(`${sep}wafers${sep}${w}`)),
     });
     // A history of its own, with a targets change, so the changes page and the wafers' histories have commits to link.
-    await commitAll(data, "Demo data", true);
+    await commitAll(data, "Demo data", { init: true });
     const targets = path.join(data, "targets.yaml");
     const text = readFileSync(targets, "utf8");
     const tightened = text.replace(/min: "1\.0e5 cm\^2\/\(V s\)"/, 'min: "1.5e5 cm^2/(V s)"');

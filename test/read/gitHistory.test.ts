@@ -2,9 +2,9 @@
 // No published reference values: expectations are the commits and contents this test writes itself.
 import { execFileSync } from "node:child_process";
 import { mkdirSync, mkdtempSync, realpathSync, rmSync, writeFileSync } from "node:fs";
-import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { GIT_ENV, GIT_TMP, hasGit } from "../helpers/gitRepo.ts";
 import {
   commitsChangingFile,
   fileAtCommit,
@@ -19,17 +19,10 @@ import {
   type GitRepo,
 } from "../../src/read/gitHistory.ts";
 
-const TMP = realpathSync(tmpdir());
-// Isolate from the machine's git configuration and stop discovery at the temp folder.
-const ENV = { GIT_CONFIG_GLOBAL: "/dev/null", GIT_CONFIG_NOSYSTEM: "1", GIT_CEILING_DIRECTORIES: TMP };
+// Isolated from the machine's git configuration, discovery stopped at the temp folder (test/helpers/gitRepo.ts).
+const TMP = GIT_TMP;
+const ENV = GIT_ENV;
 const run = makeGitRunner({ env: ENV });
-
-let hasGit = true;
-try {
-  execFileSync("git", ["--version"]);
-} catch {
-  hasGit = false;
-}
 
 function git(cwd: string, args: string[], date?: string): string {
   const env = { ...process.env, ...ENV, ...(date ? { GIT_AUTHOR_DATE: date, GIT_COMMITTER_DATE: date } : {}) };

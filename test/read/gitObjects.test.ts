@@ -2,22 +2,15 @@
 // repository built here; expectations are the files and commits this test writes itself, and the
 // answers of the one-process-per-object route (rev-parse + cat-file blob, `git show -s`).
 import { execFileSync } from "node:child_process";
-import { mkdirSync, mkdtempSync, realpathSync, rmSync, writeFileSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { GIT_ENV, GIT_TMP, hasGit } from "../helpers/gitRepo.ts";
 import { commitNames, fileAtCommit, findRepo, listCommits, makeGitRunner, withObjectReader, type GitRepo } from "../../src/read/gitHistory.ts";
 
-const TMP = realpathSync(tmpdir());
-const ENV = { GIT_CONFIG_GLOBAL: "/dev/null", GIT_CONFIG_NOSYSTEM: "1", GIT_CEILING_DIRECTORIES: TMP };
+const TMP = GIT_TMP;
+const ENV = GIT_ENV;
 const run = makeGitRunner({ env: ENV });
-
-let hasGit = true;
-try {
-  execFileSync("git", ["--version"]);
-} catch {
-  hasGit = false;
-}
 
 function git(cwd: string, args: string[], env: Record<string, string> = {}): string {
   return execFileSync("git", args, { cwd, env: { ...process.env, ...ENV, ...env }, encoding: "utf8" });
