@@ -48,6 +48,8 @@ export interface MetricJudgement {
   target?: Target;
   verdict: Verdict;
   reason?: string;
+  /** The analysis's reason this measured value is not judged (MetricValues.notJudged), with or without a target; exported site-wide. */
+  notJudged?: string;
   waiver?: Waiver;
 }
 
@@ -107,6 +109,7 @@ function judgeMetric(key: string, values: MetricValues | undefined, t: Target | 
   const devVals = Object.values(per);
   const value = values?.wafer ?? aggregate(devVals, t?.aggregate ?? "mean");
   const j: MetricJudgement = { key, spec, value, perDevice: per, target: t, verdict: value === undefined ? "unmeasured" : "recorded" };
+  if (value !== undefined && values?.notJudged) j.notJudged = values.notJudged;
   if (!t) {
     j.reason = value === undefined ? "no value and no target" : "no target for this grade";
     return finishWaiver(j, waiver);

@@ -16,7 +16,8 @@
  *   wafer, run, grown, reactor, grade, verdict, decision, decision_by, decision_date,
  *   decision_reason, decision_conflict, then per finding finding_<key> (its verdict: pass when
  *   checked and not raised, else the consequence in force), then per metric <key> [unit],
- *   <key>_stderr [unit], <key>_min [unit], <key>_max [unit], <key>_verdict, then, when any wafer records growth
+ *   <key>_stderr [unit], <key>_min [unit], <key>_max [unit], <key>_verdict (and <key>_not_judged, the analysis's
+ *   reason a measured value is shown but not judged, for a metric some wafer does not judge for that reason), then, when any wafer records growth
  *   conditions, growth_recipe and one column per growth condition any wafer records (<key> [unit], src/validate/growth.ts growthVariables).
  */
 import { METRICS } from "../model/metrics.ts";
@@ -58,12 +59,21 @@ export function exportedMetrics(outcomes: readonly WaferOutcome[]) {
 /** One metric of one wafer as exported: value, standard error, limits of the wafer's grade, verdict. */
 export function exportedMetric(o: WaferOutcome, key: string, stdErrs: Record<string, number>) {
   const j = o.judgement.metrics.find((m) => m.key === key);
-  return { value: j?.value, stderr: stdErrs[key], min: j?.target?.min, max: j?.target?.max, verdict: j?.verdict ?? "" };
+  return { value: j?.value, stderr: stdErrs[key], min: j?.target?.min, max: j?.target?.max, verdict: j?.verdict ?? "", notJudged: j?.notJudged ?? "" };
 }
 
-/** The per-metric column names, in order, for one metric (see the header comment). */
-export function metricColumns(m: { key: string; unit: string }): string[] {
-  return [`${m.key} [${m.unit}]`, `${m.key}_stderr [${m.unit}]`, `${m.key}_min [${m.unit}]`, `${m.key}_max [${m.unit}]`, `${m.key}_verdict`];
+/** Keys of the metrics that some wafer measured but does not judge because a premise of the analysis fails (MetricJudgement.notJudged). */
+export function notJudgedKeys(outcomes: readonly WaferOutcome[]): Set<string> {
+  return new Set(outcomes.flatMap((o) => o.judgement.metrics.filter((j) => j.notJudged).map((j) => j.key)));
+}
+
+/**
+ * The per-metric column names, in order, for one metric (see the header comment); `notJudged`
+ * adds <key>_not_judged, for a metric some wafer records but does not judge.
+ */
+export function metricColumns(m: { key: string; unit: string }, notJudged = false): string[] {
+  const cols = [`${m.key} [${m.unit}]`, `${m.key}_stderr [${m.unit}]`, `${m.key}_min [${m.unit}]`, `${m.key}_max [${m.unit}]`, `${m.key}_verdict`];
+  return notJudged ? [...cols, `${m.key}_not_judged`] : cols;
 }
 
 export const DECISION_COLUMNS = ["decision", "decision_by", "decision_date", "decision_reason", "decision_conflict"];
@@ -84,6 +94,8 @@ function decisionCells(o: WaferOutcome): string[] {
 
 export function resultsCsv(outcomes: readonly WaferOutcome[], runs: ReadonlyMap<string, RunNotes> = new Map()): string {
   const metrics = exportedMetrics(outcomes);
+  // A metric's <key>_not_judged column only when some wafer does not judge it: other labs keep their columns.
+  const unjudged = notJudgedKeys(outcomes);
   const growth = growthColumns(outcomes.map((o) => o.record?.growth));
   // Growth columns only when some wafer records growth conditions: a lab without them keeps its columns.
   const anyGrowth = outcomes.some((o) => o.record?.growth);
@@ -96,7 +108,7 @@ export function resultsCsv(outcomes: readonly WaferOutcome[], runs: ReadonlyMap<
     "verdict",
     ...DECISION_COLUMNS,
     ...FINDING_COLUMNS,
-    ...metrics.flatMap(metricColumns),
+    ...metrics.flatMap((m) => metricColumns(m, unjudged.has(m.key))),
     ...(anyGrowth ? ["growth_recipe", ...growth.map((g) => `${g.key} [${g.unit}]`)] : []),
   ];
   const rows = outcomes.map((o) => {
@@ -113,7 +125,7 @@ export function resultsCsv(outcomes: readonly WaferOutcome[], runs: ReadonlyMap<
       ...findingCells(o),
       ...metrics.flatMap((m) => {
         const x = exportedMetric(o, m.key, se);
-        return [x.value, x.stderr, x.min, x.max, x.verdict];
+        return unjudged.has(m.key) ? [x.value, x.stderr, x.min, x.max, x.verdict, x.notJudged] : [x.value, x.stderr, x.min, x.max, x.verdict];
       }),
       ...(anyGrowth ? [o.record?.growth?.recipe ?? "", ...growth.map((g) => gv[g.key] ?? null)] : []),
     ];
@@ -167,7 +179,10 @@ export function growthJson(o: WaferOutcome) {
   };
 }
 
-/** The per-metric maps of a wafer in results.json, keyed like the CSV columns: metrics, stderr, limits, verdicts. */
+/**
+ * The per-metric maps of a wafer in results.json, keyed like the CSV columns: metrics, stderr, limits,
+ * verdicts, and not_judged (the analysis's reason a measured value is shown but not judged; null when judged or unmeasured).
+ */
 function metricMaps(o: WaferOutcome, metrics: readonly { key: string }[]) {
   const se = metricStdErrors(o);
   const xs = metrics.map((m) => [m.key, exportedMetric(o, m.key, se)] as const);
@@ -176,6 +191,7 @@ function metricMaps(o: WaferOutcome, metrics: readonly { key: string }[]) {
     stderr: Object.fromEntries(xs.map(([k, x]) => [k, sig6OrNull(x.stderr)])),
     limits: Object.fromEntries(xs.map(([k, x]) => [k, { min: sig6OrNull(x.min), max: sig6OrNull(x.max) }])),
     verdicts: Object.fromEntries(xs.map(([k, x]) => [k, x.verdict || null])),
+    not_judged: Object.fromEntries(xs.map(([k, x]) => [k, x.notJudged || null])),
   };
 }
 

@@ -40,6 +40,7 @@ export function resultsJson(o: WaferOutcome, commits: { wafer: string | null; ta
           }
         : null,
       reason: m.reason ?? null,
+      not_judged: m.notJudged ?? null,
       waiver: m.waiver ?? null,
     };
   }

@@ -24,6 +24,10 @@ export interface OutcomeSpec {
   gateFitErr?: Record<string, { slope: number; turnOn: number }>;
   decision?: Decision;
   error?: boolean;
+  /** Wafer-level values (metric units), as structure figures are measured once per wafer. */
+  wafer?: Record<string, number>;
+  /** Metric key → the analysis's reason the value is shown but not judged (MetricValues.notJudged). */
+  notJudged?: Record<string, string>;
 }
 
 export function makeOutcome(s: OutcomeSpec, targets: Targets): WaferOutcome {
@@ -33,6 +37,11 @@ export function makeOutcome(s: OutcomeSpec, targets: Targets): WaferOutcome {
       values[k] ??= { perDevice: {} };
       values[k].perDevice[dev] = v;
     }
+  for (const [k, v] of Object.entries(s.wafer ?? {})) {
+    values[k] ??= { perDevice: {} };
+    values[k].wafer = v;
+  }
+  for (const [k, why] of Object.entries(s.notJudged ?? {})) if (values[k]) values[k].notJudged = why;
   const grade = s.grade ?? targets.defaultGrade;
   const devices = Object.keys(s.devices).map((id) => {
     const e = s.gateFitErr?.[id];
