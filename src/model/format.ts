@@ -6,10 +6,19 @@ import type { MetricSpec } from "./metricSpec.ts";
 
 const SUPERSCRIPT: Record<string, string> = { "-": "⁻", "0": "⁰", "1": "¹", "2": "²", "3": "³", "4": "⁴", "5": "⁵", "6": "⁶", "7": "⁷", "8": "⁸", "9": "⁹" };
 
-/** "cm^2/(V s)" → "cm²/(V s)"; "1" → "". */
+/**
+ * A unit as stored ("ueV", "uF/cm^2": the micro prefix written "u" in ASCII) with the micro sign µ
+ * (U+00B5) instead, as the site prints it: "µeV", "µF/cm^2". Every other character is kept, so the
+ * result still reads back in as input (src/validate/unitSpelling.ts takes µ, μ and u alike).
+ */
+export function microSign(unit: string): string {
+  return unit.replace(/\bu([FVAme])/g, "µ$1");
+}
+
+/** "cm^2/(V s)" → "cm²/(V s)"; "uF/cm^2" → "µF/cm²"; "1" → "". */
 export function prettyUnit(unit: string): string {
   if (unit === "1") return "";
-  return unit.replace(/\^(-?\d+)/g, (_, e: string) => [...e].map((c) => SUPERSCRIPT[c] ?? c).join("")).replace(/\bu([FVAme])/g, "µ$1");
+  return microSign(unit.replace(/\^(-?\d+)/g, (_, e: string) => [...e].map((c) => SUPERSCRIPT[c] ?? c).join("")));
 }
 
 /**

@@ -9,7 +9,7 @@ import { DEFAULT_TREND_SETTINGS } from "../validate/trendSettings.ts";
 import { describeBaseline } from "../judge/trends.ts";
 import { DEFAULT_MAX_PASSES } from "../judge/phaseOne.ts";
 import { describeProduction } from "./trends.ts";
-import { formatValue, prettyUnit } from "../model/format.ts";
+import { formatValue, microSign, prettyUnit } from "../model/format.ts";
 import { FINDING_SPECS } from "../judge/findings.ts";
 
 export function targetsPageModel(targets: Targets | undefined) {
@@ -53,7 +53,8 @@ export function targetsPageModel(targets: Targets | undefined) {
       key: m.key,
       label: m.label,
       unit: prettyUnit(m.unit) || "—",
-      rawUnit: m.unit,
+      // The plain-text spelling (as typed in targets.yaml), with the micro sign as everywhere on the site.
+      rawUnit: microSign(m.unit),
       section: m.section,
       description: m.description,
     })),

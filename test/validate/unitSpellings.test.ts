@@ -3,7 +3,7 @@
 // and derived units: confirmed); nothing here is computed by the code under test.
 import { describe, expect, it } from "vitest";
 import { METRICS } from "../../src/model/metrics.ts";
-import { formatValue, prettyUnit } from "../../src/model/format.ts";
+import { formatValue, microSign, prettyUnit } from "../../src/model/format.ts";
 import type { MetricSpec } from "../../src/model/metrics.ts";
 import { SETTING_SPECS } from "../../src/validate/settings.ts";
 import { COLUMN_UNITS, parseQuantity, unitFactor, type Dimension } from "../../src/validate/units.ts";
@@ -43,9 +43,9 @@ describe("every unit the site prints, fed back in", () => {
   it("the table above knows every unit of the metric registry and the settings", () => {
     expect(printed.filter((u) => !(u in SI) && !DIMENSIONLESS.has(u))).toEqual([]);
   });
-  it.each(printed.filter((u) => !DIMENSIONLESS.has(u)))("%s: as stored, as shown on pages (prettyUnit) and as typed", (unit) => {
+  it.each(printed.filter((u) => !DIMENSIONLESS.has(u)))("%s: as stored, as shown on pages (prettyUnit, microSign) and as typed", (unit) => {
     const [siUnit, factor] = SI[unit];
-    for (const spelling of [unit, prettyUnit(unit)]) near(si(`2.5 ${spelling}`, siUnit), 2.5 * factor);
+    for (const spelling of [unit, prettyUnit(unit), microSign(unit)]) near(si(`2.5 ${spelling}`, siUnit), 2.5 * factor);
     // And converted to the metric's own unit: the value typed is the value meant.
     near(si(`2.5 ${prettyUnit(unit)}`, unit), 2.5);
   });
