@@ -15,6 +15,23 @@
  * quadrature). Barrier Ge = the fitted barrier-side plateau of each edge,
  * evaluated at its centre; the mean of both is reported. Minimum Ge in the well =
  * the smallest 3-point running mean between the centres.
+ * Its uncertainty, from the profile's noise: s = 1.4826·median|Δ²x|/√6, Δ²x
+ * the second differences x[i+1] − 2x[i] + x[i−1] (variance 6s² for white noise;
+ * a robust MAD-type estimate that a straight slope does not raise) over the
+ * well's interior, between the interface centres less one 10–90 % width each
+ * (the whole profile when that holds fewer than 10 of them: edges then raise s).
+ * Standard uncertainty by the GUM law of propagation of uncertainty (JCGM
+ * 100:2008 §5.1.2) for the running mean that gave the minimum, its points
+ * independent with u(x) = s: u = s/√k, k its points (3). Taking the smallest of
+ * many noisy means also lowers the value (a selection offset the law of
+ * propagation does not see): for a flat well it is the expected shortfall of
+ * the minimum of the candidate means (those within 4u of the minimum) below
+ * the true level, found by propagation of distributions by a Monte Carlo
+ * method (JCGM 101:2008: 4000 trials of the candidates' noise, N(0, s²),
+ * fixed seed); for a well whose minimum stands out it is 0. So the minimum
+ * lies between true level − offset and true level, ± u. Both undefined when
+ * the profile gives no noise estimate (s = 0: most neighbours equal, e.g. a
+ * rounded or model profile).
  * Contaminants: peak value inside the well (between the centres) and near it
  * (within `nearDistance` of either centre, default 10 nm).
  * Depth is in nm (any unit works if `window` and `nearDistance` use it too);
@@ -78,6 +95,12 @@ export type DepthProfileResult =
       wellThicknessStdErr: number;
       barrierGeFraction: number;
       wellGeMin: number;
+      /** Standard uncertainty of wellGeMin from the profile's noise (module comment); undefined without a noise estimate. */
+      wellGeMinStdErr?: number;
+      /** Expected shortfall of wellGeMin below the true level of a flat well (selection of the minimum), ≥ 0; undefined without a noise estimate. */
+      wellGeMinOffset?: number;
+      /** Point-to-point noise s of the Ge fraction, 1 (0 when the profile gives no noise estimate). */
+      geNoise: number;
       nearDistance: number;
       contaminants: ContaminantPeak[];
       /** Median depth spacing of the profile, nm (profileSampling.ts judges it against the interface widths). */
@@ -133,6 +156,10 @@ export function analyseDepthProfile(input: DepthProfileInput, options: DepthProf
   const inside = z.map((_, i) => i).filter((i) => z[i] >= top.centre && z[i] <= bottom.centre);
   const sm3 = runningMean(g, 1);
   const nearDistance = options.nearDistance ?? 10;
+  // The minimum's running means: 3 points between the centres, else (no point between them) the well run's 5-point means.
+  const [cands, points] = inside.length ? [inside.map((i) => sm3[i]), 3] : [sm.slice(well.start, well.end + 1), 5];
+  const wellGeMin = Math.min(...cands);
+  const geNoise = pointNoise(z, g, top.centre + top.width10to90, bottom.centre - bottom.width10to90);
   return {
     ok: true,
     top,
@@ -140,11 +167,78 @@ export function analyseDepthProfile(input: DepthProfileInput, options: DepthProf
     wellThickness,
     wellThicknessStdErr: Math.hypot(top.centreStdErr, bottom.centreStdErr),
     barrierGeFraction: (top.barrierGe + bottom.barrierGe) / 2,
-    wellGeMin: inside.length ? Math.min(...inside.map((i) => sm3[i])) : minOf(well),
+    wellGeMin,
+    ...minimumUncertainty(cands, wellGeMin, points, geNoise),
+    geNoise,
     nearDistance,
     contaminants: contaminantPeaks(input, top.centre, bottom.centre, nearDistance),
     depthStep: medianStep(z),
   };
+}
+
+/** Robust point noise from second differences centred in [from, to], else over the whole profile (module comment); 0 without any. */
+function pointNoise(z: readonly number[], g: readonly number[], from: number, to: number): number {
+  const d2 = (keep: (i: number) => boolean) => {
+    const out: number[] = [];
+    for (let i = 1; i + 1 < g.length; i++) if (keep(i)) out.push(Math.abs(g[i + 1] - 2 * g[i] + g[i - 1]));
+    return out;
+  };
+  const inner = d2((i) => z[i] >= from && z[i] <= to);
+  const all = inner.length >= 10 ? inner : d2(() => true);
+  return all.length ? (1.4826 * median(all)) / Math.sqrt(6) : 0;
+}
+
+/** Trials of the Monte Carlo selection offset (JCGM 101:2008 §7.2; 4000 gives the offset to about 1 %). */
+const OFFSET_TRIALS = 4000;
+
+/** u and selection offset of the minimum of running means of k points (module comment); {} without a noise estimate. */
+function minimumUncertainty(means: number[], minimum: number, k: number, s: number): { wellGeMinStdErr?: number; wellGeMinOffset?: number } {
+  if (!(s > 0)) return {};
+  const u = s / Math.sqrt(k);
+  const n = means.filter((m) => m <= minimum + 4 * u).length;
+  return { wellGeMinStdErr: u, wellGeMinOffset: s * minimumOffset(n, k) };
+}
+
+/**
+ * Expected shortfall, in units of the point noise, of the smallest of n consecutive k-point running means of
+ * independent N(0, 1) points below 0 (JCGM 101:2008 Monte Carlo, OFFSET_TRIALS trials, mulberry32 uniforms
+ * with a fixed seed and Box–Muller normals, so the figure is the same on every build).
+ */
+function minimumOffset(n: number, k: number): number {
+  if (n <= 1) return 0;
+  const key = `${n}/${k}`;
+  const known = OFFSETS.get(key);
+  if (known !== undefined) return known;
+  const offset = simulateOffset(n, k);
+  OFFSETS.set(key, offset);
+  return offset;
+}
+
+/** minimumOffset by (n, k): a pure function of both (fixed seed), so computed once per process. */
+const OFFSETS = new Map<string, number>();
+
+function simulateOffset(n: number, k: number): number {
+  let a = 0x5eed;
+  const uni = () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+  const x = new Float64Array(n + k - 1);
+  let sum = 0;
+  for (let trial = 0; trial < OFFSET_TRIALS; trial++) {
+    for (let i = 0; i < x.length; i++) x[i] = Math.sqrt(-2 * Math.log(uni() + 1e-300)) * Math.cos(2 * Math.PI * uni());
+    let lowest = Infinity;
+    for (let i = 0; i < n; i++) {
+      let m = 0;
+      for (let j = 0; j < k; j++) m += x[i + j];
+      lowest = Math.min(lowest, m / k);
+    }
+    sum += lowest;
+  }
+  return -sum / OFFSET_TRIALS;
 }
 
 function medianStep(z: number[]): number {
