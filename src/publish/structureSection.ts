@@ -6,6 +6,7 @@
  * tables of peaks, buffer figures, strain, critical thickness and profiles.
  * Every number is formatted here. Returns undefined when there is nothing to show.
  */
+import { wellGeMinText } from "./wellGeMin.ts";
 import type { WaferOutcome } from "../judge/outcome.ts";
 import type { StructureAnalysis } from "../analyse/structure/index.ts";
 import type { InterfaceFit } from "../analyse/structure/depthProfile.ts";
@@ -43,6 +44,9 @@ export interface StructureSectionModel {
   /** Pictures of the reciprocal-space maps (paths under wafers/<id>/); the build writes them. */
   files: { path: string; bytes: Buffer }[];
 }
+
+/** The design row of the minimum Ge in the well (analyse/structure/index.ts designRows), shown with its uncertainty (wellGeMin.ts). */
+export const WELL_GE_MIN_ROW = "Minimum Ge in the well";
 
 const pm = (v: number, e: number | undefined, digits = 4) =>
   e !== undefined && e > 0 ? `${formatNumber(v, digits)} ± ${formatNumber(e, 2)}` : formatNumber(v, digits);
@@ -126,7 +130,7 @@ function profileRows(s: StructureAnalysis): StructureSectionModel["profiles"] {
       { label: "Bottom interface", value: edge(r.bottom) },
       { label: "Well thickness (between mid-points)", value: `${pm(r.wellThickness, r.wellThicknessStdErr, 4)} nm` },
       { label: "Barrier Ge fraction", value: formatNumber(r.barrierGeFraction, 4) },
-      { label: "Minimum Ge in the well", value: formatNumber(r.wellGeMin, 3) },
+      { label: "Minimum Ge in the well", value: wellGeMinText(r) },
       ...r.contaminants.map((c) => ({
         label: `${c.element} peak`,
         value: `inside ${c.insidePeak !== undefined ? `${formatNumber(c.insidePeak, 3)} cm⁻³ at ${formatNumber(c.insideDepth ?? NaN, 4)} nm` : "—"}; within ${formatNumber(r.nearDistance, 3)} nm ${c.nearPeak !== undefined ? `${formatNumber(c.nearPeak, 3)} cm⁻³ at ${formatNumber(c.nearDepth ?? NaN, 4)} nm` : "—"}`,
@@ -225,6 +229,9 @@ export function structureSection(o: WaferOutcome): StructureSectionModel | undef
   if (!s) return undefined;
   const fmt = (v: number | undefined, unit: string) => (v === undefined ? "—" : `${formatNumber(v, 4)}${unit === "1" ? "" : ` ${unit}`}`);
   const files: StructureSectionModel["files"] = [];
+  // The profile the design rows were measured on (the first analysed one: analyse/structure/index.ts).
+  const first = s.profiles.find((p) => p.result.ok)?.result;
+  const minProfile = first?.ok ? first : undefined;
   return {
     files,
     charts: profileCharts(s),
@@ -237,9 +244,11 @@ export function structureSection(o: WaferOutcome): StructureSectionModel | undef
       measured:
         d.measured === undefined
           ? "—"
-          : d.measuredStdErr
-            ? `${pm(d.measured, d.measuredStdErr)}${d.unit === "1" ? "" : ` ${d.unit}`}`
-            : fmt(d.measured, d.unit),
+          : d.quantity === WELL_GE_MIN_ROW && minProfile
+            ? wellGeMinText(minProfile)
+            : d.measuredStdErr
+              ? `${pm(d.measured, d.measuredStdErr)}${d.unit === "1" ? "" : ` ${d.unit}`}`
+              : fmt(d.measured, d.unit),
       source: d.source,
     })),
     profiles: profileRows(s),
