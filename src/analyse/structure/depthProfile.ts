@@ -18,14 +18,15 @@
  * Its uncertainty, from the profile's noise: s = 1.4826·median|Δ²x|/√6, Δ²x
  * the second differences x[i+1] − 2x[i] + x[i−1] (variance 6s² for white noise;
  * a robust MAD-type estimate that a straight slope does not raise) over the
- * well's interior, between the interface centres less one 10–90 % width each
- * (the whole profile when that holds fewer than 10 of them: edges then raise s).
+ * whole profile except within two 10–90 % widths of either fitted interface,
+ * whose curvature would raise it.
  * Standard uncertainty by the GUM law of propagation of uncertainty (JCGM
  * 100:2008 §5.1.2) for the running mean that gave the minimum, its points
  * independent with u(x) = s: u = s/√k, k its points (3). Taking the smallest of
  * many noisy means also lowers the value (a selection offset the law of
  * propagation does not see): for a flat well it is the expected shortfall of
- * the minimum of the candidate means (those within 4u of the minimum) below
+ * the minimum of the candidate means (those in the well's interior, between
+ * the interface centres less one 10–90 % width each; at least 1) below
  * the true level, found by propagation of distributions by a Monte Carlo
  * method (JCGM 101:2008: 4000 trials of the candidates' noise, N(0, s²),
  * fixed seed); for a well whose minimum stands out it is 0. So the minimum
@@ -159,7 +160,9 @@ export function analyseDepthProfile(input: DepthProfileInput, options: DepthProf
   // The minimum's running means: 3 points between the centres, else (no point between them) the well run's 5-point means.
   const [cands, points] = inside.length ? [inside.map((i) => sm3[i]), 3] : [sm.slice(well.start, well.end + 1), 5];
   const wellGeMin = Math.min(...cands);
-  const geNoise = pointNoise(z, g, top.centre + top.width10to90, bottom.centre - bottom.width10to90);
+  const edges = [top, bottom].map((f) => [f.centre - 2 * f.width10to90, f.centre + 2 * f.width10to90]);
+  const geNoise = pointNoise(z, g, (d) => edges.every(([a, b]) => d < a || d > b));
+  const interior = inside.filter((i) => z[i] >= top.centre + top.width10to90 && z[i] <= bottom.centre - bottom.width10to90).length;
   return {
     ok: true,
     top,
@@ -168,7 +171,7 @@ export function analyseDepthProfile(input: DepthProfileInput, options: DepthProf
     wellThicknessStdErr: Math.hypot(top.centreStdErr, bottom.centreStdErr),
     barrierGeFraction: (top.barrierGe + bottom.barrierGe) / 2,
     wellGeMin,
-    ...minimumUncertainty(cands, wellGeMin, points, geNoise),
+    ...minimumUncertainty(Math.max(1, interior), points, geNoise),
     geNoise,
     nearDistance,
     contaminants: contaminantPeaks(input, top.centre, bottom.centre, nearDistance),
@@ -176,27 +179,20 @@ export function analyseDepthProfile(input: DepthProfileInput, options: DepthProf
   };
 }
 
-/** Robust point noise from second differences centred in [from, to], else over the whole profile (module comment); 0 without any. */
-function pointNoise(z: readonly number[], g: readonly number[], from: number, to: number): number {
-  const d2 = (keep: (i: number) => boolean) => {
-    const out: number[] = [];
-    for (let i = 1; i + 1 < g.length; i++) if (keep(i)) out.push(Math.abs(g[i + 1] - 2 * g[i] + g[i - 1]));
-    return out;
-  };
-  const inner = d2((i) => z[i] >= from && z[i] <= to);
-  const all = inner.length >= 10 ? inner : d2(() => true);
-  return all.length ? (1.4826 * median(all)) / Math.sqrt(6) : 0;
+/** Robust point noise from the second differences centred at the depths `keep` accepts (module comment); 0 without any. */
+function pointNoise(z: readonly number[], g: readonly number[], keep: (depth: number) => boolean): number {
+  const d2: number[] = [];
+  for (let i = 1; i + 1 < g.length; i++) if (keep(z[i])) d2.push(Math.abs(g[i + 1] - 2 * g[i] + g[i - 1]));
+  return d2.length ? (1.4826 * median(d2)) / Math.sqrt(6) : 0;
 }
 
 /** Trials of the Monte Carlo selection offset (JCGM 101:2008 §7.2; 4000 gives the offset to about 1 %). */
 const OFFSET_TRIALS = 4000;
 
-/** u and selection offset of the minimum of running means of k points (module comment); {} without a noise estimate. */
-function minimumUncertainty(means: number[], minimum: number, k: number, s: number): { wellGeMinStdErr?: number; wellGeMinOffset?: number } {
+/** u and selection offset of the minimum of n candidate running means of k points (module comment); {} without a noise estimate. */
+function minimumUncertainty(n: number, k: number, s: number): { wellGeMinStdErr?: number; wellGeMinOffset?: number } {
   if (!(s > 0)) return {};
-  const u = s / Math.sqrt(k);
-  const n = means.filter((m) => m <= minimum + 4 * u).length;
-  return { wellGeMinStdErr: u, wellGeMinOffset: s * minimumOffset(n, k) };
+  return { wellGeMinStdErr: s / Math.sqrt(k), wellGeMinOffset: s * minimumOffset(n, k) };
 }
 
 /**
