@@ -2,9 +2,10 @@
  * How a wafer page shows the minimum Ge fraction in the well (src/analyse/structure/depthProfile.ts): with its
  * standard uncertainty u, propagated from the profile's noise by the GUM law of propagation (JCGM 100:2008
  * §5.1.2), and its selection offset (the minimum of many noisy means lies below the true level of a flat well;
- * JCGM 101:2008 Monte Carlo). A value within −(offset + 2u) … 2u (coverage factor k = 2) is shown as
- * consistent with zero, never as a negative Ge fraction; a value below that range is named as more negative than
- * the noise explains. Without a noise estimate the page says that the value has no uncertainty, and why.
+ * JCGM 101:2008 Monte Carlo). A value within −(offset + 3u) … 3u (coverage factor k = 3: a site shows dozens
+ * of wafers, and a noise excursion should rarely be named a fault) is shown as consistent with zero, never as a
+ * negative Ge fraction; a value below that range is named as more negative than the noise explains. Without a
+ * noise estimate the page says that the value has no uncertainty, and why.
  */
 import { formatNumber } from "../model/format.ts";
 
@@ -14,8 +15,8 @@ export interface WellGeMin {
   wellGeMinOffset?: number;
 }
 
-/** Coverage factor of the "consistent with zero" range (about 95 % for a normal distribution). */
-const K = 2;
+/** Coverage factor of the "consistent with zero" range (about 99.7 % for a normal distribution; module comment). */
+const K = 3;
 
 /** Where the minimum lies against zero: within its uncertainty of 0, above it, below it, or unknown (no noise estimate). */
 export function wellGeMinAgainstZero(r: WellGeMin): "zero" | "above" | "below" | "no-uncertainty" {

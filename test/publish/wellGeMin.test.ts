@@ -1,5 +1,5 @@
 // The page text of the minimum Ge fraction in the well: with its uncertainty, a small negative value shown as
-// consistent with zero (−(offset + 2u) ≤ v ≤ 2u), a larger one named, and a profile without a noise estimate
+// consistent with zero (−(offset + 3u) ≤ v ≤ 3u), a larger one named, and a profile without a noise estimate
 // said so. Values are made up by hand.
 import { describe, expect, it } from "vitest";
 import { wellGeMinAgainstZero, wellGeMinText } from "../../src/publish/wellGeMin.ts";
@@ -13,15 +13,16 @@ describe("minimum Ge in the well on the page", () => {
     expect(t).toContain("± 0.0027");
     expect(t).toContain("0.0044 below the true level");
   });
-  it("−0.0046 ± 0.0027 without offset: still within 2u of 0", () => {
+  it("without offset: −0.0046 ± 0.0027 is within 3u of 0, −0.0090 ± 0.0027 is not", () => {
     expect(wellGeMinAgainstZero({ wellGeMin: -0.0046, wellGeMinStdErr: 0.0027 })).toBe("zero");
+    expect(wellGeMinAgainstZero({ wellGeMin: -0.009, wellGeMinStdErr: 0.0027 })).toBe("below");
   });
-  it("a small positive value within 2u says so; above 2u it is a plain value with its uncertainty", () => {
-    expect(wellGeMinText({ wellGeMin: 0.004, wellGeMinStdErr: 0.0025, wellGeMinOffset: 0.004 })).toBe("0.00400 ± 0.0025 (consistent with 0)");
+  it("a small positive value within 3u says so; above 3u it is a plain value with its uncertainty", () => {
+    expect(wellGeMinText({ wellGeMin: 0.007, wellGeMinStdErr: 0.0025, wellGeMinOffset: 0.004 })).toBe("0.00700 ± 0.0025 (consistent with 0)");
     expect(wellGeMinText({ wellGeMin: 0.02, wellGeMinStdErr: 0.0023, wellGeMinOffset: 0.004 })).toBe("0.0200 ± 0.0023");
   });
-  it("below −(offset + 2u) the value is named as more negative than the noise explains", () => {
-    // offset + 2u = 0.004 + 0.0046 = 0.0086 < 0.02
+  it("below −(offset + 3u) the value is named as more negative than the noise explains", () => {
+    // offset + 3u = 0.004 + 0.0069 = 0.0109 < 0.02
     const r = { wellGeMin: -0.02, wellGeMinStdErr: 0.0023, wellGeMinOffset: 0.004 };
     expect(wellGeMinAgainstZero(r)).toBe("below");
     expect(wellGeMinText(r)).toMatch(/more than the profile's noise explains/);
