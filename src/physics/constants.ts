@@ -14,6 +14,8 @@ export const PLANCK = 6.62607015e-34;
 export const HBAR = PLANCK / (2 * Math.PI);
 /** Boltzmann constant, J/K (exact, SI 2019). */
 export const BOLTZMANN = 1.380649e-23;
+/** Avogadro constant, mol⁻¹ (exact, SI 2019). */
+export const AVOGADRO = 6.02214076e23;
 /** Electron rest mass, kg (CODATA 2018, measured: 9.1093837015(28)e-31). */
 export const ELECTRON_MASS = 9.1093837015e-31;
 /** Vacuum permittivity, F/m (CODATA 2018, measured since 2019: 8.8541878128(13)e-12). */

@@ -2,11 +2,19 @@
  * Growth conditions of a wafer: the `growth:` block of wafer.md (docs/formats.md,
  * section 1, Growth conditions). Every quantity is typed with its unit and
  * converted here, once, to the unit the site shows: temperatures to °C, growth
- * rates to nm/min, gas flows to sccm (standard cm³/min), anneal times to s.
+ * rates to nm/min, gas flows to sccm, anneal times to s.
  * Units are read through parseQuantity (units.ts) from the closed unit table
  * (src/physics/unitTable.ts), which holds the growers' spellings: °C, °F, K,
  * sccm, slm, Torr, mTorr, mbar, Pa. Every problem is located (file, line,
  * field) and reported with the others of the file.
+ *
+ * Gas flows are standard flows: sccm and slm (also mol/min), referenced to
+ * 0 °C (273.15 K) and 101.325 kPa. An actual volume flow (L/min, cm³/min) is
+ * refused with the reason and the conversion, since it depends on the gas's
+ * pressure and temperature. A lab whose mass-flow controllers use a 20 °C
+ * reference must convert its readings (× 273.15/293.15) first.
+ * The growth figures are records of the process, nothing more: the lab's own
+ * gas-safety procedures govern every process gas (docs/formats.md).
  */
 import { didYouMean, InputError, ProblemList, show } from "../model/problem.ts";
 import { parseQuantity } from "./units.ts";
@@ -42,7 +50,7 @@ const QUANTITIES = {
   temperature: { target: "degC", shown: "°C", min: -50, max: 1500, what: "substrate temperature" },
   rate: { target: "nm/min", shown: "nm/min", min: 0, max: 1e5, what: "growth rate" },
   pressure: { target: "torr", shown: "Torr", min: 0, max: 1e4, what: "chamber pressure" },
-  flow: { target: "cm^3/min", shown: "sccm", min: 0, max: 1e6, what: "gas flow" },
+  flow: { target: "sccm", shown: "sccm", min: 0, max: 1e6, what: "gas flow" },
   time: { target: "s", shown: "s", min: 0, max: 1e6, what: "anneal time" },
 } as const;
 type QuantityName = keyof typeof QUANTITIES;
@@ -274,7 +282,7 @@ function unitsOf(q: QuantityName): string {
     temperature: "°C, K or °F",
     rate: "nm/min, nm/s, µm/h or Å/s",
     pressure: "Torr, mTorr, mbar or Pa",
-    flow: "sccm, slm, cm³/min or L/min",
+    flow: "sccm or slm, standard flows referenced to 0 °C and 101.325 kPa",
     time: "s, min or h",
   }[q];
 }

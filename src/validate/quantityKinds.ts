@@ -19,7 +19,10 @@ const KINDS: [string, string[]][] = [
   ["a magnetic field", ["T", "mT"]],
   ["an energy", ["eV", "meV", "µeV", "J"]],
   ["a pressure", ["Torr", "mTorr", "mbar", "Pa", "kPa", "bar", "atm"]],
-  ["a gas flow", ["sccm", "slm", "cm³/min", "L/min"]],
+  // Standard flows (sccm, slm: gas referenced to 0 °C and 101.325 kPa) are an amount of gas per time, not a
+  // volume per time (src/physics/unitTable.ts), so an actual volume flow is refused where one is expected.
+  ["a standard gas flow", ["sccm", "slm"]],
+  ["an actual volume flow", ["L/min", "cm³/min", "m³/s"]],
   ["a growth rate", ["nm/min", "nm/s", "µm/h", "Å/s"]],
   ["a sheet density", ["cm⁻²", "m⁻²"]],
   ["a volume density", ["cm⁻³", "m⁻³"]],
@@ -32,6 +35,28 @@ const KINDS: [string, string[]][] = [
   ["a mass", ["kg", "g", "mg"]],
   ["a frequency", ["Hz", "kHz", "MHz"]],
 ];
+
+/**
+ * Why one kind is not another, and how to write it, where a person easily takes one for the other:
+ * [found kind, wanted kind, the explanation a refusal adds].
+ */
+const CONFUSIONS: [string, string, string][] = [
+  [
+    "an actual volume flow",
+    "a standard gas flow",
+    "an actual volume flow depends on the gas's pressure and temperature and a standard flow does not: write the mass-flow controller's reading in sccm or slm (referenced to 0 °C and 101.325 kPa), or convert the volume flow, sccm = cm³/min × (p / 101.325 kPa) × (273.15 K / T)",
+  ],
+  [
+    "a standard gas flow",
+    "an actual volume flow",
+    "a standard flow (sccm, slm) is an amount of gas, referenced to 0 °C and 101.325 kPa, not a volume at the gas's own pressure and temperature: convert it, cm³/min = sccm × (101.325 kPa / p) × (T / 273.15 K)",
+  ],
+];
+
+/** The explanation a refusal adds when `found` is given where `wanted` is expected (CONFUSIONS), if any. */
+export function confusionOf(found: string | undefined, wanted: string | undefined): string | undefined {
+  return CONFUSIONS.find(([f, w]) => f === found && w === wanted)?.[2];
+}
 
 let byDimension: Map<string, [string, string[]]> | undefined;
 

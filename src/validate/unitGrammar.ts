@@ -26,7 +26,7 @@
 import { BASE_UNITS, PREFIXES, UNIT_LIMITS, UNITS, type UnitDefinition } from "../physics/unitTable.ts";
 
 export interface ParsedUnit {
-  /** Exponents of BASE_UNITS (m, kg, s, A, K). */
+  /** Exponents of BASE_UNITS (m, kg, s, A, K, mol). */
   dim: number[];
   /** The factor to SI is mantissa × 10^decade (prefixes and decimal multiples in the decade, exactly). */
   mantissa: number;
@@ -134,7 +134,7 @@ function factor(r: Reader, acc: Acc, sign: number): void {
     return;
   }
   if (t?.kind === "op" && t.text === "(") {
-    const inner: Acc = { dim: [0, 0, 0, 0, 0], mantissa: 1, decade: 0, terms: [] };
+    const inner: Acc = { dim: [0, 0, 0, 0, 0, 0], mantissa: 1, decade: 0, terms: [] };
     product(r, inner, 1);
     if (!r.atOp(")")) throw new UnitError("a bracket is not closed");
     r.next();
@@ -179,7 +179,7 @@ function readWithinLimits(text: string): UnitRead {
   if (typeof toks === "string") return { ok: false, reason: toks };
   if (toks.length === 0) return { ok: false, reason: "there is no unit" };
   const r = new Reader(toks);
-  const acc: Acc = { dim: [0, 0, 0, 0, 0], mantissa: 1, decade: 0, terms: [] };
+  const acc: Acc = { dim: [0, 0, 0, 0, 0, 0], mantissa: 1, decade: 0, terms: [] };
   try {
     if (!r.atOp("/")) product(r, acc, 1);
     if (r.atOp("/")) {

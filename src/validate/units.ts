@@ -11,7 +11,7 @@
  */
 import { normaliseUnit, normaliseUnitText, shortText, unitTextTooLong } from "./unitSpelling.ts";
 import { convertUnit, dimensionText, readUnit, sameDimension } from "./unitGrammar.ts";
-import { kindOf, suggestUnitName } from "./quantityKinds.ts";
+import { confusionOf, kindOf, suggestUnitName } from "./quantityKinds.ts";
 
 export type Dimension = "field" | "resistance" | "voltage" | "current" | "temperature" | "angle" | "length" | "fraction" | "concentration" | "counts";
 
@@ -112,10 +112,11 @@ function quantityWithUnit(t: string, target: string, expected: string): Quantity
   }
   if (!sameDimension(from.unit, to.unit)) {
     const is = kindOf(from.unit)?.name ?? `a quantity in ${dimensionText(from.unit.dim)}`;
+    const why = confusionOf(is, wanted?.name);
     return {
       ok: false,
       expected,
-      found: `${JSON.stringify(t)}, which has a different dimension (${is}, not ${wanted?.name ?? `one in ${dimensionText(to.unit.dim)}`}; ${offer})`,
+      found: `${JSON.stringify(t)}, which has a different dimension (${is}, not ${wanted?.name ?? `one in ${dimensionText(to.unit.dim)}`}; ${why ? `${why}; ` : ""}${offer})`,
     };
   }
   const v = convertUnit(value, from.unit, to.unit);

@@ -190,12 +190,10 @@ const GROWTH: ["temperature" | "rate" | "pressure" | "flow" | "time", string, nu
   ["pressure", "10 torr", 10],
   ["pressure", "13.3322368421 mbar", 10],
   ["pressure", "1333.22368421 Pa", 10],
+  // Standard flows only: an actual volume flow (cm³/min, L/min) is refused (test/validate/standardFlow.test.ts).
   ["flow", "20 sccm", 20],
-  ["flow", "20 cm^3/min", 20],
-  ["flow", "20 cm³/min", 20],
   ["flow", "0.5 slm", 500],
   ["flow", "0.5 slpm", 500],
-  ["flow", "0.5 L/min", 500],
   ["time", "60 s", 60],
   ["time", "2 min", 120],
   ["time", "0.5 h", 1800],
@@ -271,7 +269,7 @@ describe("what a refusal says", () => {
     // cm²/V = m² / (m² kg s⁻³ A⁻¹) = kg⁻¹ s³ A (derived by hand).
     expect(found("1e5 cm2/V", "cm^2/(V s)")).toMatch(/different dimension \(a quantity in kg\^-1 s\^3 A, not a mobility;/);
     expect(found("20 sccm", "torr")).toMatch(
-      /different dimension \(a gas flow, not a pressure; a pressure is written in Torr, mTorr, mbar, Pa, kPa, bar, atm\)/,
+      /different dimension \(a standard gas flow, not a pressure; a pressure is written in Torr, mTorr, mbar, Pa, kPa, bar, atm\)/,
     );
   });
   it("grammar: one slash, °C only on its own, no stray characters, a number first", () => {
