@@ -12,7 +12,7 @@
 import { crc32, deflateSync } from "node:zlib";
 
 /** zlib level of the page pictures (1 fastest … 9 smallest): level 6, zlib's default, on palette images. */
-export const PAGE_ZLIB_LEVEL = 6;
+export const PAGE_ZLIB_LEVEL = 4;
 
 const SIGNATURE = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
 
@@ -32,17 +32,11 @@ function chunk(type: string, data: Buffer): Buffer {
  * RangeError for mismatched sizes or an index outside the palette
  * (programming errors).
  */
-export function encodeIndexedPng(
-  indices: Uint8Array,
-  width: number,
-  height: number,
-  palette: Uint8Array,
-  alpha?: Uint8Array,
-  level = PAGE_ZLIB_LEVEL,
-): Buffer {
+export function encodeIndexedPng(indices: Uint8Array, width: number, height: number, palette: Uint8Array, alpha?: Uint8Array, level = PAGE_ZLIB_LEVEL): Buffer {
   const entries = palette.length / 3;
   if (indices.length !== width * height) throw new RangeError("encodeIndexedPng: index count does not match width×height");
-  if (!Number.isInteger(entries) || entries < 1 || entries > 256) throw new RangeError(`encodeIndexedPng: palette of ${palette.length} bytes is not 1–256 rgb triples`);
+  if (!Number.isInteger(entries) || entries < 1 || entries > 256)
+    throw new RangeError(`encodeIndexedPng: palette of ${palette.length} bytes is not 1–256 rgb triples`);
   if (alpha && alpha.length > entries) throw new RangeError("encodeIndexedPng: more alpha values than palette entries");
   const raw = Buffer.alloc(height * (width + 1));
   for (let y = 0; y < height; y++) {
