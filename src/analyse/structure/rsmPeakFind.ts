@@ -75,15 +75,9 @@ type NeighbourTest = (i: number, r: number, test: (j: number) => boolean) => boo
  * cell of a `cell`-wide grid (column, then row), then by index, so that sums
  * over it (smoothing, centroids, the fit) do not depend on the fine grid.
  * `everyNear` tests a condition over the same neighbours without listing them
- * (the local-maximum test, run for every point above the threshold), and
- * `sumNear` sums values over the ordered list without making it (the smoothing,
- * run for every point).
+ * (the local-maximum test, run for every point above the threshold).
  */
-function neighbourIndex(
-  u: number[],
-  v: number[],
-  cell: number,
-): { near: NeighbourQuery; everyNear: NeighbourTest; sumNear: (i: number, r: number, values: readonly number[]) => { sum: number; count: number } } {
+function neighbourIndex(u: number[], v: number[], cell: number): { near: NeighbourQuery; everyNear: NeighbourTest } {
   const n = u.length;
   let uMin = Infinity,
     uMax = -Infinity,
@@ -111,25 +105,11 @@ function neighbourIndex(
   const fill = start.slice(0, cols * rows);
   for (let i = 0; i < n; i++) items[fill[cellOf[i]]++] = i;
   // Rank of each point in the fixed output order.
-  // Sorted as one number per point, (column·rows + row)·n + index (exact below 2⁵³), which orders
-  // like comparing column, then row, then index.
-  let caMin = Infinity;
-  let cbMin = Infinity;
-  let cbMax = -Infinity;
-  for (let i = 0; i < n; i++) {
-    caMin = Math.min(caMin, Math.floor(u[i] / cell));
-    cbMin = Math.min(cbMin, Math.floor(v[i] / cell));
-    cbMax = Math.max(cbMax, Math.floor(v[i] / cell));
-  }
-  const keys = new Float64Array(n);
-  for (let i = 0; i < n; i++) keys[i] = ((Math.floor(u[i] / cell) - caMin) * (cbMax - cbMin + 1) + (Math.floor(v[i] / cell) - cbMin)) * n + i;
-  keys.sort();
+  const ca = u.map((x) => Math.floor(x / cell));
+  const cb = v.map((x) => Math.floor(x / cell));
+  const byOrder = Array.from({ length: n }, (_, i) => i).sort((i, j) => ca[i] - ca[j] || cb[i] - cb[j] || i - j);
   const rank = new Int32Array(n);
-  const atRank = new Int32Array(n);
-  for (let k = 0; k < n; k++) {
-    atRank[k] = keys[k] % n;
-    rank[atRank[k]] = k;
-  }
+  byOrder.forEach((i, k) => (rank[i] = k));
   const everyNear: NeighbourTest = (i, r, test) => {
     const reach = Math.ceil(r / f);
     const cu = Math.floor((u[i] - uMin) / f);
@@ -161,12 +141,8 @@ function neighbourIndex(
         if ((u[j] - ui) ** 2 + (v[j] - vi) ** 2 <= r * r) out.push(j);
       }
     }
-    if (ordered && out.length > 32) {
-      // Long lists (the refinement windows): sort the ranks as numbers and map them back.
-      const ranks = Int32Array.from(out, (j) => rank[j]).sort();
-      for (let x = 0; x < out.length; x++) out[x] = atRank[ranks[x]];
-    } else if (ordered) {
-      // Insertion sort by rank: short lists are nearly in order.
+    if (ordered) {
+      // Insertion sort by rank: lists are short and nearly in order.
       for (let x = 1; x < out.length; x++) {
         const j = out[x];
         let y = x - 1;
@@ -179,42 +155,7 @@ function neighbourIndex(
     }
     return out;
   };
-  // The sum of values[j] over the ordered neighbour list of near(i, r), without making the list.
-  let scratch = new Int32Array(64);
-  const sumNear = (i: number, r: number, values: readonly number[]) => {
-    let m = 0;
-    const reach = Math.ceil(r / f);
-    const cu = Math.floor((u[i] - uMin) / f);
-    const cv = Math.floor((v[i] - vMin) / f);
-    const ui = u[i],
-      vi = v[i];
-    for (let a = Math.max(0, cu - reach); a <= Math.min(cols - 1, cu + reach); a++) {
-      const base = a * rows;
-      const end = start[base + Math.min(rows - 1, cv + reach) + 1];
-      for (let k = start[base + Math.max(0, cv - reach)]; k < end; k++) {
-        const j = items[k];
-        if ((u[j] - ui) ** 2 + (v[j] - vi) ** 2 <= r * r) {
-          if (m === scratch.length) {
-            const grown = new Int32Array(2 * m);
-            grown.set(scratch);
-            scratch = grown;
-          }
-          // Insertion by rank, as near() orders its list.
-          let y = m - 1;
-          while (y >= 0 && rank[scratch[y]] > rank[j]) {
-            scratch[y + 1] = scratch[y];
-            y--;
-          }
-          scratch[y + 1] = j;
-          m++;
-        }
-      }
-    }
-    let sum = 0;
-    for (let x = 0; x < m; x++) sum += values[scratch[x]];
-    return { sum, count: m };
-  };
-  return { near, everyNear, sumNear };
+  return { near, everyNear };
 }
 
 /** Finds and refines peaks in a map (see module comment). Points with non-finite values are dropped. */
@@ -232,10 +173,12 @@ export function searchMapPeaks(points: readonly MapPoint[], options: PeakSearchO
   const u = pRaw.map((x) => x / sp);
   const v = tRaw.map((x) => x / st);
   const radius = options.radius ?? 4;
-  const { near, everyNear, sumNear } = neighbourIndex(u, v, radius);
+  const { near, everyNear } = neighbourIndex(u, v, radius);
   const smooth = counts.map((_, i) => {
-    const nb = sumNear(i, 1.5, counts);
-    return nb.sum / nb.count;
+    const nb = near(i, 1.5);
+    let sum = 0;
+    for (const j of nb) sum += counts[j];
+    return sum / nb.length;
   });
   const level = background + (options.threshold ?? 6) * noise;
   const maxima: number[] = [];
