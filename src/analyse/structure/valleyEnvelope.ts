@@ -59,7 +59,7 @@ export interface Envelope {
 export const WALL_DISTANCE_NM = 10;
 
 /** Bisection stops when the bracket of E₁ is this fraction of its starting width (see groundStateOnGrid). */
-export const BISECTION_FRACTION = 1e-7;
+export const BISECTION_FRACTION = 1e-6;
 
 /**
  * Ground state of H = −ħ²/(2m)·d²/dz² + U on the interior points of a uniform grid between hard walls:
@@ -68,7 +68,8 @@ export const BISECTION_FRACTION = 1e-7;
  * The bisection of tridiagonalGroundState starts from [min U, the Rayleigh quotient of the parabola
  * j·(n + 1 − j), close to the box's lowest mode] (an upper bound of E₁ by the min-max theorem; the Gershgorin bound 4ħ²/(2m h²)
  * lies some 10⁴ times higher on a 0.01 nm grid) and stops at BISECTION_FRACTION of that width: the
- * shift of the inverse iteration is then within ~10⁻⁷ of the gap to E₂, so three iterations converge
+ * shift of the inverse iteration is then within ~10⁻⁴ of the gap to E₂ (≥ 3 meV for a well up to 20 nm; the bracket is
+ * ~0.1–0.3 eV wide), so three iterations converge
  * the vector to double precision. The energy returned is the Rayleigh quotient of that vector, exact
  * to second order in its error (Parlett, The Symmetric Eigenvalue Problem, SIAM 1998, §4.6), summed
  * without the cancelling 2t terms: vᵀHv = Σ U_i v_i² + t·[v_1² + Σ (v_{i+1} − v_i)² + v_n²], t = ħ²/(2m h²).
@@ -90,10 +91,14 @@ export function groundStateOnGrid(potential: Float64Array, stepM: number, mass: 
     }
     return (pot + t * kin) / norm;
   };
-  let uMin = Infinity;
-  for (let i = 0; i < n; i++) uMin = Math.min(uMin, potential[i]);
   // Trial vector j·(n + 1 − j), j = 1 … n: the box's lowest mode to within a few per cent, without a sine per point.
-  const upper = energy(Float64Array.from({ length: n }, (_, i) => (i + 1) * (n - i)));
+  let uMin = Infinity;
+  const trial = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    uMin = Math.min(uMin, potential[i]);
+    trial[i] = (i + 1) * (n - i);
+  }
+  const upper = energy(trial);
   const g = tridiagonalGroundState(d, e, BISECTION_FRACTION * Math.max(0, upper - uMin), upper);
   return { value: energy(g.vector), vector: g.vector };
 }
