@@ -11,7 +11,10 @@
  */
 import { crc32, deflateSync } from "node:zlib";
 
-/** zlib level of the page pictures (1 fastest … 9 smallest): level 6, zlib's default, on palette images. */
+/**
+ * zlib level of the page pictures (1 fastest … 9 smallest). On the demo's strain maps: level 4 gives
+ * files 8 % larger than zlib's default 6 for 60 % of its CPU time (docs/scaling.md, issue 20 §2).
+ */
 export const PAGE_ZLIB_LEVEL = 4;
 
 const SIGNATURE = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
