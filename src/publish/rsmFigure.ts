@@ -13,15 +13,16 @@
  * Gaussian-smoothed sum of values divided by the Gaussian-smoothed count of
  * points, σ ≈ 0.8 × the mean point spacing), which works for maps on a grid in
  * (ω, 2θ) and for scattered points alike; cells far from any point stay
- * transparent. Colours: viridis (colourScales.ts). All text is escaped.
+ * transparent. Colours: viridis (colourScales.ts) in 255 levels, written as
+ * an indexed-colour PNG (indexedPng.ts). All text is escaped.
  */
-import { PNG } from "pngjs";
 import { A_SI, biaxialRatio, latticeDismukes, strainedPerpendicular } from "../physics/sige.ts";
 import { anglesToQ, layerPeakQ } from "../analyse/structure/reciprocalSpace.ts";
 import type { XrdFileResult } from "../analyse/structure/xrdAnalysis.ts";
 import { escapeXml } from "./waferMapSvg.ts";
 import { formatNumber } from "../model/format.ts";
-import { gradientStops, sequentialRgb, SEQUENTIAL_LUT } from "./colourScales.ts";
+import { gradientStops, sequentialRgb } from "./colourScales.ts";
+import { encodeIndexedPng } from "./indexedPng.ts";
 
 export interface RsmFigure {
   svg: string;
@@ -36,6 +37,11 @@ const PH = H - PAD.t - PAD.b;
 /** Picture cells: one per 2 px of the plot (the browser smooths the rest). */
 const GX = Math.round(PW / 2);
 const GZ = Math.round(PH / 2);
+/** Colour levels of the picture: 255 (an indexed PNG holds 256 entries, one of them transparent). */
+const LEVELS = 255;
+const PALETTE = new Uint8Array(3 * (LEVELS + 1));
+for (let l = 0; l < LEVELS; l++) PALETTE.set(sequentialRgb(l / (LEVELS - 1)), 3 * (l + 1));
+const ALPHA = Uint8Array.from({ length: LEVELS + 1 }, (_, i) => (i === 0 ? 0 : 255));
 const n1 = (v: number) => (Math.round(v * 10) / 10).toString();
 
 /** Ticks at 1, 2 or 5 × 10^k steps, about `target` of them, inside [lo, hi]. */
@@ -49,31 +55,41 @@ export function linearTicks(lo: number, hi: number, target = 5): number[] {
   return out;
 }
 
-/** Separable Gaussian blur of a GX × GZ grid, in place (σ in cells, kernel to 3σ). */
-function blur(a: Float64Array, sigma: number): void {
+/**
+ * Separable Gaussian blur of GX × GZ grids, in place (σ in cells, kernel to 3σ;
+ * taps beyond the grid's edge are left out). Each output cell adds its taps in
+ * the same order (offset −r … r) as a cell-by-cell loop would, so the result is
+ * the same to the bit; the loops run along rows so they stay simple and fast.
+ */
+function blur(grids: Float64Array[], sigma: number): void {
   const r = Math.max(1, Math.ceil(3 * sigma));
   const g = Array.from({ length: 2 * r + 1 }, (_, i) => Math.exp(-((i - r) ** 2) / (2 * sigma * sigma)));
   const norm = g.reduce((a, b) => a + b, 0);
-  const k = g.map((v) => v / norm);
-  const tmp = new Float64Array(a.length);
-  for (let j = 0; j < GZ; j++)
-    for (let i = 0; i < GX; i++) {
-      let s = 0;
-      for (let d = -r; d <= r; d++) {
-        const x = i + d;
-        if (x >= 0 && x < GX) s += k[d + r] * a[j * GX + x];
+  const k = Float64Array.from(g, (v) => v / norm);
+  const tmp = new Float64Array(GX * GZ);
+  for (const a of grids) {
+    tmp.fill(0);
+    // Along x: tmp[j, i] = Σ_d k[d]·a[j, i + d] over 0 ≤ i + d < GX, scattered from the cells that hold
+    // points (most are empty); each tmp cell still receives its taps in the order d = −r … r.
+    for (let j = 0; j < GZ; j++) {
+      const row = j * GX;
+      for (let p = 0; p < GX; p++) {
+        const v = a[row + p];
+        if (v === 0) continue;
+        for (let i = Math.max(0, p - r); i <= Math.min(GX - 1, p + r); i++) tmp[row + i] += k[p - i + r] * v;
       }
-      tmp[j * GX + i] = s;
     }
-  for (let j = 0; j < GZ; j++)
-    for (let i = 0; i < GX; i++) {
-      let s = 0;
-      for (let d = -r; d <= r; d++) {
-        const z = j + d;
-        if (z >= 0 && z < GZ) s += k[d + r] * tmp[z * GX + i];
+    // Along z: a[j, i] = Σ_d k[d]·tmp[j + d, i] over 0 ≤ j + d < GZ.
+    a.fill(0);
+    for (let j = 0; j < GZ; j++) {
+      const row = j * GX;
+      for (let d = Math.max(-r, -j); d <= Math.min(r, GZ - 1 - j); d++) {
+        const kd = k[d + r];
+        const src = (j + d) * GX;
+        for (let i = 0; i < GX; i++) a[row + i] += kd * tmp[src + i];
       }
-      a[j * GX + i] = s;
     }
+  }
 }
 
 /** The map figure (see module comment); undefined for peak tables or failed maps. `href` is the PNG's address from the page. */
@@ -116,23 +132,15 @@ export function rsmFigure(f: XrdFileResult, geFraction: number | undefined, id: 
   // Mean spacing of the points in cells, as if they covered the plot evenly.
   const spacing = Math.sqrt((GX * GZ) / n);
   const sigma = Math.max(0.7, Math.min(6, 0.8 * spacing));
-  blur(sum, sigma);
-  blur(weight, sigma);
+  blur([sum, weight], sigma);
   // The smoothed weight is the local number of points per cell; keep cells with a quarter of the mean.
   const inside = n / (GX * GZ);
-  const png = new PNG({ width: GX, height: GZ });
+  // Palette picture: entry 0 transparent, entries 1 … LEVELS the viridis levels of 0 … 1.
+  const indices = new Uint8Array(GX * GZ);
   for (let c = 0; c < weight.length; c++) {
     const w = weight[c];
-    const o = 4 * c;
-    if (w < 0.25 * inside) {
-      png.data[o + 3] = 0;
-      continue;
-    }
-    const li = Math.round(Math.min(1, Math.max(0, sum[c] / w)) * 255);
-    png.data[o] = SEQUENTIAL_LUT[3 * li];
-    png.data[o + 1] = SEQUENTIAL_LUT[3 * li + 1];
-    png.data[o + 2] = SEQUENTIAL_LUT[3 * li + 2];
-    png.data[o + 3] = 255;
+    if (w < 0.25 * inside) continue;
+    indices[c] = 1 + Math.round(Math.min(1, Math.max(0, sum[c] / w)) * (LEVELS - 1));
   }
 
   const hkl = pk.reflection;
@@ -224,5 +232,5 @@ export function rsmFigure(f: XrdFileResult, geFraction: number | undefined, id: 
     ...bar,
     `</svg>`,
   ].join("");
-  return { svg, png: PNG.sync.write(png) };
+  return { svg, png: encodeIndexedPng(indices, GX, GZ, PALETTE, ALPHA) };
 }

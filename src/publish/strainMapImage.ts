@@ -7,21 +7,46 @@
  * values beyond ±limit take the end colours, missing values mid grey. Below the map a
  * colour bar strip runs from −limit (left) to +limit (right) with a dark tick
  * at zero; the limit is returned so the page can label the bar. Interfaces
- * are drawn as near-black lines of constant growth coordinate (geometry.ts).
+ * are drawn as near-black lines of constant growth coordinate (geometry.ts:
+ * growthCoordinate, evaluated with the normal computed once per picture).
  * `maxSide` block-averages by an integer factor so the page copy stays light;
  * omit it for the full-resolution copy.
  *
- * Encoding: 8-bit RGBA (strain) with pngjs PNG.sync.write, or 8-bit greyscale
- * (micrograph) with greyPng.ts. Throws RangeError for mismatched sizes (programming error).
+ * Strain maps are drawn in STRAIN_LEVELS (65) colour levels of the scale, the
+ * colour bar in the same levels, and written as an indexed-colour PNG
+ * (indexedPng.ts: one byte per pixel, a palette of the levels); micrographs
+ * as 8-bit greyscale with greyPng.ts. Throws RangeError for mismatched sizes (programming error).
  */
-import { PNG } from "pngjs";
-import { growthCoordinate } from "../analyse/images/geometry.ts";
+import { growthNormal } from "../analyse/images/geometry.ts";
 import type { GrowthAxis } from "../model/imageInputs.ts";
 import { encodeGreyPng, PAGE_PNG } from "./greyPng.ts";
+import { encodeIndexedPng } from "./indexedPng.ts";
 import { quantile } from "simple-statistics";
 import { divergingRgb, type RGB } from "./colourScales.ts";
 
 const LINE: RGB = [20, 20, 20];
+
+/**
+ * Colour levels of the strain scale (odd, so zero strain has a level of its own: the white centre):
+ * t ∈ [−1, 1] is rounded to one of STRAIN_LEVELS evenly spaced values, each drawn in the scale's
+ * colour there. The map and its colour bar go through the same rounding, so the bar shows exactly the
+ * levels the map can take.
+ */
+export const STRAIN_LEVELS = 65;
+const MISSING_ENTRY = STRAIN_LEVELS;
+const LINE_ENTRY = STRAIN_LEVELS + 1;
+const WHITE_ENTRY = STRAIN_LEVELS + 2;
+/** Palette: the levels from −1 to +1, then missing (grey), interface line and white. */
+const PALETTE = new Uint8Array(3 * (STRAIN_LEVELS + 3));
+for (let l = 0; l < STRAIN_LEVELS; l++) PALETTE.set(divergingRgb((2 * l) / (STRAIN_LEVELS - 1) - 1), 3 * l);
+PALETTE.set(divergingRgb(Number.NaN), 3 * MISSING_ENTRY);
+PALETTE.set(LINE, 3 * LINE_ENTRY);
+PALETTE.set([255, 255, 255], 3 * WHITE_ENTRY);
+
+/** Palette entry of t ∈ [−1, 1] (clamped; non-finite → the missing grey). */
+function strainLevel(t: number): number {
+  return Number.isFinite(t) ? Math.round(((Math.min(1, Math.max(-1, t)) + 1) / 2) * (STRAIN_LEVELS - 1)) : MISSING_ENTRY;
+}
 
 /** Colour of t ∈ [−1, 1] on the diverging scale (clamped; non-finite → grey). */
 export const divergingColour = divergingRgb;
@@ -95,39 +120,41 @@ export function renderStrainMap(map: ArrayLike<number>, width: number, height: n
   const limit = options.limit ?? Math.max(1e-4, absQuantile(map, 0.99));
   const bar = options.colourBarHeight ?? Math.max(6, Math.round(small.height / 16));
   const gap = 2;
-  const png = new PNG({ width: small.width, height: small.height + gap + bar });
-  const put = (x: number, y: number, c: RGB) => {
-    const i = 4 * (y * small.width + x);
-    [png.data[i], png.data[i + 1], png.data[i + 2], png.data[i + 3]] = [c[0], c[1], c[2], 255];
-  };
+  const pw = small.width;
+  const ph = small.height + gap + bar;
+  const indices = new Uint8Array(pw * ph);
   const f = small.factor;
   const lines = options.interfaces;
-  const tilt = lines ? (lines.tilt_deg * Math.PI) / 180 : 0;
+  // The growth coordinate of each pixel centre (geometry.ts: growthCoordinate), with the normal computed once.
+  const normal = lines ? growthNormal(lines.growthAxis, (lines.tilt_deg * Math.PI) / 180) : { x: 0, y: 0 };
+  const near = 0.5 * f + 0.25;
+  const cx = (width - 1) / 2;
+  const cy = (height - 1) / 2;
   for (let y = 0; y < small.height; y++) {
-    for (let x = 0; x < small.width; x++) {
-      let c = divergingColour(small.map[y * small.width + x] / limit);
+    for (let x = 0; x < pw; x++) {
+      let c = strainLevel(small.map[y * pw + x] / limit);
       if (lines) {
-        const s = growthCoordinate((x + 0.5) * f - 0.5, (y + 0.5) * f - 0.5, width, height, lines.growthAxis, tilt);
-        if (lines.positions_px.some((p) => Math.abs(s - p) < 0.5 * f + 0.25)) c = LINE;
+        const s = normal.x * ((x + 0.5) * f - 0.5 - cx) + normal.y * ((y + 0.5) * f - 0.5 - cy);
+        for (const p of lines.positions_px) if (Math.abs(s - p) < near) c = LINE_ENTRY;
       }
-      put(x, y, c);
+      indices[y * pw + x] = c;
     }
   }
-  for (let y = small.height; y < small.height + gap; y++) for (let x = 0; x < small.width; x++) put(x, y, [255, 255, 255]);
-  const zeroX = Math.round((small.width - 1) / 2);
-  for (let y = small.height + gap; y < small.height + gap + bar; y++) {
-    for (let x = 0; x < small.width; x++) {
-      const t = small.width > 1 ? (2 * x) / (small.width - 1) - 1 : 0;
-      put(x, y, x === zeroX ? LINE : divergingColour(t));
+  indices.fill(WHITE_ENTRY, small.height * pw, (small.height + gap) * pw);
+  const zeroX = Math.round((pw - 1) / 2);
+  for (let y = small.height + gap; y < ph; y++) {
+    for (let x = 0; x < pw; x++) {
+      const t = pw > 1 ? (2 * x) / (pw - 1) - 1 : 0;
+      indices[y * pw + x] = x === zeroX ? LINE_ENTRY : strainLevel(t);
     }
   }
   return {
-    png: PNG.sync.write(png, PAGE_PNG),
-    width: png.width,
-    height: png.height,
+    png: encodeIndexedPng(indices, pw, ph, PALETTE),
+    width: pw,
+    height: ph,
     factor: f,
     limit,
-    colourBar: [small.height + gap, small.height + gap + bar],
+    colourBar: [small.height + gap, ph],
   };
 }
 

@@ -4,6 +4,7 @@
  * filter: ISO/IEC 15948 §9), the file must say filter method 0 with type 4 on every row, and a smooth picture
  * must not grow by more than a few percent (common practice: Paeth is the usual choice for continuous-tone
  * images). Data files (the demo's synthetic micrographs) keep the default encoding, byte for byte.
+ * Strain maps are palette pictures (indexedPng.ts): one byte per pixel, filter None on every row.
  */
 import { inflateSync } from "node:zlib";
 import { PNG } from "pngjs";
@@ -37,13 +38,14 @@ describe("page PNGs: one filter, same pixels", () => {
     expect(fast.length).toBeLessThan(1.05 * plain.length);
   });
 
-  it("strain maps (RGBA) are written with Paeth on every row", () => {
+  it("strain maps are indexed-colour PNGs (colour type 3, 8 bits) with filter None on every row", () => {
     const pic = renderStrainMap(
       smooth.map((v) => (v - 127) * 1e-5),
       w,
       h,
     );
-    expect(rowFilters(pic.png, pic.width, pic.height, 4)).toEqual(new Array(pic.height).fill(4));
+    expect([pic.png[24], pic.png[25]]).toEqual([8, 3]); // IHDR bit depth, colour type (ISO/IEC 15948 §11.2.2)
+    expect(rowFilters(pic.png, pic.width, pic.height, 1)).toEqual(new Array(pic.height).fill(0));
   });
 
   it("the default (data files) is unchanged: adaptive filters, not Paeth only", () => {

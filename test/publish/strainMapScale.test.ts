@@ -64,3 +64,20 @@ describe("strain map colour scale (structure)", () => {
     for (const x of [0, (W - 1) / 2, W - 1]) expect(at(x, 20)).not.toEqual(nan);
   });
 });
+
+describe("strain map colour levels", () => {
+  // A wider map than above, so the zero level spans several bar columns besides the zero tick.
+  const w = 401;
+  const wide = Float32Array.from({ length: w * H }, (_, i) => ((3 * (i % w)) / (w - 1) - 1.5) * LIMIT);
+  const p = renderStrainMap(wide, w, H, { limit: LIMIT });
+  const img = PNG.sync.read(p.png);
+  const colour = (x: number, y: number) => Array.from(img.data.subarray(4 * (y * w + x), 4 * (y * w + x) + 3)).join(",");
+  const zeroTick = Math.round((w - 1) / 2);
+  const columns = Array.from({ length: w }, (_, x) => x);
+  it("the bar shows a few dozen levels, and every colour of the map is one of the bar's", () => {
+    const bar = new Set(columns.filter((x) => x !== zeroTick).map((x) => colour(x, p.colourBar[0] + 1)));
+    expect(bar.size).toBeGreaterThanOrEqual(32);
+    expect(bar.size).toBeLessThanOrEqual(128);
+    for (const x of columns) expect(bar.has(colour(x, 20))).toBe(true);
+  });
+});

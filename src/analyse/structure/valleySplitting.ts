@@ -184,6 +184,7 @@ export function predictValleySplitting(input: ValleyInput, settings: ValleySetti
   // Plotted range: the bulk of the distribution, and the threshold with some room beyond it.
   const top = Math.max(2 * (nu + 5 * sigma), 1.2 * settings.threshold);
   const energy = Array.from({ length: DISTRIBUTION_POINTS }, (_, i) => (top * i) / (DISTRIBUTION_POINTS - 1));
+  const central = figures(nu, sigma, settings.threshold);
   return {
     ok: true,
     layers: { depth: profile.depth, ge: profile.ge, weight: env.weight },
@@ -196,8 +197,8 @@ export function predictValleySplitting(input: ValleyInput, settings: ValleySetti
     dotRadius: c.dotRadius,
     groundEnergy: env.energy,
     deterministic: { re: c.re, im: c.im },
-    ...figures(nu, sigma, settings.threshold),
-    stdErr: valleyUncertainty(input, settings),
+    ...central,
+    stdErr: valleyUncertainty(input, settings, central),
     // E_v = 2R: f_E(E) = f_R(E/2)/2.
     distribution: { energy, density: energy.map((e) => ricianPdf(e / 2, nu, sigma) / 2) },
   };

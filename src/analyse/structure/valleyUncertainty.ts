@@ -26,9 +26,9 @@ import { valleyFigures, type ValleyFigures, type ValleyInput, type ValleySetting
 
 const KEYS = ["mean", "p10", "deterministicSplitting", "sigma", "yieldFraction"] as const;
 
-/** u of each figure (same units as the figure); see the module comment. */
-export function valleyUncertainty(input: ValleyInput, settings: ValleySettings): ValleyFigures {
-  const y0 = valleyFigures(input, settings);
+/** u of each figure (same units as the figure); see the module comment. `central`: the figures of the unshifted input when the caller has them (else computed here). */
+export function valleyUncertainty(input: ValleyInput, settings: ValleySettings, central?: ValleyFigures): ValleyFigures {
+  const y0 = central ?? valleyFigures(input, settings);
   const shifts: ((sign: number) => ValleyInput)[] = [];
   for (const side of ["top", "bottom"] as const) {
     const fit: InterfaceFit = input[side];
