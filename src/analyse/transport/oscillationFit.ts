@@ -41,7 +41,7 @@ import {
   frequencyIndex,
   harmonicIndex,
   lifetimeOfDingleField,
-  modelGradient,
+  modelEvaluator,
   modelValue,
   parameterCount,
   phaseIndex,
@@ -198,7 +198,8 @@ function fitWindow(
   if (fixedA) seed[amplitudeIndex(k)] = o.amplitudeFactor as number;
   const min = seed.map((_, i) => (i === dingleFieldIndex(k) ? 0 : i === frequencyIndex(k) ? f0 - 1 / span : -Infinity));
   const max = seed.map((_, i) => (i === frequencyIndex(k) ? f0 + 1 / span : Infinity));
-  const fit = denseLevenbergMarquardt({ n, y: rho, value: (p, i) => modelValue(p, L, i), gradient: (p, i, out) => modelGradient(p, L, i, out) }, seed, {
+  const model = modelEvaluator(L);
+  const fit = denseLevenbergMarquardt({ n, y: rho, ...model }, seed, {
     min,
     max,
     fixed: fixedA ? [amplitudeIndex(k)] : [],
