@@ -74,8 +74,9 @@ interface Work {
   /** JᵀJ and Jᵀr of the free parameters at the current point. */
   jtj: Float64Array;
   jtr: Float64Array;
-  /** One row of J (all parameters). */
+  /** One row of J (all parameters), and its free entries. */
   row: Float64Array;
+  g: Float64Array;
   /** The damped JᵀJ and scaledSolve's work arrays. */
   a: Float64Array;
   d: Float64Array;
@@ -86,7 +87,7 @@ interface Work {
 /** JᵀJ (free parameters) and Jᵀr at p, into w.jtj and w.jtr. */
 function normalEquations(pr: DenseProblem, p: number[], free: number[], w: Work): void {
   const m = free.length;
-  const { jtj, jtr, row } = w;
+  const { jtj, jtr, row, g } = w;
   jtj.fill(0);
   jtr.fill(0);
   const both = pr.valueAndGradient;
@@ -97,10 +98,13 @@ function normalEquations(pr: DenseProblem, p: number[], free: number[], w: Work)
       pr.gradient(p, i, row);
       r = pr.y[i] - pr.value(p, i);
     }
+    // The free entries of the row, gathered once (g[a] = row[free[a]]: the same products as indexing row).
+    for (let a = 0; a < m; a++) g[a] = row[free[a]];
     for (let a = 0; a < m; a++) {
-      const ga = row[free[a]];
+      const ga = g[a];
       jtr[a] += ga * r;
-      for (let b = 0; b <= a; b++) jtj[a * m + b] += ga * row[free[b]];
+      const o = a * m;
+      for (let b = 0; b <= a; b++) jtj[o + b] += ga * g[b];
     }
   }
   for (let a = 0; a < m; a++) for (let b = 0; b < a; b++) jtj[b * m + a] = jtj[a * m + b];
@@ -125,6 +129,7 @@ export function denseLevenbergMarquardt(
     jtj: new Float64Array(m * m),
     jtr: new Float64Array(m),
     row: new Float64Array(k),
+    g: new Float64Array(m),
     a: new Float64Array(m * m),
     d: new Float64Array(m),
     b: new Float64Array(m * m),
