@@ -121,12 +121,26 @@ export function fixedColumnsSolver(fixed: Float64Array[], y: ArrayLike<number>):
     if (!coef) return null;
     for (let j = 0; j < m; j++) coef[j] *= norm[j];
     let ssRes = 0;
-    for (let i = 0; i < n; i++) {
-      let f = 0;
-      for (let l = 0; l < mf; l++) f += rows[i * mf + l] * coef[l];
-      for (let e = 0; e < me; e++) f += extra[e][i] * coef[mf + e];
-      ssRes += (y[i] - f) ** 2;
-    }
+    if (me === 4) {
+      // As below, the four extra terms written out (the same sum, term by term in column order).
+      const [ca, cb, cc, cd] = extra;
+      const [ka, kb, kc, kd] = [coef[mf], coef[mf + 1], coef[mf + 2], coef[mf + 3]];
+      for (let i = 0; i < n; i++) {
+        let f = 0;
+        for (let l = 0, o = i * mf; l < mf; l++) f += rows[o + l] * coef[l];
+        f += ca[i] * ka;
+        f += cb[i] * kb;
+        f += cc[i] * kc;
+        f += cd[i] * kd;
+        ssRes += (y[i] - f) ** 2;
+      }
+    } else
+      for (let i = 0; i < n; i++) {
+        let f = 0;
+        for (let l = 0; l < mf; l++) f += rows[i * mf + l] * coef[l];
+        for (let e = 0; e < me; e++) f += extra[e][i] * coef[mf + e];
+        ssRes += (y[i] - f) ** 2;
+      }
     return { coef, ssRes };
   };
 }
@@ -141,8 +155,20 @@ function fourExtraSums(extra: Float64Array[], rows: Float64Array, mf: number, y:
   const n = y.length;
   const m = mf + 4;
   const w = m + 1;
-  let aa = 0, ba = 0, bb = 0, ca_ = 0, cb_ = 0, cc_ = 0, da = 0, db = 0, dc = 0, dd = 0;
-  let ay = 0, by = 0, cy = 0, dy = 0;
+  let aa = 0,
+    ba = 0,
+    bb = 0,
+    ca_ = 0,
+    cb_ = 0,
+    cc_ = 0,
+    da = 0,
+    db = 0,
+    dc = 0,
+    dd = 0;
+  let ay = 0,
+    by = 0,
+    cy = 0,
+    dy = 0;
   const cross = new Float64Array(4 * mf);
   for (let i = 0; i < n; i++) {
     const a = ca[i];

@@ -184,7 +184,7 @@ export function modelEvaluator(L: ModelLayout): ModelEvaluator {
     return v;
   };
   /** modelValue with the point's memory filled. */
-  const valueOf = (p: ArrayLike<number>, i: number, bg: number): number => {
+  const valueAt = (p: ArrayLike<number>, i: number, bg: number): number => {
     const d = dm[i];
     return bg * (1 + (4 * p[k + 1] * thermal[i] * d * c1m[i] + 4 * p[k + 5] * thermal2[i] * d * d * c2m[i]));
   };
@@ -217,7 +217,7 @@ export function modelEvaluator(L: ModelLayout): ModelEvaluator {
   return {
     value(p, i) {
       trig(p, i);
-      return valueOf(p, i, bgAt(p, i));
+      return valueAt(p, i, bgAt(p, i));
     },
     gradient(p, i, out) {
       trig(p, i);
@@ -229,7 +229,7 @@ export function modelEvaluator(L: ModelLayout): ModelEvaluator {
       sines(i);
       const bg = bgAt(p, i);
       gradientOf(p, i, bg, out);
-      return valueOf(p, i, bg);
+      return valueAt(p, i, bg);
     },
   };
 }

@@ -107,7 +107,7 @@ export function fieldBranches(B: ArrayLike<number>): FieldBranches {
 /** True when x[k − 1] ≤ x[k] throughout and x holds no NaN. */
 function ascendingGrid(x: Float64Array): boolean {
   for (let k = 1; k < x.length; k++) if (!(x[k - 1] <= x[k])) return false;
-  return x.length === 0 || x[0] === x[0];
+  return x.length === 0 || !Number.isNaN(x[0]);
 }
 
 /**
