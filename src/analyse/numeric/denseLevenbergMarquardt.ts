@@ -74,9 +74,10 @@ interface Work {
   /** JᵀJ and Jᵀr of the free parameters at the current point. */
   jtj: Float64Array;
   jtr: Float64Array;
-  /** One row of J (all parameters), and its free entries. */
+  /** One row of J (all parameters); J's free columns (column-major, n per column) and the residuals. */
   row: Float64Array;
-  g: Float64Array;
+  jac: Float64Array;
+  res: Float64Array;
   /** The damped JᵀJ and scaledSolve's work arrays. */
   a: Float64Array;
   d: Float64Array;
@@ -84,27 +85,37 @@ interface Work {
   rs: Float64Array;
 }
 
-/** JᵀJ (free parameters) and Jᵀr at p, into w.jtj and w.jtr. */
+/**
+ * JᵀJ (free parameters) and Jᵀr at p, into w.jtj and w.jtr. J (free columns)
+ * and r are stored first, then each entry is summed over the points in order
+ * (i = 0, 1, …), one entry at a time: the same sums, in the same order, as
+ * adding each point's products to every entry in turn.
+ */
 function normalEquations(pr: DenseProblem, p: number[], free: number[], w: Work): void {
   const m = free.length;
-  const { jtj, jtr, row, g } = w;
-  jtj.fill(0);
-  jtr.fill(0);
+  const n = pr.n;
+  const { jtj, jtr, row, jac, res } = w;
   const both = pr.valueAndGradient;
-  for (let i = 0; i < pr.n; i++) {
+  for (let i = 0; i < n; i++) {
     let r: number;
     if (both) r = pr.y[i] - both(p, i, row);
     else {
       pr.gradient(p, i, row);
       r = pr.y[i] - pr.value(p, i);
     }
-    // The free entries of the row, gathered once (g[a] = row[free[a]]: the same products as indexing row).
-    for (let a = 0; a < m; a++) g[a] = row[free[a]];
-    for (let a = 0; a < m; a++) {
-      const ga = g[a];
-      jtr[a] += ga * r;
-      const o = a * m;
-      for (let b = 0; b <= a; b++) jtj[o + b] += ga * g[b];
+    res[i] = r;
+    for (let a = 0; a < m; a++) jac[a * n + i] = row[free[a]];
+  }
+  for (let a = 0; a < m; a++) {
+    const oa = a * n;
+    let s = 0;
+    for (let i = 0; i < n; i++) s += jac[oa + i] * res[i];
+    jtr[a] = s;
+    for (let b = 0; b <= a; b++) {
+      const ob = b * n;
+      let t = 0;
+      for (let i = 0; i < n; i++) t += jac[oa + i] * jac[ob + i];
+      jtj[a * m + b] = t;
     }
   }
   for (let a = 0; a < m; a++) for (let b = 0; b < a; b++) jtj[b * m + a] = jtj[a * m + b];
@@ -129,7 +140,8 @@ export function denseLevenbergMarquardt(
     jtj: new Float64Array(m * m),
     jtr: new Float64Array(m),
     row: new Float64Array(k),
-    g: new Float64Array(m),
+    jac: new Float64Array(m * pr.n),
+    res: new Float64Array(pr.n),
     a: new Float64Array(m * m),
     d: new Float64Array(m),
     b: new Float64Array(m * m),
