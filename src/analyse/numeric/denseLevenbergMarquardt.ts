@@ -25,6 +25,11 @@ export interface DenseProblem {
   value: (p: number[], i: number) => number;
   /** Writes ∂model/∂p_j at point i into `out` (all parameters). */
   gradient: (p: number[], i: number, out: Float64Array) => void;
+  /**
+   * Optional: both at once, gradient into `out`, returning the value; must give
+   * exactly the numbers of `value` and `gradient` (a model that shares work between them).
+   */
+  valueAndGradient?: (p: number[], i: number, out: Float64Array) => number;
 }
 
 export interface DenseFit {
@@ -34,12 +39,20 @@ export interface DenseFit {
   iterations: number;
 }
 
-/** Solves A·x = r (A symmetric positive definite) after scaling A to unit diagonal, so parameters of any size factor alike. */
-function scaledSolve(a: Float64Array, r: ArrayLike<number>, m: number): Float64Array | null {
-  const d = new Float64Array(m);
+/**
+ * Solves A·x = r (A symmetric positive definite) after scaling A to unit
+ * diagonal, so parameters of any size factor alike. d, b, rs: work arrays of
+ * m, m·m and m entries (overwritten).
+ */
+function scaledSolve(
+  a: Float64Array,
+  r: ArrayLike<number>,
+  m: number,
+  d: Float64Array = new Float64Array(m),
+  b: Float64Array = new Float64Array(m * m),
+  rs: Float64Array = new Float64Array(m),
+): Float64Array | null {
   for (let j = 0; j < m; j++) d[j] = a[j * m + j] > 0 ? 1 / Math.sqrt(a[j * m + j]) : 0;
-  const b = new Float64Array(m * m);
-  const rs = new Float64Array(m);
   for (let i = 0; i < m; i++) {
     rs[i] = r[i] * d[i];
     for (let j = 0; j < m; j++) b[i * m + j] = a[i * m + j] * d[i] * d[j];
@@ -56,23 +69,56 @@ function ss(pr: DenseProblem, p: number[]): number {
   return s;
 }
 
-/** JᵀJ (free parameters) and Jᵀr at p. */
-function normalEquations(pr: DenseProblem, p: number[], free: number[]) {
+/** Work arrays of one fit, reused by every iteration. */
+interface Work {
+  /** JᵀJ and Jᵀr of the free parameters at the current point. */
+  jtj: Float64Array;
+  jtr: Float64Array;
+  /** One row of J (all parameters); J's free columns (column-major, n per column) and the residuals. */
+  row: Float64Array;
+  jac: Float64Array;
+  res: Float64Array;
+  /** The damped JᵀJ and scaledSolve's work arrays. */
+  a: Float64Array;
+  d: Float64Array;
+  b: Float64Array;
+  rs: Float64Array;
+}
+
+/**
+ * JᵀJ (free parameters) and Jᵀr at p, into w.jtj and w.jtr. J (free columns)
+ * and r are stored first, then each entry is summed over the points in order
+ * (i = 0, 1, …), one entry at a time: the same sums, in the same order, as
+ * adding each point's products to every entry in turn.
+ */
+function normalEquations(pr: DenseProblem, p: number[], free: number[], w: Work): void {
   const m = free.length;
-  const jtj = new Float64Array(m * m);
-  const jtr = new Float64Array(m);
-  const row = new Float64Array(p.length);
-  for (let i = 0; i < pr.n; i++) {
-    pr.gradient(p, i, row);
-    const r = pr.y[i] - pr.value(p, i);
-    for (let a = 0; a < m; a++) {
-      const ga = row[free[a]];
-      jtr[a] += ga * r;
-      for (let b = 0; b <= a; b++) jtj[a * m + b] += ga * row[free[b]];
+  const n = pr.n;
+  const { jtj, jtr, row, jac, res } = w;
+  const both = pr.valueAndGradient;
+  for (let i = 0; i < n; i++) {
+    let r: number;
+    if (both) r = pr.y[i] - both(p, i, row);
+    else {
+      pr.gradient(p, i, row);
+      r = pr.y[i] - pr.value(p, i);
+    }
+    res[i] = r;
+    for (let a = 0; a < m; a++) jac[a * n + i] = row[free[a]];
+  }
+  for (let a = 0; a < m; a++) {
+    const oa = a * n;
+    let s = 0;
+    for (let i = 0; i < n; i++) s += jac[oa + i] * res[i];
+    jtr[a] = s;
+    for (let b = 0; b <= a; b++) {
+      const ob = b * n;
+      let t = 0;
+      for (let i = 0; i < n; i++) t += jac[oa + i] * jac[ob + i];
+      jtj[a * m + b] = t;
     }
   }
   for (let a = 0; a < m; a++) for (let b = 0; b < a; b++) jtj[b * m + a] = jtj[a * m + b];
-  return { jtj, jtr };
 }
 
 export function denseLevenbergMarquardt(
@@ -90,13 +136,25 @@ export function denseLevenbergMarquardt(
   let cost = ss(pr, p);
   let lambda = 1e-3;
   let iterations = 0;
-  let ne = normalEquations(pr, p, free);
+  const w: Work = {
+    jtj: new Float64Array(m * m),
+    jtr: new Float64Array(m),
+    row: new Float64Array(k),
+    jac: new Float64Array(m * pr.n),
+    res: new Float64Array(pr.n),
+    a: new Float64Array(m * m),
+    d: new Float64Array(m),
+    b: new Float64Array(m * m),
+    rs: new Float64Array(m),
+  };
+  normalEquations(pr, p, free, w);
   for (; iterations < (o.maxIterations ?? 50); iterations++) {
     let accepted = false;
     for (let tries = 0; tries < 12 && !accepted; tries++) {
-      const a = ne.jtj.slice();
+      const a = w.a;
+      a.set(w.jtj);
       for (let j = 0; j < m; j++) a[j * m + j] *= 1 + lambda;
-      const step = scaledSolve(a, ne.jtr, m);
+      const step = scaledSolve(a, w.jtr, m, w.d, w.b, w.rs);
       if (!step) {
         lambda *= 10;
         continue;
@@ -111,13 +169,13 @@ export function denseLevenbergMarquardt(
         cost = c;
         lambda = Math.max(lambda / 10, 1e-9);
         accepted = true;
-        ne = normalEquations(pr, p, free);
-        if (done) return finish(pr, p, free, cost, iterations + 1, ne.jtj);
+        normalEquations(pr, p, free, w);
+        if (done) return finish(pr, p, free, cost, iterations + 1, w.jtj);
       } else lambda *= 10;
     }
     if (!accepted) break;
   }
-  return finish(pr, p, free, cost, iterations, ne.jtj);
+  return finish(pr, p, free, cost, iterations, w.jtj);
 }
 
 function finish(pr: DenseProblem, p: number[], free: number[], cost: number, iterations: number, jtj: Float64Array): DenseFit {

@@ -41,7 +41,7 @@ import {
   frequencyIndex,
   harmonicIndex,
   lifetimeOfDingleField,
-  modelGradient,
+  modelEvaluator,
   modelValue,
   parameterCount,
   phaseIndex,
@@ -150,10 +150,20 @@ function prepare(b: number[], r: number[], lo: number, hi: number, order: number
       }
     }
   }
-  const field = Float64Array.from(pick, (i) => b[i]);
-  const rho = Float64Array.from(pick, (i) => r[i]);
-  const thermal = Float64Array.from(field, (x) => (temperature === undefined ? 1 : thermalFactor(temperature, x, m)));
-  const thermal2 = Float64Array.from(field, (x) => (temperature === undefined ? 1 : thermalFactor(2 * temperature, x, m)));
+  const count = pick.length;
+  const field = new Float64Array(count);
+  const rho = new Float64Array(count);
+  const thermal = new Float64Array(count).fill(1);
+  const thermal2 = new Float64Array(count).fill(1);
+  for (let q = 0; q < count; q++) {
+    const x = b[pick[q]];
+    field[q] = x;
+    rho[q] = r[pick[q]];
+    if (temperature !== undefined) {
+      thermal[q] = thermalFactor(temperature, x, m);
+      thermal2[q] = thermalFactor(2 * temperature, x, m);
+    }
+  }
   const first = field[0] ?? 0;
   const last = field[field.length - 1] ?? 0;
   return { L: { order, mid: (first + last) / 2, half: (last - first) / 2 || 1, field, thermal, thermal2 }, rho };
@@ -175,7 +185,11 @@ function thin(x: number[], y: number[]): { inverseField: number[]; oscillation: 
 /** Every other point (the starting values need fewer points than the fit), when there are more than 150. */
 function halve(L: ModelLayout, rho: Float64Array): [ModelLayout, Float64Array] {
   if (rho.length <= 150) return [L, rho];
-  const pick = <T extends Float64Array>(a: T) => a.filter((_, i) => i % 2 === 0) as T;
+  const pick = (a: Float64Array) => {
+    const out = new Float64Array((a.length + 1) >> 1);
+    for (let q = 0; q < out.length; q++) out[q] = a[2 * q];
+    return out;
+  };
   return [{ ...L, field: pick(L.field), thermal: pick(L.thermal), thermal2: pick(L.thermal2) }, pick(rho)];
 }
 
@@ -198,7 +212,8 @@ function fitWindow(
   if (fixedA) seed[amplitudeIndex(k)] = o.amplitudeFactor as number;
   const min = seed.map((_, i) => (i === dingleFieldIndex(k) ? 0 : i === frequencyIndex(k) ? f0 - 1 / span : -Infinity));
   const max = seed.map((_, i) => (i === frequencyIndex(k) ? f0 + 1 / span : Infinity));
-  const fit = denseLevenbergMarquardt({ n, y: rho, value: (p, i) => modelValue(p, L, i), gradient: (p, i, out) => modelGradient(p, L, i, out) }, seed, {
+  const model = modelEvaluator(L);
+  const fit = denseLevenbergMarquardt({ n, y: rho, ...model }, seed, {
     min,
     max,
     fixed: fixedA ? [amplitudeIndex(k)] : [],

@@ -108,3 +108,128 @@ export function modelGradient(p: ArrayLike<number>, L: ModelLayout, i: number, o
   out[k + 4] = dTheta;
   out[k + 5] = bg * e2 * c2;
 }
+
+/** The model of one fitted window with its value and gradient, for the least-squares fit (denseLevenbergMarquardt.ts). */
+export interface ModelEvaluator {
+  /** ρxx at field index i: the same number as modelValue(p, L, i). */
+  value: (p: ArrayLike<number>, i: number) => number;
+  /** ∂ρxx/∂p at field index i into out: the same numbers as modelGradient(p, L, i, out). */
+  gradient: (p: ArrayLike<number>, i: number, out: Float64Array) => void;
+  /** Both at once: writes the gradient into out and returns the value. */
+  valueAndGradient: (p: ArrayLike<number>, i: number, out: Float64Array) => number;
+}
+
+/**
+ * modelValue and modelGradient of one window, with the same arithmetic, less
+ * recomputation: t of each field is computed once, and each point remembers
+ * e^(−β/B), cos and sin of Θ = 2πf/B + φ and of 2Θ for the (β, f, φ) it last
+ * saw. A Levenberg–Marquardt step evaluates the model at a trial point and,
+ * once the step is accepted, the gradient at that same point, so the
+ * gradient's exponential and cosines come from memory (the very numbers
+ * Math.exp and Math.cos would return again). Results are bit-identical to
+ * modelValue / modelGradient for any order of calls.
+ */
+export function modelEvaluator(L: ModelLayout): ModelEvaluator {
+  const n = L.field.length;
+  const k = L.order;
+  const field = L.field;
+  const thermal = L.thermal;
+  const thermal2 = L.thermal2;
+  const ts = new Float64Array(n);
+  for (let i = 0; i < n; i++) ts[i] = (field[i] - L.mid) / L.half;
+  // The (β, f, φ) each point's memory belongs to; NaN equals nothing, so every point starts empty.
+  const keyBeta = new Float64Array(n).fill(Number.NaN);
+  const keyF = new Float64Array(n).fill(Number.NaN);
+  const keyPhi = new Float64Array(n).fill(Number.NaN);
+  const dm = new Float64Array(n);
+  const thm = new Float64Array(n);
+  const c1m = new Float64Array(n);
+  const c2m = new Float64Array(n);
+  const s1m = new Float64Array(n);
+  const s2m = new Float64Array(n);
+  /** 1 when s1m, s2m hold the sines for the point's key. */
+  const hasSin = new Uint8Array(n);
+  const trig = (p: ArrayLike<number>, i: number): void => {
+    const beta = p[k + 2];
+    const f = p[k + 3];
+    const phi = p[k + 4];
+    if (keyBeta[i] === beta && keyF[i] === f && keyPhi[i] === phi) return;
+    const b = field[i];
+    const th = (2 * Math.PI * f) / b + phi;
+    dm[i] = Math.exp(-beta / b);
+    thm[i] = th;
+    c1m[i] = Math.cos(th);
+    c2m[i] = Math.cos(2 * th);
+    hasSin[i] = 0;
+    keyBeta[i] = beta;
+    keyF[i] = f;
+    keyPhi[i] = phi;
+  };
+  const sines = (i: number): void => {
+    if (hasSin[i]) return;
+    const th = thm[i];
+    s1m[i] = Math.sin(th);
+    s2m[i] = Math.sin(2 * th);
+    hasSin[i] = 1;
+  };
+  /** background(p, L, i) with the stored t. */
+  const bgAt = (p: ArrayLike<number>, i: number): number => {
+    const t = ts[i];
+    let v = 0;
+    let tj = 1;
+    for (let j = 0; j <= k; j++) {
+      v += p[j] * tj;
+      tj *= t;
+    }
+    return v;
+  };
+  /** modelValue with the point's memory filled. */
+  const valueAt = (p: ArrayLike<number>, i: number, bg: number): number => {
+    const d = dm[i];
+    return bg * (1 + (4 * p[k + 1] * thermal[i] * d * c1m[i] + 4 * p[k + 5] * thermal2[i] * d * d * c2m[i]));
+  };
+  /** modelGradient with the point's memory (sines included) filled. */
+  const gradientOf = (p: ArrayLike<number>, i: number, bg: number, out: Float64Array): void => {
+    const b = field[i];
+    const t = ts[i];
+    const d = dm[i];
+    const e1 = 4 * thermal[i] * d;
+    const e2 = 4 * thermal2[i] * d * d;
+    const c1 = c1m[i];
+    const s1 = s1m[i];
+    const c2 = c2m[i];
+    const s2 = s2m[i];
+    const a1 = p[k + 1];
+    const a2 = p[k + 5];
+    const osc = 1 + a1 * e1 * c1 + a2 * e2 * c2;
+    let tj = 1;
+    for (let j = 0; j <= k; j++) {
+      out[j] = tj * osc;
+      tj *= t;
+    }
+    out[k + 1] = bg * e1 * c1;
+    out[k + 2] = (-bg * (a1 * e1 * c1 + 2 * a2 * e2 * c2)) / b;
+    const dTheta = -bg * (a1 * e1 * s1 + 2 * a2 * e2 * s2);
+    out[k + 3] = (dTheta * 2 * Math.PI) / b;
+    out[k + 4] = dTheta;
+    out[k + 5] = bg * e2 * c2;
+  };
+  return {
+    value(p, i) {
+      trig(p, i);
+      return valueAt(p, i, bgAt(p, i));
+    },
+    gradient(p, i, out) {
+      trig(p, i);
+      sines(i);
+      gradientOf(p, i, bgAt(p, i), out);
+    },
+    valueAndGradient(p, i, out) {
+      trig(p, i);
+      sines(i);
+      const bg = bgAt(p, i);
+      gradientOf(p, i, bg, out);
+      return valueAt(p, i, bg);
+    },
+  };
+}

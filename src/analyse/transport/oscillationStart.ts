@@ -15,7 +15,7 @@
  * parabola through the best grid point and its neighbours. Returns the full
  * parameter vector [c_0 … c_k, A, β, f, φ, A₂], or null when no solve succeeds.
  */
-import { linearLeastSquares } from "../numeric/linearLeastSquares.ts";
+import { fixedColumnsSolver, linearLeastSquares, type LinearSolution } from "../numeric/linearLeastSquares.ts";
 import type { ModelLayout } from "./oscillationModel.ts";
 
 interface Work {
@@ -28,6 +28,34 @@ interface Work {
   scale2: Float64Array;
   /** Work columns of the oscillation terms (reused by every solve). */
   osc: Float64Array[];
+  /** The linear solve with the background columns t^j and ρ fixed (their sums computed once). */
+  solve: (extra: Float64Array[]) => LinearSolution | null;
+  /** e^(−β/B) at each point for β = expBeta, and cos, sin of 2πf/B for f = trigF (the grids hold one of the two fixed). */
+  decay: Float64Array;
+  expBeta: number;
+  cos: Float64Array;
+  sin: Float64Array;
+  trigF: number;
+}
+
+/** Work arrays of the projection (see Work). */
+function work(L: ModelLayout, rho: Float64Array, powers: Float64Array[], scale: Float64Array, scale2: Float64Array): Work {
+  const n = rho.length;
+  const column = () => new Float64Array(n);
+  return {
+    L,
+    rho,
+    powers,
+    scale,
+    scale2,
+    osc: Array.from({ length: 4 }, column),
+    solve: fixedColumnsSolver(powers, rho),
+    decay: column(),
+    expBeta: Number.NaN,
+    cos: column(),
+    sin: column(),
+    trigF: Number.NaN,
+  };
 }
 
 function powerColumns(L: ModelLayout): Float64Array[] {
@@ -42,21 +70,38 @@ function powerColumns(L: ModelLayout): Float64Array[] {
 /** Linear solve at fixed β, f: coefficients [c_0 … c_k, α, γ] and SS_res. */
 function project(w: Work, beta: number, f: number) {
   const n = w.rho.length;
+  const field = w.L.field;
   const [cos, sin, cos2, sin2] = w.osc;
+  // The exponential and the cosines are the same numbers as computed afresh: kept while β (or f) stays.
+  const decay = w.decay;
+  if (!(w.expBeta === beta)) {
+    for (let i = 0; i < n; i++) decay[i] = Math.exp(-beta / field[i]);
+    w.expBeta = beta;
+  }
+  const wc = w.cos;
+  const ws = w.sin;
+  if (!(w.trigF === f)) {
+    for (let i = 0; i < n; i++) {
+      const th = (2 * Math.PI * f) / field[i];
+      wc[i] = Math.cos(th);
+      ws[i] = Math.sin(th);
+    }
+    w.trigF = f;
+  }
+  const scale = w.scale;
+  const scale2 = w.scale2;
   for (let i = 0; i < n; i++) {
-    const b = w.L.field[i];
-    const d = Math.exp(-beta / b);
-    const e = w.scale[i] * d;
-    const e2 = w.scale2[i] * d * d;
-    const th = (2 * Math.PI * f) / b;
-    const c = Math.cos(th);
-    const s = Math.sin(th);
+    const d = decay[i];
+    const e = scale[i] * d;
+    const e2 = scale2[i] * d * d;
+    const c = wc[i];
+    const s = ws[i];
     cos[i] = e * c;
     sin[i] = e * s;
     cos2[i] = e2 * (c * c - s * s);
     sin2[i] = e2 * 2 * s * c;
   }
-  return linearLeastSquares([...w.powers, cos, sin, cos2, sin2], w.rho);
+  return w.solve(w.osc);
 }
 
 function cost(w: Work, beta: number, f: number): number {
@@ -158,7 +203,7 @@ export function seedOscillation(L: ModelLayout, rho: Float64Array, f0: number, s
     }
   };
   setScale(bg.coef);
-  const w: Work = { L, rho, powers, scale, scale2, osc: Array.from({ length: 4 }, () => new Float64Array(n)) };
+  const w = work(L, rho, powers, scale, scale2);
   // Dingle estimate on ρ − ρ̂_bg relative to 4ρ̂_bg·X/sinh X.
   const resid = new Float64Array(n);
   for (let i = 0; i < n; i++) {

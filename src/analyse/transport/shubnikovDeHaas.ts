@@ -94,10 +94,17 @@ function polynomialBackground(b: number[], rho: number[], order: number): number
     const c = solve(sq, Matrix.columnVector(rho)).to1DArray();
     return t.map((x) => c.reduce((s, cj, j) => s + cj * x ** j, 0));
   }
-  const A = new Float64Array(m * k);
-  for (let i = 0; i < m; i++) for (let j = 0; j < k; j++) A[j * m + i] = t[i] ** j;
-  const coef = householderLeastSquares(A, m, k, rho);
-  return t.map((x) => coef.reduce((s, c, j) => s + c * x ** j, 0));
+  // t^j once (column-major), for the solve (which overwrites its copy) and for the background itself.
+  const powers = new Float64Array(m * k);
+  for (let i = 0; i < m; i++) for (let j = 0; j < k; j++) powers[j * m + i] = t[i] ** j;
+  const coef = householderLeastSquares(powers.slice(), m, k, rho);
+  const out = new Array<number>(m);
+  for (let i = 0; i < m; i++) {
+    let s = 0;
+    for (let j = 0; j < k; j++) s = s + coef[j] * powers[j * m + i];
+    out[i] = s;
+  }
+  return out;
 }
 
 /**

@@ -21,13 +21,14 @@ export interface SymmetrisedTrace {
   symmetrised: boolean;
 }
 
-/** Indices of `idx` ordered by key(i) ascending, stable (equal keys keep their order), as sortByX orders. */
-function sortIndices(idx: Int32Array, key: (i: number) => number): Int32Array {
+/** Indices of `idx` ordered by key(i) = sign·B[i] ascending, stable (equal keys keep their order), as sortByX orders. */
+function sortIndices(idx: Int32Array, B: ArrayLike<number>, sign: 1 | -1): Int32Array {
+  const key = (i: number) => sign * B[i];
   let ascending = true;
   let descending = true;
   for (let k = 1; k < idx.length && (ascending || descending); k++) {
-    const a = key(idx[k - 1]);
-    const b = key(idx[k]);
+    const a = sign * B[idx[k - 1]];
+    const b = sign * B[idx[k]];
     if (!(a <= b)) ascending = false;
     if (!(a > b)) descending = false;
   }
@@ -78,8 +79,8 @@ export function fieldBranches(B: ArrayLike<number>): FieldBranches {
     if (B[i] > 0) posCount++;
     if (B[i] < 0) negCount++;
   }
-  posIdx = sortIndices(posIdx, (i) => B[i]);
-  negIdx = sortIndices(negIdx, (i) => -B[i]);
+  posIdx = sortIndices(posIdx, B, 1);
+  negIdx = sortIndices(negIdx, B, -1);
   const posX = new Float64Array(posIdx.length);
   for (let k = 0; k < posIdx.length; k++) posX[k] = B[posIdx[k]];
   const negX = new Float64Array(negIdx.length);
@@ -96,8 +97,40 @@ export function fieldBranches(B: ArrayLike<number>): FieldBranches {
   const lo = new Int32Array(to - from);
   const hi = new Int32Array(to - from);
   const t = new Float64Array(to - from);
-  for (let g = 0; g < to - from; g++) bracketInto(negX, posX[from + g], g, lo, hi, t);
+  if (ascendingGrid(negX) && ascendingGrid(posX)) {
+    // The grid points ascend, so where they fall on negX only moves up: one walk instead of a bisection per point.
+    for (let g = 0, last = 0; g < to - from; g++) last = walkInto(negX, posX[from + g], last, g, lo, hi, t);
+  } else for (let g = 0; g < to - from; g++) bracketInto(negX, posX[from + g], g, lo, hi, t);
   return { posIdx, negIdx, posX, negX, posCount, negCount, from, to, lo, hi, t };
+}
+
+/** True when x[k − 1] ≤ x[k] throughout and x holds no NaN. */
+function ascendingGrid(x: Float64Array): boolean {
+  for (let k = 1; k < x.length; k++) if (!(x[k - 1] <= x[k])) return false;
+  return x.length === 0 || !Number.isNaN(x[0]);
+}
+
+/**
+ * bracketInto for an ascending grid x without NaN and an `at` no lower than
+ * the previous call's, walking up from `last` (the previous call's return, 0 at
+ * first). On such a grid bracket's bisection gives 0 when at < x[0] or n ≤ 1,
+ * else min(the last index with x ≤ at, n − 2): the same interval and weight.
+ * Returns the index the walk reached (≤ the last index with x ≤ at).
+ */
+function walkInto(x: Float64Array, at: number, last: number, g: number, los: Int32Array, his: Int32Array, ts: Float64Array): number {
+  const n = x.length;
+  let k = last;
+  while (k + 1 < n && x[k + 1] <= at) k++;
+  const lo = n < 2 || !(x[0] <= at) ? 0 : Math.min(k, n - 2);
+  const hi = Math.min(lo + 1, n - 1);
+  if (x[hi] === x[lo]) {
+    los[g] = his[g] = lo;
+    return k;
+  }
+  los[g] = lo;
+  his[g] = hi;
+  ts[g] = (at - x[lo]) / (x[hi] - x[lo]);
+  return k;
 }
 
 /** Where `at` falls on the ascending grid x (the bisection interpolateLinear uses), stored at grid point g. */
