@@ -32,27 +32,59 @@ export interface WeightedRegion {
   weight: number;
 }
 
-/** Gaussian blur with kernel exp(−d²/(4r²)) (unnormalised), separable, truncated at 6r. */
-function blur(src: Float64Array, width: number, height: number, r: number): Float64Array {
+/**
+ * Σ_i Σ_j v_i·v_j·k(x_i − x_j)·k(y_i − y_j) over the nonzero pixels of v (width × height),
+ * with k(d) = exp(−d²/(4r²)) truncated at |d| ≤ 6r: that is Σ v·(K ∗ v) for the separable
+ * Gaussian blur K (unnormalised, truncated at 6r per axis, nothing outside the image). Computed
+ * row by row over the nonzero pixels only: each row holding any is blurred along x once, then
+ * dotted with every row within reach, weighted by k of the row offset.
+ */
+function blurQuadraticForm(v: Float64Array, width: number, height: number, r: number): number {
   const reach = Math.ceil(6 * r);
-  const k = Array.from({ length: 2 * reach + 1 }, (_, i) => Math.exp(-((i - reach) ** 2) / (4 * r * r)));
-  const tmp = new Float64Array(src.length);
-  const out = new Float64Array(src.length);
+  const k = new Float64Array(2 * reach + 1);
+  for (let i = 0; i < k.length; i++) k[i] = Math.exp(-((i - reach) ** 2) / (4 * r * r));
+  // Nonzero pixels grouped by row: rowStart[y]..rowStart[y + 1] index xs/vs.
+  const rowStart = new Int32Array(height + 1);
+  let count = 0;
   for (let y = 0; y < height; y++) {
-    for (let x = 0; x < width; x++) {
-      const v = src[y * width + x];
-      if (v === 0) continue;
-      for (let d = Math.max(-reach, -x); d <= Math.min(reach, width - 1 - x); d++) tmp[y * width + x + d] += k[d + reach] * v;
+    rowStart[y] = count;
+    for (let x = 0, i = y * width; x < width; x++, i++) if (v[i] !== 0) count++;
+  }
+  rowStart[height] = count;
+  const xs = new Int32Array(count);
+  const vs = new Float64Array(count);
+  for (let y = 0, n = 0; y < height; y++) {
+    for (let x = 0, i = y * width; x < width; x++, i++) {
+      if (v[i] !== 0) {
+        xs[n] = x;
+        vs[n++] = v[i];
+      }
     }
   }
-  for (let x = 0; x < width; x++) {
-    for (let y = 0; y < height; y++) {
-      const v = tmp[y * width + x];
-      if (v === 0) continue;
-      for (let d = Math.max(-reach, -y); d <= Math.min(reach, height - 1 - y); d++) out[(y + d) * width + x] += k[d + reach] * v;
+  const blurred = new Float64Array(width);
+  let total = 0;
+  for (let y1 = 0; y1 < height; y1++) {
+    const a0 = rowStart[y1];
+    const a1 = rowStart[y1 + 1];
+    if (a0 === a1) continue;
+    blurred.fill(0);
+    for (let a = a0; a < a1; a++) {
+      const x = xs[a];
+      const val = vs[a];
+      const lo = Math.max(-reach, -x);
+      const hi = Math.min(reach, width - 1 - x);
+      for (let d = lo; d <= hi; d++) blurred[x + d] += k[d + reach] * val;
+    }
+    const yLo = Math.max(0, y1 - reach);
+    const yHi = Math.min(height - 1, y1 + reach);
+    for (let y2 = yLo; y2 <= yHi; y2++) {
+      const b1 = rowStart[y2 + 1];
+      let dot = 0;
+      for (let b = rowStart[y2]; b < b1; b++) dot += vs[b] * blurred[xs[b]];
+      total += k[y2 - y1 + reach] * dot;
     }
   }
-  return out;
+  return total;
 }
 
 /**
@@ -93,9 +125,7 @@ export function strainMeanUncertainty(maps: GpaMaps, e: Vec2, regions: WeightedR
         cIm[i] = c[i] * q.im[i];
       }
     }
-    const bRe = blur(cRe, width, height, maps.resolution_px);
-    const bIm = blur(cIm, width, height, maps.resolution_px);
-    for (let i = 0; i < c.length; i++) variance += cRe[i] * bRe[i] + cIm[i] * bIm[i];
+    variance += blurQuadraticForm(cRe, width, height, maps.resolution_px) + blurQuadraticForm(cIm, width, height, maps.resolution_px);
   });
   return Math.sqrt(Math.max(0, variance));
 }
