@@ -82,28 +82,55 @@ export function hannWindow(n: number): Float64Array {
   return w;
 }
 
+/**
+ * 1-D transforms of every row (alongRows) or every column. A line that is all zeros is left as it
+ * is (its transform is zero). Columns are gathered and scattered in blocks of COLUMN_BLOCK, so
+ * each row of the image is read in contiguous runs; every line's transform is the same as alone.
+ */
 function transformAxis(data: ComplexImage, alongRows: boolean, inverse: boolean): void {
   const { width, height, re, im } = data;
   const n = alongRows ? width : height;
   const count = alongRows ? height : width;
   const fft = fftOfSize(n);
-  const input = new Float64Array(2 * n);
-  const output = new Float64Array(2 * n);
-  for (let line = 0; line < count; line++) {
+  const block = alongRows ? 1 : Math.min(COLUMN_BLOCK, count);
+  const inputs = Array.from({ length: block }, () => new Float64Array(2 * n));
+  const outputs = Array.from({ length: block }, () => new Float64Array(2 * n));
+  const nonzero = new Uint8Array(block);
+  // Element i of line (first + b) sits at base(first, i) + b·step.
+  const step = alongRows ? 0 : 1;
+  for (let first = 0; first < count; first += block) {
+    const lines = Math.min(block, count - first);
+    nonzero.fill(0);
     for (let i = 0; i < n; i++) {
-      const idx = alongRows ? line * width + i : i * width + line;
-      input[2 * i] = re[idx];
-      input[2 * i + 1] = im[idx];
+      const base = alongRows ? first * width + i : i * width + first;
+      for (let b = 0; b < lines; b++) {
+        const r = re[base + b * step];
+        const m = im[base + b * step];
+        const input = inputs[b];
+        input[2 * i] = r;
+        input[2 * i + 1] = m;
+        if (r !== 0 || m !== 0) nonzero[b] = 1;
+      }
     }
-    if (inverse) fft.inverseTransform(output, input);
-    else fft.transform(output, input);
+    for (let b = 0; b < lines; b++) {
+      if (!nonzero[b]) continue;
+      if (inverse) fft.inverseTransform(outputs[b], inputs[b]);
+      else fft.transform(outputs[b], inputs[b]);
+    }
     for (let i = 0; i < n; i++) {
-      const idx = alongRows ? line * width + i : i * width + line;
-      re[idx] = output[2 * i];
-      im[idx] = output[2 * i + 1];
+      const base = alongRows ? first * width + i : i * width + first;
+      for (let b = 0; b < lines; b++) {
+        if (!nonzero[b]) continue;
+        const output = outputs[b];
+        re[base + b * step] = output[2 * i];
+        im[base + b * step] = output[2 * i + 1];
+      }
     }
   }
 }
+
+/** Columns transformed together per pass over the image (see transformAxis). */
+const COLUMN_BLOCK = 16;
 
 /** In-place 2-D FFT (forward, or inverse with 1/(W·H) normalisation). */
 export function fft2dInPlace(data: ComplexImage, inverse = false): ComplexImage {
