@@ -32,35 +32,26 @@ export interface WeightedRegion {
   weight: number;
 }
 
+/** Pixels of an image listed by row: row y's entries are rowStart[y] … rowStart[y + 1] − 1 of xs (column) and index. */
+interface SparsePixels {
+  rowStart: Int32Array;
+  xs: Int32Array;
+  index: Int32Array;
+}
+
 /**
- * Σ_i Σ_j v_i·v_j·k(x_i − x_j)·k(y_i − y_j) over the nonzero pixels of v (width × height),
- * with k(d) = exp(−d²/(4r²)) truncated at |d| ≤ 6r: that is Σ v·(K ∗ v) for the separable
- * Gaussian blur K (unnormalised, truncated at 6r per axis, nothing outside the image). Computed
- * row by row over the nonzero pixels only: each row holding any is blurred along x once, then
- * dotted with every row within reach, weighted by k of the row offset.
+ * Σ_a Σ_b v_a·v_b·k(x_a − x_b)·k(y_a − y_b) over the listed pixels (values v), with
+ * k(d) = exp(−d²/(4r²)) truncated at |d| ≤ 6r: that is Σ v·(K ∗ v) for the separable Gaussian
+ * blur K (unnormalised, truncated at 6r per axis, nothing outside the image) of the image that is
+ * v on the listed pixels and zero elsewhere. Computed row by row: each row holding listed pixels
+ * is blurred along x once, then dotted with every row within reach, weighted by k of the row
+ * offset. Listed pixels whose value is zero add exact zeros.
  */
-function blurQuadraticForm(v: Float64Array, width: number, height: number, r: number): number {
+function blurQuadraticForm(p: SparsePixels, vs: Float64Array, width: number, height: number, r: number): number {
   const reach = Math.ceil(6 * r);
   const k = new Float64Array(2 * reach + 1);
   for (let i = 0; i < k.length; i++) k[i] = Math.exp(-((i - reach) ** 2) / (4 * r * r));
-  // Nonzero pixels grouped by row: rowStart[y]..rowStart[y + 1] index xs/vs.
-  const rowStart = new Int32Array(height + 1);
-  let count = 0;
-  for (let y = 0; y < height; y++) {
-    rowStart[y] = count;
-    for (let x = 0, i = y * width; x < width; x++, i++) if (v[i] !== 0) count++;
-  }
-  rowStart[height] = count;
-  const xs = new Int32Array(count);
-  const vs = new Float64Array(count);
-  for (let y = 0, n = 0; y < height; y++) {
-    for (let x = 0, i = y * width; x < width; x++, i++) {
-      if (v[i] !== 0) {
-        xs[n] = x;
-        vs[n++] = v[i];
-      }
-    }
-  }
+  const { rowStart, xs } = p;
   const blurred = new Float64Array(width);
   let total = 0;
   for (let y1 = 0; y1 < height; y1++) {
@@ -71,6 +62,7 @@ function blurQuadraticForm(v: Float64Array, width: number, height: number, r: nu
     for (let a = a0; a < a1; a++) {
       const x = xs[a];
       const val = vs[a];
+      if (val === 0) continue;
       const lo = Math.max(-reach, -x);
       const hi = Math.min(reach, width - 1 - x);
       for (let d = lo; d <= hi; d++) blurred[x + d] += k[d + reach] * val;
@@ -85,6 +77,27 @@ function blurQuadraticForm(v: Float64Array, width: number, height: number, r: nu
     }
   }
   return total;
+}
+
+/** The pixels of c (width × height) with |c| > threshold, by row. */
+function pixelsAbove(c: Float64Array, width: number, height: number, threshold: number): SparsePixels {
+  const rowStart = new Int32Array(height + 1);
+  let count = 0;
+  for (let i = 0; i < c.length; i++) if (Math.abs(c[i]) > threshold) count++;
+  const xs = new Int32Array(count);
+  const index = new Int32Array(count);
+  let n = 0;
+  for (let y = 0; y < height; y++) {
+    rowStart[y] = n;
+    for (let x = 0, i = y * width; x < width; x++, i++) {
+      if (Math.abs(c[i]) > threshold) {
+        xs[n] = x;
+        index[n++] = i;
+      }
+    }
+  }
+  rowStart[height] = n;
+  return { rowStart, xs, index };
 }
 
 /**
@@ -102,11 +115,10 @@ export function strainMeanUncertainty(maps: GpaMaps, e: Vec2, regions: WeightedR
   // eᵀG⁻¹, with G⁻¹ = [[G11, −G01], [−G10, G00]]/det.
   const alpha = [(e.x * G[1][1] - e.y * G[1][0]) / det, (-e.x * G[0][1] + e.y * G[0][0]) / det];
   let variance = 0;
+  const c = new Float64Array(width * height);
   maps.phaseNoise.forEach((q, j) => {
-    const cRe = new Float64Array(width * height);
-    const cIm = new Float64Array(width * height);
+    c.fill(0);
     // Weight on δP_j of each region pixel's −α_j·(δg_j·e) = −α_j·[e_x(δP(x+1) − δP(x−1)) + e_y(δP(y+1) − δP(y−1))]/(4π).
-    const c = new Float64Array(width * height);
     for (const region of regions) {
       const w = (-alpha[j] * region.weight) / (4 * Math.PI * region.pixels.length);
       for (const i of region.pixels) {
@@ -119,13 +131,14 @@ export function strainMeanUncertainty(maps: GpaMaps, e: Vec2, regions: WeightedR
     // Inside a region the stencils cancel; drop their rounding residue so the blur runs over the edges only.
     let cMax = 0;
     for (let i = 0; i < c.length; i++) cMax = Math.max(cMax, Math.abs(c[i]));
-    for (let i = 0; i < c.length; i++) {
-      if (Math.abs(c[i]) > 1e-9 * cMax) {
-        cRe[i] = c[i] * q.re[i];
-        cIm[i] = c[i] * q.im[i];
-      }
-    }
-    variance += blurQuadraticForm(cRe, width, height, maps.resolution_px) + blurQuadraticForm(cIm, width, height, maps.resolution_px);
+    const edges = pixelsAbove(c, width, height, 1e-9 * cMax);
+    const vRe = new Float64Array(edges.index.length);
+    const vIm = new Float64Array(edges.index.length);
+    edges.index.forEach((i, a) => {
+      vRe[a] = c[i] * q.re[i];
+      vIm[a] = c[i] * q.im[i];
+    });
+    variance += blurQuadraticForm(edges, vRe, width, height, maps.resolution_px) + blurQuadraticForm(edges, vIm, width, height, maps.resolution_px);
   });
   return Math.sqrt(Math.max(0, variance));
 }
