@@ -117,30 +117,48 @@ function searchPeaks(pixels: ArrayLike<number>, width: number, height: number, f
   return { candidates, bandMedian };
 }
 
-/** Windowed DTFT power at continuous frequency (fx, fy) cycles/pixel. */
-function dtftPower(data: Float64Array, width: number, height: number, fx: number, fy: number): number {
+/** Per row y, Σ_x data·exp(−2πi·fx·x) (real and imaginary parts): the first stage of dtftPower. */
+function rowTransforms(data: Float64Array, width: number, height: number, fx: number): { rr: Float64Array; ri: Float64Array } {
   const cx = new Float64Array(width);
   const sx = new Float64Array(width);
   for (let x = 0; x < width; x++) {
     cx[x] = Math.cos(2 * Math.PI * fx * x);
     sx[x] = -Math.sin(2 * Math.PI * fx * x);
   }
+  const rr = new Float64Array(height);
+  const ri = new Float64Array(height);
+  for (let y = 0; y < height; y++) {
+    let sr = 0;
+    let si = 0;
+    const row = y * width;
+    for (let x = 0; x < width; x++) {
+      sr += data[row + x] * cx[x];
+      si += data[row + x] * sx[x];
+    }
+    rr[y] = sr;
+    ri[y] = si;
+  }
+  return { rr, ri };
+}
+
+/** Windowed DTFT power at frequency fy from the row transforms at fx (rowTransforms). */
+function columnPower(rows: { rr: Float64Array; ri: Float64Array }, height: number, fy: number): number {
   let re = 0;
   let im = 0;
   for (let y = 0; y < height; y++) {
-    let rr = 0;
-    let ri = 0;
-    const row = y * width;
-    for (let x = 0; x < width; x++) {
-      rr += data[row + x] * cx[x];
-      ri += data[row + x] * sx[x];
-    }
+    const rr = rows.rr[y];
+    const ri = rows.ri[y];
     const c = Math.cos(2 * Math.PI * fy * y);
     const s = -Math.sin(2 * Math.PI * fy * y);
     re += rr * c - ri * s;
     im += rr * s + ri * c;
   }
   return re * re + im * im;
+}
+
+/** Windowed DTFT power at continuous frequency (fx, fy) cycles/pixel. */
+function dtftPower(data: Float64Array, width: number, height: number, fx: number, fy: number): number {
+  return columnPower(rowTransforms(data, width, height, fx), height, fy);
 }
 
 /**
@@ -162,7 +180,10 @@ export function refinePeakFrequency(pixels: ArrayLike<number>, width: number, he
   for (const stepBins of [0.3, 0.1, 0.03, 0.01, 0.01]) {
     for (const axis of ["x", "y"] as const) {
       const h = stepBins / (axis === "x" ? width : height);
-      const at = (d: number) => Math.log(dtftPower(data, width, height, g.x + (axis === "x" ? d : 0), g.y + (axis === "y" ? d : 0)) + 1e-300);
+      // Along y the three points share fx, so the row transforms are computed once for them.
+      const rows = axis === "y" ? rowTransforms(data, width, height, g.x) : null;
+      const power = (d: number) => (rows ? columnPower(rows, height, g.y + d) : dtftPower(data, width, height, g.x + d, g.y));
+      const at = (d: number) => Math.log(power(d) + 1e-300);
       const l = at(-h);
       const c = at(0);
       const r = at(h);
