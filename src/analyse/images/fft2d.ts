@@ -82,28 +82,86 @@ export function hannWindow(n: number): Float64Array {
   return w;
 }
 
+/**
+ * 1-D transforms of every row (alongRows) or every column. A line that is all zeros is left as it
+ * is (its transform is zero). Columns are gathered and scattered in blocks of COLUMN_BLOCK, so
+ * each row of the image is read in contiguous runs; every line's transform is the same as alone.
+ */
 function transformAxis(data: ComplexImage, alongRows: boolean, inverse: boolean): void {
-  const { width, height, re, im } = data;
-  const n = alongRows ? width : height;
-  const count = alongRows ? height : width;
+  if (alongRows) transformRows(data, inverse);
+  else transformColumns(data, inverse);
+}
+
+function transformRows(data: ComplexImage, inverse: boolean): void {
+  const { width: n, height, re, im } = data;
   const fft = fftOfSize(n);
   const input = new Float64Array(2 * n);
   const output = new Float64Array(2 * n);
-  for (let line = 0; line < count; line++) {
+  for (let line = 0; line < height; line++) {
+    const base = line * n;
+    let nonzero = false;
     for (let i = 0; i < n; i++) {
-      const idx = alongRows ? line * width + i : i * width + line;
-      input[2 * i] = re[idx];
-      input[2 * i + 1] = im[idx];
+      const r = re[base + i];
+      const m = im[base + i];
+      input[2 * i] = r;
+      input[2 * i + 1] = m;
+      if (r !== 0 || m !== 0) nonzero = true;
     }
+    if (!nonzero) continue;
     if (inverse) fft.inverseTransform(output, input);
     else fft.transform(output, input);
     for (let i = 0; i < n; i++) {
-      const idx = alongRows ? line * width + i : i * width + line;
-      re[idx] = output[2 * i];
-      im[idx] = output[2 * i + 1];
+      re[base + i] = output[2 * i];
+      im[base + i] = output[2 * i + 1];
     }
   }
 }
+
+function transformColumns(data: ComplexImage, inverse: boolean): void {
+  const { width, height: n, re, im } = data;
+  const fft = fftOfSize(n);
+  const block = Math.min(COLUMN_BLOCK, width);
+  // Block buffers side by side: column b's element i at (b·n + i)·2.
+  const inputs = new Float64Array(2 * n * block);
+  const outputs = new Float64Array(2 * n * block);
+  const input = new Float64Array(2 * n);
+  const output = new Float64Array(2 * n);
+  const nonzero = new Uint8Array(block);
+  for (let first = 0; first < width; first += block) {
+    const lines = Math.min(block, width - first);
+    nonzero.fill(0);
+    for (let i = 0; i < n; i++) {
+      const base = i * width + first;
+      for (let b = 0; b < lines; b++) {
+        const r = re[base + b];
+        const m = im[base + b];
+        const o = 2 * (b * n + i);
+        inputs[o] = r;
+        inputs[o + 1] = m;
+        if (r !== 0 || m !== 0) nonzero[b] = 1;
+      }
+    }
+    for (let b = 0; b < lines; b++) {
+      if (!nonzero[b]) continue;
+      input.set(inputs.subarray(2 * b * n, 2 * (b + 1) * n));
+      if (inverse) fft.inverseTransform(output, input);
+      else fft.transform(output, input);
+      outputs.set(output, 2 * b * n);
+    }
+    for (let i = 0; i < n; i++) {
+      const base = i * width + first;
+      for (let b = 0; b < lines; b++) {
+        if (!nonzero[b]) continue;
+        const o = 2 * (b * n + i);
+        re[base + b] = outputs[o];
+        im[base + b] = outputs[o + 1];
+      }
+    }
+  }
+}
+
+/** Columns transformed together per pass over the image (see transformAxis). */
+const COLUMN_BLOCK = 16;
 
 /** In-place 2-D FFT (forward, or inverse with 1/(W·H) normalisation). */
 export function fft2dInPlace(data: ComplexImage, inverse = false): ComplexImage {

@@ -164,12 +164,16 @@ function localG(f: ComplexImage, carrier: Vec2, width: number, height: number) {
   const amp = new Float64Array(width * height);
   const arg2 = (a: number, b: number) => Math.atan2(im[a] * re[b] - re[a] * im[b], re[a] * re[b] + im[a] * im[b]) / (4 * Math.PI);
   for (let y = 0; y < height; y++) {
+    const row = y * W;
     const up = ((y - 1 + H) % H) * W;
     const down = ((y + 1) % H) * W;
     for (let x = 0; x < width; x++) {
-      const i = y * W + x;
+      const i = row + x;
       const o = y * width + x;
-      gx[o] = carrier.x + arg2(y * W + ((x + 1) % W), y * W + ((x - 1 + W) % W));
+      // Periodic neighbours: x ± 1 wraps only at the padded field's ends.
+      const right = x + 1 < W ? i + 1 : row;
+      const left = x > 0 ? i - 1 : row + W - 1;
+      gx[o] = carrier.x + arg2(right, left);
       gy[o] = carrier.y + arg2(down + x, up + x);
       amp[o] = Math.hypot(re[i], im[i]);
     }

@@ -62,15 +62,54 @@ export function projectProfile(pixels: ArrayLike<number>, width: number, height:
   return { s, value, variance, covarianceNext };
 }
 
-/** The matrix S (n × n) with smoothOverPeriod(v) = S·v for any v of length n (its columns are the responses to unit vectors). */
+/**
+ * The matrix S (n × n) with smoothOverPeriod(v) = S·v for any v of length n (its columns are the
+ * responses to unit vectors). Each column is nonzero only within two window reaches of its
+ * diagonal, so it is computed there alone, with the same weights and normalisations as
+ * periodAverage (the terms left out are exact zeros).
+ */
 export function smoothingMatrix(n: number, period: number | null): number[][] {
   const S = Array.from({ length: n }, () => new Array<number>(n).fill(0));
+  if (!period || period < 1.5) {
+    for (let j = 0; j < n; j++) S[j][j] = 1;
+    return S;
+  }
+  const { weights, r } = periodWeights(period);
+  // Normalisation of output i: the summed weights of the samples inside 0..n−1.
+  const norm = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    let w = 0;
+    for (let j = -r; j <= r; j++) {
+      const k = i + j;
+      if (k >= 0 && k < n) w += weights[j + r];
+    }
+    norm[i] = w;
+  }
+  const first = new Float64Array(2 * r + 1);
   for (let j = 0; j < n; j++) {
-    const e = new Array<number>(n).fill(0);
-    e[j] = 1;
-    smoothOverPeriod(e, period).forEach((w, i) => (S[i][j] = w));
+    // First pass on the unit vector e_j: nonzero at i = j − r … j + r (only k = j contributes).
+    const aLo = Math.max(0, j - r);
+    const aHi = Math.min(n - 1, j + r);
+    for (let i = aLo; i <= aHi; i++) first[i - aLo] = (weights[j - i + r] * 1) / norm[i];
+    // Second pass: nonzero at i = j − 2r … j + 2r, summing the first pass in the order periodAverage does.
+    const bLo = Math.max(0, j - 2 * r);
+    const bHi = Math.min(n - 1, j + 2 * r);
+    for (let i = bLo; i <= bHi; i++) {
+      let sum = 0;
+      for (let k = Math.max(aLo, i - r); k <= Math.min(aHi, i + r); k++) sum += weights[k - i + r] * first[k - aLo];
+      S[i][j] = sum / norm[i];
+    }
   }
   return S;
+}
+
+/** Window weights of periodAverage: each sample's overlap with [−period/2, period/2], at offsets −r…r. */
+function periodWeights(period: number): { weights: number[]; r: number } {
+  const half = period / 2;
+  const r = Math.ceil(half + 0.5);
+  const weights: number[] = [];
+  for (let j = -r; j <= r; j++) weights.push(Math.min(1, Math.max(0, half - Math.abs(j) + 0.5)));
+  return { weights, r };
 }
 
 /**
@@ -79,10 +118,7 @@ export function smoothingMatrix(n: number, period: number | null): number[][] {
  */
 export function periodAverage(values: number[], period: number | null): number[] {
   if (!period || period < 1.5) return values.slice();
-  const half = period / 2;
-  const r = Math.ceil(half + 0.5);
-  const weights: number[] = [];
-  for (let j = -r; j <= r; j++) weights.push(Math.min(1, Math.max(0, half - Math.abs(j) + 0.5)));
+  const { weights, r } = periodWeights(period);
   return values.map((_, i) => {
     let s = 0;
     let w = 0;

@@ -16,6 +16,9 @@ import { median } from "simple-statistics";
 
 /** σ̂² of the pixel noise from the transform of an image with `pixels` noisy pixels (see the module comment). */
 export function whiteNoiseVariance(spectrum: ComplexImage, pixels: number): number {
-  const power = Array.from(spectrum.re, (re, i) => re * re + spectrum.im[i] ** 2);
-  return median(power) / (Math.LN2 * pixels);
+  const { re, im } = spectrum;
+  const power = new Float64Array(re.length);
+  for (let i = 0; i < power.length; i++) power[i] = re[i] * re[i] + im[i] ** 2;
+  // simple-statistics reads the array by index only; a typed array selects faster than a number[].
+  return median(power as unknown as number[]) / (Math.LN2 * pixels);
 }

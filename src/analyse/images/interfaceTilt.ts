@@ -5,24 +5,35 @@ import { growthNormal } from "./geometry.ts";
 import type { GrowthAxis } from "../../model/imageInputs.ts";
 import { radToDeg } from "../numeric/angle.ts";
 
-/** Separable Gaussian blur (σ in pixels, edges clamped). */
+/**
+ * Separable Gaussian blur (σ in pixels, edges clamped). Each line is copied once into a buffer
+ * extended by r clamped samples at either end, so the inner sum needs no bounds; the sums are
+ * taken in the same order as a direct clamped convolution.
+ */
 function gaussianBlur(pixels: ArrayLike<number>, width: number, height: number, sigma: number): Float64Array {
   const r = Math.ceil(3 * sigma);
-  const k = Array.from({ length: 2 * r + 1 }, (_, i) => Math.exp(-((i - r) ** 2) / (2 * sigma * sigma)));
-  const norm = k.reduce((x, y) => x + y, 0);
+  const k = new Float64Array(2 * r + 1);
+  for (let i = 0; i < k.length; i++) k[i] = Math.exp(-((i - r) ** 2) / (2 * sigma * sigma));
+  let norm = 0;
+  for (let i = 0; i < k.length; i++) norm += k[i];
+  const taps = k.length;
   const tmp = new Float64Array(width * height);
   const out = new Float64Array(width * height);
+  const line = new Float64Array(Math.max(width, height) + 2 * r);
   for (let y = 0; y < height; y++) {
+    const row = y * width;
+    for (let j = 0; j < width + 2 * r; j++) line[j] = pixels[row + Math.min(width - 1, Math.max(0, j - r))];
     for (let x = 0; x < width; x++) {
       let s = 0;
-      for (let j = -r; j <= r; j++) s += k[j + r] * pixels[y * width + Math.min(width - 1, Math.max(0, x + j))];
-      tmp[y * width + x] = s / norm;
+      for (let j = 0; j < taps; j++) s += k[j] * line[x + j];
+      tmp[row + x] = s / norm;
     }
   }
-  for (let y = 0; y < height; y++) {
-    for (let x = 0; x < width; x++) {
+  for (let x = 0; x < width; x++) {
+    for (let j = 0; j < height + 2 * r; j++) line[j] = tmp[Math.min(height - 1, Math.max(0, j - r)) * width + x];
+    for (let y = 0; y < height; y++) {
       let s = 0;
-      for (let j = -r; j <= r; j++) s += k[j + r] * tmp[Math.min(height - 1, Math.max(0, y + j)) * width + x];
+      for (let j = 0; j < taps; j++) s += k[j] * line[y + j];
       out[y * width + x] = s / norm;
     }
   }

@@ -41,12 +41,53 @@ export interface PeakSearchOptions {
  * strongest first, at bin precision. Sizes must be powers of two.
  */
 export function findBraggPeaks(pixels: ArrayLike<number>, width: number, height: number, options: PeakSearchOptions = {}): BraggPeak[] {
-  const spectrum = fft2dReal(pixels, width, height, { window: true });
-  const power = powerSpectrum(spectrum);
   const fMax = 1 / (options.minPeriod_px ?? 2.5);
   const fMin = 1 / (options.maxPeriod_px ?? Math.min(width, height) / 4);
+  const { candidates, bandMedian } = peakCandidates(pixels, width, height, fMin, fMax);
+  return candidates.slice(0, options.count ?? 8).map((c) => ({
+    g: { x: c.kx / width, y: c.ky / height },
+    power: c.p,
+    contrast: bandMedian > 0 ? c.p / bandMedian : Number.MAX_VALUE,
+  }));
+}
+
+interface PeakCandidates {
+  /** Local maxima in the half-plane, strongest first. */
+  candidates: { kx: number; ky: number; p: number }[];
+  /** Median power over the searched band. */
+  bandMedian: number;
+}
+
+/**
+ * The last image searched, with its band and candidates: the Z-contrast profile and GPA of one
+ * micrograph both search the same power-of-two image (cropped or padded, the same pixels when the
+ * sides are powers of two), so the second search reuses the first's windowed transform. The
+ * pixels are compared value by value; any difference recomputes.
+ */
+let lastSearch: { pixels: Float64Array; width: number; height: number; fMin: number; fMax: number; result: PeakCandidates } | null = null;
+
+function sameImage(a: Float64Array, b: ArrayLike<number>): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i] && !(Number.isNaN(a[i]) && Number.isNaN(b[i]))) return false;
+  return true;
+}
+
+function peakCandidates(pixels: ArrayLike<number>, width: number, height: number, fMin: number, fMax: number): PeakCandidates {
+  const last = lastSearch;
+  if (last && last.width === width && last.height === height && last.fMin === fMin && last.fMax === fMax && sameImage(last.pixels, pixels)) {
+    return last.result;
+  }
+  const result = searchPeaks(pixels, width, height, fMin, fMax);
+  lastSearch = { pixels: Float64Array.from(pixels), width, height, fMin, fMax, result };
+  return result;
+}
+
+function searchPeaks(pixels: ArrayLike<number>, width: number, height: number, fMin: number, fMax: number): PeakCandidates {
+  const spectrum = fft2dReal(pixels, width, height, { window: true });
+  const power = powerSpectrum(spectrum);
   const candidates: { kx: number; ky: number; p: number }[] = [];
-  const band: number[] = [];
+  const band = new Float64Array(width * height);
+  let inBand = 0;
   for (let y = 0; y < height; y++) {
     const ky = signedBin(y, height);
     for (let x = 0; x < width; x++) {
@@ -54,7 +95,7 @@ export function findBraggPeaks(pixels: ArrayLike<number>, width: number, height:
       const f = Math.hypot(kx / width, ky / height);
       if (f < fMin || f > fMax) continue;
       const p = power[y * width + x];
-      band.push(p);
+      band[inBand++] = p;
       if (!(ky > 0 || (ky === 0 && kx > 0))) continue;
       let isMax = true;
       for (let dy = -1; dy <= 1 && isMax; dy++) {
@@ -70,39 +111,54 @@ export function findBraggPeaks(pixels: ArrayLike<number>, width: number, height:
       if (isMax) candidates.push({ kx, ky, p });
     }
   }
-  const bandMedian = band.length ? median(band) : 0;
+  // simple-statistics reads the array by index only; a typed array selects faster than a number[].
+  const bandMedian = inBand ? median(band.subarray(0, inBand) as unknown as number[]) : 0;
   candidates.sort((a, b) => b.p - a.p);
-  return candidates.slice(0, options.count ?? 8).map((c) => ({
-    g: { x: c.kx / width, y: c.ky / height },
-    power: c.p,
-    contrast: bandMedian > 0 ? c.p / bandMedian : Number.MAX_VALUE,
-  }));
+  return { candidates, bandMedian };
 }
 
-/** Windowed DTFT power at continuous frequency (fx, fy) cycles/pixel. */
-function dtftPower(data: Float64Array, width: number, height: number, fx: number, fy: number): number {
+/** Per row y, Σ_x data·exp(−2πi·fx·x) (real and imaginary parts): the first stage of dtftPower. */
+function rowTransforms(data: Float64Array, width: number, height: number, fx: number): { rr: Float64Array; ri: Float64Array } {
   const cx = new Float64Array(width);
   const sx = new Float64Array(width);
   for (let x = 0; x < width; x++) {
     cx[x] = Math.cos(2 * Math.PI * fx * x);
     sx[x] = -Math.sin(2 * Math.PI * fx * x);
   }
+  const rr = new Float64Array(height);
+  const ri = new Float64Array(height);
+  for (let y = 0; y < height; y++) {
+    let sr = 0;
+    let si = 0;
+    const row = y * width;
+    for (let x = 0; x < width; x++) {
+      sr += data[row + x] * cx[x];
+      si += data[row + x] * sx[x];
+    }
+    rr[y] = sr;
+    ri[y] = si;
+  }
+  return { rr, ri };
+}
+
+/** Windowed DTFT power at frequency fy from the row transforms at fx (rowTransforms). */
+function columnPower(rows: { rr: Float64Array; ri: Float64Array }, height: number, fy: number): number {
   let re = 0;
   let im = 0;
   for (let y = 0; y < height; y++) {
-    let rr = 0;
-    let ri = 0;
-    const row = y * width;
-    for (let x = 0; x < width; x++) {
-      rr += data[row + x] * cx[x];
-      ri += data[row + x] * sx[x];
-    }
+    const rr = rows.rr[y];
+    const ri = rows.ri[y];
     const c = Math.cos(2 * Math.PI * fy * y);
     const s = -Math.sin(2 * Math.PI * fy * y);
     re += rr * c - ri * s;
     im += rr * s + ri * c;
   }
   return re * re + im * im;
+}
+
+/** Windowed DTFT power at continuous frequency (fx, fy) cycles/pixel. */
+function dtftPower(data: Float64Array, width: number, height: number, fx: number, fy: number): number {
+  return columnPower(rowTransforms(data, width, height, fx), height, fy);
 }
 
 /**
@@ -124,7 +180,10 @@ export function refinePeakFrequency(pixels: ArrayLike<number>, width: number, he
   for (const stepBins of [0.3, 0.1, 0.03, 0.01, 0.01]) {
     for (const axis of ["x", "y"] as const) {
       const h = stepBins / (axis === "x" ? width : height);
-      const at = (d: number) => Math.log(dtftPower(data, width, height, g.x + (axis === "x" ? d : 0), g.y + (axis === "y" ? d : 0)) + 1e-300);
+      // Along y the three points share fx, so the row transforms are computed once for them.
+      const rows = axis === "y" ? rowTransforms(data, width, height, g.x) : null;
+      const power = (d: number) => (rows ? columnPower(rows, height, g.y + d) : dtftPower(data, width, height, g.x + d, g.y));
+      const at = (d: number) => Math.log(power(d) + 1e-300);
       const l = at(-h);
       const c = at(0);
       const r = at(h);

@@ -32,27 +32,72 @@ export interface WeightedRegion {
   weight: number;
 }
 
-/** Gaussian blur with kernel exp(−d²/(4r²)) (unnormalised), separable, truncated at 6r. */
-function blur(src: Float64Array, width: number, height: number, r: number): Float64Array {
+/** Pixels of an image listed by row: row y's entries are rowStart[y] … rowStart[y + 1] − 1 of xs (column) and index. */
+interface SparsePixels {
+  rowStart: Int32Array;
+  xs: Int32Array;
+  index: Int32Array;
+}
+
+/**
+ * Σ_a Σ_b v_a·v_b·k(x_a − x_b)·k(y_a − y_b) over the listed pixels (values v), with
+ * k(d) = exp(−d²/(4r²)) truncated at |d| ≤ 6r: that is Σ v·(K ∗ v) for the separable Gaussian
+ * blur K (unnormalised, truncated at 6r per axis, nothing outside the image) of the image that is
+ * v on the listed pixels and zero elsewhere. Computed row by row: each row holding listed pixels
+ * is blurred along x once, then dotted with every row within reach, weighted by k of the row
+ * offset. Listed pixels whose value is zero add exact zeros.
+ */
+function blurQuadraticForm(p: SparsePixels, vs: Float64Array, width: number, height: number, r: number): number {
   const reach = Math.ceil(6 * r);
-  const k = Array.from({ length: 2 * reach + 1 }, (_, i) => Math.exp(-((i - reach) ** 2) / (4 * r * r)));
-  const tmp = new Float64Array(src.length);
-  const out = new Float64Array(src.length);
+  const k = new Float64Array(2 * reach + 1);
+  for (let i = 0; i < k.length; i++) k[i] = Math.exp(-((i - reach) ** 2) / (4 * r * r));
+  const { rowStart, xs } = p;
+  const blurred = new Float64Array(width);
+  let total = 0;
+  for (let y1 = 0; y1 < height; y1++) {
+    const a0 = rowStart[y1];
+    const a1 = rowStart[y1 + 1];
+    if (a0 === a1) continue;
+    blurred.fill(0);
+    for (let a = a0; a < a1; a++) {
+      const x = xs[a];
+      const val = vs[a];
+      if (val === 0) continue;
+      const lo = Math.max(-reach, -x);
+      const hi = Math.min(reach, width - 1 - x);
+      for (let d = lo; d <= hi; d++) blurred[x + d] += k[d + reach] * val;
+    }
+    const yLo = Math.max(0, y1 - reach);
+    const yHi = Math.min(height - 1, y1 + reach);
+    for (let y2 = yLo; y2 <= yHi; y2++) {
+      const b1 = rowStart[y2 + 1];
+      let dot = 0;
+      for (let b = rowStart[y2]; b < b1; b++) dot += vs[b] * blurred[xs[b]];
+      total += k[y2 - y1 + reach] * dot;
+    }
+  }
+  return total;
+}
+
+/** The pixels of c (width × height) with |c| > threshold, by row. */
+function pixelsAbove(c: Float64Array, width: number, height: number, threshold: number): SparsePixels {
+  const rowStart = new Int32Array(height + 1);
+  let count = 0;
+  for (let i = 0; i < c.length; i++) if (Math.abs(c[i]) > threshold) count++;
+  const xs = new Int32Array(count);
+  const index = new Int32Array(count);
+  let n = 0;
   for (let y = 0; y < height; y++) {
-    for (let x = 0; x < width; x++) {
-      const v = src[y * width + x];
-      if (v === 0) continue;
-      for (let d = Math.max(-reach, -x); d <= Math.min(reach, width - 1 - x); d++) tmp[y * width + x + d] += k[d + reach] * v;
+    rowStart[y] = n;
+    for (let x = 0, i = y * width; x < width; x++, i++) {
+      if (Math.abs(c[i]) > threshold) {
+        xs[n] = x;
+        index[n++] = i;
+      }
     }
   }
-  for (let x = 0; x < width; x++) {
-    for (let y = 0; y < height; y++) {
-      const v = tmp[y * width + x];
-      if (v === 0) continue;
-      for (let d = Math.max(-reach, -y); d <= Math.min(reach, height - 1 - y); d++) out[(y + d) * width + x] += k[d + reach] * v;
-    }
-  }
-  return out;
+  rowStart[height] = n;
+  return { rowStart, xs, index };
 }
 
 /**
@@ -70,11 +115,10 @@ export function strainMeanUncertainty(maps: GpaMaps, e: Vec2, regions: WeightedR
   // eᵀG⁻¹, with G⁻¹ = [[G11, −G01], [−G10, G00]]/det.
   const alpha = [(e.x * G[1][1] - e.y * G[1][0]) / det, (-e.x * G[0][1] + e.y * G[0][0]) / det];
   let variance = 0;
+  const c = new Float64Array(width * height);
   maps.phaseNoise.forEach((q, j) => {
-    const cRe = new Float64Array(width * height);
-    const cIm = new Float64Array(width * height);
+    c.fill(0);
     // Weight on δP_j of each region pixel's −α_j·(δg_j·e) = −α_j·[e_x(δP(x+1) − δP(x−1)) + e_y(δP(y+1) − δP(y−1))]/(4π).
-    const c = new Float64Array(width * height);
     for (const region of regions) {
       const w = (-alpha[j] * region.weight) / (4 * Math.PI * region.pixels.length);
       for (const i of region.pixels) {
@@ -87,15 +131,14 @@ export function strainMeanUncertainty(maps: GpaMaps, e: Vec2, regions: WeightedR
     // Inside a region the stencils cancel; drop their rounding residue so the blur runs over the edges only.
     let cMax = 0;
     for (let i = 0; i < c.length; i++) cMax = Math.max(cMax, Math.abs(c[i]));
-    for (let i = 0; i < c.length; i++) {
-      if (Math.abs(c[i]) > 1e-9 * cMax) {
-        cRe[i] = c[i] * q.re[i];
-        cIm[i] = c[i] * q.im[i];
-      }
-    }
-    const bRe = blur(cRe, width, height, maps.resolution_px);
-    const bIm = blur(cIm, width, height, maps.resolution_px);
-    for (let i = 0; i < c.length; i++) variance += cRe[i] * bRe[i] + cIm[i] * bIm[i];
+    const edges = pixelsAbove(c, width, height, 1e-9 * cMax);
+    const vRe = new Float64Array(edges.index.length);
+    const vIm = new Float64Array(edges.index.length);
+    edges.index.forEach((i, a) => {
+      vRe[a] = c[i] * q.re[i];
+      vIm[a] = c[i] * q.im[i];
+    });
+    variance += blurQuadraticForm(edges, vRe, width, height, maps.resolution_px) + blurQuadraticForm(edges, vIm, width, height, maps.resolution_px);
   });
   return Math.sqrt(Math.max(0, variance));
 }

@@ -120,19 +120,44 @@ interface ProfileNoise {
   sv: number[][];
   /** Smoothing matrix S (full profile indices). */
   smooth: number[][];
+  /** Per row of sv and of smooth, the first and last index that can be nonzero (both matrices are banded). */
+  svBand: Int32Array[];
+  smoothBand: Int32Array[];
   /** Index in the full profile of the first trimmed point. */
   offset: number;
 }
 
-/** Noise covariance (per unit pixel variance) of the smoothed points from..to (trimmed indices). */
+/** First and last index of each row's nonzero entries (first > last for an all-zero row). */
+function rowBands(m: number[][]): Int32Array[] {
+  const lo = new Int32Array(m.length);
+  const hi = new Int32Array(m.length);
+  m.forEach((row, i) => {
+    let a = 0;
+    while (a < row.length && row[a] === 0) a++;
+    let b = row.length - 1;
+    while (b >= a && row[b] === 0) b--;
+    lo[i] = a;
+    hi[i] = b;
+  });
+  return [lo, hi];
+}
+
+/**
+ * Noise covariance (per unit pixel variance) of the smoothed points from..to (trimmed indices):
+ * the dot products of rows of S·V_raw with rows of S, taken over the overlap of their bands
+ * (the products left out are exact zeros).
+ */
 function windowCovariance(noise: ProfileNoise, from: number, to: number): number[][] {
   const rows = Array.from({ length: to - from + 1 }, (_, i) => i + from + noise.offset);
+  const [svLo, svHi] = noise.svBand;
+  const [sLo, sHi] = noise.smoothBand;
   return rows.map((a) =>
     rows.map((b) => {
       const x = noise.sv[a];
       const y = noise.smooth[b];
+      const end = Math.min(svHi[a], sHi[b]);
       let c = 0;
-      for (let m = 0; m < x.length; m++) c += x[m] * y[m];
+      for (let m = Math.max(svLo[a], sLo[b]); m <= end; m++) c += x[m] * y[m];
       return c;
     }),
   );
@@ -217,10 +242,19 @@ export function zContrastProfile(pixels: ArrayLike<number>, width: number, heigh
   // Drop the end bins, where the moving average runs out of samples.
   const trim = period ? Math.ceil(period) + 2 : 1;
   const smooth = smoothingMatrix(full.value.length, period);
-  const sv = smooth.map((row) =>
-    row.map((_, m) => (row[m - 1] ?? 0) * (full.covarianceNext[m - 1] ?? 0) + row[m] * full.variance[m] + (row[m + 1] ?? 0) * full.covarianceNext[m]),
-  );
-  const noise: ProfileNoise = { sv, smooth, offset: trim };
+  // Rows of S·V_raw, V_raw tridiagonal (variance, covarianceNext): each row is nonzero only one
+  // index either side of S's band; elsewhere it is exactly zero.
+  const smoothBand = rowBands(smooth);
+  const cn = full.covarianceNext;
+  const sv = smooth.map((row, a) => {
+    const out = new Array<number>(row.length).fill(0);
+    const end = Math.min(row.length - 1, smoothBand[1][a] + 1);
+    for (let m = Math.max(0, smoothBand[0][a] - 1); m <= end; m++) {
+      out[m] = (row[m - 1] ?? 0) * (cn[m - 1] ?? 0) + row[m] * full.variance[m] + (row[m + 1] ?? 0) * cn[m];
+    }
+    return out;
+  });
+  const noise: ProfileNoise = { sv, smooth, svBand: rowBands(sv), smoothBand, offset: trim };
   const smoothed = smoothOverPeriod(full.value, period).slice(trim, -trim);
   const prof = { s: full.s.slice(trim, -trim), value: full.value.slice(trim, -trim) };
   if (smoothed.length < 16) return { ok: false, reason: "profile is too short after smoothing" };
