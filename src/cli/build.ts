@@ -254,16 +254,17 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       };
       const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history });
       lap("model");
+      const toRender = sorted.map((o) => o.folder).filter((f) => !reused.has(f));
       const rendering = renderSite(
         model,
-        sorted.map((o) => o.folder).filter((f) => !reused.has(f)),
+        toRender,
         tmpDir,
         scratchDir,
         meta,
         pageExtras,
         fingerprints,
-        // The workers, idle once every page is drawn, render the wafer pages while this thread renders the rest.
-        jobs.renderer,
+        // A fresh worker renders the wafer pages while this thread renders the rest (workerPool.ts renderer).
+        await jobs.renderer(toRender.length),
       );
       // Meanwhile the files that are not rendered pages: results.json files, raw-file copies, exports and the
       // search index (no file of theirs is a page; mostly waiting on the disk, so they fill this thread's gaps).

@@ -86,8 +86,7 @@ export async function renderWaferBatch(batch: RenderBatch, outDir: string, scrat
  * Renders the site: the site-wide pages from `model`, and the drawn wafer
  * pages of `folders`. A few wafer pages (a warm build) go with the site-wide
  * pages in one Eleventy run; more are rendered in batches of PAGES_PER_RENDER,
- * by `elsewhere` when given (the build's worker threads: workerPool.ts
- * renderBatch) while this thread renders the site-wide pages, else here one
+ * by `elsewhere` when given (a worker thread: workerPool.ts renderer) while this thread renders the site-wide pages, else here one
  * after the other. Every page is the same whichever thread renders it: a page
  * depends only on its own model and extras. Returns the pages written.
  */
@@ -104,7 +103,7 @@ export async function renderSite(
   const templates = path.join(PACKAGE_ROOT, "templates");
   if (folders.length <= PAGES_PER_RENDER)
     return renderTemplates(templates, outDir, { ...model, wafers: await waferPageBatch(folders, scratchDir, extras, fingerprints) });
-  // Half batches on the workers: each of them renders while holding its own finished analysis heap, and more, smaller batches share out more evenly.
+  // Half batches elsewhere: that worker's heap follows its batch, and the site-wide pages here take a while anyway.
   const batches = renderBatches(folders, meta, extras, fingerprints, elsewhere ? Math.ceil(PAGES_PER_RENDER / 2) : PAGES_PER_RENDER);
   const away = elsewhere ? Promise.all(batches.map(elsewhere)) : undefined;
   // Reported by the await below, after the site-wide run (which may fail first: then the build fails with that).

@@ -30,7 +30,7 @@ import { FileHashes } from "./fileHashes.ts";
 import type { AnalysedFolder } from "./analyseFolder.ts";
 import { lookUpFolder, waferListing } from "./lookUp.ts";
 import type { JobContext, JobResult } from "./waferJob.ts";
-import type { RenderBatch } from "./render.ts";
+import { PAGES_PER_RENDER, type RenderBatch } from "./render.ts";
 import type { Problem } from "../model/problem.ts";
 
 /** The jobs themselves, loaded only when they run in this thread (the analysis and drawing code is otherwise loaded by the workers alone). */
@@ -309,15 +309,23 @@ export class WaferJobs {
   }
 
   /**
-   * Renders a batch of drawn wafer pages on the pool's workers, when the pool
-   * is running (a cold or re-drawing build): their analysis is done by then,
-   * and this thread renders the site-wide pages meanwhile (render.ts
-   * renderSite). Undefined when there is no pool: the batches are then
-   * rendered in this thread.
+   * Ends the pool (its workers' heaps hold what their analyses left) and,
+   * when it was running (a cold or re-drawing build), starts one fresh worker
+   * to render batches of drawn wafer pages while this thread renders the
+   * site-wide pages (render.ts renderSite). One, not the pool's size: the
+   * main thread is the other renderer, and each worker rendering adds its own
+   * heap to the build's peak memory. Undefined when there was no pool: the
+   * batches are then rendered in this thread, as are `pages` of at most
+   * PAGES_PER_RENDER. `close` ends the worker.
    */
-  get renderer(): ((batch: RenderBatch) => Promise<number>) | undefined {
-    const pool = this.pool;
-    return pool && pool.size > 0 ? (batch) => pool.render(batch) : undefined;
+  async renderer(pages: number): Promise<((batch: RenderBatch) => Promise<number>) | undefined> {
+    const used = this.pool !== undefined && this.pool.size > 0;
+    await this.close();
+    // A few pages go with the site-wide pages in one run (renderSite): no worker is worth starting.
+    if (!used || pages <= PAGES_PER_RENDER) return undefined;
+    const pool = new Pool(1, this.ctx, undefined);
+    this.pool = pool;
+    return (batch) => pool.render(batch);
   }
 
   async close(): Promise<void> {
