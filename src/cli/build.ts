@@ -243,8 +243,6 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       }
       const pagesFromCache = restoredPages.size;
       await jobs.drawAll(stillToDraw);
-      // The workers' heaps go before rendering, the main thread's busiest moment for memory.
-      await jobs.close();
       stats = {
         cacheHits: analysed.filter((a) => a.cacheHit).length - reanalysed,
         analysed: analysed.filter((a) => !a.cacheHit).length + reanalysed,
@@ -256,25 +254,37 @@ export async function build(options: BuildOptions, io: BuildIO): Promise<BuildRe
       };
       const model = buildSiteModel(outcomes, site.runs, site.problems, meta, { targets: site.targets, history });
       lap("model");
-      written = await renderSite(
+      const toRender = sorted.map((o) => o.folder).filter((f) => !reused.has(f));
+      const rendering = renderSite(
         model,
-        sorted.map((o) => o.folder).filter((f) => !reused.has(f)),
+        toRender,
         tmpDir,
         scratchDir,
         meta,
         pageExtras,
         fingerprints,
+        // A fresh worker renders the wafer pages while this thread renders the rest (workerPool.ts renderer).
+        await jobs.renderer(toRender.length),
       );
-      lap("render");
+      // Meanwhile the files that are not rendered pages: results.json files, raw-file copies, exports and the
+      // search index (no file of theirs is a page; mostly waiting on the disk, so they fill this thread's gaps).
+      const writing = (async () => {
+        await writeExtras(outcomes, dataDir, tmpDir, commitsOf, outDir, reused, jobs.fileHashes);
+        await writeExports(outcomes, tmpDir, meta, site.runs, reused);
+        await writeSearch(outcomes, site.runs, tmpDir, packageFile("minisearch", "dist/umd/index.js"));
+      })();
+      // Both settle before anything else happens to the folder they write into; a rendering failure is reported first.
+      const [rendered, wrote] = await Promise.allSettled([rendering, writing]);
+      if (rendered.status === "rejected") throw rendered.reason;
+      if (wrote.status === "rejected") throw wrote.reason;
+      written = rendered.value;
+      lap("render and write");
     } finally {
       await jobs.close();
     }
     const problems = [...site.problems, ...buildProblems, ...jobs.cacheWarnings, ...outcomes.flatMap((o) => o.problems)];
-    await writeExtras(outcomes, dataDir, tmpDir, commitsOf, outDir, reused, jobs.fileHashes);
-    await writeExports(outcomes, tmpDir, meta, site.runs, reused);
-    await writeSearch(outcomes, site.runs, tmpDir, packageFile("minisearch", "dist/umd/index.js"));
     warnings.push(...(await publish(tmpDir, outDir)));
-    lap("write");
+    lap("publish");
     return { ok: true, outcomes, problems, outDir, pages: written, stats, warnings };
   } finally {
     // Workers started early and never used (a site-wide error, every wafer from the cache).

@@ -47,31 +47,48 @@ export async function waferPageBatch(
   return batch;
 }
 
-/**
- * Renders the drawn pages of `folders` (in that order), PAGES_PER_RENDER per
- * Eleventy run; returns the number of pages written.
- */
-export async function renderWaferPages(
+/** One Eleventy run's worth of wafer pages: the folders (in order) and what their pages show beside the drawn model. */
+export interface RenderBatch {
+  folders: string[];
+  meta: SiteMeta;
+  extras: Map<string, PageExtras>;
+  fingerprints: Map<string, string>;
+}
+
+/** `folders` cut into batches of PAGES_PER_RENDER, each with its own part of `extras` and `fingerprints` (a batch is plain data: it can be posted to a worker). */
+export function renderBatches(
   folders: readonly string[],
-  outDir: string,
-  scratchDir: string,
   meta: SiteMeta,
   extras: ReadonlyMap<string, PageExtras>,
   fingerprints: ReadonlyMap<string, string>,
-): Promise<number> {
-  let written = 0;
-  for (let k = 0; k < folders.length; k += PAGES_PER_RENDER) {
-    const wafers = await waferPageBatch(folders.slice(k, k + PAGES_PER_RENDER), scratchDir, extras, fingerprints);
-    written += await renderTemplates(path.join(PACKAGE_ROOT, "templates", "wafer.njk"), outDir, { meta, wafers });
+  size = PAGES_PER_RENDER,
+): RenderBatch[] {
+  const batches: RenderBatch[] = [];
+  for (let k = 0; k < folders.length; k += size) {
+    const part = folders.slice(k, k + size);
+    batches.push({
+      folders: part,
+      meta,
+      extras: new Map(part.map((f) => [f, extras.get(f)!])),
+      fingerprints: new Map(part.map((f) => [f, fingerprints.get(f) ?? ""])),
+    });
   }
-  return written;
+  return batches;
+}
+
+/** Renders one batch of drawn wafer pages (in the main thread or a worker: waferJob.ts); returns the number of pages written. */
+export async function renderWaferBatch(batch: RenderBatch, outDir: string, scratchDir: string): Promise<number> {
+  const wafers = await waferPageBatch(batch.folders, scratchDir, batch.extras, batch.fingerprints);
+  return renderTemplates(path.join(PACKAGE_ROOT, "templates", "wafer.njk"), outDir, { meta: batch.meta, wafers });
 }
 
 /**
  * Renders the site: the site-wide pages from `model`, and the drawn wafer
  * pages of `folders`. A few wafer pages (a warm build) go with the site-wide
- * pages in one Eleventy run; more are rendered in batches of PAGES_PER_RENDER.
- * Returns the pages written.
+ * pages in one Eleventy run; more are rendered in batches of PAGES_PER_RENDER,
+ * by `elsewhere` when given (a worker thread: workerPool.ts renderer) while this thread renders the site-wide pages, else here one
+ * after the other. Every page is the same whichever thread renders it: a page
+ * depends only on its own model and extras. Returns the pages written.
  */
 export async function renderSite(
   model: object,
@@ -81,12 +98,22 @@ export async function renderSite(
   meta: SiteMeta,
   extras: ReadonlyMap<string, PageExtras>,
   fingerprints: ReadonlyMap<string, string>,
+  elsewhere?: (batch: RenderBatch) => Promise<number>,
 ): Promise<number> {
   const templates = path.join(PACKAGE_ROOT, "templates");
   if (folders.length <= PAGES_PER_RENDER)
     return renderTemplates(templates, outDir, { ...model, wafers: await waferPageBatch(folders, scratchDir, extras, fingerprints) });
-  const written = await renderTemplates(templates, outDir, { ...model, wafers: [] });
-  return written + (await renderWaferPages(folders, outDir, scratchDir, meta, extras, fingerprints));
+  // Half batches elsewhere: that worker's heap follows its batch, and the site-wide pages here take a while anyway.
+  const batches = renderBatches(folders, meta, extras, fingerprints, elsewhere ? Math.ceil(PAGES_PER_RENDER / 2) : PAGES_PER_RENDER);
+  const away = elsewhere ? Promise.all(batches.map(elsewhere)) : undefined;
+  // Reported by the await below, after the site-wide run (which may fail first: then the build fails with that).
+  away?.catch(() => {});
+  let written = await renderTemplates(templates, outDir, { ...model, wafers: [] });
+  if (away) return written + (await away).reduce((a, b) => a + b, 0);
+  for (const b of batches) {
+    written += await renderWaferBatch(b, outDir, scratchDir);
+  }
+  return written;
 }
 
 type FilterThis = { page?: { url?: string | false; inputPath?: string } };

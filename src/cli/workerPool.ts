@@ -30,6 +30,7 @@ import { FileHashes } from "./fileHashes.ts";
 import type { AnalysedFolder } from "./analyseFolder.ts";
 import { lookUpFolder, waferListing } from "./lookUp.ts";
 import type { JobContext, JobResult } from "./waferJob.ts";
+import { PAGES_PER_RENDER, type RenderBatch } from "./render.ts";
 import type { Problem } from "../model/problem.ts";
 
 /** The jobs themselves, loaded only when they run in this thread (the analysis and drawing code is otherwise loaded by the workers alone). */
@@ -49,17 +50,17 @@ export function poolSize(jobs: number): number {
   return Math.min(cores, MAX_WORKERS, jobs);
 }
 
-type Kind = "analyse" | "draw";
+type Kind = "analyse" | "draw" | "render";
 
 const stoppedUnexpectedly = (code: number) => new Error(`an analysis worker stopped unexpectedly (exit code ${code})`);
-type Reply = { id: number; ok: true; result: JobResult } | { id: number; ok: false; error: string };
+type Reply = { id: number; ok: true; result: JobResult | number } | { id: number; ok: false; error: string };
 
 /** A fixed set of workers fed from one queue. */
 class Pool {
   private readonly workers: Worker[] = [];
   private readonly idle: Worker[] = [];
-  private readonly queue: { id: number; kind: Kind; folder: string; key?: string }[] = [];
-  private readonly waiting = new Map<number, { resolve: (r: JobResult) => void; reject: (e: Error) => void; folder: string }>();
+  private readonly queue: { id: number; kind: Kind; folder: string; key?: string; batch?: RenderBatch }[] = [];
+  private readonly waiting = new Map<number, { resolve: (r: never) => void; reject: (e: Error) => void; folder: string }>();
   private failure: Error | undefined;
   private closing = false;
   private nextId = 0;
@@ -89,7 +90,7 @@ class Pool {
     w.on("message", (m: Reply) => {
       const job = this.waiting.get(m.id);
       this.waiting.delete(m.id);
-      if (m.ok) job?.resolve(m.result);
+      if (m.ok) job?.resolve(m.result as never);
       else job?.reject(new Error(`${job.folder} failed in a worker:\n${m.error}`));
       this.idle.push(w);
       this.pump();
@@ -105,12 +106,21 @@ class Pool {
     return this.workers.length;
   }
 
-  run(kind: Kind, folder: string, key?: string): Promise<JobResult> {
+  run(kind: "analyse" | "draw", folder: string, key?: string): Promise<JobResult> {
+    return this.send({ kind, folder, key });
+  }
+
+  /** Renders a batch of drawn wafer pages; resolves with the pages written. */
+  render(batch: RenderBatch): Promise<number> {
+    return this.send({ kind: "render", folder: `the wafer pages ${batch.folders[0]}…${batch.folders.at(-1)}`, batch });
+  }
+
+  private send<R>(job: { kind: Kind; folder: string; key?: string; batch?: RenderBatch }): Promise<R> {
     if (this.failure) return Promise.reject(this.failure);
     const id = this.nextId++;
-    return new Promise((resolve, reject) => {
-      this.waiting.set(id, { resolve, reject, folder });
-      this.queue.push({ id, kind, folder, key });
+    return new Promise<R>((resolve, reject) => {
+      this.waiting.set(id, { resolve, reject, folder: job.folder });
+      this.queue.push({ id, ...job });
       this.pump();
     });
   }
@@ -296,6 +306,26 @@ export class WaferJobs {
       this.cacheWarnings.push(...(j.result.warnings ?? []));
       onDone(k, j.result);
     }
+  }
+
+  /**
+   * Ends the pool (its workers' heaps hold what their analyses left) and,
+   * when it was running (a cold or re-drawing build), starts one fresh worker
+   * to render batches of drawn wafer pages while this thread renders the
+   * site-wide pages (render.ts renderSite). One, not the pool's size: the
+   * main thread is the other renderer, and each worker rendering adds its own
+   * heap to the build's peak memory. Undefined when there was no pool: the
+   * batches are then rendered in this thread, as are `pages` of at most
+   * PAGES_PER_RENDER. `close` ends the worker.
+   */
+  async renderer(pages: number): Promise<((batch: RenderBatch) => Promise<number>) | undefined> {
+    const used = this.pool !== undefined && this.pool.size > 0;
+    await this.close();
+    // A few pages go with the site-wide pages in one run (renderSite): no worker is worth starting.
+    if (!used || pages <= PAGES_PER_RENDER) return undefined;
+    const pool = new Pool(1, this.ctx, undefined);
+    this.pool = pool;
+    return (batch) => pool.render(batch);
   }
 
   async close(): Promise<void> {
