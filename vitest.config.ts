@@ -19,6 +19,38 @@ const UNIT_FILES = [
   "test/cli/summary.test.ts",
 ];
 
+/**
+ * Files of test/reliability, test/cli and test/bench that build (in this process or through the command line) but
+ * hold no state a later file could see: no shared demo site (its run folder comes from the integration project's
+ * global setup), no environment variable set, no memory measured, no browser, no server left running. They share one
+ * module graph per worker (the build's code and Eleventy are loaded once per worker instead of once per file).
+ */
+const SHARED_BUILD_FILES = [
+  "test/bench/smoke.test.ts",
+  "test/cli/args.test.ts",
+  "test/cli/check.test.ts",
+  "test/cli/incremental.test.ts",
+  "test/cli/init.test.ts",
+  "test/cli/initShards.test.ts",
+  "test/cli/slimEntry.test.ts",
+  "test/cli/strictTemplates.test.ts",
+  "test/reliability/badInputs.test.ts",
+  "test/reliability/cacheChecksum.test.ts",
+  "test/reliability/echoCap.test.ts",
+  "test/reliability/forgedHistory.test.ts",
+  "test/reliability/ids.test.ts",
+  "test/reliability/inertRaw.test.ts",
+  "test/reliability/nothingLost.test.ts",
+  "test/reliability/outputGuard.test.ts",
+  "test/reliability/outputSwap.test.ts",
+  "test/reliability/rawRetention.test.ts",
+  "test/reliability/readOnce.test.ts",
+  "test/reliability/reproducible.test.ts",
+  "test/reliability/siteNames.test.ts",
+  "test/reliability/siteWideErrors.test.ts",
+  "test/reliability/workingNames.test.ts",
+];
+
 export default defineConfig({
   test: {
     // Generous: the suite must pass on a busy 2-core machine (browser and build tests slow down several-fold).
@@ -42,9 +74,17 @@ export default defineConfig({
       {
         extends: true,
         test: {
+          name: "builds",
+          include: SHARED_BUILD_FILES,
+          isolate: false,
+        },
+      },
+      {
+        extends: true,
+        test: {
           name: "integration",
           include: ["test/**/*.test.ts"],
-          exclude: [...UNIT.map((d) => `${d}/**`), ...UNIT_FILES],
+          exclude: [...UNIT.map((d) => `${d}/**`), ...UNIT_FILES, ...SHARED_BUILD_FILES],
           // One folder per run for the demo site that read-only tests share (test/helpers/demoSite.ts builds it on first use).
           globalSetup: ["test/globalSetup.ts"],
         },

@@ -131,11 +131,12 @@ describe("waferbook build on the demo data", () => {
 
 describe("exit codes and the previous site", () => {
   it("--strict exits 1 when input errors were found", async () => {
-    // The demo's broken wafer (TQ-2404) beside a healthy one: the same input error as in the full demo, at a fraction of the build.
+    // The demo's broken wafer (TQ-2404) beside a healthy one without a micrograph (TQ-2402): the same input error as
+    // in the full demo, at a fraction of the build.
     const data = path.join(tmp, "strict-data");
     await fs.cp(path.join(root, "data"), data, {
       recursive: true,
-      filter: (src) => !src.includes(`${path.sep}wafers${path.sep}`) || ["TQ-2401", "TQ-2404"].some((w) => src.includes(`${path.sep}wafers${path.sep}${w}`)),
+      filter: (src) => !src.includes(`${path.sep}wafers${path.sep}`) || ["TQ-2402", "TQ-2404"].some((w) => src.includes(`${path.sep}wafers${path.sep}${w}`)),
     });
     const r = await waferbook(["build", "--data", data, "--out", path.join(tmp, "strict"), "--strict"]);
     expect(r.code).toBe(1);

@@ -14,7 +14,8 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 
 const ROOT = path.resolve(import.meta.dirname, "../..");
-const WAFERS = ["TQ-2401", "TQ-2402"];
+// Two demo wafers without a micrograph: what is tested is the server and its watcher, not the analysis.
+const WAFERS = ["TQ-2502", "TQ-2402"];
 const MARKER = "Serve test sentence 7f3c";
 
 let tmp: string;
@@ -69,7 +70,7 @@ describe("waferbook serve", () => {
     expect(index.status).toBe(200);
     for (const w of WAFERS) expect(index.text).toContain(`wafers/${w}/index.html`);
     expect(index.text).toMatch(/<script type="module"[^>]* src="\/\.11ty\/reload-client\.js"/);
-    expect((await page("wafers/TQ-2401/")).text).not.toContain(MARKER);
+    expect((await page("wafers/TQ-2502/")).text).not.toContain(MARKER);
   });
 
   it("answers a path that climbs out of the site with 400 and keeps serving (hostile review: it ended the process)", async () => {
@@ -83,9 +84,9 @@ describe("waferbook serve", () => {
   });
 
   it("rebuilds after a wafer.md changes and serves the new page", async () => {
-    await fs.appendFile(path.join(tmp, "data", "wafers", "TQ-2401", "wafer.md"), `\n${MARKER}.\n`);
-    await until("the rebuilt page", async () => ((await page("wafers/TQ-2401/")).text.includes(MARKER) ? true : undefined), 240);
-    expect(stderr).toMatch(/wafers\/TQ-2401\/wafer\.md changed: building/);
+    await fs.appendFile(path.join(tmp, "data", "wafers", "TQ-2502", "wafer.md"), `\n${MARKER}.\n`);
+    await until("the rebuilt page", async () => ((await page("wafers/TQ-2502/")).text.includes(MARKER) ? true : undefined), 240);
+    expect(stderr).toMatch(/wafers\/TQ-2502\/wafer\.md changed: building/);
   }, 300_000);
 
   it("says when the data folder is gone, keeps serving, and watches it again when it is back (hostile review: it went silent until restarted)", async () => {
@@ -96,7 +97,7 @@ describe("waferbook serve", () => {
     await until("the notice", async () => (/the data folder .* is gone/.test(stderr) ? true : undefined), 120);
     expect(stderr).toMatch(/waferbook serve: the data folder \S*data is gone \(removed or renamed\): the last site is still served/);
     expect(stderr).not.toMatch(/the build failed/);
-    expect((await page("wafers/TQ-2401/")).text).toContain(MARKER);
+    expect((await page("wafers/TQ-2502/")).text).toContain(MARKER);
     // Put back as a new folder (a copy: another inode, which the old watcher never sees).
     await fs.cp(away, data, { recursive: true });
     await until("the folder back", async () => (/the data folder \S*data is back: watching it again/.test(stderr) ? true : undefined), 120);
@@ -110,7 +111,7 @@ describe("waferbook serve", () => {
     await fs.appendFile(path.join(tmp, "data", "targets.yaml"), "\nbroken: [\n");
     await until("the failed build", async () => (/the build failed/.test(stderr) ? true : undefined), 240);
     expect(stderr).toMatch(/^targets\.yaml:\d+(:\d+)?: YAML syntax error/m);
-    expect((await page("wafers/TQ-2401/")).text).toContain(MARKER);
+    expect((await page("wafers/TQ-2502/")).text).toContain(MARKER);
   }, 300_000);
 
   it("stops on SIGINT with exit code 0", async () => {

@@ -74,9 +74,9 @@ async function shared(): Promise<DemoBuild> {
     root = undefined;
   }
   if (!root) {
-    // A file of the unit project (vitest.config.ts) has no run folder: it would pay a whole demo build of its own.
+    // A file of the unit or builds project (vitest.config.ts) has no run folder: it would pay a whole demo build of its own.
     throw new Error(
-      "this test reads the shared demo site, so it belongs to the integration project (vitest.config.ts: test/cli, test/reliability, test/browser), whose global setup gives the run its one demo build; move the test there",
+      "this test reads the shared demo site, so it belongs to the integration project (vitest.config.ts: test/cli, test/reliability, test/browser, outside UNIT_FILES and SHARED_BUILD_FILES), whose global setup gives the run its one demo build; move the test there",
     );
   }
   const result = path.join(root, "result.json");

@@ -8,7 +8,7 @@
  */
 import { spawn, execFile } from "node:child_process";
 import { createHash } from "node:crypto";
-import { promises as fs } from "node:fs";
+import { existsSync, promises as fs, readdirSync, readFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { isDeepStrictEqual, promisify } from "node:util";
@@ -128,9 +128,15 @@ describe("deterministic output", () => {
   }, 600_000);
 });
 
+/**
+ * The lock tests: what they check does not depend on the data, so one demo wafer with transport, X-ray and depth
+ * profiles but no micrograph (the image analysis is the costly part of a small build).
+ */
+const LOCK_WAFER = "TQ-2502";
+
 describe("the output lock", () => {
   it("refuses a build while another live process holds the lock, with a clear message; a stale lock is taken over", async () => {
-    const data = await demoCopy("lock", ["TQ-2401"]);
+    const data = await demoCopy("lock", [LOCK_WAFER]);
     const out = path.join(tmp, "lock-site");
     const holder = spawn("sleep", ["30"]);
     try {
@@ -155,7 +161,7 @@ describe("the output lock", () => {
 
   it("two concurrent CLI builds into one folder never interleave: each finishes alone or is refused", async () => {
     // One wafer: the two processes start together and meet at the lock after start-up, whatever the data.
-    const data = await demoCopy("conc", ["TQ-2401"]);
+    const data = await demoCopy("conc", [LOCK_WAFER]);
     const out = path.join(tmp, "conc-site");
     const go = () =>
       run(process.execPath, [BIN, "build", "--data", data, "--out", out], { env: { ...process.env, CI: "true" } }).then(
@@ -170,47 +176,81 @@ describe("the output lock", () => {
     const stamp = /<p>Built [0-9TZ:-]+ by/g;
     const h = await hashTree(out);
     expect([...h.keys()]).toEqual([...(await hashTree(reference)).keys()]);
-    const page = (await fs.readFile(path.join(out, "wafers/TQ-2401/index.html"), "utf8")).replace(stamp, "");
-    expect(page).toBe((await fs.readFile(path.join(reference, "wafers/TQ-2401/index.html"), "utf8")).replace(stamp, ""));
+    const page = (await fs.readFile(path.join(out, `wafers/${LOCK_WAFER}/index.html`), "utf8")).replace(stamp, "");
+    expect(page).toBe((await fs.readFile(path.join(reference, `wafers/${LOCK_WAFER}/index.html`), "utf8")).replace(stamp, ""));
   }, 600_000);
 });
 
+/**
+ * The moments of a build at which the SIGKILL test stops one, each told by what the build has written so far
+ * (src/cli/build.ts, outputFolder.ts, siteLayout.ts), not by a delay: so each phase is hit however fast or busy the
+ * machine is. `building` is the build's working folder beside the output (`.<name>-building-<pid>`).
+ */
+const KILL_MOMENTS: { phase: string; reached: (out: string, building: string, pid: number) => boolean; thenWaitMs?: number }[] = [
+  // Node and the command's code loading: nothing written yet.
+  { phase: "start-up", reached: () => true, thenWaitMs: 150 },
+  // The lock (naming this process: a killed build's stale lock stays behind) is taken first thing; then the site
+  // inputs are read and the wafers looked up in the cache, and the changed wafer is analysed.
+  { phase: "reading the inputs", reached: (out, _b, pid) => readFileSync(`${out}.lock`, "utf8").startsWith(`${pid}@`) },
+  { phase: "analysing", reached: (out, _b, pid) => readFileSync(`${out}.lock`, "utf8").startsWith(`${pid}@`), thenWaitMs: 300 },
+  // The changed wafer's page is drawn (its model waits in the "-pages" folder for rendering); history, site model.
+  { phase: "after drawing", reached: (_out, building) => existsSync(`${building}-pages`) },
+  // Eleventy has written its first page (before it, only the drawn pages' pictures are in the working folder).
+  { phase: "rendering", reached: (_out, building) => readdirSync(building).some((n) => n !== "wafers") },
+  // results.json files, raw copies and exports, then the search index.
+  { phase: "writing the files beside the pages", reached: (_out, building) => existsSync(path.join(building, "results.csv")) },
+];
+/** Whether the build has reached a moment (a file read while it is being replaced counts as not yet). */
+function hasReached(moment: (typeof KILL_MOMENTS)[number], out: string, building: string, pid: number): boolean {
+  try {
+    return moment.reached(out, building, pid);
+  } catch {
+    return false;
+  }
+}
+
 describe("a killed build loses nothing", () => {
   it("SIGKILL at several moments leaves the previous site byte-identical", async () => {
-    // Three wafers (micrographs, an input error, an incoherent well): the killed builds take TQ-2401 from its raw files
-    // (its notes change below) and the others from the cache, so what decides how long they run is start-up and rendering.
-    const data = await demoCopy("kill", ["TQ-2401", "TQ-2404", "TQ-2406"]);
+    // Two wafers: micrographs (TQ-2406, an incoherent well) and an input error (TQ-2404). Before each killed build one
+    // line is added to TQ-2404's notes, so a build that completed would be visible; the killed builds analyse that
+    // wafer (no micrograph, so its analysis is short) and take the other from the cache.
+    const data = await demoCopy("kill", ["TQ-2404", "TQ-2406"]);
     const out = path.join(tmp, "kill-site");
     await build(opts(data, out), io);
-    const before = await hashTree(out);
-    expect(before.size).toBeGreaterThan(20);
-    // The data change so a completed build would be visible.
-    await fs.appendFile(path.join(data, "wafers/TQ-2401/wafer.md"), "\nAn extra line of notes.\n");
+    const notes = path.join(data, "wafers/TQ-2404/wafer.md");
+    const page = path.join(out, "wafers/TQ-2404/index.html");
     let killed = 0;
-    for (const delay of [150, 400, 800, 1500, 2500, 4000]) {
+    for (const [k, moment] of KILL_MOMENTS.entries()) {
+      const before = await hashTree(out);
+      expect(before.size).toBeGreaterThan(20);
+      const line = `Extra line of notes number ${k}.`;
+      await fs.appendFile(notes, `\n${line}\n`);
       const child = spawn(process.execPath, [BIN, "build", "--data", data, "--out", out], { env: { ...process.env, CI: "true" }, stdio: "ignore" });
       const exited = new Promise<number | null>((r) => child.once("exit", (code) => r(code)));
-      await new Promise((r) => setTimeout(r, delay));
+      const building = path.join(tmp, `.kill-site-building-${child.pid}`);
+      // Polled every few milliseconds: the kill lands just after the phase has begun (or the wait after it).
+      while (child.exitCode === null && !hasReached(moment, out, building, child.pid!)) await new Promise((r) => setTimeout(r, 3));
+      if (moment.thenWaitMs) await new Promise((r) => setTimeout(r, moment.thenWaitMs));
       const wasKilled = child.exitCode === null && child.kill("SIGKILL");
       await exited;
-      if (!wasKilled) break; // finished before the kill: later delays would too
       const now = await hashTree(out);
-      if (!isDeepStrictEqual(now, before)) {
-        // Killed after it had published (the link already pointed at the new build, the process not yet gone):
-        // then the site is the new one, complete — never a mixture. Later delays would be too.
-        expect(await fs.readFile(path.join(out, "wafers/TQ-2401/index.html"), "utf8"), `killed after ${delay} ms`).toContain("An extra line of notes.");
-        expect(now.has(".waferbook-site")).toBe(true);
-        break;
+      if (wasKilled && isDeepStrictEqual(now, before)) {
+        killed++;
+        continue;
       }
-      killed++;
+      // Finished, or killed after it had published (the link already pointed at the new build, the process not yet
+      // gone): then the site is the new one, complete — never a mixture.
+      expect(await fs.readFile(page, "utf8"), `${moment.phase}: the site changed, so it must be the new one`).toContain(line);
+      expect(now.has(".waferbook-site")).toBe(true);
     }
-    expect(killed).toBeGreaterThanOrEqual(3);
+    // Every moment but possibly the last (whose phase may be over before the kill lands) stopped a build.
+    expect(killed).toBeGreaterThanOrEqual(KILL_MOMENTS.length - 1);
     // The next build cleans up after the killed ones and succeeds.
     const r = await build(opts(data, out), io);
     expect(r.ok).toBe(true);
     const left = (await fs.readdir(tmp)).filter((n) => n.startsWith(".kill-site-building-"));
     expect(left).toEqual([]);
-    expect(await fs.readFile(path.join(out, "wafers/TQ-2401/index.html"), "utf8")).toContain("An extra line of notes.");
+    expect(await fs.readFile(page, "utf8")).toContain(`Extra line of notes number ${KILL_MOMENTS.length - 1}.`);
   }, 600_000);
 });
 
