@@ -6,6 +6,7 @@ import { cp } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { promisify } from "node:util";
+import { parse as parseCsv } from "csv-parse/sync";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { commitAll } from "../helpers/gitRepo.ts";
 import { build, PACKAGE_ROOT } from "../../src/cli/build.ts";
@@ -102,14 +103,15 @@ describe("the demo site (the run's shared build): anchors and exports", () => {
   });
 
   it("results.csv and results.json: one row per wafer, one column per metric with its unit", () => {
-    const csv = readFileSync(path.join(out, "results.csv"), "utf8").trimEnd().split("\r\n");
-    const header = csv[0].split(",");
+    // A real CSV reader: not-judged reasons are quoted cells with commas in them (RFC 4180).
+    const csv: string[][] = parseCsv(readFileSync(path.join(out, "results.csv"), "utf8"));
+    const header = csv[0];
     expect(header.slice(0, 6)).toEqual(["wafer", "run", "grown", "reactor", "grade", "verdict"]);
     expect(header).toContain("peak_mobility [cm^2/(V s)]");
     expect(header).toContain("peak_mobility_cv [%]");
     const wafers = readdirSync(path.join(PACKAGE_ROOT, "data", "wafers"));
     expect(csv.length - 1).toBe(wafers.length);
-    for (const line of csv.slice(1)) expect(line.split(",").length).toBe(header.length);
+    for (const row of csv.slice(1)) expect(row.length).toBe(header.length);
     const json = JSON.parse(readFileSync(path.join(out, "results.json"), "utf8"));
     expect(json.wafers.length).toBe(wafers.length);
     expect(json.units.peak_mobility).toBe("cm^2/(V s)");
