@@ -4,7 +4,10 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { chartDataJson, niceStep, packInts, PACK_LEVELS, type ChartSpec } from "../../src/publish/charts.ts";
 
-type Spec = { series: { points: [number, number][]; label: string; links?: string[] }[]; views?: { series: { points: [number, number][] }[] }[] } & Record<string, unknown>;
+type Spec = { series: { points: [number, number][]; label: string; links?: string[] }[]; views?: { series: { points: [number, number][] }[] }[] } & Record<
+  string,
+  unknown
+>;
 let unpackSpecs: (specs: unknown[]) => Spec[];
 
 beforeAll(async () => {
@@ -68,7 +71,21 @@ describe("chartDataJson read back by charts.js", () => {
   });
 
   it("prints clean decimals (multiples of the step, no binary noise)", () => {
-    const back = roundTrip([spec({ series: [{ label: "s", points: [[0.1234, 5], [0.3, 6.0004], [1.7, 7]], line: true }] })]);
+    const back = roundTrip([
+      spec({
+        series: [
+          {
+            label: "s",
+            points: [
+              [0.1234, 5],
+              [0.3, 6.0004],
+              [1.7, 7],
+            ],
+            line: true,
+          },
+        ],
+      }),
+    ]);
     // x span 1.5766 / 2200 → step 0.0005; y span 2 / 840 → step 0.002.
     expect(back[0].series[0].points).toEqual([
       [0.1235, 5],
@@ -100,7 +117,14 @@ describe("chartDataJson read back by charts.js", () => {
             label: "Vg = 1 V",
             caption: "first </script>",
             series: [
-              { label: "line", points: [[0, 0], [10, 100]], line: true },
+              {
+                label: "line",
+                points: [
+                  [0, 0],
+                  [10, 100],
+                ],
+                line: true,
+              },
               { label: "one", points: [[54.9234, 20.1165]], line: false, links: ["../a/"] },
               { label: "none", points: [], line: false },
             ],
