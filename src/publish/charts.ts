@@ -2,7 +2,8 @@
  * Chart specifications for the browser: plain data the page's own script
  * (templates/assets/charts.js) hands to Chart.js. Traces are downsampled here
  * with LTTB so a page stays light however long the raw sweep; the raw files
- * are linked for full resolution.
+ * are linked for full resolution. A wafer page carries its charts packed
+ * (chartDataJson: steps of a quarter pixel, delta-coded), not as these specs.
  */
 import { lttb } from "../analyse/numeric/lttb.ts";
 import { sig6 } from "../model/format.ts";
