@@ -9,8 +9,9 @@
  *     for every gate voltage whose fit succeeded.
  * Traces are downsampled (LTTB: 220 points for ρxx, 60 for the smoother Rxy;
  * 160 for the oscillation data and 100 for the smooth fitted curve) and
- * rounded to four significant digits, so a page with every gate voltage
- * stays light (about 4 kB of JSON per view).
+ * rounded to four significant digits; the page packs them further to a
+ * quarter of a pixel (charts.ts chartDataJson), so a page with every gate
+ * voltage stays light (about 1.2 kB of chart data per view).
  */
 import type { DeviceAnalysis } from "../analyse/wafer.ts";
 import type { DeviceDepth } from "../analyse/transport/deviceDepth.ts";

@@ -8,7 +8,7 @@ import type { WaferOutcome } from "../judge/outcome.ts";
 import type { MetricJudgement, Verdict } from "../judge/verdict.ts";
 import { formatProblem } from "../model/problem.ts";
 import { formatNumber, formatValue, prettyUnit } from "../model/format.ts";
-import { jsonForScript, markerSeries, SERIES_ROLES, type ChartSpec } from "./charts.ts";
+import { chartDataJson, markerSeries, SERIES_ROLES, type ChartSpec } from "./charts.ts";
 import { traceChart } from "./traceViews.ts";
 import { pageIndex } from "./pageIndex.ts";
 import { renderNotes } from "./markdown.ts";
@@ -193,7 +193,7 @@ export function waferPageModel(o: WaferOutcome) {
     /** Every chart on the page, for the one JSON block the chart script reads. */
     charts: allCharts,
     /** The same, serialised for the page's <script type="application/json"> block ("</script>" cannot close it). */
-    chartsJson: jsonForScript(allCharts),
+    chartsJson: chartDataJson(allCharts),
     units: { mobility: prettyUnit("cm^2/(V s)"), density: prettyUnit("cm^-2") },
   };
 }

@@ -90,14 +90,61 @@
     max = snap(max, fine, true);
     return { min: min, max: max, ticks: decadeTicks(min, max, fine) };
   }
-  var api = { sci: sci, logTicks: logTicks, logAxis: logAxis };
+  // Packed series (src/publish/charts.ts chartDataJson): each coordinate is [step, first, deltas(, 1 for log10)],
+  // the deltas zigzag base-32 varints in the URL-safe base64 alphabet; turned back into [x, y] points once on load.
+  var DIGITS = "ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789-_";
+  function unpackAxis(a) {
+    var step = a[0],
+      k = a[1],
+      text = a[2],
+      log = a[3] === 1,
+      inv = step < 1 ? Math.round(1 / step) : 0;
+    var ks = [k],
+      z = 0,
+      mul = 1;
+    for (var i = 0; i < text.length; i++) {
+      var c = DIGITS.indexOf(text.charAt(i));
+      z += (c % 32) * mul;
+      if (c >= 32) {
+        mul *= 32;
+        continue;
+      }
+      k += z % 2 ? -(z + 1) / 2 : z / 2;
+      ks.push(k);
+      z = 0;
+      mul = 1;
+    }
+    return ks.map(function (q) {
+      var v = inv ? q / inv : q * step;
+      return log ? Math.pow(10, v) : v;
+    });
+  }
+  function unpackSeries(s) {
+    if (s.points || !s.x) return s;
+    var x = unpackAxis(s.x),
+      y = unpackAxis(s.y);
+    s.points = x.map(function (v, i) {
+      return [v, y[i]];
+    });
+    return s;
+  }
+  function unpackSpecs(specs) {
+    specs.forEach(function (spec) {
+      (spec.series || []).forEach(unpackSeries);
+      (spec.views || []).forEach(function (v) {
+        v.series.forEach(unpackSeries);
+      });
+    });
+    return specs;
+  }
+  var api = { sci: sci, logTicks: logTicks, logAxis: logAxis, unpackSpecs: unpackSpecs };
   if (typeof globalThis !== "undefined") globalThis.waferbookAxes = api;
   if (typeof document === "undefined") return;
 
   // Found as a script element, not by id alone, so an element of the notes or figures given the same id cannot stand in for it.
   var el = document.querySelector('script[type="application/json"]#chart-data');
   if (!el || typeof Chart === "undefined") return;
-  var specs = JSON.parse(el.textContent || "[]");
+  var specs = unpackSpecs(JSON.parse(el.textContent || "[]"));
   // Series of equal rank (data, second … fifth) differ in colour and in marker shape or dash, never colour alone.
   var palette = {
     data: "#2c5f66",
