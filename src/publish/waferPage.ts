@@ -7,7 +7,7 @@ import { PER_M2_TO_PER_CM2, M2_PER_VS_TO_CM2_PER_VS } from "../physics/constants
 import type { WaferOutcome } from "../judge/outcome.ts";
 import type { MetricJudgement, Verdict } from "../judge/verdict.ts";
 import { formatProblem } from "../model/problem.ts";
-import { formatNumber, formatValue, prettyUnit } from "../model/format.ts";
+import { formatNumber, formatValue, microSign, prettyUnit } from "../model/format.ts";
 import { chartDataJson, markerSeries, SERIES_ROLES, type ChartSpec } from "./charts.ts";
 import { traceChart } from "./traceViews.ts";
 import { pageIndex } from "./pageIndex.ts";
@@ -184,7 +184,8 @@ export function waferPageModel(o: WaferOutcome) {
       href: rawCopyHref(f),
       name: f.path.split("/").at(-1) ?? f.path,
     })),
-    settings: o.provenance.settings,
+    // The provenance keeps ASCII units (exports); the page prints the micro prefix as µ.
+    settings: o.provenance.settings.map((st) => ({ ...st, value: microSign(st.value) })),
     transportCharts,
     transportDepth,
     structure,

@@ -17,12 +17,14 @@ const E = 1.602176634e-19; // J per eV, exact (SI 2019)
 const record = (settings: Record<string, unknown>) => ({ settings: { ...DEFAULT_SETTINGS, ...settings }, settingOverrides: {} }) as unknown as WaferRecord;
 
 describe("the µ sign on the site", () => {
-  it("the settings table prints 8 µeV for a threshold of 8 µeV", () => {
+  it("the provenance (exported in results.json) keeps the ASCII 8 ueV; the page's table prints 8 µeV", () => {
     const rows = settingsProvenance(record({ valley_splitting_threshold: 8e-6 * E }), { valley_splitting_threshold: "8 ueV" });
     const row = rows.find((r) => r.key === "valley_splitting_threshold")!;
-    expect(row.value).toBe("8 µeV");
+    expect(row.value).toBe("8 ueV");
     expect(row.source).toBe("site");
-    for (const r of rows) expect(r.value).not.toMatch(ASCII_MICRO);
+    for (const r of rows) expect(r.value).not.toContain("µ");
+    for (const r of rows) expect(microSign(r.value)).not.toMatch(ASCII_MICRO);
+    expect(microSign(row.value)).toBe("8 µeV");
   });
 
   it("every setting printed in the table reads back in as the same value", () => {

@@ -17,9 +17,32 @@
  * the smallest 3-point running mean between the centres.
  * Its uncertainty, from the profile's noise: s = 1.4826·median|Δ²x|/√6, Δ²x
  * the second differences x[i+1] − 2x[i] + x[i−1] (variance 6s² for white noise;
- * a robust MAD-type estimate that a straight slope does not raise) over the
+ * a robust MAD-type estimate that a straight slope does not raise), centred in
+ * the well's interior (between the interface centres less two 10–90 % widths
+ * each) when it holds at least 12 of them — counting noise grows with the Ge
+ * level, so the barriers' noise would overstate the well's — else over the
  * whole profile except within two 10–90 % widths of either fitted interface,
- * whose curvature would raise it.
+ * whose curvature would raise it (geNoiseFrom says which).
+ * That estimate assumes the points' noise independent. Noise correlated between
+ * neighbouring points (a smoothed profile, overlapping atom-probe bins, a
+ * detector's memory) hides from the second differences, so s and u would be too
+ * small. Check: the lag-1 autocorrelation r₁ = Σ Δ²ᵢΔ²ᵢ₊₁ / Σ (Δ²ᵢ)² of the
+ * second differences (winsorised at 2.5 robust standard deviations, so that
+ * real curvature does not count) from the middle of the barrier above the
+ * well down (clear of a surface edge), outside the interfaces, is −2/3
+ * for independent noise (lag 2: +1/6), with variance 0.3025/m for m of them
+ * (Bartlett 1946); r₁ above −2/3 + 2·√(0.3025/m) counts as correlated. On a
+ * 400-point profile that withholds u for about 5 % of profiles with independent
+ * noise (finite-sample bias of r₁ included) and for 94–99 % of profiles with a
+ * 3-point moving average, AR(1) ρ = 0.6 or 10-point bins (test/analyse/structure/
+ * wellGeMinCorrelated.test.ts, 400 realisations each). The
+ * noise's own lag-1 autocorrelation is then estimated from r₁ and r₂ by
+ * inverting the Δ² autocovariances under correlation reaching 2 points
+ * (c₀ = 6γ₀ − 8γ₁ + 2γ₂, c₁ = −4γ₀ + 7γ₁ − 4γ₂, c₂ = γ₀ − 4γ₁ + 6γ₂) and
+ * named; the uncertainty and offset are withheld (wellGeMinUnknown), because
+ * longer-range correlation (a 10-point bin, AR(1)) cannot be told from real
+ * composition structure by the second differences, and a propagation with a
+ * wrong model would give a wrong u.
  * Standard uncertainty by the GUM law of propagation of uncertainty (JCGM
  * 100:2008 §5.1.2) for the running mean that gave the minimum, its points
  * independent with u(x) = s: u = s/√k, k its points (3). Taking the smallest of
@@ -32,7 +55,7 @@
  * fixed seed); for a well whose minimum stands out it is 0. So the minimum
  * lies between true level − offset and true level, ± u. Both undefined when
  * the profile gives no noise estimate (s = 0: most neighbours equal, e.g. a
- * rounded or model profile).
+ * rounded or model profile) or its noise is correlated (above).
  * Contaminants: peak value inside the well (between the centres) and near it
  * (within `nearDistance` of either centre, default 10 nm).
  * Depth is in nm (any unit works if `window` and `nearDistance` use it too);
@@ -100,8 +123,12 @@ export type DepthProfileResult =
       wellGeMinStdErr?: number;
       /** Expected shortfall of wellGeMin below the true level of a flat well (selection of the minimum), ≥ 0; undefined without a noise estimate. */
       wellGeMinOffset?: number;
+      /** Why wellGeMinStdErr and wellGeMinOffset are undefined, when they are (module comment). */
+      wellGeMinUnknown?: string;
       /** Point-to-point noise s of the Ge fraction, 1 (0 when the profile gives no noise estimate). */
       geNoise: number;
+      /** Where s was estimated: the well's interior, or the whole profile (fewer than 12 second differences in the interior). */
+      geNoiseFrom: "well" | "profile";
       nearDistance: number;
       contaminants: ContaminantPeak[];
       /** Median depth spacing of the profile, nm (profileSampling.ts judges it against the interface widths). */
@@ -161,8 +188,21 @@ export function analyseDepthProfile(input: DepthProfileInput, options: DepthProf
   const [cands, points] = inside.length ? [inside.map((i) => sm3[i]), 3] : [sm.slice(well.start, well.end + 1), 5];
   const wellGeMin = Math.min(...cands);
   const edges = [top, bottom].map((f) => [f.centre - 2 * f.width10to90, f.centre + 2 * f.width10to90]);
-  const geNoise = pointNoise(z, g, (d) => edges.every(([a, b]) => d < a || d > b));
+  const outside = (d: number) => edges.every(([a, b]) => d < a || d > b);
+  const inWell = (d: number) => d > edges[0][1] && d < edges[1][0];
+  const wellD2 = secondDifferences(z, g, inWell);
+  const geNoiseFrom = wellD2.length >= MIN_WELL_NOISE_POINTS ? "well" : "profile";
+  const geNoise = robustNoise(geNoiseFrom === "well" ? wellD2 : secondDifferences(z, g, outside));
+  // The correlation check starts half-way through the barrier above the well, clear of a surface edge's curvature.
+  const fromBarrier = (z[above.start] + z[above.end]) / 2;
+  const correlation = noiseCorrelation(z, g, (d) => d >= fromBarrier && outside(d));
   const interior = inside.filter((i) => z[i] >= top.centre + top.width10to90 && z[i] <= bottom.centre - bottom.width10to90).length;
+  const uncertainty = correlation.correlated ? {} : minimumUncertainty(Math.max(1, interior), points, geNoise);
+  const wellGeMinUnknown = !(geNoise > 0)
+    ? "the profile gives no noise estimate, most neighbouring points being equal"
+    : correlation.correlated
+      ? `the profile's noise is correlated between points (lag-1 ≈ ${correlation.lag1.toFixed(2)}), so the point-to-point scatter understates the scatter of the means`
+      : undefined;
   return {
     ok: true,
     top,
@@ -171,19 +211,75 @@ export function analyseDepthProfile(input: DepthProfileInput, options: DepthProf
     wellThicknessStdErr: Math.hypot(top.centreStdErr, bottom.centreStdErr),
     barrierGeFraction: (top.barrierGe + bottom.barrierGe) / 2,
     wellGeMin,
-    ...minimumUncertainty(Math.max(1, interior), points, geNoise),
+    ...uncertainty,
+    ...(wellGeMinUnknown ? { wellGeMinUnknown } : {}),
     geNoise,
+    geNoiseFrom,
     nearDistance,
     contaminants: contaminantPeaks(input, top.centre, bottom.centre, nearDistance),
     depthStep: medianStep(z),
   };
 }
 
-/** Robust point noise from the second differences centred at the depths `keep` accepts (module comment); 0 without any. */
-function pointNoise(z: readonly number[], g: readonly number[], keep: (depth: number) => boolean): number {
-  const d2: number[] = [];
-  for (let i = 1; i + 1 < g.length; i++) if (keep(z[i])) d2.push(Math.abs(g[i + 1] - 2 * g[i] + g[i - 1]));
-  return d2.length ? (1.4826 * median(d2)) / Math.sqrt(6) : 0;
+/** Second differences (signed) needed in the well's interior before s is taken from there (module comment). */
+const MIN_WELL_NOISE_POINTS = 12;
+
+/** Signed second differences x[i+1] − 2x[i] + x[i−1] centred at the depths `keep` accepts, with their centre index. */
+function secondDifferences(z: readonly number[], g: readonly number[], keep: (depth: number) => boolean): { i: number; d: number }[] {
+  const d2: { i: number; d: number }[] = [];
+  for (let i = 1; i + 1 < g.length; i++) if (keep(z[i])) d2.push({ i, d: g[i + 1] - 2 * g[i] + g[i - 1] });
+  return d2;
+}
+
+/** Robust point noise s = 1.4826·median|Δ²x|/√6 (module comment); 0 without any second difference. */
+function robustNoise(d2: readonly { d: number }[]): number {
+  return d2.length ? (1.4826 * median(d2.map((v) => Math.abs(v.d)))) / Math.sqrt(6) : 0;
+}
+
+/**
+ * Is the noise correlated between neighbouring points? The lag-1 and lag-2 autocorrelations r₁, r₂ of the
+ * second differences (pairs of adjacent ones only), tested against −2/3 (independent noise) with Bartlett's
+ * variance 0.3025/m; lag1 is the noise's own lag-1 autocorrelation from r₁ and r₂ (module comment), or, when
+ * that inversion gives no positive variance, r₁ + 2/3.
+ */
+export function noiseCorrelation(
+  z: readonly number[],
+  g: readonly number[],
+  keep: (depth: number) => boolean,
+): { correlated: boolean; lag1: number; r1: number; m: number } {
+  // Winsorised at 2.5 robust standard deviations, so that a few large second differences from real curvature (a
+  // surface edge, a spike) do not pass for correlation.
+  const raw = secondDifferences(z, g, keep);
+  const clip = raw.length ? 2.5 * 1.4826 * median(raw.map((v) => Math.abs(v.d))) : 0;
+  const d2 = raw.map((v) => ({ i: v.i, d: Math.max(-clip, Math.min(clip, v.d)) }));
+  const m = d2.length;
+  let c0 = 0;
+  let c1 = 0;
+  let c2 = 0;
+  for (let j = 0; j < m; j++) {
+    c0 += d2[j].d ** 2;
+    if (j + 1 < m && d2[j + 1].i === d2[j].i + 1) c1 += d2[j].d * d2[j + 1].d;
+    if (j + 2 < m && d2[j + 2].i === d2[j].i + 2) c2 += d2[j].d * d2[j + 2].d;
+  }
+  if (!(c0 > 0) || m < 3) return { correlated: false, lag1: 0, r1: -2 / 3, m };
+  const r1 = c1 / c0;
+  const r2 = c2 / c0;
+  const correlated = r1 > -2 / 3 + 2 * Math.sqrt(0.3025 / m);
+  // Solve 6γ₀ − 8γ₁ + 2γ₂ = 1, −4γ₀ + 7γ₁ − 4γ₂ = r₁, γ₀ − 4γ₁ + 6γ₂ = r₂ (Cramer's rule).
+  const det3 = (a: number[][]) =>
+    a[0][0] * (a[1][1] * a[2][2] - a[1][2] * a[2][1]) - a[0][1] * (a[1][0] * a[2][2] - a[1][2] * a[2][0]) + a[0][2] * (a[1][0] * a[2][1] - a[1][1] * a[2][0]);
+  const A = [
+    [6, -8, 2],
+    [-4, 7, -4],
+    [1, -4, 6],
+  ];
+  const rhs = [1, r1, r2];
+  const col = (k: number) => A.map((row, i) => row.map((v, j) => (j === k ? rhs[i] : v)));
+  const D = det3(A);
+  const g0 = det3(col(0)) / D;
+  const g1 = det3(col(1)) / D;
+  const lag1 = g0 > 0 && Number.isFinite(g1 / g0) ? Math.max(-1, Math.min(1, g1 / g0)) : r1 + 2 / 3;
+  return { correlated, lag1, r1, m };
 }
 
 /** Trials of the Monte Carlo selection offset (JCGM 101:2008 §7.2; 4000 gives the offset to about 1 %). */

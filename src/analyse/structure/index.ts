@@ -75,7 +75,7 @@ export const VALLEY_METRICS = [
 /**
  * Why the valley figures must not be judged, or null: the measured profile departs from the
  * two-interface model the prediction is made from (a spike or a graded well the prediction leaves
- * out), or the field comes from a Hall density that parallel conduction makes no longer the well's.
+ * out), or the field comes from a Hall density that, with parallel conduction, may include the parallel channel.
  */
 export function valleyPremises(v: ValleySplitting, context: StructureContext): string | null {
   if (!v.ok) return null;
@@ -85,7 +85,7 @@ export function valleyPremises(v: ValleySplitting, context: StructureContext): s
     reasons.push(`the measured Ge profile departs from the two-interface model the prediction is made from (at ${where})`);
   }
   if (context.parallelConduction && v.fieldSource === "density") {
-    reasons.push("the field comes from the Hall density, and parallel conduction is flagged, so that density is not the well's");
+    reasons.push("the field comes from the Hall density, and parallel conduction is flagged, so that density may include the parallel channel");
   }
   return reasons.length ? reasons.join("; ") : null;
 }

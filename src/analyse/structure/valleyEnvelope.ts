@@ -68,9 +68,9 @@ export const BISECTION_FRACTION = 1e-6;
  * The bisection of tridiagonalGroundState starts from [min U, the Rayleigh quotient of the parabola
  * j·(n + 1 − j), close to the box's lowest mode] (an upper bound of E₁ by the min-max theorem; the Gershgorin bound 4ħ²/(2m h²)
  * lies some 10⁴ times higher on a 0.01 nm grid) and stops at BISECTION_FRACTION of that width: the
- * shift of the inverse iteration is then within ~10⁻⁴ of the gap to E₂ (≥ 3 meV for a well up to 20 nm; the bracket is
- * ~0.1–0.3 eV wide), so three iterations converge
- * the vector to double precision. The energy returned is the Rayleigh quotient of that vector, exact
+ * shift of the inverse iteration is then within ~10⁻⁴ of the gap to E₂ (about 2.8 meV for a 20 nm well with 0.15 eV
+ * barriers at zero field, more for thinner wells or in a field; the bracket is ~0.1–0.3 eV wide), so three iterations
+ * bring the vector's error to about 10⁻¹² (not to double precision, but far below what the figures need). The energy returned is the Rayleigh quotient of that vector, exact
  * to second order in its error (Parlett, The Symmetric Eigenvalue Problem, SIAM 1998, §4.6), summed
  * without the cancelling 2t terms: vᵀHv = Σ U_i v_i² + t·[v_1² + Σ (v_{i+1} − v_i)² + v_n²], t = ħ²/(2m h²).
  */
