@@ -6,7 +6,7 @@
  * tables of peaks, buffer figures, strain, critical thickness and profiles.
  * Every number is formatted here. Returns undefined when there is nothing to show.
  */
-import { wellGeMinText } from "./wellGeMin.ts";
+import { wellGeMinBrief, wellGeMinText } from "./wellGeMin.ts";
 import type { WaferOutcome } from "../judge/outcome.ts";
 import type { StructureAnalysis } from "../analyse/structure/index.ts";
 import type { InterfaceFit } from "../analyse/structure/depthProfile.ts";
@@ -245,7 +245,7 @@ export function structureSection(o: WaferOutcome): StructureSectionModel | undef
         d.measured === undefined
           ? "—"
           : d.quantity === WELL_GE_MIN_ROW && minProfile
-            ? wellGeMinText(minProfile)
+            ? wellGeMinBrief(minProfile)
             : d.measuredStdErr
               ? `${pm(d.measured, d.measuredStdErr)}${d.unit === "1" ? "" : ` ${d.unit}`}`
               : fmt(d.measured, d.unit),

@@ -52,3 +52,22 @@ export function wellGeMinText(r: WellGeMin): string {
       return `${measured} (standard uncertainty; consistent with 0 at k = ${K}${afterOffset}${source})`;
   }
 }
+
+/**
+ * The short form for the design-against-measured table: the measured value, its standard uncertainty and the
+ * verdict against zero in a few words; the full text (wellGeMinText) stands once, in the profile's own table.
+ */
+export function wellGeMinBrief(r: WellGeMin): string {
+  const v = formatNumber(r.wellGeMin, 3);
+  const measured = `${v} ± ${formatNumber(r.wellGeMinStdErr ?? NaN, 2)}`;
+  switch (wellGeMinAgainstZero(r)) {
+    case "no-uncertainty":
+      return `${v} (uncertainty unknown; see the profile's table)`;
+    case "above":
+      return measured;
+    case "below":
+      return `${measured} (below 0 beyond its noise at k = ${K}; see the profile's table)`;
+    case "zero":
+      return `${measured} (consistent with 0 at k = ${K})`;
+  }
+}

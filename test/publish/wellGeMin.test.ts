@@ -2,7 +2,7 @@
 // consistent with zero (−(offset + 3u) ≤ v ≤ 3u), a larger one named, and a profile without a noise estimate
 // said so. Values are made up by hand.
 import { describe, expect, it } from "vitest";
-import { wellGeMinAgainstZero, wellGeMinText } from "../../src/publish/wellGeMin.ts";
+import { wellGeMinAgainstZero, wellGeMinBrief, wellGeMinText } from "../../src/publish/wellGeMin.ts";
 
 describe("minimum Ge in the well on the page", () => {
   it("−0.0046 ± 0.0027 with a selection offset of 0.0044 is consistent with zero, not a negative Ge fraction", () => {
@@ -41,7 +41,13 @@ describe("minimum Ge in the well on the page", () => {
   });
   it("a cell never starts with 0 when the measured value is not 0", () => {
     for (const v of [-0.0087, -0.0001, 0.0003, 0.009])
-      for (const extra of [{ wellGeMinStdErr: 0.0021, wellGeMinOffset: 0.0041 }, {}]) expect(wellGeMinText({ wellGeMin: v, ...extra })).not.toMatch(/^0[ (]/);
+      for (const extra of [{ wellGeMinStdErr: 0.0021, wellGeMinOffset: 0.0041 }, {}])
+        for (const text of [wellGeMinText, wellGeMinBrief]) expect(text({ wellGeMin: v, ...extra })).not.toMatch(/^0[ (]/);
+  });
+  it("the design table's short form keeps the value, its uncertainty and the verdict against zero", () => {
+    expect(wellGeMinBrief({ wellGeMin: -0.00868, wellGeMinStdErr: 0.0019, wellGeMinOffset: 0.0037 })).toBe("-0.00868 ± 0.0019 (consistent with 0 at k = 3)");
+    expect(wellGeMinBrief({ wellGeMin: -0.02, wellGeMinStdErr: 0.0019, wellGeMinOffset: 0.0037 })).toMatch(/^-0\.0200 ± 0\.0019 \(below 0 beyond its noise at k = 3/);
+    expect(wellGeMinBrief({ wellGeMin: -0.004, wellGeMinUnknown: "correlated" })).toMatch(/^-0\.00400 \(uncertainty unknown/);
   });
   it("noise from the whole profile is said", () => {
     expect(wellGeMinText({ wellGeMin: 0.02, wellGeMinStdErr: 0.0023, geNoiseFrom: "profile" })).toMatch(/noise from the whole profile/);
