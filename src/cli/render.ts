@@ -76,10 +76,54 @@ export function renderBatches(
   return batches;
 }
 
-/** Renders one batch of drawn wafer pages (in the main thread or a worker: waferJob.ts); returns the number of pages written. */
+/** Renders the wafer pages of `folders` alone (no site-wide page) in one Eleventy run; returns the number of pages written. */
+async function renderWaferPages(
+  folders: readonly string[],
+  outDir: string,
+  scratchDir: string,
+  meta: SiteMeta,
+  extras: ReadonlyMap<string, PageExtras>,
+  fingerprints: ReadonlyMap<string, string>,
+): Promise<number> {
+  const wafers = await waferPageBatch(folders, scratchDir, extras, fingerprints);
+  return renderTemplates(path.join(PACKAGE_ROOT, "templates", "wafer.njk"), outDir, { meta, wafers });
+}
+
+/** The error of a wafer page that fails on its own, naming the wafer. */
+function pageFailed(folder: string, e: unknown): Error {
+  return new Error(`the page of wafers/${folder} could not be rendered: ${e instanceof Error ? e.message : String(e)}`, { cause: e });
+}
+
+/**
+ * After a run of several wafer pages failed (an Eleventy error need not say which page it was
+ * rendering): renders `folders` one at a time, in order, and returns an error naming the first
+ * wafer whose page fails alone; undefined when none does (the failure was the run's, not a page's).
+ * Only on a failing build: the pages written meanwhile go to the build's temporary folder, which
+ * is removed.
+ */
+async function firstFailingPage(folders: readonly string[], renderOne: (folder: string) => Promise<unknown>): Promise<Error | undefined> {
+  for (const folder of folders) {
+    try {
+      await renderOne(folder);
+    } catch (e) {
+      return pageFailed(folder, e);
+    }
+  }
+  return undefined;
+}
+
+/**
+ * Renders one batch of drawn wafer pages (in the main thread or a worker: waferJob.ts); returns the number of pages written.
+ * When the batch fails, the error names the wafer whose page fails (firstFailingPage), whichever thread renders it.
+ */
 export async function renderWaferBatch(batch: RenderBatch, outDir: string, scratchDir: string): Promise<number> {
-  const wafers = await waferPageBatch(batch.folders, scratchDir, batch.extras, batch.fingerprints);
-  return renderTemplates(path.join(PACKAGE_ROOT, "templates", "wafer.njk"), outDir, { meta: batch.meta, wafers });
+  const run = (folders: readonly string[]) => renderWaferPages(folders, outDir, scratchDir, batch.meta, batch.extras, batch.fingerprints);
+  try {
+    return await run(batch.folders);
+  } catch (e) {
+    if (batch.folders.length === 1) throw pageFailed(batch.folders[0], e);
+    throw (await firstFailingPage(batch.folders, (f) => run([f]))) ?? e;
+  }
 }
 
 /**
@@ -101,8 +145,14 @@ export async function renderSite(
   elsewhere?: (batch: RenderBatch) => Promise<number>,
 ): Promise<number> {
   const templates = path.join(PACKAGE_ROOT, "templates");
-  if (folders.length <= PAGES_PER_RENDER)
-    return renderTemplates(templates, outDir, { ...model, wafers: await waferPageBatch(folders, scratchDir, extras, fingerprints) });
+  if (folders.length <= PAGES_PER_RENDER) {
+    try {
+      return await renderTemplates(templates, outDir, { ...model, wafers: await waferPageBatch(folders, scratchDir, extras, fingerprints) });
+    } catch (e) {
+      // Name the wafer when its page is what failed; else the failure is a site-wide page's, reported as it is.
+      throw (await firstFailingPage(folders, (f) => renderWaferPages([f], outDir, scratchDir, meta, extras, fingerprints))) ?? e;
+    }
+  }
   // Half batches elsewhere: that worker's heap follows its batch, and the site-wide pages here take a while anyway.
   const batches = renderBatches(folders, meta, extras, fingerprints, elsewhere ? Math.ceil(PAGES_PER_RENDER / 2) : PAGES_PER_RENDER);
   const away = elsewhere ? Promise.all(batches.map(elsewhere)) : undefined;

@@ -52,14 +52,26 @@ export function poolSize(jobs: number): number {
 
 type Kind = "analyse" | "draw" | "render";
 
-const stoppedUnexpectedly = (code: number) => new Error(`an analysis worker stopped unexpectedly (exit code ${code})`);
+type Job = { id: number; kind: Kind; folder: string; key?: string; batch?: RenderBatch };
+
+/** What a worker was doing, for a message about it: "the worker analysing wafers/TQ-2401", "the worker rendering the wafer pages A…B". */
+function workerDoing(job: Job | undefined): string {
+  if (!job) return "a worker waiting for a job";
+  if (job.kind === "render") return `the worker rendering ${job.folder}`;
+  return `the worker ${job.kind === "draw" ? "drawing the page of" : "analysing"} wafers/${job.folder}`;
+}
+
+/** A worker stopped on its own (a library calling process.exit, the process killing the thread), naming the job it was running. */
+const stoppedUnexpectedly = (code: number, job?: Job) => new Error(`${workerDoing(job)} stopped unexpectedly (exit code ${code})`);
 type Reply = { id: number; ok: true; result: JobResult | number } | { id: number; ok: false; error: string };
 
 /** A fixed set of workers fed from one queue. */
 class Pool {
   private readonly workers: Worker[] = [];
   private readonly idle: Worker[] = [];
-  private readonly queue: { id: number; kind: Kind; folder: string; key?: string; batch?: RenderBatch }[] = [];
+  private readonly queue: Job[] = [];
+  /** The job each busy worker is running (for naming it when the worker stops or fails). */
+  private readonly running = new Map<Worker, Job>();
   private readonly waiting = new Map<number, { resolve: (r: never) => void; reject: (e: Error) => void; folder: string }>();
   private failure: Error | undefined;
   private closing = false;
@@ -88,6 +100,7 @@ class Pool {
     this.workers.push(w);
     this.idle.push(w);
     w.on("message", (m: Reply) => {
+      this.running.delete(w);
       const job = this.waiting.get(m.id);
       this.waiting.delete(m.id);
       if (m.ok) job?.resolve(m.result as never);
@@ -95,10 +108,11 @@ class Pool {
       this.idle.push(w);
       this.pump();
     });
-    w.on("error", (e) => this.fail(e));
+    // An error the worker could not catch (out of memory, an exception outside a job): named with the job it was running.
+    w.on("error", (e) => this.fail(new Error(`${workerDoing(this.running.get(w))} failed: ${e.message}`, { cause: e })));
     // A worker that stops on its own (a library calling process.exit) would leave its job waiting forever.
     w.on("exit", (code) => {
-      if (!this.closing) this.fail(stoppedUnexpectedly(code));
+      if (!this.closing) this.fail(stoppedUnexpectedly(code, this.running.get(w)));
     });
   }
 
@@ -115,7 +129,7 @@ class Pool {
     return this.send({ kind: "render", folder: `the wafer pages ${batch.folders[0]}…${batch.folders.at(-1)}`, batch });
   }
 
-  private send<R>(job: { kind: Kind; folder: string; key?: string; batch?: RenderBatch }): Promise<R> {
+  private send<R>(job: Omit<Job, "id">): Promise<R> {
     if (this.failure) return Promise.reject(this.failure);
     const id = this.nextId++;
     return new Promise<R>((resolve, reject) => {
@@ -126,7 +140,12 @@ class Pool {
   }
 
   private pump(): void {
-    while (this.idle.length > 0 && this.queue.length > 0) this.idle.pop()!.postMessage(this.queue.shift());
+    while (this.idle.length > 0 && this.queue.length > 0) {
+      const w = this.idle.pop()!;
+      const job = this.queue.shift()!;
+      this.running.set(w, job);
+      w.postMessage(job);
+    }
   }
 
   private fail(e: Error): void {
@@ -310,19 +329,21 @@ export class WaferJobs {
 
   /**
    * Ends the pool (its workers' heaps hold what their analyses left) and,
-   * when it was running (a cold or re-drawing build), starts one fresh worker
-   * to render batches of drawn wafer pages while this thread renders the
-   * site-wide pages (render.ts renderSite). One, not the pool's size: the
-   * main thread is the other renderer, and each worker rendering adds its own
-   * heap to the build's peak memory. Undefined when there was no pool: the
-   * batches are then rendered in this thread, as are `pages` of at most
-   * PAGES_PER_RENDER. `close` ends the worker.
+   * when there are more than PAGES_PER_RENDER `pages` to render, starts one
+   * fresh worker to render batches of drawn wafer pages while this thread
+   * renders the site-wide pages (render.ts renderSite), whatever the analysis
+   * did (a build whose pages all come from the cache, such as the assembly of
+   * --shard builds, renders as many pages as a cold one). One, not the pool's
+   * size: the main thread is the other renderer, and each worker rendering
+   * adds its own heap to the build's peak memory. Undefined when workers are
+   * not used at all (one core, WAFERBOOK_WORKERS=0): the batches are then
+   * rendered in this thread, as are `pages` of at most PAGES_PER_RENDER.
+   * `close` ends the worker.
    */
   async renderer(pages: number): Promise<((batch: RenderBatch) => Promise<number>) | undefined> {
-    const used = this.pool !== undefined && this.pool.size > 0;
     await this.close();
     // A few pages go with the site-wide pages in one run (renderSite): no worker is worth starting.
-    if (!used || pages <= PAGES_PER_RENDER) return undefined;
+    if (pages <= PAGES_PER_RENDER || poolSize(Number.MAX_SAFE_INTEGER) === 0) return undefined;
     const pool = new Pool(1, this.ctx, undefined);
     this.pool = pool;
     return (batch) => pool.render(batch);

@@ -15,9 +15,10 @@
  * results.csv columns, in this order (docs/formats.md §7):
  *   wafer, run, grown, reactor, grade, verdict, decision, decision_by, decision_date,
  *   decision_reason, decision_conflict, then per finding finding_<key> (its verdict: pass when
- *   checked and not raised, else the consequence in force), then per metric <key> [unit],
- *   <key>_stderr [unit], <key>_min [unit], <key>_max [unit], <key>_verdict (and <key>_not_judged, the analysis's
- *   reason a measured value is shown but not judged, for a metric some wafer does not judge for that reason), then, when any wafer records growth
+ *   checked and not raised, else the consequence in force), then not_judged (always there, so the
+ *   columns after it do not move with the data: "<key>: <reason>; <key>: <reason>" for each metric the
+ *   wafer measures but does not judge because a premise of the analysis fails, empty when none), then
+ *   per metric <key> [unit], <key>_stderr [unit], <key>_min [unit], <key>_max [unit], <key>_verdict, then, when any wafer records growth
  *   conditions, growth_recipe and one column per growth condition any wafer records (<key> [unit], src/validate/growth.ts growthVariables).
  */
 import { METRICS } from "../model/metrics.ts";
@@ -62,18 +63,23 @@ export function exportedMetric(o: WaferOutcome, key: string, stdErrs: Record<str
   return { value: j?.value, stderr: stdErrs[key], min: j?.target?.min, max: j?.target?.max, verdict: j?.verdict ?? "", notJudged: j?.notJudged ?? "" };
 }
 
-/** Keys of the metrics that some wafer measured but does not judge because a premise of the analysis fails (MetricJudgement.notJudged). */
-export function notJudgedKeys(outcomes: readonly WaferOutcome[]): Set<string> {
-  return new Set(outcomes.flatMap((o) => o.judgement.metrics.filter((j) => j.notJudged).map((j) => j.key)));
+/**
+ * The not_judged cell of a wafer's row: "<key>: <reason>" for each metric it measures but does not
+ * judge because a premise of the analysis fails (MetricJudgement.notJudged), in the order of the
+ * metric columns, joined by "; "; empty when it judges every metric it measures. One cell whatever
+ * the data, so a tool reading columns by position reads the same columns on every site.
+ */
+export function notJudgedCell(o: WaferOutcome, metrics: readonly { key: string }[]): string {
+  const reasons = new Map(o.judgement.metrics.filter((j) => j.notJudged).map((j) => [j.key, j.notJudged!]));
+  return metrics
+    .filter((m) => reasons.has(m.key))
+    .map((m) => `${m.key}: ${reasons.get(m.key)}`)
+    .join("; ");
 }
 
-/**
- * The per-metric column names, in order, for one metric (see the header comment); `notJudged`
- * adds <key>_not_judged, for a metric some wafer records but does not judge.
- */
-export function metricColumns(m: { key: string; unit: string }, notJudged = false): string[] {
-  const cols = [`${m.key} [${m.unit}]`, `${m.key}_stderr [${m.unit}]`, `${m.key}_min [${m.unit}]`, `${m.key}_max [${m.unit}]`, `${m.key}_verdict`];
-  return notJudged ? [...cols, `${m.key}_not_judged`] : cols;
+/** The per-metric column names, in order, for one metric (see the header comment). */
+export function metricColumns(m: { key: string; unit: string }): string[] {
+  return [`${m.key} [${m.unit}]`, `${m.key}_stderr [${m.unit}]`, `${m.key}_min [${m.unit}]`, `${m.key}_max [${m.unit}]`, `${m.key}_verdict`];
 }
 
 export const DECISION_COLUMNS = ["decision", "decision_by", "decision_date", "decision_reason", "decision_conflict"];
@@ -94,8 +100,6 @@ function decisionCells(o: WaferOutcome): string[] {
 
 export function resultsCsv(outcomes: readonly WaferOutcome[], runs: ReadonlyMap<string, RunNotes> = new Map()): string {
   const metrics = exportedMetrics(outcomes);
-  // A metric's <key>_not_judged column only when some wafer does not judge it: other labs keep their columns.
-  const unjudged = notJudgedKeys(outcomes);
   const growth = growthColumns(outcomes.map((o) => o.record?.growth));
   // Growth columns only when some wafer records growth conditions: a lab without them keeps its columns.
   const anyGrowth = outcomes.some((o) => o.record?.growth);
@@ -108,7 +112,8 @@ export function resultsCsv(outcomes: readonly WaferOutcome[], runs: ReadonlyMap<
     "verdict",
     ...DECISION_COLUMNS,
     ...FINDING_COLUMNS,
-    ...metrics.flatMap((m) => metricColumns(m, unjudged.has(m.key))),
+    "not_judged",
+    ...metrics.flatMap((m) => metricColumns(m)),
     ...(anyGrowth ? ["growth_recipe", ...growth.map((g) => `${g.key} [${g.unit}]`)] : []),
   ];
   const rows = outcomes.map((o) => {
@@ -123,9 +128,10 @@ export function resultsCsv(outcomes: readonly WaferOutcome[], runs: ReadonlyMap<
       o.judgement.verdict,
       ...decisionCells(o),
       ...findingCells(o),
+      notJudgedCell(o, metrics),
       ...metrics.flatMap((m) => {
         const x = exportedMetric(o, m.key, se);
-        return unjudged.has(m.key) ? [x.value, x.stderr, x.min, x.max, x.verdict, x.notJudged] : [x.value, x.stderr, x.min, x.max, x.verdict];
+        return [x.value, x.stderr, x.min, x.max, x.verdict];
       }),
       ...(anyGrowth ? [o.record?.growth?.recipe ?? "", ...growth.map((g) => gv[g.key] ?? null)] : []),
     ];

@@ -125,7 +125,9 @@ function block(r: ImageResult, i: number, wafer: string, files: SectionFile[], r
     numbers.push([`Expected for a coherent well (Ge ${r.expected.wellGe} on relaxed Ge ${r.expected.barrierGe})`, `${r.expected.outOfPlane_pct.toFixed(3)} %`]);
   else skipped.push(`Expected strain: ${r.expected.reason}.`);
   const g = r.gpa;
-  if (g.ok) {
+  // A map without pixels has no picture (renderStrainMap refuses it): the page says so instead of showing an empty image.
+  if (g.ok && !(m.width > 0 && m.height > 0)) skipped.push(`Strain maps: no map, the image has no pixels (${m.width} × ${m.height}).`);
+  else if (g.ok) {
     numbers.push(["GPA resolution (mask)", nm(g.resolution_px * m.pixelSize_m, 2)]);
     const lim = Math.max(0.005, ...(c.ok ? [c.inPlaneMismatch_pct.value, c.outOfPlaneStrain_pct.value].map((v) => (1.5 * Math.abs(v)) / 100) : []));
     const interfaces = p.ok ? { growthAxis: m.growthAxis, tilt_deg: p.tilt_deg, positions_px: [p.well.bottom_px, p.well.top_px] } : undefined;

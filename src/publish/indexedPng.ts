@@ -37,6 +37,13 @@ function chunk(type: string, data: Buffer): Buffer {
  */
 export function encodeIndexedPng(indices: Uint8Array, width: number, height: number, palette: Uint8Array, alpha?: Uint8Array, level = PAGE_ZLIB_LEVEL): Buffer {
   const entries = palette.length / 3;
+  // PNG specification (ISO/IEC 15948) §11.2.2: width and height are 1 to 2^31 − 1; zero is invalid.
+  for (const [name, n] of [
+    ["width", width],
+    ["height", height],
+  ] as const)
+    if (!Number.isInteger(n) || n < 1 || n > 2 ** 31 - 1)
+      throw new RangeError(`encodeIndexedPng: a PNG's ${name} must be a whole number from 1 to 2^31 − 1 (PNG specification, IHDR), found ${n}`);
   if (indices.length !== width * height) throw new RangeError("encodeIndexedPng: index count does not match width×height");
   if (!Number.isInteger(entries) || entries < 1 || entries > 256)
     throw new RangeError(`encodeIndexedPng: palette of ${palette.length} bytes is not 1–256 rgb triples`);

@@ -114,8 +114,12 @@ export interface StrainMapPicture extends PngPicture {
   colourBar: [number, number];
 }
 
-/** Renders a strain map as a PNG with colour bar and interface lines; see the module comment. */
+/**
+ * Renders a strain map as a PNG with colour bar and interface lines; see the module comment.
+ * A map without pixels (width or height 0) has no picture: refused (the page says there is no map: imagesSection.ts).
+ */
 export function renderStrainMap(map: ArrayLike<number>, width: number, height: number, options: StrainMapImageOptions = {}): StrainMapPicture {
+  if (!(width > 0 && height > 0)) throw new RangeError(`renderStrainMap: the map has no pixels (${width} × ${height}), so there is no picture to draw`);
   const small = downsample(map, width, height, options.maxSide);
   const limit = options.limit ?? Math.max(1e-4, absQuantile(map, 0.99));
   const bar = options.colourBarHeight ?? Math.max(6, Math.round(small.height / 16));

@@ -52,6 +52,13 @@ export function acceptedUnits(dim: Dimension): string {
     .join(", ");
 }
 
+/** A number literal whose digits are not all zero but which reads as 0 (below about 5e-324, the smallest number a double holds). */
+function underflows(literal: string, value: number): boolean {
+  return value === 0 && /[1-9]/.test(literal.replace(/[eE].*$/, ""));
+}
+
+const TOO_SMALL = "below the smallest number (about 5e-324), so it would read as 0; write 0 if zero is meant, or the value in a smaller unit";
+
 /** "0.35 V" → { value: 0.35, unit: "V" }; returns undefined when the text is not number + unit. */
 export function splitValueUnit(text: string): { value: number; unit: string } | undefined {
   if (unitTextTooLong(text)) return undefined;
@@ -84,6 +91,7 @@ export function parseQuantity(text: unknown, target: string): QuantityResult {
     if (!m) return { ok: false, expected: target === "%" ? 'a percentage such as "5 %"' : "a plain number", found: JSON.stringify(t) };
     const v = Number(m[1]);
     if (!Number.isFinite(v)) return { ok: false, expected, found: `${JSON.stringify(t)}, beyond the largest number (about 1.8e308)` };
+    if (underflows(m[1], v)) return { ok: false, expected, found: `${JSON.stringify(t)}, ${TOO_SMALL}` };
     if (target === "%") return { ok: true, value: m[2] ? v : v * 100 };
     return { ok: true, value: m[2] ? v / 100 : v };
   }
@@ -100,6 +108,7 @@ function quantityWithUnit(t: string, target: string, expected: string): Quantity
   if (!m) return { ok: false, expected, found: `${JSON.stringify(t)}, which is not a known quantity (a number first, then its unit)` };
   const value = Number(m[1]);
   if (!Number.isFinite(value)) return { ok: false, expected, found: `${JSON.stringify(t)}, beyond the largest number (about 1.8e308)` };
+  if (underflows(m[1], value)) return { ok: false, expected, found: `${JSON.stringify(t)}, ${TOO_SMALL}` };
   if (!m[2]) return { ok: false, expected, found: `${JSON.stringify(t)}, a number without its unit` };
   const from = readUnit(m[2]);
   if (!from.ok) {

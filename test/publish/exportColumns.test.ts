@@ -35,7 +35,7 @@ describe("results.csv columns", () => {
   const header = rows[0];
   const col = (row: string[], name: string) => row[header.indexOf(name)];
 
-  it("names five columns per metric, consistently, after the wafer, decision and finding columns", () => {
+  it("names five columns per metric, consistently, after the wafer, decision, finding and not_judged columns", () => {
     expect(header.slice(0, 11)).toEqual([
       "wafer",
       "run",
@@ -59,7 +59,9 @@ describe("results.csv columns", () => {
       "finding_fit_undetermined",
       "finding_coarse_profile",
     ]);
-    const rest = header.filter((h) => !h.startsWith("finding_"));
+    // Then one not_judged column, always there (docs/formats.md §7), before the metrics.
+    expect(header[11 + findings.length]).toBe("not_judged");
+    const rest = header.filter((h) => !h.startsWith("finding_") && h !== "not_judged");
     const i = rest.indexOf("peak_mobility [cm^2/(V s)]");
     expect(rest.slice(i, i + 5)).toEqual([
       "peak_mobility [cm^2/(V s)]",

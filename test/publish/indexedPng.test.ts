@@ -32,4 +32,11 @@ describe("encodeIndexedPng", () => {
     expect(() => encodeIndexedPng(Uint8Array.from([4]), 1, 1, palette)).toThrow(RangeError);
     expect(() => encodeIndexedPng(Uint8Array.from([0]), 1, 1, Uint8Array.from([1, 2]))).toThrow(RangeError);
   });
+
+  it("refuses a width or height of 0 (the PNG specification allows 1 to 2^31 − 1), naming the size found", () => {
+    const empty = new Uint8Array(0);
+    expect(() => encodeIndexedPng(empty, 0, 8, palette)).toThrow(/width must be a whole number from 1 to 2\^31 − 1.*found 0/);
+    expect(() => encodeIndexedPng(empty, 5, 0, palette)).toThrow(/height must be .*found 0/);
+    expect(() => encodeIndexedPng(empty, 0, 0, palette)).toThrow(RangeError);
+  });
 });

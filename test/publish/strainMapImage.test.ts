@@ -21,6 +21,10 @@ describe("renderStrainMap / renderMicrograph", () => {
     px(0).forEach((v, k) => expect(Math.abs(v - [0x05, 0x30, 0x61][k])).toBeLessThanOrEqual(2));
     px(W - 1).forEach((v, k) => expect(Math.abs(v - [0x67, 0x00, 0x1f][k])).toBeLessThanOrEqual(6));
   });
+  it("a map without pixels has no picture: refused, not drawn as a colour bar alone", () => {
+    expect(() => renderStrainMap(new Float32Array(0), 0, 0)).toThrow(/no pixels \(0 × 0\)/);
+    expect(() => renderStrainMap(new Float32Array(0), 0, 5, { maxSide: 64 })).toThrow(RangeError);
+  });
   it("downsamples the page copy to the requested long side and draws interfaces", () => {
     const pic = renderStrainMap(map, W, H, { maxSide: 64, interfaces: { growthAxis: "up", tilt_deg: 0, positions_px: [0] } });
     const back = PNG.sync.read(pic.png);

@@ -94,3 +94,23 @@ describe("brackets and powers", () => {
     expect(readUnit("pm^12").ok).toBe(true);
   });
 });
+
+describe("a nonzero number too small for a double is refused, not read as 0", () => {
+  it("1e-400 (below 5e-324, the smallest double) with a unit, a percentage or a plain number", () => {
+    for (const [text, target] of [
+      ["1e-400 sccm", "sccm"],
+      ["0.5e-330 V", "V"],
+      ["1e-400 %", "%"],
+      ["1e-400", "1"],
+    ])
+      expect(refused(text, target)).toBe(
+        `${JSON.stringify(text)}, below the smallest number (about 5e-324), so it would read as 0; write 0 if zero is meant, or the value in a smaller unit`,
+      );
+    // Zero written in any form is still zero, and a small number a double holds is read.
+    for (const zero of ["0 sccm", "0.000e-400 sccm", "-0e5 sccm"]) {
+      const r = parseQuantity(zero, "sccm");
+      expect(r.ok && Math.abs(r.value)).toBe(0);
+    }
+    expect(parseQuantity("1e-300 V", "V")).toEqual({ ok: true, value: 1e-300 });
+  });
+});

@@ -23,6 +23,7 @@ import { growthCoordinate } from "./geometry.ts";
 import type { GrowthAxis, PixelRect, ImageInputs, MicrographInput } from "../../model/imageInputs.ts";
 import { wellCoherence, type WellCoherenceResult } from "./wellCoherence.ts";
 import { zContrastProfile, type ZContrastResult } from "./zContrastProfile.ts";
+import { withPeakSearchMemo } from "./latticeSpacing.ts";
 import { degToRad } from "../numeric/angle.ts";
 
 export interface ImageResult {
@@ -84,8 +85,15 @@ function tiltFinding(p: ZContrastResult): string | null {
     : `The interfaces run parallel to the image axis (tilt ${t}°, within the 1° tolerance).`;
 }
 
-/** Analyses one micrograph; see the module comment. */
+/**
+ * Analyses one micrograph; see the module comment. Its Bragg-peak searches share one memo
+ * (latticeSpacing.ts withPeakSearchMemo), dropped when this returns.
+ */
 export function analyseMicrograph(m: MicrographInput, stack: Layer[]): ImageResult {
+  return withPeakSearchMemo(() => analyseOne(m, stack));
+}
+
+function analyseOne(m: MicrographInput, stack: Layer[]): ImageResult {
   const { width, height, pixels, growthAxis } = m;
   const profile = zContrastProfile(pixels, width, height, { pixelSize_m: m.pixelSize_m, growthAxis });
   const widthsSkipped =

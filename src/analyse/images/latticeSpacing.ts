@@ -58,13 +58,39 @@ interface PeakCandidates {
   bandMedian: number;
 }
 
+type PeakSearch = { pixels: Float64Array; width: number; height: number; fMin: number; fMax: number; result: PeakCandidates };
+
 /**
  * The last image searched, with its band and candidates: the Z-contrast profile and GPA of one
  * micrograph both search the same power-of-two image (cropped or padded, the same pixels when the
  * sides are powers of two), so the second search reuses the first's windowed transform. The
  * pixels are compared value by value; any difference recomputes.
+ *
+ * Kept only inside {@link withPeakSearchMemo} (one micrograph's analysis: images/index.ts
+ * analyseMicrograph): the copy is 8 bytes a pixel (134 MB for a 4096² micrograph), so it must
+ * not outlive the micrograph. `undefined` outside such a scope: every search computes afresh and
+ * nothing is kept; `null` inside one before its first search.
  */
-let lastSearch: { pixels: Float64Array; width: number; height: number; fMin: number; fMax: number; result: PeakCandidates } | null = null;
+let memo: PeakSearch | null | undefined;
+
+/**
+ * Runs `analyse` (synchronous) with a peak-search memo of its own: searches of the same image
+ * inside it reuse one transform; the memo is dropped when `analyse` returns or throws.
+ */
+export function withPeakSearchMemo<T>(analyse: () => T): T {
+  const outer = memo;
+  memo = null;
+  try {
+    return analyse();
+  } finally {
+    memo = outer;
+  }
+}
+
+/** Whether a peak-search memo holds an image now (for tests: none outside withPeakSearchMemo). */
+export function peakSearchMemoHeld(): boolean {
+  return memo != null;
+}
 
 function sameImage(a: Float64Array, b: ArrayLike<number>): boolean {
   if (a.length !== b.length) return false;
@@ -73,12 +99,12 @@ function sameImage(a: Float64Array, b: ArrayLike<number>): boolean {
 }
 
 function peakCandidates(pixels: ArrayLike<number>, width: number, height: number, fMin: number, fMax: number): PeakCandidates {
-  const last = lastSearch;
+  const last = memo;
   if (last && last.width === width && last.height === height && last.fMin === fMin && last.fMax === fMax && sameImage(last.pixels, pixels)) {
     return last.result;
   }
   const result = searchPeaks(pixels, width, height, fMin, fMax);
-  lastSearch = { pixels: Float64Array.from(pixels), width, height, fMin, fMax, result };
+  if (memo !== undefined) memo = { pixels: Float64Array.from(pixels), width, height, fMin, fMax, result };
   return result;
 }
 

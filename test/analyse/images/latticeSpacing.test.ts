@@ -1,5 +1,7 @@
 import { describe, expect, it } from "vitest";
-import { latticeSpacing, findBraggPeaks } from "../../../src/analyse/images/latticeSpacing.ts";
+import v8 from "node:v8";
+import { runInNewContext } from "node:vm";
+import { latticeSpacing, findBraggPeaks, peakSearchMemoHeld, withPeakSearchMemo } from "../../../src/analyse/images/latticeSpacing.ts";
 import { cropToPowerOfTwo, fft2dReal, ifft2d, padToPowerOfTwo } from "../../../src/analyse/images/fft2d.ts";
 import { fftOfSize, nextPowerOfTwo } from "../../../src/analyse/numeric/fft.ts";
 import { syntheticMicrograph } from "../../../src/synth/micrograph.ts";
@@ -132,5 +134,47 @@ describe("latticeSpacing", () => {
     const nan = new Float32Array(64 * 64).fill(Number.NaN);
     expect(latticeSpacing(nan, 64, 64)).toMatchObject({ ok: false, reason: expect.stringMatching(/non-finite/) });
     expect(latticeSpacing(new Float32Array(60 * 64), 60, 64)).toMatchObject({ ok: false });
+  });
+});
+
+describe("the Bragg-peak search memo lasts one micrograph's analysis", () => {
+  // ArrayBuffer bytes still reachable after a full collection (gc exposed at run time through V8's flag).
+  function heldArrayBytes(): number {
+    v8.setFlagsFromString("--expose-gc");
+    const gc = runInNewContext("gc") as () => void;
+    gc();
+    gc();
+    return process.memoryUsage().arrayBuffers;
+  }
+
+  it("a search outside withPeakSearchMemo keeps no copy of the image; inside, the same peaks, dropped at the end", () => {
+    const w = 1024;
+    const h = 512;
+    // A two-spot lattice written out here (periods 8 and 4 pixels), no noise: its peaks are the same on every search.
+    const before = heldArrayBytes();
+    let pixels: Float64Array | null = Float64Array.from(
+      { length: w * h },
+      (_, i) => Math.cos((2 * Math.PI * (i % w)) / 8) + Math.cos((2 * Math.PI * Math.floor(i / w)) / 4),
+    );
+    const free = findBraggPeaks(pixels, w, h, { count: 4 });
+    const scoped = withPeakSearchMemo(() => {
+      const first = findBraggPeaks(pixels!, w, h, { count: 4 });
+      expect(peakSearchMemoHeld()).toBe(true);
+      // The second search of the same pixels (as the Z-contrast profile and GPA do) gives the same peaks.
+      expect(findBraggPeaks(pixels!, w, h, { count: 4 })).toEqual(first);
+      return first;
+    });
+    expect(scoped).toEqual(free);
+    // The two strongest spots are the two lattice periods, 1/8 along x and 1/4 along y (cycles per pixel).
+    expect(
+      free
+        .slice(0, 2)
+        .map((p) => `${Math.abs(p.g.x)},${Math.abs(p.g.y)}`)
+        .sort(),
+    ).toEqual(["0,0.25", "0.125,0"]);
+    expect(peakSearchMemoHeld()).toBe(false);
+    pixels = null;
+    // The image (4 MB) and any copy of it (a memo copies at 8 bytes a pixel: 4 MB) are gone: well under one image is left.
+    expect(heldArrayBytes() - before).toBeLessThan(2 * 1024 * 1024);
   });
 });
