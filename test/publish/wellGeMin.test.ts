@@ -46,7 +46,9 @@ describe("minimum Ge in the well on the page", () => {
   });
   it("the design table's short form keeps the value, its uncertainty and the verdict against zero", () => {
     expect(wellGeMinBrief({ wellGeMin: -0.00868, wellGeMinStdErr: 0.0019, wellGeMinOffset: 0.0037 })).toBe("-0.00868 ± 0.0019 (consistent with 0 at k = 3)");
-    expect(wellGeMinBrief({ wellGeMin: -0.02, wellGeMinStdErr: 0.0019, wellGeMinOffset: 0.0037 })).toMatch(/^-0\.0200 ± 0\.0019 \(below 0 beyond its noise at k = 3/);
+    expect(wellGeMinBrief({ wellGeMin: -0.02, wellGeMinStdErr: 0.0019, wellGeMinOffset: 0.0037 })).toMatch(
+      /^-0\.0200 ± 0\.0019 \(below 0 beyond its noise at k = 3/,
+    );
     expect(wellGeMinBrief({ wellGeMin: -0.004, wellGeMinUnknown: "correlated" })).toMatch(/^-0\.00400 \(uncertainty unknown/);
   });
   it("noise from the whole profile is said", () => {
