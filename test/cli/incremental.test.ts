@@ -66,13 +66,16 @@ const at = (data: string, out: string, fresh = false) => ({
 
 describe("incremental builds reuse unchanged wafer pages and match a fresh build", () => {
   /**
-   * One copy of the demo wafers (no git history), analysed once from its raw files into a cache of its own, every
+   * One copy of the demo wafers (one commit), analysed once from its raw files into a cache of its own, every
    * page drawn and rendered in one Eleventy run; read, never changed, by the batches test and the hand-edit test.
    */
   let once: Promise<{ data: string; one: string; cache: string; first: Awaited<ReturnType<typeof build>> }> | undefined;
   const analysedOnce = () =>
     (once ??= (async () => {
       const data = await demoCopy("data-once");
+      // A repository of its own: the footer's data commit is then this folder's, never that of a repository some
+      // other process may have made above the temporary folder (two builds compared here run minutes apart).
+      await commitAll(data, "Demo data", { init: true });
       const one = path.join(tempDir(), "site-one-run");
       const cache = path.join(tempDir(), "once-cache");
       return { data, one, cache, first: await build({ ...at(data, one, true), cache }, io) };
