@@ -2,29 +2,19 @@
 // AR(1) process with ρ = 0.6, 10-point overlapping atom-probe-like bins): a flat pure-Si well must not be called
 // "below 0" in more than about 5 % of realisations — the uncertainty is either right or withheld with the reason.
 // And noise that grows with the Ge level (counting noise ∝ √(x(1−x))): s comes from the well's interior.
-// The profiles are generated here, independently of src/synth and src/analyse: a Park–Miller linear
-// congruential generator (multiplier 48271), Box–Muller normals, logistic interfaces.
+// The profiles are written out here, independently of src/analyse: logistic interfaces, Box–Muller normals from the
+// tests' seeded generator (test/helpers/random.ts).
 import { describe, expect, it } from "vitest";
 import { analyseDepthProfile } from "../../../src/analyse/structure/depthProfile.ts";
 import { wellGeMinAgainstZero, wellGeMinText } from "../../../src/publish/wellGeMin.ts";
+import { gaussian } from "../../helpers/random.ts";
 
-function lcg(seed: number) {
-  let x = seed % 2147483647 || 1;
-  return () => {
-    x = (x * 48271) % 2147483647;
-    return x / 2147483647;
-  };
-}
-function normals(seed: number) {
-  const u = lcg(seed);
-  return () => Math.sqrt(-2 * Math.log(u())) * Math.cos(2 * Math.PI * u());
-}
 const L = (d: number, c: number, tau: number) => 1 / (1 + Math.exp(-(d - c) / tau));
 
 type Kind = "white" | "moving average 3" | "AR(1) 0.6" | "10-point bins";
 /** n noise values of marginal standard deviation 1 of the given kind. */
 function noise(kind: Kind, n: number, seed: number): number[] {
-  const e = normals(seed);
+  const e = gaussian(seed);
   const w = Array.from({ length: n + 20 }, e);
   const out: number[] = [];
   let ar = e() / Math.sqrt(1 - 0.36);

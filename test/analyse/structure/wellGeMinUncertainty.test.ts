@@ -1,28 +1,17 @@
 // The minimum Ge fraction in the well carries a standard uncertainty from the profile's noise (GUM law of
 // propagation, JCGM 100 §5.1.2) and a selection offset (the minimum of many noisy means lies below the true
 // level; JCGM 101 Monte Carlo): both are checked here against the spread and mean of the minimum over many
-// noise realisations of one true profile. The profiles are generated here, independently of src/synth and
-// src/analyse: a Park–Miller-style linear congruential generator, Box–Muller normals, logistic interfaces.
+// noise realisations of one true profile. The profiles are written out here, independently of
+// src/analyse: logistic interfaces, Box–Muller normals from the tests' seeded generator (test/helpers/random.ts).
 import { describe, expect, it } from "vitest";
 import { analyseDepthProfile } from "../../../src/analyse/structure/depthProfile.ts";
+import { gaussian } from "../../helpers/random.ts";
 
-/** Uniform (0, 1) from a 31-bit LCG (Park & Miller 1988 minimal standard, multiplier 48271). */
-function lcg(seed: number) {
-  let x = seed % 2147483647 || 1;
-  return () => {
-    x = (x * 48271) % 2147483647;
-    return x / 2147483647;
-  };
-}
-function normals(seed: number) {
-  const u = lcg(seed);
-  return () => Math.sqrt(-2 * Math.log(u())) * Math.cos(2 * Math.PI * u());
-}
 const L = (d: number, c: number, tau: number) => 1 / (1 + Math.exp(-(d - c) / tau));
 
 /** Barrier 0.3 from 2 nm to 32 nm, well to 41 nm, then the buffer; wellGe(d) the true Ge in the well. */
 function profile(seed: number, noise: number, wellGe: (d: number) => number) {
-  const g = normals(seed);
+  const g = gaussian(seed);
   const depth: number[] = [];
   const ge: number[] = [];
   for (let i = 0; i <= 400; i++) {
