@@ -92,9 +92,29 @@ export function modelGradient(p: ArrayLike<number>, L: ModelLayout, i: number, o
   const s1 = Math.sin(th);
   const c2 = Math.cos(2 * th);
   const s2 = Math.sin(2 * th);
+  writeGradient(p, k, b, t, background(p, L, i), e1, e2, c1, s1, c2, s2, out);
+}
+
+/**
+ * The gradient's entries from the point's pieces (field b, scaled field t, background bg, damping factors e1 and e2,
+ * cos/sin of Θ and 2Θ): shared by modelGradient and the remembering evaluator, so both do the same arithmetic.
+ */
+function writeGradient(
+  p: ArrayLike<number>,
+  k: number,
+  b: number,
+  t: number,
+  bg: number,
+  e1: number,
+  e2: number,
+  c1: number,
+  s1: number,
+  c2: number,
+  s2: number,
+  out: Float64Array,
+): void {
   const a1 = p[k + 1];
   const a2 = p[k + 5];
-  const bg = background(p, L, i);
   const osc = 1 + a1 * e1 * c1 + a2 * e2 * c2;
   let tj = 1;
   for (let j = 0; j <= k; j++) {
@@ -195,24 +215,7 @@ export function modelEvaluator(L: ModelLayout): ModelEvaluator {
     const d = dm[i];
     const e1 = 4 * thermal[i] * d;
     const e2 = 4 * thermal2[i] * d * d;
-    const c1 = c1m[i];
-    const s1 = s1m[i];
-    const c2 = c2m[i];
-    const s2 = s2m[i];
-    const a1 = p[k + 1];
-    const a2 = p[k + 5];
-    const osc = 1 + a1 * e1 * c1 + a2 * e2 * c2;
-    let tj = 1;
-    for (let j = 0; j <= k; j++) {
-      out[j] = tj * osc;
-      tj *= t;
-    }
-    out[k + 1] = bg * e1 * c1;
-    out[k + 2] = (-bg * (a1 * e1 * c1 + 2 * a2 * e2 * c2)) / b;
-    const dTheta = -bg * (a1 * e1 * s1 + 2 * a2 * e2 * s2);
-    out[k + 3] = (dTheta * 2 * Math.PI) / b;
-    out[k + 4] = dTheta;
-    out[k + 5] = bg * e2 * c2;
+    writeGradient(p, k, b, t, bg, e1, e2, c1m[i], s1m[i], c2m[i], s2m[i], out);
   };
   return {
     value(p, i) {
